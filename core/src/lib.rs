@@ -1,0 +1,22 @@
+//! # Standfast core
+//!
+//! Static overturning and sliding margins, drive torque loads and a staged
+//! park-and-alarm guard for telescope rigs left standing outdoors.
+//!
+//! `no_std`, no allocation, `f32`, panic-free. SI units inside; every name that
+//! carries a quantity says its unit (`_m`, `_kg`, `_n`, `_nm`, `_mps`, `_rad`,
+//! `_pa`). Positions are in the rig frame described in [`frame`].
+//!
+//! **Caution.** Every number here is an estimate from a simplified static model.
+//! Secure the rig anyway, stay inside the mount maker's limits and defer to local
+//! codes and licensed engineers.
+#![no_std]
+#![cfg_attr(docsrs, feature(doc_cfg))]
+
+pub mod error;
+pub mod frame;
+pub mod math;
+
+pub use error::{Error, ErrorKind};
+pub use frame::Tilt;
+pub use math::Vec3;
