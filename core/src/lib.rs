@@ -13,9 +13,12 @@
 #![no_std]
 #![cfg_attr(docsrs, feature(doc_cfg))]
 
+pub mod air;
 pub mod error;
 pub mod frame;
 pub mod math;
+pub mod shape;
+pub mod support;
 
 pub use error::{Error, ErrorKind};
 pub use frame::Tilt;

@@ -1,0 +1,241 @@
+//! Wind-exposed shapes, their projected areas and drag coefficients.
+//!
+//! The drag force on a shape is F = q·Σ(C_d·A) along the wind, applied at the
+//! shape's centre of pressure (its geometric centre here). Lift and the
+//! shielding of one part by another are neglected; both make the estimate
+//! conservative for the bluff parts of a telescope rig.
+//!
+//! A cylinder is split by the cross-flow principle (common practice, no
+//! source): the broadside part of its projected area, d·L·sinψ, takes the
+//! cross-flow coefficient and the end part, (π/4)·d²·|cosψ|, the axial-flow
+//! coefficient, where ψ is the angle between the axis and the wind.
+//!
+//! Default drag coefficients come from Hoerner, *Fluid-Dynamic Drag* (1965),
+//! as reproduced in the *Aeronautical Engineer's Data Book*, Fig. 5.13b:
+//! finite circular cylinders at subcritical Reynolds number, free ends.
+
+use crate::error::Error;
+use crate::math::{self, Vec3};
+
+/// Cross-flow drag coefficient of a finite circular cylinder with free ends by
+/// length-to-diameter ratio (Hoerner 1965 via the *Aeronautical Engineer's Data
+/// Book*, Fig. 5.13b): l/d = 1, 2, 5, 10, 40; 1.20 beyond (2-D cylinder).
+pub const CYLINDER_CROSS_CD: [(f32, f32); 5] =
+    [(1.0, 0.63), (2.0, 0.68), (5.0, 0.74), (10.0, 0.82), (40.0, 0.98)];
+/// Cross-flow drag coefficient of an infinitely long cylinder (same source).
+pub const CYLINDER_CROSS_CD_INFINITE: f32 = 1.20;
+/// Axial-flow (end-on) drag coefficient of a cylinder by l/d (same source):
+/// l/d = 1, 2, 4, 7; held constant beyond the table.
+pub const CYLINDER_AXIAL_CD: [(f32, f32); 4] = [(1.0, 0.91), (2.0, 0.85), (4.0, 0.87), (7.0, 0.99)];
+/// Drag coefficient of a square flat plate normal to the flow, 1.17 (Hoerner
+/// 1965 via the *Aeronautical Engineer's Data Book*, Fig. 5.13b), used for
+/// every face of a box: a box face-on is no bluffer than a thin plate.
+pub const BOX_FACE_CD: f32 = 1.17;
+
+/// Largest dimension accepted for any shape, metres.
+pub const MAX_SHAPE_SIZE_M: f32 = 10.0;
+
+/// The geometry of a wind-exposed part.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(tag = "kind", rename_all = "snake_case"))]
+pub enum Shape {
+    /// A solid circular cylinder along a given axis.
+    Cylinder {
+        /// Diameter, metres.
+        diameter_m: f32,
+        /// Length along the axis, metres.
+        length_m: f32,
+        /// Axis direction in the frame of the body's stage (any length).
+        axis: [f32; 3],
+    },
+    /// A rectangular box with edges along the three axes of the body's stage
+    /// frame.
+    Box {
+        /// Edge lengths along the stage frame's first, second and third axes, m.
+        size_m: [f32; 3],
+    },
+}
+
+/// A wind-exposed shape, its centre of pressure and an optional drag
+/// coefficient overriding the default.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Exposure {
+    /// The geometry.
+    pub shape: Shape,
+    /// Centre of pressure in the body's stage frame, metres.
+    pub centre_m: [f32; 3],
+    /// Drag coefficient for broadside flow on a cylinder, or for every face of
+    /// a box; `None` takes the published default ([`CYLINDER_CROSS_CD`],
+    /// [`BOX_FACE_CD`]). End-on flow on a cylinder always uses
+    /// [`CYLINDER_AXIAL_CD`].
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub drag_coefficient: Option<f32>,
+}
+
+/// Linear interpolation in a table of (x, y) pairs sorted by x; the end values
+/// hold outside the table.
+#[must_use]
+pub fn interpolate(table: &[(f32, f32)], x: f32) -> f32 {
+    let (Some(first), Some(last)) = (table.first(), table.last()) else {
+        return 0.0;
+    };
+    if x <= first.0 {
+        return first.1;
+    }
+    if x >= last.0 {
+        return last.1;
+    }
+    for w in table.windows(2) {
+        if let [a, b] = w {
+            if x <= b.0 {
+                let t = (x - a.0) / (b.0 - a.0);
+                return a.1 + t * (b.1 - a.1);
+            }
+        }
+    }
+    last.1
+}
+
+/// Default cross-flow drag coefficient of a cylinder of aspect ratio l/d:
+/// interpolated in [`CYLINDER_CROSS_CD`] in ln(l/d), rising to 1.20 at
+/// l/d = ∞ (approached as 40 → 1000).
+#[must_use]
+pub fn cylinder_cross_cd(aspect: f32) -> f32 {
+    if aspect >= 40.0 {
+        let t = math::clamp(math::ln(aspect / 40.0) / math::ln(25.0), 0.0, 1.0);
+        return 0.98 + t * (CYLINDER_CROSS_CD_INFINITE - 0.98);
+    }
+    interpolate(&CYLINDER_CROSS_CD, aspect)
+}
+
+/// Default end-on drag coefficient of a cylinder of aspect ratio l/d.
+#[must_use]
+pub fn cylinder_axial_cd(aspect: f32) -> f32 {
+    interpolate(&CYLINDER_AXIAL_CD, aspect)
+}
+
+impl Exposure {
+    /// Checks sizes, axis and drag coefficient.
+    ///
+    /// # Errors
+    /// A non-finite value; a size outside 1 mm to 10 m; a zero axis; a drag
+    /// coefficient outside 0.1 to 3.
+    pub fn validate(&self) -> Result<(), Error> {
+        match self.shape {
+            Shape::Cylinder {
+                diameter_m,
+                length_m,
+                axis,
+            } => {
+                Error::check("exposure.diameter_m", diameter_m, 0.001, MAX_SHAPE_SIZE_M)?;
+                Error::check("exposure.length_m", length_m, 0.001, MAX_SHAPE_SIZE_M)?;
+                let a = Vec3::from_array(axis);
+                Error::check_vec("exposure.axis", a, -1e3, 1e3)?;
+                if a.normalized().is_none() {
+                    return Err(Error::new(
+                        crate::ErrorKind::ZeroDirection,
+                        "exposure.axis",
+                    ));
+                }
+            }
+            Shape::Box { size_m } => {
+                for s in size_m {
+                    Error::check("exposure.size_m", s, 0.001, MAX_SHAPE_SIZE_M)?;
+                }
+            }
+        }
+        Error::check_vec(
+            "exposure.centre_m",
+            Vec3::from_array(self.centre_m),
+            -MAX_SHAPE_SIZE_M,
+            MAX_SHAPE_SIZE_M,
+        )?;
+        if let Some(cd) = self.drag_coefficient {
+            Error::check("exposure.drag_coefficient", cd, 0.1, 3.0)?;
+        }
+        Ok(())
+    }
+
+    /// Σ(C_d·A), m², for a wind along the unit vector `wind` given in the same
+    /// frame as `axes` (the stage frame's three unit axes, in rig coordinates).
+    #[must_use]
+    pub fn drag_area_m2(&self, axes: &[Vec3; 3], wind: Vec3) -> f32 {
+        match self.shape {
+            Shape::Cylinder {
+                diameter_m,
+                length_m,
+                axis,
+            } => {
+                let local = Vec3::from_array(axis).normalized().unwrap_or(Vec3::Z);
+                let [e1, e2, e3] = *axes;
+                let a = e1 * local.x + e2 * local.y + e3 * local.z;
+                let cos_psi = math::clamp(a.dot(wind), -1.0, 1.0);
+                let sin_psi = math::sqrt(1.0 - cos_psi * cos_psi);
+                let aspect = length_m / diameter_m;
+                let cd_cross = self
+                    .drag_coefficient
+                    .unwrap_or_else(|| cylinder_cross_cd(aspect));
+                let side = diameter_m * length_m * sin_psi;
+                let end = 0.25 * math::PI * diameter_m * diameter_m * cos_psi.abs();
+                cd_cross * side + cylinder_axial_cd(aspect) * end
+            }
+            Shape::Box { size_m } => {
+                let cd = self.drag_coefficient.unwrap_or(BOX_FACE_CD);
+                let [e1, e2, e3] = *axes;
+                let [sx, sy, sz] = size_m;
+                cd * (sy * sz * e1.dot(wind).abs()
+                    + sx * sz * e2.dot(wind).abs()
+                    + sx * sy * e3.dot(wind).abs())
+            }
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const RIG_AXES: [Vec3; 3] = [Vec3::X, Vec3::Y, Vec3::Z];
+
+    #[test]
+    fn broadside_cylinder_catches_more_than_end_on() {
+        let e = Exposure {
+            shape: Shape::Cylinder {
+                diameter_m: 0.2,
+                length_m: 1.0,
+                axis: [0.0, 1.0, 0.0],
+            },
+            centre_m: [0.0; 3],
+            drag_coefficient: None,
+        };
+        let broad = e.drag_area_m2(&RIG_AXES, Vec3::X);
+        let end = e.drag_area_m2(&RIG_AXES, Vec3::Y);
+        assert!((broad - 0.74 * 0.2).abs() < 1e-5);
+        assert!(end < broad / 3.0);
+    }
+
+    #[test]
+    fn cd_table_interpolates_and_holds() {
+        assert!((cylinder_cross_cd(5.0) - 0.74).abs() < 1e-6);
+        assert!((cylinder_cross_cd(7.5) - 0.78).abs() < 1e-6);
+        assert!((cylinder_cross_cd(0.5) - 0.63).abs() < 1e-6);
+        assert!((cylinder_cross_cd(1.0e4) - 1.2).abs() < 1e-6);
+    }
+
+    #[test]
+    fn box_area_by_face() {
+        let e = Exposure {
+            shape: Shape::Box {
+                size_m: [1.0, 2.0, 3.0],
+            },
+            centre_m: [0.0; 3],
+            drag_coefficient: Some(1.0),
+        };
+        assert!((e.drag_area_m2(&RIG_AXES, Vec3::X) - 6.0).abs() < 1e-6);
+        assert!((e.drag_area_m2(&RIG_AXES, Vec3::Z) - 2.0).abs() < 1e-6);
+    }
+}

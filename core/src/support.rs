@@ -1,0 +1,369 @@
+//! The support polygon: the feet the rig stands on and the edges it can tip about.
+//!
+//! Feet lie in the ground plane z = 0 of the rig frame ([`crate::frame`]). The
+//! support polygon is the convex hull of the feet; a foot inside the hull
+//! carries load but no edge runs through it. Edges are ordered
+//! counter-clockwise seen from above, so the inside lies to the left of each.
+
+use crate::error::{Error, ErrorKind};
+use crate::frame;
+use crate::math::{self, Vec3};
+use heapless::Vec;
+
+/// Most feet a support may have (a pier base plate with eight bolts, say).
+pub const MAX_FEET: usize = 8;
+/// Fewest feet a support may have.
+pub const MIN_FEET: usize = 3;
+/// Feet closer than this, in metres, are duplicates.
+pub const MIN_FOOT_SPACING_M: f32 = 0.001;
+/// Largest foot distance from the origin accepted, metres.
+pub const MAX_FOOT_RADIUS_M: f32 = 10.0;
+
+/// One foot: its position in the ground plane and the rated pull of its
+/// tie-down (a stake, a strap to a ground anchor), if any.
+#[derive(Clone, Copy, Debug, PartialEq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Foot {
+    /// Position `[x, y]` in the rig frame, metres (x east, y north).
+    pub position_m: [f32; 2],
+    /// Rated pull of the tie-down holding this foot down, newtons; 0 for none.
+    /// Counted as a downward force at the foot when it resists lift-off.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub tie_down_n: f32,
+}
+
+/// One edge of the support polygon, from foot `from` to foot `to`
+/// (counter-clockwise, inside on the left).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Edge {
+    /// Index of the foot the edge starts at.
+    pub from: u8,
+    /// Index of the foot the edge ends at.
+    pub to: u8,
+    /// Start point, rig frame, metres (z = 0).
+    pub a_m: Vec3,
+    /// Unit vector along the edge, rig frame.
+    pub along: Vec3,
+    /// Unit vector in the ground plane pointing out of the polygon, rig frame.
+    pub outward: Vec3,
+}
+
+impl Edge {
+    /// Azimuth of the outward normal, radians from north clockwise: the
+    /// direction the rig falls when it tips about this edge.
+    #[must_use]
+    pub fn outward_azimuth_rad(&self) -> f32 {
+        frame::azimuth_of(self.outward)
+    }
+
+    /// Moment about this edge, N·m, of force `f_n` applied at `point_m` (both rig
+    /// frame). Positive tips the rig outward over the edge; negative holds it.
+    #[must_use]
+    pub fn moment_nm(&self, point_m: Vec3, f_n: Vec3) -> f32 {
+        (point_m - self.a_m).cross(f_n).dot(self.along)
+    }
+
+    /// Signed distance of a ground point from the edge line, metres; positive
+    /// inside the polygon.
+    #[must_use]
+    pub fn inset_m(&self, point_m: Vec3) -> f32 {
+        -(point_m - self.a_m).dot(self.outward)
+    }
+}
+
+/// A validated support polygon.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Support {
+    feet: Vec<Foot, MAX_FEET>,
+    edges: Vec<Edge, MAX_FEET>,
+}
+
+impl Support {
+    /// A support from feet at arbitrary positions (unequal legs, a base plate).
+    ///
+    /// # Errors
+    /// Fewer than 3 or more than [`MAX_FEET`] feet; a non-finite or far-out
+    /// position; a negative tie-down rating; two feet within 1 mm; all feet on
+    /// one line.
+    pub fn new(feet: &[Foot]) -> Result<Support, Error> {
+        if feet.len() < MIN_FEET {
+            let mut e = Error::new(ErrorKind::TooFew, "support.feet");
+            e.min = MIN_FEET as f32;
+            e.value = feet.len() as f32;
+            return Err(e);
+        }
+        let mut list: Vec<Foot, MAX_FEET> = Vec::new();
+        for (i, f) in feet.iter().enumerate() {
+            for c in f.position_m {
+                Error::check(
+                    "support.feet.position_m",
+                    c,
+                    -MAX_FOOT_RADIUS_M,
+                    MAX_FOOT_RADIUS_M,
+                )
+                .map_err(|e| e.at(i))?;
+            }
+            Error::check("support.feet.tie_down_n", f.tie_down_n, 0.0, 1.0e5)
+                .map_err(|e| e.at(i))?;
+            for (j, g) in list.iter().enumerate() {
+                let d = math::hypot(
+                    f.position_m[0] - g.position_m[0],
+                    f.position_m[1] - g.position_m[1],
+                );
+                if d < MIN_FOOT_SPACING_M {
+                    let mut e = Error::new(ErrorKind::DuplicateFoot, "support.feet").at(i);
+                    e.value = j as f32;
+                    return Err(e);
+                }
+            }
+            list.push(*f).map_err(|_| {
+                let mut e = Error::new(ErrorKind::TooMany, "support.feet");
+                e.max = MAX_FEET as f32;
+                e.value = feet.len() as f32;
+                e
+            })?;
+        }
+        let edges = hull_edges(&list)?;
+        Ok(Support { feet: list, edges })
+    }
+
+    /// A three-legged stand with its feet equally spaced on a circle of radius
+    /// `foot_circle_radius_m` about the origin, the first foot at azimuth
+    /// `first_leg_azimuth_rad` (from north, clockwise) and the others 120° and
+    /// 240° further clockwise. No tie-downs.
+    ///
+    /// # Errors
+    /// Radius outside 0.05 to 10 m; non-finite azimuth.
+    pub fn tripod(foot_circle_radius_m: f32, first_leg_azimuth_rad: f32) -> Result<Support, Error> {
+        Error::check(
+            "support.foot_circle_radius_m",
+            foot_circle_radius_m,
+            0.05,
+            MAX_FOOT_RADIUS_M,
+        )?;
+        Error::check(
+            "support.first_leg_azimuth_rad",
+            first_leg_azimuth_rad,
+            -1e4,
+            1e4,
+        )?;
+        let mut feet = [Foot::default(); 3];
+        for (k, f) in feet.iter_mut().enumerate() {
+            let az = first_leg_azimuth_rad + k as f32 * (math::TAU / 3.0);
+            let u = frame::azimuth_unit(az) * foot_circle_radius_m;
+            f.position_m = [u.x, u.y];
+        }
+        Support::new(&feet)
+    }
+
+    /// A tripod from its leg spread: the distance between two feet, metres.
+    /// The foot circle radius is spread/√3.
+    ///
+    /// # Errors
+    /// As [`Support::tripod`].
+    pub fn tripod_from_spread(leg_spread_m: f32, first_leg_azimuth_rad: f32) -> Result<Support, Error> {
+        Error::check("support.leg_spread_m", leg_spread_m, 0.08, 17.0)?;
+        Support::tripod(leg_spread_m / math::sqrt(3.0), first_leg_azimuth_rad)
+    }
+
+    /// The feet, in the order given.
+    #[must_use]
+    pub fn feet(&self) -> &[Foot] {
+        &self.feet
+    }
+
+    /// The edges of the support polygon, counter-clockwise.
+    #[must_use]
+    pub fn edges(&self) -> &[Edge] {
+        &self.edges
+    }
+
+    /// Position of foot `i` as a rig-frame point (z = 0), if it exists.
+    #[must_use]
+    pub fn foot_point_m(&self, i: usize) -> Option<Vec3> {
+        self.feet
+            .get(i)
+            .map(|f| Vec3::new(f.position_m[0], f.position_m[1], 0.0))
+    }
+
+    /// Smallest distance, metres, from a ground point to the polygon's edges;
+    /// negative when the point is outside.
+    #[must_use]
+    pub fn inset_m(&self, point_m: Vec3) -> f32 {
+        self.edges
+            .iter()
+            .map(|e| e.inset_m(point_m))
+            .fold(f32::INFINITY, f32::min)
+    }
+
+    /// The same support turned about the vertical axis by `angle_rad`
+    /// (clockwise seen from above, like an azimuth).
+    ///
+    /// # Errors
+    /// Never for a valid support and finite angle; kept for uniformity.
+    pub fn rotated(&self, angle_rad: f32) -> Result<Support, Error> {
+        let mut feet: Vec<Foot, MAX_FEET> = Vec::new();
+        for f in &self.feet {
+            let p = rotate_cw([f.position_m[0], f.position_m[1]], angle_rad);
+            let _ = feet.push(Foot {
+                position_m: p,
+                tie_down_n: f.tie_down_n,
+            });
+        }
+        Support::new(&feet)
+    }
+}
+
+/// A ground-plane point turned clockwise (seen from above) by `angle_rad`.
+#[must_use]
+pub fn rotate_cw(p: [f32; 2], angle_rad: f32) -> [f32; 2] {
+    let (s, c) = (math::sin(angle_rad), math::cos(angle_rad));
+    [p[0] * c + p[1] * s, -p[0] * s + p[1] * c]
+}
+
+fn cross2(o: [f32; 2], a: [f32; 2], b: [f32; 2]) -> f32 {
+    (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0])
+}
+
+/// Convex hull (Andrew's monotone chain) as counter-clockwise edges.
+fn hull_edges(feet: &[Foot]) -> Result<Vec<Edge, MAX_FEET>, Error> {
+    let collinear = Error::new(ErrorKind::CollinearFeet, "support.feet");
+    // Sort indices by (x, y) with an insertion sort: at most eight items.
+    let mut idx: Vec<u8, MAX_FEET> = Vec::new();
+    for i in 0..feet.len() {
+        let _ = idx.push(i as u8);
+    }
+    let pos = |i: u8| feet.get(usize::from(i)).map_or([0.0; 2], |f| f.position_m);
+    for i in 1..idx.len() {
+        let mut j = i;
+        while j > 0 {
+            let (Some(&a), Some(&b)) = (idx.get(j - 1), idx.get(j)) else {
+                break;
+            };
+            let (pa, pb) = (pos(a), pos(b));
+            if pa[0] > pb[0] || (pa[0] == pb[0] && pa[1] > pb[1]) {
+                idx.swap(j - 1, j);
+                j -= 1;
+            } else {
+                break;
+            }
+        }
+    }
+    // Lower then upper chain; a point is dropped unless it turns left by more
+    // than a tolerance (so collinear feet do not make zero-length edges).
+    let tol = 1e-7_f32;
+    let mut hull: Vec<u8, 16> = Vec::new();
+    let build = |hull: &mut Vec<u8, 16>, i: u8, floor: usize| {
+        while hull.len() >= floor + 2 {
+            let n = hull.len();
+            let (Some(&o), Some(&a)) = (hull.get(n - 2), hull.get(n - 1)) else {
+                break;
+            };
+            if cross2(pos(o), pos(a), pos(i)) <= tol {
+                hull.pop();
+            } else {
+                break;
+            }
+        }
+        let _ = hull.push(i);
+    };
+    for &i in &idx {
+        build(&mut hull, i, 0);
+    }
+    let lower = hull.len();
+    for &i in idx.iter().rev().skip(1) {
+        build(&mut hull, i, lower - 1);
+    }
+    hull.pop(); // last point repeats the first
+    if hull.len() < 3 {
+        return Err(collinear);
+    }
+    // Area check: reject slivers narrower than 1 mm.
+    let mut area2 = 0.0_f32;
+    let mut perim = 0.0_f32;
+    let mut edges: Vec<Edge, MAX_FEET> = Vec::new();
+    for k in 0..hull.len() {
+        let (Some(&i), Some(&j)) = (hull.get(k), hull.get((k + 1) % hull.len())) else {
+            return Err(collinear);
+        };
+        let (a, b) = (pos(i), pos(j));
+        area2 += a[0] * b[1] - b[0] * a[1];
+        let av = Vec3::new(a[0], a[1], 0.0);
+        let d = Vec3::new(b[0], b[1], 0.0) - av;
+        perim += d.norm();
+        let along = d.normalized().ok_or(collinear)?;
+        let outward = Vec3::new(along.y, -along.x, 0.0);
+        let _ = edges.push(Edge {
+            from: i,
+            to: j,
+            a_m: av,
+            along,
+            outward,
+        });
+    }
+    if area2 * 0.5 < MIN_FOOT_SPACING_M * perim * 0.5 {
+        return Err(collinear);
+    }
+    Ok(edges)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn foot(x: f32, y: f32) -> Foot {
+        Foot {
+            position_m: [x, y],
+            tie_down_n: 0.0,
+        }
+    }
+
+    #[test]
+    fn square_with_inner_foot_has_four_edges() {
+        let s = Support::new(&[
+            foot(1.0, 1.0),
+            foot(-1.0, 1.0),
+            foot(0.0, 0.1),
+            foot(-1.0, -1.0),
+            foot(1.0, -1.0),
+        ])
+        .unwrap();
+        assert_eq!(s.edges().len(), 4);
+        for e in s.edges() {
+            assert!((e.inset_m(Vec3::ZERO) - 1.0).abs() < 1e-6);
+        }
+    }
+
+    #[test]
+    fn collinear_and_duplicate_rejected() {
+        let e = Support::new(&[foot(0.0, 0.0), foot(1.0, 0.0), foot(2.0, 0.0)]).unwrap_err();
+        assert_eq!(e.kind, ErrorKind::CollinearFeet);
+        let e = Support::new(&[foot(0.0, 0.0), foot(1.0, 0.0), foot(1.0, 0.0005)]).unwrap_err();
+        assert_eq!(e.kind, ErrorKind::DuplicateFoot);
+        assert_eq!(e.index, Some(2));
+        let e = Support::new(&[foot(0.0, 0.0), foot(1.0, 0.0)]).unwrap_err();
+        assert_eq!(e.kind, ErrorKind::TooFew);
+    }
+
+    #[test]
+    fn tripod_inradius_is_half_circumradius() {
+        let s = Support::tripod(0.5, 0.3).unwrap();
+        assert_eq!(s.edges().len(), 3);
+        for e in s.edges() {
+            assert!((e.inset_m(Vec3::ZERO) - 0.25).abs() < 1e-5);
+        }
+    }
+
+    #[test]
+    fn positive_moment_tips_outward() {
+        let s = Support::tripod(0.5, 0.0).unwrap();
+        for e in s.edges() {
+            // A push along the outward normal at height tips over the edge.
+            assert!(e.moment_nm(Vec3::new(0.0, 0.0, 1.0), e.outward) > 0.0);
+            // Weight at the centre holds.
+            assert!(e.moment_nm(Vec3::ZERO, Vec3::new(0.0, 0.0, -10.0)) < 0.0);
+        }
+    }
+}
