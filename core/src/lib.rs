@@ -16,6 +16,7 @@
 pub mod air;
 pub mod error;
 pub mod frame;
+pub mod hardware;
 pub mod math;
 pub mod shape;
 pub mod support;
