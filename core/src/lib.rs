@@ -18,6 +18,7 @@ pub mod error;
 pub mod frame;
 pub mod hardware;
 pub mod math;
+pub mod sense;
 pub mod shape;
 pub mod support;
 

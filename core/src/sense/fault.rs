@@ -1,0 +1,265 @@
+//! Typed sensor faults.
+
+use core::fmt;
+
+/// Which sensor a fault concerns.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum Sensor {
+    /// The 3-axis accelerometer used for ground tilt.
+    Accelerometer,
+    /// The anemometer's speed channel.
+    WindSpeed,
+    /// The wind vane or the direction channel of a sonic anemometer.
+    WindDirection,
+}
+
+impl fmt::Display for Sensor {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(match self {
+            Sensor::Accelerometer => "accelerometer",
+            Sensor::WindSpeed => "wind speed sensor",
+            Sensor::WindDirection => "wind direction sensor",
+        })
+    }
+}
+
+/// A sensor fault. Every variant means: do not trust this sensor now; a
+/// guard must treat it as unsafe.
+///
+/// Values carried are in the unit stated per variant (SI, radians for angles,
+/// g for acceleration magnitude, milliseconds for durations).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum Fault {
+    /// A sample held NaN or an infinity; it was dropped.
+    NotFinite {
+        /// The sensor that sent it.
+        sensor: Sensor,
+    },
+    /// A sample lay outside the physically possible range; it was dropped.
+    /// `value` is in the sample's unit: m/s for speed, radians for direction.
+    OutOfRange {
+        /// The sensor that sent it.
+        sensor: Sensor,
+        /// The offending value.
+        value: f32,
+    },
+    /// A sample's time stamp was earlier than the previous one; it was dropped.
+    TimeReversed {
+        /// The sensor that sent it.
+        sensor: Sensor,
+    },
+    /// No sample (or, for the accelerometer, no sample at all) for longer
+    /// than the configured stale time.
+    Stale {
+        /// The silent sensor.
+        sensor: Sensor,
+        /// Milliseconds since its last sample (or since start-up if none came).
+        silent_ms: u64,
+    },
+    /// The sensor has repeated one identical reading for longer than the
+    /// configured time, which a working sensor in real air or on a real rig
+    /// does not do.
+    Stuck {
+        /// The stuck sensor.
+        sensor: Sensor,
+        /// Milliseconds the reading has not changed.
+        unchanged_ms: u64,
+    },
+    /// Every accelerometer sample for longer than the configured time had a
+    /// magnitude outside the accepted band (shock, vibration, saturation,
+    /// wrong scale): no tilt can be measured.
+    MagnitudeOutOfBand {
+        /// Magnitude of the latest sample, in g.
+        magnitude_g: f32,
+        /// Milliseconds since the last sample inside the band.
+        for_ms: u64,
+    },
+    /// The tilt changed faster than a leg sinking can explain: the angle
+    /// between the fast-filtered and the medium-filtered gravity directions
+    /// exceeds the configured step limit (a knock, a foot slipping, a tip
+    /// starting).
+    TiltStep {
+        /// Angle between the two filtered directions, radians.
+        step_rad: f32,
+    },
+    /// The measured tilt exceeds what the stability model accepts
+    /// ([`crate::frame::MAX_TILT_RAD`]): the rig is not standing normally.
+    TiltBeyondLimit {
+        /// The measured tilt, radians.
+        magnitude_rad: f32,
+    },
+}
+
+impl Fault {
+    /// The sensor this fault concerns.
+    #[must_use]
+    pub const fn sensor(&self) -> Sensor {
+        match *self {
+            Fault::NotFinite { sensor }
+            | Fault::OutOfRange { sensor, .. }
+            | Fault::TimeReversed { sensor }
+            | Fault::Stale { sensor, .. }
+            | Fault::Stuck { sensor, .. } => sensor,
+            Fault::MagnitudeOutOfBand { .. }
+            | Fault::TiltStep { .. }
+            | Fault::TiltBeyondLimit { .. } => Sensor::Accelerometer,
+        }
+    }
+
+    /// True when two faults are of the same class on the same sensor,
+    /// whatever the values they carry.
+    #[must_use]
+    pub fn same_class(&self, other: &Fault) -> bool {
+        core::mem::discriminant(self) == core::mem::discriminant(other)
+            && self.sensor() == other.sensor()
+    }
+}
+
+impl fmt::Display for Fault {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match *self {
+            Fault::NotFinite { sensor } => write!(f, "{sensor}: sample is not a finite number"),
+            Fault::OutOfRange { sensor, value } => {
+                write!(f, "{sensor}: sample {value} is outside the physical range")
+            }
+            Fault::TimeReversed { sensor } => {
+                write!(f, "{sensor}: sample time stamp went backwards")
+            }
+            Fault::Stale { sensor, silent_ms } => {
+                write!(f, "{sensor}: no sample for {silent_ms} ms")
+            }
+            Fault::Stuck {
+                sensor,
+                unchanged_ms,
+            } => write!(f, "{sensor}: reading unchanged for {unchanged_ms} ms"),
+            Fault::MagnitudeOutOfBand {
+                magnitude_g,
+                for_ms,
+            } => write!(
+                f,
+                "accelerometer: magnitude {magnitude_g} g outside the accepted band for {for_ms} ms"
+            ),
+            Fault::TiltStep { step_rad } => write!(
+                f,
+                "accelerometer: sudden tilt change of {} degrees",
+                crate::math::rad_to_deg(step_rad)
+            ),
+            Fault::TiltBeyondLimit { magnitude_rad } => write!(
+                f,
+                "accelerometer: tilt of {} degrees is beyond the model's limit",
+                crate::math::rad_to_deg(magnitude_rad)
+            ),
+        }
+    }
+}
+
+/// Most faults one processor can report at once.
+pub const FAULT_SET_CAPACITY: usize = 8;
+
+/// The faults active at one moment, in a fixed array (no allocation).
+/// Holds at most [`FAULT_SET_CAPACITY`]; a further fault of a class already
+/// held is not added again, and beyond capacity [`FaultSet::overflowed`]
+/// turns true (the set is still non-empty, so still unsafe).
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct FaultSet {
+    items: [Option<Fault>; FAULT_SET_CAPACITY],
+    len: u8,
+    overflow: bool,
+}
+
+impl FaultSet {
+    /// An empty set.
+    #[must_use]
+    pub const fn new() -> Self {
+        FaultSet {
+            items: [None; FAULT_SET_CAPACITY],
+            len: 0,
+            overflow: false,
+        }
+    }
+
+    /// Adds `fault` unless a fault of the same class on the same sensor is
+    /// already held.
+    pub fn push(&mut self, fault: Fault) {
+        if self.iter().any(|f| f.same_class(&fault)) {
+            return;
+        }
+        let idx = usize::from(self.len);
+        match self.items.get_mut(idx) {
+            Some(slot) => {
+                *slot = Some(fault);
+                self.len = self.len.saturating_add(1);
+            }
+            None => self.overflow = true,
+        }
+    }
+
+    /// Adds every fault of `other`.
+    pub fn extend(&mut self, other: &FaultSet) {
+        for f in other.iter() {
+            self.push(f);
+        }
+        self.overflow |= other.overflow;
+    }
+
+    /// True when no fault is active.
+    #[must_use]
+    pub fn is_empty(&self) -> bool {
+        self.len == 0 && !self.overflow
+    }
+
+    /// Number of faults held.
+    #[must_use]
+    pub fn len(&self) -> usize {
+        usize::from(self.len)
+    }
+
+    /// True when more faults arrived than the set can hold.
+    #[must_use]
+    pub fn overflowed(&self) -> bool {
+        self.overflow
+    }
+
+    /// The faults held, oldest first.
+    pub fn iter(&self) -> impl Iterator<Item = Fault> + '_ {
+        self.items.iter().filter_map(|f| *f)
+    }
+
+    /// True when a fault matching `pred` is held.
+    pub fn any(&self, pred: impl Fn(&Fault) -> bool) -> bool {
+        self.iter().any(|f| pred(&f))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn set_dedups_by_class_and_sensor() {
+        let mut s = FaultSet::new();
+        assert!(s.is_empty());
+        s.push(Fault::Stale {
+            sensor: Sensor::WindSpeed,
+            silent_ms: 1,
+        });
+        s.push(Fault::Stale {
+            sensor: Sensor::WindSpeed,
+            silent_ms: 2,
+        });
+        s.push(Fault::Stale {
+            sensor: Sensor::WindDirection,
+            silent_ms: 2,
+        });
+        assert_eq!(s.len(), 2);
+        for _ in 0..20 {
+            s.push(Fault::TiltStep { step_rad: 0.1 });
+        }
+        assert_eq!(s.len(), 3);
+        assert!(!s.overflowed());
+    }
+}

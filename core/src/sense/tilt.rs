@@ -1,0 +1,667 @@
+//! Ground tilt from a 3-axis accelerometer.
+//!
+//! **Sensor convention** (ST design tip DT0140): at rest, level and upright, an
+//! accelerometer reads +1 g on its z axis: it measures the specific force, the
+//! reaction to gravity, which points *up*. Gravity (down) in the rig frame is
+//! therefore the negated reading.
+//!
+//! **Pipeline.** Raw sample (counts or g) × `scale_g_per_count` → rotated into
+//! the rig frame by the [`Mounting`] → magnitude gate (samples whose magnitude
+//! is far from 1 g are dropped) → three single-pole low-pass filters with
+//! α = 1 − exp(−Δt/τ), exact for any sample interval: a *fast* one (the tilt
+//! reported), a *medium* one (the reference for sudden steps) and a *slow* one
+//! (the reference for drift). Tilt is taken from the direction of the fast
+//! filter's vector, optionally relative to a level reference captured at
+//! set-up.
+//!
+//! **Tilt formula.** Total tilt θ = atan2(√(ax² + ay²), az), the angle of the
+//! z axis to gravity of Analog Devices AN-1057 (eq. 13; also NXP AN3461); the
+//! downhill azimuth is that of the horizontal part of gravity (−a) in the rig
+//! frame (see [`crate::frame`]). Only ratios enter, so any scale works.
+
+use crate::error::{Error, ErrorKind};
+use crate::frame::{self, Tilt, MAX_TILT_RAD};
+use crate::math::{self, Vec3};
+
+use super::fault::{Fault, FaultSet, Sensor};
+use super::{ms_to_s, s_to_ms, Millis};
+
+/// A sensor axis with a sign, for describing how the accelerometer is mounted.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum SignedAxis {
+    /// Sensor +x.
+    PlusX,
+    /// Sensor −x.
+    MinusX,
+    /// Sensor +y.
+    PlusY,
+    /// Sensor −y.
+    MinusY,
+    /// Sensor +z.
+    PlusZ,
+    /// Sensor −z.
+    MinusZ,
+}
+
+impl SignedAxis {
+    /// The unit vector of this axis in sensor coordinates.
+    #[must_use]
+    pub const fn unit(self) -> Vec3 {
+        match self {
+            SignedAxis::PlusX => Vec3::new(1.0, 0.0, 0.0),
+            SignedAxis::MinusX => Vec3::new(-1.0, 0.0, 0.0),
+            SignedAxis::PlusY => Vec3::new(0.0, 1.0, 0.0),
+            SignedAxis::MinusY => Vec3::new(0.0, -1.0, 0.0),
+            SignedAxis::PlusZ => Vec3::new(0.0, 0.0, 1.0),
+            SignedAxis::MinusZ => Vec3::new(0.0, 0.0, -1.0),
+        }
+    }
+}
+
+/// How the accelerometer sits on the rig: the rotation from sensor axes to
+/// rig axes, `v_rig = sensor_to_rig · v_sensor`, rows of a 3×3 matrix.
+/// Row i is rig axis i expressed in sensor coordinates. Must be a proper
+/// rotation (orthonormal, determinant +1) to within 1e-3.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Mounting {
+    /// Row-major rotation matrix, sensor frame → rig frame (dimensionless).
+    pub sensor_to_rig: [[f32; 3]; 3],
+}
+
+impl Default for Mounting {
+    /// The sensor's axes are the rig's axes (x east, y north, z up).
+    fn default() -> Self {
+        Mounting::IDENTITY
+    }
+}
+
+impl Mounting {
+    /// Sensor axes aligned with the rig axes.
+    pub const IDENTITY: Mounting = Mounting {
+        sensor_to_rig: [[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]],
+    };
+
+    /// A mounting from an axis table: which signed sensor axis points along rig
+    /// +x (east), rig +y (north) and rig +z (up).
+    ///
+    /// # Errors
+    /// [`ErrorKind::OutOfRange`] on `mounting.axes` when the three axes do not
+    /// form a right-handed set (repeated axis, or a mirror image).
+    pub fn from_axes(
+        rig_x: SignedAxis,
+        rig_y: SignedAxis,
+        rig_z: SignedAxis,
+    ) -> Result<Mounting, Error> {
+        let (x, y, z) = (rig_x.unit(), rig_y.unit(), rig_z.unit());
+        let m = Mounting {
+            sensor_to_rig: [x.to_array(), y.to_array(), z.to_array()],
+        };
+        if x.cross(y).dot(z) > 0.5 {
+            Ok(m)
+        } else {
+            Err(Error::new(ErrorKind::OutOfRange, "mounting.axes"))
+        }
+    }
+
+    /// A sensor-frame vector expressed in the rig frame.
+    #[must_use]
+    pub fn to_rig(&self, v: Vec3) -> Vec3 {
+        let [r0, r1, r2] = self.sensor_to_rig;
+        Vec3::new(
+            Vec3::from_array(r0).dot(v),
+            Vec3::from_array(r1).dot(v),
+            Vec3::from_array(r2).dot(v),
+        )
+    }
+
+    /// Checks that the matrix is a proper rotation to within 1e-3.
+    ///
+    /// # Errors
+    /// [`ErrorKind::NotFinite`] or [`ErrorKind::OutOfRange`] on
+    /// `mounting.sensor_to_rig`.
+    pub fn validate(&self) -> Result<(), Error> {
+        let [r0, r1, r2] = self.sensor_to_rig;
+        let (a, b, c) = (
+            Vec3::from_array(r0),
+            Vec3::from_array(r1),
+            Vec3::from_array(r2),
+        );
+        for r in [a, b, c] {
+            Error::check_vec("mounting.sensor_to_rig", r, -1.001, 1.001)?;
+        }
+        let bad = (a.dot(a) - 1.0).abs() > 1e-3
+            || (b.dot(b) - 1.0).abs() > 1e-3
+            || (c.dot(c) - 1.0).abs() > 1e-3
+            || a.dot(b).abs() > 1e-3
+            || a.dot(c).abs() > 1e-3
+            || b.dot(c).abs() > 1e-3
+            || (a.cross(b).dot(c) - 1.0).abs() > 3e-3;
+        if bad {
+            Err(Error::new(ErrorKind::OutOfRange, "mounting.sensor_to_rig"))
+        } else {
+            Ok(())
+        }
+    }
+}
+
+/// What the reported tilt is measured against.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum TiltReference {
+    /// Against the true vertical, trusting the [`Mounting`] as exact. Default:
+    /// it needs no set-up step and reports the real ground tilt.
+    #[default]
+    Absolute,
+    /// Against the gravity direction captured by a level capture at set-up
+    /// (the rig was levelled then), which removes the sensor's small mounting
+    /// error. No tilt is reported until a reference exists.
+    LevelReference,
+}
+
+/// Configuration of a [`TiltSensor`]. Defaults are listed per field with the
+/// reason for each.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct TiltConfig {
+    /// g per raw count (for example 1/16384 for a 16-bit ±2 g part). Default
+    /// 1.0: samples already in g.
+    pub scale_g_per_count: f32,
+    /// Sensor-to-rig rotation. Default: identity.
+    pub mounting: Mounting,
+    /// Absolute or relative to a captured level reference. Default absolute.
+    pub reference: TiltReference,
+    /// Time constant of the fast filter whose output is the reported tilt, s.
+    /// Default 1 s: removes vibration and wind buffeting above about 0.3 Hz
+    /// while a real change shows within 5 s (5τ, 99.3 %).
+    pub filter_tau_s: f32,
+    /// Time constant of the medium filter that a sudden step is measured
+    /// against, s. Default 60 s: long against a knock, short against a leg
+    /// sinking (a 1°/h drift opens a gap of only 0.017° to the fast filter).
+    pub step_tau_s: f32,
+    /// Time constant of the slow filter the drift rate is measured against, s.
+    /// Default 1800 s: a ramp's rate r shows as a gap r·(τ_slow − τ_fast)
+    /// between filters (first-order ramp lag), settled after a few τ_slow, so
+    /// drift of a leg sinking over hours is seen within about 2 h.
+    pub drift_tau_s: f32,
+    /// Lowest accepted sample magnitude, g. Default 0.8 g.
+    pub band_min_g: f32,
+    /// Highest accepted sample magnitude, g. Default 1.2 g. At rest the
+    /// magnitude is 1 g up to calibration error (a few %); a sample beyond
+    /// ±20 % is dominated by shock, vibration or saturation, and any
+    /// non-gravity acceleration corrupts tilt (AN-1057 introduction). The
+    /// band is tighter than the 5–14 m/s² one open-source estimator accepts
+    /// for initial alignment, because tilt here must be accurate to a
+    /// fraction of a degree.
+    pub band_max_g: f32,
+    /// Time every sample may stay out of band before [`Fault::MagnitudeOutOfBand`]
+    /// is raised, s. Default 5 s: a knock lasts well under a second; five
+    /// seconds of nothing usable means no tilt can be measured.
+    pub out_of_band_limit_s: f32,
+    /// Angle between fast and medium filters that raises [`Fault::TiltStep`],
+    /// radians. Default 0.5° (0.008 73 rad): far above the 0.06° resolution of
+    /// a 12-bit ±2 g part near level, and below the 1–3° chassis-tilt alarms
+    /// of aerial work platforms, so a slipping foot is caught early.
+    pub step_limit_rad: f32,
+    /// Time without any sample before [`Fault::Stale`], s. Default 5 s: five
+    /// fast time constants; a tip can start within seconds.
+    pub stale_after_s: f32,
+    /// Time of bit-identical raw readings before [`Fault::Stuck`], s; 0
+    /// disables. Default 60 s: a working accelerometer's noise (several LSB)
+    /// changes the reading at every sample, so a minute of identical values
+    /// means a frozen bus or register. Disable for parts that average
+    /// internally down to fewer bits than their noise.
+    pub stuck_after_s: f32,
+    /// Averaging window of a level capture, s. Default 10 s: ten fast time
+    /// constants, long enough to average out vibration.
+    pub level_capture_s: f32,
+}
+
+impl Default for TiltConfig {
+    fn default() -> Self {
+        TiltConfig {
+            scale_g_per_count: 1.0,
+            mounting: Mounting::IDENTITY,
+            reference: TiltReference::Absolute,
+            filter_tau_s: 1.0,
+            step_tau_s: 60.0,
+            drift_tau_s: 1800.0,
+            band_min_g: 0.8,
+            band_max_g: 1.2,
+            out_of_band_limit_s: 5.0,
+            step_limit_rad: 0.008_726_646,
+            stale_after_s: 5.0,
+            stuck_after_s: 60.0,
+            level_capture_s: 10.0,
+        }
+    }
+}
+
+impl TiltConfig {
+    /// Checks every field.
+    ///
+    /// # Errors
+    /// The first field that is non-finite or out of its range, named as
+    /// `tilt.<field>`; also the filter time constants must increase
+    /// fast < step < drift.
+    pub fn validate(&self) -> Result<(), Error> {
+        Error::check("tilt.scale_g_per_count", self.scale_g_per_count, 1e-9, 1e6)?;
+        self.mounting.validate()?;
+        Error::check("tilt.filter_tau_s", self.filter_tau_s, 1e-3, 3600.0)?;
+        Error::check(
+            "tilt.step_tau_s",
+            self.step_tau_s,
+            self.filter_tau_s * 2.0,
+            86_400.0,
+        )?;
+        Error::check(
+            "tilt.drift_tau_s",
+            self.drift_tau_s,
+            self.step_tau_s,
+            604_800.0,
+        )?;
+        Error::check("tilt.band_min_g", self.band_min_g, 0.1, 1.0)?;
+        Error::check("tilt.band_max_g", self.band_max_g, 1.0, 10.0)?;
+        Error::check(
+            "tilt.out_of_band_limit_s",
+            self.out_of_band_limit_s,
+            0.0,
+            3600.0,
+        )?;
+        Error::check(
+            "tilt.step_limit_rad",
+            self.step_limit_rad,
+            1e-5,
+            MAX_TILT_RAD,
+        )?;
+        Error::check("tilt.stale_after_s", self.stale_after_s, 1e-3, 86_400.0)?;
+        Error::check("tilt.stuck_after_s", self.stuck_after_s, 0.0, 86_400.0)?;
+        Error::check("tilt.level_capture_s", self.level_capture_s, 0.0, 3600.0)?;
+        Ok(())
+    }
+}
+
+/// Progress of a level capture.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum LevelCapture {
+    /// No capture started.
+    #[default]
+    Idle,
+    /// Averaging accepted samples until the window has passed.
+    InProgress,
+    /// The reference was captured and is in use.
+    Done,
+    /// The averaged direction was more than 45° from the rig's +z axis (or no
+    /// sample came): the rig was not upright; no reference was stored.
+    Failed,
+}
+
+/// The smoothing factor α = 1 − exp(−Δt/τ) of a single-pole low-pass filter
+/// `y ← y + α·(x − y)` over an interval `dt_s` with time constant `tau_s`
+/// (both seconds). Exact for any interval: n steps of Δt compose to one step
+/// of n·Δt for a held input. 0 for Δt ≤ 0; 1 for τ ≤ 0.
+#[must_use]
+pub fn lowpass_alpha(dt_s: f32, tau_s: f32) -> f32 {
+    if dt_s <= 0.0 || dt_s.is_nan() {
+        0.0
+    } else if tau_s <= 0.0 || tau_s.is_nan() {
+        1.0
+    } else {
+        1.0 - math::exp(-dt_s / tau_s)
+    }
+}
+
+/// Tilt of the rig from an accelerometer reading `a` in the rig frame (any
+/// scale; +z up reads positive when level, ST DT0140): magnitude
+/// atan2(√(ax² + ay²), az) (AN-1057 eq. 13), downhill azimuth of −a.
+///
+/// # Errors
+/// [`ErrorKind::ZeroDirection`] for a zero or non-finite vector;
+/// [`ErrorKind::OutOfRange`] when the tilt exceeds [`MAX_TILT_RAD`].
+pub fn tilt_of_specific_force(a: Vec3) -> Result<Tilt, Error> {
+    if a.normalized().is_none() {
+        return Err(Error::new(ErrorKind::ZeroDirection, "tilt.specific_force"));
+    }
+    let magnitude = math::atan2(math::hypot(a.x, a.y), a.z);
+    Tilt::new(magnitude, frame::azimuth_of(-a))
+}
+
+/// `v` rotated by the smallest rotation that takes the unit vector `r` onto
+/// +z (Rodrigues' formula with axis k = r × z, |k| = sin θ, r·z = cos θ,
+/// written as v·c + k × v + k·(k·v)/(1 + c), valid for c > −1).
+fn rotate_onto_z(v: Vec3, r: Vec3) -> Vec3 {
+    let k = r.cross(Vec3::Z);
+    let c = r.z;
+    v * c + k.cross(v) + k * (k.dot(v) / (1.0 + c))
+}
+
+/// Angle between two vectors, radians; 0 when either is zero.
+fn angle_between(a: Vec3, b: Vec3) -> f32 {
+    let n = a.norm() * b.norm();
+    if n > 1e-12 && n.is_finite() {
+        // atan2 form stays accurate for tiny angles where acos does not.
+        math::atan2(a.cross(b).norm(), a.dot(b))
+    } else {
+        0.0
+    }
+}
+
+fn bits(raw: [f32; 3]) -> [u32; 3] {
+    [raw[0].to_bits(), raw[1].to_bits(), raw[2].to_bits()]
+}
+
+/// Ground tilt from accelerometer samples, with filtering, level capture,
+/// drift and step tracking and fault detection.
+///
+/// Memory: `core::mem::size_of::<TiltSensor>()` is a compile-time constant
+/// below 320 bytes (256 on x86-64; checked by a unit test); nothing is allocated.
+#[derive(Clone, Debug)]
+pub struct TiltSensor {
+    config: TiltConfig,
+    start: Millis,
+    last_sample: Option<Millis>,
+    last_in_band: Millis,
+    last_filter: Option<Millis>,
+    fast_g: Vec3,
+    medium_g: Vec3,
+    slow_g: Vec3,
+    last_magnitude_g: f32,
+    last_raw_bits: [u32; 3],
+    raw_since: Millis,
+    rejection: Option<Fault>,
+    reference: Option<Vec3>,
+    capture: LevelCapture,
+    capture_start: Millis,
+    capture_sum_g: Vec3,
+    capture_count: u32,
+}
+
+impl TiltSensor {
+    /// A sensor processor started at time `now` (stale time counts from here).
+    ///
+    /// # Errors
+    /// As [`TiltConfig::validate`].
+    pub fn new(config: TiltConfig, now: Millis) -> Result<Self, Error> {
+        config.validate()?;
+        Ok(TiltSensor {
+            config,
+            start: now,
+            last_sample: None,
+            last_in_band: now,
+            last_filter: None,
+            fast_g: Vec3::ZERO,
+            medium_g: Vec3::ZERO,
+            slow_g: Vec3::ZERO,
+            last_magnitude_g: f32::NAN,
+            last_raw_bits: [0; 3],
+            raw_since: now,
+            rejection: None,
+            reference: None,
+            capture: LevelCapture::Idle,
+            capture_start: now,
+            capture_sum_g: Vec3::ZERO,
+            capture_count: 0,
+        })
+    }
+
+    /// The configuration in use.
+    #[must_use]
+    pub fn config(&self) -> &TiltConfig {
+        &self.config
+    }
+
+    /// Feeds one raw sample `[x, y, z]` in sensor axes and counts (or g) taken
+    /// at `now`.
+    ///
+    /// # Errors
+    /// The sample is dropped and the reason returned: [`Fault::TimeReversed`],
+    /// [`Fault::NotFinite`], or [`Fault::MagnitudeOutOfBand`] (with `for_ms`
+    /// the time since the last in-band sample; a single such rejection is
+    /// normal after a knock and only becomes an active fault after
+    /// `out_of_band_limit_s`).
+    pub fn push(&mut self, now: Millis, raw: [f32; 3]) -> Result<(), Fault> {
+        let sensor = Sensor::Accelerometer;
+        if self.last_sample.is_some_and(|t| now < t) {
+            return Err(Fault::TimeReversed { sensor });
+        }
+        self.last_sample = Some(now);
+        let raw_v = Vec3::from_array(raw);
+        if !raw_v.is_finite() {
+            let f = Fault::NotFinite { sensor };
+            self.rejection = Some(f);
+            return Err(f);
+        }
+        let b = bits(raw);
+        if b != self.last_raw_bits {
+            self.last_raw_bits = b;
+            self.raw_since = now;
+        }
+        let a = self
+            .config
+            .mounting
+            .to_rig(raw_v * self.config.scale_g_per_count);
+        let mag = a.norm();
+        self.last_magnitude_g = mag;
+        if !(mag.is_finite() && mag >= self.config.band_min_g && mag <= self.config.band_max_g) {
+            return Err(Fault::MagnitudeOutOfBand {
+                magnitude_g: mag,
+                for_ms: now.since(self.last_in_band),
+            });
+        }
+        self.rejection = None;
+        self.last_in_band = now;
+        match self.last_filter {
+            None => {
+                self.fast_g = a;
+                self.medium_g = a;
+                self.slow_g = a;
+            }
+            Some(t) => {
+                let dt = now.seconds_since(t);
+                let c = &self.config;
+                self.fast_g += (a - self.fast_g) * lowpass_alpha(dt, c.filter_tau_s);
+                self.medium_g += (a - self.medium_g) * lowpass_alpha(dt, c.step_tau_s);
+                self.slow_g += (a - self.slow_g) * lowpass_alpha(dt, c.drift_tau_s);
+            }
+        }
+        self.last_filter = Some(now);
+        if self.capture == LevelCapture::InProgress {
+            self.capture_sum_g += a;
+            self.capture_count = self.capture_count.saturating_add(1);
+            if now.since(self.capture_start) >= s_to_ms(self.config.level_capture_s) {
+                self.finish_capture();
+            }
+        }
+        Ok(())
+    }
+
+    fn finish_capture(&mut self) {
+        let dir = self.capture_sum_g.normalized();
+        match dir {
+            Some(r) if self.capture_count > 0 && r.z >= math::cos(MAX_TILT_RAD) => {
+                self.reference = Some(r);
+                self.capture = LevelCapture::Done;
+            }
+            _ => self.capture = LevelCapture::Failed,
+        }
+    }
+
+    /// Starts a level capture at `now`: accepted samples are averaged for
+    /// `level_capture_s`, and their mean direction becomes the level
+    /// reference. The rig must be levelled and still meanwhile.
+    pub fn start_level_capture(&mut self, now: Millis) {
+        self.capture = LevelCapture::InProgress;
+        self.capture_start = now;
+        self.capture_sum_g = Vec3::ZERO;
+        self.capture_count = 0;
+    }
+
+    /// Progress of the latest level capture.
+    #[must_use]
+    pub fn level_capture(&self) -> LevelCapture {
+        self.capture
+    }
+
+    /// The level reference: unit vector of the specific force (up) in the rig
+    /// frame when the rig was level, if one was captured or set.
+    #[must_use]
+    pub fn level_reference(&self) -> Option<Vec3> {
+        self.reference
+    }
+
+    /// Sets the level reference from a stored vector (any length, rig frame,
+    /// specific force pointing up), for example one captured earlier.
+    ///
+    /// # Errors
+    /// [`ErrorKind::ZeroDirection`] for a zero or non-finite vector;
+    /// [`ErrorKind::OutOfRange`] when it lies more than 45° from +z.
+    pub fn set_level_reference(&mut self, up: Vec3) -> Result<(), Error> {
+        let r = up
+            .normalized()
+            .ok_or(Error::new(ErrorKind::ZeroDirection, "tilt.level_reference"))?;
+        Error::check("tilt.level_reference.z", r.z, math::cos(MAX_TILT_RAD), 1.0)?;
+        self.reference = Some(r);
+        self.capture = LevelCapture::Done;
+        Ok(())
+    }
+
+    /// The fast-filtered specific force in the rig frame, in g; `None` before
+    /// the first accepted sample.
+    #[must_use]
+    pub fn filtered_g(&self) -> Option<Vec3> {
+        self.last_filter.map(|_| self.fast_g)
+    }
+
+    /// The filtered vector, corrected by the level reference when the
+    /// configuration asks for it.
+    fn referenced(&self, v: Vec3) -> Option<Vec3> {
+        match self.config.reference {
+            TiltReference::Absolute => Some(v),
+            TiltReference::LevelReference => self.reference.map(|r| rotate_onto_z(v, r)),
+        }
+    }
+
+    /// The present ground tilt in the rig frame, from the fast filter.
+    /// `None` before the first accepted sample, when a level reference is
+    /// required but missing, or when the tilt is beyond [`MAX_TILT_RAD`]
+    /// (then [`Fault::TiltBeyondLimit`] is active).
+    #[must_use]
+    pub fn tilt(&self) -> Option<Tilt> {
+        let v = self.referenced(self.filtered_g()?)?;
+        tilt_of_specific_force(v).ok()
+    }
+
+    /// Angle between the fast and the medium filtered directions, radians:
+    /// how much the tilt moved within roughly the last `step_tau_s`.
+    #[must_use]
+    pub fn step_rad(&self) -> f32 {
+        self.last_filter
+            .map_or(0.0, |_| angle_between(self.fast_g, self.medium_g))
+    }
+
+    /// Rate of slow tilt change, radians per second, any direction: the angle
+    /// between the fast and slow filtered directions divided by
+    /// (τ_drift − τ_fast), the steady lag between two first-order filters
+    /// following a ramp. Settles after a few τ_drift; reads high for a while
+    /// after a step (check [`TiltSensor::step_rad`]).
+    #[must_use]
+    pub fn drift_rate_rad_per_s(&self) -> f32 {
+        let span = self.config.drift_tau_s - self.config.filter_tau_s;
+        if span > 0.0 && self.last_filter.is_some() {
+            angle_between(self.fast_g, self.slow_g) / span
+        } else {
+            0.0
+        }
+    }
+
+    /// Magnitude of the latest sample (after scaling), g; NaN before any.
+    #[must_use]
+    pub fn last_magnitude_g(&self) -> f32 {
+        self.last_magnitude_g
+    }
+
+    /// The faults active at `now`: a rejected last sample (non-finite),
+    /// stale, stuck, magnitude out of band for too long, a tilt step beyond
+    /// the limit, a tilt beyond the model's limit.
+    #[must_use]
+    pub fn faults(&self, now: Millis) -> FaultSet {
+        let sensor = Sensor::Accelerometer;
+        let c = &self.config;
+        let mut set = FaultSet::new();
+        if let Some(f) = self.rejection {
+            set.push(f);
+        }
+        let silent_ms = now.since(self.last_sample.unwrap_or(self.start));
+        if silent_ms > s_to_ms(c.stale_after_s) {
+            set.push(Fault::Stale { sensor, silent_ms });
+        }
+        if let Some(last) = self.last_sample {
+            let unchanged_ms = last.since(self.raw_since);
+            if c.stuck_after_s > 0.0 && unchanged_ms > s_to_ms(c.stuck_after_s) {
+                set.push(Fault::Stuck {
+                    sensor,
+                    unchanged_ms,
+                });
+            }
+            let for_ms = last.since(self.last_in_band);
+            if for_ms > s_to_ms(c.out_of_band_limit_s) {
+                set.push(Fault::MagnitudeOutOfBand {
+                    magnitude_g: self.last_magnitude_g,
+                    for_ms,
+                });
+            }
+        }
+        let step_rad = self.step_rad();
+        if step_rad > c.step_limit_rad {
+            set.push(Fault::TiltStep { step_rad });
+        }
+        if let Some(v) = self.filtered_g().and_then(|v| self.referenced(v)) {
+            let magnitude_rad = math::atan2(math::hypot(v.x, v.y), v.z);
+            if magnitude_rad > MAX_TILT_RAD {
+                set.push(Fault::TiltBeyondLimit { magnitude_rad });
+            }
+        }
+        set
+    }
+
+    /// Seconds since the last accepted sample at `now`; `None` before any.
+    #[must_use]
+    pub fn age_s(&self, now: Millis) -> Option<f32> {
+        self.last_filter.map(|t| ms_to_s(now.since(t)))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn size_is_small_and_fixed() {
+        assert!(core::mem::size_of::<TiltSensor>() <= 320);
+    }
+
+    #[test]
+    fn rotate_onto_z_takes_reference_to_z() {
+        let r = Vec3::new(0.1, -0.2, 0.97).normalized().unwrap();
+        let z = rotate_onto_z(r, r);
+        assert!((z.z - 1.0).abs() < 1e-6 && z.x.abs() < 1e-6 && z.y.abs() < 1e-6);
+        let v = Vec3::new(0.3, 0.1, 0.9);
+        assert!((rotate_onto_z(v, r).norm() - v.norm()).abs() < 1e-6);
+    }
+
+    #[test]
+    fn mirror_mounting_rejected() {
+        assert!(
+            Mounting::from_axes(SignedAxis::PlusY, SignedAxis::PlusX, SignedAxis::PlusZ).is_err()
+        );
+        let m =
+            Mounting::from_axes(SignedAxis::PlusY, SignedAxis::MinusX, SignedAxis::PlusZ).unwrap();
+        assert!(m.validate().is_ok());
+    }
+}
