@@ -18,10 +18,15 @@ pub mod error;
 pub mod frame;
 pub mod hardware;
 pub mod math;
+pub mod mount;
+pub mod rig;
 pub mod sense;
 pub mod shape;
+pub mod stability;
 pub mod support;
 
 pub use error::{Error, ErrorKind};
 pub use frame::Tilt;
+/// The `heapless` crate, re-exported: rig descriptions hold its `Vec` and `String`.
+pub use heapless;
 pub use math::Vec3;

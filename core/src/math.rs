@@ -209,7 +209,7 @@ pub fn rad_to_deg(rad: f32) -> f32 {
 #[must_use]
 pub fn wrap_tau(rad: f32) -> f32 {
     let w = rad - TAU * floor(rad / TAU);
-    if w >= TAU || w < 0.0 {
+    if !(0.0..TAU).contains(&w) {
         0.0
     } else {
         w

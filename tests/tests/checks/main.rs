@@ -1,3 +1,8 @@
 //! One test binary, one module per subject. Every expected value names its source.
 
+mod air;
+mod fixtures;
 mod frame;
+mod hardware;
+mod mount;
+mod stability;

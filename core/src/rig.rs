@@ -1,0 +1,725 @@
+//! The rig: its description ([`RigSpec`], plain data a host can load from a
+//! file), the validated model ([`Rig`]) and the placement of every part in a
+//! pose ([`Placement`]).
+//!
+//! Parts are rigid bodies fixed to one of three **stages**: the ground stage
+//! (tripod, pier, ballast: rig frame), the mount's primary stage or its
+//! secondary stage (see [`crate::mount`] for their frames). Each part has a mass,
+//! a centre of gravity and optionally a wind-exposed shape.
+
+use crate::air::Air;
+use crate::error::{Error, ErrorKind};
+use crate::frame::{self, Tilt};
+use crate::math::{Vec3, STANDARD_GRAVITY_MPS2};
+use crate::mount::{MountGeometry, Pose, StageFrames};
+use crate::shape::{Exposure, Shape};
+use crate::support::{Foot, Support, MAX_FEET};
+use heapless::Vec;
+
+/// Most free bodies in a rig description.
+pub const MAX_BODIES: usize = 12;
+/// Most counterweights on the shaft.
+pub const MAX_COUNTERWEIGHTS: usize = 4;
+/// Most ballast items.
+pub const MAX_BALLAST: usize = 4;
+/// Most parts of a validated rig: bodies, legs, counterweights, shaft, cover
+/// and ballast.
+pub const MAX_PARTS: usize = MAX_BODIES + MAX_FEET + MAX_COUNTERWEIGHTS + 2 + MAX_BALLAST;
+/// Largest mass accepted for one part, kg.
+pub const MAX_PART_MASS_KG: f32 = 2_000.0;
+/// Largest distance of any centre of gravity from its stage origin, metres:
+/// the sane envelope of a telescope rig.
+pub const MAX_OFFSET_M: f32 = 5.0;
+
+/// A short text label for a part (for reports), at most 24 bytes.
+pub type Label = heapless::String<24>;
+
+/// The stage a body is fixed to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+pub enum Stage {
+    /// Fixed to the ground: offsets in the rig frame from its origin.
+    #[default]
+    Ground,
+    /// Turns about the primary axis: offsets in the primary-stage frame
+    /// `[s, q, k]` from the axis origin.
+    Primary,
+    /// Turns about both axes: offsets in the secondary-stage frame `[s, p, n]`
+    /// from the axis origin.
+    Secondary,
+}
+
+/// How a body's mass is spread, for its moment of inertia.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+pub enum MassModel {
+    /// All mass at the centre of gravity.
+    Point,
+    /// Mass spread uniformly through the exposed shape (solid cylinder or box);
+    /// a point mass when the body has no shape.
+    #[default]
+    Solid,
+    /// Mass in the wall of the exposed shape (thin-walled tube; a box's
+    /// faces), as for an optical tube; a point mass without a shape.
+    Shell,
+}
+
+/// A free rigid body of the rig.
+#[derive(Clone, Debug, PartialEq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct BodySpec {
+    /// Name for reports.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub label: Label,
+    /// The stage it is fixed to.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub stage: Stage,
+    /// Mass, kg.
+    pub mass_kg: f32,
+    /// Centre of gravity in the stage frame, metres.
+    pub cg_m: [f32; 3],
+    /// Wind-exposed shape, if it catches wind.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub exposure: Option<Exposure>,
+    /// How the mass is spread, for inertia.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub mass_model: MassModel,
+    /// True when the cover, fitted, shields this body from the wind (the
+    /// payload); its mass still counts.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub under_cover: bool,
+}
+
+/// Tripod legs, generated as slender cylinders from the head to each foot.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct LegsSpec {
+    /// Mass of one leg, kg.
+    pub mass_kg: f32,
+    /// Leg diameter (or width), metres.
+    pub diameter_m: f32,
+    /// Height of the leg tops above the ground, metres.
+    pub top_height_m: f32,
+    /// Distance of each leg top from the vertical axis, metres.
+    pub top_radius_m: f32,
+}
+
+/// A counterweight on the shaft, a solid disc centred on the secondary axis
+/// on the side opposite the payload.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct CounterweightSpec {
+    /// Mass, kg.
+    pub mass_kg: f32,
+    /// Distance of its centre from the axis origin along the shaft, metres.
+    pub distance_m: f32,
+    /// Outside diameter, metres.
+    pub diameter_m: f32,
+    /// Thickness along the shaft, metres.
+    pub thickness_m: f32,
+}
+
+/// The counterweight shaft: a solid rod from the axis origin along −s.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct ShaftSpec {
+    /// Mass, kg.
+    pub mass_kg: f32,
+    /// Length from the axis origin to its end, metres.
+    pub length_m: f32,
+    /// Diameter, metres.
+    pub diameter_m: f32,
+}
+
+/// A cover: a box on the secondary stage that, when fitted, replaces the
+/// exposure of every body marked `under_cover`.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct CoverSpec {
+    /// Mass, kg (counted only while fitted).
+    pub mass_kg: f32,
+    /// Edge lengths along `[s, p, n]`, metres.
+    pub size_m: [f32; 3],
+    /// Centre in the secondary-stage frame, metres.
+    pub centre_m: [f32; 3],
+    /// Drag coefficient; `None` for the default of a box.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub drag_coefficient: Option<f32>,
+}
+
+/// Ballast: a mass at a fixed point (a bag of stones under the tripod head).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct BallastSpec {
+    /// Mass, kg.
+    pub mass_kg: f32,
+    /// Position in the rig frame, metres.
+    pub position_m: [f32; 3],
+}
+
+/// A rig description: plain data, checked by [`Rig::new`].
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct RigSpec {
+    /// The feet (3 to 8), in the ground plane of the rig frame.
+    pub feet: Vec<Foot, MAX_FEET>,
+    /// Tripod legs, if they should be modelled (mass and wind).
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub legs: Option<LegsSpec>,
+    /// Static friction coefficient between feet and ground. Use a lower bound:
+    /// friction on grass and soil varies widely.
+    pub friction_coefficient: f32,
+    /// The mount.
+    pub mount: MountGeometry,
+    /// Free bodies: head, mount housings, payload, accessories.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub bodies: Vec<BodySpec, MAX_BODIES>,
+    /// Counterweights on the shaft.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub counterweights: Vec<CounterweightSpec, MAX_COUNTERWEIGHTS>,
+    /// The counterweight shaft.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub shaft: Option<ShaftSpec>,
+    /// The cover, if the rig has one.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub cover: Option<CoverSpec>,
+    /// Ballast items.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub ballast: Vec<BallastSpec, MAX_BALLAST>,
+}
+
+/// What a part is, for reports and for the cover and balance logic.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum PartRole {
+    /// A free body, index into [`RigSpec::bodies`].
+    Body(u8),
+    /// A tripod leg, index of its foot.
+    Leg(u8),
+    /// A counterweight, index into [`RigSpec::counterweights`].
+    Counterweight(u8),
+    /// The counterweight shaft.
+    Shaft,
+    /// The cover (present only while fitted).
+    Cover,
+    /// A ballast item, index into [`RigSpec::ballast`].
+    Ballast(u8),
+}
+
+/// One part of a validated rig.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Part {
+    /// What it is.
+    pub role: PartRole,
+    /// The stage it is fixed to.
+    pub stage: Stage,
+    /// Mass, kg.
+    pub mass_kg: f32,
+    /// Centre of gravity in the stage frame, metres.
+    pub cg_m: Vec3,
+    /// Wind-exposed shape, if any.
+    pub exposure: Option<Exposure>,
+    /// How the mass is spread.
+    pub mass_model: MassModel,
+    /// Shielded by the fitted cover.
+    pub under_cover: bool,
+}
+
+/// A validated rig.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Rig {
+    support: Support,
+    mount: MountGeometry,
+    friction_coefficient: f32,
+    parts: Vec<Part, MAX_PARTS>,
+}
+
+/// The conditions the rig stands in: pose, ground tilt, wind and air.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Conditions {
+    /// Mount pose.
+    pub pose: Pose,
+    /// Ground tilt.
+    pub tilt: Tilt,
+    /// Wind speed, m/s (a gust, for a stability check).
+    pub wind_speed_mps: f32,
+    /// Direction the wind blows from, radians from north clockwise
+    /// (meteorological convention).
+    pub wind_from_rad: f32,
+    /// Air density.
+    pub air: Air,
+    /// True while the cover is fitted.
+    pub cover_fitted: bool,
+}
+
+impl Conditions {
+    /// Calm, level ground, sea-level air, no cover, in `pose`.
+    #[must_use]
+    pub fn calm(pose: Pose) -> Conditions {
+        Conditions {
+            pose,
+            tilt: Tilt::LEVEL,
+            wind_speed_mps: 0.0,
+            wind_from_rad: 0.0,
+            air: Air::default(),
+            cover_fitted: false,
+        }
+    }
+
+    /// Checks the wind values (the pose is checked by the mount, the tilt and
+    /// air by their constructors).
+    ///
+    /// # Errors
+    /// Wind speed outside 0 to 100 m/s or a non-finite direction.
+    pub fn validate(&self) -> Result<(), Error> {
+        Error::check("conditions.wind_speed_mps", self.wind_speed_mps, 0.0, 100.0)?;
+        Error::check("conditions.wind_from_rad", self.wind_from_rad, -1e4, 1e4)?;
+        Error::check(
+            "conditions.tilt.magnitude_rad",
+            self.tilt.magnitude_rad,
+            0.0,
+            frame::MAX_TILT_RAD,
+        )?;
+        Error::check(
+            "conditions.tilt.downhill_azimuth_rad",
+            self.tilt.downhill_azimuth_rad,
+            -1e4,
+            1e4,
+        )?;
+        Error::check(
+            "conditions.air.density_kg_m3",
+            self.air.density_kg_m3(),
+            0.3,
+            1.6,
+        )?;
+        Ok(())
+    }
+}
+
+fn check_mass(field: &'static str, m: f32, i: usize) -> Result<f32, Error> {
+    Error::check(field, m, 1e-3, MAX_PART_MASS_KG).map_err(|e| e.at(i))
+}
+
+fn check_offset(field: &'static str, v: [f32; 3], i: usize) -> Result<Vec3, Error> {
+    Error::check_vec(field, Vec3::from_array(v), -MAX_OFFSET_M, MAX_OFFSET_M).map_err(|e| e.at(i))
+}
+
+fn too_many(field: &'static str) -> Error {
+    let mut e = Error::new(ErrorKind::TooMany, field);
+    e.max = MAX_PARTS as f32;
+    e
+}
+
+impl Rig {
+    /// Checks a description and builds the rig.
+    ///
+    /// # Errors
+    /// The first invalid field, named by its path in [`RigSpec`], with its
+    /// value and accepted range.
+    pub fn new(spec: &RigSpec) -> Result<Rig, Error> {
+        let support = Support::new(&spec.feet)?;
+        spec.mount.validate()?;
+        Error::check("friction_coefficient", spec.friction_coefficient, 0.0, 2.0)?;
+        let mut parts: Vec<Part, MAX_PARTS> = Vec::new();
+        let mut push = |p: Part, field: &'static str| parts.push(p).map_err(|_| too_many(field));
+
+        for (i, b) in spec.bodies.iter().enumerate() {
+            check_mass("bodies.mass_kg", b.mass_kg, i)?;
+            let cg = check_offset("bodies.cg_m", b.cg_m, i)?;
+            if let Some(x) = &b.exposure {
+                x.validate().map_err(|e| e.at(i))?;
+            }
+            push(
+                Part {
+                    role: PartRole::Body(i as u8),
+                    stage: b.stage,
+                    mass_kg: b.mass_kg,
+                    cg_m: cg,
+                    exposure: b.exposure,
+                    mass_model: b.mass_model,
+                    under_cover: b.under_cover,
+                },
+                "bodies",
+            )?;
+        }
+        if let Some(l) = spec.legs {
+            Error::check("legs.mass_kg", l.mass_kg, 1e-3, 100.0)?;
+            Error::check("legs.diameter_m", l.diameter_m, 0.003, 0.3)?;
+            Error::check("legs.top_height_m", l.top_height_m, 0.1, 5.0)?;
+            Error::check("legs.top_radius_m", l.top_radius_m, 0.0, 1.0)?;
+            for (i, f) in spec.feet.iter().enumerate() {
+                let foot = Vec3::new(f.position_m[0], f.position_m[1], 0.0);
+                let radial = foot.normalized().unwrap_or(Vec3::X);
+                let top = radial * l.top_radius_m + Vec3::Z * l.top_height_m;
+                let axis = foot - top;
+                let centre = (foot + top) * 0.5;
+                push(
+                    Part {
+                        role: PartRole::Leg(i as u8),
+                        stage: Stage::Ground,
+                        mass_kg: l.mass_kg,
+                        cg_m: centre,
+                        exposure: Some(Exposure {
+                            shape: Shape::Cylinder {
+                                diameter_m: l.diameter_m,
+                                length_m: axis.norm(),
+                                axis: axis.to_array(),
+                            },
+                            centre_m: centre.to_array(),
+                            drag_coefficient: None,
+                        }),
+                        mass_model: MassModel::Solid,
+                        under_cover: false,
+                    },
+                    "legs",
+                )?;
+            }
+        }
+        for (i, c) in spec.counterweights.iter().enumerate() {
+            check_mass("counterweights.mass_kg", c.mass_kg, i)?;
+            Error::check("counterweights.distance_m", c.distance_m, 0.0, MAX_OFFSET_M)
+                .map_err(|e| e.at(i))?;
+            Error::check("counterweights.diameter_m", c.diameter_m, 0.01, 1.0)
+                .map_err(|e| e.at(i))?;
+            Error::check("counterweights.thickness_m", c.thickness_m, 0.002, 1.0)
+                .map_err(|e| e.at(i))?;
+            push(
+                Part {
+                    role: PartRole::Counterweight(i as u8),
+                    stage: Stage::Primary,
+                    mass_kg: c.mass_kg,
+                    cg_m: Vec3::new(-c.distance_m, 0.0, 0.0),
+                    exposure: Some(Exposure {
+                        shape: Shape::Cylinder {
+                            diameter_m: c.diameter_m,
+                            length_m: c.thickness_m,
+                            axis: [1.0, 0.0, 0.0],
+                        },
+                        centre_m: [-c.distance_m, 0.0, 0.0],
+                        drag_coefficient: None,
+                    }),
+                    mass_model: MassModel::Solid,
+                    under_cover: false,
+                },
+                "counterweights",
+            )?;
+        }
+        if let Some(s) = spec.shaft {
+            Error::check("shaft.mass_kg", s.mass_kg, 1e-3, 100.0)?;
+            Error::check("shaft.length_m", s.length_m, 0.01, MAX_OFFSET_M)?;
+            Error::check("shaft.diameter_m", s.diameter_m, 0.003, 0.2)?;
+            let c = [-0.5 * s.length_m, 0.0, 0.0];
+            push(
+                Part {
+                    role: PartRole::Shaft,
+                    stage: Stage::Primary,
+                    mass_kg: s.mass_kg,
+                    cg_m: Vec3::from_array(c),
+                    exposure: Some(Exposure {
+                        shape: Shape::Cylinder {
+                            diameter_m: s.diameter_m,
+                            length_m: s.length_m,
+                            axis: [1.0, 0.0, 0.0],
+                        },
+                        centre_m: c,
+                        drag_coefficient: None,
+                    }),
+                    mass_model: MassModel::Solid,
+                    under_cover: false,
+                },
+                "shaft",
+            )?;
+        }
+        if let Some(c) = spec.cover {
+            Error::check("cover.mass_kg", c.mass_kg, 0.0, MAX_PART_MASS_KG)?;
+            let centre = check_offset("cover.centre_m", c.centre_m, 0)?;
+            let exposure = Exposure {
+                shape: Shape::Box { size_m: c.size_m },
+                centre_m: c.centre_m,
+                drag_coefficient: c.drag_coefficient,
+            };
+            exposure.validate()?;
+            push(
+                Part {
+                    role: PartRole::Cover,
+                    stage: Stage::Secondary,
+                    mass_kg: c.mass_kg,
+                    cg_m: centre,
+                    exposure: Some(exposure),
+                    mass_model: MassModel::Shell,
+                    under_cover: false,
+                },
+                "cover",
+            )?;
+        }
+        for (i, b) in spec.ballast.iter().enumerate() {
+            check_mass("ballast.mass_kg", b.mass_kg, i)?;
+            let p = check_offset("ballast.position_m", b.position_m, i)?;
+            Error::check("ballast.position_m", p.z, 0.0, MAX_OFFSET_M).map_err(|e| e.at(i))?;
+            push(
+                Part {
+                    role: PartRole::Ballast(i as u8),
+                    stage: Stage::Ground,
+                    mass_kg: b.mass_kg,
+                    cg_m: p,
+                    exposure: None,
+                    mass_model: MassModel::Point,
+                    under_cover: false,
+                },
+                "ballast",
+            )?;
+        }
+        if parts.is_empty() {
+            let mut e = Error::new(ErrorKind::TooFew, "bodies");
+            e.min = 1.0;
+            return Err(e);
+        }
+        Ok(Rig {
+            support,
+            mount: spec.mount,
+            friction_coefficient: spec.friction_coefficient,
+            parts,
+        })
+    }
+
+    /// The support polygon.
+    #[must_use]
+    pub fn support(&self) -> &Support {
+        &self.support
+    }
+
+    /// The mount geometry.
+    #[must_use]
+    pub fn mount(&self) -> &MountGeometry {
+        &self.mount
+    }
+
+    /// Static friction coefficient between feet and ground.
+    #[must_use]
+    pub fn friction_coefficient(&self) -> f32 {
+        self.friction_coefficient
+    }
+
+    /// All parts, the cover among them.
+    #[must_use]
+    pub fn parts(&self) -> &[Part] {
+        &self.parts
+    }
+
+    /// True when the rig has a cover.
+    #[must_use]
+    pub fn has_cover(&self) -> bool {
+        self.parts.iter().any(|p| p.role == PartRole::Cover)
+    }
+
+    /// The same rig with an extra ballast mass at a rig-frame point.
+    ///
+    /// # Errors
+    /// An invalid mass or position, or no room for another part.
+    pub fn with_ballast(&self, mass_kg: f32, position_m: Vec3) -> Result<Rig, Error> {
+        check_mass("ballast.mass_kg", mass_kg, 0)?;
+        let p = check_offset("ballast.position_m", position_m.to_array(), 0)?;
+        let mut rig = self.clone();
+        let n = rig
+            .parts
+            .iter()
+            .filter(|p| matches!(p.role, PartRole::Ballast(_)))
+            .count();
+        rig.parts
+            .push(Part {
+                role: PartRole::Ballast(n as u8),
+                stage: Stage::Ground,
+                mass_kg,
+                cg_m: p,
+                exposure: None,
+                mass_model: MassModel::Point,
+                under_cover: false,
+            })
+            .map_err(|_| too_many("ballast"))?;
+        Ok(rig)
+    }
+
+    /// The same rig with the tie-down rating of every foot set to `pull_n`.
+    ///
+    /// # Errors
+    /// A pull outside 0 to 100 kN.
+    pub fn with_tie_downs(&self, pull_n: f32) -> Result<Rig, Error> {
+        let mut feet: Vec<Foot, MAX_FEET> = Vec::new();
+        for f in self.support.feet() {
+            let _ = feet.push(Foot {
+                position_m: f.position_m,
+                tie_down_n: pull_n,
+            });
+        }
+        let mut rig = self.clone();
+        rig.support = Support::new(&feet)?;
+        Ok(rig)
+    }
+
+    /// Places every part for a pose, ground tilt and cover state.
+    ///
+    /// # Errors
+    /// An invalid pose or tilt.
+    pub fn place(
+        &self,
+        pose: Pose,
+        tilt: Tilt,
+        cover_fitted: bool,
+    ) -> Result<Placement<'_>, Error> {
+        let frames = self.mount.frames(pose)?;
+        let tilt = Tilt::new(tilt.magnitude_rad, tilt.downhill_azimuth_rad)?;
+        Ok(Placement {
+            rig: self,
+            frames,
+            gravity: tilt.gravity_unit(),
+            cover_fitted: cover_fitted && self.has_cover(),
+        })
+    }
+}
+
+/// A rig placed in a pose, on ground of a given tilt, with the cover on or off.
+#[derive(Clone, Copy, Debug)]
+pub struct Placement<'a> {
+    rig: &'a Rig,
+    frames: StageFrames,
+    gravity: Vec3,
+    cover_fitted: bool,
+}
+
+/// A part as placed: its weight and where it acts.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct PlacedPart {
+    /// The part.
+    pub part: Part,
+    /// Centre of gravity, rig frame, metres.
+    pub cg_m: Vec3,
+    /// Weight force, rig frame, newtons.
+    pub weight_n: Vec3,
+}
+
+impl<'a> Placement<'a> {
+    /// The rig.
+    #[must_use]
+    pub fn rig(&self) -> &'a Rig {
+        self.rig
+    }
+
+    /// The stage frames of the pose.
+    #[must_use]
+    pub fn frames(&self) -> &StageFrames {
+        &self.frames
+    }
+
+    /// Unit vector of gravity in the rig frame.
+    #[must_use]
+    pub fn gravity_unit(&self) -> Vec3 {
+        self.gravity
+    }
+
+    /// True while the cover is fitted (and the rig has one).
+    #[must_use]
+    pub fn cover_fitted(&self) -> bool {
+        self.cover_fitted
+    }
+
+    /// The frame axes of a stage, rig coordinates.
+    #[must_use]
+    pub fn axes(&self, stage: Stage) -> [Vec3; 3] {
+        match stage {
+            Stage::Ground => [Vec3::X, Vec3::Y, Vec3::Z],
+            Stage::Primary => self.frames.primary,
+            Stage::Secondary => self.frames.secondary,
+        }
+    }
+
+    /// A stage-frame point in rig coordinates.
+    #[must_use]
+    pub fn to_rig(&self, stage: Stage, local_m: Vec3) -> Vec3 {
+        let [e1, e2, e3] = self.axes(stage);
+        let origin = match stage {
+            Stage::Ground => Vec3::ZERO,
+            _ => self.frames.origin_m,
+        };
+        origin + e1 * local_m.x + e2 * local_m.y + e3 * local_m.z
+    }
+
+    fn present(&self, p: &Part) -> bool {
+        p.role != PartRole::Cover || self.cover_fitted
+    }
+
+    /// The parts present (the cover only while fitted), placed.
+    pub fn parts(&self) -> impl Iterator<Item = PlacedPart> + '_ {
+        let g = self.gravity * STANDARD_GRAVITY_MPS2;
+        self.rig
+            .parts
+            .iter()
+            .filter(move |p| self.present(p))
+            .map(move |p| PlacedPart {
+                part: *p,
+                cg_m: self.to_rig(p.stage, p.cg_m),
+                weight_n: g * p.mass_kg,
+            })
+    }
+
+    /// Total mass present, kg.
+    #[must_use]
+    pub fn mass_kg(&self) -> f32 {
+        self.parts().map(|p| p.part.mass_kg).sum()
+    }
+
+    /// Centre of gravity of everything present, rig frame, metres.
+    #[must_use]
+    pub fn centre_of_gravity_m(&self) -> Vec3 {
+        let mut m = 0.0;
+        let mut s = Vec3::ZERO;
+        for p in self.parts() {
+            m += p.part.mass_kg;
+            s += p.cg_m * p.part.mass_kg;
+        }
+        if m > 0.0 {
+            s * (1.0 / m)
+        } else {
+            Vec3::ZERO
+        }
+    }
+
+    /// Wind forces per unit dynamic pressure: for each exposed part present,
+    /// its centre of pressure (rig frame, m) and the force per pascal (rig
+    /// frame, N/Pa = m²), for a wind from azimuth `from_rad` (meteorological
+    /// convention). The cover, when fitted, hides the bodies marked
+    /// `under_cover`.
+    pub fn wind_loads(&self, from_rad: f32) -> impl Iterator<Item = (Part, Vec3, Vec3)> + '_ {
+        let w = frame::wind_unit(from_rad, self.gravity);
+        self.rig
+            .parts
+            .iter()
+            .filter(move |p| self.present(p) && !(self.cover_fitted && p.under_cover))
+            .filter_map(move |p| {
+                let x = p.exposure?;
+                let axes = self.axes(p.stage);
+                let cp = self.to_rig(p.stage, Vec3::from_array(x.centre_m));
+                Some((*p, cp, w * x.drag_area_m2(&axes, w)))
+            })
+    }
+}
+
+/// Standard gravity times a mass: weight in newtons of `mass_kg`.
+#[must_use]
+pub fn weight_n(mass_kg: f32) -> f32 {
+    mass_kg * STANDARD_GRAVITY_MPS2
+}

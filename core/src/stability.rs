@@ -1,0 +1,671 @@
+//! Overturning and sliding: the static stability of a placed rig under wind.
+//!
+//! **Tipping.** For every edge of the support polygon the moment of each force
+//! about the edge line is computed (sign: positive tips the rig outward over
+//! the edge, see [`Edge::moment_nm`]); each weight is taken as two forces, its
+//! components normal to and along the ground plane, so that on a slope the
+//! downhill pull counts as overturning. Positive moments add up to the
+//! *overturning* moment, negative ones to the *stabilising* moment; tie-downs
+//! on feet off the edge add their rated pull to the stabilising side. The
+//! **utilisation** of an edge is overturning ÷ stabilising: 1.0 is the point of
+//! tipping. The **margin** is stabilising − overturning, N·m. The critical edge
+//! is the one of highest utilisation.
+//!
+//! Gravity moments do not depend on the wind, and wind moments scale with the
+//! dynamic pressure q, so every edge's net moment is G + q·K: the tipping
+//! pressure, and with it the **tip wind speed**, is found in closed form.
+//!
+//! **Sliding.** The force along the ground (weight component from tilt plus
+//! wind) against the static friction of the normal force, μ·N. Tie-downs are
+//! not counted against sliding.
+//!
+//! The model is static and quasi-steady: it uses the wind speed given (use a
+//! gust), rigid parts and no dynamic amplification. It is an estimate.
+
+use crate::error::{Error, ErrorKind};
+use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2, TAU};
+use crate::rig::{Conditions, Placement, Rig};
+use crate::support::{Edge, MAX_FEET};
+use heapless::Vec;
+
+/// Utilisations are capped at this value (reached when nothing stabilises).
+pub const UTILISATION_CAP: f32 = 1.0e6;
+/// Directions in the coarse scan of a full turn (every 5°) before refinement.
+pub const DIRECTION_STEPS: usize = 72;
+
+/// Moments about one edge of the support polygon.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct EdgeLoad {
+    /// Index of the foot the edge starts at (counter-clockwise order).
+    pub from_foot: u8,
+    /// Index of the foot the edge ends at.
+    pub to_foot: u8,
+    /// Azimuth the rig would fall toward over this edge, radians from north
+    /// clockwise.
+    pub outward_azimuth_rad: f32,
+    /// Sum of moments tipping the rig over the edge, N·m, ≥ 0.
+    pub overturning_nm: f32,
+    /// Sum of moments holding it, N·m, ≥ 0.
+    pub stabilising_nm: f32,
+    /// overturning ÷ stabilising (1.0 tips), capped at [`UTILISATION_CAP`].
+    pub utilisation: f32,
+    /// stabilising − overturning, N·m (negative: tipping).
+    pub margin_nm: f32,
+}
+
+/// Sliding check.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct Sliding {
+    /// Force along the ground plane, N.
+    pub tangential_n: f32,
+    /// Force pressing the feet into the ground, N (negative: lift-off).
+    pub normal_n: f32,
+    /// Static friction capacity μ·N, N (0 when lifted).
+    pub capacity_n: f32,
+    /// tangential ÷ capacity (1.0 slides), capped at [`UTILISATION_CAP`].
+    pub utilisation: f32,
+}
+
+/// The stability of a rig in given conditions.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct Assessment {
+    /// Every edge, counter-clockwise.
+    pub edges: Vec<EdgeLoad, MAX_FEET>,
+    /// The edge of highest utilisation.
+    pub critical: EdgeLoad,
+    /// The sliding check.
+    pub sliding: Sliding,
+    /// Dynamic pressure of the wind, Pa.
+    pub dynamic_pressure_pa: f32,
+    /// Magnitude of the total wind force, N.
+    pub wind_force_n: f32,
+    /// Total weight, N.
+    pub weight_n: f32,
+    /// Centre of gravity of the rig, rig frame, metres.
+    pub centre_of_gravity_m: Vec3,
+    /// Wind speed from the same direction that would tip the rig, m/s; `None`
+    /// if wind from this direction cannot tip it; 0 if it tips without wind.
+    pub tip_wind_mps: Option<f32>,
+    /// Wind speed from the same direction that would slide the rig, m/s;
+    /// `None` if it cannot.
+    pub slide_wind_mps: Option<f32>,
+}
+
+/// Gravity and wind moment terms of one edge: net moment = gravity + q·wind.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct EdgeTerms {
+    /// Overturning moment of the weights, N·m.
+    pub gravity_over_nm: f32,
+    /// Stabilising moment of the weights, N·m.
+    pub gravity_stab_nm: f32,
+    /// Overturning wind moment per pascal of dynamic pressure, N·m/Pa.
+    pub wind_over_nm_per_pa: f32,
+    /// Stabilising wind moment per pascal, N·m/Pa.
+    pub wind_stab_nm_per_pa: f32,
+    /// Stabilising moment of the tie-downs of feet off this edge, N·m.
+    pub tie_stab_nm: f32,
+}
+
+impl EdgeTerms {
+    /// Overturning and stabilising moments at dynamic pressure `q_pa`.
+    #[must_use]
+    pub fn at(&self, q_pa: f32) -> (f32, f32) {
+        (
+            self.gravity_over_nm + q_pa * self.wind_over_nm_per_pa,
+            self.gravity_stab_nm + q_pa * self.wind_stab_nm_per_pa + self.tie_stab_nm,
+        )
+    }
+
+    /// Dynamic pressure at which the net moment reaches zero, Pa: 0 if already
+    /// tipping without wind, `None` if wind cannot tip the rig over this edge.
+    #[must_use]
+    pub fn tip_pressure_pa(&self) -> Option<f32> {
+        let base = self.gravity_over_nm - self.gravity_stab_nm - self.tie_stab_nm;
+        let k = self.wind_over_nm_per_pa - self.wind_stab_nm_per_pa;
+        if base >= 0.0 {
+            Some(0.0)
+        } else if k > 0.0 {
+            Some(-base / k)
+        } else {
+            None
+        }
+    }
+}
+
+/// Overturning ÷ stabilising, capped.
+#[must_use]
+pub fn ratio(over: f32, stab: f32) -> f32 {
+    if stab <= over / UTILISATION_CAP || stab <= 0.0 {
+        if over > 0.0 {
+            UTILISATION_CAP
+        } else {
+            0.0
+        }
+    } else {
+        math::clamp(over / stab, 0.0, UTILISATION_CAP)
+    }
+}
+
+fn split(m: f32, over: &mut f32, stab: &mut f32) {
+    if m > 0.0 {
+        *over += m;
+    } else {
+        *stab -= m;
+    }
+}
+
+/// Sums of forces and moments used for sliding and foot reactions.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+struct Resultant {
+    gravity_n: Vec3,
+    gravity_moment_nm: Vec3,
+    wind_n_per_pa: Vec3,
+    wind_moment_nm_per_pa: Vec3,
+}
+
+/// Wind-direction-specific loads on a placed rig.
+#[derive(Clone, Debug)]
+pub struct Loads {
+    terms: Vec<EdgeTerms, MAX_FEET>,
+    resultant: Resultant,
+}
+
+impl Loads {
+    /// Computes the edge terms and resultants for a wind from `from_rad`.
+    #[must_use]
+    pub fn new(placement: &Placement<'_>, from_rad: f32) -> Loads {
+        let support = placement.rig().support();
+        let mut terms: Vec<EdgeTerms, MAX_FEET> = Vec::new();
+        let mut r = Resultant::default();
+        for p in placement.parts() {
+            r.gravity_n += p.weight_n;
+            r.gravity_moment_nm += p.cg_m.cross(p.weight_n);
+        }
+        for (_, cp, f) in placement.wind_loads(from_rad) {
+            r.wind_n_per_pa += f;
+            r.wind_moment_nm_per_pa += cp.cross(f);
+        }
+        for e in support.edges() {
+            let mut t = EdgeTerms::default();
+            for p in placement.parts() {
+                // The weight is split into its parts normal to and along the
+                // ground, so a slope shows as an overturning moment W·sinθ·h
+                // against a stabilising W·cosθ·d, as in slope checks of
+                // mobile cranes and platforms.
+                let normal = Vec3::Z * p.weight_n.z;
+                for f in [normal, p.weight_n - normal] {
+                    split(
+                        e.moment_nm(p.cg_m, f),
+                        &mut t.gravity_over_nm,
+                        &mut t.gravity_stab_nm,
+                    );
+                }
+            }
+            for (_, cp, f) in placement.wind_loads(from_rad) {
+                split(
+                    e.moment_nm(cp, f),
+                    &mut t.wind_over_nm_per_pa,
+                    &mut t.wind_stab_nm_per_pa,
+                );
+            }
+            for (i, foot) in support.feet().iter().enumerate() {
+                if i == usize::from(e.from) || i == usize::from(e.to) || foot.tie_down_n <= 0.0 {
+                    continue;
+                }
+                let at = Vec3::new(foot.position_m[0], foot.position_m[1], 0.0);
+                let m = e.moment_nm(at, Vec3::new(0.0, 0.0, -foot.tie_down_n));
+                if m < 0.0 {
+                    t.tie_stab_nm -= m;
+                }
+            }
+            let _ = terms.push(t);
+        }
+        Loads {
+            terms,
+            resultant: r,
+        }
+    }
+
+    /// The terms of each edge, in the order of [`crate::support::Support::edges`].
+    #[must_use]
+    pub fn terms(&self) -> &[EdgeTerms] {
+        &self.terms
+    }
+
+    /// Lowest dynamic pressure that tips the rig over any edge, Pa, with the
+    /// edge index; `None` if wind from this direction cannot tip it.
+    #[must_use]
+    pub fn tip_pressure_pa(&self) -> Option<(f32, usize)> {
+        let mut best: Option<(f32, usize)> = None;
+        for (i, t) in self.terms.iter().enumerate() {
+            if let Some(q) = t.tip_pressure_pa() {
+                if best.is_none_or(|(b, _)| q < b) {
+                    best = Some((q, i));
+                }
+            }
+        }
+        best
+    }
+
+    /// Highest edge utilisation at dynamic pressure `q_pa`, with the edge index.
+    #[must_use]
+    pub fn max_utilisation(&self, q_pa: f32) -> (f32, usize) {
+        let mut best = (0.0_f32, 0_usize);
+        for (i, t) in self.terms.iter().enumerate() {
+            let (o, s) = t.at(q_pa);
+            let u = ratio(o, s);
+            if u > best.0 {
+                best = (u, i);
+            }
+        }
+        best
+    }
+
+    /// Sliding check at dynamic pressure `q_pa` with friction coefficient `mu`.
+    #[must_use]
+    pub fn sliding(&self, q_pa: f32, mu: f32) -> Sliding {
+        let f = self.resultant.gravity_n + self.resultant.wind_n_per_pa * q_pa;
+        let normal = -f.z;
+        let tangential = math::hypot(f.x, f.y);
+        let capacity = if normal > 0.0 { mu * normal } else { 0.0 };
+        Sliding {
+            tangential_n: tangential,
+            normal_n: normal,
+            capacity_n: capacity,
+            utilisation: ratio(tangential, capacity),
+        }
+    }
+
+    /// Lowest dynamic pressure at which the rig slides, Pa; `None` if it cannot
+    /// (the wind presses it down, or friction grows faster than the push).
+    #[must_use]
+    pub fn slide_pressure_pa(&self, mu: f32) -> Option<f32> {
+        if self.sliding(0.0, mu).utilisation >= 1.0 {
+            return Some(0.0);
+        }
+        // |G + qW|_t = μ·(−(G + qW)_z): a quadratic in q. Bisection on
+        // the monotone part is simpler and robust; bracket by doubling.
+        let mut lo = 0.0_f32;
+        let mut hi = 100.0_f32;
+        let mut found = false;
+        for _ in 0..40 {
+            if self.sliding(hi, mu).utilisation >= 1.0 {
+                found = true;
+                break;
+            }
+            lo = hi;
+            hi *= 2.0;
+            if hi > 1.0e7 {
+                break;
+            }
+        }
+        if !found {
+            return None;
+        }
+        for _ in 0..40 {
+            let mid = 0.5 * (lo + hi);
+            if self.sliding(mid, mu).utilisation >= 1.0 {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        Some(hi)
+    }
+
+    /// Vertical (ground-normal) reaction on each foot of a three-foot support,
+    /// newtons, positive pressing down, at dynamic pressure `q_pa`; `None` for
+    /// other supports (statically indeterminate). A negative value means that
+    /// foot would lift: the rig tips about the opposite edge.
+    #[must_use]
+    pub fn foot_reactions_n(&self, placement: &Placement<'_>, q_pa: f32) -> Option<[f32; 3]> {
+        let s = placement.rig().support();
+        let (p0, p1, p2) = (s.foot_point_m(0)?, s.foot_point_m(1)?, s.foot_point_m(2)?);
+        if s.feet().len() != 3 {
+            return None;
+        }
+        let r = &self.resultant;
+        let f = r.gravity_n + r.wind_n_per_pa * q_pa;
+        let m = r.gravity_moment_nm + r.wind_moment_nm_per_pa * q_pa;
+        // Σ R_i = −F_z ; Σ y_i R_i = −M_x ; Σ −x_i R_i = −M_y  (R_i along +z).
+        let a = [[1.0, 1.0, 1.0], [p0.y, p1.y, p2.y], [-p0.x, -p1.x, -p2.x]];
+        let b = [-f.z, -m.x, -m.y];
+        solve3(a, b)
+    }
+}
+
+fn det3(a: [[f32; 3]; 3]) -> f32 {
+    let [[a00, a01, a02], [a10, a11, a12], [a20, a21, a22]] = a;
+    a00 * (a11 * a22 - a12 * a21) - a01 * (a10 * a22 - a12 * a20) + a02 * (a10 * a21 - a11 * a20)
+}
+
+fn solve3(a: [[f32; 3]; 3], b: [f32; 3]) -> Option<[f32; 3]> {
+    let d = det3(a);
+    if d.abs() < 1e-9 {
+        return None;
+    }
+    let mut out = [0.0; 3];
+    for (k, o) in out.iter_mut().enumerate() {
+        let mut m = a;
+        for (row, bv) in m.iter_mut().zip(b) {
+            if let Some(c) = row.get_mut(k) {
+                *c = bv;
+            }
+        }
+        *o = det3(m) / d;
+    }
+    Some(out)
+}
+
+fn edge_load(e: &Edge, t: &EdgeTerms, q_pa: f32) -> EdgeLoad {
+    let (o, s) = t.at(q_pa);
+    EdgeLoad {
+        from_foot: e.from,
+        to_foot: e.to,
+        outward_azimuth_rad: e.outward_azimuth_rad(),
+        overturning_nm: o,
+        stabilising_nm: s,
+        utilisation: ratio(o, s),
+        margin_nm: s - o,
+    }
+}
+
+/// Scans a full turn of directions for the largest value of `f` (coarse steps
+/// of 5°, then golden-section refinement around the best), returning the value
+/// and the direction in radians [0, 2π).
+pub fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
+    let step = TAU / DIRECTION_STEPS as f32;
+    let mut best = (f32::NEG_INFINITY, 0.0_f32);
+    for k in 0..DIRECTION_STEPS {
+        let d = k as f32 * step;
+        let v = f(d);
+        if v > best.0 {
+            best = (v, d);
+        }
+    }
+    let (mut a, mut b) = (best.1 - step, best.1 + step);
+    let r = 0.618_034_f32;
+    let mut c = b - r * (b - a);
+    let mut d = a + r * (b - a);
+    let (mut fc, mut fd) = (f(c), f(d));
+    for _ in 0..24 {
+        if fc > fd {
+            b = d;
+            d = c;
+            fd = fc;
+            c = b - r * (b - a);
+            fc = f(c);
+        } else {
+            a = c;
+            c = d;
+            fc = fd;
+            d = a + r * (b - a);
+            fd = f(d);
+        }
+    }
+    let (v, x) = if fc > fd { (fc, c) } else { (fd, d) };
+    if v > best.0 {
+        (v, math::wrap_tau(x))
+    } else {
+        (best.0, math::wrap_tau(best.1))
+    }
+}
+
+/// The lowest tip wind speed over all directions.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct WorstWind {
+    /// Lowest wind speed that tips the rig, m/s (`None`: no wind can).
+    pub tip_wind_mps: Option<f32>,
+    /// The direction it blows from, radians from north clockwise.
+    pub from_rad: f32,
+}
+
+/// How much more ground tilt, with no wind, would tip the rig.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct TiltMargin {
+    /// Extra tilt, radians (0 when already tipping). Tie-downs not counted.
+    pub extra_rad: f32,
+    /// Downhill azimuth of that extra tilt in the rig frame, radians.
+    pub downhill_azimuth_rad: f32,
+    /// Index of the edge it tips over.
+    pub edge: u8,
+}
+
+/// Ballast or tie-down needed to meet a target utilisation.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct Requirement {
+    /// Ballast mass, kg, or tie-down pull per foot, N (0: none needed).
+    pub amount: f32,
+    /// Wind direction that governs, radians from north clockwise.
+    pub worst_from_rad: f32,
+}
+
+impl Rig {
+    /// Stability in the given conditions.
+    ///
+    /// # Errors
+    /// Invalid conditions (non-finite or out-of-range wind, tilt, pose, air).
+    pub fn assess(&self, c: &Conditions) -> Result<Assessment, Error> {
+        c.validate()?;
+        let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
+        let loads = Loads::new(&placement, c.wind_from_rad);
+        let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
+        let mut edges: Vec<EdgeLoad, MAX_FEET> = Vec::new();
+        for (e, t) in self.support().edges().iter().zip(loads.terms()) {
+            let _ = edges.push(edge_load(e, t, q));
+        }
+        let critical = edges
+            .iter()
+            .copied()
+            .fold(None, |acc: Option<EdgeLoad>, e| match acc {
+                Some(a) if a.utilisation >= e.utilisation => Some(a),
+                _ => Some(e),
+            })
+            .ok_or(Error::new(ErrorKind::TooFew, "support.feet"))?;
+        let r = loads.resultant;
+        Ok(Assessment {
+            critical,
+            edges,
+            sliding: loads.sliding(q, self.friction_coefficient()),
+            dynamic_pressure_pa: q,
+            wind_force_n: (r.wind_n_per_pa * q).norm(),
+            weight_n: r.gravity_n.norm(),
+            centre_of_gravity_m: placement.centre_of_gravity_m(),
+            tip_wind_mps: loads
+                .tip_pressure_pa()
+                .map(|(qt, _)| c.air.speed_for_pressure_mps(qt)),
+            slide_wind_mps: loads
+                .slide_pressure_pa(self.friction_coefficient())
+                .map(|qs| c.air.speed_for_pressure_mps(qs)),
+        })
+    }
+
+    /// The lowest tip wind speed over all wind directions for a pose, tilt and
+    /// cover state, and the direction it comes from.
+    ///
+    /// # Errors
+    /// Invalid pose or tilt.
+    pub fn worst_wind(&self, c: &Conditions) -> Result<WorstWind, Error> {
+        c.validate()?;
+        let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
+        let (neg_q, from) = scan_directions(|d| {
+            Loads::new(&placement, d)
+                .tip_pressure_pa()
+                .map_or(-f32::MAX, |(q, _)| -q)
+        });
+        let tip = if neg_q <= -f32::MAX {
+            None
+        } else {
+            Some(c.air.speed_for_pressure_mps(-neg_q))
+        };
+        Ok(WorstWind {
+            tip_wind_mps: tip,
+            from_rad: from,
+        })
+    }
+
+    /// The highest edge utilisation over all wind directions at the wind speed
+    /// of `c`, and the direction it comes from (for wind of unknown or
+    /// variable direction).
+    ///
+    /// # Errors
+    /// Invalid conditions.
+    pub fn worst_direction_utilisation(&self, c: &Conditions) -> Result<(f32, f32), Error> {
+        c.validate()?;
+        let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
+        let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
+        Ok(scan_directions(|d| {
+            Loads::new(&placement, d).max_utilisation(q).0
+        }))
+    }
+
+    /// Extra ground tilt that would tip the rig with no wind, and its downhill
+    /// direction. The centre of gravity of everything present must cross an
+    /// edge: for each edge, the angle about the edge line between the present
+    /// up direction and the line from the edge to the centre of gravity.
+    ///
+    /// # Errors
+    /// Invalid pose or tilt.
+    pub fn tilt_margin(&self, c: &Conditions) -> Result<TiltMargin, Error> {
+        c.validate()?;
+        let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
+        let cg = placement.centre_of_gravity_m();
+        let up = -placement.gravity_unit();
+        let mut best: Option<TiltMargin> = None;
+        for (i, e) in self.support().edges().iter().enumerate() {
+            let r = (cg - e.a_m).reject(e.along);
+            let u = up.reject(e.along);
+            // Signed angle from u to r about the edge; positive means the CoG
+            // is on the inner side (stable).
+            let s = u.cross(r).dot(e.along);
+            let angle = math::atan2(-s, u.dot(r));
+            let extra = angle.max(0.0);
+            let m = TiltMargin {
+                extra_rad: extra,
+                downhill_azimuth_rad: e.outward_azimuth_rad(),
+                edge: i as u8,
+            };
+            if best.is_none_or(|b| extra < b.extra_rad) {
+                best = Some(m);
+            }
+        }
+        best.ok_or(Error::new(ErrorKind::TooFew, "support.feet"))
+    }
+
+    /// Ballast mass at `position_m` (rig frame) needed to keep every edge's
+    /// utilisation at or below `target` for a wind of `design_speed_mps` from
+    /// the worst direction, in the pose, tilt, cover state and air of `c`
+    /// (its wind speed and direction are ignored).
+    ///
+    /// # Errors
+    /// Invalid conditions or target (0.1 to 1.0); [`ErrorKind::Unreachable`]
+    /// when the position lies outside the support polygon.
+    pub fn ballast_needed(
+        &self,
+        c: &Conditions,
+        design_speed_mps: f32,
+        target: f32,
+        position_m: Vec3,
+    ) -> Result<Requirement, Error> {
+        c.validate()?;
+        Error::check("design_speed_mps", design_speed_mps, 0.0, 100.0)?;
+        Error::check("target_utilisation", target, 0.1, 1.0)?;
+        Error::check_vec("ballast.position_m", position_m, -5.0, 5.0)?;
+        if self
+            .support()
+            .inset_m(Vec3::new(position_m.x, position_m.y, 0.0))
+            <= 0.0
+        {
+            let mut e = Error::new(ErrorKind::Unreachable, "ballast.position_m");
+            e.value = position_m.x;
+            return Err(e);
+        }
+        let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
+        let q = c.air.dynamic_pressure_pa(design_speed_mps);
+        let g = placement.gravity_unit() * STANDARD_GRAVITY_MPS2;
+        let edges = self.support().edges();
+        let (mass, from) = scan_directions(|d| {
+            let loads = Loads::new(&placement, d);
+            let mut need = 0.0_f32;
+            for (e, t) in edges.iter().zip(loads.terms()) {
+                let (o, s) = t.at(q);
+                let per_kg = -e.moment_nm(position_m, g);
+                if o > target * s && per_kg > 0.0 {
+                    need = need.max((o - target * s) / (target * per_kg));
+                }
+            }
+            need
+        });
+        Ok(Requirement {
+            amount: mass,
+            worst_from_rad: from,
+        })
+    }
+
+    /// Tie-down pull per foot, the same on every foot, needed to keep every
+    /// edge's utilisation at or below `target` for a wind of
+    /// `design_speed_mps` from the worst direction; present tie-downs are
+    /// replaced, not added to.
+    ///
+    /// # Errors
+    /// Invalid conditions or target.
+    pub fn tie_down_needed(
+        &self,
+        c: &Conditions,
+        design_speed_mps: f32,
+        target: f32,
+    ) -> Result<Requirement, Error> {
+        c.validate()?;
+        Error::check("design_speed_mps", design_speed_mps, 0.0, 100.0)?;
+        Error::check("target_utilisation", target, 0.1, 1.0)?;
+        let bare = self.with_tie_downs(0.0)?;
+        let placement = bare.place(c.pose, c.tilt, c.cover_fitted)?;
+        let q = c.air.dynamic_pressure_pa(design_speed_mps);
+        let support = bare.support();
+        let (pull, from) = scan_directions(|d| {
+            let loads = Loads::new(&placement, d);
+            let mut need = 0.0_f32;
+            for (e, t) in support.edges().iter().zip(loads.terms()) {
+                let (o, s) = t.at(q);
+                let arm: f32 = (0..support.feet().len())
+                    .filter(|&i| i != usize::from(e.from) && i != usize::from(e.to))
+                    .filter_map(|i| support.foot_point_m(i))
+                    .map(|p| e.inset_m(p).max(0.0))
+                    .sum();
+                if o > target * s && arm > 0.0 {
+                    need = need.max((o - target * s) / (target * arm));
+                }
+            }
+            need
+        });
+        Ok(Requirement {
+            amount: pull,
+            worst_from_rad: from,
+        })
+    }
+
+    /// Vertical reaction on each foot of a three-foot support in conditions
+    /// `c`, newtons (positive presses down); `None` for other supports.
+    ///
+    /// # Errors
+    /// Invalid conditions.
+    pub fn foot_reactions_n(&self, c: &Conditions) -> Result<Option<[f32; 3]>, Error> {
+        c.validate()?;
+        let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
+        let loads = Loads::new(&placement, c.wind_from_rad);
+        Ok(loads.foot_reactions_n(&placement, c.air.dynamic_pressure_pa(c.wind_speed_mps)))
+    }
+}

@@ -1,0 +1,311 @@
+//! Overturning and sliding against textbook statics, and invariances.
+
+use crate::fixtures::{altaz, feet_of, post_rig};
+use approx::{assert_abs_diff_eq, assert_relative_eq};
+use standfast::air::Air;
+use standfast::frame::Tilt;
+use standfast::math::{deg_to_rad, STANDARD_GRAVITY_MPS2};
+use standfast::rig::{Conditions, Rig};
+use standfast::support::{Foot, Support};
+
+fn wind(pose: standfast::mount::Pose, speed: f32, from_deg: f32) -> Conditions {
+    Conditions {
+        wind_speed_mps: speed,
+        wind_from_rad: deg_to_rad(from_deg),
+        ..Conditions::calm(pose)
+    }
+}
+
+/// Tripod tipping by wind: a 40 kg rig, feet on a 0.5 m circle, wind force
+/// centred 1.5 m up with Cd·A = 0.222 m². The resultant leaves the triangle when
+/// F·H = W·ρ(θ), with ρ = r = R/2 for wind toward the middle of an edge and
+/// ρ = R toward a foot. This is the block-tipping condition F·h = W·b/2 of
+/// Beer & Johnston, *Vector Mechanics for Engineers: Statics*, ch. 8 (friction,
+/// tipping versus sliding), applied to the triangle's inradius and
+/// circumradius. F_tip = 65.38 N → q = 294.5 Pa → V = 21.9 m/s at ρ = 1.225.
+#[test]
+fn tripod_tip_wind_matches_hand_statics() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let pose = altaz(0.0, 0.0);
+    // Wind from the north pushes south, toward the middle of the southern edge
+    // (the first foot points north, upwind).
+    let a = rig.assess(&wind(pose, 10.0, 0.0)).unwrap();
+    let w = 40.0 * STANDARD_GRAVITY_MPS2;
+    let f_tip = w * 0.25 / 1.5;
+    assert_relative_eq!(f_tip, 65.38, max_relative = 1e-3);
+    let v = (2.0 * f_tip / 0.222 / 1.225_f32).sqrt();
+    assert_relative_eq!(v, 21.9, max_relative = 2e-3);
+    assert_relative_eq!(a.tip_wind_mps.unwrap(), v, max_relative = 1e-4);
+    // Wind from the south pushes toward the north foot: arm R = 2r, so the tip
+    // pressure doubles and the speed grows by √2.
+    let b = rig.assess(&wind(pose, 10.0, 180.0)).unwrap();
+    assert_relative_eq!(
+        b.tip_wind_mps.unwrap(),
+        v * 2f32.sqrt(),
+        max_relative = 1e-4
+    );
+    // The weakest direction over a full turn is an edge-normal one.
+    let worst = rig.worst_wind(&wind(pose, 0.0, 0.0)).unwrap();
+    assert_relative_eq!(worst.tip_wind_mps.unwrap(), v, max_relative = 1e-3);
+    let k = (worst.from_rad.to_degrees() / 120.0).round() * 120.0;
+    assert_abs_diff_eq!(worst.from_rad.to_degrees(), k, epsilon = 0.5);
+    // Sliding needs μ·W = 196.1 N, three times the tipping force: tips first
+    // because H = 1.5 m > r/μ = 0.5 m (same textbook criterion).
+    assert!(a.slide_wind_mps.unwrap() > a.tip_wind_mps.unwrap());
+}
+
+/// Tipping versus sliding of a block: Mississippi State University, Virtual
+/// Lab Statics Module (VLSM), friction example 3, after Beer & Johnston ch. 8:
+/// W = 250 lb, base 32 in, push at h = 66 in, μs = 0.4. Tipping force
+/// P = 250·16/66 = 60.6 lb, below the 100 lb friction limit: it tips first.
+/// Example 1 of the same module: h = 60 in, P = 60 lb, μs = 0.3: at rest.
+#[test]
+fn block_tips_before_sliding_vlsm_examples() {
+    let inch = 0.0254_f32;
+    let lbf = 4.448_221_6_f32; // NIST SP 811: 1 lbf = 4.448 221 615 N
+    let kg = 250.0 * lbf / STANDARD_GRAVITY_MPS2;
+    let half = 16.0 * inch;
+    let feet = [[half, half], [-half, half], [-half, -half], [half, -half]].map(|p| Foot {
+        position_m: p,
+        tie_down_n: 0.0,
+    });
+    let support = Support::new(&feet).unwrap();
+    let cd_a = 0.1_f32;
+    for (h_in, mu, p_lbf, tips, slides) in [
+        (66.0, 0.4, 60.6, true, false),
+        (60.0, 0.3, 60.0, false, false),
+    ] {
+        let spec = post_rig(&support, kg, [0.0, 0.0, 0.3], cd_a, h_in * inch, mu);
+        let rig = Rig::new(&spec).unwrap();
+        // Push east: wind from the west. P = q·Cd·A.
+        let q = p_lbf * lbf / cd_a;
+        let speed = Air::default().speed_for_pressure_mps(q);
+        let a = rig.assess(&wind(altaz(0.0, 0.0), speed, 270.0)).unwrap();
+        assert_eq!(a.critical.utilisation >= 0.999, tips, "h = {h_in} in");
+        assert_eq!(a.sliding.utilisation >= 1.0, slides, "h = {h_in} in");
+        // Tipping force from the closed form W·(b/2)/h.
+        let p_tip = 250.0 * 16.0 / h_in;
+        let q_tip = p_tip * lbf / cd_a;
+        assert_relative_eq!(
+            a.tip_wind_mps.unwrap(),
+            Air::default().speed_for_pressure_mps(q_tip),
+            max_relative = 1e-4
+        );
+        // Sliding force μ·W.
+        let q_slide = mu * 250.0 * lbf / cd_a;
+        assert_relative_eq!(
+            a.slide_wind_mps.unwrap(),
+            Air::default().speed_for_pressure_mps(q_slide),
+            max_relative = 1e-3
+        );
+    }
+}
+
+/// Inradius of an equilateral foot triangle of side L is L/(2√3) and half the
+/// circumradius L/√3 (Euclid; any geometry handbook, e.g. the CRC Standard
+/// Mathematical Tables, "regular polygons").
+#[test]
+fn equilateral_inradius() {
+    for side in [0.6_f32, 0.866, 1.2] {
+        let s = Support::tripod_from_spread(side, 0.7).unwrap();
+        for e in s.edges() {
+            assert_relative_eq!(
+                e.inset_m(standfast::Vec3::ZERO),
+                side / (2.0 * 3f32.sqrt()),
+                max_relative = 1e-5
+            );
+        }
+    }
+}
+
+/// Foot reactions of a three-foot support are statically determinate: with
+/// the weight over the centroid each foot carries W/3; the upwind foot goes
+/// light first and reaches zero exactly at the tip wind speed
+/// (statics; common practice, no source).
+#[test]
+fn upwind_foot_goes_light_at_tip() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let pose = altaz(0.0, 0.0);
+    let r = rig
+        .foot_reactions_n(&Conditions::calm(pose))
+        .unwrap()
+        .unwrap();
+    for x in r {
+        assert_relative_eq!(x, 40.0 * STANDARD_GRAVITY_MPS2 / 3.0, max_relative = 1e-4);
+    }
+    let tip = rig
+        .assess(&wind(pose, 1.0, 0.0))
+        .unwrap()
+        .tip_wind_mps
+        .unwrap();
+    let at_tip = rig
+        .foot_reactions_n(&wind(pose, tip, 0.0))
+        .unwrap()
+        .unwrap();
+    // Foot 0 points north, upwind.
+    assert_abs_diff_eq!(at_tip[0], 0.0, epsilon = 0.05);
+    let total: f32 = at_tip.iter().sum();
+    assert_relative_eq!(total, 40.0 * STANDARD_GRAVITY_MPS2, max_relative = 1e-4);
+}
+
+/// Extra tilt to tip with no wind: a centre of gravity h above the ground and
+/// d inside an edge tips at atan(d/h) (statics; common practice, no source).
+#[test]
+fn tilt_margin_is_atan_d_over_h() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 1.0], 0.222, 1.5, 0.5)).unwrap();
+    let m = rig.tilt_margin(&Conditions::calm(altaz(0.0, 0.0))).unwrap();
+    assert_relative_eq!(m.extra_rad, (0.25_f32 / 1.0).atan(), max_relative = 1e-4);
+    // Tilting the ground by most of that margin toward the same edge leaves
+    // the rest.
+    let tilt = Tilt::new(0.2, m.downhill_azimuth_rad).unwrap();
+    let c = Conditions {
+        tilt,
+        ..Conditions::calm(altaz(0.0, 0.0))
+    };
+    let m2 = rig.tilt_margin(&c).unwrap();
+    assert_relative_eq!(m2.extra_rad, m.extra_rad - 0.2, max_relative = 1e-3);
+    // On the slope the downhill pull W·sinθ·h overturns against W·cosθ·d:
+    // utilisation tanθ·h/d, reaching 1 exactly at the tilt margin.
+    let u = rig.assess(&c).unwrap().critical.utilisation;
+    assert_relative_eq!(u, 0.2_f32.tan() * 1.0 / 0.25, max_relative = 1e-3);
+}
+
+/// Invariance: turning the whole rig (feet, bodies, pose azimuth, ground tilt)
+/// and the wind together about the vertical leaves every result unchanged
+/// (rotational symmetry of statics; common practice, no source).
+#[test]
+fn rotating_rig_and_wind_together_changes_nothing() {
+    let feet = [[0.6, 0.1], [-0.2, 0.5], [-0.3, -0.45], [0.25, -0.5]];
+    let mk = |turn_deg: f32| {
+        let turned: standfast::heapless::Vec<Foot, 8> = feet
+            .iter()
+            .map(|p| Foot {
+                position_m: standfast::support::rotate_cw(*p, deg_to_rad(turn_deg)),
+                tie_down_n: 50.0,
+            })
+            .collect();
+        let s = Support::new(&turned).unwrap();
+        let cg = standfast::support::rotate_cw([0.05, -0.03], deg_to_rad(turn_deg));
+        let mut spec = post_rig(&s, 25.0, [cg[0], cg[1], 0.9], 0.3, 1.3, 0.6);
+        spec.feet = feet_of(&s);
+        Rig::new(&spec).unwrap()
+    };
+    for turn in [0.0_f32, 37.0, 200.0] {
+        let rig = mk(turn);
+        let c = Conditions {
+            tilt: Tilt::new(0.03, deg_to_rad(70.0 + turn)).unwrap(),
+            ..wind(altaz(20.0 + turn, 30.0), 14.0, 250.0 + turn)
+        };
+        let a = rig.assess(&c).unwrap();
+        let base = mk(0.0)
+            .assess(&Conditions {
+                tilt: Tilt::new(0.03, deg_to_rad(70.0)).unwrap(),
+                ..wind(altaz(20.0, 30.0), 14.0, 250.0)
+            })
+            .unwrap();
+        assert_relative_eq!(
+            a.critical.utilisation,
+            base.critical.utilisation,
+            max_relative = 1e-4
+        );
+        assert_relative_eq!(
+            a.sliding.utilisation,
+            base.sliding.utilisation,
+            max_relative = 1e-4
+        );
+        assert_relative_eq!(
+            a.tip_wind_mps.unwrap(),
+            base.tip_wind_mps.unwrap(),
+            max_relative = 1e-4
+        );
+        assert_relative_eq!(
+            a.critical.margin_nm,
+            base.critical.margin_nm,
+            max_relative = 1e-4
+        );
+    }
+}
+
+/// Mass added on the vertical axis of a rig on level ground never lowers
+/// stability: its weight acts at the origin, inside every edge (statics;
+/// common practice, no source).
+#[test]
+fn mass_on_vertical_axis_never_lowers_stability() {
+    let support = Support::tripod(0.45, 0.2).unwrap();
+    let rig = Rig::new(&post_rig(&support, 20.0, [0.05, 0.02, 1.0], 0.25, 1.4, 0.5)).unwrap();
+    for from in [0.0_f32, 45.0, 133.0, 290.0] {
+        let c = wind(altaz(0.0, 0.0), 12.0, from);
+        let before = rig.assess(&c).unwrap();
+        for (m, z) in [(1.0_f32, 0.1_f32), (5.0, 0.6), (10.0, 1.5)] {
+            let heavier = rig
+                .with_ballast(m, standfast::Vec3::new(0.0, 0.0, z))
+                .unwrap();
+            let after = heavier.assess(&c).unwrap();
+            assert!(after.critical.utilisation <= before.critical.utilisation + 1e-6);
+            assert!(after.tip_wind_mps.unwrap() >= before.tip_wind_mps.unwrap() - 1e-4);
+        }
+    }
+}
+
+/// Wind load grows as V² (q = ½ρV²), so with no overturning part from gravity
+/// the utilisation does too (common practice, no source).
+#[test]
+fn utilisation_grows_as_v_squared() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let u = |v: f32| {
+        rig.assess(&wind(altaz(0.0, 0.0), v, 17.0))
+            .unwrap()
+            .critical
+            .utilisation
+    };
+    for v in [2.0_f32, 5.0, 9.0] {
+        assert_relative_eq!(u(2.0 * v) / u(v), 4.0, max_relative = 1e-4);
+    }
+}
+
+/// Ballast to meet a design gust: with the ballast found, the worst-direction
+/// utilisation equals the target; 10 % less ballast exceeds it. The needed mass
+/// follows in closed form for the symmetric tripod: W_b·r = O/u − W·r.
+#[test]
+fn ballast_needed_meets_target_exactly() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let c = Conditions::calm(altaz(0.0, 0.0));
+    let need = rig
+        .ballast_needed(&c, 25.0, 0.8, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .unwrap();
+    let q = Air::default().dynamic_pressure_pa(25.0);
+    let over = q * 0.222 * 1.5;
+    let closed =
+        (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / (STANDARD_GRAVITY_MPS2 * 0.25);
+    assert_relative_eq!(need.amount, closed, max_relative = 1e-3);
+    let ok = rig
+        .with_ballast(need.amount, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .unwrap();
+    let (u, _) = ok
+        .worst_direction_utilisation(&Conditions {
+            wind_speed_mps: 25.0,
+            ..c
+        })
+        .unwrap();
+    assert_relative_eq!(u, 0.8, max_relative = 1e-3);
+    let short = rig
+        .with_ballast(0.9 * need.amount, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .unwrap();
+    let (u2, _) = short
+        .worst_direction_utilisation(&Conditions {
+            wind_speed_mps: 25.0,
+            ..c
+        })
+        .unwrap();
+    assert!(u2 > 0.8);
+    // Tie-downs: about the edge opposite the upwind foot only that foot is off
+    // the edge, at the triangle's height 3r = 0.75 m from it.
+    let tie = rig.tie_down_needed(&c, 25.0, 0.8).unwrap();
+    let closed_t = (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / 0.75;
+    assert_relative_eq!(tie.amount, closed_t, max_relative = 1e-3);
+}
