@@ -7,7 +7,7 @@ use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 /// Tube direction for hour angle, declination and latitude, against the
 /// SOFA/ERFA routine `eraHd2ae` as wrapped by pyerfa 2.0.1.5 (PyPI), frozen
 /// here: (H°, δ°, φ°, azimuth° from north through east, altitude°).
-const ERFA_HD2AE: [(f32, f32, f32, f32, f32); 7] = [
+const ERFA_HD2AE: [(f64, f64, f64, f64, f64); 7] = [
     (0.0, 0.0, 45.0, 180.000000, 45.000000),
     (30.0, 20.0, 52.0, 227.488211, 50.402354),
     (-45.0, 60.0, -33.0, 21.045237, -10.087761),
@@ -19,7 +19,14 @@ const ERFA_HD2AE: [(f32, f32, f32, f32, f32); 7] = [
 
 #[test]
 fn tube_direction_matches_erfa_hd2ae_on_both_pier_sides() {
-    for (h, d, lat, az, alt) in ERFA_HD2AE {
+    for row in ERFA_HD2AE {
+        let (h, d, lat, az, alt) = (
+            row.0 as f32,
+            row.1 as f32,
+            row.2 as f32,
+            row.3 as f32,
+            row.4 as f32,
+        );
         for side in [PierSide::TubeEast, PierSide::TubeWest] {
             for kind in [MountKind::Equatorial, MountKind::AltAzimuth] {
                 let m = MountGeometry {
