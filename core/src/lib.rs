@@ -14,6 +14,7 @@
 #![cfg_attr(docsrs, feature(doc_cfg))]
 
 pub mod air;
+pub mod drive;
 pub mod error;
 pub mod frame;
 pub mod hardware;

@@ -8,6 +8,7 @@
 //! a centre of gravity and optionally a wind-exposed shape.
 
 use crate::air::Air;
+use crate::drive::Drives;
 use crate::error::{Error, ErrorKind};
 use crate::frame::{self, Tilt};
 use crate::math::{Vec3, STANDARD_GRAVITY_MPS2};
@@ -197,6 +198,9 @@ pub struct RigSpec {
     /// Ballast items.
     #[cfg_attr(feature = "serde", serde(default))]
     pub ballast: Vec<BallastSpec, MAX_BALLAST>,
+    /// Drive ratings of the two axes, if known.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub drives: Option<Drives>,
 }
 
 /// What a part is, for reports and for the cover and balance logic.
@@ -244,6 +248,7 @@ pub struct Rig {
     mount: MountGeometry,
     friction_coefficient: f32,
     parts: Vec<Part, MAX_PARTS>,
+    drives: Option<Drives>,
 }
 
 /// The conditions the rig stands in: pose, ground tilt, wind and air.
@@ -483,6 +488,9 @@ impl Rig {
                 "ballast",
             )?;
         }
+        if let Some(d) = &spec.drives {
+            d.validate()?;
+        }
         if parts.is_empty() {
             let mut e = Error::new(ErrorKind::TooFew, "bodies");
             e.min = 1.0;
@@ -493,6 +501,7 @@ impl Rig {
             mount: spec.mount,
             friction_coefficient: spec.friction_coefficient,
             parts,
+            drives: spec.drives,
         })
     }
 
@@ -512,6 +521,12 @@ impl Rig {
     #[must_use]
     pub fn friction_coefficient(&self) -> f32 {
         self.friction_coefficient
+    }
+
+    /// Drive ratings, if the description gave them.
+    #[must_use]
+    pub fn drives(&self) -> Option<&Drives> {
+        self.drives.as_ref()
     }
 
     /// All parts, the cover among them.

@@ -56,6 +56,7 @@ pub fn post_rig(
         shaft: None,
         cover: None,
         ballast: standfast::heapless::Vec::new(),
+        drives: None,
     }
 }
 
