@@ -1,0 +1,185 @@
+//! The assessment: what the samples of one step mean for the rig.
+//!
+//! **Plug-in point for the guard.** The station calls [`Assess::assess`] once
+//! per step with the samples that arrived in that step and drives the lines
+//! from the returned [`Assessment`] (sensor faults override it toward park and
+//! alarm). The `standfast` guard plugs in by one adapter type implementing
+//! [`Assess`]: it converts [`Samples`] into the guard's samples (specific force
+//! in g → m/s², the optional wind and pose), calls the guard's step with
+//! `samples.t_ms`, and maps the verdict's staged state to `park`, `alarm` and
+//! a stage name. Nothing else in the station changes.
+//!
+//! Until then, and as an independent backstop after, [`LimitRule`] applies
+//! fixed limits on wind speed and ground tilt. It knows nothing of the rig's
+//! stability: its limits must come from an assessment of the rig.
+
+use crate::pose::MountPose;
+use standfast::math::Vec3;
+use standfast::{Error, Tilt};
+
+/// A wind reading: the mean over one anemometer gate window.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct WindSample {
+    /// Mean horizontal wind speed over the gate window, m/s, ≥ 0.
+    pub speed_mps: f32,
+    /// Azimuth the wind blows from, radians from north clockwise (rig frame);
+    /// `None` when the vane could not be read.
+    pub from_rad: Option<f32>,
+}
+
+/// The samples that arrived in one step. `None` means "nothing new this step",
+/// either because the sensor has no new reading yet or because it failed; the
+/// station reports failures separately as faults.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Samples {
+    /// Time of the step, milliseconds on the station's clock.
+    pub t_ms: u64,
+    /// Specific force measured by the accelerometer, g (1 g = 9.80665 m/s²),
+    /// rig frame (x east, y north, z up); about (0, 0, +1) at rest on level
+    /// ground.
+    pub accel_g: Option<Vec3>,
+    /// Wind, when an anemometer gate window completed in this step.
+    pub wind: Option<WindSample>,
+    /// Mount pose, when the mount controller reported one in this step.
+    pub pose: Option<MountPose>,
+}
+
+/// What the assessment asks of the lines, and the name of its stage.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Assessment {
+    /// Request a park.
+    pub park: bool,
+    /// Raise the alarm.
+    pub alarm: bool,
+    /// Name of the current stage, for events (lower case, no spaces).
+    pub stage: &'static str,
+}
+
+/// Anything that turns one step's samples into an [`Assessment`].
+pub trait Assess {
+    /// Assesses the samples of one step. Called exactly once per step, with
+    /// non-decreasing `samples.t_ms`.
+    fn assess(&mut self, samples: &Samples) -> Assessment;
+}
+
+/// Limits for [`LimitRule`].
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Limits {
+    /// Request a park when a gate-mean wind speed reaches this, m/s.
+    pub park_wind_mps: f32,
+    /// Raise the alarm (and park) when a gate-mean wind speed reaches this, m/s.
+    pub alarm_wind_mps: f32,
+    /// Raise the alarm (and park) when the ground tilt reaches this, radians.
+    pub alarm_tilt_rad: f32,
+    /// Keep a request until this long after the last sample over its limit
+    /// (inclusive), ms.
+    pub hold_ms: u32,
+}
+
+impl Limits {
+    /// Validated limits.
+    ///
+    /// # Errors
+    /// Park wind outside 1 to 60 m/s, alarm wind below the park wind or above
+    /// 80 m/s, tilt outside 0.1 mrad to 45°, or a hold over one day.
+    pub fn new(
+        park_wind_mps: f32,
+        alarm_wind_mps: f32,
+        alarm_tilt_rad: f32,
+        hold_ms: u32,
+    ) -> Result<Self, Error> {
+        Error::check("limits.park_wind_mps", park_wind_mps, 1.0, 60.0)?;
+        Error::check("limits.alarm_wind_mps", alarm_wind_mps, park_wind_mps, 80.0)?;
+        Error::check(
+            "limits.alarm_tilt_rad",
+            alarm_tilt_rad,
+            1e-4,
+            standfast::frame::MAX_TILT_RAD,
+        )?;
+        if hold_ms > 86_400_000 {
+            return Err(Error {
+                value: 86_400_001.0,
+                min: 0.0,
+                max: 86_400_000.0,
+                ..Error::new(standfast::ErrorKind::OutOfRange, "limits.hold_ms")
+            });
+        }
+        Ok(Limits {
+            park_wind_mps,
+            alarm_wind_mps,
+            alarm_tilt_rad,
+            hold_ms,
+        })
+    }
+}
+
+/// Fixed limits on wind speed and ground tilt, with a hold time.
+///
+/// Stages: `clear`, `park` (a gate-mean wind at or over the park limit within
+/// the hold time) and `alarm` (the alarm wind limit or the tilt limit, within
+/// the hold time; also parks). A specific force whose tilt cannot be computed
+/// (zero, non-finite, or tilted over 45°: the rig is down) counts as over the
+/// tilt limit.
+#[derive(Clone, Copy, Debug)]
+pub struct LimitRule {
+    limits: Limits,
+    park_until_ms: Option<u64>,
+    alarm_until_ms: Option<u64>,
+}
+
+impl LimitRule {
+    /// A rule with `limits`, starting clear.
+    #[must_use]
+    pub const fn new(limits: Limits) -> Self {
+        LimitRule {
+            limits,
+            park_until_ms: None,
+            alarm_until_ms: None,
+        }
+    }
+
+    /// The limits.
+    #[must_use]
+    pub const fn limits(&self) -> Limits {
+        self.limits
+    }
+}
+
+impl Assess for LimitRule {
+    fn assess(&mut self, s: &Samples) -> Assessment {
+        let until = s.t_ms.saturating_add(u64::from(self.limits.hold_ms));
+        let mut alarm_hit = false;
+        let mut park_hit = false;
+        if let Some(w) = s.wind {
+            park_hit |= w.speed_mps >= self.limits.park_wind_mps;
+            alarm_hit |= w.speed_mps >= self.limits.alarm_wind_mps;
+        }
+        if let Some(a) = s.accel_g {
+            // Gravity points opposite to the specific force at rest.
+            alarm_hit |= match Tilt::from_gravity(-a) {
+                Ok(t) => t.magnitude_rad >= self.limits.alarm_tilt_rad,
+                Err(_) => true,
+            };
+        }
+        if alarm_hit {
+            self.alarm_until_ms = Some(until);
+        }
+        if park_hit || alarm_hit {
+            self.park_until_ms = Some(until);
+        }
+        let alarm = self.alarm_until_ms.is_some_and(|u| s.t_ms <= u);
+        let park = alarm || self.park_until_ms.is_some_and(|u| s.t_ms <= u);
+        let stage = if alarm {
+            "alarm"
+        } else if park {
+            "park"
+        } else {
+            "clear"
+        };
+        Assessment { park, alarm, stage }
+    }
+}

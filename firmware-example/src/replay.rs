@@ -1,0 +1,573 @@
+//! Replay of a recorded log through the station, for the emulated board and
+//! for host runs of the same code.
+//!
+//! The hardware is replaced at the trait boundary, nowhere else: an emulated
+//! LIS3DH register file behind [`embedded_hal::i2c::I2c`] (so the driver's
+//! transactions and scaling run unchanged), pins that hold a level, and a vane
+//! that returns the logged direction. Time is the log's time.
+//!
+//! **Log format** (CSV, one header line, `#` lines are comments, blank lines
+//! skipped):
+//!
+//! ```text
+//! t_ms,accel_x,accel_y,accel_z,pulse_total,vane_from_deg,ha_deg,dec_deg
+//! ```
+//!
+//! - `t_ms`: milliseconds, non-decreasing.
+//! - `accel_x..z`: the accelerometer's raw output words (signed 16-bit, left
+//!   justified, as OUT_X_L/H..OUT_Z_L/H hold them, sensor frame). All three
+//!   empty: the sensor does not acknowledge its address in this row.
+//! - `pulse_total`: the anemometer's running pulse total; empty when the
+//!   counter delivered nothing in this row.
+//! - `vane_from_deg`: azimuth the wind blows from, degrees; empty when the
+//!   vane cannot be read.
+//! - `ha_deg,dec_deg`: mount pose in degrees when the mount reported one;
+//!   both empty otherwise.
+
+use crate::assess::{Limits, LimitRule};
+use crate::lis3dh::{self, Lis3dh, RawSample};
+use crate::lines::FailSafeLines;
+use crate::pose::MountPose;
+use crate::station::{AxisMap, Station, StationConfig, StepInputs, StepReport};
+use crate::wind::{Anemometer, AnemometerCal, PulseLatch, WindVane};
+use core::convert::Infallible;
+use core::fmt;
+use embedded_hal::digital::{ErrorType as PinErrorType, OutputPin};
+use embedded_hal::i2c::{self, ErrorKind, NoAcknowledgeSource, Operation};
+use standfast::math;
+
+/// The header line a replay log must start with (after comments).
+pub const HEADER: &str = "t_ms,accel_x,accel_y,accel_z,pulse_total,vane_from_deg,ha_deg,dec_deg";
+
+/// A LIS3DH register file on an emulated I2C bus: answers WHO_AM_I, keeps
+/// written control registers, serves the output registers, auto-increments the
+/// sub-address when its bit 7 is set, and can be told not to acknowledge.
+#[derive(Clone, Debug)]
+pub struct EmulatedLis3dh {
+    address: u8,
+    regs: [u8; 0x40],
+    responding: bool,
+}
+
+impl EmulatedLis3dh {
+    /// A powered-up sensor at 7-bit `address` with zero output.
+    #[must_use]
+    pub fn new(address: u8) -> Self {
+        let mut regs = [0u8; 0x40];
+        if let Some(r) = regs.get_mut(usize::from(lis3dh::reg::WHO_AM_I)) {
+            *r = lis3dh::WHO_AM_I_VALUE;
+        }
+        // CTRL_REG1 resets to 0x07 (power-down, axes enabled), from memory.
+        if let Some(r) = regs.get_mut(usize::from(lis3dh::reg::CTRL_REG1)) {
+            *r = 0x07;
+        }
+        EmulatedLis3dh {
+            address,
+            regs,
+            responding: true,
+        }
+    }
+
+    /// Sets the output registers to `raw`, or makes the sensor stop
+    /// acknowledging (`None`) until the next call with `Some`.
+    pub fn set_output(&mut self, raw: Option<RawSample>) {
+        self.responding = raw.is_some();
+        if let Some(raw) = raw {
+            let base = usize::from(lis3dh::reg::OUT_X_L);
+            for (i, b) in raw.to_bytes().into_iter().enumerate() {
+                if let Some(r) = self.regs.get_mut(base + i) {
+                    *r = b;
+                }
+            }
+        }
+    }
+
+    /// A register's current value.
+    #[must_use]
+    pub fn register(&self, sub_address: u8) -> u8 {
+        self.regs
+            .get(usize::from(sub_address & 0x3F))
+            .copied()
+            .unwrap_or(0)
+    }
+
+    /// Whether a register accepts writes (the control and threshold registers).
+    const fn writable(sub: u8) -> bool {
+        matches!(sub, 0x1E..=0x26 | 0x2E | 0x30..=0x3F)
+    }
+}
+
+impl i2c::ErrorType for EmulatedLis3dh {
+    type Error = ErrorKind;
+}
+
+impl i2c::I2c for EmulatedLis3dh {
+    fn transaction(
+        &mut self,
+        address: u8,
+        operations: &mut [Operation<'_>],
+    ) -> Result<(), Self::Error> {
+        if address != self.address || !self.responding {
+            return Err(ErrorKind::NoAcknowledge(NoAcknowledgeSource::Address));
+        }
+        let mut sub: Option<u8> = None;
+        let mut increment = false;
+        for op in operations {
+            match op {
+                Operation::Write(bytes) => {
+                    for &b in bytes.iter() {
+                        match sub {
+                            None => {
+                                sub = Some(b & 0x7F);
+                                increment = b & 0x80 != 0;
+                            }
+                            Some(s) => {
+                                if Self::writable(s) {
+                                    if let Some(r) = self.regs.get_mut(usize::from(s)) {
+                                        *r = b;
+                                    }
+                                }
+                                if increment {
+                                    sub = Some((s + 1) & 0x3F);
+                                }
+                            }
+                        }
+                    }
+                }
+                Operation::Read(buf) => {
+                    let mut s = sub.unwrap_or(0);
+                    for b in buf.iter_mut() {
+                        *b = self.register(s);
+                        if increment {
+                            s = (s + 1) & 0x3F;
+                        }
+                    }
+                    sub = Some(s);
+                }
+            }
+        }
+        Ok(())
+    }
+}
+
+/// An output pin that only remembers its level.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct MemoryPin {
+    /// Current level: `true` high (energised).
+    pub high: bool,
+}
+
+impl PinErrorType for MemoryPin {
+    type Error = Infallible;
+}
+
+impl OutputPin for MemoryPin {
+    fn set_low(&mut self) -> Result<(), Infallible> {
+        self.high = false;
+        Ok(())
+    }
+    fn set_high(&mut self) -> Result<(), Infallible> {
+        self.high = true;
+        Ok(())
+    }
+}
+
+/// The vane cannot be read.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct VaneUnreadable;
+
+/// A vane that returns a direction set from outside.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub struct ScriptedVane {
+    /// The next reading (radians, from, clockwise from north); `None` fails.
+    pub from_rad: Option<f32>,
+}
+
+impl WindVane for ScriptedVane {
+    type Error = VaneUnreadable;
+    fn direction_from_rad(&mut self) -> Result<f32, VaneUnreadable> {
+        self.from_rad.ok_or(VaneUnreadable)
+    }
+}
+
+/// One parsed log row.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Row {
+    /// Time, ms.
+    pub t_ms: u64,
+    /// Raw accelerometer words, or `None` for a non-acknowledging sensor.
+    pub accel: Option<RawSample>,
+    /// Anemometer running pulse total, if delivered.
+    pub pulse_total: Option<u32>,
+    /// Vane direction, degrees (from), if readable.
+    pub vane_from_deg: Option<f32>,
+    /// Mount pose, if reported.
+    pub pose: Option<MountPose>,
+}
+
+/// What is wrong with a log line. Lines are counted from 1.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ReplayError {
+    /// The first non-comment line is not [`HEADER`].
+    Header {
+        /// Line number.
+        line: u32,
+    },
+    /// Not eight comma-separated fields.
+    Columns {
+        /// Line number.
+        line: u32,
+    },
+    /// A field does not parse or is out of range.
+    Field {
+        /// Line number.
+        line: u32,
+        /// Column name.
+        column: &'static str,
+    },
+    /// The time went backwards.
+    TimeBackwards {
+        /// Line number.
+        line: u32,
+    },
+    /// A line is longer than the line buffer.
+    TooLong {
+        /// Line number.
+        line: u32,
+    },
+}
+
+impl fmt::Display for ReplayError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match *self {
+            ReplayError::Header { line } => {
+                write!(f, "error line={line} reason=header expected={HEADER}")
+            }
+            ReplayError::Columns { line } => write!(f, "error line={line} reason=columns"),
+            ReplayError::Field { line, column } => {
+                write!(f, "error line={line} reason=field column={column}")
+            }
+            ReplayError::TimeBackwards { line } => {
+                write!(f, "error line={line} reason=time_backwards")
+            }
+            ReplayError::TooLong { line } => write!(f, "error line={line} reason=too_long"),
+        }
+    }
+}
+
+fn field<T: core::str::FromStr>(
+    s: &str,
+    line: u32,
+    column: &'static str,
+) -> Result<Option<T>, ReplayError> {
+    let s = s.trim();
+    if s.is_empty() {
+        return Ok(None);
+    }
+    s.parse()
+        .map(Some)
+        .map_err(|_| ReplayError::Field { line, column })
+}
+
+/// Parses one data line (not the header).
+///
+/// # Errors
+/// [`ReplayError::Columns`] or [`ReplayError::Field`].
+pub fn parse_row(text: &str, line: u32) -> Result<Row, ReplayError> {
+    let mut it = text.split(',');
+    let mut next = || it.next().ok_or(ReplayError::Columns { line });
+    let t = next()?;
+    let (ax, ay, az) = (next()?, next()?, next()?);
+    let (p, v, ha, dec) = (next()?, next()?, next()?, next()?);
+    if it.next().is_some() {
+        return Err(ReplayError::Columns { line });
+    }
+    let t_ms = field::<u64>(t, line, "t_ms")?.ok_or(ReplayError::Field {
+        line,
+        column: "t_ms",
+    })?;
+    let accel = match (
+        field::<i16>(ax, line, "accel_x")?,
+        field::<i16>(ay, line, "accel_y")?,
+        field::<i16>(az, line, "accel_z")?,
+    ) {
+        (Some(x), Some(y), Some(z)) => Some(RawSample { words: [x, y, z] }),
+        (None, None, None) => None,
+        _ => {
+            return Err(ReplayError::Field {
+                line,
+                column: "accel_x",
+            })
+        }
+    };
+    let pulse_total = field::<u32>(p, line, "pulse_total")?;
+    let vane_from_deg = field::<f32>(v, line, "vane_from_deg")?;
+    if vane_from_deg.is_some_and(|d| !d.is_finite()) {
+        return Err(ReplayError::Field {
+            line,
+            column: "vane_from_deg",
+        });
+    }
+    let pose = match (
+        field::<f32>(ha, line, "ha_deg")?,
+        field::<f32>(dec, line, "dec_deg")?,
+    ) {
+        (Some(h), Some(d)) => Some(
+            MountPose::new(math::deg_to_rad(h), math::deg_to_rad(d)).map_err(|_| {
+                ReplayError::Field {
+                    line,
+                    column: "ha_deg",
+                }
+            })?,
+        ),
+        (None, None) => None,
+        _ => {
+            return Err(ReplayError::Field {
+                line,
+                column: "ha_deg",
+            })
+        }
+    };
+    Ok(Row {
+        t_ms,
+        accel,
+        pulse_total,
+        vane_from_deg,
+        pose,
+    })
+}
+
+/// The invented example set-up the replay runs with: a 10 Hz loop, an
+/// anemometer of 0.75 m/s per Hz plus 0.3 m/s stalling below 0.5 Hz, and
+/// limits of 12 m/s (park), 18 m/s (alarm), 2° tilt (alarm) held 5 s. These
+/// figures are invented for the demonstration; take real ones from your
+/// anemometer's calibration sheet and your rig's assessment.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ReplaySetup {
+    /// Station settings.
+    pub station: StationConfig,
+    /// Accelerometer settings.
+    pub accel: lis3dh::Config,
+    /// Anemometer calibration.
+    pub anemometer: AnemometerCal,
+    /// Anemometer gate, ms.
+    pub gate_ms: u32,
+    /// Limits of the [`LimitRule`].
+    pub limits: Limits,
+}
+
+impl ReplaySetup {
+    /// The example set-up described on [`ReplaySetup`].
+    #[must_use]
+    pub const fn example() -> Self {
+        ReplaySetup {
+            station: StationConfig {
+                period_ms: 100,
+                accel_stale_ms: 250,
+                wind_stale_ms: 3000,
+                vane_stale_ms: 3000,
+                fault_clear_ms: 2000,
+                verify_every_steps: 10,
+                mounting: AxisMap::IDENTITY,
+            },
+            accel: lis3dh::Config {
+                rate: lis3dh::DataRate::Hz50,
+                range: lis3dh::Range::G2,
+            },
+            anemometer: AnemometerCal {
+                slope_mps_per_hz: 0.75,
+                offset_mps: 0.3,
+                stall_hz: 0.5,
+            },
+            gate_ms: 1000,
+            limits: Limits {
+                park_wind_mps: 12.0,
+                alarm_wind_mps: 18.0,
+                // 2° = 0.034906585 rad.
+                alarm_tilt_rad: 0.034_906_585,
+                hold_ms: 5000,
+            },
+        }
+    }
+}
+
+/// The station as the replay builds it.
+pub type ReplayStation = Station<EmulatedLis3dh, ScriptedVane, MemoryPin, MemoryPin, LimitRule>;
+
+/// Feeds log lines to a station over emulated hardware.
+#[derive(Debug)]
+pub struct Replay {
+    station: ReplayStation,
+    line: u32,
+    header_seen: bool,
+    last_t_ms: Option<u64>,
+    rows: u32,
+}
+
+impl Replay {
+    /// A replay with `setup`; the emulated sensor sits at address 0x18.
+    #[must_use]
+    pub fn new(setup: &ReplaySetup) -> Self {
+        let bus = EmulatedLis3dh::new(lis3dh::ADDRESS_SA0_LOW);
+        let station = Station::new(
+            setup.station,
+            Lis3dh::new(bus, lis3dh::ADDRESS_SA0_LOW, setup.accel),
+            Anemometer::new(setup.anemometer, setup.gate_ms),
+            ScriptedVane::default(),
+            FailSafeLines::new(MemoryPin::default(), MemoryPin::default()),
+            LimitRule::new(setup.limits),
+        );
+        Replay {
+            station,
+            line: 0,
+            header_seen: false,
+            last_t_ms: None,
+            rows: 0,
+        }
+    }
+
+    /// Data rows stepped so far.
+    #[must_use]
+    pub const fn rows(&self) -> u32 {
+        self.rows
+    }
+
+    /// The station.
+    #[must_use]
+    pub const fn station(&self) -> &ReplayStation {
+        &self.station
+    }
+
+    /// Feeds the next line of the log (without its line ending). Returns the
+    /// step's report for a data row, `None` for the header, comments and
+    /// blank lines.
+    ///
+    /// # Errors
+    /// A [`ReplayError`] naming the line; the station is not stepped.
+    pub fn feed_line(&mut self, text: &str) -> Result<Option<StepReport>, ReplayError> {
+        self.line = self.line.saturating_add(1);
+        let line = self.line;
+        let text = text.trim_end_matches('\r');
+        if text.trim().is_empty() || text.starts_with('#') {
+            return Ok(None);
+        }
+        if !self.header_seen {
+            if text.trim() != HEADER {
+                return Err(ReplayError::Header { line });
+            }
+            self.header_seen = true;
+            return Ok(None);
+        }
+        let row = parse_row(text, line)?;
+        if self.last_t_ms.is_some_and(|t| row.t_ms < t) {
+            return Err(ReplayError::TimeBackwards { line });
+        }
+        self.last_t_ms = Some(row.t_ms);
+        Ok(Some(self.step_row(&row)))
+    }
+
+    /// Counts a line the caller could not read (too long for its buffer).
+    #[must_use]
+    pub fn too_long(&mut self) -> ReplayError {
+        self.line = self.line.saturating_add(1);
+        ReplayError::TooLong { line: self.line }
+    }
+
+    fn step_row(&mut self, row: &Row) -> StepReport {
+        self.rows = self.rows.saturating_add(1);
+        self.station.hardware().0.set_output(row.accel);
+        self.station.hardware().1.from_rad = row.vane_from_deg.map(math::deg_to_rad);
+        let inputs = StepInputs {
+            pulses: row.pulse_total.map(|total| PulseLatch {
+                total,
+                at_ms: row.t_ms,
+            }),
+            pose: row.pose,
+        };
+        self.station.step(row.t_ms, inputs)
+    }
+}
+
+/// Splits a byte stream read in chunks into lines of at most `N` bytes.
+#[derive(Debug)]
+pub struct LineSplitter<const N: usize> {
+    buf: heapless::Vec<u8, N>,
+    overflow: bool,
+}
+
+/// One line from a [`LineSplitter`].
+#[derive(Debug, PartialEq, Eq)]
+pub enum SplitLine<'a> {
+    /// A complete line, without its `\n`.
+    Text(&'a str),
+    /// A line longer than the buffer, or not UTF-8: skipped.
+    Bad,
+}
+
+impl<const N: usize> Default for LineSplitter<N> {
+    fn default() -> Self {
+        Self::new()
+    }
+}
+
+impl<const N: usize> LineSplitter<N> {
+    /// An empty splitter.
+    #[must_use]
+    pub const fn new() -> Self {
+        LineSplitter {
+            buf: heapless::Vec::new(),
+            overflow: false,
+        }
+    }
+
+    /// Feeds a chunk; calls `each` for every line it completes, in order.
+    /// Stops early and returns `Err` with `each`'s error.
+    ///
+    /// # Errors
+    /// Whatever `each` returns.
+    pub fn feed<E>(
+        &mut self,
+        chunk: &[u8],
+        mut each: impl FnMut(SplitLine<'_>) -> Result<(), E>,
+    ) -> Result<(), E> {
+        for &b in chunk {
+            if b == b'\n' {
+                self.emit(&mut each)?;
+            } else if self.buf.push(b).is_err() {
+                self.overflow = true;
+            }
+        }
+        Ok(())
+    }
+
+    /// Emits the last line when the stream did not end with `\n`.
+    ///
+    /// # Errors
+    /// Whatever `each` returns.
+    pub fn finish<E>(
+        &mut self,
+        mut each: impl FnMut(SplitLine<'_>) -> Result<(), E>,
+    ) -> Result<(), E> {
+        if self.buf.is_empty() && !self.overflow {
+            return Ok(());
+        }
+        self.emit(&mut each)
+    }
+
+    fn emit<E>(
+        &mut self,
+        each: &mut impl FnMut(SplitLine<'_>) -> Result<(), E>,
+    ) -> Result<(), E> {
+        let r = if self.overflow {
+            each(SplitLine::Bad)
+        } else {
+            match core::str::from_utf8(&self.buf) {
+                Ok(s) => each(SplitLine::Text(s)),
+                Err(_) => each(SplitLine::Bad),
+            }
+        };
+        self.buf.clear();
+        self.overflow = false;
+        r
+    }
+}
