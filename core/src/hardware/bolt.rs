@@ -10,14 +10,27 @@
 //! loads the screws at +y in tension.
 //!
 //! **Rule.** The flange is rigid and the screws stretch in proportion to
-//! their distance from a pivot line parallel to the moment vector:
-//! `F_i = P/n + M·y_i/Σ y_j²` with y_i the signed distance of screw i from
-//! the pivot line, positive on the tension side. With the pivot through the
-//! pattern centroid this is the bending analogue of Shigley's secondary
-//! shear F = M·r/Σr² (Shigley, *Mechanical Engineering Design*, ch. 8); with
-//! the pivot at the heel (flange edge) it is the classic prying-free flange
-//! rule. Screw preload is not modelled: the forces are the external load
-//! shares.
+//! their distance from a pivot line: `F_i = P/n + M·y_i/Σ y_j²` with y_i the
+//! signed distance of screw i from the pivot line, positive on the tension
+//! side. This is the bending analogue of Shigley's secondary shear
+//! F = M·r/Σr² (Shigley, *Mechanical Engineering Design*, ch. 8).
+//!
+//! - [`PivotLine::Centroid`]: the flange turns about its centroid. When the
+//!   moment lies along a principal axis of the pattern (any pattern
+//!   symmetric about the moment axis, and an equally spaced circle of n ≥ 3
+//!   for every direction) the neutral axis is parallel to the moment and the
+//!   rule above applies as written. Otherwise the neutral axis tilts and the
+//!   forces come from the pattern's second moments Sxx, Syy, Sxy
+//!   (unsymmetric bending): `F_i = P/n + A·y_i − B·x_i` with
+//!   `A = (Mx·Sxx + My·Sxy)/D`, `B = (My·Syy + Mx·Sxy)/D`,
+//!   `D = Sxx·Syy − Sxy²`, which keeps both moment components in equilibrium.
+//! - [`PivotLine::Heel`]: the flange tips about a fixed edge parallel to the
+//!   moment vector; y is measured from that edge. The edge contact carries
+//!   the rest (including any moment component along the screws' line).
+//!
+//! Screw preload is not modelled: the forces are the shares of the external
+//! load. A negative force means the rule puts that screw on the compression
+//! side, where the flange, not the screw, carries the load.
 
 use crate::error::{Error, ErrorKind};
 use crate::math::{self, STANDARD_GRAVITY_MPS2};
@@ -45,9 +58,10 @@ pub struct BoltPattern {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub enum PivotLine {
-    /// The neutral axis passes through the centroid of the screw pattern,
-    /// parallel to the moment vector. The conservative choice for a thick
-    /// flange: screws on the far side are relieved.
+    /// The neutral axis passes through the centroid of the screw pattern
+    /// (parallel to the moment vector when the moment lies along a principal
+    /// axis of the pattern; see the [module](self)). The conservative choice
+    /// for a thick flange: the most loaded screw has the largest share.
     Centroid,
     /// The flange tips about a heel line parallel to the moment vector, on
     /// the compression side at `offset_mm` from the pattern centroid (for a
@@ -90,7 +104,8 @@ pub struct BoltGroupResult {
     pub max_index: usize,
     /// Smallest force, N.
     pub min_n: f32,
-    /// Σ y_j² about the pivot line, mm² (0 when there is no moment).
+    /// Σ y_j² about the neutral axis (centroid pivot) or heel line, mm²
+    /// (0 when there is no moment).
     pub sum_sq_lever_mm2: f32,
 }
 
@@ -189,9 +204,9 @@ impl BoltPattern {
     /// outside the range that keeps every screw on the tension side of the
     /// heel (min = the smallest such offset) or beyond 10 000 mm;
     /// [`ErrorKind::Unreachable`] on `bolt_pattern.screws_mm` when a moment
-    /// acts but every screw lies on the pivot line (one screw, or all screws
-    /// on a line along the moment vector through the centroid): the pattern
-    /// cannot resist that moment.
+    /// acts that the pattern cannot resist: a single screw, or all screws on
+    /// one line through the centroid while the moment has a component along
+    /// that line (centroid pivot), or every screw on the heel line.
     pub fn tensions(&self, load: JointLoad, pivot: PivotLine) -> Result<BoltGroupResult, Error> {
         let p = Error::check("joint_load.axial_n", load.axial_n, -1e7, 1e7)?;
         let mx = Error::check("joint_load.moment_x_nm", load.moment_x_nm, -1e6, 1e6)?;
@@ -199,56 +214,12 @@ impl BoltPattern {
         let n = self.screws_mm.len();
         let share = p / (n.max(1) as f32);
         let mut forces_n = [0.0; MAX_SCREWS];
-        let m = math::hypot(mx, my);
         let mut sum_sq = 0.0;
-        if m > NEGLIGIBLE_MOMENT_NM {
-            let (ux, uy) = (mx / m, my / m);
-            let c = self.centroid_mm();
-            // Signed lever about the centroid line along the moment vector:
-            // (û × r)·ẑ, positive where the moment pulls.
-            let lever = |q: &[f32; 2]| ux * (q[1] - c[1]) - uy * (q[0] - c[0]);
-            let shift = match pivot {
-                PivotLine::Centroid => 0.0,
-                PivotLine::Heel { offset_mm } => {
-                    let need = self
-                        .screws_mm
-                        .iter()
-                        .map(|q| -lever(q))
-                        .fold(0.0_f32, f32::max);
-                    Error::check(
-                        "bolt_pattern.pivot.offset_mm",
-                        offset_mm,
-                        need,
-                        MAX_COORD_MM,
-                    )?
-                }
-            };
-            sum_sq = self
-                .screws_mm
-                .iter()
-                .map(|q| {
-                    let y = lever(q) + shift;
-                    y * y
-                })
-                .sum();
-            if sum_sq <= 1e-6 {
-                return Err(Error {
-                    kind: ErrorKind::Unreachable,
-                    field: "bolt_pattern.screws_mm",
-                    index: None,
-                    value: sum_sq,
-                    min: f32::NAN,
-                    max: f32::NAN,
-                });
-            }
-            let m_nmm = m * 1000.0;
-            for (f, q) in forces_n.iter_mut().zip(self.screws_mm.iter()) {
-                *f = share + m_nmm * (lever(q) + shift) / sum_sq;
-            }
-        } else {
-            for f in forces_n.iter_mut().take(n) {
-                *f = share;
-            }
+        if math::hypot(mx, my) > NEGLIGIBLE_MOMENT_NM {
+            sum_sq = self.bending_shares(mx * 1000.0, my * 1000.0, pivot, &mut forces_n)?;
+        }
+        for f in forces_n.iter_mut().take(n) {
+            *f += share;
         }
         let mut max_n = f32::NEG_INFINITY;
         let mut min_n = f32::INFINITY;
@@ -268,6 +239,104 @@ impl BoltPattern {
             min_n,
             sum_sq_lever_mm2: sum_sq,
         })
+    }
+}
+
+impl BoltPattern {
+    /// Screw positions relative to the centroid, mm.
+    fn relative(&self) -> impl Iterator<Item = (f32, f32)> + '_ {
+        let c = self.centroid_mm();
+        self.screws_mm
+            .iter()
+            .map(move |q| (q[0] - c[0], q[1] - c[1]))
+    }
+
+    /// Writes the bending share of each screw (N) into `out` for a moment
+    /// (mx, my) in N·mm and returns Σ (distance from the neutral axis)², mm².
+    fn bending_shares(
+        &self,
+        mx_nmm: f32,
+        my_nmm: f32,
+        pivot: PivotLine,
+        out: &mut [f32; MAX_SCREWS],
+    ) -> Result<f32, Error> {
+        let cannot_resist = |v: f32| Error {
+            kind: ErrorKind::Unreachable,
+            field: "bolt_pattern.screws_mm",
+            index: None,
+            value: v,
+            min: f32::NAN,
+            max: f32::NAN,
+        };
+        let m = math::hypot(mx_nmm, my_nmm);
+        let (ux, uy) = (mx_nmm / m, my_nmm / m);
+        // Signed distance from the line through the centroid along the moment
+        // vector: (û × r)·ẑ, positive where the moment pulls.
+        let lever = |(x, y): (f32, f32)| ux * y - uy * x;
+
+        if let PivotLine::Heel { offset_mm } = pivot {
+            let need = self.relative().map(|r| -lever(r)).fold(0.0_f32, f32::max);
+            let shift = Error::check(
+                "bolt_pattern.pivot.offset_mm",
+                offset_mm,
+                need,
+                MAX_COORD_MM,
+            )?;
+            let sum_sq: f32 = self
+                .relative()
+                .map(|r| {
+                    let y = lever(r) + shift;
+                    y * y
+                })
+                .sum();
+            if sum_sq <= 1e-6 {
+                return Err(cannot_resist(sum_sq));
+            }
+            for (f, r) in out.iter_mut().zip(self.relative()) {
+                *f = m * (lever(r) + shift) / sum_sq;
+            }
+            return Ok(sum_sq);
+        }
+
+        // Centroid pivot: rigid-flange rotation about the centroid, screw
+        // force F = A·y − B·x, with A and B from moment equilibrium using the
+        // pattern's second moments (unsymmetric bending).
+        let (mut sxx, mut syy, mut sxy) = (0.0_f32, 0.0_f32, 0.0_f32);
+        for (x, y) in self.relative() {
+            sxx += x * x;
+            syy += y * y;
+            sxy += x * y;
+        }
+        let det = sxx * syy - sxy * sxy;
+        let scale = (sxx + syy) * (sxx + syy);
+        if det > 1e-6 * scale && det > 0.0 {
+            let a = (mx_nmm * sxx + my_nmm * sxy) / det;
+            let b = (my_nmm * syy + mx_nmm * sxy) / det;
+            let mut sum_f2 = 0.0;
+            for (f, (x, y)) in out.iter_mut().zip(self.relative()) {
+                *f = a * y - b * x;
+                sum_f2 += *f * *f;
+            }
+            let g2 = a * a + b * b;
+            return Ok(if g2 > 0.0 { sum_f2 / g2 } else { 0.0 });
+        }
+        // All screws on one line (or one point): the line resists only a
+        // moment whose vector is perpendicular to it.
+        let sum_sq: f32 = self.relative().map(|r| lever(r) * lever(r)).sum();
+        if sum_sq <= 1e-6 {
+            return Err(cannot_resist(sum_sq));
+        }
+        let (mut rx, mut ry) = (0.0_f32, 0.0_f32);
+        for (f, r) in out.iter_mut().zip(self.relative()) {
+            *f = m * lever(r) / sum_sq;
+            rx += r.1 * *f;
+            ry -= r.0 * *f;
+        }
+        let residual = math::hypot(rx - mx_nmm, ry - my_nmm);
+        if residual > 1e-3 * m {
+            return Err(cannot_resist(residual / 1000.0));
+        }
+        Ok(sum_sq)
     }
 }
 
