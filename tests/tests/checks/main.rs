@@ -5,4 +5,5 @@ mod fixtures;
 mod frame;
 mod hardware;
 mod mount;
+mod sense;
 mod stability;
