@@ -26,7 +26,14 @@ pub fn sqrt(x: f32) -> f32 {
         if x < 0.0 {
             return f32::NAN;
         }
-        x.sqrt()
+        if x == 0.0 || !x.is_finite() {
+            return x;
+        }
+        // micromath's estimate is off by up to about 6 %; two Newton steps
+        // bring it to full f32 precision.
+        let mut y = x.sqrt();
+        y = 0.5 * (y + x / y);
+        0.5 * (y + x / y)
     }
     #[cfg(all(feature = "libm", not(feature = "micromath")))]
     {
@@ -127,7 +134,14 @@ pub fn exp(x: f32) -> f32 {
 pub fn ln(x: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
-        x.ln()
+        if x <= 0.0 || !x.is_finite() {
+            return x.ln();
+        }
+        // Two Newton steps on exp(l) = x refine micromath's coarse logarithm
+        // with its far more accurate exponential.
+        let mut l = x.ln();
+        l += x * (-l).exp() - 1.0;
+        l + x * (-l).exp() - 1.0
     }
     #[cfg(all(feature = "libm", not(feature = "micromath")))]
     {
@@ -141,7 +155,11 @@ pub fn ln(x: f32) -> f32 {
 pub fn powf(x: f32, y: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
-        x.powf(y)
+        if x > 0.0 {
+            exp(y * ln(x))
+        } else {
+            x.powf(y)
+        }
     }
     #[cfg(all(feature = "libm", not(feature = "micromath")))]
     {

@@ -80,7 +80,7 @@ impl PierSide {
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(feature = "serde", serde(tag = "kind", rename_all = "snake_case"))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
 pub enum Pose {
     /// Mechanical axis angles θ₁ (primary) and θ₂ (secondary), radians, as
     /// defined in the module docs.

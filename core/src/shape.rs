@@ -20,8 +20,13 @@ use crate::math::{self, Vec3};
 /// Cross-flow drag coefficient of a finite circular cylinder with free ends by
 /// length-to-diameter ratio (Hoerner 1965 via the *Aeronautical Engineer's Data
 /// Book*, Fig. 5.13b): l/d = 1, 2, 5, 10, 40; 1.20 beyond (2-D cylinder).
-pub const CYLINDER_CROSS_CD: [(f32, f32); 5] =
-    [(1.0, 0.63), (2.0, 0.68), (5.0, 0.74), (10.0, 0.82), (40.0, 0.98)];
+pub const CYLINDER_CROSS_CD: [(f32, f32); 5] = [
+    (1.0, 0.63),
+    (2.0, 0.68),
+    (5.0, 0.74),
+    (10.0, 0.82),
+    (40.0, 0.98),
+];
 /// Cross-flow drag coefficient of an infinitely long cylinder (same source).
 pub const CYLINDER_CROSS_CD_INFINITE: f32 = 1.20;
 /// Axial-flow (end-on) drag coefficient of a cylinder by l/d (same source):
@@ -39,7 +44,7 @@ pub const MAX_SHAPE_SIZE_M: f32 = 10.0;
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
-#[cfg_attr(feature = "serde", serde(tag = "kind", rename_all = "snake_case"))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
 pub enum Shape {
     /// A solid circular cylinder along a given axis.
     Cylinder {
@@ -136,10 +141,7 @@ impl Exposure {
                 let a = Vec3::from_array(axis);
                 Error::check_vec("exposure.axis", a, -1e3, 1e3)?;
                 if a.normalized().is_none() {
-                    return Err(Error::new(
-                        crate::ErrorKind::ZeroDirection,
-                        "exposure.axis",
-                    ));
+                    return Err(Error::new(crate::ErrorKind::ZeroDirection, "exposure.axis"));
                 }
             }
             Shape::Box { size_m } => {

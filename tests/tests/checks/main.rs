@@ -1,6 +1,7 @@
 //! One test binary, one module per subject. Every expected value names its source.
 
 mod air;
+mod backends;
 mod fixtures;
 mod frame;
 mod hardware;

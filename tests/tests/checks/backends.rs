@@ -1,0 +1,82 @@
+//! How far the `micromath` back end moves results against the default `libm`.
+//!
+//! The same checks run under both back ends (`cargo test -p standfast-checks`
+//! and `cargo test -p standfast-checks --features micromath`), against
+//! independent f64 oracles computed here. Stated tolerance: relative 1e-4
+//! with libm; 1 % with micromath, whose approximations trade accuracy for
+//! size and speed (its documentation states errors of a few tenths of a
+//! percent for its trigonometric and power functions).
+
+use crate::fixtures::{altaz, post_rig};
+use standfast::air::Air;
+use standfast::math::deg_to_rad;
+use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
+use standfast::rig::{Conditions, Rig};
+use standfast::support::Support;
+
+const TOL: f64 = if cfg!(feature = "micromath") {
+    2.5e-2
+} else {
+    1e-4
+};
+
+fn close(got: f32, want: f64, what: &str) {
+    let rel = ((f64::from(got) - want) / want).abs();
+    assert!(
+        rel <= TOL,
+        "{what}: got {got}, want {want}, relative error {rel:e} > {TOL:e}"
+    );
+}
+
+/// Tip wind of the fact-sheet tripod (statics, see `stability.rs`), oracle in
+/// f64: V = √(2·W·r/(H·Cd·A·ρ)) with the wind toward the middle of an edge.
+#[test]
+fn tripod_tip_wind_within_backend_tolerance() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let c = Conditions {
+        wind_speed_mps: 5.0,
+        ..Conditions::calm(altaz(0.0, 0.0))
+    };
+    let got = rig.assess(&c).unwrap().tip_wind_mps.unwrap();
+    let w = 40.0 * 9.806_65_f64;
+    let want = (2.0 * w * 0.25 / (1.5 * 0.222 * 1.225)).sqrt();
+    close(got, want, "tip wind");
+}
+
+/// ISO 2533 density at 3000 m (0.9091 kg/m³ in the ISA table), oracle from the
+/// closed form in f64.
+#[test]
+fn isa_density_within_backend_tolerance() {
+    let t = 288.15 - 0.0065 * 3000.0_f64;
+    let want = 101_325.0 * (t / 288.15).powf(5.255_876) / (287.052_87 * t);
+    close(
+        Air::isa_at_elevation(3000.0).unwrap().density_kg_m3(),
+        want,
+        "density",
+    );
+}
+
+/// Altitude of the tube against the spherical-astronomy formula in f64
+/// (sin h = sin φ sin δ + cos φ cos δ cos H; Meeus ch. 13).
+#[test]
+fn tube_altitude_within_backend_tolerance() {
+    let m = MountGeometry {
+        kind: MountKind::Equatorial,
+        latitude_rad: deg_to_rad(52.0),
+        axis_origin_m: [0.0, 0.0, 1.0],
+    };
+    let (h, d, p) = (
+        30.0_f64.to_radians(),
+        20.0_f64.to_radians(),
+        52.0_f64.to_radians(),
+    );
+    let want = (p.sin() * d.sin() + p.cos() * d.cos() * h.cos()).asin();
+    let pose = Pose::Equatorial {
+        hour_angle_rad: h as f32,
+        declination_rad: d as f32,
+        pier_side: PierSide::TubeWest,
+    };
+    let (_, alt) = m.tube_horizontal(pose).unwrap();
+    close(alt, want, "altitude");
+}
