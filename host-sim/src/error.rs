@@ -1,0 +1,68 @@
+//! The crate's error type and the process exit codes.
+//!
+//! | code | meaning |
+//! |---:|---|
+//! | 0 | success |
+//! | 1 | bad input: a rig file, log profile or log that cannot be used (the message names file, line and key) |
+//! | 2 | bad command line (unknown option, missing argument; printed by the argument parser) |
+//! | 3 | I/O: a file or folder cannot be read or written |
+
+use std::path::PathBuf;
+
+use crate::located::InputError;
+use crate::log::Issue;
+
+/// Process exit codes of the `standfast` command.
+pub mod exit {
+    /// Success.
+    pub const OK: u8 = 0;
+    /// Bad input: rig file, log profile or log data.
+    pub const INPUT: u8 = 1;
+    /// Bad command line.
+    pub const USAGE: u8 = 2;
+    /// A file or folder cannot be read or written.
+    pub const IO: u8 = 3;
+}
+
+/// Everything that can go wrong in the library.
+#[derive(Debug, thiserror::Error)]
+pub enum Error {
+    /// A file or folder cannot be read or written.
+    #[error("{}: {source}", path.display())]
+    Io {
+        /// The file or folder.
+        path: PathBuf,
+        /// What the operating system said.
+        #[source]
+        source: std::io::Error,
+    },
+    /// A configuration file (rig file, log profile) holds a bad value.
+    #[error(transparent)]
+    Input(#[from] InputError),
+    /// A log row could not be used and the policy is to stop at the first
+    /// such row.
+    #[error("{0}")]
+    Log(Issue),
+}
+
+impl Error {
+    /// An [`Error::Io`] about `path`.
+    pub fn io(path: impl Into<PathBuf>, source: std::io::Error) -> Error {
+        Error::Io {
+            path: path.into(),
+            source,
+        }
+    }
+
+    /// The process exit code for this error (see [`exit`]).
+    #[must_use]
+    pub fn exit_code(&self) -> u8 {
+        match self {
+            Error::Io { .. } => exit::IO,
+            Error::Input(_) | Error::Log(_) => exit::INPUT,
+        }
+    }
+}
+
+/// Result with the crate's [`Error`].
+pub type Result<T, E = Error> = std::result::Result<T, E>;

@@ -1,0 +1,19 @@
+//! # standfast-sim
+//!
+//! The host side of Standfast: the `standfast` command and the library
+//! behind it. Quantities with units at the boundary ([`units`]), located
+//! validation errors for configuration files ([`located`]), night logs read
+//! and merged by time ([`log`]), invented demo data ([`demo_data`]).
+//!
+//! **Caution.** Standfast's numbers are estimates from a simplified static
+//! model. Secure the rig anyway, stay inside the mount maker's limits and
+//! defer to local codes and licensed engineers.
+
+pub mod cli;
+pub mod demo_data;
+pub mod error;
+pub mod located;
+pub mod log;
+pub mod units;
+
+pub use error::{Error, Result};

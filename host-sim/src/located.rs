@@ -1,0 +1,369 @@
+//! Values that remember where they were written, and validation errors that
+//! name file, line, column, key, value and the accepted range.
+//!
+//! A configuration file is read into a [`SourceText`]; its structs use
+//! [`toml::Spanned`] for the values that are validated afterwards; a
+//! [`Checker`] turns a span into a [`Location`] and builds [`InputError`]s:
+//!
+//! ```text
+//! rig.toml:12:10: payload.mass = "18 lbs x": unknown unit "lbs x" for a mass (units: kg, g, t, lb, oz)
+//! ```
+
+use core::fmt;
+use core::ops::Range;
+use std::path::Path;
+
+use serde::de::DeserializeOwned;
+use toml::Spanned;
+
+use crate::error::Error;
+use crate::units::{Dim, Dimension, Quantity, Unit};
+
+/// A position in a named text file: 1-based line and column (in characters).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Location {
+    /// File name as given by the user.
+    pub file: String,
+    /// Line, from 1.
+    pub line: usize,
+    /// Column in characters, from 1.
+    pub column: usize,
+}
+
+impl fmt::Display for Location {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}:{}:{}", self.file, self.line, self.column)
+    }
+}
+
+/// A value with the place it was written.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Located<T> {
+    /// The value.
+    pub value: T,
+    /// Where it was written.
+    pub at: Location,
+}
+
+/// A bad value in a configuration file.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
+pub struct InputError {
+    /// Where, when known.
+    pub at: Option<Location>,
+    /// Dotted key path, when known (`log.file[1].columns.wind_speed.unit`).
+    pub key: Option<String>,
+    /// The value as written in the file, when known.
+    pub value: Option<String>,
+    /// What is wrong, including the accepted range or set where there is one.
+    pub problem: String,
+}
+
+impl fmt::Display for InputError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if let Some(at) = &self.at {
+            write!(f, "{at}: ")?;
+        }
+        match (&self.key, &self.value) {
+            (Some(k), Some(v)) => write!(f, "{k} = {v}: ")?,
+            (Some(k), None) => write!(f, "{k}: ")?,
+            (None, Some(v)) => write!(f, "{v}: ")?,
+            (None, None) => {}
+        }
+        f.write_str(&self.problem)
+    }
+}
+
+/// The text of a configuration file with its name and line index.
+#[derive(Clone, Debug)]
+pub struct SourceText {
+    name: String,
+    text: String,
+    line_starts: Vec<usize>,
+}
+
+impl SourceText {
+    /// Wraps `text` read from a file called `name`.
+    #[must_use]
+    pub fn new(name: impl Into<String>, text: impl Into<String>) -> SourceText {
+        let text = text.into();
+        let mut line_starts = vec![0];
+        line_starts.extend(text.match_indices('\n').map(|(i, _)| i + 1));
+        SourceText {
+            name: name.into(),
+            text,
+            line_starts,
+        }
+    }
+
+    /// Reads a file.
+    ///
+    /// # Errors
+    /// [`Error::Io`] when the file cannot be read (or is not UTF-8).
+    pub fn read(path: &Path) -> Result<SourceText, Error> {
+        let text = std::fs::read_to_string(path).map_err(|e| Error::io(path, e))?;
+        Ok(SourceText::new(path.display().to_string(), text))
+    }
+
+    /// The file name.
+    #[must_use]
+    pub fn name(&self) -> &str {
+        &self.name
+    }
+
+    /// The whole text.
+    #[must_use]
+    pub fn text(&self) -> &str {
+        &self.text
+    }
+
+    /// The text of a byte span (empty when the span is not in the text).
+    #[must_use]
+    pub fn slice(&self, span: Range<usize>) -> &str {
+        self.text.get(span).unwrap_or("")
+    }
+
+    /// Line and column of a byte offset.
+    #[must_use]
+    pub fn location(&self, offset: usize) -> Location {
+        let offset = offset.min(self.text.len());
+        let line_idx = match self.line_starts.binary_search(&offset) {
+            Ok(i) => i,
+            Err(i) => i.saturating_sub(1),
+        };
+        let start = self.line_starts.get(line_idx).copied().unwrap_or(0);
+        let column = self
+            .text
+            .get(start..offset)
+            .map_or(0, |s| s.chars().count())
+            + 1;
+        Location {
+            file: self.name.clone(),
+            line: line_idx + 1,
+            column,
+        }
+    }
+
+    /// The text of line `line` (1-based), without its line break.
+    #[must_use]
+    pub fn line(&self, line: usize) -> &str {
+        let Some(start) = line
+            .checked_sub(1)
+            .and_then(|i| self.line_starts.get(i))
+            .copied()
+        else {
+            return "";
+        };
+        let end = self
+            .line_starts
+            .get(line)
+            .copied()
+            .unwrap_or(self.text.len());
+        self.text
+            .get(start..end)
+            .unwrap_or("")
+            .trim_end_matches(['\n', '\r'])
+    }
+
+    /// The key written before the value at `offset` on the same line
+    /// (`wind_speed` in `wind_speed = "3 km/h"`, `unit` in
+    /// `{ column = "a", unit = "x" }`), when there is one.
+    #[must_use]
+    pub fn key_before(&self, offset: usize) -> Option<String> {
+        let at = self.location(offset);
+        let line = self.line(at.line);
+        let head: String = line.chars().take(at.column.saturating_sub(1)).collect();
+        let before_eq = head.trim_end().strip_suffix('=')?.trim_end();
+        let key: String = before_eq
+            .chars()
+            .rev()
+            .take_while(|c| c.is_alphanumeric() || matches!(c, '_' | '-' | '.' | '"'))
+            .collect::<Vec<_>>()
+            .into_iter()
+            .rev()
+            .collect();
+        let key = key.trim_matches('"').to_owned();
+        (!key.is_empty()).then_some(key)
+    }
+
+    /// Deserialises the whole text as TOML into `T`; a syntax or type error
+    /// is located and names the key where it can.
+    ///
+    /// # Errors
+    /// [`InputError`] with the file, line, column, key and the parser's
+    /// message.
+    pub fn parse_toml<T: DeserializeOwned>(&self) -> Result<T, InputError> {
+        toml::from_str(&self.text).map_err(|e| {
+            let span = e.span();
+            let (at, key, value) = match span {
+                Some(s) => {
+                    let value = self.slice(s.clone()).trim().to_owned();
+                    let key = self.key_before(s.start);
+                    let value = (key.is_some() && !value.is_empty() && !value.contains('\n'))
+                        .then_some(value);
+                    (Some(self.location(s.start)), key, value)
+                }
+                None => (None, None, None),
+            };
+            InputError {
+                at: at.or_else(|| {
+                    Some(Location {
+                        file: self.name.clone(),
+                        line: 1,
+                        column: 1,
+                    })
+                }),
+                key,
+                value,
+                problem: e.message().trim().to_owned(),
+            }
+        })
+    }
+
+    /// A [`Checker`] over this text.
+    #[must_use]
+    pub fn checker(&self) -> Checker<'_> {
+        Checker { src: self }
+    }
+}
+
+/// Validation helpers that build located errors.
+#[derive(Clone, Copy, Debug)]
+pub struct Checker<'a> {
+    src: &'a SourceText,
+}
+
+impl Checker<'_> {
+    /// The source being checked.
+    #[must_use]
+    pub fn source(&self) -> &SourceText {
+        self.src
+    }
+
+    /// Where a spanned value was written.
+    #[must_use]
+    pub fn locate<T: Clone>(&self, v: &Spanned<T>) -> Located<T> {
+        Located {
+            value: v.get_ref().clone(),
+            at: self.src.location(v.span().start),
+        }
+    }
+
+    /// An error about the value at `span`, shown as written in the file.
+    #[must_use]
+    pub fn error(&self, key: &str, span: Range<usize>, problem: impl Into<String>) -> InputError {
+        let value = self.src.slice(span.clone()).trim().to_owned();
+        InputError {
+            at: Some(self.src.location(span.start)),
+            key: Some(key.to_owned()),
+            value: (!value.is_empty()).then_some(value),
+            problem: problem.into(),
+        }
+    }
+
+    /// Checks that a quantity lies within `[min, max]`; the message states
+    /// the range in `show_unit` (a unit of `D`).
+    ///
+    /// # Errors
+    /// [`InputError`] naming the key, value and accepted range.
+    pub fn range<D: Dimension>(
+        &self,
+        key: &str,
+        v: &Spanned<Quantity<D>>,
+        min: Quantity<D>,
+        max: Quantity<D>,
+        show_unit: &str,
+    ) -> Result<Quantity<D>, InputError> {
+        let q = *v.get_ref();
+        if q.si().is_finite() && q >= min && q <= max {
+            return Ok(q);
+        }
+        let unit = D::DIM.unit(show_unit).unwrap_or_else(|_| D::DIM.si_unit());
+        Err(self.error(
+            key,
+            v.span(),
+            format!(
+                "outside the accepted range {} to {} {} (this value is {} {})",
+                fmt_g(unit.from_si(min.si())),
+                fmt_g(unit.from_si(max.si())),
+                unit.symbol(),
+                fmt_g(unit.from_si(q.si())),
+                unit.symbol()
+            ),
+        ))
+    }
+
+    /// Checks that a plain number lies within `[min, max]`.
+    ///
+    /// # Errors
+    /// [`InputError`] naming the key, value and accepted range.
+    pub fn range_f64(
+        &self,
+        key: &str,
+        v: &Spanned<f64>,
+        min: f64,
+        max: f64,
+    ) -> Result<f64, InputError> {
+        let x = *v.get_ref();
+        if x.is_finite() && x >= min && x <= max {
+            Ok(x)
+        } else {
+            Err(self.error(
+                key,
+                v.span(),
+                format!(
+                    "outside the accepted range {} to {}",
+                    fmt_g(min),
+                    fmt_g(max)
+                ),
+            ))
+        }
+    }
+
+    /// Looks up a unit spelling for dimension `dim`.
+    ///
+    /// # Errors
+    /// [`InputError`] naming the accepted units.
+    pub fn unit(&self, key: &str, v: &Spanned<String>, dim: Dim) -> Result<Unit, InputError> {
+        dim.unit(v.get_ref())
+            .map_err(|e| self.error(key, v.span(), e.to_string()))
+    }
+
+    /// Checks that a string is one of `allowed`.
+    ///
+    /// # Errors
+    /// [`InputError`] listing the allowed words.
+    pub fn one_of<'w>(
+        &self,
+        key: &str,
+        v: &Spanned<String>,
+        allowed: &[&'w str],
+    ) -> Result<&'w str, InputError> {
+        allowed
+            .iter()
+            .find(|a| a.eq_ignore_ascii_case(v.get_ref()))
+            .copied()
+            .ok_or_else(|| {
+                self.error(
+                    key,
+                    v.span(),
+                    format!("not one of the accepted values: {}", allowed.join(", ")),
+                )
+            })
+    }
+}
+
+/// Formats a number briefly for messages (up to 6 significant digits, no
+/// trailing zeros).
+#[must_use]
+pub fn fmt_g(x: f64) -> String {
+    if x == 0.0 || !x.is_finite() {
+        return format!("{x}");
+    }
+    let s = format!("{x:.6}");
+    let s = s.trim_end_matches('0').trim_end_matches('.');
+    if s == "0" || s == "-0" || s.is_empty() {
+        format!("{x:e}")
+    } else {
+        s.to_owned()
+    }
+}

@@ -1,0 +1,347 @@
+//! Time stamps of log rows: ISO 8601 date-times (with or without a zone
+//! offset) and epoch seconds or milliseconds, held as integer nanoseconds
+//! since 1970-01-01T00:00:00Z so that ordering and equality are exact.
+
+use core::fmt;
+
+/// An instant, in nanoseconds since 1970-01-01T00:00:00Z (leap seconds not
+/// counted, as in POSIX time).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub struct Timestamp(i64);
+
+/// Nanoseconds in one second.
+pub const NS_PER_S: i64 = 1_000_000_000;
+
+impl Timestamp {
+    /// From nanoseconds since the Unix epoch.
+    #[must_use]
+    pub const fn from_unix_ns(ns: i64) -> Timestamp {
+        Timestamp(ns)
+    }
+
+    /// Nanoseconds since the Unix epoch.
+    #[must_use]
+    pub const fn unix_ns(self) -> i64 {
+        self.0
+    }
+
+    /// From (possibly fractional) seconds since the Unix epoch, rounded to
+    /// the nanosecond.
+    #[must_use]
+    #[allow(clippy::cast_possible_truncation)] // saturating float-to-int cast
+    pub fn from_unix_s(s: f64) -> Timestamp {
+        Timestamp((s * 1e9).round() as i64)
+    }
+
+    /// Seconds since the Unix epoch (resolution about 0.2 µs in this era).
+    #[must_use]
+    #[allow(clippy::cast_precision_loss)]
+    pub fn unix_s(self) -> f64 {
+        self.0 as f64 / 1e9
+    }
+
+    /// `self - earlier` in seconds.
+    #[must_use]
+    #[allow(clippy::cast_precision_loss)]
+    pub fn seconds_since(self, earlier: Timestamp) -> f64 {
+        self.0.saturating_sub(earlier.0) as f64 / 1e9
+    }
+
+    /// This instant plus `s` seconds.
+    #[must_use]
+    #[allow(clippy::cast_possible_truncation)]
+    pub fn plus_s(self, s: f64) -> Timestamp {
+        Timestamp(self.0.saturating_add((s * 1e9).round() as i64))
+    }
+
+    /// ISO 8601 in UTC with a `Z`, with `frac_digits` (0 to 9) fractional
+    /// second digits, e.g. `2025-11-14T21:00:00.25Z` for 2.
+    #[must_use]
+    pub fn to_iso8601(self, frac_digits: u32) -> String {
+        self.to_iso8601_offset(frac_digits, 0)
+    }
+
+    /// ISO 8601 in local time at `offset_s` east of UTC, followed by the
+    /// offset (`Z` for 0, else `+hh:mm`).
+    #[must_use]
+    pub fn to_iso8601_offset(self, frac_digits: u32, offset_s: i32) -> String {
+        let mut s = String::with_capacity(32);
+        write_iso8601(&mut s, self, frac_digits, offset_s, true);
+        s
+    }
+}
+
+impl fmt::Display for Timestamp {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(&self.to_iso8601(3))
+    }
+}
+
+/// Writes `t` as ISO 8601 local time at `offset_s` east of UTC; with
+/// `write_zone`, the offset follows (`Z` for UTC, else `+hh:mm`).
+pub fn write_iso8601(
+    out: &mut String,
+    t: Timestamp,
+    frac_digits: u32,
+    offset_s: i32,
+    write_zone: bool,
+) {
+    use fmt::Write as _;
+    let local_ns = t.0.saturating_add(i64::from(offset_s) * NS_PER_S);
+    let days = local_ns.div_euclid(86_400 * NS_PER_S);
+    let ns_of_day = local_ns.rem_euclid(86_400 * NS_PER_S);
+    let (y, m, d) = civil_from_days(days);
+    let secs = ns_of_day / NS_PER_S;
+    let frac = ns_of_day % NS_PER_S;
+    let _ = write!(
+        out,
+        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}",
+        secs / 3600,
+        (secs / 60) % 60,
+        secs % 60
+    );
+    let digits = frac_digits.min(9);
+    if digits > 0 {
+        let scaled = frac / 10_i64.pow(9 - digits);
+        let _ = write!(out, ".{scaled:0w$}", w = digits as usize);
+    }
+    if write_zone {
+        if offset_s == 0 {
+            out.push('Z');
+        } else {
+            let sign = if offset_s < 0 { '-' } else { '+' };
+            let a = offset_s.unsigned_abs();
+            let _ = write!(out, "{sign}{:02}:{:02}", a / 3600, (a / 60) % 60);
+        }
+    }
+}
+
+/// Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant's
+/// `days_from_civil` algorithm).
+#[must_use]
+pub fn days_from_civil(y: i64, m: u32, d: u32) -> i64 {
+    let y = if m <= 2 { y - 1 } else { y };
+    let era = y.div_euclid(400);
+    let yoe = y.rem_euclid(400);
+    let m = i64::from(m);
+    let d = i64::from(d);
+    let doy = (153 * (if m > 2 { m - 3 } else { m + 9 }) + 2) / 5 + d - 1;
+    let doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
+    era * 146_097 + doe - 719_468
+}
+
+/// The proleptic Gregorian date of a day count since 1970-01-01 (inverse of
+/// [`days_from_civil`]).
+#[must_use]
+#[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)] // month and day are small
+pub fn civil_from_days(z: i64) -> (i64, u32, u32) {
+    let z = z + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z.rem_euclid(146_097);
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let y = yoe + era * 400;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = (doy - (153 * mp + 2) / 5 + 1) as u32;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 } as u32;
+    (if m <= 2 { y + 1 } else { y }, m, d)
+}
+
+/// How a log's time column is written.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum TimeFormat {
+    /// ISO 8601 date and time, `YYYY-MM-DDThh:mm[:ss[.fff]]` (a space may
+    /// replace the `T`), followed by `Z`, `±hh:mm`, `±hhmm` or `±hh`, or by
+    /// nothing, in which case the profile's zone offset applies.
+    Iso8601,
+    /// Seconds since 1970-01-01T00:00:00Z, decimal fraction allowed.
+    EpochSeconds,
+    /// Milliseconds since 1970-01-01T00:00:00Z, decimal fraction allowed.
+    EpochMillis,
+}
+
+impl TimeFormat {
+    /// Parses a time field; `default_offset_s` applies to ISO 8601 times
+    /// written without a zone.
+    ///
+    /// # Errors
+    /// A short description of what is wrong.
+    pub fn parse(self, field: &str, default_offset_s: i32) -> Result<Timestamp, String> {
+        match self {
+            TimeFormat::Iso8601 => parse_iso8601(field, default_offset_s),
+            TimeFormat::EpochSeconds => parse_decimal_scaled(field, 9).map(Timestamp),
+            TimeFormat::EpochMillis => parse_decimal_scaled(field, 6).map(Timestamp),
+        }
+    }
+}
+
+/// Parses a decimal number exactly into an integer scaled by 10^`shift`
+/// (digits past the last kept place are truncated toward zero). Exponent
+/// notation falls back to floating point.
+fn parse_decimal_scaled(field: &str, shift: u32) -> Result<i64, String> {
+    let s = field.trim();
+    let bad = || format!("\"{s}\" is not a number of seconds since the epoch");
+    if s.is_empty() {
+        return Err("empty time".to_owned());
+    }
+    if s.contains(['e', 'E']) {
+        let v: f64 = s.parse().map_err(|_| bad())?;
+        if !v.is_finite() {
+            return Err(bad());
+        }
+        #[allow(clippy::cast_possible_truncation)]
+        return Ok((v * 10f64.powi(i32::try_from(shift).unwrap_or(9))).round() as i64);
+    }
+    let (neg, body) = match s.as_bytes().first() {
+        Some(b'-') => (true, s.get(1..).unwrap_or("")),
+        Some(b'+') => (false, s.get(1..).unwrap_or("")),
+        _ => (false, s),
+    };
+    let (int_part, frac_part) = body.split_once('.').unwrap_or((body, ""));
+    if int_part.is_empty() && frac_part.is_empty() {
+        return Err(bad());
+    }
+    let mut v: i64 = 0;
+    for b in int_part.bytes() {
+        if !b.is_ascii_digit() {
+            return Err(bad());
+        }
+        v = v
+            .checked_mul(10)
+            .and_then(|x| x.checked_add(i64::from(b - b'0')))
+            .ok_or_else(bad)?;
+    }
+    let mut place = 0;
+    for b in frac_part.bytes() {
+        if !b.is_ascii_digit() {
+            return Err(bad());
+        }
+        if place < shift {
+            v = v
+                .checked_mul(10)
+                .and_then(|x| x.checked_add(i64::from(b - b'0')))
+                .ok_or_else(bad)?;
+            place += 1;
+        }
+    }
+    v = v.checked_mul(10_i64.pow(shift - place)).ok_or_else(bad)?;
+    Ok(if neg { -v } else { v })
+}
+
+fn digits(s: &[u8]) -> Option<u32> {
+    if s.is_empty() {
+        return None;
+    }
+    let mut v: u32 = 0;
+    for &b in s {
+        if !b.is_ascii_digit() {
+            return None;
+        }
+        v = v * 10 + u32::from(b - b'0');
+    }
+    Some(v)
+}
+
+/// Parses an ISO 8601 date-time (see [`TimeFormat::Iso8601`]).
+///
+/// # Errors
+/// A short description of what is wrong.
+pub fn parse_iso8601(field: &str, default_offset_s: i32) -> Result<Timestamp, String> {
+    let s = field.trim();
+    let bad = |why: &str| format!("\"{s}\" is not an ISO 8601 date and time ({why})");
+    let b = s.as_bytes();
+    let get = |r: core::ops::Range<usize>| b.get(r).ok_or_else(|| bad("too short"));
+    let year = digits(get(0..4)?).ok_or_else(|| bad("year"))?;
+    if get(4..5)? != b"-" || get(7..8)? != b"-" {
+        return Err(bad("expected YYYY-MM-DD"));
+    }
+    let month = digits(get(5..7)?).ok_or_else(|| bad("month"))?;
+    let day = digits(get(8..10)?).ok_or_else(|| bad("day"))?;
+    if !matches!(get(10..11)?, b"T" | b"t" | b" ") {
+        return Err(bad("expected T between date and time"));
+    }
+    let hour = digits(get(11..13)?).ok_or_else(|| bad("hour"))?;
+    if get(13..14)? != b":" {
+        return Err(bad("expected hh:mm"));
+    }
+    let minute = digits(get(14..16)?).ok_or_else(|| bad("minute"))?;
+    let mut i = 16;
+    let mut second = 0;
+    let mut frac_ns: i64 = 0;
+    if b.get(i) == Some(&b':') {
+        second = digits(get(i + 1..i + 3)?).ok_or_else(|| bad("second"))?;
+        i += 3;
+        if matches!(b.get(i), Some(b'.' | b',')) {
+            i += 1;
+            let start = i;
+            let mut scale = 100_000_000_i64;
+            while let Some(&c) = b.get(i) {
+                if !c.is_ascii_digit() {
+                    break;
+                }
+                frac_ns += i64::from(c - b'0') * scale;
+                scale /= 10;
+                i += 1;
+            }
+            if i == start {
+                return Err(bad("empty fraction"));
+            }
+        }
+    }
+    let offset_s: i64 = match b.get(i..).unwrap_or(&[]) {
+        [] => i64::from(default_offset_s),
+        [b'Z' | b'z'] => 0,
+        [sign @ (b'+' | b'-'), rest @ ..] => {
+            let (h, m) = match rest {
+                [h1, h2] => (digits(&[*h1, *h2]), Some(0)),
+                [h1, h2, m1, m2] => (digits(&[*h1, *h2]), digits(&[*m1, *m2])),
+                [h1, h2, b':', m1, m2] => (digits(&[*h1, *h2]), digits(&[*m1, *m2])),
+                _ => (None, None),
+            };
+            let (Some(h), Some(m)) = (h, m) else {
+                return Err(bad("zone offset"));
+            };
+            if h > 23 || m > 59 {
+                return Err(bad("zone offset"));
+            }
+            let v = i64::from(h * 3600 + m * 60);
+            if *sign == b'-' {
+                -v
+            } else {
+                v
+            }
+        }
+        _ => return Err(bad("unexpected text after the time")),
+    };
+    let month_t = u8::try_from(month)
+        .ok()
+        .and_then(|m| time::Month::try_from(m).ok())
+        .ok_or_else(|| bad("month out of range"))?;
+    let day_u8 = u8::try_from(day).map_err(|_| bad("day out of range"))?;
+    let year_i = i32::try_from(year).map_err(|_| bad("year"))?;
+    time::Date::from_calendar_date(year_i, month_t, day_u8).map_err(|_| bad("no such date"))?;
+    // 24:00:00 is not accepted; a leap second 60 is not representable here.
+    if hour > 23 || minute > 59 || second > 59 {
+        return Err(bad("time of day out of range"));
+    }
+    let days = days_from_civil(i64::from(year), month, day);
+    let secs = days * 86_400 + i64::from(hour * 3600 + minute * 60 + second) - offset_s;
+    Ok(Timestamp(secs * NS_PER_S + frac_ns))
+}
+
+/// Parses a zone offset written as `Z`, `UTC`, `±hh:mm`, `±hhmm` or `±hh`
+/// into seconds east of UTC.
+///
+/// # Errors
+/// A short description of what is wrong.
+pub fn parse_offset(s: &str) -> Result<i32, String> {
+    let t = s.trim();
+    if t.eq_ignore_ascii_case("z") || t.eq_ignore_ascii_case("utc") {
+        return Ok(0);
+    }
+    // Reuse the date-time parser on a fixed date.
+    let probe = format!("1970-01-01T00:00:00{t}");
+    let ts = parse_iso8601(&probe, 0)
+        .map_err(|_| format!("\"{t}\" is not a zone offset (write Z, +hh:mm or -hh:mm)"))?;
+    i32::try_from(-ts.unix_ns() / NS_PER_S).map_err(|_| format!("\"{t}\" is out of range"))
+}
