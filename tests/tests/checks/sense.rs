@@ -45,6 +45,20 @@ fn deg(x: f32) -> f32 {
     rad_to_deg(x)
 }
 
+/// Tolerance: `libm` with the default back end, `micromath` with
+/// `--features micromath`, whose trigonometric, logarithm and power
+/// approximations are good to a few tenths of a percent (its documentation;
+/// see backends.rs). Tilt magnitudes up to 45° and filter gaps do not depend
+/// on the back end (the core sums a series there), so they keep one
+/// tolerance.
+fn tol(libm: f64, micromath: f64) -> f64 {
+    if cfg!(feature = "micromath") {
+        micromath
+    } else {
+        libm
+    }
+}
+
 // ------------------------------------------------------------------- tilt
 
 /// Check vectors of the tilt fact sheet (§6), total tilt from vertical by
@@ -71,7 +85,11 @@ fn tilt_of_an1057_check_vectors() {
         let t = tilt_of_specific_force(Vec3::from_array(a)).unwrap();
         assert_abs_diff_eq!(deg(t.magnitude_rad), tilt_deg, epsilon = 2e-4);
         if let Some(az) = az_deg {
-            assert_abs_diff_eq!(deg(t.downhill_azimuth_rad), az, epsilon = 2e-3);
+            assert_abs_diff_eq!(
+                deg(t.downhill_azimuth_rad),
+                az,
+                epsilon = tol(2e-3, 0.3) as f32
+            );
         }
         // Through the whole pipeline (one sample initialises the filters).
         let mut s = tilt_sensor(TiltConfig::default());
@@ -338,7 +356,8 @@ fn accelerometer_fault_classes() {
     assert!(steep.tilt().is_none());
     assert!(has(&steep.faults(Millis(0)), |f| matches!(
         f,
-        Fault::TiltBeyondLimit { magnitude_rad } if (rad_to_deg(*magnitude_rad) - 53.130_1).abs() < 1e-3
+        Fault::TiltBeyondLimit { magnitude_rad }
+            if f64::from((rad_to_deg(*magnitude_rad) - 53.130_1).abs()) < tol(1e-3, 0.3)
     )));
 }
 
@@ -426,8 +445,12 @@ fn circular_mean_across_north() {
             // Distance from north, either side of 0/360°.
             let d = deg(from_rad);
             assert!(d.min(360.0 - d) < 1e-3, "mean {d}");
-            assert_abs_diff_eq!(resultant_length, 0.984_808, epsilon = 1e-5);
-            assert_abs_diff_eq!(spread_rad, 0.174_98, epsilon = 1e-4);
+            assert_abs_diff_eq!(
+                resultant_length,
+                0.984_808,
+                epsilon = tol(1e-5, 1e-3) as f32
+            );
+            assert_abs_diff_eq!(spread_rad, 0.174_98, epsilon = tol(1e-4, 0.01) as f32);
         }
         other => panic!("expected a defined direction, got {other:?}"),
     }
@@ -504,7 +527,7 @@ fn log_profile_matches_en_1991_1_4() {
         ] {
             let expected = c_r(z2, z0, zmin) / c_r(z1, z0, zmin);
             let got = log_profile_factor(z1 as f32, z2 as f32, cat).unwrap();
-            assert_relative_eq!(got as f64, expected, max_relative = 2e-6);
+            assert_relative_eq!(got as f64, expected, max_relative = tol(2e-6, 1e-3));
         }
     }
     // Hand values: cat II, 10 m → 2 m: ln(40)/ln(200) = 3.688 88/5.298 32
@@ -513,12 +536,12 @@ fn log_profile_matches_en_1991_1_4() {
     assert_abs_diff_eq!(
         log_profile_factor(10.0, 2.0, TerrainCategory::CatIIOpen).unwrap(),
         0.696_23,
-        epsilon = 1e-5
+        epsilon = tol(1e-5, 1e-3) as f32
     );
     assert_abs_diff_eq!(
         log_profile_factor(10.0, 1.5, TerrainCategory::CatIIISuburban).unwrap(),
         0.802_33,
-        epsilon = 1e-5
+        epsilon = tol(1e-5, 1e-3) as f32
     );
     // The correction is applied to every sample: 10 m/s at 10 m over cat II
     // is 6.9623 m/s at a 2 m rig.
@@ -531,8 +554,16 @@ fn log_profile_matches_en_1991_1_4() {
         w.push(Millis(k * 250), 10.0, Some(1.0)).unwrap();
     }
     let r = w.report(Millis(39 * 250));
-    assert_abs_diff_eq!(r.mean_10min_mps.unwrap(), 6.962_3, epsilon = 1e-3);
-    assert_abs_diff_eq!(r.peak_gust_mps.unwrap(), 6.962_3, epsilon = 1e-3);
+    assert_abs_diff_eq!(
+        r.mean_10min_mps.unwrap(),
+        6.962_3,
+        epsilon = tol(1e-3, 1e-2) as f32
+    );
+    assert_abs_diff_eq!(
+        r.peak_gust_mps.unwrap(),
+        6.962_3,
+        epsilon = tol(1e-3, 1e-2) as f32
+    );
 }
 
 /// Gust from a mean-only source (fact sheet wind §3 design convention: 1.45
@@ -768,5 +799,5 @@ fn sonic_record_gust_mean_and_direction_match_plain_computation() {
     let got = r.direction.from_rad().unwrap() as f64;
     let diff = (got - mean_dir + std::f64::consts::PI).rem_euclid(std::f64::consts::TAU)
         - std::f64::consts::PI;
-    assert!(diff.abs() < 1e-4, "{got} vs {mean_dir}");
+    assert!(diff.abs() < tol(1e-4, 5e-3), "{got} vs {mean_dir}");
 }
