@@ -680,8 +680,10 @@ mod tests {
 
     #[test]
     fn small_angle_series_matches_atan() {
-        for t in [0.0_f32, 1e-4, 0.01, 0.1, 0.2, 0.25, 0.41, 0.5, 0.8, 1.0, 1.02] {
-            let exact = libm_free_atan(f64::from(t));
+        for t in [
+            0.0_f32, 1e-4, 0.01, 0.1, 0.2, 0.25, 0.41, 0.5, 0.8, 1.0, 1.02,
+        ] {
+            let exact = euler_atan(f64::from(t));
             let err = (f64::from(small_angle_atan2(t, 1.0)) - exact).abs();
             assert!(err < 3e-7, "t {t}: error {err:e}");
         }
@@ -689,7 +691,7 @@ mod tests {
 
     /// atan by Euler's series, Σ (2ⁿn!)²/(2n+1)! · t²ⁿ⁺¹/(1+t²)ⁿ⁺¹, 200
     /// terms in f64, independent of either back end.
-    fn libm_free_atan(t: f64) -> f64 {
+    fn euler_atan(t: f64) -> f64 {
         let z = t * t / (1.0 + t * t);
         let mut term = t / (1.0 + t * t);
         let mut sum = term;

@@ -663,7 +663,7 @@ impl WindStats {
         if k < first.saturating_add(n - 1) {
             return None;
         }
-        let lo = k + 1 - n;
+        let lo = k.saturating_add(1).saturating_sub(n);
         let (sum, count) = self
             .fine
             .iter()
