@@ -24,9 +24,9 @@
 //! - `ha_deg,dec_deg`: mount pose in degrees when the mount reported one;
 //!   both empty otherwise.
 
-use crate::assess::{Limits, LimitRule};
-use crate::lis3dh::{self, Lis3dh, RawSample};
+use crate::assess::{LimitRule, Limits};
 use crate::lines::FailSafeLines;
+use crate::lis3dh::{self, Lis3dh, RawSample};
 use crate::pose::MountPose;
 use crate::station::{AxisMap, Station, StationConfig, StepInputs, StepReport};
 use crate::wind::{Anemometer, AnemometerCal, PulseLatch, WindVane};
@@ -554,10 +554,7 @@ impl<const N: usize> LineSplitter<N> {
         self.emit(&mut each)
     }
 
-    fn emit<E>(
-        &mut self,
-        each: &mut impl FnMut(SplitLine<'_>) -> Result<(), E>,
-    ) -> Result<(), E> {
+    fn emit<E>(&mut self, each: &mut impl FnMut(SplitLine<'_>) -> Result<(), E>) -> Result<(), E> {
         let r = if self.overflow {
             each(SplitLine::Bad)
         } else {

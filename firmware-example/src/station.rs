@@ -357,9 +357,9 @@ where
         // The vane is judged against the latest wind speed, so a silent
         // anemometer does not also fault the vane.
         let vane_now_ms = self.wind_health.last_good_ms.unwrap_or(start_ms);
-        if let Some(f) = self
-            .vane_health
-            .update(vane_now_ms, start_ms, self.cfg.vane_stale_ms, clear_ms)
+        if let Some(f) =
+            self.vane_health
+                .update(vane_now_ms, start_ms, self.cfg.vane_stale_ms, clear_ms)
         {
             push(health_event(Source::Vane, f, Cause::Stale), now_ms);
         }

@@ -1,0 +1,41 @@
+//! Replays a log on the host through the same station the emulated board
+//! runs, printing the same event lines, so the two outputs can be compared:
+//!
+//! ```text
+//! cargo run -p standfast-firmware --example host_replay -- firmware-example/replay/short-night.csv
+//! ```
+use standfast_firmware::replay::{Replay, ReplaySetup};
+use std::process::ExitCode;
+
+fn main() -> ExitCode {
+    let Some(path) = std::env::args().nth(1) else {
+        eprintln!("usage: host_replay <log.csv>");
+        return ExitCode::from(2);
+    };
+    let text = match std::fs::read_to_string(&path) {
+        Ok(t) => t,
+        Err(e) => {
+            eprintln!("error: cannot read {path}: {e}");
+            return ExitCode::from(2);
+        }
+    };
+    let mut replay = Replay::new(&ReplaySetup::example());
+    let mut events = 0u32;
+    for line in text.lines() {
+        match replay.feed_line(line) {
+            Ok(Some(report)) => {
+                for e in &report.events {
+                    println!("{e}");
+                    events += 1;
+                }
+            }
+            Ok(None) => {}
+            Err(e) => {
+                println!("{e}");
+                return ExitCode::from(3);
+            }
+        }
+    }
+    println!("summary rows={} events={events}", replay.rows());
+    ExitCode::SUCCESS
+}

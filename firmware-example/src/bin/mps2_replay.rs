@@ -1,0 +1,201 @@
+//! The station on an emulated Cortex-M4 board (QEMU `mps2-an386`), replaying
+//! a log read from the host through semihosting and printing its events.
+//!
+//! ```text
+//! qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \
+//!   -semihosting-config enable=on,target=native,arg=mps2-replay,arg=<log.csv> \
+//!   -kernel target/thumbv7em-none-eabihf/release/mps2-replay
+//! ```
+//!
+//! The second word of the semihosting command line is the log's path; a
+//! third word `--selftest-hardfault` executes an undefined instruction to
+//! prove that a HardFault ends the run with a failure code.
+//!
+//! Exit codes (semihosting extended exit): 0 replay done, 2 usage or file
+//! error, 3 malformed log, 4 HardFault, 5 internal error, 101 panic.
+#![no_std]
+#![no_main]
+// Semihosting calls are `unsafe` (a trap into the debugger with raw pointers).
+#![allow(unsafe_code)]
+
+use core::panic::PanicInfo;
+use cortex_m_rt::{entry, exception, ExceptionFrame};
+use cortex_m_semihosting::{heprintln, hprintln, nr, syscall};
+use standfast_firmware::replay::{LineSplitter, Replay, ReplayError, ReplaySetup, SplitLine};
+
+const EXIT_OK: u32 = 0;
+const EXIT_USAGE: u32 = 2;
+const EXIT_LOG: u32 = 3;
+const EXIT_HARDFAULT: u32 = 4;
+const EXIT_INTERNAL: u32 = 5;
+const EXIT_PANIC: u32 = 101;
+
+/// SYS_EXIT_EXTENDED: like SYS_EXIT, but its parameter block carries an exit
+/// code, so codes other than 0 and 1 reach the host (Arm semihosting
+/// specification v2; from memory).
+const SYS_EXIT_EXTENDED: usize = 0x20;
+/// ADP_Stopped_ApplicationExit, the reason code for a normal exit.
+const ADP_STOPPED_APPLICATION_EXIT: usize = 0x20026;
+
+fn exit(code: u32) -> ! {
+    let block: [usize; 2] = [ADP_STOPPED_APPLICATION_EXIT, code as usize];
+    // SAFETY: a valid semihosting operation with a two-word parameter block.
+    unsafe {
+        syscall(SYS_EXIT_EXTENDED, &block);
+    }
+    // Not reached under QEMU; on a debugger that resumes, stay here.
+    loop {
+        cortex_m::asm::bkpt();
+    }
+}
+
+#[entry]
+fn main() -> ! {
+    exit(run())
+}
+
+fn run() -> u32 {
+    let mut cmdline = [0u8; 256];
+    let block: [usize; 2] = [cmdline.as_mut_ptr() as usize, cmdline.len()];
+    // SAFETY: GET_CMDLINE writes at most `len` bytes into the buffer.
+    if unsafe { syscall(nr::GET_CMDLINE, &block) } != 0 {
+        hprintln!("error reason=no_command_line");
+        return EXIT_USAGE;
+    }
+    let len = cmdline
+        .iter()
+        .position(|&b| b == 0)
+        .unwrap_or(cmdline.len());
+    let Ok(cmd) = core::str::from_utf8(cmdline.get(..len).unwrap_or(&[])) else {
+        hprintln!("error reason=command_line_not_utf8");
+        return EXIT_USAGE;
+    };
+    let mut words = cmd.split_ascii_whitespace().skip(1);
+    let Some(path) = words.next() else {
+        hprintln!("usage: mps2-replay <log.csv> [--selftest-hardfault]");
+        return EXIT_USAGE;
+    };
+    if words.next() == Some("--selftest-hardfault") {
+        hprintln!("selftest: executing an undefined instruction");
+        cortex_m::asm::udf();
+    }
+
+    let Some(fd) = open_read(path) else {
+        hprintln!("error reason=cannot_open path={}", path);
+        return EXIT_USAGE;
+    };
+    // The station and its buffers live in statics: nothing grows at run time.
+    let Some(replay) = cortex_m::singleton!(: Replay = Replay::new(&ReplaySetup::example())) else {
+        return EXIT_INTERNAL;
+    };
+    let Some(splitter) = cortex_m::singleton!(: LineSplitter<160> = LineSplitter::new()) else {
+        return EXIT_INTERNAL;
+    };
+    let Some(chunk) = cortex_m::singleton!(: [u8; 256] = [0; 256]) else {
+        return EXIT_INTERNAL;
+    };
+
+    let mut events: u32 = 0;
+    let mut each = |l: SplitLine<'_>| -> Result<(), ReplayError> {
+        let report = match l {
+            SplitLine::Text(t) => replay.feed_line(t)?,
+            SplitLine::Bad => return Err(replay.too_long()),
+        };
+        if let Some(report) = report {
+            for e in &report.events {
+                hprintln!("{}", e);
+                events = events.saturating_add(1);
+            }
+        }
+        Ok(())
+    };
+    let outcome = loop {
+        let n = read(fd, chunk);
+        if n == 0 {
+            break splitter.finish(&mut each);
+        }
+        if let Err(e) = splitter.feed(chunk.get(..n).unwrap_or(&[]), &mut each) {
+            break Err(e);
+        }
+    };
+    close(fd);
+    // On stderr, so stdout holds only what the host replay prints too.
+    heprintln!("memory stack_peak_bytes={}", stack_peak_bytes());
+    match outcome {
+        Ok(()) => {
+            hprintln!("summary rows={} events={}", replay.rows(), events);
+            EXIT_OK
+        }
+        Err(e) => {
+            hprintln!("{}", e);
+            EXIT_LOG
+        }
+    }
+}
+
+/// Opens a host file for reading; `None` on failure.
+fn open_read(path: &str) -> Option<usize> {
+    let mut name = [0u8; 200];
+    let bytes = path.as_bytes();
+    // Leave room for the terminating NUL the call needs.
+    if bytes.len() >= name.len() {
+        return None;
+    }
+    name.get_mut(..bytes.len())?.copy_from_slice(bytes);
+    let block: [usize; 3] = [name.as_ptr() as usize, nr::open::R_BINARY, bytes.len()];
+    // SAFETY: OPEN reads the NUL-terminated name of the given length.
+    let fd = unsafe { syscall(nr::OPEN, &block) };
+    (fd as isize >= 0).then_some(fd)
+}
+
+/// Reads up to `buf.len()` bytes; returns how many (0 at end of file or on error).
+fn read(fd: usize, buf: &mut [u8]) -> usize {
+    let block: [usize; 3] = [fd, buf.as_mut_ptr() as usize, buf.len()];
+    // SAFETY: READ writes at most `len` bytes into the buffer and returns the
+    // number of bytes *not* read.
+    let not_read = unsafe { syscall(nr::READ, &block) };
+    buf.len().saturating_sub(not_read)
+}
+
+fn close(fd: usize) {
+    let block: [usize; 1] = [fd];
+    // SAFETY: CLOSE takes the handle OPEN returned.
+    unsafe {
+        syscall(nr::CLOSE, &block);
+    }
+}
+
+/// Peak stack use so far: cortex-m-rt's `paint-stack` fills the stack with
+/// `STACK_PAINT_VALUE` at reset; the lowest word no longer holding it marks
+/// the deepest the stack has reached.
+fn stack_peak_bytes() -> usize {
+    unsafe extern "C" {
+        static _stack_end: u32;
+        static _stack_start: u32;
+    }
+    let bottom = (&raw const _stack_end) as usize;
+    let top = (&raw const _stack_start) as usize;
+    let mut p = bottom;
+    while p < top {
+        // SAFETY: an aligned word inside the RAM region the linker script
+        // reserved for the stack.
+        let w = unsafe { core::ptr::read_volatile(p as *const u32) };
+        if w != cortex_m_rt::STACK_PAINT_VALUE {
+            break;
+        }
+        p += 4;
+    }
+    top - p
+}
+
+#[exception]
+unsafe fn HardFault(ef: &ExceptionFrame) -> ! {
+    hprintln!("hardfault pc={:#010x}", ef.pc());
+    exit(EXIT_HARDFAULT)
+}
+
+#[panic_handler]
+fn panic(info: &PanicInfo) -> ! {
+    hprintln!("panic: {}", info);
+    exit(EXIT_PANIC)
+}

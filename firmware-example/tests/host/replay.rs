@@ -1,0 +1,158 @@
+//! The replay harness: log parsing, line splitting, and the invented short
+//! night replayed through the station. The expected events are derived by
+//! hand from the log's script (replay/make_short_night.py) and the example
+//! set-up (`ReplaySetup::example`): 0.75 m/s per Hz + 0.3 m/s, 1 s gate,
+//! park at 12 m/s, alarm at 18 m/s, held 5 s, accelerometer stale after
+//! 250 ms, wind after 3 s, faults cleared after 2 s healthy.
+
+use standfast_firmware::replay::{
+    parse_row, LineSplitter, Replay, ReplayError, ReplaySetup, SplitLine, HEADER,
+};
+
+const SHORT_NIGHT: &str = include_str!("../../replay/short-night.csv");
+
+fn replay_text(text: &str) -> Result<Vec<String>, ReplayError> {
+    let mut r = Replay::new(&ReplaySetup::example());
+    let mut out = Vec::new();
+    for line in text.lines() {
+        if let Some(rep) = r.feed_line(line)? {
+            out.extend(rep.events.iter().map(|e| e.to_string()));
+        }
+    }
+    Ok(out)
+}
+
+#[test]
+fn the_short_night_gives_the_hand_derived_events() {
+    // Window k (second k) reports at (k+1)·1000 ms. Seconds 10–13 at 16 Hz
+    // give 12.3 m/s (park at 11000); second 14 at 25 Hz gives 19.05 m/s
+    // (alarm at 15000); both held to 20000 inclusive, clear at 20100.
+    // Accelerometer silent 25000–25300: last good 24900, stale (>250 ms) at
+    // 25200; good from 25400, cleared at 27400. Pulses missing 30100–33900:
+    // last speed 30000, stale (>3000 ms) at 33100; the first latch at 34000
+    // opens a window, speed at 35000, cleared at 37000.
+    let events = replay_text(SHORT_NIGHT).unwrap();
+    assert_eq!(
+        events,
+        [
+            "event t_ms=0 kind=started",
+            "event t_ms=0 kind=stage name=clear",
+            "event t_ms=1000 kind=park_off",
+            "event t_ms=1000 kind=alarm_off",
+            "event t_ms=11000 kind=stage name=park",
+            "event t_ms=11000 kind=park_on",
+            "event t_ms=15000 kind=stage name=alarm",
+            "event t_ms=15000 kind=alarm_on",
+            "event t_ms=20100 kind=stage name=clear",
+            "event t_ms=20100 kind=park_off",
+            "event t_ms=20100 kind=alarm_off",
+            "event t_ms=25200 kind=fault source=accel cause=bus",
+            "event t_ms=25200 kind=park_on",
+            "event t_ms=25200 kind=alarm_on",
+            "event t_ms=27400 kind=fault_cleared source=accel",
+            "event t_ms=27400 kind=park_off",
+            "event t_ms=27400 kind=alarm_off",
+            "event t_ms=33100 kind=fault source=wind cause=stale",
+            "event t_ms=33100 kind=park_on",
+            "event t_ms=33100 kind=alarm_on",
+            "event t_ms=37000 kind=fault_cleared source=wind",
+            "event t_ms=37000 kind=park_off",
+            "event t_ms=37000 kind=alarm_off",
+        ]
+    );
+}
+
+#[test]
+fn rows_parse_with_empty_fields_as_missing() {
+    let r = parse_row("100,16,-32,16000,42,270.5,-15,30", 3).unwrap();
+    assert_eq!(r.t_ms, 100);
+    assert_eq!(r.accel.unwrap().words, [16, -32, 16000]);
+    assert_eq!(r.pulse_total, Some(42));
+    assert_eq!(r.vane_from_deg, Some(270.5));
+    let pose = r.pose.unwrap();
+    assert!((pose.hour_angle_rad + 15f32.to_radians()).abs() < 1e-6);
+    let r = parse_row("200,,,,,,,", 4).unwrap();
+    assert_eq!(
+        (r.accel, r.pulse_total, r.vane_from_deg, r.pose),
+        (None, None, None, None)
+    );
+}
+
+#[test]
+fn bad_rows_name_their_line_and_column() {
+    assert_eq!(parse_row("1,2,3", 7), Err(ReplayError::Columns { line: 7 }));
+    assert_eq!(
+        parse_row("1,2,3,4,5,6,7,8,9", 7),
+        Err(ReplayError::Columns { line: 7 })
+    );
+    assert_eq!(
+        parse_row("x,2,3,4,5,6,7,8", 7),
+        Err(ReplayError::Field {
+            line: 7,
+            column: "t_ms"
+        })
+    );
+    // 40000 does not fit a signed 16-bit output word.
+    assert_eq!(
+        parse_row("1,40000,3,4,5,6,7,8", 7),
+        Err(ReplayError::Field {
+            line: 7,
+            column: "accel_x"
+        })
+    );
+    // Only some of the three axes: not a valid sensor state.
+    assert_eq!(
+        parse_row("1,1,,4,5,6,7,8", 7),
+        Err(ReplayError::Field {
+            line: 7,
+            column: "accel_x"
+        })
+    );
+    // Declination past the pole.
+    assert_eq!(
+        parse_row("1,1,2,4,5,6,7,95", 7),
+        Err(ReplayError::Field {
+            line: 7,
+            column: "ha_deg"
+        })
+    );
+}
+
+#[test]
+fn a_log_needs_its_header_and_forward_time() {
+    assert_eq!(
+        replay_text("# c\nt_ms,x\n"),
+        Err(ReplayError::Header { line: 2 })
+    );
+    let text = format!("{HEADER}\n100,,,,,,,\n50,,,,,,,\n");
+    assert_eq!(
+        replay_text(&text),
+        Err(ReplayError::TimeBackwards { line: 3 })
+    );
+    assert_eq!(
+        ReplayError::Field {
+            line: 9,
+            column: "t_ms"
+        }
+        .to_string(),
+        "error line=9 reason=field column=t_ms"
+    );
+}
+
+#[test]
+fn lines_split_across_chunks_and_overlong_lines_are_flagged() {
+    let mut s = LineSplitter::<8>::new();
+    let mut got: Vec<String> = Vec::new();
+    let mut each = |l: SplitLine<'_>| -> Result<(), ()> {
+        got.push(match l {
+            SplitLine::Text(t) => t.to_string(),
+            SplitLine::Bad => "<bad>".to_string(),
+        });
+        Ok(())
+    };
+    s.feed(b"ab", &mut each).unwrap();
+    s.feed(b"c\nde", &mut each).unwrap();
+    s.feed(b"\n0123456789\nlast", &mut each).unwrap();
+    s.finish(&mut each).unwrap();
+    assert_eq!(got, ["abc", "de", "<bad>", "last"]);
+}
