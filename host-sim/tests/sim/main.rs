@@ -1,0 +1,8 @@
+//! Library tests of standfast-sim (no command line involved). One module per
+//! subject; every check names its outside source beside it.
+
+mod demo;
+mod located;
+mod log_merge;
+mod log_time;
+mod units;
