@@ -91,8 +91,10 @@ pub mod mount;
 pub mod rig;
 pub mod sense;
 pub mod shape;
+pub mod sky;
 pub mod stability;
 pub mod support;
+pub mod torque;
 
 pub use error::{Error, ErrorKind};
 pub use frame::Tilt;
