@@ -85,6 +85,7 @@ pub mod air;
 pub mod drive;
 pub mod error;
 pub mod frame;
+pub mod guard;
 pub mod hardware;
 pub mod math;
 pub mod mount;

@@ -8,6 +8,7 @@
 compile_error!("standfast needs a math back end: enable feature `libm` (default) or `micromath`");
 
 #[cfg(feature = "micromath")]
+#[allow(unused_imports)]
 use micromath::F32Ext as _;
 
 /// π as `f32`.

@@ -4,6 +4,7 @@ mod air;
 mod backends;
 mod fixtures;
 mod frame;
+mod guard;
 mod hardware;
 mod mount;
 mod sense;

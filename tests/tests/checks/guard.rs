@@ -1,0 +1,207 @@
+//! The guard on scripted scenarios. The rig is the fact-sheet tripod of
+//! `stability.rs` (tips at 21.9 m/s with the wind toward an edge), so every
+//! utilisation is (V / 21.9)² and the thresholds translate into speeds by hand.
+
+use crate::fixtures::{altaz, post_rig};
+use standfast::guard::{Cause, Event, Guard, GuardConfig, Inputs, Stage, WindSample};
+use standfast::rig::Rig;
+use standfast::sense::{Fault, Millis, Sensor};
+use standfast::support::Support;
+
+fn rig() -> Rig {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap()
+}
+
+fn config() -> GuardConfig {
+    GuardConfig {
+        assumed_pose: Some(altaz(0.0, 0.0)),
+        ..GuardConfig::default()
+    }
+}
+
+/// Runs the guard from `t0_s` to `t1_s`: accelerometer level at 10 Hz, wind
+/// at 1 Hz from the north with `speed(t_s)`. Returns every stage change
+/// (time s, from, to, cause) and the last verdict's figures.
+struct Run<'r> {
+    guard: Guard<'r>,
+    changes: Vec<(f32, Stage, Stage, Cause)>,
+    faults: Vec<(f32, Fault)>,
+    first_park_s: Option<f32>,
+}
+
+impl<'r> Run<'r> {
+    fn new(rig: &'r Rig, cfg: GuardConfig) -> Self {
+        Run {
+            guard: Guard::new(rig, cfg, Millis(0)).unwrap(),
+            changes: Vec::new(),
+            faults: Vec::new(),
+            first_park_s: None,
+        }
+    }
+
+    fn run(&mut self, t0_s: f32, t1_s: f32, speed: impl Fn(f32) -> Option<f32>, accel: bool) {
+        let mut k = (t0_s * 10.0).round() as u64;
+        let end = (t1_s * 10.0).round() as u64;
+        while k < end {
+            let t = k as f32 / 10.0;
+            let mut inputs = Inputs::default();
+            if accel {
+                inputs.accel_raw = Some([0.0, 0.0, 1.0 + 1e-4 * ((k % 7) as f32)]);
+            }
+            if k % 10 == 0 {
+                if let Some(v) = speed(t) {
+                    // A real cup never holds one reading: ±2 % ripple.
+                    let ripple = 1.0 + 0.02 * (0.7 * t).sin();
+                    inputs.wind = Some(WindSample {
+                        speed_mps: v * ripple,
+                        // …and a vane swings a little: ±2°.
+                        from_rad: Some((0.035 * (0.3 * t).sin()).rem_euclid(std::f32::consts::TAU)),
+                    });
+                }
+            }
+            let v = self.guard.step(Millis(k * 100), &inputs);
+            for e in &v.events {
+                match *e {
+                    Event::StageChanged { from, to, cause } => {
+                        self.changes.push((t, from, to, cause))
+                    }
+                    Event::FaultRaised(f) => self.faults.push((t, f)),
+                    Event::NewHighUtilisation { .. } => {}
+                }
+            }
+            if v.stage.park_requested() && self.first_park_s.is_none() {
+                self.first_park_s = Some(t);
+                assert!(v.park_pose.is_some(), "a park request carries a park pose");
+            }
+            k += 1;
+        }
+    }
+}
+
+/// A steady light wind (5 m/s: utilisation 0.05) never raises anything.
+#[test]
+fn steady_light_wind_stays_clear() {
+    let rig = rig();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 1800.0, |_| Some(5.0), true);
+    assert!(r.changes.is_empty(), "{:?}", r.changes);
+    assert!(r.faults.is_empty(), "{:?}", r.faults);
+    assert_eq!(r.guard.stage(), Stage::Clear);
+}
+
+/// A wind ramping from 4 to 24 m/s over 40 minutes (0.5 m/s per minute): the
+/// park must be requested while the utilisation at the end of the park time
+/// (120 s later, at the true wind then) is still below the park threshold of
+/// 0.75, i.e. the rig is parked before the limit is reached.
+#[test]
+fn ramping_wind_requests_park_in_time() {
+    let rig = rig();
+    let cfg = config();
+    let ramp = |t: f32| Some(4.0 + 0.5 * t / 60.0);
+    let mut r = Run::new(&rig, cfg.clone());
+    r.run(0.0, 2400.0, ramp, true);
+    let t_park = r.first_park_s.expect("park requested");
+    let v_end = ramp(t_park + cfg.time_to_park_s).unwrap();
+    let u_end = (v_end / 21.93).powi(2);
+    assert!(
+        u_end < cfg.park_utilisation,
+        "parked at {t_park} s, U at end of park {u_end}"
+    );
+    // Stages rose in order through watch to park, then to alarm.
+    let tos: Vec<Stage> = r.changes.iter().map(|c| c.2).collect();
+    assert_eq!(&tos[..3], &[Stage::Watch, Stage::ParkNow, Stage::Alarm]);
+}
+
+/// Hysteresis and dwell: a 15 m/s spell (U ≈ 0.47, predicted ≈ 0.62 with the
+/// 1.15 gust allowance: watch) then calm. The stage stays at watch until the
+/// figures have been below 0.8 × threshold for the 600 s dwell *and* the 600 s
+/// peak-gust window has forgotten the spell.
+#[test]
+fn watch_steps_down_only_after_dwell() {
+    let rig = rig();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 300.0, |_| Some(15.0), true);
+    assert_eq!(r.guard.stage(), Stage::Watch, "{:?}", r.changes);
+    r.run(300.0, 1700.0, |_| Some(3.0), true);
+    let down = r
+        .changes
+        .iter()
+        .find(|c| c.2 == Stage::Clear)
+        .expect("stepped down");
+    // The spell leaves the 600 s peak-gust window at 900 s; the 600 s dwell
+    // then ends at 1500 s, give or take the 10 s bins of the peak window.
+    assert!(
+        down.0 >= 1480.0 && down.0 <= 1510.0,
+        "stepped down at {} s",
+        down.0
+    );
+    assert_eq!(down.3, Cause::Settled);
+}
+
+/// The alarm latches: after a 21 m/s spell (U ≈ 0.92 ≥ 0.9) and a long calm
+/// the stage stays at alarm until acknowledged, then steps down.
+#[test]
+fn alarm_latches_until_acknowledged() {
+    let rig = rig();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 120.0, |_| Some(21.0), true);
+    assert_eq!(r.guard.stage(), Stage::Alarm);
+    r.run(120.0, 2400.0, |_| Some(2.0), true);
+    assert_eq!(r.guard.stage(), Stage::Alarm, "latched");
+    r.guard.acknowledge();
+    r.run(2400.0, 2410.0, |_| Some(2.0), true);
+    assert_eq!(r.guard.stage(), Stage::Clear);
+}
+
+/// A silent anemometer is a stale-sensor fault after the configured 10 s,
+/// treated as unsafe (park and alarm).
+#[test]
+fn stale_wind_is_a_fault() {
+    let rig = rig();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 60.0, |_| Some(4.0), true);
+    assert_eq!(r.guard.stage(), Stage::Clear);
+    r.run(60.0, 90.0, |_| None, true);
+    assert_eq!(r.guard.stage(), Stage::SensorFault);
+    assert!(r.guard.stage().park_requested() && r.guard.stage().alarm());
+    assert!(r.faults.iter().any(|(_, f)| matches!(
+        f,
+        Fault::Stale {
+            sensor: Sensor::WindSpeed,
+            ..
+        }
+    )));
+}
+
+/// A non-finite wind sample is dropped and reported as a fault at once.
+#[test]
+fn nan_wind_sample_is_a_fault() {
+    let rig = rig();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 30.0, |_| Some(4.0), true);
+    r.run(30.0, 31.0, |_| Some(f32::NAN), true);
+    assert!(r.faults.iter().any(|(_, f)| matches!(
+        f,
+        Fault::NotFinite {
+            sensor: Sensor::WindSpeed
+        }
+    )));
+    assert_eq!(r.guard.stage(), Stage::SensorFault);
+}
+
+/// A silent accelerometer is a fault too.
+#[test]
+fn stale_accelerometer_is_a_fault() {
+    let rig = rig();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 30.0, |_| Some(4.0), false);
+    assert_eq!(r.guard.stage(), Stage::SensorFault);
+    assert!(r.faults.iter().any(|(_, f)| matches!(
+        f,
+        Fault::Stale {
+            sensor: Sensor::Accelerometer,
+            ..
+        }
+    )));
+}
