@@ -163,7 +163,10 @@ impl Support {
     ///
     /// # Errors
     /// As [`Support::tripod`].
-    pub fn tripod_from_spread(leg_spread_m: f32, first_leg_azimuth_rad: f32) -> Result<Support, Error> {
+    pub fn tripod_from_spread(
+        leg_spread_m: f32,
+        first_leg_azimuth_rad: f32,
+    ) -> Result<Support, Error> {
         Error::check("support.leg_spread_m", leg_spread_m, 0.08, 17.0)?;
         Support::tripod(leg_spread_m / math::sqrt(3.0), first_leg_azimuth_rad)
     }
