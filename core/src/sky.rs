@@ -258,8 +258,9 @@ pub struct AxisExtreme {
 pub struct TipExtreme {
     /// The pose.
     pub pose: Pose,
-    /// Lowest wind speed that tips the rig there, m/s, refined over all
-    /// directions; `None` if no wind can tip it in any pose scanned.
+    /// Lowest wind speed that tips the rig there, m/s: the lower of the
+    /// grid's sampled directions and a refinement over all directions at that
+    /// pose; `None` if no wind can tip it in any pose scanned.
     pub tip_wind_mps: Option<f32>,
     /// Direction that wind blows from, radians from north clockwise.
     pub from_rad: f32,
@@ -502,17 +503,28 @@ impl Rig {
                 Some(ratio(secondary.steady_nm.abs(), d.secondary.rated_nm));
         }
         let tip = match tip {
-            Some((_, pose, _)) => {
+            Some((q_coarse, pose, d_coarse)) => {
                 let c = Conditions {
                     tilt: scan.tilt,
                     air: scan.air,
                     ..Conditions::calm(pose)
                 };
                 let w = self.worst_wind(&c)?;
-                TipExtreme {
-                    pose,
-                    tip_wind_mps: w.tip_wind_mps,
-                    from_rad: w.from_rad,
+                let coarse = scan.air.speed_for_pressure_mps(q_coarse);
+                // The refinement searches other directions than the grid's;
+                // keep whichever is lower so the result never exceeds a
+                // sampled value.
+                match w.tip_wind_mps {
+                    Some(v) if v <= coarse => TipExtreme {
+                        pose,
+                        tip_wind_mps: Some(v),
+                        from_rad: w.from_rad,
+                    },
+                    _ => TipExtreme {
+                        pose,
+                        tip_wind_mps: Some(coarse),
+                        from_rad: d_coarse,
+                    },
                 }
             }
             None => TipExtreme {

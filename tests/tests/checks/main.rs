@@ -9,3 +9,4 @@ mod hardware;
 mod mount;
 mod sense;
 mod stability;
+mod torque;
