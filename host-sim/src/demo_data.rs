@@ -744,7 +744,8 @@ pub fn write_mount_log(w: &mut impl Write, plan: &NightPlan) -> std::io::Result<
         let mut next = ((t_s + wait) * 1000.0).round() / 1000.0;
         if let Some(&e) = ev.peek() {
             if e <= next {
-                next = ((e * 1000.0).round() / 1000.0).max(t_s + 0.001);
+                // Rounded up, so that the row shows the state after the event.
+                next = ((e * 1000.0).ceil() / 1000.0).max(t_s + 0.001);
                 ev.next();
             }
         }

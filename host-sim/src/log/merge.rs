@@ -28,6 +28,9 @@ pub struct Merger {
     records: u64,
     rows: u64,
     done: bool,
+    /// An error met while reading ahead, returned after the record that
+    /// was complete before it.
+    pending: Option<Error>,
 }
 
 impl Merger {
@@ -85,6 +88,7 @@ impl Merger {
             records: 0,
             rows: 0,
             done: false,
+            pending: None,
         })
     }
 
@@ -112,6 +116,9 @@ impl Merger {
     /// [`Error::Log`] under [`ErrorPolicy::Stop`] at the first bad row;
     /// [`Error::Io`] when a file cannot be read.
     pub fn next_record(&mut self) -> Result<Option<SampleRecord>, Error> {
+        if let Some(e) = self.pending.take() {
+            return Err(e);
+        }
         let Some(time) = self.heads.iter().flatten().map(|r| r.time).min() else {
             return Ok(None);
         };
@@ -132,7 +139,16 @@ impl Merger {
             }
             updated = updated.union(row.set);
             self.rows += 1;
-            *head = source.next_row(self.policy, &mut self.issues)?;
+            match source.next_row(self.policy, &mut self.issues) {
+                Ok(next) => *head = next,
+                Err(e) => {
+                    // Finish this record; the error comes with the next call.
+                    *head = None;
+                    if self.pending.is_none() {
+                        self.pending = Some(e);
+                    }
+                }
+            }
         }
         self.records += 1;
         Ok(Some(SampleRecord::from_state(

@@ -1,6 +1,7 @@
 //! Library tests of standfast-sim (no command line involved). One module per
 //! subject; every check names its outside source beside it.
 
+mod cli;
 mod demo;
 mod located;
 mod log_merge;

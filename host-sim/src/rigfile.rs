@@ -1,0 +1,921 @@
+//! The rig file: a TOML description of a telescope rig, read into the core's
+//! [`standfast::rig::RigSpec`] and [`standfast::guard::GuardConfig`].
+//!
+//! # Units
+//! Every quantity accepts a number or a string with a unit (`"18 lb"`,
+//! `"45 in"`, `"1.1 m"`, `"30 mph"`, `"12 N m"`, `"47.3 deg"`; see
+//! [`crate::units`]). A plain number is in the SI unit of its dimension (m,
+//! kg, N, N m, s) **except angles: a plain number is in degrees** (the core
+//! works in radians; the conversion is done here).
+//!
+//! # Sections
+//! ```toml
+//! [site]
+//! latitude = "47.3 deg"          # −90 to 90 deg, north positive
+//! elevation = "420 m"            # for the air density (ISA), default 0 m
+//!
+//! [support]
+//! friction = 0.45                # static foot–ground friction, 0 to 2
+//! tripod = { foot_circle_radius = "0.475 m", first_leg_azimuth = "0 deg" }
+//! # or tripod = { leg_spread = "0.82 m", ... }, or a list of feet:
+//! # feet = [ { x = 0.5, y = 0.0, tie_down = "0 N" }, ... ]
+//! tie_down = "0 N"               # tie-down pull per tripod foot
+//!
+//! [legs]                         # optional: tripod legs for mass and wind
+//! mass = "1.2 kg"; diameter = "35 mm"; top_height = "1.0 m"; top_radius = "0.1 m"
+//!
+//! [mount]
+//! kind = "equatorial"            # or "alt_azimuth"
+//! axis_origin = [0, 0, "1.25 m"] # or height = "1.25 m" (origin above the centre)
+//!
+//! [[body]]                       # head, payload, accessories (up to 12)
+//! label = "tube"; stage = "secondary"; mass = "8 kg"; cg = [0.15, 0.1, 0]
+//! shape = { kind = "cylinder", diameter = "0.13 m", length = "0.8 m", axis = [0, 1, 0] }
+//! # or shape = { kind = "box", size = [0.2, 0.2, 0.3] }; centre = [...] (default: cg)
+//! drag_coefficient = 1.0; under_cover = true; mass_model = "shell" # point | solid | shell
+//!
+//! [[counterweight]]  mass, distance, diameter, thickness
+//! [shaft]            mass, length, diameter
+//! [cover]            mass, size = [s, p, n], centre = [s, p, n], drag_coefficient
+//! [[ballast]]        mass, position = [x, y, z]
+//! [drives]           primary = { rated, repeated_peak, momentary_peak }, secondary = {...},
+//!                    slew_acceleration = 0.5   # rad/s²
+//! [guard]            watch_utilisation, park_utilisation, alarm_utilisation,
+//!                    drive_park_utilisation, clear_ratio, dwell, time_to_park,
+//!                    gust_allowance, tilt_margin_alarm, fault_clear
+//! [log]              the log profile (read by [`crate::log`], ignored here)
+//! ```
+//! Frames and sign conventions are the core's: rig frame x east, y north, z
+//! up (see `standfast::frame`); stage frames in `standfast::mount`.
+//!
+//! Unknown keys are an error naming the key. Every error names the file,
+//! line, key, value as written and the accepted range.
+
+use std::collections::HashMap;
+use std::ops::Range;
+use std::path::Path;
+
+use serde::de::{self, Deserializer, Visitor};
+use serde::Deserialize;
+use standfast::air::Air;
+use standfast::drive::{DriveRating, Drives};
+use standfast::guard::GuardConfig;
+use standfast::heapless;
+use standfast::mount::{MountGeometry, MountKind};
+use standfast::rig::{
+    BallastSpec, BodySpec, CounterweightSpec, CoverSpec, LegsSpec, MassModel, Rig, RigSpec,
+    ShaftSpec, Stage,
+};
+use standfast::shape::{Exposure, Shape};
+use standfast::support::{Foot, Support};
+use toml::Spanned;
+
+use crate::error::Error;
+use crate::located::{fmt_g, InputError, SourceText};
+use crate::units::{Angle, Duration, Force, Length, Mass, Torque};
+
+/// An angle as written in the rig file: a plain number is in **degrees**, a
+/// string may carry any angle unit. Held in radians.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Degrees(pub f64);
+
+struct DegVisitor;
+
+impl Visitor<'_> for DegVisitor {
+    type Value = Degrees;
+    fn expecting(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str("an angle as a number in degrees or a string with a unit (deg, rad, arcmin)")
+    }
+    fn visit_f64<E: de::Error>(self, v: f64) -> Result<Degrees, E> {
+        if v.is_finite() {
+            Ok(Degrees(v.to_radians()))
+        } else {
+            Err(E::custom("not a finite number"))
+        }
+    }
+    #[allow(clippy::cast_precision_loss)] // small integers in a file
+    fn visit_i64<E: de::Error>(self, v: i64) -> Result<Degrees, E> {
+        Ok(Degrees((v as f64).to_radians()))
+    }
+    #[allow(clippy::cast_precision_loss)]
+    fn visit_u64<E: de::Error>(self, v: u64) -> Result<Degrees, E> {
+        Ok(Degrees((v as f64).to_radians()))
+    }
+    fn visit_str<E: de::Error>(self, v: &str) -> Result<Degrees, E> {
+        Angle::parse_or(v, "deg")
+            .map(|a| Degrees(a.si()))
+            .map_err(E::custom)
+    }
+}
+
+impl<'de> Deserialize<'de> for Degrees {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Degrees, D::Error> {
+        d.deserialize_any(DegVisitor)
+    }
+}
+
+type S<T> = Spanned<T>;
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct FileSpec {
+    site: S<SiteSec>,
+    support: S<SupportSec>,
+    legs: Option<S<LegsSec>>,
+    mount: S<MountSec>,
+    #[serde(default)]
+    body: Vec<S<BodySec>>,
+    #[serde(default)]
+    counterweight: Vec<S<CwSec>>,
+    shaft: Option<S<ShaftSec>>,
+    cover: Option<S<CoverSec>>,
+    #[serde(default)]
+    ballast: Vec<S<BallastSec>>,
+    drives: Option<S<DrivesSec>>,
+    guard: Option<S<GuardSec>>,
+    /// The log profile, read by [`crate::log`].
+    #[allow(dead_code)]
+    log: Option<toml::Value>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SiteSec {
+    latitude: S<Degrees>,
+    elevation: Option<S<Length>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SupportSec {
+    friction: S<f64>,
+    feet: Option<S<Vec<S<FootSec>>>>,
+    tripod: Option<S<TripodSec>>,
+    tie_down: Option<S<Force>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct FootSec {
+    x: S<Length>,
+    y: S<Length>,
+    tie_down: Option<S<Force>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct TripodSec {
+    foot_circle_radius: Option<S<Length>>,
+    leg_spread: Option<S<Length>>,
+    #[serde(default)]
+    first_leg_azimuth: Option<S<Degrees>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct LegsSec {
+    mass: S<Mass>,
+    diameter: S<Length>,
+    top_height: S<Length>,
+    top_radius: S<Length>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct MountSec {
+    kind: S<String>,
+    axis_origin: Option<S<[Length; 3]>>,
+    height: Option<S<Length>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct BodySec {
+    label: Option<S<String>>,
+    stage: Option<S<String>>,
+    mass: S<Mass>,
+    cg: S<[Length; 3]>,
+    shape: Option<S<ShapeSec>>,
+    centre: Option<S<[Length; 3]>>,
+    drag_coefficient: Option<S<f64>>,
+    #[serde(default)]
+    under_cover: bool,
+    mass_model: Option<S<String>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct ShapeSec {
+    kind: S<String>,
+    diameter: Option<S<Length>>,
+    length: Option<S<Length>>,
+    axis: Option<S<[f64; 3]>>,
+    size: Option<S<[Length; 3]>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct CwSec {
+    mass: S<Mass>,
+    distance: S<Length>,
+    diameter: S<Length>,
+    thickness: S<Length>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct ShaftSec {
+    mass: S<Mass>,
+    length: S<Length>,
+    diameter: S<Length>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct CoverSec {
+    mass: S<Mass>,
+    size: S<[Length; 3]>,
+    centre: S<[Length; 3]>,
+    drag_coefficient: Option<S<f64>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct BallastSec {
+    mass: S<Mass>,
+    position: S<[Length; 3]>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RatingSec {
+    rated: S<Torque>,
+    repeated_peak: S<Torque>,
+    momentary_peak: S<Torque>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct DrivesSec {
+    primary: S<RatingSec>,
+    secondary: S<RatingSec>,
+    slew_acceleration: Option<S<f64>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct GuardSec {
+    watch_utilisation: Option<S<f64>>,
+    park_utilisation: Option<S<f64>>,
+    alarm_utilisation: Option<S<f64>>,
+    drive_park_utilisation: Option<S<f64>>,
+    clear_ratio: Option<S<f64>>,
+    dwell: Option<S<Duration>>,
+    time_to_park: Option<S<Duration>>,
+    gust_allowance: Option<S<f64>>,
+    tilt_margin_alarm: Option<S<Degrees>>,
+    fault_clear: Option<S<Duration>>,
+}
+
+/// A rig file, read and checked.
+#[derive(Clone, Debug)]
+pub struct LoadedRig {
+    /// The file name as given.
+    pub file: String,
+    /// The rig description for the core.
+    pub spec: RigSpec,
+    /// The validated rig.
+    pub rig: Rig,
+    /// Guard thresholds (the core's defaults where the file gives none).
+    pub guard: GuardConfig,
+    /// Site elevation, metres above sea level.
+    pub elevation_m: f32,
+    /// Air of the International Standard Atmosphere at the site elevation.
+    pub air: Air,
+}
+
+/// Where each core field came from: `(core field, index)` → (file key, span).
+#[derive(Default)]
+struct Spans {
+    map: HashMap<(&'static str, Option<u8>), (String, Range<usize>)>,
+}
+
+impl Spans {
+    fn put(&mut self, field: &'static str, index: Option<usize>, key: String, span: Range<usize>) {
+        let idx = index.map(|i| u8::try_from(i).unwrap_or(u8::MAX));
+        self.map.entry((field, idx)).or_insert((key, span));
+    }
+}
+
+#[allow(clippy::cast_possible_truncation)] // SI values of a rig fit f32
+fn f(x: f64) -> f32 {
+    x as f32
+}
+
+fn v3(a: &[Length; 3]) -> [f32; 3] {
+    [f(a[0].m()), f(a[1].m()), f(a[2].m())]
+}
+
+/// Reads and checks a rig file.
+///
+/// # Errors
+/// [`Error::Io`] when it cannot be read; [`Error::Input`] naming file, line,
+/// key, value and accepted range for any bad value.
+pub fn load(path: &Path) -> Result<LoadedRig, Error> {
+    let src = SourceText::read(path)?;
+    Ok(load_source(&src)?)
+}
+
+/// Reads and checks a rig file already in memory.
+///
+/// # Errors
+/// [`InputError`] naming file, line, key, value and accepted range.
+#[allow(clippy::too_many_lines)] // one straight mapping, section by section
+pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
+    let file: FileSpec = src.parse_toml()?;
+    let ck = src.checker();
+    let mut sp = Spans::default();
+
+    // site
+    let lat = &file.site.get_ref().latitude;
+    sp.put("mount.latitude_rad", None, "site.latitude".into(), lat.span());
+    let elevation_m = match &file.site.get_ref().elevation {
+        Some(e) => f(ck
+            .range(
+                "site.elevation",
+                e,
+                Length::from_m(-500.0),
+                Length::from_m(11_000.0),
+                "m",
+            )?
+            .m()),
+        None => 0.0,
+    };
+    let air = Air::isa_at_elevation(elevation_m).map_err(|e| {
+        InputError {
+            at: None,
+            key: Some("site.elevation".into()),
+            value: None,
+            problem: e.to_string(),
+        }
+    })?;
+
+    // support
+    let sup = file.support.get_ref();
+    sp.put(
+        "friction_coefficient",
+        None,
+        "support.friction".into(),
+        sup.friction.span(),
+    );
+    let tie_all = sup.tie_down.as_ref().map_or(0.0, |t| f(t.get_ref().n()));
+    let feet: heapless::Vec<Foot, { standfast::support::MAX_FEET }> =
+        match (&sup.feet, &sup.tripod) {
+            (Some(list), None) => {
+                sp.put("support.feet", None, "support.feet".into(), list.span());
+                let mut v = heapless::Vec::new();
+                for (i, ft) in list.get_ref().iter().enumerate() {
+                    let ft = ft.get_ref();
+                    let key = format!("support.feet[{i}]");
+                    sp.put("support.feet.position_m", Some(i), format!("{key}.x"), ft.x.span());
+                    let tie = match &ft.tie_down {
+                        Some(t) => {
+                            sp.put(
+                                "support.feet.tie_down_n",
+                                Some(i),
+                                format!("{key}.tie_down"),
+                                t.span(),
+                            );
+                            f(t.get_ref().n())
+                        }
+                        None => tie_all,
+                    };
+                    let foot = Foot {
+                        position_m: [f(ft.x.get_ref().m()), f(ft.y.get_ref().m())],
+                        tie_down_n: tie,
+                    };
+                    if v.push(foot).is_err() {
+                        return Err(ck.error(
+                            "support.feet",
+                            list.span(),
+                            format!(
+                                "more than {} feet (accepted: 3 to {})",
+                                standfast::support::MAX_FEET,
+                                standfast::support::MAX_FEET
+                            ),
+                        ));
+                    }
+                }
+                v
+            }
+            (None, Some(t)) => {
+                let tr = t.get_ref();
+                let az = tr
+                    .first_leg_azimuth
+                    .as_ref()
+                    .map_or(0.0, |a| f(a.get_ref().0));
+                if let Some(a) = &tr.first_leg_azimuth {
+                    sp.put(
+                        "support.first_leg_azimuth_rad",
+                        None,
+                        "support.tripod.first_leg_azimuth".into(),
+                        a.span(),
+                    );
+                }
+                let s = match (&tr.foot_circle_radius, &tr.leg_spread) {
+                    (Some(r), None) => {
+                        sp.put(
+                            "support.foot_circle_radius_m",
+                            None,
+                            "support.tripod.foot_circle_radius".into(),
+                            r.span(),
+                        );
+                        Support::tripod(f(r.get_ref().m()), az)
+                    }
+                    (None, Some(l)) => {
+                        sp.put(
+                            "support.leg_spread_m",
+                            None,
+                            "support.tripod.leg_spread".into(),
+                            l.span(),
+                        );
+                        Support::tripod_from_spread(f(l.get_ref().m()), az)
+                    }
+                    _ => {
+                        return Err(ck.error(
+                            "support.tripod",
+                            t.span(),
+                            "give exactly one of foot_circle_radius and leg_spread",
+                        ))
+                    }
+                };
+                let s = s.map_err(|e| core_error(src, &sp, &e))?;
+                s.feet()
+                    .iter()
+                    .map(|ft| Foot {
+                        position_m: ft.position_m,
+                        tie_down_n: tie_all,
+                    })
+                    .collect()
+            }
+            _ => {
+                return Err(ck.error(
+                    "support",
+                    file.support.span(),
+                    "give exactly one of `feet` (a list of {x, y, tie_down}) and `tripod`",
+                ))
+            }
+        };
+    if let Some(t) = &sup.tie_down {
+        for i in 0..feet.len() {
+            sp.put(
+                "support.feet.tie_down_n",
+                Some(i),
+                "support.tie_down".into(),
+                t.span(),
+            );
+        }
+    }
+
+    // legs
+    let legs = file.legs.as_ref().map(|l| {
+        let g = l.get_ref();
+        sp.put("legs.mass_kg", None, "legs.mass".into(), g.mass.span());
+        sp.put("legs.diameter_m", None, "legs.diameter".into(), g.diameter.span());
+        sp.put(
+            "legs.top_height_m",
+            None,
+            "legs.top_height".into(),
+            g.top_height.span(),
+        );
+        sp.put(
+            "legs.top_radius_m",
+            None,
+            "legs.top_radius".into(),
+            g.top_radius.span(),
+        );
+        LegsSpec {
+            mass_kg: f(g.mass.get_ref().kg()),
+            diameter_m: f(g.diameter.get_ref().m()),
+            top_height_m: f(g.top_height.get_ref().m()),
+            top_radius_m: f(g.top_radius.get_ref().m()),
+        }
+    });
+
+    // mount
+    let m = file.mount.get_ref();
+    let kind = match ck.one_of("mount.kind", &m.kind, &["equatorial", "alt_azimuth"])? {
+        "equatorial" => MountKind::Equatorial,
+        _ => MountKind::AltAzimuth,
+    };
+    let origin = match (&m.axis_origin, &m.height) {
+        (Some(o), None) => {
+            sp.put("mount.axis_origin_m", None, "mount.axis_origin".into(), o.span());
+            v3(o.get_ref())
+        }
+        (None, Some(h)) => {
+            sp.put("mount.axis_origin_m", None, "mount.height".into(), h.span());
+            [0.0, 0.0, f(h.get_ref().m())]
+        }
+        _ => {
+            return Err(ck.error(
+                "mount",
+                file.mount.span(),
+                "give exactly one of axis_origin = [x, y, z] and height",
+            ))
+        }
+    };
+    let mount = MountGeometry {
+        kind,
+        latitude_rad: f(lat.get_ref().0),
+        axis_origin_m: origin,
+    };
+
+    // bodies
+    let mut bodies = heapless::Vec::new();
+    for (i, b) in file.body.iter().enumerate() {
+        let key = format!("body[{i}]");
+        let g = b.get_ref();
+        sp.put("bodies.mass_kg", Some(i), format!("{key}.mass"), g.mass.span());
+        sp.put("bodies.cg_m", Some(i), format!("{key}.cg"), g.cg.span());
+        let stage = match &g.stage {
+            None => Stage::Ground,
+            Some(s) => match ck.one_of(
+                &format!("{key}.stage"),
+                s,
+                &["ground", "primary", "secondary"],
+            )? {
+                "primary" => Stage::Primary,
+                "secondary" => Stage::Secondary,
+                _ => Stage::Ground,
+            },
+        };
+        let mass_model = match &g.mass_model {
+            None => MassModel::default(),
+            Some(s) => match ck.one_of(
+                &format!("{key}.mass_model"),
+                s,
+                &["point", "solid", "shell"],
+            )? {
+                "point" => MassModel::Point,
+                "shell" => MassModel::Shell,
+                _ => MassModel::Solid,
+            },
+        };
+        let label = match &g.label {
+            Some(l) => heapless::String::try_from(l.get_ref().as_str()).map_err(|()| {
+                ck.error(&format!("{key}.label"), l.span(), "longer than 24 bytes")
+            })?,
+            None => heapless::String::new(),
+        };
+        let exposure = match &g.shape {
+            None => None,
+            Some(sh) => Some(exposure(
+                src,
+                &mut sp,
+                &key,
+                Some(i),
+                sh,
+                g.centre.as_ref().map_or(v3(g.cg.get_ref()), |c| {
+                    v3(c.get_ref())
+                }),
+                g.centre.as_ref().map_or(g.cg.span(), Spanned::span),
+                g.drag_coefficient.as_ref(),
+            )?),
+        };
+        let body = BodySpec {
+            label,
+            stage,
+            mass_kg: f(g.mass.get_ref().kg()),
+            cg_m: v3(g.cg.get_ref()),
+            exposure,
+            mass_model,
+            under_cover: g.under_cover,
+        };
+        if bodies.push(body).is_err() {
+            return Err(ck.error(
+                &key,
+                b.span(),
+                format!("more than {} bodies", standfast::rig::MAX_BODIES),
+            ));
+        }
+    }
+    if let Some(b) = file.body.first() {
+        sp.put("bodies", None, "body".into(), b.span());
+    }
+
+    // counterweights
+    let mut counterweights = heapless::Vec::new();
+    for (i, c) in file.counterweight.iter().enumerate() {
+        let key = format!("counterweight[{i}]");
+        let g = c.get_ref();
+        sp.put("counterweights.mass_kg", Some(i), format!("{key}.mass"), g.mass.span());
+        sp.put(
+            "counterweights.distance_m",
+            Some(i),
+            format!("{key}.distance"),
+            g.distance.span(),
+        );
+        sp.put(
+            "counterweights.diameter_m",
+            Some(i),
+            format!("{key}.diameter"),
+            g.diameter.span(),
+        );
+        sp.put(
+            "counterweights.thickness_m",
+            Some(i),
+            format!("{key}.thickness"),
+            g.thickness.span(),
+        );
+        let cw = CounterweightSpec {
+            mass_kg: f(g.mass.get_ref().kg()),
+            distance_m: f(g.distance.get_ref().m()),
+            diameter_m: f(g.diameter.get_ref().m()),
+            thickness_m: f(g.thickness.get_ref().m()),
+        };
+        if counterweights.push(cw).is_err() {
+            return Err(ck.error(
+                &key,
+                c.span(),
+                format!(
+                    "more than {} counterweights",
+                    standfast::rig::MAX_COUNTERWEIGHTS
+                ),
+            ));
+        }
+    }
+
+    let shaft = file.shaft.as_ref().map(|s| {
+        let g = s.get_ref();
+        sp.put("shaft.mass_kg", None, "shaft.mass".into(), g.mass.span());
+        sp.put("shaft.length_m", None, "shaft.length".into(), g.length.span());
+        sp.put("shaft.diameter_m", None, "shaft.diameter".into(), g.diameter.span());
+        ShaftSpec {
+            mass_kg: f(g.mass.get_ref().kg()),
+            length_m: f(g.length.get_ref().m()),
+            diameter_m: f(g.diameter.get_ref().m()),
+        }
+    });
+
+    let cover = file.cover.as_ref().map(|c| {
+        let g = c.get_ref();
+        sp.put("cover.mass_kg", None, "cover.mass".into(), g.mass.span());
+        sp.put("cover.centre_m", None, "cover.centre".into(), g.centre.span());
+        sp.put("exposure.centre_m", None, "cover.centre".into(), g.centre.span());
+        sp.put("exposure.size_m", None, "cover.size".into(), g.size.span());
+        if let Some(cd) = &g.drag_coefficient {
+            sp.put(
+                "exposure.drag_coefficient",
+                None,
+                "cover.drag_coefficient".into(),
+                cd.span(),
+            );
+        }
+        CoverSpec {
+            mass_kg: f(g.mass.get_ref().kg()),
+            size_m: v3(g.size.get_ref()),
+            centre_m: v3(g.centre.get_ref()),
+            drag_coefficient: g.drag_coefficient.as_ref().map(|d| f(*d.get_ref())),
+        }
+    });
+
+    let mut ballast = heapless::Vec::new();
+    for (i, b) in file.ballast.iter().enumerate() {
+        let key = format!("ballast[{i}]");
+        let g = b.get_ref();
+        sp.put("ballast.mass_kg", Some(i), format!("{key}.mass"), g.mass.span());
+        sp.put(
+            "ballast.position_m",
+            Some(i),
+            format!("{key}.position"),
+            g.position.span(),
+        );
+        let item = BallastSpec {
+            mass_kg: f(g.mass.get_ref().kg()),
+            position_m: v3(g.position.get_ref()),
+        };
+        if ballast.push(item).is_err() {
+            return Err(ck.error(
+                &key,
+                b.span(),
+                format!("more than {} ballast items", standfast::rig::MAX_BALLAST),
+            ));
+        }
+    }
+
+    let drives = file.drives.as_ref().map(|d| {
+        let g = d.get_ref();
+        sp.put("drives.primary", None, "drives.primary".into(), g.primary.span());
+        sp.put(
+            "drives.secondary",
+            None,
+            "drives.secondary".into(),
+            g.secondary.span(),
+        );
+        if let Some(a) = &g.slew_acceleration {
+            sp.put(
+                "drives.slew_acceleration_rad_s2",
+                None,
+                "drives.slew_acceleration".into(),
+                a.span(),
+            );
+        }
+        let r = |s: &S<RatingSec>| DriveRating {
+            rated_nm: f(s.get_ref().rated.get_ref().nm()),
+            repeated_peak_nm: f(s.get_ref().repeated_peak.get_ref().nm()),
+            momentary_peak_nm: f(s.get_ref().momentary_peak.get_ref().nm()),
+        };
+        Drives {
+            primary: r(&g.primary),
+            secondary: r(&g.secondary),
+            slew_acceleration_rad_s2: g.slew_acceleration.as_ref().map_or(0.0, |a| f(*a.get_ref())),
+        }
+    });
+
+    let spec = RigSpec {
+        feet,
+        legs,
+        friction_coefficient: f(*sup.friction.get_ref()),
+        mount,
+        bodies,
+        counterweights,
+        shaft,
+        cover,
+        ballast,
+        drives,
+    };
+    let rig = Rig::new(&spec).map_err(|e| core_error(src, &sp, &e))?;
+
+    let guard = guard_config(file.guard.as_ref(), &mut sp);
+    guard.validate().map_err(|e| core_error(src, &sp, &e))?;
+
+    Ok(LoadedRig {
+        file: src.name().to_owned(),
+        spec,
+        rig,
+        guard,
+        elevation_m,
+        air,
+    })
+}
+
+#[allow(clippy::too_many_arguments)]
+fn exposure(
+    src: &SourceText,
+    sp: &mut Spans,
+    key: &str,
+    index: Option<usize>,
+    sh: &S<ShapeSec>,
+    centre_m: [f32; 3],
+    centre_span: Range<usize>,
+    cd: Option<&S<f64>>,
+) -> Result<Exposure, InputError> {
+    let ck = src.checker();
+    let g = sh.get_ref();
+    sp.put("exposure.centre_m", index, format!("{key}.centre"), centre_span);
+    if let Some(c) = cd {
+        sp.put(
+            "exposure.drag_coefficient",
+            index,
+            format!("{key}.drag_coefficient"),
+            c.span(),
+        );
+    }
+    let missing = |what: &str| {
+        ck.error(
+            &format!("{key}.shape"),
+            sh.span(),
+            format!("a {} shape needs `{what}`", g.kind.get_ref()),
+        )
+    };
+    let shape = match ck.one_of(&format!("{key}.shape.kind"), &g.kind, &["cylinder", "box"])? {
+        "cylinder" => {
+            let d = g.diameter.as_ref().ok_or_else(|| missing("diameter"))?;
+            let l = g.length.as_ref().ok_or_else(|| missing("length"))?;
+            let a = g.axis.as_ref().ok_or_else(|| missing("axis"))?;
+            sp.put("exposure.diameter_m", index, format!("{key}.shape.diameter"), d.span());
+            sp.put("exposure.length_m", index, format!("{key}.shape.length"), l.span());
+            sp.put("exposure.axis", index, format!("{key}.shape.axis"), a.span());
+            let ax = a.get_ref();
+            Shape::Cylinder {
+                diameter_m: f(d.get_ref().m()),
+                length_m: f(l.get_ref().m()),
+                axis: [f(ax[0]), f(ax[1]), f(ax[2])],
+            }
+        }
+        _ => {
+            let s = g.size.as_ref().ok_or_else(|| missing("size"))?;
+            sp.put("exposure.size_m", index, format!("{key}.shape.size"), s.span());
+            Shape::Box {
+                size_m: v3(s.get_ref()),
+            }
+        }
+    };
+    Ok(Exposure {
+        shape,
+        centre_m,
+        drag_coefficient: cd.map(|c| f(*c.get_ref())),
+    })
+}
+
+fn guard_config(g: Option<&S<GuardSec>>, sp: &mut Spans) -> GuardConfig {
+    let mut c = GuardConfig::default();
+    let Some(g) = g else { return c };
+    let g = g.get_ref();
+    let mut num = |field: &'static str, key: &str, v: &Option<S<f64>>, out: &mut f32| {
+        if let Some(v) = v {
+            sp.put(field, None, format!("guard.{key}"), v.span());
+            *out = f(*v.get_ref());
+        }
+    };
+    num("guard.watch_utilisation", "watch_utilisation", &g.watch_utilisation, &mut c.watch_utilisation);
+    num("guard.park_utilisation", "park_utilisation", &g.park_utilisation, &mut c.park_utilisation);
+    num("guard.alarm_utilisation", "alarm_utilisation", &g.alarm_utilisation, &mut c.alarm_utilisation);
+    num(
+        "guard.drive_park_utilisation",
+        "drive_park_utilisation",
+        &g.drive_park_utilisation,
+        &mut c.drive_park_utilisation,
+    );
+    num("guard.clear_ratio", "clear_ratio", &g.clear_ratio, &mut c.clear_ratio);
+    num("guard.gust_allowance", "gust_allowance", &g.gust_allowance, &mut c.gust_allowance);
+    let mut dur = |field: &'static str, key: &str, v: &Option<S<Duration>>, out: &mut f32| {
+        if let Some(v) = v {
+            sp.put(field, None, format!("guard.{key}"), v.span());
+            *out = f(v.get_ref().s());
+        }
+    };
+    dur("guard.dwell_s", "dwell", &g.dwell, &mut c.dwell_s);
+    dur("guard.time_to_park_s", "time_to_park", &g.time_to_park, &mut c.time_to_park_s);
+    dur("guard.fault_clear_s", "fault_clear", &g.fault_clear, &mut c.fault_clear_s);
+    if let Some(t) = &g.tilt_margin_alarm {
+        sp.put(
+            "guard.tilt_margin_alarm_rad",
+            None,
+            "guard.tilt_margin_alarm".into(),
+            t.span(),
+        );
+        c.tilt_margin_alarm_rad = f(t.get_ref().0);
+    }
+    c
+}
+
+/// The unit a core field name carries, and the factor from its SI value to
+/// the unit shown (degrees for angles, as in the file).
+fn shown_unit(field: &str) -> (&'static str, f64) {
+    if field.ends_with("_rad_s2") {
+        ("rad/s²", 1.0)
+    } else if field.ends_with("_rad_per_s") {
+        ("deg/s", 180.0 / std::f64::consts::PI)
+    } else if field.ends_with("_rad") {
+        ("deg", 180.0 / std::f64::consts::PI)
+    } else if field.ends_with("_kg") {
+        ("kg", 1.0)
+    } else if field.ends_with("_nm") || field.starts_with("drives.") {
+        ("N m", 1.0)
+    } else if field.ends_with("_n") {
+        ("N", 1.0)
+    } else if field.ends_with("_s") {
+        ("s", 1.0)
+    } else if field.ends_with("_m") || field.ends_with("position_m") {
+        ("m", 1.0)
+    } else {
+        ("", 1.0)
+    }
+}
+
+/// Turns a core [`standfast::Error`] into a located error at the key it came
+/// from, with the value as written and the accepted range in the file's
+/// units (degrees for angles).
+fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError {
+    let found = sp
+        .map
+        .get(&(e.field, e.index))
+        .or_else(|| sp.map.get(&(e.field, None)));
+    let (unit, k) = shown_unit(e.field);
+    let num = |x: f32| fmt_g(f64::from(x) * k);
+    let problem = match e.kind {
+        standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => format!(
+            "outside the accepted range {} to {}{}{} (read as {}{}{}; core field {})",
+            num(e.min),
+            num(e.max),
+            if unit.is_empty() { "" } else { " " },
+            unit,
+            num(e.value),
+            if unit.is_empty() { "" } else { " " },
+            unit,
+            e.field
+        ),
+        _ => e.to_string(),
+    };
+    match found {
+        Some((key, span)) => src.checker().error(key, span.clone(), problem),
+        None => InputError {
+            at: Some(src.location(0)),
+            key: Some(e.field.to_owned()),
+            value: None,
+            problem,
+        },
+    }
+}
