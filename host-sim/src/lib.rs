@@ -14,6 +14,7 @@ pub mod demo_data;
 pub mod error;
 pub mod located;
 pub mod log;
+pub mod rigfile;
 pub mod units;
 
 pub use error::{Error, Result};

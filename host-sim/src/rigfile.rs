@@ -294,10 +294,13 @@ pub struct LoadedRig {
     pub air: Air,
 }
 
+/// A core field name and list index.
+type FieldAt = (&'static str, Option<u8>);
+
 /// Where each core field came from: `(core field, index)` → (file key, span).
 #[derive(Default)]
 struct Spans {
-    map: HashMap<(&'static str, Option<u8>), (String, Range<usize>)>,
+    map: HashMap<FieldAt, (String, Range<usize>)>,
 }
 
 impl Spans {
@@ -338,7 +341,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
 
     // site
     let lat = &file.site.get_ref().latitude;
-    sp.put("mount.latitude_rad", None, "site.latitude".into(), lat.span());
+    sp.put(
+        "mount.latitude_rad",
+        None,
+        "site.latitude".into(),
+        lat.span(),
+    );
     let elevation_m = match &file.site.get_ref().elevation {
         Some(e) => f(ck
             .range(
@@ -351,13 +359,11 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             .m()),
         None => 0.0,
     };
-    let air = Air::isa_at_elevation(elevation_m).map_err(|e| {
-        InputError {
-            at: None,
-            key: Some("site.elevation".into()),
-            value: None,
-            problem: e.to_string(),
-        }
+    let air = Air::isa_at_elevation(elevation_m).map_err(|e| InputError {
+        at: None,
+        key: Some("site.elevation".into()),
+        value: None,
+        problem: e.to_string(),
     })?;
 
     // support
@@ -369,103 +375,108 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         sup.friction.span(),
     );
     let tie_all = sup.tie_down.as_ref().map_or(0.0, |t| f(t.get_ref().n()));
-    let feet: heapless::Vec<Foot, { standfast::support::MAX_FEET }> =
-        match (&sup.feet, &sup.tripod) {
-            (Some(list), None) => {
-                sp.put("support.feet", None, "support.feet".into(), list.span());
-                let mut v = heapless::Vec::new();
-                for (i, ft) in list.get_ref().iter().enumerate() {
-                    let ft = ft.get_ref();
-                    let key = format!("support.feet[{i}]");
-                    sp.put("support.feet.position_m", Some(i), format!("{key}.x"), ft.x.span());
-                    let tie = match &ft.tie_down {
-                        Some(t) => {
-                            sp.put(
-                                "support.feet.tie_down_n",
-                                Some(i),
-                                format!("{key}.tie_down"),
-                                t.span(),
-                            );
-                            f(t.get_ref().n())
-                        }
-                        None => tie_all,
-                    };
-                    let foot = Foot {
-                        position_m: [f(ft.x.get_ref().m()), f(ft.y.get_ref().m())],
-                        tie_down_n: tie,
-                    };
-                    if v.push(foot).is_err() {
-                        return Err(ck.error(
-                            "support.feet",
-                            list.span(),
-                            format!(
-                                "more than {} feet (accepted: 3 to {})",
-                                standfast::support::MAX_FEET,
-                                standfast::support::MAX_FEET
-                            ),
-                        ));
-                    }
-                }
-                v
-            }
-            (None, Some(t)) => {
-                let tr = t.get_ref();
-                let az = tr
-                    .first_leg_azimuth
-                    .as_ref()
-                    .map_or(0.0, |a| f(a.get_ref().0));
-                if let Some(a) = &tr.first_leg_azimuth {
-                    sp.put(
-                        "support.first_leg_azimuth_rad",
-                        None,
-                        "support.tripod.first_leg_azimuth".into(),
-                        a.span(),
-                    );
-                }
-                let s = match (&tr.foot_circle_radius, &tr.leg_spread) {
-                    (Some(r), None) => {
+    let feet: heapless::Vec<Foot, { standfast::support::MAX_FEET }> = match (&sup.feet, &sup.tripod)
+    {
+        (Some(list), None) => {
+            sp.put("support.feet", None, "support.feet".into(), list.span());
+            let mut v = heapless::Vec::new();
+            for (i, ft) in list.get_ref().iter().enumerate() {
+                let ft = ft.get_ref();
+                let key = format!("support.feet[{i}]");
+                sp.put(
+                    "support.feet.position_m",
+                    Some(i),
+                    format!("{key}.x"),
+                    ft.x.span(),
+                );
+                let tie = match &ft.tie_down {
+                    Some(t) => {
                         sp.put(
-                            "support.foot_circle_radius_m",
-                            None,
-                            "support.tripod.foot_circle_radius".into(),
-                            r.span(),
-                        );
-                        Support::tripod(f(r.get_ref().m()), az)
-                    }
-                    (None, Some(l)) => {
-                        sp.put(
-                            "support.leg_spread_m",
-                            None,
-                            "support.tripod.leg_spread".into(),
-                            l.span(),
-                        );
-                        Support::tripod_from_spread(f(l.get_ref().m()), az)
-                    }
-                    _ => {
-                        return Err(ck.error(
-                            "support.tripod",
+                            "support.feet.tie_down_n",
+                            Some(i),
+                            format!("{key}.tie_down"),
                             t.span(),
-                            "give exactly one of foot_circle_radius and leg_spread",
-                        ))
+                        );
+                        f(t.get_ref().n())
                     }
+                    None => tie_all,
                 };
-                let s = s.map_err(|e| core_error(src, &sp, &e))?;
-                s.feet()
-                    .iter()
-                    .map(|ft| Foot {
-                        position_m: ft.position_m,
-                        tie_down_n: tie_all,
-                    })
-                    .collect()
+                let foot = Foot {
+                    position_m: [f(ft.x.get_ref().m()), f(ft.y.get_ref().m())],
+                    tie_down_n: tie,
+                };
+                if v.push(foot).is_err() {
+                    return Err(ck.error(
+                        "support.feet",
+                        list.span(),
+                        format!(
+                            "more than {} feet (accepted: 3 to {})",
+                            standfast::support::MAX_FEET,
+                            standfast::support::MAX_FEET
+                        ),
+                    ));
+                }
             }
-            _ => {
-                return Err(ck.error(
-                    "support",
-                    file.support.span(),
-                    "give exactly one of `feet` (a list of {x, y, tie_down}) and `tripod`",
-                ))
+            v
+        }
+        (None, Some(t)) => {
+            let tr = t.get_ref();
+            let az = tr
+                .first_leg_azimuth
+                .as_ref()
+                .map_or(0.0, |a| f(a.get_ref().0));
+            if let Some(a) = &tr.first_leg_azimuth {
+                sp.put(
+                    "support.first_leg_azimuth_rad",
+                    None,
+                    "support.tripod.first_leg_azimuth".into(),
+                    a.span(),
+                );
             }
-        };
+            let s = match (&tr.foot_circle_radius, &tr.leg_spread) {
+                (Some(r), None) => {
+                    sp.put(
+                        "support.foot_circle_radius_m",
+                        None,
+                        "support.tripod.foot_circle_radius".into(),
+                        r.span(),
+                    );
+                    Support::tripod(f(r.get_ref().m()), az)
+                }
+                (None, Some(l)) => {
+                    sp.put(
+                        "support.leg_spread_m",
+                        None,
+                        "support.tripod.leg_spread".into(),
+                        l.span(),
+                    );
+                    Support::tripod_from_spread(f(l.get_ref().m()), az)
+                }
+                _ => {
+                    return Err(ck.error(
+                        "support.tripod",
+                        t.span(),
+                        "give exactly one of foot_circle_radius and leg_spread",
+                    ))
+                }
+            };
+            let s = s.map_err(|e| core_error(src, &sp, &e))?;
+            s.feet()
+                .iter()
+                .map(|ft| Foot {
+                    position_m: ft.position_m,
+                    tie_down_n: tie_all,
+                })
+                .collect()
+        }
+        _ => {
+            return Err(ck.error(
+                "support",
+                file.support.span(),
+                "give exactly one of `feet` (a list of {x, y, tie_down}) and `tripod`",
+            ))
+        }
+    };
     if let Some(t) = &sup.tie_down {
         for i in 0..feet.len() {
             sp.put(
@@ -481,7 +492,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     let legs = file.legs.as_ref().map(|l| {
         let g = l.get_ref();
         sp.put("legs.mass_kg", None, "legs.mass".into(), g.mass.span());
-        sp.put("legs.diameter_m", None, "legs.diameter".into(), g.diameter.span());
+        sp.put(
+            "legs.diameter_m",
+            None,
+            "legs.diameter".into(),
+            g.diameter.span(),
+        );
         sp.put(
             "legs.top_height_m",
             None,
@@ -510,7 +526,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     };
     let origin = match (&m.axis_origin, &m.height) {
         (Some(o), None) => {
-            sp.put("mount.axis_origin_m", None, "mount.axis_origin".into(), o.span());
+            sp.put(
+                "mount.axis_origin_m",
+                None,
+                "mount.axis_origin".into(),
+                o.span(),
+            );
             v3(o.get_ref())
         }
         (None, Some(h)) => {
@@ -536,7 +557,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     for (i, b) in file.body.iter().enumerate() {
         let key = format!("body[{i}]");
         let g = b.get_ref();
-        sp.put("bodies.mass_kg", Some(i), format!("{key}.mass"), g.mass.span());
+        sp.put(
+            "bodies.mass_kg",
+            Some(i),
+            format!("{key}.mass"),
+            g.mass.span(),
+        );
         sp.put("bodies.cg_m", Some(i), format!("{key}.cg"), g.cg.span());
         let stage = match &g.stage {
             None => Stage::Ground,
@@ -563,9 +589,8 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             },
         };
         let label = match &g.label {
-            Some(l) => heapless::String::try_from(l.get_ref().as_str()).map_err(|()| {
-                ck.error(&format!("{key}.label"), l.span(), "longer than 24 bytes")
-            })?,
+            Some(l) => heapless::String::try_from(l.get_ref().as_str())
+                .map_err(|_| ck.error(&format!("{key}.label"), l.span(), "longer than 24 bytes"))?,
             None => heapless::String::new(),
         };
         let exposure = match &g.shape {
@@ -576,9 +601,9 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
                 &key,
                 Some(i),
                 sh,
-                g.centre.as_ref().map_or(v3(g.cg.get_ref()), |c| {
-                    v3(c.get_ref())
-                }),
+                g.centre
+                    .as_ref()
+                    .map_or(v3(g.cg.get_ref()), |c| v3(c.get_ref())),
                 g.centre.as_ref().map_or(g.cg.span(), Spanned::span),
                 g.drag_coefficient.as_ref(),
             )?),
@@ -609,7 +634,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     for (i, c) in file.counterweight.iter().enumerate() {
         let key = format!("counterweight[{i}]");
         let g = c.get_ref();
-        sp.put("counterweights.mass_kg", Some(i), format!("{key}.mass"), g.mass.span());
+        sp.put(
+            "counterweights.mass_kg",
+            Some(i),
+            format!("{key}.mass"),
+            g.mass.span(),
+        );
         sp.put(
             "counterweights.distance_m",
             Some(i),
@@ -649,8 +679,18 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     let shaft = file.shaft.as_ref().map(|s| {
         let g = s.get_ref();
         sp.put("shaft.mass_kg", None, "shaft.mass".into(), g.mass.span());
-        sp.put("shaft.length_m", None, "shaft.length".into(), g.length.span());
-        sp.put("shaft.diameter_m", None, "shaft.diameter".into(), g.diameter.span());
+        sp.put(
+            "shaft.length_m",
+            None,
+            "shaft.length".into(),
+            g.length.span(),
+        );
+        sp.put(
+            "shaft.diameter_m",
+            None,
+            "shaft.diameter".into(),
+            g.diameter.span(),
+        );
         ShaftSpec {
             mass_kg: f(g.mass.get_ref().kg()),
             length_m: f(g.length.get_ref().m()),
@@ -661,8 +701,18 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     let cover = file.cover.as_ref().map(|c| {
         let g = c.get_ref();
         sp.put("cover.mass_kg", None, "cover.mass".into(), g.mass.span());
-        sp.put("cover.centre_m", None, "cover.centre".into(), g.centre.span());
-        sp.put("exposure.centre_m", None, "cover.centre".into(), g.centre.span());
+        sp.put(
+            "cover.centre_m",
+            None,
+            "cover.centre".into(),
+            g.centre.span(),
+        );
+        sp.put(
+            "exposure.centre_m",
+            None,
+            "cover.centre".into(),
+            g.centre.span(),
+        );
         sp.put("exposure.size_m", None, "cover.size".into(), g.size.span());
         if let Some(cd) = &g.drag_coefficient {
             sp.put(
@@ -684,7 +734,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     for (i, b) in file.ballast.iter().enumerate() {
         let key = format!("ballast[{i}]");
         let g = b.get_ref();
-        sp.put("ballast.mass_kg", Some(i), format!("{key}.mass"), g.mass.span());
+        sp.put(
+            "ballast.mass_kg",
+            Some(i),
+            format!("{key}.mass"),
+            g.mass.span(),
+        );
         sp.put(
             "ballast.position_m",
             Some(i),
@@ -706,7 +761,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
 
     let drives = file.drives.as_ref().map(|d| {
         let g = d.get_ref();
-        sp.put("drives.primary", None, "drives.primary".into(), g.primary.span());
+        sp.put(
+            "drives.primary",
+            None,
+            "drives.primary".into(),
+            g.primary.span(),
+        );
         sp.put(
             "drives.secondary",
             None,
@@ -729,7 +789,10 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         Drives {
             primary: r(&g.primary),
             secondary: r(&g.secondary),
-            slew_acceleration_rad_s2: g.slew_acceleration.as_ref().map_or(0.0, |a| f(*a.get_ref())),
+            slew_acceleration_rad_s2: g
+                .slew_acceleration
+                .as_ref()
+                .map_or(0.0, |a| f(*a.get_ref())),
         }
     });
 
@@ -773,7 +836,12 @@ fn exposure(
 ) -> Result<Exposure, InputError> {
     let ck = src.checker();
     let g = sh.get_ref();
-    sp.put("exposure.centre_m", index, format!("{key}.centre"), centre_span);
+    sp.put(
+        "exposure.centre_m",
+        index,
+        format!("{key}.centre"),
+        centre_span,
+    );
     if let Some(c) = cd {
         sp.put(
             "exposure.drag_coefficient",
@@ -794,9 +862,24 @@ fn exposure(
             let d = g.diameter.as_ref().ok_or_else(|| missing("diameter"))?;
             let l = g.length.as_ref().ok_or_else(|| missing("length"))?;
             let a = g.axis.as_ref().ok_or_else(|| missing("axis"))?;
-            sp.put("exposure.diameter_m", index, format!("{key}.shape.diameter"), d.span());
-            sp.put("exposure.length_m", index, format!("{key}.shape.length"), l.span());
-            sp.put("exposure.axis", index, format!("{key}.shape.axis"), a.span());
+            sp.put(
+                "exposure.diameter_m",
+                index,
+                format!("{key}.shape.diameter"),
+                d.span(),
+            );
+            sp.put(
+                "exposure.length_m",
+                index,
+                format!("{key}.shape.length"),
+                l.span(),
+            );
+            sp.put(
+                "exposure.axis",
+                index,
+                format!("{key}.shape.axis"),
+                a.span(),
+            );
             let ax = a.get_ref();
             Shape::Cylinder {
                 diameter_m: f(d.get_ref().m()),
@@ -806,7 +889,12 @@ fn exposure(
         }
         _ => {
             let s = g.size.as_ref().ok_or_else(|| missing("size"))?;
-            sp.put("exposure.size_m", index, format!("{key}.shape.size"), s.span());
+            sp.put(
+                "exposure.size_m",
+                index,
+                format!("{key}.shape.size"),
+                s.span(),
+            );
             Shape::Box {
                 size_m: v3(s.get_ref()),
             }
@@ -829,17 +917,42 @@ fn guard_config(g: Option<&S<GuardSec>>, sp: &mut Spans) -> GuardConfig {
             *out = f(*v.get_ref());
         }
     };
-    num("guard.watch_utilisation", "watch_utilisation", &g.watch_utilisation, &mut c.watch_utilisation);
-    num("guard.park_utilisation", "park_utilisation", &g.park_utilisation, &mut c.park_utilisation);
-    num("guard.alarm_utilisation", "alarm_utilisation", &g.alarm_utilisation, &mut c.alarm_utilisation);
+    num(
+        "guard.watch_utilisation",
+        "watch_utilisation",
+        &g.watch_utilisation,
+        &mut c.watch_utilisation,
+    );
+    num(
+        "guard.park_utilisation",
+        "park_utilisation",
+        &g.park_utilisation,
+        &mut c.park_utilisation,
+    );
+    num(
+        "guard.alarm_utilisation",
+        "alarm_utilisation",
+        &g.alarm_utilisation,
+        &mut c.alarm_utilisation,
+    );
     num(
         "guard.drive_park_utilisation",
         "drive_park_utilisation",
         &g.drive_park_utilisation,
         &mut c.drive_park_utilisation,
     );
-    num("guard.clear_ratio", "clear_ratio", &g.clear_ratio, &mut c.clear_ratio);
-    num("guard.gust_allowance", "gust_allowance", &g.gust_allowance, &mut c.gust_allowance);
+    num(
+        "guard.clear_ratio",
+        "clear_ratio",
+        &g.clear_ratio,
+        &mut c.clear_ratio,
+    );
+    num(
+        "guard.gust_allowance",
+        "gust_allowance",
+        &g.gust_allowance,
+        &mut c.gust_allowance,
+    );
     let mut dur = |field: &'static str, key: &str, v: &Option<S<Duration>>, out: &mut f32| {
         if let Some(v) = v {
             sp.put(field, None, format!("guard.{key}"), v.span());
@@ -847,8 +960,18 @@ fn guard_config(g: Option<&S<GuardSec>>, sp: &mut Spans) -> GuardConfig {
         }
     };
     dur("guard.dwell_s", "dwell", &g.dwell, &mut c.dwell_s);
-    dur("guard.time_to_park_s", "time_to_park", &g.time_to_park, &mut c.time_to_park_s);
-    dur("guard.fault_clear_s", "fault_clear", &g.fault_clear, &mut c.fault_clear_s);
+    dur(
+        "guard.time_to_park_s",
+        "time_to_park",
+        &g.time_to_park,
+        &mut c.time_to_park_s,
+    );
+    dur(
+        "guard.fault_clear_s",
+        "fault_clear",
+        &g.fault_clear,
+        &mut c.fault_clear_s,
+    );
     if let Some(t) = &g.tilt_margin_alarm {
         sp.put(
             "guard.tilt_margin_alarm_rad",
@@ -894,7 +1017,8 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
         .get(&(e.field, e.index))
         .or_else(|| sp.map.get(&(e.field, None)));
     let (unit, k) = shown_unit(e.field);
-    let num = |x: f32| fmt_g(f64::from(x) * k);
+    // Rounded to 4 decimals: the core's f32 limits carry float noise.
+    let num = |x: f32| fmt_g((f64::from(x) * k * 1e4).round() / 1e4);
     let problem = match e.kind {
         standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => format!(
             "outside the accepted range {} to {}{}{} (read as {}{}{}; core field {})",

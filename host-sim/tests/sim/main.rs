@@ -6,4 +6,5 @@ mod demo;
 mod located;
 mod log_merge;
 mod log_time;
+mod rigfile;
 mod units;

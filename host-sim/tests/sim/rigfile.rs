@@ -1,0 +1,107 @@
+//! Rig file loader: the demo rig loads, bad values give located errors, units
+//! reach the core converted.
+
+use standfast::mount::MountKind;
+use standfast_sim::located::{InputError, SourceText};
+use standfast_sim::rigfile::{load, load_source};
+
+const DEMO: &str = include_str!("../../demo/rig.toml");
+
+fn demo_with(from: &str, to: &str) -> String {
+    assert!(DEMO.contains(from), "demo rig lacks {from:?}");
+    DEMO.replacen(from, to, 1)
+}
+
+fn err(text: &str) -> InputError {
+    load_source(&SourceText::new("bad.toml", text)).unwrap_err()
+}
+
+fn line_of(text: &str, needle: &str) -> usize {
+    text.lines().position(|l| l.contains(needle)).unwrap() + 1
+}
+
+#[test]
+fn demo_rig_loads_from_disk() {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let r = load(&path).unwrap();
+    assert_eq!(r.spec.mount.kind, MountKind::Equatorial);
+    assert_eq!(r.spec.feet.len(), 3);
+    assert_eq!(r.spec.bodies.len(), 2);
+    assert_eq!(r.spec.counterweights.len(), 2);
+    // 47.3° → rad: the degree is π/180 rad exactly (SI Brochure, 9th ed., Table 8).
+    assert!((f64::from(r.spec.mount.latitude_rad) - 47.3_f64.to_radians()).abs() < 1e-6);
+    // Guard values from the file; others keep the core's defaults.
+    assert!((r.guard.park_utilisation - 0.65).abs() < 1e-6);
+    assert!((r.guard.time_to_park_s - 90.0).abs() < 1e-6);
+}
+
+#[test]
+fn pound_mass_reaches_core_in_kg() {
+    // 1 lb = 0.453 592 37 kg exactly (international yard and pound
+    // agreement, 1959; NIST SP 811 (2008) App. B.8): 22.046 lb = 9.999 97 kg.
+    let text = demo_with("mass = \"8 kg\"", "mass = \"22.046 lb\"");
+    let r = load_source(&SourceText::new("lb.toml", text)).unwrap();
+    assert!((f64::from(r.spec.bodies[1].mass_kg) - 10.0).abs() < 1e-3);
+}
+
+#[test]
+fn inches_and_mph_style_units_convert() {
+    // 1 in = 0.0254 m exactly (1959 agreement; NIST SP 811 App. B.8):
+    // 45 in = 1.143 m.
+    let text = demo_with("height = \"1.25 m\"", "height = \"45 in\"");
+    let r = load_source(&SourceText::new("in.toml", text)).unwrap();
+    assert!((f64::from(r.spec.mount.axis_origin_m[2]) - 1.143).abs() < 1e-6);
+}
+
+#[test]
+fn friction_out_of_range_names_file_line_key_value_range() {
+    let text = demo_with("friction = 0.45", "friction = 5");
+    let e = err(&text);
+    let at = e.at.clone().unwrap();
+    assert_eq!(at.file, "bad.toml");
+    assert_eq!(at.line, line_of(&text, "friction = 5"));
+    assert_eq!(e.key.as_deref(), Some("support.friction"));
+    assert_eq!(e.value.as_deref(), Some("5"));
+    let msg = e.to_string();
+    assert!(msg.contains("0 to 2"), "{msg}");
+}
+
+#[test]
+fn negative_mass_is_located() {
+    let text = demo_with("mass = \"8 kg\"", "mass = \"-2 kg\"");
+    let e = err(&text);
+    assert_eq!(e.at.clone().unwrap().line, line_of(&text, "-2 kg"));
+    assert_eq!(e.key.as_deref(), Some("body[1].mass"));
+    assert_eq!(e.value.as_deref(), Some("\"-2 kg\""));
+    assert!(e.problem.contains("0.001 to 2000 kg"), "{}", e.problem);
+}
+
+#[test]
+fn latitude_beyond_pole_is_refused_in_degrees() {
+    let text = demo_with("latitude = \"47.3 deg\"", "latitude = \"95 deg\"");
+    let e = err(&text);
+    assert_eq!(e.key.as_deref(), Some("site.latitude"));
+    assert_eq!(e.at.clone().unwrap().line, line_of(&text, "95 deg"));
+    assert!(e.problem.contains("-90 to 90 deg"), "{}", e.problem);
+}
+
+#[test]
+fn mass_unit_where_length_expected() {
+    let text = demo_with("height = \"1.25 m\"", "height = \"18 lb\"");
+    let e = err(&text);
+    assert_eq!(
+        e.at.clone().unwrap().line,
+        line_of(&text, "height = \"18 lb\"")
+    );
+    assert_eq!(e.key.as_deref(), Some("height"));
+    assert!(e.problem.contains("a unit of mass"), "{}", e.problem);
+    assert!(e.problem.contains("length"), "{}", e.problem);
+}
+
+#[test]
+fn unknown_key_is_named() {
+    let text = demo_with("friction = 0.45", "friction = 0.45\nfrictoin = 0.5");
+    let e = err(&text);
+    assert_eq!(e.at.clone().unwrap().line, line_of(&text, "frictoin"));
+    assert!(e.to_string().contains("frictoin"), "{e}");
+}
