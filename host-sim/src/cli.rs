@@ -35,6 +35,8 @@ pub enum Command {
     /// Write invented demo data: a windy night's logs with their log profile,
     /// or (with --bench) a long 50 Hz log for the throughput benchmark.
     GenDemo(GenDemoArgs),
+    /// Assess a rig file without logs (tip wind, torques, ballast, tripod orientation).
+    Assess(crate::assess::AssessArgs),
 }
 
 /// Arguments of `gen-demo`.
@@ -73,6 +75,7 @@ fn parse_hours(s: &str) -> Result<f64, String> {
 pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
     match &cli.command {
         Command::GenDemo(a) => gen_demo(a, out),
+        Command::Assess(a) => crate::assess::run(a, out),
     }
 }
 

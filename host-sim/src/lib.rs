@@ -9,6 +9,7 @@
 //! model. Secure the rig anyway, stay inside the mount maker's limits and
 //! defer to local codes and licensed engineers.
 
+pub mod assess;
 pub mod cli;
 pub mod demo_data;
 pub mod error;

@@ -2,6 +2,7 @@
 //! reach the core converted.
 
 use standfast::mount::MountKind;
+use standfast_sim::assess::{assess, write_text, AssessOptions, CAUTIONS};
 use standfast_sim::located::{InputError, SourceText};
 use standfast_sim::rigfile::{load, load_source};
 
@@ -104,4 +105,73 @@ fn unknown_key_is_named() {
     let e = err(&text);
     assert_eq!(e.at.clone().unwrap().line, line_of(&text, "frictoin"));
     assert!(e.to_string().contains("frictoin"), "{e}");
+}
+
+#[test]
+fn assess_demo_reports_and_ends_with_cautions() {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let r = load(&path).unwrap();
+    let rep = assess(&r, &AssessOptions::default()).unwrap();
+    assert_eq!(rep.home_by_direction.len(), 24);
+    // The lowest tip wind over the sky cannot exceed the home pose's.
+    let home = rep.home_worst.tip_wind_mps.unwrap();
+    assert!(rep.sky.tip.tip_wind_mps.unwrap() <= home + 1e-3);
+    // Equilateral tripod: the tipping lever toward a foot is the
+    // circumradius, toward an edge the inradius, half of it (textbook plane
+    // geometry), so the best orientation puts a foot downwind of a storm
+    // from 270° (downwind azimuth 90°, or 90° ± 120°), within the 5° step
+    // and the small offset of the payload, and gains speed.
+    let o = rep.orientation.unwrap();
+    let off = (o.best_first_leg_deg - 90.0).rem_euclid(120.0);
+    assert!(off.min(120.0 - off) <= 15.0, "{o:?}");
+    assert!(o.gain_mps.unwrap() > 0.0);
+    let mut text = Vec::new();
+    write_text(&rep, &mut text).unwrap();
+    let text = String::from_utf8(text).unwrap();
+    let tail = text.rsplit("Cautions:").next().unwrap();
+    for c in CAUTIONS {
+        assert!(tail.contains(c));
+    }
+    assert!(text.trim_end().ends_with(CAUTIONS[3]));
+}
+
+#[test]
+fn assess_cli_text_and_json() {
+    let rig = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_standfast"))
+        .arg("assess")
+        .arg(&rig)
+        .output()
+        .unwrap();
+    assert!(out.status.success());
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(text.contains("Cautions:") && text.contains("licensed engineers"));
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_standfast"))
+        .args(["assess", "--json", "--storm-from", "90"])
+        .arg(&rig)
+        .output()
+        .unwrap();
+    assert!(out.status.success());
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["home_by_direction"].as_array().unwrap().len(), 24);
+    assert!(v["cautions"].as_array().unwrap().len() == 4);
+}
+
+#[test]
+fn assess_cli_bad_rig_exits_1_with_location() {
+    let dir = tempfile::tempdir().unwrap();
+    let p = dir.path().join("bad.toml");
+    // `friction` is on line 15 of the demo rig, its value at column 12.
+    std::fs::write(&p, demo_with("friction = 0.45", "friction = 5")).unwrap();
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_standfast"))
+        .arg("assess")
+        .arg(&p)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8(out.stderr).unwrap();
+    assert!(
+        err.contains("bad.toml:15:12:") && err.contains("support.friction = 5"),
+        "{err}"
+    );
 }

@@ -1,0 +1,451 @@
+//! `standfast assess`: a static assessment of a rig file without logs.
+//!
+//! Everything is computed by the core (`standfast::rig::Rig`); this module
+//! chooses the cases, collects the figures into an [`AssessReport`] and
+//! writes it as text or JSON. Angles in the report are degrees (azimuths
+//! from north, clockwise; wind directions are where the wind blows FROM),
+//! speeds m/s, torques N·m, masses kg, lengths m, forces N.
+
+use std::io::Write;
+
+use serde::Serialize;
+use standfast::frame::{self, Tilt};
+use standfast::math::Vec3;
+use standfast::rig::{Conditions, Rig, RigSpec};
+use standfast::sky::{SkyGrid, SkyScan, SkyWorst};
+use standfast::support::Support;
+
+use crate::error::Error;
+use crate::located::InputError;
+use crate::rigfile::LoadedRig;
+
+/// The cautions that end every report a person reads.
+pub const CAUTIONS: &[&str] = &[
+    "The figures are estimates from a simplified static model, not a guarantee.",
+    "Secure the rig anyway: ballast, tie-downs and a cover fitted when it is left unattended.",
+    "Stay inside the mount maker's load and torque limits whatever these figures say.",
+    "Defer to local codes and to licensed engineers for anything that can hurt people or property.",
+];
+
+/// Options of an assessment.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct AssessOptions {
+    /// Design gust for ballast and tie-down needs, m/s.
+    pub design_gust_mps: f32,
+    /// Target overturning utilisation for ballast and tie-down needs.
+    pub target_utilisation: f32,
+    /// Storm direction (wind blowing FROM), degrees from north, for the best
+    /// tripod orientation.
+    pub storm_from_deg: f32,
+    /// Height of the ballast above the ground, below the rig centre, metres.
+    pub ballast_height_m: f32,
+    /// Wind speed for the axis torques over the sky, m/s.
+    pub torque_wind_mps: f32,
+}
+
+impl Default for AssessOptions {
+    fn default() -> Self {
+        AssessOptions {
+            design_gust_mps: 20.0,
+            target_utilisation: 0.75,
+            storm_from_deg: 270.0,
+            ballast_height_m: 0.3,
+            torque_wind_mps: 10.0,
+        }
+    }
+}
+
+/// Tip wind speed for one wind direction.
+#[derive(Clone, Copy, Debug, Serialize)]
+pub struct DirectionRow {
+    /// Direction the wind blows from, degrees from north clockwise.
+    pub from_deg: f32,
+    /// Lowest wind speed that tips the rig from there, m/s (`None`: none can).
+    pub tip_wind_mps: Option<f32>,
+}
+
+/// Best azimuth of the first tripod leg for a storm direction.
+#[derive(Clone, Copy, Debug, Serialize)]
+pub struct Orientation {
+    /// Storm direction (from), degrees.
+    pub storm_from_deg: f32,
+    /// Azimuth of the first leg as given in the file, degrees.
+    pub current_first_leg_deg: f32,
+    /// Tip wind from the storm direction as given, m/s.
+    pub current_tip_wind_mps: Option<f32>,
+    /// Azimuth of the first leg that maximises the tip wind, degrees.
+    pub best_first_leg_deg: f32,
+    /// Tip wind from the storm direction at the best orientation, m/s.
+    pub best_tip_wind_mps: Option<f32>,
+    /// Gain in tip wind speed, m/s.
+    pub gain_mps: Option<f32>,
+}
+
+/// A requirement (ballast kg or tie-down pull per foot N) and its governing
+/// wind direction.
+#[derive(Clone, Copy, Debug, Serialize)]
+pub struct Need {
+    /// Ballast mass, kg, or pull per foot, N.
+    pub amount: f32,
+    /// Governing wind direction (from), degrees.
+    pub worst_from_deg: f32,
+}
+
+/// Everything `assess` reports.
+#[derive(Clone, Debug, Serialize)]
+pub struct AssessReport {
+    /// The rig file.
+    pub file: String,
+    /// Total mass in the home pose, cover off, kg.
+    pub mass_kg: f32,
+    /// Centre of gravity in the home pose, rig frame (x east, y north, z up), m.
+    pub centre_of_gravity_m: [f32; 3],
+    /// Air density used (ISA at the site elevation), kg/m³.
+    pub air_density_kg_m3: f32,
+    /// Tip wind speed every 15° in the home pose, cover off.
+    pub home_by_direction: Vec<DirectionRow>,
+    /// Lowest tip wind over directions in the home pose, cover off.
+    pub home_worst: DirectionRow,
+    /// Lowest tip wind over directions in the home pose, cover fitted (when
+    /// the rig has a cover).
+    pub home_worst_covered: Option<DirectionRow>,
+    /// Worst case over the sky: lowest tip wind and highest axis torques.
+    pub sky: SkyWorst,
+    /// Wind speed used for the sky's axis torques, m/s.
+    pub sky_torque_wind_mps: f32,
+    /// Design gust for the needs below, m/s.
+    pub design_gust_mps: f32,
+    /// Target utilisation for the needs below.
+    pub target_utilisation: f32,
+    /// Ballast below the rig centre needed in the home pose, kg.
+    pub ballast_needed: Option<Need>,
+    /// Tie-down pull needed per foot in the home pose, N.
+    pub tie_down_needed: Option<Need>,
+    /// Best tripod orientation for the storm direction (three-foot supports).
+    pub orientation: Option<Orientation>,
+    /// The cautions.
+    pub cautions: Vec<&'static str>,
+}
+
+fn deg(rad: f32) -> f32 {
+    rad.to_degrees()
+}
+
+fn core_err(file: &str, e: &standfast::Error) -> Error {
+    Error::Input(InputError {
+        at: None,
+        key: Some(e.field.to_owned()),
+        value: None,
+        problem: format!("{file}: assessment failed: {e}"),
+    })
+}
+
+fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, standfast::Error> {
+    let mut c = *c;
+    c.wind_from_rad = from_rad;
+    Ok(rig.assess(&c)?.tip_wind_mps)
+}
+
+fn orientation(
+    spec: &RigSpec,
+    c: &Conditions,
+    storm_from_deg: f32,
+) -> Result<Option<Orientation>, standfast::Error> {
+    if spec.feet.len() != 3 {
+        return Ok(None);
+    }
+    let base = Support::new(&spec.feet)?;
+    let storm = storm_from_deg.to_radians();
+    let first_leg = |s: &Support| {
+        s.foot_point_m(0)
+            .map_or(0.0, |p| deg(frame::azimuth_of(Vec3::new(p.x, p.y, 0.0))))
+    };
+    let mut current = None;
+    let mut best: Option<(f32, Option<f32>)> = None;
+    for step in 0..24_u8 {
+        let turn = f32::from(step) * 5.0;
+        let s = base.rotated(turn.to_radians())?;
+        let mut sp = spec.clone();
+        sp.feet = s.feet().iter().copied().collect();
+        let rig = Rig::new(&sp)?;
+        let tip = tip_from(&rig, c, storm)?;
+        if step == 0 {
+            current = Some((first_leg(&s), tip));
+        }
+        let better = match (best, tip) {
+            (None, _) => true,
+            (Some((_, None)), _) => false,
+            (Some((_, Some(_))), None) => true,
+            (Some((_, Some(b))), Some(t)) => t > b + 1e-4,
+        };
+        if better {
+            best = Some((first_leg(&s), tip));
+        }
+    }
+    let (Some((cur_az, cur_tip)), Some((best_az, best_tip))) = (current, best) else {
+        return Ok(None);
+    };
+    Ok(Some(Orientation {
+        storm_from_deg,
+        current_first_leg_deg: cur_az,
+        current_tip_wind_mps: cur_tip,
+        best_first_leg_deg: best_az,
+        best_tip_wind_mps: best_tip,
+        gain_mps: match (cur_tip, best_tip) {
+            (Some(a), Some(b)) => Some(b - a),
+            _ => None,
+        },
+    }))
+}
+
+/// Assesses a loaded rig.
+///
+/// # Errors
+/// [`Error::Input`] when the core refuses a case (it names the field).
+pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
+    let e = |x: standfast::Error| core_err(&r.file, &x);
+    let rig = &r.rig;
+    let home = rig.mount().home_pose();
+    let mut c = Conditions::calm(home);
+    c.air = r.air;
+    let placement = rig.place(home, Tilt::LEVEL, false).map_err(e)?;
+    let cg = placement.centre_of_gravity_m();
+
+    let mut by_dir = Vec::new();
+    for k in 0..24_u8 {
+        let from = f32::from(k) * 15.0;
+        by_dir.push(DirectionRow {
+            from_deg: from,
+            tip_wind_mps: tip_from(rig, &c, from.to_radians()).map_err(e)?,
+        });
+    }
+    let w = rig.worst_wind(&c).map_err(e)?;
+    let home_worst = DirectionRow {
+        from_deg: deg(w.from_rad),
+        tip_wind_mps: w.tip_wind_mps,
+    };
+    let home_worst_covered = if rig.has_cover() {
+        let mut cc = c;
+        cc.cover_fitted = true;
+        let w = rig.worst_wind(&cc).map_err(e)?;
+        Some(DirectionRow {
+            from_deg: deg(w.from_rad),
+            tip_wind_mps: w.tip_wind_mps,
+        })
+    } else {
+        None
+    };
+    let sky = rig
+        .sky_scan(&SkyScan {
+            grid: SkyGrid::with_step(15f32.to_radians(), 0.0),
+            wind_directions: 16,
+            wind_speed_mps: o.torque_wind_mps,
+            air: r.air,
+            tilt: Tilt::LEVEL,
+        })
+        .map_err(e)?;
+    let ballast_needed = rig
+        .ballast_needed(
+            &c,
+            o.design_gust_mps,
+            o.target_utilisation,
+            Vec3::new(0.0, 0.0, o.ballast_height_m),
+        )
+        .ok()
+        .map(|q| Need {
+            amount: q.amount,
+            worst_from_deg: deg(q.worst_from_rad),
+        });
+    let tie_down_needed = rig
+        .tie_down_needed(&c, o.design_gust_mps, o.target_utilisation)
+        .ok()
+        .map(|q| Need {
+            amount: q.amount,
+            worst_from_deg: deg(q.worst_from_rad),
+        });
+    let orientation = orientation(&r.spec, &c, o.storm_from_deg).map_err(e)?;
+    Ok(AssessReport {
+        file: r.file.clone(),
+        mass_kg: placement.mass_kg(),
+        centre_of_gravity_m: cg.to_array(),
+        air_density_kg_m3: r.air.density_kg_m3(),
+        home_by_direction: by_dir,
+        home_worst,
+        home_worst_covered,
+        sky,
+        sky_torque_wind_mps: o.torque_wind_mps,
+        design_gust_mps: o.design_gust_mps,
+        target_utilisation: o.target_utilisation,
+        ballast_needed,
+        tie_down_needed,
+        orientation,
+        cautions: CAUTIONS.to_vec(),
+    })
+}
+
+fn speed(v: Option<f32>) -> String {
+    v.map_or_else(
+        || "no wind tips it".to_owned(),
+        |s| format!("{s:.1} m/s ({:.0} km/h)", s * 3.6),
+    )
+}
+
+/// Writes the report as text.
+///
+/// # Errors
+/// I/O errors of `out`.
+pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()> {
+    writeln!(out, "Static assessment of {}", rep.file)?;
+    let [x, y, z] = rep.centre_of_gravity_m;
+    writeln!(
+        out,
+        "  mass {:.1} kg, centre of gravity x {x:.3} m (east), y {y:.3} m (north), z {z:.3} m (up), home pose, cover off",
+        rep.mass_kg
+    )?;
+    writeln!(
+        out,
+        "  air density {:.3} kg/m³ (ISA at the site elevation)",
+        rep.air_density_kg_m3
+    )?;
+    writeln!(out, "\nTip wind speed by direction, home pose, cover off:")?;
+    for row in &rep.home_by_direction {
+        writeln!(
+            out,
+            "  from {:>5.0}°  {}",
+            row.from_deg,
+            speed(row.tip_wind_mps)
+        )?;
+    }
+    writeln!(
+        out,
+        "\nLowest tip wind, home pose: {} from {:.0}°",
+        speed(rep.home_worst.tip_wind_mps),
+        rep.home_worst.from_deg
+    )?;
+    if let Some(c) = &rep.home_worst_covered {
+        writeln!(
+            out,
+            "Lowest tip wind, home pose, cover fitted: {} from {:.0}°",
+            speed(c.tip_wind_mps),
+            c.from_deg
+        )?;
+    }
+    writeln!(
+        out,
+        "Lowest tip wind over the whole sky ({} poses): {} from {:.0}°",
+        rep.sky.poses_checked,
+        speed(rep.sky.tip.tip_wind_mps),
+        deg(rep.sky.tip.from_rad)
+    )?;
+    writeln!(
+        out,
+        "\nAxis torques, worst case over the sky in {:.0} m/s wind:",
+        rep.sky_torque_wind_mps
+    )?;
+    for (name, a) in [
+        ("primary", &rep.sky.primary),
+        ("secondary", &rep.sky.secondary),
+    ] {
+        write!(
+            out,
+            "  {name}: {:.2} N m steady (gravity {:.2}, wind {:.2})",
+            a.steady_nm, a.gravity_nm, a.wind_nm
+        )?;
+        match a.rated_utilisation {
+            Some(u) => writeln!(out, ", {:.0} % of the rated torque", u * 100.0)?,
+            None => writeln!(out, ", no drive rating given")?,
+        }
+    }
+    writeln!(
+        out,
+        "\nFor a {:.0} m/s design gust at utilisation {:.2}, home pose:",
+        rep.design_gust_mps, rep.target_utilisation
+    )?;
+    match &rep.ballast_needed {
+        Some(n) if n.amount > 0.0 => writeln!(
+            out,
+            "  ballast below the rig centre: {:.1} kg (governing wind from {:.0}°)",
+            n.amount, n.worst_from_deg
+        )?,
+        Some(_) => writeln!(out, "  ballast: none needed")?,
+        None => writeln!(out, "  ballast: cannot be computed for this rig")?,
+    }
+    match &rep.tie_down_needed {
+        Some(n) if n.amount > 0.0 => writeln!(
+            out,
+            "  or a tie-down on every foot holding {:.0} N (governing wind from {:.0}°)",
+            n.amount, n.worst_from_deg
+        )?,
+        Some(_) => writeln!(out, "  tie-downs: none needed")?,
+        None => writeln!(out, "  tie-downs: cannot be computed for this rig")?,
+    }
+    if let Some(t) = &rep.orientation {
+        writeln!(
+            out,
+            "\nTripod orientation for a storm from {:.0}°: first leg at {:.0}° gives {}; at {:.0}° (as given) {}{}",
+            t.storm_from_deg,
+            t.best_first_leg_deg,
+            speed(t.best_tip_wind_mps),
+            t.current_first_leg_deg,
+            speed(t.current_tip_wind_mps),
+            t.gain_mps.map_or(String::new(), |g| format!("; gain {g:.1} m/s"))
+        )?;
+    }
+    writeln!(out, "\nCautions:")?;
+    for c in &rep.cautions {
+        writeln!(out, "  - {c}")?;
+    }
+    Ok(())
+}
+
+/// Writes the report as pretty JSON.
+///
+/// # Errors
+/// I/O or serialisation errors.
+pub fn write_json(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()> {
+    serde_json::to_writer_pretty(&mut *out, rep).map_err(std::io::Error::other)?;
+    writeln!(out)
+}
+
+/// Arguments of `assess`.
+#[derive(Debug, clap::Args)]
+pub struct AssessArgs {
+    /// The rig file (TOML; see the rig file section of the README).
+    #[arg(value_name = "RIG.toml")]
+    pub rig: std::path::PathBuf,
+    /// Print the report as JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+    /// Storm direction (wind from), degrees from north clockwise, for the
+    /// best tripod orientation.
+    #[arg(
+        long,
+        value_name = "DEG",
+        default_value_t = 270.0,
+        allow_hyphen_values = true
+    )]
+    pub storm_from: f32,
+    /// Design gust for ballast and tie-down needs, m/s.
+    #[arg(long, value_name = "M/S", default_value_t = 20.0)]
+    pub design_gust: f32,
+}
+
+/// Runs `standfast assess`.
+///
+/// # Errors
+/// The rig file cannot be read or is invalid, or the output cannot be written.
+pub fn run(a: &AssessArgs, out: &mut dyn Write) -> Result<(), Error> {
+    let r = crate::rigfile::load(&a.rig)?;
+    let o = AssessOptions {
+        storm_from_deg: a.storm_from,
+        design_gust_mps: a.design_gust,
+        ..AssessOptions::default()
+    };
+    let rep = assess(&r, &o)?;
+    let res = if a.json {
+        write_json(&rep, out)
+    } else {
+        write_text(&rep, out)
+    };
+    res.map_err(|e| Error::io("<standard output>", e))
+}
