@@ -816,7 +816,10 @@ mod tests {
 
     #[test]
     fn guard_size_is_a_small_constant() {
-        assert!(core::mem::size_of::<Guard<'static>>() < 4096);
+        let n = core::mem::size_of::<Guard<'static>>();
+        assert!(n < 4096, "Guard is {n} bytes");
+        let v = core::mem::size_of::<Verdict>();
+        assert!(v < 1024, "Verdict is {v} bytes");
     }
 
     #[test]
