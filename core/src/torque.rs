@@ -489,6 +489,12 @@ impl Payload {
 /// Σ m·a = Σ M_cw·L). For the secondary axis the components along the tube
 /// `p` and `n` count; the largest secondary-axis gravity torque, again with
 /// `s` horizontal, is g·|(M_p, M_n)|.
+///
+/// Counterweights move along `s` only, so they cannot remove a static moment
+/// across it: the secondary stage's M_p and M_n (removed or reduced by the
+/// payload slide) and any primary-stage part set off toward `q`. With both
+/// of those zero, the balanced rig has no gravity torque on either axis in
+/// any pose.
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize))]
