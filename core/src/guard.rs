@@ -820,6 +820,8 @@ mod tests {
         assert!(n < 4096, "Guard is {n} bytes");
         let v = core::mem::size_of::<Verdict>();
         assert!(v < 1024, "Verdict is {v} bytes");
+        let r = core::mem::size_of::<Rig>();
+        assert!(r < 4096, "Rig is {r} bytes");
     }
 
     #[test]
