@@ -205,3 +205,36 @@ fn stale_accelerometer_is_a_fault() {
         }
     )));
 }
+
+/// A drive loaded past its rated torque requests a park even in calm air: a
+/// 2 kg point mass 0.2 m off the altitude axis of a level tube loads that axis
+/// with m·g·0.2 = 3.92 N·m (gravity torque of a point mass, statics), against a
+/// 2 N·m rating.
+#[test]
+fn overloaded_drive_requests_park() {
+    use standfast::drive::{DriveRating, Drives};
+    use standfast::rig::{BodySpec, Stage as MountStage};
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let mut spec = post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5);
+    let _ = spec.bodies.push(BodySpec {
+        stage: MountStage::Secondary,
+        mass_kg: 2.0,
+        cg_m: [0.0, 0.2, 0.0],
+        ..BodySpec::default()
+    });
+    let weak = DriveRating {
+        rated_nm: 2.0,
+        repeated_peak_nm: 4.0,
+        momentary_peak_nm: 8.0,
+    };
+    spec.drives = Some(Drives {
+        primary: weak,
+        secondary: weak,
+        slew_acceleration_rad_s2: 0.0,
+    });
+    let rig = Rig::new(&spec).unwrap();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 60.0, |_| Some(3.0), true);
+    assert_eq!(r.guard.stage(), Stage::ParkNow, "{:?}", r.changes);
+    assert_eq!(r.changes.last().unwrap().3, Cause::Drive);
+}
