@@ -43,6 +43,12 @@
 //! [guard]            watch_utilisation, park_utilisation, alarm_utilisation,
 //!                    drive_park_utilisation, clear_ratio, dwell, time_to_park,
 //!                    gust_allowance, tilt_margin_alarm, fault_clear
+//! [sensor]           accel_scale = 6.1e-5        # accelerometer g per count
+//!                    accel_axes = ["+x", "+y", "+z"] # sensor axis along rig x, y, z
+//!                    tilt_filter = "1 s"         # tilt filter time constant
+//!                    anemometer_height = "3 m"; rig_height = "1.2 m"
+//!                    terrain = "II"              # EN 1991-1-4 category 0, I, II, III, IV
+//!                    wind_stale = "10 s"         # no anemometer sample for this long: fault
 //! [log]              the log profile (read by [`crate::log`], ignored here)
 //! ```
 //! Frames and sign conventions are the core's: rig frame x east, y north, z
@@ -66,6 +72,7 @@ use standfast::rig::{
     BallastSpec, BodySpec, CounterweightSpec, CoverSpec, LegsSpec, MassModel, Rig, RigSpec,
     ShaftSpec, Stage,
 };
+use standfast::sense::{Mounting, SignedAxis, TerrainCategory};
 use standfast::shape::{Exposure, Shape};
 use standfast::support::{Foot, Support};
 use toml::Spanned;
@@ -133,6 +140,7 @@ struct FileSpec {
     ballast: Vec<S<BallastSec>>,
     drives: Option<S<DrivesSec>>,
     guard: Option<S<GuardSec>>,
+    sensor: Option<S<SensorSec>>,
     /// The log profile, read by [`crate::log`].
     #[allow(dead_code)]
     log: Option<toml::Value>,
@@ -275,6 +283,18 @@ struct GuardSec {
     gust_allowance: Option<S<f64>>,
     tilt_margin_alarm: Option<S<Degrees>>,
     fault_clear: Option<S<Duration>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SensorSec {
+    accel_scale: Option<S<f64>>,
+    accel_axes: Option<S<[S<String>; 3]>>,
+    tilt_filter: Option<S<Duration>>,
+    anemometer_height: Option<S<Length>>,
+    rig_height: Option<S<Length>>,
+    terrain: Option<S<String>>,
+    wind_stale: Option<S<Duration>>,
 }
 
 /// A rig file, read and checked.
@@ -810,7 +830,10 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     };
     let rig = Rig::new(&spec).map_err(|e| core_error(src, &sp, &e))?;
 
-    let guard = guard_config(file.guard.as_ref(), &mut sp);
+    let mut guard = guard_config(file.guard.as_ref(), &mut sp);
+    if let Some(sec) = &file.sensor {
+        sensor_config(src, sec.get_ref(), &mut sp, &mut guard)?;
+    }
     guard.validate().map_err(|e| core_error(src, &sp, &e))?;
 
     Ok(LoadedRig {
@@ -982,6 +1005,105 @@ fn guard_config(g: Option<&S<GuardSec>>, sp: &mut Spans) -> GuardConfig {
         c.tilt_margin_alarm_rad = f(t.get_ref().0);
     }
     c
+}
+
+/// A signed sensor axis as written: `+x`, `-y`, `z`, …
+fn signed_axis(src: &SourceText, key: &str, v: &S<String>) -> Result<SignedAxis, InputError> {
+    let t = v.get_ref().trim().to_ascii_lowercase();
+    let t = t.replace('\u{2212}', "-");
+    Ok(match t.as_str() {
+        "+x" | "x" => SignedAxis::PlusX,
+        "-x" => SignedAxis::MinusX,
+        "+y" | "y" => SignedAxis::PlusY,
+        "-y" => SignedAxis::MinusY,
+        "+z" | "z" => SignedAxis::PlusZ,
+        "-z" => SignedAxis::MinusZ,
+        _ => {
+            return Err(src.checker().error(
+                key,
+                v.span(),
+                "not a sensor axis (accepted: +x, -x, +y, -y, +z, -z)",
+            ))
+        }
+    })
+}
+
+/// The `[sensor]` section into the guard's tilt and wind processing.
+fn sensor_config(
+    src: &SourceText,
+    g: &SensorSec,
+    sp: &mut Spans,
+    c: &mut GuardConfig,
+) -> Result<(), InputError> {
+    let ck = src.checker();
+    if let Some(v) = &g.accel_scale {
+        sp.put(
+            "tilt.scale_g_per_count",
+            None,
+            "sensor.accel_scale".into(),
+            v.span(),
+        );
+        c.tilt.scale_g_per_count = f(*v.get_ref());
+    }
+    if let Some(a) = &g.accel_axes {
+        let [x, y, z] = a.get_ref();
+        let m = Mounting::from_axes(
+            signed_axis(src, "sensor.accel_axes[0]", x)?,
+            signed_axis(src, "sensor.accel_axes[1]", y)?,
+            signed_axis(src, "sensor.accel_axes[2]", z)?,
+        )
+        .map_err(|_| {
+            ck.error(
+                "sensor.accel_axes",
+                a.span(),
+                "the sensor axes along rig x, y, z must be three different axes \
+                 forming a right-handed set (for example [\"+x\", \"+y\", \"+z\"] \
+                 or [\"+y\", \"-x\", \"+z\"])",
+            )
+        })?;
+        c.tilt.mounting = m;
+    }
+    if let Some(v) = &g.tilt_filter {
+        sp.put(
+            "tilt.filter_tau_s",
+            None,
+            "sensor.tilt_filter".into(),
+            v.span(),
+        );
+        c.tilt.filter_tau_s = f(v.get_ref().s());
+    }
+    if let Some(v) = &g.anemometer_height {
+        sp.put(
+            "wind.z_from_m",
+            None,
+            "sensor.anemometer_height".into(),
+            v.span(),
+        );
+        c.wind.anemometer_height_m = f(v.get_ref().m());
+    }
+    if let Some(v) = &g.rig_height {
+        sp.put("wind.z_to_m", None, "sensor.rig_height".into(), v.span());
+        c.wind.rig_height_m = f(v.get_ref().m());
+    }
+    if let Some(v) = &g.terrain {
+        c.wind.terrain = match ck.one_of("sensor.terrain", v, &["0", "I", "II", "III", "IV"])? {
+            "0" => TerrainCategory::Cat0Sea,
+            "I" => TerrainCategory::CatIFlat,
+            "III" => TerrainCategory::CatIIISuburban,
+            "IV" => TerrainCategory::CatIVUrban,
+            _ => TerrainCategory::CatIIOpen,
+        };
+    }
+    if let Some(v) = &g.wind_stale {
+        sp.put(
+            "wind.stale_after_s",
+            None,
+            "sensor.wind_stale".into(),
+            v.span(),
+        );
+        c.wind.stale_after_s = f(v.get_ref().s());
+    }
+    Ok(())
 }
 
 /// The unit a core field name carries, and the factor from its SI value to

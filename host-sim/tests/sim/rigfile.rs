@@ -175,3 +175,58 @@ fn assess_cli_bad_rig_exits_1_with_location() {
         "{err}"
     );
 }
+
+#[test]
+fn sensor_section_reaches_guard_config() {
+    use standfast::math::Vec3;
+    use standfast::sense::TerrainCategory;
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let r = load(&path).unwrap();
+    assert!((r.guard.tilt.scale_g_per_count - 0.000_061).abs() < 1e-9);
+    assert!((r.guard.tilt.filter_tau_s - 1.0).abs() < 1e-6);
+    assert!((r.guard.wind.anemometer_height_m - 3.0).abs() < 1e-6);
+    assert!((r.guard.wind.rig_height_m - 1.3).abs() < 1e-6);
+    assert_eq!(r.guard.wind.terrain, TerrainCategory::CatIIOpen);
+    assert!((r.guard.wind.stale_after_s - 15.0).abs() < 1e-6);
+    // Axes ["+y", "-x", "+z"]: rig x is sensor +y, so a sensor reading along
+    // +y must come out along rig +x, and sensor +x along rig −y (a 90°
+    // rotation about z; right-handed, det = +1 — plane geometry).
+    let v = r.guard.tilt.mounting.to_rig(Vec3::new(0.0, 1.0, 0.0));
+    assert!((v.x - 1.0).abs() < 1e-6 && v.y.abs() < 1e-6 && v.z.abs() < 1e-6);
+    let v = r.guard.tilt.mounting.to_rig(Vec3::new(1.0, 0.0, 0.0));
+    assert!((v.y + 1.0).abs() < 1e-6 && v.x.abs() < 1e-6);
+}
+
+#[test]
+fn sensor_mirrored_axes_are_refused_at_the_key() {
+    // [+x, +y, -z] is a reflection (det = −1), which no physical mounting
+    // can be (rotation matrices have det = +1; textbook linear algebra).
+    let text = demo_with("[\"+y\", \"-x\", \"+z\"]", "[\"+x\", \"+y\", \"-z\"]");
+    let e = err(&text);
+    assert_eq!(e.key.as_deref(), Some("sensor.accel_axes"));
+    assert_eq!(e.at.clone().unwrap().line, line_of(&text, "accel_axes"));
+    assert!(e.problem.contains("right-handed"), "{}", e.problem);
+}
+
+#[test]
+fn sensor_anemometer_height_out_of_range_is_located_in_metres() {
+    let text = demo_with(
+        "anemometer_height = \"3 m\"",
+        "anemometer_height = \"300 m\"",
+    );
+    let e = err(&text);
+    assert_eq!(e.key.as_deref(), Some("sensor.anemometer_height"));
+    assert_eq!(e.at.clone().unwrap().line, line_of(&text, "300 m"));
+    assert!(e.problem.contains("0.01 to 200 m"), "{}", e.problem);
+}
+
+#[test]
+fn sensor_terrain_must_be_a_category() {
+    let text = demo_with("terrain = \"II\"", "terrain = \"V\"");
+    let e = err(&text);
+    assert_eq!(e.key.as_deref(), Some("sensor.terrain"));
+    assert_eq!(
+        e.at.clone().unwrap().line,
+        line_of(&text, "terrain = \"V\"")
+    );
+}
