@@ -511,6 +511,15 @@ impl<'r> Guard<'r> {
             }
         }
         self.decide(now, &faults, &mut events);
+        // The park pose is searched only while a park is requested, once per
+        // evaluation (it costs one assessment per candidate).
+        if self.stage.park_requested() && (due || self.figures.park_pose.is_none()) {
+            self.figures.park_pose = match (self.figures.predicted_gust_mps, self.figures.from_rad)
+            {
+                (Some(v), Some(d)) => self.safest_park_pose(v, d),
+                _ => Some(self.rig.mount().home_pose()),
+            };
+        }
 
         let fig = self.figures;
         Verdict {
@@ -640,7 +649,6 @@ impl<'r> Guard<'r> {
         f.drive = self.drive_utilisation(gust, mean, f.from_rad);
         let c = self.conditions(self.pose, 0.0, 0.0);
         f.tilt_margin_rad = self.rig.tilt_margin(&c).ok().map(|m| m.extra_rad);
-        f.park_pose = f.from_rad.and_then(|d| self.safest_park_pose(predicted, d));
         f
     }
 
