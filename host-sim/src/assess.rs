@@ -12,8 +12,9 @@ use serde::Serialize;
 use standfast::frame::{self, Tilt};
 use standfast::math::Vec3;
 use standfast::rig::{Conditions, Rig, RigSpec};
-use standfast::sky::{SkyGrid, SkyScan, SkyWorst};
+use standfast::sky::{EnvelopeRow, PayloadOffset, SkyGrid, SkyScan, SkyWorst};
 use standfast::support::Support;
+use standfast::torque::{Balance, PayloadPick};
 
 use crate::error::Error;
 use crate::located::InputError;
@@ -123,9 +124,33 @@ pub struct AssessReport {
     pub tie_down_needed: Option<Need>,
     /// Best tripod orientation for the storm direction (three-foot supports).
     pub orientation: Option<Orientation>,
+    /// Balance of both axes for the payload under the cover (every
+    /// secondary-stage body when none is marked); `None` when the rig has no
+    /// secondary-stage body.
+    pub balance: Option<Balance>,
+    /// Payload envelope: masses that keep both drives within their ratings
+    /// over the sky (15° grid, calm, level, cover off), for payload centres
+    /// of gravity at [`ENVELOPE_OFFSETS_M`]; `None` without drive ratings.
+    pub payload_envelope: Option<Vec<EnvelopeRow>>,
     /// The cautions.
     pub cautions: Vec<&'static str>,
 }
+
+/// Payload centre-of-gravity offsets of the envelope table, secondary-stage
+/// frame, metres: (along the secondary axis `s`, positive to the payload
+/// side; along the tube `p`, positive toward the sky end).
+pub const ENVELOPE_OFFSETS_M: [(f32, f32); 10] = [
+    (0.10, 0.0),
+    (0.15, 0.0),
+    (0.20, 0.0),
+    (0.25, 0.0),
+    (0.30, 0.0),
+    (0.10, 0.15),
+    (0.15, 0.15),
+    (0.20, 0.15),
+    (0.25, 0.15),
+    (0.30, 0.15),
+];
 
 fn deg(rad: f32) -> f32 {
     rad.to_degrees()
@@ -264,6 +289,35 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
             worst_from_deg: deg(q.worst_from_rad),
         });
     let orientation = orientation(&r.spec, &c, o.storm_from_deg).map_err(e)?;
+    let has_payload = r
+        .spec
+        .bodies
+        .iter()
+        .any(|b| b.stage == standfast::rig::Stage::Secondary);
+    let balance = if has_payload {
+        Some(rig.balance(PayloadPick::UnderCover).map_err(e)?)
+    } else {
+        None
+    };
+    let payload_envelope = if has_payload && r.spec.drives.is_some() {
+        let offsets: Vec<PayloadOffset> = ENVELOPE_OFFSETS_M
+            .iter()
+            .map(|&(a, b)| PayloadOffset {
+                along_secondary_axis_m: a,
+                along_tube_m: b,
+            })
+            .collect();
+        let rows = rig
+            .payload_envelope(
+                &SkyGrid::with_step(15f32.to_radians(), 0.0),
+                PayloadPick::UnderCover,
+                &offsets,
+            )
+            .map_err(e)?;
+        Some(rows.iter().copied().collect())
+    } else {
+        None
+    };
     Ok(AssessReport {
         file: r.file.clone(),
         mass_kg: placement.mass_kg(),
@@ -279,6 +333,8 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         ballast_needed,
         tie_down_needed,
         orientation,
+        balance,
+        payload_envelope,
         cautions: CAUTIONS.to_vec(),
     })
 }
@@ -391,11 +447,105 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
             t.gain_mps.map_or(String::new(), |g| format!("; gain {g:.1} m/s"))
         )?;
     }
+    if let Some(b) = &rep.balance {
+        write_balance(b, out)?;
+    }
+    if let Some(rows) = &rep.payload_envelope {
+        write_envelope(rows, out)?;
+    }
     writeln!(out, "\nCautions:")?;
     for c in &rep.cautions {
         writeln!(out, "  - {c}")?;
     }
     Ok(())
+}
+
+fn unbalance(nm: f32) -> String {
+    if nm.abs() < 0.005 {
+        "balanced".to_owned()
+    } else if nm > 0.0 {
+        format!("{nm:.2} N m, payload side heavy")
+    } else {
+        format!("{:.2} N m, counterweight side heavy", -nm)
+    }
+}
+
+fn write_balance(b: &Balance, out: &mut dyn Write) -> std::io::Result<()> {
+    writeln!(
+        out,
+        "\nBalance (payload {:.1} kg, counterweights as given):",
+        b.payload_mass_kg
+    )?;
+    writeln!(out, "  primary axis: {}", unbalance(b.primary_unbalance_nm))?;
+    match (b.counterweight_shift_m, b.counterweight_centre_m) {
+        (Some(d), Some(c)) => {
+            let dir = if d >= 0.0 { "outward" } else { "inward" };
+            writeln!(
+                out,
+                "  move the counterweights together {:.0} mm {dir}: their common centre at {:.0} mm from the axis balances it{}",
+                d.abs() * 1000.0,
+                c * 1000.0,
+                match b.fits_on_shaft {
+                    Some(true) => "",
+                    Some(false) => " (beyond the shaft: add mass or a longer shaft)",
+                    None => "",
+                }
+            )?;
+        }
+        _ => writeln!(out, "  no counterweights")?,
+    }
+    if let Some(r) = b.residual_at_shaft_end_nm {
+        writeln!(
+            out,
+            "  with the outermost counterweight at the shaft end: {}",
+            unbalance(r)
+        )?;
+    }
+    writeln!(
+        out,
+        "  secondary axis: {:.2} N m at most; slide the payload {:.0} mm toward the {} end, leaving {:.2} N m (offset across the tube)",
+        b.secondary_unbalance_nm,
+        b.payload_slide_m.abs() * 1000.0,
+        if b.payload_slide_m >= 0.0 { "sky" } else { "rear" },
+        b.secondary_residual_nm
+    )
+}
+
+fn mass_range(m: Option<&standfast::sky::MassRange>) -> String {
+    match m {
+        None => "none fits".to_owned(),
+        Some(r) => format!(
+            "{:.1} to {:.1} kg{}",
+            r.lightest_kg,
+            r.heaviest_kg,
+            if r.capped { " (no drive limit)" } else { "" }
+        ),
+    }
+}
+
+fn write_envelope(rows: &[EnvelopeRow], out: &mut dyn Write) -> std::io::Result<()> {
+    writeln!(
+        out,
+        "\nPayload envelope (drives within their ratings over the sky, calm, level, cover off):"
+    )?;
+    writeln!(
+        out,
+        "  offset s (m)      p (m)   with counterweights          without counterweights"
+    )?;
+    for r in rows {
+        writeln!(
+            out,
+            "  {:>12.2} {:>10.2}   {:<28} {}",
+            r.offset.along_secondary_axis_m,
+            r.offset.along_tube_m,
+            mass_range(r.with_counterweights.as_ref()),
+            mass_range(r.without_counterweights.as_ref())
+        )?;
+    }
+    writeln!(
+        out,
+        "  wind is not included: keep a margin below the heaviest payload"
+    )
 }
 
 /// Writes the report as pretty JSON.

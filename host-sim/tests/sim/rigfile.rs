@@ -230,3 +230,70 @@ fn sensor_terrain_must_be_a_category() {
         line_of(&text, "terrain = \"V\"")
     );
 }
+
+#[test]
+fn assess_balance_matches_lever_rule_on_demo_rig() {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let rep = assess(&load(&path).unwrap(), &AssessOptions::default()).unwrap();
+    let b = rep.balance.unwrap();
+    // Lever rule (textbook statics, Σ m·s = 0 about the primary axis), by
+    // hand from the demo file: refractor 8 kg at s = 0.17 m, shaft 1.1 kg
+    // with its centre at −0.40/2 m, so the 10 kg of counterweights must have
+    // their common centre at (8·0.17 − 1.1·0.20)/10 = 0.114 m.
+    assert!(
+        (b.counterweight_centre_m.unwrap() - 0.114).abs() < 1e-4,
+        "{b:?}"
+    );
+    // Secondary axis: the refractor's centre sits 0.05 m along the tube, so
+    // the largest gravity torque is g·8·0.05 with standard gravity
+    // g = 9.806 65 m/s² (3rd CGPM, 1901) = 3.923 N m, nulled by sliding it
+    // 0.05 m toward the rear.
+    assert!((b.secondary_unbalance_nm - 3.922_66).abs() < 1e-3);
+    assert!((b.payload_slide_m + 0.05).abs() < 1e-5);
+}
+
+#[test]
+fn assess_envelope_bounded_by_secondary_rated_torque() {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let rep = assess(&load(&path).unwrap(), &AssessOptions::default()).unwrap();
+    let rows = rep.payload_envelope.unwrap();
+    assert_eq!(rows.len(), 10);
+    // A payload 0.15 m along the tube, the tube horizontal (the grid reaches
+    // the horizon): the secondary drive holds g·m·0.15 ≤ 10 N m rated, so
+    // m ≤ 10 / (9.806 65 · 0.15) = 6.798 kg (torque = weight × lever arm,
+    // textbook statics; standard gravity, 3rd CGPM 1901). The slew term only
+    // lowers it.
+    let bound = 10.0 / (9.806_65 * 0.15);
+    for r in rows.iter().filter(|r| r.offset.along_tube_m > 0.1) {
+        for m in [r.with_counterweights, r.without_counterweights] {
+            let h = m.unwrap().heaviest_kg;
+            assert!(h <= bound + 0.01, "{r:?}");
+        }
+    }
+    let first = rows.iter().find(|r| r.offset.along_tube_m > 0.1).unwrap();
+    assert!((first.with_counterweights.unwrap().heaviest_kg - bound).abs() < 0.05);
+}
+
+#[test]
+fn assess_text_has_balance_and_envelope_before_cautions() {
+    let rig = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_standfast"))
+        .arg("assess")
+        .arg(&rig)
+        .output()
+        .unwrap();
+    let text = String::from_utf8(out.stdout).unwrap();
+    let bal = text.find("Balance").unwrap();
+    let env = text.find("Payload envelope").unwrap();
+    let cau = text.find("Cautions:").unwrap();
+    assert!(bal < cau && env < cau, "{text}");
+    assert!(text.trim_end().ends_with(CAUTIONS[3]));
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_standfast"))
+        .args(["assess", "--json"])
+        .arg(&rig)
+        .output()
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!(v["balance"]["counterweight_centre_m"].is_number());
+    assert_eq!(v["payload_envelope"].as_array().unwrap().len(), 10);
+}
