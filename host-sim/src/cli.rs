@@ -37,6 +37,10 @@ pub enum Command {
     GenDemo(GenDemoArgs),
     /// Assess a rig file without logs (tip wind, torques, ballast, tripod orientation).
     Assess(crate::assess::AssessArgs),
+    /// Replay a night's logs through the guard and summarise the closest approaches.
+    Replay(crate::replay::ReplayArgs),
+    /// Write an invented windy night and demo rig, replay them and print the summary.
+    Demo(crate::replay::DemoArgs),
 }
 
 /// Arguments of `gen-demo`.
@@ -76,6 +80,8 @@ pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
     match &cli.command {
         Command::GenDemo(a) => gen_demo(a, out),
         Command::Assess(a) => crate::assess::run(a, out),
+        Command::Replay(a) => crate::replay::run_replay(a, out),
+        Command::Demo(a) => crate::replay::run_demo(a, out),
     }
 }
 

@@ -15,7 +15,9 @@ pub mod demo_data;
 pub mod error;
 pub mod located;
 pub mod log;
+pub mod replay;
 pub mod rigfile;
+pub mod summary;
 pub mod units;
 
 pub use error::{Error, Result};

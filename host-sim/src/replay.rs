@@ -1,0 +1,670 @@
+//! Replaying a night's logs through the guard.
+//!
+//! The merged [`SampleRecord`] stream of a [`Merger`] is fed, record by
+//! record, through one [`Guard`] per rig, exactly as a controller would feed
+//! live samples: only channels with a new value at a record's time become
+//! [`Inputs`]. Memory does not grow with the log: per rig the replay keeps
+//! the closest approach of each figure, the time per stage and (up to
+//! [`MAX_KEPT_EVENTS`]) the stage changes and faults.
+//!
+//! Conversions at the boundary (the log side is SI after the profile):
+//! * time: milliseconds since the first record ([`Millis`]);
+//! * accelerometer: m/s² in the rig frame → g (divided by standard gravity,
+//!   9.806 65 m/s², ISO 80000-3 / CGPM 1901); the guard's tilt processing is
+//!   set to samples in g with the identity mounting, because the log profile
+//!   already maps sensor axes and counts;
+//! * wind: m/s and radians (from, clockwise from north);
+//! * pose: axis angles when the log has them, else hour angle, declination
+//!   and pier side (tube east when the log gives no side).
+
+use std::io::Write;
+
+use serde::Serialize;
+use standfast::guard::{Event, Guard, Inputs, Stage, Verdict, WindSample};
+use standfast::mount::{PierSide as MountPierSide, Pose};
+use standfast::sense::Millis;
+use standfast::sense::Mounting;
+
+use crate::error::Error;
+use crate::located::InputError;
+use crate::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
+use crate::rigfile::LoadedRig;
+
+/// Standard gravity, m/s² (ISO 80000-3; 3rd CGPM 1901).
+pub const STANDARD_GRAVITY_MPS2: f64 = 9.806_65;
+
+/// Most stage changes and faults kept per rig; beyond it only counts grow.
+pub const MAX_KEPT_EVENTS: usize = 1000;
+
+/// All guard stages in report order.
+pub const STAGES: [Stage; 5] = [
+    Stage::Clear,
+    Stage::Watch,
+    Stage::ParkNow,
+    Stage::Alarm,
+    Stage::SensorFault,
+];
+
+fn stage_index(s: Stage) -> usize {
+    match s {
+        Stage::Clear => 0,
+        Stage::Watch => 1,
+        Stage::ParkNow => 2,
+        Stage::Alarm => 3,
+        Stage::SensorFault => 4,
+    }
+}
+
+/// Options of a replay.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct ReplayOptions {
+    /// Write every n-th verdict to the verdict CSV (stage changes always);
+    /// 1 writes all.
+    pub verdicts_every: u64,
+}
+
+impl Default for ReplayOptions {
+    fn default() -> Self {
+        ReplayOptions { verdicts_every: 1 }
+    }
+}
+
+/// The conditions at a figure's highest value.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Approach {
+    /// The utilisation (1.0 is the limit), dimensionless.
+    pub utilisation: f32,
+    /// Time of the record, ISO 8601 UTC.
+    pub time: String,
+    /// Seconds since the first record.
+    pub t_s: f64,
+    /// Gust the figures were computed for, m/s at rig height.
+    pub gust_mps: Option<f32>,
+    /// Wind direction used (from), degrees clockwise from north.
+    pub wind_from_deg: Option<f32>,
+    /// Mount pose of the figures.
+    pub pose: Pose,
+    /// Ground tilt, degrees.
+    pub tilt_deg: Option<f32>,
+    /// Downhill azimuth of the tilt, degrees clockwise from north.
+    pub tilt_downhill_deg: Option<f32>,
+    /// Wind speed that would tip the rig there, m/s.
+    pub tip_wind_mps: Option<f32>,
+    /// Stage at that step.
+    pub stage: Stage,
+}
+
+/// A stage change seen in the replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct StageChange {
+    /// Time, ISO 8601 UTC.
+    pub time: String,
+    /// Seconds since the first record.
+    pub t_s: f64,
+    /// Previous stage.
+    pub from: Stage,
+    /// New stage.
+    pub to: Stage,
+    /// What drove it (lower-case name).
+    pub cause: String,
+}
+
+/// A sensor fault raised in the replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct FaultSeen {
+    /// Time, ISO 8601 UTC.
+    pub time: String,
+    /// Seconds since the first record.
+    pub t_s: f64,
+    /// The fault, as the core describes it.
+    pub fault: String,
+}
+
+/// Time spent in one stage.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct StageTime {
+    /// The stage.
+    pub stage: Stage,
+    /// Seconds spent in it (from one record to the next).
+    pub seconds: f64,
+}
+
+/// What the replay found for one rig.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct RigReplay {
+    /// The rig file.
+    pub rig_file: String,
+    /// Highest overturning utilisation (closest approach to tipping).
+    pub overturning: Option<Approach>,
+    /// Highest sliding utilisation.
+    pub sliding: Option<Approach>,
+    /// Highest governing drive utilisation of the primary and secondary axis.
+    pub drive: [Option<Approach>; 2],
+    /// Time in each stage, in the order clear, watch, park_now, alarm,
+    /// sensor_fault.
+    pub stage_time: Vec<StageTime>,
+    /// The most severe stage reached.
+    pub highest_stage: Stage,
+    /// The stage at the end of the log.
+    pub final_stage: Stage,
+    /// Stage changes, in time order (the first [`MAX_KEPT_EVENTS`]).
+    pub stage_changes: Vec<StageChange>,
+    /// Stage changes not kept.
+    pub stage_changes_not_kept: u64,
+    /// Sensor faults raised, in time order (the first [`MAX_KEPT_EVENTS`]).
+    pub faults: Vec<FaultSeen>,
+    /// Faults not kept.
+    pub faults_not_kept: u64,
+}
+
+/// Count of one kind of log issue.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct IssueCount {
+    /// The kind (`malformed row`, `time out of order`, `duplicate time`, `gap`).
+    pub kind: String,
+    /// How many.
+    pub count: u64,
+}
+
+/// The result of a replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct ReplayReport {
+    /// Merged records replayed.
+    pub records: u64,
+    /// Usable log rows read (all files).
+    pub rows: u64,
+    /// Time of the first record, ISO 8601 UTC.
+    pub start: Option<String>,
+    /// Time of the last record, ISO 8601 UTC.
+    pub end: Option<String>,
+    /// Seconds from the first to the last record.
+    pub duration_s: f64,
+    /// Log issues by kind.
+    pub issues: Vec<IssueCount>,
+    /// All log issues.
+    pub issues_total: u64,
+    /// The first few issues in full (file:line: kind: detail).
+    pub first_issues: Vec<String>,
+    /// Per rig.
+    pub rigs: Vec<RigReplay>,
+}
+
+/// Most issues quoted in full in a report.
+pub const FIRST_ISSUES: usize = 10;
+
+fn core_err(file: &str, e: &standfast::Error) -> Error {
+    Error::Input(InputError {
+        at: None,
+        key: Some(e.field.to_owned()),
+        value: None,
+        problem: format!("{file}: the guard cannot start: {e}"),
+    })
+}
+
+#[allow(clippy::cast_possible_truncation)] // log values fit f32
+fn f32_of(x: f64) -> f32 {
+    x as f32
+}
+
+/// The guard inputs of one merged record: only channels updated at its time.
+#[must_use]
+pub fn inputs_of(r: &SampleRecord) -> Inputs {
+    let up = |c: Channel| r.updated.contains(c);
+    let accel_raw = if up(Channel::AccelX) || up(Channel::AccelY) || up(Channel::AccelZ) {
+        r.accel_mps2
+            .map(|a| a.map(|v| f32_of(v / STANDARD_GRAVITY_MPS2)))
+    } else {
+        None
+    };
+    let wind = if up(Channel::WindSpeed) || up(Channel::WindDirection) {
+        r.wind_speed_mps.map(|s| WindSample {
+            speed_mps: f32_of(s),
+            from_rad: r.wind_from_rad.map(f32_of),
+        })
+    } else {
+        None
+    };
+    let axes_up = up(Channel::Axis1Angle) || up(Channel::Axis2Angle);
+    let eq_up = up(Channel::HourAngle) || up(Channel::Declination) || up(Channel::PierSide);
+    let pose = match (
+        r.axis1_rad,
+        r.axis2_rad,
+        r.hour_angle_rad,
+        r.declination_rad,
+    ) {
+        (Some(a1), Some(a2), _, _) if axes_up => Some(Pose::Axes {
+            primary_rad: f32_of(a1),
+            secondary_rad: f32_of(a2),
+        }),
+        (_, _, Some(h), Some(d)) if eq_up => Some(Pose::Equatorial {
+            hour_angle_rad: f32_of(h),
+            declination_rad: f32_of(d),
+            pier_side: match r.pier_side {
+                Some(PierSide::West) => MountPierSide::TubeWest,
+                _ => MountPierSide::TubeEast,
+            },
+        }),
+        _ => None,
+    };
+    let cover_fitted = if up(Channel::CoverFitted) {
+        r.cover_fitted
+    } else {
+        None
+    };
+    let air = if up(Channel::AirTemperature) || up(Channel::Pressure) {
+        match (r.air_temperature_k, r.pressure_pa) {
+            (Some(t), Some(p)) => Some(standfast::guard::AirSample {
+                temperature_c: f32_of(t - 273.15),
+                pressure_pa: f32_of(p),
+            }),
+            _ => None,
+        }
+    } else {
+        None
+    };
+    Inputs {
+        accel_raw,
+        wind,
+        pose,
+        cover_fitted,
+        air,
+    }
+}
+
+fn millis_since(t: Timestamp, t0: Timestamp) -> Millis {
+    let ns = t.unix_ns().saturating_sub(t0.unix_ns()).max(0);
+    Millis(u64::try_from(ns / 1_000_000).unwrap_or(0))
+}
+
+fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64) -> Approach {
+    Approach {
+        utilisation: u,
+        time: time.to_iso8601(3),
+        t_s,
+        gust_mps: v.gust_mps,
+        wind_from_deg: v.wind_from_rad.map(f32::to_degrees),
+        pose: v.pose,
+        tilt_deg: v.tilt.map(|t| t.magnitude_rad.to_degrees()),
+        tilt_downhill_deg: v.tilt.map(|t| t.downhill_azimuth_rad.to_degrees()),
+        tip_wind_mps: v.tip_wind_mps,
+        stage: v.stage,
+    }
+}
+
+fn raise(slot: &mut Option<Approach>, u: Option<f32>, v: &Verdict, time: Timestamp, t_s: f64) {
+    let Some(u) = u.filter(|u| u.is_finite()) else {
+        return;
+    };
+    if slot.as_ref().is_none_or(|a| u > a.utilisation) {
+        *slot = Some(approach(v, u, time, t_s));
+    }
+}
+
+/// One rig's running state in a replay.
+struct Tracker {
+    report: RigReplay,
+    stage_s: [f64; 5],
+    last_stage: Stage,
+}
+
+impl Tracker {
+    fn new(file: &str) -> Tracker {
+        Tracker {
+            report: RigReplay {
+                rig_file: file.to_owned(),
+                overturning: None,
+                sliding: None,
+                drive: [None, None],
+                stage_time: Vec::new(),
+                highest_stage: Stage::Clear,
+                final_stage: Stage::Clear,
+                stage_changes: Vec::new(),
+                stage_changes_not_kept: 0,
+                faults: Vec::new(),
+                faults_not_kept: 0,
+            },
+            stage_s: [0.0; 5],
+            last_stage: Stage::Clear,
+        }
+    }
+
+    fn take(&mut self, v: &Verdict, time: Timestamp, t_s: f64, dt_s: f64) {
+        if let Some(s) = self.stage_s.get_mut(stage_index(self.last_stage)) {
+            *s += dt_s;
+        }
+        let r = &mut self.report;
+        raise(&mut r.overturning, v.overturning_utilisation, v, time, t_s);
+        raise(&mut r.sliding, v.sliding_utilisation, v, time, t_s);
+        for (i, slot) in r.drive.iter_mut().enumerate() {
+            raise(
+                slot,
+                v.drive_utilisation.and_then(|d| d.get(i).copied()),
+                v,
+                time,
+                t_s,
+            );
+        }
+        for e in &v.events {
+            match e {
+                Event::StageChanged { from, to, cause } => {
+                    if r.stage_changes.len() < MAX_KEPT_EVENTS {
+                        r.stage_changes.push(StageChange {
+                            time: time.to_iso8601(3),
+                            t_s,
+                            from: *from,
+                            to: *to,
+                            cause: format!("{cause:?}").to_lowercase(),
+                        });
+                    } else {
+                        r.stage_changes_not_kept += 1;
+                    }
+                }
+                Event::FaultRaised(f) => {
+                    if r.faults.len() < MAX_KEPT_EVENTS {
+                        r.faults.push(FaultSeen {
+                            time: time.to_iso8601(3),
+                            t_s,
+                            fault: format!("{f:?}"),
+                        });
+                    } else {
+                        r.faults_not_kept += 1;
+                    }
+                }
+                Event::NewHighUtilisation { .. } => {}
+            }
+        }
+        r.highest_stage = r.highest_stage.max(v.stage);
+        r.final_stage = v.stage;
+        self.last_stage = v.stage;
+    }
+
+    fn finish(mut self) -> RigReplay {
+        self.report.stage_time = STAGES
+            .iter()
+            .zip(self.stage_s)
+            .map(|(s, seconds)| StageTime { stage: *s, seconds })
+            .collect();
+        self.report
+    }
+}
+
+const VERDICT_HEADER: &str = "time,t_s,rig,stage,overturning_utilisation,predicted_utilisation,sliding_utilisation,drive1_utilisation,drive2_utilisation,tip_wind_mps,gust_mps,predicted_gust_mps,wind_from_deg,tilt_deg,tilt_margin_deg,faults\n";
+
+fn opt(v: Option<f32>) -> String {
+    v.map_or_else(String::new, |x| format!("{x:.4}"))
+}
+
+fn write_verdict(
+    w: &mut dyn Write,
+    time: Timestamp,
+    t_s: f64,
+    rig: usize,
+    v: &Verdict,
+) -> std::io::Result<()> {
+    let d = |i: usize| v.drive_utilisation.and_then(|d| d.get(i).copied());
+    writeln!(
+        w,
+        "{},{t_s:.3},{rig},{},{},{},{},{},{},{},{},{},{},{},{},{}",
+        time.to_iso8601(3),
+        v.stage.name(),
+        opt(v.overturning_utilisation),
+        opt(v.predicted_utilisation),
+        opt(v.sliding_utilisation),
+        opt(d(0)),
+        opt(d(1)),
+        opt(v.tip_wind_mps),
+        opt(v.gust_mps),
+        opt(v.predicted_gust_mps),
+        opt(v.wind_from_rad.map(f32::to_degrees)),
+        opt(v.tilt.map(|t| t.magnitude_rad.to_degrees())),
+        opt(v.tilt_margin_rad.map(f32::to_degrees)),
+        v.faults.len(),
+    )
+}
+
+/// Replays the merged stream through one guard per rig.
+///
+/// `verdicts`, when given, receives a CSV of verdicts (every
+/// `options.verdicts_every`-th record per rig, and every record with an
+/// event); `verdicts_name` names it in I/O errors.
+///
+/// # Errors
+/// [`Error::Input`] when a rig's guard configuration is rejected by the core;
+/// the merge's errors ([`Error::Log`], [`Error::Io`]); [`Error::Io`] when the
+/// verdict CSV cannot be written.
+pub fn replay(
+    rigs: &[LoadedRig],
+    merger: &mut Merger,
+    options: ReplayOptions,
+    mut verdicts: Option<(&mut dyn Write, &str)>,
+) -> Result<ReplayReport, Error> {
+    let every = options.verdicts_every.max(1);
+    if let Some((w, name)) = verdicts.as_mut() {
+        w.write_all(VERDICT_HEADER.as_bytes())
+            .map_err(|e| Error::io(*name, e))?;
+    }
+    let mut guards: Vec<Guard<'_>> = Vec::with_capacity(rigs.len());
+    for r in rigs {
+        let mut cfg = r.guard.clone();
+        // The log profile has already mapped sensor axes and counts to the
+        // rig frame; samples arrive in g.
+        cfg.tilt.scale_g_per_count = 1.0;
+        cfg.tilt.mounting = Mounting::IDENTITY;
+        guards.push(Guard::new(&r.rig, cfg, Millis(0)).map_err(|e| core_err(&r.file, &e))?);
+    }
+    let mut trackers: Vec<Tracker> = rigs.iter().map(|r| Tracker::new(&r.file)).collect();
+    let mut t0: Option<Timestamp> = None;
+    let mut last: Option<Timestamp> = None;
+    let mut n: u64 = 0;
+    while let Some(rec) = merger.next_record()? {
+        let start = *t0.get_or_insert(rec.time);
+        let now = millis_since(rec.time, start);
+        let t_s = rec.time.seconds_since(start);
+        let dt_s = last.map_or(0.0, |l| rec.time.seconds_since(l).max(0.0));
+        last = Some(rec.time);
+        let inputs = inputs_of(&rec);
+        for (i, (g, tr)) in guards.iter_mut().zip(trackers.iter_mut()).enumerate() {
+            let v = g.step(now, &inputs);
+            tr.take(&v, rec.time, t_s, dt_s);
+            if let Some((w, name)) = verdicts.as_mut() {
+                let has_event = v
+                    .events
+                    .iter()
+                    .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
+                if n % every == 0 || has_event {
+                    write_verdict(&mut **w, rec.time, t_s, i, &v)
+                        .map_err(|e| Error::io(*name, e))?;
+                }
+            }
+        }
+        n += 1;
+    }
+    if let Some((w, name)) = verdicts.as_mut() {
+        w.flush().map_err(|e| Error::io(*name, e))?;
+    }
+    let issues = merger.issues();
+    Ok(ReplayReport {
+        records: merger.records(),
+        rows: merger.rows(),
+        start: t0.map(|t| t.to_iso8601(3)),
+        end: last.map(|t| t.to_iso8601(3)),
+        duration_s: match (t0, last) {
+            (Some(a), Some(b)) => b.seconds_since(a),
+            _ => 0.0,
+        },
+        issues: IssueKind::ALL
+            .iter()
+            .map(|k| IssueCount {
+                kind: k.name().to_owned(),
+                count: issues.count(*k),
+            })
+            .collect(),
+        issues_total: issues.total(),
+        first_issues: issues
+            .kept()
+            .iter()
+            .take(FIRST_ISSUES)
+            .map(ToString::to_string)
+            .collect(),
+        rigs: trackers.into_iter().map(Tracker::finish).collect(),
+    })
+}
+
+/// Arguments of `replay`.
+#[derive(Debug, clap::Args)]
+pub struct ReplayArgs {
+    /// Rig file (TOML); repeat for several rigs on the same logs, each with
+    /// its own guard.
+    #[arg(long = "rig", value_name = "RIG.toml", required = true)]
+    pub rigs: Vec<std::path::PathBuf>,
+    /// Log profile (a TOML file with a `[log]` section). Default: the
+    /// `[log]` section of the first rig file.
+    #[arg(long, value_name = "PROFILE.toml")]
+    pub profile: Option<std::path::PathBuf>,
+    /// Log files replacing the profile's `[[log.file]]` paths, in the
+    /// profile's order (as many as it lists). Default: the profile's paths.
+    #[arg(value_name = "LOGS")]
+    pub logs: Vec<std::path::PathBuf>,
+    /// Print the summary as JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+    /// Write the guard's verdicts as CSV to this file.
+    #[arg(long, value_name = "FILE")]
+    pub verdicts: Option<std::path::PathBuf>,
+    /// With --verdicts: write every N-th record (records with a stage change
+    /// or fault always).
+    #[arg(long, value_name = "N", default_value_t = 1, requires = "verdicts",
+          value_parser = clap::value_parser!(u64).range(1..))]
+    pub every: u64,
+}
+
+/// Arguments of `demo`.
+#[derive(Debug, clap::Args)]
+pub struct DemoArgs {
+    /// Folder for the invented night's logs, profile, rig file and verdicts
+    /// (created if missing; files in it are replaced).
+    #[arg(long, value_name = "DIR", default_value = "target/standfast-demo")]
+    pub out: std::path::PathBuf,
+    /// Seed of the invented night.
+    #[arg(long, default_value_t = 2025)]
+    pub seed: u64,
+    /// Print the summary as JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// The demo rig file (invented), as shipped in `host-sim/demo/rig.toml`.
+pub const DEMO_RIG_TOML: &str = include_str!("../demo/rig.toml");
+
+/// Opens the merge of a profile, with the profile's paths optionally
+/// replaced by `logs`.
+///
+/// # Errors
+/// [`Error::Input`] when the count of `logs` does not match the profile;
+/// the merge's errors.
+pub fn open_logs(profile: &std::path::Path, logs: &[std::path::PathBuf]) -> Result<Merger, Error> {
+    let mut p = crate::log::LogProfile::load(profile)?;
+    if !logs.is_empty() {
+        if logs.len() != p.files.len() {
+            return Err(Error::Input(InputError {
+                at: None,
+                key: Some("log.file".to_owned()),
+                value: Some(logs.len().to_string()),
+                problem: format!(
+                    "{} log files given but the profile {} lists {}",
+                    logs.len(),
+                    profile.display(),
+                    p.files.len()
+                ),
+            }));
+        }
+        for (f, l) in p.files.iter_mut().zip(logs) {
+            f.path.clone_from(l);
+            l.display().to_string().clone_into(&mut f.label);
+        }
+    }
+    Merger::open(&p, p.on_error)
+}
+
+fn replay_files(
+    rigs: &[LoadedRig],
+    merger: &mut Merger,
+    every: u64,
+    verdicts: Option<&std::path::Path>,
+) -> Result<ReplayReport, Error> {
+    let options = ReplayOptions {
+        verdicts_every: every,
+    };
+    match verdicts {
+        Some(path) => {
+            if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
+                std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+            }
+            let f = std::fs::File::create(path).map_err(|e| Error::io(path, e))?;
+            let mut w = std::io::BufWriter::new(f);
+            let name = path.display().to_string();
+            replay(rigs, merger, options, Some((&mut w, &name)))
+        }
+        None => replay(rigs, merger, options, None),
+    }
+}
+
+/// Runs `standfast replay`.
+///
+/// # Errors
+/// Bad rig file, profile or log ([`Error::Input`], [`Error::Log`]); files
+/// that cannot be read or written ([`Error::Io`]).
+pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
+    let rigs = a
+        .rigs
+        .iter()
+        .map(|p| crate::rigfile::load(p))
+        .collect::<Result<Vec<_>, _>>()?;
+    let profile = match (&a.profile, a.rigs.first()) {
+        (Some(p), _) => p.clone(),
+        (None, Some(r)) => r.clone(),
+        (None, None) => std::path::PathBuf::new(),
+    };
+    let mut merger = open_logs(&profile, &a.logs)?;
+    let rep = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
+    crate::summary::write(&rep, a.json, out)?;
+    if let Some(v) = &a.verdicts {
+        if !a.json {
+            writeln!(out, "Verdicts written to {}", v.display())
+                .map_err(|e| Error::io("<standard output>", e))?;
+        }
+    }
+    Ok(())
+}
+
+/// Runs `standfast demo`: writes the invented night and rig into the
+/// folder, replays them and prints the summary and the paths written.
+///
+/// # Errors
+/// As [`run_replay`]; [`Error::Io`] when the folder cannot be written.
+pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
+    let plan = crate::demo_data::NightPlan::windy_night(a.seed);
+    let logs = crate::demo_data::write_demo_logs(&a.out, &plan)?;
+    let rig_path = a.out.join("rig.toml");
+    std::fs::write(&rig_path, DEMO_RIG_TOML).map_err(|e| Error::io(&rig_path, e))?;
+    let rig = crate::rigfile::load(&rig_path)?;
+    let verdicts = a.out.join("verdicts.csv");
+    let mut merger = open_logs(&logs.profile_toml, &[])?;
+    let rep = replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
+    crate::summary::write(&rep, a.json, out)?;
+    if !a.json {
+        writeln!(
+            out,
+            "\nAn invented windy night (seed {}); no real rig or site is described. Files written:\n  {}\n  {}\n  {}\n  {}\n  {}\n  {} (every 10th record)",
+            a.seed,
+            rig_path.display(),
+            logs.wind_csv.display(),
+            logs.accel_csv.display(),
+            logs.mount_csv.display(),
+            logs.profile_toml.display(),
+            verdicts.display()
+        )
+        .map_err(|e| Error::io("<standard output>", e))?;
+    }
+    Ok(())
+}

@@ -1,0 +1,179 @@
+//! A replay's findings for a person (text) or a program (JSON).
+//!
+//! The text ends with the cautions of [`crate::assess::CAUTIONS`]; the JSON
+//! carries them in a `cautions` field.
+
+use std::io::Write;
+
+use serde::Serialize;
+use standfast::mount::Pose;
+
+use crate::assess::CAUTIONS;
+use crate::error::Error;
+use crate::replay::{Approach, ReplayReport};
+
+fn stdout_err(e: std::io::Error) -> Error {
+    Error::io("<standard output>", e)
+}
+
+fn pose_text(p: &Pose) -> String {
+    match p {
+        Pose::Axes {
+            primary_rad,
+            secondary_rad,
+        } => format!(
+            "axes {:.1}°, {:.1}°",
+            primary_rad.to_degrees(),
+            secondary_rad.to_degrees()
+        ),
+        Pose::Equatorial {
+            hour_angle_rad,
+            declination_rad,
+            pier_side,
+        } => format!(
+            "HA {:+.2} h, dec {:+.1}°, {:?}",
+            hour_angle_rad.to_degrees() / 15.0,
+            declination_rad.to_degrees(),
+            pier_side
+        ),
+        Pose::Horizontal {
+            azimuth_rad,
+            altitude_rad,
+            pier_side,
+        } => format!(
+            "az {:.1}°, alt {:.1}°, {:?}",
+            azimuth_rad.to_degrees(),
+            altitude_rad.to_degrees(),
+            pier_side
+        ),
+    }
+}
+
+fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
+    v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
+}
+
+fn approach_text(label: &str, a: Option<&Approach>) -> String {
+    let Some(a) = a else {
+        return format!("  {label}: no figure (no wind, tilt or pose data)\n");
+    };
+    format!(
+        "  {label}: {:.0} % at {} (+{:.0} s), gust {}, from {}, {}, tilt {}, tip wind {}, stage {}\n",
+        a.utilisation * 100.0,
+        a.time,
+        a.t_s,
+        num(a.gust_mps, "m/s", 1),
+        num(a.wind_from_deg, "°", 0),
+        pose_text(&a.pose),
+        num(a.tilt_deg, "°", 2),
+        num(a.tip_wind_mps, "m/s", 1),
+        a.stage.name(),
+    )
+}
+
+/// The summary as text.
+#[must_use]
+pub fn text(rep: &ReplayReport) -> String {
+    let mut s = String::new();
+    s.push_str(&format!(
+        "Replayed {} merged records ({} log rows) from {} to {} ({:.0} s).\n",
+        rep.records,
+        rep.rows,
+        rep.start.as_deref().unwrap_or("-"),
+        rep.end.as_deref().unwrap_or("-"),
+        rep.duration_s
+    ));
+    s.push_str(&format!("Log issues: {}", rep.issues_total));
+    if rep.issues_total > 0 {
+        let parts: Vec<String> = rep
+            .issues
+            .iter()
+            .filter(|c| c.count > 0)
+            .map(|c| format!("{} {}", c.count, c.kind))
+            .collect();
+        s.push_str(&format!(" ({})", parts.join(", ")));
+    }
+    s.push('\n');
+    for i in &rep.first_issues {
+        s.push_str(&format!("  {i}\n"));
+    }
+    for r in &rep.rigs {
+        s.push_str(&format!("\nRig {}\n", r.rig_file));
+        s.push_str(&format!(
+            "  highest stage {}, final stage {}\n",
+            r.highest_stage.name(),
+            r.final_stage.name()
+        ));
+        s.push_str("Closest approach:\n");
+        s.push_str(&approach_text("overturning", r.overturning.as_ref()));
+        s.push_str(&approach_text("sliding", r.sliding.as_ref()));
+        for (i, d) in r.drive.iter().enumerate() {
+            if d.is_some() {
+                s.push_str(&approach_text(&format!("drive axis {}", i + 1), d.as_ref()));
+            }
+        }
+        s.push_str("Time per stage:\n");
+        for t in &r.stage_time {
+            s.push_str(&format!("  {:<13}{:>9.0} s\n", t.stage.name(), t.seconds));
+        }
+        s.push_str(&format!("Stage changes ({}):\n", r.stage_changes.len()));
+        for c in &r.stage_changes {
+            s.push_str(&format!(
+                "  {} (+{:.0} s): {} -> {} ({})\n",
+                c.time,
+                c.t_s,
+                c.from.name(),
+                c.to.name(),
+                c.cause
+            ));
+        }
+        if r.stage_changes_not_kept > 0 {
+            s.push_str(&format!("  ... and {} more\n", r.stage_changes_not_kept));
+        }
+        s.push_str(&format!("Sensor faults ({}):\n", r.faults.len()));
+        for f in &r.faults {
+            s.push_str(&format!("  {} (+{:.0} s): {}\n", f.time, f.t_s, f.fault));
+        }
+        if r.faults_not_kept > 0 {
+            s.push_str(&format!("  ... and {} more\n", r.faults_not_kept));
+        }
+    }
+    s.push_str("\nCautions:\n");
+    for c in CAUTIONS {
+        s.push_str(&format!("  - {c}\n"));
+    }
+    s
+}
+
+#[derive(Serialize)]
+struct JsonOut<'a> {
+    #[serde(flatten)]
+    report: &'a ReplayReport,
+    cautions: &'a [&'a str],
+}
+
+/// The summary as pretty-printed JSON, with the cautions.
+///
+/// # Errors
+/// Never in practice; a serialisation failure is reported as I/O on
+/// standard output.
+pub fn json(rep: &ReplayReport) -> Result<String, Error> {
+    serde_json::to_string_pretty(&JsonOut {
+        report: rep,
+        cautions: CAUTIONS,
+    })
+    .map_err(|e| stdout_err(std::io::Error::other(e)))
+}
+
+/// Writes the summary (text or JSON) to `out`.
+///
+/// # Errors
+/// [`Error::Io`] when `out` cannot be written.
+pub fn write(rep: &ReplayReport, as_json: bool, out: &mut dyn Write) -> Result<(), Error> {
+    let body = if as_json { json(rep)? } else { text(rep) };
+    out.write_all(body.as_bytes()).map_err(stdout_err)?;
+    if as_json {
+        out.write_all(b"\n").map_err(stdout_err)?;
+    }
+    Ok(())
+}
