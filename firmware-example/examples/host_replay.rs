@@ -4,6 +4,7 @@
 //! ```text
 //! cargo run -p standfast-firmware --example host_replay -- firmware-example/replay/short-night.csv
 //! ```
+use standfast_firmware::guard_adapter::example_rig;
 use standfast_firmware::replay::{Replay, ReplaySetup};
 use std::process::ExitCode;
 
@@ -19,7 +20,21 @@ fn main() -> ExitCode {
             return ExitCode::from(2);
         }
     };
-    let mut replay = Replay::new(&ReplaySetup::example());
+    // The rig lives in main's frame; the guard inside the replay borrows it.
+    let rig = match example_rig() {
+        Ok(r) => r,
+        Err(e) => {
+            eprintln!("error: example rig: {e:?}");
+            return ExitCode::from(5);
+        }
+    };
+    let mut replay = match Replay::new(&ReplaySetup::example(), &rig) {
+        Ok(r) => r,
+        Err(e) => {
+            eprintln!("error: guard: {e:?}");
+            return ExitCode::from(5);
+        }
+    };
     let mut events = 0u32;
     for line in text.lines() {
         match replay.feed_line(line) {

@@ -12,6 +12,8 @@
 //! - [`lines`]: the park and alarm lines and the fail-safe convention.
 //! - [`assess`]: **the plug-in point for the `standfast` guard** (the
 //!   [`assess::Assess`] trait) and the fixed-limit [`assess::LimitRule`].
+//! - [`guard_adapter`]: the `standfast` guard as an [`assess::Assess`]
+//!   plug-in ([`guard_adapter::GuardAssess`]), with the invented example rig.
 //! - [`station`]: the fixed-rate, watchdog-friendly step.
 //! - [`event`]: events and their one-line text format.
 //! - [`replay`]: replay of a log over emulated hardware (QEMU and host).
@@ -28,6 +30,7 @@
 
 pub mod assess;
 pub mod event;
+pub mod guard_adapter;
 pub mod lines;
 pub mod lis3dh;
 pub mod pose;
@@ -37,5 +40,6 @@ pub mod wind;
 
 pub use assess::{Assess, Assessment, LimitRule, Limits, Samples, WindSample};
 pub use event::{Event, EventKind};
+pub use guard_adapter::GuardAssess;
 pub use lines::{FailSafeLines, LineState};
 pub use station::{Station, StationConfig, StepInputs, StepReport, Watchdog};

@@ -25,6 +25,7 @@
 //!   both empty otherwise.
 
 use crate::assess::{LimitRule, Limits};
+use crate::guard_adapter::GuardAssess;
 use crate::lines::FailSafeLines;
 use crate::lis3dh::{self, Lis3dh, RawSample};
 use crate::pose::MountPose;
@@ -34,7 +35,10 @@ use core::convert::Infallible;
 use core::fmt;
 use embedded_hal::digital::{ErrorType as PinErrorType, OutputPin};
 use embedded_hal::i2c::{self, ErrorKind, NoAcknowledgeSource, Operation};
+use standfast::guard::GuardConfig;
 use standfast::math;
+use standfast::rig::Rig;
+use standfast::Error;
 
 /// The header line a replay log must start with (after comments).
 pub const HEADER: &str = "t_ms,accel_x,accel_y,accel_z,pulse_total,vane_from_deg,ha_deg,dec_deg";
@@ -391,23 +395,29 @@ impl ReplaySetup {
     }
 }
 
-/// The station as the replay builds it.
-pub type ReplayStation = Station<EmulatedLis3dh, ScriptedVane, MemoryPin, MemoryPin, LimitRule>;
+/// The station as the replay builds it: the Standfast guard for a borrowed
+/// rig, with the [`LimitRule`] as backstop.
+pub type ReplayStation<'r> =
+    Station<EmulatedLis3dh, ScriptedVane, MemoryPin, MemoryPin, GuardAssess<'r>>;
 
 /// Feeds log lines to a station over emulated hardware.
 #[derive(Debug)]
-pub struct Replay {
-    station: ReplayStation,
+pub struct Replay<'r> {
+    station: ReplayStation<'r>,
     line: u32,
     header_seen: bool,
     last_t_ms: Option<u64>,
     rows: u32,
 }
 
-impl Replay {
-    /// A replay with `setup`; the emulated sensor sits at address 0x18.
-    #[must_use]
-    pub fn new(setup: &ReplaySetup) -> Self {
+impl<'r> Replay<'r> {
+    /// A replay with `setup`, assessed by the guard for `rig` (default
+    /// [`GuardConfig`], started at t = 0 ms) with the [`LimitRule`] of
+    /// `setup` as backstop; the emulated sensor sits at address 0x18.
+    ///
+    /// # Errors
+    /// An invalid guard configuration.
+    pub fn new(setup: &ReplaySetup, rig: &'r Rig) -> Result<Self, Error> {
         let bus = EmulatedLis3dh::new(lis3dh::ADDRESS_SA0_LOW);
         let station = Station::new(
             setup.station,
@@ -415,15 +425,20 @@ impl Replay {
             Anemometer::new(setup.anemometer, setup.gate_ms),
             ScriptedVane::default(),
             FailSafeLines::new(MemoryPin::default(), MemoryPin::default()),
-            LimitRule::new(setup.limits),
+            GuardAssess::new(
+                rig,
+                GuardConfig::default(),
+                0,
+                Some(LimitRule::new(setup.limits)),
+            )?,
         );
-        Replay {
+        Ok(Replay {
             station,
             line: 0,
             header_seen: false,
             last_t_ms: None,
             rows: 0,
-        }
+        })
     }
 
     /// Data rows stepped so far.
@@ -434,7 +449,7 @@ impl Replay {
 
     /// The station.
     #[must_use]
-    pub const fn station(&self) -> &ReplayStation {
+    pub const fn station(&self) -> &ReplayStation<'r> {
         &self.station
     }
 

@@ -297,6 +297,12 @@ where
         &self.rule
     }
 
+    /// The assessment, mutable: for an operator's acknowledge input (for
+    /// example [`crate::GuardAssess::acknowledge`] from a key switch).
+    pub fn rule_mut(&mut self) -> &mut R {
+        &mut self.rule
+    }
+
     /// The accelerometer's bus and the vane, for an emulation that scripts
     /// them between steps.
     pub fn hardware(&mut self) -> (&mut I2C, &mut V) {

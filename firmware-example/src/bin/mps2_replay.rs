@@ -4,7 +4,7 @@
 //! ```text
 //! qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \
 //!   -semihosting-config enable=on,target=native,arg=mps2-replay,arg=<log.csv> \
-//!   -kernel target/thumbv7em-none-eabihf/release/mps2-replay
+//!   -kernel target/thumbv7em-none-eabihf/firmware/mps2-replay
 //! ```
 //!
 //! The second word of the semihosting command line is the log's path; a
@@ -21,6 +21,8 @@
 use core::panic::PanicInfo;
 use cortex_m_rt::{entry, exception, ExceptionFrame};
 use cortex_m_semihosting::{heprintln, hprintln, nr, syscall};
+use standfast::rig::Rig;
+use standfast_firmware::guard_adapter::example_rig;
 use standfast_firmware::replay::{LineSplitter, Replay, ReplayError, ReplaySetup, SplitLine};
 
 const EXIT_OK: u32 = 0;
@@ -85,7 +87,18 @@ fn run() -> u32 {
         return EXIT_USAGE;
     };
     // The station and its buffers live in statics: nothing grows at run time.
-    let Some(replay) = cortex_m::singleton!(: Replay = Replay::new(&ReplaySetup::example())) else {
+    // The rig is built once into a static; the guard borrows it for 'static.
+    let Ok(rig) = example_rig() else {
+        return EXIT_INTERNAL;
+    };
+    let Some(rig) = cortex_m::singleton!(: Rig = rig) else {
+        return EXIT_INTERNAL;
+    };
+    let rig: &'static Rig = rig;
+    let Ok(replay) = Replay::new(&ReplaySetup::example(), rig) else {
+        return EXIT_INTERNAL;
+    };
+    let Some(replay) = cortex_m::singleton!(: Replay<'static> = replay) else {
         return EXIT_INTERNAL;
     };
     let Some(splitter) = cortex_m::singleton!(: LineSplitter<160> = LineSplitter::new()) else {

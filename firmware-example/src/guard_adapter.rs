@@ -1,0 +1,198 @@
+//! The Standfast guard behind the station's [`Assess`] plug-in point.
+//!
+//! [`GuardAssess`] holds a [`standfast::guard::Guard`] that borrows a
+//! [`Rig`] (build the rig once and keep it where it outlives the station: in
+//! `main`'s stack frame on the host, in a `static` made by
+//! `cortex_m::singleton!` on the board). Each step it converts the station's
+//! [`Samples`] into the guard's [`Inputs`]:
+//!
+//! - `accel_raw`: the specific force in g, rig frame (the station's `AxisMap`
+//!   already rotated it, so the guard's `Mounting` stays identity and its
+//!   `scale_g_per_count` stays 1.0);
+//! - `wind`: speed m/s and from-azimuth radians, unchanged;
+//! - `pose`: the mount's hour angle and declination as an equatorial pose,
+//!   pier side [`PierSide::TubeEast`] (the station's pose input carries no
+//!   pier side; set it from your mount's report when it has one).
+//!
+//! It maps the verdict's stage to `park` ([`Stage::park_requested`]), `alarm`
+//! ([`Stage::alarm`]) and the stage name ([`Stage::name`]). The station's
+//! own sensor-health supervision still overrides everything toward park and
+//! alarm.
+//!
+//! **Backstop.** An optional [`LimitRule`] runs beside the guard; the lines
+//! follow whichever asks for more (park if either asks, alarm if either
+//! asks). When the backstop asks for more than the guard, the stage name is
+//! `limit_park` or `limit_alarm`, so the event log says which one acted.
+//!
+//! **Acknowledge.** The guard's alarm latches until [`GuardAssess::acknowledge`]
+//! (wire a key switch to it through [`crate::Station::rule_mut`]).
+//!
+//! **Caution.** The guard's verdict is an estimate from a static model of an
+//! *invented* rig here; describe your own rig, secure it anyway, and defer to
+//! the mount maker's limits, local codes and licensed engineers.
+
+use crate::assess::{Assess, Assessment, LimitRule, Samples};
+use standfast::guard::{Guard, GuardConfig, Inputs, Stage, WindSample as GuardWind};
+use standfast::heapless::{String, Vec};
+use standfast::math::deg_to_rad;
+use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
+use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec};
+use standfast::sense::Millis;
+use standfast::shape::{Exposure, Shape};
+use standfast::support::Support;
+use standfast::Error;
+
+/// The invented example rig of the replay: a small equatorial head with a
+/// 5 kg tube (0.12 m × 0.7 m cylinder) and a 4 kg counterweight on a light
+/// tripod with feet on a 0.45 m circle, at 47° N. Invented for the
+/// demonstration, not a real product; describe your own rig instead.
+///
+/// Rig frame: x east, y north, z up, metres, origin on the ground at the
+/// tripod's centre.
+///
+/// # Errors
+/// Whatever [`Rig::new`] rejects (not expected for these figures).
+pub fn example_rig() -> Result<Rig, Error> {
+    let tripod = Support::tripod(0.45, 0.0)?;
+    let mut bodies = Vec::new();
+    let tube = BodySpec {
+        label: String::try_from("tube").unwrap_or_default(),
+        stage: standfast::rig::Stage::Secondary,
+        mass_kg: 5.0,
+        cg_m: [0.15, 0.1, 0.0],
+        exposure: Some(Exposure {
+            shape: Shape::Cylinder {
+                diameter_m: 0.12,
+                length_m: 0.7,
+                axis: [0.0, 1.0, 0.0],
+            },
+            centre_m: [0.15, 0.1, 0.0],
+            drag_coefficient: None,
+        }),
+        ..BodySpec::default()
+    };
+    bodies.push(tube).ok();
+    bodies
+        .push(BodySpec {
+            mass_kg: 4.0,
+            cg_m: [0.0, 0.0, 1.1],
+            ..BodySpec::default()
+        })
+        .ok();
+    let mut counterweights = Vec::new();
+    counterweights
+        .push(CounterweightSpec {
+            mass_kg: 4.0,
+            distance_m: 0.25,
+            diameter_m: 0.1,
+            thickness_m: 0.06,
+        })
+        .ok();
+    let spec = RigSpec {
+        feet: tripod.feet().iter().copied().collect(),
+        legs: Some(LegsSpec {
+            mass_kg: 0.8,
+            diameter_m: 0.03,
+            top_height_m: 1.05,
+            top_radius_m: 0.06,
+        }),
+        friction_coefficient: 0.3,
+        mount: MountGeometry {
+            kind: MountKind::Equatorial,
+            latitude_rad: deg_to_rad(47.0),
+            axis_origin_m: [0.0, 0.0, 1.25],
+        },
+        bodies,
+        counterweights,
+        shaft: None,
+        cover: None,
+        ballast: Vec::new(),
+        drives: None,
+    };
+    Rig::new(&spec)
+}
+
+/// The guard as an [`Assess`] plug-in, with an optional [`LimitRule`] backstop.
+#[derive(Debug)]
+pub struct GuardAssess<'r> {
+    guard: Guard<'r>,
+    backstop: Option<LimitRule>,
+    last_stage: Stage,
+}
+
+impl<'r> GuardAssess<'r> {
+    /// A guard for `rig` with `config`, started at `now_ms` (station clock),
+    /// with an optional fixed-limit backstop.
+    ///
+    /// # Errors
+    /// An invalid guard configuration.
+    pub fn new(
+        rig: &'r Rig,
+        config: GuardConfig,
+        now_ms: u64,
+        backstop: Option<LimitRule>,
+    ) -> Result<Self, Error> {
+        Ok(GuardAssess {
+            guard: Guard::new(rig, config, Millis(now_ms))?,
+            backstop,
+            last_stage: Stage::Clear,
+        })
+    }
+
+    /// Acknowledges the guard's latched alarm (an operator's key switch). The
+    /// stage steps down once the figures have settled for the dwell time.
+    pub fn acknowledge(&mut self) {
+        self.guard.acknowledge();
+    }
+
+    /// The guard's stage after the last step.
+    #[must_use]
+    pub const fn guard_stage(&self) -> Stage {
+        self.last_stage
+    }
+
+    /// The guard (for inspection).
+    #[must_use]
+    pub const fn guard(&self) -> &Guard<'r> {
+        &self.guard
+    }
+}
+
+impl Assess for GuardAssess<'_> {
+    fn assess(&mut self, s: &Samples) -> Assessment {
+        let inputs = Inputs {
+            accel_raw: s.accel_g.map(|a| [a.x, a.y, a.z]),
+            wind: s.wind.map(|w| GuardWind {
+                speed_mps: w.speed_mps,
+                from_rad: w.from_rad,
+            }),
+            pose: s.pose.map(|p| Pose::Equatorial {
+                hour_angle_rad: p.hour_angle_rad,
+                declination_rad: p.declination_rad,
+                pier_side: PierSide::TubeEast,
+            }),
+            ..Inputs::default()
+        };
+        let stage = self.guard.step(Millis(s.t_ms), &inputs).stage;
+        self.last_stage = stage;
+        let guard = Assessment {
+            park: stage.park_requested(),
+            alarm: stage.alarm(),
+            stage: stage.name(),
+        };
+        let Some(rule) = self.backstop.as_mut() else {
+            return guard;
+        };
+        let limit = rule.assess(s);
+        let park = guard.park || limit.park;
+        let alarm = guard.alarm || limit.alarm;
+        let stage = if limit.alarm && !guard.alarm {
+            "limit_alarm"
+        } else if limit.park && !guard.park {
+            "limit_park"
+        } else {
+            guard.stage
+        };
+        Assessment { park, alarm, stage }
+    }
+}
