@@ -132,8 +132,79 @@ pub struct AssessReport {
     /// over the sky (15° grid, calm, level, cover off), for payload centres
     /// of gravity at [`ENVELOPE_OFFSETS_M`]; `None` without drive ratings.
     pub payload_envelope: Option<Vec<EnvelopeRow>>,
+    /// Bending check of the counterweight shaft at its root, when the rig
+    /// file names the shaft's material.
+    pub shaft_check: Option<ShaftCheck>,
     /// The cautions.
     pub cautions: Vec<&'static str>,
+}
+
+/// Safety factor on yield for the counterweight-shaft bending check (common
+/// practice, no source: a static load, ductile material).
+pub const SHAFT_SAFETY_FACTOR: f32 = 2.0;
+
+/// Bending of the counterweight shaft at its root with the shaft horizontal
+/// (the largest moment) and the counterweights where the file puts them.
+#[derive(Clone, Debug, Serialize)]
+pub struct ShaftCheck {
+    /// Thread at the root as written, when given.
+    pub thread: Option<String>,
+    /// Root section diameter used, mm (thread minor diameter, or the plain
+    /// shaft diameter).
+    pub root_diameter_mm: f32,
+    /// The material.
+    pub material: String,
+    /// Static moment at the root, N·m: g·(Σ counterweight mass × distance +
+    /// shaft mass × length / 2).
+    pub moment_nm: f32,
+    /// Nominal bending stress at the root, MPa.
+    pub stress_mpa: f32,
+    /// Yield strength / [`SHAFT_SAFETY_FACTOR`], MPa.
+    pub allowable_mpa: f32,
+    /// stress / allowable; above 1 the shaft is over its allowable stress.
+    pub utilisation: f32,
+    /// Moment the root carries at the allowable stress, N·m.
+    pub allowable_moment_nm: f32,
+}
+
+fn shaft_check(r: &LoadedRig) -> Result<Option<ShaftCheck>, standfast::Error> {
+    use standfast::hardware::{shaft, ShaftLoad, ShaftSection, StrengthBasis};
+    let (Some(hw), Some(sh)) = (&r.shaft_hardware, &r.spec.shaft) else {
+        return Ok(None);
+    };
+    let horizontal = std::f32::consts::FRAC_PI_2;
+    let mut moment_nm =
+        ShaftLoad::counterweight(sh.mass_kg, sh.length_m / 2.0, horizontal)?.moment_nm;
+    for c in &r.spec.counterweights {
+        moment_nm += ShaftLoad::counterweight(c.mass_kg, c.distance_m, horizontal)?.moment_nm;
+    }
+    let (section, root_diameter_mm) = match &hw.thread {
+        Some(t) => (
+            ShaftSection::threaded_root(t),
+            t.external_minor_diameter_mm(),
+        ),
+        None => (
+            ShaftSection::solid(sh.diameter_m * 1000.0)?,
+            sh.diameter_m * 1000.0,
+        ),
+    };
+    let res = shaft::check_shaft_bending(
+        moment_nm,
+        &section,
+        &hw.material,
+        StrengthBasis::Yield,
+        SHAFT_SAFETY_FACTOR,
+    )?;
+    Ok(Some(ShaftCheck {
+        thread: hw.thread_name.clone(),
+        root_diameter_mm,
+        material: hw.material_label.clone(),
+        moment_nm,
+        stress_mpa: res.stress_mpa,
+        allowable_mpa: res.allowable_mpa,
+        utilisation: res.utilisation,
+        allowable_moment_nm: res.allowable_moment_nm,
+    }))
 }
 
 /// Payload centre-of-gravity offsets of the envelope table, secondary-stage
@@ -335,6 +406,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         orientation,
         balance,
         payload_envelope,
+        shaft_check: shaft_check(r).map_err(e)?,
         cautions: CAUTIONS.to_vec(),
     })
 }
@@ -452,6 +524,26 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
     }
     if let Some(rows) = &rep.payload_envelope {
         write_envelope(rows, out)?;
+    }
+    if let Some(c) = &rep.shaft_check {
+        writeln!(
+            out,
+            "\nCounterweight shaft at its root, shaft horizontal: {:.1} N m on {} ({:.2} mm root diameter), {}",
+            c.moment_nm,
+            c.thread.as_deref().unwrap_or("the plain shaft"),
+            c.root_diameter_mm,
+            c.material
+        )?;
+        writeln!(
+            out,
+            "  bending stress {:.0} MPa against {:.0} MPa allowed (yield / {:.1}): {:.0} %{}; the root carries {:.1} N m at most",
+            c.stress_mpa,
+            c.allowable_mpa,
+            SHAFT_SAFETY_FACTOR,
+            c.utilisation * 100.0,
+            if c.utilisation > 1.0 { ", OVER the allowable stress" } else { "" },
+            c.allowable_moment_nm
+        )?;
     }
     writeln!(out, "\nCautions:")?;
     for c in &rep.cautions {

@@ -35,7 +35,10 @@
 //! drag_coefficient = 1.0; under_cover = true; mass_model = "shell" # point | solid | shell
 //!
 //! [[counterweight]]  mass, distance, diameter, thickness
-//! [shaft]            mass, length, diameter
+//! [shaft]            mass, length, diameter,
+//!                    thread = "M12" (optional, ISO coarse thread at the root),
+//!                    material = "6061-T6" (see [`SHAFT_MATERIALS`]) or
+//!                    yield_strength_mpa = 240 (a plain number in MPa)
 //! [cover]            mass, size = [s, p, n], centre = [s, p, n], drag_coefficient
 //! [[ballast]]        mass, position = [x, y, z]
 //! [drives]           primary = { rated, repeated_peak, momentary_peak }, secondary = {...},
@@ -66,6 +69,7 @@ use serde::Deserialize;
 use standfast::air::Air;
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::GuardConfig;
+use standfast::hardware::{material, IsoThread, Material};
 use standfast::heapless;
 use standfast::mount::{MountGeometry, MountKind};
 use standfast::rig::{
@@ -236,6 +240,64 @@ struct ShaftSec {
     mass: S<Mass>,
     length: S<Length>,
     diameter: S<Length>,
+    thread: Option<S<String>>,
+    material: Option<S<String>>,
+    yield_strength_mpa: Option<S<f64>>,
+}
+
+/// Materials accepted by name under `[shaft] material`, with the core's
+/// listed value used (minimums where the core lists one).
+pub const SHAFT_MATERIALS: [(&str, &str, Material); 7] = [
+    (
+        "6061-T6",
+        "6061-T6 extrusion (min, ASTM B221)",
+        material::AL_6061_T6_EXTRUSION_MIN,
+    ),
+    (
+        "6063-T6",
+        "6063-T6 extrusion (min, ASTM B221)",
+        material::AL_6063_T6_EXTRUSION_MIN,
+    ),
+    (
+        "6082-T6",
+        "6082-T6 bar 20-150 mm (min, EN 755-2)",
+        material::AL_6082_T6_THICK_MIN,
+    ),
+    (
+        "7075-T6",
+        "7075-T6 bar <= 25 mm (min, EN 755-2)",
+        material::AL_7075_T6_BAR_MIN,
+    ),
+    (
+        "S235",
+        "S235JR <= 16 mm (min, EN 10025-2)",
+        material::STEEL_S235_MIN,
+    ),
+    (
+        "S355",
+        "S355JR <= 16 mm (min, EN 10025-2)",
+        material::STEEL_S355_MIN,
+    ),
+    (
+        "304",
+        "304 annealed bar (min, ASTM A276)",
+        material::STAINLESS_304_ANNEALED_MIN,
+    ),
+];
+
+/// The counterweight shaft's hardware, for the bending check at its root.
+#[derive(Clone, Debug)]
+pub struct ShaftHardware {
+    /// ISO metric coarse thread at the shaft root (where it screws into the
+    /// head), when given; the root section is then the thread's minor
+    /// diameter, otherwise the plain shaft diameter.
+    pub thread: Option<IsoThread>,
+    /// The thread as written (for example `M12`).
+    pub thread_name: Option<String>,
+    /// The shaft material.
+    pub material: Material,
+    /// What the material is (a listed name, or the yield strength given).
+    pub material_label: String,
 }
 
 #[derive(Debug, Deserialize)]
@@ -310,6 +372,9 @@ pub struct LoadedRig {
     pub guard: GuardConfig,
     /// Site elevation, metres above sea level.
     pub elevation_m: f32,
+    /// Counterweight-shaft hardware, when `[shaft]` names a material or a
+    /// yield strength.
+    pub shaft_hardware: Option<ShaftHardware>,
     /// Air of the International Standard Atmosphere at the site elevation.
     pub air: Air,
 }
@@ -718,6 +783,11 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         }
     });
 
+    let shaft_hardware = match &file.shaft {
+        Some(s) => shaft_hardware(src, s.get_ref())?,
+        None => None,
+    };
+
     let cover = file.cover.as_ref().map(|c| {
         let g = c.get_ref();
         sp.put("cover.mass_kg", None, "cover.mass".into(), g.mass.span());
@@ -842,6 +912,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         rig,
         guard,
         elevation_m,
+        shaft_hardware,
         air,
     })
 }
@@ -1005,6 +1076,72 @@ fn guard_config(g: Option<&S<GuardSec>>, sp: &mut Spans) -> GuardConfig {
         c.tilt_margin_alarm_rad = f(t.get_ref().0);
     }
     c
+}
+
+fn shaft_hardware(src: &SourceText, g: &ShaftSec) -> Result<Option<ShaftHardware>, InputError> {
+    let ck = src.checker();
+    let thread = match &g.thread {
+        Some(t) => Some(IsoThread::by_name(t.get_ref()).map_err(|_| {
+            ck.error(
+                "shaft.thread",
+                t.span(),
+                format!(
+                    "not an ISO metric coarse thread (accepted: M{} to M{}, for example \"M12\")",
+                    fmt_g(f64::from(standfast::hardware::thread::MIN_NOMINAL_MM)),
+                    fmt_g(f64::from(standfast::hardware::thread::MAX_NOMINAL_MM))
+                ),
+            )
+        })?),
+        None => None,
+    };
+    let (material, material_label) = match (&g.material, &g.yield_strength_mpa) {
+        (Some(m), None) => {
+            let names: Vec<&str> = SHAFT_MATERIALS.iter().map(|x| x.0).collect();
+            let n = ck.one_of("shaft.material", m, &names)?;
+            let Some((_, label, mat)) = SHAFT_MATERIALS.iter().find(|x| x.0 == n) else {
+                return Ok(None);
+            };
+            (*mat, (*label).to_owned())
+        }
+        (None, Some(y)) => {
+            let y = ck.range_f64(
+                "shaft.yield_strength_mpa",
+                y,
+                1.0,
+                f64::from(material::MAX_STRENGTH_MPA),
+            )?;
+            let mat = Material::new(f(y), f(y)).map_err(|e| InputError {
+                at: None,
+                key: Some("shaft.yield_strength_mpa".into()),
+                value: None,
+                problem: e.to_string(),
+            })?;
+            (mat, format!("yield strength {} MPa (as given)", fmt_g(y)))
+        }
+        (Some(m), Some(_)) => {
+            return Err(ck.error(
+                "shaft.material",
+                m.span(),
+                "give one of material and yield_strength_mpa, not both",
+            ))
+        }
+        (None, None) => {
+            if let Some(t) = &g.thread {
+                return Err(ck.error(
+                    "shaft.thread",
+                    t.span(),
+                    "a shaft thread needs `material` or `yield_strength_mpa` for the check",
+                ));
+            }
+            return Ok(None);
+        }
+    };
+    Ok(Some(ShaftHardware {
+        thread,
+        thread_name: g.thread.as_ref().map(|t| t.get_ref().trim().to_owned()),
+        material,
+        material_label,
+    }))
 }
 
 /// A signed sensor axis as written: `+x`, `-y`, `z`, …

@@ -297,3 +297,43 @@ fn assess_text_has_balance_and_envelope_before_cautions() {
     assert!(v["balance"]["counterweight_centre_m"].is_number());
     assert_eq!(v["payload_envelope"].as_array().unwrap().len(), 10);
 }
+
+#[test]
+fn assess_shaft_root_bending_by_hand() {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let rep = assess(&load(&path).unwrap(), &AssessOptions::default()).unwrap();
+    let c = rep.shaft_check.unwrap();
+    // Shaft horizontal: M = g·(5·0.10 + 5·0.16 + 1.1·0.40/2) = 9.806 65·1.52
+    // = 14.906 N m (standard gravity, 3rd CGPM 1901).
+    assert!((c.moment_nm - 14.906).abs() < 1e-3, "{c:?}");
+    // M12 coarse, P = 1.75: d3 = d − 1.226 87·P = 9.853 mm (ISO 724 / ISO 68-1
+    // basic profile); solid round section modulus π·d³/32 (textbook
+    // mechanics of materials): σ = M / Z.
+    let d3 = 12.0 - 1.226_87 * 1.75;
+    assert!((f64::from(c.root_diameter_mm) - d3).abs() < 1e-3);
+    let z = std::f64::consts::PI * d3.powi(3) / 32.0;
+    let sigma = 14.906 * 1000.0 / z;
+    assert!(
+        (f64::from(c.stress_mpa) - sigma).abs() < 0.2,
+        "{c:?} {sigma}"
+    );
+    // S355 up to 16 mm: minimum yield 355 MPa (EN 10025-2; from memory), over
+    // the safety factor 2 (common practice, no source).
+    assert!((c.allowable_mpa - 177.5).abs() < 1e-3);
+}
+
+#[test]
+fn shaft_bad_thread_and_material_are_located() {
+    let text = demo_with("thread = \"M12\"", "thread = \"X12\"");
+    let e = err(&text);
+    assert_eq!(e.key.as_deref(), Some("shaft.thread"));
+    assert_eq!(e.at.clone().unwrap().line, line_of(&text, "X12"));
+    assert!(e.problem.contains("M3 to M24"), "{}", e.problem);
+    let text = demo_with("material = \"S355\"", "material = \"oak\"");
+    let e = err(&text);
+    assert_eq!(e.key.as_deref(), Some("shaft.material"));
+    assert_eq!(e.at.clone().unwrap().line, line_of(&text, "oak"));
+    let text = demo_with("material = \"S355\"", "yield_strength_mpa = 0.5");
+    let e = err(&text);
+    assert_eq!(e.key.as_deref(), Some("shaft.yield_strength_mpa"));
+}
