@@ -548,9 +548,24 @@ pub struct DemoArgs {
     /// Seed of the invented night.
     #[arg(long, default_value_t = 2025)]
     pub seed: u64,
+    /// Length of the night in hours (default: the whole invented night,
+    /// 9 h); shorter nights replay faster.
+    #[arg(long, value_name = "H", value_parser = parse_demo_hours)]
+    pub hours: Option<f64>,
     /// Print the summary as JSON instead of text.
     #[arg(long)]
     pub json: bool,
+}
+
+fn parse_demo_hours(s: &str) -> Result<f64, String> {
+    let h: f64 = s
+        .parse()
+        .map_err(|_| format!("\"{s}\" is not a number of hours"))?;
+    if h.is_finite() && h > 0.0 && h <= 9.0 {
+        Ok(h)
+    } else {
+        Err(format!("{s} h is outside the accepted range 0 to 9 h"))
+    }
 }
 
 /// The demo rig file (invented), as shipped in `host-sim/demo/rig.toml`.
@@ -643,7 +658,10 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
 /// # Errors
 /// As [`run_replay`]; [`Error::Io`] when the folder cannot be written.
 pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
-    let plan = crate::demo_data::NightPlan::windy_night(a.seed);
+    let mut plan = crate::demo_data::NightPlan::windy_night(a.seed);
+    if let Some(h) = a.hours {
+        plan.duration_s = h * 3600.0;
+    }
     let logs = crate::demo_data::write_demo_logs(&a.out, &plan)?;
     let rig_path = a.out.join("rig.toml");
     std::fs::write(&rig_path, DEMO_RIG_TOML).map_err(|e| Error::io(&rig_path, e))?;

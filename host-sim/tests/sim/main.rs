@@ -6,5 +6,6 @@ mod demo;
 mod located;
 mod log_merge;
 mod log_time;
+mod replay;
 mod rigfile;
 mod units;

@@ -1,0 +1,209 @@
+//! Replay of logs through the guard, and the `demo` command.
+
+use std::fmt::Write as _;
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+use standfast::guard::Stage;
+use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::replay::{replay, ReplayOptions, ReplayReport};
+use standfast_sim::rigfile::{self, LoadedRig};
+
+fn demo_rig() -> LoadedRig {
+    rigfile::load(&Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")).unwrap()
+}
+
+/// A level rig (accelerometer reads +1 g on z, in g) in a wind from the west
+/// that ramps from 2 m/s by 0.03 m/s every second: an invented night.
+const RAMP_S: u32 = 1200;
+
+fn wind_at(t: u32) -> f64 {
+    2.0 + 0.03 * f64::from(t)
+}
+
+/// A little sensor noise, as any real accelerometer has (a reading frozen
+/// for 60 s is a stuck-sensor fault by the guard's default).
+fn noise(i: u32) -> f64 {
+    f64::from(i % 3) * 1e-4
+}
+
+/// Wind from the west, veering ±1° (a vane frozen for 300 s is a stuck
+/// sensor by the guard's default).
+fn dir_at(t: u32) -> u32 {
+    269 + t % 3
+}
+
+fn write(dir: &Path, name: &str, text: &str) -> PathBuf {
+    let p = dir.join(name);
+    std::fs::write(&p, text).unwrap();
+    p
+}
+
+/// One pre-merged file at 2 Hz, wind cells only on whole seconds (an empty
+/// cell means no new value).
+fn premerged(dir: &Path) -> PathBuf {
+    let mut csv = String::from("t,ax,ay,az,speed,dir\n");
+    for i in 0..(2 * RAMP_S) {
+        let t = 1_700_000_000.0 + f64::from(i) * 0.5;
+        if i % 2 == 0 {
+            writeln!(
+                csv,
+                "{t:.1},{},0,1,{:.2},{}",
+                noise(i),
+                wind_at(i / 2),
+                dir_at(i / 2)
+            )
+            .unwrap();
+        } else {
+            writeln!(csv, "{t:.1},{},0,1,,", noise(i)).unwrap();
+        }
+    }
+    write(dir, "merged.csv", &csv);
+    write(
+        dir,
+        "merged.toml",
+        r#"[log]
+[[log.file]]
+path = "merged.csv"
+time = { column = "t", format = "epoch_s" }
+[log.file.columns]
+accel_x = { column = "ax", unit = "g" }
+accel_y = { column = "ay", unit = "g" }
+accel_z = { column = "az", unit = "g" }
+wind_speed = { column = "speed", unit = "m/s" }
+wind_direction = { column = "dir", unit = "deg" }
+"#,
+    )
+}
+
+/// The same samples as two files at different rates.
+fn split(dir: &Path) -> PathBuf {
+    let mut acc = String::from("t,ax,ay,az\n");
+    let mut wind = String::from("time,speed,dir\n");
+    for i in 0..(2 * RAMP_S) {
+        let t = 1_700_000_000.0 + f64::from(i) * 0.5;
+        writeln!(acc, "{t:.1},{},0,1", noise(i)).unwrap();
+        if i % 2 == 0 {
+            writeln!(wind, "{t:.1},{:.2},{}", wind_at(i / 2), dir_at(i / 2)).unwrap();
+        }
+    }
+    write(dir, "acc.csv", &acc);
+    write(dir, "wind.csv", &wind);
+    write(
+        dir,
+        "split.toml",
+        r#"[log]
+[[log.file]]
+path = "wind.csv"
+time = { column = "time", format = "epoch_s" }
+[log.file.columns]
+wind_speed = { column = "speed", unit = "m/s" }
+wind_direction = { column = "dir", unit = "deg" }
+[[log.file]]
+path = "acc.csv"
+time = { column = "t", format = "epoch_s" }
+[log.file.columns]
+accel_x = { column = "ax", unit = "g" }
+accel_y = { column = "ay", unit = "g" }
+accel_z = { column = "az", unit = "g" }
+"#,
+    )
+}
+
+fn run(profile: &Path, verdicts: Option<&Path>) -> ReplayReport {
+    let p = LogProfile::load(profile).unwrap();
+    let mut m = Merger::open(&p, ErrorPolicy::Stop).unwrap();
+    let rig = demo_rig();
+    let opts = ReplayOptions { verdicts_every: 1 };
+    match verdicts {
+        Some(path) => {
+            let mut f = std::io::BufWriter::new(std::fs::File::create(path).unwrap());
+            replay(
+                std::slice::from_ref(&rig),
+                &mut m,
+                opts,
+                Some((&mut f, "verdicts")),
+            )
+            .unwrap()
+        }
+        None => replay(std::slice::from_ref(&rig), &mut m, opts, None).unwrap(),
+    }
+}
+
+#[test]
+fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
+    let dir = tempfile::tempdir().unwrap();
+    let rep = run(&premerged(dir.path()), None);
+    assert_eq!(rep.records, u64::from(2 * RAMP_S));
+    assert_eq!(rep.issues_total, 0);
+    let r = &rep.rigs[0];
+    // The guard's thresholds rise watch 0.5 < park 0.75 (ASME B30.5 §5-1.1.1
+    // analogy) < alarm 0.9 (EN 13000 practice), and park uses the gust
+    // predicted for the end of a park; so in a steadily rising wind the
+    // stages must come in that order, each once.
+    let order: Vec<Stage> = r.stage_changes.iter().map(|c| c.to).collect();
+    assert_eq!(
+        order,
+        vec![Stage::Watch, Stage::ParkNow, Stage::Alarm],
+        "{:?} {:?}",
+        r.stage_changes,
+        r.faults
+    );
+    assert!(r.stage_changes.windows(2).all(|w| w[0].t_s < w[1].t_s));
+    assert!(r.faults.is_empty(), "{:?}", r.faults);
+    // Drag grows with the square of the wind speed (q = ½ρv², any fluids
+    // textbook), so with a rising wind the highest overturning utilisation
+    // is at the last evaluation (the guard evaluates once a second, default
+    // evaluate_every_ms = 1000).
+    let o = r.overturning.as_ref().unwrap();
+    assert!(rep.duration_s - o.t_s <= 1.0, "{o:?} of {}", rep.duration_s);
+    assert!(o.utilisation > 0.9, "{o:?}");
+    // Direction as logged: from the west, 270° ± 1° (the meteorological
+    // convention, WMO No. 8).
+    assert!((o.wind_from_deg.unwrap() - 270.0).abs() <= 1.01, "{o:?}");
+    assert!(o.tilt_deg.unwrap() < 0.01, "level ground: {o:?}");
+    // Time per stage covers the whole log.
+    let total: f64 = r.stage_time.iter().map(|s| s.seconds).sum();
+    assert!((total - rep.duration_s).abs() < 1e-6);
+    assert_eq!(r.final_stage, Stage::Alarm);
+}
+
+#[test]
+fn multi_rate_logs_give_the_same_verdicts_as_a_premerged_log() {
+    // The merge contract (host-sim/src/log/mod.rs): an empty cell holds the
+    // previous value, just as a file without a row at that time.
+    let dir = tempfile::tempdir().unwrap();
+    let a = dir.path().join("a.csv");
+    let b = dir.path().join("b.csv");
+    let ra = run(&premerged(dir.path()), Some(&a));
+    let rb = run(&split(dir.path()), Some(&b));
+    let va = std::fs::read_to_string(&a).unwrap();
+    let vb = std::fs::read_to_string(&b).unwrap();
+    assert!(va.lines().count() > 2 * RAMP_S as usize);
+    assert_eq!(va, vb);
+    assert_eq!(ra.rigs, rb.rigs);
+}
+
+#[test]
+fn demo_command_runs_and_prints_the_cautions() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_standfast"))
+        .args(["demo", "--hours", "0.5", "--out"])
+        .arg(dir.path())
+        .output()
+        .unwrap();
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8(out.stdout).unwrap();
+    for c in standfast_sim::assess::CAUTIONS {
+        assert!(text.contains(c), "{c} missing in\n{text}");
+    }
+    assert!(text.contains("Closest approach"), "{text}");
+    for f in ["rig.toml", "verdicts.csv", "night-wind.csv"] {
+        assert!(dir.path().join(f).is_file(), "{f}");
+    }
+}
