@@ -13,7 +13,10 @@
 //! - Escalation is immediate.
 //! - De-escalation needs every driving figure below `clear_ratio` times the
 //!   threshold of the present stage for `dwell_s` seconds without a break.
-//! - The alarm latches until [`Guard::acknowledge`].
+//! - The alarm latches until [`Guard::acknowledge`]. A sensor fault does not
+//!   latch: the stage leaves [`Stage::SensorFault`] once every sensor has been
+//!   healthy for `fault_clear_s`, going straight to the stage the figures
+//!   call for.
 //!
 //! **Park early enough.** Parking takes `time_to_park_s`. The guard predicts
 //! the gust at the end of that time: the larger of the peak gust of the recent
@@ -445,6 +448,12 @@ impl<'r> Guard<'r> {
         &mut self.tilt
     }
 
+    /// Sets the air density used until measured air arrives in
+    /// [`Inputs::air`] (for example from the site elevation).
+    pub fn set_air(&mut self, air: Air) {
+        self.air = air;
+    }
+
     /// Acknowledges a latched alarm: the stage may step down once the figures
     /// have settled (immediately, if they already have for the dwell time).
     pub fn acknowledge(&mut self) {
@@ -765,7 +774,10 @@ impl<'r> Guard<'r> {
         let (wanted, cause) = self.wanted(faults);
         let from = self.stage;
         if wanted > from {
-            if wanted >= Stage::Alarm {
+            // Only a physical alarm latches; a sensor fault clears by itself
+            // once the sensors have been healthy for `fault_clear_s` (its
+            // events stay in the log).
+            if wanted == Stage::Alarm {
                 self.alarm_latched = true;
             }
             self.stage = wanted;

@@ -238,3 +238,19 @@ fn overloaded_drive_requests_park() {
     assert_eq!(r.guard.stage(), Stage::ParkNow, "{:?}", r.changes);
     assert_eq!(r.changes.last().unwrap().3, Cause::Drive);
 }
+
+/// A sensor fault does not latch: once the anemometer is back and healthy for
+/// `fault_clear_s` (60 s) the guard returns to the stage the figures call for.
+#[test]
+fn sensor_fault_clears_after_healthy_period() {
+    let rig = rig();
+    let mut r = Run::new(&rig, config());
+    r.run(0.0, 60.0, |_| Some(4.0), true);
+    r.run(60.0, 106.0, |_| None, true);
+    assert_eq!(r.guard.stage(), Stage::SensorFault);
+    r.run(106.0, 300.0, |_| Some(4.0), true);
+    assert_eq!(r.guard.stage(), Stage::Clear, "{:?}", r.changes);
+    let back = r.changes.last().unwrap();
+    assert_eq!((back.1, back.2), (Stage::SensorFault, Stage::Clear));
+    assert!(back.0 >= 106.0 + 60.0 && back.0 <= 106.0 + 75.0, "{back:?}");
+}
