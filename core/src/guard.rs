@@ -15,8 +15,8 @@
 //!   threshold of the present stage for `dwell_s` seconds without a break.
 //! - The alarm latches until [`Guard::acknowledge`]. A sensor fault does not
 //!   latch: the stage leaves [`Stage::SensorFault`] once every sensor has been
-//!   healthy for `fault_clear_s`, going straight to the stage the figures
-//!   call for.
+//!   healthy for `fault_clear_s`, going to the stage the figures call for,
+//!   but no lower than [`Stage::Watch`].
 //!
 //! **Park early enough.** Parking takes `time_to_park_s`. The guard predicts
 //! the gust at the end of that time: the larger of the peak gust of the recent
@@ -793,25 +793,36 @@ impl<'r> Guard<'r> {
             self.settled_since = None;
             return;
         }
+        // Leaving a sensor fault: once the sensors have been healthy for
+        // `fault_clear_s`, to the stage the figures call for but no lower than
+        // watch, from which the usual dwell applies: the windows have just
+        // refilled and deserve a look before the all-clear.
+        if from == Stage::SensorFault {
+            let clear_for = self.fault_free_since.map_or(0.0, |t| now.seconds_since(t));
+            if clear_for >= self.config.fault_clear_s {
+                let to = wanted.max(Stage::Watch);
+                self.stage = to;
+                self.settled_since = None;
+                let _ = events.push(Event::StageChanged {
+                    from,
+                    to,
+                    cause: Cause::Settled,
+                });
+            }
+            return;
+        }
         // Stepping down: the figures settled for `dwell_s` (tracked even while
         // an alarm is latched, so an acknowledgement after a long calm takes
-        // effect at once), faults gone for `fault_clear_s`, and no latch.
+        // effect at once) and no latch.
         if !self.settled_for(wanted) {
             self.settled_since = None;
             return;
         }
         let since = *self.settled_since.get_or_insert(now);
-        if from == Stage::SensorFault {
-            let clear_for = self.fault_free_since.map_or(0.0, |t| now.seconds_since(t));
-            if clear_for < self.config.fault_clear_s {
-                return;
-            }
-        }
         if self.alarm_latched {
             return;
         }
-        let dwell_done = now.seconds_since(since) >= self.config.dwell_s;
-        if dwell_done || from == Stage::SensorFault {
+        if now.seconds_since(since) >= self.config.dwell_s {
             self.stage = wanted;
             self.settled_since = None;
             let _ = events.push(Event::StageChanged {

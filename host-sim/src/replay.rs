@@ -364,7 +364,7 @@ impl Tracker {
                         r.faults.push(FaultSeen {
                             time: time.to_iso8601(3),
                             t_s,
-                            fault: format!("{f:?}"),
+                            fault: f.to_string(),
                         });
                     } else {
                         r.faults_not_kept += 1;
@@ -450,7 +450,10 @@ pub fn replay(
         // rig frame; samples arrive in g.
         cfg.tilt.scale_g_per_count = 1.0;
         cfg.tilt.mounting = Mounting::IDENTITY;
-        guards.push(Guard::new(&r.rig, cfg, Millis(0)).map_err(|e| core_err(&r.file, &e))?);
+        let mut guard = Guard::new(&r.rig, cfg, Millis(0)).map_err(|e| core_err(&r.file, &e))?;
+        // The site's air (from its elevation) until the log measures it.
+        guard.set_air(r.air);
+        guards.push(guard);
     }
     let mut trackers: Vec<Tracker> = rigs.iter().map(|r| Tracker::new(&r.file)).collect();
     let mut t0: Option<Timestamp> = None;

@@ -240,7 +240,8 @@ fn overloaded_drive_requests_park() {
 }
 
 /// A sensor fault does not latch: once the anemometer is back and healthy for
-/// `fault_clear_s` (60 s) the guard returns to the stage the figures call for.
+/// `fault_clear_s` (60 s) the guard steps to watch, and to clear after the
+/// usual 600 s dwell.
 #[test]
 fn sensor_fault_clears_after_healthy_period() {
     let rig = rig();
@@ -249,8 +250,12 @@ fn sensor_fault_clears_after_healthy_period() {
     r.run(60.0, 106.0, |_| None, true);
     assert_eq!(r.guard.stage(), Stage::SensorFault);
     r.run(106.0, 300.0, |_| Some(4.0), true);
-    assert_eq!(r.guard.stage(), Stage::Clear, "{:?}", r.changes);
-    let back = r.changes.last().unwrap();
-    assert_eq!((back.1, back.2), (Stage::SensorFault, Stage::Clear));
+    assert_eq!(r.guard.stage(), Stage::Watch, "{:?}", r.changes);
+    let back = *r.changes.last().unwrap();
+    assert_eq!((back.1, back.2), (Stage::SensorFault, Stage::Watch));
     assert!(back.0 >= 106.0 + 60.0 && back.0 <= 106.0 + 75.0, "{back:?}");
+    r.run(300.0, 900.0, |_| Some(4.0), true);
+    let clear = *r.changes.last().unwrap();
+    assert_eq!(clear.2, Stage::Clear);
+    assert!(clear.0 >= back.0 + 600.0 - 1.0, "{clear:?}");
 }
