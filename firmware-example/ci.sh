@@ -11,10 +11,10 @@ TARGET=thumbv7em-none-eabihf
 ELF="target/$TARGET/firmware/mps2-replay"
 LOG=firmware-example/replay/short-night.csv
 OUT=target/firmware-ci
-# The issue aims at 64 KiB flash; with the Standfast guard wired in the image
-# measures 75.0 KiB (README, "Memory and flash"), so the gate is 80 KiB until
-# the image is trimmed. Do not raise it further without measuring why.
-FLASH_BUDGET=$((80 * 1024))
+# The issue's aim: flash under 64 KiB and static RAM (.data + .bss) under
+# 16 KiB for the whole example, guard included (README, "Memory and flash").
+# The stack is not in these figures; the QEMU run prints its peak on stderr.
+FLASH_BUDGET=$((64 * 1024))
 RAM_BUDGET=$((16 * 1024))
 mkdir -p "$OUT"
 

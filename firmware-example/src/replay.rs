@@ -264,13 +264,88 @@ fn field<T: core::str::FromStr>(
     line: u32,
     column: &'static str,
 ) -> Result<Option<T>, ReplayError> {
-    let s = s.trim();
+    let s = s.trim_ascii();
     if s.is_empty() {
         return Ok(None);
     }
     s.parse()
         .map(Some)
         .map_err(|_| ReplayError::Field { line, column })
+}
+
+/// A field that [`parse_degrees`] does not accept.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct BadNumber;
+
+/// Most decimal places [`parse_degrees`] accepts (milli-degree resolution).
+pub const DEGREE_DECIMALS: u32 = 3;
+
+/// Parses a decimal number of degrees with at most [`DEGREE_DECIMALS`]
+/// decimal places and at most six integer digits (`-30`, `247`, `20.125`,
+/// `.5`, `+1.0`) by fixed-point arithmetic: the digits are read as an integer
+/// count of milli-degrees and divided by 1000 once, in `f32`. No exponent,
+/// no `inf`/`nan`. An empty (or all-blank) field is `Ok(None)`.
+///
+/// This avoids the standard library's correctly-rounded float parser, whose
+/// tables take about 15 KiB of flash; a milli-degree count up to 999,999,999
+/// is exact in integers, and the one `f32` division is correctly rounded, so
+/// the result is the same on every IEEE-754 machine (host and Cortex-M4F).
+///
+/// # Errors
+/// [`BadNumber`] for anything else (a sign alone, two points, a fourth decimal,
+/// a seventh integer digit, any other character).
+pub fn parse_degrees(s: &str) -> Result<Option<f32>, BadNumber> {
+    let s = s.trim_ascii();
+    if s.is_empty() {
+        return Ok(None);
+    }
+    let (negative, digits) = match s.as_bytes().split_first() {
+        Some((b'-', rest)) => (true, rest),
+        Some((b'+', rest)) => (false, rest),
+        _ => (false, s.as_bytes()),
+    };
+    let (int_part, frac_part) = match digits.iter().position(|&b| b == b'.') {
+        Some(i) => (
+            digits.get(..i).ok_or(BadNumber)?,
+            digits.get(i + 1..).ok_or(BadNumber)?,
+        ),
+        None => (digits, &[][..]),
+    };
+    if (int_part.is_empty() && frac_part.is_empty())
+        || int_part.len() > 6
+        || frac_part.len() > DEGREE_DECIMALS as usize
+    {
+        return Err(BadNumber);
+    }
+    let mut milli: i32 = 0;
+    for &b in int_part {
+        milli = milli * 10 + i32::from(decimal_digit(b)?);
+    }
+    let mut places = 0;
+    for &b in frac_part {
+        milli = milli * 10 + i32::from(decimal_digit(b)?);
+        places += 1;
+    }
+    for _ in places..DEGREE_DECIMALS {
+        milli *= 10;
+    }
+    let milli = if negative { -milli } else { milli };
+    // |milli| < 10^9 < 2^30: the conversion to f32 rounds once, the division
+    // once more; both are IEEE-754 operations with one defined result.
+    #[allow(clippy::cast_precision_loss)]
+    Ok(Some(milli as f32 / 1000.0))
+}
+
+fn decimal_digit(b: u8) -> Result<u8, BadNumber> {
+    if b.is_ascii_digit() {
+        Ok(b - b'0')
+    } else {
+        Err(BadNumber)
+    }
+}
+
+fn degrees(s: &str, line: u32, column: &'static str) -> Result<Option<f32>, ReplayError> {
+    parse_degrees(s).map_err(|BadNumber| ReplayError::Field { line, column })
 }
 
 /// Parses one data line (not the header).
@@ -305,17 +380,8 @@ pub fn parse_row(text: &str, line: u32) -> Result<Row, ReplayError> {
         }
     };
     let pulse_total = field::<u32>(p, line, "pulse_total")?;
-    let vane_from_deg = field::<f32>(v, line, "vane_from_deg")?;
-    if vane_from_deg.is_some_and(|d| !d.is_finite()) {
-        return Err(ReplayError::Field {
-            line,
-            column: "vane_from_deg",
-        });
-    }
-    let pose = match (
-        field::<f32>(ha, line, "ha_deg")?,
-        field::<f32>(dec, line, "dec_deg")?,
-    ) {
+    let vane_from_deg = degrees(v, line, "vane_from_deg")?;
+    let pose = match (degrees(ha, line, "ha_deg")?, degrees(dec, line, "dec_deg")?) {
         (Some(h), Some(d)) => Some(
             MountPose::new(math::deg_to_rad(h), math::deg_to_rad(d)).map_err(|_| {
                 ReplayError::Field {
@@ -463,11 +529,11 @@ impl<'r> Replay<'r> {
         self.line = self.line.saturating_add(1);
         let line = self.line;
         let text = text.trim_end_matches('\r');
-        if text.trim().is_empty() || text.starts_with('#') {
+        if text.trim_ascii().is_empty() || text.starts_with('#') {
             return Ok(None);
         }
         if !self.header_seen {
-            if text.trim() != HEADER {
+            if text.trim_ascii() != HEADER {
                 return Err(ReplayError::Header { line });
             }
             self.header_seen = true;

@@ -7,7 +7,8 @@
 
 use standfast_firmware::guard_adapter::example_rig;
 use standfast_firmware::replay::{
-    parse_row, LineSplitter, Replay, ReplayError, ReplaySetup, SplitLine, HEADER,
+    parse_degrees, parse_row, BadNumber, LineSplitter, Replay, ReplayError, ReplaySetup, SplitLine,
+    HEADER,
 };
 
 const SHORT_NIGHT: &str = include_str!("../../replay/short-night.csv");
@@ -93,6 +94,28 @@ fn rows_parse_with_empty_fields_as_missing() {
         (r.accel, r.pulse_total, r.vane_from_deg, r.pose),
         (None, None, None, None)
     );
+}
+
+/// The fixed-point degree parser agrees with Rust's standard, correctly
+/// rounded `str::parse::<f32>` (the reference) wherever the decimal is a
+/// multiple of 1/1000 whose f32 quotient rounds the same way, and rejects
+/// what the log format does not allow.
+#[test]
+fn degrees_parse_in_fixed_point_like_the_standard_parser() {
+    for text in [
+        "0", "247", "-30.000", "20.125", "-21.25", "270.5", ".5", "+1.0", "359.999", "-0.001",
+        " 12.5 ",
+    ] {
+        let std_value: f32 = text.trim().parse().unwrap();
+        assert_eq!(parse_degrees(text), Ok(Some(std_value)), "{text}");
+    }
+    assert_eq!(parse_degrees(""), Ok(None));
+    assert_eq!(parse_degrees("  "), Ok(None));
+    for bad in [
+        "-", ".", "1.2345", "1e3", "nan", "inf", "1..2", "1,5", "1234567", "--1", "12a",
+    ] {
+        assert_eq!(parse_degrees(bad), Err(BadNumber), "{bad}");
+    }
 }
 
 #[test]
