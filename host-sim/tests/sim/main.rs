@@ -1,6 +1,7 @@
 //! Library tests of standfast-sim (no command line involved). One module per
 //! subject; every check names its outside source beside it.
 
+mod bridge;
 mod cli;
 mod demo;
 mod located;
@@ -9,3 +10,4 @@ mod log_time;
 mod replay;
 mod rigfile;
 mod units;
+mod readme;
