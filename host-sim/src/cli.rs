@@ -41,6 +41,8 @@ pub enum Command {
     Replay(crate::replay::ReplayArgs),
     /// Write an invented windy night and demo rig, replay them and print the summary.
     Demo(crate::replay::DemoArgs),
+    /// Read live samples (JSON lines or CSV) on standard input and write one JSON verdict line per sample.
+    Bridge(crate::bridge::BridgeArgs),
 }
 
 /// Arguments of `gen-demo`.
@@ -82,6 +84,7 @@ pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
         Command::Assess(a) => crate::assess::run(a, out),
         Command::Replay(a) => crate::replay::run_replay(a, out),
         Command::Demo(a) => crate::replay::run_demo(a, out),
+        Command::Bridge(a) => crate::bridge::run_bridge(a, out),
     }
 }
 

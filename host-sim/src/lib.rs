@@ -10,6 +10,7 @@
 //! defer to local codes and licensed engineers.
 
 pub mod assess;
+pub mod bridge;
 pub mod cli;
 pub mod demo_data;
 pub mod error;
