@@ -54,6 +54,7 @@ fn rig() -> Rig {
         exposure: Some(Exposure {
             shape: Shape::Box {
                 size_m: [0.2, 0.2, 0.25],
+                edges: None,
             },
             centre_m: [0.0, 0.0, -0.1],
             drag_coefficient: None,

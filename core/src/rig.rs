@@ -453,7 +453,10 @@ impl Rig {
             Error::check("cover.mass_kg", c.mass_kg, 0.0, MAX_PART_MASS_KG)?;
             let centre = check_offset("cover.centre_m", c.centre_m, 0)?;
             let exposure = Exposure {
-                shape: Shape::Box { size_m: c.size_m },
+                shape: Shape::Box {
+                    size_m: c.size_m,
+                    edges: None,
+                },
                 centre_m: c.centre_m,
                 drag_coefficient: c.drag_coefficient,
             };

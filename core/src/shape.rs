@@ -55,11 +55,17 @@ pub enum Shape {
         /// Axis direction in the frame of the body's stage (any length).
         axis: [f32; 3],
     },
-    /// A rectangular box with edges along the three axes of the body's stage
-    /// frame.
+    /// A rectangular box, by default with its edges along the three axes of
+    /// the body's stage frame.
     Box {
-        /// Edge lengths along the stage frame's first, second and third axes, m.
+        /// Edge lengths along the box's first, second and third edge
+        /// directions, m.
         size_m: [f32; 3],
+        /// Directions of the box's first and second edges in the stage frame
+        /// (any length; the second is made perpendicular to the first, the
+        /// third is their cross product); `None` for the stage frame's axes.
+        #[cfg_attr(feature = "serde", serde(default))]
+        edges: Option<[[f32; 3]; 2]>,
     },
 }
 
@@ -123,6 +129,28 @@ pub fn cylinder_axial_cd(aspect: f32) -> f32 {
     interpolate(&CYLINDER_AXIAL_CD, aspect)
 }
 
+/// The unit edge directions of a box in rig coordinates, from the stage
+/// frame's axes (rig coordinates) and the box's optional edge directions in
+/// the stage frame; `None` when the edges are zero or parallel.
+#[must_use]
+pub fn box_frame(stage_axes: &[Vec3; 3], edges: Option<[Vec3; 2]>) -> Option<[Vec3; 3]> {
+    let Some([a, b]) = edges else {
+        return Some(*stage_axes);
+    };
+    let [e1, e2, e3] = *stage_axes;
+    let to_rig = |v: Vec3| e1 * v.x + e2 * v.y + e3 * v.z;
+    let u = to_rig(a).normalized()?;
+    let v = to_rig(b).reject(u).normalized()?;
+    Some([u, v, u.cross(v)])
+}
+
+/// [`box_frame`] for a validated box, falling back to the stage axes.
+#[must_use]
+pub fn box_axes(stage_axes: &[Vec3; 3], edges: Option<[[f32; 3]; 2]>) -> [Vec3; 3] {
+    let e = edges.map(|[a, b]| [Vec3::from_array(a), Vec3::from_array(b)]);
+    box_frame(stage_axes, e).unwrap_or(*stage_axes)
+}
+
 impl Exposure {
     /// Checks sizes, axis and drag coefficient.
     ///
@@ -144,9 +172,20 @@ impl Exposure {
                     return Err(Error::new(crate::ErrorKind::ZeroDirection, "exposure.axis"));
                 }
             }
-            Shape::Box { size_m } => {
+            Shape::Box { size_m, edges } => {
                 for s in size_m {
                     Error::check("exposure.size_m", s, 0.001, MAX_SHAPE_SIZE_M)?;
+                }
+                if let Some([a, b]) = edges {
+                    let (a, b) = (Vec3::from_array(a), Vec3::from_array(b));
+                    Error::check_vec("exposure.edges", a, -1e3, 1e3)?;
+                    Error::check_vec("exposure.edges", b, -1e3, 1e3)?;
+                    if box_frame(&[Vec3::X, Vec3::Y, Vec3::Z], Some([a, b])).is_none() {
+                        return Err(Error::new(
+                            crate::ErrorKind::ZeroDirection,
+                            "exposure.edges",
+                        ));
+                    }
                 }
             }
         }
@@ -185,9 +224,9 @@ impl Exposure {
                 let end = 0.25 * math::PI * diameter_m * diameter_m * cos_psi.abs();
                 cd_cross * side + cylinder_axial_cd(aspect) * end
             }
-            Shape::Box { size_m } => {
+            Shape::Box { size_m, edges } => {
                 let cd = self.drag_coefficient.unwrap_or(BOX_FACE_CD);
-                let [e1, e2, e3] = *axes;
+                let [e1, e2, e3] = box_axes(axes, edges);
                 let [sx, sy, sz] = size_m;
                 cd * (sy * sz * e1.dot(wind).abs()
                     + sx * sz * e2.dot(wind).abs()
@@ -233,11 +272,36 @@ mod tests {
         let e = Exposure {
             shape: Shape::Box {
                 size_m: [1.0, 2.0, 3.0],
+                edges: None,
             },
             centre_m: [0.0; 3],
             drag_coefficient: Some(1.0),
         };
         assert!((e.drag_area_m2(&RIG_AXES, Vec3::X) - 6.0).abs() < 1e-6);
         assert!((e.drag_area_m2(&RIG_AXES, Vec3::Z) - 2.0).abs() < 1e-6);
+    }
+
+    #[test]
+    fn turned_box_shows_its_turned_faces() {
+        // The same box turned a quarter turn about z: its 1 m edge now lies
+        // along y, so wind along x meets the 1 × 3 face.
+        let e = Exposure {
+            shape: Shape::Box {
+                size_m: [1.0, 2.0, 3.0],
+                edges: Some([[0.0, 1.0, 0.0], [-1.0, 0.0, 0.0]]),
+            },
+            centre_m: [0.0; 3],
+            drag_coefficient: Some(1.0),
+        };
+        assert!((e.drag_area_m2(&RIG_AXES, Vec3::X) - 3.0).abs() < 1e-6);
+        assert!((e.drag_area_m2(&RIG_AXES, Vec3::Y) - 6.0).abs() < 1e-6);
+        let parallel = Exposure {
+            shape: Shape::Box {
+                size_m: [1.0, 2.0, 3.0],
+                edges: Some([[1.0, 0.0, 0.0], [2.0, 0.0, 0.0]]),
+            },
+            ..e
+        };
+        assert!(parallel.validate().is_err());
     }
 }

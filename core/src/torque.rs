@@ -174,14 +174,15 @@ pub fn centroidal_inertia_kg_m2(part: &Part, stage_axes: &[Vec3; 3], dir: Vec3) 
             };
             ia * c * c + it * (1.0 - c * c)
         }
-        (model, Shape::Box { size_m }) => {
+        (model, Shape::Box { size_m, edges }) => {
             let i = if model == MassModel::Shell {
                 thin_box_inertia_kg_m2(m, size_m)
             } else {
                 solid_box_inertia_kg_m2(m, size_m)
             };
+            let box_axes = crate::shape::box_axes(stage_axes, edges);
             i.iter()
-                .zip(stage_axes.iter())
+                .zip(box_axes.iter())
                 .map(|(ii, e)| {
                     let c = e.dot(dir);
                     ii * c * c

@@ -223,6 +223,8 @@ struct ShapeSec {
     length: Option<S<Length>>,
     axis: Option<S<[f64; 3]>>,
     size: Option<S<[Length; 3]>>,
+    /// A box's first and second edge directions in its stage frame.
+    edges: Option<S<[[f64; 3]; 2]>>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -989,8 +991,19 @@ fn exposure(
                 format!("{key}.shape.size"),
                 s.span(),
             );
+            let edges = g.edges.as_ref().map(|e| {
+                sp.put(
+                    "exposure.edges",
+                    index,
+                    format!("{key}.shape.edges"),
+                    e.span(),
+                );
+                let [a, b] = e.get_ref();
+                [[f(a[0]), f(a[1]), f(a[2])], [f(b[0]), f(b[1]), f(b[2])]]
+            });
             Shape::Box {
                 size_m: v3(s.get_ref()),
+                edges,
             }
         }
     };

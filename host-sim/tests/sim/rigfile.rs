@@ -337,3 +337,23 @@ fn shaft_bad_thread_and_material_are_located() {
     let e = err(&text);
     assert_eq!(e.key.as_deref(), Some("shaft.yield_strength_mpa"));
 }
+
+#[test]
+fn box_edges_turn_the_box_and_parallel_edges_are_refused() {
+    let from = "shape = { kind = \"box\", size = [\"0.25 m\", \"0.25 m\", \"0.30 m\"] }";
+    let turned = "shape = { kind = \"box\", size = [\"0.25 m\", \"0.25 m\", \"0.30 m\"], edges = [[0, 1, 0], [-1, 0, 0]] }";
+    let r = load_source(&SourceText::new("edges.toml", demo_with(from, turned))).unwrap();
+    let shape = r.spec.bodies[0].exposure.unwrap().shape;
+    assert!(matches!(
+        shape,
+        standfast::shape::Shape::Box { edges: Some(_), .. }
+    ));
+    let parallel = "shape = { kind = \"box\", size = [\"0.25 m\", \"0.25 m\", \"0.30 m\"], edges = [[1, 0, 0], [2, 0, 0]] }";
+    let text = demo_with(from, parallel);
+    let e = err(&text).to_string();
+    assert!(e.contains("edges"), "{e}");
+    assert!(
+        e.contains(&format!(":{}:", line_of(&text, "edges = [[1"))),
+        "{e}"
+    );
+}

@@ -323,6 +323,7 @@ fn body_on_the_axis_exerts_no_torque() {
         on_k.exposure = Some(Exposure {
             shape: Shape::Box {
                 size_m: [0.15, 0.15, 0.2],
+                edges: None,
             },
             centre_m: [0.0, 0.0, -0.2],
             drag_coefficient: None,
