@@ -58,11 +58,30 @@ pub struct Assessment {
     pub stage: &'static str,
 }
 
+/// A sensor fault an assessment raised itself (beyond the station's own
+/// health supervision), by short lower-case names for event lines.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct RaisedFault {
+    /// The sensor (for the guard: `accel`, `wind_speed`, `wind_direction`).
+    pub sensor: &'static str,
+    /// The class of fault (for the guard: `not_finite`, `out_of_range`,
+    /// `time_reversed`, `stale`, `stuck`, `magnitude_out_of_band`,
+    /// `tilt_step`, `tilt_beyond_limit`).
+    pub class: &'static str,
+}
+
 /// Anything that turns one step's samples into an [`Assessment`].
 pub trait Assess {
     /// Assesses the samples of one step. Called exactly once per step, with
     /// non-decreasing `samples.t_ms`.
     fn assess(&mut self, samples: &Samples) -> Assessment;
+
+    /// Sensor faults first raised in the last [`Assess::assess`] call, in
+    /// order (none by default). The station logs each as an event.
+    fn raised_faults(&self) -> &[RaisedFault] {
+        &[]
+    }
 }
 
 /// Limits for [`LimitRule`].

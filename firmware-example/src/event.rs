@@ -15,7 +15,8 @@
 //! | `alarm_on` / `alarm_off` | | the alarm line was de-energised / energised |
 //! | `fault` | `source=accel\|wind\|vane cause=bus\|device\|config_lost\|stale` | a sensor became unusable |
 //! | `fault_cleared` | `source=...` | the sensor has been healthy for the clearing time |
-//! | `stage` | `name=<stage>` | the assessment's stage changed |
+//! | `stage` | `from=<stage> to=<stage>` | the assessment's stage changed (before the first step it counts as `clear`) |
+//! | `fault` | `sensor=<name> class=<name>` | the assessment (the guard) raised a sensor fault of its own |
 //! | `late` | `gap_ms=<u32>` | more than two periods passed since the previous step |
 //! | `line_error` | `line=park\|alarm` | an output pin reported an error; the step is not complete |
 //!
@@ -99,8 +100,18 @@ pub enum EventKind {
     Fault(Source, Cause),
     /// A sensor is usable again.
     FaultCleared(Source),
-    /// The assessment's stage changed to this name.
-    Stage(&'static str),
+    /// The assessment's stage changed (names as [`crate::Assessment::stage`];
+    /// the guard's are [`standfast::guard::Stage::name`]).
+    Stage {
+        /// The stage before.
+        from: &'static str,
+        /// The stage now.
+        to: &'static str,
+    },
+    /// The assessment raised a sensor fault of its own (the guard's
+    /// [`standfast::guard::Event::FaultRaised`]), named by
+    /// [`crate::assess::RaisedFault`].
+    AssessFault(crate::assess::RaisedFault),
     /// Milliseconds since the previous step, when over two periods.
     Late(u32),
     /// An output pin reported an error.
@@ -130,7 +141,10 @@ impl fmt::Display for Event {
                 write!(f, "fault source={} cause={}", s.name(), c.name())
             }
             EventKind::FaultCleared(s) => write!(f, "fault_cleared source={}", s.name()),
-            EventKind::Stage(name) => write!(f, "stage name={name}"),
+            EventKind::Stage { from, to } => write!(f, "stage from={from} to={to}"),
+            EventKind::AssessFault(r) => {
+                write!(f, "fault sensor={} class={}", r.sensor, r.class)
+            }
             EventKind::Late(gap_ms) => write!(f, "late gap_ms={gap_ms}"),
             EventKind::LineError(Line::Park) => f.write_str("line_error line=park"),
             EventKind::LineError(Line::Alarm) => f.write_str("line_error line=alarm"),

@@ -14,7 +14,9 @@
 //!   pier side [`PierSide::TubeEast`] (the station's pose input carries no
 //!   pier side; set it from your mount's report when it has one).
 //!
-//! It maps the verdict's stage to `park` ([`Stage::park_requested`]), `alarm`
+//! It passes the guard's sensor faults on ([`Assess::raised_faults`], logged
+//! as `fault sensor=.. class=..` events, names by [`fault_names`]) and maps
+//! the verdict's stage to `park` ([`Stage::park_requested`]), `alarm`
 //! ([`Stage::alarm`]) and the stage name ([`Stage::name`]). The station's
 //! own sensor-health supervision still overrides everything toward park and
 //! alarm.
@@ -31,13 +33,16 @@
 //! *invented* rig here; describe your own rig, secure it anyway, and defer to
 //! the mount maker's limits, local codes and licensed engineers.
 
-use crate::assess::{Assess, Assessment, LimitRule, Samples};
-use standfast::guard::{Guard, GuardConfig, Inputs, Stage, WindSample as GuardWind};
+use crate::assess::{Assess, Assessment, LimitRule, RaisedFault, Samples};
+use standfast::guard::{
+    Event as GuardEvent, Guard, GuardConfig, Inputs, Stage, WindSample as GuardWind, MAX_EVENTS,
+};
 use standfast::heapless::{String, Vec};
 use standfast::math::deg_to_rad;
 use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec};
 use standfast::sense::Millis;
+use standfast::sense::{Fault, Sensor};
 use standfast::shape::{Exposure, Shape};
 use standfast::support::Support;
 use standfast::Error;
@@ -118,6 +123,29 @@ pub struct GuardAssess<'r> {
     guard: Guard<'r>,
     backstop: Option<LimitRule>,
     last_stage: Stage,
+    raised: Vec<RaisedFault, MAX_EVENTS>,
+}
+
+/// The event-line names of a guard fault: sensor (`accel`, `wind_speed`,
+/// `wind_direction`) and class (the [`Fault`] variant in snake case).
+#[must_use]
+pub const fn fault_names(fault: &Fault) -> RaisedFault {
+    let sensor = match fault.sensor() {
+        Sensor::Accelerometer => "accel",
+        Sensor::WindSpeed => "wind_speed",
+        Sensor::WindDirection => "wind_direction",
+    };
+    let class = match fault {
+        Fault::NotFinite { .. } => "not_finite",
+        Fault::OutOfRange { .. } => "out_of_range",
+        Fault::TimeReversed { .. } => "time_reversed",
+        Fault::Stale { .. } => "stale",
+        Fault::Stuck { .. } => "stuck",
+        Fault::MagnitudeOutOfBand { .. } => "magnitude_out_of_band",
+        Fault::TiltStep { .. } => "tilt_step",
+        Fault::TiltBeyondLimit { .. } => "tilt_beyond_limit",
+    };
+    RaisedFault { sensor, class }
 }
 
 impl<'r> GuardAssess<'r> {
@@ -136,6 +164,7 @@ impl<'r> GuardAssess<'r> {
             guard: Guard::new(rig, config, Millis(now_ms))?,
             backstop,
             last_stage: Stage::Clear,
+            raised: Vec::new(),
         })
     }
 
@@ -173,7 +202,15 @@ impl Assess for GuardAssess<'_> {
             }),
             ..Inputs::default()
         };
-        let stage = self.guard.step(Millis(s.t_ms), &inputs).stage;
+        let verdict = self.guard.step(Millis(s.t_ms), &inputs);
+        self.raised.clear();
+        for e in &verdict.events {
+            if let GuardEvent::FaultRaised(f) = e {
+                // Capacity equals the guard's event capacity: never full.
+                let _ = self.raised.push(fault_names(f));
+            }
+        }
+        let stage = verdict.stage;
         self.last_stage = stage;
         let guard = Assessment {
             park: stage.park_requested(),
@@ -194,5 +231,9 @@ impl Assess for GuardAssess<'_> {
             guard.stage
         };
         Assessment { park, alarm, stage }
+    }
+
+    fn raised_faults(&self) -> &[RaisedFault] {
+        &self.raised
     }
 }

@@ -38,7 +38,7 @@ pub mod replay;
 pub mod station;
 pub mod wind;
 
-pub use assess::{Assess, Assessment, LimitRule, Limits, Samples, WindSample};
+pub use assess::{Assess, Assessment, LimitRule, Limits, RaisedFault, Samples, WindSample};
 pub use event::{Event, EventKind};
 pub use guard_adapter::GuardAssess;
 pub use lines::{FailSafeLines, LineState};

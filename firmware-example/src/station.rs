@@ -31,8 +31,9 @@ use embedded_hal::digital::OutputPin;
 use embedded_hal::i2c::I2c;
 use standfast::math::{self, Vec3};
 
-/// Most events one step can report (a step can raise at most 10).
-pub const MAX_EVENTS: usize = 12;
+/// Most events one step can report: at most 10 of the station's own, plus up
+/// to [`standfast::guard::MAX_EVENTS`] sensor faults from the assessment.
+pub const MAX_EVENTS: usize = 12 + standfast::guard::MAX_EVENTS;
 
 /// One sensor axis with its sign.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -242,7 +243,7 @@ pub struct Station<I2C, V, P, A, R> {
     vane_health: Health,
     start_ms: Option<u64>,
     last_step_ms: Option<u64>,
-    stage: Option<&'static str>,
+    stage: &'static str,
 }
 
 impl<I2C, V, P, A, R> Station<I2C, V, P, A, R>
@@ -278,7 +279,7 @@ where
             vane_health: Health::default(),
             start_ms: None,
             last_step_ms: None,
-            stage: None,
+            stage: "clear",
         }
     }
 
@@ -377,9 +378,18 @@ where
             pose: inputs.pose,
         };
         let assessment = self.rule.assess(&samples);
-        if self.stage != Some(assessment.stage) {
-            self.stage = Some(assessment.stage);
-            push(EventKind::Stage(assessment.stage), now_ms);
+        for raised in self.rule.raised_faults() {
+            push(EventKind::AssessFault(*raised), now_ms);
+        }
+        if self.stage != assessment.stage {
+            push(
+                EventKind::Stage {
+                    from: self.stage,
+                    to: assessment.stage,
+                },
+                now_ms,
+            );
+            self.stage = assessment.stage;
         }
 
         let usable =

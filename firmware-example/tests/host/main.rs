@@ -8,6 +8,7 @@
     clippy::float_cmp
 )]
 
+mod guard_adapter;
 mod lines;
 mod lis3dh;
 mod replay;

@@ -139,14 +139,13 @@ fn a_scripted_windy_sequence_switches_the_lines() {
         events,
         [
             "event t_ms=0 kind=started",
-            "event t_ms=0 kind=stage name=clear",
             "event t_ms=1000 kind=park_off",
             "event t_ms=1000 kind=alarm_off",
-            "event t_ms=4000 kind=stage name=park",
+            "event t_ms=4000 kind=stage from=clear to=park",
             "event t_ms=4000 kind=park_on",
-            "event t_ms=7000 kind=stage name=alarm",
+            "event t_ms=7000 kind=stage from=park to=alarm",
             "event t_ms=7000 kind=alarm_on",
-            "event t_ms=12100 kind=stage name=clear",
+            "event t_ms=12100 kind=stage from=alarm to=clear",
             "event t_ms=12100 kind=park_off",
             "event t_ms=12100 kind=alarm_off",
         ]
@@ -212,7 +211,6 @@ fn i2c_errors_past_the_stale_limit_park_and_alarm() {
         events,
         [
             "event t_ms=0 kind=started",
-            "event t_ms=0 kind=stage name=clear",
             "event t_ms=1000 kind=park_off",
             "event t_ms=1000 kind=alarm_off",
             "event t_ms=1700 kind=fault source=accel cause=bus",
@@ -305,7 +303,7 @@ fn a_stale_wind_sensor_parks_and_alarms() {
         |_, _| {},
     );
     assert_eq!(
-        events[2..],
+        events[1..],
         [
             "event t_ms=1000 kind=park_off",
             "event t_ms=1000 kind=alarm_off",
@@ -349,7 +347,7 @@ fn a_silent_vane_faults_against_the_wind_clock() {
         },
     );
     assert_eq!(
-        events[4..],
+        events[3..],
         [
             "event t_ms=5000 kind=fault source=vane cause=stale",
             "event t_ms=5000 kind=park_on",
@@ -392,9 +390,9 @@ fn a_tilted_rig_raises_the_alarm() {
         },
     );
     assert_eq!(
-        events[4..],
+        events[3..],
         [
-            "event t_ms=1500 kind=stage name=alarm",
+            "event t_ms=1500 kind=stage from=clear to=alarm",
             "event t_ms=1500 kind=park_on",
             "event t_ms=1500 kind=alarm_on",
         ]
