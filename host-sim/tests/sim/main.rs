@@ -7,6 +7,7 @@ mod demo;
 mod located;
 mod log_merge;
 mod log_time;
+mod real_wind;
 mod replay;
 mod rigfile;
 mod units;
