@@ -670,6 +670,9 @@ pub struct AssessArgs {
     /// Design gust for ballast and tie-down needs, m/s.
     #[arg(long, value_name = "M/S", default_value_t = 20.0)]
     pub design_gust: f32,
+    /// Also write a self-contained HTML report with charts to this file.
+    #[arg(long, value_name = "FILE")]
+    pub html: Option<std::path::PathBuf>,
 }
 
 /// Runs `standfast assess`.
@@ -684,10 +687,16 @@ pub fn run(a: &AssessArgs, out: &mut dyn Write) -> Result<(), Error> {
         ..AssessOptions::default()
     };
     let rep = assess(&r, &o)?;
+    if let Some(h) = &a.html {
+        crate::report::write_page(h, &crate::report::assess_html(&rep, &r)?)?;
+    }
     let res = if a.json {
         write_json(&rep, out)
     } else {
-        write_text(&rep, out)
+        write_text(&rep, out).and_then(|()| match &a.html {
+            Some(h) => writeln!(out, "Report written to {}", h.display()),
+            None => Ok(()),
+        })
     };
     res.map_err(|e| Error::io("<standard output>", e))
 }

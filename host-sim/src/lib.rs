@@ -17,6 +17,7 @@ pub mod error;
 pub mod located;
 pub mod log;
 pub mod replay;
+pub mod report;
 pub mod rigfile;
 pub mod summary;
 pub mod units;

@@ -155,6 +155,9 @@ pub struct RigReplay {
     pub faults: Vec<FaultSeen>,
     /// Faults not kept.
     pub faults_not_kept: u64,
+    /// Bounded time series for the HTML report (not in the JSON summary).
+    #[serde(skip)]
+    pub series: crate::report::series::Series,
 }
 
 /// Count of one kind of log issue.
@@ -322,6 +325,7 @@ impl Tracker {
                 stage_changes_not_kept: 0,
                 faults: Vec::new(),
                 faults_not_kept: 0,
+                series: crate::report::series::Series::new(),
             },
             stage_s: [0.0; 5],
             last_stage: Stage::Clear,
@@ -422,6 +426,28 @@ fn write_verdict(
     )
 }
 
+/// Records between two updates of the progress bar.
+const PROGRESS_EVERY: u64 = 1 << 16;
+
+/// A spinner on standard error counting records, drawn only when standard
+/// error is a terminal.
+fn progress_bar() -> indicatif::ProgressBar {
+    use std::io::IsTerminal;
+    let target = if std::io::stderr().is_terminal() {
+        indicatif::ProgressDrawTarget::stderr()
+    } else {
+        indicatif::ProgressDrawTarget::hidden()
+    };
+    let pb = indicatif::ProgressBar::with_draw_target(None, target);
+    pb.set_style(
+        indicatif::ProgressStyle::with_template(
+            "{spinner} replaying: {human_pos} records, {per_sec}, {elapsed}",
+        )
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_spinner()),
+    );
+    pb
+}
+
 /// Replays the merged stream through one guard per rig.
 ///
 /// `verdicts`, when given, receives a CSV of verdicts (every
@@ -459,7 +485,11 @@ pub fn replay(
     let mut t0: Option<Timestamp> = None;
     let mut last: Option<Timestamp> = None;
     let mut n: u64 = 0;
+    let progress = progress_bar();
     while let Some(rec) = merger.next_record()? {
+        if n % PROGRESS_EVERY == 0 {
+            progress.set_position(n);
+        }
         let start = *t0.get_or_insert(rec.time);
         let now = millis_since(rec.time, start);
         let t_s = rec.time.seconds_since(start);
@@ -469,6 +499,9 @@ pub fn replay(
         for (i, (g, tr)) in guards.iter_mut().zip(trackers.iter_mut()).enumerate() {
             let v = g.step(now, &inputs);
             tr.take(&v, rec.time, t_s, dt_s);
+            tr.report
+                .series
+                .push(t_s, &v, rec.wind_speed_mps, rec.cover_fitted);
             if let Some((w, name)) = verdicts.as_mut() {
                 let has_event = v
                     .events
@@ -482,6 +515,7 @@ pub fn replay(
         }
         n += 1;
     }
+    progress.finish_and_clear();
     if let Some((w, name)) = verdicts.as_mut() {
         w.flush().map_err(|e| Error::io(*name, e))?;
     }
@@ -539,6 +573,9 @@ pub struct ReplayArgs {
     #[arg(long, value_name = "N", default_value_t = 1, requires = "verdicts",
           value_parser = clap::value_parser!(u64).range(1..))]
     pub every: u64,
+    /// Also write a self-contained HTML report with charts to this file.
+    #[arg(long, value_name = "FILE")]
+    pub html: Option<std::path::PathBuf>,
 }
 
 /// Arguments of `demo`.
@@ -646,6 +683,13 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
     let mut merger = open_logs(&profile, &a.logs)?;
     let rep = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
     crate::summary::write(&rep, a.json, out)?;
+    if let Some(h) = &a.html {
+        crate::report::write_page(h, &crate::report::replay_html(&rep, &rigs)?)?;
+        if !a.json {
+            writeln!(out, "Report written to {}", h.display())
+                .map_err(|e| Error::io("<standard output>", e))?;
+        }
+    }
     if let Some(v) = &a.verdicts {
         if !a.json {
             writeln!(out, "Verdicts written to {}", v.display())
@@ -673,7 +717,14 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     let mut merger = open_logs(&logs.profile_toml, &[])?;
     let rep = replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
     crate::summary::write(&rep, a.json, out)?;
+    let report = a.out.join("report.html");
+    crate::report::write_page(
+        &report,
+        &crate::report::replay_html(&rep, std::slice::from_ref(&rig))?,
+    )?;
     if !a.json {
+        writeln!(out, "\nReport: {}", report.display())
+            .map_err(|e| Error::io("<standard output>", e))?;
         writeln!(
             out,
             "\nAn invented windy night (seed {}); no real rig or site is described. Files written:\n  {}\n  {}\n  {}\n  {}\n  {}\n  {} (every 10th record)",

@@ -9,6 +9,7 @@ mod log_merge;
 mod log_time;
 mod real_wind;
 mod replay;
+mod report;
 mod rigfile;
 mod units;
 mod readme;

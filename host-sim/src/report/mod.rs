@@ -1,0 +1,708 @@
+//! Self-contained HTML reports with SVG charts, for a replay
+//! ([`replay_html`]) and for a static assessment ([`assess_html`]).
+//!
+//! Everything is inline (CSS and SVG); the page loads nothing and runs no
+//! script, so it opens anywhere without a network. The charts are drawn by
+//! the small writer in [`svg`]; the replay's time series comes from the
+//! bounded collector in [`series`]. Units on the page: utilisation as a
+//! fraction (1.0 is the limit), speeds m/s, angles degrees (wind directions
+//! are where the wind blows FROM, clockwise from north), time as h:mm since
+//! the first record.
+
+pub mod html;
+pub mod series;
+pub mod svg;
+
+use std::path::Path;
+
+use standfast::frame::Tilt;
+use standfast::guard::Stage;
+use standfast::mount::{PierSide, Pose};
+use standfast::rig::{Conditions, Rig};
+
+use crate::assess::{AssessReport, CAUTIONS};
+use crate::error::Error;
+use crate::replay::{Approach, ReplayReport, RigReplay, STAGES};
+use crate::rigfile::LoadedRig;
+use html::Page;
+use series::Series;
+use svg::{HLine, HeatMap, Line, LineChart, Mark, PolarChart, PolarMarker, PolarTrace, Span};
+
+/// Step of the polar charts' directions, degrees (72 directions).
+pub const POLAR_STEP_DEG: u32 = 5;
+
+/// Step of the axis-torque map over hour angle and declination, degrees.
+pub const TORQUE_MAP_STEP_DEG: i32 = 15;
+
+/// The report's colour of each stage (in [`STAGES`] order).
+fn stage_colour(s: Stage) -> &'static str {
+    match s {
+        Stage::Clear => "#9bcf9b",
+        Stage::Watch => "#e2bd3a",
+        Stage::ParkNow => "#e58a2e",
+        Stage::Alarm => "#c8372d",
+        Stage::SensorFault => "#7b7f9e",
+    }
+}
+
+fn stage_cat(s: Stage) -> usize {
+    STAGES.iter().position(|x| *x == s).unwrap_or(0)
+}
+
+/// A pose in words: axis angles, hour angle and declination, or azimuth and
+/// altitude, in degrees (hour angle in hours).
+#[must_use]
+pub fn pose_words(p: &Pose) -> String {
+    match p {
+        Pose::Axes {
+            primary_rad,
+            secondary_rad,
+        } => format!(
+            "axes {:.1}°, {:.1}°",
+            primary_rad.to_degrees(),
+            secondary_rad.to_degrees()
+        ),
+        Pose::Equatorial {
+            hour_angle_rad,
+            declination_rad,
+            pier_side,
+        } => format!(
+            "hour angle {:+.2} h, declination {:+.1}°, {}",
+            hour_angle_rad.to_degrees() / 15.0,
+            declination_rad.to_degrees(),
+            side_words(*pier_side)
+        ),
+        Pose::Horizontal {
+            azimuth_rad,
+            altitude_rad,
+            pier_side,
+        } => format!(
+            "azimuth {:.1}°, altitude {:.1}°, {}",
+            azimuth_rad.to_degrees(),
+            altitude_rad.to_degrees(),
+            side_words(*pier_side)
+        ),
+    }
+}
+
+fn side_words(s: PierSide) -> &'static str {
+    match s {
+        PierSide::TubeEast => "tube east",
+        PierSide::TubeWest => "tube west",
+    }
+}
+
+fn opt(v: Option<f32>, unit: &str, digits: usize) -> String {
+    v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
+}
+
+/// Tip wind speed every [`POLAR_STEP_DEG`] degrees of wind direction (from),
+/// by [`Rig::assess`] in the given conditions (their own direction is
+/// replaced).
+///
+/// # Errors
+/// The core's error for invalid conditions.
+pub fn tip_wind_by_direction(
+    rig: &Rig,
+    c: &Conditions,
+) -> Result<Vec<(f64, Option<f64>)>, standfast::Error> {
+    let mut out = Vec::with_capacity(72);
+    for k in 0..(360 / POLAR_STEP_DEG) {
+        let deg = k * POLAR_STEP_DEG;
+        let mut cc = *c;
+        #[allow(clippy::cast_precision_loss)] // deg < 360
+        let from = (deg as f32).to_radians();
+        cc.wind_from_rad = from;
+        let tip = rig.assess(&cc)?.tip_wind_mps;
+        out.push((f64::from(deg), tip.map(f64::from)));
+    }
+    Ok(out)
+}
+
+/// The conditions at a closest approach: its pose, tilt and wind direction,
+/// the site's air and the cover state held then (off when unknown).
+///
+/// # Errors
+/// The core's error for an invalid tilt.
+pub fn approach_conditions(
+    r: &LoadedRig,
+    a: &Approach,
+    cover: Option<bool>,
+) -> Result<Conditions, standfast::Error> {
+    let mut c = Conditions::calm(a.pose);
+    c.air = r.air;
+    c.cover_fitted = cover.unwrap_or(false);
+    if let (Some(m), Some(d)) = (a.tilt_deg, a.tilt_downhill_deg) {
+        c.tilt = Tilt::new(m.to_radians(), d.to_radians())?;
+    }
+    if let Some(w) = a.wind_from_deg {
+        c.wind_from_rad = w.to_radians();
+    }
+    Ok(c)
+}
+
+fn approach_row(label: &str, a: Option<&Approach>) -> Vec<String> {
+    let Some(a) = a else {
+        return vec![
+            label.to_owned(),
+            "no figure".to_owned(),
+            "-".to_owned(),
+            "-".to_owned(),
+            "-".to_owned(),
+            "-".to_owned(),
+            "-".to_owned(),
+            "-".to_owned(),
+            "-".to_owned(),
+        ];
+    };
+    vec![
+        label.to_owned(),
+        format!("{:.0} %", a.utilisation * 100.0),
+        format!("{} (+{:.0} s)", a.time, a.t_s),
+        opt(a.gust_mps, "m/s", 1),
+        opt(a.wind_from_deg, "°", 0),
+        pose_words(&a.pose),
+        opt(a.tilt_deg, "°", 2),
+        opt(a.tip_wind_mps, "m/s", 1),
+        a.stage.name().to_owned(),
+    ]
+}
+
+fn points(s: &Series, f: impl Fn(&series::SeriesPoint) -> Option<f32>) -> Vec<(f64, Option<f64>)> {
+    s.points
+        .iter()
+        .map(|p| ((p.t_start_s + p.t_last_s) / 2.0, f(p).map(f64::from)))
+        .collect()
+}
+
+fn line(name: &str, colour: &str, pts: Vec<(f64, Option<f64>)>) -> Line {
+    Line {
+        name: name.to_owned(),
+        colour: colour.to_owned(),
+        points: pts,
+        dashed: false,
+        dots: false,
+    }
+}
+
+fn event_marks(r: &RigReplay) -> Vec<Mark> {
+    let mut m: Vec<Mark> = r
+        .stage_changes
+        .iter()
+        .map(|c| Mark {
+            x: c.t_s,
+            label: format!("{} → {}", c.from.name(), c.to.name()),
+            colour: stage_colour(c.to).to_owned(),
+        })
+        .collect();
+    m.extend(r.faults.iter().map(|f| Mark {
+        x: f.t_s,
+        label: format!("fault: {}", f.fault),
+        colour: stage_colour(Stage::SensorFault).to_owned(),
+    }));
+    m.sort_by(|a, b| a.x.total_cmp(&b.x));
+    m
+}
+
+fn stage_spans(s: &Series) -> Vec<Span> {
+    let mut out: Vec<Span> = Vec::new();
+    for (i, p) in s.points.iter().enumerate() {
+        let end = s
+            .points
+            .get(i + 1)
+            .map_or(p.t_last_s.max(p.t_start_s + s.width_s), |q| q.t_start_s);
+        let cat = stage_cat(p.stage);
+        match out.last_mut() {
+            Some(l) if l.cat == cat && (l.t1 - p.t_start_s).abs() < 1e-9 => l.t1 = end,
+            _ => out.push(Span {
+                t0: p.t_start_s,
+                t1: end,
+                cat,
+            }),
+        }
+    }
+    out
+}
+
+fn rig_section(
+    page: &mut Page,
+    rep: &ReplayReport,
+    r: &RigReplay,
+    rig: Option<&LoadedRig>,
+) -> Result<(), Error> {
+    page.h2(&format!("Rig {}", r.rig_file));
+    page.p(&format!(
+        "Highest stage {}, final stage {}.",
+        r.highest_stage.name(),
+        r.final_stage.name()
+    ));
+    page.h3("Closest approach");
+    let mut rows = vec![
+        approach_row("overturning", r.overturning.as_ref()),
+        approach_row("sliding", r.sliding.as_ref()),
+    ];
+    for (i, d) in r.drive.iter().enumerate() {
+        if d.is_some() {
+            rows.push(approach_row(&format!("drive axis {}", i + 1), d.as_ref()));
+        }
+    }
+    page.table(
+        &[
+            "figure",
+            "utilisation",
+            "time",
+            "gust",
+            "from",
+            "pose",
+            "tilt",
+            "tip wind",
+            "stage",
+        ],
+        &rows,
+    );
+
+    let s = &r.series;
+    let x_range = (0.0, rep.duration_s.max(s.width_s));
+    let bucket = format!(
+        "Each point is the highest value (mean for the mean wind) over {:.0} s of log.",
+        s.width_s
+    );
+    // (a) Utilisation with the guard thresholds and the event marks.
+    let mut u = LineChart::new(
+        "Utilisation over time",
+        "time since the first record (h:mm)",
+        "utilisation (1 = limit)",
+    );
+    u.x_range = x_range;
+    u.lines.push(line(
+        "overturning",
+        "#1f5fa8",
+        points(s, |p| p.overturning_max),
+    ));
+    let mut pred = line(
+        "predicted (end of park)",
+        "#7a4fb0",
+        points(s, |p| p.predicted_max),
+    );
+    pred.dashed = true;
+    u.lines.push(pred);
+    u.lines
+        .push(line("sliding", "#2a9d8f", points(s, |p| p.sliding_max)));
+    if let Some(l) = rig {
+        for (value, label, colour) in [
+            (l.guard.watch_utilisation, "watch", "#b8901a"),
+            (l.guard.park_utilisation, "park", "#d06a10"),
+            (l.guard.alarm_utilisation, "alarm", "#b5321f"),
+        ] {
+            u.hlines.push(HLine {
+                value: f64::from(value),
+                label: format!("{label} {value:.2}"),
+                colour: colour.to_owned(),
+            });
+        }
+    }
+    u.marks = event_marks(r);
+    page.figure(
+        &u.to_svg(),
+        &format!("Overturning, predicted and sliding utilisation with the guard's watch, park and alarm thresholds (dashed) and the stage changes and faults (vertical lines). {bucket}"),
+    );
+    // Stage timeline.
+    let cats: Vec<(&str, &str)> = STAGES
+        .iter()
+        .map(|st| (st.name(), stage_colour(*st)))
+        .collect();
+    page.figure(
+        &svg::timeline("Stage over time", x_range, &stage_spans(s), &cats),
+        "The guard's stage; each interval shows its most severe stage.",
+    );
+    // (b) Wind speed and direction.
+    let mut w = LineChart::new(
+        "Wind speed",
+        "time since the first record (h:mm)",
+        "wind speed (m/s)",
+    );
+    w.x_range = x_range;
+    w.lines.push(line(
+        "highest sample",
+        "#d69e2e",
+        points(s, |p| p.wind_max_mps),
+    ));
+    w.lines.push(line(
+        "gust used by the guard",
+        "#c05621",
+        points(s, |p| p.gust_max_mps),
+    ));
+    w.lines.push(line(
+        "mean wind",
+        "#2b6cb0",
+        points(s, series::SeriesPoint::wind_mean_mps),
+    ));
+    w.marks = event_marks(r);
+    page.figure(&w.to_svg(), &format!("Wind speed: the anemometer's highest sample and mean, and the gust the guard's figures use (its peak estimate over its window). {bucket}"));
+    let mut d = LineChart::new(
+        "Wind direction",
+        "time since the first record (h:mm)",
+        "from (degrees)",
+    );
+    d.x_range = x_range;
+    d.y_range = Some((0.0, 360.0));
+    d.y_step = Some(90.0);
+    let mut dl = line(
+        "direction at the highest gust",
+        "#4a5568",
+        points(s, |p| p.wind_from_deg),
+    );
+    dl.dots = true;
+    d.lines.push(dl);
+    page.figure(
+        &d.to_svg(),
+        "Direction the wind blows from (0° north, 90° east), at each interval's highest gust.",
+    );
+    // (c) Tilt.
+    let mut t = LineChart::new(
+        "Ground tilt",
+        "time since the first record (h:mm)",
+        "tilt (degrees)",
+    );
+    t.x_range = x_range;
+    t.lines.push(line(
+        "tilt (highest)",
+        "#6b46c1",
+        points(s, |p| p.tilt_max_deg),
+    ));
+    t.marks = event_marks(r);
+    page.figure(
+        &t.to_svg(),
+        &format!("Tilt of the rig from the vertical. {bucket}"),
+    );
+    // (d) Polar chart at the closest approach.
+    if let (Some(l), Some(a)) = (rig, r.overturning.as_ref()) {
+        let c =
+            approach_conditions(l, a, s.cover_at_closest).map_err(|e| core_err(&r.rig_file, &e))?;
+        let pts = tip_wind_by_direction(&l.rig, &c).map_err(|e| core_err(&r.rig_file, &e))?;
+        let chart = PolarChart {
+            title: "Tip wind speed by direction at the closest approach".to_owned(),
+            r_label: "tip wind (m/s)".to_owned(),
+            traces: vec![PolarTrace {
+                name: "tip wind".to_owned(),
+                colour: "#1f5fa8".to_owned(),
+                points: pts,
+            }],
+            marker: match (a.wind_from_deg, a.gust_mps) {
+                (Some(dir), Some(g)) => Some(PolarMarker {
+                    deg: f64::from(dir),
+                    value: f64::from(g),
+                    label: format!("gust {g:.1} m/s"),
+                }),
+                _ => None,
+            },
+            size: 420.0,
+        };
+        page.figure(
+            &chart.to_svg(),
+            &format!(
+                "Lowest wind speed that would tip the rig, for a wind from each direction (every {POLAR_STEP_DEG}°), in the pose of the closest approach ({}), tilt {}, cover {}. The dot is the gust there. Open circles on the outer ring: no wind tips it from that direction.",
+                pose_words(&a.pose),
+                match (a.tilt_deg, a.tilt_downhill_deg) {
+                    (Some(m), Some(dd)) => format!("{m:.2}° downhill toward {dd:.0}°"),
+                    _ => "unknown (level assumed)".to_owned(),
+                },
+                match s.cover_at_closest {
+                    Some(true) => "fitted",
+                    Some(false) => "off",
+                    None => "unknown (off assumed)",
+                }
+            ),
+        );
+    }
+    page.h3("Time per stage");
+    let rows: Vec<Vec<String>> = r
+        .stage_time
+        .iter()
+        .map(|t| {
+            vec![
+                t.stage.name().to_owned(),
+                format!("{:.0} s", t.seconds),
+                format!(
+                    "{:.1} %",
+                    if rep.duration_s > 0.0 {
+                        t.seconds / rep.duration_s * 100.0
+                    } else {
+                        0.0
+                    }
+                ),
+            ]
+        })
+        .collect();
+    page.table(&["stage", "time", "share"], &rows);
+    page.h3(&format!("Stage changes ({})", r.stage_changes.len()));
+    let rows: Vec<Vec<String>> = r
+        .stage_changes
+        .iter()
+        .map(|c| {
+            vec![
+                c.time.clone(),
+                format!("+{:.0} s", c.t_s),
+                c.from.name().to_owned(),
+                c.to.name().to_owned(),
+                c.cause.clone(),
+            ]
+        })
+        .collect();
+    page.table(&["time", "since start", "from", "to", "cause"], &rows);
+    if r.stage_changes_not_kept > 0 {
+        page.note(&format!(
+            "… and {} more not kept.",
+            r.stage_changes_not_kept
+        ));
+    }
+    page.h3(&format!("Sensor faults ({})", r.faults.len()));
+    let rows: Vec<Vec<String>> = r
+        .faults
+        .iter()
+        .map(|f| vec![f.time.clone(), format!("+{:.0} s", f.t_s), f.fault.clone()])
+        .collect();
+    page.table(&["time", "since start", "fault"], &rows);
+    if r.faults_not_kept > 0 {
+        page.note(&format!("… and {} more not kept.", r.faults_not_kept));
+    }
+    Ok(())
+}
+
+fn core_err(file: &str, e: &standfast::Error) -> Error {
+    Error::Input(crate::located::InputError {
+        at: None,
+        key: Some(e.field.to_owned()),
+        value: None,
+        problem: format!("{file}: the report cannot be drawn: {e}"),
+    })
+}
+
+/// The replay report as a self-contained HTML page. `rigs` are the rig
+/// files replayed, in the report's order (thresholds and the polar chart
+/// come from them; a rig missing from the list gets no thresholds or polar
+/// chart).
+///
+/// # Errors
+/// [`Error::Input`] when the core refuses the closest approach's conditions.
+pub fn replay_html(rep: &ReplayReport, rigs: &[LoadedRig]) -> Result<String, Error> {
+    let mut page = Page::new("Standfast replay report");
+    page.cautions(CAUTIONS);
+    page.h2("Summary");
+    page.p(&format!(
+        "Replayed {} merged records ({} log rows) from {} to {} ({:.0} s).",
+        rep.records,
+        rep.rows,
+        rep.start.as_deref().unwrap_or("-"),
+        rep.end.as_deref().unwrap_or("-"),
+        rep.duration_s
+    ));
+    let issues: Vec<String> = rep
+        .issues
+        .iter()
+        .filter(|c| c.count > 0)
+        .map(|c| format!("{} {}", c.count, c.kind))
+        .collect();
+    page.p(&format!(
+        "Log issues: {}{}.",
+        rep.issues_total,
+        if issues.is_empty() {
+            String::new()
+        } else {
+            format!(" ({})", issues.join(", "))
+        }
+    ));
+    if !rep.first_issues.is_empty() {
+        page.pre(&rep.first_issues.join("\n"));
+    }
+    for (i, r) in rep.rigs.iter().enumerate() {
+        rig_section(&mut page, rep, r, rigs.get(i))?;
+    }
+    page.note("Standfast replay report; all charts are drawn from the replay above.");
+    page.cautions(CAUTIONS);
+    Ok(page.finish())
+}
+
+/// The usual pier side for an hour angle: tube east for targets west of the
+/// meridian (hour angle ≥ 0), tube west for targets east of it (as the
+/// core's [`PierSide`] documents).
+fn usual_side(ha_deg: i32) -> PierSide {
+    if ha_deg >= 0 {
+        PierSide::TubeEast
+    } else {
+        PierSide::TubeWest
+    }
+}
+
+/// |Gravity torque| ÷ rated torque of each axis over hour angle (columns,
+/// −180° to 180°) and declination (rows, 90° down to −90°), every
+/// [`TORQUE_MAP_STEP_DEG`] degrees, level ground, calm, cover off, on the
+/// usual pier side. Without drive ratings the values are divided by the
+/// largest |gravity torque| of that axis on the map instead (the `bool` is
+/// false then). Poses the core refuses are `None`.
+#[must_use]
+pub fn torque_map(r: &LoadedRig) -> ([Vec<Vec<Option<f64>>>; 2], bool) {
+    let step = TORQUE_MAP_STEP_DEG;
+    let decs: Vec<i32> = (0..=180 / step).map(|k| 90 - k * step).collect();
+    let has = (-180 / step..=180 / step).map(|k| k * step);
+    let ha: Vec<i32> = has.collect();
+    let rated = r
+        .rig
+        .drives()
+        .map(|d| [d.primary.rated_nm, d.secondary.rated_nm]);
+    let mut maps: [Vec<Vec<Option<f64>>>; 2] = [Vec::new(), Vec::new()];
+    for &dec in &decs {
+        let mut rows: [Vec<Option<f64>>; 2] = [Vec::new(), Vec::new()];
+        for &h in &ha {
+            #[allow(clippy::cast_precision_loss)]
+            let pose = Pose::Equatorial {
+                hour_angle_rad: (h as f32).to_radians(),
+                declination_rad: (dec as f32).to_radians(),
+                pier_side: usual_side(h),
+            };
+            let mut c = Conditions::calm(pose);
+            c.air = r.air;
+            let loads = r.rig.axis_loads(&c, 0.0).ok();
+            for (axis, row) in rows.iter_mut().enumerate() {
+                let g = loads.map(|l| {
+                    if axis == 0 {
+                        l.primary.gravity_nm
+                    } else {
+                        l.secondary.gravity_nm
+                    }
+                });
+                let v = match (g, rated) {
+                    (Some(g), Some(rt)) => rt.get(axis).map(|rt| f64::from(g.abs() / rt)),
+                    (Some(g), None) => Some(f64::from(g.abs())),
+                    (None, _) => None,
+                };
+                row.push(v);
+            }
+        }
+        for (m, row) in maps.iter_mut().zip(rows) {
+            m.push(row);
+        }
+    }
+    if rated.is_none() {
+        for m in &mut maps {
+            let top = m.iter().flatten().flatten().fold(0.0_f64, |a, b| a.max(*b));
+            if top > 0.0 {
+                for v in m.iter_mut().flatten().flatten() {
+                    *v /= top;
+                }
+            }
+        }
+    }
+    (maps, rated.is_some())
+}
+
+/// The assessment report as a self-contained HTML page: tip wind by
+/// direction in the home pose and in the worst pose of the sky scan (cover
+/// off, level), the axis-torque maps, the text sections and the cautions.
+///
+/// # Errors
+/// [`Error::Input`] when the core refuses a case.
+pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
+    let e = |x: standfast::Error| core_err(&rep.file, &x);
+    let mut page = Page::new(&format!("Standfast assessment of {}", rep.file));
+    page.cautions(&rep.cautions);
+    page.h2("Tip wind speed by direction");
+    let home = r.rig.mount().home_pose();
+    let mut c = Conditions::calm(home);
+    c.air = r.air;
+    let home_pts = tip_wind_by_direction(&r.rig, &c).map_err(e)?;
+    let mut cw = Conditions::calm(rep.sky.tip.pose);
+    cw.air = r.air;
+    let worst_pts = tip_wind_by_direction(&r.rig, &cw).map_err(e)?;
+    let chart = PolarChart {
+        title: "Tip wind speed by direction".to_owned(),
+        r_label: "tip wind (m/s)".to_owned(),
+        traces: vec![
+            PolarTrace {
+                name: "home pose".to_owned(),
+                colour: "#1f5fa8".to_owned(),
+                points: home_pts,
+            },
+            PolarTrace {
+                name: "worst pose of the sky".to_owned(),
+                colour: "#c05621".to_owned(),
+                points: worst_pts,
+            },
+        ],
+        marker: rep.sky.tip.tip_wind_mps.map(|v| PolarMarker {
+            deg: f64::from(rep.sky.tip.from_rad.to_degrees()),
+            value: f64::from(v),
+            label: format!("lowest {v:.1} m/s"),
+        }),
+        size: 440.0,
+    };
+    page.figure(
+        &chart.to_svg(),
+        &format!(
+            "Lowest wind speed that tips the rig, for a wind from each direction (every {POLAR_STEP_DEG}°), level ground, cover off: in the home pose ({}) and in the worst pose of the sky scan ({}). Open circles on the outer ring: no wind tips it from that direction.",
+            pose_words(&home),
+            pose_words(&rep.sky.tip.pose)
+        ),
+    );
+    page.h2("Axis torque over the sky");
+    let (maps, rated) = torque_map(r);
+    let step = TORQUE_MAP_STEP_DEG;
+    let x_labels: Vec<String> = (-180 / step..=180 / step)
+        .map(|k| format!("{:+}", k * step / 15))
+        .collect();
+    let y_labels: Vec<String> = (0..=180 / step)
+        .map(|k| format!("{:+}°", 90 - k * step))
+        .collect();
+    for (axis, m) in ["primary", "secondary"].iter().zip(maps) {
+        if m.iter().flatten().all(Option::is_none) {
+            page.note(&format!(
+                "No {axis}-axis map: the mount does not take hour angle and declination poses."
+            ));
+            continue;
+        }
+        let hm = HeatMap {
+            title: format!(
+                "{axis} axis: |gravity torque| ÷ {}",
+                if rated {
+                    "rated torque"
+                } else {
+                    "largest on the map"
+                }
+            ),
+            x_label: "hour angle (h)".to_owned(),
+            y_label: "declination".to_owned(),
+            x_labels: x_labels.clone(),
+            y_labels: y_labels.clone(),
+            values: m,
+            value_label: "utilisation".to_owned(),
+        };
+        page.figure(
+            &hm.to_svg(),
+            &format!(
+                "Gravity torque on the {axis} axis every {step}° of hour angle and declination, calm, level, cover off, on the usual pier side (tube east at hour angles ≥ 0, tube west below), {}.",
+                if rated {
+                    "as a fraction of the drive's rated torque (over 1: beyond the rating)"
+                } else {
+                    "as a fraction of the largest on the map (the rig file gives no drive ratings)"
+                }
+            ),
+        );
+    }
+    page.h2("Assessment");
+    let mut text = Vec::new();
+    crate::assess::write_text(rep, &mut text).map_err(|x| Error::io("<report>", x))?;
+    page.pre(&String::from_utf8_lossy(&text));
+    page.cautions(&rep.cautions);
+    Ok(page.finish())
+}
+
+/// Writes a report page to `path` (creating its folder).
+///
+/// # Errors
+/// [`Error::Io`] when the file cannot be written.
+pub fn write_page(path: &Path, html: &str) -> Result<(), Error> {
+    if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
+        std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+    }
+    std::fs::write(path, html).map_err(|e| Error::io(path, e))
+}

@@ -1,0 +1,224 @@
+//! A bounded time series of a replay, for the report's charts.
+//!
+//! The replay pushes every verdict; the series keeps per-interval buckets
+//! (the highest utilisations, gust and tilt, the mean wind, the direction of
+//! the highest gust, the most severe stage). Buckets start [`FIRST_WIDTH_S`]
+//! wide; whenever a record would open bucket number [`MAX_SERIES_POINTS`],
+//! neighbouring buckets are merged in pairs and the width doubles. So the
+//! series never holds more than [`MAX_SERIES_POINTS`] buckets, whatever the
+//! log's length, and a log of length T ends with buckets between T/2000 and
+//! T/1000 wide (at least [`FIRST_WIDTH_S`]).
+//!
+//! Times are seconds since the first record; utilisations are
+//! dimensionless (1.0 is the limit); speeds m/s; angles degrees (wind from,
+//! clockwise from north; tilt from the vertical).
+
+use serde::Serialize;
+use standfast::guard::{Stage, Verdict};
+
+/// Most buckets a series holds.
+pub const MAX_SERIES_POINTS: usize = 2000;
+
+/// Width of the buckets at the start, seconds.
+pub const FIRST_WIDTH_S: f64 = 1.0;
+
+/// One bucket of the series.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct SeriesPoint {
+    /// Start of the bucket, seconds since the first record.
+    pub t_start_s: f64,
+    /// Time of the bucket's last record, seconds since the first record.
+    pub t_last_s: f64,
+    /// Highest overturning utilisation.
+    pub overturning_max: Option<f32>,
+    /// Highest predicted overturning utilisation (end of a park).
+    pub predicted_max: Option<f32>,
+    /// Highest sliding utilisation.
+    pub sliding_max: Option<f32>,
+    /// Highest gust the guard used, m/s.
+    pub gust_max_mps: Option<f32>,
+    /// Direction (from) at the highest gust, degrees clockwise from north.
+    pub wind_from_deg: Option<f32>,
+    /// Highest wind speed held at a record (the anemometer's highest
+    /// sample), m/s.
+    pub wind_max_mps: Option<f32>,
+    /// Sum of the wind speeds held at each record, m/s (for the mean).
+    wind_sum_mps: f64,
+    /// Records with a wind speed.
+    wind_n: u32,
+    /// Largest ground tilt, degrees.
+    pub tilt_max_deg: Option<f32>,
+    /// Most severe stage in the bucket.
+    pub stage: Stage,
+    /// Records in the bucket.
+    pub records: u32,
+}
+
+impl SeriesPoint {
+    fn empty(t_start_s: f64, t_s: f64) -> SeriesPoint {
+        SeriesPoint {
+            t_start_s,
+            t_last_s: t_s,
+            overturning_max: None,
+            predicted_max: None,
+            sliding_max: None,
+            gust_max_mps: None,
+            wind_from_deg: None,
+            wind_max_mps: None,
+            wind_sum_mps: 0.0,
+            wind_n: 0,
+            tilt_max_deg: None,
+            stage: Stage::Clear,
+            records: 0,
+        }
+    }
+
+    /// Mean of the wind speed held at the bucket's records, m/s.
+    #[must_use]
+    pub fn wind_mean_mps(&self) -> Option<f32> {
+        if self.wind_n == 0 {
+            None
+        } else {
+            #[allow(clippy::cast_possible_truncation)] // m/s fit f32
+            Some((self.wind_sum_mps / f64::from(self.wind_n)) as f32)
+        }
+    }
+
+    fn merge(&mut self, o: &SeriesPoint) {
+        self.t_last_s = self.t_last_s.max(o.t_last_s);
+        self.overturning_max = hi(self.overturning_max, o.overturning_max);
+        self.predicted_max = hi(self.predicted_max, o.predicted_max);
+        self.sliding_max = hi(self.sliding_max, o.sliding_max);
+        if o.gust_max_mps.is_some() && hi(self.gust_max_mps, o.gust_max_mps) != self.gust_max_mps {
+            self.gust_max_mps = o.gust_max_mps;
+            self.wind_from_deg = o.wind_from_deg;
+        }
+        self.wind_max_mps = hi(self.wind_max_mps, o.wind_max_mps);
+        self.wind_sum_mps += o.wind_sum_mps;
+        self.wind_n = self.wind_n.saturating_add(o.wind_n);
+        self.tilt_max_deg = hi(self.tilt_max_deg, o.tilt_max_deg);
+        self.stage = self.stage.max(o.stage);
+        self.records = self.records.saturating_add(o.records);
+    }
+}
+
+/// The higher of two optional values (a finite value beats `None`).
+fn hi(a: Option<f32>, b: Option<f32>) -> Option<f32> {
+    match (a, b.filter(|x| x.is_finite())) {
+        (Some(x), Some(y)) => Some(if y > x { y } else { x }),
+        (None, y) => y,
+        (x, None) => x,
+    }
+}
+
+/// The bounded series of one rig in a replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Series {
+    /// Width of every bucket, seconds.
+    pub width_s: f64,
+    /// Buckets with at least one record, in time order.
+    pub points: Vec<SeriesPoint>,
+    /// Index (`t_start_s / width_s`) of the last bucket.
+    last_index: u64,
+    /// Highest overturning utilisation pushed (strictly rising, as the
+    /// replay's closest approach).
+    top_overturning: Option<f32>,
+    /// Cover state held at the record of [`Series::top_overturning`].
+    pub cover_at_closest: Option<bool>,
+}
+
+impl Default for Series {
+    fn default() -> Self {
+        Series::new()
+    }
+}
+
+impl Series {
+    /// An empty series.
+    #[must_use]
+    pub fn new() -> Series {
+        Series {
+            width_s: FIRST_WIDTH_S,
+            points: Vec::with_capacity(MAX_SERIES_POINTS),
+            last_index: 0,
+            top_overturning: None,
+            cover_at_closest: None,
+        }
+    }
+
+    fn index_of(&self, t_s: f64) -> u64 {
+        let k = (t_s.max(0.0) / self.width_s).floor();
+        // Saturating float-to-int conversion; times are far below 2^53 s.
+        #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+        let k = k as u64;
+        k
+    }
+
+    /// Merges buckets in pairs and doubles the width.
+    fn coarsen(&mut self) {
+        self.width_s *= 2.0;
+        let mut merged: Vec<SeriesPoint> = Vec::with_capacity(MAX_SERIES_POINTS);
+        let mut last: Option<u64> = None;
+        for p in &self.points {
+            let k = self.index_of(p.t_start_s);
+            match merged.last_mut() {
+                Some(m) if last == Some(k) => m.merge(p),
+                _ => {
+                    #[allow(clippy::cast_precision_loss)] // k < 2^53
+                    let start = k as f64 * self.width_s;
+                    let mut m = SeriesPoint::empty(start, p.t_last_s);
+                    m.merge(p);
+                    merged.push(m);
+                    last = Some(k);
+                }
+            }
+        }
+        self.last_index = last.unwrap_or(0);
+        self.points = merged;
+    }
+
+    /// Adds one verdict at `t_s` seconds since the first record, with the
+    /// wind speed (m/s) and cover state held at that record.
+    pub fn push(&mut self, t_s: f64, v: &Verdict, wind_mps: Option<f64>, cover: Option<bool>) {
+        let mut k = self.index_of(t_s);
+        while k >= MAX_SERIES_POINTS as u64 {
+            self.coarsen();
+            k = self.index_of(t_s);
+        }
+        if self.points.is_empty() || k != self.last_index {
+            #[allow(clippy::cast_precision_loss)] // k < 2000
+            let start = k as f64 * self.width_s;
+            self.points.push(SeriesPoint::empty(start, t_s));
+            self.last_index = k;
+        }
+        if let Some(u) = v.overturning_utilisation.filter(|u| u.is_finite()) {
+            if self.top_overturning.is_none_or(|t| u > t) {
+                self.top_overturning = Some(u);
+                self.cover_at_closest = cover;
+            }
+        }
+        let Some(p) = self.points.last_mut() else {
+            return;
+        };
+        p.t_last_s = t_s;
+        p.records = p.records.saturating_add(1);
+        p.overturning_max = hi(p.overturning_max, v.overturning_utilisation);
+        p.predicted_max = hi(p.predicted_max, v.predicted_utilisation);
+        p.sliding_max = hi(p.sliding_max, v.sliding_utilisation);
+        if let Some(g) = v.gust_mps.filter(|g| g.is_finite()) {
+            if p.gust_max_mps.is_none_or(|m| g > m) {
+                p.gust_max_mps = Some(g);
+                p.wind_from_deg = v.wind_from_rad.map(|r| r.to_degrees().rem_euclid(360.0));
+            }
+        }
+        if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
+            #[allow(clippy::cast_possible_truncation)] // m/s fit f32
+            let w32 = w as f32;
+            p.wind_max_mps = hi(p.wind_max_mps, Some(w32));
+            p.wind_sum_mps += w;
+            p.wind_n = p.wind_n.saturating_add(1);
+        }
+        p.tilt_max_deg = hi(p.tilt_max_deg, v.tilt.map(|t| t.magnitude_rad.to_degrees()));
+        p.stage = p.stage.max(v.stage);
+    }
+}
