@@ -1,16 +1,14 @@
 //! The assessment: what the samples of one step mean for the rig.
 //!
-//! **Plug-in point for the guard.** The station calls [`Assess::assess`] once
-//! per step with the samples that arrived in that step and drives the lines
-//! from the returned [`Assessment`] (sensor faults override it toward park and
-//! alarm). The `standfast` guard plugs in by one adapter type implementing
-//! [`Assess`]: it converts [`Samples`] into the guard's samples (specific force
-//! in g → m/s², the optional wind and pose), calls the guard's step with
-//! `samples.t_ms`, and maps the verdict's staged state to `park`, `alarm` and
-//! a stage name. Nothing else in the station changes.
+//! **Plug-in point.** The station calls [`Assess::assess`] once per step with
+//! the samples that arrived in that step and drives the lines from the
+//! returned [`Assessment`] (sensor faults override it toward park and alarm);
+//! faults the assessment raises itself ([`Assess::raised_faults`]) are logged
+//! as events. The `standfast` guard is plugged in this way by
+//! [`crate::guard_adapter::GuardAssess`].
 //!
-//! Until then, and as an independent backstop after, [`LimitRule`] applies
-//! fixed limits on wind speed and ground tilt. It knows nothing of the rig's
+//! [`LimitRule`], an independent backstop beside the guard, applies fixed
+//! limits on wind speed and ground tilt. It knows nothing of the rig's
 //! stability: its limits must come from an assessment of the rig.
 
 use crate::pose::MountPose;

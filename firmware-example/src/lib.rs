@@ -10,7 +10,7 @@
 //! - [`wind`]: pulse counter, anemometer calibration, the [`wind::WindVane`] trait.
 //! - [`pose`]: the mount pose input.
 //! - [`lines`]: the park and alarm lines and the fail-safe convention.
-//! - [`assess`]: **the plug-in point for the `standfast` guard** (the
+//! - [`assess`]: the plug-in point for an assessment (the
 //!   [`assess::Assess`] trait) and the fixed-limit [`assess::LimitRule`].
 //! - [`guard_adapter`]: the `standfast` guard as an [`assess::Assess`]
 //!   plug-in ([`guard_adapter::GuardAssess`]), with the invented example rig.

@@ -4,8 +4,8 @@
 //! Register names, addresses and bit fields follow ST's LIS3DH datasheet
 //! (DocID17530), quoted **from memory** and cross-checked against several
 //! independent public register headers: WHO_AM_I 0x0F reads 0x33; CTRL_REG1
-//! 0x20 holds ODR[3:0] in bits 7..4, LPen in bit 3 and Zen/Yen/Xen in bits
-//! 2..0; CTRL_REG4 0x23 holds BDU in bit 7, FS[1:0] in bits 5..4 and HR in bit
+//! 0x20 holds ODR\[3:0\] in bits 7..4, LPen in bit 3 and Zen/Yen/Xen in bits
+//! 2..0; CTRL_REG4 0x23 holds BDU in bit 7, FS\[1:0\] in bits 5..4 and HR in bit
 //! 3; OUT_X_L..OUT_Z_H are 0x28..0x2D; setting bit 7 of the sub-address makes
 //! the device auto-increment it during a multi-byte transfer. 7-bit bus
 //! address 0x18 with SA0 (SDO) tied low, 0x19 with it high.
