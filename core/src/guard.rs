@@ -41,7 +41,7 @@ use crate::frame::Tilt;
 use crate::mount::Pose;
 use crate::rig::{Conditions, Rig};
 use crate::sense::{
-    Fault, FaultSet, Millis, TiltConfig, TiltSensor, WindConfig, WindReport, WindStats,
+    Fault, FaultSet, Millis, TiltConfig, TiltSensor, WindConfig, WindReport, WindStats, FINE_BIN_MS,
 };
 use crate::sky::ParkRequest;
 use heapless::Vec;
@@ -376,6 +376,18 @@ struct Figures {
     park_pose: Option<Pose>,
 }
 
+/// Figures of one pose and wind: overturning and sliding utilisation
+/// (dimensionless), tip wind (m/s), the direction used (rad from north,
+/// clockwise) and the overturning utilisation at the predicted gust.
+#[derive(Clone, Copy, Debug)]
+struct Utilisations {
+    overturning: f32,
+    sliding: f32,
+    tip_wind_mps: Option<f32>,
+    from_rad: f32,
+    predicted: Option<f32>,
+}
+
 /// The guard. Borrows the rig; all other state is inline and fixed in size.
 #[derive(Clone, Debug)]
 pub struct Guard<'r> {
@@ -396,6 +408,11 @@ pub struct Guard<'r> {
     highest_utilisation: f32,
     gust_minutes: [f32; GUST_HISTORY_MIN],
     gust_minute_index: u64,
+    /// The 3-s gust of the wind report for one fine wind bin (index
+    /// `now / FINE_BIN_MS`), kept until the next wind sample: between wind
+    /// samples the gust changes only from one bin to the next, so steps
+    /// that do not evaluate the physics need no full report.
+    gust_3s_cache: Option<(u64, Option<f32>)>,
 }
 
 impl<'r> Guard<'r> {
@@ -428,6 +445,7 @@ impl<'r> Guard<'r> {
             highest_utilisation: 0.0,
             gust_minutes: [0.0; GUST_HISTORY_MIN],
             gust_minute_index: now.0 / 60_000,
+            gust_3s_cache: None,
         })
     }
 
@@ -472,6 +490,7 @@ impl<'r> Guard<'r> {
             }
         }
         if let Some(w) = inputs.wind {
+            self.gust_3s_cache = None;
             if let Err(f) = self.wind.push(now, w.speed_mps, w.from_rad) {
                 rejected.push(f);
             }
@@ -502,14 +521,34 @@ impl<'r> Guard<'r> {
         }
         self.known_faults = faults;
 
-        let report = self.wind.report(now);
-        self.track_gust_minutes(now, &report);
         let due = self
             .last_eval
             .is_none_or(|t| now.since(t) >= self.config.evaluate_every_ms)
             || inputs.pose.is_some()
             || inputs.cover_fitted.is_some();
-        if due {
+        // The full wind report only when the physics is evaluated; otherwise
+        // the 3-s gust for the gust history, from the cache when the wind bin
+        // and the wind samples are unchanged (the same value the report
+        // would give).
+        let bin = now.0 / FINE_BIN_MS;
+        let report = if due {
+            let r = self.wind.report(now);
+            self.gust_3s_cache = Some((bin, r.gust_3s_mps));
+            Some(r)
+        } else {
+            None
+        };
+        let gust_3s = match (&report, self.gust_3s_cache) {
+            (Some(r), _) => r.gust_3s_mps,
+            (None, Some((b, g))) if b == bin => g,
+            (None, _) => {
+                let g = self.wind.report(now).gust_3s_mps;
+                self.gust_3s_cache = Some((bin, g));
+                g
+            }
+        };
+        self.track_gust_minutes(now, gust_3s);
+        if let Some(report) = report {
             self.figures = self.evaluate(&report);
             self.last_eval = Some(now);
             if let Some(u) = self.figures.overturning {
@@ -555,7 +594,7 @@ impl<'r> Guard<'r> {
         }
     }
 
-    fn track_gust_minutes(&mut self, now: Millis, report: &WindReport) {
+    fn track_gust_minutes(&mut self, now: Millis, gust_3s_mps: Option<f32>) {
         let minute = now.0 / 60_000;
         if minute != self.gust_minute_index {
             let steps = minute.saturating_sub(self.gust_minute_index);
@@ -567,7 +606,7 @@ impl<'r> Guard<'r> {
             }
             self.gust_minute_index = minute;
         }
-        if let (Some(g), Some(first)) = (report.gust_3s_mps, self.gust_minutes.first_mut()) {
+        if let (Some(g), Some(first)) = (gust_3s_mps, self.gust_minutes.first_mut()) {
             if g > *first {
                 *first = g;
             }
@@ -600,14 +639,16 @@ impl<'r> Guard<'r> {
         }
     }
 
-    /// Overturning utilisation, sliding utilisation and tip wind for a pose at
-    /// a speed, from the given direction or the worst one.
+    /// Overturning utilisation, sliding utilisation, tip wind and direction
+    /// for a pose at a speed, from the given direction or the worst one; and
+    /// the overturning utilisation at `predicted` m/s from that direction.
     fn utilisations(
         &self,
         pose: Pose,
         speed: f32,
         from: Option<f32>,
-    ) -> Option<(f32, f32, Option<f32>, f32)> {
+        predicted: f32,
+    ) -> Option<Utilisations> {
         let dir = match from {
             Some(d) => d,
             None => {
@@ -615,13 +656,17 @@ impl<'r> Guard<'r> {
                 self.rig.worst_direction_utilisation(&c).ok()?.1
             }
         };
-        let a = self.rig.assess(&self.conditions(pose, speed, dir)).ok()?;
-        Some((
-            a.critical.utilisation,
-            a.sliding.utilisation,
-            a.tip_wind_mps,
-            dir,
-        ))
+        let (a, at_predicted) = self
+            .rig
+            .assess_with_utilisation_at(&self.conditions(pose, speed, dir), predicted)
+            .ok()?;
+        Some(Utilisations {
+            overturning: a.critical.utilisation,
+            sliding: a.sliding.utilisation,
+            tip_wind_mps: a.tip_wind_mps,
+            from_rad: dir,
+            predicted: at_predicted,
+        })
     }
 
     fn evaluate(&self, report: &WindReport) -> Figures {
@@ -645,14 +690,12 @@ impl<'r> Guard<'r> {
         let predicted = gust.max(latest + rise) * self.config.gust_allowance;
         f.gust_mps = Some(gust);
         f.predicted_gust_mps = Some(predicted);
-        if let Some((u, s, tip, dir)) = self.utilisations(self.pose, gust, measured_from) {
-            f.overturning = Some(u);
-            f.sliding = Some(s);
-            f.tip_wind_mps = tip;
-            f.from_rad = Some(dir);
-            f.predicted = self
-                .utilisations(self.pose, predicted, Some(dir))
-                .map(|(u, ..)| u);
+        if let Some(u) = self.utilisations(self.pose, gust, measured_from, predicted) {
+            f.overturning = Some(u.overturning);
+            f.sliding = Some(u.sliding);
+            f.tip_wind_mps = u.tip_wind_mps;
+            f.from_rad = Some(u.from_rad);
+            f.predicted = u.predicted;
         }
         let mean = report.mean_10min_mps.unwrap_or(gust);
         f.drive = self.drive_utilisation(gust, mean, f.from_rad);

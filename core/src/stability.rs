@@ -24,7 +24,7 @@
 
 use crate::error::{Error, ErrorKind};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2, TAU};
-use crate::rig::{Conditions, Placement, Rig};
+use crate::rig::{Conditions, Placement, Rig, MAX_PARTS};
 use crate::support::{Edge, MAX_FEET};
 use heapless::Vec;
 
@@ -184,31 +184,37 @@ impl Loads {
         let support = placement.rig().support();
         let mut terms: Vec<EdgeTerms, MAX_FEET> = Vec::new();
         let mut r = Resultant::default();
+        // Placed weights and wind loads, computed once for every edge (the
+        // parts are at most `MAX_PARTS`, the capacity, so no push fails).
+        let mut weights: Vec<(Vec3, Vec3), MAX_PARTS> = Vec::new();
         for p in placement.parts() {
             r.gravity_n += p.weight_n;
             r.gravity_moment_nm += p.cg_m.cross(p.weight_n);
+            let _ = weights.push((p.cg_m, p.weight_n));
         }
+        let mut winds: Vec<(Vec3, Vec3), MAX_PARTS> = Vec::new();
         for (_, cp, f) in placement.wind_loads(from_rad) {
             r.wind_n_per_pa += f;
             r.wind_moment_nm_per_pa += cp.cross(f);
+            let _ = winds.push((cp, f));
         }
         for e in support.edges() {
             let mut t = EdgeTerms::default();
-            for p in placement.parts() {
+            for &(cg_m, weight_n) in &weights {
                 // The weight is split into its parts normal to and along the
                 // ground, so a slope shows as an overturning moment W·sinθ·h
                 // against a stabilising W·cosθ·d, as in slope checks of
                 // mobile cranes and platforms.
-                let normal = Vec3::Z * p.weight_n.z;
-                for f in [normal, p.weight_n - normal] {
+                let normal = Vec3::Z * weight_n.z;
+                for f in [normal, weight_n - normal] {
                     split(
-                        e.moment_nm(p.cg_m, f),
+                        e.moment_nm(cg_m, f),
                         &mut t.gravity_over_nm,
                         &mut t.gravity_stab_nm,
                     );
                 }
             }
-            for (_, cp, f) in placement.wind_loads(from_rad) {
+            for &(cp, f) in &winds {
                 split(
                     e.moment_nm(cp, f),
                     &mut t.wind_over_nm_per_pa,
@@ -462,10 +468,46 @@ impl Rig {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let loads = Loads::new(&placement, c.wind_from_rad);
-        let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
+        self.assessment(c, &placement, &loads)
+    }
+
+    /// [`Rig::assess`] for `c`, and the critical-edge utilisation at a second
+    /// wind speed `other_speed_mps` (m/s, same direction, pose, tilt, cover
+    /// and air): the same value as `assess` at that speed gives in
+    /// `critical.utilisation`, or `None` where `assess` at that speed fails.
+    /// The placement and wind loads, which do not depend on the speed, are
+    /// computed once.
+    ///
+    /// # Errors
+    /// As [`Rig::assess`] for `c`.
+    pub fn assess_with_utilisation_at(
+        &self,
+        c: &Conditions,
+        other_speed_mps: f32,
+    ) -> Result<(Assessment, Option<f32>), Error> {
+        c.validate()?;
+        let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
+        let loads = Loads::new(&placement, c.wind_from_rad);
+        let a = self.assessment(c, &placement, &loads)?;
+        let other = Conditions {
+            wind_speed_mps: other_speed_mps,
+            ..*c
+        };
+        let u = if other.validate().is_ok() {
+            let q = other.air.dynamic_pressure_pa(other_speed_mps);
+            self.edge_loads(&loads, q).1.map(|e| e.utilisation)
+        } else {
+            None
+        };
+        Ok((a, u))
+    }
+
+    /// Every edge's load at dynamic pressure `q_pa`, and the critical one
+    /// (the first of highest utilisation; `None` without edges).
+    fn edge_loads(&self, loads: &Loads, q_pa: f32) -> (Vec<EdgeLoad, MAX_FEET>, Option<EdgeLoad>) {
         let mut edges: Vec<EdgeLoad, MAX_FEET> = Vec::new();
         for (e, t) in self.support().edges().iter().zip(loads.terms()) {
-            let _ = edges.push(edge_load(e, t, q));
+            let _ = edges.push(edge_load(e, t, q_pa));
         }
         let critical = edges
             .iter()
@@ -473,8 +515,20 @@ impl Rig {
             .fold(None, |acc: Option<EdgeLoad>, e| match acc {
                 Some(a) if a.utilisation >= e.utilisation => Some(a),
                 _ => Some(e),
-            })
-            .ok_or(Error::new(ErrorKind::TooFew, "support.feet"))?;
+            });
+        (edges, critical)
+    }
+
+    /// The assessment of `c` from its placement and loads.
+    fn assessment(
+        &self,
+        c: &Conditions,
+        placement: &Placement<'_>,
+        loads: &Loads,
+    ) -> Result<Assessment, Error> {
+        let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
+        let (edges, critical) = self.edge_loads(loads, q);
+        let critical = critical.ok_or(Error::new(ErrorKind::TooFew, "support.feet"))?;
         let r = loads.resultant;
         Ok(Assessment {
             critical,

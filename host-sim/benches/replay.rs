@@ -1,0 +1,100 @@
+//! Replay throughput: the 24-hour 50 Hz benchmark log (4 320 000 rows,
+//! `gen-demo --bench`, written once into `target/standfast-bench/`) read and
+//! merged alone, then replayed in full through the guard with the demo rig
+//! (`host-sim/demo/rig.toml`). Prints both times (best of a few runs), the
+//! rows per second and the ratio of the full replay to the parse alone.
+//!
+//! Run with `cargo bench -p standfast-sim --bench replay`. Set
+//! `STANDFAST_BENCH_HOURS` for a shorter log, `STANDFAST_BENCH_RUNS` for
+//! the number of runs (default 3), and `STANDFAST_BENCH_ONLY=parse` or
+//! `=replay` to run one half (for a profiler).
+
+use std::hint::black_box;
+use std::path::PathBuf;
+use std::time::Instant;
+
+use standfast_sim::demo_data::{write_bench_log, BENCH_PROFILE_TOML};
+use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::replay::{replay, ReplayOptions};
+
+fn env_or<T: std::str::FromStr>(name: &str, default: T) -> T {
+    std::env::var(name)
+        .ok()
+        .and_then(|h| h.parse().ok())
+        .unwrap_or(default)
+}
+
+#[allow(clippy::cast_precision_loss)]
+fn main() {
+    let hours: f64 = env_or("STANDFAST_BENCH_HOURS", 24.0);
+    let runs: usize = env_or("STANDFAST_BENCH_RUNS", 3).max(1);
+    let only: String = env_or("STANDFAST_BENCH_ONLY", String::new());
+    let (parse_runs, replay_runs) = match only.as_str() {
+        "parse" => (runs, 0),
+        "replay" => (0, runs),
+        _ => (runs, runs),
+    };
+    let root = PathBuf::from(env!("CARGO_MANIFEST_DIR"));
+    let dir = root
+        .join("../target/standfast-bench")
+        .join(format!("{hours}h"));
+    let profile_path = dir.join(BENCH_PROFILE_TOML);
+    if !profile_path.is_file() {
+        let t = Instant::now();
+        let b = write_bench_log(&dir, 1, hours).expect("write the benchmark log");
+        println!(
+            "generated {} rows in {:.2} s",
+            b.rows,
+            t.elapsed().as_secs_f64()
+        );
+    }
+    let profile = LogProfile::load(&profile_path).expect("profile");
+    let rig = standfast_sim::rigfile::load(&root.join("demo/rig.toml")).expect("demo rig");
+
+    let mut parse_best = f64::INFINITY;
+    let mut rows = 0;
+    for _ in 0..parse_runs {
+        let t = Instant::now();
+        let mut m = Merger::open(&profile, ErrorPolicy::Stop).expect("open");
+        let mut acc = 0.0;
+        while let Some(r) = m.next_record().expect("read") {
+            acc += r.accel_mps2.map_or(0.0, |a| a[2]);
+        }
+        black_box(acc);
+        rows = m.rows();
+        parse_best = parse_best.min(t.elapsed().as_secs_f64());
+    }
+
+    let mut replay_best = f64::INFINITY;
+    let mut highest = None;
+    for _ in 0..replay_runs {
+        let t = Instant::now();
+        let mut m = Merger::open(&profile, ErrorPolicy::Stop).expect("open");
+        let rep = replay(
+            std::slice::from_ref(&rig),
+            &mut m,
+            ReplayOptions::default(),
+            None,
+        )
+        .expect("replay");
+        replay_best = replay_best.min(t.elapsed().as_secs_f64());
+        rows = m.rows();
+        highest = rep.rigs[0].overturning.as_ref().map(|a| a.utilisation);
+        black_box(&rep);
+    }
+
+    let rate = |s: f64| rows as f64 / s;
+    println!(
+        "parse and merge: {rows} rows in {parse_best:.3} s (best of {runs}), {:.0} rows/s",
+        rate(parse_best)
+    );
+    println!(
+        "full replay (demo rig): {rows} rows in {replay_best:.3} s (best of {runs}), {:.0} rows/s; highest overturning utilisation {highest:?}",
+        rate(replay_best)
+    );
+    println!(
+        "replay / parse = {:.2} (the guard adds {:.0} %)",
+        replay_best / parse_best,
+        (replay_best / parse_best - 1.0) * 100.0
+    );
+}
