@@ -386,9 +386,12 @@ impl LineChart {
             n((mt + h - mb) / 2.0),
             esc(&self.y_label)
         );
-        // Event marks.
+        // Event marks; labels go on the first of a few rows where they do
+        // not overlap the previous label (about 5.5 px a character at 10 px),
+        // else only the line (its title holds the label).
         let labelled = self.marks.len() <= MAX_LABELLED_MARKS;
-        for (i, m) in self.marks.iter().enumerate() {
+        let mut row_end = [f64::NEG_INFINITY; 5];
+        for m in &self.marks {
             if m.x < x0 || m.x > x1 {
                 continue;
             }
@@ -403,15 +406,34 @@ impl LineChart {
                 esc(&m.colour),
                 esc(&m.label)
             );
-            if labelled {
+            if !labelled {
+                continue;
+            }
+            #[allow(clippy::cast_precision_loss)]
+            let tw = m.label.chars().count() as f64 * 5.5;
+            let right_side = px + 3.0 + tw > w - mr;
+            let (a, b) = if right_side {
+                (px - 3.0 - tw, px - 3.0)
+            } else {
+                (px + 3.0, px + 3.0 + tw)
+            };
+            if let Some(row) = row_end.iter().position(|e| *e < a) {
+                if let Some(e) = row_end.get_mut(row) {
+                    *e = b + 4.0;
+                }
                 #[allow(clippy::cast_precision_loss)]
-                let dy = (i % 3) as f64 * 11.0;
+                let dy = row as f64 * 11.0;
                 let _ = write!(
                     s,
-                    r#"<text class="mark-label" x="{}" y="{}" fill="{}">{}</text>"#,
-                    n(px + 3.0),
+                    r#"<text class="mark-label" x="{}" y="{}" fill="{}"{}>{}</text>"#,
+                    n(if right_side { b } else { a }),
                     n(mt + 10.0 + dy),
                     esc(&m.colour),
+                    if right_side {
+                        r#" text-anchor="end""#
+                    } else {
+                        ""
+                    },
                     esc(&m.label)
                 );
             }
