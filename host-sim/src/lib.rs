@@ -21,5 +21,6 @@ pub mod report;
 pub mod rigfile;
 pub mod summary;
 pub mod units;
+pub mod whatif;
 
 pub use error::{Error, Result};

@@ -576,6 +576,12 @@ pub struct ReplayArgs {
     /// Also write a self-contained HTML report with charts to this file.
     #[arg(long, value_name = "FILE")]
     pub html: Option<std::path::PathBuf>,
+    /// Also replay a variant of the first rig with this override, side by
+    /// side (repeatable; all apply to one variant): ballast=<mass>@<x>,<y>,<z>,
+    /// cover=on|off|as-logged, watch_utilisation=, park_utilisation=,
+    /// alarm_utilisation=, time_to_park=, friction=, tie_down=.
+    #[arg(long = "what-if", value_name = "KEY=VALUE")]
+    pub what_if: Vec<String>,
 }
 
 /// Arguments of `demo`.
@@ -675,6 +681,10 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
         .iter()
         .map(|p| crate::rigfile::load(p))
         .collect::<Result<Vec<_>, _>>()?;
+    let mut rigs = rigs;
+    if let (false, Some(base)) = (a.what_if.is_empty(), rigs.first()) {
+        rigs.push(crate::whatif::variant_from_texts(base, &a.what_if)?);
+    }
     let profile = match (&a.profile, a.rigs.first()) {
         (Some(p), _) => p.clone(),
         (None, Some(r)) => r.clone(),
@@ -682,7 +692,7 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
     };
     let mut merger = open_logs(&profile, &a.logs)?;
     let rep = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
-    crate::summary::write(&rep, a.json, out)?;
+    crate::whatif::write_summary(&rep, a.json, out)?;
     if let Some(h) = &a.html {
         crate::report::write_page(h, &crate::report::replay_html(&rep, &rigs)?)?;
         if !a.json {

@@ -12,4 +12,5 @@ mod replay;
 mod report;
 mod rigfile;
 mod units;
+mod whatif;
 mod readme;

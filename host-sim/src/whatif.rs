@@ -1,0 +1,677 @@
+//! What-if replays: the same logs through a changed rig, side by side.
+//!
+//! `standfast replay --rig RIG.toml [LOGS…] --what-if KEY=VALUE …` builds a
+//! variant of the first rig from overrides and replays the logs through both
+//! in one pass (one guard each). A second `--rig` file does the same with a
+//! whole other rig. With two or more rigs the summary gains a side-by-side
+//! table ([`Comparison`]) before the cautions, and the JSON a `comparison`
+//! field.
+//!
+//! Overrides (values accept units; SI is the default):
+//! * `ballast=<mass>@<x>,<y>,<z>`: adds a ballast mass at a point of the rig
+//!   frame (x east, y north, z up from the ground below the tripod centre),
+//!   e.g. `ballast=12 kg@0,0,0.3 m`; repeatable up to the rig's ballast
+//!   capacity;
+//! * `cover=on|off|as-logged`: the cover fitted all night, never fitted, or
+//!   as the log says (the default);
+//! * `watch_utilisation=`, `park_utilisation=`, `alarm_utilisation=`: the
+//!   guard thresholds (dimensionless);
+//! * `time_to_park=90 s`: the time the mount needs to park;
+//! * `friction=0.4`: the foot–ground static friction coefficient;
+//! * `tie_down=200 N`: the tie-down pull on every foot.
+//!
+//! **Caution.** A what-if is the same simplified static model with other
+//! inputs: it compares estimates, it does not prove a set-up safe.
+
+use std::io::Write;
+
+use serde::Serialize;
+use standfast::guard::Stage;
+use standfast::rig::{BallastSpec, BodySpec, Rig, MAX_BALLAST, MAX_PART_MASS_KG};
+
+use crate::error::Error;
+use crate::located::InputError;
+use crate::replay::{ReplayReport, RigReplay};
+use crate::rigfile::LoadedRig;
+use crate::units::{split_number, Dim, Duration, Force, Length, Mass};
+
+/// The cover state of a variant.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum CoverMode {
+    /// Fitted all night, whatever the log says.
+    On,
+    /// Never fitted (the rig without its cover).
+    Off,
+    /// As the log says.
+    AsLogged,
+}
+
+/// One what-if override.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Override {
+    /// Added ballast: mass, kg, at a point of the rig frame, m.
+    Ballast {
+        /// Mass, kg.
+        mass_kg: f64,
+        /// Position `[x east, y north, z up]`, rig frame, metres.
+        position_m: [f64; 3],
+    },
+    /// Cover state.
+    Cover(CoverMode),
+    /// Guard watch threshold, dimensionless.
+    WatchUtilisation(f64),
+    /// Guard park threshold, dimensionless.
+    ParkUtilisation(f64),
+    /// Guard alarm threshold, dimensionless.
+    AlarmUtilisation(f64),
+    /// Time to park, s.
+    TimeToPark(f64),
+    /// Static friction coefficient, dimensionless.
+    Friction(f64),
+    /// Tie-down pull per foot, N.
+    TieDown(f64),
+}
+
+/// The override keys, for messages.
+pub const KEYS: &str = "ballast, cover, watch_utilisation, park_utilisation, alarm_utilisation, time_to_park, friction, tie_down";
+
+/// Accepted range of the friction coefficient (as the core checks it).
+const FRICTION_RANGE: (f64, f64) = (0.0, 2.0);
+/// Accepted range of the tie-down pull, N (as the core checks it).
+const TIE_DOWN_RANGE_N: (f64, f64) = (0.0, 100_000.0);
+/// Accepted range of the time to park, s (as the core checks it).
+const TIME_TO_PARK_RANGE_S: (f64, f64) = (0.0, 3_600.0);
+/// Largest distance of ballast from the rig origin along x or y, m, and
+/// height, m (the core's envelope of a rig).
+const BALLAST_OFFSET_M: f64 = 5.0;
+
+fn bad(key: &str, value: &str, problem: impl Into<String>) -> Error {
+    Error::Input(InputError {
+        at: None,
+        key: Some(format!("--what-if {key}")),
+        value: Some(format!("\"{value}\"")),
+        problem: problem.into(),
+    })
+}
+
+fn in_range(key: &str, value: &str, x: f64, lo: f64, hi: f64, unit: &str) -> Result<f64, Error> {
+    if x.is_finite() && x >= lo && x <= hi {
+        Ok(x)
+    } else {
+        Err(bad(
+            key,
+            value,
+            format!("outside the accepted range {lo} to {hi}{unit}"),
+        ))
+    }
+}
+
+fn number(key: &str, value: &str) -> Result<f64, Error> {
+    value
+        .trim()
+        .parse::<f64>()
+        .map_err(|_| bad(key, value, "not a number"))
+}
+
+/// Reads `<x>,<y>,<z>` with an optional unit after each number or one unit
+/// after the last that applies to all (`0,0,0.3 m`, `0 m,0 m,30 cm`).
+fn position(key: &str, value: &str, text: &str) -> Result<[f64; 3], Error> {
+    let parts: Vec<&str> = text.split(',').map(str::trim).collect();
+    if parts.len() != 3 {
+        return Err(bad(
+            key,
+            value,
+            "the position needs three coordinates x,y,z (rig frame: x east, y north, z up), e.g. 12 kg@0,0,0.3 m",
+        ));
+    }
+    let mut nums = [(0.0, ""); 3];
+    for (slot, p) in nums.iter_mut().zip(&parts) {
+        *slot = split_number(p, Dim::Length).map_err(|e| bad(key, value, e.to_string()))?;
+    }
+    let common = nums.iter().rev().map(|n| n.1).find(|u| !u.is_empty());
+    let mut out = [0.0; 3];
+    for (o, (v, u)) in out.iter_mut().zip(nums) {
+        let unit = if u.is_empty() {
+            common.unwrap_or("m")
+        } else {
+            u
+        };
+        *o = Length::from_unit(v, unit)
+            .map_err(|e| bad(key, value, e.to_string()))?
+            .m();
+    }
+    Ok(out)
+}
+
+/// Parses one `KEY=VALUE` override.
+///
+/// # Errors
+/// [`Error::Input`] naming the override, its value and the accepted range or
+/// set (exit code 1).
+pub fn parse_override(text: &str) -> Result<Override, Error> {
+    let Some((key, value)) = text.split_once('=') else {
+        return Err(bad(
+            text.trim(),
+            "",
+            format!("a what-if is KEY=VALUE with KEY one of {KEYS}"),
+        ));
+    };
+    let key = key.trim();
+    let v = value.trim();
+    let quantity_err = |e: crate::units::UnitError| bad(key, v, e.to_string());
+    match key {
+        "ballast" => {
+            let Some((m, at)) = v.split_once('@') else {
+                return Err(bad(
+                    key,
+                    v,
+                    "give a mass and a position, <mass>@<x>,<y>,<z>, e.g. 12 kg@0,0,0.3 m",
+                ));
+            };
+            let mass = Mass::parse(m.trim()).map_err(quantity_err)?.kg();
+            if !(mass.is_finite() && mass > 0.0 && mass <= f64::from(MAX_PART_MASS_KG)) {
+                return Err(bad(
+                    key,
+                    v,
+                    format!(
+                        "the mass is outside the accepted range above 0 to {MAX_PART_MASS_KG} kg"
+                    ),
+                ));
+            }
+            let p = position(key, v, at)?;
+            let [x, y, z] = p;
+            let r = BALLAST_OFFSET_M;
+            if !(x.abs() <= r && y.abs() <= r && (0.0..=r).contains(&z)) {
+                return Err(bad(
+                    key,
+                    v,
+                    format!("the position is outside the accepted range x and y -{r} to {r} m, z 0 to {r} m"),
+                ));
+            }
+            Ok(Override::Ballast {
+                mass_kg: mass,
+                position_m: p,
+            })
+        }
+        "cover" => match v.to_ascii_lowercase().as_str() {
+            "on" => Ok(Override::Cover(CoverMode::On)),
+            "off" => Ok(Override::Cover(CoverMode::Off)),
+            "as-logged" | "as_logged" => Ok(Override::Cover(CoverMode::AsLogged)),
+            _ => Err(bad(key, v, "accepted values: on, off, as-logged")),
+        },
+        "watch_utilisation" => {
+            // The core's lower bound; the upper one is the park and alarm
+            // thresholds, checked once all overrides are applied.
+            let x = number(key, v)?;
+            Ok(Override::WatchUtilisation(in_range(
+                key, v, x, 0.05, 1.0, "",
+            )?))
+        }
+        "park_utilisation" => {
+            let x = number(key, v)?;
+            Ok(Override::ParkUtilisation(in_range(
+                key, v, x, 0.05, 1.0, "",
+            )?))
+        }
+        "alarm_utilisation" => {
+            let x = number(key, v)?;
+            Ok(Override::AlarmUtilisation(in_range(
+                key, v, x, 0.05, 1.0, "",
+            )?))
+        }
+        "time_to_park" => {
+            let s = Duration::parse(v).map_err(quantity_err)?.s();
+            let (lo, hi) = TIME_TO_PARK_RANGE_S;
+            Ok(Override::TimeToPark(in_range(key, v, s, lo, hi, " s")?))
+        }
+        "friction" => {
+            let x = number(key, v)?;
+            let (lo, hi) = FRICTION_RANGE;
+            Ok(Override::Friction(in_range(key, v, x, lo, hi, "")?))
+        }
+        "tie_down" => {
+            let n = Force::parse(v).map_err(quantity_err)?.n();
+            let (lo, hi) = TIE_DOWN_RANGE_N;
+            Ok(Override::TieDown(in_range(key, v, n, lo, hi, " N")?))
+        }
+        _ => Err(bad(key, v, format!("no such what-if; the keys are {KEYS}"))),
+    }
+}
+
+#[allow(clippy::cast_possible_truncation)] // rig values fit f32
+fn f(x: f64) -> f32 {
+    x as f32
+}
+
+/// The variant of `base` with the overrides applied (`texts` are the
+/// overrides as written, for the variant's name).
+///
+/// `cover=on` makes the cover a permanent part (its mass and wind area all
+/// night) that hides the bodies under it, whatever the log says;
+/// `cover=off` removes the cover.
+///
+/// # Errors
+/// [`Error::Input`] naming the override when the variant is not valid
+/// (thresholds out of order, too many ballast items, `cover=on` without a
+/// cover, a value the core rejects).
+pub fn variant(
+    base: &LoadedRig,
+    overrides: &[Override],
+    texts: &[String],
+) -> Result<LoadedRig, Error> {
+    let mut spec = base.spec.clone();
+    let mut guard = base.guard.clone();
+    let mut tie_down: Option<f64> = None;
+    let text_of = |i: usize| texts.get(i).cloned().unwrap_or_default();
+    for (i, o) in overrides.iter().enumerate() {
+        let t = text_of(i);
+        let (key, value) = t.split_once('=').unwrap_or((&t, ""));
+        match *o {
+            Override::Ballast {
+                mass_kg,
+                position_m,
+            } => {
+                let b = BallastSpec {
+                    mass_kg: f(mass_kg),
+                    position_m: position_m.map(f),
+                };
+                if spec.ballast.push(b).is_err() {
+                    return Err(bad(
+                        key,
+                        value,
+                        format!("the rig takes at most {MAX_BALLAST} ballast items, with those in the rig file"),
+                    ));
+                }
+            }
+            Override::Cover(CoverMode::AsLogged) => {}
+            Override::Cover(CoverMode::Off) => spec.cover = None,
+            Override::Cover(CoverMode::On) => {
+                let Some(c) = spec.cover.take() else {
+                    return Err(bad(key, value, "the rig file has no [cover] to fit"));
+                };
+                let mut label = standfast::rig::Label::new();
+                let _ = label.push_str("cover (fitted)");
+                let body = BodySpec {
+                    label,
+                    stage: standfast::rig::Stage::Secondary,
+                    mass_kg: c.mass_kg,
+                    cg_m: c.centre_m,
+                    exposure: Some(standfast::shape::Exposure {
+                        shape: standfast::shape::Shape::Box {
+                            size_m: c.size_m,
+                            edges: None,
+                        },
+                        centre_m: c.centre_m,
+                        drag_coefficient: c.drag_coefficient,
+                    }),
+                    mass_model: standfast::rig::MassModel::Shell,
+                    under_cover: false,
+                };
+                for b in &mut spec.bodies {
+                    if b.under_cover {
+                        // Shielded all night: its mass counts, not its area.
+                        b.exposure = None;
+                        b.under_cover = false;
+                    }
+                }
+                if spec.bodies.push(body).is_err() {
+                    return Err(bad(
+                        key,
+                        value,
+                        format!(
+                            "the rig already has the most bodies ({}); the fitted cover cannot be added",
+                            standfast::rig::MAX_BODIES
+                        ),
+                    ));
+                }
+            }
+            Override::WatchUtilisation(x) => guard.watch_utilisation = f(x),
+            Override::ParkUtilisation(x) => guard.park_utilisation = f(x),
+            Override::AlarmUtilisation(x) => guard.alarm_utilisation = f(x),
+            Override::TimeToPark(s) => guard.time_to_park_s = f(s),
+            Override::Friction(mu) => spec.friction_coefficient = f(mu),
+            Override::TieDown(n) => tie_down = Some(n),
+        }
+    }
+    if let Some(n) = tie_down {
+        for foot in &mut spec.feet {
+            foot.tie_down_n = f(n);
+        }
+    }
+    // Threshold order, named by the override that broke it.
+    let find = |k: &str| -> (String, String) {
+        texts
+            .iter()
+            .rev()
+            .find_map(|t| {
+                t.split_once('=')
+                    .filter(|(key, _)| key.trim() == k)
+                    .map(|(key, v)| (key.trim().to_owned(), v.trim().to_owned()))
+            })
+            .unwrap_or_else(|| (k.to_owned(), String::new()))
+    };
+    let w = f64::from(guard.watch_utilisation);
+    for (k, x) in [
+        ("park_utilisation", guard.park_utilisation),
+        ("alarm_utilisation", guard.alarm_utilisation),
+    ] {
+        if f64::from(x) < w {
+            let (key, value) = if texts.iter().any(|t| t.trim_start().starts_with(k)) {
+                find(k)
+            } else {
+                find("watch_utilisation")
+            };
+            return Err(bad(
+                &key,
+                &value,
+                format!(
+                    "{k} must not be below watch_utilisation: accepted range {} to 1 with watch_utilisation {}",
+                    fmt_g(w),
+                    fmt_g(w)
+                ),
+            ));
+        }
+    }
+    guard.validate().map_err(|e| {
+        bad(
+            "",
+            "",
+            format!("the variant's guard settings are not valid: {e}"),
+        )
+    })?;
+    let rig =
+        Rig::new(&spec).map_err(|e| bad("", "", format!("the variant rig is not valid: {e}")))?;
+    Ok(LoadedRig {
+        file: format!("{} with {}", base.file, texts.join(", ")),
+        spec,
+        rig,
+        guard,
+        elevation_m: base.elevation_m,
+        shaft_hardware: base.shaft_hardware.clone(),
+        air: base.air,
+    })
+}
+
+fn fmt_g(x: f64) -> String {
+    crate::located::fmt_g(x)
+}
+
+/// Parses the overrides and builds the variant of `base`.
+///
+/// # Errors
+/// As [`parse_override`] and [`variant`].
+pub fn variant_from_texts(base: &LoadedRig, texts: &[String]) -> Result<LoadedRig, Error> {
+    let overrides = texts
+        .iter()
+        .map(|t| parse_override(t))
+        .collect::<Result<Vec<_>, _>>()?;
+    variant(base, &overrides, texts)
+}
+
+/// One rig's line of the side-by-side comparison.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct RigLine {
+    /// Column letter (A, B, ...).
+    pub column: String,
+    /// The rig file, or the base file with its overrides.
+    pub rig: String,
+    /// Highest overturning utilisation (dimensionless, 1.0 tips).
+    pub overturning_utilisation: Option<f32>,
+    /// Its time, seconds since the first record.
+    pub overturning_t_s: Option<f64>,
+    /// Tip wind speed at the closest approach, m/s.
+    pub tip_wind_mps: Option<f32>,
+    /// Highest sliding utilisation.
+    pub sliding_utilisation: Option<f32>,
+    /// Highest drive utilisation per axis.
+    pub drive_utilisation: [Option<f32>; 2],
+    /// Most severe stage reached.
+    pub highest_stage: Stage,
+    /// First park request (stage change to park_now or alarm), seconds since
+    /// the first record.
+    pub first_park_t_s: Option<f64>,
+    /// First alarm, seconds since the first record.
+    pub first_alarm_t_s: Option<f64>,
+    /// Seconds in watch, park_now, alarm and sensor_fault.
+    pub watch_s: f64,
+    /// Seconds in park_now.
+    pub park_now_s: f64,
+    /// Seconds in alarm.
+    pub alarm_s: f64,
+    /// Seconds in sensor_fault.
+    pub sensor_fault_s: f64,
+    /// Stage changes (kept and not kept).
+    pub stage_changes: u64,
+}
+
+/// The side-by-side comparison of the rigs of one replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Comparison {
+    /// One line per rig, in the order given (A is the first `--rig`).
+    pub rigs: Vec<RigLine>,
+}
+
+fn column(i: usize) -> String {
+    u8::try_from(i).ok().filter(|i| *i < 26).map_or_else(
+        || format!("R{}", i + 1),
+        |i| char::from(b'A' + i).to_string(),
+    )
+}
+
+fn line(i: usize, r: &RigReplay) -> RigLine {
+    let secs = |s: Stage| {
+        r.stage_time
+            .iter()
+            .find(|t| t.stage == s)
+            .map_or(0.0, |t| t.seconds)
+    };
+    let first =
+        |pred: &dyn Fn(Stage) -> bool| r.stage_changes.iter().find(|c| pred(c.to)).map(|c| c.t_s);
+    RigLine {
+        column: column(i),
+        rig: r.rig_file.clone(),
+        overturning_utilisation: r.overturning.as_ref().map(|a| a.utilisation),
+        overturning_t_s: r.overturning.as_ref().map(|a| a.t_s),
+        tip_wind_mps: r.overturning.as_ref().and_then(|a| a.tip_wind_mps),
+        sliding_utilisation: r.sliding.as_ref().map(|a| a.utilisation),
+        drive_utilisation: [
+            r.drive[0].as_ref().map(|a| a.utilisation),
+            r.drive[1].as_ref().map(|a| a.utilisation),
+        ],
+        highest_stage: r.highest_stage,
+        first_park_t_s: first(&|s| s == Stage::ParkNow || s == Stage::Alarm),
+        first_alarm_t_s: first(&|s| s == Stage::Alarm),
+        watch_s: secs(Stage::Watch),
+        park_now_s: secs(Stage::ParkNow),
+        alarm_s: secs(Stage::Alarm),
+        sensor_fault_s: secs(Stage::SensorFault),
+        stage_changes: r.stage_changes.len() as u64 + r.stage_changes_not_kept,
+    }
+}
+
+/// The comparison of a replay's rigs.
+#[must_use]
+pub fn compare(rep: &ReplayReport) -> Comparison {
+    Comparison {
+        rigs: rep
+            .rigs
+            .iter()
+            .enumerate()
+            .map(|(i, r)| line(i, r))
+            .collect(),
+    }
+}
+
+fn pct(v: Option<f32>) -> String {
+    v.map_or_else(|| "-".to_owned(), |x| format!("{:.1} %", x * 100.0))
+}
+
+fn at_s(v: Option<f64>) -> String {
+    v.map_or_else(|| "-".to_owned(), |x| format!("+{x:.0} s"))
+}
+
+impl Comparison {
+    /// The side-by-side table as text.
+    #[must_use]
+    pub fn text(&self) -> String {
+        let mut s = String::from("\nSide by side (the same logs through each rig):\n");
+        for r in &self.rigs {
+            s.push_str(&format!("  {} = {}\n", r.column, r.rig));
+        }
+        let rows: Vec<(&str, Vec<String>)> = vec![
+            (
+                "highest overturning",
+                self.rigs
+                    .iter()
+                    .map(|r| pct(r.overturning_utilisation))
+                    .collect(),
+            ),
+            (
+                "  at",
+                self.rigs.iter().map(|r| at_s(r.overturning_t_s)).collect(),
+            ),
+            (
+                "  tip wind there",
+                self.rigs
+                    .iter()
+                    .map(|r| {
+                        r.tip_wind_mps
+                            .map_or_else(|| "-".to_owned(), |v| format!("{v:.1} m/s"))
+                    })
+                    .collect(),
+            ),
+            (
+                "highest sliding",
+                self.rigs
+                    .iter()
+                    .map(|r| pct(r.sliding_utilisation))
+                    .collect(),
+            ),
+            (
+                "highest drive axis 1",
+                self.rigs
+                    .iter()
+                    .map(|r| pct(r.drive_utilisation[0]))
+                    .collect(),
+            ),
+            (
+                "highest drive axis 2",
+                self.rigs
+                    .iter()
+                    .map(|r| pct(r.drive_utilisation[1]))
+                    .collect(),
+            ),
+            (
+                "highest stage",
+                self.rigs
+                    .iter()
+                    .map(|r| r.highest_stage.name().to_owned())
+                    .collect(),
+            ),
+            (
+                "first park request",
+                self.rigs.iter().map(|r| at_s(r.first_park_t_s)).collect(),
+            ),
+            (
+                "first alarm",
+                self.rigs.iter().map(|r| at_s(r.first_alarm_t_s)).collect(),
+            ),
+            (
+                "time in watch",
+                self.rigs
+                    .iter()
+                    .map(|r| format!("{:.0} s", r.watch_s))
+                    .collect(),
+            ),
+            (
+                "time in park_now",
+                self.rigs
+                    .iter()
+                    .map(|r| format!("{:.0} s", r.park_now_s))
+                    .collect(),
+            ),
+            (
+                "time in alarm",
+                self.rigs
+                    .iter()
+                    .map(|r| format!("{:.0} s", r.alarm_s))
+                    .collect(),
+            ),
+            (
+                "time in sensor_fault",
+                self.rigs
+                    .iter()
+                    .map(|r| format!("{:.0} s", r.sensor_fault_s))
+                    .collect(),
+            ),
+            (
+                "stage changes",
+                self.rigs
+                    .iter()
+                    .map(|r| r.stage_changes.to_string())
+                    .collect(),
+            ),
+        ];
+        let label_w = rows.iter().map(|r| r.0.len()).max().unwrap_or(0) + 2;
+        let col_w = rows
+            .iter()
+            .flat_map(|r| r.1.iter().map(|c| c.chars().count()))
+            .max()
+            .unwrap_or(1)
+            .max(6)
+            + 2;
+        s.push_str(&format!("  {:label_w$}", ""));
+        for r in &self.rigs {
+            s.push_str(&format!("{:>col_w$}", r.column));
+        }
+        s.push('\n');
+        for (label, cells) in rows {
+            s.push_str(&format!("  {label:label_w$}"));
+            for c in cells {
+                s.push_str(&format!("{c:>col_w$}"));
+            }
+            s.push('\n');
+        }
+        s
+    }
+}
+
+#[derive(Serialize)]
+struct JsonOut<'a> {
+    #[serde(flatten)]
+    report: &'a ReplayReport,
+    comparison: &'a Comparison,
+    cautions: &'a [&'a str],
+}
+
+const CAUTIONS_HEADING: &str = "\nCautions:\n";
+
+/// Writes the replay summary (text or JSON); with two or more rigs, with the
+/// side-by-side comparison (text: before the cautions; JSON: a
+/// `comparison` field).
+///
+/// # Errors
+/// [`Error::Io`] when `out` cannot be written.
+pub fn write_summary(rep: &ReplayReport, as_json: bool, out: &mut dyn Write) -> Result<(), Error> {
+    if rep.rigs.len() < 2 {
+        return crate::summary::write(rep, as_json, out);
+    }
+    let stdout = |e| Error::io("<standard output>", e);
+    let cmp = compare(rep);
+    let body = if as_json {
+        let mut s = serde_json::to_string_pretty(&JsonOut {
+            report: rep,
+            comparison: &cmp,
+            cautions: crate::assess::CAUTIONS,
+        })
+        .map_err(|e| stdout(std::io::Error::other(e)))?;
+        s.push('\n');
+        s
+    } else {
+        let mut s = crate::summary::text(rep);
+        let at = s.rfind(CAUTIONS_HEADING).unwrap_or(s.len());
+        s.insert_str(at, &cmp.text());
+        s
+    };
+    out.write_all(body.as_bytes()).map_err(stdout)
+}

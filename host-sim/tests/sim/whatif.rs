@@ -1,0 +1,262 @@
+//! What-if replays: the same logs through a variant rig built from
+//! `--what-if` overrides, side by side.
+
+use std::fmt::Write as _;
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+use standfast::frame::Tilt;
+use standfast::rig::Conditions;
+use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::replay::{replay, ReplayOptions, ReplayReport};
+use standfast_sim::rigfile::{self, LoadedRig};
+use standfast_sim::whatif::{self, CoverMode, Override};
+
+fn demo_rig_path() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")
+}
+
+fn demo_rig() -> LoadedRig {
+    rigfile::load(&demo_rig_path()).unwrap()
+}
+
+/// Foot circle radius of the demo rig (host-sim/demo/rig.toml,
+/// `tripod.foot_circle_radius`), m.
+const DEMO_FOOT_CIRCLE_M: f64 = 0.475;
+
+/// An invented night: a level rig (accelerometer +1 g on z, with a little
+/// noise) in a wind from the west ramping from 2 m/s by 0.03 m/s a second
+/// for 1200 s, one row a second.
+fn ramp_log(dir: &Path) -> PathBuf {
+    let mut csv = String::from("t,ax,ay,az,speed,dir\n");
+    for i in 0..1200_u32 {
+        let t = 1_700_000_000 + i;
+        writeln!(
+            csv,
+            "{t},{},0,1,{:.2},{}",
+            f64::from(i % 3) * 1e-4,
+            2.0 + 0.03 * f64::from(i),
+            269 + i % 3
+        )
+        .unwrap();
+    }
+    std::fs::write(dir.join("ramp.csv"), csv).unwrap();
+    let profile = dir.join("ramp.toml");
+    std::fs::write(
+        &profile,
+        r#"[log]
+[[log.file]]
+path = "ramp.csv"
+time = { column = "t", format = "epoch_s" }
+[log.file.columns]
+accel_x = { column = "ax", unit = "g" }
+accel_y = { column = "ay", unit = "g" }
+accel_z = { column = "az", unit = "g" }
+wind_speed = { column = "speed", unit = "m/s" }
+wind_direction = { column = "dir", unit = "deg" }
+"#,
+    )
+    .unwrap();
+    profile
+}
+
+fn assert_close(got: f64, want: f64, max_relative: f64) {
+    assert!(
+        (got - want).abs() <= max_relative * want.abs().max(got.abs()),
+        "{got} is not within {max_relative} (relative) of {want}"
+    );
+}
+
+fn run(profile: &Path, rigs: &[LoadedRig]) -> ReplayReport {
+    let p = LogProfile::load(profile).unwrap();
+    let mut m = Merger::open(&p, ErrorPolicy::Stop).unwrap();
+    replay(rigs, &mut m, ReplayOptions::default(), None).unwrap()
+}
+
+#[test]
+fn overrides_parse_with_units() {
+    // Unit factors: 1 lb = 0.453 592 37 kg exactly (international yard and
+    // pound agreement, 1959); 1 in = 25.4 mm exactly (same agreement).
+    match whatif::parse_override("ballast=22 lb@0 in,0 in,12 in").unwrap() {
+        Override::Ballast {
+            mass_kg,
+            position_m,
+        } => {
+            assert_close(mass_kg, 22.0 * 0.453_592_37, 1e-12);
+            assert_close(position_m[2], 12.0 * 0.0254, 1e-12);
+        }
+        o => panic!("{o:?}"),
+    }
+    // One unit after the last coordinate applies to all three
+    // (1 cm = 0.01 m, SI prefixes).
+    match whatif::parse_override("ballast=12 kg@10,-5,30 cm").unwrap() {
+        Override::Ballast {
+            mass_kg,
+            position_m,
+        } => {
+            assert_close(mass_kg, 12.0, 1e-12);
+            assert_close(position_m[0], 0.10, 1e-12);
+            assert_close(position_m[1], -0.05, 1e-12);
+            assert_close(position_m[2], 0.30, 1e-12);
+        }
+        o => panic!("{o:?}"),
+    }
+    assert_eq!(
+        whatif::parse_override("cover=as-logged").unwrap(),
+        Override::Cover(CoverMode::AsLogged)
+    );
+    // 1.5 min = 90 s (SI brochure, non-SI units accepted for use with SI).
+    assert_eq!(
+        whatif::parse_override("time_to_park=1.5 min").unwrap(),
+        Override::TimeToPark(90.0)
+    );
+}
+
+#[test]
+fn added_ballast_lowers_the_closest_approach_by_the_lever_rule() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = ramp_log(dir.path());
+    let base = demo_rig();
+    let mass_kg = 10.0;
+    let texts = vec![format!("ballast={mass_kg} kg@0,0,0")];
+    let variant = whatif::variant_from_texts(&base, &texts).unwrap();
+    let rep = run(&profile, &[base.clone(), variant]);
+    let a = rep.rigs[0].overturning.clone().unwrap();
+    let b = rep.rigs[1].overturning.clone().unwrap();
+    assert!(
+        b.utilisation < a.utilisation,
+        "{} !< {}",
+        b.utilisation,
+        a.utilisation
+    );
+
+    // Hand check of the variant's figure (lever rule, moment = force ×
+    // perpendicular distance: Meriam & Kraige, Engineering Mechanics:
+    // Statics, ch. 2). A mass at the tripod centre on the ground adds
+    // m·g·cosθ × (distance from the centre to each edge) to every edge's
+    // stabilising moment and nothing to the overturning one; for three feet
+    // on a circle of radius R that distance is the inradius of the
+    // equilateral triangle, R/2 (Euclid, Elements IV; any geometry text).
+    // The base rig's edge moments come from the core at the variant's
+    // closest-approach conditions.
+    let c = Conditions {
+        pose: b.pose,
+        tilt: Tilt::new(
+            b.tilt_deg.unwrap().to_radians(),
+            b.tilt_downhill_deg.unwrap().to_radians(),
+        )
+        .unwrap(),
+        wind_speed_mps: b.gust_mps.unwrap(),
+        wind_from_rad: b.wind_from_deg.unwrap().to_radians(),
+        air: base.air,
+        cover_fitted: false,
+    };
+    let assessment = base.rig.assess(&c).unwrap();
+    let g = 9.806_65; // standard gravity, ISO 80000-3
+    let cos_tilt = f64::from(b.tilt_deg.unwrap()).to_radians().cos();
+    let extra_nm = mass_kg * g * cos_tilt * DEMO_FOOT_CIRCLE_M / 2.0;
+    let expected = assessment
+        .edges
+        .iter()
+        .map(|e| f64::from(e.overturning_nm) / (f64::from(e.stabilising_nm) + extra_nm))
+        .fold(0.0, f64::max);
+    assert_close(f64::from(b.utilisation), expected, 2e-3);
+}
+
+#[test]
+fn a_lower_park_threshold_parks_earlier() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = ramp_log(dir.path());
+    let base = demo_rig();
+    // The demo rig parks at 0.65 (host-sim/demo/rig.toml, [guard]).
+    assert_close(f64::from(base.guard.park_utilisation), 0.65, 1e-6);
+    let lower = whatif::variant_from_texts(&base, &["park_utilisation=0.55".to_owned()]).unwrap();
+    let rep = run(&profile, &[base, lower]);
+    let cmp = whatif::compare(&rep);
+    let (a, b) = (&cmp.rigs[0], &cmp.rigs[1]);
+    let (ta, tb) = (a.first_park_t_s.unwrap(), b.first_park_t_s.unwrap());
+    // On a rising wind a lower threshold is crossed first (the guard's park
+    // rule: park when the predicted utilisation reaches the threshold); the
+    // wind and so the figures are the same in both columns.
+    assert!(tb < ta, "park at {tb} s with 0.55, {ta} s with 0.65");
+    assert_close(
+        f64::from(a.overturning_utilisation.unwrap()),
+        f64::from(b.overturning_utilisation.unwrap()),
+        1e-6,
+    );
+    let text = cmp.text();
+    assert!(text.contains("A = ") && text.contains("B = "), "{text}");
+    assert!(text.contains("park_utilisation=0.55"), "{text}");
+    assert!(text.contains("first park request"), "{text}");
+}
+
+#[test]
+fn a_bad_override_is_refused_with_its_range() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = ramp_log(dir.path());
+    let run_cli = |what_if: &str| {
+        Command::new(env!("CARGO_BIN_EXE_standfast"))
+            .arg("replay")
+            .arg("--rig")
+            .arg(demo_rig_path())
+            .arg("--profile")
+            .arg(&profile)
+            .arg("--what-if")
+            .arg(what_if)
+            .output()
+            .unwrap()
+    };
+    // The core accepts a friction coefficient of 0 to 2 (core/src/rig.rs
+    // `Rig::new`); the message names the override, the value and the range.
+    let out = run_cli("friction=3");
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("friction") && err.contains("\"3\"") && err.contains("0 to 2"),
+        "{err}"
+    );
+    assert!(out.stdout.is_empty());
+    // The park threshold may not go below the watch threshold (0.5 in the
+    // demo rig).
+    let out = run_cli("park_utilisation=0.3");
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("park_utilisation") && err.contains("0.3") && err.contains("0.5 to 1"),
+        "{err}"
+    );
+    // A cover word outside the set is named with the set.
+    let out = run_cli("cover=maybe");
+    assert_eq!(out.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("on, off, as-logged"), "{err}");
+
+    // And a good one prints both columns and the cautions.
+    let out = run_cli("ballast=12 kg@0,0,0.3 m");
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8_lossy(&out.stdout);
+    let side = text.find("Side by side").unwrap();
+    let cautions = text.find("Cautions:").unwrap();
+    assert!(side < cautions, "{text}");
+}
+
+#[test]
+fn cover_on_counts_the_cover_all_night() {
+    // The demo log has no cover channel; with cover=on the cover's mass
+    // (1.5 kg) is on the rig all night (host-sim/demo/rig.toml, [cover]).
+    let base = demo_rig();
+    let on = whatif::variant_from_texts(&base, &["cover=on".to_owned()]).unwrap();
+    let off = whatif::variant_from_texts(&base, &["cover=off".to_owned()]).unwrap();
+    let mass = |r: &LoadedRig| -> f32 { r.rig.parts().iter().map(|p| p.mass_kg).sum() };
+    // The base rig lists the cover as a part too (counted only while
+    // fitted), so the totals of its parts are equal with cover=on and
+    // 1.5 kg more than with the cover removed.
+    assert_close(f64::from(mass(&on)), f64::from(mass(&base)), 1e-6);
+    assert_close(f64::from(mass(&on) - mass(&off)), 1.5, 1e-4);
+    assert!(off.spec.cover.is_none());
+}
