@@ -72,6 +72,26 @@ cargo run -q -p standfast-firmware --example host_replay -- "$LOG" >"$OUT/host-e
 diff -u "$OUT/host-events.txt" "$OUT/qemu-events.txt"
 echo "emulator and host agree: $(grep -c '^event ' "$OUT/qemu-events.txt") events"
 
+step "firmware: host-sim replay (standfast replay) of the same rig and log, guard events compared"
+# The guard's own events (printed by the board as `guard event ...`, without
+# the backstop's limit stages and the station's health events) must equal
+# what host-sim's replay of the same core guard gives for the same rig
+# (replay/rig.toml = example_rig() and the default GuardConfig) and the same
+# inputs, bit for bit (replay/profile.toml; replay/short-night-host.csv made by
+# replay/make_host_inputs.py). host-sim reads no comment line, so the log goes
+# in without its `#` line.
+grep -v '^#' "$LOG" >"$OUT/short-night.csv"
+cargo run -q --release -p standfast-sim -- replay --rig firmware-example/replay/rig.toml \
+  --profile firmware-example/replay/profile.toml --events "$OUT/host-sim-events.txt" \
+  "$OUT/short-night.csv" firmware-example/replay/short-night-host.csv >"$OUT/host-sim-summary.txt"
+sed -n 's/^guard //p' "$OUT/qemu-events.txt" >"$OUT/qemu-guard-events.txt"
+if [ ! -s "$OUT/qemu-guard-events.txt" ]; then
+  echo "the emulated run printed no guard events: nothing to compare"
+  exit 1
+fi
+diff -u "$OUT/host-sim-events.txt" "$OUT/qemu-guard-events.txt"
+echo "emulator and host-sim agree: $(wc -l <"$OUT/qemu-guard-events.txt") guard events"
+
 step "firmware: a HardFault ends the emulated run with a failure"
 rc=0
 timeout 60 qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \

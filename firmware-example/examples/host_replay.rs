@@ -43,6 +43,9 @@ fn main() -> ExitCode {
                     println!("{e}");
                     events += 1;
                 }
+                for e in replay.guard_events() {
+                    println!("guard {e}");
+                }
             }
             Ok(None) => {}
             Err(e) => {

@@ -25,6 +25,7 @@
 //!   both empty otherwise.
 
 use crate::assess::{LimitRule, Limits};
+use crate::event::{Event, EventKind};
 use crate::guard_adapter::GuardAssess;
 use crate::lines::FailSafeLines;
 use crate::lis3dh::{self, Lis3dh, RawSample};
@@ -474,7 +475,12 @@ pub struct Replay<'r> {
     header_seen: bool,
     last_t_ms: Option<u64>,
     rows: u32,
+    guard_stage: standfast::guard::Stage,
+    guard_events: heapless::Vec<Event, GUARD_EVENTS>,
 }
+
+/// Most guard-only events one step gives: its raised faults and one stage change.
+pub const GUARD_EVENTS: usize = standfast::guard::MAX_EVENTS + 1;
 
 impl<'r> Replay<'r> {
     /// A replay with `setup`, assessed by the guard for `rig` (default
@@ -504,7 +510,20 @@ impl<'r> Replay<'r> {
             header_seen: false,
             last_t_ms: None,
             rows: 0,
+            guard_stage: standfast::guard::Stage::Clear,
+            guard_events: heapless::Vec::new(),
         })
+    }
+
+    /// The guard's own events of the last step, without the backstop and
+    /// the station: the faults it raised, then its stage change (names as
+    /// [`standfast::guard::Stage::name`], starting from `clear`). The
+    /// binaries print them as `guard event ...` lines; host-sim's
+    /// `standfast replay --events` writes the same lines for the same rig and
+    /// inputs (compared by `ci.sh`).
+    #[must_use]
+    pub fn guard_events(&self) -> &[Event] {
+        &self.guard_events
     }
 
     /// Data rows stepped so far.
@@ -565,7 +584,26 @@ impl<'r> Replay<'r> {
             }),
             pose: row.pose,
         };
-        self.station.step(row.t_ms, inputs)
+        let report = self.station.step(row.t_ms, inputs);
+        self.guard_events.clear();
+        for e in &report.events {
+            if let EventKind::AssessFault(_) = e.kind {
+                let _ = self.guard_events.push(*e);
+            }
+        }
+        let stage = self.station.rule().guard_stage();
+        if stage != self.guard_stage {
+            let _ = self.guard_events.push(Event {
+                // The log's time never goes back (checked), so it is the station's.
+                t_ms: row.t_ms,
+                kind: EventKind::Stage {
+                    from: self.guard_stage.name(),
+                    to: stage.name(),
+                },
+            });
+            self.guard_stage = stage;
+        }
+        report
     }
 }
 

@@ -14,6 +14,7 @@ pub mod bridge;
 pub mod cli;
 pub mod demo_data;
 pub mod error;
+pub mod event_lines;
 pub mod located;
 pub mod log;
 pub mod replay;

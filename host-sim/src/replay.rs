@@ -118,6 +118,9 @@ pub struct FaultSeen {
     pub t_s: f64,
     /// The fault, as the core describes it.
     pub fault: String,
+    /// The fault itself (for [`crate::event_lines`]).
+    #[serde(skip)]
+    pub kind: standfast::sense::Fault,
 }
 
 /// Time spent in one stage.
@@ -369,6 +372,7 @@ impl Tracker {
                             time: time.to_iso8601(3),
                             t_s,
                             fault: f.to_string(),
+                            kind: *f,
                         });
                     } else {
                         r.faults_not_kept += 1;
@@ -582,6 +586,10 @@ pub struct ReplayArgs {
     /// alarm_utilisation=, time_to_park=, friction=, tie_down=.
     #[arg(long = "what-if", value_name = "KEY=VALUE")]
     pub what_if: Vec<String>,
+    /// Write the first rig's stage changes and faults as the firmware
+    /// example's event lines to this file (see `event_lines`).
+    #[arg(long, value_name = "FILE")]
+    pub events: Option<std::path::PathBuf>,
 }
 
 /// Arguments of `demo`.
@@ -693,6 +701,9 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
     let mut merger = open_logs(&profile, &a.logs)?;
     let rep = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
     crate::whatif::write_summary(&rep, a.json, out)?;
+    if let Some(path) = &a.events {
+        crate::event_lines::write_file(&rep, path)?;
+    }
     if let Some(h) = &a.html {
         crate::report::write_page(h, &crate::report::replay_html(&rep, &rigs)?)?;
         if !a.json {

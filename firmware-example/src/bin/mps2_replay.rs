@@ -111,6 +111,9 @@ fn run() -> u32 {
                 hprintln!("{}", e);
                 events = events.saturating_add(1);
             }
+            for e in replay.guard_events() {
+                hprintln!("guard {}", e);
+            }
         }
         Ok(())
     };

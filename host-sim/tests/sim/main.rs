@@ -4,6 +4,7 @@
 mod bridge;
 mod cli;
 mod demo;
+mod firmware_replay;
 mod located;
 mod log_merge;
 mod log_time;

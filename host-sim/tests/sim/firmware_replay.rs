@@ -1,0 +1,85 @@
+//! host-sim's replay of the firmware example's invented short night
+//! (firmware-example/replay/: rig.toml, profile.toml, short-night.csv and
+//! short-night-host.csv) gives the guard's own event lines the firmware's
+//! host replay gives (`guard event ...`, firmware-example/src/replay.rs
+//! `Replay::guard_events`). The firmware's expected run is in
+//! firmware-example/tests/host/replay.rs: its guard reaches `watch` at the
+//! 19.05 m/s gate at 15 000 ms and stays there (600 s dwell), raising no
+//! sensor fault of its own. The reference is the firmware crate's own run of
+//! the same core guard (cross-implementation check, no outside source).
+
+use standfast_sim::event_lines;
+use standfast_sim::replay::{open_logs, replay, ReplayOptions};
+use standfast_sim::rigfile;
+use std::path::PathBuf;
+
+fn dir() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("../firmware-example/replay")
+}
+
+#[test]
+fn short_night_gives_the_firmware_guard_events() {
+    let d = dir();
+    let rig = rigfile::load(&d.join("rig.toml")).unwrap();
+    // host-sim's CSV reader has no comment lines: the log without its `#` line.
+    let text = std::fs::read_to_string(d.join("short-night.csv")).unwrap();
+    let stripped: String = text
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let tmp = std::env::temp_dir().join(format!("standfast-fw-night-{}.csv", std::process::id()));
+    std::fs::write(&tmp, stripped).unwrap();
+    let mut merger = open_logs(
+        &d.join("profile.toml"),
+        &[tmp.clone(), d.join("short-night-host.csv")],
+    )
+    .unwrap();
+    let rep = replay(
+        std::slice::from_ref(&rig),
+        &mut merger,
+        ReplayOptions::default(),
+        None,
+    )
+    .unwrap();
+    std::fs::remove_file(&tmp).ok();
+    assert_eq!(rep.issues_total, 0);
+    assert_eq!(rep.records, 400);
+    assert_eq!(
+        event_lines::lines(&rep).unwrap(),
+        "event t_ms=15000 kind=stage from=clear to=watch\n"
+    );
+}
+
+/// The LIS3DH driver's conversion, f32(word >> 4) · f32(0.001) (firmware
+/// src/lis3dh.rs `RawSample::to_g` at ±2 g), equals host-sim's, word × scale
+/// in f64 with scale = f32(0.001)/16, then g → m/s² → g and rounded to f32
+/// (src/log/profile.rs `to_si`, src/replay.rs `inputs_of`), for all 4096
+/// 12-bit values: the profile's scale makes the two sides bit-identical.
+#[test]
+fn profile_accel_scale_reproduces_the_driver_in_f32() {
+    let c = 0.001_f32;
+    let scale = f64::from(c) / 16.0;
+    assert_eq!(scale, 6.250_000_296_859_07e-5);
+    let g0 = standfast_sim::replay::STANDARD_GRAVITY_MPS2;
+    for n in -2048_i16..2048 {
+        let word = n * 16;
+        let firmware = f32::from(word >> 4) * c;
+        #[allow(clippy::cast_possible_truncation)]
+        let host = ((f64::from(word) * scale * g0 + 0.0) / g0) as f32;
+        assert_eq!(firmware.to_bits(), host.to_bits(), "word {word}");
+    }
+}
+
+/// The rig file's air (ISA at elevation 0, host-sim) has the same density
+/// as the firmware guard's `Air::default()` (ISO 2533 sea level), so the
+/// guards see the same air.
+#[test]
+fn rig_file_air_equals_the_guard_default_air() {
+    let rig = rigfile::load(&dir().join("rig.toml")).unwrap();
+    assert_eq!(
+        rig.air.density_kg_m3().to_bits(),
+        standfast::air::Air::default().density_kg_m3().to_bits()
+    );
+    assert_eq!(rig.guard, standfast::guard::GuardConfig::default());
+}
