@@ -56,8 +56,20 @@ use standfast::Error;
 /// tripod's centre.
 ///
 /// # Errors
-/// Whatever [`Rig::new`] rejects (not expected for these figures).
+/// Whatever [`example_rig_spec`] or [`Rig::new`] rejects (not expected for
+/// these figures).
 pub fn example_rig() -> Result<Rig, Error> {
+    Rig::new(&example_rig_spec()?)
+}
+
+/// The description [`example_rig`] is built from (rig frame: x east, y north,
+/// z up, metres, kilograms; latitude in radians). `replay/rig.toml` is the
+/// same rig as a host-sim rig file; a test loads it through host-sim's rig
+/// loader and compares the two descriptions field by field.
+///
+/// # Errors
+/// Whatever [`Support::tripod`] rejects (not expected for these figures).
+pub fn example_rig_spec() -> Result<RigSpec, Error> {
     let tripod = Support::tripod(0.45, 0.0)?;
     let mut bodies = Vec::new();
     let tube = BodySpec {
@@ -93,7 +105,7 @@ pub fn example_rig() -> Result<Rig, Error> {
             thickness_m: 0.06,
         })
         .ok();
-    let spec = RigSpec {
+    Ok(RigSpec {
         feet: tripod.feet().iter().copied().collect(),
         legs: Some(LegsSpec {
             mass_kg: 0.8,
@@ -113,8 +125,26 @@ pub fn example_rig() -> Result<Rig, Error> {
         cover: None,
         ballast: Vec::new(),
         drives: None,
-    };
-    Rig::new(&spec)
+    })
+}
+
+/// The guard settings of the replay: [`GuardConfig::default()`] with a
+/// 20 s dwell, a 30 s time to park and a 10 s fault clearing time, so an
+/// invented log of a few minutes walks through the stages and back (the
+/// defaults, 600 s, 120 s and 60 s, would need a log of hours). Everything
+/// else, thresholds included, is the default. `replay/rig.toml` carries the
+/// same three values in its `[guard]` section (a host test checks that
+/// host-sim's rig loader reads it to an equal configuration). Invented for the demonstration: on a real
+/// rig keep a dwell long enough that a lull between gusts does not unpark it
+/// in a rising storm, and measure your mount's time to park.
+#[must_use]
+pub fn example_guard_config() -> GuardConfig {
+    GuardConfig {
+        dwell_s: 20.0,
+        time_to_park_s: 30.0,
+        fault_clear_s: 10.0,
+        ..GuardConfig::default()
+    }
 }
 
 /// The guard as an [`Assess`] plug-in, with an optional [`LimitRule`] backstop.

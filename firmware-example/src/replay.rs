@@ -26,7 +26,7 @@
 
 use crate::assess::{LimitRule, Limits};
 use crate::event::{Event, EventKind};
-use crate::guard_adapter::GuardAssess;
+use crate::guard_adapter::{example_guard_config, GuardAssess};
 use crate::lines::FailSafeLines;
 use crate::lis3dh::{self, Lis3dh, RawSample};
 use crate::pose::MountPose;
@@ -36,7 +36,6 @@ use core::convert::Infallible;
 use core::fmt;
 use embedded_hal::digital::{ErrorType as PinErrorType, OutputPin};
 use embedded_hal::i2c::{self, ErrorKind, NoAcknowledgeSource, Operation};
-use standfast::guard::GuardConfig;
 use standfast::math;
 use standfast::rig::Rig;
 use standfast::Error;
@@ -483,8 +482,8 @@ pub struct Replay<'r> {
 pub const GUARD_EVENTS: usize = standfast::guard::MAX_EVENTS + 1;
 
 impl<'r> Replay<'r> {
-    /// A replay with `setup`, assessed by the guard for `rig` (default
-    /// [`GuardConfig`], started at t = 0 ms) with the [`LimitRule`] of
+    /// A replay with `setup`, assessed by the guard for `rig`
+    /// ([`example_guard_config`], started at t = 0 ms) with the [`LimitRule`] of
     /// `setup` as backstop; the emulated sensor sits at address 0x18.
     ///
     /// # Errors
@@ -499,7 +498,7 @@ impl<'r> Replay<'r> {
             FailSafeLines::new(MemoryPin::default(), MemoryPin::default()),
             GuardAssess::new(
                 rig,
-                GuardConfig::default(),
+                example_guard_config(),
                 0,
                 Some(LimitRule::new(setup.limits)),
             )?,

@@ -12,5 +12,6 @@ mod guard_adapter;
 mod lines;
 mod lis3dh;
 mod replay;
+mod rig_file;
 mod station;
 mod wind;

@@ -2,11 +2,13 @@
 //! (firmware-example/replay/: rig.toml, profile.toml, short-night.csv and
 //! short-night-host.csv) gives the guard's own event lines the firmware's
 //! host replay gives (`guard event ...`, firmware-example/src/replay.rs
-//! `Replay::guard_events`). The firmware's expected run is in
-//! firmware-example/tests/host/replay.rs: its guard reaches `watch` at the
-//! 19.05 m/s gate at 15 000 ms and stays there (600 s dwell), raising no
-//! sensor fault of its own. The reference is the firmware crate's own run of
-//! the same core guard (cross-implementation check, no outside source).
+//! `Replay::guard_events`). The reference is the firmware crate's own run of
+//! the same core guard (cross-implementation check, no outside source); the
+//! firmware's test (firmware-example/tests/host/replay.rs) lists the same
+//! nine events with where each comes from in the log's script
+//! (firmware-example/replay/make_short_night.py). That rig.toml is the
+//! firmware's example rig and guard settings is checked on the firmware side
+//! (firmware-example/tests/host/rig_file.rs, through host-sim's rig loader).
 
 use standfast_sim::event_lines;
 use standfast_sim::replay::{open_logs, replay, ReplayOptions};
@@ -44,11 +46,33 @@ fn short_night_gives_the_firmware_guard_events() {
     .unwrap();
     std::fs::remove_file(&tmp).ok();
     assert_eq!(rep.issues_total, 0);
-    assert_eq!(rep.records, 400);
-    assert_eq!(
-        event_lines::lines(&rep).unwrap(),
-        "event t_ms=15000 kind=stage from=clear to=watch\n"
-    );
+    assert_eq!(rep.records, 1200);
+    // Guard settings: the defaults with a 20 s dwell, 30 s time to park and
+    // 10 s fault clearing time (rig.toml [guard]). Gate of second k at
+    // (k+1)·1000 ms.
+    let expected = [
+        // The blow of seconds 10–19 (15.3/16.05 m/s) at the observing pose;
+        // the times were read off a run (the third and fourth gate).
+        "event t_ms=13000 kind=stage from=clear to=watch",
+        "event t_ms=14000 kind=stage from=watch to=park_now",
+        // Park pose reported from 20 000 ms, figures settled below
+        // 0.8 × park from then (read off a run): 20 s dwell to 40 000.
+        "event t_ms=40000 kind=stage from=park_now to=watch",
+        // Pulses missing 60.1–71.9 s: the last wind sample at 60 000 is
+        // stale (> 10 s) at the first row after 70 000.
+        "event t_ms=70100 kind=fault sensor=wind_speed class=stale",
+        "event t_ms=70100 kind=fault sensor=wind_direction class=stale",
+        "event t_ms=70100 kind=stage from=watch to=sensor_fault",
+        // Wind back at 73 000 (the firmware's restarted gate), 10 s fault
+        // clearing time, then no lower than watch.
+        "event t_ms=83000 kind=stage from=sensor_fault to=watch",
+        // The storm ramp from second 90 (21.3, 24.3, 27.3 m/s) at the park
+        // pose; the times were read off a run. The alarm latches.
+        "event t_ms=93000 kind=stage from=watch to=park_now",
+        "event t_ms=95000 kind=stage from=park_now to=alarm",
+    ];
+    let want: String = expected.iter().map(|l| format!("{l}\n")).collect();
+    assert_eq!(event_lines::lines(&rep).unwrap(), want);
 }
 
 /// The LIS3DH driver's conversion, f32(word >> 4) · f32(0.001) (firmware
@@ -73,7 +97,9 @@ fn profile_accel_scale_reproduces_the_driver_in_f32() {
 
 /// The rig file's air (ISA at elevation 0, host-sim) has the same density
 /// as the firmware guard's `Air::default()` (ISO 2533 sea level), so the
-/// guards see the same air.
+/// guards see the same air; and its `[guard]` section changes only the
+/// dwell, time to park and fault clearing time (the firmware's
+/// `example_guard_config`, compared there with this file).
 #[test]
 fn rig_file_air_equals_the_guard_default_air() {
     let rig = rigfile::load(&dir().join("rig.toml")).unwrap();
@@ -81,5 +107,13 @@ fn rig_file_air_equals_the_guard_default_air() {
         rig.air.density_kg_m3().to_bits(),
         standfast::air::Air::default().density_kg_m3().to_bits()
     );
-    assert_eq!(rig.guard, standfast::guard::GuardConfig::default());
+    assert_eq!(
+        rig.guard,
+        standfast::guard::GuardConfig {
+            dwell_s: 20.0,
+            time_to_park_s: 30.0,
+            fault_clear_s: 10.0,
+            ..standfast::guard::GuardConfig::default()
+        }
+    );
 }
