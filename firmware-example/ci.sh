@@ -76,7 +76,7 @@ step "firmware: host-sim replay (standfast replay) of the same rig and log, guar
 # The guard's own events (printed by the board as `guard event ...`, without
 # the backstop's limit stages and the station's health events) must equal
 # what host-sim's replay of the same core guard gives for the same rig
-# (replay/rig.toml = example_rig() and the default GuardConfig) and the same
+# (replay/rig.toml = example_rig_spec() and example_guard_config()) and the same
 # inputs, bit for bit (replay/profile.toml; replay/short-night-host.csv made by
 # replay/make_host_inputs.py). host-sim reads no comment line, so the log goes
 # in without its `#` line.
