@@ -527,9 +527,9 @@ impl<'r> Guard<'r> {
             || inputs.pose.is_some()
             || inputs.cover_fitted.is_some();
         // The full wind report only when the physics is evaluated; otherwise
-        // the 3-s gust for the gust history, from the cache when the wind bin
-        // and the wind samples are unchanged (the same value the report
-        // would give).
+        // the 3-s gust for the gust history (`WindStats::gust_3s_mps`, the
+        // report's value without the rest of the report), from the cache
+        // when the wind bin and the wind samples are unchanged.
         let bin = now.0 / FINE_BIN_MS;
         let report = if due {
             let r = self.wind.report(now);
@@ -542,7 +542,7 @@ impl<'r> Guard<'r> {
             (Some(r), _) => r.gust_3s_mps,
             (None, Some((b, g))) if b == bin => g,
             (None, _) => {
-                let g = self.wind.report(now).gust_3s_mps;
+                let g = self.wind.gust_3s_mps(now);
                 self.gust_3s_cache = Some((bin, g));
                 g
             }

@@ -226,7 +226,11 @@ impl FaultSet {
 
     /// The faults held, oldest first.
     pub fn iter(&self) -> impl Iterator<Item = Fault> + '_ {
-        self.items.iter().filter_map(|f| *f)
+        // Only the first `len` slots are ever filled.
+        self.items
+            .iter()
+            .take(usize::from(self.len))
+            .filter_map(|f| *f)
     }
 
     /// True when a fault matching `pred` is held.

@@ -328,7 +328,9 @@ pub fn lowpass_alpha(dt_s: f32, tau_s: f32) -> f32 {
 /// [`ErrorKind::ZeroDirection`] for a zero or non-finite vector;
 /// [`ErrorKind::OutOfRange`] when the tilt exceeds [`MAX_TILT_RAD`].
 pub fn tilt_of_specific_force(a: Vec3) -> Result<Tilt, Error> {
-    if a.normalized().is_none() {
+    // The test of `Vec3::normalized`, without forming the unit vector.
+    let n = a.norm();
+    if !(n > 1e-12 && n.is_finite()) {
         return Err(Error::new(ErrorKind::ZeroDirection, "tilt.specific_force"));
     }
     let magnitude = small_angle_atan2(planar_norm(a.x, a.y), a.z);
@@ -360,6 +362,19 @@ fn small_angle_atan2(y: f32, x: f32) -> f32 {
     } else {
         math::atan2(y, x)
     }
+}
+
+/// True when `small_angle_atan2(√ss, x)` is certainly at most `limit_rad`
+/// (0 < `limit_rad`; limits above 0.8 are taken as 0.8), found without a
+/// square root or a division: for x ≥ 1e-6 and ss ≤ (0.4 · min(limit, 0.8)
+/// · x)², √ss / x ≤ 0.32 (plus rounding, with a wide margin to 0.42 even for
+/// a square root a few per cent off), so the series branch applies, whose
+/// f32 value never exceeds its argument t = √ss / x (every term after the
+/// first subtracts); and t ≤ 0.4 · limit (plus rounding) < limit. `false`
+/// means "not known": compute the angle.
+fn atan2_certainly_at_most(ss: f32, x: f32, limit_rad: f32) -> bool {
+    let b = x * 0.4 * limit_rad.min(0.8);
+    x >= 1e-6 && ss <= b * b
 }
 
 /// Maclaurin series of atan(t) to the t¹³ term, for |t| ≤ 0.42.
@@ -397,7 +412,7 @@ fn bits(raw: [f32; 3]) -> [u32; 3] {
 /// drift and step tracking and fault detection.
 ///
 /// Memory: `core::mem::size_of::<TiltSensor>()` is a compile-time constant
-/// below 320 bytes (256 on x86-64; checked by a unit test); nothing is allocated.
+/// of at most 320 bytes (checked by a unit test); nothing is allocated.
 #[derive(Clone, Debug)]
 pub struct TiltSensor {
     config: TiltConfig,
@@ -409,6 +424,16 @@ pub struct TiltSensor {
     medium_g: Vec3,
     slow_g: Vec3,
     last_magnitude_g: f32,
+    /// Filter factors (fast, medium, slow) for the sample interval
+    /// `alpha_dt_ms`: the interval is nearly always the same, so the three
+    /// exponentials are computed once per distinct interval (same values).
+    alpha_dt_ms: u64,
+    alphas: [f32; 3],
+    /// The configuration's time limits in whole ms (`s_to_ms` of stale,
+    /// stuck, out of band; stuck 0 = disabled), computed once.
+    stale_ms: u64,
+    stuck_ms: Option<u64>,
+    out_of_band_ms: u64,
     last_raw_bits: [u32; 3],
     raw_since: Millis,
     rejection: Option<Fault>,
@@ -436,6 +461,11 @@ impl TiltSensor {
             medium_g: Vec3::ZERO,
             slow_g: Vec3::ZERO,
             last_magnitude_g: f32::NAN,
+            alpha_dt_ms: u64::MAX,
+            alphas: [0.0; 3],
+            stale_ms: s_to_ms(config.stale_after_s),
+            stuck_ms: (config.stuck_after_s > 0.0).then(|| s_to_ms(config.stuck_after_s)),
+            out_of_band_ms: s_to_ms(config.out_of_band_limit_s),
             last_raw_bits: [0; 3],
             raw_since: now,
             rejection: None,
@@ -500,11 +530,21 @@ impl TiltSensor {
                 self.slow_g = a;
             }
             Some(t) => {
-                let dt = now.seconds_since(t);
-                let c = &self.config;
-                self.fast_g += (a - self.fast_g) * lowpass_alpha(dt, c.filter_tau_s);
-                self.medium_g += (a - self.medium_g) * lowpass_alpha(dt, c.step_tau_s);
-                self.slow_g += (a - self.slow_g) * lowpass_alpha(dt, c.drift_tau_s);
+                let dt_ms = now.since(t);
+                if dt_ms != self.alpha_dt_ms {
+                    let dt = ms_to_s(dt_ms);
+                    let c = &self.config;
+                    self.alphas = [
+                        lowpass_alpha(dt, c.filter_tau_s),
+                        lowpass_alpha(dt, c.step_tau_s),
+                        lowpass_alpha(dt, c.drift_tau_s),
+                    ];
+                    self.alpha_dt_ms = dt_ms;
+                }
+                let [fast, medium, slow] = self.alphas;
+                self.fast_g += (a - self.fast_g) * fast;
+                self.medium_g += (a - self.medium_g) * medium;
+                self.slow_g += (a - self.slow_g) * slow;
             }
         }
         self.last_filter = Some(now);
@@ -635,33 +675,45 @@ impl TiltSensor {
             set.push(f);
         }
         let silent_ms = now.since(self.last_sample.unwrap_or(self.start));
-        if silent_ms > s_to_ms(c.stale_after_s) {
+        if silent_ms > self.stale_ms {
             set.push(Fault::Stale { sensor, silent_ms });
         }
         if let Some(last) = self.last_sample {
             let unchanged_ms = last.since(self.raw_since);
-            if c.stuck_after_s > 0.0 && unchanged_ms > s_to_ms(c.stuck_after_s) {
+            if self.stuck_ms.is_some_and(|limit| unchanged_ms > limit) {
                 set.push(Fault::Stuck {
                     sensor,
                     unchanged_ms,
                 });
             }
             let for_ms = last.since(self.last_in_band);
-            if for_ms > s_to_ms(c.out_of_band_limit_s) {
+            if for_ms > self.out_of_band_ms {
                 set.push(Fault::MagnitudeOutOfBand {
                     magnitude_g: self.last_magnitude_g,
                     for_ms,
                 });
             }
         }
-        let step_rad = self.step_rad();
-        if step_rad > c.step_limit_rad {
-            set.push(Fault::TiltStep { step_rad });
+        // The two angle checks run on every step; a cheap bound settles the
+        // usual case (well inside the limit) without the arc tangent, and
+        // otherwise the angle is computed exactly as `step_rad` and `tilt`
+        // do, so the faults are the same.
+        if self.last_filter.is_some() {
+            let (a, b) = (self.fast_g, self.medium_g);
+            let cross = a.cross(b);
+            if !atan2_certainly_at_most(cross.dot(cross), a.dot(b), c.step_limit_rad) {
+                let step_rad = angle_between(a, b);
+                if step_rad > c.step_limit_rad {
+                    set.push(Fault::TiltStep { step_rad });
+                }
+            }
         }
         if let Some(v) = self.filtered_g().and_then(|v| self.referenced(v)) {
-            let magnitude_rad = small_angle_atan2(planar_norm(v.x, v.y), v.z);
-            if magnitude_rad > MAX_TILT_RAD {
-                set.push(Fault::TiltBeyondLimit { magnitude_rad });
+            if !atan2_certainly_at_most(v.x * v.x + v.y * v.y, v.z, MAX_TILT_RAD) {
+                let magnitude_rad = small_angle_atan2(planar_norm(v.x, v.y), v.z);
+                if magnitude_rad > MAX_TILT_RAD {
+                    set.push(Fault::TiltBeyondLimit { magnitude_rad });
+                }
             }
         }
         set

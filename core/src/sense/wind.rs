@@ -446,23 +446,40 @@ impl Channel {
         sensor: Sensor,
         now: Millis,
         start: Millis,
-        c: &WindConfig,
+        limits: FaultLimits,
     ) {
         if let Some(f) = self.rejection {
             set.push(f);
         }
         let silent_ms = now.since(self.last.unwrap_or(start));
-        if silent_ms > s_to_ms(c.stale_after_s) {
+        if silent_ms > limits.stale_ms {
             set.push(Fault::Stale { sensor, silent_ms });
         }
         if let Some(last) = self.last {
             let unchanged_ms = last.since(self.same_since);
-            if c.stuck_after_s > 0.0 && unchanged_ms > s_to_ms(c.stuck_after_s) {
+            if limits.stuck_ms.is_some_and(|limit| unchanged_ms > limit) {
                 set.push(Fault::Stuck {
                     sensor,
                     unchanged_ms,
                 });
             }
+        }
+    }
+}
+
+/// The configuration's stale and stuck times in whole ms (`s_to_ms`; no
+/// stuck limit when `stuck_after_s` is 0).
+#[derive(Clone, Copy, Debug)]
+struct FaultLimits {
+    stale_ms: u64,
+    stuck_ms: Option<u64>,
+}
+
+impl FaultLimits {
+    fn of(c: &WindConfig) -> FaultLimits {
+        FaultLimits {
+            stale_ms: s_to_ms(c.stale_after_s),
+            stuck_ms: (c.stuck_after_s > 0.0).then(|| s_to_ms(c.stuck_after_s)),
         }
     }
 }
@@ -514,6 +531,8 @@ pub struct WindStats {
     latest_gust_mps: Option<f32>,
     speed: Channel,
     direction: Channel,
+    /// Fault time limits, computed once from the configuration.
+    limits: FaultLimits,
 }
 
 impl WindStats {
@@ -538,6 +557,7 @@ impl WindStats {
             latest_gust_mps: None,
             speed: Channel::new(now),
             direction: Channel::new(now),
+            limits: FaultLimits::of(&config),
         })
     }
 
@@ -693,6 +713,20 @@ impl WindStats {
             .filter(move |b| b.id >= lo && b.id <= cur)
     }
 
+    /// The latest 3-s running mean at rig height as of `now`, m/s: the
+    /// same value as [`WindReport::gust_3s_mps`] of [`WindStats::report`]
+    /// at `now`, without the rest of the report (a dozen bins summed
+    /// instead of the peak, mean and direction windows). `None` with no
+    /// sample in the last 3 s or before 3 s of record.
+    #[must_use]
+    pub fn gust_3s_mps(&self, now: Millis) -> Option<f32> {
+        let now_bin = now.0 / FINE_BIN_MS;
+        match self.newest_fine {
+            Some(c) if now_bin >= c => self.fine_mean_ending(now_bin),
+            _ => None,
+        }
+    }
+
     /// The statistics as of `now` (normally the time of the latest sample).
     #[must_use]
     pub fn report(&self, now: Millis) -> WindReport {
@@ -792,11 +826,12 @@ impl WindStats {
     pub fn faults(&self, now: Millis) -> FaultSet {
         let mut set = FaultSet::new();
         let c = &self.config;
+        let l = self.limits;
         self.speed
-            .faults(&mut set, Sensor::WindSpeed, now, self.start, c);
+            .faults(&mut set, Sensor::WindSpeed, now, self.start, l);
         if c.expect_direction {
             self.direction
-                .faults(&mut set, Sensor::WindDirection, now, self.start, c);
+                .faults(&mut set, Sensor::WindDirection, now, self.start, l);
         } else if let Some(f) = self.direction.rejection {
             set.push(f);
         }
@@ -933,11 +968,12 @@ impl MeanWind {
     pub fn faults(&self, now: Millis) -> FaultSet {
         let mut set = FaultSet::new();
         let c = &self.config;
+        let l = FaultLimits::of(c);
         self.speed
-            .faults(&mut set, Sensor::WindSpeed, now, self.start, c);
+            .faults(&mut set, Sensor::WindSpeed, now, self.start, l);
         if c.expect_direction {
             self.direction
-                .faults(&mut set, Sensor::WindDirection, now, self.start, c);
+                .faults(&mut set, Sensor::WindDirection, now, self.start, l);
         } else if let Some(f) = self.direction.rejection {
             set.push(f);
         }
