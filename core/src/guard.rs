@@ -511,8 +511,11 @@ impl<'r> Guard<'r> {
             }
         }
 
-        let mut faults = self.tilt.faults(now);
-        faults.extend(&self.wind.faults(now));
+        // The same pushes, in the same order, as tilt.faults(now) extended
+        // by wind.faults(now) and the rejections.
+        let mut faults = FaultSet::new();
+        self.tilt.faults_into(now, &mut faults);
+        self.wind.faults_into(now, &mut faults);
         faults.extend(&rejected);
         for f in faults.iter() {
             if !self.known_faults.any(|k| k.same_class(&f)) {

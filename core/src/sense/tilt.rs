@@ -668,9 +668,16 @@ impl TiltSensor {
     /// the limit, a tilt beyond the model's limit.
     #[must_use]
     pub fn faults(&self, now: Millis) -> FaultSet {
+        let mut set = FaultSet::new();
+        self.faults_into(now, &mut set);
+        set
+    }
+
+    /// Adds the faults of [`TiltSensor::faults`] to `set` (no set built and
+    /// copied on every step).
+    pub(crate) fn faults_into(&self, now: Millis, set: &mut FaultSet) {
         let sensor = Sensor::Accelerometer;
         let c = &self.config;
-        let mut set = FaultSet::new();
         if let Some(f) = self.rejection {
             set.push(f);
         }
@@ -716,7 +723,6 @@ impl TiltSensor {
                 }
             }
         }
-        set
     }
 
     /// Seconds since the last accepted sample at `now`; `None` before any.

@@ -825,17 +825,23 @@ impl WindStats {
     #[must_use]
     pub fn faults(&self, now: Millis) -> FaultSet {
         let mut set = FaultSet::new();
+        self.faults_into(now, &mut set);
+        set
+    }
+
+    /// Adds the faults of [`WindStats::faults`] to `set` (no set built and
+    /// copied on every step).
+    pub(crate) fn faults_into(&self, now: Millis, set: &mut FaultSet) {
         let c = &self.config;
         let l = self.limits;
         self.speed
-            .faults(&mut set, Sensor::WindSpeed, now, self.start, l);
+            .faults(set, Sensor::WindSpeed, now, self.start, l);
         if c.expect_direction {
             self.direction
-                .faults(&mut set, Sensor::WindDirection, now, self.start, l);
+                .faults(set, Sensor::WindDirection, now, self.start, l);
         } else if let Some(f) = self.direction.rejection {
             set.push(f);
         }
-        set
     }
 }
 
