@@ -311,6 +311,10 @@ struct Tracker {
     report: RigReplay,
     stage_s: [f64; 5],
     last_stage: Stage,
+    /// The figures of the previous step (overturning, sliding, drive 1 and
+    /// 2): while they repeat, as between evaluations, no closest approach
+    /// can rise, so the comparisons are skipped.
+    last_figures: [Option<f32>; 4],
 }
 
 impl Tracker {
@@ -332,6 +336,7 @@ impl Tracker {
             },
             stage_s: [0.0; 5],
             last_stage: Stage::Clear,
+            last_figures: [None; 4],
         }
     }
 
@@ -340,16 +345,26 @@ impl Tracker {
             *s += dt_s;
         }
         let r = &mut self.report;
-        raise(&mut r.overturning, v.overturning_utilisation, v, time, t_s);
-        raise(&mut r.sliding, v.sliding_utilisation, v, time, t_s);
-        for (i, slot) in r.drive.iter_mut().enumerate() {
-            raise(
-                slot,
-                v.drive_utilisation.and_then(|d| d.get(i).copied()),
-                v,
-                time,
-                t_s,
-            );
+        let figures = [
+            v.overturning_utilisation,
+            v.sliding_utilisation,
+            v.drive_utilisation.map(|d| d[0]),
+            v.drive_utilisation.map(|d| d[1]),
+        ];
+        // Equal (and not NaN) figures cannot beat the approach they set.
+        if figures != self.last_figures {
+            self.last_figures = figures;
+            raise(&mut r.overturning, v.overturning_utilisation, v, time, t_s);
+            raise(&mut r.sliding, v.sliding_utilisation, v, time, t_s);
+            for (i, slot) in r.drive.iter_mut().enumerate() {
+                raise(
+                    slot,
+                    v.drive_utilisation.and_then(|d| d.get(i).copied()),
+                    v,
+                    time,
+                    t_s,
+                );
+            }
         }
         for e in &v.events {
             match e {
