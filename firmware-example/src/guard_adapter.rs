@@ -41,8 +41,8 @@ use standfast::heapless::{String, Vec};
 use standfast::math::deg_to_rad;
 use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec};
+use standfast::sense::Fault;
 use standfast::sense::Millis;
-use standfast::sense::{Fault, Sensor};
 use standfast::shape::{Exposure, Shape};
 use standfast::support::Support;
 use standfast::Error;
@@ -160,22 +160,10 @@ pub struct GuardAssess<'r> {
 /// `wind_direction`) and class (the [`Fault`] variant in snake case).
 #[must_use]
 pub const fn fault_names(fault: &Fault) -> RaisedFault {
-    let sensor = match fault.sensor() {
-        Sensor::Accelerometer => "accel",
-        Sensor::WindSpeed => "wind_speed",
-        Sensor::WindDirection => "wind_direction",
-    };
-    let class = match fault {
-        Fault::NotFinite { .. } => "not_finite",
-        Fault::OutOfRange { .. } => "out_of_range",
-        Fault::TimeReversed { .. } => "time_reversed",
-        Fault::Stale { .. } => "stale",
-        Fault::Stuck { .. } => "stuck",
-        Fault::MagnitudeOutOfBand { .. } => "magnitude_out_of_band",
-        Fault::TiltStep { .. } => "tilt_step",
-        Fault::TiltBeyondLimit { .. } => "tilt_beyond_limit",
-    };
-    RaisedFault { sensor, class }
+    RaisedFault {
+        sensor: fault.sensor().code(),
+        class: fault.class_code(),
+    }
 }
 
 impl<'r> GuardAssess<'r> {

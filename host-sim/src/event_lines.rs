@@ -27,7 +27,7 @@ use std::fmt::Write as _;
 use std::path::Path;
 
 use standfast::guard::Stage;
-use standfast::sense::{Fault, Sensor};
+use standfast::sense::Fault;
 
 use crate::error::Error;
 use crate::located::InputError;
@@ -37,22 +37,7 @@ use crate::replay::RigReplay;
 /// The event-line names of a guard fault: sensor and class.
 #[must_use]
 pub const fn fault_names(fault: &Fault) -> (&'static str, &'static str) {
-    let sensor = match fault.sensor() {
-        Sensor::Accelerometer => "accel",
-        Sensor::WindSpeed => "wind_speed",
-        Sensor::WindDirection => "wind_direction",
-    };
-    let class = match fault {
-        Fault::NotFinite { .. } => "not_finite",
-        Fault::OutOfRange { .. } => "out_of_range",
-        Fault::TimeReversed { .. } => "time_reversed",
-        Fault::Stale { .. } => "stale",
-        Fault::Stuck { .. } => "stuck",
-        Fault::MagnitudeOutOfBand { .. } => "magnitude_out_of_band",
-        Fault::TiltStep { .. } => "tilt_step",
-        Fault::TiltBeyondLimit { .. } => "tilt_beyond_limit",
-    };
-    (sensor, class)
+    (fault.sensor().code(), fault.class_code())
 }
 
 /// Seconds since the first record to whole milliseconds (nearest; the

@@ -15,6 +15,19 @@ pub enum Sensor {
     WindDirection,
 }
 
+impl Sensor {
+    /// A short snake-case name for log lines: `accel`, `wind_speed`,
+    /// `wind_direction`.
+    #[must_use]
+    pub const fn code(self) -> &'static str {
+        match self {
+            Sensor::Accelerometer => "accel",
+            Sensor::WindSpeed => "wind_speed",
+            Sensor::WindDirection => "wind_direction",
+        }
+    }
+}
+
 impl fmt::Display for Sensor {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         f.write_str(match self {
@@ -106,6 +119,24 @@ impl Fault {
             Fault::MagnitudeOutOfBand { .. }
             | Fault::TiltStep { .. }
             | Fault::TiltBeyondLimit { .. } => Sensor::Accelerometer,
+        }
+    }
+
+    /// A short snake-case name of the fault's class for log lines (the
+    /// variant's name): `not_finite`, `out_of_range`, `time_reversed`,
+    /// `stale`, `stuck`, `magnitude_out_of_band`, `tilt_step`,
+    /// `tilt_beyond_limit`.
+    #[must_use]
+    pub const fn class_code(&self) -> &'static str {
+        match self {
+            Fault::NotFinite { .. } => "not_finite",
+            Fault::OutOfRange { .. } => "out_of_range",
+            Fault::TimeReversed { .. } => "time_reversed",
+            Fault::Stale { .. } => "stale",
+            Fault::Stuck { .. } => "stuck",
+            Fault::MagnitudeOutOfBand { .. } => "magnitude_out_of_band",
+            Fault::TiltStep { .. } => "tilt_step",
+            Fault::TiltBeyondLimit { .. } => "tilt_beyond_limit",
         }
     }
 

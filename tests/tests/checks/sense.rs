@@ -801,3 +801,45 @@ fn sonic_record_gust_mean_and_direction_match_plain_computation() {
         - std::f64::consts::PI;
     assert!(diff.abs() < tol(1e-4, 5e-3), "{got} vs {mean_dir}");
 }
+
+/// Log-line names of every fault class are distinct snake-case words
+/// (the firmware and host-sim print them; CI diffs their lines).
+#[test]
+fn fault_codes_are_distinct_snake_case() {
+    use standfast::sense::{Fault, Sensor};
+    let all = [
+        Fault::NotFinite {
+            sensor: Sensor::WindSpeed,
+        },
+        Fault::OutOfRange {
+            sensor: Sensor::WindSpeed,
+            value: 0.0,
+        },
+        Fault::TimeReversed {
+            sensor: Sensor::WindSpeed,
+        },
+        Fault::Stale {
+            sensor: Sensor::WindSpeed,
+            silent_ms: 0,
+        },
+        Fault::Stuck {
+            sensor: Sensor::WindSpeed,
+            unchanged_ms: 0,
+        },
+        Fault::MagnitudeOutOfBand {
+            magnitude_g: 0.0,
+            for_ms: 0,
+        },
+        Fault::TiltStep { step_rad: 0.0 },
+        Fault::TiltBeyondLimit { magnitude_rad: 0.0 },
+    ];
+    let codes: Vec<&str> = all.iter().map(|f| f.class_code()).collect();
+    for (i, c) in codes.iter().enumerate() {
+        assert!(
+            c.chars().all(|ch| ch.is_ascii_lowercase() || ch == '_'),
+            "{c}"
+        );
+        assert!(!codes[..i].contains(c), "{c} repeats");
+    }
+    assert_eq!(Sensor::Accelerometer.code(), "accel");
+}
