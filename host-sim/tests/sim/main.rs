@@ -5,6 +5,7 @@ mod bridge;
 mod cli;
 mod demo;
 mod firmware_replay;
+mod golden;
 mod located;
 mod log_merge;
 mod log_time;
