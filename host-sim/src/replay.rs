@@ -467,11 +467,111 @@ fn progress_bar() -> indicatif::ProgressBar {
     pb
 }
 
+/// Records per batch handed from the reading thread to the guard thread.
+const BATCH_RECORDS: usize = 4096;
+
+/// Batches in circulation between the two threads (being filled, waiting,
+/// being stepped, or back with their verdicts); with [`BATCH_RECORDS`] it
+/// fixes the memory of a replay, whatever the log's length.
+const BATCHES: usize = 4;
+
+/// One merged record as the replay uses it: its time in the units the
+/// replay needs, the guard inputs of the channels updated at it, and the
+/// held values the time series takes.
+#[derive(Clone, Copy, Debug)]
+struct Step {
+    time: Timestamp,
+    now: Millis,
+    t_s: f64,
+    dt_s: f64,
+    inputs: Inputs,
+    wind_speed_mps: Option<f64>,
+    cover_fitted: Option<bool>,
+}
+
+/// A batch of consecutive records and, once the guards have stepped
+/// through it, their verdicts (record by record, rig by rig). The `Vec`s
+/// are reused from batch to batch.
+struct Batch {
+    steps: Vec<Step>,
+    verdicts: Vec<Verdict>,
+}
+
+/// The guard thread of a replay: steps every guard through the batches in
+/// the order sent and sends each batch back with its verdicts. Ends when
+/// the reading side hangs up.
+fn step_guards(
+    guards: &mut [Guard<'_>],
+    batches: &std::sync::mpsc::Receiver<Batch>,
+    stepped: &std::sync::mpsc::SyncSender<Batch>,
+) {
+    for mut b in batches {
+        b.verdicts.clear();
+        for s in &b.steps {
+            for g in guards.iter_mut() {
+                b.verdicts.push(g.step(s.now, &s.inputs));
+            }
+        }
+        if stepped.send(b).is_err() {
+            return;
+        }
+    }
+}
+
+/// What the replay keeps of a stepped batch, in record order: closest
+/// approaches, stage times and events, the time series and the verdict
+/// CSV. `n` counts the records taken so far.
+///
+/// # Errors
+/// [`Error::Io`] when the verdict CSV cannot be written (at the first
+/// line that fails, as records are taken in order).
+fn take_batch(
+    b: &Batch,
+    trackers: &mut [Tracker],
+    n: &mut u64,
+    every: u64,
+    verdicts: &mut Option<(&mut dyn Write, &str)>,
+) -> Result<(), Error> {
+    let mut vs = b.verdicts.iter();
+    for s in &b.steps {
+        for (i, tr) in trackers.iter_mut().enumerate() {
+            let Some(v) = vs.next() else {
+                return Ok(());
+            };
+            tr.take(v, s.time, s.t_s, s.dt_s);
+            tr.report
+                .series
+                .push(s.t_s, v, s.wind_speed_mps, s.cover_fitted);
+            if let Some((w, name)) = verdicts.as_mut() {
+                let has_event = v
+                    .events
+                    .iter()
+                    .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
+                if *n % every == 0 || has_event {
+                    write_verdict(&mut **w, s.time, s.t_s, i, v)
+                        .map_err(|e| Error::io(*name, e))?;
+                }
+            }
+        }
+        *n += 1;
+    }
+    Ok(())
+}
+
 /// Replays the merged stream through one guard per rig.
 ///
 /// `verdicts`, when given, receives a CSV of verdicts (every
 /// `options.verdicts_every`-th record per rig, and every record with an
 /// event); `verdicts_name` names it in I/O errors.
+///
+/// Two threads share the work: this one reads and merges the logs and
+/// keeps the closest approaches, stage times, events, time series and
+/// verdict CSV; a second one steps the guards. They pass batches of
+/// [`BATCH_RECORDS`] records (and back, their verdicts) through bounded
+/// channels, so memory stays fixed. The results are those of one thread
+/// taking every record in turn: the guards step through the same records
+/// in the same order, the verdicts are taken in that order, and a merge
+/// error is returned after every record read before it has been taken.
 ///
 /// # Errors
 /// [`Error::Input`] when a rig's guard configuration is rejected by the core;
@@ -483,6 +583,8 @@ pub fn replay(
     options: ReplayOptions,
     mut verdicts: Option<(&mut dyn Write, &str)>,
 ) -> Result<ReplayReport, Error> {
+    use std::sync::mpsc::sync_channel;
+
     let every = options.verdicts_every.max(1);
     if let Some((w, name)) = verdicts.as_mut() {
         w.write_all(VERDICT_HEADER.as_bytes())
@@ -503,36 +605,92 @@ pub fn replay(
     let mut trackers: Vec<Tracker> = rigs.iter().map(|r| Tracker::new(&r.file)).collect();
     let mut t0: Option<Timestamp> = None;
     let mut last: Option<Timestamp> = None;
-    let mut n: u64 = 0;
+    // Records read, and records whose verdicts were taken.
+    let mut n_read: u64 = 0;
+    let mut n_taken: u64 = 0;
     let progress = progress_bar();
-    while let Some(rec) = merger.next_record()? {
-        if n % PROGRESS_EVERY == 0 {
-            progress.set_position(n);
+    // Every batch is at any time in one place only (this thread, a channel
+    // or the guard thread), so no channel ever holds more than BATCHES.
+    let (to_guards, from_reader) = sync_channel::<Batch>(BATCHES);
+    let (to_reader, from_guards) = sync_channel::<Batch>(BATCHES);
+    let mut spare: Vec<Batch> = (0..BATCHES)
+        .map(|_| Batch {
+            steps: Vec::with_capacity(BATCH_RECORDS),
+            verdicts: Vec::with_capacity(BATCH_RECORDS * guards.len()),
+        })
+        .collect();
+    let mut read_error: Option<Error> = None;
+    let mut take_error: Option<Error> = None;
+    std::thread::scope(|scope| {
+        let guards = &mut guards;
+        let worker = scope.spawn(move || step_guards(guards, &from_reader, &to_reader));
+        loop {
+            let mut b = match spare.pop() {
+                Some(b) => b,
+                None => match from_guards.recv() {
+                    Ok(b) => b,
+                    Err(_) => break,
+                },
+            };
+            if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut verdicts) {
+                take_error = Some(e);
+                break;
+            }
+            b.steps.clear();
+            let mut at_end = false;
+            while b.steps.len() < BATCH_RECORDS {
+                let rec = match merger.next_record() {
+                    Ok(Some(rec)) => rec,
+                    Ok(None) => {
+                        at_end = true;
+                        break;
+                    }
+                    Err(e) => {
+                        read_error = Some(e);
+                        at_end = true;
+                        break;
+                    }
+                };
+                if n_read % PROGRESS_EVERY == 0 {
+                    progress.set_position(n_read);
+                }
+                let start = *t0.get_or_insert(rec.time);
+                let dt_s = last.map_or(0.0, |l| rec.time.seconds_since(l).max(0.0));
+                last = Some(rec.time);
+                b.steps.push(Step {
+                    time: rec.time,
+                    now: millis_since(rec.time, start),
+                    t_s: rec.time.seconds_since(start),
+                    dt_s,
+                    inputs: inputs_of(&rec),
+                    wind_speed_mps: rec.wind_speed_mps,
+                    cover_fitted: rec.cover_fitted,
+                });
+                n_read += 1;
+            }
+            if !b.steps.is_empty() && to_guards.send(b).is_err() {
+                break;
+            }
+            if at_end {
+                break;
+            }
         }
-        let start = *t0.get_or_insert(rec.time);
-        let now = millis_since(rec.time, start);
-        let t_s = rec.time.seconds_since(start);
-        let dt_s = last.map_or(0.0, |l| rec.time.seconds_since(l).max(0.0));
-        last = Some(rec.time);
-        let inputs = inputs_of(&rec);
-        for (i, (g, tr)) in guards.iter_mut().zip(trackers.iter_mut()).enumerate() {
-            let v = g.step(now, &inputs);
-            tr.take(&v, rec.time, t_s, dt_s);
-            tr.report
-                .series
-                .push(t_s, &v, rec.wind_speed_mps, rec.cover_fitted);
-            if let Some((w, name)) = verdicts.as_mut() {
-                let has_event = v
-                    .events
-                    .iter()
-                    .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
-                if n % every == 0 || has_event {
-                    write_verdict(&mut **w, rec.time, t_s, i, &v)
-                        .map_err(|e| Error::io(*name, e))?;
+        // Hang up, then take the batches still on their way, in order.
+        drop(to_guards);
+        for b in &from_guards {
+            if take_error.is_none() {
+                if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut verdicts) {
+                    take_error = Some(e);
                 }
             }
         }
-        n += 1;
+        if let Err(p) = worker.join() {
+            std::panic::resume_unwind(p);
+        }
+    });
+    // A write error was met at a record before any read error.
+    if let Some(e) = take_error.or(read_error) {
+        return Err(e);
     }
     progress.finish_and_clear();
     if let Some((w, name)) = verdicts.as_mut() {
