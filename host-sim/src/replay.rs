@@ -5,7 +5,8 @@
 //! live samples: only channels with a new value at a record's time become
 //! [`Inputs`]. Memory does not grow with the log: per rig the replay keeps
 //! the closest approach of each figure, the time per stage and (up to
-//! [`MAX_KEPT_EVENTS`]) the stage changes and faults.
+//! [`MAX_KEPT_EVENTS`]) the stage changes and faults. The guards run on a
+//! second thread, overlapping the reading of the logs (see [`replay`]).
 //!
 //! Conversions at the boundary (the log side is SI after the profile):
 //! * time: milliseconds since the first record ([`Millis`]);
@@ -570,7 +571,7 @@ fn take_batch(
 /// Two threads share the work: this one reads and merges the logs and
 /// keeps the closest approaches, stage times, events, time series and
 /// verdict CSV; a second one steps the guards. They pass batches of
-/// [`BATCH_RECORDS`] records (and back, their verdicts) through bounded
+/// 1 024 records (and back, their verdicts) through bounded
 /// channels, so memory stays fixed. The results are those of one thread
 /// taking every record in turn: the guards step through the same records
 /// in the same order, the verdicts are taken in that order, and a merge
