@@ -758,7 +758,7 @@ pub struct ReplayArgs {
     #[arg(long, value_name = "FILE")]
     pub html: Option<std::path::PathBuf>,
     /// Also replay a variant of the first rig with this override, side by
-    /// side (repeatable; all apply to one variant): ballast=<mass>@<x>,<y>,<z>,
+    /// side (repeatable; all apply to one variant): ballast=MASS@X,Y,Z,
     /// cover=on|off|as-logged, watch_utilisation=, park_utilisation=,
     /// alarm_utilisation=, time_to_park=, friction=, tie_down=.
     #[arg(long = "what-if", value_name = "KEY=VALUE")]

@@ -211,7 +211,7 @@ fn parse_decimal_scaled(field: &str, shift: u32) -> Result<i64, String> {
     })
 }
 
-/// As [`parse_decimal_scaled`], on bytes already trimmed; `None` when they
+/// As `parse_decimal_scaled`, on bytes already trimmed; `None` when they
 /// are not a decimal number.
 #[must_use]
 pub fn parse_decimal_scaled_bytes(b: &[u8], shift: u32) -> Option<i64> {

@@ -123,7 +123,7 @@ pub struct Series {
     /// Highest overturning utilisation pushed (strictly rising, as the
     /// replay's closest approach).
     top_overturning: Option<f32>,
-    /// Cover state held at the record of [`Series::top_overturning`].
+    /// Cover state held at the record of the highest overturning utilisation.
     pub cover_at_closest: Option<bool>,
 }
 

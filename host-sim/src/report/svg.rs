@@ -93,7 +93,7 @@ const TIME_STEPS_S: [f64; 17] = [
 ];
 
 /// A step for an elapsed-time axis of `span_s` seconds with about `target`
-/// ticks: the smallest of [`TIME_STEPS_S`] giving at most `target` steps
+/// ticks: the smallest of `TIME_STEPS_S` giving at most `target` steps
 /// (whole days beyond).
 #[must_use]
 pub fn time_step_s(span_s: f64, target: usize) -> f64 {
