@@ -757,6 +757,11 @@ pub struct ReplayArgs {
     /// Also write a self-contained HTML report with charts to this file.
     #[arg(long, value_name = "FILE")]
     pub html: Option<std::path::PathBuf>,
+    /// What to do with a bad log row (malformed, out of order, duplicate):
+    /// `stop` at the first one (exit 1, the rows before it replayed), or
+    /// `skip` it, report and count it. Overrides the profile's `on_error`.
+    #[arg(long, value_name = "POLICY", value_parser = ["stop", "skip"])]
+    pub on_error: Option<String>,
     /// Also replay a variant of the first rig with this override, side by
     /// side (repeatable; all apply to one variant): ballast=MASS@X,Y,Z,
     /// cover=on|off|as-logged, watch_utilisation=, park_utilisation=,
@@ -809,6 +814,19 @@ pub const DEMO_RIG_TOML: &str = include_str!("../demo/rig.toml");
 /// [`Error::Input`] when the count of `logs` does not match the profile;
 /// the merge's errors.
 pub fn open_logs(profile: &std::path::Path, logs: &[std::path::PathBuf]) -> Result<Merger, Error> {
+    open_logs_with(profile, logs, None)
+}
+
+/// As [`open_logs`], with the profile's bad-row policy replaced by `policy`
+/// when given.
+///
+/// # Errors
+/// As [`open_logs`].
+pub fn open_logs_with(
+    profile: &std::path::Path,
+    logs: &[std::path::PathBuf],
+    policy: Option<crate::log::ErrorPolicy>,
+) -> Result<Merger, Error> {
     let mut p = crate::log::LogProfile::load(profile)?;
     if !logs.is_empty() {
         if logs.len() != p.files.len() {
@@ -829,7 +847,7 @@ pub fn open_logs(profile: &std::path::Path, logs: &[std::path::PathBuf]) -> Resu
             l.display().to_string().clone_into(&mut f.label);
         }
     }
-    Merger::open(&p, p.on_error)
+    Merger::open(&p, policy.unwrap_or(p.on_error))
 }
 
 fn replay_files(
@@ -875,7 +893,14 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
         (None, Some(r)) => r.clone(),
         (None, None) => std::path::PathBuf::new(),
     };
-    let mut merger = open_logs(&profile, &a.logs)?;
+    let policy = a.on_error.as_deref().map(|p| {
+        if p == "stop" {
+            crate::log::ErrorPolicy::Stop
+        } else {
+            crate::log::ErrorPolicy::Skip
+        }
+    });
+    let mut merger = open_logs_with(&profile, &a.logs, policy)?;
     let rep = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
     crate::whatif::write_summary(&rep, a.json, out)?;
     if let Some(path) = &a.events {

@@ -78,3 +78,41 @@ fn replay_summary_matches_golden() {
         golden.display()
     );
 }
+
+/// `--on-error` chooses the policy for a bad row: `skip` reports it with its
+/// file and line, counts it and goes on (exit 0); `stop` ends with exit 1 and
+/// names the line.
+#[test]
+fn on_error_flag_chooses_stop_or_skip() {
+    let dir = std::env::temp_dir().join(format!("standfast-onerror-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    write_log(&dir);
+    // Line 101 of the file (row 100 after the header) gets a word for a number.
+    let csv = std::fs::read_to_string(dir.join("ramp.csv")).unwrap();
+    let mut lines: Vec<String> = csv.lines().map(str::to_owned).collect();
+    lines[100] = lines[100].replacen(",0,1", ",zero,1", 1);
+    std::fs::write(dir.join("ramp.csv"), lines.join("\n") + "\n").unwrap();
+    let rig = Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let run = |policy: &str| {
+        Command::new(env!("CARGO_BIN_EXE_standfast"))
+            .arg("replay")
+            .arg("--rig")
+            .arg(&rig)
+            .arg("--profile")
+            .arg(dir.join("ramp.toml"))
+            .arg("--on-error")
+            .arg(policy)
+            .output()
+            .unwrap()
+    };
+    let skip = run("skip");
+    assert!(skip.status.success());
+    let text = String::from_utf8_lossy(&skip.stdout);
+    assert!(text.contains("Log issues: 1"), "{text}");
+    assert!(text.contains("ramp.csv:101:"), "{text}");
+    let stop = run("stop");
+    assert_eq!(stop.status.code(), Some(1));
+    let err = String::from_utf8_lossy(&stop.stderr);
+    assert!(err.contains(":101"), "{err}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
