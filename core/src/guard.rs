@@ -41,7 +41,8 @@ use crate::frame::Tilt;
 use crate::mount::Pose;
 use crate::rig::{Conditions, Rig};
 use crate::sense::{
-    Fault, FaultSet, Millis, TiltConfig, TiltSensor, WindConfig, WindReport, WindStats, FINE_BIN_MS,
+    Fault, FaultSet, MeanWind, Millis, TiltConfig, TiltSensor, WindConfig, WindReport, WindStats,
+    FINE_BIN_MS,
 };
 use crate::sky::ParkRequest;
 use heapless::Vec;
@@ -144,6 +145,21 @@ pub enum Event {
     },
 }
 
+/// What the guard's wind input carries.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+pub enum WindSource {
+    /// Speed and direction samples at any rate: gusts are measured (3-s
+    /// running mean, WMO-No. 8).
+    #[default]
+    Samples,
+    /// Ten-minute mean speeds (and directions) only: the gust is estimated
+    /// as mean × gust factor ([`crate::sense::MeanWind`]).
+    TenMinuteMeans,
+}
+
 /// Thresholds and timing of the guard. Every default is given with its reason.
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -153,6 +169,11 @@ pub struct GuardConfig {
     pub tilt: TiltConfig,
     /// Anemometer processing.
     pub wind: WindConfig,
+    /// What the wind input carries: samples of the wind (default), or
+    /// ten-minute mean speeds from a station that reports only statistics,
+    /// whose gust is the mean × `wind.mean_gust_factor` (chosen by terrain).
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub wind_source: WindSource,
     /// Predicted overturning or sliding utilisation that raises
     /// [`Stage::Watch`]. Default 0.5: half way to the tipping point, time to
     /// look at the rig.
@@ -213,6 +234,7 @@ impl Default for GuardConfig {
         GuardConfig {
             tilt: TiltConfig::default(),
             wind: WindConfig::default(),
+            wind_source: WindSource::Samples,
             watch_utilisation: 0.5,
             park_utilisation: 0.75,
             alarm_utilisation: 0.9,
@@ -239,6 +261,16 @@ impl GuardConfig {
     pub fn validate(&self) -> Result<(), Error> {
         self.tilt.validate()?;
         self.wind.validate()?;
+        if self.wind_source == WindSource::TenMinuteMeans {
+            // A mean arrives every ten minutes: a shorter stale time would
+            // fault between two reports.
+            Error::check(
+                "guard.wind.stale_after_s",
+                self.wind.stale_after_s,
+                600.0,
+                86_400.0,
+            )?;
+        }
         Error::check("guard.watch_utilisation", self.watch_utilisation, 0.05, 1.0)?;
         Error::check(
             "guard.park_utilisation",
@@ -395,6 +427,7 @@ pub struct Guard<'r> {
     config: GuardConfig,
     tilt: TiltSensor,
     wind: WindStats,
+    means: MeanWind,
     stage: Stage,
     pose: Pose,
     cover_fitted: bool,
@@ -431,6 +464,7 @@ impl<'r> Guard<'r> {
             rig,
             tilt: TiltSensor::new(config.tilt, now)?,
             wind: WindStats::new(config.wind, now)?,
+            means: MeanWind::new(config.wind, now)?,
             config,
             stage: Stage::Clear,
             pose,
@@ -489,9 +523,15 @@ impl<'r> Guard<'r> {
                 rejected.push(f);
             }
         }
+        let means = self.config.wind_source == WindSource::TenMinuteMeans;
         if let Some(w) = inputs.wind {
             self.gust_3s_cache = None;
-            if let Err(f) = self.wind.push(now, w.speed_mps, w.from_rad) {
+            let pushed = if means {
+                self.means.push(now, w.speed_mps, w.from_rad)
+            } else {
+                self.wind.push(now, w.speed_mps, w.from_rad)
+            };
+            if let Err(f) = pushed {
                 rejected.push(f);
             }
         }
@@ -515,7 +555,11 @@ impl<'r> Guard<'r> {
         // by wind.faults(now) and the rejections.
         let mut faults = FaultSet::new();
         self.tilt.faults_into(now, &mut faults);
-        self.wind.faults_into(now, &mut faults);
+        if means {
+            faults.extend(&self.means.faults(now));
+        } else {
+            self.wind.faults_into(now, &mut faults);
+        }
         faults.extend(&rejected);
         for f in faults.iter() {
             if !self.known_faults.any(|k| k.same_class(&f)) {
@@ -535,7 +579,11 @@ impl<'r> Guard<'r> {
         // when the wind bin and the wind samples are unchanged.
         let bin = now.0 / FINE_BIN_MS;
         let report = if due {
-            let r = self.wind.report(now);
+            let r = if means {
+                self.means.report(now)
+            } else {
+                self.wind.report(now)
+            };
             self.gust_3s_cache = Some((bin, r.gust_3s_mps));
             Some(r)
         } else {
@@ -545,7 +593,11 @@ impl<'r> Guard<'r> {
             (Some(r), _) => r.gust_3s_mps,
             (None, Some((b, g))) if b == bin => g,
             (None, _) => {
-                let g = self.wind.gust_3s_mps(now);
+                let g = if means {
+                    self.means.report(now).gust_3s_mps
+                } else {
+                    self.wind.gust_3s_mps(now)
+                };
                 self.gust_3s_cache = Some((bin, g));
                 g
             }
@@ -682,9 +734,9 @@ impl<'r> Guard<'r> {
             | crate::sense::WindDirection::Reported { from_rad } => Some(from_rad),
             _ => None,
         };
-        // Measured gusts only: before the first 3 s of record the guard has
-        // no gust yet and holds its figures empty (stale and fault checks run
-        // regardless).
+        // Gusts only (measured, or estimated from a ten-minute mean): before
+        // the first 3 s of record the guard has no gust yet and holds its
+        // figures empty (stale and fault checks run regardless).
         let Some(gust) = report.peak_gust_mps.or(report.gust_3s_mps) else {
             return f;
         };

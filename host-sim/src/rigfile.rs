@@ -52,6 +52,9 @@
 //!                    anemometer_height = "3 m"; rig_height = "1.2 m"
 //!                    terrain = "II"              # EN 1991-1-4 category 0, I, II, III, IV
 //!                    wind_stale = "10 s"         # no anemometer sample for this long: fault
+//!                    wind_source = "samples"     # or "ten_minute_means" (a station
+//!                                                # reporting only means; wind_stale >= 600 s)
+//!                    gust_factor = 1.45          # gust / ten-minute mean for such a station
 //! [log]              the log profile (read by [`crate::log`], ignored here)
 //! ```
 //! Frames and sign conventions are the core's: rig frame x east, y north, z
@@ -68,7 +71,7 @@ use serde::de::{self, Deserializer, Visitor};
 use serde::Deserialize;
 use standfast::air::Air;
 use standfast::drive::{DriveRating, Drives};
-use standfast::guard::GuardConfig;
+use standfast::guard::{GuardConfig, WindSource};
 use standfast::hardware::{material, IsoThread, Material};
 use standfast::heapless;
 use standfast::mount::{MountGeometry, MountKind};
@@ -359,6 +362,8 @@ struct SensorSec {
     rig_height: Option<S<Length>>,
     terrain: Option<S<String>>,
     wind_stale: Option<S<Duration>>,
+    wind_source: Option<S<String>>,
+    gust_factor: Option<S<f64>>,
 }
 
 /// A rig file, read and checked.
@@ -1251,7 +1256,29 @@ fn sensor_config(
             "sensor.wind_stale".into(),
             v.span(),
         );
+        sp.put(
+            "guard.wind.stale_after_s",
+            None,
+            "sensor.wind_stale".into(),
+            v.span(),
+        );
         c.wind.stale_after_s = f(v.get_ref().s());
+    }
+    if let Some(v) = &g.wind_source {
+        c.wind_source =
+            match ck.one_of("sensor.wind_source", v, &["samples", "ten_minute_means"])? {
+                "ten_minute_means" => WindSource::TenMinuteMeans,
+                _ => WindSource::Samples,
+            };
+    }
+    if let Some(v) = &g.gust_factor {
+        sp.put(
+            "wind.mean_gust_factor",
+            None,
+            "sensor.gust_factor".into(),
+            v.span(),
+        );
+        c.wind.mean_gust_factor = f(*v.get_ref());
     }
     Ok(())
 }

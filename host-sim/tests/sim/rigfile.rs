@@ -357,3 +357,24 @@ fn box_edges_turn_the_box_and_parallel_edges_are_refused() {
         "{e}"
     );
 }
+
+#[test]
+fn ten_minute_mean_station_needs_a_long_stale_time() {
+    let means = demo_with(
+        "wind_stale = \"15 s\"",
+        "wind_stale = \"15 s\"\nwind_source = \"ten_minute_means\"\ngust_factor = 1.7",
+    );
+    let e = err(&means);
+    assert_eq!(e.key.as_deref(), Some("sensor.wind_stale"));
+    assert!(e.to_string().contains("600"), "{e}");
+    let ok = demo_with(
+        "wind_stale = \"15 s\"",
+        "wind_stale = \"11 min\"\nwind_source = \"ten_minute_means\"\ngust_factor = 1.7",
+    );
+    let r = load_source(&SourceText::new("means.toml", ok)).unwrap();
+    assert_eq!(
+        r.guard.wind_source,
+        standfast::guard::WindSource::TenMinuteMeans
+    );
+    assert!((r.guard.wind.mean_gust_factor - 1.7).abs() < 1e-6);
+}

@@ -259,3 +259,41 @@ fn sensor_fault_clears_after_healthy_period() {
     assert_eq!(clear.2, Stage::Clear);
     assert!(clear.0 >= back.0 + 600.0 - 1.0, "{clear:?}");
 }
+
+/// A station that reports only ten-minute means: the guard's gust is the mean
+/// times the gust factor (1.45 for open terrain: Durst 1960 / ESDU, V3s/V10min
+/// ≈ 1.43–1.45, as the core's default), here with anemometer and rig at the
+/// same height; a stale time shorter than the reporting period is refused.
+#[test]
+fn ten_minute_means_give_gust_by_factor() {
+    use standfast::guard::WindSource;
+    let rig = rig();
+    let mut cfg = config();
+    cfg.wind_source = WindSource::TenMinuteMeans;
+    let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
+    assert_eq!(e.field, "guard.wind.stale_after_s");
+    cfg.wind.stale_after_s = 660.0;
+    let mut g = Guard::new(&rig, cfg, Millis(0)).unwrap();
+    let mut last = None;
+    for k in 0..=36_000_u64 {
+        // 10 Hz accelerometer for an hour; a mean every ten minutes, rising.
+        let t = Millis(k * 100);
+        let mut inputs = Inputs {
+            accel_raw: Some([0.0, 0.0, 1.0 + 1e-4 * ((k % 7) as f32)]),
+            ..Inputs::default()
+        };
+        if k % 6000 == 0 {
+            let mean = 6.0 + 2.0 * (k / 6000) as f32;
+            inputs.wind = Some(WindSample {
+                speed_mps: mean,
+                from_rad: Some(0.01 * (k / 6000) as f32),
+            });
+        }
+        last = Some(g.step(t, &inputs));
+    }
+    let v = last.unwrap();
+    // Last mean 18 m/s → gust 26.1 m/s: beyond the 21.9 m/s tip wind.
+    approx::assert_relative_eq!(v.gust_mps.unwrap(), 18.0 * 1.45, max_relative = 1e-5);
+    assert!(v.faults.is_empty());
+    assert_eq!(v.stage, Stage::Alarm);
+}
