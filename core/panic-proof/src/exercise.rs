@@ -1,0 +1,326 @@
+//! One pass over every covered entry point of the core, with inputs from
+//! [`crate::unknowns`]. Every result goes through [`core::hint::black_box`],
+//! so no call is dropped as dead code.
+
+use crate::unknowns::Unknowns;
+use core::hint::black_box;
+use standfast::drive::{DriveRating, Drives};
+use standfast::guard::{AirSample, Guard, GuardConfig, Inputs, WindSample};
+use standfast::hardware::bolt::{BoltPattern, PivotLine, ShaftLoad};
+use standfast::hardware::material::{Material, AL_6061_T6_EXTRUSION_MIN};
+use standfast::hardware::shaft::{check_shaft_bending, ShaftSection};
+use standfast::hardware::strip::{check_stripping, ShearFactor, StrippingInput};
+use standfast::hardware::{IsoThread, StrengthBasis};
+use standfast::heapless::{String, Vec};
+use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
+use standfast::rig::{
+    BallastSpec, BodySpec, Conditions, CounterweightSpec, CoverSpec, LegsSpec, Rig, RigSpec,
+    ShaftSpec, Stage,
+};
+use standfast::sense::{Millis, TiltConfig, TiltSensor, WindConfig, WindStats};
+use standfast::shape::{Exposure, Shape};
+use standfast::support::Support;
+use standfast::{Error, Tilt, Vec3};
+
+/// How many calls returned `Ok` and how many an error (a run on the host
+/// prints them; on the target they only feed `black_box`).
+#[derive(Clone, Copy, Debug, Default)]
+pub struct Tally {
+    /// Calls that returned `Ok` (or a value).
+    pub ok: u32,
+    /// Calls that returned an error or fault.
+    pub err: u32,
+}
+
+impl Tally {
+    fn note<T, E>(&mut self, r: Result<T, E>) -> Option<T> {
+        let r = black_box(r);
+        match r {
+            Ok(v) => {
+                self.ok = self.ok.saturating_add(1);
+                Some(v)
+            }
+            Err(e) => {
+                black_box(e);
+                self.err = self.err.saturating_add(1);
+                None
+            }
+        }
+    }
+}
+
+/// The rig description built from `u` (the invented rig of the core's
+/// crate-level example, with counterweight, shaft, cover, ballast and drive
+/// ratings added so that every part kind is placed).
+///
+/// # Errors
+/// Whatever [`Support::tripod`] rejects.
+pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
+    let tripod = Support::tripod(u.foot_circle_radius_m, u.first_leg_azimuth_rad)?;
+    let mut bodies = Vec::new();
+    let tube = BodySpec {
+        label: String::try_from("tube").unwrap_or_default(),
+        stage: Stage::Secondary,
+        mass_kg: u.tube_mass_kg,
+        cg_m: u.tube_cg_m,
+        exposure: Some(Exposure {
+            shape: Shape::Cylinder {
+                diameter_m: u.tube_diameter_m,
+                length_m: u.tube_length_m,
+                axis: [0.0, 1.0, 0.0],
+            },
+            centre_m: u.tube_cg_m,
+            drag_coefficient: None,
+        }),
+        under_cover: true,
+        ..BodySpec::default()
+    };
+    bodies.push(tube).ok();
+    bodies
+        .push(BodySpec {
+            mass_kg: u.head_mass_kg,
+            cg_m: [0.0, 0.0, u.head_height_m],
+            exposure: Some(Exposure {
+                shape: Shape::Box {
+                    size_m: [u.tube_diameter_m, 0.15, 0.2],
+                    edges: Some([[1.0, 1.0, 0.0], [0.0, 0.0, 1.0]]),
+                },
+                centre_m: [0.0, 0.0, u.head_height_m],
+                drag_coefficient: None,
+            }),
+            ..BodySpec::default()
+        })
+        .ok();
+    for _ in 0..u.extra_bodies {
+        let accessory = BodySpec {
+            stage: Stage::Primary,
+            mass_kg: u.tube_mass_kg * 0.1,
+            cg_m: u.tube_cg_m,
+            ..BodySpec::default()
+        };
+        if bodies.push(accessory).is_err() {
+            break;
+        }
+    }
+    let mut counterweights = Vec::new();
+    counterweights
+        .push(CounterweightSpec {
+            mass_kg: u.counterweight_kg,
+            distance_m: u.counterweight_distance_m,
+            diameter_m: 0.1,
+            thickness_m: 0.06,
+        })
+        .ok();
+    let mut ballast = Vec::new();
+    ballast
+        .push(BallastSpec {
+            mass_kg: u.ballast_kg,
+            position_m: [0.0, 0.0, 0.4],
+        })
+        .ok();
+    let rating = DriveRating {
+        rated_nm: u.drive_nm[0],
+        repeated_peak_nm: u.drive_nm[1],
+        momentary_peak_nm: u.drive_nm[2],
+    };
+    Ok(RigSpec {
+        // Not `.iter().copied().collect()`: heapless's `FromIterator` panics
+        // when the iterator outgrows the capacity, and below opt-level 3 the
+        // optimiser no longer proves that a tripod's 3 feet fit in 8.
+        feet: Vec::from_slice(tripod.feet()).unwrap_or_default(),
+        legs: Some(LegsSpec {
+            mass_kg: u.leg_mass_kg,
+            diameter_m: 0.03,
+            top_height_m: u.axis_height_m * 0.84,
+            top_radius_m: 0.06,
+        }),
+        friction_coefficient: u.friction_coefficient,
+        mount: MountGeometry {
+            kind: if u.mount_kind == 0 {
+                MountKind::Equatorial
+            } else {
+                MountKind::AltAzimuth
+            },
+            latitude_rad: u.latitude_rad,
+            axis_origin_m: [0.0, 0.0, u.axis_height_m],
+        },
+        bodies,
+        counterweights,
+        shaft: Some(ShaftSpec {
+            mass_kg: u.shaft_mass_kg,
+            length_m: u.shaft_length_m,
+            diameter_m: 0.02,
+        }),
+        cover: Some(CoverSpec {
+            mass_kg: u.cover_mass_kg,
+            size_m: [0.8, 0.2, 0.2],
+            centre_m: u.tube_cg_m,
+            drag_coefficient: None,
+        }),
+        ballast,
+        drives: Some(Drives {
+            primary: rating,
+            secondary: rating,
+            slew_acceleration_rad_s2: u.slew_acceleration_rad_s2,
+        }),
+    })
+}
+
+fn pose(u: &Unknowns) -> Pose {
+    Pose::Equatorial {
+        hour_angle_rad: u.hour_angle_rad,
+        declination_rad: u.declination_rad,
+        pier_side: if u.pier_side == 0 {
+            PierSide::TubeEast
+        } else {
+            PierSide::TubeWest
+        },
+    }
+}
+
+/// Covered entry points, in order: [`Support::tripod`], [`Rig::new`],
+/// [`Rig::assess`], [`Rig::worst_wind`], [`Rig::tilt_margin`],
+/// [`Rig::axis_loads`], [`Rig::foot_reactions_n`], [`Rig::ballast_needed`],
+/// [`Rig::tie_down_needed`], [`Guard::new`], [`Guard::step`] (in a loop, with
+/// every field of [`Inputs`] set), [`TiltSensor::new`], [`TiltSensor::push`],
+/// [`TiltSensor::tilt`], [`TiltSensor::faults`], [`WindStats::new`],
+/// [`WindStats::push`], [`WindStats::report`], [`WindStats::faults`] and the
+/// counterweight hardware checks ([`IsoThread::by_nominal_mm`],
+/// [`check_stripping`], [`check_shaft_bending`], [`BoltPattern::circle`],
+/// [`BoltPattern::tensions`], [`ShaftLoad::counterweight`]).
+pub fn exercise(u: &Unknowns) -> Tally {
+    let mut t = Tally::default();
+    if let Some(spec) = t.note(rig_spec(u)) {
+        if let Some(rig) = t.note(Rig::new(&spec)) {
+            rig_calls(&mut t, &rig, u);
+            guard_calls(&mut t, &rig, u);
+        }
+    }
+    sensor_calls(&mut t, u);
+    hardware_calls(&mut t, u);
+    t
+}
+
+fn rig_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
+    let tilt = Tilt::new(u.tilt_rad[0], u.tilt_rad[1]).unwrap_or(Tilt::LEVEL);
+    let air = standfast::air::Air::from_density(u.air_density_kg_m3).unwrap_or_default();
+    let c = Conditions {
+        pose: pose(u),
+        tilt,
+        wind_speed_mps: u.gust_mps,
+        wind_from_rad: u.wind_from_rad,
+        air,
+        cover_fitted: u.cover_fitted == 1,
+    };
+    t.note(rig.assess(&c));
+    t.note(rig.worst_wind(&c));
+    t.note(rig.tilt_margin(&c));
+    t.note(rig.axis_loads(&c, u.mean_wind_mps));
+    t.note(rig.foot_reactions_n(&c));
+    t.note(rig.ballast_needed(&c, u.gust_mps, 0.75, Vec3::new(0.0, 0.0, 0.4)));
+    t.note(rig.tie_down_needed(&c, u.gust_mps, 0.75));
+}
+
+fn guard_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
+    let start = Millis(u.start_ms);
+    let Some(mut guard) = t.note(Guard::new(rig, GuardConfig::default(), start)) else {
+        return;
+    };
+    for k in 0..u.guard_steps {
+        let now = start.plus_ms(u64::from(k) * u64::from(u.sample_period_ms));
+        // A gust that rises and falls over each 40 samples.
+        let phase = (k % 40) as f32 / 40.0;
+        let inputs = Inputs {
+            accel_raw: Some(u.accel_g),
+            wind: Some(WindSample {
+                speed_mps: u.gust_mps * phase,
+                from_rad: (k % 3 != 0).then_some(u.wind_from_rad),
+            }),
+            pose: (k % 5 == 0).then(|| pose(u)),
+            cover_fitted: (k % 50 == 0).then_some(k % 100 == 0),
+            air: (k % 20 == 0).then_some(AirSample {
+                temperature_c: u.temperature_c,
+                pressure_pa: u.pressure_pa,
+            }),
+        };
+        black_box(guard.step(now, &inputs));
+        t.ok = t.ok.saturating_add(1);
+        if k % 97 == 96 {
+            guard.acknowledge();
+        }
+    }
+}
+
+fn sensor_calls(t: &mut Tally, u: &Unknowns) {
+    let start = Millis(u.start_ms);
+    if let Some(mut tilt) = t.note(TiltSensor::new(TiltConfig::default(), start)) {
+        for k in 0..u.guard_steps {
+            let now = start.plus_ms(u64::from(k) * u64::from(u.sample_period_ms));
+            t.note(tilt.push(now, u.accel_g));
+        }
+        let end = start.plus_ms(u64::from(u.guard_steps) * u64::from(u.sample_period_ms));
+        black_box(tilt.tilt());
+        black_box(tilt.faults(end));
+    }
+    if let Some(mut wind) = t.note(WindStats::new(WindConfig::default(), start)) {
+        for k in 0..u.guard_steps {
+            let now = start.plus_ms(u64::from(k) * u64::from(u.sample_period_ms));
+            let speed = u.mean_wind_mps + (u.gust_mps - u.mean_wind_mps) * ((k % 9) as f32 / 8.0);
+            t.note(wind.push(now, speed, Some(u.wind_from_rad)));
+            if k % 16 == 0 {
+                black_box(wind.report(now));
+            }
+        }
+        let end = start.plus_ms(u64::from(u.guard_steps) * u64::from(u.sample_period_ms));
+        black_box(wind.report(end));
+        black_box(wind.faults(end));
+    }
+}
+
+fn hardware_calls(t: &mut Tally, u: &Unknowns) {
+    let Some(thread) = t.note(IsoThread::by_nominal_mm(u.thread_nominal_mm)) else {
+        return;
+    };
+    let screw = Material::bolt_class_8_8(u.thread_nominal_mm);
+    let input = StrippingInput {
+        limits: thread.limits(),
+        tensile_area_mm2: thread.tensile_stress_area_mm2(),
+        engagement_mm: u.engagement_mm,
+        screw,
+        internal: AL_6061_T6_EXTRUSION_MIN,
+        shear_factor: ShearFactor::CommonPractice,
+        basis: StrengthBasis::Yield,
+        safety_factor: u.safety_factor,
+    };
+    let load = t.note(ShaftLoad::counterweight(
+        u.counterweight_kg,
+        u.counterweight_distance_m,
+        u.shaft_angle_rad,
+    ));
+    let (axial_n, moment_nm) = load.map_or((0.0, 0.0), |l| (l.axial_n, l.moment_nm));
+    if let Some(strip) = t.note(check_stripping(&input)) {
+        t.note(strip.utilisation(axial_n.max(0.0)));
+    }
+    let section = ShaftSection::threaded_root(&thread);
+    t.note(check_shaft_bending(
+        moment_nm,
+        &section,
+        &screw,
+        StrengthBasis::Yield,
+        u.safety_factor,
+    ));
+    let pattern = t.note(BoltPattern::circle(
+        u.screws as usize,
+        u.bolt_circle_radius_mm,
+        0.0,
+    ));
+    if let (Some(pattern), Some(load)) = (pattern, load) {
+        t.note(pattern.tensions(load.as_joint_load(), PivotLine::Centroid));
+        t.note(pattern.tensions(
+            load.as_joint_load(),
+            PivotLine::Heel {
+                offset_mm: u.bolt_circle_radius_mm * 1.2,
+            },
+        ));
+    }
+}
