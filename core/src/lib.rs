@@ -50,7 +50,7 @@
 //! bodies.push(tube).ok();
 //! bodies.push(BodySpec { mass_kg: 4.0, cg_m: [0.0, 0.0, 1.1], ..BodySpec::default() }).ok();
 //! let spec = RigSpec {
-//!     feet: tripod.feet().iter().copied().collect(),
+//!     feet: tripod.feet_list(),
 //!     legs: Some(LegsSpec { mass_kg: 0.8, diameter_m: 0.03, top_height_m: 1.05, top_radius_m: 0.06 }),
 //!     friction_coefficient: 0.3,
 //!     mount: MountGeometry {

@@ -177,6 +177,13 @@ impl Support {
         &self.feet
     }
 
+    /// The feet as the fixed-capacity list a [`crate::rig::RigSpec`] holds
+    /// (a copy; it cannot overflow, a support has at most [`MAX_FEET`]).
+    #[must_use]
+    pub fn feet_list(&self) -> Vec<Foot, MAX_FEET> {
+        self.feet.clone()
+    }
+
     /// The edges of the support polygon, counter-clockwise.
     #[must_use]
     pub fn edges(&self) -> &[Edge] {

@@ -106,7 +106,7 @@ pub fn example_rig_spec() -> Result<RigSpec, Error> {
         })
         .ok();
     Ok(RigSpec {
-        feet: tripod.feet().iter().copied().collect(),
+        feet: tripod.feet_list(),
         legs: Some(LegsSpec {
             mass_kg: 0.8,
             diameter_m: 0.03,

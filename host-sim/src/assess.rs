@@ -262,7 +262,7 @@ fn orientation(
         let turn = f32::from(step) * 5.0;
         let s = base.rotated(turn.to_radians())?;
         let mut sp = spec.clone();
-        sp.feet = s.feet().iter().copied().collect();
+        sp.feet = s.feet_list();
         let rig = Rig::new(&sp)?;
         let tip = tip_from(&rig, c, storm)?;
         if step == 0 {

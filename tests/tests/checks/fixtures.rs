@@ -8,7 +8,7 @@ use standfast::support::{Foot, Support};
 
 /// Feet of a support as a heapless list.
 pub fn feet_of(s: &Support) -> standfast::heapless::Vec<Foot, 8> {
-    s.feet().iter().copied().collect()
+    s.feet_list()
 }
 
 /// A rig with no mount parts: one ground body of `mass_kg` with its centre of
