@@ -17,36 +17,7 @@ fn stdout_err(e: std::io::Error) -> Error {
 }
 
 fn pose_text(p: &Pose) -> String {
-    match p {
-        Pose::Axes {
-            primary_rad,
-            secondary_rad,
-        } => format!(
-            "axes {:.1}°, {:.1}°",
-            primary_rad.to_degrees(),
-            secondary_rad.to_degrees()
-        ),
-        Pose::Equatorial {
-            hour_angle_rad,
-            declination_rad,
-            pier_side,
-        } => format!(
-            "HA {:+.2} h, dec {:+.1}°, {:?}",
-            hour_angle_rad.to_degrees() / 15.0,
-            declination_rad.to_degrees(),
-            pier_side
-        ),
-        Pose::Horizontal {
-            azimuth_rad,
-            altitude_rad,
-            pier_side,
-        } => format!(
-            "az {:.1}°, alt {:.1}°, {:?}",
-            azimuth_rad.to_degrees(),
-            altitude_rad.to_degrees(),
-            pier_side
-        ),
-    }
+    crate::report::pose_words(p)
 }
 
 fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
