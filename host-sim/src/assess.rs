@@ -23,7 +23,7 @@ use crate::rigfile::LoadedRig;
 /// The cautions that end every report a person reads.
 pub const CAUTIONS: &[&str] = &[
     "The figures are estimates from a simplified static model, not a guarantee.",
-    "Secure the rig anyway: ballast, tie-downs and a cover fitted when it is left unattended.",
+    "Secure the rig anyway: ballast and tie-downs; a cover keeps weather out but catches wind, so count it in.",
     "Stay inside the mount maker's load and torque limits whatever these figures say.",
     "Defer to local codes and to licensed engineers for anything that can hurt people or property.",
 ];
