@@ -25,21 +25,7 @@ fn write_log(dir: &Path) {
         }
     }
     std::fs::write(dir.join("ramp.csv"), csv).unwrap();
-    std::fs::write(
-        dir.join("ramp.toml"),
-        r#"[log]
-[[log.file]]
-path = "ramp.csv"
-time = { column = "t", format = "epoch_s" }
-[log.file.columns]
-accel_x = { column = "ax", unit = "g" }
-accel_y = { column = "ay", unit = "g" }
-accel_z = { column = "az", unit = "g" }
-wind_speed = { column = "speed", unit = "m/s" }
-wind_direction = { column = "dir", unit = "deg" }
-"#,
-    )
-    .unwrap();
+    crate::common::one_file_profile(dir, "ramp");
 }
 
 #[test]

@@ -3,6 +3,7 @@
 
 mod bridge;
 mod cli;
+mod common;
 mod demo;
 mod firmware_replay;
 mod golden;

@@ -59,21 +59,7 @@ fn premerged(dir: &Path) -> PathBuf {
         }
     }
     write(dir, "merged.csv", &csv);
-    write(
-        dir,
-        "merged.toml",
-        r#"[log]
-[[log.file]]
-path = "merged.csv"
-time = { column = "t", format = "epoch_s" }
-[log.file.columns]
-accel_x = { column = "ax", unit = "g" }
-accel_y = { column = "ay", unit = "g" }
-accel_z = { column = "az", unit = "g" }
-wind_speed = { column = "speed", unit = "m/s" }
-wind_direction = { column = "dir", unit = "deg" }
-"#,
-    )
+    crate::common::one_file_profile(dir, "merged")
 }
 
 /// The same samples as two files at different rates.

@@ -50,23 +50,7 @@ fn invented_log(dir: &Path) -> PathBuf {
         .unwrap();
     }
     std::fs::write(dir.join("night.csv"), csv).unwrap();
-    let p = dir.join("night.toml");
-    std::fs::write(
-        &p,
-        r#"[log]
-[[log.file]]
-path = "night.csv"
-time = { column = "t", format = "epoch_s" }
-[log.file.columns]
-accel_x = { column = "ax", unit = "g" }
-accel_y = { column = "ay", unit = "g" }
-accel_z = { column = "az", unit = "g" }
-wind_speed = { column = "speed", unit = "m/s" }
-wind_direction = { column = "dir", unit = "deg" }
-"#,
-    )
-    .unwrap();
-    p
+    crate::common::one_file_profile(dir, "night")
 }
 
 fn run(profile: &Path, rig: &LoadedRig, verdicts: &Path) -> ReplayReport {

@@ -41,23 +41,7 @@ fn ramp_log(dir: &Path) -> PathBuf {
         .unwrap();
     }
     std::fs::write(dir.join("ramp.csv"), csv).unwrap();
-    let profile = dir.join("ramp.toml");
-    std::fs::write(
-        &profile,
-        r#"[log]
-[[log.file]]
-path = "ramp.csv"
-time = { column = "t", format = "epoch_s" }
-[log.file.columns]
-accel_x = { column = "ax", unit = "g" }
-accel_y = { column = "ay", unit = "g" }
-accel_z = { column = "az", unit = "g" }
-wind_speed = { column = "speed", unit = "m/s" }
-wind_direction = { column = "dir", unit = "deg" }
-"#,
-    )
-    .unwrap();
-    profile
+    crate::common::one_file_profile(dir, "ramp")
 }
 
 fn assert_close(got: f64, want: f64, max_relative: f64) {
