@@ -271,6 +271,11 @@ pub struct Conditions {
     pub cover_fitted: bool,
 }
 
+/// Highest wind speed the model accepts as an input, m/s (100 m/s, beyond
+/// the strongest gusts on record; no rig described here stands in it).
+/// [`Conditions::validate`] refuses more as an implausible input.
+pub const MAX_WIND_SPEED_MPS: f32 = 100.0;
+
 impl Conditions {
     /// Calm, level ground, sea-level air, no cover, in `pose`.
     #[must_use]
@@ -289,9 +294,15 @@ impl Conditions {
     /// air by their constructors).
     ///
     /// # Errors
-    /// Wind speed outside 0 to 100 m/s or a non-finite direction.
+    /// Wind speed outside 0 to [`MAX_WIND_SPEED_MPS`] or a non-finite
+    /// direction.
     pub fn validate(&self) -> Result<(), Error> {
-        Error::check("conditions.wind_speed_mps", self.wind_speed_mps, 0.0, 100.0)?;
+        Error::check(
+            "conditions.wind_speed_mps",
+            self.wind_speed_mps,
+            0.0,
+            MAX_WIND_SPEED_MPS,
+        )?;
         Error::check("conditions.wind_from_rad", self.wind_from_rad, -1e4, 1e4)?;
         Error::check(
             "conditions.tilt.magnitude_rad",

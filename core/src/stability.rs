@@ -474,9 +474,13 @@ impl Rig {
     /// [`Rig::assess`] for `c`, and the critical-edge utilisation at a second
     /// wind speed `other_speed_mps` (m/s, same direction, pose, tilt, cover
     /// and air): the same value as `assess` at that speed gives in
-    /// `critical.utilisation`, or `None` where `assess` at that speed fails.
-    /// The placement and wind loads, which do not depend on the speed, are
-    /// computed once.
+    /// `critical.utilisation`. The placement and wind loads, which do not
+    /// depend on the speed, are computed once.
+    ///
+    /// The second speed may exceed [`crate::rig::MAX_WIND_SPEED_MPS`] (a
+    /// predicted gust with allowances): every edge's net moment is
+    /// `G + q·K` at any pressure, so the figure stays defined and grows with
+    /// the speed. `None` only for a negative or non-finite second speed.
     ///
     /// # Errors
     /// As [`Rig::assess`] for `c`.
@@ -489,12 +493,8 @@ impl Rig {
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let loads = Loads::new(&placement, c.wind_from_rad);
         let a = self.assessment(c, &placement, &loads)?;
-        let other = Conditions {
-            wind_speed_mps: other_speed_mps,
-            ..*c
-        };
-        let u = if other.validate().is_ok() {
-            let q = other.air.dynamic_pressure_pa(other_speed_mps);
+        let u = if other_speed_mps.is_finite() && other_speed_mps >= 0.0 {
+            let q = c.air.dynamic_pressure_pa(other_speed_mps);
             self.edge_loads(&loads, q).1.map(|e| e.utilisation)
         } else {
             None

@@ -178,10 +178,13 @@ impl<'r> GuardAssess<'r> {
         now_ms: u64,
         backstop: Option<LimitRule>,
     ) -> Result<Self, Error> {
+        let guard = Guard::new(rig, config, Millis(now_ms))?;
         Ok(GuardAssess {
-            guard: Guard::new(rig, config, Millis(now_ms))?,
+            // The guard starts unable to see (sensor_fault) until its
+            // sensors have given readings.
+            last_stage: guard.stage(),
+            guard,
             backstop,
-            last_stage: Stage::Clear,
             raised: Vec::new(),
         })
     }

@@ -279,7 +279,9 @@ where
             vane_health: Health::default(),
             start_ms: None,
             last_step_ms: None,
-            stage: "clear",
+            // Before its first assessment the station cannot see: both
+            // lines start de-energised, as for the guard's sensor_fault.
+            stage: standfast::guard::Stage::SensorFault.name(),
         }
     }
 

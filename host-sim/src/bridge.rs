@@ -556,13 +556,10 @@ pub enum EventOut {
     },
 }
 
-/// The snake-case name of a cause (its serde name).
+/// The snake-case name of a cause ([`Cause::name`]).
 #[must_use]
 pub fn cause_name(c: Cause) -> String {
-    serde_json::to_value(c)
-        .ok()
-        .and_then(|v| v.as_str().map(str::to_owned))
-        .unwrap_or_else(|| format!("{c:?}"))
+    c.name().to_owned()
 }
 
 /// One verdict line. Utilisations are dimensionless (1.0 tips, slides or

@@ -328,7 +328,7 @@ impl Tracker {
                 drive: [None, None],
                 stage_time: Vec::new(),
                 highest_stage: Stage::Clear,
-                final_stage: Stage::Clear,
+                final_stage: Stage::SensorFault,
                 stage_changes: Vec::new(),
                 stage_changes_not_kept: 0,
                 faults: Vec::new(),
@@ -336,7 +336,8 @@ impl Tracker {
                 series: crate::report::series::Series::new(),
             },
             stage_s: [0.0; 5],
-            last_stage: Stage::Clear,
+            // A guard starts unable to see (sensor_fault).
+            last_stage: Stage::SensorFault,
             last_figures: [None; 4],
         }
     }
@@ -376,7 +377,7 @@ impl Tracker {
                             t_s,
                             from: *from,
                             to: *to,
-                            cause: format!("{cause:?}").to_lowercase(),
+                            cause: cause.name().to_owned(),
                         });
                     } else {
                         r.stage_changes_not_kept += 1;

@@ -1,8 +1,13 @@
-//! Typed sensor faults.
+//! Typed faults: of the sensors, of the guard's other inputs (mount pose,
+//! cover, air, the caller's clock) and of the guard's own evaluation.
+//!
+//! Every fault means the same to a guard: it cannot judge the rig from what
+//! it has, so it parks and alarms (fail safe).
 
 use core::fmt;
 
-/// Which sensor a fault concerns.
+/// Which input a fault concerns: a sensor, another input of the guard, or
+/// the guard's physics model itself ([`Sensor::Model`]).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
@@ -13,17 +18,33 @@ pub enum Sensor {
     WindSpeed,
     /// The wind vane or the direction channel of a sonic anemometer.
     WindDirection,
+    /// The mount pose reported by the mount controller.
+    MountPose,
+    /// The cover state reported by the observatory (fitted or removed).
+    Cover,
+    /// Measured air temperature and pressure.
+    Air,
+    /// The caller's time stamps ([`crate::sense::Millis`]) given to the guard.
+    Clock,
+    /// The guard's physics model: a figure could not be computed from the
+    /// inputs (see [`Fault::Unevaluable`]).
+    Model,
 }
 
 impl Sensor {
     /// A short snake-case name for log lines: `accel`, `wind_speed`,
-    /// `wind_direction`.
+    /// `wind_direction`, `pose`, `cover`, `air`, `clock`, `model`.
     #[must_use]
     pub const fn code(self) -> &'static str {
         match self {
             Sensor::Accelerometer => "accel",
             Sensor::WindSpeed => "wind_speed",
             Sensor::WindDirection => "wind_direction",
+            Sensor::MountPose => "pose",
+            Sensor::Cover => "cover",
+            Sensor::Air => "air",
+            Sensor::Clock => "clock",
+            Sensor::Model => "model",
         }
     }
 }
@@ -34,11 +55,56 @@ impl fmt::Display for Sensor {
             Sensor::Accelerometer => "accelerometer",
             Sensor::WindSpeed => "wind speed sensor",
             Sensor::WindDirection => "wind direction sensor",
+            Sensor::MountPose => "mount pose",
+            Sensor::Cover => "cover state",
+            Sensor::Air => "air sample",
+            Sensor::Clock => "time stamp",
+            Sensor::Model => "stability model",
         })
     }
 }
 
-/// A sensor fault. Every variant means: do not trust this sensor now; a
+/// A figure of the guard's evaluation (see [`Fault::Unevaluable`]).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub enum Check {
+    /// The scan for the worst wind direction (wind of undefined direction).
+    WorstDirection,
+    /// Overturning and sliding utilisation at the present gust, and the tip
+    /// wind speed.
+    Overturning,
+    /// Overturning utilisation at the gust predicted for the end of a park.
+    PredictedOverturning,
+    /// Drive torque utilisation of either axis.
+    Drive,
+    /// The extra tilt that would tip the rig.
+    TiltMargin,
+    /// The rate of slow tilt change.
+    TiltDrift,
+    /// The search for the safest park pose.
+    ParkPose,
+}
+
+impl Check {
+    /// A short snake-case name for log lines: `worst_direction`,
+    /// `overturning`, `predicted_overturning`, `drive`, `tilt_margin`,
+    /// `tilt_drift`, `park_pose`.
+    #[must_use]
+    pub const fn code(self) -> &'static str {
+        match self {
+            Check::WorstDirection => "worst_direction",
+            Check::Overturning => "overturning",
+            Check::PredictedOverturning => "predicted_overturning",
+            Check::Drive => "drive",
+            Check::TiltMargin => "tilt_margin",
+            Check::TiltDrift => "tilt_drift",
+            Check::ParkPose => "park_pose",
+        }
+    }
+}
+
+/// A fault. Every variant means: do not trust this sensor now; a
 /// guard must treat it as unsafe.
 ///
 /// Values carried are in the unit stated per variant (SI, radians for angles,
@@ -104,6 +170,28 @@ pub enum Fault {
         /// The measured tilt, radians.
         magnitude_rad: f32,
     },
+    /// The sensor has not yet given a usable reading: no tilt before the
+    /// first accelerometer sample, no gust before the wind statistics hold
+    /// one (the first 3 s of samples, or the first ten-minute mean). The
+    /// guard cannot judge the rig without it.
+    NoReading {
+        /// The sensor without a reading.
+        sensor: Sensor,
+    },
+    /// The input names a part the rig description does not have (a cover
+    /// reported fitted on a rig without a cover): the model would miss its
+    /// wind load. The input was dropped.
+    NotInRig {
+        /// The input that named it.
+        sensor: Sensor,
+    },
+    /// The physics model could not compute a figure from the present inputs
+    /// (an evaluation error or a non-finite result). The figure is absent,
+    /// never read as zero.
+    Unevaluable {
+        /// The figure that could not be computed.
+        check: Check,
+    },
 }
 
 impl Fault {
@@ -115,7 +203,10 @@ impl Fault {
             | Fault::OutOfRange { sensor, .. }
             | Fault::TimeReversed { sensor }
             | Fault::Stale { sensor, .. }
-            | Fault::Stuck { sensor, .. } => sensor,
+            | Fault::Stuck { sensor, .. }
+            | Fault::NoReading { sensor }
+            | Fault::NotInRig { sensor } => sensor,
+            Fault::Unevaluable { .. } => Sensor::Model,
             Fault::MagnitudeOutOfBand { .. }
             | Fault::TiltStep { .. }
             | Fault::TiltBeyondLimit { .. } => Sensor::Accelerometer,
@@ -125,7 +216,7 @@ impl Fault {
     /// A short snake-case name of the fault's class for log lines (the
     /// variant's name): `not_finite`, `out_of_range`, `time_reversed`,
     /// `stale`, `stuck`, `magnitude_out_of_band`, `tilt_step`,
-    /// `tilt_beyond_limit`.
+    /// `tilt_beyond_limit`, `no_reading`, `not_in_rig`, `unevaluable`.
     #[must_use]
     pub const fn class_code(&self) -> &'static str {
         match self {
@@ -137,15 +228,24 @@ impl Fault {
             Fault::MagnitudeOutOfBand { .. } => "magnitude_out_of_band",
             Fault::TiltStep { .. } => "tilt_step",
             Fault::TiltBeyondLimit { .. } => "tilt_beyond_limit",
+            Fault::NoReading { .. } => "no_reading",
+            Fault::NotInRig { .. } => "not_in_rig",
+            Fault::Unevaluable { .. } => "unevaluable",
         }
     }
 
-    /// True when two faults are of the same class on the same sensor,
-    /// whatever the values they carry.
+    /// True when two faults are of the same class on the same sensor (and,
+    /// for [`Fault::Unevaluable`], the same check), whatever the values they
+    /// carry.
     #[must_use]
     pub fn same_class(&self, other: &Fault) -> bool {
-        core::mem::discriminant(self) == core::mem::discriminant(other)
-            && self.sensor() == other.sensor()
+        match (self, other) {
+            (Fault::Unevaluable { check: a }, Fault::Unevaluable { check: b }) => a == b,
+            _ => {
+                core::mem::discriminant(self) == core::mem::discriminant(other)
+                    && self.sensor() == other.sensor()
+            }
+        }
     }
 }
 
@@ -183,6 +283,13 @@ impl fmt::Display for Fault {
                 "accelerometer: tilt of {} degrees is beyond the model's limit",
                 crate::math::rad_to_deg(magnitude_rad)
             ),
+            Fault::NoReading { sensor } => write!(f, "{sensor}: no usable reading yet"),
+            Fault::NotInRig { sensor } => {
+                write!(f, "{sensor}: names a part the rig description does not have")
+            }
+            Fault::Unevaluable { check } => {
+                write!(f, "stability model: {} could not be computed", check.code())
+            }
         }
     }
 }

@@ -26,7 +26,7 @@ mod fault;
 mod tilt;
 mod wind;
 
-pub use fault::{Fault, FaultSet, Sensor, FAULT_SET_CAPACITY};
+pub use fault::{Check, Fault, FaultSet, Sensor, FAULT_SET_CAPACITY};
 pub use tilt::{
     lowpass_alpha, tilt_of_specific_force, LevelCapture, Mounting, SignedAxis, TiltConfig,
     TiltReference, TiltSensor,

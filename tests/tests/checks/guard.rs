@@ -20,9 +20,16 @@ fn config() -> GuardConfig {
     }
 }
 
-/// Runs the guard from `t0_s` to `t1_s`: accelerometer level at 10 Hz, wind
-/// at 1 Hz from the north with `speed(t_s)`. Returns every stage change
-/// (time s, from, to, cause) and the last verdict's figures.
+/// Seconds of calm (3 m/s: utilisation 0.02) that bring a new guard from its
+/// start in `sensor_fault` (no reading yet) to `clear`: the first gust after
+/// 3 s of samples, `fault_clear_s` (60 s) to `watch`, the 600 s dwell to
+/// `clear`.
+const WARM_UP_S: f32 = 700.0;
+
+/// Runs the guard from `t0_s` to `t1_s` after the warm-up: accelerometer
+/// level at 10 Hz, wind at 1 Hz from the north with `speed(t_s)`. Records
+/// every stage change (time s, from, to, cause) and raised fault; times are
+/// seconds since the end of the warm-up.
 struct Run<'r> {
     guard: Guard<'r>,
     changes: Vec<(f32, Stage, Stage, Cause)>,
@@ -31,20 +38,48 @@ struct Run<'r> {
 }
 
 impl<'r> Run<'r> {
+    /// A guard after the warm-up, which is checked on the way: the start in
+    /// `sensor_fault` with no wind reading, then `fault_clear_s` after the
+    /// first gust a step to the level the figures call for, at least
+    /// `watch`.
     fn new(rig: &'r Rig, cfg: GuardConfig) -> Self {
-        Run {
+        Self::warmed(rig, cfg, 3.0)
+    }
+
+    /// As [`Run::new`], with a warm-up wind of `speed_mps` instead of calm.
+    fn warmed(rig: &'r Rig, cfg: GuardConfig, speed_mps: f32) -> Self {
+        let clear_s = cfg.fault_clear_s;
+        let mut r = Run {
             guard: Guard::new(rig, cfg, Millis(0)).unwrap(),
             changes: Vec::new(),
             faults: Vec::new(),
             first_park_s: None,
-        }
+        };
+        assert_eq!(r.guard.stage(), Stage::SensorFault, "a guard starts unable to see");
+        r.run(-WARM_UP_S, 0.0, |_| Some(speed_mps), true);
+        assert!(
+            matches!(
+                r.faults.first(),
+                Some((_, Fault::NoReading { sensor: Sensor::WindSpeed }))
+            ),
+            "{:?}",
+            r.faults
+        );
+        let c = r.changes.first().expect("left sensor_fault");
+        assert_eq!((c.1, c.3), (Stage::SensorFault, Cause::FaultCleared), "{c:?}");
+        assert!(c.2 >= Stage::Watch, "{c:?}");
+        // The first gust after 3 s of samples, then the clear time.
+        assert!((c.0 + WARM_UP_S - 3.0 - clear_s).abs() <= 0.2, "{c:?}");
+        r.changes.clear();
+        r.faults.clear();
+        r
     }
 
     fn run(&mut self, t0_s: f32, t1_s: f32, speed: impl Fn(f32) -> Option<f32>, accel: bool) {
-        let mut k = (t0_s * 10.0).round() as u64;
-        let end = (t1_s * 10.0).round() as u64;
+        let mut k = ((t0_s + WARM_UP_S) * 10.0).round() as u64;
+        let end = ((t1_s + WARM_UP_S) * 10.0).round() as u64;
         while k < end {
-            let t = k as f32 / 10.0;
+            let t = k as f32 / 10.0 - WARM_UP_S;
             let mut inputs = Inputs::default();
             if accel {
                 inputs.accel_raw = Some([0.0, 0.0, 1.0 + 1e-4 * ((k % 7) as f32)]);
@@ -77,6 +112,50 @@ impl<'r> Run<'r> {
             k += 1;
         }
     }
+}
+
+/// A new guard cannot judge the rig: it starts in `sensor_fault` (park and
+/// alarm asserted) with a no-reading fault for the wind until the first
+/// 3-s gust, leaves it `fault_clear_s` later for `watch`, and reaches `clear`
+/// once the figures have been trusted and settled for the dwell (which the
+/// clear time counts towards). Fail-safe start: common practice for safety
+/// outputs, no source.
+#[test]
+fn guard_starts_unable_to_see() {
+    let rig = rig();
+    let cfg = config();
+    let mut g = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap();
+    assert_eq!(g.stage(), Stage::SensorFault);
+    let mut changes = Vec::new();
+    for k in 0..7000_u64 {
+        let inputs = Inputs {
+            accel_raw: Some([0.0, 0.0, 1.0 + 1e-4 * ((k % 7) as f32)]),
+            wind: (k % 10 == 0).then_some(WindSample {
+                speed_mps: 3.0 + 0.05 * (k % 3) as f32,
+                from_rad: Some(0.01 * (k / 10 % 5) as f32),
+            }),
+            ..Inputs::default()
+        };
+        let v = g.step(Millis(k * 100), &inputs);
+        if k == 0 {
+            assert!(v.stage.park_requested() && v.stage.alarm());
+            assert!(v.faults.any(|f| f == &Fault::NoReading { sensor: Sensor::WindSpeed }));
+            assert_eq!(v.overturning_utilisation, None, "no figure before a gust");
+        }
+        for e in &v.events {
+            if let Event::StageChanged { from, to, cause } = *e {
+                changes.push((k as f32 / 10.0, from, to, cause));
+            }
+            assert!(!matches!(e, Event::FaultRaised(_)) || k == 0, "{k}: {e:?}");
+        }
+    }
+    assert_eq!(changes.len(), 2, "{changes:?}");
+    let (t0, t1) = (changes[0].0, changes[1].0);
+    assert_eq!(&changes[0].1..=&changes[0].2, &Stage::SensorFault..=&Stage::Watch);
+    assert_eq!(changes[0].3, Cause::FaultCleared);
+    assert!((t0 - 3.0 - cfg.fault_clear_s).abs() <= 0.2, "{changes:?}");
+    assert_eq!((changes[1].1, changes[1].2, changes[1].3), (Stage::Watch, Stage::Clear, Cause::Settled));
+    assert!((t1 - 3.0 - cfg.dwell_s).abs() <= 0.2, "{changes:?}");
 }
 
 /// A steady light wind (5 m/s: utilisation 0.05) never raises anything.
@@ -114,13 +193,14 @@ fn ramping_wind_requests_park_in_time() {
 }
 
 /// Hysteresis and dwell: a 15 m/s spell (U ≈ 0.47, predicted ≈ 0.62 with the
-/// 1.15 gust allowance: watch) then calm. The stage stays at watch until the
-/// figures have been below 0.8 × threshold for the 600 s dwell *and* the 600 s
-/// peak-gust window has forgotten the spell.
+/// 1.15 gust allowance: watch; steady since the warm-up, so no rise is
+/// predicted) then calm. The stage stays at watch until the figures have been
+/// below 0.8 × threshold for the 600 s dwell *and* the 600 s peak-gust window
+/// has forgotten the spell.
 #[test]
 fn watch_steps_down_only_after_dwell() {
     let rig = rig();
-    let mut r = Run::new(&rig, config());
+    let mut r = Run::warmed(&rig, config(), 15.0);
     r.run(0.0, 300.0, |_| Some(15.0), true);
     assert_eq!(r.guard.stage(), Stage::Watch, "{:?}", r.changes);
     r.run(300.0, 1700.0, |_| Some(3.0), true);
@@ -233,15 +313,41 @@ fn overloaded_drive_requests_park() {
         slew_acceleration_rad_s2: 0.0,
     });
     let rig = Rig::new(&spec).unwrap();
-    let mut r = Run::new(&rig, config());
-    r.run(0.0, 60.0, |_| Some(3.0), true);
-    assert_eq!(r.guard.stage(), Stage::ParkNow, "{:?}", r.changes);
-    assert_eq!(r.changes.last().unwrap().3, Cause::Drive);
+    let cfg = config();
+    let mut g = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap();
+    let mut last = None;
+    for k in 0..1000_u64 {
+        let inputs = Inputs {
+            accel_raw: Some([0.0, 0.0, 1.0 + 1e-4 * ((k % 7) as f32)]),
+            wind: (k % 10 == 0).then_some(WindSample {
+                speed_mps: 3.0 + 0.05 * (k % 3) as f32,
+                from_rad: Some(0.01 * (k / 10 % 5) as f32),
+            }),
+            ..Inputs::default()
+        };
+        last = Some(g.step(Millis(k * 100), &inputs));
+    }
+    let v = last.unwrap();
+    assert_eq!(v.stage, Stage::ParkNow, "{v:?}");
+    let d = v.drive_utilisation.unwrap();
+    approx::assert_relative_eq!(d[1], 3.92 / 2.0, max_relative = 0.02);
+    // The cause the decision names for these figures.
+    let figures = standfast::guard::transition::Figures {
+        overturning: v.overturning_utilisation.unwrap(),
+        predicted: v.predicted_utilisation.unwrap(),
+        sliding: v.sliding_utilisation.unwrap(),
+        drive: v.drive_utilisation,
+        tilt_margin_rad: v.tilt_margin_rad.unwrap(),
+        drift_rad_per_s: 0.0,
+    };
+    let (want, cause) = standfast::guard::transition::wanted(&figures, &cfg.thresholds());
+    assert_eq!((want, cause), (Stage::ParkNow, Cause::Drive));
 }
 
 /// A sensor fault does not latch: once the anemometer is back and healthy for
-/// `fault_clear_s` (60 s) the guard steps to watch, and to clear after the
-/// usual 600 s dwell.
+/// `fault_clear_s` (60 s) the guard steps to watch, and to clear once the
+/// figures have been trusted and settled for the 600 s dwell (counted from
+/// the end of the fault: the clear time counts towards it).
 #[test]
 fn sensor_fault_clears_after_healthy_period() {
     let rig = rig();
@@ -257,7 +363,10 @@ fn sensor_fault_clears_after_healthy_period() {
     r.run(300.0, 900.0, |_| Some(4.0), true);
     let clear = *r.changes.last().unwrap();
     assert_eq!(clear.2, Stage::Clear);
-    assert!(clear.0 >= back.0 + 600.0 - 1.0, "{clear:?}");
+    assert!(
+        clear.0 >= 106.0 + 600.0 - 1.0 && clear.0 <= 106.0 + 600.0 + 15.0,
+        "{clear:?}"
+    );
 }
 
 /// A station that reports only ten-minute means: the guard's gust is the mean
@@ -273,6 +382,12 @@ fn ten_minute_means_give_gust_by_factor() {
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
     assert_eq!(e.field, "guard.wind.stale_after_s");
     cfg.wind.stale_after_s = 660.0;
+    // Means up to 100 m/s would be gusts of 145 m/s, beyond the model's
+    // 100 m/s: refused, naming the limit that keeps every mean evaluable.
+    let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
+    assert_eq!(e.field, "guard.wind.max_speed_mps");
+    approx::assert_relative_eq!(e.max, 100.0 / 1.45, max_relative = 1e-5);
+    cfg.wind.max_speed_mps = 60.0;
     let mut g = Guard::new(&rig, cfg, Millis(0)).unwrap();
     let mut last = None;
     for k in 0..=36_000_u64 {

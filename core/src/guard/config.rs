@@ -1,0 +1,281 @@
+//! The guard's configuration: thresholds and timing, each with its reason
+//! and its accepted range.
+
+use super::transition::Thresholds;
+use super::MAX_PARK_POSES;
+use crate::error::{Error, ErrorKind};
+use crate::mount::Pose;
+use crate::rig::MAX_WIND_SPEED_MPS;
+use crate::sense::{TiltConfig, WindConfig};
+use heapless::Vec;
+
+/// Longest accepted time between physics evaluations, ms: a minute. Longer,
+/// and a slew or a gust front could go unjudged for longer than a park
+/// takes.
+pub const MAX_EVALUATE_EVERY_MS: u64 = 60_000;
+
+/// What the guard's wind input carries.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+pub enum WindSource {
+    /// Speed and direction samples at any rate: gusts are measured (3-s
+    /// running mean, WMO-No. 8).
+    #[default]
+    Samples,
+    /// Ten-minute mean speeds (and directions) only: the gust is estimated
+    /// as mean × gust factor ([`crate::sense::MeanWind`]).
+    TenMinuteMeans,
+}
+
+/// Thresholds and timing of the guard. Every default is given with its reason.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct GuardConfig {
+    /// Accelerometer processing.
+    pub tilt: TiltConfig,
+    /// Anemometer processing.
+    pub wind: WindConfig,
+    /// What the wind input carries: samples of the wind (default), or
+    /// ten-minute mean speeds from a station that reports only statistics,
+    /// whose gust is the mean × `wind.mean_gust_factor` (chosen by terrain).
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub wind_source: WindSource,
+    /// Predicted overturning or sliding utilisation that raises
+    /// [`Stage::Watch`](super::Stage::Watch). Default 0.5: half way to the tipping point, time to
+    /// look at the rig.
+    pub watch_utilisation: f32,
+    /// Predicted overturning utilisation (at the end of a park) that raises
+    /// [`Stage::ParkNow`](super::Stage::ParkNow). Default 0.75: by analogy with mobile cranes on
+    /// crawlers, whose rated load is at most 75 % of the tipping load
+    /// (ASME B30.5 §5-1.1.1), leaving a quarter for what the model misses.
+    pub park_utilisation: f32,
+    /// Present overturning or sliding utilisation (at the peak gust) that raises
+    /// [`Stage::Alarm`](super::Stage::Alarm). Default 0.9: the early-warning level of crane rated
+    /// capacity limiters (EN 13000 practice, warning at about 90 %).
+    pub alarm_utilisation: f32,
+    /// Governing drive utilisation (steady torque against rated torque, with
+    /// the slew torque against repeated peak, gust torque against momentary
+    /// peak; see [`crate::torque::Utilisation`]) that raises
+    /// [`Stage::ParkNow`](super::Stage::ParkNow). Default 1.0: beyond its ratings a drive may slip or
+    /// backdrive.
+    pub drive_park_utilisation: f32,
+    /// Hysteresis: a figure counts as settled below this fraction of the
+    /// threshold it crossed. Default 0.8.
+    pub clear_ratio: f32,
+    /// Time every figure must stay settled before the stage steps down, s.
+    /// Default 600 s: one 10-minute mean period, so a lull between gusts
+    /// does not unpark a rig in a rising storm.
+    pub dwell_s: f32,
+    /// Time the mount needs to reach its park pose, s. Default 120 s.
+    pub time_to_park_s: f32,
+    /// Factor on the predicted gust speed. Default 1.15: the next gust may beat
+    /// the peak of the last ten minutes (common practice, no source).
+    pub gust_allowance: f32,
+    /// Remaining tilt margin (extra tilt that would tip the rig with no wind)
+    /// below which [`Stage::Alarm`](super::Stage::Alarm) is raised, radians. Default 5° (0.0873 rad):
+    /// well above the 1–3° chassis-tilt alarms of aerial work platforms,
+    /// measured here as distance from tipping.
+    pub tilt_margin_alarm_rad: f32,
+    /// Tilt drift rate that raises [`Stage::Watch`](super::Stage::Watch), rad/s. Default 0.5°/h
+    /// (2.42e-6 rad/s): a leg sinking that fast needs a look before dawn.
+    pub drift_watch_rad_per_s: f32,
+    /// Time without faults before leaving [`Stage::SensorFault`](super::Stage::SensorFault), s. Default
+    /// 60 s.
+    pub fault_clear_s: f32,
+    /// Least time between physics evaluations, ms, 0 to
+    /// [`MAX_EVALUATE_EVERY_MS`]; samples in between only update the
+    /// filters (a changed pose or cover state evaluates at once, see
+    /// [`super::POSE_TOLERANCE_RAD`]). Default 1000 ms: wind statistics
+    /// change on the 0.25 s bin and the 3-s window, tilt on a 1 s filter.
+    pub evaluate_every_ms: u64,
+    /// Pose assumed until the mount reports one. Default: `None`, the mount's
+    /// home pose.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub assumed_pose: Option<Pose>,
+    /// Extra park poses to choose among, besides the home pose.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub park_poses: Vec<Pose, MAX_PARK_POSES>,
+}
+
+impl Default for GuardConfig {
+    fn default() -> Self {
+        GuardConfig {
+            tilt: TiltConfig::default(),
+            wind: WindConfig::default(),
+            wind_source: WindSource::Samples,
+            watch_utilisation: 0.5,
+            park_utilisation: 0.75,
+            alarm_utilisation: 0.9,
+            drive_park_utilisation: 1.0,
+            clear_ratio: 0.8,
+            dwell_s: 600.0,
+            time_to_park_s: 120.0,
+            gust_allowance: 1.15,
+            tilt_margin_alarm_rad: 0.087_266_46,
+            drift_watch_rad_per_s: 2.424e-6,
+            fault_clear_s: 60.0,
+            evaluate_every_ms: 1000,
+            assumed_pose: None,
+            park_poses: Vec::new(),
+        }
+    }
+}
+
+impl GuardConfig {
+    /// Checks every field against its documented range, and that every wind
+    /// sample the wind configuration accepts can be evaluated by the physics
+    /// ([`GuardConfig::max_gust_at_rig_mps`] at most
+    /// [`MAX_WIND_SPEED_MPS`]).
+    ///
+    /// # Errors
+    /// The first invalid field, named `guard.<field>` (the tilt and wind
+    /// processors' own fields as `tilt.<field>` and `wind.<field>`).
+    pub fn validate(&self) -> Result<(), Error> {
+        self.tilt.validate()?;
+        self.wind.validate()?;
+        if self.wind_source == WindSource::TenMinuteMeans {
+            // A mean arrives every ten minutes: a shorter stale time would
+            // fault between two reports.
+            Error::check(
+                "guard.wind.stale_after_s",
+                self.wind.stale_after_s,
+                600.0,
+                86_400.0,
+            )?;
+        }
+        Error::check("guard.watch_utilisation", self.watch_utilisation, 0.05, 1.0)?;
+        Error::check(
+            "guard.park_utilisation",
+            self.park_utilisation,
+            self.watch_utilisation,
+            1.0,
+        )?;
+        Error::check(
+            "guard.alarm_utilisation",
+            self.alarm_utilisation,
+            self.watch_utilisation,
+            1.0,
+        )?;
+        Error::check(
+            "guard.drive_park_utilisation",
+            self.drive_park_utilisation,
+            0.1,
+            5.0,
+        )?;
+        Error::check("guard.clear_ratio", self.clear_ratio, 0.1, 1.0)?;
+        Error::check("guard.dwell_s", self.dwell_s, 0.0, 86_400.0)?;
+        Error::check("guard.time_to_park_s", self.time_to_park_s, 0.0, 3_600.0)?;
+        Error::check("guard.gust_allowance", self.gust_allowance, 1.0, 2.0)?;
+        Error::check(
+            "guard.tilt_margin_alarm_rad",
+            self.tilt_margin_alarm_rad,
+            0.0,
+            0.5,
+        )?;
+        Error::check(
+            "guard.drift_watch_rad_per_s",
+            self.drift_watch_rad_per_s,
+            0.0,
+            1.0,
+        )?;
+        Error::check("guard.fault_clear_s", self.fault_clear_s, 0.0, 86_400.0)?;
+        check_ms(
+            "guard.evaluate_every_ms",
+            self.evaluate_every_ms,
+            MAX_EVALUATE_EVERY_MS,
+        )?;
+        self.check_wind_within_model()?;
+        Ok(())
+    }
+
+    /// The highest gust at rig height, m/s, that a wind input the
+    /// configuration accepts can produce: `wind.max_speed_mps` × the height
+    /// factor (anemometer → rig), × `wind.mean_gust_factor` for a station of
+    /// ten-minute means.
+    ///
+    /// # Errors
+    /// An invalid height profile (as [`WindConfig::height_factor`]).
+    pub fn max_gust_at_rig_mps(&self) -> Result<f32, Error> {
+        let mut factor = self.wind.height_factor()?;
+        if self.wind_source == WindSource::TenMinuteMeans {
+            factor *= self.wind.mean_gust_factor;
+        }
+        Ok(self.wind.max_speed_mps * factor)
+    }
+
+    /// Every wind sample the configuration accepts must be one the physics
+    /// can evaluate: the highest gust at rig height
+    /// ([`GuardConfig::max_gust_at_rig_mps`]) at most
+    /// [`MAX_WIND_SPEED_MPS`]. Otherwise a valid sample would give figures
+    /// the model refuses, which the guard could only report as a fault.
+    fn check_wind_within_model(&self) -> Result<(), Error> {
+        let max_gust = self.max_gust_at_rig_mps()?;
+        if max_gust <= MAX_WIND_SPEED_MPS {
+            return Ok(());
+        }
+        // The accepted range of the sensor's limit that keeps it inside the
+        // model, in the sensor's own terms.
+        let limit = self.wind.max_speed_mps * MAX_WIND_SPEED_MPS / max_gust;
+        Err(Error {
+            kind: ErrorKind::OutOfRange,
+            field: "guard.wind.max_speed_mps",
+            index: None,
+            value: self.wind.max_speed_mps,
+            min: 1.0,
+            max: limit,
+        })
+    }
+
+    /// The thresholds of the decision ([`super::transition`]), with the
+    /// times in milliseconds.
+    #[must_use]
+    pub fn thresholds(&self) -> Thresholds {
+        Thresholds {
+            watch_utilisation: self.watch_utilisation,
+            park_utilisation: self.park_utilisation,
+            alarm_utilisation: self.alarm_utilisation,
+            drive_park_utilisation: self.drive_park_utilisation,
+            clear_ratio: self.clear_ratio,
+            tilt_margin_alarm_rad: self.tilt_margin_alarm_rad,
+            drift_watch_rad_per_s: self.drift_watch_rad_per_s,
+            dwell_ms: s_to_ms(self.dwell_s),
+            fault_clear_ms: s_to_ms(self.fault_clear_s),
+        }
+    }
+}
+
+/// Whole milliseconds of a validated non-negative duration in seconds
+/// (rounded to nearest; at most 86 400 s here).
+fn s_to_ms(s: f32) -> u64 {
+    // + 0.5 and truncation: round half up for these non-negative values.
+    let ms = s * 1000.0 + 0.5;
+    if ms.is_finite() && ms >= 1.0 {
+        // Validated: at most 8.64e7, far inside u64.
+        #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+        let m = ms as u64;
+        m
+    } else {
+        0
+    }
+}
+
+/// Checks a duration in whole milliseconds against `0..=max_ms`.
+fn check_ms(field: &'static str, value_ms: u64, max_ms: u64) -> Result<u64, Error> {
+    if value_ms <= max_ms {
+        return Ok(value_ms);
+    }
+    // Shown in the error as f32: exact to 1 ms up to 16.7 million ms.
+    #[allow(clippy::cast_precision_loss)]
+    let (value, max) = (value_ms as f32, max_ms as f32);
+    Err(Error {
+        kind: ErrorKind::OutOfRange,
+        field,
+        index: None,
+        value,
+        min: 0.0,
+        max,
+    })
+}

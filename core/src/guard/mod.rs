@@ -1,0 +1,786 @@
+//! The guard: live samples in, a staged park-and-alarm decision out.
+//!
+//! Each [`Guard::step`] takes the caller's time stamp and whatever samples
+//! arrived since the last step (accelerometer, wind, mount pose, cover, air)
+//! and returns a [`Verdict`]: the present overturning and sliding
+//! utilisation, the utilisation predicted for the end of a park, the tip wind
+//! speed for the present pose and wind direction, the tilt margin, the stage
+//! ([`Stage`]), the active faults and the events of this step.
+//!
+//! **Stages**, in rising order: [`Stage::Clear`], [`Stage::Watch`],
+//! [`Stage::ParkNow`], [`Stage::Alarm`]; and [`Stage::SensorFault`], the
+//! can't-see level, which parks and alarms. Every rule that changes the
+//! stage is in one pure function, [`transition::transition`], whose module
+//! docs give the whole transition table. In short: escalation is immediate;
+//! a step down needs every figure settled below `clear_ratio` × the threshold
+//! of every level being left, for `dwell_s`; the alarm latches until
+//! [`Guard::acknowledge`]; a fault clears after `fault_clear_s` of healthy
+//! inputs, to the stage the figures call for but no lower than
+//! [`Stage::Watch`] (and no lower than [`Stage::Alarm`] while latched).
+//!
+//! **Fail safe.** Anything the guard cannot compute or cannot trust is a
+//! [`Fault`] in the verdict and puts the guard in [`Stage::SensorFault`],
+//! which asserts the park and alarm outputs. Never is a figure read as zero
+//! or a sample dropped in silence:
+//! - a rejected sample of any input (accelerometer, wind, pose, cover, air)
+//!   is a fault of that input in the same step;
+//! - a time stamp earlier than the previous step's is a fault of the clock
+//!   ([`Sensor::Clock`]); that step's samples are not used;
+//! - no reading yet (no tilt before the first accelerometer sample, no gust
+//!   before the wind statistics hold one) is [`Fault::NoReading`]; a guard
+//!   starts in [`Stage::SensorFault`];
+//! - a physics evaluation that fails or gives a non-finite figure is
+//!   [`Fault::Unevaluable`] naming the figure;
+//! - [`GuardConfig::validate`] refuses a wind configuration that accepts
+//!   samples the physics cannot evaluate.
+//!
+//! **Park early enough.** Parking takes `time_to_park_s`. The guard predicts
+//! the gust at the end of that time: the larger of the peak gust of the recent
+//! window and the latest gust plus its rise rate over the park time, times
+//! `gust_allowance`; it requests the park when the utilisation at that gust
+//! reaches `park_utilisation`, so that the rig is parked before the limit.
+//!
+//! **Wind direction.** With a defined direction the guard uses it; with a
+//! variable, calm or unknown direction it takes the worst direction, as the
+//! wind may swing to it (for the drive torques too).
+//!
+//! **When the physics runs.** At most once per `evaluate_every_ms`, and at
+//! once when the cover state changes or the pose moves by more than
+//! [`POSE_TOLERANCE_RAD`] from the last evaluated one. Samples in between
+//! only update the filters, so a controller may pass its pose in every step.
+//!
+//! **Memory.** The guard holds no reference-counted or heap data; its size is a
+//! compile-time constant, `core::mem::size_of::<Guard>()`, under 4 KiB
+//! (checked by a unit test). The rig is borrowed, not copied.
+//!
+//! **Caution.** A verdict is an estimate from a static model and live sensors;
+//! it does not replace securing the rig.
+
+mod config;
+pub mod transition;
+
+pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_MS};
+pub use transition::{Cause, Stage};
+
+use crate::air::{celsius_to_kelvin, Air};
+use crate::error::{Error, ErrorKind};
+use crate::frame::Tilt;
+use crate::mount::Pose;
+use crate::rig::{Conditions, Rig};
+use crate::sense::{
+    Check, Fault, FaultSet, MeanWind, Millis, Sensor, TiltSensor, WindDirection, WindReport,
+    WindStats, FINE_BIN_MS,
+};
+use crate::sky::ParkRequest;
+use heapless::Vec;
+use transition::{Figures, Memory, Readings};
+
+/// Most extra park poses a guard considers besides the home pose.
+pub const MAX_PARK_POSES: usize = 4;
+/// Most events one step can report; more are counted in
+/// [`Verdict::events_lost`].
+pub const MAX_EVENTS: usize = 8;
+/// Minutes of one-minute gust maxima kept to estimate a rising wind.
+pub const GUST_HISTORY_MIN: usize = 10;
+/// A reported pose that moved by more than this from the pose of the last
+/// evaluation, on either axis angle (or hour angle, declination, azimuth,
+/// altitude), forces a new evaluation, radians: 1e-3 rad (0.057°). Sidereal
+/// tracking (7.3e-5 rad/s) takes 14 s to move that far, so tracking waits
+/// for the evaluation period while a slew is judged at once; a pier-side
+/// flip or a change of pose form always counts as a move.
+pub const POSE_TOLERANCE_RAD: f32 = 1e-3;
+
+/// Something worth logging that happened in a step.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum Event {
+    /// The stage changed.
+    StageChanged {
+        /// Previous stage.
+        from: Stage,
+        /// New stage.
+        to: Stage,
+        /// Why.
+        cause: Cause,
+    },
+    /// A fault was raised (first step it is seen).
+    FaultRaised(Fault),
+    /// The highest overturning utilisation since start (lowest margin) rose.
+    NewHighUtilisation {
+        /// Overturning utilisation, dimensionless.
+        utilisation: f32,
+    },
+}
+
+/// A wind sample: speed at the anemometer and the direction it blows from.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct WindSample {
+    /// Speed, m/s, at the anemometer.
+    pub speed_mps: f32,
+    /// Direction it blows from, radians from north clockwise, if measured.
+    pub from_rad: Option<f32>,
+}
+
+/// Measured air temperature and pressure.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct AirSample {
+    /// Air temperature, °C.
+    pub temperature_c: f32,
+    /// Station pressure, Pa.
+    pub pressure_pa: f32,
+}
+
+/// Whatever arrived since the last step. Every field is optional.
+#[derive(Clone, Copy, Debug, PartialEq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Inputs {
+    /// Raw accelerometer sample, sensor axes, in counts or g (see
+    /// [`TiltConfig::scale_g_per_count`]).
+    pub accel_raw: Option<[f32; 3]>,
+    /// Wind sample.
+    pub wind: Option<WindSample>,
+    /// Mount pose as reported by the mount controller.
+    pub pose: Option<Pose>,
+    /// Cover fitted (true) or removed (false).
+    pub cover_fitted: Option<bool>,
+    /// Measured air.
+    pub air: Option<AirSample>,
+}
+/// The guard's answer for one step.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Verdict {
+    /// Time stamp of the step (the previous step's when the clock went
+    /// backwards: see [`Sensor::Clock`]).
+    pub now: Millis,
+    /// The stage.
+    pub stage: Stage,
+    /// Overturning utilisation at the peak gust now (1.0 tips).
+    pub overturning_utilisation: Option<f32>,
+    /// Overturning utilisation predicted for the end of a park.
+    pub predicted_utilisation: Option<f32>,
+    /// Sliding utilisation at the peak gust now (1.0 slides).
+    pub sliding_utilisation: Option<f32>,
+    /// Governing drive utilisation of the primary and secondary axes at the
+    /// peak gust, when the rig has drive ratings.
+    pub drive_utilisation: Option<[f32; 2]>,
+    /// Wind speed that would tip the rig in the present pose from the present
+    /// (or worst) direction, m/s; `None` when no wind speed tips it.
+    pub tip_wind_mps: Option<f32>,
+    /// The gust the figures are computed for, m/s at rig height.
+    pub gust_mps: Option<f32>,
+    /// The gust predicted for the end of a park, m/s at rig height.
+    pub predicted_gust_mps: Option<f32>,
+    /// Direction used, radians from north clockwise (the worst one when the
+    /// measured direction is not defined).
+    pub wind_from_rad: Option<f32>,
+    /// Present ground tilt.
+    pub tilt: Option<Tilt>,
+    /// Extra tilt that would tip the rig with no wind, radians.
+    pub tilt_margin_rad: Option<f32>,
+    /// The pose the figures are for.
+    pub pose: Pose,
+    /// With a park request: the safest park pose for the present wind (the
+    /// mount's home pose when the figures or the search are missing).
+    pub park_pose: Option<Pose>,
+    /// Active faults: any fault means the guard cannot judge the rig.
+    pub faults: FaultSet,
+    /// Events of this step, oldest first.
+    pub events: Vec<Event, MAX_EVENTS>,
+    /// Events of this step that did not fit in `events` (the newest are the
+    /// ones lost); 0 normally.
+    pub events_lost: u16,
+}
+
+/// The events of one step, counting those that do not fit.
+#[derive(Default)]
+struct EventLog {
+    events: Vec<Event, MAX_EVENTS>,
+    lost: u16,
+}
+
+impl EventLog {
+    fn push(&mut self, e: Event) {
+        if self.events.push(e).is_err() {
+            self.lost = self.lost.saturating_add(1);
+        }
+    }
+}
+
+/// Figures of one physics evaluation, as the verdict shows them.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+struct Shown {
+    overturning: Option<f32>,
+    predicted: Option<f32>,
+    sliding: Option<f32>,
+    drive: Option<[f32; 2]>,
+    tip_wind_mps: Option<f32>,
+    gust_mps: Option<f32>,
+    predicted_gust_mps: Option<f32>,
+    from_rad: Option<f32>,
+    tilt_margin_rad: Option<f32>,
+    drift_rad_per_s: f32,
+}
+
+/// The guard. Borrows the rig; all other state is inline and fixed in size.
+#[derive(Clone, Debug)]
+pub struct Guard<'r> {
+    rig: &'r Rig,
+    config: GuardConfig,
+    tilt: TiltSensor,
+    wind: WindStats,
+    means: MeanWind,
+    stage: Stage,
+    memory: Memory,
+    pose: Pose,
+    cover_fitted: bool,
+    air: Air,
+    /// The latest step's time stamp: the guard's clock never goes back.
+    last_step: Millis,
+    /// Time, pose and cover state of the last evaluation.
+    last_eval: Option<(Millis, Pose, bool)>,
+    shown: Shown,
+    /// Faults of the last evaluation (figures it could not compute); they
+    /// hold until the next evaluation.
+    eval_faults: FaultSet,
+    park_pose: Option<Pose>,
+    known_faults: FaultSet,
+    highest_utilisation: f32,
+    gust_minutes: [f32; GUST_HISTORY_MIN],
+    gust_minute_index: u64,
+    /// The 3-s gust of the wind report for one fine wind bin (index
+    /// `now / FINE_BIN_MS`), kept until the next wind sample: between wind
+    /// samples the gust changes only from one bin to the next, so steps
+    /// that do not evaluate the physics need no full report.
+    gust_3s_cache: Option<(u64, Option<f32>)>,
+}
+
+impl<'r> Guard<'r> {
+    /// A guard for `rig`, started at `now`, in [`Stage::SensorFault`]: it
+    /// cannot judge the rig before its sensors have given readings.
+    ///
+    /// # Errors
+    /// An invalid configuration ([`GuardConfig::validate`]) or a configured
+    /// pose the mount cannot take.
+    pub fn new(rig: &'r Rig, config: GuardConfig, now: Millis) -> Result<Guard<'r>, Error> {
+        config.validate()?;
+        let pose = config.assumed_pose.unwrap_or(rig.mount().home_pose());
+        rig.mount().axis_angles(pose)?;
+        for p in &config.park_poses {
+            rig.mount().axis_angles(*p)?;
+        }
+        Ok(Guard {
+            rig,
+            tilt: TiltSensor::new(config.tilt, now)?,
+            wind: WindStats::new(config.wind, now)?,
+            means: MeanWind::new(config.wind, now)?,
+            config,
+            stage: Stage::SensorFault,
+            memory: Memory::default(),
+            pose,
+            cover_fitted: false,
+            air: Air::default(),
+            last_step: now,
+            last_eval: None,
+            shown: Shown::default(),
+            eval_faults: FaultSet::new(),
+            park_pose: None,
+            known_faults: FaultSet::default(),
+            highest_utilisation: 0.0,
+            gust_minutes: [0.0; GUST_HISTORY_MIN],
+            gust_minute_index: now.0 / 60_000,
+            gust_3s_cache: None,
+        })
+    }
+
+    /// The configuration.
+    #[must_use]
+    pub fn config(&self) -> &GuardConfig {
+        &self.config
+    }
+
+    /// The present stage.
+    #[must_use]
+    pub fn stage(&self) -> Stage {
+        self.stage
+    }
+
+    /// The tilt processor (for a level capture at set-up).
+    pub fn tilt_sensor_mut(&mut self) -> &mut TiltSensor {
+        &mut self.tilt
+    }
+
+    /// Sets the air density used until measured air arrives in
+    /// [`Inputs::air`] (for example from the site elevation).
+    pub fn set_air(&mut self, air: Air) {
+        self.air = air;
+    }
+
+    /// Acknowledges a latched alarm: the stage may step down once the figures
+    /// have settled (in the next step, with cause [`Cause::Acknowledged`], if
+    /// they already have for the dwell time).
+    pub fn acknowledge(&mut self) {
+        self.memory.acknowledge();
+    }
+
+    /// One step: feed the samples that arrived, evaluate the physics when due,
+    /// and decide. Rejected samples, a reversed clock and figures that cannot
+    /// be computed become faults in the verdict (module docs, "Fail safe");
+    /// nothing panics.
+    pub fn step(&mut self, now: Millis, inputs: &Inputs) -> Verdict {
+        let mut events = EventLog::default();
+        let mut rejected = FaultSet::default();
+        let now = if now < self.last_step {
+            rejected.push(Fault::TimeReversed {
+                sensor: Sensor::Clock,
+            });
+            self.last_step
+        } else {
+            self.last_step = now;
+            self.take_inputs(now, inputs, &mut rejected);
+            now
+        };
+        let means = self.config.wind_source == WindSource::TenMinuteMeans;
+
+        let mut faults = FaultSet::new();
+        self.tilt.faults_into(now, &mut faults);
+        if means {
+            faults.extend(&self.means.faults(now));
+        } else {
+            self.wind.faults_into(now, &mut faults);
+        }
+        faults.extend(&rejected);
+
+        let due = self.last_eval.is_none_or(|(t, pose, cover)| {
+            now.since(t) >= self.config.evaluate_every_ms
+                || cover != self.cover_fitted
+                || pose_moved(pose, self.pose)
+        });
+        // The full wind report only when the physics is evaluated; otherwise
+        // the 3-s gust for the gust history (`WindStats::gust_3s_mps`, the
+        // report's value without the rest of the report), from the cache
+        // when the wind bin and the wind samples are unchanged.
+        let bin = now.0 / FINE_BIN_MS;
+        let report = if due {
+            let r = if means {
+                self.means.report(now)
+            } else {
+                self.wind.report(now)
+            };
+            self.gust_3s_cache = Some((bin, r.gust_3s_mps));
+            Some(r)
+        } else {
+            None
+        };
+        let gust_3s = match (&report, self.gust_3s_cache) {
+            (Some(r), _) => r.gust_3s_mps,
+            (None, Some((b, g))) if b == bin => g,
+            (None, _) => {
+                let g = if means {
+                    self.means.report(now).gust_3s_mps
+                } else {
+                    self.wind.gust_3s_mps(now)
+                };
+                self.gust_3s_cache = Some((bin, g));
+                g
+            }
+        };
+        self.track_gust_minutes(now, gust_3s);
+        if let Some(report) = report {
+            let (shown, eval_faults) = self.evaluate(&report);
+            self.shown = shown;
+            self.eval_faults = eval_faults;
+            self.last_eval = Some((now, self.pose, self.cover_fitted));
+            self.park_pose = None;
+            if let Some(u) = shown.overturning {
+                if u > self.highest_utilisation + 0.01 {
+                    self.highest_utilisation = u;
+                    events.push(Event::NewHighUtilisation { utilisation: u });
+                }
+            }
+        }
+        faults.extend(&self.eval_faults);
+        self.decide(now, &faults, &mut events);
+
+        // The park pose is searched only while a park is requested, once per
+        // evaluation (it costs one assessment per candidate).
+        if self.stage.park_requested() && (due || self.park_pose.is_none()) {
+            let pose = match (self.shown.predicted_gust_mps, self.shown.from_rad) {
+                (Some(v), Some(d)) => self.safest_park_pose(v, d),
+                _ => Ok(self.rig.mount().home_pose()),
+            };
+            self.park_pose = Some(match pose {
+                Ok(p) => p,
+                Err(f) => {
+                    // Park to the home pose, and say the search failed: the
+                    // next decision sees the fault.
+                    self.eval_faults.push(f);
+                    faults.push(f);
+                    self.note_new_faults(&faults, &mut events);
+                    self.rig.mount().home_pose()
+                }
+            });
+        }
+
+        let fig = self.shown;
+        Verdict {
+            now,
+            stage: self.stage,
+            overturning_utilisation: fig.overturning,
+            predicted_utilisation: fig.predicted,
+            sliding_utilisation: fig.sliding,
+            drive_utilisation: fig.drive,
+            tip_wind_mps: fig.tip_wind_mps,
+            gust_mps: fig.gust_mps,
+            predicted_gust_mps: fig.predicted_gust_mps,
+            wind_from_rad: fig.from_rad,
+            tilt: self.tilt.tilt(),
+            tilt_margin_rad: fig.tilt_margin_rad,
+            pose: self.pose,
+            park_pose: if self.stage.park_requested() {
+                self.park_pose
+            } else {
+                None
+            },
+            faults,
+            events: events.events,
+            events_lost: events.lost,
+        }
+    }
+
+    /// Feeds the samples of one step to their processors; every rejected
+    /// sample becomes a fault of its input in `rejected`.
+    fn take_inputs(&mut self, now: Millis, inputs: &Inputs, rejected: &mut FaultSet) {
+        if let Some(raw) = inputs.accel_raw {
+            if let Err(f) = self.tilt.push(now, raw) {
+                rejected.push(f);
+            }
+        }
+        if let Some(w) = inputs.wind {
+            self.gust_3s_cache = None;
+            let pushed = if self.config.wind_source == WindSource::TenMinuteMeans {
+                self.means.push(now, w.speed_mps, w.from_rad)
+            } else {
+                self.wind.push(now, w.speed_mps, w.from_rad)
+            };
+            if let Err(f) = pushed {
+                rejected.push(f);
+            }
+        }
+        if let Some(p) = inputs.pose {
+            match self.rig.mount().axis_angles(p) {
+                Ok(_) => self.pose = p,
+                Err(e) => rejected.push(input_fault(Sensor::MountPose, &e)),
+            }
+        }
+        if let Some(c) = inputs.cover_fitted {
+            if c && !self.rig.has_cover() {
+                rejected.push(Fault::NotInRig {
+                    sensor: Sensor::Cover,
+                });
+            } else {
+                self.cover_fitted = c;
+            }
+        }
+        if let Some(a) = inputs.air {
+            match Air::from_temperature_pressure(celsius_to_kelvin(a.temperature_c), a.pressure_pa)
+            {
+                Ok(air) => self.air = air,
+                Err(e) => rejected.push(input_fault(Sensor::Air, &e)),
+            }
+        }
+    }
+
+    /// Logs a [`Event::FaultRaised`] for each fault of a class not active in
+    /// the previous step, and remembers the active set.
+    fn note_new_faults(&mut self, faults: &FaultSet, events: &mut EventLog) {
+        for f in faults.iter() {
+            if !self.known_faults.any(|k| k.same_class(&f)) {
+                events.push(Event::FaultRaised(f));
+            }
+        }
+        self.known_faults = *faults;
+    }
+
+    /// What the decision reads: a fault class, or the figures of the last
+    /// evaluation (all present, the drive figure exactly when the rig has
+    /// drive ratings), or an evaluation fault when any is missing.
+    fn readings(&self, faults: &FaultSet) -> Readings {
+        if faults.any(|f| f.sensor() != Sensor::Model) {
+            return Readings::SensorFault;
+        }
+        if !faults.is_empty() {
+            return Readings::EvaluationFault;
+        }
+        let s = &self.shown;
+        let drive_ok = s.drive.is_some() == self.rig.drives().is_some();
+        match (s.overturning, s.predicted, s.sliding, s.tilt_margin_rad) {
+            (Some(overturning), Some(predicted), Some(sliding), Some(tilt_margin_rad))
+                if drive_ok =>
+            {
+                Readings::Figures(Figures {
+                    overturning,
+                    predicted,
+                    sliding,
+                    drive: s.drive,
+                    tilt_margin_rad,
+                    drift_rad_per_s: s.drift_rad_per_s,
+                })
+            }
+            _ => Readings::EvaluationFault,
+        }
+    }
+
+    fn decide(&mut self, now: Millis, faults: &FaultSet, events: &mut EventLog) {
+        self.note_new_faults(faults, events);
+        let readings = self.readings(faults);
+        let t = transition::transition(
+            self.stage,
+            &readings,
+            &self.config.thresholds(),
+            self.memory,
+            now,
+        );
+        self.stage = t.stage;
+        self.memory = t.memory;
+        if let Some(c) = t.change {
+            events.push(Event::StageChanged {
+                from: c.from,
+                to: c.to,
+                cause: c.cause,
+            });
+        }
+    }
+
+    fn track_gust_minutes(&mut self, now: Millis, gust_3s_mps: Option<f32>) {
+        let minute = now.0 / 60_000;
+        if minute != self.gust_minute_index {
+            let steps = minute.saturating_sub(self.gust_minute_index);
+            for _ in 0..steps.min(GUST_HISTORY_MIN as u64) {
+                self.gust_minutes.rotate_right(1);
+                if let Some(first) = self.gust_minutes.first_mut() {
+                    *first = 0.0;
+                }
+            }
+            self.gust_minute_index = minute;
+        }
+        if let (Some(g), Some(first)) = (gust_3s_mps, self.gust_minutes.first_mut()) {
+            if g > *first {
+                *first = g;
+            }
+        }
+    }
+
+    /// Rise rate of the gust, m/s per s: the slope between the mean of the
+    /// last two one-minute maxima and of the two five minutes before, never
+    /// negative (0 until ten minutes of history exist).
+    fn gust_rise_mps_per_s(&self) -> f32 {
+        gust_rise_mps_per_s(&self.gust_minutes)
+    }
+
+    fn conditions(&self, tilt: Tilt, speed_mps: f32, from_rad: f32) -> Conditions {
+        Conditions {
+            pose: self.pose,
+            tilt,
+            wind_speed_mps: speed_mps,
+            wind_from_rad: from_rad,
+            air: self.air,
+            cover_fitted: self.cover_fitted,
+        }
+    }
+
+    /// The figures of one evaluation, and a fault for each figure it could
+    /// not compute (missing readings, evaluation errors, non-finite
+    /// results). A missing figure stays `None`.
+    fn evaluate(&self, report: &WindReport) -> (Shown, FaultSet) {
+        let mut faults = FaultSet::new();
+        let unevaluable = |check| Fault::Unevaluable { check };
+        let mut f = Shown {
+            drift_rad_per_s: self.tilt.drift_rate_rad_per_s().abs(),
+            ..Shown::default()
+        };
+        if !f.drift_rad_per_s.is_finite() {
+            faults.push(unevaluable(Check::TiltDrift));
+        }
+        let tilt = self.tilt.tilt();
+        if tilt.is_none() {
+            faults.push(Fault::NoReading {
+                sensor: Sensor::Accelerometer,
+            });
+        }
+        // Gusts only (measured, or estimated from a ten-minute mean): before
+        // the first 3 s of record (or the first mean) there is no gust.
+        let gust = report.peak_gust_mps.or(report.gust_3s_mps);
+        if gust.is_none() {
+            faults.push(Fault::NoReading {
+                sensor: Sensor::WindSpeed,
+            });
+        }
+        let (Some(tilt), Some(gust)) = (tilt, gust) else {
+            return (f, faults);
+        };
+        let latest = report.gust_3s_mps.unwrap_or(gust);
+        let rise = self.gust_rise_mps_per_s() * self.config.time_to_park_s;
+        let predicted = gust.max(latest + rise) * self.config.gust_allowance;
+        f.gust_mps = Some(gust);
+        f.predicted_gust_mps = Some(predicted);
+
+        if let Ok(m) = self.rig.tilt_margin(&self.conditions(tilt, 0.0, 0.0)) {
+            f.tilt_margin_rad = finite(m.extra_rad);
+        }
+        if f.tilt_margin_rad.is_none() {
+            faults.push(unevaluable(Check::TiltMargin));
+        }
+
+        let measured_from = match report.direction {
+            WindDirection::Defined { from_rad, .. } | WindDirection::Reported { from_rad } => {
+                Some(from_rad)
+            }
+            _ => None,
+        };
+        let from = match measured_from {
+            Some(d) => Some(d),
+            None => self
+                .rig
+                .worst_direction_utilisation(&self.conditions(tilt, gust, 0.0))
+                .ok()
+                .and_then(|(_, d)| finite(d)),
+        };
+        let Some(from) = from else {
+            faults.push(unevaluable(Check::WorstDirection));
+            return (f, faults);
+        };
+        f.from_rad = Some(from);
+
+        let c = self.conditions(tilt, gust, from);
+        match self.rig.assess_with_utilisation_at(&c, predicted) {
+            Ok((a, at_predicted)) => {
+                f.overturning = finite(a.critical.utilisation);
+                f.sliding = finite(a.sliding.utilisation);
+                f.tip_wind_mps = a.tip_wind_mps;
+                f.predicted = at_predicted.and_then(finite);
+                if f.overturning.is_none() || f.sliding.is_none() {
+                    faults.push(unevaluable(Check::Overturning));
+                }
+                if f.predicted.is_none() {
+                    faults.push(unevaluable(Check::PredictedOverturning));
+                }
+            }
+            Err(_) => faults.push(unevaluable(Check::Overturning)),
+        }
+
+        if self.rig.drives().is_some() {
+            let mean = report.mean_10min_mps.unwrap_or(gust).min(gust);
+            f.drive = self
+                .rig
+                .axis_loads(&c, mean)
+                .ok()
+                .and_then(|l| Some([l.primary.utilisation?.governing, l.secondary.utilisation?.governing]))
+                .filter(|d| d.iter().all(|u| u.is_finite()));
+            if f.drive.is_none() {
+                faults.push(unevaluable(Check::Drive));
+            }
+        }
+        (f, faults)
+    }
+
+    /// The safest park pose for the predicted gust from `from_rad`: among the
+    /// home pose and the configured park poses, the one whose highest
+    /// utilisation (overturning, or either drive) is lowest
+    /// ([`Rig::safest_park`]); a park-pose fault when the search fails.
+    fn safest_park_pose(&self, speed_mps: f32, from_rad: f32) -> Result<Pose, Fault> {
+        let req = ParkRequest {
+            wind_from_rad: from_rad,
+            wind_speed_mps: speed_mps,
+            air: self.air,
+            tilt: self.tilt.tilt().unwrap_or(Tilt::LEVEL),
+            cover_fitted: self.cover_fitted,
+            scan: None,
+        };
+        self.rig
+            .safest_park(&req, &self.config.park_poses)
+            .map(|c| c.best.pose)
+            .map_err(|_| Fault::Unevaluable {
+                check: Check::ParkPose,
+            })
+    }
+}
+
+/// Rise rate of the gust from one-minute maxima (newest first), m/s per s:
+/// the slope between the mean of the last two and of the two five minutes
+/// before, never negative; 0 while those older minutes hold no gust.
+fn gust_rise_mps_per_s(m: &[f32; GUST_HISTORY_MIN]) -> f32 {
+    let (Some(a0), Some(a1), Some(b0), Some(b1)) = (m.first(), m.get(1), m.get(5), m.get(6)) else {
+        return 0.0;
+    };
+    if *b0 <= 0.0 || *b1 <= 0.0 {
+        return 0.0;
+    }
+    (((a0 + a1) - (b0 + b1)) * 0.5 / 300.0).max(0.0)
+}
+
+/// `Some(x)` for a finite `x`.
+fn finite(x: f32) -> Option<f32> {
+    x.is_finite().then_some(x)
+}
+
+/// The fault for a sample of `sensor` that its validation refused.
+fn input_fault(sensor: Sensor, e: &Error) -> Fault {
+    if e.kind == ErrorKind::NotFinite || !e.value.is_finite() {
+        Fault::NotFinite { sensor }
+    } else {
+        Fault::OutOfRange {
+            sensor,
+            value: e.value,
+        }
+    }
+}
+
+/// True when pose `b` differs from `a` by more than [`POSE_TOLERANCE_RAD`]
+/// in any angle, or in form or pier side.
+fn pose_moved(a: Pose, b: Pose) -> bool {
+    // Both poses passed the mount's checks: finite angles.
+    let far = |x: f32, y: f32| (x - y).abs() > POSE_TOLERANCE_RAD;
+    match (a, b) {
+        (
+            Pose::Axes {
+                primary_rad: p1,
+                secondary_rad: s1,
+            },
+            Pose::Axes {
+                primary_rad: p2,
+                secondary_rad: s2,
+            },
+        ) => far(p1, p2) || far(s1, s2),
+        (
+            Pose::Equatorial {
+                hour_angle_rad: h1,
+                declination_rad: d1,
+                pier_side: e1,
+            },
+            Pose::Equatorial {
+                hour_angle_rad: h2,
+                declination_rad: d2,
+                pier_side: e2,
+            },
+        ) => far(h1, h2) || far(d1, d2) || e1 != e2,
+        (
+            Pose::Horizontal {
+                azimuth_rad: z1,
+                altitude_rad: l1,
+                pier_side: e1,
+            },
+            Pose::Horizontal {
+                azimuth_rad: z2,
+                altitude_rad: l2,
+                pier_side: e2,
+            },
+        ) => far(z1, z2) || far(l1, l2) || e1 != e2,
+        _ => true,
+    }
+}
