@@ -80,6 +80,14 @@ pub trait Assess {
     fn raised_faults(&self) -> &[RaisedFault] {
         &[]
     }
+
+    /// Events of the last [`Assess::assess`] call that the assessment could
+    /// not report for lack of room (the guard's
+    /// [`standfast::guard::Verdict::events_lost`]); 0 by default. The station
+    /// logs a count above 0 as an event.
+    fn events_lost(&self) -> u16 {
+        0
+    }
 }
 
 /// Limits for [`LimitRule`].

@@ -112,6 +112,9 @@ pub enum EventKind {
     /// [`standfast::guard::Event::FaultRaised`]), named by
     /// [`crate::assess::RaisedFault`].
     AssessFault(crate::assess::RaisedFault),
+    /// The assessment lost this many events of one step for lack of room
+    /// ([`crate::assess::Assess::events_lost`]).
+    EventsLost(u16),
     /// Milliseconds since the previous step, when over two periods.
     Late(u32),
     /// An output pin reported an error.
@@ -145,6 +148,7 @@ impl fmt::Display for Event {
             EventKind::AssessFault(r) => {
                 write!(f, "fault sensor={} class={}", r.sensor, r.class)
             }
+            EventKind::EventsLost(n) => write!(f, "events_lost count={n}"),
             EventKind::Late(gap_ms) => write!(f, "late gap_ms={gap_ms}"),
             EventKind::LineError(Line::Park) => f.write_str("line_error line=park"),
             EventKind::LineError(Line::Alarm) => f.write_str("line_error line=alarm"),

@@ -154,10 +154,11 @@ pub struct GuardAssess<'r> {
     backstop: Option<LimitRule>,
     last_stage: Stage,
     raised: Vec<RaisedFault, MAX_EVENTS>,
+    events_lost: u16,
 }
 
-/// The event-line names of a guard fault: sensor (`accel`, `wind_speed`,
-/// `wind_direction`) and class (the [`Fault`] variant in snake case).
+/// The event-line names of a guard fault: the input ([`standfast::sense::Sensor::code`])
+/// and class (the [`Fault`] variant in snake case).
 #[must_use]
 pub const fn fault_names(fault: &Fault) -> RaisedFault {
     RaisedFault {
@@ -186,6 +187,7 @@ impl<'r> GuardAssess<'r> {
             guard,
             backstop,
             raised: Vec::new(),
+            events_lost: 0,
         })
     }
 
@@ -225,6 +227,7 @@ impl Assess for GuardAssess<'_> {
         };
         let verdict = self.guard.step(Millis(s.t_ms), &inputs);
         self.raised.clear();
+        self.events_lost = verdict.events_lost;
         for e in &verdict.events {
             if let GuardEvent::FaultRaised(f) = e {
                 // Capacity equals the guard's event capacity: never full.
@@ -256,5 +259,9 @@ impl Assess for GuardAssess<'_> {
 
     fn raised_faults(&self) -> &[RaisedFault] {
         &self.raised
+    }
+
+    fn events_lost(&self) -> u16 {
+        self.events_lost
     }
 }

@@ -383,6 +383,10 @@ where
         for raised in self.rule.raised_faults() {
             push(EventKind::AssessFault(*raised), now_ms);
         }
+        let lost = self.rule.events_lost();
+        if lost > 0 {
+            push(EventKind::EventsLost(lost), now_ms);
+        }
         if self.stage != assessment.stage {
             push(
                 EventKind::Stage {

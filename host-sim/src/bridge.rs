@@ -609,6 +609,8 @@ pub struct VerdictLine {
     pub faults: Vec<String>,
     /// Events of this step.
     pub events: Vec<EventOut>,
+    /// Events of this step that did not fit in the verdict (0 normally).
+    pub events_lost: u16,
 }
 
 impl VerdictLine {
@@ -653,6 +655,7 @@ impl VerdictLine {
                     }
                 })
                 .collect(),
+            events_lost: v.events_lost,
         }
     }
 }

@@ -5,7 +5,8 @@
 //! One line per event, in the firmware's format (`firmware-example/src/event.rs`):
 //!
 //! ```text
-//! event t_ms=<u64> kind=fault sensor=<accel|wind_speed|wind_direction> class=<name>
+//! event t_ms=<u64> kind=fault sensor=<accel|wind_speed|wind_direction|pose|cover|air|clock|model> class=<name>
+//! event t_ms=<u64> kind=events_lost count=<u16>
 //! event t_ms=<u64> kind=stage from=<stage> to=<stage>
 //! ```
 //!
@@ -96,6 +97,18 @@ pub fn rig_lines(rig: &RigReplay) -> Result<Vec<String>, Error> {
     for (i, c) in rig.stage_changes.iter().enumerate() {
         let t = ms_of(c.t_s);
         keyed.push((t, 1, i, stage_line(t, c.from, c.to)));
+    }
+    // The firmware prints a step's lost-event count after its faults and
+    // before its stage change; 0 sorts first among equals, so key it 0 with a
+    // sequence after every fault.
+    for (i, (t_s, n)) in rig.events_lost_at.iter().enumerate() {
+        let t = ms_of(*t_s);
+        keyed.push((
+            t,
+            0,
+            rig.faults.len() + i,
+            format!("event t_ms={t} kind=events_lost count={n}"),
+        ));
     }
     keyed.sort_by_key(|(t, k, i, _)| (*t, *k, *i));
     Ok(keyed.into_iter().map(|(_, _, _, l)| l).collect())

@@ -159,6 +159,14 @@ pub struct RigReplay {
     pub faults: Vec<FaultSeen>,
     /// Faults not kept.
     pub faults_not_kept: u64,
+    /// Guard events lost because a step had more than the verdict's
+    /// [`standfast::guard::MAX_EVENTS`] (0 normally), and the steps that
+    /// lost them: (seconds since the first record, count), the first
+    /// [`MAX_KEPT_EVENTS`].
+    pub events_lost: u64,
+    /// Steps that lost events (for [`crate::event_lines`]).
+    #[serde(skip)]
+    pub events_lost_at: Vec<(f64, u16)>,
     /// Bounded time series for the HTML report (not in the JSON summary).
     #[serde(skip)]
     pub series: crate::report::series::Series,
@@ -333,6 +341,8 @@ impl Tracker {
                 stage_changes_not_kept: 0,
                 faults: Vec::new(),
                 faults_not_kept: 0,
+                events_lost: 0,
+                events_lost_at: Vec::new(),
                 series: crate::report::series::Series::new(),
             },
             stage_s: [0.0; 5],
@@ -396,6 +406,12 @@ impl Tracker {
                     }
                 }
                 Event::NewHighUtilisation { .. } => {}
+            }
+        }
+        if v.events_lost > 0 {
+            r.events_lost += u64::from(v.events_lost);
+            if r.events_lost_at.len() < MAX_KEPT_EVENTS {
+                r.events_lost_at.push((t_s, v.events_lost));
             }
         }
         r.highest_stage = r.highest_stage.max(v.stage);

@@ -105,6 +105,13 @@ pub fn text(rep: &ReplayReport) -> String {
         for f in &r.faults {
             s.push_str(&format!("  {} (+{:.0} s): {}\n", f.time, f.t_s, f.fault));
         }
+        if r.events_lost > 0 {
+            s.push_str(&format!(
+                "  {} guard events lost: a step had more than {} (see the verdicts' faults)\n",
+                r.events_lost,
+                standfast::guard::MAX_EVENTS
+            ));
+        }
         if r.faults_not_kept > 0 {
             s.push_str(&format!("  ... and {} more\n", r.faults_not_kept));
         }

@@ -1,4 +1,6 @@
-//! Cross-crate tests and checks of Standfast against published sources.
-//!
-//! The checks live in `tests/` as one integration-test binary with a module per
-//! subject; each check names the source of its expected value beside it.
+//! Shared pieces of the checks: small rigs ([`fixtures`]) and the guard's
+//! trace checker ([`guard_trace`]), used by the test binary and by the core's
+//! fuzz target (`core/fuzz`).
+
+pub mod fixtures;
+pub mod guard_trace;

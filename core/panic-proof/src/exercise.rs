@@ -4,8 +4,10 @@
 
 use crate::unknowns::Unknowns;
 use core::hint::black_box;
+use standfast::air::Air;
 use standfast::drive::{DriveRating, Drives};
-use standfast::guard::{AirSample, Guard, GuardConfig, Inputs, WindSample};
+use standfast::guard::transition::{transition, Figures, Memory, Readings};
+use standfast::guard::{AirSample, Guard, GuardConfig, Inputs, Stage as Level, WindSample};
 use standfast::hardware::bolt::{BoltPattern, PivotLine, ShaftLoad};
 use standfast::hardware::material::{Material, AL_6061_T6_EXTRUSION_MIN};
 use standfast::hardware::shaft::{check_shaft_bending, ShaftSection};
@@ -19,7 +21,9 @@ use standfast::rig::{
 };
 use standfast::sense::{Millis, TiltConfig, TiltSensor, WindConfig, WindStats};
 use standfast::shape::{Exposure, Shape};
+use standfast::sky::{ParkRequest, PayloadOffset, SkyGrid, SkyScan};
 use standfast::support::Support;
+use standfast::torque::PayloadPick;
 use standfast::{Error, Tilt, Vec3};
 
 /// How many calls returned `Ok` and how many an error (a run on the host
@@ -187,7 +191,11 @@ fn pose(u: &Unknowns) -> Pose {
 /// [`WindStats::push`], [`WindStats::report`], [`WindStats::faults`] and the
 /// counterweight hardware checks ([`IsoThread::by_nominal_mm`],
 /// [`check_stripping`], [`check_shaft_bending`], [`BoltPattern::circle`],
-/// [`BoltPattern::tensions`], [`ShaftLoad::counterweight`]).
+/// [`BoltPattern::tensions`], [`ShaftLoad::counterweight`]), the sky-wide
+/// entry points ([`Rig::sky_scan`], [`Rig::payload_envelope`],
+/// [`Rig::balance`], [`standfast::torque::Balance::balanced_spec`],
+/// [`Rig::safest_park`]) and the
+/// guard's decision alone ([`transition`]).
 pub fn exercise(u: &Unknowns) -> Tally {
     let mut t = Tally::default();
     if let Some(spec) = t.note(rig_spec(u)) {
@@ -198,12 +206,13 @@ pub fn exercise(u: &Unknowns) -> Tally {
     }
     sensor_calls(&mut t, u);
     hardware_calls(&mut t, u);
+    transition_calls(&mut t, u);
     t
 }
 
 fn rig_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
     let tilt = Tilt::new(u.tilt_rad[0], u.tilt_rad[1]).unwrap_or(Tilt::LEVEL);
-    let air = standfast::air::Air::from_density(u.air_density_kg_m3).unwrap_or_default();
+    let air = Air::from_density(u.air_density_kg_m3).unwrap_or_default();
     let c = Conditions {
         pose: pose(u),
         tilt,
@@ -219,6 +228,83 @@ fn rig_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
     t.note(rig.foot_reactions_n(&c));
     t.note(rig.ballast_needed(&c, u.gust_mps, 0.75, Vec3::new(0.0, 0.0, 0.4)));
     t.note(rig.tie_down_needed(&c, u.gust_mps, 0.75));
+    sky_calls(t, rig, u, air, tilt);
+}
+
+/// The sky-wide entry points: the worst case over a sky grid, the payload
+/// envelope, balance (and the balanced spec), and the safest park pose.
+fn sky_calls(t: &mut Tally, rig: &Rig, u: &Unknowns, air: Air, tilt: Tilt) {
+    let grid = SkyGrid::with_step(u.shaft_angle_rad.abs().max(0.2), u.tilt_rad[0]);
+    let scan = SkyScan {
+        grid,
+        wind_directions: 12,
+        wind_speed_mps: u.gust_mps,
+        air,
+        tilt,
+    };
+    t.note(rig.sky_scan(&scan));
+    let offsets = [
+        PayloadOffset {
+            along_secondary_axis_m: u.tube_cg_m[0],
+            along_tube_m: u.tube_cg_m[1],
+        },
+        PayloadOffset {
+            along_secondary_axis_m: 0.0,
+            along_tube_m: u.tube_cg_m[2],
+        },
+    ];
+    let pick = if u.extra_bodies % 2 == 0 {
+        PayloadPick::UnderCover
+    } else {
+        PayloadPick::Body(u8::try_from(u.extra_bodies % 7).unwrap_or(0))
+    };
+    t.note(rig.payload_envelope(&grid, pick, &offsets));
+    if let (Some(balance), Some(spec)) = (t.note(rig.balance(pick)), t.note(rig_spec(u))) {
+        t.note(balance.balanced_spec(&spec));
+    }
+    let req = ParkRequest {
+        wind_from_rad: u.wind_from_rad,
+        wind_speed_mps: u.gust_mps,
+        air,
+        tilt,
+        cover_fitted: u.cover_fitted == 1,
+        scan: (u.extra_bodies % 3 == 0).then_some(grid),
+    };
+    t.note(rig.safest_park(&req, &[pose(u)]));
+}
+
+/// The guard's decision alone, on figures and a memory read at run time.
+fn transition_calls(t: &mut Tally, u: &Unknowns) {
+    let config = GuardConfig::default();
+    let thresholds = config.thresholds();
+    let figures = Figures {
+        overturning: u.gust_mps / 30.0,
+        predicted: u.gust_mps / 25.0,
+        sliding: u.mean_wind_mps / 30.0,
+        drive: (u.extra_bodies % 2 == 0).then_some([u.tilt_rad[0], u.tilt_rad[1]]),
+        tilt_margin_rad: u.shaft_angle_rad,
+        drift_rad_per_s: u.tilt_rad[1],
+    };
+    let readings = match u.mount_kind % 3 {
+        0 => Readings::Figures(figures),
+        1 => Readings::SensorFault,
+        _ => Readings::EvaluationFault,
+    };
+    let mut memory = Memory::default();
+    let mut stage = Level::ALL
+        .get(usize::try_from(u.extra_bodies % 5).unwrap_or(0))
+        .copied()
+        .unwrap_or_default();
+    for k in 0..u.guard_steps {
+        let now = Millis(u.start_ms).plus_ms(u64::from(k) * u64::from(u.sample_period_ms));
+        if k % 31 == 30 {
+            memory.acknowledge();
+        }
+        let out = transition(stage, &readings, &thresholds, memory, now);
+        (stage, memory) = (out.stage, out.memory);
+        t.ok = t.ok.saturating_add(u32::from(out.change.is_some()));
+    }
+    black_box(stage);
 }
 
 fn guard_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {

@@ -66,7 +66,7 @@ use crate::air::{celsius_to_kelvin, Air};
 use crate::error::{Error, ErrorKind};
 use crate::frame::Tilt;
 use crate::mount::Pose;
-use crate::rig::{Conditions, Rig};
+use crate::rig::{Conditions, Rig, MAX_WIND_SPEED_MPS};
 use crate::sense::{
     Check, Fault, FaultSet, MeanWind, Millis, Sensor, TiltSensor, WindDirection, WindReport,
     WindStats, FINE_BIN_MS,
@@ -183,6 +183,9 @@ pub struct Verdict {
     pub tilt: Option<Tilt>,
     /// Extra tilt that would tip the rig with no wind, radians.
     pub tilt_margin_rad: Option<f32>,
+    /// Rate of slow tilt change (a sinking leg), rad/s, any direction,
+    /// non-negative ([`TiltSensor::drift_rate_rad_per_s`]).
+    pub tilt_drift_rad_per_s: f32,
     /// The pose the figures are for.
     pub pose: Pose,
     /// With a park request: the safest park pose for the present wind (the
@@ -195,6 +198,10 @@ pub struct Verdict {
     /// Events of this step that did not fit in `events` (the newest are the
     /// ones lost); 0 normally.
     pub events_lost: u16,
+    /// True when this step evaluated the physics (the figures are fresh);
+    /// false when they come from an earlier step (module docs, "When the
+    /// physics runs").
+    pub evaluated: bool,
 }
 
 /// The events of one step, counting those that do not fit.
@@ -441,6 +448,7 @@ impl<'r> Guard<'r> {
             wind_from_rad: fig.from_rad,
             tilt: self.tilt.tilt(),
             tilt_margin_rad: fig.tilt_margin_rad,
+            tilt_drift_rad_per_s: fig.drift_rad_per_s,
             pose: self.pose,
             park_pose: if self.stage.park_requested() {
                 self.park_pose
@@ -450,6 +458,7 @@ impl<'r> Guard<'r> {
             faults,
             events: events.events,
             events_lost: events.lost,
+            evaluated: due,
         }
     }
 
@@ -680,7 +689,12 @@ impl<'r> Guard<'r> {
                 .rig
                 .axis_loads(&c, mean)
                 .ok()
-                .and_then(|l| Some([l.primary.utilisation?.governing, l.secondary.utilisation?.governing]))
+                .and_then(|l| {
+                    Some([
+                        l.primary.utilisation?.governing,
+                        l.secondary.utilisation?.governing,
+                    ])
+                })
                 .filter(|d| d.iter().all(|u| u.is_finite()));
             if f.drive.is_none() {
                 faults.push(unevaluable(Check::Drive));
@@ -692,11 +706,14 @@ impl<'r> Guard<'r> {
     /// The safest park pose for the predicted gust from `from_rad`: among the
     /// home pose and the configured park poses, the one whose highest
     /// utilisation (overturning, or either drive) is lowest
-    /// ([`Rig::safest_park`]); a park-pose fault when the search fails.
+    /// ([`Rig::safest_park`]); a park-pose fault when the search fails. A
+    /// predicted gust beyond the model's [`MAX_WIND_SPEED_MPS`] is searched
+    /// at that speed: every pose is far past tipping there, and the ranking
+    /// only picks the least bad.
     fn safest_park_pose(&self, speed_mps: f32, from_rad: f32) -> Result<Pose, Fault> {
         let req = ParkRequest {
             wind_from_rad: from_rad,
-            wind_speed_mps: speed_mps,
+            wind_speed_mps: speed_mps.min(MAX_WIND_SPEED_MPS),
             air: self.air,
             tilt: self.tilt.tilt().unwrap_or(Tilt::LEVEL),
             cover_fitted: self.cover_fitted,

@@ -454,3 +454,6 @@ pub fn transition(
     };
     change(to, cause, m)
 }
+
+#[cfg(test)]
+mod tests;

@@ -285,7 +285,10 @@ impl fmt::Display for Fault {
             ),
             Fault::NoReading { sensor } => write!(f, "{sensor}: no usable reading yet"),
             Fault::NotInRig { sensor } => {
-                write!(f, "{sensor}: names a part the rig description does not have")
+                write!(
+                    f,
+                    "{sensor}: names a part the rig description does not have"
+                )
             }
             Fault::Unevaluable { check } => {
                 write!(f, "stability model: {} could not be computed", check.code())

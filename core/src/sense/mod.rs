@@ -16,7 +16,9 @@
 //! **Faults.** Each processor rejects bad samples with a [`Fault`] value and
 //! reports lasting conditions (stale, stuck, out of band, tilt step) through a
 //! [`FaultSet`] from its `faults(now)` method. A caller must treat any fault as
-//! unsafe: the statistics of a faulty sensor are not to be trusted.
+//! unsafe: the statistics of a faulty sensor are not to be trusted. The same
+//! [`Fault`] type carries the guard's faults of its other inputs (pose, cover,
+//! air, clock) and of its own evaluation ([`Fault::Unevaluable`]).
 //!
 //! **Caution.** These are estimates from simple filters. Secure the rig anyway,
 //! stay inside the mount maker's limits and defer to local codes and licensed

@@ -55,18 +55,31 @@ impl<'r> Run<'r> {
             faults: Vec::new(),
             first_park_s: None,
         };
-        assert_eq!(r.guard.stage(), Stage::SensorFault, "a guard starts unable to see");
+        assert_eq!(
+            r.guard.stage(),
+            Stage::SensorFault,
+            "a guard starts unable to see"
+        );
         r.run(-WARM_UP_S, 0.0, |_| Some(speed_mps), true);
         assert!(
             matches!(
                 r.faults.first(),
-                Some((_, Fault::NoReading { sensor: Sensor::WindSpeed }))
+                Some((
+                    _,
+                    Fault::NoReading {
+                        sensor: Sensor::WindSpeed
+                    }
+                ))
             ),
             "{:?}",
             r.faults
         );
         let c = r.changes.first().expect("left sensor_fault");
-        assert_eq!((c.1, c.3), (Stage::SensorFault, Cause::FaultCleared), "{c:?}");
+        assert_eq!(
+            (c.1, c.3),
+            (Stage::SensorFault, Cause::FaultCleared),
+            "{c:?}"
+        );
         assert!(c.2 >= Stage::Watch, "{c:?}");
         // The first gust after 3 s of samples, then the clear time.
         assert!((c.0 + WARM_UP_S - 3.0 - clear_s).abs() <= 0.2, "{c:?}");
@@ -139,7 +152,10 @@ fn guard_starts_unable_to_see() {
         let v = g.step(Millis(k * 100), &inputs);
         if k == 0 {
             assert!(v.stage.park_requested() && v.stage.alarm());
-            assert!(v.faults.any(|f| f == &Fault::NoReading { sensor: Sensor::WindSpeed }));
+            assert!(v.faults.any(|f| f
+                == &Fault::NoReading {
+                    sensor: Sensor::WindSpeed
+                }));
             assert_eq!(v.overturning_utilisation, None, "no figure before a gust");
         }
         for e in &v.events {
@@ -151,10 +167,16 @@ fn guard_starts_unable_to_see() {
     }
     assert_eq!(changes.len(), 2, "{changes:?}");
     let (t0, t1) = (changes[0].0, changes[1].0);
-    assert_eq!(&changes[0].1..=&changes[0].2, &Stage::SensorFault..=&Stage::Watch);
+    assert_eq!(
+        &changes[0].1..=&changes[0].2,
+        &Stage::SensorFault..=&Stage::Watch
+    );
     assert_eq!(changes[0].3, Cause::FaultCleared);
     assert!((t0 - 3.0 - cfg.fault_clear_s).abs() <= 0.2, "{changes:?}");
-    assert_eq!((changes[1].1, changes[1].2, changes[1].3), (Stage::Watch, Stage::Clear, Cause::Settled));
+    assert_eq!(
+        (changes[1].1, changes[1].2, changes[1].3),
+        (Stage::Watch, Stage::Clear, Cause::Settled)
+    );
     assert!((t1 - 3.0 - cfg.dwell_s).abs() <= 0.2, "{changes:?}");
 }
 

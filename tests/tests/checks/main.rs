@@ -2,9 +2,11 @@
 
 mod air;
 mod backends;
-mod fixtures;
+use standfast_checks::fixtures;
 mod frame;
 mod guard;
+mod guard_failsafe;
+mod guard_props;
 mod hardware;
 mod mount;
 mod sense;

@@ -1,0 +1,378 @@
+//! The transition table, enumerated: every level against every condition,
+//! with the expected outcome written out by hand from the table in the
+//! module docs (not computed by the code under test).
+
+use super::*;
+
+/// The default thresholds (`GuardConfig::default`): watch 0.5, park 0.75,
+/// alarm 0.9, drive park 1.0, clear ratio 0.8, tilt alarm 5°, drift watch
+/// 0.5°/h, dwell 600 s, fault clear 60 s.
+fn t() -> Thresholds {
+    Thresholds {
+        watch_utilisation: 0.5,
+        park_utilisation: 0.75,
+        alarm_utilisation: 0.9,
+        drive_park_utilisation: 1.0,
+        clear_ratio: 0.8,
+        tilt_margin_alarm_rad: 0.087_266_46,
+        drift_watch_rad_per_s: 2.424e-6,
+        dwell_ms: 600_000,
+        fault_clear_ms: 60_000,
+    }
+}
+
+fn calm() -> Figures {
+    Figures {
+        overturning: 0.1,
+        predicted: 0.1,
+        sliding: 0.1,
+        drive: Some([0.1, 0.1]),
+        tilt_margin_rad: 0.5,
+        drift_rad_per_s: 0.0,
+    }
+}
+
+/// The conditions of the table: a name and the readings.
+fn conditions() -> [(&'static str, Readings); 15] {
+    let f = |g: fn(&mut Figures)| {
+        let mut x = calm();
+        g(&mut x);
+        Readings::Figures(x)
+    };
+    [
+        ("calm", f(|_| {})),
+        // In the watch band: below 0.5, not below 0.8 × 0.5.
+        ("watch band", f(|x| x.predicted = 0.45)),
+        ("watch predicted", f(|x| x.predicted = 0.55)),
+        ("watch sliding", f(|x| x.sliding = 0.6)),
+        ("watch drift", f(|x| x.drift_rad_per_s = 1e-5)),
+        // In the park band of a drive: below 1.0, not below 0.8.
+        ("park band", f(|x| x.drive = Some([0.1, 0.9]))),
+        ("park predicted", f(|x| x.predicted = 0.8)),
+        ("park drive", f(|x| x.drive = Some([1.2, 0.1]))),
+        ("alarm overturning", f(|x| x.overturning = 0.95)),
+        ("alarm sliding", f(|x| x.sliding = 0.95)),
+        ("alarm tilt", f(|x| x.tilt_margin_rad = 0.05)),
+        // In the alarm band: below 0.9, not below 0.72.
+        ("alarm band", f(|x| x.overturning = 0.8)),
+        ("sensor fault", Readings::SensorFault),
+        ("evaluation fault", Readings::EvaluationFault),
+        ("not finite", f(|x| x.overturning = f32::NAN)),
+    ]
+}
+
+use Cause as C;
+use Stage::{Alarm as A, Clear as Cl, ParkNow as P, SensorFault as F, Watch as W};
+
+/// Expected (next level, cause when it changes) for each condition, from a
+/// memory in which the figures have been trusted and settled below every
+/// level for an hour (the step's own figures then decide which timers
+/// survive) and no latch. Rows: conditions in the order above; columns: the
+/// present level clear, watch, park_now, alarm, sensor_fault.
+const SETTLED: [[(Stage, Option<Cause>); 5]; 15] = [
+    // calm: everything settled, so every step down goes all the way.
+    [
+        (Cl, None),
+        (Cl, Some(C::Settled)),
+        (Cl, Some(C::Settled)),
+        (Cl, Some(C::Settled)),
+        (W, Some(C::FaultCleared)),
+    ],
+    // watch band: settled below park and alarm, not below watch.
+    [
+        (Cl, None),
+        (W, None),
+        (W, Some(C::Settled)),
+        (W, Some(C::Settled)),
+        (W, Some(C::FaultCleared)),
+    ],
+    // watch predicted.
+    [
+        (W, Some(C::PredictedOverturning)),
+        (W, None),
+        (W, Some(C::Settled)),
+        (W, Some(C::Settled)),
+        (W, Some(C::FaultCleared)),
+    ],
+    // watch sliding.
+    [
+        (W, Some(C::Sliding)),
+        (W, None),
+        (W, Some(C::Settled)),
+        (W, Some(C::Settled)),
+        (W, Some(C::FaultCleared)),
+    ],
+    // watch drift.
+    [
+        (W, Some(C::TiltDrift)),
+        (W, None),
+        (W, Some(C::Settled)),
+        (W, Some(C::Settled)),
+        (W, Some(C::FaultCleared)),
+    ],
+    // park band: wanted clear, but not settled below park.
+    [
+        (Cl, None),
+        (Cl, Some(C::Settled)),
+        (P, None),
+        (P, Some(C::Settled)),
+        (W, Some(C::FaultCleared)),
+    ],
+    // park predicted.
+    [
+        (P, Some(C::PredictedOverturning)),
+        (P, Some(C::PredictedOverturning)),
+        (P, None),
+        (P, Some(C::Settled)),
+        (P, Some(C::FaultCleared)),
+    ],
+    // park drive.
+    [
+        (P, Some(C::Drive)),
+        (P, Some(C::Drive)),
+        (P, None),
+        (P, Some(C::Settled)),
+        (P, Some(C::FaultCleared)),
+    ],
+    // alarm overturning.
+    [
+        (A, Some(C::Overturning)),
+        (A, Some(C::Overturning)),
+        (A, Some(C::Overturning)),
+        (A, None),
+        (A, Some(C::FaultCleared)),
+    ],
+    // alarm sliding.
+    [
+        (A, Some(C::Sliding)),
+        (A, Some(C::Sliding)),
+        (A, Some(C::Sliding)),
+        (A, None),
+        (A, Some(C::FaultCleared)),
+    ],
+    // alarm tilt.
+    [
+        (A, Some(C::TiltMargin)),
+        (A, Some(C::TiltMargin)),
+        (A, Some(C::TiltMargin)),
+        (A, None),
+        (A, Some(C::FaultCleared)),
+    ],
+    // alarm band: wanted clear, not settled below alarm.
+    [
+        (Cl, None),
+        (Cl, Some(C::Settled)),
+        (Cl, Some(C::Settled)),
+        (A, None),
+        (W, Some(C::FaultCleared)),
+    ],
+    // sensor fault.
+    [
+        (F, Some(C::SensorFault)),
+        (F, Some(C::SensorFault)),
+        (F, Some(C::SensorFault)),
+        (F, Some(C::SensorFault)),
+        (F, None),
+    ],
+    // evaluation fault.
+    [
+        (F, Some(C::EvaluationFault)),
+        (F, Some(C::EvaluationFault)),
+        (F, Some(C::EvaluationFault)),
+        (F, Some(C::EvaluationFault)),
+        (F, None),
+    ],
+    // not finite: an evaluation fault.
+    [
+        (F, Some(C::EvaluationFault)),
+        (F, Some(C::EvaluationFault)),
+        (F, Some(C::EvaluationFault)),
+        (F, Some(C::EvaluationFault)),
+        (F, None),
+    ],
+];
+
+const HOUR_MS: u64 = 3_600_000;
+
+fn settled_memory() -> Memory {
+    Memory {
+        settled_since: [Some(Millis(0)); 3],
+        healthy_since: Some(Millis(0)),
+        latched: false,
+        acknowledged: false,
+    }
+}
+
+#[test]
+fn every_level_against_every_condition() {
+    let t = t();
+    for (row, (name, readings)) in conditions().iter().enumerate() {
+        for (col, &level) in Stage::ALL.iter().enumerate() {
+            let out = transition(level, readings, &t, settled_memory(), Millis(HOUR_MS));
+            let (to, cause) = SETTLED[row][col];
+            assert_eq!(out.stage, to, "{name} at {level:?}");
+            assert_eq!(out.change.map(|c| c.cause), cause, "{name} at {level:?}");
+            if let Some(c) = out.change {
+                assert_eq!((c.from, c.to), (level, to), "{name} at {level:?}");
+            }
+            // An alarm entered latches; nothing else does.
+            assert_eq!(
+                out.memory.latched,
+                to == A && level != A,
+                "{name} at {level:?}"
+            );
+        }
+    }
+}
+
+/// With fresh timers (nothing settled before this step) no level steps down,
+/// and a sensor fault that only just cleared holds; escalation is the same.
+#[test]
+fn no_step_down_without_the_dwell() {
+    let t = t();
+    let fresh = Memory {
+        healthy_since: Some(Millis(HOUR_MS - 1)),
+        ..Memory::default()
+    };
+    for (row, (name, readings)) in conditions().iter().enumerate() {
+        for (col, &level) in Stage::ALL.iter().enumerate() {
+            let out = transition(level, readings, &t, fresh, Millis(HOUR_MS));
+            let (to, _) = SETTLED[row][col];
+            let expected = if to > level || to == F { to } else { level };
+            assert_eq!(out.stage, expected, "{name} at {level:?}");
+        }
+    }
+}
+
+/// A latched alarm holds on every condition but a fault, and a fault that
+/// clears returns to the alarm, not below.
+#[test]
+fn a_latched_alarm_holds() {
+    let t = t();
+    let latched = Memory {
+        latched: true,
+        ..settled_memory()
+    };
+    for (name, readings) in conditions() {
+        let fault = matches!(readings, Readings::SensorFault | Readings::EvaluationFault)
+            || name == "not finite";
+        let out = transition(A, &readings, &t, latched, Millis(HOUR_MS));
+        assert_eq!(out.stage, if fault { F } else { A }, "{name}");
+        assert!(out.memory.latched, "{name}");
+        let out = transition(F, &readings, &t, latched, Millis(HOUR_MS));
+        assert_eq!(out.stage, if fault { F } else { A }, "{name}");
+    }
+}
+
+/// The first step after an acknowledgement that steps down is caused
+/// `acknowledged`; the flag is spent by that step.
+#[test]
+fn acknowledgement_is_the_cause_of_the_step_down() {
+    let t = t();
+    let mut m = Memory {
+        latched: true,
+        ..settled_memory()
+    };
+    let calm = Readings::Figures(calm());
+    assert_eq!(transition(A, &calm, &t, m, Millis(HOUR_MS)).stage, A);
+    m.acknowledge();
+    let out = transition(A, &calm, &t, m, Millis(HOUR_MS));
+    assert_eq!(out.stage, Cl);
+    assert_eq!(out.change.map(|c| c.cause), Some(C::Acknowledged));
+    assert!(!out.memory.acknowledged && !out.memory.latched);
+}
+
+/// Hysteresis across levels (regression): a drive at 0.90 of its rating,
+/// inside the 0.8 band of park, keeps `park_now` however long it lasts, and
+/// a tilt margin inside the band of the alarm keeps `alarm`, though the
+/// wanted level is clear in both cases.
+#[test]
+fn a_figure_in_a_band_holds_every_level_above_it() {
+    let t = t();
+    let mut drive = calm();
+    drive.drive = Some([0.9, 0.0]);
+    let mut m = settled_memory();
+    let mut level = P;
+    for k in 0..100 {
+        let out = transition(level, &Readings::Figures(drive), &t, m, Millis(k * 60_000));
+        (level, m) = (out.stage, out.memory);
+    }
+    assert_eq!(level, P);
+    let mut tilt = calm();
+    // 0.1 rad: above the 0.0873 rad alarm margin, below 0.0873 / 0.8.
+    tilt.tilt_margin_rad = 0.1;
+    let mut m = settled_memory();
+    let mut level = A;
+    for k in 0..100 {
+        let out = transition(level, &Readings::Figures(tilt), &t, m, Millis(k * 60_000));
+        (level, m) = (out.stage, out.memory);
+    }
+    assert_eq!(level, A);
+}
+
+/// A fault restarts the dwell: figures settled for an hour, a one-step
+/// fault, then `fault_clear_ms` to watch and a whole new dwell to clear.
+#[test]
+fn a_fault_restarts_every_timer() {
+    let t = t();
+    let calm = Readings::Figures(calm());
+    let out = transition(
+        W,
+        &Readings::SensorFault,
+        &t,
+        settled_memory(),
+        Millis(HOUR_MS),
+    );
+    assert_eq!(out.memory, Memory::default());
+    let mut m = out.memory;
+    let mut level = out.stage;
+    let mut changes = [None; 2];
+    let mut n = 0;
+    for k in 1..=700 {
+        let now = Millis(HOUR_MS + k * 1000);
+        let out = transition(level, &calm, &t, m, now);
+        if let (Some(c), Some(slot)) = (out.change, changes.get_mut(n)) {
+            *slot = Some((now.0 - HOUR_MS, c.to, c.cause));
+            n += 1;
+        }
+        (level, m) = (out.stage, out.memory);
+    }
+    assert_eq!(
+        changes,
+        [
+            Some((61_000, W, C::FaultCleared)),
+            Some((601_000, Cl, C::Settled))
+        ]
+    );
+}
+
+#[test]
+fn names_are_snake_case_and_distinct() {
+    let causes = [
+        C::Overturning,
+        C::PredictedOverturning,
+        C::Sliding,
+        C::Drive,
+        C::TiltMargin,
+        C::TiltDrift,
+        C::SensorFault,
+        C::EvaluationFault,
+        C::Settled,
+        C::FaultCleared,
+        C::Acknowledged,
+    ];
+    for (i, a) in causes.iter().enumerate() {
+        assert!(a
+            .name()
+            .bytes()
+            .all(|b| b.is_ascii_lowercase() || b == b'_'));
+        for b in causes.iter().skip(i + 1) {
+            assert_ne!(a.name(), b.name());
+        }
+    }
+    let names = Stage::ALL.map(Stage::name);
+    assert_eq!(
+        names,
+        ["clear", "watch", "park_now", "alarm", "sensor_fault"]
+    );
+}

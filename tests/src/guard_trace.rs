@@ -1,0 +1,195 @@
+//! Runs a guard over a trace of steps and checks, at every step, the rules of
+//! `standfast::guard::transition` (its module docs are the reference):
+//! 1. never below the wanted level with trusted figures, so never below
+//!    `park_now` while a present figure is at or above its park or alarm
+//!    threshold;
+//! 2. never a step down while a figure is not settled below a level being
+//!    left (`clear_ratio` × its threshold);
+//! 3. a sample marked bad, or a reversed clock, raises a fault in the same
+//!    step;
+//! 4. any fault puts the guard in `sensor_fault`; park is asserted exactly
+//!    from `park_now` up, and then a park pose is given;
+//! 5. an alarm latches until acknowledged (a fault that clears returns to it);
+//! 6. no figure is NaN; events beyond capacity are counted.
+//!
+//! Used by the property tests (`tests/checks/guard_props.rs`) and the fuzz
+//! target `guard_step` (`core/fuzz`).
+
+use crate::fixtures::{altaz, post_rig};
+use standfast::drive::{DriveRating, Drives};
+use standfast::guard::transition::{settled_below, wanted, Figures};
+use standfast::guard::{Event, Guard, GuardConfig, Inputs, Stage, Verdict};
+use standfast::rig::{BodySpec, Rig, Stage as MountStage};
+use standfast::sense::Millis;
+use standfast::support::Support;
+
+/// The trace rig: a tripod with a 40 kg post and a tube on weak drives (rated 6 N·m), so
+/// that moderate winds reach every level, drives included.
+pub fn rig() -> Rig {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let mut spec = post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5);
+    spec.bodies
+        .push(BodySpec {
+            stage: MountStage::Secondary,
+            mass_kg: 2.0,
+            cg_m: [0.0, 0.1, 0.0],
+            ..BodySpec::default()
+        })
+        .unwrap();
+    let r = DriveRating {
+        rated_nm: 6.0,
+        repeated_peak_nm: 10.0,
+        momentary_peak_nm: 15.0,
+    };
+    spec.drives = Some(Drives {
+        primary: r,
+        secondary: r,
+        slew_acceleration_rad_s2: 0.0,
+    });
+    Rig::new(&spec).unwrap()
+}
+
+/// Short times so that a trace of a few minutes walks through step-downs:
+/// dwell 20 s, fault clear 5 s, park 10 s, evaluation every second.
+pub fn config() -> GuardConfig {
+    let mut c = GuardConfig {
+        assumed_pose: Some(altaz(0.0, 30.0)),
+        dwell_s: 20.0,
+        fault_clear_s: 5.0,
+        time_to_park_s: 10.0,
+        ..GuardConfig::default()
+    };
+    c.wind.stale_after_s = 5.0;
+    c.wind.stuck_after_s = 60.0;
+    c
+}
+
+/// One step of a trace.
+#[derive(Clone, Debug)]
+pub struct Step {
+    /// Milliseconds forward from the previous step; negative: the clock goes
+    /// back.
+    pub dt_ms: i64,
+    /// The samples of the step.
+    pub inputs: Inputs,
+    /// Acknowledge the alarm before the step.
+    pub acknowledge: bool,
+    /// A sample in `inputs` is one the guard must refuse (NaN, infinite, out
+    /// of range, a cover on a rig without one). Only what the caller knows
+    /// to be bad needs marking; unmarked bad samples are not checked by
+    /// rule 3.
+    pub bad: bool,
+}
+
+/// The figures of a verdict as the decision reads them, when all present.
+#[must_use]
+pub fn figures(v: &Verdict) -> Option<Figures> {
+    Some(Figures {
+        overturning: v.overturning_utilisation?,
+        predicted: v.predicted_utilisation?,
+        sliding: v.sliding_utilisation?,
+        drive: v.drive_utilisation,
+        tilt_margin_rad: v.tilt_margin_rad?,
+        drift_rad_per_s: v.tilt_drift_rad_per_s,
+    })
+}
+
+/// Starts a guard on `rig` with `config` at 1,000 s and runs `trace`,
+/// checking the rules at every step.
+///
+/// # Errors
+/// The first broken rule, with the step and the verdict.
+///
+/// # Panics
+/// When `config` is invalid for `rig`.
+pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(), String> {
+    let t = config.thresholds();
+    let mut guard = Guard::new(rig, config, Millis(1_000_000)).expect("a valid configuration");
+    if guard.stage() != Stage::SensorFault {
+        return Err("a new guard must start in sensor_fault".to_owned());
+    }
+    let mut now: i64 = 1_000_000;
+    let mut last_now = now;
+    let mut latched = false;
+    for (i, s) in trace.iter().enumerate() {
+        if s.acknowledge {
+            guard.acknowledge();
+            latched = false;
+        }
+        now = now.saturating_add(s.dt_ms).clamp(0, i64::MAX / 2);
+        let reversed = now < last_now;
+        let before = guard.stage();
+        let v = guard.step(Millis(u64::try_from(now).unwrap_or(0)), &s.inputs);
+        last_now = last_now.max(now);
+        let fail = |what: &str| Err(format!("step {i}: {what}\nstep: {s:?}\nverdict: {v:?}"));
+
+        // 6.
+        let shown = [
+            v.overturning_utilisation,
+            v.predicted_utilisation,
+            v.sliding_utilisation,
+            v.tip_wind_mps,
+            v.gust_mps,
+            v.predicted_gust_mps,
+            v.tilt_margin_rad,
+            Some(v.tilt_drift_rad_per_s),
+        ];
+        if shown.iter().flatten().any(|x| x.is_nan()) {
+            return fail("a NaN figure");
+        }
+        if v.events_lost > 0 && v.events.len() != v.events.capacity() {
+            return fail("events lost while slots were free");
+        }
+        // 3.
+        if (s.bad || reversed) && v.faults.is_empty() {
+            return fail("a bad sample or a reversed clock raised no fault");
+        }
+        // 4.
+        if !v.faults.is_empty() && v.stage != Stage::SensorFault {
+            return fail("a fault outside sensor_fault");
+        }
+        if v.park_pose.is_some() != v.stage.park_requested() {
+            return fail("a park request without a park pose, or the reverse");
+        }
+        // 1.
+        if v.faults.is_empty() {
+            let Some(f) = figures(&v) else {
+                return fail("no fault, yet figures are missing");
+            };
+            if v.stage < wanted(&f, &t).0 {
+                return fail("below the wanted level");
+            }
+        }
+        // 2. and 5.
+        for e in &v.events {
+            let Event::StageChanged { from, to, .. } = *e else {
+                continue;
+            };
+            if from != before {
+                return fail("a change from a level the guard was not at");
+            }
+            if to < from && from != Stage::SensorFault {
+                if latched {
+                    return fail("a latched alarm stepped down");
+                }
+                let Some(f) = figures(&v) else {
+                    return fail("a step down without figures");
+                };
+                let left = Stage::ALL.into_iter().filter(|l| *l > to && *l <= from);
+                if left.clone().any(|l| !settled_below(l, &f, &t)) {
+                    return fail("a step down with a figure in the band of a level left");
+                }
+            }
+            if latched && from == Stage::SensorFault && to < Stage::Alarm {
+                return fail("a fault cleared below a latched alarm");
+            }
+        }
+        if v.stage == Stage::Alarm && before != Stage::Alarm {
+            latched = true;
+        }
+        if latched && v.stage < Stage::Alarm {
+            return fail("a latched alarm left without acknowledgement");
+        }
+    }
+    Ok(())
+}

@@ -1,0 +1,318 @@
+//! The guard fails safe: one regression test for each way an earlier guard
+//! reported `clear` (or a wrong cause) when it could not judge the rig. The
+//! rig is the tripod of `guard.rs` (utilisation (V / 21.9)² with the wind
+//! toward an edge). Expected behaviour: the rules of
+//! `standfast::guard` ("Fail safe") and `standfast::guard::transition`.
+
+use crate::fixtures::{altaz, post_rig};
+use standfast::guard::{
+    AirSample, Cause, Event, Guard, GuardConfig, Inputs, Stage, Verdict, WindSample, MAX_EVENTS,
+};
+use standfast::rig::{Rig, MAX_WIND_SPEED_MPS};
+use standfast::sense::{Fault, Millis, Sensor};
+use standfast::support::Support;
+
+fn rig() -> Rig {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap()
+}
+
+/// Short times: dwell 20 s, fault clear 5 s.
+fn config() -> GuardConfig {
+    GuardConfig {
+        assumed_pose: Some(altaz(0.0, 0.0)),
+        dwell_s: 20.0,
+        fault_clear_s: 5.0,
+        ..GuardConfig::default()
+    }
+}
+
+/// Samples of step `k` (10 Hz): a level accelerometer with a little noise,
+/// and a wind sample of `speed_mps` from about north every second.
+fn samples(k: u64, speed_mps: f32) -> Inputs {
+    Inputs {
+        accel_raw: Some([0.0, 0.0, 1.0 + 1e-4 * ((k % 7) as f32)]),
+        wind: (k % 10 == 0).then_some(WindSample {
+            speed_mps: speed_mps * (1.0 + 0.01 * ((k / 10 % 3) as f32)),
+            from_rad: Some(0.01 * ((k / 10 % 5) as f32)),
+        }),
+        ..Inputs::default()
+    }
+}
+
+/// Runs steps `k0..k1` at 10 Hz in `speed_mps`, with `extra` applied to each
+/// step's inputs; returns the verdicts.
+fn run(
+    g: &mut Guard<'_>,
+    k0: u64,
+    k1: u64,
+    speed_mps: f32,
+    extra: impl Fn(&mut Inputs),
+) -> Vec<Verdict> {
+    (k0..k1)
+        .map(|k| {
+            let mut i = samples(k, speed_mps);
+            extra(&mut i);
+            g.step(Millis(k * 100), &i)
+        })
+        .collect()
+}
+
+/// A guard brought to `clear` in calm air (5 s fault clear, 20 s dwell).
+fn settled(rig: &Rig) -> Guard<'_> {
+    let mut g = Guard::new(rig, config(), Millis(0)).unwrap();
+    run(&mut g, 0, 400, 3.0, |_| {});
+    assert_eq!(g.stage(), Stage::Clear);
+    g
+}
+
+fn changes(vs: &[Verdict]) -> Vec<(Stage, Stage, Cause)> {
+    vs.iter()
+        .flat_map(|v| v.events.iter())
+        .filter_map(|e| match *e {
+            Event::StageChanged { from, to, cause } => Some((from, to, cause)),
+            _ => None,
+        })
+        .collect()
+}
+
+/// Case 1: a wind the physics cannot evaluate. A configuration whose
+/// anemometer accepts more than the model's 100 m/s at rig height is refused
+/// at construction, naming the limit; with the limit inside the model, every
+/// accepted sample gives figures (at the limit: far beyond tipping, alarm),
+/// and a sample beyond it is a fault, never `clear`.
+#[test]
+fn a_wind_beyond_the_model_is_never_clear() {
+    let rig = rig();
+    let mut cfg = config();
+    cfg.wind.max_speed_mps = 150.0;
+    cfg.wind.anemometer_height_m = 2.0;
+    cfg.wind.rig_height_m = 2.0;
+    let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
+    assert_eq!(e.field, "guard.wind.max_speed_mps");
+    assert_eq!((e.value, e.max), (150.0, MAX_WIND_SPEED_MPS));
+
+    cfg.wind.max_speed_mps = MAX_WIND_SPEED_MPS;
+    let mut g = Guard::new(&rig, cfg, Millis(0)).unwrap();
+    let vs = run(&mut g, 0, 300, 97.0, |_| {});
+    let v = vs.last().unwrap();
+    assert!(v.faults.is_empty(), "{:?}", v.faults);
+    assert!(v.overturning_utilisation.unwrap() > 1.0);
+    assert!(
+        v.predicted_utilisation.unwrap() > 1.0,
+        "predicted gust beyond 100 m/s still evaluated"
+    );
+    assert_eq!(v.stage, Stage::Alarm);
+
+    let mut g = settled(&rig);
+    let vs = run(&mut g, 400, 420, 120.0, |_| {});
+    let v = vs.last().unwrap();
+    assert!(v.faults.any(|f| matches!(
+        f,
+        Fault::OutOfRange {
+            sensor: Sensor::WindSpeed,
+            ..
+        }
+    )));
+    assert_eq!(v.stage, Stage::SensorFault);
+}
+
+/// Case 2: rejected pose, air and cover samples are faults of their input in
+/// the same step, with an event, not silently dropped.
+#[test]
+fn rejected_pose_air_and_cover_samples_are_faults() {
+    let rig = rig();
+    type Bad = fn(&mut Inputs);
+    let cases: [(Bad, Fault); 4] = [
+        (
+            |i| i.pose = Some(altaz(f32::NAN, 20.0)),
+            Fault::NotFinite {
+                sensor: Sensor::MountPose,
+            },
+        ),
+        (
+            |i| {
+                i.air = Some(AirSample {
+                    temperature_c: f32::NAN,
+                    pressure_pa: 101_325.0,
+                })
+            },
+            Fault::NotFinite {
+                sensor: Sensor::Air,
+            },
+        ),
+        (
+            |i| {
+                i.air = Some(AirSample {
+                    temperature_c: 15.0,
+                    pressure_pa: 5.0,
+                })
+            },
+            Fault::OutOfRange {
+                sensor: Sensor::Air,
+                value: 5.0,
+            },
+        ),
+        (
+            |i| i.cover_fitted = Some(true),
+            Fault::NotInRig {
+                sensor: Sensor::Cover,
+            },
+        ),
+    ];
+    for (bad, expected) in cases {
+        let mut g = settled(&rig);
+        let mut i = samples(400, 3.0);
+        bad(&mut i);
+        let v = g.step(Millis(40_000), &i);
+        assert_eq!(v.stage, Stage::SensorFault, "{expected:?}");
+        assert!(v.faults.any(|f| f.same_class(&expected)), "{:?}", v.faults);
+        assert!(
+            v.events.contains(&Event::FaultRaised(
+                v.faults.iter().find(|f| f.same_class(&expected)).unwrap()
+            )),
+            "{:?}",
+            v.events
+        );
+        assert!(changes(std::slice::from_ref(&v)).contains(&(
+            Stage::Clear,
+            Stage::SensorFault,
+            Cause::SensorFault
+        )));
+    }
+}
+
+/// A clock that goes back is a fault of the clock, and that step's samples
+/// are not used.
+#[test]
+fn a_reversed_clock_is_a_fault() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let v = g.step(Millis(30_000), &samples(300, 3.0));
+    assert!(v.faults.any(|f| *f
+        == Fault::TimeReversed {
+            sensor: Sensor::Clock
+        }));
+    assert_eq!((v.stage, v.now), (Stage::SensorFault, Millis(39_900)));
+}
+
+/// Case 3: hysteresis across levels. A spell that parks (predicted ≥ 0.75),
+/// then a wind whose predicted utilisation sits in the band of park (at or
+/// above 0.8 × 0.75 = 0.6, below the 0.75 park threshold): the guard does
+/// not step past park_now to clear or watch however long it lasts; once the
+/// wind drops below the band it steps down, after the dwell.
+#[test]
+fn no_step_down_past_a_band() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let vs = run(&mut g, 400, 700, 19.0, |_| {});
+    assert_eq!(
+        vs.last().unwrap().stage,
+        Stage::ParkNow,
+        "{:?}",
+        changes(&vs)
+    );
+    // 16.3 m/s: predicted (16.3 × 1.15 / 21.9)² ≈ 0.73 after the 19 m/s peak
+    // has left the 600 s window.
+    let vs = run(&mut g, 700, 9_000, 15.6, |_| {});
+    let last = vs.last().unwrap();
+    let p = last.predicted_utilisation.unwrap();
+    assert!((0.6..0.75).contains(&p), "predicted {p}");
+    assert_eq!(last.stage, Stage::ParkNow, "{:?}", changes(&vs));
+}
+
+/// Case 4: a watch raised by sliding says so.
+#[test]
+fn a_watch_from_sliding_is_caused_by_sliding() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    // Friction 0.05 on ice: sliding governs long before tipping.
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.05)).unwrap();
+    let mut g = Guard::new(&rig, config(), Millis(0)).unwrap();
+    run(&mut g, 0, 400, 1.0, |_| {});
+    assert_eq!(g.stage(), Stage::Clear);
+    // 10 m/s: sliding 0.613·V²·0.222 / (0.05·40·9.81) ≈ 0.7 at the gust,
+    // predicted overturning about (1.15·V / 21.9)² ≈ 0.3.
+    let vs = run(&mut g, 400, 600, 10.0, |_| {});
+    let c = changes(&vs);
+    let v = vs.last().unwrap();
+    assert!(v.sliding_utilisation.unwrap() >= 0.5);
+    assert!(v.predicted_utilisation.unwrap() < 0.5);
+    assert_eq!(
+        c.first(),
+        Some(&(Stage::Clear, Stage::Watch, Cause::Sliding)),
+        "{c:?}"
+    );
+}
+
+/// Case 5: events that do not fit are counted, not dropped silently. After
+/// a 20 s silence, a step whose accelerometer sample shows the rig thrown
+/// over (53°) and whose every other input is bad raises eight faults (tilt
+/// step, tilt beyond the model and so no tilt reading, wind speed, wind
+/// direction stale, pose, cover, air) and a stage change: nine events for
+/// eight slots.
+#[test]
+fn events_beyond_capacity_are_counted() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let i = Inputs {
+        accel_raw: Some([0.8, 0.0, 0.6]),
+        wind: Some(WindSample {
+            speed_mps: f32::NAN,
+            from_rad: None,
+        }),
+        pose: Some(altaz(f32::NAN, 0.0)),
+        cover_fitted: Some(true),
+        air: Some(AirSample {
+            temperature_c: f32::NAN,
+            pressure_pa: f32::NAN,
+        }),
+    };
+    let v = g.step(Millis(60_000), &i);
+    assert_eq!(v.events.len(), MAX_EVENTS);
+    assert_eq!(v.events_lost, 1, "{:?} {:?}", v.events, v.faults);
+    assert_eq!(v.stage, Stage::SensorFault);
+}
+
+/// Case 6: the evaluation period is validated like every other field.
+#[test]
+fn the_evaluation_period_is_validated() {
+    let rig = rig();
+    let mut cfg = config();
+    cfg.evaluate_every_ms = 60_001;
+    let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
+    assert_eq!((e.field, e.max), ("guard.evaluate_every_ms", 60_000.0));
+    cfg.evaluate_every_ms = 60_000;
+    assert!(Guard::new(&rig, cfg, Millis(0)).is_ok());
+}
+
+/// Case 7: an unchanged pose passed in every step (as a controller does)
+/// does not force an evaluation; a pose that moves less than the tolerance
+/// (1e-3 rad) does not either, one that moves more does, at once.
+#[test]
+fn an_unchanged_pose_does_not_force_an_evaluation() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let vs = run(&mut g, 400, 501, 3.0, |i| i.pose = Some(altaz(0.0, 0.0)));
+    // 10 s at 10 Hz with an evaluation period of 1 s: steps 400, 410, … 500.
+    let evaluated: Vec<usize> = (0..vs.len()).filter(|&i| vs[i].evaluated).collect();
+    assert_eq!(evaluated, (0..=100).step_by(10).collect::<Vec<_>>());
+    // Half a period later: 0.05° (0.87 mrad) is inside the tolerance…
+    let k = 505;
+    let v = g.step(
+        Millis(k * 100),
+        &Inputs {
+            pose: Some(altaz(0.05, 0.0)),
+            ..samples(k, 3.0)
+        },
+    );
+    assert!(!v.evaluated);
+    // …0.1° (1.7 mrad) from the evaluated pose is not.
+    let v = g.step(
+        Millis((k + 1) * 100),
+        &Inputs {
+            pose: Some(altaz(0.1, 0.0)),
+            ..samples(k + 1, 3.0)
+        },
+    );
+    assert!(v.evaluated, "{v:?}");
+}
