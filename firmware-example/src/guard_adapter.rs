@@ -156,8 +156,10 @@ pub struct GuardAssess<'r> {
     raised: Vec<RaisedFault, MAX_EVENTS>,
 }
 
-/// The event-line names of a guard fault: sensor (`accel`, `wind_speed`,
-/// `wind_direction`) and class (the [`Fault`] variant in snake case).
+/// The event-line names of a guard fault: sensor (`Sensor::code`: `accel`,
+/// `wind_speed`, `wind_direction`, `pose`, `cover`, `air`, `clock`, or
+/// `model` for the guard's own evaluation) and class (the [`Fault`] variant
+/// in snake case).
 #[must_use]
 pub const fn fault_names(fault: &Fault) -> RaisedFault {
     RaisedFault {
