@@ -61,7 +61,8 @@ pub struct Assessment {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct RaisedFault {
-    /// The sensor (for the guard: `accel`, `wind_speed`, `wind_direction`).
+    /// The sensor (for the guard: `Sensor::code`, such as `accel`,
+    /// `wind_speed`, `wind_direction`, `pose`, `clock`, `model`).
     pub sensor: &'static str,
     /// The class of fault (for the guard: `not_finite`, `out_of_range`,
     /// `time_reversed`, `stale`, `stuck`, `magnitude_out_of_band`,

@@ -157,8 +157,10 @@ pub struct GuardAssess<'r> {
     events_lost: u16,
 }
 
-/// The event-line names of a guard fault: the input ([`standfast::sense::Sensor::code`])
-/// and class (the [`Fault`] variant in snake case).
+/// The event-line names of a guard fault: sensor (`Sensor::code`: `accel`,
+/// `wind_speed`, `wind_direction`, `pose`, `cover`, `air`, `clock`, or
+/// `model` for the guard's own evaluation) and class (the [`Fault`] variant
+/// in snake case).
 #[must_use]
 pub const fn fault_names(fault: &Fault) -> RaisedFault {
     RaisedFault {

@@ -503,20 +503,25 @@ impl<'r> Replay<'r> {
                 Some(LimitRule::new(setup.limits)),
             )?,
         );
+        // The guard's stage before the first step: the one it starts in
+        // (`sensor_fault`, it cannot judge the rig before its sensors have
+        // given readings), so no stage event is invented for step one.
+        let guard_stage = station.rule().guard_stage();
         Ok(Replay {
             station,
             line: 0,
             header_seen: false,
             last_t_ms: None,
             rows: 0,
-            guard_stage: standfast::guard::Stage::Clear,
+            guard_stage,
             guard_events: heapless::Vec::new(),
         })
     }
 
     /// The guard's own events of the last step, without the backstop and
     /// the station: the faults it raised, then its stage change (names as
-    /// [`standfast::guard::Stage::name`], starting from `clear`). The
+    /// [`standfast::guard::Stage::name`], starting from the stage the guard
+    /// starts in, `sensor_fault`). The
     /// binaries print them as `guard event ...` lines; host-sim's
     /// `standfast replay --events` writes the same lines for the same rig and
     /// inputs (compared by `ci.sh`).

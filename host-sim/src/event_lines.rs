@@ -5,7 +5,7 @@
 //! One line per event, in the firmware's format (`firmware-example/src/event.rs`):
 //!
 //! ```text
-//! event t_ms=<u64> kind=fault sensor=<accel|wind_speed|wind_direction|pose|cover|air|clock|model> class=<name>
+//! event t_ms=<u64> kind=fault sensor=<sensor> class=<name>
 //! event t_ms=<u64> kind=events_lost count=<u16>
 //! event t_ms=<u64> kind=stage from=<stage> to=<stage>
 //! ```
@@ -15,8 +15,13 @@
 //!   log's `t_ms` column, so the two agree for a log that starts at 0 ms.
 //! * stage names: [`Stage::name`] (`clear`, `watch`, `park_now`, `alarm`,
 //!   `sensor_fault`), as the firmware's guard adapter prints them.
-//! * fault names: the sensor and the [`Fault`] variant in snake case, as the
-//!   firmware's `guard_adapter::fault_names`.
+//! * fault names: the sensor (`Sensor::code`: `accel`, `wind_speed`,
+//!   `wind_direction`, `pose`, `cover`, `air`, `clock`, `model`) and the
+//!   [`Fault`] variant in snake case, as the firmware's
+//!   `guard_adapter::fault_names`.
+//! * a guard starts in `sensor_fault`: no stage line before its first change
+//!   from there (the firmware's `Replay::guard_events` starts from the same
+//!   stage).
 //! * order: by time; at one time the faults come before the stage change
 //!   (the firmware prints a step's raised faults, then its stage change).
 //!

@@ -2,14 +2,17 @@
 //! own: stages map to the fail-safe lines, the alarm latches until
 //! acknowledged, and a guard sensor fault de-energises both lines.
 //!
-//! The thresholds are the guard's documented defaults (core/src/guard.rs:
+//! The thresholds are the guard's documented defaults (core/src/guard/config.rs:
 //! park at a predicted overturning utilisation of 0.75, after ASME B30.5
 //! §5-1.1.1; alarm at a present utilisation of 0.9, after EN 13000 limiter
 //! practice; 600 s dwell). The wind speeds below are chosen on either side of
 //! those thresholds for the invented example rig, not derived by hand: the
 //! checks are on the adapter's mapping and the order of the stages, which the
 //! guard's documentation fixes (escalation immediate, Clear < Watch <
-//! ParkNow < Alarm < SensorFault, alarm latched until acknowledged).
+//! ParkNow < Alarm < SensorFault, alarm latched until acknowledged, a guard
+//! starts in SensorFault and leaves it only after its fault clearing time,
+//! to no lower than Watch). Tests about anything but the start first run a
+//! calm warm-up until the guard is `clear` (`warm_up`, times derived there).
 //! The fail-safe convention (lines de-energised = low to request) is common
 //! practice for safety interlocks, no source.
 
@@ -75,17 +78,70 @@ fn run(
     last.unwrap()
 }
 
+/// Steps of the calm warm-up [`warm_up`] runs: until step 6030 (603 000 ms)
+/// inclusive.
+const WARM_UP_STEPS: u64 = 6031;
+
+/// Runs a calm (3 m/s) from step 0 until the guard reaches `clear`, checks
+/// the start-up stages and their times, and returns the first step after it.
+///
+/// Derived from the guard's documented rules and its default settings
+/// (`GuardConfig::default()`: one evaluation per 1000 ms, 60 s fault
+/// clearing time, 600 s dwell; the wind's 3-s gust needs 12 fine bins of
+/// 250 ms of record): a guard starts in `sensor_fault` (no wind reading
+/// yet); the first wind sample at 0 ms starts the record in fine bin 0, so
+/// the 3-s gust is defined from bin 11 (2750 ms) and the first figures come
+/// with the evaluation at 3000 ms. Healthy from 3000 ms, the fault clears
+/// 60 s later, at 63 000 ms, to `watch` (the calm calls for `clear`, but a
+/// guard leaves `sensor_fault` to no lower than `watch`). The figures have
+/// been settled below watch since 3000 ms (the settled timer runs while the
+/// figures are trusted), so the 600 s dwell ends at 603 000 ms: `clear`.
+fn warm_up(g: &mut GuardAssess<'_>, stages: &mut Vec<&'static str>) -> u64 {
+    let mut entered = Vec::new();
+    for i in 0..WARM_UP_STEPS {
+        let a = g.assess(&samples(i, 3.0));
+        if entered.last().map(|(s, _)| *s) != Some(a.stage) {
+            entered.push((a.stage, i * PERIOD_MS));
+        }
+        if stages.last() != Some(&a.stage) {
+            stages.push(a.stage);
+        }
+    }
+    assert_eq!(
+        entered,
+        [("sensor_fault", 0), ("watch", 63_000), ("clear", 603_000)]
+    );
+    WARM_UP_STEPS
+}
+
 #[test]
 fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
     let rig = example_rig().unwrap();
     let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
     let mut stages = Vec::new();
-    let calm = run(&mut g, 0, 100, 3.0, &mut stages);
+    // Until the guard has readings and has settled, it parks and alarms.
+    let first = g.assess(&samples(0, 3.0));
+    assert_eq!(
+        (first.park, first.alarm, first.stage),
+        (true, true, "sensor_fault")
+    );
+    assert_eq!(pins_for(&first), (false, false), "cannot see: both low");
+    assert_eq!(
+        g.raised_faults(),
+        [RaisedFault {
+            sensor: "wind_speed",
+            class: "no_reading"
+        }]
+    );
+    let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
+    let w = warm_up(&mut g, &mut stages);
+    let calm = run(&mut g, w, w + 100, 3.0, &mut stages);
     assert_eq!((calm.park, calm.alarm, calm.stage), (false, false, "clear"));
     assert_eq!(pins_for(&calm), (true, true), "all well: both energised");
 
     // A strong steady wind: a park is due, no alarm yet.
-    let strong = run(&mut g, 100, 700, 17.0, &mut stages);
+    let w = w + 100;
+    let strong = run(&mut g, w, w + 600, 17.0, &mut stages);
     assert_eq!(
         (strong.park, strong.alarm, strong.stage),
         (true, false, "park_now")
@@ -93,7 +149,8 @@ fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
     assert_eq!(pins_for(&strong), (false, true), "park line de-energised");
 
     // A stronger steady wind: the alarm.
-    let storm = run(&mut g, 700, 1300, 24.0, &mut stages);
+    let w = w + 600;
+    let storm = run(&mut g, w, w + 600, 24.0, &mut stages);
     assert_eq!(
         (storm.park, storm.alarm, storm.stage),
         (true, true, "alarm")
@@ -101,10 +158,21 @@ fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
     assert_eq!(pins_for(&storm), (false, false), "both lines de-energised");
     assert_eq!(g.guard_stage(), standfast::guard::Stage::Alarm);
 
-    // Stages only rose, through park_now before the alarm.
+    // After the warm-up, stages only rose, through park_now before the
+    // alarm.
+    assert_eq!(stages[..3], ["sensor_fault", "watch", "clear"]);
     let at = |name| stages.iter().position(|s| *s == name).unwrap();
     assert!(at("clear") < at("park_now") && at("park_now") < at("alarm"));
+    assert!(stages[2..].windows(2).all(|p| rank(p[0]) < rank(p[1])));
     assert!(g.raised_faults().is_empty());
+}
+
+/// The guard's stages in rising order (`Stage` docs).
+fn rank(stage: &str) -> usize {
+    ["clear", "watch", "park_now", "alarm", "sensor_fault"]
+        .iter()
+        .position(|s| *s == stage)
+        .unwrap()
 }
 
 #[test]
@@ -133,10 +201,13 @@ fn acknowledge_after_a_long_calm_clears_the_latched_alarm() {
 fn a_guard_sensor_fault_de_energises_both_lines() {
     let rig = example_rig().unwrap();
     let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
+    // Warmed up to `clear` first, so the fault below is the stuck sensor's,
+    // not the start-up's (a guard starts in sensor_fault).
+    let w = warm_up(&mut g, &mut Vec::new());
     // An accelerometer that repeats one identical reading for minutes: no
     // real sensor on a real rig does that, and the guard raises a fault.
     let mut first_fault = None;
-    for i in 0..3000 {
+    for i in w..w + 3000 {
         let mut s = samples(i, 3.0);
         s.accel_g = Some(Vec3::new(0.0, 0.0, 1.0));
         let a = g.assess(&s);
@@ -156,7 +227,7 @@ fn a_guard_sensor_fault_de_energises_both_lines() {
         }]
     );
     // Raised once: the next step reports no new fault but stays faulted.
-    let mut s = samples(3000, 3.0);
+    let mut s = samples(w + 3000, 3.0);
     s.accel_g = Some(Vec3::new(0.0, 0.0, 1.0));
     let next = g.assess(&s);
     assert!(next.park && next.alarm);

@@ -42,10 +42,21 @@ fn replay_text(text: &str) -> Result<Vec<String>, ReplayError> {
 // dwell, 30 s time to park and 10 s fault clearing time. Gate of second k
 // reports at (k+1)·1000 ms.
 //
-// * 13000 clear → watch, 14000 watch → park_now: the blow of seconds 10–19
-//   (20/21 Hz, 15.3/16.05 m/s) at the observing pose (HA −30°, dec 20°).
-//   That the blow does it is by design; the two times (the third and fourth
-//   gate of the blow, as the guard's gust figures fill) were read off a run.
+// * 0 wind_speed no_reading: a guard starts in sensor_fault (it cannot
+//   judge the rig before its sensors give readings) and says why in its
+//   first step: the accelerometer gives a reading in that step, the wind
+//   none yet (the station's first gate reports at 1000). No stage event:
+//   the guard was in sensor_fault before the step and stays there.
+// * 14000 sensor_fault → park_now: the first wind sample (1000) starts the
+//   wind record in fine bin 4 (250 ms bins); the 3-s gust is defined once
+//   the record spans 12 bins, from bin 15 (3750). The physics runs once per
+//   1000 ms from the first step (0, 1000, 2000, 3000, 4000, …): at 3000 no
+//   gust yet, at 4000 the first figures; healthy from 4000, the 10 s fault
+//   clearing time ends at 14000 (derived). The guard leaves sensor_fault to
+//   the level the figures then call for, at least watch: by then the blow of
+//   seconds 10–19 (20/21 Hz, 15.3/16.05 m/s; gates at 11000–14000) at the
+//   observing pose (HA −30°, dec 20°) calls for park_now (that the blow
+//   does it is by design; the level was read off a run).
 // * 40000 park_now → watch: the mount reports its park pose (HA +90°,
 //   dec 0°) from 20000, where the same peak gust gives a predicted
 //   utilisation below 0.8 × 0.75 but not below 0.8 × 0.5 (read off a run:
@@ -62,8 +73,8 @@ fn replay_text(text: &str) -> Result<Vec<String>, ReplayError> {
 //   second 90 (28, 32, 36 Hz) at the park pose; by design it ends in alarm,
 //   which latches to the end of the log; the two times were read off a run.
 const GUARD_EVENTS: [&str; 9] = [
-    "event t_ms=13000 kind=stage from=clear to=watch",
-    "event t_ms=14000 kind=stage from=watch to=park_now",
+    "event t_ms=0 kind=fault sensor=wind_speed class=no_reading",
+    "event t_ms=14000 kind=stage from=sensor_fault to=park_now",
     "event t_ms=40000 kind=stage from=park_now to=watch",
     "event t_ms=70100 kind=fault sensor=wind_speed class=stale",
     "event t_ms=70100 kind=fault sensor=wind_direction class=stale",
@@ -82,9 +93,14 @@ fn the_short_night_gives_the_expected_guard_events() {
 #[test]
 fn the_short_night_gives_the_expected_station_events() {
     // Station (hand-derived from the script and `ReplaySetup::example`):
-    // the gate of second 10 (20 Hz, 15.3 m/s > 12) parks at 11000 through
-    // the backstop (`limit_park`, the guard still clear); from 14000 the
-    // guard asks for the park itself, so the stage shown is its `park_now`.
+    // both lines start requested. The guard starts in sensor_fault (its
+    // `no_reading` wind fault at 0, above) and asks for park and alarm
+    // until 14000, so the station's own arming at 1000 (first wind speed)
+    // switches no line, and the gate of second 10 (20 Hz, 15.3 m/s > 12),
+    // which trips the backstop's park at 11000, asks for less than the
+    // guard already does: no stage event. At 14000 the guard leaves
+    // sensor_fault for park_now (above): the stage shown is its `park_now`
+    // and the alarm line is energised (the park line stays requested).
     // Accelerometer silent 25000–25300: last good 24900, stale (> 250 ms)
     // at 25200 (the alarm line drops; park is already requested); good
     // from 25400, cleared at 27400. The guard steps down to `watch` at
@@ -103,11 +119,9 @@ fn the_short_night_gives_the_expected_station_events() {
         events,
         [
             "event t_ms=0 kind=started",
-            "event t_ms=1000 kind=park_off",
-            "event t_ms=1000 kind=alarm_off",
-            "event t_ms=11000 kind=stage from=clear to=limit_park",
-            "event t_ms=11000 kind=park_on",
-            "event t_ms=14000 kind=stage from=limit_park to=park_now",
+            "event t_ms=0 kind=fault sensor=wind_speed class=no_reading",
+            "event t_ms=14000 kind=stage from=sensor_fault to=park_now",
+            "event t_ms=14000 kind=alarm_off",
             "event t_ms=25200 kind=fault source=accel cause=bus",
             "event t_ms=25200 kind=alarm_on",
             "event t_ms=27400 kind=fault_cleared source=accel",

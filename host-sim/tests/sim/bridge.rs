@@ -51,13 +51,16 @@ fn lines(out: &Output) -> Vec<Value> {
 }
 
 /// A windy sample every 250 ms for `n` lines: level ground (1 g straight
-/// up), wind 6 to 8 m/s from 265°, varying so no sensor looks stuck.
+/// up, give or take 2e-4 g), wind 6 to 8 m/s from 265°, varying so no
+/// sensor looks stuck (a reading frozen for 60 s is a stuck sensor by the
+/// guard's default).
 fn windy(n: u64) -> String {
     (0..n)
         .map(|i| {
             let wind = 6.0 + f64::from(u32::try_from(i % 9).unwrap()) * 0.25;
+            let z = 1.0 + f64::from(u32::try_from(i % 3).unwrap()) * 1e-4;
             format!(
-                "{{\"t_ms\": {}, \"accel_g\": [0, 0, 1], \"wind_mps\": {wind}, \"wind_from_deg\": 265}}\n",
+                "{{\"t_ms\": {}, \"accel_g\": [0, 0, {z}], \"wind_mps\": {wind}, \"wind_from_deg\": 265}}\n",
                 i * 250
             )
         })
@@ -184,18 +187,52 @@ fn bridge_checks_ranges_and_holds_the_pose() {
     assert_eq!(answer(6, "   "), Answer::Nothing);
 }
 
+/// The stage a guard on the demo rig is in at `t_ms` when samples with
+/// wind, direction and a level accelerometer arrive from t = 0 on, every
+/// 250 or 500 ms, in a light wind that calls for `clear`. Derived from the
+/// guard's rules and the demo rig's settings (host-sim/demo/rig.toml: one
+/// evaluation per 1000 ms and a 60 s fault clearing time by default, a 30 s
+/// dwell): a guard starts in sensor_fault (no wind gust yet); the 3-s gust
+/// is defined once the wind record spans 12 fine bins of 250 ms (from
+/// 2750 ms), so the first figures come with the evaluation at 3000 ms;
+/// healthy from then, the fault clears at 63 000 ms, to no lower than
+/// watch; the figures have been settled below watch since 3000 ms, longer
+/// than the dwell, so the next step is clear.
+fn start_stage(t_ms: u64, step_ms: u64) -> &'static str {
+    match t_ms {
+        t if t < 63_000 => "sensor_fault",
+        63_000 => "watch",
+        t if t >= 63_000 + step_ms => "clear",
+        _ => unreachable!("{t_ms} is not a step time"),
+    }
+}
+
 #[test]
 fn the_bridge_answers_every_line_with_one_json_line() {
-    let n = 80;
+    // 65 s of samples: past the guard's start (`start_stage`).
+    let n = 260;
     let out = bridge(&[], &windy(n), &[]);
     assert_eq!(out.status.code(), Some(0));
     let v = lines(&out);
-    assert_eq!(v.len(), 80);
+    assert_eq!(v.len(), 260);
     for (i, l) in v.iter().enumerate() {
         assert_eq!(l["line"], u64::try_from(i).unwrap() + 1);
-        assert_eq!(l["t_ms"], u64::try_from(i).unwrap() * 250);
+        let t = u64::try_from(i).unwrap() * 250;
+        assert_eq!(l["t_ms"], t);
         assert!(l["stage"].is_string() && l["faults"].is_array(), "{l}");
+        assert_eq!(l["stage"], start_stage(t, 250), "{l}");
+        // A guard that cannot see asks for park and alarm.
+        let blind = l["stage"] == "sensor_fault";
+        assert_eq!(l["park_requested"], blind, "{l}");
+        assert_eq!(l["alarm"], blind, "{l}");
     }
+    // Until the first gust the figures are absent (null, never 0) and the
+    // fault says why.
+    assert!(v[0]["gust_mps"].is_null(), "{}", v[0]);
+    assert_eq!(
+        v[0]["faults"][0],
+        "wind speed sensor: no usable reading yet"
+    );
     let last = v.last().unwrap();
     assert_eq!(last["stage"], "clear", "{last}");
     assert_eq!(last["park_requested"], false);
@@ -291,23 +328,44 @@ fn csv_input_answers_every_row_after_the_header() {
     );
 }
 
-/// Accelerometer-only samples every 500 ms for 20 s. The demo rig sets
-/// `wind_stale = "15 s"` (host-sim/demo/rig.toml): the wind speed sensor is
-/// stale once silent for more than 15 s since the guard started at t = 0.
+/// One sample every 500 ms, line `i` at `i` × 500 ms: a light wind (3 to
+/// 3.8 m/s, from 200 to 206°) with a level accelerometer, or (`wind` false)
+/// the accelerometer alone. A working accelerometer and vane are never
+/// perfectly still.
+fn sample_500ms(i: u64, wind: bool) -> String {
+    let k = u32::try_from(i).unwrap();
+    let z = 1.0 + f64::from(k % 3) * 1e-4;
+    if !wind {
+        return format!("{{\"t_ms\": {}, \"accel_g\": [0, 0, {z}]}}\n", i * 500);
+    }
+    let speed = 3.0 + f64::from(k % 5) * 0.2;
+    let from = 200 + i % 7;
+    format!(
+        "{{\"t_ms\": {}, \"accel_g\": [0, 0, {z}], \"wind_mps\": {speed}, \"wind_from_deg\": {from}}}\n",
+        i * 500
+    )
+}
+
+/// Lines 0 to 128 (0 to 64 000 ms): light wind, the guard's warm-up; it is
+/// `clear` from 63 500 ms (`start_stage`). Then lines 129 to 168 (64 500 to
+/// 84 000 ms): the accelerometer alone, the anemometer silent for 20 s. The
+/// demo rig sets `wind_stale = "15 s"` (host-sim/demo/rig.toml): the last
+/// wind sample at 64 000 ms is stale once more than 15 s old, at the first
+/// line after 79 000 ms, 79 500 ms.
 fn silent_wind() -> String {
-    (0..=40)
-        .map(|i| format!("{{\"t_ms\": {}, \"accel_g\": [0, 0, 1]}}\n", i * 500))
-        .collect()
+    (0..=168).map(|i| sample_500ms(i, i <= 128)).collect()
 }
 
 #[test]
 fn a_silent_anemometer_becomes_a_sensor_fault_with_park_and_alarm() {
     let out = bridge(&[], &silent_wind(), &[]);
     let v = lines(&out);
-    assert_eq!(v.len(), 41);
+    assert_eq!(v.len(), 169);
     for l in &v {
         let t = l["t_ms"].as_u64().unwrap();
-        if t <= 15_000 {
+        if t < 63_500 {
+            assert_eq!(l["stage"], start_stage(t, 500), "{l}");
+        } else if t <= 79_000 {
             assert_eq!(l["stage"], "clear", "{l}");
             assert_eq!(l["alarm"], false);
         } else {
@@ -324,8 +382,11 @@ fn a_silent_anemometer_becomes_a_sensor_fault_with_park_and_alarm() {
             );
         }
     }
-    let first = v.iter().find(|l| l["stage"] == "sensor_fault").unwrap();
-    assert_eq!(first["t_ms"], 15_500);
+    let first = v
+        .iter()
+        .find(|l| l["stage"] == "sensor_fault" && l["t_ms"].as_u64().unwrap() > 63_000)
+        .unwrap();
+    assert_eq!(first["t_ms"], 79_500);
     let changed = first["events"]
         .as_array()
         .unwrap()
@@ -333,26 +394,19 @@ fn a_silent_anemometer_becomes_a_sensor_fault_with_park_and_alarm() {
         .find(|e| e["kind"] == "stage_changed")
         .unwrap();
     assert_eq!(changed["from"], "clear");
-    assert_eq!(changed["cause"], "sensor");
+    assert_eq!(changed["cause"], "sensor_fault");
 }
 
 #[test]
 fn on_change_runs_the_command_with_the_stage_names() {
     let dir = tempfile::tempdir().unwrap();
     let file = dir.path().join("changes.txt");
-    // Wind silent for 20 s (sensor fault), then back for 70 s, beyond the
-    // guard's default 60 s fault-clear time (core/src/guard.rs), so the stage
-    // steps down again.
+    // The warm-up, wind silent for 20 s (sensor fault), then back for 65 s,
+    // beyond the guard's default 60 s fault-clear time
+    // (core/src/guard/config.rs), so the stage steps down again.
     let mut input = silent_wind();
-    for i in 41..=180 {
-        let wind = 3.0 + f64::from(i % 5) * 0.2;
-        // A working accelerometer and vane are never perfectly still.
-        let z = 1.0 + f64::from(i % 3) * 1e-4;
-        let from = 200 + i % 7;
-        input.push_str(&format!(
-            "{{\"t_ms\": {}, \"accel_g\": [0, 0, {z}], \"wind_mps\": {wind}, \"wind_from_deg\": {from}}}\n",
-            i * 500
-        ));
+    for i in 169..=299 {
+        input.push_str(&sample_500ms(i, true));
     }
     let cmd = r#"echo "$STANDFAST_PREVIOUS_STAGE>$STANDFAST_STAGE $STANDFAST_CAUSE $STANDFAST_T_MS" >> "$CHANGES_FILE""#;
     let out = bridge(&["--on-change", cmd], &input, &[("CHANGES_FILE", &file)]);
@@ -363,7 +417,7 @@ fn on_change_runs_the_command_with_the_stage_names() {
         String::from_utf8_lossy(&out.stderr)
     );
     let v = lines(&out);
-    assert_eq!(v.len(), 181);
+    assert_eq!(v.len(), 300);
     // Every stage change in the verdict stream, in order, as the command
     // should have written it.
     let expected: Vec<String> = v
@@ -386,9 +440,21 @@ fn on_change_runs_the_command_with_the_stage_names() {
                 .collect::<Vec<_>>()
         })
         .collect();
-    assert!(expected.len() >= 2, "{expected:?}");
-    assert_eq!(expected[0], "clear>sensor_fault sensor 15500");
-    assert!(expected[1].starts_with("sensor_fault>"), "{expected:?}");
+    // The start (`start_stage`) and the silence (`silent_wind`); the wind
+    // is back at 84 500 ms, which ends the stale faults; healthy from then,
+    // the fault clears 60 s later, at 144 500 ms, to no lower than watch;
+    // settled since 84 500 ms (a fault restarts the settled timers), past
+    // the 30 s dwell, so clear at the next line.
+    assert_eq!(
+        expected,
+        [
+            "sensor_fault>watch fault_cleared 63000",
+            "watch>clear settled 63500",
+            "clear>sensor_fault sensor_fault 79500",
+            "sensor_fault>watch fault_cleared 144500",
+            "watch>clear settled 145000",
+        ]
+    );
     // The bridge waits for its children at the end of input. Children run
     // concurrently, so the order of their appends is not guaranteed.
     let text = std::fs::read_to_string(&file).unwrap();
@@ -406,9 +472,10 @@ fn on_change_runs_the_command_with_the_stage_names() {
 
 #[test]
 fn a_command_that_cannot_run_is_reported_and_the_stream_goes_on() {
+    // Three stage changes (63 000, 63 500 and 79 500 ms: `silent_wind`).
     let out = bridge(&["--on-change", "exit 7"], &silent_wind(), &[]);
     assert_eq!(out.status.code(), Some(0));
-    assert_eq!(lines(&out).len(), 41);
+    assert_eq!(lines(&out).len(), 169);
     let err = String::from_utf8(out.stderr).unwrap();
     assert!(
         err.contains("--on-change command ended with exit status: 7"),
@@ -431,18 +498,22 @@ fn the_wall_clock_needs_no_sample_time() {
 
 #[test]
 fn an_alarm_latches_until_a_line_acknowledges_it() {
-    // 10 s of a 30 m/s storm, far beyond the demo rig's alarm threshold
-    // (its tip wind in the home pose is near 23 m/s, well below), then
-    // 990 s of light air: beyond the 10-minute peak-gust window and the
-    // rig's 30 s dwell, so every figure has settled; the alarm still holds
-    // until the last line acknowledges it (core/src/guard.rs: the alarm
-    // latches until acknowledged).
-    let input: String = (0..1000)
+    // A line a second. 65 s of light air: the guard's warm-up, clear from
+    // 64 000 ms (`start_stage` with 1000 ms steps). Then 10 s of a 30 m/s
+    // storm, far beyond the demo rig's alarm threshold (its tip wind in the
+    // home pose is near 23 m/s, well below), then 990 s of light air:
+    // beyond the 10-minute peak-gust window and the rig's 30 s dwell, so
+    // every figure has settled; the alarm still holds until the last line
+    // acknowledges it (core/src/guard/mod.rs: the alarm latches until
+    // acknowledged).
+    const WARM: u32 = 65;
+    let input: String = (0..WARM + 1000)
         .map(|i| {
             let k = f64::from(i % 4);
-            let wind = if i < 10 { 30.0 + k * 0.3 } else { 3.0 + k * 0.2 };
+            let storm = (WARM..WARM + 10).contains(&i);
+            let wind = if storm { 30.0 + k * 0.3 } else { 3.0 + k * 0.2 };
             let z = 1.0 + f64::from(i % 3) * 1e-4;
-            let ack = if i == 999 { ", \"ack\": true" } else { "" };
+            let ack = if i == WARM + 999 { ", \"ack\": true" } else { "" };
             format!(
                 "{{\"t_ms\": {}, \"accel_g\": [0, 0, {z}], \"wind_mps\": {wind}, \"wind_from_deg\": {}{ack}}}\n",
                 i * 1000,
@@ -452,15 +523,30 @@ fn an_alarm_latches_until_a_line_acknowledges_it() {
         .collect();
     let out = bridge(&[], &input, &[]);
     let v = lines(&out);
-    assert_eq!(v.len(), 1000);
+    let warm = usize::try_from(WARM).unwrap();
+    assert_eq!(v.len(), warm + 1000);
+    for (i, l) in v.iter().enumerate().take(warm) {
+        let t = u64::try_from(i).unwrap() * 1000;
+        assert_eq!(l["stage"], start_stage(t, 1000), "{l}");
+    }
     let first_alarm = v.iter().position(|l| l["stage"] == "alarm").unwrap();
-    assert!(first_alarm < 10, "alarm in the storm");
-    for l in &v[first_alarm..999] {
+    assert!(
+        (warm..warm + 10).contains(&first_alarm),
+        "alarm in the storm"
+    );
+    let raised = v[first_alarm]["events"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|e| e["kind"] == "stage_changed")
+        .unwrap();
+    assert_eq!(raised["cause"], "overturning", "{raised}");
+    for l in &v[first_alarm..warm + 999] {
         assert_eq!(l["stage"], "alarm", "{l}");
         assert_eq!(l["park_requested"], true);
     }
-    assert!(v[998]["overturning_utilisation"].as_f64().unwrap() < 0.1);
-    let last = &v[999];
+    assert!(v[warm + 998]["overturning_utilisation"].as_f64().unwrap() < 0.1);
+    let last = &v[warm + 999];
     assert_eq!(last["acknowledged"], true);
     assert_ne!(last["stage"], "alarm", "{last}");
     assert_eq!(last["alarm"], false);

@@ -5,7 +5,8 @@
 //! `Replay::guard_events`). The reference is the firmware crate's own run of
 //! the same core guard (cross-implementation check, no outside source); the
 //! firmware's test (firmware-example/tests/host/replay.rs) lists the same
-//! nine events with where each comes from in the log's script
+//! nine events (the first two the guard's start in sensor_fault and its
+//! end) with where each comes from in the log's script
 //! (firmware-example/replay/make_short_night.py). That rig.toml is the
 //! firmware's example rig and guard settings is checked on the firmware side
 //! (firmware-example/tests/host/rig_file.rs, through host-sim's rig loader).
@@ -51,10 +52,16 @@ fn short_night_gives_the_firmware_guard_events() {
     // 10 s fault clearing time (rig.toml [guard]). Gate of second k at
     // (k+1)·1000 ms.
     let expected = [
-        // The blow of seconds 10–19 (15.3/16.05 m/s) at the observing pose;
-        // the times were read off a run (the third and fourth gate).
-        "event t_ms=13000 kind=stage from=clear to=watch",
-        "event t_ms=14000 kind=stage from=watch to=park_now",
+        // A guard starts in sensor_fault: no wind reading at 0 ms (the first
+        // gate mean comes at 1000 ms).
+        "event t_ms=0 kind=fault sensor=wind_speed class=no_reading",
+        // Wind record from 1000 ms: the 3-s gust is defined from 3750 ms
+        // (12 fine bins of 250 ms), the first figures come with the
+        // evaluation at 4000 ms (one per 1000 ms from 0); 10 s fault
+        // clearing time to 14 000, to the level the figures call for, at
+        // least watch: park_now, by the blow of seconds 10–19
+        // (15.3/16.05 m/s) at the observing pose (the level read off a run).
+        "event t_ms=14000 kind=stage from=sensor_fault to=park_now",
         // Park pose reported from 20 000 ms, figures settled below
         // 0.8 × park from then (read off a run): 20 s dwell to 40 000.
         "event t_ms=40000 kind=stage from=park_now to=watch",

@@ -115,7 +115,50 @@ fn sonic_replay_gust_and_closest_approach_match_hand_figures() {
     assert_eq!(rep["records"], 36_000);
     assert_eq!(rep["issues_total"], 0);
     let rig = &rep["rigs"][0];
-    assert_eq!(rig["faults"].as_array().unwrap().len(), 0, "{rig}");
+    // No fault but the start's: a guard starts in sensor_fault and says
+    // why at the first record (12:45:00.05): no wind gust yet (3 s of
+    // record needed) and no tilt yet (the invented accelerometer file
+    // starts at 12:45:01). The real record itself raises none.
+    let faults: Vec<(f64, &str)> = rig["faults"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|f| (f["t_s"].as_f64().unwrap(), f["fault"].as_str().unwrap()))
+        .collect();
+    assert_eq!(
+        faults,
+        [
+            (0.0, "accelerometer: no usable reading yet"),
+            (0.0, "wind speed sensor: no usable reading yet"),
+        ],
+        "{rig}"
+    );
+    // The start, derived from the guard's rules and the demo rig's settings
+    // (one evaluation per second, 60 s fault clearing time by default, 30 s
+    // dwell): the 3-s gust is defined once the record spans 12 fine bins of
+    // 0.25 s (from 2.75 s), the first figures come with the evaluation at
+    // 3 s, the fault clears 60 s later, at 63 s, to no lower than watch;
+    // settled since 3 s (beyond the dwell), the next record (63.05 s, 20 Hz)
+    // is clear, which it stays to the end.
+    let changes: Vec<(f64, &str, &str, &str)> = rig["stage_changes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| {
+            (
+                c["t_s"].as_f64().unwrap(),
+                c["from"].as_str().unwrap(),
+                c["to"].as_str().unwrap(),
+                c["cause"].as_str().unwrap(),
+            )
+        })
+        .collect();
+    assert_eq!(changes.len(), 2, "{rig}");
+    assert_eq!(changes[0], (63.0, "sensor_fault", "watch", "fault_cleared"));
+    let (t, from, to, cause) = changes[1];
+    assert!((t - 63.05).abs() < 1e-9, "{rig}");
+    assert_eq!((from, to, cause), ("watch", "clear", "settled"));
+    assert_eq!(rig["final_stage"], "clear", "{rig}");
 
     // --- Peak gust ------------------------------------------------------
     // Independent: the exact 60-sample running mean at every sample, its
@@ -203,7 +246,10 @@ fn sonic_replay_gust_and_closest_approach_match_hand_figures() {
     // A light midday wind: the rig is far from tipping (gust about 3.75 m/s
     // against a tip wind above 20 m/s).
     assert!(u < 0.05, "{o}");
-    assert_eq!(rig["highest_stage"], "clear", "{rig}");
+    // Nothing above clear once the guard could see (the highest stage of
+    // the whole replay is the start's sensor_fault).
+    assert_eq!(o["stage"], "clear", "{o}");
+    assert_eq!(rig["highest_stage"], "sensor_fault", "{rig}");
 }
 
 /// One 10-minute record of the mast file.

@@ -367,14 +367,40 @@ fn ten_minute_mean_station_needs_a_long_stale_time() {
     let e = err(&means);
     assert_eq!(e.key.as_deref(), Some("sensor.wind_stale"));
     assert!(e.to_string().contains("600"), "{e}");
-    let ok = demo_with(
+    // With a long enough stale time, the guard also refuses a wind set-up
+    // that accepts samples the model cannot evaluate: the highest accepted
+    // mean (the sensor's default maximum, 100 m/s) times the gust factor,
+    // scaled from the anemometer to the rig, must stay within the model's
+    // 100 m/s. The height scaling is the EN 1991-1-4 §4.3.2 log law,
+    // v(z) ∝ ln(max(z, z_min)/z0), terrain II: z0 = 0.05 m, z_min = 2 m
+    // (Table 4.1): from the demo rig's 3 m mast to its 1.3 m rig,
+    // ln(2/0.05)/ln(3/0.05) = 3.6889/4.0943 = 0.90097, so 100 × 0.901 × 1.7 =
+    // 153 m/s, and the sensor's maximum may be at most
+    // 100/(0.90097 × 1.7) = 65.289 m/s.
+    let short_mast = demo_with(
         "wind_stale = \"15 s\"",
         "wind_stale = \"11 min\"\nwind_source = \"ten_minute_means\"\ngust_factor = 1.7",
     );
+    let e = err(&short_mast);
+    assert_eq!(e.key.as_deref(), Some("guard.wind.max_speed_mps"), "{e}");
+    assert!(e.to_string().contains("65.289"), "{e}");
+    // A station's means from a 40 m mast: ln(2/0.05)/ln(40/0.05) =
+    // 3.689/6.685 = 0.552, 100 × 0.552 × 1.7 = 93.8 m/s: inside the model.
+    let ok = demo_with(
+        "wind_stale = \"15 s\"",
+        "wind_stale = \"11 min\"\nwind_source = \"ten_minute_means\"\ngust_factor = 1.7",
+    )
+    .replacen(
+        "anemometer_height = \"3 m\"",
+        "anemometer_height = \"40 m\"",
+        1,
+    );
+    assert!(ok.contains("anemometer_height = \"40 m\""));
     let r = load_source(&SourceText::new("means.toml", ok)).unwrap();
     assert_eq!(
         r.guard.wind_source,
         standfast::guard::WindSource::TenMinuteMeans
     );
+    assert!((r.guard.max_gust_at_rig_mps().unwrap() - 93.8).abs() < 0.1);
     assert!((r.guard.wind.mean_gust_factor - 1.7).abs() < 1e-6);
 }
