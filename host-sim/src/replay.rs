@@ -147,7 +147,9 @@ pub struct RigReplay {
     /// Time in each stage, in the order clear, watch, park_now, alarm,
     /// sensor_fault.
     pub stage_time: Vec<StageTime>,
-    /// The most severe stage reached.
+    /// The most severe stage reached once the guard had first judged the
+    /// rig: the start-up `sensor_fault` (no readings yet) does not count;
+    /// `sensor_fault` when the guard never could judge it.
     pub highest_stage: Stage,
     /// The stage at the end of the log.
     pub final_stage: Stage,
@@ -324,6 +326,8 @@ struct Tracker {
     /// 2): while they repeat, as between evaluations, no closest approach
     /// can rise, so the comparisons are skipped.
     last_figures: [Option<f32>; 4],
+    /// The guard has left its start-up `sensor_fault` at least once.
+    judged: bool,
 }
 
 impl Tracker {
@@ -335,7 +339,7 @@ impl Tracker {
                 sliding: None,
                 drive: [None, None],
                 stage_time: Vec::new(),
-                highest_stage: Stage::Clear,
+                highest_stage: Stage::SensorFault,
                 final_stage: Stage::SensorFault,
                 stage_changes: Vec::new(),
                 stage_changes_not_kept: 0,
@@ -349,6 +353,7 @@ impl Tracker {
             // A guard starts unable to see (sensor_fault).
             last_stage: Stage::SensorFault,
             last_figures: [None; 4],
+            judged: false,
         }
     }
 
@@ -414,7 +419,12 @@ impl Tracker {
                 r.events_lost_at.push((t_s, v.events_lost));
             }
         }
-        r.highest_stage = r.highest_stage.max(v.stage);
+        if !self.judged && v.stage != Stage::SensorFault {
+            self.judged = true;
+            r.highest_stage = v.stage;
+        } else if self.judged {
+            r.highest_stage = r.highest_stage.max(v.stage);
+        }
         r.final_stage = v.stage;
         self.last_stage = v.stage;
     }

@@ -52,6 +52,9 @@
 //!                    anemometer_height = "3 m"; rig_height = "1.2 m"
 //!                    terrain = "II"              # EN 1991-1-4 category 0, I, II, III, IV
 //!                    wind_stale = "10 s"         # no anemometer sample for this long: fault
+//!                    wind_max = "100 m/s"        # highest sample accepted (larger: a fault);
+//!                                                # at rig height, times gust_factor for a
+//!                                                # station of means, at most the model's 100 m/s
 //!                    wind_source = "samples"     # or "ten_minute_means" (a station
 //!                                                # reporting only means; wind_stale >= 600 s)
 //!                    gust_factor = 1.45          # gust / ten-minute mean for such a station
@@ -86,7 +89,7 @@ use toml::Spanned;
 
 use crate::error::Error;
 use crate::located::{fmt_g, InputError, SourceText};
-use crate::units::{Angle, Duration, Force, Length, Mass, Torque};
+use crate::units::{Angle, Duration, Force, Length, Mass, Speed, Torque};
 
 /// An angle as written in the rig file: a plain number is in **degrees**, a
 /// string may carry any angle unit. Held in radians.
@@ -362,6 +365,7 @@ struct SensorSec {
     rig_height: Option<S<Length>>,
     terrain: Option<S<String>>,
     wind_stale: Option<S<Duration>>,
+    wind_max: Option<S<Speed>>,
     wind_source: Option<S<String>>,
     gust_factor: Option<S<f64>>,
 }
@@ -1263,6 +1267,12 @@ fn sensor_config(
             v.span(),
         );
         c.wind.stale_after_s = f(v.get_ref().s());
+    }
+    if let Some(v) = &g.wind_max {
+        for field in ["wind.max_speed_mps", "guard.wind.max_speed_mps"] {
+            sp.put(field, None, "sensor.wind_max".into(), v.span());
+        }
+        c.wind.max_speed_mps = f(v.get_ref().mps());
     }
     if let Some(v) = &g.wind_source {
         c.wind_source =

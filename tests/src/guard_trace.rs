@@ -9,7 +9,8 @@
 //!    step;
 //! 4. any fault puts the guard in `sensor_fault`; park is asserted exactly
 //!    from `park_now` up, and then a park pose is given;
-//! 5. an alarm latches until acknowledged (a fault that clears returns to it);
+//! 5. an alarm raised by a figure at its threshold latches until
+//!    acknowledged (a fault that clears returns to it);
 //! 6. no figure is NaN; events beyond capacity are counted.
 //!
 //! Used by the property tests (`tests/checks/guard_props.rs`) and the fuzz
@@ -184,7 +185,10 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
                 return fail("a fault cleared below a latched alarm");
             }
         }
-        if v.stage == Stage::Alarm && before != Stage::Alarm {
+        // An alarm entered because a figure reached its threshold latches; one
+        // resumed after a fault keeps the latch it had.
+        let at_threshold = figures(&v).is_some_and(|f| wanted(&f, &t).0 == Stage::Alarm);
+        if v.stage == Stage::Alarm && before != Stage::Alarm && at_threshold {
             latched = true;
         }
         if latched && v.stage < Stage::Alarm {

@@ -33,7 +33,7 @@
 //! |---|---|---|---|
 //! | any | a fault, or a figure missing or not finite | `sensor_fault` (no change if already there) | [`Cause::SensorFault`] or [`Cause::EvaluationFault`] |
 //! | `sensor_fault` | figures, healthy for less than `fault_clear_ms` | `sensor_fault` | none |
-//! | `sensor_fault` | figures, healthy for `fault_clear_ms` | the wanted level, at least `watch`, at least `alarm` while latched | [`Cause::FaultCleared`] |
+//! | `sensor_fault` | figures, healthy for `fault_clear_ms` | from `alarm` down, each level while the figures are settled below it, to no lower than the floor: the wanted level, `watch`, the level held before the fault, and `alarm` while latched | [`Cause::FaultCleared`] |
 //! | L | wanted W > L | W (latch when W is `alarm`) | the cause of W's first raise condition |
 //! | L | wanted W = L | L | none |
 //! | L | wanted W < L, latched | L | none |
@@ -42,6 +42,13 @@
 //! The settled timers (one per level above `clear`) run only while the
 //! figures are trusted: a fault restarts every one of them, and so does a
 //! figure at or above a level's settle bound for that level.
+//!
+//! A fault never lowers the level: the guard leaves `sensor_fault` no lower
+//! than the level it held before, and no lower than any level whose band a
+//! figure is in; stepping further down then takes the usual dwell, whose
+//! timers started when the inputs became healthy. An alarm entered because a
+//! figure reached its threshold latches; one resumed after a fault keeps the
+//! latch it had.
 //!
 //! # Time
 //! `now` only moves the timers forward: a `now` before a timer's start counts
@@ -279,6 +286,9 @@ pub struct Memory {
     pub latched: bool,
     /// An acknowledgement arrived since the last decision.
     pub acknowledged: bool,
+    /// The level held when the present fault began (`None` before the first
+    /// judgement, as at start-up).
+    pub before_fault: Option<Stage>,
 }
 
 impl Memory {
@@ -394,6 +404,9 @@ pub fn transition(
             };
             m.healthy_since = None;
             m.settled_since = [None; 3];
+            if stage != Stage::SensorFault {
+                m.before_fault = Some(stage);
+            }
             return change(Stage::SensorFault, cause, m);
         }
     };
@@ -416,10 +429,17 @@ pub fn transition(
         if want == Stage::Alarm {
             m.latched = true;
         }
-        let mut to = want.max(Stage::Watch);
+        let mut floor = want
+            .max(Stage::Watch)
+            .max(m.before_fault.unwrap_or(Stage::Clear));
         if m.latched {
-            to = to.max(Stage::Alarm);
+            floor = Stage::Alarm;
         }
+        let mut to = Stage::Alarm;
+        while to > floor && settled_below(to, figures, t) {
+            to = to.below();
+        }
+        m.before_fault = None;
         return change(to, Cause::FaultCleared, m);
     }
     if want > stage {

@@ -116,7 +116,7 @@ const SETTLED: [[(Stage, Option<Cause>); 5]; 15] = [
         (Cl, Some(C::Settled)),
         (P, None),
         (P, Some(C::Settled)),
-        (W, Some(C::FaultCleared)),
+        (P, Some(C::FaultCleared)),
     ],
     // park predicted.
     [
@@ -164,7 +164,7 @@ const SETTLED: [[(Stage, Option<Cause>); 5]; 15] = [
         (Cl, Some(C::Settled)),
         (Cl, Some(C::Settled)),
         (A, None),
-        (W, Some(C::FaultCleared)),
+        (A, Some(C::FaultCleared)),
     ],
     // sensor fault.
     [
@@ -200,6 +200,7 @@ fn settled_memory() -> Memory {
         healthy_since: Some(Millis(0)),
         latched: false,
         acknowledged: false,
+        before_fault: None,
     }
 }
 
@@ -215,10 +216,13 @@ fn every_level_against_every_condition() {
             if let Some(c) = out.change {
                 assert_eq!((c.from, c.to), (level, to), "{name} at {level:?}");
             }
-            // An alarm entered latches; nothing else does.
+            // An alarm entered because a figure reached its threshold
+            // latches; nothing else does (not the band of the alarm when a
+            // fault clears).
+            let at_threshold = name.starts_with("alarm ") && *name != "alarm band";
             assert_eq!(
                 out.memory.latched,
-                to == A && level != A,
+                to == A && level != A && at_threshold,
                 "{name} at {level:?}"
             );
         }
@@ -323,7 +327,13 @@ fn a_fault_restarts_every_timer() {
         settled_memory(),
         Millis(HOUR_MS),
     );
-    assert_eq!(out.memory, Memory::default());
+    assert_eq!(
+        out.memory,
+        Memory {
+            before_fault: Some(W),
+            ..Memory::default()
+        }
+    );
     let mut m = out.memory;
     let mut level = out.stage;
     let mut changes = [None; 2];
@@ -375,4 +385,75 @@ fn names_are_snake_case_and_distinct() {
         names,
         ["clear", "watch", "park_now", "alarm", "sensor_fault"]
     );
+}
+
+/// A fault never lowers the level (regression): parked with the predicted
+/// utilisation in the band of park (0.7), one faulted step, then the same
+/// figures: back to park_now when the fault clears, not watch; with a figure
+/// in the band of the alarm after an acknowledgement, back to the alarm.
+/// Once the figures settle, the usual dwell applies from the end of the
+/// fault.
+#[test]
+fn a_fault_does_not_release_a_park_or_an_alarm() {
+    let t = t();
+    let mut band = calm();
+    band.predicted = 0.7;
+    let band = Readings::Figures(band);
+    let out = transition(
+        P,
+        &Readings::SensorFault,
+        &t,
+        settled_memory(),
+        Millis(HOUR_MS),
+    );
+    let (mut level, mut m) = (out.stage, out.memory);
+    for k in 1..=700_u64 {
+        let out = transition(level, &band, &t, m, Millis(HOUR_MS + k * 1000));
+        (level, m) = (out.stage, out.memory);
+        assert!(level >= P, "released at {k} s");
+    }
+    assert_eq!(level, P);
+
+    let mut alarm_band = calm();
+    alarm_band.overturning = 0.8;
+    let mut m = settled_memory();
+    m.acknowledge();
+    let out = transition(A, &Readings::EvaluationFault, &t, m, Millis(HOUR_MS));
+    let (mut level, mut m) = (out.stage, out.memory);
+    for k in 1..=100_u64 {
+        let out = transition(
+            level,
+            &Readings::Figures(alarm_band),
+            &t,
+            m,
+            Millis(HOUR_MS + k * 1000),
+        );
+        (level, m) = (out.stage, out.memory);
+    }
+    assert_eq!(level, A);
+    assert!(
+        !m.latched,
+        "resumed, not raised: the acknowledgement stands"
+    );
+
+    // Settled figures after a fault from park_now: back to park_now when the
+    // fault clears (61 s), down to clear a dwell after the fault ended.
+    let calm = Readings::Figures(calm());
+    let out = transition(
+        P,
+        &Readings::SensorFault,
+        &t,
+        settled_memory(),
+        Millis(HOUR_MS),
+    );
+    let (mut level, mut m) = (out.stage, out.memory);
+    let mut seen: heapless::Vec<(u64, Stage, Cause), 4> = heapless::Vec::new();
+    for k in 1..=700_u64 {
+        let out = transition(level, &calm, &t, m, Millis(HOUR_MS + k * 1000));
+        if let Some(c) = out.change {
+            seen.push((k, c.to, c.cause)).unwrap();
+        }
+        (level, m) = (out.stage, out.memory);
+    }
+    assert_eq!(seen[..], [(61, P, C::FaultCleared), (601, Cl, C::Settled)]);
 }
