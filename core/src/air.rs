@@ -43,13 +43,26 @@ impl Default for Air {
     }
 }
 
+/// Lowest air density the model accepts, kg/m³ (about 11 km up in the
+/// standard atmosphere: no telescope site is higher).
+pub const MIN_DENSITY_KG_M3: f32 = 0.3;
+/// Highest air density the model accepts, kg/m³: above the 1.92 kg/m³ of the
+/// densest air [`Air::from_temperature_pressure`] accepts (110 kPa at
+/// 200 K), so every accepted sample can be evaluated.
+pub const MAX_DENSITY_KG_M3: f32 = 2.0;
+
 impl Air {
     /// Air of a given density.
     ///
     /// # Errors
-    /// Non-finite, or outside 0.3 to 1.6 kg/m³ (no telescope site is outside).
+    /// Non-finite, or outside [`MIN_DENSITY_KG_M3`] to [`MAX_DENSITY_KG_M3`].
     pub fn from_density(density_kg_m3: f32) -> Result<Air, Error> {
-        Error::check("air.density_kg_m3", density_kg_m3, 0.3, 1.6)?;
+        Error::check(
+            "air.density_kg_m3",
+            density_kg_m3,
+            MIN_DENSITY_KG_M3,
+            MAX_DENSITY_KG_M3,
+        )?;
         Ok(Air { density_kg_m3 })
     }
 
@@ -117,6 +130,20 @@ pub fn celsius_to_kelvin(t_c: f32) -> f32 {
 
 #[cfg(test)]
 mod tests {
+
+    /// Every air sample the ideal-gas constructor accepts (the corners of its
+    /// temperature and pressure ranges bound the density) gives a density
+    /// the model evaluates: a guard never faults on valid air.
+    #[test]
+    fn every_accepted_sample_is_inside_the_model() {
+        for t in [200.0, 330.0] {
+            for p in [40_000.0, 110_000.0] {
+                let a = Air::from_temperature_pressure(t, p).unwrap();
+                assert!(Air::from_density(a.density_kg_m3()).is_ok(), "{t} K {p} Pa");
+            }
+        }
+    }
+
     use super::*;
 
     #[test]

@@ -319,8 +319,8 @@ impl Conditions {
         Error::check(
             "conditions.air.density_kg_m3",
             self.air.density_kg_m3(),
-            0.3,
-            1.6,
+            crate::air::MIN_DENSITY_KG_M3,
+            crate::air::MAX_DENSITY_KG_M3,
         )?;
         Ok(())
     }

@@ -57,9 +57,11 @@
 //! it does not replace securing the rig.
 
 mod config;
+mod gusts;
 pub mod transition;
 
 pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_MS};
+pub use gusts::GUST_HISTORY_MIN;
 pub use transition::{Cause, Stage};
 
 use crate::air::{celsius_to_kelvin, Air};
@@ -69,9 +71,10 @@ use crate::mount::Pose;
 use crate::rig::{Conditions, Rig, MAX_WIND_SPEED_MPS};
 use crate::sense::{
     Check, Fault, FaultSet, MeanWind, Millis, Sensor, TiltSensor, WindDirection, WindReport,
-    WindStats, FINE_BIN_MS,
+    WindStats,
 };
 use crate::sky::ParkRequest;
+use gusts::{GustCache, GustHistory};
 use heapless::Vec;
 use transition::{Figures, Memory, Readings};
 
@@ -80,8 +83,6 @@ pub const MAX_PARK_POSES: usize = 4;
 /// Most events one step can report; more are counted in
 /// [`Verdict::events_lost`].
 pub const MAX_EVENTS: usize = 8;
-/// Minutes of one-minute gust maxima kept to estimate a rising wind.
-pub const GUST_HISTORY_MIN: usize = 10;
 /// A reported pose that moved by more than this from the pose of the last
 /// evaluation, on either axis angle (or hour angle, declination, azimuth,
 /// altitude), forces a new evaluation, radians: 1e-3 rad (0.057°). Sidereal
@@ -140,7 +141,7 @@ pub struct AirSample {
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct Inputs {
     /// Raw accelerometer sample, sensor axes, in counts or g (see
-    /// [`TiltConfig::scale_g_per_count`]).
+    /// [`crate::sense::TiltConfig::scale_g_per_count`]).
     pub accel_raw: Option<[f32; 3]>,
     /// Wind sample.
     pub wind: Option<WindSample>,
@@ -258,13 +259,8 @@ pub struct Guard<'r> {
     park_pose: Option<Pose>,
     known_faults: FaultSet,
     highest_utilisation: f32,
-    gust_minutes: [f32; GUST_HISTORY_MIN],
-    gust_minute_index: u64,
-    /// The 3-s gust of the wind report for one fine wind bin (index
-    /// `now / FINE_BIN_MS`), kept until the next wind sample: between wind
-    /// samples the gust changes only from one bin to the next, so steps
-    /// that do not evaluate the physics need no full report.
-    gust_3s_cache: Option<(u64, Option<f32>)>,
+    gust_history: GustHistory,
+    gust_3s_cache: GustCache,
 }
 
 impl<'r> Guard<'r> {
@@ -299,9 +295,8 @@ impl<'r> Guard<'r> {
             park_pose: None,
             known_faults: FaultSet::default(),
             highest_utilisation: 0.0,
-            gust_minutes: [0.0; GUST_HISTORY_MIN],
-            gust_minute_index: now.0 / 60_000,
-            gust_3s_cache: None,
+            gust_history: GustHistory::new(now),
+            gust_3s_cache: GustCache::default(),
         })
     }
 
@@ -372,32 +367,31 @@ impl<'r> Guard<'r> {
         // the 3-s gust for the gust history (`WindStats::gust_3s_mps`, the
         // report's value without the rest of the report), from the cache
         // when the wind bin and the wind samples are unchanged.
-        let bin = now.0 / FINE_BIN_MS;
         let report = if due {
             let r = if means {
                 self.means.report(now)
             } else {
                 self.wind.report(now)
             };
-            self.gust_3s_cache = Some((bin, r.gust_3s_mps));
+            self.gust_3s_cache.put(now, r.gust_3s_mps);
             Some(r)
         } else {
             None
         };
-        let gust_3s = match (&report, self.gust_3s_cache) {
-            (Some(r), _) => r.gust_3s_mps,
-            (None, Some((b, g))) if b == bin => g,
-            (None, _) => {
-                let g = if means {
-                    self.means.report(now).gust_3s_mps
-                } else {
-                    self.wind.gust_3s_mps(now)
-                };
-                self.gust_3s_cache = Some((bin, g));
-                g
+        let gust_3s = match &report {
+            Some(r) => r.gust_3s_mps,
+            None => {
+                let (wind, means_stats) = (&self.wind, &self.means);
+                self.gust_3s_cache.get_or(now, || {
+                    if means {
+                        means_stats.report(now).gust_3s_mps
+                    } else {
+                        wind.gust_3s_mps(now)
+                    }
+                })
             }
         };
-        self.track_gust_minutes(now, gust_3s);
+        self.gust_history.track(now, gust_3s);
         if let Some(report) = report {
             let (shown, eval_faults) = self.evaluate(&report);
             self.shown = shown;
@@ -471,7 +465,7 @@ impl<'r> Guard<'r> {
             }
         }
         if let Some(w) = inputs.wind {
-            self.gust_3s_cache = None;
+            self.gust_3s_cache.invalidate();
             let pushed = if self.config.wind_source == WindSource::TenMinuteMeans {
                 self.means.push(now, w.speed_mps, w.from_rad)
             } else {
@@ -566,30 +560,9 @@ impl<'r> Guard<'r> {
         }
     }
 
-    fn track_gust_minutes(&mut self, now: Millis, gust_3s_mps: Option<f32>) {
-        let minute = now.0 / 60_000;
-        if minute != self.gust_minute_index {
-            let steps = minute.saturating_sub(self.gust_minute_index);
-            for _ in 0..steps.min(GUST_HISTORY_MIN as u64) {
-                self.gust_minutes.rotate_right(1);
-                if let Some(first) = self.gust_minutes.first_mut() {
-                    *first = 0.0;
-                }
-            }
-            self.gust_minute_index = minute;
-        }
-        if let (Some(g), Some(first)) = (gust_3s_mps, self.gust_minutes.first_mut()) {
-            if g > *first {
-                *first = g;
-            }
-        }
-    }
-
-    /// Rise rate of the gust, m/s per s: the slope between the mean of the
-    /// last two one-minute maxima and of the two five minutes before, never
-    /// negative (0 until ten minutes of history exist).
+    /// Rise rate of the gust, m/s per s ([`GustHistory::rise_mps_per_s`]).
     fn gust_rise_mps_per_s(&self) -> f32 {
-        gust_rise_mps_per_s(&self.gust_minutes)
+        self.gust_history.rise_mps_per_s()
     }
 
     fn conditions(&self, tilt: Tilt, speed_mps: f32, from_rad: f32) -> Conditions {
@@ -726,19 +699,6 @@ impl<'r> Guard<'r> {
                 check: Check::ParkPose,
             })
     }
-}
-
-/// Rise rate of the gust from one-minute maxima (newest first), m/s per s:
-/// the slope between the mean of the last two and of the two five minutes
-/// before, never negative; 0 while those older minutes hold no gust.
-fn gust_rise_mps_per_s(m: &[f32; GUST_HISTORY_MIN]) -> f32 {
-    let (Some(a0), Some(a1), Some(b0), Some(b1)) = (m.first(), m.get(1), m.get(5), m.get(6)) else {
-        return 0.0;
-    };
-    if *b0 <= 0.0 || *b1 <= 0.0 {
-        return 0.0;
-    }
-    (((a0 + a1) - (b0 + b1)) * 0.5 / 300.0).max(0.0)
 }
 
 /// `Some(x)` for a finite `x`.

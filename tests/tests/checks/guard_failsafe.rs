@@ -316,3 +316,52 @@ fn an_unchanged_pose_does_not_force_an_evaluation() {
     );
     assert!(v.evaluated, "{v:?}");
 }
+
+/// The air density set for the site scales the wind's share of the
+/// overturning utilisation: on level ground the overturning moment is all
+/// wind, so utilisation ∝ q ∝ ρ. At 2,000 m the ISO 2533 standard atmosphere
+/// has ρ = 1.0066 kg/m³ against 1.2250 kg/m³ at sea level (ISO 2533:1975,
+/// table of the standard atmosphere).
+#[test]
+fn the_site_air_density_scales_the_wind_load() {
+    let rig = rig();
+    let mut sea = settled(&rig);
+    let mut high = settled(&rig);
+    high.set_air(standfast::air::Air::isa_at_elevation(2_000.0).unwrap());
+    let v_sea = run(&mut sea, 400, 500, 12.0, |_| {}).pop().unwrap();
+    let v_high = run(&mut high, 400, 500, 12.0, |_| {}).pop().unwrap();
+    let ratio = v_high.overturning_utilisation.unwrap() / v_sea.overturning_utilisation.unwrap();
+    approx::assert_relative_eq!(ratio, 1.0066 / 1.2250, max_relative = 2e-3);
+}
+
+/// A new highest overturning utilisation is an event when it beats the last
+/// one reported by more than 0.01, and only then: a rising wind reports a
+/// rising series, a steady one nothing new.
+#[test]
+fn new_highs_are_reported_as_they_rise() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let highs = |vs: &[Verdict]| -> Vec<f32> {
+        vs.iter()
+            .flat_map(|v| v.events.iter())
+            .filter_map(|e| match *e {
+                Event::NewHighUtilisation { utilisation } => Some(utilisation),
+                _ => None,
+            })
+            .collect()
+    };
+    let mut vs = Vec::new();
+    for (i, v) in (6..14).enumerate() {
+        let k0 = 400 + 100 * i as u64;
+        vs.extend(run(&mut g, k0, k0 + 100, v as f32, |_| {}));
+    }
+    let h = highs(&vs);
+    assert!(h.len() >= 5, "{h:?}");
+    for w in h.windows(2) {
+        assert!(w[1] > w[0] + 0.01, "{h:?}");
+    }
+    let top = vs.iter().filter_map(|v| v.overturning_utilisation).fold(0.0, f32::max);
+    assert!(top - h.last().unwrap() <= 0.01 + 1e-6, "{top} {h:?}");
+    let steady = run(&mut g, 1200, 1400, 13.0, |_| {});
+    assert!(highs(&steady).is_empty(), "{:?}", highs(&steady));
+}
