@@ -360,8 +360,120 @@ fn new_highs_are_reported_as_they_rise() {
     for w in h.windows(2) {
         assert!(w[1] > w[0] + 0.01, "{h:?}");
     }
-    let top = vs.iter().filter_map(|v| v.overturning_utilisation).fold(0.0, f32::max);
+    let top = vs
+        .iter()
+        .filter_map(|v| v.overturning_utilisation)
+        .fold(0.0, f32::max);
     assert!(top - h.last().unwrap() <= 0.01 + 1e-6, "{top} {h:?}");
     let steady = run(&mut g, 1200, 1400, 13.0, |_| {});
     assert!(highs(&steady).is_empty(), "{:?}", highs(&steady));
+}
+
+/// The post rig with a 1.2 m tube (0.25 m across, 5 kg) on the altitude
+/// axis 1 m up, optionally under a 0.5 × 1.5 × 0.5 m cover.
+fn tube_rig(cover: bool) -> Rig {
+    use standfast::rig::{BodySpec, CoverSpec, Stage as MountStage};
+    use standfast::shape::{Exposure, Shape};
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let mut spec = post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.1, 0.6, 0.5);
+    spec.bodies
+        .push(BodySpec {
+            stage: MountStage::Secondary,
+            mass_kg: 5.0,
+            cg_m: [0.0, 0.0, 0.0],
+            exposure: Some(Exposure {
+                shape: Shape::Cylinder {
+                    diameter_m: 0.25,
+                    length_m: 1.2,
+                    axis: [0.0, 1.0, 0.0],
+                },
+                centre_m: [0.0, 0.0, 0.0],
+                drag_coefficient: None,
+            }),
+            under_cover: true,
+            ..BodySpec::default()
+        })
+        .unwrap();
+    if cover {
+        spec.cover = Some(CoverSpec {
+            mass_kg: 1.0,
+            size_m: [0.5, 1.5, 0.5],
+            centre_m: [0.0, 0.0, 0.0],
+            drag_coefficient: None,
+        });
+    }
+    Rig::new(&spec).unwrap()
+}
+
+/// The park pose is searched, not assumed: in a strong east wind a
+/// horizontal tube at home (pointing north, broadside to the wind) catches
+/// more wind than one pointing at the zenith, so with the zenith pose
+/// offered the guard names it.
+#[test]
+fn the_safest_park_pose_is_searched() {
+    let rig = tube_rig(false);
+    let mut cfg = config();
+    cfg.assumed_pose = None;
+    let zenith = altaz(0.0, 89.0);
+    cfg.park_poses.push(zenith).unwrap();
+    let mut g = Guard::new(&rig, cfg, Millis(0)).unwrap();
+    let east = |i: &mut Inputs| {
+        if let Some(w) = i.wind.as_mut() {
+            w.from_rad = Some(std::f32::consts::FRAC_PI_2 + w.from_rad.unwrap_or(0.0));
+        }
+    };
+    run(&mut g, 0, 400, 3.0, east);
+    let vs = run(&mut g, 400, 700, 22.0, east);
+    let v = vs.last().unwrap();
+    assert!(v.stage.park_requested(), "{v:?}");
+    assert_eq!(v.park_pose, Some(zenith), "{v:?}");
+}
+
+/// A fault raised between evaluations still carries a park pose (the
+/// mount's home pose when nothing better is known).
+#[test]
+fn a_fault_between_evaluations_carries_a_park_pose() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    // Step 405 is half-way between two evaluations (period 1 s).
+    let _ = g.step(Millis(40_000), &samples(400, 3.0));
+    let v = g.step(
+        Millis(40_500),
+        &Inputs {
+            pose: Some(altaz(f32::NAN, 0.0)),
+            ..samples(405, 3.0)
+        },
+    );
+    assert!(!v.evaluated);
+    assert_eq!(v.stage, Stage::SensorFault);
+    assert_eq!(v.park_pose, Some(rig.mount().home_pose()));
+}
+
+/// Cover states: "removed" on a rig without a cover is no fault; on a rig
+/// with one, fitting it is taken at once (an evaluation in the same step)
+/// and, as a cover catches wind, raises the overturning utilisation.
+#[test]
+fn cover_states_are_taken_or_refused_as_the_rig_allows() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let vs = run(&mut g, 400, 450, 3.0, |i| i.cover_fitted = Some(false));
+    assert!(vs.iter().all(|v| v.faults.is_empty()), "{:?}", vs.last());
+
+    let rig = tube_rig(true);
+    let mut g = Guard::new(&rig, config(), Millis(0)).unwrap();
+    run(&mut g, 0, 400, 8.0, |_| {});
+    let before = g.step(Millis(40_000), &samples(400, 8.0));
+    let fitted = g.step(
+        Millis(40_500),
+        &Inputs {
+            cover_fitted: Some(true),
+            ..samples(405, 8.0)
+        },
+    );
+    assert!(fitted.faults.is_empty(), "{:?}", fitted.faults);
+    assert!(fitted.evaluated, "a cover change is judged at once");
+    assert!(
+        fitted.overturning_utilisation.unwrap() > before.overturning_utilisation.unwrap(),
+        "{before:?} {fitted:?}"
+    );
 }
