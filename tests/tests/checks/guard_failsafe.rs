@@ -477,3 +477,60 @@ fn cover_states_are_taken_or_refused_as_the_rig_allows() {
         "{before:?} {fitted:?}"
     );
 }
+
+/// A rising wind is anticipated: in a gust ramp of 0.5 m/s per minute the
+/// gust predicted for the end of a 120 s park is the latest gust plus the
+/// rise over the park time (0.5/60 × 120 = 1 m/s), times the 1.15 allowance,
+/// not merely the peak so far (the guard's documented prediction).
+#[test]
+fn a_rising_wind_is_anticipated() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let mut last = None;
+    for k in 400..(400 + 15 * 600) {
+        let t_s = (k - 400) as f32 / 10.0;
+        let v = 4.0 + 0.5 * t_s / 60.0;
+        let mut i = samples(k, 1.0);
+        if let Some(w) = i.wind.as_mut() {
+            w.speed_mps = v;
+        }
+        last = Some(g.step(Millis(k * 100), &i));
+    }
+    let v = last.unwrap();
+    let gust = v.gust_mps.unwrap();
+    let predicted = v.predicted_gust_mps.unwrap();
+    // Within a tenth of the rise: the one-minute maxima sample the ramp.
+    approx::assert_relative_eq!(predicted, (gust + 1.0) * 1.15, epsilon = 0.1 * 1.15);
+}
+
+/// A sinking leg: the accelerometer tilts steadily at 2°/h (9.7e-6 rad/s,
+/// four times the 0.5°/h watch rate) from level. Once the drift filter has
+/// settled the guard reports the drift and raises watch with cause
+/// `tilt_drift`.
+#[test]
+fn a_sinking_leg_raises_watch() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let rate = 2.0_f32.to_radians() / 3600.0;
+    let mut changes = Vec::new();
+    let mut last = None;
+    for k in 400..(400 + 36_000) {
+        let t_s = (k - 400) as f32 / 10.0;
+        let a = rate * t_s;
+        let mut i = samples(k, 3.0);
+        i.accel_raw = Some([a.sin(), 1e-4 * ((k % 7) as f32), a.cos()]);
+        let v = g.step(Millis(k * 100), &i);
+        for e in &v.events {
+            if let Event::StageChanged { from, to, cause } = *e {
+                changes.push((from, to, cause));
+            }
+        }
+        last = Some(v);
+    }
+    let v = last.unwrap();
+    approx::assert_relative_eq!(v.tilt_drift_rad_per_s, rate, max_relative = 0.3);
+    assert!(
+        changes.contains(&(Stage::Clear, Stage::Watch, Cause::TiltDrift)),
+        "{changes:?}"
+    );
+}
