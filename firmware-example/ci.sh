@@ -18,11 +18,16 @@ FLASH_BUDGET=$((64 * 1024))
 RAM_BUDGET=$((16 * 1024))
 mkdir -p "$OUT"
 
-step "firmware: tools (qemu-system-arm)"
-if ! command -v qemu-system-arm >/dev/null 2>&1; then
+step "firmware: tools (qemu-system-arm, a C compiler for the plug-in, python3, llvm-objdump)"
+need=()
+command -v qemu-system-arm >/dev/null 2>&1 || need+=(qemu-system-arm)
+command -v cc >/dev/null 2>&1 || need+=(gcc libc6-dev)
+command -v python3 >/dev/null 2>&1 || need+=(python3)
+command -v llvm-objdump >/dev/null 2>&1 || need+=(llvm)
+if [ "${#need[@]}" -gt 0 ]; then
   export DEBIAN_FRONTEND=noninteractive
   apt-get update -qq
-  apt-get install -y -qq --no-install-recommends qemu-system-arm >/dev/null
+  apt-get install -y -qq --no-install-recommends "${need[@]}" >/dev/null
 fi
 qemu-system-arm --version | head -n 1
 rustup target add "$TARGET" >/dev/null 2>&1 || true
@@ -91,6 +96,66 @@ if [ ! -s "$OUT/qemu-guard-events.txt" ]; then
 fi
 diff -u "$OUT/host-sim-events.txt" "$OUT/qemu-guard-events.txt"
 echo "emulator and host-sim agree: $(wc -l <"$OUT/qemu-guard-events.txt") guard events"
+
+step "firmware: instructions per guard step, 100 Hz invented night (QEMU plug-in)"
+# qemu-plugin/step_count.c, our own plug-in against QEMU's public plug-in API
+# (header vendored in qemu-plugin/vendor/), counts every instruction executed
+# from the begin mark to the end mark around Guard::step (src/marks.rs): one
+# exact count per step. The night is make_short_night.py's script with a row
+# every 10 ms, run at the station's 100 Hz set-up (--rate-100hz).
+# Aims (issue 15): mean <= 4,000 and 99th percentile <= 40,000 instructions.
+STEP_MEAN_AIM=4000
+STEP_P99_AIM=40000
+cc -shared -fPIC -O2 -Wall -Wextra -Werror -fvisibility=hidden \
+  -I firmware-example/qemu-plugin/vendor -o "$OUT/step_count.so" firmware-example/qemu-plugin/step_count.c
+mark_addr() {
+  readelf -sW -C "$ELF" | awk -v name="standfast_firmware::marks::$1" '$4 == "FUNC" && $8 == name { print "0x" $2 }'
+}
+BEGIN_MARK=$(mark_addr guard_step_begin)
+END_MARK=$(mark_addr guard_step_end)
+if [ -z "$BEGIN_MARK" ] || [ -z "$END_MARK" ]; then
+  echo "the step marks are not in $ELF (feature step-marks)"
+  exit 1
+fi
+echo "marks: begin $BEGIN_MARK, end $END_MARK"
+python3 firmware-example/replay/make_night_100hz.py >"$OUT/night-100hz.csv"
+# Percentiles by nearest rank: the value at rank ceil(p/100 * n) of the
+# ascending counts (the median is the lower middle value for an even n).
+step_stats() {
+  sort -n "$1" | awk -v mean_aim="$2" -v p99_aim="$3" '
+    function rank(p,   r) { r = p / 100 * NR; return (r == int(r)) ? r : int(r) + 1 }
+    { v[NR] = $1; sum += $1 }
+    END {
+      if (NR == 0) { print "no steps counted"; exit 1 }
+      mean = sum / NR
+      printf "steps %d  median %d  mean %.0f  p99 %d  max %d  (min %d)\n", NR, v[rank(50)], mean, v[rank(99)], v[NR], v[1]
+      if (mean_aim == "") exit 0
+      printf "aims: mean <= %d (%s), p99 <= %d (%s)\n", mean_aim, (mean <= mean_aim) ? "met" : "NOT MET", p99_aim, (v[rank(99)] <= p99_aim) ? "met" : "NOT MET"
+      if (mean > mean_aim || v[rank(99)] > p99_aim) exit 1
+    }'
+}
+rc=0
+timeout 300 qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \
+  -plugin "$OUT/step_count.so,begin=$BEGIN_MARK,end=$END_MARK,out=$OUT/steps-100hz.txt" \
+  -semihosting-config "enable=on,target=native,arg=mps2-replay,arg=$OUT/night-100hz.csv,arg=--rate-100hz" \
+  -kernel "$ELF" >"$OUT/qemu-events-100hz.txt" 2>"$OUT/qemu-stderr-100hz.txt" || rc=$?
+cat "$OUT/qemu-stderr-100hz.txt"
+if [ "$rc" -ne 0 ]; then
+  cat "$OUT/qemu-events-100hz.txt"
+  echo "QEMU replay at 100 Hz failed with exit code $rc"
+  exit 1
+fi
+cargo run -q -p standfast-firmware --example host_replay -- "$OUT/night-100hz.csv" --rate-100hz >"$OUT/host-events-100hz.txt"
+diff -u "$OUT/host-events-100hz.txt" "$OUT/qemu-events-100hz.txt"
+echo "emulator and host agree at 100 Hz: $(grep -c '^event ' "$OUT/qemu-events-100hz.txt") events"
+rows=$(sed -n 's/^summary rows=\([0-9]*\) .*/\1/p' "$OUT/qemu-events-100hz.txt")
+counted=$(wc -l <"$OUT/steps-100hz.txt")
+if [ "$rows" != "$counted" ] || ! grep -q 'unpaired=0 ' "$OUT/qemu-stderr-100hz.txt"; then
+  echo "every row must be one counted guard step: rows=$rows counted=$counted"
+  exit 1
+fi
+echo "guard step at 100 Hz, instructions:"
+step_stats "$OUT/steps-100hz.txt" "$STEP_MEAN_AIM" "$STEP_P99_AIM"
 
 step "firmware: a HardFault ends the emulated run with a failure"
 rc=0

@@ -4,14 +4,26 @@
 //! ```text
 //! cargo run -p standfast-firmware --example host_replay -- firmware-example/replay/short-night.csv
 //! ```
+//!
+//! A second argument `--rate-100hz` runs the station at 100 Hz
+//! (`ReplaySetup::example_100hz`), as the emulated binary does with the same word.
 use standfast_firmware::guard_adapter::example_rig;
 use standfast_firmware::replay::{Replay, ReplaySetup};
 use std::process::ExitCode;
 
 fn main() -> ExitCode {
-    let Some(path) = std::env::args().nth(1) else {
-        eprintln!("usage: host_replay <log.csv>");
+    let mut args = std::env::args().skip(1);
+    let Some(path) = args.next() else {
+        eprintln!("usage: host_replay <log.csv> [--rate-100hz]");
         return ExitCode::from(2);
+    };
+    let setup = match args.next().as_deref() {
+        None => ReplaySetup::example(),
+        Some("--rate-100hz") => ReplaySetup::example_100hz(),
+        Some(other) => {
+            eprintln!("error: unknown option {other:?} (accepted: --rate-100hz)");
+            return ExitCode::from(2);
+        }
     };
     let text = match std::fs::read_to_string(&path) {
         Ok(t) => t,
@@ -28,7 +40,7 @@ fn main() -> ExitCode {
             return ExitCode::from(5);
         }
     };
-    let mut replay = match Replay::new(&ReplaySetup::example(), &rig) {
+    let mut replay = match Replay::new(&setup, &rig) {
         Ok(r) => r,
         Err(e) => {
             eprintln!("error: guard: {e:?}");

@@ -227,7 +227,9 @@ impl Assess for GuardAssess<'_> {
             }),
             ..Inputs::default()
         };
+        crate::marks::guard_step_begin();
         let verdict = self.guard.step(Millis(s.t_ms), &inputs);
+        crate::marks::guard_step_end();
         self.raised.clear();
         self.events_lost = verdict.events_lost;
         for e in &verdict.events {

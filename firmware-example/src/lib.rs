@@ -17,6 +17,8 @@
 //! - [`station`]: the fixed-rate, watchdog-friendly step.
 //! - [`event`]: events and their one-line text format.
 //! - [`replay`]: replay of a log over emulated hardware (QEMU and host).
+//! - [`marks`]: code-address marks around the guard's step, for counting its
+//!   instructions in the emulator.
 //!
 //! `#![no_std]`, no allocation: every buffer has a fixed size, and the board
 //! binary keeps the station in a `static`.
@@ -33,6 +35,7 @@ pub mod event;
 pub mod guard_adapter;
 pub mod lines;
 pub mod lis3dh;
+pub mod marks;
 pub mod pose;
 pub mod replay;
 pub mod station;

@@ -459,6 +459,20 @@ impl ReplaySetup {
             },
         }
     }
+
+    /// The example set-up at a 100 Hz loop (10 ms period), for the
+    /// instruction count of the guard step at that rate (`ci.sh`): as
+    /// [`ReplaySetup::example`], with the accelerometer at 200 Hz (at least
+    /// twice the loop rate) and its configuration read back every 100 steps
+    /// (once a second, as at 10 Hz). Invented for the demonstration.
+    #[must_use]
+    pub const fn example_100hz() -> Self {
+        let mut s = Self::example();
+        s.station.period_ms = 10;
+        s.station.verify_every_steps = 100;
+        s.accel.rate = lis3dh::DataRate::Hz200;
+        s
+    }
 }
 
 /// The station as the replay builds it: the Standfast guard for a borrowed

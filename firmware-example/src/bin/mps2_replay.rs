@@ -9,7 +9,9 @@
 //!
 //! The second word of the semihosting command line is the log's path; a
 //! third word `--selftest-hardfault` executes an undefined instruction to
-//! prove that a HardFault ends the run with a failure code.
+//! prove that a HardFault ends the run with a failure code, and a third word
+//! `--rate-100hz` runs the station at 100 Hz ([`ReplaySetup::example_100hz`])
+//! instead of 10 Hz, for the guard step's instruction count (`ci.sh`).
 //!
 //! Exit codes (semihosting extended exit): 0 replay done, 2 usage or file
 //! error, 3 malformed log, 4 HardFault, 5 internal error, 101 panic.
@@ -76,13 +78,21 @@ fn run() -> u32 {
     };
     let mut words = cmd.split_ascii_whitespace().skip(1);
     let Some(path) = words.next() else {
-        hprintln!("usage: mps2-replay <log.csv> [--selftest-hardfault]");
+        hprintln!("usage: mps2-replay <log.csv> [--rate-100hz | --selftest-hardfault]");
         return EXIT_USAGE;
     };
-    if words.next() == Some("--selftest-hardfault") {
-        hprintln!("selftest: executing an undefined instruction");
-        cortex_m::asm::udf();
-    }
+    let setup = match words.next() {
+        None => ReplaySetup::example(),
+        Some("--rate-100hz") => ReplaySetup::example_100hz(),
+        Some("--selftest-hardfault") => {
+            hprintln!("selftest: executing an undefined instruction");
+            cortex_m::asm::udf();
+        }
+        Some(_) => {
+            hprintln!("usage: mps2-replay <log.csv> [--rate-100hz | --selftest-hardfault]");
+            return EXIT_USAGE;
+        }
+    };
 
     let Some(fd) = open_read(path) else {
         hprintln!("error reason=cannot_open path={}", path);
@@ -90,7 +100,7 @@ fn run() -> u32 {
     };
     // The rig, the station and the buffers live in statics: nothing grows at
     // run time, and the set-up's temporaries are gone before the replay runs.
-    let Some(replay) = build_replay() else {
+    let Some(replay) = build_replay(&setup) else {
         return EXIT_INTERNAL;
     };
     let Some(splitter) = cortex_m::singleton!(: LineSplitter<160> = LineSplitter::new()) else {
@@ -146,15 +156,13 @@ fn run() -> u32 {
 /// [`fill`], whose constructor writes its result straight into the static.
 /// Kept out of line so its frame is released before the replay runs.
 #[inline(never)]
-fn build_replay() -> Option<&'static mut Replay<'static>> {
+fn build_replay(setup: &ReplaySetup) -> Option<&'static mut Replay<'static>> {
     let rig_slot = cortex_m::singleton!(: MaybeUninit<Result<Rig, Error>> = MaybeUninit::uninit())?;
     let rig: &'static Rig = fill(rig_slot, example_rig).as_ref().ok()?;
     let replay_slot = cortex_m::singleton!(
         : MaybeUninit<Result<Replay<'static>, Error>> = MaybeUninit::uninit()
     )?;
-    fill(replay_slot, || Replay::new(&ReplaySetup::example(), rig))
-        .as_mut()
-        .ok()
+    fill(replay_slot, || Replay::new(setup, rig)).as_mut().ok()
 }
 
 /// Writes `make()` into `slot` and returns it. Out of line, with `slot` a
