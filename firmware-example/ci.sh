@@ -60,6 +60,41 @@ readelf -SW "$ELF" | sed 's/^ *\[ *[0-9]*\] *//' | awk -v flash_budget="$FLASH_B
     if (flash > flash_budget || ram > ram_budget) { print "over budget"; exit 1 }
   }'
 
+step "firmware: no software double precision in the image; square root by the FPU"
+# The Cortex-M4F's FPU does single precision only: any f64 operation becomes
+# a call into compiler-builtins' soft-float routines (hundreds of
+# instructions each). The core keeps the guard's path in f32 (core/src/math.rs:
+# its own sin, cos and hypot; libm's f32 routines otherwise; vsqrt.f32), and
+# nothing else in the image uses f64 either, so the check is on the whole
+# image: no double-precision helper is linked at all (a stricter form of
+# "none reachable from the guard step").
+llvm-objdump -d --no-show-raw-insn -C "$ELF" >"$OUT/firmware.dis"
+DOUBLE_HELPERS='__aeabi_d[a-z0-9]*|__aeabi_[iuf]l?2d|__aeabi_f2d|__aeabi_l2d|__aeabi_ul2d|__(add|sub|mul|div)df3|__extendsfdf2|__truncdfsf2|__fix(uns)?df[sd]i|__float(un)?[sd]idf|__(eq|ne|lt|le|gt|ge|un)df2'
+if grep -Eq "^[0-9a-f]+ <(${DOUBLE_HELPERS})>:" "$OUT/firmware.dis" ||
+  grep -Eq "^[0-9a-f]+ <compiler_builtins::float::[a-z_]+::__[a-z]+df[0-9a-z]*>:" "$OUT/firmware.dis"; then
+  echo "software double precision is linked into $ELF:"
+  grep -E "^[0-9a-f]+ <((${DOUBLE_HELPERS})|compiler_builtins::float::[a-z_]+::__[a-z]+df[0-9a-z]*)>:" "$OUT/firmware.dis"
+  echo "called from:"
+  awk -v re="<((${DOUBLE_HELPERS})|compiler_builtins::float::[a-z_]+::__[a-z]+df[0-9a-z]*)>" '
+    /^[0-9a-f]+ <.*>:$/ { fn = $0 }
+    /\t(bl|blx|b|b\.w)\t/ && $0 ~ re { match($0, /<[^>]*>/); print "  " fn " -> " substr($0, RSTART, RLENGTH) }' "$OUT/firmware.dis" | sort | uniq -c
+  exit 1
+fi
+if grep -Eq '\.f64\b' "$OUT/firmware.dis"; then
+  echo "double-precision FPU instructions in $ELF (the Cortex-M4F has none)"
+  exit 1
+fi
+if ! grep -Eq $'\tvsqrt\\.f32' "$OUT/firmware.dis"; then
+  echo "no vsqrt.f32 in $ELF: the core's square root is not the FPU's"
+  exit 1
+fi
+echo "no software double-precision routine linked; $(grep -c $'\tvsqrt\\.f32' "$OUT/firmware.dis") vsqrt.f32"
+# The FPU's square root must give libm's bits: every f32 in [1, 4) (all the
+# rounding cases of normal numbers) and a stride over the whole range.
+timeout 120 qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \
+  -semihosting-config "enable=on,target=native,arg=mps2-replay,arg=--selftest-sqrt" \
+  -kernel "$ELF"
+
 step "firmware: QEMU mps2-an386 replay of $LOG"
 rc=0
 timeout 120 qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \

@@ -3,6 +3,19 @@
 //! Every transcendental function the crate uses goes through this module, so the
 //! `libm` (default) and `micromath` features switch all of them at once. With both
 //! features on, `micromath` wins. Angles are radians everywhere.
+//!
+//! **Single precision only.** On a Cortex-M4F the FPU does `f32` only, and any
+//! `f64` operation is a software routine of hundreds of instructions. Under
+//! `libm`, three functions are therefore this module's own `f32` code rather
+//! than libm's (whose `sinf`, `cosf` and `hypotf` compute in `f64`): [`sin`],
+//! [`cos`] and [`hypot`]; every other function is libm's `f32` routine, which
+//! uses no `f64`. [`sqrt`] is the FPU's `vsqrt.f32` on targets with a
+//! hardware-float ABI (`target_abi = "eabihf"`) and libm's `sqrtf` elsewhere:
+//! both are IEEE 754 square roots, correctly rounded, so the results are the
+//! same bits and a host replay still matches the firmware's exactly. The same
+//! `f32` code runs on every target, so [`sin`], [`cos`] and [`hypot`] give the
+//! same bits on the host and on the board too. `firmware-example/ci.sh` checks
+//! the firmware's disassembly for software double-precision routines.
 
 #[cfg(not(any(feature = "libm", feature = "micromath")))]
 compile_error!("standfast needs a math back end: enable feature `libm` (default) or `micromath`");
@@ -36,13 +49,97 @@ pub fn sqrt(x: f32) -> f32 {
         y = 0.5 * (y + x / y);
         0.5 * (y + x / y)
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(all(
+        feature = "libm",
+        not(feature = "micromath"),
+        target_arch = "arm",
+        target_abi = "eabihf"
+    ))]
+    {
+        vsqrt_f32(x)
+    }
+    #[cfg(all(
+        feature = "libm",
+        not(feature = "micromath"),
+        not(all(target_arch = "arm", target_abi = "eabihf"))
+    ))]
     {
         libm::sqrtf(x)
     }
 }
 
+/// The square root by the FPU's `vsqrt.f32` (Arm VFP, present on every
+/// hard-float ABI target: Cortex-M4F/M7/M33 and A-profile): the IEEE 754
+/// square root, correctly rounded in the FPU's default round-to-nearest mode,
+/// so the same bits as libm's correctly rounded `sqrtf` (compared on the
+/// target in QEMU by `firmware-example/ci.sh`, `--selftest-sqrt`).
+///
+/// The instruction sits in a two-instruction leaf function of its own
+/// (`global_asm!`), because `asm!` with single-precision registers needs the
+/// `vfp2` target feature, which stable Rust does not let a crate name; under
+/// the hard-float ABI (AAPCS-VFP) the argument and the result are both in
+/// `s0`. A call and a return more than the bare instruction, against about
+/// a hundred instructions of libm's integer square root.
+#[cfg(all(
+    feature = "libm",
+    not(feature = "micromath"),
+    target_arch = "arm",
+    target_abi = "eabihf"
+))]
+#[inline]
+#[must_use]
+#[allow(unsafe_code)]
+fn vsqrt_f32(x: f32) -> f32 {
+    // SAFETY: `standfast_vsqrt_f32` (below) takes an `f32` in s0 and returns
+    // its square root in s0, as the hard-float ABI passes them; it touches no
+    // memory, no stack and no other register (it may set FPSCR's cumulative
+    // exception bits, which nothing reads).
+    unsafe { fpu::standfast_vsqrt_f32(x) }
+}
+
+/// The `vsqrt.f32` leaf function and its declaration (the only `unsafe` of
+/// the crate: `global_asm!` and the foreign declaration).
+#[cfg(all(
+    feature = "libm",
+    not(feature = "micromath"),
+    target_arch = "arm",
+    target_abi = "eabihf"
+))]
+#[allow(unsafe_code)]
+mod fpu {
+    core::arch::global_asm!(
+        ".section .text.standfast_vsqrt_f32,\"ax\",%progbits",
+        ".global standfast_vsqrt_f32",
+        ".hidden standfast_vsqrt_f32",
+        ".type standfast_vsqrt_f32,%function",
+        ".syntax unified",
+        ".fpu vfpv2",
+        ".thumb",
+        ".thumb_func",
+        ".p2align 1",
+        "standfast_vsqrt_f32:",
+        "vsqrt.f32 s0, s0",
+        "bx lr",
+        ".size standfast_vsqrt_f32, . - standfast_vsqrt_f32",
+        ".text",
+    );
+
+    unsafe extern "C" {
+        /// `vsqrt.f32 s0, s0; bx lr` (the `global_asm!` above).
+        pub(super) fn standfast_vsqrt_f32(x: f32) -> f32;
+    }
+}
+
 /// Sine of an angle in radians.
+///
+/// Under `libm`: this module's own single-precision routine (no `f64`; see the
+/// module docs): the argument is reduced by π/2 in three parts (exact for
+/// |x| ≤ 8192, beyond that the reduction loses accuracy gradually; no angle
+/// of the model comes near), then a degree-7 odd or degree-8 even polynomial
+/// on [−π/4, π/4]. Within 2 units in the last place of libm's `sinf` for
+/// |x| ≤ 8192 and within 1.2e−7 absolute (unit tests); NaN for a NaN or
+/// infinite argument and for |x| ≥ 2²⁴ (where neighbouring `f32` values are
+/// radians apart: no angle); otherwise the result never leaves [−1, 1].
 #[inline]
 #[must_use]
 pub fn sin(x: f32) -> f32 {
@@ -52,11 +149,12 @@ pub fn sin(x: f32) -> f32 {
     }
     #[cfg(all(feature = "libm", not(feature = "micromath")))]
     {
-        libm::sinf(x)
+        sin_cos_f32(x).0
     }
 }
 
-/// Cosine of an angle in radians.
+/// Cosine of an angle in radians. Under `libm`: this module's own
+/// single-precision routine, as [`sin`].
 #[inline]
 #[must_use]
 pub fn cos(x: f32) -> f32 {
@@ -66,8 +164,52 @@ pub fn cos(x: f32) -> f32 {
     }
     #[cfg(all(feature = "libm", not(feature = "micromath")))]
     {
-        libm::cosf(x)
+        sin_cos_f32(x).1
     }
+}
+
+/// Sine and cosine of an angle in radians, in single precision only (see
+/// [`sin`]). Quadrant `j` = round(x · 2/π); r = x − j·π/2 with π/2 split in
+/// three `f32` parts whose leading two have trailing zero bits (8 and 11
+/// significant bits), so `j·P1` and `j·P2` are exact for |j| < 2¹³
+/// (|x| ≤ 8192 gives |j| ≤ 5216); then sin r and cos r
+/// by their Taylor-like minimax polynomials on [−π/4, π/4] (coefficients
+/// close to the Taylor ones, adjusted for single precision; from memory of
+/// the usual single-precision set, checked by the unit tests against libm).
+#[cfg(all(feature = "libm", not(feature = "micromath")))]
+#[inline]
+fn sin_cos_f32(x: f32) -> (f32, f32) {
+    // π/2 = P1 + P2 + P3 to about 2^-50: 1.5703125 (8 significant bits),
+    // 4.837513e-4 (11 bits), then the rest rounded to single precision.
+    const P1: f32 = 1.570_312_5;
+    const P2: f32 = 4.837513e-4;
+    const P3: f32 = 7.54979e-8;
+    // From 2^24 on, neighbouring f32 values are 2 rad or more apart: such an
+    // argument is no angle, and NaN says so (the callers treat NaN as a
+    // figure they cannot trust).
+    if x.is_nan() || x.abs() >= 16_777_216.0 {
+        return (f32::NAN, f32::NAN);
+    }
+    // Below 2^-12, x³/6 is under half a unit in the last place of x and
+    // x²/2 under half a unit of 1 (and sin keeps the sign of −0).
+    if x.abs() < 1.0 / 4096.0 {
+        return (x, 1.0);
+    }
+    let jf = floor(x * core::f32::consts::FRAC_2_PI + 0.5);
+    let r = ((x - jf * P1) - jf * P2) - jf * P3;
+    let z = r * r;
+    let s = r + r * z * (-1.6666655e-1 + z * (8.332161e-3 + z * -1.9515296e-4));
+    let c = 1.0 - 0.5 * z + z * z * (4.1666646e-2 + z * (-1.3887316e-3 + z * 2.4433157e-5));
+    // The quadrant modulo 4 (|jf| < 2^24 here, so the conversion is exact;
+    // `as` would saturate, never panic, in any case).
+    let q = (jf as i64) & 3;
+    let (sin, cos) = match q {
+        0 => (s, c),
+        1 => (c, -s),
+        2 => (-s, -c),
+        _ => (-c, s),
+    };
+    (clamp(sin, -1.0, 1.0), clamp(cos, -1.0, 1.0))
 }
 
 /// Four-quadrant arc tangent of `y / x`, in radians in (−π, π].
@@ -168,7 +310,14 @@ pub fn powf(x: f32, y: f32) -> f32 {
     }
 }
 
-/// `sqrt(x² + y²)` without undue overflow.
+/// `sqrt(x² + y²)` without undue overflow or underflow.
+///
+/// Under `libm`: this module's own single-precision routine (libm's `hypotf`
+/// computes in `f64`): both arguments are scaled by a power of two (exact)
+/// into a range where their squares neither overflow nor underflow, then
+/// [`sqrt`] of the sum of squares, scaled back. Within 1 unit in the last
+/// place of libm's `hypotf` (unit tests). Infinite if either argument is
+/// infinite, else NaN if either is NaN (as C's `hypot`).
 #[inline]
 #[must_use]
 pub fn hypot(x: f32, y: f32) -> f32 {
@@ -178,7 +327,37 @@ pub fn hypot(x: f32, y: f32) -> f32 {
     }
     #[cfg(all(feature = "libm", not(feature = "micromath")))]
     {
-        libm::hypotf(x, y)
+        hypot_f32(x, y)
+    }
+}
+
+/// See [`hypot`].
+#[cfg(all(feature = "libm", not(feature = "micromath")))]
+#[inline]
+fn hypot_f32(x: f32, y: f32) -> f32 {
+    /// 2^64 and 2^-64: squares of values up to 2^63 stay below f32::MAX
+    /// (about 2^128), and of values down to 2^-63 above the normal range.
+    const TWO_64: f32 = 18_446_744_073_709_551_616.0;
+    const TWO_M64: f32 = 1.0 / TWO_64;
+    let (a, b) = (x.abs(), y.abs());
+    if a == f32::INFINITY || b == f32::INFINITY {
+        return f32::INFINITY;
+    }
+    if a.is_nan() || b.is_nan() {
+        return f32::NAN;
+    }
+    let (big, small) = if a >= b { (a, b) } else { (b, a) };
+    if big == 0.0 {
+        return 0.0;
+    }
+    if big > TWO_64 {
+        let (p, q) = (big * TWO_M64, small * TWO_M64);
+        sqrt(p * p + q * q) * TWO_64
+    } else if big < TWO_M64 {
+        let (p, q) = (big * TWO_64, small * TWO_64);
+        sqrt(p * p + q * q) * TWO_M64
+    } else {
+        sqrt(big * big + small * small)
     }
 }
 
@@ -385,5 +564,102 @@ mod tests {
     fn clamped_inverse_trig_never_nan() {
         assert!(!acos(1.000_001).is_nan());
         assert!(!asin(-1.000_001).is_nan());
+    }
+}
+
+/// The single-precision routines against the `libm` crate (a port of musl's
+/// libm: the reference library the module used before; its `sinf`, `cosf` and
+/// `hypotf` compute in `f64`, correctly rounded or within about one unit in
+/// the last place).
+#[cfg(all(test, feature = "libm", not(feature = "micromath")))]
+mod against_libm {
+    use super::*;
+
+    /// Distance in units in the last place between two finite `f32` (the
+    /// number of representable values between them).
+    fn ulps(a: f32, b: f32) -> i64 {
+        let key = |v: f32| {
+            let i = i64::from(v.to_bits() as i32);
+            if i < 0 {
+                i64::from(i32::MIN) - i
+            } else {
+                i
+            }
+        };
+        (key(a) - key(b)).abs()
+    }
+
+    #[test]
+    fn sin_and_cos_within_two_ulps_of_libm_up_to_8192_rad() {
+        let n = 400_000;
+        for lim in [1.0_f32, 8.0, 8192.0] {
+            for i in 0..=n {
+                let x = -lim + 2.0 * lim * (i as f32) / (n as f32);
+                for (ours, theirs) in [(sin(x), libm::sinf(x)), (cos(x), libm::cosf(x))] {
+                    // Near a zero of the function the absolute error counts:
+                    // at most one unit of the last place of 1 (2^-23).
+                    assert!(
+                        (ours - theirs).abs() <= 1.2e-7,
+                        "x = {x}: {ours} vs {theirs}"
+                    );
+                    if theirs.abs() > 1e-3 {
+                        assert!(ulps(ours, theirs) <= 2, "x = {x}: {ours} vs {theirs}");
+                    }
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn sin_and_cos_exact_points_and_bounds() {
+        assert_eq!(sin(0.0), 0.0);
+        assert_eq!(cos(0.0), 1.0);
+        assert!(sin(-0.0).is_sign_negative());
+        assert!((sin(PI / 6.0) - 0.5).abs() <= 6e-8);
+        assert!((cos(PI / 3.0) - 0.5).abs() <= 6e-8);
+        assert!(sin(f32::NAN).is_nan() && cos(f32::INFINITY).is_nan());
+        assert!(sin(f32::NEG_INFINITY).is_nan());
+        // Beyond the exact range the result is still a sine's value, up to
+        // 2^24, from where it is NaN.
+        for x in [1e5_f32, -3.3e6, 16_777_215.0] {
+            assert!((-1.0..=1.0).contains(&sin(x)) && (-1.0..=1.0).contains(&cos(x)));
+        }
+        for x in [16_777_216.0_f32, -3.3e9, 1e30, f32::MAX, -f32::MAX] {
+            assert!(sin(x).is_nan() && cos(x).is_nan());
+        }
+    }
+
+    #[test]
+    fn hypot_within_one_ulp_of_libm() {
+        let mut checked = 0;
+        for i in 0..200_000_u32 {
+            // Magnitudes from about 1e-38 to 1e38, both signs, both orders.
+            let a = f32::from_bits(0x0080_0000_u32.wrapping_add(i.wrapping_mul(10_601)));
+            let b =
+                f32::from_bits(0x0080_0000_u32.wrapping_add(i.wrapping_mul(21_157)) ^ 0x8000_0000);
+            if !a.is_finite() || !b.is_finite() {
+                continue;
+            }
+            let (ours, theirs) = (hypot(a, b), libm::hypotf(a, b));
+            assert!(
+                ulps(ours, theirs) <= 1,
+                "hypot({a:e}, {b:e}) = {ours:e}, libm {theirs:e}"
+            );
+            checked += 1;
+        }
+        assert!(checked > 100_000);
+    }
+
+    #[test]
+    fn hypot_special_values() {
+        assert_eq!(hypot(3.0, 4.0), 5.0);
+        assert_eq!(hypot(-5.0, 12.0), 13.0);
+        assert_eq!(hypot(0.0, -0.0), 0.0);
+        assert_eq!(hypot(3e30, 4e30), libm::hypotf(3e30, 4e30));
+        assert_eq!(hypot(3e-30, 4e-30), libm::hypotf(3e-30, 4e-30));
+        assert_eq!(hypot(f32::INFINITY, f32::NAN), f32::INFINITY);
+        assert_eq!(hypot(f32::NAN, f32::NEG_INFINITY), f32::INFINITY);
+        assert!(hypot(f32::NAN, 1.0).is_nan());
+        assert!(hypot(f32::MAX, f32::MAX).is_infinite());
     }
 }

@@ -11,10 +11,14 @@
 //! third word `--selftest-hardfault` executes an undefined instruction to
 //! prove that a HardFault ends the run with a failure code, and a third word
 //! `--rate-100hz` runs the station at 100 Hz ([`ReplaySetup::example_100hz`])
-//! instead of 10 Hz, for the guard step's instruction count (`ci.sh`).
+//! instead of 10 Hz, for the guard step's instruction count (`ci.sh`). A
+//! second word `--selftest-sqrt` (no log) compares the core's square root
+//! (the FPU's `vsqrt.f32` here) with libm's `sqrtf`, bit for bit (exit 0
+//! when every value agrees, 6 otherwise).
 //!
 //! Exit codes (semihosting extended exit): 0 replay done, 2 usage or file
-//! error, 3 malformed log, 4 HardFault, 5 internal error, 101 panic.
+//! error, 3 malformed log, 4 HardFault, 5 internal error, 6 square-root
+//! self-test failed, 101 panic.
 #![no_std]
 #![no_main]
 // Semihosting calls are `unsafe` (a trap into the debugger with raw pointers).
@@ -34,6 +38,7 @@ const EXIT_USAGE: u32 = 2;
 const EXIT_LOG: u32 = 3;
 const EXIT_HARDFAULT: u32 = 4;
 const EXIT_INTERNAL: u32 = 5;
+const EXIT_SQRT_MISMATCH: u32 = 6;
 const EXIT_PANIC: u32 = 101;
 
 /// SYS_EXIT_EXTENDED: like SYS_EXIT, but its parameter block carries an exit
@@ -81,6 +86,9 @@ fn run() -> u32 {
         hprintln!("usage: mps2-replay <log.csv> [--rate-100hz | --selftest-hardfault]");
         return EXIT_USAGE;
     };
+    if path == "--selftest-sqrt" {
+        return selftest_sqrt();
+    }
     let setup = match words.next() {
         None => ReplaySetup::example(),
         Some("--rate-100hz") => ReplaySetup::example_100hz(),
@@ -171,6 +179,61 @@ fn build_replay(setup: &ReplaySetup) -> Option<&'static mut Replay<'static>> {
 #[inline(never)]
 fn fill<T>(slot: &'static mut MaybeUninit<T>, make: impl FnOnce() -> T) -> &'static mut T {
     slot.write(make())
+}
+
+/// Compares `standfast::math::sqrt` (on this target the FPU's `vsqrt.f32`)
+/// with libm's correctly rounded `sqrtf`, bit for bit (every NaN counts as
+/// equal to every NaN). Every `f32` in [1, 4) is tried: a square root's
+/// significand depends only on the argument's significand and the parity
+/// of its exponent, so that range covers every rounding case of normal
+/// numbers; then every 4099th bit pattern across the whole range (both
+/// signs, subnormals, infinities, NaNs) for the scaling and the special
+/// cases.
+fn selftest_sqrt() -> u32 {
+    let same = |x: f32| {
+        let (ours, reference) = (standfast::math::sqrt(x), libm::sqrtf(x));
+        ours.to_bits() == reference.to_bits() || (ours.is_nan() && reference.is_nan())
+    };
+    let mut tried: u32 = 0;
+    let mut differ: u32 = 0;
+    let mut first_bad: Option<u32> = None;
+    let mut check = |bits: u32| {
+        tried = tried.wrapping_add(1);
+        if !same(f32::from_bits(bits)) {
+            differ = differ.saturating_add(1);
+            first_bad.get_or_insert(bits);
+        }
+    };
+    // [1, 4): 1.0 is 0x3f80_0000, 4.0 is 0x4080_0000.
+    for bits in 0x3f80_0000_u32..0x4080_0000 {
+        check(bits);
+    }
+    let mut bits: u32 = 0;
+    loop {
+        check(bits);
+        let Some(next) = bits.checked_add(4099) else {
+            break;
+        };
+        bits = next;
+    }
+    for bits in [
+        0x0000_0000,
+        0x8000_0000,
+        0x7f80_0000,
+        0xff80_0000,
+        0x0000_0001,
+        0x7f7f_ffff,
+    ] {
+        check(bits);
+    }
+    hprintln!("selftest sqrt: tried={} differ={}", tried, differ);
+    match first_bad {
+        None => EXIT_OK,
+        Some(b) => {
+            hprintln!("selftest sqrt: first difference at bits={:#010x}", b);
+            EXIT_SQRT_MISMATCH
+        }
+    }
 }
 
 /// Opens a host file for reading; `None` on failure.
