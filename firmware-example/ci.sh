@@ -11,11 +11,20 @@ TARGET=thumbv7em-none-eabihf
 ELF="target/$TARGET/firmware/mps2-replay"
 LOG=firmware-example/replay/short-night.csv
 OUT=target/firmware-ci
-# The issue's aim: flash under 64 KiB and static RAM (.data + .bss) under
-# 16 KiB for the whole example, guard included (README, "Memory and flash").
-# The stack is not in these figures; the QEMU run prints its peak on stderr.
+# Memory (README, "Memory and flash"), for the whole example image, guard
+# and replay harness included, in the release firmware profile (`firmware`):
+# - hard limits, CI fails above them: flash 64 KiB, static RAM (.data +
+#   .bss) 16 KiB, static RAM + measured peak stack 24 KiB;
+# - aims (issue 15): flash <= 48 KiB and static RAM + peak stack <= 16 KiB:
+#   reported as met or not; STANDFAST_FIRMWARE_AIMS=enforce makes CI fail
+#   when one is not met.
+# The peak stack is measured in the QEMU runs (the stack is painted at reset;
+# the binary reports the deepest word overwritten on stderr).
 FLASH_BUDGET=$((64 * 1024))
 RAM_BUDGET=$((16 * 1024))
+RAM_STACK_LIMIT=$((24 * 1024))
+FLASH_AIM=$((48 * 1024))
+RAM_STACK_AIM=$((16 * 1024))
 mkdir -p "$OUT"
 
 step "firmware: tools (qemu-system-arm, a C compiler for the plug-in, python3, llvm-objdump)"
@@ -57,8 +66,10 @@ readelf -SW "$ELF" | sed 's/^ *\[ *[0-9]*\] *//' | awk -v flash_budget="$FLASH_B
   END {
     printf "flash: %d bytes (%.1f KiB of %d KiB budget)\n", flash, flash / 1024, flash_budget / 1024
     printf "static RAM: %d bytes (%.1f KiB of %d KiB budget)\n", ram, ram / 1024, ram_budget / 1024
+    printf "%d %d\n", flash, ram > "/dev/stderr"
     if (flash > flash_budget || ram > ram_budget) { print "over budget"; exit 1 }
-  }'
+  }' 2>"$OUT/size.txt"
+read -r FLASH_BYTES STATIC_RAM_BYTES <"$OUT/size.txt"
 
 step "firmware: no software double precision in the image; square root by the FPU"
 # The Cortex-M4F's FPU does single precision only: any f64 operation becomes
@@ -191,6 +202,35 @@ if [ "$rows" != "$counted" ] || ! grep -q 'unpaired=0 ' "$OUT/qemu-stderr-100hz.
 fi
 echo "guard step at 100 Hz, instructions:"
 step_stats "$OUT/steps-100hz.txt" "$STEP_MEAN_AIM" "$STEP_P99_AIM"
+
+step "firmware: memory budget (release firmware profile)"
+peak_stack() { sed -n 's/^memory stack_peak_bytes=\([0-9]*\)$/\1/p' "$1" | tail -n 1; }
+STACK_10HZ=$(peak_stack "$OUT/qemu-stderr.txt")
+STACK_100HZ=$(peak_stack "$OUT/qemu-stderr-100hz.txt")
+if [ -z "$STACK_10HZ" ] || [ -z "$STACK_100HZ" ]; then
+  echo "a QEMU run reported no peak stack"
+  exit 1
+fi
+STACK_BYTES=$((STACK_10HZ > STACK_100HZ ? STACK_10HZ : STACK_100HZ))
+RAM_STACK_BYTES=$((STATIC_RAM_BYTES + STACK_BYTES))
+aim() { if [ "$1" -le "$2" ]; then echo "met"; else echo "NOT MET"; fi; }
+kib() { awk -v b="$1" 'BEGIN { printf "%.1f", b / 1024 }'; }
+printf 'flash                 %6d bytes (%s KiB)  aim <= %d KiB: %s\n' "$FLASH_BYTES" \
+  "$(kib "$FLASH_BYTES")" $((FLASH_AIM / 1024)) "$(aim "$FLASH_BYTES" "$FLASH_AIM")"
+printf 'static RAM            %6d bytes\n' "$STATIC_RAM_BYTES"
+printf 'peak stack            %6d bytes (10 Hz run %d, 100 Hz run %d)\n' "$STACK_BYTES" "$STACK_10HZ" "$STACK_100HZ"
+printf 'static RAM + stack    %6d bytes (%s KiB)  aim <= %d KiB: %s; limit %d KiB\n' "$RAM_STACK_BYTES" \
+  "$(kib "$RAM_STACK_BYTES")" $((RAM_STACK_AIM / 1024)) "$(aim "$RAM_STACK_BYTES" "$RAM_STACK_AIM")" \
+  $((RAM_STACK_LIMIT / 1024))
+if [ "$RAM_STACK_BYTES" -gt "$RAM_STACK_LIMIT" ]; then
+  echo "static RAM + peak stack over the ${RAM_STACK_LIMIT}-byte limit"
+  exit 1
+fi
+if [ "${STANDFAST_FIRMWARE_AIMS:-report}" = enforce ] &&
+  { [ "$FLASH_BYTES" -gt "$FLASH_AIM" ] || [ "$RAM_STACK_BYTES" -gt "$RAM_STACK_AIM" ]; }; then
+  echo "STANDFAST_FIRMWARE_AIMS=enforce: a memory aim is not met"
+  exit 1
+fi
 
 step "firmware: a HardFault ends the emulated run with a failure"
 rc=0
