@@ -12,9 +12,9 @@
 //! the calls, keeps them distinct and moves no memory access of the step
 //! across them. Without the feature both are empty and inlined away.
 //!
-//! A counted step therefore includes the begin mark's own few instructions
-//! (a move, the opaque use and the return: under 10) and the set-up of the
-//! step's arguments, and excludes the end mark.
+//! A counted step therefore includes the begin mark's own six instructions,
+//! the set-up of the step's arguments and the call of the end mark, and
+//! excludes the end mark's body.
 
 /// Marks the start of a guard step (see the module docs).
 #[cfg(feature = "step-marks")]
