@@ -262,3 +262,60 @@ fn lines_split_across_chunks_and_overlong_lines_are_flagged() {
     s.finish(&mut each).unwrap();
     assert_eq!(got, ["abc", "de", "<bad>", "last"]);
 }
+
+/// A few rows of the short night's first second, every 10 ms, with one gap
+/// of 60 ms (from 100 to 160 ms).
+fn rows_with_a_60_ms_gap() -> String {
+    let mut text = format!("{HEADER}\n");
+    for t in (0..=100).step_by(10).chain([160, 170]) {
+        text.push_str(&format!("{t},144,0,16000,0,247,,\n"));
+    }
+    text
+}
+
+#[test]
+fn the_100hz_setup_steps_every_10_ms() {
+    // `ReplaySetup::example_100hz` (documented there): the example with a
+    // 10 ms period, the configuration read back every 100 steps (once a
+    // second, as the example's every 10 steps at 100 ms) and the sensor at
+    // 200 Hz, twice the loop rate; nothing else differs.
+    let (ten, hundred) = (ReplaySetup::example(), ReplaySetup::example_100hz());
+    assert_eq!(hundred.station.period_ms, 10);
+    assert_eq!(hundred.station.verify_every_steps, 100);
+    assert_eq!(
+        u64::from(hundred.station.period_ms) * u64::from(hundred.station.verify_every_steps),
+        u64::from(ten.station.period_ms) * u64::from(ten.station.verify_every_steps)
+    );
+    assert_eq!(
+        hundred.accel.rate,
+        standfast_firmware::lis3dh::DataRate::Hz200
+    );
+    let mut same = hundred;
+    same.station.period_ms = ten.station.period_ms;
+    same.station.verify_every_steps = ten.station.verify_every_steps;
+    same.accel.rate = ten.accel.rate;
+    assert_eq!(same, ten);
+    // The station calls a step late after more than two periods: a 60 ms
+    // gap is late at 10 ms, not at 100 ms.
+    let rig = example_rig().unwrap();
+    let late = |setup: &ReplaySetup| -> Vec<String> {
+        let mut r = Replay::new(setup, &rig).unwrap();
+        let mut out = Vec::new();
+        for line in rows_with_a_60_ms_gap().lines() {
+            if let Some(rep) = r.feed_line(line).unwrap() {
+                out.extend(
+                    rep.events
+                        .iter()
+                        .map(|e| e.to_string())
+                        .filter(|e| e.contains("kind=late")),
+                );
+            }
+        }
+        out
+    };
+    assert_eq!(
+        late(&ReplaySetup::example_100hz()),
+        ["event t_ms=160 kind=late gap_ms=60"]
+    );
+    assert!(late(&ReplaySetup::example()).is_empty());
+}
