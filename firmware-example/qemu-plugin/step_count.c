@@ -10,6 +10,10 @@
  *          bit of a symbol's value, is ignored
  *   end    address of the first instruction of the end mark
  *   out    file that receives one count per line, in execution order
+ *   profile  (optional) file that receives, at exit, one line per translated
+ *          block executed inside the marks: its address, its instruction
+ *          count and how often it ran there (a profile of the steps, by
+ *          block; a block left early by an exception counts in full)
  *
  * Method: every translated guest instruction gets an inline 64-bit add of
  * one to a running counter, so the counter is exact whatever way execution
@@ -48,6 +52,24 @@ static uint64_t passes;      /* counts written */
 static uint64_t unpaired;    /* a mark out of order (begin twice, end first) */
 static uint64_t total_in_steps;
 
+/* The optional profile: one record per translation, kept in a list. */
+struct block {
+    uint64_t vaddr;
+    uint64_t n_insns;
+    uint64_t runs_inside;
+    struct block *next;
+};
+static FILE *profile;
+static struct block *blocks;
+
+static void on_block(unsigned int vcpu, void *udata)
+{
+    (void)vcpu;
+    if (inside) {
+        ((struct block *)udata)->runs_inside++;
+    }
+}
+
 static void on_begin(unsigned int vcpu, void *udata)
 {
     (void)vcpu;
@@ -78,6 +100,17 @@ static void on_translate(qemu_plugin_id_t id, struct qemu_plugin_tb *tb)
 {
     (void)id;
     size_t n = qemu_plugin_tb_n_insns(tb);
+    if (profile) {
+        struct block *b = calloc(1, sizeof *b);
+        if (b) {
+            b->vaddr = qemu_plugin_tb_vaddr(tb);
+            b->n_insns = n;
+            b->next = blocks;
+            blocks = b;
+            qemu_plugin_register_vcpu_tb_exec_cb(tb, on_block,
+                                                 QEMU_PLUGIN_CB_NO_REGS, b);
+        }
+    }
     for (size_t i = 0; i < n; i++) {
         struct qemu_plugin_insn *insn = qemu_plugin_tb_get_insn(tb, i);
         uint64_t pc = qemu_plugin_insn_vaddr(insn);
@@ -106,6 +139,15 @@ static void on_exit_qemu(qemu_plugin_id_t id, void *udata)
     fputs(line, stderr);
     if (out) {
         fflush(out);
+    }
+    if (profile) {
+        for (struct block *b = blocks; b; b = b->next) {
+            if (b->runs_inside) {
+                fprintf(profile, "0x%" PRIx64 " %" PRIu64 " %" PRIu64 "\n",
+                        b->vaddr, b->n_insns, b->runs_inside);
+            }
+        }
+        fflush(profile);
     }
 }
 
@@ -143,10 +185,16 @@ QEMU_PLUGIN_EXPORT int qemu_plugin_install(qemu_plugin_id_t id,
             }
         } else if (strncmp(a, "out=", 4) == 0) {
             out_path = a + 4;
+        } else if (strncmp(a, "profile=", 8) == 0) {
+            profile = fopen(a + 8, "w");
+            if (!profile) {
+                perror("step_count: cannot open the profile file");
+                return -1;
+            }
         } else {
             fprintf(stderr,
                     "step_count: unknown argument %s (accepted: begin=, end=, "
-                    "out=)\n",
+                    "out=, profile=)\n",
                     a);
             return -1;
         }
