@@ -534,3 +534,30 @@ fn a_sinking_leg_raises_watch() {
         "{changes:?}"
     );
 }
+
+/// A defined wind direction is used as measured (the vane's mean over its
+/// window, here 0.02 rad from samples spread evenly over 0 to 0.04 rad), not
+/// replaced by the worst direction; with no direction at all the guard takes
+/// the worst one, whose utilisation is at least as high.
+#[test]
+fn a_measured_direction_is_used_and_an_unknown_one_is_the_worst() {
+    let rig = rig();
+    let mut g = settled(&rig);
+    let v = run(&mut g, 400, 500, 12.0, |_| {}).pop().unwrap();
+    approx::assert_relative_eq!(v.wind_from_rad.unwrap(), 0.02, epsilon = 0.005);
+    let mut blind = settled(&rig);
+    let w = run(&mut blind, 400, 1000, 12.0, |i| {
+        if let Some(w) = i.wind.as_mut() {
+            w.from_rad = None;
+        }
+    })
+    .pop()
+    .unwrap();
+    assert!(
+        w.faults.is_empty() || w.stage == Stage::SensorFault,
+        "{w:?}"
+    );
+    if w.faults.is_empty() {
+        assert!(w.overturning_utilisation.unwrap() >= v.overturning_utilisation.unwrap() - 1e-4);
+    }
+}
