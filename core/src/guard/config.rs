@@ -279,3 +279,38 @@ fn check_ms(field: &'static str, value_ms: u64, max_ms: u64) -> Result<u64, Erro
         max,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Durations in seconds become whole milliseconds, rounded to nearest
+    /// (half up): 600 s is 600 000 ms exactly, 1.5 ms is 2 ms, 0 is 0.
+    #[test]
+    fn durations_round_to_whole_milliseconds() {
+        assert_eq!(s_to_ms(600.0), 600_000);
+        assert_eq!(s_to_ms(0.0015), 2);
+        assert_eq!(s_to_ms(0.0014), 1);
+        assert_eq!(s_to_ms(0.0), 0);
+        let c = GuardConfig {
+            dwell_s: 20.0,
+            fault_clear_s: 5.0,
+            ..GuardConfig::default()
+        };
+        let t = c.thresholds();
+        assert_eq!((t.dwell_ms, t.fault_clear_ms), (20_000, 5_000));
+        assert_eq!(t.clear_ratio, c.clear_ratio);
+    }
+
+    /// The evaluation period is accepted from 0 to a minute, inclusive.
+    #[test]
+    fn the_evaluation_period_range_is_inclusive() {
+        for (ms, ok) in [(0, true), (60_000, true), (60_001, false)] {
+            let c = GuardConfig {
+                evaluate_every_ms: ms,
+                ..GuardConfig::default()
+            };
+            assert_eq!(c.validate().is_ok(), ok, "{ms} ms");
+        }
+    }
+}
