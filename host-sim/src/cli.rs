@@ -43,6 +43,8 @@ pub enum Command {
     Demo(crate::replay::DemoArgs),
     /// Read live samples (JSON lines or CSV) on standard input and write one JSON verdict line per sample.
     Bridge(crate::bridge::BridgeArgs),
+    /// Write a rig file as a versioned, checksummed binary rig image for the C ABI (core/ffi).
+    RigImage(crate::rig_image::RigImageArgs),
 }
 
 /// Arguments of `gen-demo`.
@@ -85,6 +87,7 @@ pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
         Command::Replay(a) => crate::replay::run_replay(a, out),
         Command::Demo(a) => crate::replay::run_demo(a, out),
         Command::Bridge(a) => crate::bridge::run_bridge(a, out),
+        Command::RigImage(a) => crate::rig_image::run(a, out),
     }
 }
 

@@ -19,6 +19,7 @@ pub mod located;
 pub mod log;
 pub mod replay;
 pub mod report;
+pub mod rig_image;
 pub mod rigfile;
 pub mod summary;
 pub mod units;

@@ -1,0 +1,365 @@
+//! The one place where the core's enums meet the C integer codes: every
+//! code's value, its static C name, and the exhaustive mapping from the
+//! core's types. A new variant in the core fails to compile here (no
+//! wildcard arms) until it has a code and a name.
+//!
+//! **Rule:** a code's value never changes and is never reused; new codes
+//! are appended and raise [`crate::SF_ABI_VERSION`].
+
+use core::ffi::CStr;
+use standfast::guard::{Cause, Event, Stage};
+use standfast::sense::{Fault, Sensor};
+use standfast::ErrorKind;
+
+/// A status code returned by every `sf_*` function that can fail.
+pub type SfStatus = u32;
+/// Success.
+pub const SF_OK: SfStatus = 0;
+/// A required pointer argument is null.
+pub const SF_ERR_NULL_POINTER: SfStatus = 1;
+/// A pointer argument is not aligned for its type (or the guard storage not
+/// to [`crate::SF_GUARD_STORAGE_ALIGN`]).
+pub const SF_ERR_MISALIGNED: SfStatus = 2;
+/// The guard storage is smaller than [`crate::SF_GUARD_STORAGE_SIZE`].
+pub const SF_ERR_STORAGE_TOO_SMALL: SfStatus = 3;
+/// The handle is not an initialised guard (never initialised, finished, or
+/// overwritten).
+pub const SF_ERR_BAD_HANDLE: SfStatus = 4;
+/// The rig image is shorter than its header or than its header says.
+pub const SF_ERR_IMAGE_TRUNCATED: SfStatus = 5;
+/// The rig image does not start with the magic bytes `SFRI`.
+pub const SF_ERR_IMAGE_MAGIC: SfStatus = 6;
+/// The rig image has another format version (the error's `value` holds it,
+/// `min` and `max` the version this library reads).
+pub const SF_ERR_IMAGE_VERSION: SfStatus = 7;
+/// The rig image's header size, payload size or total size is wrong.
+pub const SF_ERR_IMAGE_SIZE: SfStatus = 8;
+/// The rig image's CRC-32 does not match: the image is damaged.
+pub const SF_ERR_IMAGE_CHECKSUM: SfStatus = 9;
+/// The rig image's payload does not decode into a rig and guard settings.
+pub const SF_ERR_IMAGE_PAYLOAD: SfStatus = 10;
+/// A value is NaN or infinite (the core's `ErrorKind::NotFinite`).
+pub const SF_ERR_NOT_FINITE: SfStatus = 11;
+/// A value lies outside `[min, max]` (`ErrorKind::OutOfRange`); also an
+/// integer code or flag outside its set at the boundary.
+pub const SF_ERR_OUT_OF_RANGE: SfStatus = 12;
+/// Two feet closer than 1 mm (`ErrorKind::DuplicateFoot`).
+pub const SF_ERR_DUPLICATE_FOOT: SfStatus = 13;
+/// The feet lie on one line (`ErrorKind::CollinearFeet`).
+pub const SF_ERR_COLLINEAR_FEET: SfStatus = 14;
+/// More items than a capacity (`ErrorKind::TooMany`; `max` holds it).
+pub const SF_ERR_TOO_MANY: SfStatus = 15;
+/// Fewer items than needed (`ErrorKind::TooFew`; `min` holds it).
+pub const SF_ERR_TOO_FEW: SfStatus = 16;
+/// A direction vector of zero length (`ErrorKind::ZeroDirection`).
+pub const SF_ERR_ZERO_DIRECTION: SfStatus = 17;
+/// A requested result cannot be reached (`ErrorKind::Unreachable`).
+pub const SF_ERR_UNREACHABLE: SfStatus = 18;
+/// The heap allocation of `sf_guard_new` failed.
+pub const SF_ERR_NO_MEMORY: SfStatus = 19;
+
+/// The guard's stage (`standfast::guard::Stage`), in rising severity.
+pub type SfStage = u32;
+/// All figures comfortably inside their limits.
+pub const SF_STAGE_CLEAR: SfStage = 0;
+/// A figure passed the watch threshold.
+pub const SF_STAGE_WATCH: SfStage = 1;
+/// Park the mount now.
+pub const SF_STAGE_PARK_NOW: SfStage = 2;
+/// Close to tipping or sliding, or tilted near the limit; latched.
+pub const SF_STAGE_ALARM: SfStage = 3;
+/// A sensor fault: the guard cannot see; park and alarm.
+pub const SF_STAGE_SENSOR_FAULT: SfStage = 4;
+
+/// What drove a stage change (`standfast::guard::Cause`).
+pub type SfCause = u32;
+/// Overturning utilisation (present or predicted).
+pub const SF_CAUSE_OVERTURNING: SfCause = 0;
+/// Sliding utilisation.
+pub const SF_CAUSE_SLIDING: SfCause = 1;
+/// Ground tilt near the tipping tilt, or drifting.
+pub const SF_CAUSE_TILT: SfCause = 2;
+/// Drive torque.
+pub const SF_CAUSE_DRIVE: SfCause = 3;
+/// A sensor fault.
+pub const SF_CAUSE_SENSOR: SfCause = 4;
+/// Figures back below their thresholds for the dwell time.
+pub const SF_CAUSE_SETTLED: SfCause = 5;
+/// An operator acknowledged the alarm.
+pub const SF_CAUSE_ACKNOWLEDGED: SfCause = 6;
+
+/// Which sensor a fault concerns (`standfast::sense::Sensor`).
+pub type SfSensor = u32;
+/// The 3-axis accelerometer used for ground tilt.
+pub const SF_SENSOR_ACCEL: SfSensor = 0;
+/// The anemometer's speed channel.
+pub const SF_SENSOR_WIND_SPEED: SfSensor = 1;
+/// The wind vane (direction channel).
+pub const SF_SENSOR_WIND_DIRECTION: SfSensor = 2;
+
+/// The class of a sensor fault (`standfast::sense::Fault` variant).
+pub type SfFaultClass = u32;
+/// A sample held NaN or an infinity.
+pub const SF_FAULT_NOT_FINITE: SfFaultClass = 0;
+/// A sample outside the physical range (`value`: the sample, m/s or rad).
+pub const SF_FAULT_OUT_OF_RANGE: SfFaultClass = 1;
+/// A sample's time stamp went backwards.
+pub const SF_FAULT_TIME_REVERSED: SfFaultClass = 2;
+/// No sample for longer than the stale time (`duration_ms`: silent time).
+pub const SF_FAULT_STALE: SfFaultClass = 3;
+/// One identical reading for too long (`duration_ms`: unchanged time).
+pub const SF_FAULT_STUCK: SfFaultClass = 4;
+/// Accelerometer magnitude out of band (`value`: g; `duration_ms`).
+pub const SF_FAULT_MAGNITUDE_OUT_OF_BAND: SfFaultClass = 5;
+/// A sudden tilt change (`value`: step, rad).
+pub const SF_FAULT_TILT_STEP: SfFaultClass = 6;
+/// Tilt beyond what the model accepts (`value`: tilt, rad).
+pub const SF_FAULT_TILT_BEYOND_LIMIT: SfFaultClass = 7;
+
+/// The kind of an event (`standfast::guard::Event` variant).
+pub type SfEventKind = u32;
+/// The stage changed (`from_stage`, `to_stage`, `cause`).
+pub const SF_EVENT_STAGE_CHANGED: SfEventKind = 0;
+/// A sensor fault was raised (`fault`).
+pub const SF_EVENT_FAULT_RAISED: SfEventKind = 1;
+/// The highest overturning utilisation since start rose (`utilisation`).
+pub const SF_EVENT_NEW_HIGH_UTILISATION: SfEventKind = 2;
+
+/// The kind of a mount pose.
+pub type SfPoseKind = u32;
+/// Mechanical axis angles: `a_rad` primary, `b_rad` secondary.
+pub const SF_POSE_AXES: SfPoseKind = 0;
+/// `a_rad` hour angle (positive west), `b_rad` declination, and pier side.
+pub const SF_POSE_EQUATORIAL: SfPoseKind = 1;
+/// `a_rad` azimuth (from north, clockwise), `b_rad` altitude, and pier side.
+pub const SF_POSE_HORIZONTAL: SfPoseKind = 2;
+
+/// Pier side of an equatorial mount (ignored by alt-azimuth mounts).
+pub type SfPierSide = u32;
+/// θ₁ = H, θ₂ = δ: the usual side for targets west of the meridian.
+pub const SF_PIER_TUBE_EAST: SfPierSide = 0;
+/// θ₁ = H + π, θ₂ = π − δ: the usual side for targets east of the meridian.
+pub const SF_PIER_TUBE_WEST: SfPierSide = 1;
+
+/// The C code of a stage.
+#[must_use]
+pub const fn stage_code(s: Stage) -> SfStage {
+    match s {
+        Stage::Clear => SF_STAGE_CLEAR,
+        Stage::Watch => SF_STAGE_WATCH,
+        Stage::ParkNow => SF_STAGE_PARK_NOW,
+        Stage::Alarm => SF_STAGE_ALARM,
+        Stage::SensorFault => SF_STAGE_SENSOR_FAULT,
+    }
+}
+
+/// The C code of a cause.
+#[must_use]
+pub const fn cause_code(c: Cause) -> SfCause {
+    match c {
+        Cause::Overturning => SF_CAUSE_OVERTURNING,
+        Cause::Sliding => SF_CAUSE_SLIDING,
+        Cause::Tilt => SF_CAUSE_TILT,
+        Cause::Drive => SF_CAUSE_DRIVE,
+        Cause::Sensor => SF_CAUSE_SENSOR,
+        Cause::Settled => SF_CAUSE_SETTLED,
+        Cause::Acknowledged => SF_CAUSE_ACKNOWLEDGED,
+    }
+}
+
+/// The C code of a sensor.
+#[must_use]
+pub const fn sensor_code(s: Sensor) -> SfSensor {
+    match s {
+        Sensor::Accelerometer => SF_SENSOR_ACCEL,
+        Sensor::WindSpeed => SF_SENSOR_WIND_SPEED,
+        Sensor::WindDirection => SF_SENSOR_WIND_DIRECTION,
+    }
+}
+
+/// A fault's class code, and the value (in the unit its class states) and
+/// duration (ms) it carries, when it carries them.
+#[must_use]
+pub const fn fault_parts(f: &Fault) -> (SfFaultClass, Option<f32>, Option<u64>) {
+    match *f {
+        Fault::NotFinite { .. } => (SF_FAULT_NOT_FINITE, None, None),
+        Fault::OutOfRange { value, .. } => (SF_FAULT_OUT_OF_RANGE, Some(value), None),
+        Fault::TimeReversed { .. } => (SF_FAULT_TIME_REVERSED, None, None),
+        Fault::Stale { silent_ms, .. } => (SF_FAULT_STALE, None, Some(silent_ms)),
+        Fault::Stuck { unchanged_ms, .. } => (SF_FAULT_STUCK, None, Some(unchanged_ms)),
+        Fault::MagnitudeOutOfBand {
+            magnitude_g,
+            for_ms,
+        } => (
+            SF_FAULT_MAGNITUDE_OUT_OF_BAND,
+            Some(magnitude_g),
+            Some(for_ms),
+        ),
+        Fault::TiltStep { step_rad } => (SF_FAULT_TILT_STEP, Some(step_rad), None),
+        Fault::TiltBeyondLimit { magnitude_rad } => {
+            (SF_FAULT_TILT_BEYOND_LIMIT, Some(magnitude_rad), None)
+        }
+    }
+}
+
+/// The C code of an event's kind.
+#[must_use]
+pub const fn event_kind(e: &Event) -> SfEventKind {
+    match e {
+        Event::StageChanged { .. } => SF_EVENT_STAGE_CHANGED,
+        Event::FaultRaised(_) => SF_EVENT_FAULT_RAISED,
+        Event::NewHighUtilisation { .. } => SF_EVENT_NEW_HIGH_UTILISATION,
+    }
+}
+
+/// The C status of a core error kind.
+#[must_use]
+pub const fn error_code(k: ErrorKind) -> SfStatus {
+    match k {
+        ErrorKind::NotFinite => SF_ERR_NOT_FINITE,
+        ErrorKind::OutOfRange => SF_ERR_OUT_OF_RANGE,
+        ErrorKind::DuplicateFoot => SF_ERR_DUPLICATE_FOOT,
+        ErrorKind::CollinearFeet => SF_ERR_COLLINEAR_FEET,
+        ErrorKind::TooMany => SF_ERR_TOO_MANY,
+        ErrorKind::TooFew => SF_ERR_TOO_FEW,
+        ErrorKind::ZeroDirection => SF_ERR_ZERO_DIRECTION,
+        ErrorKind::Unreachable => SF_ERR_UNREACHABLE,
+    }
+}
+
+/// Returned by the name functions for a code outside the set.
+pub const UNKNOWN: &CStr = c"unknown";
+
+/// Names of [`SfStage`] codes, by value (the core's `Stage::name`).
+pub const STAGE_NAMES: [&CStr; 5] = [c"clear", c"watch", c"park_now", c"alarm", c"sensor_fault"];
+/// Names of [`SfCause`] codes, by value.
+pub const CAUSE_NAMES: [&CStr; 7] = [
+    c"overturning",
+    c"sliding",
+    c"tilt",
+    c"drive",
+    c"sensor",
+    c"settled",
+    c"acknowledged",
+];
+/// Names of [`SfSensor`] codes, by value (the core's `Sensor::code`).
+pub const SENSOR_NAMES: [&CStr; 3] = [c"accel", c"wind_speed", c"wind_direction"];
+/// Names of [`SfFaultClass`] codes, by value (the core's `Fault::class_code`).
+pub const FAULT_CLASS_NAMES: [&CStr; 8] = [
+    c"not_finite",
+    c"out_of_range",
+    c"time_reversed",
+    c"stale",
+    c"stuck",
+    c"magnitude_out_of_band",
+    c"tilt_step",
+    c"tilt_beyond_limit",
+];
+/// Names of [`SfEventKind`] codes, by value.
+pub const EVENT_KIND_NAMES: [&CStr; 3] =
+    [c"stage_changed", c"fault_raised", c"new_high_utilisation"];
+/// Names of [`SfStatus`] codes, by value.
+pub const STATUS_NAMES: [&CStr; 20] = [
+    c"ok",
+    c"null_pointer",
+    c"misaligned",
+    c"storage_too_small",
+    c"bad_handle",
+    c"image_truncated",
+    c"image_magic",
+    c"image_version",
+    c"image_size",
+    c"image_checksum",
+    c"image_payload",
+    c"not_finite",
+    c"out_of_range",
+    c"duplicate_foot",
+    c"collinear_feet",
+    c"too_many",
+    c"too_few",
+    c"zero_direction",
+    c"unreachable",
+    c"no_memory",
+];
+
+/// The name of `code` in `table`, or [`UNKNOWN`].
+#[must_use]
+pub fn name_in(table: &[&'static CStr], code: u32) -> &'static CStr {
+    usize::try_from(code)
+        .ok()
+        .and_then(|i| table.get(i).copied())
+        .unwrap_or(UNKNOWN)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use standfast::sense::Fault;
+
+    fn s(c: &CStr) -> &str {
+        c.to_str().unwrap()
+    }
+
+    #[test]
+    fn names_match_the_core() {
+        for st in [
+            Stage::Clear,
+            Stage::Watch,
+            Stage::ParkNow,
+            Stage::Alarm,
+            Stage::SensorFault,
+        ] {
+            assert_eq!(s(name_in(&STAGE_NAMES, stage_code(st))), st.name());
+        }
+        for se in [
+            Sensor::Accelerometer,
+            Sensor::WindSpeed,
+            Sensor::WindDirection,
+        ] {
+            assert_eq!(s(name_in(&SENSOR_NAMES, sensor_code(se))), se.code());
+        }
+        let w = Sensor::WindSpeed;
+        for f in [
+            Fault::NotFinite { sensor: w },
+            Fault::OutOfRange {
+                sensor: w,
+                value: 1.0,
+            },
+            Fault::TimeReversed { sensor: w },
+            Fault::Stale {
+                sensor: w,
+                silent_ms: 1,
+            },
+            Fault::Stuck {
+                sensor: w,
+                unchanged_ms: 1,
+            },
+            Fault::MagnitudeOutOfBand {
+                magnitude_g: 1.0,
+                for_ms: 1,
+            },
+            Fault::TiltStep { step_rad: 0.1 },
+            Fault::TiltBeyondLimit { magnitude_rad: 1.0 },
+        ] {
+            assert_eq!(
+                s(name_in(&FAULT_CLASS_NAMES, fault_parts(&f).0)),
+                f.class_code()
+            );
+        }
+        for c in [
+            Cause::Overturning,
+            Cause::Sliding,
+            Cause::Tilt,
+            Cause::Drive,
+            Cause::Sensor,
+            Cause::Settled,
+            Cause::Acknowledged,
+        ] {
+            // host-sim's replay names causes by their lower-case Debug name.
+            let debug = std::format!("{c:?}").to_lowercase();
+            assert_eq!(s(name_in(&CAUSE_NAMES, cause_code(c))), debug);
+        }
+        assert_eq!(s(name_in(&STATUS_NAMES, SF_ERR_NO_MEMORY)), "no_memory");
+        assert_eq!(s(name_in(&STAGE_NAMES, 99)), "unknown");
+    }
+}
