@@ -364,7 +364,7 @@ fn maybe(v: Option<f32>) -> SfMaybeF32 {
 
 const NO_FAULT: SfFault = SfFault {
     sensor: SF_SENSOR_ACCEL,
-    class: SF_FAULT_NOT_FINITE,
+    fault_class: SF_FAULT_NOT_FINITE,
     has_value: 0,
     value: f32::NAN,
     has_duration: 0,
@@ -429,7 +429,7 @@ pub fn sf_fault(f: &Fault) -> SfFault {
     let (class, value, duration) = fault_parts(f);
     SfFault {
         sensor: sensor_code(f.sensor()),
-        class,
+        fault_class: class,
         has_value: u8::from(value.is_some()),
         value: value.unwrap_or(f32::NAN),
         has_duration: u8::from(duration.is_some()),
@@ -614,6 +614,37 @@ pub extern "C" fn sf_guard_storage_size() -> usize {
 #[no_mangle]
 pub extern "C" fn sf_guard_storage_align() -> usize {
     SF_GUARD_STORAGE_ALIGN
+}
+
+/// `sizeof(SfInputs)` as this library sees it (for bindings that declare
+/// the types themselves, such as Python's `ctypes`, to check their layout).
+#[no_mangle]
+pub extern "C" fn sf_sizeof_inputs() -> usize {
+    size_of::<SfInputs>()
+}
+
+/// `sizeof(SfVerdict)` as this library sees it.
+#[no_mangle]
+pub extern "C" fn sf_sizeof_verdict() -> usize {
+    size_of::<SfVerdict>()
+}
+
+/// `sizeof(SfError)` as this library sees it.
+#[no_mangle]
+pub extern "C" fn sf_sizeof_error() -> usize {
+    size_of::<SfError>()
+}
+
+/// `sizeof(SfAssessRequest)` as this library sees it.
+#[no_mangle]
+pub extern "C" fn sf_sizeof_assess_request() -> usize {
+    size_of::<SfAssessRequest>()
+}
+
+/// `sizeof(SfAssessment)` as this library sees it.
+#[no_mangle]
+pub extern "C" fn sf_sizeof_assessment() -> usize {
+    size_of::<SfAssessment>()
 }
 
 /// Builds a guard in caller storage from a rig image, started at `now_ms`.
@@ -872,8 +903,8 @@ pub extern "C" fn sf_sensor_name(sensor: SfSensor) -> *const c_char {
 
 /// Name of a fault class code (`not_finite`, …, `tilt_beyond_limit`); static.
 #[no_mangle]
-pub extern "C" fn sf_fault_class_name(class: SfFaultClass) -> *const c_char {
-    name_in(&FAULT_CLASS_NAMES, class).as_ptr()
+pub extern "C" fn sf_fault_class_name(fault_class: SfFaultClass) -> *const c_char {
+    name_in(&FAULT_CLASS_NAMES, fault_class).as_ptr()
 }
 
 /// Name of an event kind code; static.

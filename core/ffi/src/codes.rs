@@ -231,9 +231,10 @@ pub const fn error_code(k: ErrorKind) -> SfStatus {
 pub const UNKNOWN: &CStr = c"unknown";
 
 /// Names of [`SfStage`] codes, by value (the core's `Stage::name`).
-pub const STAGE_NAMES: [&CStr; 5] = [c"clear", c"watch", c"park_now", c"alarm", c"sensor_fault"];
+pub(crate) const STAGE_NAMES: [&CStr; 5] =
+    [c"clear", c"watch", c"park_now", c"alarm", c"sensor_fault"];
 /// Names of [`SfCause`] codes, by value.
-pub const CAUSE_NAMES: [&CStr; 7] = [
+pub(crate) const CAUSE_NAMES: [&CStr; 7] = [
     c"overturning",
     c"sliding",
     c"tilt",
@@ -243,9 +244,9 @@ pub const CAUSE_NAMES: [&CStr; 7] = [
     c"acknowledged",
 ];
 /// Names of [`SfSensor`] codes, by value (the core's `Sensor::code`).
-pub const SENSOR_NAMES: [&CStr; 3] = [c"accel", c"wind_speed", c"wind_direction"];
+pub(crate) const SENSOR_NAMES: [&CStr; 3] = [c"accel", c"wind_speed", c"wind_direction"];
 /// Names of [`SfFaultClass`] codes, by value (the core's `Fault::class_code`).
-pub const FAULT_CLASS_NAMES: [&CStr; 8] = [
+pub(crate) const FAULT_CLASS_NAMES: [&CStr; 8] = [
     c"not_finite",
     c"out_of_range",
     c"time_reversed",
@@ -256,10 +257,10 @@ pub const FAULT_CLASS_NAMES: [&CStr; 8] = [
     c"tilt_beyond_limit",
 ];
 /// Names of [`SfEventKind`] codes, by value.
-pub const EVENT_KIND_NAMES: [&CStr; 3] =
+pub(crate) const EVENT_KIND_NAMES: [&CStr; 3] =
     [c"stage_changed", c"fault_raised", c"new_high_utilisation"];
 /// Names of [`SfStatus`] codes, by value.
-pub const STATUS_NAMES: [&CStr; 20] = [
+pub(crate) const STATUS_NAMES: [&CStr; 20] = [
     c"ok",
     c"null_pointer",
     c"misaligned",

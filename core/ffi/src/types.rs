@@ -118,7 +118,7 @@ pub struct SfFault {
     /// The sensor ([`SfSensor`]).
     pub sensor: SfSensor,
     /// The class ([`SfFaultClass`]).
-    pub class: SfFaultClass,
+    pub fault_class: SfFaultClass,
     /// 1 when the class carries [`SfFault::value`].
     pub has_value: u8,
     /// The value the class carries, in its unit: the rejected sample (m/s or
