@@ -14,6 +14,7 @@ mod readme;
 mod real_wind;
 mod replay;
 mod report;
+mod rig_image;
 mod rigfile;
 mod units;
 mod whatif;
