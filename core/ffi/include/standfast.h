@@ -464,7 +464,7 @@ typedef struct SfAssessRequest {
   /**
    * Design gust for the ballast figure, m/s at rig height (0 to 100).
    */
-  float design_gust_mps;
+  float design_speed_mps;
   /**
    * Utilisation the ballast must bring every edge down to (0.1 to 1.0).
    */

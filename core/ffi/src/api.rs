@@ -872,7 +872,7 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
     let [x, y, z] = q.ballast_position_m;
     let b = rig.ballast_needed(
         &c,
-        q.design_gust_mps,
+        q.design_speed_mps,
         q.target_utilisation,
         Vec3::new(x, y, z),
     )?;
@@ -919,8 +919,9 @@ pub extern "C" fn sf_status_name(status: SfStatus) -> *const c_char {
     name_in(&STATUS_NAMES, status).as_ptr()
 }
 
+/// The heap-allocating convenience (feature `std`).
 #[cfg(feature = "std")]
-mod heap {
+pub mod heap {
     use super::*;
     use std::alloc::{alloc, dealloc, Layout};
 

@@ -42,6 +42,8 @@ mod types;
 pub mod wire;
 
 pub use api::*;
+#[cfg(feature = "std")]
+pub use api::heap::*;
 pub use codes::*;
 pub use types::*;
 

@@ -231,8 +231,9 @@ pub struct SfAssessRequest {
     /// Number of evenly spaced wind directions, from north (0 rad) clockwise,
     /// 1 to [`SF_MAX_DIRECTIONS`].
     pub directions: u32,
-    /// Design gust for the ballast figure, m/s at rig height (0 to 100).
-    pub design_gust_mps: f32,
+    /// Design wind speed (a gust) for the ballast figure, m/s at rig height
+    /// (0 to 100).
+    pub design_speed_mps: f32,
     /// Utilisation the ballast must bring every edge down to (0.1 to 1.0).
     pub target_utilisation: f32,
     /// Where the ballast hangs, rig frame, metres (inside the feet).
