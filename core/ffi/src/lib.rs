@@ -41,19 +41,31 @@ pub mod image;
 mod types;
 pub mod wire;
 
-pub use api::*;
 #[cfg(feature = "std")]
 pub use api::heap::*;
+pub use api::*;
 pub use codes::*;
 pub use types::*;
 
-/// Bare metal without `std`: a panic is unreachable (the link-time proof),
-/// but were one reached the processor traps on an undefined instruction
-/// (a HardFault the board's handler or watchdog turns into a reset), never
-/// returns into C.
-#[cfg(all(target_os = "none", feature = "panic-handler", not(test)))]
+/// Bare metal: a panic is unreachable (the link-time proof), but were one
+/// reached the processor traps on an undefined instruction (a HardFault the
+/// board's handler or watchdog turns into a reset), never returning into C.
+/// With the `link-proof` feature the handler instead calls a symbol defined
+/// nowhere, so that a link succeeds only if no panic path is left.
+#[cfg(all(target_os = "none", not(feature = "std"), not(test)))]
 #[panic_handler]
 fn panic(_info: &core::panic::PanicInfo<'_>) -> ! {
+    #[cfg(feature = "link-proof")]
+    {
+        extern "C" {
+            /// Declared, never defined: see `core/panic-proof`.
+            fn standfast_core_must_not_panic() -> !;
+        }
+        // SAFETY: never executed in a linked binary: the symbol does not
+        // exist, so a reachable call here fails the link instead.
+        unsafe { standfast_core_must_not_panic() }
+    }
+    #[cfg(not(feature = "link-proof"))]
     loop {
         #[cfg(target_arch = "arm")]
         // SAFETY: `udf` raises an undefined-instruction exception and touches

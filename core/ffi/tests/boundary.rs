@@ -8,6 +8,16 @@
 //! every expectation below that concerns a value is computed by calling the
 //! core's Rust API on the same data.
 
+// A test of an unsafe C interface: every call is unsafe by nature, many on
+// purpose with wrong pointers (which the functions must refuse without
+// touching them); failures panic, as tests do.
+#![allow(
+    clippy::undocumented_unsafe_blocks,
+    clippy::unwrap_used,
+    clippy::indexing_slicing,
+    clippy::cast_precision_loss
+)]
+
 use std::ffi::CStr;
 use std::ptr;
 
@@ -112,10 +122,19 @@ fn version_sizes_and_names() {
     assert_eq!(sf_sizeof_verdict(), std::mem::size_of::<SfVerdict>());
     assert_eq!(name(sf_stage_name(SF_STAGE_PARK_NOW)), "park_now");
     assert_eq!(name(sf_cause_name(SF_CAUSE_ACKNOWLEDGED)), "acknowledged");
-    assert_eq!(name(sf_sensor_name(SF_SENSOR_WIND_DIRECTION)), "wind_direction");
+    assert_eq!(
+        name(sf_sensor_name(SF_SENSOR_WIND_DIRECTION)),
+        "wind_direction"
+    );
     assert_eq!(name(sf_fault_class_name(SF_FAULT_TILT_STEP)), "tilt_step");
-    assert_eq!(name(sf_event_kind_name(SF_EVENT_FAULT_RAISED)), "fault_raised");
-    assert_eq!(name(sf_status_name(SF_ERR_IMAGE_CHECKSUM)), "image_checksum");
+    assert_eq!(
+        name(sf_event_kind_name(SF_EVENT_FAULT_RAISED)),
+        "fault_raised"
+    );
+    assert_eq!(
+        name(sf_status_name(SF_ERR_IMAGE_CHECKSUM)),
+        "image_checksum"
+    );
     for bad in [5, 1000, u32::MAX] {
         assert_eq!(name(sf_stage_name(bad)), "unknown");
     }
@@ -219,7 +238,10 @@ fn null_pointers() {
     assert_eq!((v.park, v.alarm, v.stage), (1, 1, SF_STAGE_SENSOR_FAULT));
     let st = unsafe { sf_guard_step(g, 0, &no_inputs(), ptr::null_mut(), &mut e) };
     assert_eq!((st, e.field_str()), (SF_ERR_NULL_POINTER, "out"));
-    assert_eq!(unsafe { sf_guard_fini(ptr::null_mut()) }, SF_ERR_NULL_POINTER);
+    assert_eq!(
+        unsafe { sf_guard_fini(ptr::null_mut()) },
+        SF_ERR_NULL_POINTER
+    );
     assert_eq!(
         unsafe { sf_guard_acknowledge(ptr::null_mut()) },
         SF_ERR_NULL_POINTER
@@ -269,18 +291,14 @@ fn misaligned_pointers() {
     assert_eq!((st, e.field_str()), (SF_ERR_MISALIGNED, "inputs"));
     let st = unsafe { sf_guard_step(g, 0, &no_inputs(), off.cast::<SfVerdict>(), &mut e) };
     assert_eq!((st, e.field_str()), (SF_ERR_MISALIGNED, "out"));
-    let (st, e, _) = step(g.cast::<u8>().wrapping_add(4).cast::<SfGuard>(), 0, &no_inputs());
+    let (st, e, _) = step(
+        g.cast::<u8>().wrapping_add(4).cast::<SfGuard>(),
+        0,
+        &no_inputs(),
+    );
     assert_eq!((st, e.field_str()), (SF_ERR_MISALIGNED, "guard"));
     // A misaligned error pointer is not written; the status still comes back.
-    let st = unsafe {
-        sf_guard_step(
-            g,
-            0,
-            off.cast::<SfInputs>(),
-            &mut *v,
-            off.cast::<SfError>(),
-        )
-    };
+    let st = unsafe { sf_guard_step(g, 0, off.cast::<SfInputs>(), &mut *v, off.cast::<SfError>()) };
     assert_eq!(st, SF_ERR_MISALIGNED);
     assert!(raw.0.iter().all(|&b| b == 0));
 }
@@ -347,7 +365,10 @@ fn damaged_and_foreign_images() {
     b[0] = b'X';
     assert_eq!(status(&mut s, &b).0, SF_ERR_IMAGE_MAGIC);
     // Truncated, empty, or with bytes after the payload.
-    assert_eq!(status(&mut s, &IMAGE[..IMAGE.len() - 1]).0, SF_ERR_IMAGE_TRUNCATED);
+    assert_eq!(
+        status(&mut s, &IMAGE[..IMAGE.len() - 1]).0,
+        SF_ERR_IMAGE_TRUNCATED
+    );
     assert_eq!(status(&mut s, &IMAGE[..10]).0, SF_ERR_IMAGE_TRUNCATED);
     assert_eq!(status(&mut s, &[]).0, SF_ERR_IMAGE_TRUNCATED);
     let mut b = IMAGE.to_vec();
@@ -363,7 +384,10 @@ fn damaged_and_foreign_images() {
     assert_eq!(p[legs_tag], 1, "the example rig has legs");
     p[legs_tag] = 7;
     let (st, e) = status(&mut s, &resealed(p));
-    assert_eq!((st, e.field_str()), (SF_ERR_IMAGE_PAYLOAD, "rig_image.payload"));
+    assert_eq!(
+        (st, e.field_str()),
+        (SF_ERR_IMAGE_PAYLOAD, "rig_image.payload")
+    );
     // And the intact image still works in the same storage.
     assert_eq!(init(&mut s, IMAGE).0, SF_OK);
 }
@@ -416,20 +440,60 @@ fn bad_flags_and_codes_are_refused_without_a_step() {
     let mut s = storage();
     let (_, _, g) = init(&mut s, IMAGE);
     let cases: [(SfInputs, &str, f32, f32); 7] = [
-        (SfInputs { has_wind: 2, ..no_inputs() }, "inputs.has_wind", 2.0, 1.0),
-        (SfInputs { has_accel: 255, ..no_inputs() }, "inputs.has_accel", 255.0, 1.0),
         (
-            SfInputs { has_wind: 1, has_wind_from: 9, ..no_inputs() },
+            SfInputs {
+                has_wind: 2,
+                ..no_inputs()
+            },
+            "inputs.has_wind",
+            2.0,
+            1.0,
+        ),
+        (
+            SfInputs {
+                has_accel: 255,
+                ..no_inputs()
+            },
+            "inputs.has_accel",
+            255.0,
+            1.0,
+        ),
+        (
+            SfInputs {
+                has_wind: 1,
+                has_wind_from: 9,
+                ..no_inputs()
+            },
             "inputs.has_wind_from",
             9.0,
             1.0,
         ),
-        (SfInputs { has_cover: 1, cover_fitted: 3, ..no_inputs() }, "inputs.cover_fitted", 3.0, 1.0),
-        (SfInputs { has_air: 7, ..no_inputs() }, "inputs.has_air", 7.0, 1.0),
+        (
+            SfInputs {
+                has_cover: 1,
+                cover_fitted: 3,
+                ..no_inputs()
+            },
+            "inputs.cover_fitted",
+            3.0,
+            1.0,
+        ),
+        (
+            SfInputs {
+                has_air: 7,
+                ..no_inputs()
+            },
+            "inputs.has_air",
+            7.0,
+            1.0,
+        ),
         (
             SfInputs {
                 has_pose: 1,
-                pose: SfPose { kind: 3, ..no_inputs().pose },
+                pose: SfPose {
+                    kind: 3,
+                    ..no_inputs().pose
+                },
                 ..no_inputs()
             },
             "inputs.pose.kind",
@@ -439,7 +503,10 @@ fn bad_flags_and_codes_are_refused_without_a_step() {
         (
             SfInputs {
                 has_pose: 1,
-                pose: SfPose { pier_side: 2, ..no_inputs().pose },
+                pose: SfPose {
+                    pier_side: 2,
+                    ..no_inputs().pose
+                },
                 ..no_inputs()
             },
             "inputs.pose.pier_side",
@@ -452,13 +519,21 @@ fn bad_flags_and_codes_are_refused_without_a_step() {
         assert_eq!(st, SF_ERR_OUT_OF_RANGE, "{field}");
         assert_eq!(e.field_str(), field);
         assert_eq!((e.value, e.min, e.max), (value, 0.0, max));
-        assert_eq!((v.park, v.alarm, v.stage, v.now_ms), (1, 1, SF_STAGE_SENSOR_FAULT, 5));
+        assert_eq!(
+            (v.park, v.alarm, v.stage, v.now_ms),
+            (1, 1, SF_STAGE_SENSOR_FAULT, 5)
+        );
         assert_eq!(v.event_count, 0);
     }
     // Ignored groups are not read: garbage behind a 0 flag is fine.
     let i = SfInputs {
         has_pose: 0,
-        pose: SfPose { kind: 99, pier_side: 99, a_rad: f32::NAN, b_rad: f32::NAN },
+        pose: SfPose {
+            kind: 99,
+            pier_side: 99,
+            a_rad: f32::NAN,
+            b_rad: f32::NAN,
+        },
         has_cover: 0,
         cover_fitted: 200,
         ..level_calm()
@@ -478,15 +553,38 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
     let (_, _, g) = init(&mut s, IMAGE);
     let seq: Vec<(u64, SfInputs)> = vec![
         (0, level_calm()),
-        (100, SfInputs { wind_speed_mps: f32::NAN, ..level_calm() }),
-        (200, SfInputs { wind_speed_mps: -3.0, ..level_calm() }),
-        (300, SfInputs { accel: [f32::INFINITY, 0.0, 1.0], ..level_calm() }),
+        (
+            100,
+            SfInputs {
+                wind_speed_mps: f32::NAN,
+                ..level_calm()
+            },
+        ),
+        (
+            200,
+            SfInputs {
+                wind_speed_mps: -3.0,
+                ..level_calm()
+            },
+        ),
+        (
+            300,
+            SfInputs {
+                accel: [f32::INFINITY, 0.0, 1.0],
+                ..level_calm()
+            },
+        ),
         (250, level_calm()), // time went backwards
         (
             1_300,
             SfInputs {
                 has_pose: 1,
-                pose: SfPose { kind: SF_POSE_EQUATORIAL, a_rad: 0.3, b_rad: 0.2, pier_side: 1 },
+                pose: SfPose {
+                    kind: SF_POSE_EQUATORIAL,
+                    a_rad: 0.3,
+                    b_rad: 0.2,
+                    pier_side: 1,
+                },
                 has_cover: 1,
                 cover_fitted: 1,
                 has_air: 1,
@@ -495,7 +593,14 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
                 ..level_calm()
             },
         ),
-        (2_300, SfInputs { has_wind_from: 0, wind_speed_mps: 30.0, ..level_calm() }),
+        (
+            2_300,
+            SfInputs {
+                has_wind_from: 0,
+                wind_speed_mps: 30.0,
+                ..level_calm()
+            },
+        ),
     ];
     for (now, i) in &seq {
         let rust_inputs = Inputs {
@@ -562,7 +667,10 @@ fn assessment_matches_the_rust_api_and_checks_its_request() {
     for (k, t) in a.tip_wind_mps.iter().take(8).enumerate() {
         let from = k as f32 * (std::f32::consts::TAU / 8.0);
         let want = rig
-            .assess(&standfast::rig::Conditions { wind_from_rad: from, ..c })
+            .assess(&standfast::rig::Conditions {
+                wind_from_rad: from,
+                ..c
+            })
             .unwrap()
             .tip_wind_mps;
         assert_eq!(t.has_value == 1, want.is_some());
@@ -576,25 +684,69 @@ fn assessment_matches_the_rust_api_and_checks_its_request() {
     let b = rig
         .ballast_needed(&c, 25.0, 0.75, standfast::Vec3::new(0.0, 0.0, 0.3))
         .unwrap();
-    assert_eq!((a.ballast_kg, a.ballast_worst_from_rad), (b.amount, b.worst_from_rad));
+    assert_eq!(
+        (a.ballast_kg, a.ballast_worst_from_rad),
+        (b.amount, b.worst_from_rad)
+    );
 
     for (q, code, field) in [
-        (SfAssessRequest { directions: 0, ..request() }, SF_ERR_OUT_OF_RANGE, "request.directions"),
         (
-            SfAssessRequest { directions: SF_MAX_DIRECTIONS as u32 + 1, ..request() },
+            SfAssessRequest {
+                directions: 0,
+                ..request()
+            },
             SF_ERR_OUT_OF_RANGE,
             "request.directions",
         ),
-        (SfAssessRequest { cover_fitted: 2, ..request() }, SF_ERR_OUT_OF_RANGE, "request.cover_fitted"),
-        (SfAssessRequest { target_utilisation: 1.5, ..request() }, SF_ERR_OUT_OF_RANGE, "target_utilisation"),
-        (SfAssessRequest { design_speed_mps: f32::NAN, ..request() }, SF_ERR_NOT_FINITE, "design_speed_mps"),
         (
-            SfAssessRequest { ballast_position_m: [3.0, 0.0, 0.3], ..request() },
+            SfAssessRequest {
+                directions: SF_MAX_DIRECTIONS as u32 + 1,
+                ..request()
+            },
+            SF_ERR_OUT_OF_RANGE,
+            "request.directions",
+        ),
+        (
+            SfAssessRequest {
+                cover_fitted: 2,
+                ..request()
+            },
+            SF_ERR_OUT_OF_RANGE,
+            "request.cover_fitted",
+        ),
+        (
+            SfAssessRequest {
+                target_utilisation: 1.5,
+                ..request()
+            },
+            SF_ERR_OUT_OF_RANGE,
+            "target_utilisation",
+        ),
+        (
+            SfAssessRequest {
+                design_speed_mps: f32::NAN,
+                ..request()
+            },
+            SF_ERR_NOT_FINITE,
+            "design_speed_mps",
+        ),
+        (
+            SfAssessRequest {
+                ballast_position_m: [3.0, 0.0, 0.3],
+                ..request()
+            },
             SF_ERR_UNREACHABLE,
             "ballast.position_m",
         ),
         (
-            SfAssessRequest { has_pose: 1, pose: SfPose { kind: 5, ..request().pose }, ..request() },
+            SfAssessRequest {
+                has_pose: 1,
+                pose: SfPose {
+                    kind: 5,
+                    ..request().pose
+                },
+                ..request()
+            },
             SF_ERR_OUT_OF_RANGE,
             "request.pose.kind",
         ),
@@ -604,7 +756,10 @@ fn assessment_matches_the_rust_api_and_checks_its_request() {
     }
     // A tilt beyond the model's limit: the core's own error.
     let want = standfast::Tilt::new(2.0, 0.0).unwrap_err();
-    let (st, e, _) = assess(&SfAssessRequest { tilt_magnitude_rad: 2.0, ..request() });
+    let (st, e, _) = assess(&SfAssessRequest {
+        tilt_magnitude_rad: 2.0,
+        ..request()
+    });
     assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
 }
 

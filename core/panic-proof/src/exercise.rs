@@ -195,7 +195,8 @@ fn pose(u: &Unknowns) -> Pose {
 /// entry points ([`Rig::sky_scan`], [`Rig::payload_envelope`],
 /// [`Rig::balance`], [`standfast::torque::Balance::balanced_spec`],
 /// [`Rig::safest_park`]) and the
-/// guard's decision alone ([`transition`]).
+/// guard's decision alone ([`transition`]); and every
+/// function the C ABI exports ([`crate::ffi::ffi_calls`]).
 pub fn exercise(u: &Unknowns) -> Tally {
     let mut t = Tally::default();
     if let Some(spec) = t.note(rig_spec(u)) {
@@ -207,6 +208,7 @@ pub fn exercise(u: &Unknowns) -> Tally {
     sensor_calls(&mut t, u);
     hardware_calls(&mut t, u);
     transition_calls(&mut t, u);
+    crate::ffi::ffi_calls(&mut t, u);
     t
 }
 

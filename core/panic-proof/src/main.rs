@@ -11,9 +11,10 @@
 //! The binary calls the core's public entry points listed on
 //! [`exercise::exercise`] with inputs read through
 //! [`core::ptr::read_volatile`] ([`unknowns`]), so nothing is
-//! constant-folded. Its `#[panic_handler]` calls
-//! `standfast_core_must_not_panic`, a function that is declared but defined
-//! nowhere. If any panic (an `unwrap`, an index out of bounds, a slice split,
+//! constant-folded. Its `#[panic_handler]` (standfast-ffi's, with the
+//! `link-proof` feature: a bare-metal library must bring one and a binary
+//! may have only one) calls `standfast_core_must_not_panic`, a function that
+//! is declared but defined nowhere. If any panic (an `unwrap`, an index out of bounds, a slice split,
 //! an arithmetic overflow check, a `panic!`) is still reachable after
 //! optimisation, the handler is kept and the link fails naming that symbol;
 //! a successful link proves that the optimiser found every panic path
@@ -26,19 +27,12 @@
 #![cfg_attr(target_os = "none", no_main)]
 
 pub mod exercise;
+pub mod ffi;
 pub mod unknowns;
 
 #[cfg(target_os = "none")]
 mod target {
-    use core::panic::PanicInfo;
     use cortex_m_rt::entry;
-
-    #[allow(unsafe_code)]
-    extern "C" {
-        /// Declared, never defined: referenced only from the panic handler,
-        /// so the link fails if a panic path survives optimisation.
-        fn standfast_core_must_not_panic() -> !;
-    }
 
     #[entry]
     fn main() -> ! {
@@ -47,15 +41,11 @@ mod target {
         }
     }
 
-    #[panic_handler]
-    fn panic(_info: &PanicInfo) -> ! {
-        // SAFETY: never executed in a linked binary: the symbol does not
-        // exist, so a reachable call here fails the link instead.
-        #[allow(unsafe_code)]
-        unsafe {
-            standfast_core_must_not_panic()
-        }
-    }
+    // The panic handler is standfast-ffi's with its `link-proof` feature
+    // (a bare-metal library must bring its own, and a binary may have only
+    // one): it calls `standfast_core_must_not_panic`, declared there and
+    // defined nowhere, so the link fails if a panic path survives
+    // optimisation.
 }
 
 /// Host run: the same calls once, with the stored figures.
