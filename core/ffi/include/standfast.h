@@ -462,7 +462,8 @@ typedef struct SfAssessRequest {
    */
   uint32_t directions;
   /**
-   * Design gust for the ballast figure, m/s at rig height (0 to 100).
+   * Design wind speed (a gust) for the ballast figure, m/s at rig height
+   * (0 to 100).
    */
   float design_speed_mps;
   /**
