@@ -846,6 +846,15 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
         air,
         cover_fitted: flag(q.cover_fitted, "request.cover_fitted")?,
     };
+    // The ballast first: its checks of the request (speed, target, a
+    // position inside the feet) come before any scan.
+    let [x, y, z] = q.ballast_position_m;
+    let b = rig.ballast_needed(
+        &c,
+        q.design_speed_mps,
+        q.target_utilisation,
+        Vec3::new(x, y, z),
+    )?;
     let mut out = SfAssessment {
         directions: q.directions,
         tip_wind_mps: [NONE_F32; SF_MAX_DIRECTIONS],
@@ -869,13 +878,6 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
     let w = rig.worst_wind(&c)?;
     out.lowest_tip_wind_mps = maybe(w.tip_wind_mps);
     out.lowest_from_rad = w.from_rad;
-    let [x, y, z] = q.ballast_position_m;
-    let b = rig.ballast_needed(
-        &c,
-        q.design_speed_mps,
-        q.target_utilisation,
-        Vec3::new(x, y, z),
-    )?;
     out.ballast_kg = b.amount;
     out.ballast_worst_from_rad = b.worst_from_rad;
     Ok(out)
