@@ -34,8 +34,25 @@ const IMAGE: &[u8] = include_bytes!("data/firmware-example-rig.sfri");
 #[repr(C, align(16))]
 struct Storage([u8; SF_GUARD_STORAGE_SIZE + 16]);
 
-fn storage() -> Box<Storage> {
-    Box::new(Storage([0; SF_GUARD_STORAGE_SIZE + 16]))
+/// The storage as C holds it: one raw pointer, from which every use is
+/// derived (a fresh `&mut` to the buffer would, for Miri, invalidate the
+/// guard's pointer into it, as a C caller writing to it would break it).
+struct Mem(*mut u8);
+
+impl Mem {
+    fn ptr(&self) -> *mut u8 {
+        self.0
+    }
+}
+
+impl Drop for Mem {
+    fn drop(&mut self) {
+        drop(unsafe { Box::from_raw(self.0.cast::<Storage>()) });
+    }
+}
+
+fn storage() -> Mem {
+    Mem(Box::into_raw(Box::new(Storage([0; SF_GUARD_STORAGE_SIZE + 16]))).cast::<u8>())
 }
 
 fn decoded() -> RigImage {
@@ -50,12 +67,12 @@ fn encoded(img: &RigImage) -> Vec<u8> {
 }
 
 /// Initialises a guard from `image`; returns the status, the error and the guard.
-fn init(s: &mut Storage, image: &[u8]) -> (SfStatus, SfError, *mut SfGuard) {
+fn init(s: &Mem, image: &[u8]) -> (SfStatus, SfError, *mut SfGuard) {
     let mut g: *mut SfGuard = ptr::null_mut();
     let mut e = SfError::NONE;
     let st = unsafe {
         sf_guard_init(
-            s.0.as_mut_ptr(),
+            s.ptr(),
             SF_GUARD_STORAGE_SIZE,
             image.as_ptr(),
             image.len(),
@@ -143,11 +160,11 @@ fn version_sizes_and_names() {
 
 #[test]
 fn init_step_acknowledge_fini() {
-    let mut s = storage();
-    let (st, e, g) = init(&mut s, IMAGE);
+    let s = storage();
+    let (st, e, g) = init(&s, IMAGE);
     assert_eq!(st, SF_OK, "{}", e.field_str());
     assert_eq!(e.code, SF_OK);
-    assert_eq!(g.cast::<u8>(), s.0.as_mut_ptr());
+    assert_eq!(g.cast::<u8>(), s.ptr());
     let (st, _, v) = step(g, 0, &level_calm());
     assert_eq!(st, SF_OK);
     assert_eq!(v.now_ms, 0);
@@ -166,15 +183,15 @@ fn init_step_acknowledge_fini() {
 
 #[test]
 fn never_initialised_storage_is_not_a_guard() {
-    let mut s = storage();
-    let g = s.0.as_mut_ptr().cast::<SfGuard>();
+    let s = storage();
+    let g = s.ptr().cast::<SfGuard>();
     assert_eq!(step(g, 0, &no_inputs()).0, SF_ERR_BAD_HANDLE);
     assert_eq!(unsafe { sf_guard_acknowledge(g) }, SF_ERR_BAD_HANDLE);
 }
 
 #[test]
 fn null_pointers() {
-    let mut s = storage();
+    let s = storage();
     let mut g: *mut SfGuard = ptr::null_mut();
     let mut e = SfError::NONE;
     let st = unsafe {
@@ -191,7 +208,7 @@ fn null_pointers() {
     assert_eq!((st, e.field_str()), (SF_ERR_NULL_POINTER, "storage"));
     let st = unsafe {
         sf_guard_init(
-            s.0.as_mut_ptr(),
+            s.ptr(),
             SF_GUARD_STORAGE_SIZE,
             ptr::null(),
             IMAGE.len(),
@@ -203,7 +220,7 @@ fn null_pointers() {
     assert_eq!((st, e.field_str()), (SF_ERR_NULL_POINTER, "image"));
     let st = unsafe {
         sf_guard_init(
-            s.0.as_mut_ptr(),
+            s.ptr(),
             SF_GUARD_STORAGE_SIZE,
             IMAGE.as_ptr(),
             IMAGE.len(),
@@ -227,7 +244,7 @@ fn null_pointers() {
     };
     assert_eq!(st, SF_ERR_NULL_POINTER);
 
-    let (st, _, g) = init(&mut s, IMAGE);
+    let (st, _, g) = init(&s, IMAGE);
     assert_eq!(st, SF_OK);
     let (st, e2, v) = step(ptr::null_mut(), 0, &no_inputs());
     assert_eq!((st, e2.field_str()), (SF_ERR_NULL_POINTER, "guard"));
@@ -262,12 +279,12 @@ fn null_pointers() {
 
 #[test]
 fn misaligned_pointers() {
-    let mut s = storage();
+    let s = storage();
     let mut g: *mut SfGuard = ptr::null_mut();
     let mut e = SfError::NONE;
     let st = unsafe {
         sf_guard_init(
-            s.0.as_mut_ptr().wrapping_add(1),
+            s.ptr().wrapping_add(1),
             SF_GUARD_STORAGE_SIZE,
             IMAGE.as_ptr(),
             IMAGE.len(),
@@ -279,7 +296,7 @@ fn misaligned_pointers() {
     assert_eq!((st, e.field_str()), (SF_ERR_MISALIGNED, "storage"));
     assert!(g.is_null());
 
-    let (st, _, g) = init(&mut s, IMAGE);
+    let (st, _, g) = init(&s, IMAGE);
     assert_eq!(st, SF_OK);
     // Pointers one byte off their type's alignment: refused before any read.
     #[repr(C, align(8))]
@@ -305,12 +322,12 @@ fn misaligned_pointers() {
 
 #[test]
 fn storage_too_small() {
-    let mut s = storage();
+    let s = storage();
     let mut g: *mut SfGuard = ptr::null_mut();
     let mut e = SfError::NONE;
     let st = unsafe {
         sf_guard_init(
-            s.0.as_mut_ptr(),
+            s.ptr(),
             SF_GUARD_STORAGE_SIZE - 1,
             IMAGE.as_ptr(),
             IMAGE.len(),
@@ -337,8 +354,8 @@ fn resealed(mut bytes: Vec<u8>) -> Vec<u8> {
 
 #[test]
 fn damaged_and_foreign_images() {
-    let mut s = storage();
-    let status = |s: &mut Storage, b: &[u8]| {
+    let s = storage();
+    let status = |s: &Mem, b: &[u8]| {
         let (st, e, g) = init(s, b);
         assert!(g.is_null());
         (st, e)
@@ -346,60 +363,60 @@ fn damaged_and_foreign_images() {
     // One payload bit flipped: the CRC catches it.
     let mut b = IMAGE.to_vec();
     b[40] ^= 0x10;
-    assert_eq!(status(&mut s, &b).0, SF_ERR_IMAGE_CHECKSUM);
+    assert_eq!(status(&s, &b).0, SF_ERR_IMAGE_CHECKSUM);
     // A header bit flipped (payload size): CRC or size.
     let mut b = IMAGE.to_vec();
     b[8] ^= 0x01;
     assert!(matches!(
-        status(&mut s, &b).0,
+        status(&s, &b).0,
         SF_ERR_IMAGE_TRUNCATED | SF_ERR_IMAGE_SIZE
     ));
     // Another format version, correctly sealed: refused by version.
     let mut b = IMAGE.to_vec();
     b[4] = 2;
-    let (st, e) = status(&mut s, &resealed(b));
+    let (st, e) = status(&s, &resealed(b));
     assert_eq!(st, SF_ERR_IMAGE_VERSION);
     assert_eq!((e.value, e.min, e.max), (2.0, 1.0, 1.0));
     // Not an image at all.
     let mut b = IMAGE.to_vec();
     b[0] = b'X';
-    assert_eq!(status(&mut s, &b).0, SF_ERR_IMAGE_MAGIC);
+    assert_eq!(status(&s, &b).0, SF_ERR_IMAGE_MAGIC);
     // Truncated, empty, or with bytes after the payload.
     assert_eq!(
-        status(&mut s, &IMAGE[..IMAGE.len() - 1]).0,
+        status(&s, &IMAGE[..IMAGE.len() - 1]).0,
         SF_ERR_IMAGE_TRUNCATED
     );
-    assert_eq!(status(&mut s, &IMAGE[..10]).0, SF_ERR_IMAGE_TRUNCATED);
-    assert_eq!(status(&mut s, &[]).0, SF_ERR_IMAGE_TRUNCATED);
+    assert_eq!(status(&s, &IMAGE[..10]).0, SF_ERR_IMAGE_TRUNCATED);
+    assert_eq!(status(&s, &[]).0, SF_ERR_IMAGE_TRUNCATED);
     let mut b = IMAGE.to_vec();
     b.push(0);
-    assert_eq!(status(&mut s, &b).0, SF_ERR_IMAGE_SIZE);
+    assert_eq!(status(&s, &b).0, SF_ERR_IMAGE_SIZE);
     // Longer than any image may be.
     let big = vec![0u8; SF_RIG_IMAGE_MAX_BYTES + 1];
-    assert_eq!(status(&mut s, &big).0, SF_ERR_IMAGE_SIZE);
+    assert_eq!(status(&s, &big).0, SF_ERR_IMAGE_SIZE);
     // A payload that is not a rig (an option tag of 7), correctly sealed.
     let mut p = IMAGE.to_vec();
     // The first byte after the three feet is the legs' option tag.
     let legs_tag = 16 + 2 + 3 * 12;
     assert_eq!(p[legs_tag], 1, "the example rig has legs");
     p[legs_tag] = 7;
-    let (st, e) = status(&mut s, &resealed(p));
+    let (st, e) = status(&s, &resealed(p));
     assert_eq!(
         (st, e.field_str()),
         (SF_ERR_IMAGE_PAYLOAD, "rig_image.payload")
     );
     // And the intact image still works in the same storage.
-    assert_eq!(init(&mut s, IMAGE).0, SF_OK);
+    assert_eq!(init(&s, IMAGE).0, SF_OK);
 }
 
 #[test]
 fn out_of_range_rig_values_give_the_core_error() {
-    let mut s = storage();
+    let s = storage();
     // A friction coefficient the core refuses.
     let mut img = decoded();
     img.spec.friction_coefficient = -0.5;
     let want = Rig::new(&img.spec).unwrap_err();
-    let (st, e, g) = init(&mut s, &encoded(&img));
+    let (st, e, g) = init(&s, &encoded(&img));
     assert!(g.is_null());
     assert_eq!(e, SfError::from_core(&want));
     assert_eq!(st, SF_ERR_OUT_OF_RANGE);
@@ -409,7 +426,7 @@ fn out_of_range_rig_values_give_the_core_error() {
     let mut img = decoded();
     img.spec.bodies[0].mass_kg = f32::NAN;
     let want = Rig::new(&img.spec).unwrap_err();
-    let (st, e, _) = init(&mut s, &encoded(&img));
+    let (st, e, _) = init(&s, &encoded(&img));
     assert_eq!(st, SF_ERR_NOT_FINITE);
     assert_eq!(e.field_str(), want.field);
     assert_eq!(e.has_index, 1);
@@ -418,27 +435,27 @@ fn out_of_range_rig_values_give_the_core_error() {
     let mut img = decoded();
     img.guard.dwell_s = -1.0;
     let want = img.guard.validate().unwrap_err();
-    let (st, e, _) = init(&mut s, &encoded(&img));
+    let (st, e, _) = init(&s, &encoded(&img));
     assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
     // Air denser than any on Earth.
     let mut img = decoded();
     img.air_density_kg_m3 = 50.0;
     let want = standfast::air::Air::from_density(50.0).unwrap_err();
-    let (st, e, _) = init(&mut s, &encoded(&img));
+    let (st, e, _) = init(&s, &encoded(&img));
     assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
     // A failed init leaves no guard behind in storage that held one.
-    let (st, _, g) = init(&mut s, IMAGE);
+    let (st, _, g) = init(&s, IMAGE);
     assert_eq!(st, SF_OK);
     let mut img = decoded();
     img.guard.dwell_s = -1.0;
-    assert_eq!(init(&mut s, &encoded(&img)).0, SF_ERR_OUT_OF_RANGE);
+    assert_eq!(init(&s, &encoded(&img)).0, SF_ERR_OUT_OF_RANGE);
     assert_eq!(step(g, 0, &no_inputs()).0, SF_ERR_BAD_HANDLE);
 }
 
 #[test]
 fn bad_flags_and_codes_are_refused_without_a_step() {
-    let mut s = storage();
-    let (_, _, g) = init(&mut s, IMAGE);
+    let s = storage();
+    let (_, _, g) = init(&s, IMAGE);
     let cases: [(SfInputs, &str, f32, f32); 7] = [
         (
             SfInputs {
@@ -549,8 +566,8 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
     let rig = Rig::new(&img.spec).unwrap();
     let mut rust = Guard::new(&rig, img.guard.clone(), Millis(0)).unwrap();
     rust.set_air(standfast::air::Air::from_density(img.air_density_kg_m3).unwrap());
-    let mut s = storage();
-    let (_, _, g) = init(&mut s, IMAGE);
+    let s = storage();
+    let (_, _, g) = init(&s, IMAGE);
     let seq: Vec<(u64, SfInputs)> = vec![
         (0, level_calm()),
         (
