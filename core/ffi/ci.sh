@@ -134,3 +134,9 @@ awk -v lib="libstandfast_ffi.a" '
 ' "$OUT/replay_events-cortex-m4f.map"
 arm-none-eabi-nm "$ELF" | grep -q ' T sf_guard_step$'
 echo "Cortex-M4F link: ok"
+
+if [ "${STANDFAST_FFI_MIRI:-0}" = 1 ]; then
+  step "ffi: boundary tests under Miri (opt-in: STANDFAST_FFI_MIRI=1)"
+  rustup toolchain install nightly --profile minimal --component miri,rust-src
+  cargo +nightly miri test -p standfast-ffi --features miri,std
+fi
