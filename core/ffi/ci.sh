@@ -19,13 +19,14 @@ LOG=firmware-example/replay/short-night.csv
 HOST_INPUTS=firmware-example/replay/short-night-host.csv
 mkdir -p "$OUT"
 
-step "ffi: tools (gcc, g++, arm-none-eabi-gcc with newlib, python3, cbindgen $CBINDGEN_VERSION)"
+step "ffi: tools (gcc, g++, arm-none-eabi-gcc with newlib, qemu-system-arm, python3, cbindgen $CBINDGEN_VERSION)"
 need=()
 command -v gcc >/dev/null 2>&1 || need+=(gcc)
 command -v g++ >/dev/null 2>&1 || need+=(g++)
 command -v python3 >/dev/null 2>&1 || need+=(python3)
 command -v arm-none-eabi-gcc >/dev/null 2>&1 || need+=(gcc-arm-none-eabi)
 [ -e /usr/lib/arm-none-eabi/newlib/libc.a ] || need+=(libnewlib-arm-none-eabi)
+command -v qemu-system-arm >/dev/null 2>&1 || need+=(qemu-system-arm)
 if [ "${#need[@]}" -gt 0 ]; then
   export DEBIAN_FRONTEND=noninteractive
   apt-get update -qq
@@ -134,6 +135,30 @@ awk -v lib="libstandfast_ffi.a" '
 ' "$OUT/replay_events-cortex-m4f.map"
 arm-none-eabi-nm "$ELF" | grep -q ' T sf_guard_step$'
 echo "Cortex-M4F link: ok"
+
+step "ffi: the Cortex-M4F build run on QEMU mps2-an386 against standfast replay --events"
+# The same C file again, with newlib's semihosting library (files and
+# standard output through QEMU) and examples/c/mps2_start.c (vector table,
+# FPU on, newlib's start-up), run on the emulated Cortex-M4F board.
+QELF="$OUT/replay_events-mps2.elf"
+arm-none-eabi-gcc -std=c99 $CFLAGS_STRICT -O2 -mcpu=cortex-m4 -mthumb -mfloat-abi=hard -mfpu=fpv4-sp-d16 \
+  -ffunction-sections -fdata-sections -Icore/ffi/include core/ffi/examples/c/replay_events.c \
+  core/ffi/examples/c/mps2_start.c "$LIB_M4" -Wl,--gc-sections -Wl,--undefined=sf_example_vectors \
+  -Wl,--section-start=.vectors=0x0 --specs=rdimon.specs -lm -o "$QELF" 2>"$OUT/mps2-link.txt" || {
+  cat "$OUT/mps2-link.txt"
+  exit 1
+}
+rc=0
+timeout 300 qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \
+  -semihosting-config "enable=on,target=native,arg=replay_events,arg=$OUT/rig.sfri,arg=$LOG,arg=$HOST_INPUTS" \
+  -kernel "$QELF" >"$OUT/m4f-events.txt" 2>"$OUT/m4f-stderr.txt" || rc=$?
+cat "$OUT/m4f-stderr.txt"
+if [ "$rc" -ne 0 ]; then
+  echo "the emulated run failed with exit code $rc"
+  exit 1
+fi
+diff -u "$OUT/host-sim-events.txt" "$OUT/m4f-events.txt"
+echo "Cortex-M4F (QEMU) and host-sim agree: $(wc -l <"$OUT/m4f-events.txt") events"
 
 if [ "${STANDFAST_FFI_MIRI:-0}" = 1 ]; then
   step "ffi: boundary tests under Miri (opt-in: STANDFAST_FFI_MIRI=1)"
