@@ -234,7 +234,7 @@ typedef struct SfMaybeF32 {
 } SfMaybeF32;
 
 /**
- * Which sensor a fault concerns (`standfast::sense::Sensor`).
+ * Which input a fault concerns (`standfast::sense::Sensor`).
  */
 typedef uint32_t SfSensor;
 
@@ -242,6 +242,12 @@ typedef uint32_t SfSensor;
  * The class of a sensor fault (`standfast::sense::Fault` variant).
  */
 typedef uint32_t SfFaultClass;
+
+/**
+ * A figure of the guard's evaluation (`standfast::sense::Check`), for
+ * [`SF_FAULT_UNEVALUABLE`].
+ */
+typedef uint32_t SfCheck;
 
 /**
  * A sensor fault.
@@ -274,6 +280,14 @@ typedef struct SfFault {
    * not carried.
    */
   uint64_t duration_ms;
+  /**
+   * 1 when the class carries [`SfFault::check`] (unevaluable).
+   */
+  uint8_t has_check;
+  /**
+   * The figure that could not be computed ([`SfCheck`]); 0 when not carried.
+   */
+  SfCheck check;
 } SfFault;
 
 /**
@@ -377,6 +391,11 @@ typedef struct SfVerdict {
    */
   struct SfMaybeF32 wind_from_rad;
   /**
+   * 1 when this step evaluated the physics (fresh figures), 0 when the
+   * figures come from an earlier step.
+   */
+  uint8_t evaluated;
+  /**
    * 1 when the tilt fields hold the present ground tilt.
    */
   uint8_t has_tilt;
@@ -392,6 +411,11 @@ typedef struct SfVerdict {
    * Extra tilt that would tip the rig with no wind, radians.
    */
   struct SfMaybeF32 tilt_margin_rad;
+  /**
+   * Rate of slow tilt change (a sinking leg), rad/s, any direction, not
+   * negative.
+   */
+  float tilt_drift_rad_per_s;
   /**
    * The pose the figures are for.
    */
@@ -422,10 +446,10 @@ typedef struct SfVerdict {
    */
   uint32_t event_count;
   /**
-   * 1 when the step's event list was full: the core keeps at most
-   * [`SF_MAX_EVENTS`] per step, and later events of the step may be lost.
+   * Events of this step that did not fit in [`SfVerdict::events`] (the
+   * newest are the ones lost); 0 normally.
    */
-  uint8_t events_overflowed;
+  uint32_t events_lost;
   /**
    * Events of this step, the first `event_count`, in order.
    */
@@ -638,39 +662,59 @@ typedef struct SfAssessment {
 #define SF_STAGE_SENSOR_FAULT 4
 
 /**
- * Overturning utilisation (present or predicted).
+ * Overturning utilisation at the present peak gust.
  */
 #define SF_CAUSE_OVERTURNING 0
 
 /**
- * Sliding utilisation.
+ * Overturning utilisation predicted for the end of a park.
  */
-#define SF_CAUSE_SLIDING 1
+#define SF_CAUSE_PREDICTED_OVERTURNING 1
 
 /**
- * Ground tilt near the tipping tilt, or drifting.
+ * Sliding utilisation at the present peak gust.
  */
-#define SF_CAUSE_TILT 2
+#define SF_CAUSE_SLIDING 2
 
 /**
- * Drive torque.
+ * Drive torque utilisation of either axis.
  */
 #define SF_CAUSE_DRIVE 3
 
 /**
- * A sensor fault.
+ * Tilt margin at or below its alarm margin.
  */
-#define SF_CAUSE_SENSOR 4
+#define SF_CAUSE_TILT_MARGIN 4
 
 /**
- * Figures back below their thresholds for the dwell time.
+ * Slow tilt change (a sinking leg) at or above its watch rate.
  */
-#define SF_CAUSE_SETTLED 5
+#define SF_CAUSE_TILT_DRIFT 5
 
 /**
- * An operator acknowledged the alarm.
+ * A fault of a sensor or another input, or no reading yet.
  */
-#define SF_CAUSE_ACKNOWLEDGED 6
+#define SF_CAUSE_SENSOR_FAULT 6
+
+/**
+ * The physics could not be evaluated from the inputs.
+ */
+#define SF_CAUSE_EVALUATION_FAULT 7
+
+/**
+ * The figures stayed settled below every level left for the dwell time.
+ */
+#define SF_CAUSE_SETTLED 8
+
+/**
+ * The inputs stayed healthy for the fault clear time.
+ */
+#define SF_CAUSE_FAULT_CLEARED 9
+
+/**
+ * A step down right after an operator acknowledged the alarm.
+ */
+#define SF_CAUSE_ACKNOWLEDGED 10
 
 /**
  * The 3-axis accelerometer used for ground tilt.
@@ -686,6 +730,31 @@ typedef struct SfAssessment {
  * The wind vane (direction channel).
  */
 #define SF_SENSOR_WIND_DIRECTION 2
+
+/**
+ * The mount pose reported by the mount controller.
+ */
+#define SF_SENSOR_POSE 3
+
+/**
+ * The cover state reported by the observatory.
+ */
+#define SF_SENSOR_COVER 4
+
+/**
+ * Measured air temperature and pressure.
+ */
+#define SF_SENSOR_AIR 5
+
+/**
+ * The caller's time stamps.
+ */
+#define SF_SENSOR_CLOCK 6
+
+/**
+ * The guard's physics model (see [`SF_FAULT_UNEVALUABLE`]).
+ */
+#define SF_SENSOR_MODEL 7
 
 /**
  * A sample held NaN or an infinity.
@@ -726,6 +795,57 @@ typedef struct SfAssessment {
  * Tilt beyond what the model accepts (`value`: tilt, rad).
  */
 #define SF_FAULT_TILT_BEYOND_LIMIT 7
+
+/**
+ * The sensor has not yet given a usable reading.
+ */
+#define SF_FAULT_NO_READING 8
+
+/**
+ * The input names a part the rig does not have (a cover on a rig without
+ * one); the input was dropped.
+ */
+#define SF_FAULT_NOT_IN_RIG 9
+
+/**
+ * The physics could not compute a figure (`check` says which).
+ */
+#define SF_FAULT_UNEVALUABLE 10
+
+/**
+ * The scan for the worst wind direction.
+ */
+#define SF_CHECK_WORST_DIRECTION 0
+
+/**
+ * Overturning and sliding utilisation at the present gust, tip wind.
+ */
+#define SF_CHECK_OVERTURNING 1
+
+/**
+ * Overturning utilisation at the gust predicted for the end of a park.
+ */
+#define SF_CHECK_PREDICTED_OVERTURNING 2
+
+/**
+ * Drive torque utilisation of either axis.
+ */
+#define SF_CHECK_DRIVE 3
+
+/**
+ * The extra tilt that would tip the rig.
+ */
+#define SF_CHECK_TILT_MARGIN 4
+
+/**
+ * The rate of slow tilt change.
+ */
+#define SF_CHECK_TILT_DRIFT 5
+
+/**
+ * The search for the safest park pose.
+ */
+#define SF_CHECK_PARK_POSE 6
 
 /**
  * The stage changed (`from_stage`, `to_stage`, `cause`).
@@ -913,14 +1033,21 @@ const char *sf_stage_name(SfStage stage);
 const char *sf_cause_name(SfCause cause);
 
 /**
- * Name of a sensor code (`accel`, `wind_speed`, `wind_direction`); static.
+ * Name of a sensor code (`accel`, `wind_speed`, `wind_direction`, `pose`,
+ * `cover`, `air`, `clock`, `model`); static.
  */
 const char *sf_sensor_name(SfSensor sensor);
 
 /**
- * Name of a fault class code (`not_finite`, …, `tilt_beyond_limit`); static.
+ * Name of a fault class code (`not_finite`, …, `unevaluable`); static.
  */
 const char *sf_fault_class_name(SfFaultClass fault_class);
+
+/**
+ * Name of an evaluation check code (`worst_direction`, …, `park_pose`);
+ * static.
+ */
+const char *sf_check_name(SfCheck check);
 
 /**
  * Name of an event kind code; static.

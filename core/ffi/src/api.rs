@@ -369,6 +369,8 @@ const NO_FAULT: SfFault = SfFault {
     value: f32::NAN,
     has_duration: 0,
     duration_ms: 0,
+    has_check: 0,
+    check: 0,
 };
 
 const NO_EVENT: SfEvent = SfEvent {
@@ -408,10 +410,12 @@ const FAIL_SAFE_VERDICT: SfVerdict = SfVerdict {
     gust_mps: NONE_F32,
     predicted_gust_mps: NONE_F32,
     wind_from_rad: NONE_F32,
+    evaluated: 0,
     has_tilt: 0,
     tilt_magnitude_rad: f32::NAN,
     tilt_downhill_azimuth_rad: f32::NAN,
     tilt_margin_rad: NONE_F32,
+    tilt_drift_rad_per_s: f32::NAN,
     pose: NO_POSE,
     has_park_pose: 0,
     park_pose: NO_POSE,
@@ -419,21 +423,23 @@ const FAIL_SAFE_VERDICT: SfVerdict = SfVerdict {
     faults_overflowed: 0,
     faults: [NO_FAULT; SF_MAX_FAULTS],
     event_count: 0,
-    events_overflowed: 0,
+    events_lost: 0,
     events: [NO_EVENT; SF_MAX_EVENTS],
 };
 
 /// The C form of a fault.
 #[must_use]
 pub fn sf_fault(f: &Fault) -> SfFault {
-    let (class, value, duration) = fault_parts(f);
+    let p = fault_parts(f);
     SfFault {
         sensor: sensor_code(f.sensor()),
-        fault_class: class,
-        has_value: u8::from(value.is_some()),
-        value: value.unwrap_or(f32::NAN),
-        has_duration: u8::from(duration.is_some()),
-        duration_ms: duration.unwrap_or(0),
+        fault_class: p.class,
+        has_value: u8::from(p.value.is_some()),
+        value: p.value.unwrap_or(f32::NAN),
+        has_duration: u8::from(p.duration_ms.is_some()),
+        duration_ms: p.duration_ms.unwrap_or(0),
+        has_check: u8::from(p.check.is_some()),
+        check: p.check.unwrap_or(0),
     }
 }
 
@@ -479,10 +485,12 @@ pub fn sf_verdict(v: &Verdict) -> SfVerdict {
         gust_mps: maybe(v.gust_mps),
         predicted_gust_mps: maybe(v.predicted_gust_mps),
         wind_from_rad: maybe(v.wind_from_rad),
+        evaluated: u8::from(v.evaluated),
         has_tilt: u8::from(v.tilt.is_some()),
         tilt_magnitude_rad: v.tilt.map_or(f32::NAN, |t| t.magnitude_rad),
         tilt_downhill_azimuth_rad: v.tilt.map_or(f32::NAN, |t| t.downhill_azimuth_rad),
         tilt_margin_rad: maybe(v.tilt_margin_rad),
+        tilt_drift_rad_per_s: v.tilt_drift_rad_per_s,
         pose: sf_pose(v.pose),
         has_park_pose: u8::from(v.park_pose.is_some()),
         park_pose: v.park_pose.map_or(NO_POSE, sf_pose),
@@ -490,7 +498,7 @@ pub fn sf_verdict(v: &Verdict) -> SfVerdict {
         faults_overflowed: u8::from(v.faults.overflowed()),
         faults: [NO_FAULT; SF_MAX_FAULTS],
         event_count: 0,
-        events_overflowed: u8::from(v.events.is_full()),
+        events_lost: u32::from(v.events_lost),
         events: [NO_EVENT; SF_MAX_EVENTS],
     };
     for (slot, f) in out.faults.iter_mut().zip(v.faults.iter()) {
@@ -897,16 +905,24 @@ pub extern "C" fn sf_cause_name(cause: SfCause) -> *const c_char {
     name_in(&CAUSE_NAMES, cause).as_ptr()
 }
 
-/// Name of a sensor code (`accel`, `wind_speed`, `wind_direction`); static.
+/// Name of a sensor code (`accel`, `wind_speed`, `wind_direction`, `pose`,
+/// `cover`, `air`, `clock`, `model`); static.
 #[no_mangle]
 pub extern "C" fn sf_sensor_name(sensor: SfSensor) -> *const c_char {
     name_in(&SENSOR_NAMES, sensor).as_ptr()
 }
 
-/// Name of a fault class code (`not_finite`, …, `tilt_beyond_limit`); static.
+/// Name of a fault class code (`not_finite`, …, `unevaluable`); static.
 #[no_mangle]
 pub extern "C" fn sf_fault_class_name(fault_class: SfFaultClass) -> *const c_char {
     name_in(&FAULT_CLASS_NAMES, fault_class).as_ptr()
+}
+
+/// Name of an evaluation check code (`worst_direction`, …, `park_pose`);
+/// static.
+#[no_mangle]
+pub extern "C" fn sf_check_name(check: SfCheck) -> *const c_char {
+    name_in(&CHECK_NAMES, check).as_ptr()
 }
 
 /// Name of an event kind code; static.

@@ -8,7 +8,7 @@
 
 use core::ffi::CStr;
 use standfast::guard::{Cause, Event, Stage};
-use standfast::sense::{Fault, Sensor};
+use standfast::sense::{Check, Fault, Sensor};
 use standfast::ErrorKind;
 
 /// A status code returned by every `sf_*` function that can fail.
@@ -73,22 +73,30 @@ pub const SF_STAGE_SENSOR_FAULT: SfStage = 4;
 
 /// What drove a stage change (`standfast::guard::Cause`).
 pub type SfCause = u32;
-/// Overturning utilisation (present or predicted).
+/// Overturning utilisation at the present peak gust.
 pub const SF_CAUSE_OVERTURNING: SfCause = 0;
-/// Sliding utilisation.
-pub const SF_CAUSE_SLIDING: SfCause = 1;
-/// Ground tilt near the tipping tilt, or drifting.
-pub const SF_CAUSE_TILT: SfCause = 2;
-/// Drive torque.
+/// Overturning utilisation predicted for the end of a park.
+pub const SF_CAUSE_PREDICTED_OVERTURNING: SfCause = 1;
+/// Sliding utilisation at the present peak gust.
+pub const SF_CAUSE_SLIDING: SfCause = 2;
+/// Drive torque utilisation of either axis.
 pub const SF_CAUSE_DRIVE: SfCause = 3;
-/// A sensor fault.
-pub const SF_CAUSE_SENSOR: SfCause = 4;
-/// Figures back below their thresholds for the dwell time.
-pub const SF_CAUSE_SETTLED: SfCause = 5;
-/// An operator acknowledged the alarm.
-pub const SF_CAUSE_ACKNOWLEDGED: SfCause = 6;
+/// Tilt margin at or below its alarm margin.
+pub const SF_CAUSE_TILT_MARGIN: SfCause = 4;
+/// Slow tilt change (a sinking leg) at or above its watch rate.
+pub const SF_CAUSE_TILT_DRIFT: SfCause = 5;
+/// A fault of a sensor or another input, or no reading yet.
+pub const SF_CAUSE_SENSOR_FAULT: SfCause = 6;
+/// The physics could not be evaluated from the inputs.
+pub const SF_CAUSE_EVALUATION_FAULT: SfCause = 7;
+/// The figures stayed settled below every level left for the dwell time.
+pub const SF_CAUSE_SETTLED: SfCause = 8;
+/// The inputs stayed healthy for the fault clear time.
+pub const SF_CAUSE_FAULT_CLEARED: SfCause = 9;
+/// A step down right after an operator acknowledged the alarm.
+pub const SF_CAUSE_ACKNOWLEDGED: SfCause = 10;
 
-/// Which sensor a fault concerns (`standfast::sense::Sensor`).
+/// Which input a fault concerns (`standfast::sense::Sensor`).
 pub type SfSensor = u32;
 /// The 3-axis accelerometer used for ground tilt.
 pub const SF_SENSOR_ACCEL: SfSensor = 0;
@@ -96,6 +104,16 @@ pub const SF_SENSOR_ACCEL: SfSensor = 0;
 pub const SF_SENSOR_WIND_SPEED: SfSensor = 1;
 /// The wind vane (direction channel).
 pub const SF_SENSOR_WIND_DIRECTION: SfSensor = 2;
+/// The mount pose reported by the mount controller.
+pub const SF_SENSOR_POSE: SfSensor = 3;
+/// The cover state reported by the observatory.
+pub const SF_SENSOR_COVER: SfSensor = 4;
+/// Measured air temperature and pressure.
+pub const SF_SENSOR_AIR: SfSensor = 5;
+/// The caller's time stamps.
+pub const SF_SENSOR_CLOCK: SfSensor = 6;
+/// The guard's physics model (see [`SF_FAULT_UNEVALUABLE`]).
+pub const SF_SENSOR_MODEL: SfSensor = 7;
 
 /// The class of a sensor fault (`standfast::sense::Fault` variant).
 pub type SfFaultClass = u32;
@@ -115,6 +133,31 @@ pub const SF_FAULT_MAGNITUDE_OUT_OF_BAND: SfFaultClass = 5;
 pub const SF_FAULT_TILT_STEP: SfFaultClass = 6;
 /// Tilt beyond what the model accepts (`value`: tilt, rad).
 pub const SF_FAULT_TILT_BEYOND_LIMIT: SfFaultClass = 7;
+/// The sensor has not yet given a usable reading.
+pub const SF_FAULT_NO_READING: SfFaultClass = 8;
+/// The input names a part the rig does not have (a cover on a rig without
+/// one); the input was dropped.
+pub const SF_FAULT_NOT_IN_RIG: SfFaultClass = 9;
+/// The physics could not compute a figure (`check` says which).
+pub const SF_FAULT_UNEVALUABLE: SfFaultClass = 10;
+
+/// A figure of the guard's evaluation (`standfast::sense::Check`), for
+/// [`SF_FAULT_UNEVALUABLE`].
+pub type SfCheck = u32;
+/// The scan for the worst wind direction.
+pub const SF_CHECK_WORST_DIRECTION: SfCheck = 0;
+/// Overturning and sliding utilisation at the present gust, tip wind.
+pub const SF_CHECK_OVERTURNING: SfCheck = 1;
+/// Overturning utilisation at the gust predicted for the end of a park.
+pub const SF_CHECK_PREDICTED_OVERTURNING: SfCheck = 2;
+/// Drive torque utilisation of either axis.
+pub const SF_CHECK_DRIVE: SfCheck = 3;
+/// The extra tilt that would tip the rig.
+pub const SF_CHECK_TILT_MARGIN: SfCheck = 4;
+/// The rate of slow tilt change.
+pub const SF_CHECK_TILT_DRIFT: SfCheck = 5;
+/// The search for the safest park pose.
+pub const SF_CHECK_PARK_POSE: SfCheck = 6;
 
 /// The kind of an event (`standfast::guard::Event` variant).
 pub type SfEventKind = u32;
@@ -158,11 +201,15 @@ pub const fn stage_code(s: Stage) -> SfStage {
 pub const fn cause_code(c: Cause) -> SfCause {
     match c {
         Cause::Overturning => SF_CAUSE_OVERTURNING,
+        Cause::PredictedOverturning => SF_CAUSE_PREDICTED_OVERTURNING,
         Cause::Sliding => SF_CAUSE_SLIDING,
-        Cause::Tilt => SF_CAUSE_TILT,
         Cause::Drive => SF_CAUSE_DRIVE,
-        Cause::Sensor => SF_CAUSE_SENSOR,
+        Cause::TiltMargin => SF_CAUSE_TILT_MARGIN,
+        Cause::TiltDrift => SF_CAUSE_TILT_DRIFT,
+        Cause::SensorFault => SF_CAUSE_SENSOR_FAULT,
+        Cause::EvaluationFault => SF_CAUSE_EVALUATION_FAULT,
         Cause::Settled => SF_CAUSE_SETTLED,
+        Cause::FaultCleared => SF_CAUSE_FAULT_CLEARED,
         Cause::Acknowledged => SF_CAUSE_ACKNOWLEDGED,
     }
 }
@@ -174,31 +221,79 @@ pub const fn sensor_code(s: Sensor) -> SfSensor {
         Sensor::Accelerometer => SF_SENSOR_ACCEL,
         Sensor::WindSpeed => SF_SENSOR_WIND_SPEED,
         Sensor::WindDirection => SF_SENSOR_WIND_DIRECTION,
+        Sensor::MountPose => SF_SENSOR_POSE,
+        Sensor::Cover => SF_SENSOR_COVER,
+        Sensor::Air => SF_SENSOR_AIR,
+        Sensor::Clock => SF_SENSOR_CLOCK,
+        Sensor::Model => SF_SENSOR_MODEL,
     }
 }
 
-/// A fault's class code, and the value (in the unit its class states) and
-/// duration (ms) it carries, when it carries them.
+/// The C code of an evaluation check.
 #[must_use]
-pub const fn fault_parts(f: &Fault) -> (SfFaultClass, Option<f32>, Option<u64>) {
+pub const fn check_code(c: Check) -> SfCheck {
+    match c {
+        Check::WorstDirection => SF_CHECK_WORST_DIRECTION,
+        Check::Overturning => SF_CHECK_OVERTURNING,
+        Check::PredictedOverturning => SF_CHECK_PREDICTED_OVERTURNING,
+        Check::Drive => SF_CHECK_DRIVE,
+        Check::TiltMargin => SF_CHECK_TILT_MARGIN,
+        Check::TiltDrift => SF_CHECK_TILT_DRIFT,
+        Check::ParkPose => SF_CHECK_PARK_POSE,
+    }
+}
+
+/// What a fault carries besides its sensor: its class code, the value (in
+/// the unit its class states), the duration (ms) and the evaluation check,
+/// each when the class carries it.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct FaultParts {
+    /// The class.
+    pub class: SfFaultClass,
+    /// The value, in the unit the class states.
+    pub value: Option<f32>,
+    /// The duration, ms.
+    pub duration_ms: Option<u64>,
+    /// The figure that could not be computed.
+    pub check: Option<SfCheck>,
+}
+
+const fn parts(class: SfFaultClass, value: Option<f32>, duration_ms: Option<u64>) -> FaultParts {
+    FaultParts {
+        class,
+        value,
+        duration_ms,
+        check: None,
+    }
+}
+
+/// The C parts of a fault.
+#[must_use]
+pub const fn fault_parts(f: &Fault) -> FaultParts {
     match *f {
-        Fault::NotFinite { .. } => (SF_FAULT_NOT_FINITE, None, None),
-        Fault::OutOfRange { value, .. } => (SF_FAULT_OUT_OF_RANGE, Some(value), None),
-        Fault::TimeReversed { .. } => (SF_FAULT_TIME_REVERSED, None, None),
-        Fault::Stale { silent_ms, .. } => (SF_FAULT_STALE, None, Some(silent_ms)),
-        Fault::Stuck { unchanged_ms, .. } => (SF_FAULT_STUCK, None, Some(unchanged_ms)),
+        Fault::NotFinite { .. } => parts(SF_FAULT_NOT_FINITE, None, None),
+        Fault::OutOfRange { value, .. } => parts(SF_FAULT_OUT_OF_RANGE, Some(value), None),
+        Fault::TimeReversed { .. } => parts(SF_FAULT_TIME_REVERSED, None, None),
+        Fault::Stale { silent_ms, .. } => parts(SF_FAULT_STALE, None, Some(silent_ms)),
+        Fault::Stuck { unchanged_ms, .. } => parts(SF_FAULT_STUCK, None, Some(unchanged_ms)),
         Fault::MagnitudeOutOfBand {
             magnitude_g,
             for_ms,
-        } => (
+        } => parts(
             SF_FAULT_MAGNITUDE_OUT_OF_BAND,
             Some(magnitude_g),
             Some(for_ms),
         ),
-        Fault::TiltStep { step_rad } => (SF_FAULT_TILT_STEP, Some(step_rad), None),
+        Fault::TiltStep { step_rad } => parts(SF_FAULT_TILT_STEP, Some(step_rad), None),
         Fault::TiltBeyondLimit { magnitude_rad } => {
-            (SF_FAULT_TILT_BEYOND_LIMIT, Some(magnitude_rad), None)
+            parts(SF_FAULT_TILT_BEYOND_LIMIT, Some(magnitude_rad), None)
         }
+        Fault::NoReading { .. } => parts(SF_FAULT_NO_READING, None, None),
+        Fault::NotInRig { .. } => parts(SF_FAULT_NOT_IN_RIG, None, None),
+        Fault::Unevaluable { check } => FaultParts {
+            check: Some(check_code(check)),
+            ..parts(SF_FAULT_UNEVALUABLE, None, None)
+        },
     }
 }
 
@@ -234,19 +329,32 @@ pub const UNKNOWN: &CStr = c"unknown";
 pub(crate) const STAGE_NAMES: [&CStr; 5] =
     [c"clear", c"watch", c"park_now", c"alarm", c"sensor_fault"];
 /// Names of [`SfCause`] codes, by value.
-pub(crate) const CAUSE_NAMES: [&CStr; 7] = [
+pub(crate) const CAUSE_NAMES: [&CStr; 11] = [
     c"overturning",
+    c"predicted_overturning",
     c"sliding",
-    c"tilt",
     c"drive",
-    c"sensor",
+    c"tilt_margin",
+    c"tilt_drift",
+    c"sensor_fault",
+    c"evaluation_fault",
     c"settled",
+    c"fault_cleared",
     c"acknowledged",
 ];
 /// Names of [`SfSensor`] codes, by value (the core's `Sensor::code`).
-pub(crate) const SENSOR_NAMES: [&CStr; 3] = [c"accel", c"wind_speed", c"wind_direction"];
+pub(crate) const SENSOR_NAMES: [&CStr; 8] = [
+    c"accel",
+    c"wind_speed",
+    c"wind_direction",
+    c"pose",
+    c"cover",
+    c"air",
+    c"clock",
+    c"model",
+];
 /// Names of [`SfFaultClass`] codes, by value (the core's `Fault::class_code`).
-pub(crate) const FAULT_CLASS_NAMES: [&CStr; 8] = [
+pub(crate) const FAULT_CLASS_NAMES: [&CStr; 11] = [
     c"not_finite",
     c"out_of_range",
     c"time_reversed",
@@ -255,6 +363,19 @@ pub(crate) const FAULT_CLASS_NAMES: [&CStr; 8] = [
     c"magnitude_out_of_band",
     c"tilt_step",
     c"tilt_beyond_limit",
+    c"no_reading",
+    c"not_in_rig",
+    c"unevaluable",
+];
+/// Names of [`SfCheck`] codes, by value (the core's `Check::code`).
+pub(crate) const CHECK_NAMES: [&CStr; 7] = [
+    c"worst_direction",
+    c"overturning",
+    c"predicted_overturning",
+    c"drive",
+    c"tilt_margin",
+    c"tilt_drift",
+    c"park_pose",
 ];
 /// Names of [`SfEventKind`] codes, by value.
 pub(crate) const EVENT_KIND_NAMES: [&CStr; 3] =
@@ -295,12 +416,13 @@ pub fn name_in(table: &[&'static CStr], code: u32) -> &'static CStr {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use standfast::sense::Fault;
 
     fn s(c: &CStr) -> &str {
         c.to_str().unwrap()
     }
 
+    /// Every name is the core's own (`name()`/`code()`), so the C names can
+    /// never drift from what host-sim and the firmware print.
     #[test]
     fn names_match_the_core() {
         for st in [
@@ -312,15 +434,35 @@ mod tests {
         ] {
             assert_eq!(s(name_in(&STAGE_NAMES, stage_code(st))), st.name());
         }
-        for se in [
+        let sensors = [
             Sensor::Accelerometer,
             Sensor::WindSpeed,
             Sensor::WindDirection,
-        ] {
+            Sensor::MountPose,
+            Sensor::Cover,
+            Sensor::Air,
+            Sensor::Clock,
+            Sensor::Model,
+        ];
+        for se in sensors {
             assert_eq!(s(name_in(&SENSOR_NAMES, sensor_code(se))), se.code());
         }
+        assert_eq!(SENSOR_NAMES.len(), sensors.len());
+        let checks = [
+            Check::WorstDirection,
+            Check::Overturning,
+            Check::PredictedOverturning,
+            Check::Drive,
+            Check::TiltMargin,
+            Check::TiltDrift,
+            Check::ParkPose,
+        ];
+        for c in checks {
+            assert_eq!(s(name_in(&CHECK_NAMES, check_code(c))), c.code());
+        }
+        assert_eq!(CHECK_NAMES.len(), checks.len());
         let w = Sensor::WindSpeed;
-        for f in [
+        let faults = [
             Fault::NotFinite { sensor: w },
             Fault::OutOfRange {
                 sensor: w,
@@ -341,25 +483,36 @@ mod tests {
             },
             Fault::TiltStep { step_rad: 0.1 },
             Fault::TiltBeyondLimit { magnitude_rad: 1.0 },
-        ] {
-            assert_eq!(
-                s(name_in(&FAULT_CLASS_NAMES, fault_parts(&f).0)),
-                f.class_code()
-            );
+            Fault::NoReading { sensor: w },
+            Fault::NotInRig {
+                sensor: Sensor::Cover,
+            },
+            Fault::Unevaluable {
+                check: Check::Drive,
+            },
+        ];
+        for f in faults {
+            let p = fault_parts(&f);
+            assert_eq!(s(name_in(&FAULT_CLASS_NAMES, p.class)), f.class_code());
         }
-        for c in [
+        assert_eq!(FAULT_CLASS_NAMES.len(), faults.len());
+        let causes = [
             Cause::Overturning,
+            Cause::PredictedOverturning,
             Cause::Sliding,
-            Cause::Tilt,
             Cause::Drive,
-            Cause::Sensor,
+            Cause::TiltMargin,
+            Cause::TiltDrift,
+            Cause::SensorFault,
+            Cause::EvaluationFault,
             Cause::Settled,
+            Cause::FaultCleared,
             Cause::Acknowledged,
-        ] {
-            // host-sim's replay names causes by their lower-case Debug name.
-            let debug = std::format!("{c:?}").to_lowercase();
-            assert_eq!(s(name_in(&CAUSE_NAMES, cause_code(c))), debug);
+        ];
+        for c in causes {
+            assert_eq!(s(name_in(&CAUSE_NAMES, cause_code(c))), c.name());
         }
+        assert_eq!(CAUSE_NAMES.len(), causes.len());
         assert_eq!(s(name_in(&STATUS_NAMES, SF_ERR_NO_MEMORY)), "no_memory");
         assert_eq!(s(name_in(&STAGE_NAMES, 99)), "unknown");
     }

@@ -8,7 +8,8 @@
 //! direction being where it blows **from**; SI units, named in each field.
 
 use crate::codes::{
-    SfCause, SfEventKind, SfFaultClass, SfPierSide, SfPoseKind, SfSensor, SfStage, SfStatus,
+    SfCause, SfCheck, SfEventKind, SfFaultClass, SfPierSide, SfPoseKind, SfSensor, SfStage,
+    SfStatus,
 };
 
 /// Bytes of [`SfError::field`], terminating NUL included.
@@ -130,6 +131,10 @@ pub struct SfFault {
     /// Milliseconds silent (stale), unchanged (stuck) or out of band; 0 when
     /// not carried.
     pub duration_ms: u64,
+    /// 1 when the class carries [`SfFault::check`] (unevaluable).
+    pub has_check: u8,
+    /// The figure that could not be computed ([`SfCheck`]); 0 when not carried.
+    pub check: SfCheck,
 }
 
 /// Something worth logging that happened in a step.
@@ -184,6 +189,9 @@ pub struct SfVerdict {
     /// Wind direction used, rad from north clockwise (from; the worst one
     /// when the measured direction is not defined).
     pub wind_from_rad: SfMaybeF32,
+    /// 1 when this step evaluated the physics (fresh figures), 0 when the
+    /// figures come from an earlier step.
+    pub evaluated: u8,
     /// 1 when the tilt fields hold the present ground tilt.
     pub has_tilt: u8,
     /// Ground tilt magnitude, radians.
@@ -192,6 +200,9 @@ pub struct SfVerdict {
     pub tilt_downhill_azimuth_rad: f32,
     /// Extra tilt that would tip the rig with no wind, radians.
     pub tilt_margin_rad: SfMaybeF32,
+    /// Rate of slow tilt change (a sinking leg), rad/s, any direction, not
+    /// negative.
+    pub tilt_drift_rad_per_s: f32,
     /// The pose the figures are for.
     pub pose: SfPose,
     /// 1 when [`SfVerdict::park_pose`] holds the safest park pose (only
@@ -207,9 +218,9 @@ pub struct SfVerdict {
     pub faults: [SfFault; SF_MAX_FAULTS],
     /// Number of events in [`SfVerdict::events`].
     pub event_count: u32,
-    /// 1 when the step's event list was full: the core keeps at most
-    /// [`SF_MAX_EVENTS`] per step, and later events of the step may be lost.
-    pub events_overflowed: u8,
+    /// Events of this step that did not fit in [`SfVerdict::events`] (the
+    /// newest are the ones lost); 0 normally.
+    pub events_lost: u32,
     /// Events of this step, the first `event_count`, in order.
     pub events: [SfEvent; SF_MAX_EVENTS],
 }

@@ -4,6 +4,7 @@
  * `standfast replay --events` (core/ffi/ci.sh compares the two with diff):
  *
  *   event t_ms=<u64> kind=fault sensor=<sensor> class=<class>
+ *   event t_ms=<u64> kind=events_lost count=<n>
  *   event t_ms=<u64> kind=stage from=<stage> to=<stage>
  *
  * Usage: replay_events RIG_IMAGE ACCEL_LOG GUARD_INPUTS
@@ -244,14 +245,24 @@ static void print_error(const char *what, SfStatus s, const SfError *e) {
             (const char *)e->field, (double)e->value, (double)e->min, (double)e->max);
 }
 
+/* A step's events as the replay prints them: its raised faults, then the
+ * count of events that did not fit in the verdict (if any), then its stage
+ * change. */
 static void print_events(const SfVerdict *v, unsigned long long t_ms) {
-    uint32_t i;
-    for (i = 0; i < v->event_count && i < SF_MAX_EVENTS; i++) {
+    uint32_t i, n = v->event_count < SF_MAX_EVENTS ? v->event_count : SF_MAX_EVENTS;
+    for (i = 0; i < n; i++) {
         const SfEvent *e = &v->events[i];
         if (e->kind == SF_EVENT_FAULT_RAISED) {
             printf("event t_ms=%llu kind=fault sensor=%s class=%s\n", t_ms,
                    sf_sensor_name(e->fault.sensor), sf_fault_class_name(e->fault.fault_class));
-        } else if (e->kind == SF_EVENT_STAGE_CHANGED) {
+        }
+    }
+    if (v->events_lost > 0) {
+        printf("event t_ms=%llu kind=events_lost count=%lu\n", t_ms, (unsigned long)v->events_lost);
+    }
+    for (i = 0; i < n; i++) {
+        const SfEvent *e = &v->events[i];
+        if (e->kind == SF_EVENT_STAGE_CHANGED) {
             printf("event t_ms=%llu kind=stage from=%s to=%s\n", t_ms, sf_stage_name(e->from_stage),
                    sf_stage_name(e->to_stage));
         }

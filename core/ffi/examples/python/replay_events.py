@@ -88,6 +88,8 @@ class SfFault(C.Structure):
         ("value", C.c_float),
         ("has_duration", C.c_uint8),
         ("duration_ms", C.c_uint64),
+        ("has_check", C.c_uint8),
+        ("check", C.c_uint32),
     ]
 
 
@@ -117,10 +119,12 @@ class SfVerdict(C.Structure):
         ("gust_mps", SfMaybeF32),
         ("predicted_gust_mps", SfMaybeF32),
         ("wind_from_rad", SfMaybeF32),
+        ("evaluated", C.c_uint8),
         ("has_tilt", C.c_uint8),
         ("tilt_magnitude_rad", C.c_float),
         ("tilt_downhill_azimuth_rad", C.c_float),
         ("tilt_margin_rad", SfMaybeF32),
+        ("tilt_drift_rad_per_s", C.c_float),
         ("pose", SfPose),
         ("has_park_pose", C.c_uint8),
         ("park_pose", SfPose),
@@ -128,7 +132,7 @@ class SfVerdict(C.Structure):
         ("faults_overflowed", C.c_uint8),
         ("faults", SfFault * SF_MAX_FAULTS),
         ("event_count", C.c_uint32),
-        ("events_overflowed", C.c_uint8),
+        ("events_lost", C.c_uint32),
         ("events", SfEvent * SF_MAX_EVENTS),
     ]
 
@@ -270,11 +274,16 @@ def main(argv):
             s = lib.sf_guard_step(guard, now, C.byref(inp), C.byref(verdict), C.byref(err))
             if s != SF_OK:
                 return fail(lib, "sf_guard_step", s, err)
-            for e in verdict.events[: min(verdict.event_count, SF_MAX_EVENTS)]:
+            events = verdict.events[: min(verdict.event_count, SF_MAX_EVENTS)]
+            # As the replay prints a step: raised faults, lost events, stage change.
+            for e in events:
                 if e.kind == SF_EVENT_FAULT_RAISED:
                     print(f"event t_ms={now} kind=fault sensor={lib.sf_sensor_name(e.fault.sensor).decode()} "
                           f"class={lib.sf_fault_class_name(e.fault.fault_class).decode()}")
-                elif e.kind == SF_EVENT_STAGE_CHANGED:
+            if verdict.events_lost > 0:
+                print(f"event t_ms={now} kind=events_lost count={verdict.events_lost}")
+            for e in events:
+                if e.kind == SF_EVENT_STAGE_CHANGED:
                     print(f"event t_ms={now} kind=stage from={lib.sf_stage_name(e.from_stage).decode()} "
                           f"to={lib.sf_stage_name(e.to_stage).decode()}")
     except ValueError as e:
