@@ -160,6 +160,15 @@ fi
 diff -u "$OUT/host-sim-events.txt" "$OUT/m4f-events.txt"
 echo "Cortex-M4F (QEMU) and host-sim agree: $(wc -l <"$OUT/m4f-events.txt") events"
 
+step "ffi: rig image reader fuzz smoke run (cargo-fuzz on nightly, core/fuzz, 30 s)"
+rustup toolchain install nightly --profile minimal
+command -v cargo-fuzz >/dev/null || cargo install cargo-fuzz --locked
+image_corpus="$(mktemp -d)"
+# New inputs go to the temporary folder; the committed seed is read only.
+(cd core && cargo +nightly fuzz run rig_image "$image_corpus" fuzz/corpus/rig_image -- \
+    -max_total_time=30 -print_final_stats=1)
+rm -rf "$image_corpus"
+
 if [ "${STANDFAST_FFI_MIRI:-0}" = 1 ]; then
   step "ffi: boundary tests under Miri (opt-in: STANDFAST_FFI_MIRI=1)"
   rustup toolchain install nightly --profile minimal --component miri,rust-src
