@@ -135,6 +135,9 @@ pub struct AssessReport {
     /// Bending check of the counterweight shaft at its root, when the rig
     /// file names the shaft's material.
     pub shaft_check: Option<ShaftCheck>,
+    /// The weighed centre of gravity the rig carries (`[measured]`), with
+    /// the figures the bodies imply, when the file has one.
+    pub measured: Option<crate::rigfile::MeasuredNote>,
     /// The cautions.
     pub cautions: Vec<&'static str>,
 }
@@ -407,6 +410,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         balance,
         payload_envelope,
         shaft_check: shaft_check(r).map_err(e)?,
+        measured: r.measured.clone(),
         cautions: CAUTIONS.to_vec(),
     })
 }
@@ -430,6 +434,17 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
         "  mass {:.1} kg, centre of gravity x {x:.3} m (east), y {y:.3} m (north), z {z:.3} m (up), home pose, cover off",
         rep.mass_kg
     )?;
+    if let Some(m) = &rep.measured {
+        let [dx, dy, dz] = m.difference_m;
+        writeln!(
+            out,
+            "  weighed ([measured]): the bodies alone imply {:.1} kg at z {:.3} m; weighed minus modelled x {dx:+.3} m, y {dy:+.3} m, z {dz:+.3} m{}",
+            m.modelled_mass_kg,
+            m.modelled_centre_m[2],
+            m.centre_uncertainty_m
+                .map_or_else(String::new, |u| format!(" (weighed height ± {:.3} m)", u[2]))
+        )?;
+    }
     writeln!(
         out,
         "  air density {:.3} kg/m³ (ISA at the site elevation)",

@@ -22,6 +22,7 @@ pub mod report;
 pub mod rigfile;
 pub mod summary;
 pub mod units;
+pub mod weigh;
 pub mod whatif;
 
 pub use error::{Error, Result};

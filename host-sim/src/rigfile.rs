@@ -149,6 +149,7 @@ struct FileSpec {
     #[serde(default)]
     ballast: Vec<S<BallastSec>>,
     drives: Option<S<DrivesSec>>,
+    measured: Option<S<MeasuredSec>>,
     guard: Option<S<GuardSec>>,
     sensor: Option<S<SensorSec>>,
     /// The log profile, read by [`crate::log`].
@@ -216,6 +217,7 @@ struct BodySec {
     shape: Option<S<ShapeSec>>,
     centre: Option<S<[Length; 3]>>,
     drag_coefficient: Option<S<f64>>,
+    end_drag_coefficient: Option<S<f64>>,
     #[serde(default)]
     under_cover: bool,
     mass_model: Option<S<String>>,
@@ -240,6 +242,7 @@ struct CwSec {
     distance: S<Length>,
     diameter: S<Length>,
     thickness: S<Length>,
+    drag_coefficient: Option<S<f64>>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -388,6 +391,173 @@ pub struct LoadedRig {
     pub shaft_hardware: Option<ShaftHardware>,
     /// Air of the International Standard Atmosphere at the site elevation.
     pub air: Air,
+    /// The `[measured]` section (a weighed centre of gravity), when given:
+    /// `rig` then carries it (see [`standfast::rig::Rig::with_measured_centre`]).
+    pub measured: Option<MeasuredNote>,
+}
+
+/// The `[measured]` section: the whole rig weighed (see `standfast weigh`).
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct MeasuredSec {
+    mass: S<Mass>,
+    cg: S<[Length; 3]>,
+    mass_uncertainty: Option<S<Mass>>,
+    cg_uncertainty: Option<S<[Length; 3]>>,
+    #[serde(default)]
+    cover_fitted: bool,
+    note: Option<S<String>>,
+}
+
+/// A weighed centre of gravity applied to the rig, with the figures the
+/// bodies imply for comparison. Rig frame (x east, y north, z up), home pose,
+/// level ground.
+#[derive(Clone, Debug, serde::Serialize)]
+pub struct MeasuredNote {
+    /// Weighed total mass, kg.
+    pub mass_kg: f32,
+    /// Its standard uncertainty, kg, when given.
+    pub mass_uncertainty_kg: Option<f32>,
+    /// Weighed centre of gravity, m.
+    pub centre_m: [f32; 3],
+    /// Its standard uncertainty per axis, m, when given.
+    pub centre_uncertainty_m: Option<[f32; 3]>,
+    /// True when the cover was fitted while weighing.
+    pub cover_fitted: bool,
+    /// Total mass the bodies imply in the same pose and cover state, kg.
+    pub modelled_mass_kg: f32,
+    /// Centre of gravity the bodies imply, m.
+    pub modelled_centre_m: [f32; 3],
+    /// Weighed minus modelled centre, m.
+    pub difference_m: [f32; 3],
+    /// Mass of the ground-stage lump that replaces the ground parts' masses,
+    /// kg.
+    pub ground_mass_kg: f32,
+    /// Free text from the file (where the figures came from).
+    pub note: Option<String>,
+}
+
+/// Applies a `[measured]` section to a validated rig.
+fn apply_measured(
+    src: &SourceText,
+    sec: &S<MeasuredSec>,
+    rig: &Rig,
+) -> Result<(Rig, MeasuredNote), InputError> {
+    let ck = src.checker();
+    let g = sec.get_ref();
+    let mass = ck.range(
+        "measured.mass",
+        &g.mass,
+        Mass::from_kg(0.001),
+        Mass::from_kg(f64::from(standfast::rig::MAX_PART_MASS_KG)),
+        "kg",
+    )?;
+    let centre = v3(g.cg.get_ref());
+    let lim = f64::from(standfast::rig::MAX_OFFSET_M);
+    for (i, c) in g.cg.get_ref().iter().enumerate() {
+        if c.m().is_nan() || c.m().abs() > lim {
+            return Err(ck.error(
+                &format!("measured.cg[{i}]"),
+                g.cg.span(),
+                format!(
+                    "{} m is outside the accepted range -{} to {} m",
+                    fmt_g(c.m()),
+                    fmt_g(lim),
+                    fmt_g(lim)
+                ),
+            ));
+        }
+    }
+    let mass_uncertainty_kg = match &g.mass_uncertainty {
+        Some(u) => Some(f(ck
+            .range(
+                "measured.mass_uncertainty",
+                u,
+                Mass::from_kg(0.0),
+                Mass::from_kg(mass.kg()),
+                "kg",
+            )?
+            .kg())),
+        None => None,
+    };
+    let centre_uncertainty_m = match &g.cg_uncertainty {
+        Some(u) => {
+            for (i, c) in u.get_ref().iter().enumerate() {
+                if c.m().is_nan() || c.m() < 0.0 || c.m() > lim {
+                    return Err(ck.error(
+                        &format!("measured.cg_uncertainty[{i}]"),
+                        u.span(),
+                        format!(
+                            "{} m is outside the accepted range 0 to {} m",
+                            fmt_g(c.m()),
+                            fmt_g(lim)
+                        ),
+                    ));
+                }
+            }
+            Some(v3(u.get_ref()))
+        }
+        None => None,
+    };
+    let home = rig.mount().home_pose();
+    let modelled = rig
+        .place(home, standfast::Tilt::LEVEL, g.cover_fitted)
+        .map_err(|e| ck.error("measured", sec.span(), e.to_string()))?;
+    let modelled_mass_kg = modelled.mass_kg();
+    let modelled_centre = modelled.centre_of_gravity_m();
+    let mass_kg = f(mass.kg());
+    let out = rig
+        .with_measured_centre(
+            mass_kg,
+            standfast::Vec3::from_array(centre),
+            home,
+            g.cover_fitted,
+        )
+        .map_err(|e| {
+            let problem = match (e.kind, e.field) {
+                (standfast::ErrorKind::Inconsistent, "measured.mass_kg") => format!(
+                    "the weighed {} kg is not more than the {} kg of the parts that move with the \
+                     mount (counterweights, shaft, bodies on the primary and secondary stages{}): \
+                     check the weighing or those masses",
+                    fmt_g(f64::from(mass_kg)),
+                    fmt_g(f64::from(e.min - 0.001)),
+                    if g.cover_fitted { ", cover" } else { "" }
+                ),
+                (standfast::ErrorKind::Inconsistent, _) => format!(
+                    "with this centre the ground-stage parts (legs, pier, head, ballast) would \
+                     have their centre of gravity {} m above the ground, outside the accepted \
+                     range 0 to {} m: check the weighing or the moving parts' masses and centres",
+                    fmt_g(f64::from(e.value)),
+                    fmt_g(lim)
+                ),
+                _ => e.to_string(),
+            };
+            ck.error("measured", sec.span(), problem)
+        })?;
+    let placed = out
+        .place(home, standfast::Tilt::LEVEL, g.cover_fitted)
+        .map_err(|e| ck.error("measured", sec.span(), e.to_string()))?;
+    let ground_mass_kg = placed
+        .parts()
+        .filter(|p| p.part.role == standfast::rig::PartRole::Measured)
+        .map(|p| p.part.mass_kg)
+        .sum();
+    let d = standfast::Vec3::from_array(centre) - modelled_centre;
+    Ok((
+        out,
+        MeasuredNote {
+            mass_kg,
+            mass_uncertainty_kg,
+            centre_m: centre,
+            centre_uncertainty_m,
+            cover_fitted: g.cover_fitted,
+            modelled_mass_kg,
+            modelled_centre_m: modelled_centre.to_array(),
+            difference_m: d.to_array(),
+            ground_mass_kg,
+            note: g.note.as_ref().map(|n| n.get_ref().clone()),
+        },
+    ))
 }
 
 /// A core field name and list index.
@@ -702,8 +872,23 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
                     .map_or(v3(g.cg.get_ref()), |c| v3(c.get_ref())),
                 g.centre.as_ref().map_or(g.cg.span(), Spanned::span),
                 g.drag_coefficient.as_ref(),
+                g.end_drag_coefficient.as_ref(),
             )?),
         };
+        if g.shape.is_none() {
+            for (k, v) in [
+                ("drag_coefficient", &g.drag_coefficient),
+                ("end_drag_coefficient", &g.end_drag_coefficient),
+            ] {
+                if let Some(v) = v {
+                    return Err(ck.error(
+                        &format!("{key}.{k}"),
+                        v.span(),
+                        "a drag coefficient needs a `shape` to act on",
+                    ));
+                }
+            }
+        }
         let body = BodySpec {
             label,
             stage,
@@ -754,11 +939,20 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             format!("{key}.thickness"),
             g.thickness.span(),
         );
+        if let Some(cd) = &g.drag_coefficient {
+            sp.put(
+                "counterweights.drag_coefficient",
+                Some(i),
+                format!("{key}.drag_coefficient"),
+                cd.span(),
+            );
+        }
         let cw = CounterweightSpec {
             mass_kg: f(g.mass.get_ref().kg()),
             distance_m: f(g.distance.get_ref().m()),
             diameter_m: f(g.diameter.get_ref().m()),
             thickness_m: f(g.thickness.get_ref().m()),
+            drag_coefficient: g.drag_coefficient.as_ref().map(|d| f(*d.get_ref())),
         };
         if counterweights.push(cw).is_err() {
             return Err(ck.error(
@@ -910,6 +1104,13 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         drives,
     };
     let rig = Rig::new(&spec).map_err(|e| core_error(src, &sp, &e))?;
+    let (rig, measured) = match &file.measured {
+        Some(m) => {
+            let (r, note) = apply_measured(src, m, &rig)?;
+            (r, Some(note))
+        }
+        None => (rig, None),
+    };
 
     let mut guard = guard_config(file.guard.as_ref(), &mut sp);
     if let Some(sec) = &file.sensor {
@@ -925,6 +1126,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         elevation_m,
         shaft_hardware,
         air,
+        measured,
     })
 }
 
@@ -938,6 +1140,7 @@ fn exposure(
     centre_m: [f32; 3],
     centre_span: Range<usize>,
     cd: Option<&S<f64>>,
+    end_cd: Option<&S<f64>>,
 ) -> Result<Exposure, InputError> {
     let ck = src.checker();
     let g = sh.get_ref();
@@ -954,6 +1157,22 @@ fn exposure(
             format!("{key}.drag_coefficient"),
             c.span(),
         );
+    }
+    if let Some(c) = end_cd {
+        sp.put(
+            "exposure.end_drag_coefficient",
+            index,
+            format!("{key}.end_drag_coefficient"),
+            c.span(),
+        );
+        if g.kind.get_ref().trim() == "box" {
+            return Err(ck.error(
+                &format!("{key}.end_drag_coefficient"),
+                c.span(),
+                "end_drag_coefficient applies to a cylinder's end area; a box takes \
+                 drag_coefficient on every face",
+            ));
+        }
     }
     let missing = |what: &str| {
         ck.error(
@@ -1020,6 +1239,7 @@ fn exposure(
         shape,
         centre_m,
         drag_coefficient: cd.map(|c| f(*c.get_ref())),
+        end_drag_coefficient: end_cd.map(|c| f(*c.get_ref())),
     })
 }
 

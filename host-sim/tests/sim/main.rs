@@ -16,4 +16,5 @@ mod replay;
 mod report;
 mod rigfile;
 mod units;
+mod weigh;
 mod whatif;

@@ -12,3 +12,4 @@ mod mount;
 mod sense;
 mod stability;
 mod torque;
+mod weighing;

@@ -69,6 +69,7 @@ fn tube(mass_kg: f32, cg_m: [f32; 3], model: MassModel) -> BodySpec {
             },
             centre_m: cg_m,
             drag_coefficient: None,
+            end_drag_coefficient: None,
         }),
         mass_model: model,
         under_cover: true,
@@ -82,6 +83,7 @@ fn disc(mass_kg: f32, distance_m: f32) -> CounterweightSpec {
         distance_m,
         diameter_m: 0.1,
         thickness_m: 0.05,
+        drag_coefficient: None,
     }
 }
 
@@ -263,6 +265,7 @@ fn parallel_axis_textbook_cylinder() {
         },
         centre_m: [0.0, 0.3, 0.0],
         drag_coefficient: None,
+        end_drag_coefficient: None,
     });
     s.bodies.push(body).unwrap();
     let rig = Rig::new(&s).unwrap();
@@ -327,6 +330,7 @@ fn body_on_the_axis_exerts_no_torque() {
             },
             centre_m: [0.0, 0.0, -0.2],
             drag_coefficient: None,
+            end_drag_coefficient: None,
         });
         s.bodies.push(on_k).unwrap();
         let rig = Rig::new(&s).unwrap();
@@ -371,6 +375,7 @@ fn wind_torque_and_utilisation_by_hand() {
         },
         centre_m: [0.0, 0.3, 0.0],
         drag_coefficient: Some(1.0),
+        end_drag_coefficient: None,
     });
     s.bodies.push(t).unwrap();
     s.drives = Some(Drives {
@@ -551,6 +556,7 @@ fn payload_envelope_by_hand() {
             distance_m: 0.3,
             diameter_m: 0.01,
             thickness_m: 0.002,
+            drag_coefficient: None,
         })
         .unwrap();
     c.drives = Some(drives(rated, 0.0));
