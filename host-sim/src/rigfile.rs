@@ -33,8 +33,11 @@
 //! shape = { kind = "cylinder", diameter = "0.13 m", length = "0.8 m", axis = [0, 1, 0] }
 //! # or shape = { kind = "box", size = [0.2, 0.2, 0.3] }; centre = [...] (default: cg)
 //! drag_coefficient = 1.0; under_cover = true; mass_model = "shell" # point | solid | shell
+//! end_drag_coefficient = 1.1     # cylinders: on the end area π·d²/4 (default by l/d)
+//! # mass = 0 with a shape: a drag-only surface (sign, dew shield, cable tray)
 //!
-//! [[counterweight]]  mass, distance, diameter, thickness
+//! [[counterweight]]  mass, distance, diameter, thickness,
+//!                    drag_coefficient (of the disc's face; default by l/d)
 //! [shaft]            mass, length, diameter,
 //!                    thread = "M12" (optional, ISO coarse thread at the root),
 //!                    material = "6061-T6" (see [`SHAFT_MATERIALS`]) or
@@ -58,6 +61,9 @@
 //!                    wind_source = "samples"     # or "ten_minute_means" (a station
 //!                                                # reporting only means; wind_stale >= 600 s)
 //!                    gust_factor = 1.45          # gust / ten-minute mean for such a station
+//! [measured]         mass, cg = [x, y, z] (rig frame, home pose, level), mass_uncertainty,
+//!                    cg_uncertainty, cover_fitted = false, note: a weighed centre of
+//!                    gravity (written by `standfast weigh`; see [`MeasuredNote`])
 //! [log]              the log profile (read by [`crate::log`], ignored here)
 //! ```
 //! Frames and sign conventions are the core's: rig frame x east, y north, z

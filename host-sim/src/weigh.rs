@@ -366,9 +366,21 @@ fn core_err(src: &SourceText, e: &standfast::Error) -> InputError {
     }
 }
 
+/// `x` to four decimals, without the sign of a value that rounds to zero.
+fn fmt4(x: f32) -> String {
+    let s = format!("{x:.4}");
+    if s.trim_start_matches('-')
+        .chars()
+        .all(|c| c == '0' || c == '.')
+    {
+        s.trim_start_matches('-').to_owned()
+    } else {
+        s
+    }
+}
+
 fn est(e: weighing::Estimate, unit: &str, k: f32) -> String {
-    // Adding 0.0 turns a rounded −0 into 0.
-    format!("{:.4} ± {:.4} {unit}", e.value * k + 0.0, e.uncertainty * k)
+    format!("{} ± {:.4} {unit}", fmt4(e.value * k), e.uncertainty * k)
 }
 
 /// Writes the report as text.
@@ -502,15 +514,15 @@ pub fn measured_section(r: &WeighReport) -> Option<String> {
         "\n[measured]                      # written by `standfast weigh` from {}\n\
          mass = \"{:.3} kg\"\n\
          mass_uncertainty = \"{:.3} kg\"\n\
-         cg = [\"{:.4} m\", \"{:.4} m\", \"{:.4} m\"]\n\
+         cg = [\"{} m\", \"{} m\", \"{} m\"]\n\
          cg_uncertainty = [\"{:.4} m\", \"{:.4} m\", \"{:.4} m\"]\n\
          cover_fitted = false\n",
         r.weighing_file.replace(['"', '\n'], ""),
         m.mass_kg.value,
         m.mass_kg.uncertainty,
-        m.x_m.value,
-        m.y_m.value,
-        h.value,
+        fmt4(m.x_m.value),
+        fmt4(m.y_m.value),
+        fmt4(h.value),
         m.x_m.uncertainty,
         m.y_m.uncertainty,
         h.uncertainty

@@ -5,6 +5,7 @@ mod bridge;
 mod cli;
 mod common;
 mod demo;
+mod drag_inputs;
 mod firmware_replay;
 mod golden;
 mod located;

@@ -2,6 +2,7 @@
 
 mod air;
 mod backends;
+mod drag;
 use standfast_checks::fixtures;
 mod frame;
 mod guard;
