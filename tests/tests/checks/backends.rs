@@ -28,7 +28,8 @@ fn close(got: f32, want: f64, what: &str) {
     );
 }
 
-/// Tip wind of the fact-sheet tripod (statics, see `stability.rs`), oracle in
+/// Tip wind of the hand-worked tripod (statics, see `stability.rs` and the
+/// README), oracle in
 /// f64: V = √(2·W·r/(H·Cd·A·ρ)) with the wind toward the middle of an edge.
 #[test]
 fn tripod_tip_wind_within_backend_tolerance() {
