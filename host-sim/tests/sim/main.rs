@@ -1,6 +1,7 @@
 //! Library tests of standfast-sim (no command line involved). One module per
 //! subject; every check names its outside source beside it.
 
+mod assess_condition;
 mod bridge;
 mod cli;
 mod common;
