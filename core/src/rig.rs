@@ -848,6 +848,79 @@ impl<'a> Placement<'a> {
     }
 }
 
+/// Force and moment that the parts above a horizontal joint plane put on the
+/// joint (see [`Placement::load_above`]). Rig frame.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct JointResultant {
+    /// Total force on the parts above (weights and wind), newtons, rig
+    /// frame; its z component is negative when they press down on the joint.
+    pub force_n: Vec3,
+    /// Moment of those forces about the joint centre, N·m, rig frame, by the
+    /// right-hand rule (a wind toward +x above the joint gives a moment
+    /// about +y, lifting the −x side).
+    pub moment_nm: Vec3,
+    /// Mass carried through the joint, kg.
+    pub mass_kg: f32,
+}
+
+impl Placement<'_> {
+    /// True when `part`, as placed, is carried through a joint plane at
+    /// `plane_z_m` above the ground: every part that moves with the mount,
+    /// and every ground-stage body (not legs, ballast or a measured lump)
+    /// whose centre of gravity lies above the plane.
+    fn carried(&self, p: &Part, plane_z_m: f32) -> bool {
+        match p.stage {
+            Stage::Primary | Stage::Secondary => true,
+            Stage::Ground => {
+                matches!(p.role, PartRole::Body(_)) && self.to_rig(p.stage, p.cg_m).z > plane_z_m
+            }
+        }
+    }
+
+    /// The resultant of the weights and the wind (from `from_rad`, at dynamic
+    /// pressure `q_pa`) on the parts carried through a horizontal joint
+    /// plane at height `plane_z_m` (rig frame), about the joint centre
+    /// `centre_m` (rig frame; usually above the vertical axis at the plane's
+    /// height). The cover counts while fitted and hides the bodies under it,
+    /// as in [`Placement::wind_loads`].
+    ///
+    /// # Errors
+    /// A non-finite or out-of-range height, centre or pressure.
+    pub fn load_above(
+        &self,
+        plane_z_m: f32,
+        centre_m: Vec3,
+        from_rad: f32,
+        q_pa: f32,
+    ) -> Result<JointResultant, Error> {
+        Error::check("joint.height_m", plane_z_m, 0.0, MAX_OFFSET_M)?;
+        Error::check_vec("joint.centre_m", centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
+        Error::check("joint.dynamic_pressure_pa", q_pa, 0.0, 1.0e5)?;
+        Error::check("joint.wind_from_rad", from_rad, -1e4, 1e4)?;
+        let (mut f, mut m, mut mass) = (Vec3::ZERO, Vec3::ZERO, 0.0_f32);
+        for p in self.parts() {
+            if self.carried(&p.part, plane_z_m) {
+                f += p.weight_n;
+                m += (p.cg_m - centre_m).cross(p.weight_n);
+                mass += p.part.mass_kg;
+            }
+        }
+        for (part, cp, per_pa) in self.wind_loads(from_rad) {
+            if self.carried(&part, plane_z_m) {
+                let w = per_pa * q_pa;
+                f += w;
+                m += (cp - centre_m).cross(w);
+            }
+        }
+        Ok(JointResultant {
+            force_n: f,
+            moment_nm: m,
+            mass_kg: mass,
+        })
+    }
+}
+
 /// Standard gravity times a mass: weight in newtons of `mass_kg`.
 #[must_use]
 pub fn weight_n(mass_kg: f32) -> f32 {

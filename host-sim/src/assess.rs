@@ -284,6 +284,9 @@ pub struct AssessReport {
     /// Bending check of the counterweight shaft at its root, when the rig
     /// file names the shaft's material.
     pub shaft_check: Option<ShaftCheck>,
+    /// Attachment hardware (shaft root, shaft thread in its housing, bolted
+    /// joints), weakest part first.
+    pub hardware: Vec<HardwareRow>,
     /// Utilisation and sliding at the design gust in the assessed condition
     /// (pose, ground tilt, cover, wind direction or the worst one).
     pub condition: ConditionReport,
@@ -360,6 +363,233 @@ fn shaft_check(r: &LoadedRig) -> Result<Option<ShaftCheck>, standfast::Error> {
         utilisation: res.utilisation,
         allowable_moment_nm: res.allowable_moment_nm,
     }))
+}
+
+/// One attachment-hardware check: the part, its worst load, what it allows,
+/// and the load case that governs.
+#[derive(Clone, Debug, Serialize)]
+pub struct HardwareRow {
+    /// The part (`[shaft]`, `[shaft_joint]` or a `[[joint]]` label).
+    pub part: String,
+    /// What is checked.
+    pub check: String,
+    /// The worst load: N on the most loaded screw or thread, or N·m at the
+    /// shaft root (see `unit`).
+    pub load: f32,
+    /// What the part allows at yield / [`SHAFT_SAFETY_FACTOR`], same unit.
+    pub allowable: f32,
+    /// `N` or `N m`.
+    pub unit: &'static str,
+    /// load / allowable; above 1 the part is over its allowable load.
+    pub utilisation: f32,
+    /// Which failure governs the allowable (screw tension, a thread
+    /// stripping, bending).
+    pub governs: String,
+    /// The load case of the worst load.
+    pub case: String,
+}
+
+fn governs_words(m: standfast::hardware::FailureMode) -> &'static str {
+    use standfast::hardware::FailureMode;
+    match m {
+        FailureMode::ScrewTension => "screw tension",
+        FailureMode::ExternalThreadStrip => "the screw's (external) thread strips",
+        FailureMode::InternalThreadStrip => "the internal thread strips",
+    }
+}
+
+fn strip_capacity(
+    j: &crate::rigfile::ThreadJoint,
+) -> Result<standfast::hardware::StrippingResult, standfast::Error> {
+    use standfast::hardware::{strip, ShearFactor, StrengthBasis, StrippingInput};
+    strip::check_stripping(&StrippingInput {
+        limits: j.thread.limits(),
+        tensile_area_mm2: j.thread.tensile_stress_area_mm2(),
+        engagement_mm: j.engagement_mm,
+        screw: j.screw,
+        internal: j.internal,
+        shear_factor: ShearFactor::CommonPractice,
+        basis: StrengthBasis::Yield,
+        safety_factor: SHAFT_SAFETY_FACTOR,
+    })
+}
+
+/// The counterweight shaft's thread in its housing: the weight of the
+/// counterweights and the shaft hanging straight down, plus the design gust
+/// blowing along the shaft onto the discs' faces (a conservative sum: the
+/// largest pull of each kind, whatever the pose).
+fn shaft_joint_row(
+    r: &LoadedRig,
+    o: &AssessOptions,
+) -> Result<Option<HardwareRow>, standfast::Error> {
+    use standfast::hardware::ShaftLoad;
+    use standfast::rig::PartRole;
+    let Some(j) = &r.hardware.shaft_joint else {
+        return Ok(None);
+    };
+    let mut pull_n = 0.0;
+    let mut along_m2 = 0.0;
+    let axes = [Vec3::X, Vec3::Y, Vec3::Z];
+    for p in r.rig.parts() {
+        if matches!(p.role, PartRole::Counterweight(_) | PartRole::Shaft) {
+            pull_n += ShaftLoad::counterweight(p.mass_kg, -p.cg_m.x, 0.0)?.axial_n;
+            if let Some(x) = &p.exposure {
+                // The shaft's stage axis s is the first axis: wind along it.
+                along_m2 += x.drag_area_m2(&axes, Vec3::X);
+            }
+        }
+    }
+    let q = r.air.dynamic_pressure_pa(o.design_gust_mps);
+    let load = pull_n + q * along_m2;
+    let cap = strip_capacity(j)?;
+    Ok(Some(HardwareRow {
+        part: format!(
+            "counterweight shaft thread {} in the housing ({})",
+            j.thread_name, j.internal_label
+        ),
+        check: format!(
+            "thread stripping and shaft tension, {:.0} mm engaged",
+            j.engagement_mm
+        ),
+        load,
+        allowable: cap.allowable_n,
+        unit: "N",
+        utilisation: cap.utilisation(load.max(0.0))?,
+        governs: governs_words(cap.governs).to_owned(),
+        case: format!(
+            "shaft hanging straight down ({pull_n:.0} N of weights) plus a {:.0} m/s gust along the shaft ({:.0} N)",
+            o.design_gust_mps,
+            q * along_m2
+        ),
+    }))
+}
+
+/// A bolted joint: the most loaded screw over the sky (15° grid, both pier
+/// sides), 16 wind directions at the design gust, cover off and fitted, on
+/// level ground, and at the assessed condition.
+fn joint_row(
+    r: &LoadedRig,
+    o: &AssessOptions,
+    j: &crate::rigfile::BoltedJoint,
+) -> Result<HardwareRow, standfast::Error> {
+    use standfast::hardware::JointLoad;
+    let rig = &r.rig;
+    let origin = rig.mount().axis_origin_m;
+    let centre = Vec3::new(origin[0], origin[1], j.height_m);
+    let q = r.air.dynamic_pressure_pa(o.design_gust_mps);
+    let mut worst: Option<(f32, String)> = None;
+    let mut consider = |pose: standfast::mount::Pose,
+                        tilt: Tilt,
+                        cover: bool,
+                        from_deg: f32|
+     -> Result<(), standfast::Error> {
+        let pl = rig.place(pose, tilt, cover)?;
+        let res = pl.load_above(j.height_m, centre, from_deg.to_radians(), q)?;
+        let load = JointLoad {
+            axial_n: res.force_n.z,
+            moment_x_nm: res.moment_nm.x,
+            moment_y_nm: res.moment_nm.y,
+        };
+        let t = j.pattern.tensions(load, j.pivot)?;
+        if worst.as_ref().is_none_or(|(w, _)| t.max_n > *w) {
+            worst = Some((
+                t.max_n,
+                format!(
+                    "{}, {}, cover {}, {:.0} m/s gust from {:.0}° ({:.1} kg above the joint)",
+                    crate::report::pose_words(&pose),
+                    if tilt.magnitude_rad > 0.0 {
+                        format!(
+                            "ground tilt {:.1}° toward {:.0}°",
+                            deg(tilt.magnitude_rad),
+                            deg(tilt.downhill_azimuth_rad).rem_euclid(360.0)
+                        )
+                    } else {
+                        "level ground".to_owned()
+                    },
+                    if cover { "fitted" } else { "off" },
+                    o.design_gust_mps,
+                    from_deg.rem_euclid(360.0),
+                    res.mass_kg
+                ),
+            ));
+        }
+        Ok(())
+    };
+    let covers: &[bool] = if rig.has_cover() {
+        &[false, true]
+    } else {
+        &[false]
+    };
+    for pose in SkyGrid::with_step(15f32.to_radians(), 0.0).poses(rig.mount()) {
+        for &cover in covers {
+            for k in 0..16_u8 {
+                consider(pose, Tilt::LEVEL, cover, f32::from(k) * 22.5)?;
+            }
+        }
+    }
+    let c = &o.condition;
+    let pose = c.pose.unwrap_or_else(|| rig.mount().home_pose());
+    let cover = c.cover_fitted && rig.has_cover();
+    match c.wind_from_deg {
+        Some(d) => consider(pose, c.tilt, cover, d)?,
+        None => {
+            for k in 0..72_u8 {
+                consider(pose, c.tilt, cover, f32::from(k) * 5.0)?;
+            }
+        }
+    }
+    let (max_n, case) = worst.unwrap_or((0.0, String::new()));
+    let cap = strip_capacity(&j.screws)?;
+    Ok(HardwareRow {
+        part: j.label.clone(),
+        check: format!(
+            "{} × {} ({}), {:.0} mm engaged in {}: tension of the most loaded screw",
+            j.pattern.len(),
+            j.screws.thread_name,
+            j.screws.screw_label,
+            j.screws.engagement_mm,
+            j.screws.internal_label
+        ),
+        load: max_n,
+        allowable: cap.allowable_n,
+        unit: "N",
+        utilisation: cap.utilisation(max_n.max(0.0))?,
+        governs: governs_words(cap.governs).to_owned(),
+        case,
+    })
+}
+
+/// Every attachment-hardware check, weakest part first.
+fn hardware_rows(
+    r: &LoadedRig,
+    o: &AssessOptions,
+    shaft: Option<&ShaftCheck>,
+) -> Result<Vec<HardwareRow>, standfast::Error> {
+    let mut rows = Vec::new();
+    if let Some(s) = shaft {
+        rows.push(HardwareRow {
+            part: format!(
+                "counterweight shaft root ({}, {})",
+                s.thread.as_deref().unwrap_or("plain"),
+                s.material
+            ),
+            check: format!("bending at the root, {:.2} mm section", s.root_diameter_mm),
+            load: s.moment_nm,
+            allowable: s.allowable_moment_nm,
+            unit: "N m",
+            utilisation: s.utilisation,
+            governs: "bending".to_owned(),
+            case: "shaft horizontal, counterweights where the file puts them".to_owned(),
+        });
+    }
+    if let Some(row) = shaft_joint_row(r, o)? {
+        rows.push(row);
+    }
+    for j in &r.hardware.joints {
+        rows.push(joint_row(r, o, j)?);
+    }
+    rows.sort_by(|a, b| b.utilisation.total_cmp(&a.utilisation));
+    Ok(rows)
 }
 
 /// Payload centre-of-gravity offsets of the envelope table, secondary-stage
@@ -544,6 +774,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
     } else {
         None
     };
+    let shaft = shaft_check(r).map_err(e)?;
     Ok(AssessReport {
         file: r.file.clone(),
         mass_kg: placement.mass_kg(),
@@ -561,7 +792,8 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         orientation,
         balance,
         payload_envelope,
-        shaft_check: shaft_check(r).map_err(e)?,
+        hardware: hardware_rows(r, o, shaft.as_ref()).map_err(e)?,
+        shaft_check: shaft,
         condition: condition_report(rig, r.air, o).map_err(e)?,
         measured: r.measured.clone(),
         cautions: CAUTIONS.to_vec(),
@@ -713,6 +945,31 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
             if c.utilisation > 1.0 { ", OVER the allowable stress" } else { "" },
             c.allowable_moment_nm
         )?;
+    }
+    if !rep.hardware.is_empty() {
+        writeln!(
+            out,
+            "\nAttachment hardware, weakest first (allowable = yield / {SHAFT_SAFETY_FACTOR:.1}):"
+        )?;
+        for h in &rep.hardware {
+            writeln!(
+                out,
+                "  {:>4.0} %{}  {}: {}",
+                h.utilisation * 100.0,
+                if h.utilisation > 1.0 {
+                    " OVER"
+                } else {
+                    "     "
+                },
+                h.part,
+                h.check
+            )?;
+            writeln!(
+                out,
+                "           {:.0} {} against {:.0} {} allowed ({} governs); worst case: {}",
+                h.load, h.unit, h.allowable, h.unit, h.governs, h.case
+            )?;
+        }
     }
     writeln!(out, "\nCautions:")?;
     for c in &rep.cautions {

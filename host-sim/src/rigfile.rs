@@ -61,6 +61,13 @@
 //!                    wind_source = "samples"     # or "ten_minute_means" (a station
 //!                                                # reporting only means; wind_stale >= 600 s)
 //!                    gust_factor = 1.45          # gust / ten-minute mean for such a station
+//! [shaft_joint]      engagement = "14 mm", housing = "6061-T6" (or
+//!                    housing_yield_strength_mpa): the [shaft] thread in the mount's housing
+//! [[joint]]          label, height (joint plane above ground), thread = "M6",
+//!                    bolts = 3 and bolt_circle = "60 mm" (a diameter; phase) or
+//!                    positions = [[x, y], ...] (rig x east, y north), class = "8.8"
+//!                    or material, engagement, tapped (material; default a nut),
+//!                    heel = "45 mm" (the flange tips about its edge; default the centre)
 //! [measured]         mass, cg = [x, y, z] (rig frame, home pose, level), mass_uncertainty,
 //!                    cg_uncertainty, cover_fitted = false, note: a weighed centre of
 //!                    gravity (written by `standfast weigh`; see [`MeasuredNote`])
@@ -156,6 +163,9 @@ struct FileSpec {
     ballast: Vec<S<BallastSec>>,
     drives: Option<S<DrivesSec>>,
     measured: Option<S<MeasuredSec>>,
+    shaft_joint: Option<S<ShaftJointSec>>,
+    #[serde(default)]
+    joint: Vec<S<JointSec>>,
     guard: Option<S<GuardSec>>,
     sensor: Option<S<SensorSec>>,
     /// The log profile, read by [`crate::log`].
@@ -400,6 +410,310 @@ pub struct LoadedRig {
     /// The `[measured]` section (a weighed centre of gravity), when given:
     /// `rig` then carries it (see [`standfast::rig::Rig::with_measured_centre`]).
     pub measured: Option<MeasuredNote>,
+    /// Attachment hardware to check (`[shaft_joint]`, `[[joint]]`).
+    pub hardware: AttachmentHardware,
+}
+
+/// `[shaft_joint]`: the counterweight shaft's thread in the mount's housing.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct ShaftJointSec {
+    engagement: S<Length>,
+    housing: Option<S<String>>,
+    housing_yield_strength_mpa: Option<S<f64>>,
+}
+
+/// `[[joint]]`: a bolted joint that holds the mount head or the pier or
+/// tripod head.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct JointSec {
+    label: S<String>,
+    height: S<Length>,
+    thread: S<String>,
+    bolts: Option<S<i64>>,
+    bolt_circle: Option<S<Length>>,
+    phase: Option<S<Degrees>>,
+    positions: Option<S<Vec<[Length; 2]>>>,
+    class: Option<S<String>>,
+    material: Option<S<String>>,
+    engagement: S<Length>,
+    tapped: Option<S<String>>,
+    heel: Option<S<Length>>,
+}
+
+/// A threaded joint's thread, screw material, engagement and the material
+/// it is screwed into.
+#[derive(Clone, Debug)]
+pub struct ThreadJoint {
+    /// ISO metric coarse thread.
+    pub thread: IsoThread,
+    /// The thread as written.
+    pub thread_name: String,
+    /// Material of the screw (external thread).
+    pub screw: Material,
+    /// What the screw material is.
+    pub screw_label: String,
+    /// Material of the part with the internal thread (housing, tapped
+    /// plate, or a nut).
+    pub internal: Material,
+    /// What that material is.
+    pub internal_label: String,
+    /// Length of thread engagement, mm.
+    pub engagement_mm: f32,
+}
+
+/// A bolted joint in a horizontal plane of the rig.
+#[derive(Clone, Debug)]
+pub struct BoltedJoint {
+    /// Name for reports.
+    pub label: String,
+    /// Height of the joint plane above the ground, m (rig frame).
+    pub height_m: f32,
+    /// Screw positions, mm, in the rig frame's x (east) and y (north)
+    /// directions about the vertical axis.
+    pub pattern: standfast::hardware::BoltPattern,
+    /// The screws' thread joint.
+    pub screws: ThreadJoint,
+    /// Where the flange pivots.
+    pub pivot: standfast::hardware::bolt::PivotLine,
+}
+
+/// The attachment hardware a rig file describes.
+#[derive(Clone, Debug, Default)]
+pub struct AttachmentHardware {
+    /// The counterweight shaft's thread in the housing (`[shaft_joint]`,
+    /// with `[shaft]` thread and material).
+    pub shaft_joint: Option<ThreadJoint>,
+    /// Bolted joints (`[[joint]]`).
+    pub joints: Vec<BoltedJoint>,
+}
+
+/// A material by listed name or by a yield strength in MPa.
+fn material_by_name(
+    src: &SourceText,
+    key: &str,
+    name: Option<&S<String>>,
+    yield_mpa: Option<&S<f64>>,
+) -> Result<Option<(Material, String)>, InputError> {
+    let ck = src.checker();
+    match (name, yield_mpa) {
+        (Some(m), None) => {
+            let names: Vec<&str> = SHAFT_MATERIALS.iter().map(|x| x.0).collect();
+            let n = ck.one_of(key, m, &names)?;
+            Ok(SHAFT_MATERIALS
+                .iter()
+                .find(|x| x.0 == n)
+                .map(|(_, label, mat)| (*mat, (*label).to_owned())))
+        }
+        (None, Some(y)) => {
+            let y = ck.range_f64(
+                &format!("{key}_yield_strength_mpa"),
+                y,
+                1.0,
+                f64::from(material::MAX_STRENGTH_MPA),
+            )?;
+            let mat = Material::new(f(y), f(y)).map_err(|e| InputError {
+                at: None,
+                key: Some(key.to_owned()),
+                value: None,
+                problem: e.to_string(),
+            })?;
+            Ok(Some((
+                mat,
+                format!("yield strength {} MPa (as given)", fmt_g(y)),
+            )))
+        }
+        (Some(m), Some(_)) => Err(ck.error(
+            key,
+            m.span(),
+            "give the material by name or by yield strength, not both",
+        )),
+        (None, None) => Ok(None),
+    }
+}
+
+fn thread_by_name(src: &SourceText, key: &str, t: &S<String>) -> Result<IsoThread, InputError> {
+    IsoThread::by_name(t.get_ref()).map_err(|_| {
+        src.checker().error(
+            key,
+            t.span(),
+            format!(
+                "not an ISO metric coarse thread (accepted: M{} to M{}, for example \"M8\")",
+                fmt_g(f64::from(standfast::hardware::thread::MIN_NOMINAL_MM)),
+                fmt_g(f64::from(standfast::hardware::thread::MAX_NOMINAL_MM))
+            ),
+        )
+    })
+}
+
+fn engagement_mm(src: &SourceText, key: &str, l: &S<Length>) -> Result<f32, InputError> {
+    Ok(f(src
+        .checker()
+        .range(key, l, Length::from_m(0.001), Length::from_m(0.2), "mm")?
+        .m())
+        * 1000.0)
+}
+
+/// Reads `[shaft_joint]` and `[[joint]]`.
+fn attachment_hardware(
+    src: &SourceText,
+    file: &FileSpec,
+    shaft: Option<&ShaftHardware>,
+) -> Result<AttachmentHardware, InputError> {
+    let ck = src.checker();
+    let mut out = AttachmentHardware::default();
+    if let Some(sj) = &file.shaft_joint {
+        let g = sj.get_ref();
+        let (Some(hw), Some(thread)) = (shaft, shaft.and_then(|h| h.thread.as_ref())) else {
+            return Err(ck.error(
+                "shaft_joint",
+                sj.span(),
+                "the shaft joint needs [shaft] with `thread` and `material` (or \
+                 `yield_strength_mpa`): the shaft is the screw",
+            ));
+        };
+        let Some((internal, internal_label)) = material_by_name(
+            src,
+            "shaft_joint.housing",
+            g.housing.as_ref(),
+            g.housing_yield_strength_mpa.as_ref(),
+        )?
+        else {
+            return Err(ck.error(
+                "shaft_joint",
+                sj.span(),
+                "give the housing's material: `housing` (a listed name) or \
+                 `housing_yield_strength_mpa`",
+            ));
+        };
+        out.shaft_joint = Some(ThreadJoint {
+            thread: *thread,
+            thread_name: hw.thread_name.clone().unwrap_or_default(),
+            screw: hw.material,
+            screw_label: hw.material_label.clone(),
+            internal,
+            internal_label,
+            engagement_mm: engagement_mm(src, "shaft_joint.engagement", &g.engagement)?,
+        });
+    }
+    for (i, j) in file.joint.iter().enumerate() {
+        let key = format!("joint[{i}]");
+        let g = j.get_ref();
+        let thread = thread_by_name(src, &format!("{key}.thread"), &g.thread)?;
+        let height_m = f(ck
+            .range(
+                &format!("{key}.height"),
+                &g.height,
+                Length::from_m(0.0),
+                Length::from_m(f64::from(standfast::rig::MAX_OFFSET_M)),
+                "m",
+            )?
+            .m());
+        let bad = |problem: String| ck.error(&key, j.span(), problem);
+        let pattern = match (&g.bolts, &g.bolt_circle, &g.positions) {
+            (Some(n), Some(d), None) => {
+                let count = usize::try_from(*n.get_ref())
+                    .ok()
+                    .filter(|c| (3..=standfast::hardware::bolt::MAX_SCREWS).contains(c))
+                    .ok_or_else(|| {
+                        ck.error(
+                            &format!("{key}.bolts"),
+                            n.span(),
+                            format!(
+                                "accepted: 3 to {} bolts on a circle (or give `positions`)",
+                                standfast::hardware::bolt::MAX_SCREWS
+                            ),
+                        )
+                    })?;
+                let diameter_mm = f(ck
+                    .range(
+                        &format!("{key}.bolt_circle"),
+                        d,
+                        Length::from_m(0.005),
+                        Length::from_m(2.0),
+                        "mm",
+                    )?
+                    .m())
+                    * 1000.0;
+                let phase = g.phase.as_ref().map_or(0.0, |p| f(p.get_ref().0));
+                standfast::hardware::BoltPattern::circle(count, diameter_mm / 2.0, phase)
+                    .map_err(|e| bad(e.to_string()))?
+            }
+            (None, None, Some(p)) => {
+                let pts: Vec<[f32; 2]> = p
+                    .get_ref()
+                    .iter()
+                    .map(|[x, y]| [f(x.m()) * 1000.0, f(y.m()) * 1000.0])
+                    .collect();
+                standfast::hardware::BoltPattern::new(&pts)
+                    .map_err(|e| ck.error(&format!("{key}.positions"), p.span(), e.to_string()))?
+            }
+            _ => {
+                return Err(bad(
+                    "give `bolts` and `bolt_circle` (a diameter), or `positions` = [[x, y], ...]"
+                        .into(),
+                ))
+            }
+        };
+        let (screw, screw_label) = match (&g.class, &g.material) {
+            (Some(c), None) => {
+                ck.one_of(&format!("{key}.class"), c, &["8.8"])?;
+                (
+                    Material::bolt_class_8_8(thread.nominal_mm),
+                    "property class 8.8 (ISO 898-1 minimum)".to_owned(),
+                )
+            }
+            (None, Some(_)) => {
+                material_by_name(src, &format!("{key}.material"), g.material.as_ref(), None)?
+                    .ok_or_else(|| bad("unknown material".into()))?
+            }
+            _ => {
+                return Err(bad(
+                    "give the screws' `class` (\"8.8\") or `material` (a listed name)".into(),
+                ))
+            }
+        };
+        let (internal, internal_label) =
+            match material_by_name(src, &format!("{key}.tapped"), g.tapped.as_ref(), None)? {
+                Some(m) => m,
+                None => (
+                    screw,
+                    format!("a nut of the screws' material ({screw_label})"),
+                ),
+            };
+        let pivot = match &g.heel {
+            Some(h) => standfast::hardware::bolt::PivotLine::Heel {
+                offset_mm: f(ck
+                    .range(
+                        &format!("{key}.heel"),
+                        h,
+                        Length::from_m(0.0),
+                        Length::from_m(2.0),
+                        "mm",
+                    )?
+                    .m())
+                    * 1000.0,
+            },
+            None => standfast::hardware::bolt::PivotLine::Centroid,
+        };
+        out.joints.push(BoltedJoint {
+            label: g.label.get_ref().clone(),
+            height_m,
+            pattern,
+            screws: ThreadJoint {
+                thread,
+                thread_name: g.thread.get_ref().trim().to_owned(),
+                screw,
+                screw_label,
+                internal,
+                internal_label,
+                engagement_mm: engagement_mm(src, &format!("{key}.engagement"), &g.engagement)?,
+            },
+            pivot,
+        });
+    }
+    Ok(out)
 }
 
 /// The `[measured]` section: the whole rig weighed (see `standfast weigh`).
@@ -1110,6 +1424,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         drives,
     };
     let rig = Rig::new(&spec).map_err(|e| core_error(src, &sp, &e))?;
+    let hardware = attachment_hardware(src, &file, shaft_hardware.as_ref())?;
     let (rig, measured) = match &file.measured {
         Some(m) => {
             let (r, note) = apply_measured(src, m, &rig)?;
@@ -1133,6 +1448,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         shaft_hardware,
         air,
         measured,
+        hardware,
     })
 }
 

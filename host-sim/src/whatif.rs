@@ -402,6 +402,7 @@ pub fn variant(
         shaft_hardware: base.shaft_hardware.clone(),
         air: base.air,
         measured: None,
+        hardware: base.hardware.clone(),
     })
 }
 

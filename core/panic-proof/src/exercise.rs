@@ -201,7 +201,7 @@ fn pose(u: &Unknowns) -> Pose {
 /// [`Rig::safest_park`]), the
 /// guard's decision alone ([`transition`]), the weighing
 /// ([`centre_from_weighing`] with a lift by feet, by angle and a tip test)
-/// and [`Rig::with_measured_centre`].
+/// [`Rig::with_measured_centre`] and [`standfast::rig::Placement::load_above`].
 pub fn exercise(u: &Unknowns) -> Tally {
     let mut t = Tally::default();
     if let Some(spec) = t.note(rig_spec(u)) {
@@ -350,6 +350,15 @@ fn weighing_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
     let home = rig.mount().home_pose();
     if let Some(m) = t.note(rig.with_measured_centre(u.measured_kg, cg, home, false)) {
         t.note(m.worst_wind(&Conditions::calm(home)));
+    }
+    // The load through a joint plane (the attachment-hardware check).
+    if let Some(p) = t.note(rig.place(pose(u), Tilt::LEVEL, u.cover_fitted == 1)) {
+        t.note(p.load_above(
+            u.measured_cg_m[2],
+            Vec3::new(0.0, 0.0, u.measured_cg_m[2]),
+            u.wind_from_rad,
+            0.5 * u.air_density_kg_m3 * u.gust_mps * u.gust_mps,
+        ));
     }
 }
 

@@ -9,6 +9,7 @@ mod demo;
 mod drag_inputs;
 mod firmware_replay;
 mod golden;
+mod hardware_assess;
 mod located;
 mod log_merge;
 mod log_time;
