@@ -277,9 +277,10 @@ fn spread_uncertainty_m(support: &Support, s: &Sums, n: Vec3, u_n: f32) -> f32 {
     u_n * math::sqrt(q) / s.total_n
 }
 
-fn check_angle(field: &'static str, angle_rad: f32, u_rad: f32) -> Result<(), Error> {
-    Error::check(field, angle_rad, MIN_ANGLE_RAD, MAX_ANGLE_RAD)?;
-    Error::check(field, u_rad, 0.0, MAX_ANGLE_RAD)?;
+fn check_angle(fields: [&'static str; 2], angle_rad: f32, u_rad: f32) -> Result<(), Error> {
+    let [angle, uncertainty] = fields;
+    Error::check(angle, angle_rad, MIN_ANGLE_RAD, MAX_ANGLE_RAD)?;
+    Error::check(uncertainty, u_rad, 0.0, MAX_ANGLE_RAD)?;
     Ok(())
 }
 
@@ -298,7 +299,14 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, f32, f32), Er
                 -1e4,
                 1e4,
             )?;
-            check_angle("weighing.lift.angle_rad", angle_rad, angle_uncertainty_rad)?;
+            check_angle(
+                [
+                    "weighing.lift.angle_rad",
+                    "weighing.lift.angle_uncertainty_rad",
+                ],
+                angle_rad,
+                angle_uncertainty_rad,
+            )?;
             Ok((
                 crate::frame::azimuth_unit(raised_toward_rad),
                 angle_rad,
@@ -477,7 +485,10 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
     let mut from_tip = None;
     if let Some(tip) = &w.tip {
         check_angle(
-            "weighing.tip.angle_rad",
+            [
+                "weighing.tip.angle_rad",
+                "weighing.tip.angle_uncertainty_rad",
+            ],
             tip.angle_rad,
             tip.angle_uncertainty_rad,
         )?;

@@ -273,11 +273,40 @@ pub fn measure(rig: &LoadedRig, src: &SourceText) -> Result<WeighReport, InputEr
         lift,
         tip,
     };
-    let result = weighing::centre_from_weighing(support, &w).map_err(|e| core_err(src, &e))?;
+    let mut spans: KeySpans = vec![("level", file.level.span())];
+    if let Some(l) = &file.lift {
+        let g = l.get_ref();
+        spans.push(("lift.readings", g.readings.span()));
+        if let Some(v) = &g.feet {
+            spans.push(("lift.feet", v.span()));
+        }
+        if let Some(v) = &g.height {
+            spans.push(("lift.height", v.span()));
+        }
+        if let Some(v) = &g.height_uncertainty {
+            spans.push(("lift.height_uncertainty", v.span()));
+        }
+        if let Some(v) = &g.angle {
+            spans.push(("lift.angle", v.span()));
+        }
+        if let Some(v) = &g.angle_uncertainty {
+            spans.push(("lift.angle_uncertainty", v.span()));
+        }
+    }
+    if let Some(t) = &file.tip {
+        let g = t.get_ref();
+        spans.push(("tip.edge", g.edge.span()));
+        spans.push(("tip.angle", g.angle.span()));
+        if let Some(v) = &g.angle_uncertainty {
+            spans.push(("tip.angle_uncertainty", v.span()));
+        }
+    }
+    let result =
+        weighing::centre_from_weighing(support, &w).map_err(|e| core_err(src, &e, &spans))?;
     let placement = rig
         .rig
         .place(rig.rig.mount().home_pose(), standfast::Tilt::LEVEL, false)
-        .map_err(|e| core_err(src, &e))?;
+        .map_err(|e| core_err(src, &e, &spans))?;
     let modelled = placement.centre_of_gravity_m();
     let measured_h = result.height_m.map(|h| h.value);
     Ok(WeighReport {
@@ -297,72 +326,94 @@ pub fn measure(rig: &LoadedRig, src: &SourceText) -> Result<WeighReport, InputEr
     })
 }
 
-fn core_err(src: &SourceText, e: &standfast::Error) -> InputError {
+/// Where each weighing key is in the file, for the core's errors.
+type KeySpans = Vec<(&'static str, std::ops::Range<usize>)>;
+
+fn core_err(src: &SourceText, e: &standfast::Error, spans: &KeySpans) -> InputError {
+    use standfast::ErrorKind::{Inconsistent, OutOfRange, TooFew};
     let key = match e.field {
         "weighing.level_n" => "level",
         "weighing.lift.loads_n" => "lift.readings",
         "weighing.lift.height_m" => "lift.height",
         "weighing.lift.height_uncertainty_m" => "lift.height_uncertainty",
         "weighing.lift.angle_rad" => "lift.angle",
+        "weighing.lift.angle_uncertainty_rad" => "lift.angle_uncertainty",
         "weighing.lift.lifted_mask"
         | "weighing.lift.lifted_feet"
         | "weighing.lift.resting_feet" => "lift.feet",
         "weighing.tip.angle_rad" => "tip.angle",
+        "weighing.tip.angle_uncertainty_rad" => "tip.angle_uncertainty",
         "weighing.tip.edge_feet" => "tip.edge",
         other => other,
     };
+    let kg = |n: f32| fmt_g(f64::from(n / STANDARD_GRAVITY_MPS2));
+    let mm = |m: f32| fmt_g((f64::from(m) * 1e4).round() / 10.0);
+    let deg = |r: f32| fmt_g((f64::from(r.to_degrees()) * 1e3).round() / 1e3);
     let problem = match (e.kind, e.field) {
-        (standfast::ErrorKind::Inconsistent, "weighing.lift.resting_feet") => {
+        (Inconsistent, "weighing.lift.resting_feet") => {
             "the feet left resting do not lie on one line, so the rig cannot turn about them: \
              raise one whole side"
                 .to_owned()
         }
-        (standfast::ErrorKind::TooFew, "weighing.lift.resting_feet") => {
-            "at least two feet must stay resting".to_owned()
+        (TooFew, "weighing.lift.resting_feet") | (OutOfRange, "weighing.lift.lifted_mask") => {
+            "raise one side: at least one foot raised and at least two left resting on one line"
+                .to_owned()
         }
-        (standfast::ErrorKind::Inconsistent, "weighing.lift.lifted_feet") => {
+        (Inconsistent, "weighing.lift.lifted_feet") => {
             "the raised feet are not all the same distance from the resting line (so they \
              cannot all be raised by the same height)"
                 .to_owned()
         }
-        (standfast::ErrorKind::Inconsistent, "weighing.tip.edge_feet") => {
+        (Inconsistent, "weighing.tip.edge_feet") => {
             "these two feet do not form an edge of the footprint".to_owned()
         }
         (
-            standfast::ErrorKind::OutOfRange,
-            "weighing.lift.angle_rad" | "weighing.tip.angle_rad",
-        ) => {
+            OutOfRange,
+            "weighing.lift.angle_rad"
+            | "weighing.tip.angle_rad"
+            | "weighing.lift.angle_uncertainty_rad"
+            | "weighing.tip.angle_uncertainty_rad",
+        ) => format!(
+            "the angle {} deg is outside the accepted range {} to {} deg",
+            deg(e.value),
+            deg(e.min),
+            deg(e.max)
+        ),
+        (OutOfRange, "weighing.lift.height_m" | "weighing.lift.height_uncertainty_m") => {
             format!(
-                "the angle {} deg is outside the accepted range {} to {} deg",
-                fmt_g(f64::from(e.value.to_degrees())),
-                fmt_g(f64::from(e.min.to_degrees())),
-                fmt_g(f64::from(e.max.to_degrees()))
+                "{} mm is outside the accepted range {} to {} mm (a lift of at most 45°)",
+                mm(e.value),
+                mm(e.min),
+                mm(e.max)
             )
         }
-        (standfast::ErrorKind::OutOfRange, "weighing.level_n" | "weighing.lift.loads_n")
-            if e.index.is_some() =>
-        {
-            format!(
-                "reading {} is {} kg: a scale reading below zero by more than three times the \
+        (OutOfRange, "weighing.level_n" | "weighing.lift.loads_n") => match e.index {
+            Some(i) if e.value > e.max => format!(
+                "reading {i} is {} kg, above the largest accepted reading {} kg",
+                kg(e.value),
+                kg(e.max)
+            ),
+            Some(i) => format!(
+                "reading {i} is {} kg: a reading below zero by more than three times the \
                  reading uncertainty ({} kg) cannot be right",
-                e.index.unwrap_or(0),
-                fmt_g(f64::from(e.value / STANDARD_GRAVITY_MPS2)),
-                fmt_g(f64::from(-e.min / STANDARD_GRAVITY_MPS2))
-            )
-        }
-        (standfast::ErrorKind::OutOfRange, "weighing.level_n" | "weighing.lift.loads_n") => {
-            format!(
+                kg(e.value),
+                kg(-e.min)
+            ),
+            None => format!(
                 "the readings add up to {} kg, less than ten times the reading uncertainty",
-                fmt_g(f64::from(e.value / STANDARD_GRAVITY_MPS2))
-            )
-        }
+                kg(e.value)
+            ),
+        },
         _ => e.to_string(),
     };
-    InputError {
-        at: Some(src.location(0)),
-        key: Some(key.to_owned()),
-        value: None,
-        problem: format!("{}: {problem}", src.name()),
+    match spans.iter().find(|(k, _)| *k == key) {
+        Some((k, span)) => src.checker().error(k, span.clone(), problem),
+        None => InputError {
+            at: Some(src.location(0)),
+            key: Some(key.to_owned()),
+            value: None,
+            problem: format!("{}: {problem}", src.name()),
+        },
     }
 }
 

@@ -6,7 +6,7 @@
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
-use standfast::math::{deg_to_rad, STANDARD_GRAVITY_MPS2};
+use standfast::math::STANDARD_GRAVITY_MPS2;
 use standfast::rig::{Conditions, Rig};
 use standfast::Tilt;
 use standfast_sim::located::SourceText;
@@ -186,7 +186,6 @@ fn weigh_refuses_bad_readings_and_never_writes_over_its_inputs() {
     assert_eq!(out.status.code(), Some(1));
     assert!(!target.exists());
     let _ = std::fs::remove_dir_all(&dir);
-    let _ = deg_to_rad(0.0);
 }
 
 /// The invented demo weighing in `demo/weighing.toml` gives a plausible
@@ -207,4 +206,42 @@ fn demo_weighing_runs() {
     );
     let text = String::from_utf8_lossy(&out.stdout);
     assert!(text.contains("the readings agree"), "{text}");
+}
+
+/// The core's refusals come back at the key that caused them, with the
+/// value in the file's units and the accepted range.
+#[test]
+fn weighing_errors_are_located_at_their_keys() {
+    let dir = tmp("located");
+    let w = dir.join("w.toml");
+    for (text, needle) in [
+        (
+            "resolution = \"0.05 kg\"\nlevel = [12, 12, 12]\n[lift]\nfeet = [0]\nheight = \"0 mm\"\nreadings = [12, 12, 12]\n",
+            ":5:10: lift.height = \"0 mm\": 0 mm is outside the accepted range 1 to",
+        ),
+        (
+            "resolution = \"0.05 kg\"\nlevel = [12, 12, 12]\n[lift]\nfeet = [0, 1, 2]\nheight = \"5 cm\"\nreadings = [12, 12, 12]\n",
+            ":4:8: lift.feet = [0, 1, 2]: raise one side",
+        ),
+        (
+            "resolution = \"0.05 kg\"\nlevel = [\"1e30 kg\", 12, 12]\n",
+            "above the largest accepted reading",
+        ),
+        (
+            "resolution = \"0.05 kg\"\nlevel = [12, 12, 12]\n[tip]\nedge = [1, 2]\nangle = \"0.5 deg\"\n",
+            ":5:9: tip.angle = \"0.5 deg\": the angle 0.5 deg is outside the accepted range 1 to 45 deg",
+        ),
+    ] {
+        std::fs::write(&w, text).unwrap();
+        let out = standfast()
+            .arg("weigh")
+            .arg(demo_rig_path())
+            .arg(&w)
+            .output()
+            .unwrap();
+        assert_eq!(out.status.code(), Some(1));
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert!(err.contains(needle), "{needle}\n{err}");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
 }
