@@ -627,10 +627,15 @@ fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, sta
     Ok(rig.assess(&c)?.tip_wind_mps)
 }
 
+/// Best tripod orientation. A weighed centre (`[measured]`) is applied to
+/// every turned tripod: the weighed centre stays where it is in the rig
+/// frame while the feet turn under it (the legs' own mass, folded into the
+/// weighed lump, is taken not to move: exact for a symmetric tripod).
 fn orientation(
     spec: &RigSpec,
     c: &Conditions,
     storm_from_deg: f32,
+    measured: Option<&crate::rigfile::MeasuredNote>,
 ) -> Result<Option<Orientation>, standfast::Error> {
     if spec.feet.len() != 3 {
         return Ok(None);
@@ -648,7 +653,16 @@ fn orientation(
         let s = base.rotated(turn.to_radians())?;
         let mut sp = spec.clone();
         sp.feet = s.feet_list();
-        let rig = Rig::new(&sp)?;
+        let mut rig = Rig::new(&sp)?;
+        if let Some(m) = measured {
+            let home = rig.mount().home_pose();
+            rig = rig.with_measured_centre(
+                m.mass_kg,
+                Vec3::from_array(m.centre_m),
+                home,
+                m.cover_fitted,
+            )?;
+        }
         let tip = tip_from(&rig, c, storm)?;
         if step == 0 {
             current = Some((first_leg(&s), tip));
@@ -744,7 +758,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
             amount: q.amount,
             worst_from_deg: deg(q.worst_from_rad),
         });
-    let orientation = orientation(&r.spec, &c, o.storm_from_deg).map_err(e)?;
+    let orientation = orientation(&r.spec, &c, o.storm_from_deg, r.measured.as_ref()).map_err(e)?;
     let has_payload = r
         .spec
         .bodies

@@ -245,3 +245,39 @@ fn weighing_errors_are_located_at_their_keys() {
     }
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// With `[measured]`, the tripod-orientation advice uses the weighed centre
+/// too: at the file's own orientation it gives the same tip wind as the
+/// home-pose table, which carries the weighed centre.
+#[test]
+fn orientation_advice_uses_the_weighed_centre() {
+    let dir = tmp("orient");
+    let rig = truth();
+    let weighing = dir.join("weighing.toml");
+    std::fs::write(&weighing, weighing_text(&rig, "")).unwrap();
+    let out_rig = dir.join("rig-weighed.toml");
+    let out = standfast()
+        .arg("weigh")
+        .arg(demo_rig_path())
+        .arg(&weighing)
+        .arg("--write-rig")
+        .arg(&out_rig)
+        .output()
+        .unwrap();
+    assert!(out.status.success());
+    let loaded = rigfile::load(&out_rig).unwrap();
+    let o = standfast_sim::assess::AssessOptions {
+        storm_from_deg: 90.0,
+        ..standfast_sim::assess::AssessOptions::default()
+    };
+    let rep = standfast_sim::assess::assess(&loaded, &o).unwrap();
+    let t = rep.orientation.unwrap();
+    let row = rep
+        .home_by_direction
+        .iter()
+        .find(|r| (r.from_deg - 90.0).abs() < 1e-3)
+        .unwrap();
+    let (a, b) = (t.current_tip_wind_mps.unwrap(), row.tip_wind_mps.unwrap());
+    assert!((a - b).abs() < 1e-3, "{a} vs {b}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
