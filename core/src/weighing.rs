@@ -284,9 +284,32 @@ fn check_angle(fields: [&'static str; 2], angle_rad: f32, u_rad: f32) -> Result<
     Ok(())
 }
 
-/// The lift direction `t` (unit, horizontal, toward the raised side), the
-/// angle and its standard uncertainty.
-fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, f32, f32), Error> {
+/// A turn of the rig: sin θ, cos θ, θ (radians) and the standard uncertainty
+/// of θ (radians). Kept as sine and cosine so that a lift given by a height
+/// never goes through an inverse sine and back (the coarse `micromath`
+/// functions would move the height by several per cent).
+#[derive(Clone, Copy)]
+struct Turn {
+    sin: f32,
+    cos: f32,
+    angle_rad: f32,
+    u_rad: f32,
+}
+
+impl Turn {
+    fn from_angle(angle_rad: f32, u_rad: f32) -> Turn {
+        Turn {
+            sin: math::sin(angle_rad),
+            cos: math::cos(angle_rad),
+            angle_rad,
+            u_rad,
+        }
+    }
+}
+
+/// The lift direction `t` (unit, horizontal, toward the raised side) and
+/// the turn.
+fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, Turn), Error> {
     match g {
         LiftGeometry::Angle {
             raised_toward_rad,
@@ -309,8 +332,7 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, f32, f32), Er
             )?;
             Ok((
                 crate::frame::azimuth_unit(raised_toward_rad),
-                angle_rad,
-                angle_uncertainty_rad,
+                Turn::from_angle(angle_rad, angle_uncertainty_rad),
             ))
         }
         LiftGeometry::Feet {
@@ -394,30 +416,36 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, f32, f32), Er
                 0.001,
                 base_m * core::f32::consts::FRAC_1_SQRT_2,
             )?;
-            let angle = math::asin(math::clamp(s, 0.0, 1.0));
+            let s = math::clamp(s, 0.0, core::f32::consts::FRAC_1_SQRT_2);
+            let c = math::sqrt(1.0 - s * s);
+            let angle = math::asin(s);
             Error::check(
                 "weighing.lift.angle_rad",
                 angle,
                 MIN_ANGLE_RAD,
                 MAX_ANGLE_RAD,
             )?;
-            let u = height_uncertainty_m / (base_m * math::cos(angle));
-            Ok((t, angle, u))
+            let u = height_uncertainty_m / (base_m * c);
+            Ok((
+                t,
+                Turn {
+                    sin: s,
+                    cos: c,
+                    angle_rad: angle,
+                    u_rad: u,
+                },
+            ))
         }
     }
 }
 
-fn tan(x: f32) -> f32 {
-    math::sin(x) / math::cos(x)
-}
-
 /// Height and its uncertainty from a horizontal shift `d` (uncertainty
-/// `u_d`) and an angle (uncertainty `u_a`): `z̄ = d / tan θ`.
-fn height_from(d_m: f32, u_d_m: f32, angle_rad: f32, u_a_rad: f32) -> Estimate {
-    let t = tan(angle_rad);
-    let s = math::sin(angle_rad);
+/// `u_d`) and a turn: `z̄ = d / tan θ`.
+fn height_from(d_m: f32, u_d_m: f32, turn: Turn) -> Estimate {
+    let t = turn.sin / turn.cos;
+    let s = turn.sin;
     let a = u_d_m / t;
-    let b = d_m * u_a_rad / (s * s);
+    let b = d_m * turn.u_rad / (s * s);
     Estimate {
         value: d_m / t,
         uncertainty: math::sqrt(a * a + b * b),
@@ -458,7 +486,7 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
     let mut from_lift = None;
     let mut lift_angle = None;
     if let Some(l) = &w.lift {
-        let (t, angle, u_angle) = lift_frame(support, l.geometry)?;
+        let (t, turn) = lift_frame(support, l.geometry)?;
         let lifted = sums("weighing.lift.loads_n", support, l.loads_n, u_n)?;
         let diff = lifted.total_n - level.total_n;
         let tol = COVERAGE_K * u_n * math::sqrt(2.0 * n_feet);
@@ -477,9 +505,9 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
         checks.lift_cross_shift_m = Some(cross);
         checks.lift_cross_tolerance_m = cross_tol;
         checks.passed &= cross.abs() <= cross_tol;
-        checks.small_lift_angle = angle < SMALL_ANGLE_RAD;
-        from_lift = Some(height_from(shift.dot(t), u_of(t), angle, u_angle));
-        lift_angle = Some(angle);
+        checks.small_lift_angle = turn.angle_rad < SMALL_ANGLE_RAD;
+        from_lift = Some(height_from(shift.dot(t), u_of(t), turn));
+        lift_angle = Some(turn.angle_rad);
     }
 
     let mut from_tip = None;
@@ -506,8 +534,7 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
         from_tip = Some(height_from(
             d,
             u_d,
-            tip.angle_rad,
-            tip.angle_uncertainty_rad,
+            Turn::from_angle(tip.angle_rad, tip.angle_uncertainty_rad),
         ));
     }
 
