@@ -281,3 +281,29 @@ fn orientation_advice_uses_the_weighed_centre() {
     assert!((a - b).abs() < 1e-3, "{a} vs {b}");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// A what-if variant cannot carry a weighed centre (it changes what was
+/// weighed): refused with a reason, never silently dropped.
+#[test]
+fn what_if_variants_of_a_weighed_rig_are_refused() {
+    let dir = tmp("whatif");
+    let rig = truth();
+    let weighing = dir.join("weighing.toml");
+    std::fs::write(&weighing, weighing_text(&rig, "")).unwrap();
+    let out_rig = dir.join("rig-weighed.toml");
+    let out = standfast()
+        .arg("weigh")
+        .arg(demo_rig_path())
+        .arg(&weighing)
+        .arg("--write-rig")
+        .arg(&out_rig)
+        .output()
+        .unwrap();
+    assert!(out.status.success());
+    let loaded = rigfile::load(&out_rig).unwrap();
+    let e = standfast_sim::whatif::variant_from_texts(&loaded, &["cover=off".to_owned()])
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("[measured]"), "{e}");
+    let _ = std::fs::remove_dir_all(&dir);
+}

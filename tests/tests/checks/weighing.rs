@@ -132,7 +132,8 @@ fn tip_test_gives_back_the_hand_worked_height() {
 }
 
 /// The published two-axle lift formula (Longacre Racing, technical article
-/// "Center of Gravity Height", checked against the article's text: CGH =
+/// "Center of Gravity Height": its variables and method checked against the
+/// article's text, the formula as quoted and derived on Physics Forums: CGH =
 /// WB·FWc / (TW·tan θ), FWc = FW2 − FW1 the front weight gained when the
 /// rear is raised by HT, tan θ = HT / √(WB² − HT²); plus the axle height for
 /// wheels, zero here for point feet). The article gives the method and a
