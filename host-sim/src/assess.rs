@@ -538,7 +538,13 @@ fn joint_row(
             }
         }
     }
-    let (max_n, case) = worst.unwrap_or((0.0, String::new()));
+    // No case checked would read as an unloaded joint: refuse instead.
+    let Some((max_n, case)) = worst else {
+        return Err(standfast::Error::new(
+            standfast::ErrorKind::TooFew,
+            "joint.load_cases",
+        ));
+    };
     let cap = strip_capacity(&j.screws)?;
     Ok(HardwareRow {
         part: j.label.clone(),
