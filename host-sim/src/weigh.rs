@@ -471,13 +471,15 @@ pub fn write_text(r: &WeighReport, out: &mut dyn Write) -> std::io::Result<()> {
             "  height    not measured (add a [lift] or [tip] section)"
         )?,
     }
-    let [mx, my, mz] = r.modelled_centre_m;
+    // Values that round to zero print without a sign.
+    let z = |x: f32| if x.abs() < 5e-4 { 0.0 } else { x };
+    let [mx, my, mz] = r.modelled_centre_m.map(z);
     writeln!(
         out,
         "\nThe rig file's bodies imply {:.2} kg at x {mx:.3} m, y {my:.3} m, z {mz:.3} m (home pose, level, cover off)",
         r.modelled_mass_kg
     )?;
-    let d = |v: Option<f32>| v.map_or_else(|| "-".to_owned(), |x| format!("{:+.3} m", x));
+    let d = |v: Option<f32>| v.map_or_else(|| "-".to_owned(), |x| format!("{:+.3} m", z(x)));
     writeln!(
         out,
         "  weighed minus modelled: mass {:+.2} kg, x {}, y {}, z {}",
