@@ -42,6 +42,7 @@ fn rig() -> Rig {
             },
             centre_m: [0.21, 0.08, 0.0],
             drag_coefficient: None,
+            end_drag_coefficient: None,
         }),
         mass_model: MassModel::Shell,
         under_cover: true,
@@ -58,6 +59,7 @@ fn rig() -> Rig {
             },
             centre_m: [0.0, 0.0, -0.1],
             drag_coefficient: None,
+            end_drag_coefficient: None,
         }),
         ..BodySpec::default()
     };
@@ -70,6 +72,7 @@ fn rig() -> Rig {
             distance_m: l,
             diameter_m: 0.12,
             thickness_m: 0.045,
+            drag_coefficient: None,
         });
     }
     let rating = DriveRating {

@@ -24,6 +24,10 @@ pub enum ErrorKind {
     /// A requested quantity cannot be reached (for example ballast placed
     /// outside the support polygon can never stabilise the rig).
     Unreachable,
+    /// Measurements disagree with each other or with the geometry beyond
+    /// their uncertainty (for example scale readings after a lift that do not
+    /// fit the feet lifted).
+    Inconsistent,
 }
 
 /// The error type of the crate: a field name, its index where the field is a
@@ -132,6 +136,9 @@ impl fmt::Display for Error {
             ErrorKind::TooFew => write!(f, ": fewer than {} items", self.min),
             ErrorKind::ZeroDirection => f.write_str(": direction vector has zero length"),
             ErrorKind::Unreachable => f.write_str(": the requested result cannot be reached"),
+            ErrorKind::Inconsistent => {
+                f.write_str(": the measurements disagree with each other or with the geometry")
+            }
         }
     }
 }

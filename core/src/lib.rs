@@ -20,7 +20,9 @@
 //! - [`support`], [`mount`], [`shape`], [`air`], [`frame`]: feet, mount
 //!   kinematics, wind-exposed shapes and drag, air density, the rig frame;
 //! - [`drive`], [`hardware`]: drive ratings; counterweight hardware checks;
-//! - [`sense`]: accelerometer tilt, wind statistics and sensor faults.
+//! - [`sense`]: accelerometer tilt, wind statistics and sensor faults;
+//! - [`weighing`]: the centre of gravity of the whole rig from scale
+//!   readings under its feet, level, lifted and tilted to unload.
 //!
 //! ## Example
 //! An invented rig: a 9 kg alt-azimuth head and tube on a light tripod.
@@ -44,6 +46,7 @@
 //!         shape: Shape::Cylinder { diameter_m: 0.12, length_m: 0.7, axis: [0.0, 1.0, 0.0] },
 //!         centre_m: [0.15, 0.1, 0.0],
 //!         drag_coefficient: None, // Hoerner's finite-cylinder value for l/d ≈ 6
+//!         end_drag_coefficient: None,
 //!     }),
 //!     ..BodySpec::default()
 //! };
@@ -96,6 +99,7 @@ pub mod sky;
 pub mod stability;
 pub mod support;
 pub mod torque;
+pub mod weighing;
 
 pub use error::{Error, ErrorKind};
 pub use frame::Tilt;

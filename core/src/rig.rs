@@ -23,9 +23,9 @@ pub const MAX_BODIES: usize = 12;
 pub const MAX_COUNTERWEIGHTS: usize = 4;
 /// Most ballast items.
 pub const MAX_BALLAST: usize = 4;
-/// Most parts of a validated rig: bodies, legs, counterweights, shaft, cover
-/// and ballast.
-pub const MAX_PARTS: usize = MAX_BODIES + MAX_FEET + MAX_COUNTERWEIGHTS + 2 + MAX_BALLAST;
+/// Most parts of a validated rig: bodies, legs, counterweights, shaft, cover,
+/// the measured ground mass and ballast.
+pub const MAX_PARTS: usize = MAX_BODIES + MAX_FEET + MAX_COUNTERWEIGHTS + 3 + MAX_BALLAST;
 /// Largest mass accepted for one part, kg.
 pub const MAX_PART_MASS_KG: f32 = 2_000.0;
 /// Largest distance of any centre of gravity from its stage origin, metres:
@@ -125,6 +125,12 @@ pub struct CounterweightSpec {
     pub diameter_m: f32,
     /// Thickness along the shaft, metres.
     pub thickness_m: f32,
+    /// Drag coefficient of the disc's face (the end-on area π·d²/4 of the
+    /// short cylinder it is modelled as, met by wind along the shaft); `None`
+    /// takes the published default ([`crate::shape::cylinder_axial_cd`]).
+    /// The rim keeps the cross-flow default.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub drag_coefficient: Option<f32>,
 }
 
 /// The counterweight shaft: a solid rod from the axis origin along −s.
@@ -219,6 +225,10 @@ pub enum PartRole {
     Cover,
     /// A ballast item, index into [`RigSpec::ballast`].
     Ballast(u8),
+    /// The ground-stage mass found by weighing (see
+    /// [`Rig::with_measured_centre`]): it replaces the masses of every other
+    /// ground-stage part.
+    Measured,
 }
 
 /// One part of a validated rig.
@@ -354,7 +364,12 @@ impl Rig {
         let mut push = |p: Part, field: &'static str| parts.push(p).map_err(|_| too_many(field));
 
         for (i, b) in spec.bodies.iter().enumerate() {
-            check_mass("bodies.mass_kg", b.mass_kg, i)?;
+            // A body with a shape may be massless: a drag-only surface (a
+            // sign, a dew shield, a cable tray) whose mass is counted
+            // elsewhere or negligible.
+            if !(b.mass_kg == 0.0 && b.exposure.is_some()) {
+                check_mass("bodies.mass_kg", b.mass_kg, i)?;
+            }
             let cg = check_offset("bodies.cg_m", b.cg_m, i)?;
             if let Some(x) = &b.exposure {
                 x.validate().map_err(|e| e.at(i))?;
@@ -397,6 +412,7 @@ impl Rig {
                             },
                             centre_m: centre.to_array(),
                             drag_coefficient: None,
+                            end_drag_coefficient: None,
                         }),
                         mass_model: MassModel::Solid,
                         under_cover: false,
@@ -413,6 +429,10 @@ impl Rig {
                 .map_err(|e| e.at(i))?;
             Error::check("counterweights.thickness_m", c.thickness_m, 0.002, 1.0)
                 .map_err(|e| e.at(i))?;
+            if let Some(cd) = c.drag_coefficient {
+                Error::check("counterweights.drag_coefficient", cd, 0.1, 3.0)
+                    .map_err(|e| e.at(i))?;
+            }
             push(
                 Part {
                     role: PartRole::Counterweight(i as u8),
@@ -427,6 +447,7 @@ impl Rig {
                         },
                         centre_m: [-c.distance_m, 0.0, 0.0],
                         drag_coefficient: None,
+                        end_drag_coefficient: c.drag_coefficient,
                     }),
                     mass_model: MassModel::Solid,
                     under_cover: false,
@@ -453,6 +474,7 @@ impl Rig {
                         },
                         centre_m: c,
                         drag_coefficient: None,
+                        end_drag_coefficient: None,
                     }),
                     mass_model: MassModel::Solid,
                     under_cover: false,
@@ -470,6 +492,7 @@ impl Rig {
                 },
                 centre_m: c.centre_m,
                 drag_coefficient: c.drag_coefficient,
+                end_drag_coefficient: None,
             };
             exposure.validate()?;
             push(
@@ -579,6 +602,84 @@ impl Rig {
                 under_cover: false,
             })
             .map_err(|_| too_many("ballast"))?;
+        Ok(rig)
+    }
+
+    /// The same rig with its ground-stage mass replaced by a measurement:
+    /// the whole rig weighed `mass_kg` with its centre of gravity at
+    /// `centre_m` (rig frame, metres) in pose `pose` on level ground, cover
+    /// fitted or not as `cover_fitted` says (see [`crate::weighing`]).
+    ///
+    /// The parts that move with the mount (counterweights, shaft, bodies on
+    /// the primary and secondary stages, the cover) keep their described
+    /// masses: they are usually weighed one by one. Every ground-stage part
+    /// (legs, ground bodies, ballast) keeps its wind shape but loses its mass
+    /// to one point mass, [`PartRole::Measured`], that makes the total and
+    /// its centre match the measurement:
+    /// `m_g = M − Σm_moving`, `c_g = (M·c − Σ m·c_moving) / m_g`.
+    ///
+    /// # Errors
+    /// A mass or centre out of range; a pose the mount refuses; a measured
+    /// mass not above the moving parts' ([`ErrorKind::Inconsistent`] on
+    /// `measured.mass_kg`); a ground-stage centre outside the rig's envelope
+    /// or below the ground ([`ErrorKind::Inconsistent`] on
+    /// `measured.centre_m`); no room for another part.
+    pub fn with_measured_centre(
+        &self,
+        mass_kg: f32,
+        centre_m: Vec3,
+        pose: Pose,
+        cover_fitted: bool,
+    ) -> Result<Rig, Error> {
+        Error::check("measured.mass_kg", mass_kg, 1e-3, MAX_PART_MASS_KG)?;
+        Error::check_vec("measured.centre_m", centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
+        let placement = self.place(pose, Tilt::LEVEL, cover_fitted)?;
+        let (mut m_moving, mut s_moving) = (0.0_f32, Vec3::ZERO);
+        for p in placement.parts() {
+            if p.part.stage != Stage::Ground {
+                m_moving += p.part.mass_kg;
+                s_moving += p.cg_m * p.part.mass_kg;
+            }
+        }
+        let m_ground = mass_kg - m_moving;
+        if m_ground.is_nan() || m_ground < 1e-3 {
+            let mut e = Error::new(ErrorKind::Inconsistent, "measured.mass_kg");
+            e.value = mass_kg;
+            e.min = m_moving + 1e-3;
+            e.max = MAX_PART_MASS_KG;
+            return Err(e);
+        }
+        let c_ground = (centre_m * mass_kg - s_moving) * (1.0 / m_ground);
+        let outside = !c_ground.is_finite()
+            || c_ground.x.abs() > MAX_OFFSET_M
+            || c_ground.y.abs() > MAX_OFFSET_M
+            || c_ground.z < 0.0
+            || c_ground.z > MAX_OFFSET_M;
+        if outside {
+            let mut e = Error::new(ErrorKind::Inconsistent, "measured.centre_m");
+            e.value = c_ground.z;
+            e.min = 0.0;
+            e.max = MAX_OFFSET_M;
+            return Err(e);
+        }
+        let mut rig = self.clone();
+        rig.parts.retain(|p| p.role != PartRole::Measured);
+        for p in &mut rig.parts {
+            if p.stage == Stage::Ground {
+                p.mass_kg = 0.0;
+            }
+        }
+        rig.parts
+            .push(Part {
+                role: PartRole::Measured,
+                stage: Stage::Ground,
+                mass_kg: m_ground,
+                cg_m: c_ground,
+                exposure: None,
+                mass_model: MassModel::Point,
+                under_cover: false,
+            })
+            .map_err(|_| too_many("measured"))?;
         Ok(rig)
     }
 
@@ -744,6 +845,79 @@ impl<'a> Placement<'a> {
                 let cp = self.to_rig(p.stage, Vec3::from_array(x.centre_m));
                 Some((*p, cp, w * x.drag_area_m2(&axes, w)))
             })
+    }
+}
+
+/// Force and moment that the parts above a horizontal joint plane put on the
+/// joint (see [`Placement::load_above`]). Rig frame.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct JointResultant {
+    /// Total force on the parts above (weights and wind), newtons, rig
+    /// frame; its z component is negative when they press down on the joint.
+    pub force_n: Vec3,
+    /// Moment of those forces about the joint centre, N·m, rig frame, by the
+    /// right-hand rule (a wind toward +x above the joint gives a moment
+    /// about +y, lifting the −x side).
+    pub moment_nm: Vec3,
+    /// Mass carried through the joint, kg.
+    pub mass_kg: f32,
+}
+
+impl Placement<'_> {
+    /// True when `part`, as placed, is carried through a joint plane at
+    /// `plane_z_m` above the ground: every part that moves with the mount,
+    /// and every ground-stage body (not legs, ballast or a measured lump)
+    /// whose centre of gravity lies above the plane.
+    fn carried(&self, p: &Part, plane_z_m: f32) -> bool {
+        match p.stage {
+            Stage::Primary | Stage::Secondary => true,
+            Stage::Ground => {
+                matches!(p.role, PartRole::Body(_)) && self.to_rig(p.stage, p.cg_m).z > plane_z_m
+            }
+        }
+    }
+
+    /// The resultant of the weights and the wind (from `from_rad`, at dynamic
+    /// pressure `q_pa`) on the parts carried through a horizontal joint
+    /// plane at height `plane_z_m` (rig frame), about the joint centre
+    /// `centre_m` (rig frame; usually above the vertical axis at the plane's
+    /// height). The cover counts while fitted and hides the bodies under it,
+    /// as in [`Placement::wind_loads`].
+    ///
+    /// # Errors
+    /// A non-finite or out-of-range height, centre or pressure.
+    pub fn load_above(
+        &self,
+        plane_z_m: f32,
+        centre_m: Vec3,
+        from_rad: f32,
+        q_pa: f32,
+    ) -> Result<JointResultant, Error> {
+        Error::check("joint.height_m", plane_z_m, 0.0, MAX_OFFSET_M)?;
+        Error::check_vec("joint.centre_m", centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
+        Error::check("joint.dynamic_pressure_pa", q_pa, 0.0, 1.0e5)?;
+        Error::check("joint.wind_from_rad", from_rad, -1e4, 1e4)?;
+        let (mut f, mut m, mut mass) = (Vec3::ZERO, Vec3::ZERO, 0.0_f32);
+        for p in self.parts() {
+            if self.carried(&p.part, plane_z_m) {
+                f += p.weight_n;
+                m += (p.cg_m - centre_m).cross(p.weight_n);
+                mass += p.part.mass_kg;
+            }
+        }
+        for (part, cp, per_pa) in self.wind_loads(from_rad) {
+            if self.carried(&part, plane_z_m) {
+                let w = per_pa * q_pa;
+                f += w;
+                m += (cp - centre_m).cross(w);
+            }
+        }
+        Ok(JointResultant {
+            force_n: f,
+            moment_nm: m,
+            mass_kg: mass,
+        })
     }
 }
 

@@ -29,9 +29,22 @@ pub const CYLINDER_CROSS_CD: [(f32, f32); 5] = [
 ];
 /// Cross-flow drag coefficient of an infinitely long cylinder (same source).
 pub const CYLINDER_CROSS_CD_INFINITE: f32 = 1.20;
-/// Axial-flow (end-on) drag coefficient of a cylinder by l/d (same source):
-/// l/d = 1, 2, 4, 7; held constant beyond the table.
-pub const CYLINDER_AXIAL_CD: [(f32, f32); 4] = [(1.0, 0.91), (2.0, 0.85), (4.0, 0.87), (7.0, 0.99)];
+/// Axial-flow (end-on) drag coefficient of a circular cylinder by l/d, on
+/// its end area π·d²/4: l/d = 0 (a thin disc) 1.17 and l/d = 0.5 1.15 from
+/// Hoerner, *Fluid-Dynamic Drag* (1965), ch. 3 (from memory, not yet checked
+/// against the printed table); l/d = 1, 2, 4, 7: 0.91, 0.85, 0.87, 0.99
+/// (Hoerner 1965 via the *Aeronautical Engineer's Data Book*, Fig. 5.13b).
+/// Interpolated linearly in l/d (the table starts at l/d = 0, where ln
+/// cannot go); held constant beyond l/d = 7. Counterweight discs
+/// (l/d ≈ 0.2 to 0.6) take about 1.15, not the 0.91 of l/d = 1.
+pub const CYLINDER_AXIAL_CD: [(f32, f32); 6] = [
+    (0.0, 1.17),
+    (0.5, 1.15),
+    (1.0, 0.91),
+    (2.0, 0.85),
+    (4.0, 0.87),
+    (7.0, 0.99),
+];
 /// Drag coefficient of a square flat plate normal to the flow, 1.17 (Hoerner
 /// 1965 via the *Aeronautical Engineer's Data Book*, Fig. 5.13b), used for
 /// every face of a box: a box face-on is no bluffer than a thin plate.
@@ -79,12 +92,16 @@ pub struct Exposure {
     pub shape: Shape,
     /// Centre of pressure in the body's stage frame, metres.
     pub centre_m: [f32; 3],
-    /// Drag coefficient for broadside flow on a cylinder, or for every face of
-    /// a box; `None` takes the published default ([`CYLINDER_CROSS_CD`],
-    /// [`BOX_FACE_CD`]). End-on flow on a cylinder always uses
-    /// [`CYLINDER_AXIAL_CD`].
+    /// Drag coefficient for broadside flow on a cylinder (on its side area
+    /// d·L), or for every face of a box; `None` takes the published default
+    /// ([`cylinder_cross_cd`], [`BOX_FACE_CD`]).
     #[cfg_attr(feature = "serde", serde(default))]
     pub drag_coefficient: Option<f32>,
+    /// Drag coefficient of a cylinder in end-on flow (on its end area
+    /// π·d²/4); `None` takes the published default ([`cylinder_axial_cd`]).
+    /// Must be `None` for a box.
+    #[cfg_attr(feature = "serde", serde(default))]
+    pub end_drag_coefficient: Option<f32>,
 }
 
 /// Linear interpolation in a table of (x, y) pairs sorted by x; the end values
@@ -112,18 +129,35 @@ pub fn interpolate(table: &[(f32, f32)], x: f32) -> f32 {
 }
 
 /// Default cross-flow drag coefficient of a cylinder of aspect ratio l/d:
-/// interpolated in [`CYLINDER_CROSS_CD`] in ln(l/d), rising to 1.20 at
-/// l/d = ∞ (approached as 40 → 1000).
+/// interpolated in [`CYLINDER_CROSS_CD`] linearly in ln(l/d) (the source's
+/// plot has a logarithmic l/d axis), 0.63 held below l/d = 1, rising from
+/// 0.98 at l/d = 40 to 1.20 at l/d = 1000 (also linear in ln(l/d)) and held
+/// there. Example: l/d = 7.5 gives 0.74 + (0.82 − 0.74)·ln 1.5 / ln 2 = 0.787.
 #[must_use]
 pub fn cylinder_cross_cd(aspect: f32) -> f32 {
+    let (Some(first), Some(last)) = (CYLINDER_CROSS_CD.first(), CYLINDER_CROSS_CD.last()) else {
+        return CYLINDER_CROSS_CD_INFINITE;
+    };
+    if aspect.is_nan() || aspect <= first.0 {
+        return first.1;
+    }
     if aspect >= 40.0 {
         let t = math::clamp(math::ln(aspect / 40.0) / math::ln(25.0), 0.0, 1.0);
         return 0.98 + t * (CYLINDER_CROSS_CD_INFINITE - 0.98);
     }
-    interpolate(&CYLINDER_CROSS_CD, aspect)
+    for w in CYLINDER_CROSS_CD.windows(2) {
+        if let [a, b] = w {
+            if aspect <= b.0 {
+                let t = math::ln(aspect / a.0) / math::ln(b.0 / a.0);
+                return a.1 + t * (b.1 - a.1);
+            }
+        }
+    }
+    last.1
 }
 
-/// Default end-on drag coefficient of a cylinder of aspect ratio l/d.
+/// Default end-on drag coefficient of a cylinder of aspect ratio l/d, on its
+/// end area ([`CYLINDER_AXIAL_CD`], linear in l/d).
 #[must_use]
 pub fn cylinder_axial_cd(aspect: f32) -> f32 {
     interpolate(&CYLINDER_AXIAL_CD, aspect)
@@ -198,6 +232,15 @@ impl Exposure {
         if let Some(cd) = self.drag_coefficient {
             Error::check("exposure.drag_coefficient", cd, 0.1, 3.0)?;
         }
+        if let Some(cd) = self.end_drag_coefficient {
+            Error::check("exposure.end_drag_coefficient", cd, 0.1, 3.0)?;
+            if matches!(self.shape, Shape::Box { .. }) {
+                return Err(Error::new(
+                    crate::ErrorKind::OutOfRange,
+                    "exposure.end_drag_coefficient",
+                ));
+            }
+        }
         Ok(())
     }
 
@@ -222,7 +265,10 @@ impl Exposure {
                     .unwrap_or_else(|| cylinder_cross_cd(aspect));
                 let side = diameter_m * length_m * sin_psi;
                 let end = 0.25 * math::PI * diameter_m * diameter_m * cos_psi.abs();
-                cd_cross * side + cylinder_axial_cd(aspect) * end
+                let cd_end = self
+                    .end_drag_coefficient
+                    .unwrap_or_else(|| cylinder_axial_cd(aspect));
+                cd_cross * side + cd_end * end
             }
             Shape::Box { size_m, edges } => {
                 let cd = self.drag_coefficient.unwrap_or(BOX_FACE_CD);
@@ -252,6 +298,7 @@ mod tests {
             },
             centre_m: [0.0; 3],
             drag_coefficient: None,
+            end_drag_coefficient: None,
         };
         let broad = e.drag_area_m2(&RIG_AXES, Vec3::X);
         let end = e.drag_area_m2(&RIG_AXES, Vec3::Y);
@@ -262,7 +309,9 @@ mod tests {
     #[test]
     fn cd_table_interpolates_and_holds() {
         assert!((cylinder_cross_cd(5.0) - 0.74).abs() < 1e-6);
-        assert!((cylinder_cross_cd(7.5) - 0.78).abs() < 1e-6);
+        // Between the table's points, linear in ln(l/d) as documented.
+        let t = (7.5_f32 / 5.0).ln() / 2.0_f32.ln();
+        assert!((cylinder_cross_cd(7.5) - (0.74 + t * 0.08)).abs() < 1e-5);
         assert!((cylinder_cross_cd(0.5) - 0.63).abs() < 1e-6);
         assert!((cylinder_cross_cd(1.0e4) - 1.2).abs() < 1e-6);
     }
@@ -276,6 +325,7 @@ mod tests {
             },
             centre_m: [0.0; 3],
             drag_coefficient: Some(1.0),
+            end_drag_coefficient: None,
         };
         assert!((e.drag_area_m2(&RIG_AXES, Vec3::X) - 6.0).abs() < 1e-6);
         assert!((e.drag_area_m2(&RIG_AXES, Vec3::Z) - 2.0).abs() < 1e-6);
@@ -292,6 +342,7 @@ mod tests {
             },
             centre_m: [0.0; 3],
             drag_coefficient: Some(1.0),
+            end_drag_coefficient: None,
         };
         assert!((e.drag_area_m2(&RIG_AXES, Vec3::X) - 3.0).abs() < 1e-6);
         assert!((e.drag_area_m2(&RIG_AXES, Vec3::Y) - 6.0).abs() < 1e-6);

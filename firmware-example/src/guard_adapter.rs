@@ -85,6 +85,7 @@ pub fn example_rig_spec() -> Result<RigSpec, Error> {
             },
             centre_m: [0.15, 0.1, 0.0],
             drag_coefficient: None,
+            end_drag_coefficient: None,
         }),
         ..BodySpec::default()
     };
@@ -103,6 +104,7 @@ pub fn example_rig_spec() -> Result<RigSpec, Error> {
             distance_m: 0.25,
             diameter_m: 0.1,
             thickness_m: 0.06,
+            drag_coefficient: None,
         })
         .ok();
     Ok(RigSpec {

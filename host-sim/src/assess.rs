@@ -42,6 +42,154 @@ pub struct AssessOptions {
     pub ballast_height_m: f32,
     /// Wind speed for the axis torques over the sky, m/s.
     pub torque_wind_mps: f32,
+    /// The condition assessed at the design gust (pose, ground tilt, cover,
+    /// wind direction).
+    pub condition: Condition,
+}
+
+/// A condition to assess: pose, ground tilt, cover and wind direction. The
+/// design wind speed is [`AssessOptions::design_gust_mps`].
+#[derive(Clone, Copy, Debug, PartialEq, Default)]
+pub struct Condition {
+    /// Mount pose; `None` for the mount's home pose.
+    pub pose: Option<standfast::mount::Pose>,
+    /// Ground tilt (magnitude and downhill azimuth in the rig frame).
+    pub tilt: Tilt,
+    /// True with the cover fitted (ignored when the rig has none).
+    pub cover_fitted: bool,
+    /// Direction the design wind blows from, degrees from north clockwise;
+    /// `None` for the worst direction.
+    pub wind_from_deg: Option<f32>,
+}
+
+/// Utilisation and sliding at the design gust from one direction, and the
+/// tip wind from there, at the assessed condition.
+#[derive(Clone, Copy, Debug, Serialize)]
+pub struct ConditionRow {
+    /// Direction the wind blows from, degrees from north clockwise.
+    pub from_deg: f32,
+    /// Lowest wind speed that tips the rig from there, m/s (`None`: none can).
+    pub tip_wind_mps: Option<f32>,
+    /// Overturning utilisation at the design gust (1.0 tips).
+    pub overturning_utilisation: f32,
+    /// Sliding utilisation at the design gust (1.0 slides).
+    pub sliding_utilisation: f32,
+}
+
+/// The assessment at one condition and the design gust.
+#[derive(Clone, Debug, Serialize)]
+pub struct ConditionReport {
+    /// The pose in words.
+    pub pose: String,
+    /// The pose as the core takes it (radians).
+    pub pose_rad: standfast::mount::Pose,
+    /// Ground tilt, degrees.
+    pub tilt_deg: f32,
+    /// Downhill azimuth, degrees from north clockwise.
+    pub downhill_deg: f32,
+    /// True with the cover fitted.
+    pub cover_fitted: bool,
+    /// Design gust, m/s.
+    pub design_gust_mps: f32,
+    /// True when the wind direction is the worst one (not given).
+    pub worst_direction: bool,
+    /// Wind direction assessed (given, or the one of highest overturning
+    /// utilisation), degrees.
+    pub wind_from_deg: f32,
+    /// Overturning utilisation at the design gust from that direction.
+    pub overturning_utilisation: f32,
+    /// Azimuth the rig would fall toward over its critical edge, degrees.
+    pub critical_edge_outward_deg: f32,
+    /// Sliding utilisation at the design gust from that direction.
+    pub sliding_utilisation: f32,
+    /// Highest sliding utilisation over directions (every 5°), and its
+    /// direction, degrees.
+    pub worst_sliding: (f32, f32),
+    /// Tip wind from that direction, m/s.
+    pub tip_wind_mps: Option<f32>,
+    /// Slide wind from that direction, m/s.
+    pub slide_wind_mps: Option<f32>,
+    /// Lowest tip wind over directions at this condition.
+    pub lowest_tip_wind: DirectionRow,
+    /// Extra ground tilt that would tip the rig with no wind, degrees, and
+    /// its downhill azimuth.
+    pub tilt_margin_deg: (f32, f32),
+    /// Every 15°: tip wind, utilisation and sliding at the design gust.
+    pub by_direction: Vec<ConditionRow>,
+}
+
+fn condition_report(
+    rig: &Rig,
+    air: standfast::air::Air,
+    o: &AssessOptions,
+) -> Result<ConditionReport, standfast::Error> {
+    let k = &o.condition;
+    let pose = k.pose.unwrap_or_else(|| rig.mount().home_pose());
+    let c = Conditions {
+        pose,
+        tilt: k.tilt,
+        wind_speed_mps: o.design_gust_mps,
+        wind_from_rad: 0.0,
+        air,
+        cover_fitted: k.cover_fitted && rig.has_cover(),
+    };
+    c.validate()?;
+    let at = |from_deg: f32| {
+        let mut cc = c;
+        cc.wind_from_rad = from_deg.to_radians();
+        rig.assess(&cc)
+    };
+    let mut rows = Vec::new();
+    let mut worst_slide = (f32::NEG_INFINITY, 0.0_f32);
+    for step in 0..72_u8 {
+        let from = f32::from(step) * 5.0;
+        let a = at(from)?;
+        if a.sliding.utilisation > worst_slide.0 {
+            worst_slide = (a.sliding.utilisation, from);
+        }
+        if step % 3 == 0 {
+            rows.push(ConditionRow {
+                from_deg: from,
+                tip_wind_mps: a.tip_wind_mps,
+                overturning_utilisation: a.critical.utilisation,
+                sliding_utilisation: a.sliding.utilisation,
+            });
+        }
+    }
+    let from_deg = match k.wind_from_deg {
+        Some(d) => d.rem_euclid(360.0),
+        None => deg(rig.worst_direction_utilisation(&c)?.1).rem_euclid(360.0),
+    };
+    let a = at(from_deg)?;
+    let mut calm = c;
+    calm.wind_speed_mps = 0.0;
+    let w = rig.worst_wind(&calm)?;
+    let m = rig.tilt_margin(&calm)?;
+    Ok(ConditionReport {
+        pose: crate::report::pose_words(&pose),
+        pose_rad: pose,
+        tilt_deg: deg(k.tilt.magnitude_rad),
+        downhill_deg: deg(k.tilt.downhill_azimuth_rad).rem_euclid(360.0),
+        cover_fitted: c.cover_fitted,
+        design_gust_mps: o.design_gust_mps,
+        worst_direction: k.wind_from_deg.is_none(),
+        wind_from_deg: from_deg,
+        overturning_utilisation: a.critical.utilisation,
+        critical_edge_outward_deg: deg(a.critical.outward_azimuth_rad).rem_euclid(360.0),
+        sliding_utilisation: a.sliding.utilisation,
+        worst_sliding: worst_slide,
+        tip_wind_mps: a.tip_wind_mps,
+        slide_wind_mps: a.slide_wind_mps,
+        lowest_tip_wind: DirectionRow {
+            from_deg: deg(w.from_rad).rem_euclid(360.0),
+            tip_wind_mps: w.tip_wind_mps,
+        },
+        tilt_margin_deg: (
+            deg(m.extra_rad),
+            deg(m.downhill_azimuth_rad).rem_euclid(360.0),
+        ),
+        by_direction: rows,
+    })
 }
 
 impl Default for AssessOptions {
@@ -52,6 +200,7 @@ impl Default for AssessOptions {
             storm_from_deg: 270.0,
             ballast_height_m: 0.3,
             torque_wind_mps: 10.0,
+            condition: Condition::default(),
         }
     }
 }
@@ -135,6 +284,15 @@ pub struct AssessReport {
     /// Bending check of the counterweight shaft at its root, when the rig
     /// file names the shaft's material.
     pub shaft_check: Option<ShaftCheck>,
+    /// Attachment hardware (shaft root, shaft thread in its housing, bolted
+    /// joints), weakest part first.
+    pub hardware: Vec<HardwareRow>,
+    /// Utilisation and sliding at the design gust in the assessed condition
+    /// (pose, ground tilt, cover, wind direction or the worst one).
+    pub condition: ConditionReport,
+    /// The weighed centre of gravity the rig carries (`[measured]`), with
+    /// the figures the bodies imply, when the file has one.
+    pub measured: Option<crate::rigfile::MeasuredNote>,
     /// The cautions.
     pub cautions: Vec<&'static str>,
 }
@@ -207,6 +365,239 @@ fn shaft_check(r: &LoadedRig) -> Result<Option<ShaftCheck>, standfast::Error> {
     }))
 }
 
+/// One attachment-hardware check: the part, its worst load, what it allows,
+/// and the load case that governs.
+#[derive(Clone, Debug, Serialize)]
+pub struct HardwareRow {
+    /// The part (`[shaft]`, `[shaft_joint]` or a `[[joint]]` label).
+    pub part: String,
+    /// What is checked.
+    pub check: String,
+    /// The worst load: N on the most loaded screw or thread, or N·m at the
+    /// shaft root (see `unit`).
+    pub load: f32,
+    /// What the part allows at yield / [`SHAFT_SAFETY_FACTOR`], same unit.
+    pub allowable: f32,
+    /// `N` or `N m`.
+    pub unit: &'static str,
+    /// load / allowable; above 1 the part is over its allowable load.
+    pub utilisation: f32,
+    /// Which failure governs the allowable (screw tension, a thread
+    /// stripping, bending).
+    pub governs: String,
+    /// The load case of the worst load.
+    pub case: String,
+}
+
+fn governs_words(m: standfast::hardware::FailureMode) -> &'static str {
+    use standfast::hardware::FailureMode;
+    match m {
+        FailureMode::ScrewTension => "screw tension",
+        FailureMode::ExternalThreadStrip => "the screw's (external) thread strips",
+        FailureMode::InternalThreadStrip => "the internal thread strips",
+    }
+}
+
+fn strip_capacity(
+    j: &crate::rigfile::ThreadJoint,
+) -> Result<standfast::hardware::StrippingResult, standfast::Error> {
+    use standfast::hardware::{strip, ShearFactor, StrengthBasis, StrippingInput};
+    strip::check_stripping(&StrippingInput {
+        limits: j.thread.limits(),
+        tensile_area_mm2: j.thread.tensile_stress_area_mm2(),
+        engagement_mm: j.engagement_mm,
+        screw: j.screw,
+        internal: j.internal,
+        shear_factor: ShearFactor::CommonPractice,
+        basis: StrengthBasis::Yield,
+        safety_factor: SHAFT_SAFETY_FACTOR,
+    })
+}
+
+/// The counterweight shaft's thread in its housing: the weight of the
+/// counterweights and the shaft hanging straight down, plus the design gust
+/// blowing along the shaft onto the discs' faces (a conservative sum: the
+/// largest pull of each kind, whatever the pose).
+fn shaft_joint_row(
+    r: &LoadedRig,
+    o: &AssessOptions,
+) -> Result<Option<HardwareRow>, standfast::Error> {
+    use standfast::hardware::ShaftLoad;
+    use standfast::rig::PartRole;
+    let Some(j) = &r.hardware.shaft_joint else {
+        return Ok(None);
+    };
+    let mut pull_n = 0.0;
+    let mut along_m2 = 0.0;
+    let axes = [Vec3::X, Vec3::Y, Vec3::Z];
+    for p in r.rig.parts() {
+        if matches!(p.role, PartRole::Counterweight(_) | PartRole::Shaft) {
+            pull_n += ShaftLoad::counterweight(p.mass_kg, -p.cg_m.x, 0.0)?.axial_n;
+            if let Some(x) = &p.exposure {
+                // The shaft's stage axis s is the first axis: wind along it.
+                along_m2 += x.drag_area_m2(&axes, Vec3::X);
+            }
+        }
+    }
+    let q = r.air.dynamic_pressure_pa(o.design_gust_mps);
+    let load = pull_n + q * along_m2;
+    let cap = strip_capacity(j)?;
+    Ok(Some(HardwareRow {
+        part: format!(
+            "counterweight shaft thread {} in the housing ({})",
+            j.thread_name, j.internal_label
+        ),
+        check: format!(
+            "thread stripping and shaft tension, {:.0} mm engaged",
+            j.engagement_mm
+        ),
+        load,
+        allowable: cap.allowable_n,
+        unit: "N",
+        utilisation: cap.utilisation(load.max(0.0))?,
+        governs: governs_words(cap.governs).to_owned(),
+        case: format!(
+            "shaft hanging straight down ({pull_n:.0} N of weights) plus a {:.0} m/s gust along the shaft ({:.0} N)",
+            o.design_gust_mps,
+            q * along_m2
+        ),
+    }))
+}
+
+/// A bolted joint: the most loaded screw over the sky (15° grid, both pier
+/// sides), 16 wind directions at the design gust, cover off and fitted, on
+/// level ground, and at the assessed condition.
+fn joint_row(
+    r: &LoadedRig,
+    o: &AssessOptions,
+    j: &crate::rigfile::BoltedJoint,
+) -> Result<HardwareRow, standfast::Error> {
+    use standfast::hardware::JointLoad;
+    let rig = &r.rig;
+    let origin = rig.mount().axis_origin_m;
+    let centre = Vec3::new(origin[0], origin[1], j.height_m);
+    let q = r.air.dynamic_pressure_pa(o.design_gust_mps);
+    let mut worst: Option<(f32, String)> = None;
+    let mut consider = |pose: standfast::mount::Pose,
+                        tilt: Tilt,
+                        cover: bool,
+                        from_deg: f32|
+     -> Result<(), standfast::Error> {
+        let pl = rig.place(pose, tilt, cover)?;
+        let res = pl.load_above(j.height_m, centre, from_deg.to_radians(), q)?;
+        let load = JointLoad {
+            axial_n: res.force_n.z,
+            moment_x_nm: res.moment_nm.x,
+            moment_y_nm: res.moment_nm.y,
+        };
+        let t = j.pattern.tensions(load, j.pivot)?;
+        if worst.as_ref().is_none_or(|(w, _)| t.max_n > *w) {
+            worst = Some((
+                t.max_n,
+                format!(
+                    "{}, {}, cover {}, {:.0} m/s gust from {:.0}° ({:.1} kg above the joint)",
+                    crate::report::pose_words(&pose),
+                    if tilt.magnitude_rad > 0.0 {
+                        format!(
+                            "ground tilt {:.1}° toward {:.0}°",
+                            deg(tilt.magnitude_rad),
+                            deg(tilt.downhill_azimuth_rad).rem_euclid(360.0)
+                        )
+                    } else {
+                        "level ground".to_owned()
+                    },
+                    if cover { "fitted" } else { "off" },
+                    o.design_gust_mps,
+                    from_deg.rem_euclid(360.0),
+                    res.mass_kg
+                ),
+            ));
+        }
+        Ok(())
+    };
+    let covers: &[bool] = if rig.has_cover() {
+        &[false, true]
+    } else {
+        &[false]
+    };
+    for pose in SkyGrid::with_step(15f32.to_radians(), 0.0).poses(rig.mount()) {
+        for &cover in covers {
+            for k in 0..16_u8 {
+                consider(pose, Tilt::LEVEL, cover, f32::from(k) * 22.5)?;
+            }
+        }
+    }
+    let c = &o.condition;
+    let pose = c.pose.unwrap_or_else(|| rig.mount().home_pose());
+    let cover = c.cover_fitted && rig.has_cover();
+    match c.wind_from_deg {
+        Some(d) => consider(pose, c.tilt, cover, d)?,
+        None => {
+            for k in 0..72_u8 {
+                consider(pose, c.tilt, cover, f32::from(k) * 5.0)?;
+            }
+        }
+    }
+    // No case checked would read as an unloaded joint: refuse instead.
+    let Some((max_n, case)) = worst else {
+        return Err(standfast::Error::new(
+            standfast::ErrorKind::TooFew,
+            "joint.load_cases",
+        ));
+    };
+    let cap = strip_capacity(&j.screws)?;
+    Ok(HardwareRow {
+        part: j.label.clone(),
+        check: format!(
+            "{} × {} ({}), {:.0} mm engaged in {}: tension of the most loaded screw",
+            j.pattern.len(),
+            j.screws.thread_name,
+            j.screws.screw_label,
+            j.screws.engagement_mm,
+            j.screws.internal_label
+        ),
+        load: max_n,
+        allowable: cap.allowable_n,
+        unit: "N",
+        utilisation: cap.utilisation(max_n.max(0.0))?,
+        governs: governs_words(cap.governs).to_owned(),
+        case,
+    })
+}
+
+/// Every attachment-hardware check, weakest part first.
+fn hardware_rows(
+    r: &LoadedRig,
+    o: &AssessOptions,
+    shaft: Option<&ShaftCheck>,
+) -> Result<Vec<HardwareRow>, standfast::Error> {
+    let mut rows = Vec::new();
+    if let Some(s) = shaft {
+        rows.push(HardwareRow {
+            part: format!(
+                "counterweight shaft root ({}, {})",
+                s.thread.as_deref().unwrap_or("plain"),
+                s.material
+            ),
+            check: format!("bending at the root, {:.2} mm section", s.root_diameter_mm),
+            load: s.moment_nm,
+            allowable: s.allowable_moment_nm,
+            unit: "N m",
+            utilisation: s.utilisation,
+            governs: "bending".to_owned(),
+            case: "shaft horizontal, counterweights where the file puts them".to_owned(),
+        });
+    }
+    if let Some(row) = shaft_joint_row(r, o)? {
+        rows.push(row);
+    }
+    for j in &r.hardware.joints {
+        rows.push(joint_row(r, o, j)?);
+    }
+    rows.sort_by(|a, b| b.utilisation.total_cmp(&a.utilisation));
+    Ok(rows)
+}
+
 /// Payload centre-of-gravity offsets of the envelope table, secondary-stage
 /// frame, metres: (along the secondary axis `s`, positive to the payload
 /// side; along the tube `p`, positive toward the sky end).
@@ -242,10 +633,15 @@ fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, sta
     Ok(rig.assess(&c)?.tip_wind_mps)
 }
 
+/// Best tripod orientation. A weighed centre (`[measured]`) is applied to
+/// every turned tripod: the weighed centre stays where it is in the rig
+/// frame while the feet turn under it (the legs' own mass, folded into the
+/// weighed lump, is taken not to move: exact for a symmetric tripod).
 fn orientation(
     spec: &RigSpec,
     c: &Conditions,
     storm_from_deg: f32,
+    measured: Option<&crate::rigfile::MeasuredNote>,
 ) -> Result<Option<Orientation>, standfast::Error> {
     if spec.feet.len() != 3 {
         return Ok(None);
@@ -263,7 +659,16 @@ fn orientation(
         let s = base.rotated(turn.to_radians())?;
         let mut sp = spec.clone();
         sp.feet = s.feet_list();
-        let rig = Rig::new(&sp)?;
+        let mut rig = Rig::new(&sp)?;
+        if let Some(m) = measured {
+            let home = rig.mount().home_pose();
+            rig = rig.with_measured_centre(
+                m.mass_kg,
+                Vec3::from_array(m.centre_m),
+                home,
+                m.cover_fitted,
+            )?;
+        }
         let tip = tip_from(&rig, c, storm)?;
         if step == 0 {
             current = Some((first_leg(&s), tip));
@@ -359,7 +764,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
             amount: q.amount,
             worst_from_deg: deg(q.worst_from_rad),
         });
-    let orientation = orientation(&r.spec, &c, o.storm_from_deg).map_err(e)?;
+    let orientation = orientation(&r.spec, &c, o.storm_from_deg, r.measured.as_ref()).map_err(e)?;
     let has_payload = r
         .spec
         .bodies
@@ -389,6 +794,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
     } else {
         None
     };
+    let shaft = shaft_check(r).map_err(e)?;
     Ok(AssessReport {
         file: r.file.clone(),
         mass_kg: placement.mass_kg(),
@@ -406,7 +812,10 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         orientation,
         balance,
         payload_envelope,
-        shaft_check: shaft_check(r).map_err(e)?,
+        hardware: hardware_rows(r, o, shaft.as_ref()).map_err(e)?,
+        shaft_check: shaft,
+        condition: condition_report(rig, r.air, o).map_err(e)?,
+        measured: r.measured.clone(),
         cautions: CAUTIONS.to_vec(),
     })
 }
@@ -430,6 +839,17 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
         "  mass {:.1} kg, centre of gravity x {x:.3} m (east), y {y:.3} m (north), z {z:.3} m (up), home pose, cover off",
         rep.mass_kg
     )?;
+    if let Some(m) = &rep.measured {
+        let [dx, dy, dz] = m.difference_m;
+        writeln!(
+            out,
+            "  weighed ([measured]): the bodies alone imply {:.1} kg at z {:.3} m; weighed minus modelled x {dx:+.3} m, y {dy:+.3} m, z {dz:+.3} m{}",
+            m.modelled_mass_kg,
+            m.modelled_centre_m[2],
+            m.centre_uncertainty_m
+                .map_or_else(String::new, |u| format!(" (weighed height ± {:.3} m)", u[2]))
+        )?;
+    }
     writeln!(
         out,
         "  air density {:.3} kg/m³ (ISA at the site elevation)",
@@ -484,6 +904,7 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
             None => writeln!(out, ", no drive rating given")?,
         }
     }
+    write_condition(&rep.condition, out)?;
     writeln!(
         out,
         "\nFor a {:.0} m/s design gust at utilisation {:.2}, home pose:",
@@ -545,9 +966,109 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
             c.allowable_moment_nm
         )?;
     }
+    if !rep.hardware.is_empty() {
+        writeln!(
+            out,
+            "\nAttachment hardware, weakest first (allowable = yield / {SHAFT_SAFETY_FACTOR:.1}):"
+        )?;
+        for h in &rep.hardware {
+            writeln!(
+                out,
+                "  {:>4.0} %{}  {}: {}",
+                h.utilisation * 100.0,
+                if h.utilisation > 1.0 {
+                    " OVER"
+                } else {
+                    "     "
+                },
+                h.part,
+                h.check
+            )?;
+            writeln!(
+                out,
+                "           {:.0} {} against {:.0} {} allowed ({} governs); worst case: {}",
+                h.load, h.unit, h.allowable, h.unit, h.governs, h.case
+            )?;
+        }
+    }
     writeln!(out, "\nCautions:")?;
     for c in &rep.cautions {
         writeln!(out, "  - {c}")?;
+    }
+    Ok(())
+}
+
+fn pct(u: f32) -> String {
+    if u >= standfast::stability::UTILISATION_CAP {
+        "nothing holds it".to_owned()
+    } else {
+        format!("{:.0} %", u * 100.0)
+    }
+}
+
+fn write_condition(c: &ConditionReport, out: &mut dyn Write) -> std::io::Result<()> {
+    let ground = if c.tilt_deg > 0.0 {
+        format!(
+            "ground tilt {:.1}° (downhill toward {:.0}°)",
+            c.tilt_deg, c.downhill_deg
+        )
+    } else {
+        "level ground".to_owned()
+    };
+    writeln!(
+        out,
+        "\nAt {}, {ground}, cover {}, design gust {:.1} m/s ({:.0} km/h):",
+        c.pose,
+        if c.cover_fitted { "fitted" } else { "off" },
+        c.design_gust_mps,
+        c.design_gust_mps * 3.6
+    )?;
+    let tips = c.overturning_utilisation >= 1.0;
+    let slides = c.sliding_utilisation >= 1.0;
+    writeln!(
+        out,
+        "  wind from {:.0}°{}: overturning {}{}, sliding {}{}",
+        c.wind_from_deg,
+        if c.worst_direction {
+            " (the worst direction)"
+        } else {
+            ""
+        },
+        pct(c.overturning_utilisation),
+        if tips { ", TIPS" } else { "" },
+        pct(c.sliding_utilisation),
+        if slides { ", SLIDES" } else { "" }
+    )?;
+    writeln!(
+        out,
+        "  from there it tips at {} and slides at {}; it would fall toward {:.0}°",
+        speed(c.tip_wind_mps),
+        speed(c.slide_wind_mps),
+        c.critical_edge_outward_deg
+    )?;
+    writeln!(
+        out,
+        "  highest sliding over directions: {} from {:.0}°; lowest tip wind: {} from {:.0}°",
+        pct(c.worst_sliding.0),
+        c.worst_sliding.1,
+        speed(c.lowest_tip_wind.tip_wind_mps),
+        c.lowest_tip_wind.from_deg
+    )?;
+    writeln!(
+        out,
+        "  extra ground tilt that tips it with no wind: {:.1}° (downhill toward {:.0}°)",
+        c.tilt_margin_deg.0, c.tilt_margin_deg.1
+    )?;
+    writeln!(out, "  from   overturning  sliding   tip wind")?;
+    for r in &c.by_direction {
+        writeln!(
+            out,
+            "  {:>4.0}°  {:>11}  {:>7}   {}",
+            r.from_deg,
+            pct(r.overturning_utilisation),
+            pct(r.sliding_utilisation),
+            speed(r.tip_wind_mps)
+        )?;
     }
     Ok(())
 }
@@ -673,6 +1194,166 @@ pub struct AssessArgs {
     /// Also write a self-contained HTML report with charts to this file.
     #[arg(long, value_name = "FILE")]
     pub html: Option<std::path::PathBuf>,
+    /// Hour angle of the assessed pose, with --declination: a plain number
+    /// is in hours (positive west), or give an angle unit ("-30 deg").
+    #[arg(long, value_name = "H", allow_hyphen_values = true, requires = "declination",
+          conflicts_with_all = ["azimuth", "altitude"], value_parser = parse_hour_angle)]
+    pub hour_angle: Option<f32>,
+    /// Declination of the assessed pose, degrees (−90 to 90), with --hour-angle.
+    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "hour_angle",
+          value_parser = parse_declination)]
+    pub declination: Option<f32>,
+    /// Azimuth the tube points to, degrees from north clockwise, with --altitude.
+    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "altitude",
+          value_parser = parse_azimuth)]
+    pub azimuth: Option<f32>,
+    /// Altitude the tube points to, degrees (−90 to 90), with --azimuth.
+    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "azimuth",
+          value_parser = parse_declination)]
+    pub altitude: Option<f32>,
+    /// Pier side of the assessed pose (equatorial mounts).
+    #[arg(long, value_enum, default_value_t = SideArg::TubeEast)]
+    pub pier_side: SideArg,
+    /// Ground tilt of the assessed condition, degrees (0 to 45), with --downhill.
+    #[arg(long, value_name = "DEG", requires = "downhill", value_parser = parse_tilt)]
+    pub tilt: Option<f32>,
+    /// Azimuth the ground falls toward, degrees from north clockwise, with --tilt.
+    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "tilt",
+          value_parser = parse_azimuth)]
+    pub downhill: Option<f32>,
+    /// Cover of the assessed condition.
+    #[arg(long, value_enum, default_value_t = CoverArg::Off)]
+    pub cover: CoverArg,
+    /// Direction the design gust blows from, degrees from north clockwise,
+    /// or `worst`.
+    #[arg(long, value_name = "DEG|worst", default_value = "worst", allow_hyphen_values = true,
+          value_parser = parse_wind_from)]
+    pub wind_from: WindFrom,
+}
+
+/// Pier side on the command line.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum SideArg {
+    /// The tube east of the pier (the usual side for targets west of the meridian).
+    TubeEast,
+    /// The tube west of the pier.
+    TubeWest,
+}
+
+/// Cover state on the command line.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum CoverArg {
+    /// Cover fitted (if the rig has one).
+    On,
+    /// Cover off.
+    Off,
+}
+
+/// Wind direction on the command line.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum WindFrom {
+    /// The direction of highest overturning utilisation.
+    Worst,
+    /// From this azimuth, degrees.
+    Deg(f32),
+}
+
+#[allow(clippy::cast_possible_truncation)] // angles of a command line fit f32
+fn angle_deg(s: &str, bare: &str) -> Result<f32, String> {
+    let a = crate::units::Angle::parse_or(s, bare).map_err(|e| e.to_string())?;
+    let d = a.deg();
+    if d.is_finite() {
+        Ok(d as f32)
+    } else {
+        Err(format!("\"{s}\" is not a finite angle"))
+    }
+}
+
+fn in_range(s: &str, v: f32, lo: f32, hi: f32, unit: &str) -> Result<f32, String> {
+    if (lo..=hi).contains(&v) {
+        Ok(v)
+    } else {
+        Err(format!(
+            "\"{s}\" ({v} {unit}) is outside the accepted range {lo} to {hi} {unit}"
+        ))
+    }
+}
+
+fn parse_hour_angle(s: &str) -> Result<f32, String> {
+    let d = angle_deg(s, "hourangle")?;
+    in_range(s, d / 15.0, -12.0, 12.0, "h").map(|h| h * 15.0)
+}
+
+fn parse_declination(s: &str) -> Result<f32, String> {
+    let d = angle_deg(s, "deg")?;
+    in_range(s, d, -90.0, 90.0, "deg")
+}
+
+fn parse_azimuth(s: &str) -> Result<f32, String> {
+    let d = angle_deg(s, "deg")?;
+    in_range(s, d, -360.0, 360.0, "deg")
+}
+
+fn parse_tilt(s: &str) -> Result<f32, String> {
+    let d = angle_deg(s, "deg")?;
+    in_range(
+        s,
+        d,
+        0.0,
+        standfast::frame::MAX_TILT_RAD.to_degrees(),
+        "deg",
+    )
+}
+
+fn parse_wind_from(s: &str) -> Result<WindFrom, String> {
+    if s.trim().eq_ignore_ascii_case("worst") {
+        return Ok(WindFrom::Worst);
+    }
+    parse_azimuth(s)
+        .map(WindFrom::Deg)
+        .map_err(|e| format!("{e} (or `worst`)"))
+}
+
+impl AssessArgs {
+    /// The condition the options describe (angles converted to radians).
+    #[must_use]
+    pub fn condition(&self) -> Condition {
+        use standfast::mount::{PierSide, Pose};
+        let pier_side = match self.pier_side {
+            SideArg::TubeEast => PierSide::TubeEast,
+            SideArg::TubeWest => PierSide::TubeWest,
+        };
+        let pose = match (
+            self.hour_angle,
+            self.declination,
+            self.azimuth,
+            self.altitude,
+        ) {
+            (Some(h), Some(d), _, _) => Some(Pose::Equatorial {
+                hour_angle_rad: h.to_radians(),
+                declination_rad: d.to_radians(),
+                pier_side,
+            }),
+            (_, _, Some(az), Some(alt)) => Some(Pose::Horizontal {
+                azimuth_rad: az.to_radians(),
+                altitude_rad: alt.to_radians(),
+                pier_side,
+            }),
+            _ => None,
+        };
+        Condition {
+            pose,
+            tilt: Tilt {
+                magnitude_rad: self.tilt.unwrap_or(0.0).to_radians(),
+                downhill_azimuth_rad: self.downhill.unwrap_or(0.0).to_radians(),
+            },
+            cover_fitted: self.cover == CoverArg::On,
+            wind_from_deg: match self.wind_from {
+                WindFrom::Worst => None,
+                WindFrom::Deg(d) => Some(d),
+            },
+        }
+    }
 }
 
 /// Runs `standfast assess`.
@@ -684,6 +1365,7 @@ pub fn run(a: &AssessArgs, out: &mut dyn Write) -> Result<(), Error> {
     let o = AssessOptions {
         storm_from_deg: a.storm_from,
         design_gust_mps: a.design_gust,
+        condition: a.condition(),
         ..AssessOptions::default()
     };
     let rep = assess(&r, &o)?;

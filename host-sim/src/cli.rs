@@ -37,6 +37,9 @@ pub enum Command {
     GenDemo(GenDemoArgs),
     /// Assess a rig file without logs (tip wind, torques, ballast, tripod orientation).
     Assess(crate::assess::AssessArgs),
+    /// Find the rig's centre of gravity from scale readings under its feet
+    /// (level, one side lifted, tilted until a foot unloads).
+    Weigh(crate::weigh::WeighArgs),
     /// Replay a night's logs through the guard and summarise the closest approaches.
     Replay(crate::replay::ReplayArgs),
     /// Write an invented windy night and demo rig, replay them and print the summary.
@@ -84,6 +87,7 @@ pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
     match &cli.command {
         Command::GenDemo(a) => gen_demo(a, out),
         Command::Assess(a) => crate::assess::run(a, out),
+        Command::Weigh(a) => crate::weigh::run(a, out),
         Command::Replay(a) => crate::replay::run_replay(a, out),
         Command::Demo(a) => crate::replay::run_demo(a, out),
         Command::Bridge(a) => crate::bridge::run_bridge(a, out),

@@ -23,6 +23,7 @@ pub mod rig_image;
 pub mod rigfile;
 pub mod summary;
 pub mod units;
+pub mod weigh;
 pub mod whatif;
 
 pub use error::{Error, Result};

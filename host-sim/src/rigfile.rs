@@ -33,8 +33,11 @@
 //! shape = { kind = "cylinder", diameter = "0.13 m", length = "0.8 m", axis = [0, 1, 0] }
 //! # or shape = { kind = "box", size = [0.2, 0.2, 0.3] }; centre = [...] (default: cg)
 //! drag_coefficient = 1.0; under_cover = true; mass_model = "shell" # point | solid | shell
+//! end_drag_coefficient = 1.1     # cylinders: on the end area π·d²/4 (default by l/d)
+//! # mass = 0 with a shape: a drag-only surface (sign, dew shield, cable tray)
 //!
-//! [[counterweight]]  mass, distance, diameter, thickness
+//! [[counterweight]]  mass, distance, diameter, thickness,
+//!                    drag_coefficient (of the disc's face; default by l/d)
 //! [shaft]            mass, length, diameter,
 //!                    thread = "M12" (optional, ISO coarse thread at the root),
 //!                    material = "6061-T6" (see [`SHAFT_MATERIALS`]) or
@@ -58,6 +61,16 @@
 //!                    wind_source = "samples"     # or "ten_minute_means" (a station
 //!                                                # reporting only means; wind_stale >= 600 s)
 //!                    gust_factor = 1.45          # gust / ten-minute mean for such a station
+//! [shaft_joint]      engagement = "14 mm", housing = "6061-T6" (or
+//!                    housing_yield_strength_mpa): the [shaft] thread in the mount's housing
+//! [[joint]]          label, height (joint plane above ground), thread = "M6",
+//!                    bolts = 3 and bolt_circle = "60 mm" (a diameter; phase) or
+//!                    positions = [[x, y], ...] (rig x east, y north), class = "8.8"
+//!                    or material, engagement, tapped (material; default a nut),
+//!                    heel = "45 mm" (the flange tips about its edge; default the centre)
+//! [measured]         mass, cg = [x, y, z] (rig frame, home pose, level), mass_uncertainty,
+//!                    cg_uncertainty, cover_fitted = false, note: a weighed centre of
+//!                    gravity (written by `standfast weigh`; see [`MeasuredNote`])
 //! [log]              the log profile (read by [`crate::log`], ignored here)
 //! ```
 //! Frames and sign conventions are the core's: rig frame x east, y north, z
@@ -149,6 +162,10 @@ struct FileSpec {
     #[serde(default)]
     ballast: Vec<S<BallastSec>>,
     drives: Option<S<DrivesSec>>,
+    measured: Option<S<MeasuredSec>>,
+    shaft_joint: Option<S<ShaftJointSec>>,
+    #[serde(default)]
+    joint: Vec<S<JointSec>>,
     guard: Option<S<GuardSec>>,
     sensor: Option<S<SensorSec>>,
     /// The log profile, read by [`crate::log`].
@@ -216,6 +233,7 @@ struct BodySec {
     shape: Option<S<ShapeSec>>,
     centre: Option<S<[Length; 3]>>,
     drag_coefficient: Option<S<f64>>,
+    end_drag_coefficient: Option<S<f64>>,
     #[serde(default)]
     under_cover: bool,
     mass_model: Option<S<String>>,
@@ -240,6 +258,7 @@ struct CwSec {
     distance: S<Length>,
     diameter: S<Length>,
     thickness: S<Length>,
+    drag_coefficient: Option<S<f64>>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -388,6 +407,477 @@ pub struct LoadedRig {
     pub shaft_hardware: Option<ShaftHardware>,
     /// Air of the International Standard Atmosphere at the site elevation.
     pub air: Air,
+    /// The `[measured]` section (a weighed centre of gravity), when given:
+    /// `rig` then carries it (see [`standfast::rig::Rig::with_measured_centre`]).
+    pub measured: Option<MeasuredNote>,
+    /// Attachment hardware to check (`[shaft_joint]`, `[[joint]]`).
+    pub hardware: AttachmentHardware,
+}
+
+/// `[shaft_joint]`: the counterweight shaft's thread in the mount's housing.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct ShaftJointSec {
+    engagement: S<Length>,
+    housing: Option<S<String>>,
+    housing_yield_strength_mpa: Option<S<f64>>,
+}
+
+/// `[[joint]]`: a bolted joint that holds the mount head or the pier or
+/// tripod head.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct JointSec {
+    label: S<String>,
+    height: S<Length>,
+    thread: S<String>,
+    bolts: Option<S<i64>>,
+    bolt_circle: Option<S<Length>>,
+    phase: Option<S<Degrees>>,
+    positions: Option<S<Vec<[Length; 2]>>>,
+    class: Option<S<String>>,
+    material: Option<S<String>>,
+    engagement: S<Length>,
+    tapped: Option<S<String>>,
+    heel: Option<S<Length>>,
+}
+
+/// A threaded joint's thread, screw material, engagement and the material
+/// it is screwed into.
+#[derive(Clone, Debug)]
+pub struct ThreadJoint {
+    /// ISO metric coarse thread.
+    pub thread: IsoThread,
+    /// The thread as written.
+    pub thread_name: String,
+    /// Material of the screw (external thread).
+    pub screw: Material,
+    /// What the screw material is.
+    pub screw_label: String,
+    /// Material of the part with the internal thread (housing, tapped
+    /// plate, or a nut).
+    pub internal: Material,
+    /// What that material is.
+    pub internal_label: String,
+    /// Length of thread engagement, mm.
+    pub engagement_mm: f32,
+}
+
+/// A bolted joint in a horizontal plane of the rig.
+#[derive(Clone, Debug)]
+pub struct BoltedJoint {
+    /// Name for reports.
+    pub label: String,
+    /// Height of the joint plane above the ground, m (rig frame).
+    pub height_m: f32,
+    /// Screw positions, mm, in the rig frame's x (east) and y (north)
+    /// directions about the vertical axis.
+    pub pattern: standfast::hardware::BoltPattern,
+    /// The screws' thread joint.
+    pub screws: ThreadJoint,
+    /// Where the flange pivots.
+    pub pivot: standfast::hardware::bolt::PivotLine,
+}
+
+/// The attachment hardware a rig file describes.
+#[derive(Clone, Debug, Default)]
+pub struct AttachmentHardware {
+    /// The counterweight shaft's thread in the housing (`[shaft_joint]`,
+    /// with `[shaft]` thread and material).
+    pub shaft_joint: Option<ThreadJoint>,
+    /// Bolted joints (`[[joint]]`).
+    pub joints: Vec<BoltedJoint>,
+}
+
+/// A material by listed name or by a yield strength in MPa.
+fn material_by_name(
+    src: &SourceText,
+    key: &str,
+    name: Option<&S<String>>,
+    yield_mpa: Option<&S<f64>>,
+) -> Result<Option<(Material, String)>, InputError> {
+    let ck = src.checker();
+    match (name, yield_mpa) {
+        (Some(m), None) => {
+            let names: Vec<&str> = SHAFT_MATERIALS.iter().map(|x| x.0).collect();
+            let n = ck.one_of(key, m, &names)?;
+            Ok(SHAFT_MATERIALS
+                .iter()
+                .find(|x| x.0 == n)
+                .map(|(_, label, mat)| (*mat, (*label).to_owned())))
+        }
+        (None, Some(y)) => {
+            let y = ck.range_f64(
+                &format!("{key}_yield_strength_mpa"),
+                y,
+                1.0,
+                f64::from(material::MAX_STRENGTH_MPA),
+            )?;
+            let mat = Material::new(f(y), f(y)).map_err(|e| InputError {
+                at: None,
+                key: Some(key.to_owned()),
+                value: None,
+                problem: e.to_string(),
+            })?;
+            Ok(Some((
+                mat,
+                format!("yield strength {} MPa (as given)", fmt_g(y)),
+            )))
+        }
+        (Some(m), Some(_)) => Err(ck.error(
+            key,
+            m.span(),
+            "give the material by name or by yield strength, not both",
+        )),
+        (None, None) => Ok(None),
+    }
+}
+
+fn thread_by_name(src: &SourceText, key: &str, t: &S<String>) -> Result<IsoThread, InputError> {
+    IsoThread::by_name(t.get_ref()).map_err(|_| {
+        src.checker().error(
+            key,
+            t.span(),
+            format!(
+                "not an ISO metric coarse thread (accepted: M{} to M{}, for example \"M8\")",
+                fmt_g(f64::from(standfast::hardware::thread::MIN_NOMINAL_MM)),
+                fmt_g(f64::from(standfast::hardware::thread::MAX_NOMINAL_MM))
+            ),
+        )
+    })
+}
+
+fn engagement_mm(src: &SourceText, key: &str, l: &S<Length>) -> Result<f32, InputError> {
+    Ok(f(src
+        .checker()
+        .range(key, l, Length::from_m(0.001), Length::from_m(0.2), "mm")?
+        .m())
+        * 1000.0)
+}
+
+/// Reads `[shaft_joint]` and `[[joint]]`.
+fn attachment_hardware(
+    src: &SourceText,
+    file: &FileSpec,
+    shaft: Option<&ShaftHardware>,
+) -> Result<AttachmentHardware, InputError> {
+    let ck = src.checker();
+    let mut out = AttachmentHardware::default();
+    if let Some(sj) = &file.shaft_joint {
+        let g = sj.get_ref();
+        let (Some(hw), Some(thread)) = (shaft, shaft.and_then(|h| h.thread.as_ref())) else {
+            return Err(ck.error(
+                "shaft_joint",
+                sj.span(),
+                "the shaft joint needs [shaft] with `thread` and `material` (or \
+                 `yield_strength_mpa`): the shaft is the screw",
+            ));
+        };
+        let Some((internal, internal_label)) = material_by_name(
+            src,
+            "shaft_joint.housing",
+            g.housing.as_ref(),
+            g.housing_yield_strength_mpa.as_ref(),
+        )?
+        else {
+            return Err(ck.error(
+                "shaft_joint",
+                sj.span(),
+                "give the housing's material: `housing` (a listed name) or \
+                 `housing_yield_strength_mpa`",
+            ));
+        };
+        out.shaft_joint = Some(ThreadJoint {
+            thread: *thread,
+            thread_name: hw.thread_name.clone().unwrap_or_default(),
+            screw: hw.material,
+            screw_label: hw.material_label.clone(),
+            internal,
+            internal_label,
+            engagement_mm: engagement_mm(src, "shaft_joint.engagement", &g.engagement)?,
+        });
+    }
+    for (i, j) in file.joint.iter().enumerate() {
+        let key = format!("joint[{i}]");
+        let g = j.get_ref();
+        let thread = thread_by_name(src, &format!("{key}.thread"), &g.thread)?;
+        let height_m = f(ck
+            .range(
+                &format!("{key}.height"),
+                &g.height,
+                Length::from_m(0.0),
+                Length::from_m(f64::from(standfast::rig::MAX_OFFSET_M)),
+                "m",
+            )?
+            .m());
+        let bad = |problem: String| ck.error(&key, j.span(), problem);
+        let pattern = match (&g.bolts, &g.bolt_circle, &g.positions) {
+            (Some(n), Some(d), None) => {
+                let count = usize::try_from(*n.get_ref())
+                    .ok()
+                    .filter(|c| (3..=standfast::hardware::bolt::MAX_SCREWS).contains(c))
+                    .ok_or_else(|| {
+                        ck.error(
+                            &format!("{key}.bolts"),
+                            n.span(),
+                            format!(
+                                "accepted: 3 to {} bolts on a circle (or give `positions`)",
+                                standfast::hardware::bolt::MAX_SCREWS
+                            ),
+                        )
+                    })?;
+                let diameter_mm = f(ck
+                    .range(
+                        &format!("{key}.bolt_circle"),
+                        d,
+                        Length::from_m(0.005),
+                        Length::from_m(2.0),
+                        "mm",
+                    )?
+                    .m())
+                    * 1000.0;
+                let phase = g.phase.as_ref().map_or(0.0, |p| f(p.get_ref().0));
+                standfast::hardware::BoltPattern::circle(count, diameter_mm / 2.0, phase)
+                    .map_err(|e| bad(e.to_string()))?
+            }
+            (None, None, Some(p)) => {
+                let pts: Vec<[f32; 2]> = p
+                    .get_ref()
+                    .iter()
+                    .map(|[x, y]| [f(x.m()) * 1000.0, f(y.m()) * 1000.0])
+                    .collect();
+                standfast::hardware::BoltPattern::new(&pts)
+                    .map_err(|e| ck.error(&format!("{key}.positions"), p.span(), e.to_string()))?
+            }
+            _ => {
+                return Err(bad(
+                    "give `bolts` and `bolt_circle` (a diameter), or `positions` = [[x, y], ...]"
+                        .into(),
+                ))
+            }
+        };
+        let (screw, screw_label) = match (&g.class, &g.material) {
+            (Some(c), None) => {
+                ck.one_of(&format!("{key}.class"), c, &["8.8"])?;
+                (
+                    Material::bolt_class_8_8(thread.nominal_mm),
+                    "property class 8.8 (ISO 898-1 minimum)".to_owned(),
+                )
+            }
+            (None, Some(_)) => {
+                material_by_name(src, &format!("{key}.material"), g.material.as_ref(), None)?
+                    .ok_or_else(|| bad("unknown material".into()))?
+            }
+            _ => {
+                return Err(bad(
+                    "give the screws' `class` (\"8.8\") or `material` (a listed name)".into(),
+                ))
+            }
+        };
+        let (internal, internal_label) =
+            match material_by_name(src, &format!("{key}.tapped"), g.tapped.as_ref(), None)? {
+                Some(m) => m,
+                None => (
+                    screw,
+                    format!("a nut of the screws' material ({screw_label})"),
+                ),
+            };
+        let pivot = match &g.heel {
+            Some(h) => standfast::hardware::bolt::PivotLine::Heel {
+                offset_mm: f(ck
+                    .range(
+                        &format!("{key}.heel"),
+                        h,
+                        Length::from_m(0.0),
+                        Length::from_m(2.0),
+                        "mm",
+                    )?
+                    .m())
+                    * 1000.0,
+            },
+            None => standfast::hardware::bolt::PivotLine::Centroid,
+        };
+        out.joints.push(BoltedJoint {
+            label: g.label.get_ref().clone(),
+            height_m,
+            pattern,
+            screws: ThreadJoint {
+                thread,
+                thread_name: g.thread.get_ref().trim().to_owned(),
+                screw,
+                screw_label,
+                internal,
+                internal_label,
+                engagement_mm: engagement_mm(src, &format!("{key}.engagement"), &g.engagement)?,
+            },
+            pivot,
+        });
+    }
+    Ok(out)
+}
+
+/// The `[measured]` section: the whole rig weighed (see `standfast weigh`).
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct MeasuredSec {
+    mass: S<Mass>,
+    cg: S<[Length; 3]>,
+    mass_uncertainty: Option<S<Mass>>,
+    cg_uncertainty: Option<S<[Length; 3]>>,
+    #[serde(default)]
+    cover_fitted: bool,
+    note: Option<S<String>>,
+}
+
+/// A weighed centre of gravity applied to the rig, with the figures the
+/// bodies imply for comparison. Rig frame (x east, y north, z up), home pose,
+/// level ground.
+#[derive(Clone, Debug, serde::Serialize)]
+pub struct MeasuredNote {
+    /// Weighed total mass, kg.
+    pub mass_kg: f32,
+    /// Its standard uncertainty, kg, when given.
+    pub mass_uncertainty_kg: Option<f32>,
+    /// Weighed centre of gravity, m.
+    pub centre_m: [f32; 3],
+    /// Its standard uncertainty per axis, m, when given.
+    pub centre_uncertainty_m: Option<[f32; 3]>,
+    /// True when the cover was fitted while weighing.
+    pub cover_fitted: bool,
+    /// Total mass the bodies imply in the same pose and cover state, kg.
+    pub modelled_mass_kg: f32,
+    /// Centre of gravity the bodies imply, m.
+    pub modelled_centre_m: [f32; 3],
+    /// Weighed minus modelled centre, m.
+    pub difference_m: [f32; 3],
+    /// Mass of the ground-stage lump that replaces the ground parts' masses,
+    /// kg.
+    pub ground_mass_kg: f32,
+    /// Free text from the file (where the figures came from).
+    pub note: Option<String>,
+}
+
+/// Applies a `[measured]` section to a validated rig.
+fn apply_measured(
+    src: &SourceText,
+    sec: &S<MeasuredSec>,
+    rig: &Rig,
+) -> Result<(Rig, MeasuredNote), InputError> {
+    let ck = src.checker();
+    let g = sec.get_ref();
+    let mass = ck.range(
+        "measured.mass",
+        &g.mass,
+        Mass::from_kg(0.001),
+        Mass::from_kg(f64::from(standfast::rig::MAX_PART_MASS_KG)),
+        "kg",
+    )?;
+    let centre = v3(g.cg.get_ref());
+    let lim = f64::from(standfast::rig::MAX_OFFSET_M);
+    for (i, c) in g.cg.get_ref().iter().enumerate() {
+        if c.m().is_nan() || c.m().abs() > lim {
+            return Err(ck.error(
+                &format!("measured.cg[{i}]"),
+                g.cg.span(),
+                format!(
+                    "{} m is outside the accepted range -{} to {} m",
+                    fmt_g(c.m()),
+                    fmt_g(lim),
+                    fmt_g(lim)
+                ),
+            ));
+        }
+    }
+    let mass_uncertainty_kg = match &g.mass_uncertainty {
+        Some(u) => Some(f(ck
+            .range(
+                "measured.mass_uncertainty",
+                u,
+                Mass::from_kg(0.0),
+                Mass::from_kg(mass.kg()),
+                "kg",
+            )?
+            .kg())),
+        None => None,
+    };
+    let centre_uncertainty_m = match &g.cg_uncertainty {
+        Some(u) => {
+            for (i, c) in u.get_ref().iter().enumerate() {
+                if c.m().is_nan() || c.m() < 0.0 || c.m() > lim {
+                    return Err(ck.error(
+                        &format!("measured.cg_uncertainty[{i}]"),
+                        u.span(),
+                        format!(
+                            "{} m is outside the accepted range 0 to {} m",
+                            fmt_g(c.m()),
+                            fmt_g(lim)
+                        ),
+                    ));
+                }
+            }
+            Some(v3(u.get_ref()))
+        }
+        None => None,
+    };
+    let home = rig.mount().home_pose();
+    let modelled = rig
+        .place(home, standfast::Tilt::LEVEL, g.cover_fitted)
+        .map_err(|e| ck.error("measured", sec.span(), e.to_string()))?;
+    let modelled_mass_kg = modelled.mass_kg();
+    let modelled_centre = modelled.centre_of_gravity_m();
+    let mass_kg = f(mass.kg());
+    let out = rig
+        .with_measured_centre(
+            mass_kg,
+            standfast::Vec3::from_array(centre),
+            home,
+            g.cover_fitted,
+        )
+        .map_err(|e| {
+            let problem = match (e.kind, e.field) {
+                (standfast::ErrorKind::Inconsistent, "measured.mass_kg") => format!(
+                    "the weighed {} kg is not more than the {} kg of the parts that move with the \
+                     mount (counterweights, shaft, bodies on the primary and secondary stages{}): \
+                     check the weighing or those masses",
+                    fmt_g(f64::from(mass_kg)),
+                    fmt_g(f64::from(e.min - 0.001)),
+                    if g.cover_fitted { ", cover" } else { "" }
+                ),
+                (standfast::ErrorKind::Inconsistent, _) => format!(
+                    "with this centre the ground-stage parts (legs, pier, head, ballast) would \
+                     have their centre of gravity {} m above the ground, outside the accepted \
+                     range 0 to {} m: check the weighing or the moving parts' masses and centres",
+                    fmt_g(f64::from(e.value)),
+                    fmt_g(lim)
+                ),
+                _ => e.to_string(),
+            };
+            ck.error("measured", sec.span(), problem)
+        })?;
+    let placed = out
+        .place(home, standfast::Tilt::LEVEL, g.cover_fitted)
+        .map_err(|e| ck.error("measured", sec.span(), e.to_string()))?;
+    let ground_mass_kg = placed
+        .parts()
+        .filter(|p| p.part.role == standfast::rig::PartRole::Measured)
+        .map(|p| p.part.mass_kg)
+        .sum();
+    let d = standfast::Vec3::from_array(centre) - modelled_centre;
+    Ok((
+        out,
+        MeasuredNote {
+            mass_kg,
+            mass_uncertainty_kg,
+            centre_m: centre,
+            centre_uncertainty_m,
+            cover_fitted: g.cover_fitted,
+            modelled_mass_kg,
+            modelled_centre_m: modelled_centre.to_array(),
+            difference_m: d.to_array(),
+            ground_mass_kg,
+            note: g.note.as_ref().map(|n| n.get_ref().clone()),
+        },
+    ))
 }
 
 /// A core field name and list index.
@@ -702,8 +1192,23 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
                     .map_or(v3(g.cg.get_ref()), |c| v3(c.get_ref())),
                 g.centre.as_ref().map_or(g.cg.span(), Spanned::span),
                 g.drag_coefficient.as_ref(),
+                g.end_drag_coefficient.as_ref(),
             )?),
         };
+        if g.shape.is_none() {
+            for (k, v) in [
+                ("drag_coefficient", &g.drag_coefficient),
+                ("end_drag_coefficient", &g.end_drag_coefficient),
+            ] {
+                if let Some(v) = v {
+                    return Err(ck.error(
+                        &format!("{key}.{k}"),
+                        v.span(),
+                        "a drag coefficient needs a `shape` to act on",
+                    ));
+                }
+            }
+        }
         let body = BodySpec {
             label,
             stage,
@@ -754,11 +1259,20 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             format!("{key}.thickness"),
             g.thickness.span(),
         );
+        if let Some(cd) = &g.drag_coefficient {
+            sp.put(
+                "counterweights.drag_coefficient",
+                Some(i),
+                format!("{key}.drag_coefficient"),
+                cd.span(),
+            );
+        }
         let cw = CounterweightSpec {
             mass_kg: f(g.mass.get_ref().kg()),
             distance_m: f(g.distance.get_ref().m()),
             diameter_m: f(g.diameter.get_ref().m()),
             thickness_m: f(g.thickness.get_ref().m()),
+            drag_coefficient: g.drag_coefficient.as_ref().map(|d| f(*d.get_ref())),
         };
         if counterweights.push(cw).is_err() {
             return Err(ck.error(
@@ -910,6 +1424,14 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         drives,
     };
     let rig = Rig::new(&spec).map_err(|e| core_error(src, &sp, &e))?;
+    let hardware = attachment_hardware(src, &file, shaft_hardware.as_ref())?;
+    let (rig, measured) = match &file.measured {
+        Some(m) => {
+            let (r, note) = apply_measured(src, m, &rig)?;
+            (r, Some(note))
+        }
+        None => (rig, None),
+    };
 
     let mut guard = guard_config(file.guard.as_ref(), &mut sp);
     if let Some(sec) = &file.sensor {
@@ -925,6 +1447,8 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         elevation_m,
         shaft_hardware,
         air,
+        measured,
+        hardware,
     })
 }
 
@@ -938,6 +1462,7 @@ fn exposure(
     centre_m: [f32; 3],
     centre_span: Range<usize>,
     cd: Option<&S<f64>>,
+    end_cd: Option<&S<f64>>,
 ) -> Result<Exposure, InputError> {
     let ck = src.checker();
     let g = sh.get_ref();
@@ -954,6 +1479,22 @@ fn exposure(
             format!("{key}.drag_coefficient"),
             c.span(),
         );
+    }
+    if let Some(c) = end_cd {
+        sp.put(
+            "exposure.end_drag_coefficient",
+            index,
+            format!("{key}.end_drag_coefficient"),
+            c.span(),
+        );
+        if g.kind.get_ref().trim() == "box" {
+            return Err(ck.error(
+                &format!("{key}.end_drag_coefficient"),
+                c.span(),
+                "end_drag_coefficient applies to a cylinder's end area; a box takes \
+                 drag_coefficient on every face",
+            ));
+        }
     }
     let missing = |what: &str| {
         ck.error(
@@ -1020,6 +1561,7 @@ fn exposure(
         shape,
         centre_m,
         drag_coefficient: cd.map(|c| f(*c.get_ref())),
+        end_drag_coefficient: end_cd.map(|c| f(*c.get_ref())),
     })
 }
 

@@ -303,6 +303,7 @@ pub fn variant(
                         },
                         centre_m: c.centre_m,
                         drag_coefficient: c.drag_coefficient,
+                        end_drag_coefficient: None,
                     }),
                     mass_model: standfast::rig::MassModel::Shell,
                     under_cover: false,
@@ -379,6 +380,17 @@ pub fn variant(
             format!("the variant's guard settings are not valid: {e}"),
         )
     })?;
+    if base.measured.is_some() {
+        // The weighed centre replaced the ground parts' masses for the rig as
+        // weighed; a variant changes what was weighed, so it cannot carry it.
+        return Err(bad(
+            "",
+            "",
+            "variants of a rig file with a [measured] section are not supported: \
+             compare variants of the file without it, or weigh each variant"
+                .to_owned(),
+        ));
+    }
     let rig =
         Rig::new(&spec).map_err(|e| bad("", "", format!("the variant rig is not valid: {e}")))?;
     Ok(LoadedRig {
@@ -389,6 +401,8 @@ pub fn variant(
         elevation_m: base.elevation_m,
         shaft_hardware: base.shaft_hardware.clone(),
         air: base.air,
+        measured: None,
+        hardware: base.hardware.clone(),
     })
 }
 

@@ -39,6 +39,7 @@ pub fn post_rig(
             },
             centre_m: [0.0, 0.0, h_m],
             drag_coefficient: Some(cd_a_m2 / (d * l)),
+            end_drag_coefficient: None,
         }),
         ..BodySpec::default()
     });

@@ -24,6 +24,7 @@ use standfast::shape::{Exposure, Shape};
 use standfast::sky::{ParkRequest, PayloadOffset, SkyGrid, SkyScan};
 use standfast::support::Support;
 use standfast::torque::PayloadPick;
+use standfast::weighing::{centre_from_weighing, Lift, LiftGeometry, TipTest, Weighing};
 use standfast::{Error, Tilt, Vec3};
 
 /// How many calls returned `Ok` and how many an error (a run on the host
@@ -75,6 +76,7 @@ pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
             },
             centre_m: u.tube_cg_m,
             drag_coefficient: None,
+            end_drag_coefficient: None,
         }),
         under_cover: true,
         ..BodySpec::default()
@@ -91,6 +93,7 @@ pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
                 },
                 centre_m: [0.0, 0.0, u.head_height_m],
                 drag_coefficient: None,
+                end_drag_coefficient: None,
             }),
             ..BodySpec::default()
         })
@@ -113,6 +116,7 @@ pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
             distance_m: u.counterweight_distance_m,
             diameter_m: 0.1,
             thickness_m: 0.06,
+            drag_coefficient: None,
         })
         .ok();
     let mut ballast = Vec::new();
@@ -194,15 +198,18 @@ fn pose(u: &Unknowns) -> Pose {
 /// [`BoltPattern::tensions`], [`ShaftLoad::counterweight`]), the sky-wide
 /// entry points ([`Rig::sky_scan`], [`Rig::payload_envelope`],
 /// [`Rig::balance`], [`standfast::torque::Balance::balanced_spec`],
-/// [`Rig::safest_park`]) and the
-/// guard's decision alone ([`transition`]); and every
-/// function the C ABI exports ([`crate::ffi::ffi_calls`]).
+/// [`Rig::safest_park`]), the
+/// guard's decision alone ([`transition`]), the weighing
+/// ([`centre_from_weighing`] with a lift by feet, by angle and a tip test),
+/// [`Rig::with_measured_centre`] and [`standfast::rig::Placement::load_above`];
+/// and every function the C ABI exports ([`crate::ffi::ffi_calls`]).
 pub fn exercise(u: &Unknowns) -> Tally {
     let mut t = Tally::default();
     if let Some(spec) = t.note(rig_spec(u)) {
         if let Some(rig) = t.note(Rig::new(&spec)) {
             rig_calls(&mut t, &rig, u);
             guard_calls(&mut t, &rig, u);
+            weighing_calls(&mut t, &rig, u);
         }
     }
     sensor_calls(&mut t, u);
@@ -307,6 +314,54 @@ fn transition_calls(t: &mut Tally, u: &Unknowns) {
         t.ok = t.ok.saturating_add(u32::from(out.change.is_some()));
     }
     black_box(stage);
+}
+
+fn weighing_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
+    let n = usize::try_from(u.scale_count).unwrap_or(usize::MAX);
+    let [level, lifted] = &u.scale_n;
+    let level = level.get(..n).unwrap_or(level);
+    let lifted = lifted.get(..n).unwrap_or(lifted);
+    let tip = TipTest {
+        edge_feet: [u.tip_edge[0] as u8, u.tip_edge[1] as u8],
+        angle_rad: u.tip_angle_rad[0],
+        angle_uncertainty_rad: u.tip_angle_rad[1],
+    };
+    let by_feet = LiftGeometry::Feet {
+        lifted_mask: u.lift_mask as u8,
+        height_m: u.lift_height_m[0],
+        height_uncertainty_m: u.lift_height_m[1],
+    };
+    let by_angle = LiftGeometry::Angle {
+        raised_toward_rad: u.lift_angle_rad[0],
+        angle_rad: u.lift_angle_rad[1],
+        angle_uncertainty_rad: u.lift_angle_rad[2],
+    };
+    for geometry in [by_feet, by_angle] {
+        let w = Weighing {
+            level_n: level,
+            reading_uncertainty_n: u.scale_uncertainty_n,
+            lift: Some(Lift {
+                geometry,
+                loads_n: lifted,
+            }),
+            tip: Some(tip),
+        };
+        t.note(centre_from_weighing(rig.support(), &w));
+    }
+    let cg = Vec3::from_array(u.measured_cg_m);
+    let home = rig.mount().home_pose();
+    if let Some(m) = t.note(rig.with_measured_centre(u.measured_kg, cg, home, false)) {
+        t.note(m.worst_wind(&Conditions::calm(home)));
+    }
+    // The load through a joint plane (the attachment-hardware check).
+    if let Some(p) = t.note(rig.place(pose(u), Tilt::LEVEL, u.cover_fitted == 1)) {
+        t.note(p.load_above(
+            u.measured_cg_m[2],
+            Vec3::new(0.0, 0.0, u.measured_cg_m[2]),
+            u.wind_from_rad,
+            0.5 * u.air_density_kg_m3 * u.gust_mps * u.gust_mps,
+        ));
+    }
 }
 
 fn guard_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {

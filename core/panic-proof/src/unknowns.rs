@@ -95,6 +95,27 @@ pub struct Unknowns {
     pub bolt_circle_radius_mm: f32,
     /// Angle of the counterweight shaft from hanging straight down, rad.
     pub shaft_angle_rad: f32,
+    /// Scale readings under the feet, level and lifted, N (the first
+    /// `scale_count` of each are used).
+    pub scale_n: [[f32; 8]; 2],
+    /// How many readings of each weighing to pass (any count).
+    pub scale_count: u32,
+    /// Standard uncertainty of one reading, N.
+    pub scale_uncertainty_n: f32,
+    /// Feet raised for the lift weighing (bit i: foot i).
+    pub lift_mask: u32,
+    /// Lift height and its uncertainty, m.
+    pub lift_height_m: [f32; 2],
+    /// Lift by angle: raised-side azimuth, angle and uncertainty, rad.
+    pub lift_angle_rad: [f32; 3],
+    /// Tip test: edge feet and angle, rad.
+    pub tip_edge: [u32; 2],
+    /// Tip angle and uncertainty, rad.
+    pub tip_angle_rad: [f32; 2],
+    /// A weighed mass, kg, and centre of gravity, m, for the override.
+    pub measured_kg: f32,
+    /// The weighed centre of gravity, rig frame, m.
+    pub measured_cg_m: [f32; 3],
 }
 
 /// The stored figures: an invented small equatorial rig on a light tripod in
@@ -144,6 +165,19 @@ pub static UNKNOWNS: Unknowns = Unknowns {
     screws: 4,
     bolt_circle_radius_mm: 30.0,
     shaft_angle_rad: 1.3,
+    scale_n: [
+        [55.0, 54.0, 56.0, 0.0, 0.0, 0.0, 0.0, 0.0],
+        [40.0, 62.0, 63.0, 0.0, 0.0, 0.0, 0.0, 0.0],
+    ],
+    scale_count: 3,
+    scale_uncertainty_n: 0.05,
+    lift_mask: 1,
+    lift_height_m: [0.08, 0.001],
+    lift_angle_rad: [0.0, 0.15, 0.002],
+    tip_edge: [1, 2],
+    tip_angle_rad: [0.35, 0.005],
+    measured_kg: 17.5,
+    measured_cg_m: [0.01, 0.0, 0.95],
 };
 
 /// [`UNKNOWNS`] read through a volatile load: the optimiser must treat every

@@ -318,7 +318,8 @@ mod tests {
     #[test]
     fn basic_profile_shortcut() {
         // With basic sizes ASs = 0.75·π·D1·Le and ASn = 0.875·π·d·Le
-        // (fact sheet §1, derived from the H28 formulas).
+        // (derived here from the FED-STD-H28/2B shear-area formulas with the
+        // basic ISO 68-1 profile, d2 − D1 = 0.4330·P and d − D2 = 0.6495·P).
         let t = IsoThread::by_name("M12").unwrap();
         let l = t.basic_limits();
         let ass = external_shear_area_mm2(&l, 10.0).unwrap();

@@ -150,17 +150,17 @@ const fn size(name: &'static str, nominal_mm: f32, pitch_mm: f32) -> IsoThread {
 /// The tabulated coarse sizes, smallest first.
 ///
 /// Pitches: ISO 261 coarse series (M3 0.5, M4 0.7, M5 0.8, M6 1, M8 1.25,
-/// M10 1.5, M12 1.75, M16 2, M20 2.5 as listed in the Standfast hardware fact
-/// sheet §2, confirmed against tap tables; M14 2, M18 2.5, M24 3 from
-/// memory).
+/// M10 1.5, M12 1.75, M16 2, M20 2.5, checked against Yamawa's published
+/// tap tables and the ISO 898-1 reproductions by Optimas and usefastener;
+/// M14 2, M18 2.5, M24 3 from memory).
 ///
 /// 6g/6H limits:
 /// - M6: d_min 5.794 (confirmed, ISO 965 table reproduction); D2_max 5.500,
 ///   d2_min 5.212 and D1_max 5.153 from memory (ISO 965-2), consistent with
 ///   the ISO 965-1 tolerance grades.
-/// - M10: d_min 9.732, d2_min 8.862, D1_max 8.676, D2_max 9.206 (confirmed:
-///   ISO calculator and the CRC handbook worked example cited in the fact
-///   sheet).
+/// - M10: d_min 9.732, d2_min 8.862, D1_max 8.676, D2_max 9.206 (checked:
+///   the icad.pl ISO thread calculator and the CRC handbook worked example,
+///   DOI 10.1201/9781482273786-99).
 pub const TABLE: [IsoThread; 12] = [
     size("M3", 3.0, 0.5),
     size("M4", 4.0, 0.7),

@@ -614,6 +614,12 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
     let mut cw = Conditions::calm(rep.sky.tip.pose);
     cw.air = r.air;
     let worst_pts = tip_wind_by_direction(&r.rig, &cw).map_err(e)?;
+    let k = &rep.condition;
+    let mut ck = Conditions::calm(k.pose_rad);
+    ck.air = r.air;
+    ck.tilt = Tilt::new(k.tilt_deg.to_radians(), k.downhill_deg.to_radians()).map_err(e)?;
+    ck.cover_fitted = k.cover_fitted;
+    let condition_pts = tip_wind_by_direction(&r.rig, &ck).map_err(e)?;
     let chart = PolarChart {
         title: "Tip wind speed by direction".to_owned(),
         r_label: "tip wind (m/s)".to_owned(),
@@ -628,6 +634,11 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
                 colour: "#c05621".to_owned(),
                 points: worst_pts,
             },
+            PolarTrace {
+                name: "assessed condition".to_owned(),
+                colour: "#2f855a".to_owned(),
+                points: condition_pts,
+            },
         ],
         marker: rep.sky.tip.tip_wind_mps.map(|v| PolarMarker {
             deg: f64::from(rep.sky.tip.from_rad.to_degrees()),
@@ -639,9 +650,16 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
     page.figure(
         &chart.to_svg(),
         &format!(
-            "Lowest wind speed that tips the rig, for a wind from each direction (every {POLAR_STEP_DEG}°), level ground, cover off: in the home pose ({}) and in the worst pose of the sky scan ({}). Open circles on the outer ring: no wind tips it from that direction.",
+            "Lowest wind speed that tips the rig, for a wind from each direction (every {POLAR_STEP_DEG}°), level ground, cover off: in the home pose ({}) and in the worst pose of the sky scan ({}); and in the assessed condition ({}, {}, cover {}). Open circles on the outer ring: no wind tips it from that direction.",
             pose_words(&home),
-            pose_words(&rep.sky.tip.pose)
+            pose_words(&rep.sky.tip.pose),
+            k.pose,
+            if k.tilt_deg > 0.0 {
+                format!("ground tilt {:.1}° downhill toward {:.0}°", k.tilt_deg, k.downhill_deg)
+            } else {
+                "level ground".to_owned()
+            },
+            if k.cover_fitted { "fitted" } else { "off" }
         ),
     );
     page.h2("Axis torque over the sky");

@@ -1,12 +1,15 @@
 //! Library tests of standfast-sim (no command line involved). One module per
 //! subject; every check names its outside source beside it.
 
+mod assess_condition;
 mod bridge;
 mod cli;
 mod common;
 mod demo;
+mod drag_inputs;
 mod firmware_replay;
 mod golden;
+mod hardware_assess;
 mod located;
 mod log_merge;
 mod log_time;
@@ -17,4 +20,5 @@ mod report;
 mod rig_image;
 mod rigfile;
 mod units;
+mod weigh;
 mod whatif;

@@ -306,9 +306,10 @@ fn mast_storm_day_gust_from_mean_against_measured_maximum() {
     assert!((h - 0.5518).abs() < 1e-3, "{h}");
 
     for (terrain, factor) in [
-        // Fact sheet §3 design convention: 1.45 open (Durst 1960 1.43, ESDU
-        // 1.45), 1.7 suburban or tree-lined (WMO/TD-No. 1555 in-land 1.66,
-        // EN √(1+7 I_v) 1.73).
+        // Our design convention (common practice, no single source): 1.45
+        // open (Durst 1960 1.43, ESDU 1.45), 1.7 suburban or tree-lined
+        // (Harper, Kepert & Ginger 2010, WMO/TD-No. 1555, Table 1.1, in-land
+        // 1.66; EN 1991-1-4 √(1+7 I_v) 1.73 for category III).
         (TerrainCategory::CatIIOpen, 1.45),
         (TerrainCategory::CatIIISuburban, 1.7),
     ] {
@@ -351,9 +352,9 @@ fn mast_storm_day_gust_from_mean_against_measured_maximum() {
         let ratio = meas_max / est_max;
         // Band: the measured maximum (3-s samples, near a 3-s gust: data
         // README) over the estimate is G_obs/factor, where G_obs is the
-        // storm's own gust factor. Fact sheet §3 gives published 3-s/10-min
-        // factors from 1.23 (WMO/TD-No. 1555, at sea) to 2.0 (EN 1991-1-4,
-        // category IV); a real storm outside 1.23..2.0 would mean the
+        // storm's own gust factor. Published 3-s/10-min factors run from
+        // 1.23 (WMO/TD-No. 1555, Table 1.1, at sea) to 2.0 (EN 1991-1-4,
+        // √(1+7 I_v) for category IV, derived); a real storm outside 1.23..2.0 would mean the
         // factors (or the data) cannot be trusted.
         let (lo, hi) = (1.23 / factor, 2.0 / factor);
         assert!(

@@ -351,7 +351,10 @@ fn assess_report_holds_both_polar_traces_and_the_torque_maps() {
         .descendants()
         .filter(|n| n.has_tag_name("polygon") && class_is(n, "polar-trace"))
         .collect();
-    assert_eq!(traces.len(), 2);
+    // Home pose, worst pose of the sky, and the assessed condition (by
+    // default the home pose again, level, cover off).
+    assert_eq!(traces.len(), 3);
+    assert_eq!(vertices(&traces[2]), vertices(&traces[0]));
     for t in &traces {
         assert_eq!(vertices(t).len(), 72);
     }

@@ -317,7 +317,7 @@ fn assess_shaft_root_bending_by_hand() {
         (f64::from(c.stress_mpa) - sigma).abs() < 0.2,
         "{c:?} {sigma}"
     );
-    // S355 up to 16 mm: minimum yield 355 MPa (EN 10025-2; from memory), over
+    // S355 up to 16 mm: minimum yield 355 MPa (EN 10025-2 Table 7; checked), over
     // the safety factor 2 (common practice, no source).
     assert!((c.allowable_mpa - 177.5).abs() < 1e-3);
 }

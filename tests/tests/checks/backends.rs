@@ -5,7 +5,8 @@
 //! independent f64 oracles computed here. Stated tolerance: relative 1e-4
 //! with libm; 1 % with micromath, whose approximations trade accuracy for
 //! size and speed (its documentation states errors of a few tenths of a
-//! percent for its trigonometric and power functions).
+//! percent for its trigonometric and power functions; a height from a lift
+//! by angle divides by tan θ and moves up to about 0.7 %).
 
 use crate::fixtures::{altaz, post_rig};
 use standfast::air::Air;
@@ -28,7 +29,8 @@ fn close(got: f32, want: f64, what: &str) {
     );
 }
 
-/// Tip wind of the fact-sheet tripod (statics, see `stability.rs`), oracle in
+/// Tip wind of the hand-worked tripod (statics, see `stability.rs` and the
+/// README), oracle in
 /// f64: V = √(2·W·r/(H·Cd·A·ρ)) with the wind toward the middle of an edge.
 #[test]
 fn tripod_tip_wind_within_backend_tolerance() {
@@ -79,4 +81,60 @@ fn tube_altitude_within_backend_tolerance() {
     };
     let (_, alt) = m.tube_horizontal(pose).unwrap();
     close(alt, want, "altitude");
+}
+
+/// Centre-of-gravity height from a lift by angle and a tilt-to-unload test
+/// (the hand-worked tripod of `weighing.rs`: 0.9 m), under both back ends;
+/// the lift by a height goes through no trigonometric call and moves less.
+#[test]
+fn weighed_height_within_backend_tolerance() {
+    use standfast::weighing::{centre_from_weighing, Lift, LiftGeometry, TipTest, Weighing};
+    let s = Support::tripod(0.5, 0.0).unwrap();
+    let level = [65.3777, 65.3777, 65.3777];
+    let by_angle = Weighing {
+        level_n: &level,
+        reading_uncertainty_n: 0.01,
+        lift: Some(Lift {
+            geometry: LiftGeometry::Angle {
+                raised_toward_rad: deg_to_rad(270.0),
+                angle_rad: deg_to_rad(10.0),
+                angle_uncertainty_rad: deg_to_rad(0.1),
+            },
+            loads_n: &[65.3777, 101.3179, 29.4374],
+        }),
+        tip: Some(TipTest {
+            edge_feet: [1, 2],
+            angle_rad: deg_to_rad(15.5241),
+            angle_uncertainty_rad: deg_to_rad(0.2),
+        }),
+    };
+    let m = centre_from_weighing(&s, &by_angle).unwrap();
+    close(
+        m.height_from_lift_m.unwrap().value,
+        0.9,
+        "height from the lift",
+    );
+    close(
+        m.height_from_tip_m.unwrap().value,
+        0.9,
+        "height from the tip",
+    );
+    let by_height = Weighing {
+        lift: Some(Lift {
+            geometry: LiftGeometry::Feet {
+                lifted_mask: 0b100,
+                height_m: 0.130_236,
+                height_uncertainty_m: 0.001,
+            },
+            loads_n: &[86.1278, 86.1278, 23.8774],
+        }),
+        tip: None,
+        ..by_angle
+    };
+    let m = centre_from_weighing(&s, &by_height).unwrap();
+    close(
+        m.height_m.unwrap().value,
+        0.9,
+        "height from a lift by height",
+    );
 }

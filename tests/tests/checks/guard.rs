@@ -1,4 +1,4 @@
-//! The guard on scripted scenarios. The rig is the fact-sheet tripod of
+//! The guard on scripted scenarios. The rig is the hand-worked tripod of
 //! `stability.rs` (tips at 21.9 m/s with the wind toward an edge), so every
 //! utilisation is (V / 21.9)² and the thresholds translate into speeds by hand.
 

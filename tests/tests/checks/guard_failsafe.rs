@@ -389,6 +389,7 @@ fn tube_rig(cover: bool) -> Rig {
                 },
                 centre_m: [0.0, 0.0, 0.0],
                 drag_coefficient: None,
+                end_drag_coefficient: None,
             }),
             under_cover: true,
             ..BodySpec::default()

@@ -29,9 +29,9 @@ fn thread(name: &str) -> IsoThread {
 
 /// ISO 724 basic pitch diameter d2 and minor diameter D1, and the external
 /// root diameter d3 of ISO 898-1, all to 3 decimals as tabulated. Source: the
-/// ISO 724 table (values as reproduced in the Standfast hardware fact sheet §2;
-/// M5, M6, M8, M10 confirmed there against Yamawa tap tables, M10 d3 = 8.160
-/// against an ISO thread calculator).
+/// ISO 724 table and the ISO 68-1 profile relations (M5, M6, M8, M10 checked
+/// against Yamawa's published tap-limit tables, M10 d3 = 8.160 against the
+/// icad.pl ISO thread calculator; the other sizes derived from ISO 68-1).
 #[test]
 // The M4 root diameter 3.141 mm is a thread dimension, not an approximation of π.
 #[allow(clippy::approx_constant)]
@@ -58,8 +58,8 @@ fn iso_724_basic_dimensions() {
 }
 
 /// Nominal tensile stress areas As of ISO 898-1 (tabulated to three
-/// significant figures; Optimas and usefastener reproductions of EN ISO 898-1,
-/// fact sheet §2, confirmed).
+/// significant figures; Optimas and usefastener reproductions of the EN ISO
+/// 898-1 tables; checked).
 #[test]
 fn iso_898_1_tensile_stress_areas() {
     // (name, As mm², half a unit of the last tabulated digit)
@@ -80,8 +80,8 @@ fn iso_898_1_tensile_stress_areas() {
 }
 
 /// ISO 898-1 minimum ultimate tensile loads of property class 8.8 (N, as
-/// tabulated; Optimas and usefastener reproductions of EN ISO 898-1, fact
-/// sheet §2, confirmed) against As × the class 8.8 Rm,min constants (from
+/// tabulated; Optimas and usefastener reproductions of EN ISO 898-1,
+/// checked) against As × the class 8.8 Rm,min constants (from
 /// memory): checks the material table through an independent published
 /// table. Tolerance 0.5 %, the rounding of the tabulated loads.
 #[test]
@@ -159,8 +159,9 @@ fn lookups_and_typed_errors() {
 // ---------------------------------------------------------------------------
 
 /// M10 6g/6H, engagement for equal strength by H28/2B formula 1
-/// (Machinery's Handbook, "Strength of screw threads"). Hand calculation, the
-/// fact sheet's derived value (flag D) from confirmed 6g/6H limits:
+/// (Machinery's Handbook, "Strength of screw threads"). Hand calculation
+/// (derived) from the ISO 965 6g/6H limits (checked: icad.pl calculator and
+/// the CRC example below):
 /// D1max = 8.676, d2min = 8.862, dmin = 9.732, D2max = 9.206, n = 1/1.5;
 /// ASs/Le = π·8.676·[0.5 + 0.57735·(8.862 − 8.676)/1.5] = 15.58 mm²/mm;
 /// ASn/Le = π/1.5·9.732·[0.75 + 0.57735·(9.732 − 9.206)] = 21.48 mm²/mm;
@@ -186,13 +187,13 @@ fn m10_equal_strength_engagement_h28_formula_1() {
 }
 
 /// Published worked example: CRC / Taylor & Francis handbook chapter, DOI
-/// 10.1201/9781482273786-99 (fact sheet §1, confirmed). An M10×1.5-6g class
+/// 10.1201/9781482273786-99 (checked; the book's title not confirmed). An M10×1.5-6g class
 /// 10.9 screw in a 6H tapped hole in aluminium: screw load 1200 MPa × 58 mm²
 /// = 69 600 N, aluminium shear strength 130 MPa, Ds,min = 9.968 mm,
 /// En,max = 9.206 mm; published result Le = 21.6 mm.
 ///
 /// Subtlety: 9.968 mm is the 6g **maximum** major diameter; the true 6g
-/// minimum is 9.732 mm, which needs Le = 24.9 mm (fact sheet, derived). The
+/// minimum is 9.732 mm, which needs Le = 24.9 mm (derived by hand). The
 /// example is reproduced with the published 9.968 and then with 9.732.
 #[test]
 fn crc_handbook_m10_into_aluminium() {
@@ -207,9 +208,9 @@ fn crc_handbook_m10_into_aluminium() {
     assert_abs_diff_eq!(le, 24.9, epsilon = 0.05);
 }
 
-/// M6 class 8.8 screw in a 6061-T6 plate, Le = 9 mm, 6g/6H (fact sheet §1
-/// worked number 3, derived; M6 dmin 5.794 confirmed, D2max 5.500 from
-/// memory): ASn = 12.19 mm²/mm × 9 = 109.7 mm²; τ = 0.6 × 290 MPa
+/// M6 class 8.8 screw in a 6061-T6 plate, Le = 9 mm, 6g/6H (derived by
+/// hand from the FED-STD-H28/2B internal shear area; M6 dmin 5.794 from a
+/// Mastik ISO 965 table, checked; D2max 5.500 from memory): ASn = 12.19 mm²/mm × 9 = 109.7 mm²; τ = 0.6 × 290 MPa
 /// (6061-T6 plate ultimate minimum, ASTM B209, confirmed) = 174 MPa;
 /// F_strip ≈ 19.1 kN. The screw breaks first at its ISO 898-1 minimum
 /// ultimate load 16.1 kN (confirmed); the engagement matching it is 7.6 mm.
@@ -303,7 +304,7 @@ fn shear_areas_grow_linearly_with_engagement() {
     }
 }
 
-/// Basic-profile shortcut (fact sheet §1, derived from the H28 formulas with
+/// Basic-profile shortcut (derived here from the FED-STD-H28/2B formulas with
 /// d2 − D1 = 0.4330·P and d − D2 = 0.6495·P): ASs = 0.75·π·D1·Le,
 /// ASn = 0.875·π·d·Le.
 #[test]
@@ -364,8 +365,8 @@ fn stripping_errors_name_fields() {
 
 /// n screws equally spaced on a circle, neutral axis through the centre:
 /// F_max = 2M/(nR). M = 100 N·m, R = 40 mm gives 1666.7, 1250, 833.3, 625 N
-/// for n = 3, 4, 6, 8 (bolted circular flange derivation, atreydes; fact sheet
-/// §5, confirmed). With a screw on the line perpendicular to the moment the
+/// for n = 3, 4, 6, 8 (bolted circular flange derivation, atreydes.com;
+/// checked, and by a brute-force sweep over orientations). With a screw on the line perpendicular to the moment the
 /// linear rule reaches this value exactly.
 #[test]
 fn bolt_circle_closed_form() {
@@ -395,7 +396,7 @@ fn bolt_circle_closed_form() {
 }
 
 /// Unequal lever arms about a pivot line: screws at y = 10, 10, 90, 90 mm
-/// from the pivot, M = 100 N·m. Linear rule (fact sheet §5, derived; the
+/// from the pivot, M = 100 N·m. Linear rule (derived; the
 /// bending analogue of Shigley ch. 8, F = M·r/Σr²): hand calculation
 /// 100 000 N·mm × 90 / (2·10² + 2·90²) = 548.8 N in the outer screws, above
 /// the 500 N of the non-conservative "M / Σ lever arms" shortcut.
@@ -420,7 +421,7 @@ fn unequal_arms_about_a_pivot_line() {
 
 /// Same six-screw pattern tipping about the flange edge: n = 6, R = 40 mm,
 /// heel at R_f = 55 mm, M = 100 N·m gives F_max = M·(R_f + R)/(n·R_f² +
-/// n·R²/2) = 413.9 N (fact sheet §5, derived), less than the 833.3 N about
+/// n·R²/2) = 413.9 N (derived by the linear rule), less than the 833.3 N about
 /// the centre.
 #[test]
 fn six_screws_about_the_flange_edge() {
@@ -603,7 +604,7 @@ fn counterweight_shaft_classic_poses() {
     assert_eq!(e.field, "shaft_load.mass_kg");
 
     // Four screws on a 40 mm circle under it: hanging, an equal share of the
-    // pull; horizontal, the bolt-circle value 2M/(nR) (atreydes, fact sheet §5).
+    // pull; horizontal, the bolt-circle value 2M/(nR) (atreydes.com).
     let p = BoltPattern::circle(4, 20.0, PI / 2.0).unwrap();
     let h = p
         .tensions(hang.as_joint_load(), PivotLine::Centroid)
@@ -616,7 +617,7 @@ fn counterweight_shaft_classic_poses() {
 }
 
 /// σ = 32·M/(π·d³): M = 50 N·m, d = 20 mm gives 63.66 MPa (Shigley ch. 3;
-/// Roark; fact sheet §5, confirmed). Hollow form σ = 32·M·D/(π·(D⁴ − d⁴))
+/// Roark, *Formulas for Stress and Strain*; checked). Hollow form σ = 32·M·D/(π·(D⁴ − d⁴))
 /// (same sources): with a 10 mm bore, 63.66 × 16/15 = 67.91 MPa.
 #[test]
 fn shaft_bending_stress() {
@@ -687,9 +688,10 @@ fn bending_stress_scales_with_diameter_cubed() {
     }
 }
 
-/// Listed materials carry the fact sheet's values (fact sheet §4): spot
-/// checks of the minimums of ASTM B221 / B209, EN 755-2, EN 10025-2 and
-/// ASTM A276 (confirmed) and typical 7075-T6 (from memory).
+/// Listed materials carry their specification values (SOURCES.md lists each):
+/// spot checks of the minimums of ASTM B221 (Keymark table) / B209 (Ashland
+/// table), EN 755-2, EN 10025-2 Table 7 and ASTM A276 (checked) and typical
+/// 7075-T6 (from memory).
 #[test]
 fn material_table_values() {
     let cases = [

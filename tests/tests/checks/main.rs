@@ -2,6 +2,7 @@
 
 mod air;
 mod backends;
+mod drag;
 use standfast_checks::fixtures;
 mod frame;
 mod guard;
@@ -12,3 +13,4 @@ mod mount;
 mod sense;
 mod stability;
 mod torque;
+mod weighing;

@@ -61,7 +61,7 @@ fn tol(libm: f64, micromath: f64) -> f64 {
 
 // ------------------------------------------------------------------- tilt
 
-/// Check vectors of the tilt fact sheet (§6), total tilt from vertical by
+/// Check vectors worked by hand: total tilt from vertical by
 /// Analog Devices AN-1057 (C. J. Fisher) eq. 13, θ = atan(√(Ax² + Ay²)/Az),
 /// also in NXP AN3461 (M. Pedley). Sign convention of ST DT0140: level and
 /// upright reads +1 g on z. Expected values: (0, 0.5, 0.866) → 30°,
@@ -102,8 +102,8 @@ fn tilt_of_an1057_check_vectors() {
     assert!(tilt_of_specific_force(Vec3::ZERO).is_err());
 }
 
-/// The tilt formulas use ratios only (fact sheet §6: (0, 1, 1.732) gives the
-/// same 30° as (0, 0.5, 0.866)); a 16-bit ±2 g part has 16 384 LSB/g
+/// The tilt formulas use ratios only (AN-1057 eq. 13 is a ratio: (0, 1,
+/// 1.732) gives the same 30° as (0, 0.5, 0.866)); a 16-bit ±2 g part has 16 384 LSB/g
 /// (common practice, no source), so (0, 8192, 14189) counts is (0, 0.5,
 /// 0.866) g.
 #[test]
@@ -152,8 +152,9 @@ fn mounting_axes_rotate_into_rig_frame() {
     assert!(Mounting::from_axes(SignedAxis::PlusX, SignedAxis::PlusY, SignedAxis::MinusZ).is_err());
 }
 
-/// Single-pole IIR α = 1 − exp(−2π·fc/fs) (fact sheet §6, Stack Exchange
-/// answers): fs = 100 Hz, fc = 1 Hz (τ = 1/(2π) s) gives α = 0.0609; fc =
+/// Single-pole IIR α = 1 − exp(−2π·fc/fs) (the exact discretisation of a
+/// first-order low-pass, as given in Signal Processing Stack Exchange
+/// answers; checked; numbers derived): fs = 100 Hz, fc = 1 Hz (τ = 1/(2π) s) gives α = 0.0609; fc =
 /// 0.5 Hz gives 0.0309.
 #[test]
 fn lowpass_alpha_matches_published_values() {
@@ -165,7 +166,7 @@ fn lowpass_alpha_matches_published_values() {
 /// Step response of a first-order low-pass: 1 − e^(−t/τ), 63.2 % of the step
 /// after one time constant (Ogata, Modern Control Engineering, first-order
 /// systems, from memory; the same 63.2 % defines an anemometer's distance
-/// constant in ASTM D5096, fact sheet wind §7, from memory). Samples arrive
+/// constant in ASTM D5096, from memory). Samples arrive
 /// at irregular intervals; the filter must still give exactly 63.2 % at τ.
 #[test]
 fn lowpass_step_reaches_63_percent_after_one_tau() {
@@ -194,7 +195,8 @@ fn lowpass_step_reaches_63_percent_after_one_tau() {
 }
 
 /// Level capture: with the sensor mounted 8.13° off (reading (0.1, 0.1,
-/// 0.98995) g while the rig is level, a fact-sheet check vector), the
+/// 0.98995) g while the rig is level, a check vector worked by hand with
+/// AN-1057 eq. 13), the
 /// relative tilt is 0; when the rig then tilts, the relative tilt is the
 /// angle between the new reading and the reference (the rotation between two
 /// gravity readings: geometry, computed here in f64). A 30° rotation about
@@ -242,7 +244,8 @@ fn level_capture_removes_mounting_error() {
     );
 }
 
-/// Magnitude gate (fact sheet §6: reject samples with |a| far from 1 g, C):
+/// Magnitude gate (AN-1057's assumption that only gravity acts: reject
+/// samples with |a| far from 1 g; checked):
 /// a 1.5 g shock sample leaves the tilt untouched; a sensor that stays out of
 /// the 0.8–1.2 g band for more than 5 s raises MagnitudeOutOfBand.
 #[test]
@@ -384,8 +387,9 @@ fn three_second_gust_of_stepped_series_4hz() {
     assert_eq!(r.basis, GustBasis::Measured);
 }
 
-/// 3-s gust from a 1 Hz logger (fact sheet wind §7: "1 Hz samples → 3-s
-/// running mean → max over 10 min", S): a window holds 3 samples. Series
+/// 3-s gust from a 1 Hz logger (WMO-No. 8, Part I, ch. 5, §5.8.2: the gust
+/// is the largest 3-s running mean; with 1 Hz samples a window holds 3;
+/// checked through a secondary quote): a window holds 3 samples. Series
 /// 10 m/s with one 16 m/s sample: gust = (16 + 10 + 10)/3 = 12 m/s by hand.
 #[test]
 fn three_second_gust_of_stepped_series_1hz() {
@@ -503,7 +507,7 @@ fn calm_and_variable_direction() {
 /// Logarithmic profile of EN 1991-1-4 eq. 4.4 (v_m ∝ c_r(z) = k_r·ln(z/z0),
 /// k_r = 0.19·(z0/0.05)^0.07, eq. 4.5, for z ≥ z_min), with z0 and z_min of
 /// Table 4.1: cat 0 0.003/1, I 0.01/1, II 0.05/2, III 0.3/5, IV 1.0/10 m
-/// (values via the wind fact sheet §1, C). Expected ratios are computed here
+/// (checked against reproductions of the standard's table). Expected ratios are computed here
 /// in f64 from c_r(z2)/c_r(z1), independently of the crate.
 #[test]
 fn log_profile_matches_en_1991_1_4() {
@@ -566,10 +570,11 @@ fn log_profile_matches_en_1991_1_4() {
     );
 }
 
-/// Gust from a mean-only source (fact sheet wind §3 design convention: 1.45
-/// open, 1.7 suburban). Independent check of the open value against the
+/// Gust from a mean-only source (our design convention, common practice, no
+/// single source: 1.45 open, resting on Durst 1960, ESDU and EN 1991-1-4;
+/// 1.7 suburban, resting on EN 1991-1-4's √(1 + 7·I_v) for category III). Independent check of the open value against the
 /// Durst (1960) curve V_t/V_3600 = 0.977 + 0.64/(1 + (t/38.14)^0.685) (as fitted
-/// in the ASCE 7 commentary, fact sheet §3, C): V_3/V_600 ≈ 1.43, within 2 %
+/// in the ASCE 7 commentary, Fig. C26.5-1; checked): V_3/V_600 ≈ 1.43, within 2 %
 /// of 1.45 (ESDU's value).
 #[test]
 fn mean_only_source_uses_terrain_gust_factor() {

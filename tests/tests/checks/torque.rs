@@ -1,13 +1,12 @@
 //! Axis torque, inertia, drive utilisation, balance, sky scan, payload
 //! envelope and park pose, against statics and dynamics references.
 //!
-//! Reference values marked "fact sheet §8" come from the project's reference
-//! sheet on drive torque (hardware-tilt-drive.md, §8), flagged D there:
-//! derived from the standard vector cross product τ = (r × W)·â in the
-//! equatorial frame, and checked numerically by its authors. They are not
-//! from a published table; the formula behind them is standard statics
-//! (moment of a force about an axis: Beer & Johnston, *Vector Mechanics for
-//! Engineers: Statics*, ch. 3).
+//! Gravity torques about the mount's axes are derived from the vector
+//! moment of a force about an axis, τ = (r × W)·â, in the equatorial frame
+//! (Beer & Johnston, *Vector Mechanics for Engineers: Statics*, ch. 3,
+//! chapter number from memory), with the pointing vectors of spherical
+//! astronomy (Smart, *Textbook on Spherical Astronomy*; Meeus, *Astronomical
+//! Algorithms*; from memory). They are not from a published table.
 
 use approx::{assert_abs_diff_eq, assert_relative_eq};
 use standfast::air::Air;
@@ -69,6 +68,7 @@ fn tube(mass_kg: f32, cg_m: [f32; 3], model: MassModel) -> BodySpec {
             },
             centre_m: cg_m,
             drag_coefficient: None,
+            end_drag_coefficient: None,
         }),
         mass_model: model,
         under_cover: true,
@@ -82,6 +82,7 @@ fn disc(mass_kg: f32, distance_m: f32) -> CounterweightSpec {
         distance_m,
         diameter_m: 0.1,
         thickness_m: 0.05,
+        drag_coefficient: None,
     }
 }
 
@@ -151,7 +152,7 @@ fn sweep() -> impl Iterator<Item = Pose> {
 /// secondary axis pointing east) a mass m at a along the secondary axis loads
 /// the polar axis with the full moment m·g·cos φ·a; with the shaft hanging
 /// (home pose) the moment is zero. Statics of a moment about an inclined axis
-/// (Beer & Johnston, *Statics*, ch. 3); formula in fact sheet §8 (D).
+/// (Beer & Johnston, *Statics*, ch. 3; derived).
 #[test]
 fn point_mass_classic_poses() {
     for lat in [30.0_f32, 45.0, 60.0] {
@@ -169,7 +170,7 @@ fn point_mass_classic_poses() {
         let hanging = rig.mount().home_pose();
         assert_abs_diff_eq!(gravity(&rig, hanging)[0], 0.0, epsilon = 1e-5);
         // A counterweight of 5 kg at 0.4 m on the other side turns the other
-        // way: −M·g·cos φ·L (fact sheet §8).
+        // way: −M·g·cos φ·L (the same statics, derived).
         let mut c = base(MountKind::Equatorial, lat);
         c.counterweights.push(disc(5.0, 0.4)).unwrap();
         let rig = Rig::new(&c).unwrap();
@@ -179,10 +180,10 @@ fn point_mass_classic_poses() {
     }
 }
 
-/// Fact sheet §8 τ_RA check table (flag D: derived from the standard vector
-/// cross product, not a published table): m, φ, H, δ, (a, b, c) → τ_RA.
+/// τ_RA check table, worked by hand from the vector moment about the polar
+/// axis (derived, not a published table): m, φ, H, δ, (a, b, c) → τ_RA.
 #[test]
-fn ra_torque_fact_sheet_table() {
+fn ra_torque_hand_worked_table() {
     let cases: [(f32, f32, f32, f32, [f32; 3], f32); 6] = [
         (10.0, 45.0, 0.0, 0.0, [0.2, 0.0, 0.0], 13.8687),
         (10.0, 45.0, 3.0, 30.0, [0.2, 0.0, 0.0], 9.8067),
@@ -200,7 +201,7 @@ fn ra_torque_fact_sheet_table() {
     }
 }
 
-/// Fact sheet §8 closed forms (D), evaluated independently of the model over
+/// Closed forms derived from the same statics, evaluated independently of the model over
 /// a sweep of poses: τ_RA = m·g·cos φ·(a cos H − b cos δ sin H + c sin δ sin H)
 /// and τ_Dec = m·g·[b(sin φ cos δ − cos φ sin δ cos H)
 /// − c(sin φ sin δ + cos φ cos δ cos H)]; and the single check
@@ -240,7 +241,7 @@ fn dec_torque_and_closed_forms() {
 /// 0.72917 kg·m². Formulas: table of mass moments of inertia of common
 /// homogeneous solids and the parallel-axis theorem, Meriam & Kraige,
 /// *Engineering Mechanics: Dynamics*, Appendix B and Table D/4 (section
-/// numbers from memory); numbers as in fact sheet §8 (C).
+/// numbers from memory); the numbers worked by hand here.
 #[test]
 fn parallel_axis_textbook_cylinder() {
     let [axial, transverse] = solid_cylinder_inertia_kg_m2(5.0, 0.1, 0.8);
@@ -263,14 +264,16 @@ fn parallel_axis_textbook_cylinder() {
         },
         centre_m: [0.0, 0.3, 0.0],
         drag_coefficient: None,
+        end_drag_coefficient: None,
     });
     s.bodies.push(body).unwrap();
     let rig = Rig::new(&s).unwrap();
     for pose in sweep() {
         assert_relative_eq!(inertia(&rig, pose)[1], 0.729_17, max_relative = 2e-5);
     }
-    // Thin-walled tube, transverse: m(6R² + L²)/12 = 0.29167 kg·m² (fact
-    // sheet §8, D).
+    // Thin-walled tube, transverse: m(6R² + L²)/12 = 0.29167 kg·m² (the
+    // thin-wall limit r → R of the thick tube's m(3(R² + r²) + L²)/12,
+    // Meriam & Kraige App. B; derived).
     assert_relative_eq!(
         thin_tube_inertia_kg_m2(5.0, 0.1, 0.8)[1],
         0.291_67,
@@ -278,14 +281,16 @@ fn parallel_axis_textbook_cylinder() {
     );
 }
 
-/// Fact sheet §8 inertia examples (D, checked there by Monte Carlo): the
+/// Inertia examples worked by hand (parallel-axis theorem and the rotation
+/// of the tube's principal inertias, Meriam & Kraige, *Dynamics*, App. B;
+/// derived): the
 /// solid cylinder above at δ = 30°, a = 0.25 m, b = 0.05 m has
 /// I_RA = I_a sin²δ + I_t cos²δ + m[a² + (b cos δ)²] = 0.5375 kg·m² and
 /// I_Dec = I_t + m·b² = 0.29167 kg·m²; a 5 kg counterweight disc
 /// (R = 0.05 m, h = 0.05 m) at L = 0.3 m has I_RA = m(3R² + h²)/12 + mL² =
 /// 0.45417 kg·m².
 #[test]
-fn inertia_fact_sheet_examples() {
+fn inertia_hand_worked_examples() {
     let mut s = base(MountKind::Equatorial, 40.0);
     s.bodies
         .push(tube(5.0, [0.25, 0.05, 0.0], MassModel::Solid))
@@ -327,6 +332,7 @@ fn body_on_the_axis_exerts_no_torque() {
             },
             centre_m: [0.0, 0.0, -0.2],
             drag_coefficient: None,
+            end_drag_coefficient: None,
         });
         s.bodies.push(on_k).unwrap();
         let rig = Rig::new(&s).unwrap();
@@ -371,6 +377,7 @@ fn wind_torque_and_utilisation_by_hand() {
         },
         centre_m: [0.0, 0.3, 0.0],
         drag_coefficient: Some(1.0),
+        end_drag_coefficient: None,
     });
     s.bodies.push(t).unwrap();
     s.drives = Some(Drives {
@@ -426,7 +433,8 @@ fn wind_torque_and_utilisation_by_hand() {
     assert!(rig.axis_loads(&c, 11.0).is_err());
 }
 
-/// Balance: Σ m·a = Σ M_cw·L (fact sheet §8) sets the counterweight shift;
+/// Balance: Σ m·a = Σ M_cw·L (moment balance about the polar axis, Beer &
+/// Johnston ch. 3; derived) sets the counterweight shift;
 /// property: after balancing both axes the gravity torque vanishes at every
 /// pose, on both axes.
 #[test]
@@ -514,7 +522,7 @@ fn sky_scan_maximum_bounds_every_sample() {
 
 /// Payload envelope by hand. A point payload at a = 0.25 m on the secondary
 /// axis of a mount at φ = 40°: the polar-axis gravity torque peaks at
-/// m·g·cos φ·a (shaft horizontal, fact sheet §8) and the inertia about the
+/// m·g·cos φ·a (shaft horizontal; the statics above, derived) and the inertia about the
 /// polar axis is m·a². Without counterweights the heaviest payload is
 /// min(T_rated / (g cos φ a), T_rep / (g cos φ a + a² α)). With a 5 kg
 /// counterweight at 0.3 m (α = 0, so only the rated torque binds)
@@ -551,6 +559,7 @@ fn payload_envelope_by_hand() {
             distance_m: 0.3,
             diameter_m: 0.01,
             thickness_m: 0.002,
+            drag_coefficient: None,
         })
         .unwrap();
     c.drives = Some(drives(rated, 0.0));

@@ -1,0 +1,691 @@
+//! `standfast weigh`: the centre of gravity of a whole rig from scale
+//! readings under its feet (level, lifted on one side, tilted until a foot
+//! unloads), computed by the core (`standfast::weighing`), compared with the
+//! centre the rig file's bodies imply, and optionally written into a copy of
+//! the rig file as a `[measured]` section that the other commands use.
+//!
+//! # The weighing file
+//! ```toml
+//! resolution = "0.05 kg"          # scale resolution (reading uncertainty = resolution / √12)
+//! # reading_uncertainty = "0.1 kg" # or the standard uncertainty of one reading, if larger
+//! level = ["8.61 kg", "8.72 kg", "8.55 kg"]  # one per foot, in the rig file's foot order
+//!
+//! [lift]                          # optional: one side raised, every foot still on a scale
+//! feet = [0]                      # the raised feet (0-based, rig file order)
+//! height = "60 mm"                # how far they were raised
+//! height_uncertainty = "1 mm"     # default: 1 mm
+//! # or: toward = "0 deg"; angle = "8 deg"; angle_uncertainty = "0.2 deg" (inclinometer)
+//! readings = ["7.90 kg", "9.05 kg", "8.93 kg"]
+//!
+//! [tip]                           # optional: tilted about an edge until the other feet unload
+//! edge = [1, 2]                   # the two feet of the edge
+//! angle = "31 deg"
+//! angle_uncertainty = "0.5 deg"   # default: 0.5 deg
+//! ```
+//! Readings accept any mass unit (`"18.2 lb"`); a plain number is kg.
+
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+use serde::{Deserialize, Serialize};
+use standfast::math::STANDARD_GRAVITY_MPS2;
+use standfast::weighing::{self, LiftGeometry, MeasuredCentre, TipTest, Weighing};
+use toml::Spanned;
+
+use crate::error::Error;
+use crate::located::{fmt_g, InputError, SourceText};
+use crate::rigfile::LoadedRig;
+use crate::units::{Length, Mass};
+
+type S<T> = Spanned<T>;
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct WeighingFile {
+    resolution: Option<S<Mass>>,
+    reading_uncertainty: Option<S<Mass>>,
+    level: S<Vec<Mass>>,
+    lift: Option<S<LiftSec>>,
+    tip: Option<S<TipSec>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct LiftSec {
+    feet: Option<S<Vec<i64>>>,
+    height: Option<S<Length>>,
+    height_uncertainty: Option<S<Length>>,
+    toward: Option<S<crate::rigfile::Degrees>>,
+    angle: Option<S<crate::rigfile::Degrees>>,
+    angle_uncertainty: Option<S<crate::rigfile::Degrees>>,
+    readings: S<Vec<Mass>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct TipSec {
+    edge: S<[i64; 2]>,
+    angle: S<crate::rigfile::Degrees>,
+    angle_uncertainty: Option<S<crate::rigfile::Degrees>>,
+}
+
+/// Default standard uncertainty of a lift height, metres (1 mm).
+pub const DEFAULT_HEIGHT_UNCERTAINTY_M: f32 = 0.001;
+/// Default standard uncertainty of an inclinometer or tip angle, degrees.
+pub const DEFAULT_ANGLE_UNCERTAINTY_DEG: f32 = 0.5;
+
+/// What `weigh` reports.
+#[derive(Clone, Debug, Serialize)]
+pub struct WeighReport {
+    /// The rig file.
+    pub rig_file: String,
+    /// The weighing file.
+    pub weighing_file: String,
+    /// Standard uncertainty of one reading used, N.
+    pub reading_uncertainty_n: f32,
+    /// The core's result (masses kg, lengths m, angles rad).
+    pub result: MeasuredCentre,
+    /// Centre of gravity the rig file's bodies imply, home pose, level, cover
+    /// off, rig frame, m.
+    pub modelled_centre_m: [f32; 3],
+    /// Mass the bodies imply, kg.
+    pub modelled_mass_kg: f32,
+    /// Weighed minus modelled centre (height only when measured), m.
+    pub difference_m: [Option<f32>; 3],
+    /// Rig file written with the `[measured]` section, if asked.
+    pub written: Option<String>,
+    /// The cautions.
+    pub cautions: Vec<&'static str>,
+}
+
+#[allow(clippy::cast_possible_truncation)]
+fn f(x: f64) -> f32 {
+    x as f32
+}
+
+fn feet_mask(
+    src: &SourceText,
+    key: &str,
+    list: &S<Vec<i64>>,
+    n_feet: usize,
+) -> Result<u8, InputError> {
+    let mut mask = 0_u8;
+    for &i in list.get_ref() {
+        let ok = usize::try_from(i).ok().filter(|&k| k < n_feet);
+        let Some(k) = ok else {
+            return Err(src.checker().error(
+                key,
+                list.span(),
+                format!(
+                    "foot {i} does not exist (accepted: 0 to {}, the rig file's foot order)",
+                    n_feet.saturating_sub(1)
+                ),
+            ));
+        };
+        mask |= 1_u8 << k;
+    }
+    Ok(mask)
+}
+
+fn newtons(list: &[Mass]) -> Vec<f32> {
+    list.iter()
+        .map(|m| f(m.kg()) * STANDARD_GRAVITY_MPS2)
+        .collect()
+}
+
+/// Reads a weighing file and computes the centre of gravity.
+///
+/// # Errors
+/// [`InputError`] naming the file, key and accepted range.
+#[allow(clippy::too_many_lines)]
+pub fn measure(rig: &LoadedRig, src: &SourceText) -> Result<WeighReport, InputError> {
+    let file: WeighingFile = src.parse_toml()?;
+    let ck = src.checker();
+    let support = rig.rig.support();
+    let n_feet = support.feet().len();
+    let u_n = match (&file.reading_uncertainty, &file.resolution) {
+        (Some(u), _) => {
+            f(ck.range(
+                "reading_uncertainty",
+                u,
+                Mass::from_kg(1e-6),
+                Mass::from_kg(1e3),
+                "kg",
+            )?
+            .kg())
+                * STANDARD_GRAVITY_MPS2
+        }
+        (None, Some(r)) => {
+            // GUM §4.3.7: a rectangular error of half-width r/2 has standard
+            // uncertainty r/√12.
+            f(ck.range(
+                "resolution",
+                r,
+                Mass::from_kg(1e-6),
+                Mass::from_kg(1e3),
+                "kg",
+            )?
+            .kg())
+                * STANDARD_GRAVITY_MPS2
+                / 12f32.sqrt()
+        }
+        (None, None) => {
+            return Err(InputError {
+                at: Some(src.location(0)),
+                key: Some("resolution".into()),
+                value: None,
+                problem: "give the scales' `resolution` (or `reading_uncertainty`)".into(),
+            })
+        }
+    };
+    let count = |key: &str, v: &S<Vec<Mass>>| {
+        if v.get_ref().len() == n_feet {
+            Ok(())
+        } else {
+            Err(ck.error(
+                key,
+                v.span(),
+                format!(
+                    "{} readings for a rig with {n_feet} feet (accepted: one per foot, in the rig file's foot order)",
+                    v.get_ref().len()
+                ),
+            ))
+        }
+    };
+    count("level", &file.level)?;
+    let level = newtons(file.level.get_ref());
+    let lift_readings;
+    let lift = match &file.lift {
+        None => None,
+        Some(l) => {
+            let g = l.get_ref();
+            count("lift.readings", &g.readings)?;
+            lift_readings = newtons(g.readings.get_ref());
+            let geometry = match (&g.feet, &g.height, &g.toward, &g.angle) {
+                (Some(feet), Some(h), None, None) => LiftGeometry::Feet {
+                    lifted_mask: feet_mask(src, "lift.feet", feet, n_feet)?,
+                    height_m: f(h.get_ref().m()),
+                    height_uncertainty_m: g
+                        .height_uncertainty
+                        .as_ref()
+                        .map_or(DEFAULT_HEIGHT_UNCERTAINTY_M, |u| f(u.get_ref().m())),
+                },
+                (None, None, Some(t), Some(a)) => LiftGeometry::Angle {
+                    raised_toward_rad: f(t.get_ref().0),
+                    angle_rad: f(a.get_ref().0),
+                    angle_uncertainty_rad: g
+                        .angle_uncertainty
+                        .as_ref()
+                        .map_or(DEFAULT_ANGLE_UNCERTAINTY_DEG.to_radians(), |u| {
+                            f(u.get_ref().0)
+                        }),
+                },
+                _ => {
+                    return Err(ck.error(
+                        "lift",
+                        l.span(),
+                        "give either `feet` and `height` (feet raised by a measured height) \
+                         or `toward` and `angle` (an inclinometer reading), not a mix",
+                    ))
+                }
+            };
+            Some(weighing::Lift {
+                geometry,
+                loads_n: &lift_readings,
+            })
+        }
+    };
+    let tip = match &file.tip {
+        None => None,
+        Some(t) => {
+            let g = t.get_ref();
+            let [a, b] = *g.edge.get_ref();
+            let idx = |i: i64| {
+                u8::try_from(i)
+                    .ok()
+                    .filter(|&k| usize::from(k) < n_feet)
+                    .ok_or_else(|| {
+                        ck.error(
+                            "tip.edge",
+                            g.edge.span(),
+                            format!(
+                                "foot {i} does not exist (accepted: 0 to {})",
+                                n_feet.saturating_sub(1)
+                            ),
+                        )
+                    })
+            };
+            Some(TipTest {
+                edge_feet: [idx(a)?, idx(b)?],
+                angle_rad: f(g.angle.get_ref().0),
+                angle_uncertainty_rad: g
+                    .angle_uncertainty
+                    .as_ref()
+                    .map_or(DEFAULT_ANGLE_UNCERTAINTY_DEG.to_radians(), |u| {
+                        f(u.get_ref().0)
+                    }),
+            })
+        }
+    };
+    let w = Weighing {
+        level_n: &level,
+        reading_uncertainty_n: u_n,
+        lift,
+        tip,
+    };
+    let mut spans: KeySpans = vec![("level", file.level.span())];
+    if let Some(l) = &file.lift {
+        let g = l.get_ref();
+        spans.push(("lift.readings", g.readings.span()));
+        if let Some(v) = &g.feet {
+            spans.push(("lift.feet", v.span()));
+        }
+        if let Some(v) = &g.height {
+            spans.push(("lift.height", v.span()));
+        }
+        if let Some(v) = &g.height_uncertainty {
+            spans.push(("lift.height_uncertainty", v.span()));
+        }
+        if let Some(v) = &g.angle {
+            spans.push(("lift.angle", v.span()));
+        }
+        if let Some(v) = &g.angle_uncertainty {
+            spans.push(("lift.angle_uncertainty", v.span()));
+        }
+    }
+    if let Some(t) = &file.tip {
+        let g = t.get_ref();
+        spans.push(("tip.edge", g.edge.span()));
+        spans.push(("tip.angle", g.angle.span()));
+        if let Some(v) = &g.angle_uncertainty {
+            spans.push(("tip.angle_uncertainty", v.span()));
+        }
+    }
+    let result =
+        weighing::centre_from_weighing(support, &w).map_err(|e| core_err(src, &e, &spans))?;
+    let placement = rig
+        .rig
+        .place(rig.rig.mount().home_pose(), standfast::Tilt::LEVEL, false)
+        .map_err(|e| core_err(src, &e, &spans))?;
+    let modelled = placement.centre_of_gravity_m();
+    let measured_h = result.height_m.map(|h| h.value);
+    Ok(WeighReport {
+        rig_file: rig.file.clone(),
+        weighing_file: src.name().to_owned(),
+        reading_uncertainty_n: u_n,
+        result,
+        modelled_centre_m: modelled.to_array(),
+        modelled_mass_kg: placement.mass_kg(),
+        difference_m: [
+            Some(result.x_m.value - modelled.x),
+            Some(result.y_m.value - modelled.y),
+            measured_h.map(|h| h - modelled.z),
+        ],
+        written: None,
+        cautions: crate::assess::CAUTIONS.to_vec(),
+    })
+}
+
+/// Where each weighing key is in the file, for the core's errors.
+type KeySpans = Vec<(&'static str, std::ops::Range<usize>)>;
+
+fn core_err(src: &SourceText, e: &standfast::Error, spans: &KeySpans) -> InputError {
+    use standfast::ErrorKind::{Inconsistent, OutOfRange, TooFew};
+    let key = match e.field {
+        "weighing.level_n" => "level",
+        "weighing.lift.loads_n" => "lift.readings",
+        "weighing.lift.height_m" => "lift.height",
+        "weighing.lift.height_uncertainty_m" => "lift.height_uncertainty",
+        "weighing.lift.angle_rad" => "lift.angle",
+        "weighing.lift.angle_uncertainty_rad" => "lift.angle_uncertainty",
+        "weighing.lift.lifted_mask"
+        | "weighing.lift.lifted_feet"
+        | "weighing.lift.resting_feet" => "lift.feet",
+        "weighing.tip.angle_rad" => "tip.angle",
+        "weighing.tip.angle_uncertainty_rad" => "tip.angle_uncertainty",
+        "weighing.tip.edge_feet" => "tip.edge",
+        other => other,
+    };
+    let kg = |n: f32| fmt_g(f64::from(n / STANDARD_GRAVITY_MPS2));
+    let mm = |m: f32| fmt_g((f64::from(m) * 1e4).round() / 10.0);
+    let deg = |r: f32| fmt_g((f64::from(r.to_degrees()) * 1e3).round() / 1e3);
+    let problem = match (e.kind, e.field) {
+        (Inconsistent, "weighing.lift.resting_feet") => {
+            "the feet left resting do not lie on one line, so the rig cannot turn about them: \
+             raise one whole side"
+                .to_owned()
+        }
+        (TooFew, "weighing.lift.resting_feet") | (OutOfRange, "weighing.lift.lifted_mask") => {
+            "raise one side: at least one foot raised and at least two left resting on one line"
+                .to_owned()
+        }
+        (Inconsistent, "weighing.lift.lifted_feet") => {
+            "the raised feet are not all the same distance from the resting line (so they \
+             cannot all be raised by the same height)"
+                .to_owned()
+        }
+        (Inconsistent, "weighing.tip.edge_feet") => {
+            "these two feet do not form an edge of the footprint".to_owned()
+        }
+        (
+            OutOfRange,
+            "weighing.lift.angle_rad"
+            | "weighing.tip.angle_rad"
+            | "weighing.lift.angle_uncertainty_rad"
+            | "weighing.tip.angle_uncertainty_rad",
+        ) => format!(
+            "the angle {} deg is outside the accepted range {} to {} deg",
+            deg(e.value),
+            deg(e.min),
+            deg(e.max)
+        ),
+        (OutOfRange, "weighing.lift.height_m" | "weighing.lift.height_uncertainty_m") => {
+            format!(
+                "{} mm is outside the accepted range {} to {} mm (a lift of at most 45°)",
+                mm(e.value),
+                mm(e.min),
+                mm(e.max)
+            )
+        }
+        (OutOfRange, "weighing.level_n" | "weighing.lift.loads_n") => match e.index {
+            Some(i) if e.value > e.max => format!(
+                "reading {i} is {} kg, above the largest accepted reading {} kg",
+                kg(e.value),
+                kg(e.max)
+            ),
+            Some(i) => format!(
+                "reading {i} is {} kg: a reading below zero by more than three times the \
+                 reading uncertainty ({} kg) cannot be right",
+                kg(e.value),
+                kg(-e.min)
+            ),
+            None => format!(
+                "the readings add up to {} kg, less than ten times the reading uncertainty",
+                kg(e.value)
+            ),
+        },
+        _ => e.to_string(),
+    };
+    match spans.iter().find(|(k, _)| *k == key) {
+        Some((k, span)) => src.checker().error(k, span.clone(), problem),
+        None => InputError {
+            at: Some(src.location(0)),
+            key: Some(key.to_owned()),
+            value: None,
+            problem: format!("{}: {problem}", src.name()),
+        },
+    }
+}
+
+/// `x` to four decimals, without the sign of a value that rounds to zero.
+fn fmt4(x: f32) -> String {
+    let s = format!("{x:.4}");
+    if s.trim_start_matches('-')
+        .chars()
+        .all(|c| c == '0' || c == '.')
+    {
+        s.trim_start_matches('-').to_owned()
+    } else {
+        s
+    }
+}
+
+fn est(e: weighing::Estimate, unit: &str, k: f32) -> String {
+    format!("{} ± {:.4} {unit}", fmt4(e.value * k), e.uncertainty * k)
+}
+
+/// Writes the report as text.
+///
+/// # Errors
+/// I/O errors of `out`.
+pub fn write_text(r: &WeighReport, out: &mut dyn Write) -> std::io::Result<()> {
+    let m = &r.result;
+    writeln!(
+        out,
+        "Centre of gravity of {} from the weighing {}",
+        r.rig_file, r.weighing_file
+    )?;
+    writeln!(
+        out,
+        "  (± one standard uncertainty; each reading ± {:.3} kg)",
+        r.reading_uncertainty_n / STANDARD_GRAVITY_MPS2
+    )?;
+    writeln!(out, "  mass      {}", est(m.mass_kg, "kg", 1.0))?;
+    writeln!(out, "  x (east)  {}", est(m.x_m, "m", 1.0))?;
+    writeln!(out, "  y (north) {}", est(m.y_m, "m", 1.0))?;
+    if let Some(h) = m.height_from_lift_m {
+        writeln!(
+            out,
+            "  height from the lift ({:.1}°): {}",
+            m.lift_angle_rad.unwrap_or(0.0).to_degrees(),
+            est(h, "m", 1.0)
+        )?;
+    }
+    if let Some(h) = m.height_from_tip_m {
+        writeln!(out, "  height from the tip test: {}", est(h, "m", 1.0))?;
+    }
+    match m.height_m {
+        Some(h) => writeln!(out, "  height    {}", est(h, "m", 1.0))?,
+        None => writeln!(
+            out,
+            "  height    not measured (add a [lift] or [tip] section)"
+        )?,
+    }
+    // Values that round to zero print without a sign.
+    let z = |x: f32| if x.abs() < 5e-4 { 0.0 } else { x };
+    let [mx, my, mz] = r.modelled_centre_m.map(z);
+    writeln!(
+        out,
+        "\nThe rig file's bodies imply {:.2} kg at x {mx:.3} m, y {my:.3} m, z {mz:.3} m (home pose, level, cover off)",
+        r.modelled_mass_kg
+    )?;
+    let d = |v: Option<f32>| v.map_or_else(|| "-".to_owned(), |x| format!("{:+.3} m", z(x)));
+    writeln!(
+        out,
+        "  weighed minus modelled: mass {:+.2} kg, x {}, y {}, z {}",
+        m.mass_kg.value - r.modelled_mass_kg,
+        d(r.difference_m[0]),
+        d(r.difference_m[1]),
+        d(r.difference_m[2])
+    )?;
+    let c = &m.checks;
+    writeln!(
+        out,
+        "\nConsistency checks (tolerance: three standard uncertainties):"
+    )?;
+    if let Some(x) = c.lift_total_difference_n {
+        writeln!(
+            out,
+            "  lifted total minus level total {:+.3} kg (tolerance {:.3} kg): {}",
+            x / STANDARD_GRAVITY_MPS2,
+            c.lift_total_tolerance_n / STANDARD_GRAVITY_MPS2,
+            ok(x.abs() <= c.lift_total_tolerance_n)
+        )?;
+    }
+    if let Some(x) = c.lift_cross_shift_m {
+        writeln!(
+            out,
+            "  centre moved across the lift direction {:+.4} m (tolerance {:.4} m): {}",
+            x,
+            c.lift_cross_tolerance_m,
+            ok(x.abs() <= c.lift_cross_tolerance_m)
+        )?;
+    }
+    if let Some(x) = c.height_disagreement_m {
+        writeln!(
+            out,
+            "  lift height minus tip height {:+.3} m (tolerance {:.3} m): {}",
+            x,
+            c.height_disagreement_tolerance_m,
+            ok(x.abs() <= c.height_disagreement_tolerance_m)
+        )?;
+    }
+    if c.height_below_ground {
+        writeln!(out, "  the height lies below the ground: FAILED")?;
+    }
+    if c.small_lift_angle {
+        writeln!(
+            out,
+            "  the lift angle is under 5°: the height's uncertainty is large; lift further if you can"
+        )?;
+    }
+    writeln!(
+        out,
+        "  overall: {}",
+        if c.passed {
+            "the readings agree"
+        } else {
+            "the readings DISAGREE: weigh again (scales level and zeroed, nothing touching the rig)"
+        }
+    )?;
+    if let Some(w) = &r.written {
+        writeln!(out, "\nRig file with the [measured] section written to {w}")?;
+    }
+    writeln!(out, "\nCautions:")?;
+    for c in &r.cautions {
+        writeln!(out, "  - {c}")?;
+    }
+    Ok(())
+}
+
+fn ok(b: bool) -> &'static str {
+    if b {
+        "ok"
+    } else {
+        "FAILED"
+    }
+}
+
+/// The `[measured]` section for a weighed centre (home pose, cover off).
+///
+/// # Errors
+/// A result without a height (the section needs the full centre).
+pub fn measured_section(r: &WeighReport) -> Option<String> {
+    let m = &r.result;
+    let h = m.height_m?;
+    Some(format!(
+        "\n[measured]                      # written by `standfast weigh` from {}\n\
+         mass = \"{:.3} kg\"\n\
+         mass_uncertainty = \"{:.3} kg\"\n\
+         cg = [\"{} m\", \"{} m\", \"{} m\"]\n\
+         cg_uncertainty = [\"{:.4} m\", \"{:.4} m\", \"{:.4} m\"]\n\
+         cover_fitted = false\n",
+        r.weighing_file.replace(['"', '\n'], ""),
+        m.mass_kg.value,
+        m.mass_kg.uncertainty,
+        fmt4(m.x_m.value),
+        fmt4(m.y_m.value),
+        fmt4(h.value),
+        m.x_m.uncertainty,
+        m.y_m.uncertainty,
+        h.uncertainty
+    ))
+}
+
+/// Writes `text` to `path` atomically: a temporary file in the same folder,
+/// then a rename over the target.
+fn write_atomic(path: &Path, text: &str) -> Result<(), Error> {
+    let dir = path
+        .parent()
+        .filter(|d| !d.as_os_str().is_empty())
+        .unwrap_or_else(|| Path::new("."));
+    let name = path
+        .file_name()
+        .map_or_else(|| "rig".into(), |n| n.to_string_lossy().into_owned());
+    let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
+    let res = std::fs::write(&tmp, text).and_then(|()| std::fs::rename(&tmp, path));
+    if let Err(e) = res {
+        // The temporary file is ours; the target is untouched.
+        let _ = std::fs::remove_file(&tmp);
+        return Err(Error::io(path, e));
+    }
+    Ok(())
+}
+
+fn same_file(a: &Path, b: &Path) -> bool {
+    match (a.canonicalize(), b.canonicalize()) {
+        (Ok(x), Ok(y)) => x == y,
+        _ => false,
+    }
+}
+
+/// Arguments of `weigh`.
+#[derive(Debug, clap::Args)]
+pub struct WeighArgs {
+    /// The rig file (its feet, in order, are where the scales stood).
+    #[arg(value_name = "RIG.toml")]
+    pub rig: PathBuf,
+    /// The weighing file (see the README's weighing section).
+    #[arg(value_name = "WEIGHING.toml")]
+    pub weighing: PathBuf,
+    /// Print the report as JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+    /// Write a copy of the rig file with a `[measured]` section to this file
+    /// (never over the rig file itself; refused when a check fails or no
+    /// height was measured).
+    #[arg(long, value_name = "OUT.toml")]
+    pub write_rig: Option<PathBuf>,
+}
+
+/// Runs `standfast weigh`.
+///
+/// # Errors
+/// Unreadable or invalid files; a failed check or a missing height when
+/// asked to write; output that cannot be written.
+pub fn run(a: &WeighArgs, out: &mut dyn Write) -> Result<(), Error> {
+    let rig_src = SourceText::read(&a.rig)?;
+    let rig = crate::rigfile::load_source(&rig_src)?;
+    let src = SourceText::read(&a.weighing)?;
+    let mut rep = measure(&rig, &src)?;
+    if let Some(path) = &a.write_rig {
+        let refuse = |problem: String| {
+            Error::Input(InputError {
+                at: None,
+                key: Some("--write-rig".into()),
+                value: Some(path.display().to_string()),
+                problem,
+            })
+        };
+        if same_file(path, &a.rig) || same_file(path, &a.weighing) {
+            return Err(refuse(
+                "the output would replace an input file; name another file".into(),
+            ));
+        }
+        if rig.measured.is_some() {
+            return Err(refuse(format!(
+                "{} already has a [measured] section; remove it and weigh against the bodies",
+                rig.file
+            )));
+        }
+        if !rep.result.checks.passed {
+            return Err(refuse(
+                "the readings failed a consistency check (run without --write-rig to see \
+                 which); nothing written"
+                    .into(),
+            ));
+        }
+        let Some(section) = measured_section(&rep) else {
+            return Err(refuse(
+                "no height was measured (add a [lift] or [tip] section); nothing written".into(),
+            ));
+        };
+        let mut text = rig_src.text().to_owned();
+        if !text.ends_with('\n') {
+            text.push('\n');
+        }
+        text.push_str(&section);
+        // The written file must load: the same checks as any rig file.
+        crate::rigfile::load_source(&SourceText::new(path.display().to_string(), text.clone()))?;
+        write_atomic(path, &text)?;
+        rep.written = Some(path.display().to_string());
+    }
+    let res = if a.json {
+        serde_json::to_writer_pretty(&mut *out, &rep)
+            .map_err(std::io::Error::other)
+            .and_then(|()| writeln!(out))
+    } else {
+        write_text(&rep, out)
+    };
+    res.map_err(|e| Error::io("<standard output>", e))
+}
