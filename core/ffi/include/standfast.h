@@ -637,6 +637,12 @@ typedef struct SfAssessment {
 #define SF_ERR_NO_MEMORY 19
 
 /**
+ * Measurements that contradict each other (`ErrorKind::Inconsistent`, from
+ * the core's weighing).
+ */
+#define SF_ERR_INCONSISTENT 20
+
+/**
  * All figures comfortably inside their limits.
  */
 #define SF_STAGE_CLEAR 0

@@ -57,6 +57,9 @@ pub const SF_ERR_ZERO_DIRECTION: SfStatus = 17;
 pub const SF_ERR_UNREACHABLE: SfStatus = 18;
 /// The heap allocation of `sf_guard_new` failed.
 pub const SF_ERR_NO_MEMORY: SfStatus = 19;
+/// Measurements that contradict each other (`ErrorKind::Inconsistent`, from
+/// the core's weighing).
+pub const SF_ERR_INCONSISTENT: SfStatus = 20;
 
 /// The guard's stage (`standfast::guard::Stage`), in rising severity.
 pub type SfStage = u32;
@@ -319,6 +322,7 @@ pub const fn error_code(k: ErrorKind) -> SfStatus {
         ErrorKind::TooFew => SF_ERR_TOO_FEW,
         ErrorKind::ZeroDirection => SF_ERR_ZERO_DIRECTION,
         ErrorKind::Unreachable => SF_ERR_UNREACHABLE,
+        ErrorKind::Inconsistent => SF_ERR_INCONSISTENT,
     }
 }
 
@@ -381,7 +385,7 @@ pub(crate) const CHECK_NAMES: [&CStr; 7] = [
 pub(crate) const EVENT_KIND_NAMES: [&CStr; 3] =
     [c"stage_changed", c"fault_raised", c"new_high_utilisation"];
 /// Names of [`SfStatus`] codes, by value.
-pub(crate) const STATUS_NAMES: [&CStr; 20] = [
+pub(crate) const STATUS_NAMES: [&CStr; 21] = [
     c"ok",
     c"null_pointer",
     c"misaligned",
@@ -402,6 +406,7 @@ pub(crate) const STATUS_NAMES: [&CStr; 20] = [
     c"zero_direction",
     c"unreachable",
     c"no_memory",
+    c"inconsistent",
 ];
 
 /// The name of `code` in `table`, or [`UNKNOWN`].
@@ -514,6 +519,7 @@ mod tests {
         }
         assert_eq!(CAUSE_NAMES.len(), causes.len());
         assert_eq!(s(name_in(&STATUS_NAMES, SF_ERR_NO_MEMORY)), "no_memory");
+        assert_eq!(s(name_in(&STATUS_NAMES, SF_ERR_INCONSISTENT)), "inconsistent");
         assert_eq!(s(name_in(&STAGE_NAMES, 99)), "unknown");
     }
 }
