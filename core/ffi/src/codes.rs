@@ -519,7 +519,10 @@ mod tests {
         }
         assert_eq!(CAUSE_NAMES.len(), causes.len());
         assert_eq!(s(name_in(&STATUS_NAMES, SF_ERR_NO_MEMORY)), "no_memory");
-        assert_eq!(s(name_in(&STATUS_NAMES, SF_ERR_INCONSISTENT)), "inconsistent");
+        assert_eq!(
+            s(name_in(&STATUS_NAMES, SF_ERR_INCONSISTENT)),
+            "inconsistent"
+        );
         assert_eq!(s(name_in(&STAGE_NAMES, 99)), "unknown");
     }
 }
