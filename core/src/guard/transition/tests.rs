@@ -457,3 +457,113 @@ fn a_fault_does_not_release_a_park_or_an_alarm() {
     }
     assert_eq!(seen[..], [(61, P, C::FaultCleared), (601, Cl, C::Settled)]);
 }
+
+/// The outputs of each level: park from `park_now` up, the alarm from
+/// `alarm` up.
+#[test]
+fn outputs_of_each_level() {
+    let park = Stage::ALL.map(Stage::park_requested);
+    let alarm = Stage::ALL.map(Stage::alarm);
+    assert_eq!(park, [false, false, true, true, true]);
+    assert_eq!(alarm, [false, false, false, true, true]);
+}
+
+/// Every figure in the band of a level, or exactly at its settle bound
+/// (`clear_ratio` × the threshold, computed as the decision computes it),
+/// holds that level however long it lasts, though the wanted level is
+/// lower. Written out by hand from the table's "settled below it when"
+/// column; each figure and each level separately.
+#[test]
+fn a_figure_in_a_band_or_at_its_bound_holds_its_level() {
+    let t = t();
+    let r = t.clear_ratio;
+    type Set = fn(&mut Figures, &Thresholds, f32);
+    let cases: [(&str, Set, Stage); 13] = [
+        ("sliding in the watch band", |f, _, _| f.sliding = 0.45, W),
+        (
+            "drift in the watch band",
+            |f, _, _| f.drift_rad_per_s = 2.0e-6,
+            W,
+        ),
+        (
+            "predicted at the watch bound",
+            |f, t, r| f.predicted = r * t.watch_utilisation,
+            W,
+        ),
+        (
+            "sliding at the watch bound",
+            |f, t, r| f.sliding = r * t.watch_utilisation,
+            W,
+        ),
+        (
+            "drift at the watch bound",
+            |f, t, r| f.drift_rad_per_s = r * t.drift_watch_rad_per_s,
+            W,
+        ),
+        ("predicted in the park band", |f, _, _| f.predicted = 0.7, P),
+        (
+            "predicted at the park bound",
+            |f, t, r| f.predicted = r * t.park_utilisation,
+            P,
+        ),
+        (
+            "drive at the park bound",
+            |f, t, r| f.drive = Some([r * t.drive_park_utilisation, 0.0]),
+            P,
+        ),
+        (
+            "overturning at the alarm bound",
+            |f, t, r| f.overturning = r * t.alarm_utilisation,
+            A,
+        ),
+        ("sliding in the alarm band", |f, _, _| f.sliding = 0.8, A),
+        (
+            "sliding at the alarm bound",
+            |f, t, r| f.sliding = r * t.alarm_utilisation,
+            A,
+        ),
+        (
+            "tilt margin in the alarm band",
+            |f, _, _| f.tilt_margin_rad = 0.1,
+            A,
+        ),
+        (
+            "drive in the park band, first axis",
+            |f, _, _| f.drive = Some([0.9, 0.1]),
+            P,
+        ),
+    ];
+    for (name, set, level) in cases {
+        let mut f = calm();
+        set(&mut f, &t, r);
+        let mut m = settled_memory();
+        let mut at = level;
+        for k in 0..50_u64 {
+            let out = transition(
+                at,
+                &Readings::Figures(f),
+                &t,
+                m,
+                Millis(HOUR_MS + k * 60_000),
+            );
+            (at, m) = (out.stage, out.memory);
+        }
+        assert_eq!(at, level, "{name}");
+        // …and from one level higher, it steps down to it, no further.
+        if level < A {
+            let mut m = settled_memory();
+            let mut at = Stage::ALL[level as usize + 1];
+            for k in 0..50_u64 {
+                let out = transition(
+                    at,
+                    &Readings::Figures(f),
+                    &t,
+                    m,
+                    Millis(HOUR_MS + k * 60_000),
+                );
+                (at, m) = (out.stage, out.memory);
+            }
+            assert_eq!(at, level, "{name}, from above");
+        }
+    }
+}
