@@ -17,6 +17,7 @@ pub mod error;
 pub mod event_lines;
 pub mod located;
 pub mod log;
+pub mod output;
 pub mod replay;
 pub mod report;
 pub mod rig_image;

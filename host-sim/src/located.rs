@@ -59,17 +59,79 @@ pub struct InputError {
 }
 
 impl fmt::Display for InputError {
+    /// `file:line:column: key = value: problem`, the key and value bounded
+    /// by [`bounded`] and the problem by [`MAX_PROBLEM_CHARS`].
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         if let Some(at) = &self.at {
             write!(f, "{at}: ")?;
         }
         match (&self.key, &self.value) {
-            (Some(k), Some(v)) => write!(f, "{k} = {v}: ")?,
-            (Some(k), None) => write!(f, "{k}: ")?,
-            (None, Some(v)) => write!(f, "{v}: ")?,
+            (Some(k), Some(v)) => write!(f, "{} = {}: ", bounded(k), bounded(v))?,
+            (Some(k), None) => write!(f, "{}: ", bounded(k))?,
+            (None, Some(v)) => write!(f, "{}: ", bounded(v))?,
             (None, None) => {}
         }
-        f.write_str(&self.problem)
+        f.write_str(&bounded_to(&self.problem, MAX_PROBLEM_CHARS))
+    }
+}
+
+/// Most characters of a value written by a person (or a program) that a
+/// message repeats; longer values are cut and their length in bytes given.
+pub const ECHO_CHARS: usize = 60;
+
+/// Most characters of the problem part of a message (which may quote a
+/// parser's message, itself quoting the input).
+pub const MAX_PROBLEM_CHARS: usize = 600;
+
+/// `text` for a message: control characters escaped (`\u{1b}`), cut after
+/// [`ECHO_CHARS`] characters with its length in bytes added
+/// (`"aaaa…" (20000000 bytes)`).
+#[must_use]
+pub fn bounded(text: &str) -> String {
+    bounded_to(text, ECHO_CHARS)
+}
+
+/// As [`bounded`] with a limit of `max_chars`.
+#[must_use]
+pub fn bounded_to(text: &str, max_chars: usize) -> String {
+    let mut out = String::with_capacity(text.len().min(max_chars + 32));
+    let mut cut = false;
+    for (n, c) in text.chars().enumerate() {
+        if n >= max_chars {
+            cut = true;
+            break;
+        }
+        if c.is_control() {
+            out.extend(c.escape_default());
+        } else {
+            out.push(c);
+        }
+    }
+    if cut {
+        out.push_str(&format!("… ({} bytes)", text.len()));
+    }
+    out
+}
+
+/// As [`bounded`] for bytes that may not be UTF-8 (invalid sequences shown
+/// as U+FFFD).
+#[must_use]
+pub fn bounded_bytes(bytes: &[u8]) -> String {
+    let head = bytes
+        .get(..bytes.len().min(ECHO_CHARS * 4))
+        .unwrap_or(bytes);
+    let text = String::from_utf8_lossy(head);
+    let b = bounded(&text);
+    if head.len() < bytes.len() && !b.ends_with(" bytes)") {
+        format!("{b}… ({} bytes)", bytes.len())
+    } else if head.len() < bytes.len() {
+        // Cut by characters already; give the whole length.
+        match b.rfind("… (") {
+            Some(i) => format!("{}… ({} bytes)", b.get(..i).unwrap_or(""), bytes.len()),
+            None => b,
+        }
+    } else {
+        b
     }
 }
 
