@@ -414,12 +414,15 @@ impl Checker<'_> {
     }
 }
 
-/// Formats a number briefly for messages (up to 6 significant digits, no
-/// trailing zeros).
+/// Formats a number briefly for messages (up to 6 decimals, no trailing
+/// zeros; exponent form from 10¹² up, so a huge value stays short).
 #[must_use]
 pub fn fmt_g(x: f64) -> String {
     if x == 0.0 || !x.is_finite() {
         return format!("{x}");
+    }
+    if x.abs() >= 1e12 {
+        return format!("{x:e}");
     }
     let s = format!("{x:.6}");
     let s = s.trim_end_matches('0').trim_end_matches('.');
