@@ -17,7 +17,6 @@ use standfast::support::Support;
 use standfast::torque::{Balance, PayloadPick};
 
 use crate::error::Error;
-use crate::located::InputError;
 use crate::rigfile::LoadedRig;
 
 /// The cautions that end every report a person reads.
@@ -619,12 +618,7 @@ fn deg(rad: f32) -> f32 {
 }
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    Error::Input(InputError {
-        at: None,
-        key: Some(e.field.to_owned()),
-        value: None,
-        problem: format!("{file}: assessment failed: {e}"),
-    })
+    crate::rigfile::after_load_error(file, "assessment failed", e)
 }
 
 fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, standfast::Error> {

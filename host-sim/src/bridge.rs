@@ -734,12 +734,7 @@ impl<'r> Bridge<'r> {
     pub fn start(&mut self, now: Millis) -> Result<(), Error> {
         if self.guard.is_none() {
             let g = Guard::new(&self.rig.rig, self.config.clone(), now).map_err(|e| {
-                Error::Input(crate::located::InputError {
-                    at: None,
-                    key: Some(e.field.to_owned()),
-                    value: None,
-                    problem: format!("{}: the guard cannot start: {e}", self.rig.file),
-                })
+                crate::rigfile::after_load_error(&self.rig.file, "the guard cannot start", &e)
             })?;
             let mut g = g;
             // The site's air until measured air arrives.

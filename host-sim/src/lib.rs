@@ -15,6 +15,7 @@ pub mod cli;
 pub mod demo_data;
 pub mod error;
 pub mod event_lines;
+pub mod fuzzing;
 pub mod located;
 pub mod log;
 pub mod output;

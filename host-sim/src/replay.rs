@@ -27,7 +27,6 @@ use standfast::sense::Millis;
 use standfast::sense::Mounting;
 
 use crate::error::Error;
-use crate::located::InputError;
 use crate::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
 use crate::output::{check_paths, AtomicFile, OwnedFolder, Role};
 use crate::rigfile::LoadedRig;
@@ -211,12 +210,7 @@ pub struct ReplayReport {
 pub const FIRST_ISSUES: usize = 10;
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    Error::Input(InputError {
-        at: None,
-        key: Some(e.field.to_owned()),
-        value: None,
-        problem: format!("{file}: the guard cannot start: {e}"),
-    })
+    crate::rigfile::after_load_error(file, "the guard cannot start", e)
 }
 
 #[allow(clippy::cast_possible_truncation)] // log values fit f32

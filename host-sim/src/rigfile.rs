@@ -945,11 +945,14 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             .m()),
         None => 0.0,
     };
-    let air = Air::isa_at_elevation(elevation_m).map_err(|e| InputError {
-        at: None,
-        key: Some("site.elevation".into()),
-        value: None,
-        problem: e.to_string(),
+    let air = Air::isa_at_elevation(elevation_m).map_err(|e| {
+        let span = file
+            .site
+            .get_ref()
+            .elevation
+            .as_ref()
+            .map_or(file.site.span(), Spanned::span);
+        ck.error("site.elevation", span, e.to_string())
     })?;
 
     // support
@@ -1668,18 +1671,15 @@ fn shaft_hardware(src: &SourceText, g: &ShaftSec) -> Result<Option<ShaftHardware
             (*mat, (*label).to_owned())
         }
         (None, Some(y)) => {
+            let span = y.span();
             let y = ck.range_f64(
                 "shaft.yield_strength_mpa",
                 y,
                 1.0,
                 f64::from(material::MAX_STRENGTH_MPA),
             )?;
-            let mat = Material::new(f(y), f(y)).map_err(|e| InputError {
-                at: None,
-                key: Some("shaft.yield_strength_mpa".into()),
-                value: None,
-                problem: e.to_string(),
-            })?;
+            let mat = Material::new(f(y), f(y))
+                .map_err(|e| ck.error("shaft.yield_strength_mpa", span.clone(), e.to_string()))?;
             (mat, format!("yield strength {} MPa (as given)", fmt_g(y)))
         }
         (Some(m), Some(_)) => {
@@ -1859,6 +1859,59 @@ fn shown_unit(field: &str) -> (&'static str, f64) {
     }
 }
 
+/// What a core [`standfast::Error`] says, in the file's terms: the problem
+/// and, where there is one, the accepted range in the file's units
+/// (degrees for angles), without the core's internal field names.
+#[must_use]
+pub fn core_problem(e: &standfast::Error) -> String {
+    let (unit, k) = shown_unit(e.field);
+    // Rounded to 4 decimals: the core's f32 limits carry float noise.
+    let num = |x: f32| fmt_g((f64::from(x) * k * 1e4).round() / 1e4);
+    let sp = if unit.is_empty() { "" } else { " " };
+    match e.kind {
+        standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => format!(
+            "outside the accepted range {} to {}{sp}{unit} (read as {}{sp}{unit})",
+            num(e.min),
+            num(e.max),
+            num(e.value),
+        ),
+        standfast::ErrorKind::DuplicateFoot => {
+            "two feet are less than 1 mm apart (accepted: feet at least 1 mm apart)".to_owned()
+        }
+        standfast::ErrorKind::CollinearFeet => {
+            "the feet lie on one line and enclose no area (accepted: at least 3 feet not in a line)"
+                .to_owned()
+        }
+        standfast::ErrorKind::TooMany => format!(
+            "too many items (accepted: at most {})",
+            fmt_g(f64::from(e.max))
+        ),
+        standfast::ErrorKind::TooFew => format!(
+            "too few items (accepted: at least {})",
+            fmt_g(f64::from(e.min))
+        ),
+        standfast::ErrorKind::ZeroDirection => {
+            "the direction has zero length (accepted: any direction [x, y, z] not all 0)".to_owned()
+        }
+        standfast::ErrorKind::Unreachable => {
+            "the requested result cannot be reached with these values".to_owned()
+        }
+    }
+}
+
+/// A core [`standfast::Error`] met after the rig file `file` was read and
+/// checked (starting the guard, assessing, drawing a report): names the
+/// file and what failed, in the file's terms.
+#[must_use]
+pub fn after_load_error(file: &str, what: &str, e: &standfast::Error) -> Error {
+    Error::Input(InputError {
+        at: None,
+        key: None,
+        value: None,
+        problem: format!("{file}: {what}: {}", core_problem(e)),
+    })
+}
+
 /// Turns a core [`standfast::Error`] into a located error at the key it came
 /// from, with the value as written and the accepted range in the file's
 /// units (degrees for angles).
@@ -1867,30 +1920,14 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
         .map
         .get(&(e.field, e.index))
         .or_else(|| sp.map.get(&(e.field, None)));
-    let (unit, k) = shown_unit(e.field);
-    // Rounded to 4 decimals: the core's f32 limits carry float noise.
-    let num = |x: f32| fmt_g((f64::from(x) * k * 1e4).round() / 1e4);
-    let problem = match e.kind {
-        standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => format!(
-            "outside the accepted range {} to {}{}{} (read as {}{}{}; core field {})",
-            num(e.min),
-            num(e.max),
-            if unit.is_empty() { "" } else { " " },
-            unit,
-            num(e.value),
-            if unit.is_empty() { "" } else { " " },
-            unit,
-            e.field
-        ),
-        _ => e.to_string(),
-    };
+    let problem = core_problem(e);
     match found {
         Some((key, span)) => src.checker().error(key, span.clone(), problem),
         None => InputError {
             at: Some(src.location(0)),
-            key: Some(e.field.to_owned()),
+            key: None,
             value: None,
-            problem,
+            problem: format!("the rig as described: {problem}"),
         },
     }
 }

@@ -345,14 +345,14 @@ impl Dim {
         for other in Dim::ALL {
             if other != self && find_in(other.units(), spelling).is_some() {
                 return Err(UnitError::WrongDimension {
-                    unit: spelling.to_owned(),
+                    unit: crate::located::bounded(spelling),
                     unit_dim: other,
                     expected: self,
                 });
             }
         }
         Err(UnitError::UnknownUnit {
-            unit: spelling.to_owned(),
+            unit: crate::located::bounded(spelling.trim()),
             expected: self,
         })
     }
@@ -429,6 +429,12 @@ pub enum UnitError {
         /// What was given.
         text: String,
     },
+    /// The number is finite but too large once converted to the SI unit.
+    #[error("\"{text}\" is too large (not finite in the SI unit)")]
+    TooLarge {
+        /// What was given.
+        text: String,
+    },
     /// The unit is known, but for another dimension.
     #[error("\"{unit}\" is a unit of {unit_dim}, but a {expected} is expected here (units: {units})", units = .expected.accepted())]
     WrongDimension {
@@ -469,7 +475,9 @@ pub fn split_number(text: &str, dim: Dim) -> Result<(f64, &str), UnitError> {
         if let Some(head) = t.get(..cut) {
             if let Ok(v) = head.parse::<f64>() {
                 if !v.is_finite() {
-                    return Err(UnitError::NotFinite { text: t.to_owned() });
+                    return Err(UnitError::NotFinite {
+                        text: crate::located::bounded(t),
+                    });
                 }
                 let rest = t.get(cut..).unwrap_or("").trim();
                 return Ok((v, rest));
@@ -477,12 +485,14 @@ pub fn split_number(text: &str, dim: Dim) -> Result<(f64, &str), UnitError> {
         }
         cut -= 1;
     }
-    let lower = t.to_ascii_lowercase();
+    let lower = t.get(..4).unwrap_or(t).to_ascii_lowercase();
     if lower.starts_with("nan") || lower.starts_with("inf") || lower.starts_with("-inf") {
-        return Err(UnitError::NotFinite { text: t.to_owned() });
+        return Err(UnitError::NotFinite {
+            text: crate::located::bounded(t),
+        });
     }
     Err(UnitError::NoNumber {
-        text: t.to_owned(),
+        text: crate::located::bounded(t),
         expected: dim,
     })
 }
@@ -559,7 +569,14 @@ impl<D: Dimension> Quantity<D> {
     /// # Errors
     /// As [`Dim::unit`].
     pub fn from_unit(value: f64, unit: &str) -> Result<Self, UnitError> {
-        Ok(Self::from_si(D::DIM.unit(unit)?.to_si(value)))
+        let si = D::DIM.unit(unit)?.to_si(value);
+        if si.is_finite() {
+            Ok(Self::from_si(si))
+        } else {
+            Err(UnitError::TooLarge {
+                text: crate::located::bounded(&format!("{value} {unit}")),
+            })
+        }
     }
 
     /// Parses `"18 lb"`-style text; a plain number is in the SI unit.
@@ -577,7 +594,14 @@ impl<D: Dimension> Quantity<D> {
     pub fn parse_or(text: &str, bare_unit: &str) -> Result<Self, UnitError> {
         let (v, unit) = split_number(text, D::DIM)?;
         let unit = if unit.is_empty() { bare_unit } else { unit };
-        Ok(Self::from_si(D::DIM.unit(unit)?.to_si(v)))
+        let si = D::DIM.unit(unit)?.to_si(v);
+        if si.is_finite() {
+            Ok(Self::from_si(si))
+        } else {
+            Err(UnitError::TooLarge {
+                text: crate::located::bounded(text.trim()),
+            })
+        }
     }
 }
 

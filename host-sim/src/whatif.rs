@@ -381,7 +381,10 @@ pub fn variant(
         bad(
             "",
             "",
-            format!("the variant's guard settings are not valid: {e}"),
+            format!(
+                "the variant's guard settings are not valid: {}",
+                crate::rigfile::core_problem(&e)
+            ),
         )
     })?;
     if base.measured.is_some() {
@@ -395,8 +398,16 @@ pub fn variant(
                 .to_owned(),
         ));
     }
-    let rig =
-        Rig::new(&spec).map_err(|e| bad("", "", format!("the variant rig is not valid: {e}")))?;
+    let rig = Rig::new(&spec).map_err(|e| {
+        bad(
+            "",
+            "",
+            format!(
+                "the variant rig is not valid: {}",
+                crate::rigfile::core_problem(&e)
+            ),
+        )
+    })?;
     Ok(LoadedRig {
         file: format!("{} with {}", base.file, texts.join(", ")),
         spec,

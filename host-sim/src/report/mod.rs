@@ -470,12 +470,7 @@ fn rig_section(
 }
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    Error::Input(crate::located::InputError {
-        at: None,
-        key: Some(e.field.to_owned()),
-        value: None,
-        problem: format!("{file}: the report cannot be drawn: {e}"),
-    })
+    crate::rigfile::after_load_error(file, "the report cannot be drawn", e)
 }
 
 /// The replay report as a self-contained HTML page. `rigs` are the rig

@@ -8,6 +8,7 @@ mod common;
 mod demo;
 mod drag_inputs;
 mod firmware_replay;
+mod fuzz_seeds;
 mod golden;
 mod hardware_assess;
 mod located;

@@ -94,7 +94,7 @@ fn mass_unit_where_length_expected() {
         e.at.clone().unwrap().line,
         line_of(&text, "height = \"18 lb\"")
     );
-    assert_eq!(e.key.as_deref(), Some("height"));
+    assert_eq!(e.key.as_deref(), Some("mount.height"));
     assert!(e.problem.contains("a unit of mass"), "{}", e.problem);
     assert!(e.problem.contains("length"), "{}", e.problem);
 }
@@ -105,6 +105,9 @@ fn unknown_key_is_named() {
     let e = err(&text);
     assert_eq!(e.at.clone().unwrap().line, line_of(&text, "frictoin"));
     assert!(e.to_string().contains("frictoin"), "{e}");
+    // The full key, and the nearest accepted key as a suggestion.
+    assert_eq!(e.key.as_deref(), Some("support.frictoin"));
+    assert!(e.problem.contains("did you mean `friction`?"), "{e}");
 }
 
 #[test]
