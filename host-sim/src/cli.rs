@@ -71,7 +71,13 @@ pub struct GenDemoArgs {
     pub bench: bool,
     /// Length of the benchmark log: hours, or a time with a unit ("90 min");
     /// more than 0, up to 240 h (24 h is 4 320 000 rows).
-    #[arg(long, value_name = "H", default_value = "24", requires = "bench")]
+    #[arg(
+        long,
+        value_name = "H",
+        default_value = "24",
+        requires = "bench",
+        allow_hyphen_values = true
+    )]
     pub hours: String,
 }
 

@@ -60,15 +60,18 @@ pub struct InputError {
 
 impl fmt::Display for InputError {
     /// `file:line:column: key = value: problem`, the key and value bounded
-    /// by [`bounded`] and the problem by [`MAX_PROBLEM_CHARS`].
+    /// to twice [`ECHO_CHARS`] and the problem to [`MAX_PROBLEM_CHARS`].
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         if let Some(at) = &self.at {
             write!(f, "{at}: ")?;
         }
+        // Twice the echo limit, so a value a caller already bounded (and
+        // quoted) is shown whole with its byte count.
+        let b = |t: &str| bounded_to(t, 2 * ECHO_CHARS);
         match (&self.key, &self.value) {
-            (Some(k), Some(v)) => write!(f, "{} = {}: ", bounded(k), bounded(v))?,
-            (Some(k), None) => write!(f, "{}: ", bounded(k))?,
-            (None, Some(v)) => write!(f, "{}: ", bounded(v))?,
+            (Some(k), Some(v)) => write!(f, "{} = {}: ", b(k), b(v))?,
+            (Some(k), None) => write!(f, "{}: ", b(k))?,
+            (None, Some(v)) => write!(f, "{}: ", b(v))?,
             (None, None) => {}
         }
         f.write_str(&bounded_to(&self.problem, MAX_PROBLEM_CHARS))
@@ -160,10 +163,27 @@ impl SourceText {
     /// Reads a file.
     ///
     /// # Errors
-    /// [`Error::Io`] when the file cannot be read (or is not UTF-8).
+    /// [`Error::Io`] when the file cannot be read; [`Error::Input`] naming
+    /// the line and column when it is not UTF-8 text.
     pub fn read(path: &Path) -> Result<SourceText, Error> {
-        let text = std::fs::read_to_string(path).map_err(|e| Error::io(path, e))?;
-        Ok(SourceText::new(path.display().to_string(), text))
+        let bytes = std::fs::read(path).map_err(|e| Error::io(path, e))?;
+        let name = path.display().to_string();
+        match String::from_utf8(bytes) {
+            Ok(text) => Ok(SourceText::new(name, text)),
+            Err(e) => {
+                let good = e.utf8_error().valid_up_to();
+                let head = String::from_utf8_lossy(e.as_bytes().get(..good).unwrap_or_default())
+                    .into_owned();
+                let at = SourceText::new(name, head).location(good);
+                Err(Error::Input(InputError {
+                    at: Some(at),
+                    key: None,
+                    value: None,
+                    problem: "the file is not UTF-8 text (accepted: UTF-8, which includes ASCII)"
+                        .to_owned(),
+                }))
+            }
+        }
     }
 
     /// The file name.

@@ -815,7 +815,7 @@ pub struct DemoArgs {
     /// Length of the night: hours, or a time with a unit ("90 min"); more
     /// than 0, up to 9 h (default: the whole invented night, 9 h); shorter
     /// nights replay faster.
-    #[arg(long, value_name = "H")]
+    #[arg(long, value_name = "H", allow_hyphen_values = true)]
     pub hours: Option<String>,
     /// Print the summary as JSON instead of text.
     #[arg(long)]

@@ -887,9 +887,16 @@ type FieldAt = (&'static str, Option<u8>);
 #[derive(Default)]
 struct Spans {
     map: HashMap<FieldAt, (String, Range<usize>)>,
+    /// Keys the core reports under one field (a drive's three ratings are
+    /// all `drives.primary`), told apart by the value the core read.
+    by_value: Vec<(&'static str, f32, String, Range<usize>)>,
 }
 
 impl Spans {
+    fn put_value(&mut self, field: &'static str, value: f32, key: String, span: Range<usize>) {
+        self.by_value.push((field, value, key, span));
+    }
+
     fn put(&mut self, field: &'static str, index: Option<usize>, key: String, span: Range<usize>) {
         let idx = index.map(|i| u8::try_from(i).unwrap_or(u8::MAX));
         self.map.entry((field, idx)).or_insert((key, span));
@@ -1399,6 +1406,24 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
                 a.span(),
             );
         }
+        for (field, sec) in [
+            ("drives.primary", &g.primary),
+            ("drives.secondary", &g.secondary),
+        ] {
+            let r = sec.get_ref();
+            for (name, v) in [
+                ("rated", &r.rated),
+                ("repeated_peak", &r.repeated_peak),
+                ("momentary_peak", &r.momentary_peak),
+            ] {
+                sp.put_value(
+                    field,
+                    f(v.get_ref().nm()),
+                    format!("{field}.{name}"),
+                    v.span(),
+                );
+            }
+        }
         let r = |s: &S<RatingSec>| DriveRating {
             rated_nm: f(s.get_ref().rated.get_ref().nm()),
             repeated_peak_nm: f(s.get_ref().repeated_peak.get_ref().nm()),
@@ -1865,16 +1890,34 @@ fn shown_unit(field: &str) -> (&'static str, f64) {
 #[must_use]
 pub fn core_problem(e: &standfast::Error) -> String {
     let (unit, k) = shown_unit(e.field);
-    // Rounded to 4 decimals: the core's f32 limits carry float noise.
-    let num = |x: f32| fmt_g((f64::from(x) * k * 1e4).round() / 1e4);
+    // Rounded to 4 decimals: the core's f32 limits carry float noise; a
+    // small non-zero limit is written in exponent form, never as 0.
+    let num = |x: f32| {
+        let v = f64::from(x) * k;
+        let r = (v * 1e4).round() / 1e4;
+        if r == 0.0 && v != 0.0 {
+            format!("{v:.3e}")
+        } else {
+            fmt_g(r)
+        }
+    };
     let sp = if unit.is_empty() { "" } else { " " };
     match e.kind {
-        standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => format!(
-            "outside the accepted range {} to {}{sp}{unit} (read as {}{sp}{unit})",
-            num(e.min),
-            num(e.max),
-            num(e.value),
-        ),
+        standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => {
+            // A bound the core refuses itself (a scale of exactly 0) is
+            // stated as excluded.
+            let range = if e.value.to_bits() == e.min.to_bits() {
+                format!("more than {}{sp}{unit}, up to {}", num(e.min), num(e.max))
+            } else if e.value.to_bits() == e.max.to_bits() {
+                format!("{}{sp}{unit} to less than {}", num(e.min), num(e.max))
+            } else {
+                format!("{} to {}", num(e.min), num(e.max))
+            };
+            format!(
+                "outside the accepted range {range}{sp}{unit} (read as {}{sp}{unit})",
+                num(e.value),
+            )
+        }
         standfast::ErrorKind::DuplicateFoot => {
             "two feet are less than 1 mm apart (accepted: feet at least 1 mm apart)".to_owned()
         }
@@ -1916,10 +1959,16 @@ pub fn after_load_error(file: &str, what: &str, e: &standfast::Error) -> Error {
 /// from, with the value as written and the accepted range in the file's
 /// units (degrees for angles).
 fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError {
-    let found = sp
-        .map
-        .get(&(e.field, e.index))
-        .or_else(|| sp.map.get(&(e.field, None)));
+    let by_value = sp
+        .by_value
+        .iter()
+        .find(|(field, v, _, _)| *field == e.field && v.to_bits() == e.value.to_bits())
+        .map(|(_, _, key, span)| (key.clone(), span.clone()));
+    let found = by_value.as_ref().or_else(|| {
+        sp.map
+            .get(&(e.field, e.index))
+            .or_else(|| sp.map.get(&(e.field, None)))
+    });
     let problem = core_problem(e);
     match found {
         Some((key, span)) => src.checker().error(key, span.clone(), problem),

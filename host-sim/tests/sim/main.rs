@@ -2,6 +2,7 @@
 //! subject; every check names its outside source beside it.
 
 mod assess_condition;
+mod bad_input;
 mod bridge;
 mod cli;
 mod common;
