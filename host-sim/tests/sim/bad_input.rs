@@ -1815,5 +1815,6 @@ fn at_least_100_cases() {
         + option_cases().len()
         + output_cases().len()
         + bridge_cases().len();
+    println!("{n} bad-input cases");
     assert!(n >= 100, "{n} cases");
 }
