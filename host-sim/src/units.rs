@@ -465,25 +465,20 @@ pub fn split_number(text: &str, dim: Dim) -> Result<(f64, &str), UnitError> {
     if t.is_empty() {
         return Err(UnitError::Empty(dim));
     }
-    // Longest prefix made of number characters that parses as a number.
-    let end = t
-        .char_indices()
-        .find(|(_, c)| !(c.is_ascii_digit() || matches!(c, '+' | '-' | '.' | 'e' | 'E')))
-        .map_or(t.len(), |(i, _)| i);
-    let mut cut = end;
-    while cut > 0 {
-        if let Some(head) = t.get(..cut) {
-            if let Ok(v) = head.parse::<f64>() {
-                if !v.is_finite() {
-                    return Err(UnitError::NotFinite {
-                        text: crate::located::bounded(t),
-                    });
-                }
-                let rest = t.get(cut..).unwrap_or("").trim();
-                return Ok((v, rest));
+    // The longest prefix that is a decimal number, found in one pass
+    // (sign, digits, a point and digits, an exponent with digits), then
+    // parsed once: linear in the length of the text, whatever it holds.
+    let cut = number_prefix(t.as_bytes());
+    if cut > 0 {
+        if let Some(Ok(v)) = t.get(..cut).map(str::parse::<f64>) {
+            if !v.is_finite() {
+                return Err(UnitError::NotFinite {
+                    text: crate::located::bounded(t),
+                });
             }
+            let rest = t.get(cut..).unwrap_or("").trim();
+            return Ok((v, rest));
         }
-        cut -= 1;
     }
     let lower = t.get(..4).unwrap_or(t).to_ascii_lowercase();
     if lower.starts_with("nan") || lower.starts_with("inf") || lower.starts_with("-inf") {
@@ -495,6 +490,37 @@ pub fn split_number(text: &str, dim: Dim) -> Result<(f64, &str), UnitError> {
         text: crate::located::bounded(t),
         expected: dim,
     })
+}
+
+/// Length of the longest prefix of `b` of the form `[+-]? digits [. digits]
+/// [(e|E) [+-]? digits]` with at least one digit before the exponent; 0 when
+/// there is none.
+fn number_prefix(b: &[u8]) -> usize {
+    let digits = |from: usize| {
+        b.get(from..)
+            .map_or(0, |r| r.iter().take_while(|c| c.is_ascii_digit()).count())
+    };
+    let mut i = usize::from(matches!(b.first(), Some(b'+' | b'-')));
+    let int = digits(i);
+    i += int;
+    let mut frac = 0;
+    if b.get(i) == Some(&b'.') {
+        frac = digits(i + 1);
+        if int + frac > 0 {
+            i += 1 + frac;
+        }
+    }
+    if int + frac == 0 {
+        return 0;
+    }
+    if matches!(b.get(i), Some(b'e' | b'E')) {
+        let sign = usize::from(matches!(b.get(i + 1), Some(b'+' | b'-')));
+        let exp = digits(i + 1 + sign);
+        if exp > 0 {
+            i += 1 + sign + exp;
+        }
+    }
+    i
 }
 
 /// Marker types naming a dimension at the type level.
