@@ -948,6 +948,29 @@ mod tests {
         assert_eq!(ours(Box::new(std::io::Cursor::new(long))), want);
     }
 
+    /// A file with CR LF line ends reads as the same file with LF ends:
+    /// the same fields on the same lines (the line count of the LF file is
+    /// the `csv` crate's, the reference), whatever the read sizes; a lone
+    /// CR and a CR at the very end are kept.
+    #[test]
+    fn crlf_reads_as_lf() {
+        use super::CrlfToLf;
+        let lf: &[u8] = b"t,a\n1,2\n\n3,\"4\"\n5,6\n";
+        let crlf: Vec<u8> = b"t,a\r\n1,2\r\n\r\n3,\"4\"\r\n5,6\r\n".to_vec();
+        let want = reference(Box::new(std::io::Cursor::new(lf.to_vec())));
+        let via = |data: Vec<u8>, step: usize| -> Box<dyn Read> {
+            Box::new(CrlfToLf::new(Box::new(Trickle { data, pos: 0, step })))
+        };
+        for step in 0..7 {
+            assert_eq!(ours(via(crlf.clone(), step)), want, "step {step}");
+        }
+        let mut out = Vec::new();
+        via(b"a\rb\r\nc\r".to_vec(), 0)
+            .read_to_end(&mut out)
+            .unwrap();
+        assert_eq!(out, b"a\rb\nc\r");
+    }
+
     /// The fast path must agree bit for bit with the standard library's
     /// correctly rounded parser (the reference) wherever it answers.
     #[test]
