@@ -19,9 +19,6 @@ use crate::error::Error;
 use crate::located::{InputError, SourceText, MAX_PROBLEM_CHARS};
 use crate::log::{ErrorPolicy, LogProfile, Merger};
 use crate::rigfile::LoadedRig;
-use crate::units::{
-    Acceleration, Angle, Area, Duration, Force, Length, Mass, Pressure, Speed, Temperature, Torque,
-};
 
 /// Longest message an error may print, in characters: location, key and
 /// value (each bounded), and the problem (at most [`MAX_PROBLEM_CHARS`]).
@@ -238,20 +235,6 @@ pub fn units(data: &[u8]) {
     one::<crate::units::TimeDim>(&text);
     one::<crate::units::AccelerationDim>(&text);
     one::<crate::units::AreaDim>(&text);
-    // The concrete aliases too (the same parser, kept in use here).
-    let _ = (
-        Length::parse(&text),
-        Mass::parse(&text),
-        Speed::parse(&text),
-        Torque::parse(&text),
-        Force::parse(&text),
-        Angle::parse(&text),
-        Pressure::parse(&text),
-        Temperature::parse(&text),
-        Duration::parse(&text),
-        Acceleration::parse(&text),
-        Area::parse(&text),
-    );
 }
 
 /// The demo rig, loaded once for [`bridge_lines`].

@@ -364,41 +364,50 @@ impl fmt::Display for Dim {
     }
 }
 
-/// Canonical form of a unit spelling: separators dropped, powers as digits.
-fn canonical(s: &str) -> String {
-    let mut out = String::with_capacity(s.len());
-    for c in s.trim().chars() {
-        match c {
-            ' ' | '\t' | '·' | '⋅' | '*' | '.' | '-' | '_' | '^' => {}
-            '²' => out.push('2'),
-            '³' => out.push('3'),
-            '⁻' => {}
-            'µ' | 'μ' => out.push('u'),
-            _ => out.push(c),
-        }
+/// The characters of the canonical form of a unit spelling: separators
+/// dropped, powers as digits, micro signs as `u` (no allocation).
+fn canonical_chars(s: &str) -> impl Iterator<Item = char> + '_ {
+    s.trim().chars().filter_map(|c| match c {
+        ' ' | '\t' | '·' | '⋅' | '*' | '.' | '-' | '_' | '^' | '⁻' => None,
+        '²' => Some('2'),
+        '³' => Some('3'),
+        'µ' | 'μ' => Some('u'),
+        _ => Some(c),
+    })
+}
+
+/// Whether two spellings have the same canonical form (optionally ignoring
+/// case).
+fn same_spelling(a: &str, b: &str, ignore_case: bool) -> bool {
+    if ignore_case {
+        canonical_chars(a)
+            .flat_map(char::to_lowercase)
+            .eq(canonical_chars(b).flat_map(char::to_lowercase))
+    } else {
+        canonical_chars(a).eq(canonical_chars(b))
     }
-    out
 }
 
 fn find_in(units: &'static [Unit], spelling: &str) -> Option<Unit> {
-    let want = canonical(spelling);
-    if want.is_empty() {
-        return None;
-    }
+    // Nothing to look up when only separators were written.
+    canonical_chars(spelling).next()?;
     // Case-sensitive first.
     for unit in units {
-        if unit.symbols.iter().any(|s| canonical(s) == want) {
+        if unit
+            .symbols
+            .iter()
+            .any(|s| same_spelling(s, spelling, false))
+        {
             return Some(*unit);
         }
     }
     // Then case-insensitive, only when exactly one unit matches.
-    let lower = want.to_lowercase();
     let mut found = None;
     for unit in units {
         if unit
             .symbols
             .iter()
-            .any(|s| canonical(s).to_lowercase() == lower)
+            .any(|s| same_spelling(s, spelling, true))
         {
             if found.is_some() {
                 return None;
