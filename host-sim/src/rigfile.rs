@@ -1972,11 +1972,40 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
     let problem = core_problem(e);
     match found {
         Some((key, span)) => src.checker().error(key, span.clone(), problem),
-        None => InputError {
-            at: Some(src.location(0)),
-            key: None,
-            value: None,
-            problem: format!("the rig as described: {problem}"),
+        None => match UNWRITTEN_KEYS.iter().find(|(field, _)| *field == e.field) {
+            // A default the file did not override: name the key that would.
+            Some((_, key)) => {
+                let section = key.split('.').next().unwrap_or("");
+                let header = format!("[{section}]");
+                let offset = src
+                    .text()
+                    .match_indices(&header)
+                    .map(|(i, _)| i)
+                    .find(|&i| i == 0 || src.text().get(i - 1..i) == Some("\n"))
+                    .unwrap_or(0);
+                InputError {
+                    at: Some(src.location(offset)),
+                    key: Some((*key).to_owned()),
+                    value: None,
+                    problem: format!("{problem}; not written in the file, so its default applies"),
+                }
+            }
+            None => InputError {
+                at: Some(src.location(0)),
+                key: None,
+                value: None,
+                problem: format!("the rig as described: {problem}"),
+            },
         },
     }
 }
+
+/// Core fields whose value comes from a default when the file does not
+/// write its key, and that key (for messages about a default).
+const UNWRITTEN_KEYS: [(&str, &str); 5] = [
+    ("wind.max_speed_mps", "sensor.wind_max"),
+    ("guard.wind.max_speed_mps", "sensor.wind_max"),
+    ("wind.stale_after_s", "sensor.wind_stale"),
+    ("guard.wind.stale_after_s", "sensor.wind_stale"),
+    ("wind.mean_gust_factor", "sensor.gust_factor"),
+];
