@@ -1869,6 +1869,8 @@ fn shown_unit(field: &str) -> (&'static str, f64) {
         ("deg/s", 180.0 / std::f64::consts::PI)
     } else if field.ends_with("_rad") {
         ("deg", 180.0 / std::f64::consts::PI)
+    } else if field.ends_with("_mps") {
+        ("m/s", 1.0)
     } else if field.ends_with("_kg") {
         ("kg", 1.0)
     } else if field.ends_with("_nm") || field.starts_with("drives.") {
