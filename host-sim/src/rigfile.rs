@@ -1941,6 +1941,10 @@ pub fn core_problem(e: &standfast::Error) -> String {
         standfast::ErrorKind::Unreachable => {
             "the requested result cannot be reached with these values".to_owned()
         }
+        standfast::ErrorKind::Inconsistent => {
+            "the measurements disagree with each other or with the geometry beyond their uncertainty"
+                .to_owned()
+        }
     }
 }
 
