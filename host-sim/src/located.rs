@@ -99,11 +99,20 @@ pub fn bounded(text: &str) -> String {
 pub fn bounded_to(text: &str, max_chars: usize) -> String {
     let mut out = String::with_capacity(text.len().min(max_chars + 32));
     let mut cut = false;
-    for (n, c) in text.chars().enumerate() {
-        if n >= max_chars {
+    // Counted in characters written, so escapes (6 for `\u{7f}`) count in
+    // full and the limit holds whatever the text.
+    let mut n = 0;
+    for c in text.chars() {
+        let width = if c.is_control() {
+            c.escape_default().count()
+        } else {
+            1
+        };
+        if n + width > max_chars {
             cut = true;
             break;
         }
+        n += width;
         if c.is_control() {
             out.extend(c.escape_default());
         } else {
