@@ -17,7 +17,6 @@ use standfast::support::Support;
 use standfast::torque::{Balance, PayloadPick};
 
 use crate::error::Error;
-use crate::located::InputError;
 use crate::rigfile::LoadedRig;
 
 /// The cautions that end every report a person reads.
@@ -619,12 +618,7 @@ fn deg(rad: f32) -> f32 {
 }
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    Error::Input(InputError {
-        at: None,
-        key: Some(e.field.to_owned()),
-        value: None,
-        problem: format!("{file}: assessment failed: {e}"),
-    })
+    crate::rigfile::after_load_error(file, "assessment failed", e)
 }
 
 fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, standfast::Error> {
@@ -1179,18 +1173,25 @@ pub struct AssessArgs {
     /// Print the report as JSON instead of text.
     #[arg(long)]
     pub json: bool,
-    /// Storm direction (wind from), degrees from north clockwise, for the
-    /// best tripod orientation.
+    /// Storm direction (wind from), clockwise from north, for the best
+    /// tripod orientation: degrees, or an angle with a unit ("4.7 rad");
+    /// 0 to 360 deg.
     #[arg(
         long,
         value_name = "DEG",
-        default_value_t = 270.0,
+        default_value = "270",
         allow_hyphen_values = true
     )]
-    pub storm_from: f32,
-    /// Design gust for ballast and tie-down needs, m/s.
-    #[arg(long, value_name = "M/S", default_value_t = 20.0)]
-    pub design_gust: f32,
+    pub storm_from: String,
+    /// Design gust for ballast and tie-down needs: m/s, or a speed with a
+    /// unit ("45 mph"); more than 0, up to 100 m/s.
+    #[arg(
+        long,
+        value_name = "M/S",
+        default_value = "20",
+        allow_hyphen_values = true
+    )]
+    pub design_gust: String,
     /// Also write a self-contained HTML report with charts to this file.
     #[arg(long, value_name = "FILE")]
     pub html: Option<std::path::PathBuf>,
@@ -1356,15 +1357,48 @@ impl AssessArgs {
     }
 }
 
+/// Accepted storm direction of `--storm-from`.
+pub const STORM_FROM_RANGE: crate::cli::OptionRange = crate::cli::OptionRange {
+    lo: 0.0,
+    hi: 360.0,
+    lo_open: false,
+    unit: "deg",
+};
+
+/// Accepted design gust of `--design-gust`.
+pub const DESIGN_GUST_RANGE: crate::cli::OptionRange = crate::cli::OptionRange {
+    lo: 0.0,
+    hi: 100.0,
+    lo_open: true,
+    unit: "m/s",
+};
+
 /// Runs `standfast assess`.
 ///
 /// # Errors
 /// The rig file cannot be read or is invalid, or the output cannot be written.
 pub fn run(a: &AssessArgs, out: &mut dyn Write) -> Result<(), Error> {
+    let storm = crate::cli::quantity_option::<crate::units::AngleDim>(
+        "--storm-from",
+        &a.storm_from,
+        STORM_FROM_RANGE,
+    )?;
+    let gust = crate::cli::quantity_option::<crate::units::SpeedDim>(
+        "--design-gust",
+        &a.design_gust,
+        DESIGN_GUST_RANGE,
+    )?;
+    if let Some(h) = &a.html {
+        crate::output::check_paths(
+            &[crate::output::Role::new("the rig file", &a.rig)],
+            &[crate::output::Role::new("--html", h)],
+        )?;
+    }
     let r = crate::rigfile::load(&a.rig)?;
+    #[allow(clippy::cast_possible_truncation)] // checked ranges fit f32
     let o = AssessOptions {
-        storm_from_deg: a.storm_from,
-        design_gust_mps: a.design_gust,
+        storm_from_deg: storm.to_degrees() as f32,
+        design_gust_mps: gust as f32,
         condition: a.condition(),
         ..AssessOptions::default()
     };

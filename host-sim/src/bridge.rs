@@ -35,8 +35,9 @@
 //! pressures up to about 9 km of altitude.
 //!
 //! **Time.** With `--clock sample` (the default) the sample's own time is
-//! used; a time earlier than the previous accepted one is an error for that
-//! line (equal times are accepted). With `--clock wall` the bridge reads a
+//! used; a time earlier than the previous accepted one, or more than
+//! [`MAX_STEP_MS`] (one hour) after it, is an error for that line and does
+//! not move the clock (equal times are accepted). With `--clock wall` the bridge reads a
 //! monotonic clock (milliseconds since start) and ignores `t_ms`/`t_s`; this
 //! is the only place the command reads a clock, the core never does.
 //!
@@ -71,6 +72,7 @@ use standfast::sense::{Millis, Mounting};
 
 use crate::assess::CAUTIONS;
 use crate::error::Error;
+use crate::located::{bounded, bounded_to, fmt_g, MAX_PROBLEM_CHARS};
 use crate::rigfile::{self, LoadedRig};
 
 /// Input line format.
@@ -213,7 +215,8 @@ impl CsvHeader {
             }
             if !FIELDS.contains(&c.as_str()) {
                 return Err(format!(
-                    "unknown column \"{c}\"; accepted: {}",
+                    "unknown column \"{}\"; accepted: {}",
+                    bounded(c),
                     FIELDS
                         .iter()
                         .filter(|f| **f != "accel_g")
@@ -223,7 +226,7 @@ impl CsvHeader {
                 ));
             }
             if columns.iter().take(i).any(|p| p == c) {
-                return Err(format!("column \"{c}\" appears twice"));
+                return Err(format!("column \"{}\" appears twice", bounded(c)));
             }
         }
         Ok(CsvHeader { columns })
@@ -247,21 +250,22 @@ impl CsvHeader {
             if cell.is_empty() {
                 continue;
             }
+            let shown = bounded(cell);
             let num = || -> Result<f64, String> {
                 cell.parse::<f64>()
-                    .map_err(|_| format!("{name}: \"{cell}\" is not a number"))
+                    .map_err(|_| format!("{name}: \"{shown}\" is not a number"))
             };
             let flag = || -> Result<bool, String> {
                 match cell.to_ascii_lowercase().as_str() {
                     "true" | "1" => Ok(true),
                     "false" | "0" => Ok(false),
-                    _ => Err(format!("{name}: \"{cell}\" is not true, false, 1 or 0")),
+                    _ => Err(format!("{name}: \"{shown}\" is not true, false, 1 or 0")),
                 }
             };
             match name.as_str() {
                 "t_ms" => {
                     s.t_ms = Some(cell.parse::<u64>().map_err(|_| {
-                        format!("t_ms: \"{cell}\" is not a whole number of milliseconds ≥ 0")
+                        format!("t_ms: \"{shown}\" is not a whole number of milliseconds (accepted range 0 to {})", u64::MAX)
                     })?);
                 }
                 "t_s" => s.t_s = Some(num()?),
@@ -278,7 +282,7 @@ impl CsvHeader {
                         "tube_west" => PierSide::TubeWest,
                         _ => {
                             return Err(format!(
-                                "pier_side: \"{cell}\" is not tube_east or tube_west"
+                                "pier_side: \"{shown}\" is not tube_east or tube_west"
                             ))
                         }
                     });
@@ -289,7 +293,7 @@ impl CsvHeader {
                 "temp_c" => s.temp_c = Some(num()?),
                 "pressure_hpa" => s.pressure_hpa = Some(num()?),
                 "ack" => s.ack = Some(flag()?),
-                _ => return Err(format!("unknown column \"{name}\"")),
+                _ => return Err(format!("unknown column \"{}\"", bounded(name))),
             }
         }
         Ok(s)
@@ -301,7 +305,10 @@ fn check(name: &str, v: f64, min: f64, max: f64, unit: &str) -> Result<f64, Stri
         Ok(v)
     } else {
         Err(format!(
-            "{name} = {v} is outside the accepted range {min} to {max} {unit}"
+            "{name} = {} is outside the accepted range {} to {} {unit}",
+            fmt_g(v),
+            fmt_g(min),
+            fmt_g(max)
         ))
     }
 }
@@ -680,6 +687,14 @@ pub enum Answer {
     Error(String),
 }
 
+/// Largest step forward of a sample's time over the last accepted one, ms
+/// (one hour). A line further ahead is answered with an error and does not
+/// move the guard's clock, so one far-off time stamp cannot make every
+/// later good line "earlier" and refused. A stream that really resumes
+/// after a longer pause needs a new bridge. (With no sample for that long
+/// the guard has long reported its sensors stale.)
+pub const MAX_STEP_MS: u64 = 3_600_000;
+
 /// The bridge state: the rig, the guard (started at the first usable time)
 /// and the values that hold between lines.
 pub struct Bridge<'r> {
@@ -719,12 +734,7 @@ impl<'r> Bridge<'r> {
     pub fn start(&mut self, now: Millis) -> Result<(), Error> {
         if self.guard.is_none() {
             let g = Guard::new(&self.rig.rig, self.config.clone(), now).map_err(|e| {
-                Error::Input(crate::located::InputError {
-                    at: None,
-                    key: Some(e.field.to_owned()),
-                    value: None,
-                    problem: format!("{}: the guard cannot start: {e}", self.rig.file),
-                })
+                crate::rigfile::after_load_error(&self.rig.file, "the guard cannot start", &e)
             })?;
             let mut g = g;
             // The site's air until measured air arrives.
@@ -741,6 +751,18 @@ impl<'r> Bridge<'r> {
     /// Only when the guard cannot start (a rig-file problem); line problems
     /// are [`Answer::Error`].
     pub fn line(&mut self, n: u64, text: &str, wall: Option<Millis>) -> Result<Answer, Error> {
+        Ok(match self.line_unbounded(n, text, wall)? {
+            Answer::Error(e) => Answer::Error(bounded_to(&e, MAX_PROBLEM_CHARS)),
+            other => other,
+        })
+    }
+
+    fn line_unbounded(
+        &mut self,
+        n: u64,
+        text: &str,
+        wall: Option<Millis>,
+    ) -> Result<Answer, Error> {
         let text = text.trim();
         if text.is_empty() {
             return Ok(Answer::Nothing);
@@ -777,8 +799,22 @@ impl<'r> Bridge<'r> {
         if let Some(last) = self.last_t {
             if now < last {
                 return Ok(Answer::Error(format!(
-                    "time went backwards: {} ms after {} ms",
-                    now.0, last.0
+                    "time went backwards: {} ms after {} ms (accepted: {} to {} ms)",
+                    now.0,
+                    last.0,
+                    last.0,
+                    last.0.saturating_add(MAX_STEP_MS)
+                )));
+            }
+            if wall.is_none() && now.0 - last.0 > MAX_STEP_MS {
+                return Ok(Answer::Error(format!(
+                    "time jumps {} ms ahead of the last accepted sample ({} ms); \
+                     accepted: {} to {} ms (at most {} s ahead); line not used, the clock stays",
+                    now.0 - last.0,
+                    last.0,
+                    last.0,
+                    last.0.saturating_add(MAX_STEP_MS),
+                    MAX_STEP_MS / 1000
                 )));
             }
         }
@@ -911,9 +947,10 @@ pub fn run(
                 });
                 bridge.line(n, &buf, wall)?
             }
-            Err(e) if e.kind() == std::io::ErrorKind::InvalidData => {
-                Answer::Error(format!("cannot read the line: {e}"))
-            }
+            Err(e) if e.kind() == std::io::ErrorKind::InvalidData => Answer::Error(bounded_to(
+                &format!("cannot read the line: {e}"),
+                MAX_PROBLEM_CHARS,
+            )),
             Err(e) => return Err(Error::io("<standard input>", e)),
         };
         match answer {

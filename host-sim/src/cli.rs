@@ -53,9 +53,15 @@ pub enum Command {
 /// Arguments of `gen-demo`.
 #[derive(Debug, Args)]
 pub struct GenDemoArgs {
-    /// Folder to write into (created if missing; files in it are replaced).
+    /// Folder to write into (created if missing). Files of the same names
+    /// are replaced only when standfast wrote them and they are unchanged,
+    /// unless --replace is given.
     #[arg(long, value_name = "DIR")]
     pub out: PathBuf,
+    /// Replace files of the same names in the --out folder even when
+    /// standfast did not write them.
+    #[arg(long)]
+    pub replace: bool,
     /// Seed of the random streams; the same seed gives the same bytes.
     #[arg(long, default_value_t = 2025)]
     pub seed: u64,
@@ -63,21 +69,88 @@ pub struct GenDemoArgs {
     /// demo night.
     #[arg(long)]
     pub bench: bool,
-    /// Length of the benchmark log in hours (24 h is 4 320 000 rows).
-    #[arg(long, default_value_t = 24.0, requires = "bench", value_parser = parse_hours)]
-    pub hours: f64,
+    /// Length of the benchmark log: hours, or a time with a unit ("90 min");
+    /// more than 0, up to 240 h (24 h is 4 320 000 rows).
+    #[arg(
+        long,
+        value_name = "H",
+        default_value = "24",
+        requires = "bench",
+        allow_hyphen_values = true
+    )]
+    pub hours: String,
 }
 
-fn parse_hours(s: &str) -> Result<f64, String> {
-    let h: f64 = s
-        .parse()
-        .map_err(|_| format!("\"{s}\" is not a number of hours"))?;
-    if h.is_finite() && h > 0.0 && h <= 240.0 {
-        Ok(h)
+/// The accepted range of an option, for messages: `0 to 360 deg`, or
+/// `more than 0 h, up to 9 h` when the lower bound is excluded.
+fn range_text(lo: f64, hi: f64, lo_open: bool, unit: &str) -> String {
+    use crate::located::fmt_g;
+    if lo_open {
+        format!("more than {} {unit}, up to {} {unit}", fmt_g(lo), fmt_g(hi))
     } else {
-        Err(format!("{s} h is outside the accepted range 0 to 240 h"))
+        format!("{} to {} {unit}", fmt_g(lo), fmt_g(hi))
     }
 }
+
+/// The accepted range and unit of a numeric option.
+#[derive(Clone, Copy, Debug)]
+pub struct OptionRange {
+    /// Lowest accepted value, in `unit`.
+    pub lo: f64,
+    /// Highest accepted value, in `unit`.
+    pub hi: f64,
+    /// Whether `lo` itself is refused.
+    pub lo_open: bool,
+    /// The unit of a plain number and of the range in messages.
+    pub unit: &'static str,
+}
+
+/// Reads a numeric command-line option that may carry a unit (`"45 mph"`,
+/// `"270 deg"`, `"90 min"`; a plain number is in `range.unit`), checks
+/// that it is finite and within the range, and returns it in SI.
+///
+/// # Errors
+/// [`Error::Usage`] (exit code 2) naming the option, the value (bounded),
+/// what is wrong and the accepted range.
+pub fn quantity_option<D: crate::units::Dimension>(
+    option: &str,
+    text: &str,
+    range: OptionRange,
+) -> Result<f64, Error> {
+    let accepted = range_text(range.lo, range.hi, range.lo_open, range.unit);
+    let bad = |problem: String| {
+        Error::Usage(format!(
+            "{option} = \"{}\": {problem}",
+            crate::located::bounded(text)
+        ))
+    };
+    let q = crate::units::Quantity::<D>::parse_or(text, range.unit)
+        .map_err(|e| bad(format!("{e}; accepted range {accepted}")))?;
+    let unit = D::DIM.unit(range.unit).map_err(|e| bad(e.to_string()))?;
+    let v = unit.from_si(q.si());
+    let low_ok = if range.lo_open {
+        v > range.lo
+    } else {
+        v >= range.lo
+    };
+    if v.is_finite() && q.si().is_finite() && low_ok && v <= range.hi {
+        Ok(q.si())
+    } else {
+        Err(bad(format!(
+            "outside the accepted range {accepted} (this value is {} {})",
+            crate::located::fmt_g(v),
+            range.unit
+        )))
+    }
+}
+
+/// Accepted length of the benchmark log.
+pub const BENCH_HOURS: OptionRange = OptionRange {
+    lo: 0.0,
+    hi: 240.0,
+    lo_open: true,
+    unit: "h",
+};
 
 /// Runs a parsed command, writing what a person reads to `out`.
 ///
@@ -97,8 +170,12 @@ pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
 
 fn gen_demo(a: &GenDemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     let stdout = |e| Error::io("<standard output>", e);
+    let hours =
+        quantity_option::<crate::units::TimeDim>("--hours", &a.hours, BENCH_HOURS)? / 3600.0;
+    let mut folder = crate::output::OwnedFolder::open(&a.out, a.replace)?;
     if a.bench {
-        let b = demo_data::write_bench_log(&a.out, a.seed, a.hours)?;
+        folder.check(&[demo_data::BENCH_CSV, demo_data::BENCH_PROFILE_TOML])?;
+        let b = demo_data::write_bench_log_in(&mut folder, a.seed, hours)?;
         writeln!(
             out,
             "wrote {} rows of invented 50 Hz data:\n  {}\n  {}",
@@ -110,7 +187,8 @@ fn gen_demo(a: &GenDemoArgs, out: &mut dyn Write) -> Result<(), Error> {
         return Ok(());
     }
     let plan = NightPlan::windy_night(a.seed);
-    let logs = demo_data::write_demo_logs(&a.out, &plan)?;
+    folder.check(&demo_data::DEMO_LOG_FILES)?;
+    let logs = demo_data::write_demo_logs_in(&mut folder, &plan)?;
     writeln!(
         out,
         "wrote an invented windy night (seed {}):\n  {}\n  {}\n  {}\n  {}\nAll data are invented; no real rig or site is described.",

@@ -20,8 +20,7 @@
 //! component has `σ_v = 0.75 σ_u` and a third of the time scale (typical
 //! surface-layer ratios, from memory).
 
-use std::fs;
-use std::io::{BufWriter, Write};
+use std::io::Write;
 use std::path::{Path, PathBuf};
 
 use rand::{Rng, SeedableRng};
@@ -29,6 +28,7 @@ use rand_chacha::ChaCha8Rng;
 
 use crate::error::Error;
 use crate::log::time::{write_iso8601, Timestamp, NS_PER_S};
+use crate::output::OwnedFolder;
 
 /// Terrain categories of EN 1991-1-4 Table 4.1.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -356,40 +356,51 @@ pub const DEMO_PROFILE_TOML: &str = "night-log-profile.toml";
 /// Counts per g of the invented accelerometer (16-bit at ±2 g).
 pub const ACCEL_COUNTS_PER_G: f64 = 16_384.0;
 
-fn create(path: &Path) -> Result<BufWriter<fs::File>, Error> {
-    let f = fs::File::create(path).map_err(|e| Error::io(path, e))?;
-    Ok(BufWriter::with_capacity(1 << 20, f))
-}
-
-fn finish(mut w: BufWriter<fs::File>, path: &Path) -> Result<(), Error> {
-    w.flush().map_err(|e| Error::io(path, e))
-}
+/// The files [`write_demo_logs`] writes, by name.
+pub const DEMO_LOG_FILES: [&str; 4] = [
+    DEMO_WIND_CSV,
+    DEMO_ACCEL_CSV,
+    DEMO_MOUNT_CSV,
+    DEMO_PROFILE_TOML,
+];
 
 /// Writes the night's three logs and their profile into `dir` (created if
-/// missing). The rig file for the demo is written by the rig module.
+/// missing), each atomically. Files of those names already there are
+/// replaced only when this command wrote them and they are unchanged (see
+/// [`OwnedFolder`]). The rig file for the demo is written by the rig module.
+///
+/// # Errors
+/// [`Error::Usage`] when a file there was not written by this command;
+/// [`Error::Io`] when the folder or a file cannot be written.
+pub fn write_demo_logs(dir: &Path, plan: &NightPlan) -> Result<DemoLogs, Error> {
+    let mut folder = OwnedFolder::open(dir, false)?;
+    folder.check(&DEMO_LOG_FILES)?;
+    write_demo_logs_in(&mut folder, plan)
+}
+
+/// As [`write_demo_logs`], into a folder already opened and checked.
 ///
 /// # Errors
 /// [`Error::Io`] when the folder or a file cannot be written.
-pub fn write_demo_logs(dir: &Path, plan: &NightPlan) -> Result<DemoLogs, Error> {
-    fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+pub fn write_demo_logs_in(folder: &mut OwnedFolder, plan: &NightPlan) -> Result<DemoLogs, Error> {
     let wind = plan.wind();
+    let dir = folder.dir().to_path_buf();
     let logs = DemoLogs {
         wind_csv: dir.join(DEMO_WIND_CSV),
         accel_csv: dir.join(DEMO_ACCEL_CSV),
         mount_csv: dir.join(DEMO_MOUNT_CSV),
         profile_toml: dir.join(DEMO_PROFILE_TOML),
     };
-    let mut w = create(&logs.wind_csv)?;
+    let mut w = folder.create(DEMO_WIND_CSV)?;
     write_wind_log(&mut w, plan, &wind).map_err(|e| Error::io(&logs.wind_csv, e))?;
-    finish(w, &logs.wind_csv)?;
-    let mut w = create(&logs.accel_csv)?;
+    folder.commit(w)?;
+    let mut w = folder.create(DEMO_ACCEL_CSV)?;
     write_accel_log(&mut w, plan, &wind).map_err(|e| Error::io(&logs.accel_csv, e))?;
-    finish(w, &logs.accel_csv)?;
-    let mut w = create(&logs.mount_csv)?;
+    folder.commit(w)?;
+    let mut w = folder.create(DEMO_MOUNT_CSV)?;
     write_mount_log(&mut w, plan).map_err(|e| Error::io(&logs.mount_csv, e))?;
-    finish(w, &logs.mount_csv)?;
-    fs::write(&logs.profile_toml, demo_profile_toml())
-        .map_err(|e| Error::io(&logs.profile_toml, e))?;
+    folder.commit(w)?;
+    folder.write(DEMO_PROFILE_TOML, demo_profile_toml().as_bytes())?;
     Ok(logs)
 }
 
@@ -773,7 +784,20 @@ pub const BENCH_PROFILE_TOML: &str = "bench-log-profile.toml";
 /// Writes a pre-merged log of `hours` at 50 Hz (24 h: 4 320 000 rows) into
 /// `dir`: accelerometer counts on every row, wind on every 50th (1 Hz),
 /// mount on every 500th (0.1 Hz), empty cells otherwise. Uses the windy
-/// night's models, stretched to `hours`.
+/// night's models, stretched to `hours`. Existing files are replaced only
+/// when this command wrote them and they are unchanged (see
+/// [`OwnedFolder`]).
+///
+/// # Errors
+/// [`Error::Usage`] when a file there was not written by this command;
+/// [`Error::Io`] when the folder or a file cannot be written.
+pub fn write_bench_log(dir: &Path, seed: u64, hours: f64) -> Result<BenchLog, Error> {
+    let mut folder = OwnedFolder::open(dir, false)?;
+    folder.check(&[BENCH_CSV, BENCH_PROFILE_TOML])?;
+    write_bench_log_in(&mut folder, seed, hours)
+}
+
+/// As [`write_bench_log`], into a folder already opened and checked.
 ///
 /// # Errors
 /// [`Error::Io`] when the folder or a file cannot be written.
@@ -782,8 +806,12 @@ pub const BENCH_PROFILE_TOML: &str = "bench-log-profile.toml";
     clippy::cast_sign_loss,
     clippy::cast_precision_loss
 )]
-pub fn write_bench_log(dir: &Path, seed: u64, hours: f64) -> Result<BenchLog, Error> {
-    fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+pub fn write_bench_log_in(
+    folder: &mut OwnedFolder,
+    seed: u64,
+    hours: f64,
+) -> Result<BenchLog, Error> {
+    let dir = folder.dir().to_path_buf();
     let csv = dir.join(BENCH_CSV);
     let profile_toml = dir.join(BENCH_PROFILE_TOML);
     let mut plan = NightPlan::windy_night(seed);
@@ -793,7 +821,7 @@ pub fn write_bench_log(dir: &Path, seed: u64, hours: f64) -> Result<BenchLog, Er
     let wind = plan.wind();
     let mut normal = Normal::new(seed, 5);
     let rows = (plan.duration_s * 50.0) as u64;
-    let mut w = create(&csv)?;
+    let mut w = folder.create(BENCH_CSV)?;
     let io = |e| Error::io(&csv, e);
     w.write_all(b"t,ax,ay,az,wind_mps,wind_from_deg,ha_deg,dec_deg,pier,cover\n")
         .map_err(io)?;
@@ -838,7 +866,7 @@ pub fn write_bench_log(dir: &Path, seed: u64, hours: f64) -> Result<BenchLog, Er
         }
     }
     w.write_all(&buf).map_err(io)?;
-    finish(w, &csv)?;
+    folder.commit(w)?;
     let profile = format!(
         r#"# Log profile of the benchmark log (standfast gen-demo --bench).
 [log]
@@ -861,7 +889,7 @@ cover_fitted = {{ column = "cover" }}
 "#,
         s = 1.0 / ACCEL_COUNTS_PER_G
     );
-    fs::write(&profile_toml, profile).map_err(|e| Error::io(&profile_toml, e))?;
+    folder.write(BENCH_PROFILE_TOML, profile.as_bytes())?;
     Ok(BenchLog {
         csv,
         profile_toml,

@@ -4,7 +4,7 @@
 //! |---:|---|
 //! | 0 | success |
 //! | 1 | bad input: a rig file, log profile or log that cannot be used (the message names file, line and key) |
-//! | 2 | bad command line (unknown option, missing argument; printed by the argument parser) |
+//! | 2 | bad command line: unknown option, missing argument, an option value out of range (printed by the argument parser), an output path that is an input or another output, a demo folder holding files standfast did not write |
 //! | 3 | I/O: a file or folder cannot be read or written |
 
 use std::path::PathBuf;
@@ -43,6 +43,11 @@ pub enum Error {
     /// such row.
     #[error("{0}")]
     Log(Issue),
+    /// The command line cannot be carried out as given (an output path that
+    /// is an input or another output, an option value out of range, a file
+    /// the command would replace without being asked to).
+    #[error("{0}")]
+    Usage(String),
 }
 
 impl Error {
@@ -60,6 +65,7 @@ impl Error {
         match self {
             Error::Io { .. } => exit::IO,
             Error::Input(_) | Error::Log(_) => exit::INPUT,
+            Error::Usage(_) => exit::USAGE,
         }
     }
 }

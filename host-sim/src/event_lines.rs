@@ -139,14 +139,12 @@ pub fn lines(report: &ReplayReport) -> Result<String, Error> {
     Ok(out)
 }
 
-/// Writes [`lines`] to `path`, creating its folder.
+/// Writes [`lines`] to `path` atomically (temporary file and rename),
+/// creating its folder.
 ///
 /// # Errors
 /// As [`lines`]; [`Error::Io`] when the file cannot be written.
 pub fn write_file(report: &ReplayReport, path: &Path) -> Result<(), Error> {
     let text = lines(report)?;
-    if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
-        std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
-    }
-    std::fs::write(path, text).map_err(|e| Error::io(path, e))
+    crate::output::write_atomic(path, text.as_bytes()).map(|_| ())
 }

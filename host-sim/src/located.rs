@@ -59,17 +59,91 @@ pub struct InputError {
 }
 
 impl fmt::Display for InputError {
+    /// `file:line:column: key = value: problem`, the key and value bounded
+    /// to twice [`ECHO_CHARS`] and the problem to [`MAX_PROBLEM_CHARS`].
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         if let Some(at) = &self.at {
             write!(f, "{at}: ")?;
         }
+        // Twice the echo limit, so a value a caller already bounded (and
+        // quoted) is shown whole with its byte count.
+        let b = |t: &str| bounded_to(t, 2 * ECHO_CHARS);
         match (&self.key, &self.value) {
-            (Some(k), Some(v)) => write!(f, "{k} = {v}: ")?,
-            (Some(k), None) => write!(f, "{k}: ")?,
-            (None, Some(v)) => write!(f, "{v}: ")?,
+            (Some(k), Some(v)) => write!(f, "{} = {}: ", b(k), b(v))?,
+            (Some(k), None) => write!(f, "{}: ", b(k))?,
+            (None, Some(v)) => write!(f, "{}: ", b(v))?,
             (None, None) => {}
         }
-        f.write_str(&self.problem)
+        f.write_str(&bounded_to(&self.problem, MAX_PROBLEM_CHARS))
+    }
+}
+
+/// Most characters of a value written by a person (or a program) that a
+/// message repeats; longer values are cut and their length in bytes given.
+pub const ECHO_CHARS: usize = 60;
+
+/// Most characters of the problem part of a message (which may quote a
+/// parser's message, itself quoting the input).
+pub const MAX_PROBLEM_CHARS: usize = 600;
+
+/// `text` for a message: control characters escaped (`\u{1b}`), cut after
+/// [`ECHO_CHARS`] characters with its length in bytes added
+/// (`"aaaa…" (20000000 bytes)`).
+#[must_use]
+pub fn bounded(text: &str) -> String {
+    bounded_to(text, ECHO_CHARS)
+}
+
+/// As [`bounded`] with a limit of `max_chars`.
+#[must_use]
+pub fn bounded_to(text: &str, max_chars: usize) -> String {
+    let mut out = String::with_capacity(text.len().min(max_chars + 32));
+    let mut cut = false;
+    // Counted in characters written, so escapes (6 for `\u{7f}`) count in
+    // full and the limit holds whatever the text.
+    let mut n = 0;
+    for c in text.chars() {
+        let width = if c.is_control() {
+            c.escape_default().count()
+        } else {
+            1
+        };
+        if n + width > max_chars {
+            cut = true;
+            break;
+        }
+        n += width;
+        if c.is_control() {
+            out.extend(c.escape_default());
+        } else {
+            out.push(c);
+        }
+    }
+    if cut {
+        out.push_str(&format!("… ({} bytes)", text.len()));
+    }
+    out
+}
+
+/// As [`bounded`] for bytes that may not be UTF-8 (invalid sequences shown
+/// as U+FFFD).
+#[must_use]
+pub fn bounded_bytes(bytes: &[u8]) -> String {
+    let head = bytes
+        .get(..bytes.len().min(ECHO_CHARS * 4))
+        .unwrap_or(bytes);
+    let text = String::from_utf8_lossy(head);
+    let b = bounded(&text);
+    if head.len() < bytes.len() && !b.ends_with(" bytes)") {
+        format!("{b}… ({} bytes)", bytes.len())
+    } else if head.len() < bytes.len() {
+        // Cut by characters already; give the whole length.
+        match b.rfind("… (") {
+            Some(i) => format!("{}… ({} bytes)", b.get(..i).unwrap_or(""), bytes.len()),
+            None => b,
+        }
+    } else {
+        b
     }
 }
 
@@ -98,10 +172,27 @@ impl SourceText {
     /// Reads a file.
     ///
     /// # Errors
-    /// [`Error::Io`] when the file cannot be read (or is not UTF-8).
+    /// [`Error::Io`] when the file cannot be read; [`Error::Input`] naming
+    /// the line and column when it is not UTF-8 text.
     pub fn read(path: &Path) -> Result<SourceText, Error> {
-        let text = std::fs::read_to_string(path).map_err(|e| Error::io(path, e))?;
-        Ok(SourceText::new(path.display().to_string(), text))
+        let bytes = std::fs::read(path).map_err(|e| Error::io(path, e))?;
+        let name = path.display().to_string();
+        match String::from_utf8(bytes) {
+            Ok(text) => Ok(SourceText::new(name, text)),
+            Err(e) => {
+                let good = e.utf8_error().valid_up_to();
+                let head = String::from_utf8_lossy(e.as_bytes().get(..good).unwrap_or_default())
+                    .into_owned();
+                let at = SourceText::new(name, head).location(good);
+                Err(Error::Input(InputError {
+                    at: Some(at),
+                    key: None,
+                    value: None,
+                    problem: "the file is not UTF-8 text (accepted: UTF-8, which includes ASCII)"
+                        .to_owned(),
+                }))
+            }
+        }
     }
 
     /// The file name.
@@ -185,8 +276,126 @@ impl SourceText {
         (!key.is_empty()).then_some(key)
     }
 
+    /// The table a line belongs to, as a dotted path with the index of
+    /// each array of tables (`body[1]`, `log.file[0].columns`), from the
+    /// headers above it; empty at the top level.
+    #[must_use]
+    pub fn table_path(&self, line: usize) -> String {
+        let mut counts: std::collections::HashMap<String, usize> = std::collections::HashMap::new();
+        let mut current = String::new();
+        for l in 1..line {
+            let t = self.line(l).trim();
+            let (is_array, inner) = if let Some(r) = t.strip_prefix("[[") {
+                (true, r.split("]]").next().unwrap_or(""))
+            } else if let Some(r) = t.strip_prefix('[') {
+                (false, r.split(']').next().unwrap_or(""))
+            } else {
+                continue;
+            };
+            let parts: Vec<String> = inner
+                .split('.')
+                .map(|p| p.trim().trim_matches('"').to_owned())
+                .collect();
+            let name = parts.join(".");
+            if is_array {
+                *counts.entry(name.clone()).or_insert(0) += 1;
+                // A new element resets the counts of arrays inside it.
+                let prefix = format!("{name}.");
+                counts.retain(|k, _| !k.starts_with(&prefix));
+            }
+            let mut path = String::new();
+            let mut so_far = String::new();
+            for (i, p) in parts.iter().enumerate() {
+                if i > 0 {
+                    so_far.push('.');
+                    path.push('.');
+                }
+                so_far.push_str(p);
+                path.push_str(p);
+                if let Some(n) = counts.get(&so_far) {
+                    path.push_str(&format!("[{}]", n.saturating_sub(1)));
+                }
+            }
+            current = path;
+        }
+        current
+    }
+
+    /// The inline tables open at `offset` on its line (`tripod` in
+    /// `tripod = { leg_spread = "x" }`), outermost first.
+    fn inline_tables(&self, offset: usize) -> Vec<String> {
+        let at = self.location(offset);
+        let line = self.line(at.line);
+        let head: String = line.chars().take(at.column.saturating_sub(1)).collect();
+        let mut stack: Vec<String> = Vec::new();
+        let mut in_string = false;
+        let mut last_key = String::new();
+        let mut word = String::new();
+        for c in head.chars() {
+            if c == '"' {
+                in_string = !in_string;
+                continue;
+            }
+            if in_string {
+                continue;
+            }
+            match c {
+                '=' => last_key = word.trim().trim_matches('"').to_owned(),
+                '{' => stack.push(std::mem::take(&mut last_key)),
+                '}' => {
+                    stack.pop();
+                }
+                _ => {}
+            }
+            if c.is_alphanumeric() || matches!(c, '_' | '-' | '.') {
+                word.push(c);
+            } else if !c.is_whitespace() {
+                word.clear();
+            } else if !word.is_empty() && c.is_whitespace() {
+                // A space ends a word only before something else starts.
+            }
+            if matches!(c, ',' | '{' | '[') {
+                word.clear();
+            }
+        }
+        stack.retain(|k| !k.is_empty());
+        stack
+    }
+
+    /// The full dotted key of the value at `offset` (section, inline
+    /// tables, key: `body[1].mass`, `support.tripod.leg_spread`), when a key
+    /// is written before it on its line.
+    #[must_use]
+    pub fn full_key_before(&self, offset: usize) -> Option<String> {
+        let leaf = self.key_before(offset)?;
+        Some(self.full_key(offset, &leaf))
+    }
+
+    /// `leaf` prefixed by the table and inline tables open at `offset`.
+    fn full_key(&self, offset: usize, leaf: &str) -> String {
+        let at = self.location(offset);
+        // On a table header, the header names the table itself.
+        let here = self.line(at.line).trim();
+        if here.starts_with('[') {
+            let inner = here.trim_start_matches('[');
+            let inner = inner.split(']').next().unwrap_or(inner).trim();
+            if inner.ends_with(leaf) {
+                return inner.to_owned();
+            }
+        }
+        let mut parts: Vec<String> = Vec::new();
+        let table = self.table_path(at.line);
+        if !table.is_empty() {
+            parts.push(table);
+        }
+        parts.extend(self.inline_tables(offset));
+        parts.push(leaf.to_owned());
+        parts.join(".")
+    }
+
     /// Deserialises the whole text as TOML into `T`; a syntax or type error
-    /// is located and names the key where it can.
+    /// is located and names the full key where it can; an unknown key is
+    /// named with the nearest accepted one.
     ///
     /// # Errors
     /// [`InputError`] with the file, line, column, key and the parser's
@@ -194,10 +403,24 @@ impl SourceText {
     pub fn parse_toml<T: DeserializeOwned>(&self) -> Result<T, InputError> {
         toml::from_str(&self.text).map_err(|e| {
             let span = e.span();
+            let message = e.message().trim().to_owned();
+            if let (Some(s), Some((unknown, accepted))) = (&span, unknown_field(&message)) {
+                let key = self.full_key(s.start, &unknown);
+                let hint = match nearest(&unknown, &accepted) {
+                    Some(n) => format!("; did you mean `{n}`?"),
+                    None => String::new(),
+                };
+                return InputError {
+                    at: Some(self.location(s.start)),
+                    key: Some(key),
+                    value: None,
+                    problem: format!("unknown key{hint} (accepted here: {})", accepted.join(", ")),
+                };
+            }
             let (at, key, value) = match span {
                 Some(s) => {
                     let value = self.slice(s.clone()).trim().to_owned();
-                    let key = self.key_before(s.start);
+                    let key = self.full_key_before(s.start);
                     let value = (key.is_some() && !value.is_empty() && !value.contains('\n'))
                         .then_some(value);
                     (Some(self.location(s.start)), key, value)
@@ -214,7 +437,7 @@ impl SourceText {
                 }),
                 key,
                 value,
-                problem: e.message().trim().to_owned(),
+                problem: message,
             }
         })
     }
@@ -352,12 +575,69 @@ impl Checker<'_> {
     }
 }
 
-/// Formats a number briefly for messages (up to 6 significant digits, no
-/// trailing zeros).
+/// The unknown name and the accepted ones of serde's "unknown field `x`,
+/// expected one of `a`, `b`" (or "expected `a` or `b`", "expected `a`").
+fn unknown_field(message: &str) -> Option<(String, Vec<String>)> {
+    let rest = message.strip_prefix("unknown field `")?;
+    let (name, rest) = rest.split_once('`')?;
+    let accepted = rest
+        .split('`')
+        .skip(1)
+        .step_by(2)
+        .map(str::to_owned)
+        .collect();
+    Some((name.to_owned(), accepted))
+}
+
+/// Edit distance (Levenshtein) between two short words, in characters.
+#[must_use]
+pub fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    let mut cur = vec![0; b.len() + 1];
+    for (i, ca) in a.chars().enumerate() {
+        if let Some(c0) = cur.first_mut() {
+            *c0 = i + 1;
+        }
+        for (j, cb) in b.iter().enumerate() {
+            let sub = prev.get(j).copied().unwrap_or(0) + usize::from(ca != *cb);
+            let del = prev.get(j + 1).copied().unwrap_or(0) + 1;
+            let ins = cur.get(j).copied().unwrap_or(0) + 1;
+            if let Some(c) = cur.get_mut(j + 1) {
+                *c = sub.min(del).min(ins);
+            }
+        }
+        std::mem::swap(&mut prev, &mut cur);
+    }
+    prev.last().copied().unwrap_or(0)
+}
+
+/// The accepted word nearest to `word` (case-insensitive edit distance at
+/// most a third of its length, at least 2), if any.
+#[must_use]
+pub fn nearest<'a>(word: &str, accepted: &'a [String]) -> Option<&'a str> {
+    if word.chars().count() > 64 {
+        return None;
+    }
+    let w = word.to_lowercase();
+    let limit = (w.chars().count() / 3).max(2);
+    accepted
+        .iter()
+        .map(|a| (edit_distance(&w, &a.to_lowercase()), a))
+        .filter(|(d, _)| *d <= limit)
+        .min_by_key(|(d, _)| *d)
+        .map(|(_, a)| a.as_str())
+}
+
+/// Formats a number briefly for messages (up to 6 decimals, no trailing
+/// zeros; exponent form from 10¹² up, so a huge value stays short).
 #[must_use]
 pub fn fmt_g(x: f64) -> String {
     if x == 0.0 || !x.is_finite() {
         return format!("{x}");
+    }
+    if x.abs() >= 1e12 {
+        return format!("{x:e}");
     }
     let s = format!("{x:.6}");
     let s = s.trim_end_matches('0').trim_end_matches('.');

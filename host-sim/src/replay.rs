@@ -27,8 +27,8 @@ use standfast::sense::Millis;
 use standfast::sense::Mounting;
 
 use crate::error::Error;
-use crate::located::InputError;
 use crate::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
+use crate::output::{check_paths, AtomicFile, OwnedFolder, Role};
 use crate::rigfile::LoadedRig;
 
 /// Standard gravity, m/s² (ISO 80000-3; 3rd CGPM 1901).
@@ -210,12 +210,7 @@ pub struct ReplayReport {
 pub const FIRST_ISSUES: usize = 10;
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    Error::Input(InputError {
-        at: None,
-        key: Some(e.field.to_owned()),
-        value: None,
-        problem: format!("{file}: the guard cannot start: {e}"),
-    })
+    crate::rigfile::after_load_error(file, "the guard cannot start", e)
 }
 
 #[allow(clippy::cast_possible_truncation)] // log values fit f32
@@ -804,32 +799,47 @@ pub struct ReplayArgs {
 /// Arguments of `demo`.
 #[derive(Debug, clap::Args)]
 pub struct DemoArgs {
-    /// Folder for the invented night's logs, profile, rig file and verdicts
-    /// (created if missing; files in it are replaced).
+    /// Folder for the invented night's logs, profile, rig file, verdicts and
+    /// report (created if missing). Files of the same names are replaced
+    /// only when standfast wrote them and they are unchanged, unless
+    /// --replace is given.
     #[arg(long, value_name = "DIR", default_value = "target/standfast-demo")]
     pub out: std::path::PathBuf,
+    /// Replace files of the same names in the --out folder even when
+    /// standfast did not write them (for example your own rig.toml).
+    #[arg(long)]
+    pub replace: bool,
     /// Seed of the invented night.
     #[arg(long, default_value_t = 2025)]
     pub seed: u64,
-    /// Length of the night in hours (default: the whole invented night,
-    /// 9 h); shorter nights replay faster.
-    #[arg(long, value_name = "H", value_parser = parse_demo_hours)]
-    pub hours: Option<f64>,
+    /// Length of the night: hours, or a time with a unit ("90 min"); more
+    /// than 0, up to 9 h (default: the whole invented night, 9 h); shorter
+    /// nights replay faster.
+    #[arg(long, value_name = "H", allow_hyphen_values = true)]
+    pub hours: Option<String>,
     /// Print the summary as JSON instead of text.
     #[arg(long)]
     pub json: bool,
 }
 
-fn parse_demo_hours(s: &str) -> Result<f64, String> {
-    let h: f64 = s
-        .parse()
-        .map_err(|_| format!("\"{s}\" is not a number of hours"))?;
-    if h.is_finite() && h > 0.0 && h <= 9.0 {
-        Ok(h)
-    } else {
-        Err(format!("{s} h is outside the accepted range 0 to 9 h"))
-    }
-}
+/// Accepted length of the demo night.
+pub const DEMO_HOURS: crate::cli::OptionRange = crate::cli::OptionRange {
+    lo: 0.0,
+    hi: 9.0,
+    lo_open: true,
+    unit: "h",
+};
+
+/// The files `standfast demo` writes into its folder.
+pub const DEMO_FILES: [&str; 7] = [
+    crate::demo_data::DEMO_WIND_CSV,
+    crate::demo_data::DEMO_ACCEL_CSV,
+    crate::demo_data::DEMO_MOUNT_CSV,
+    crate::demo_data::DEMO_PROFILE_TOML,
+    "rig.toml",
+    "verdicts.csv",
+    "report.html",
+];
 
 /// The demo rig file (invented), as shipped in `host-sim/demo/rig.toml`.
 pub const DEMO_RIG_TOML: &str = include_str!("../demo/rig.toml");
@@ -854,66 +864,114 @@ pub fn open_logs_with(
     logs: &[std::path::PathBuf],
     policy: Option<crate::log::ErrorPolicy>,
 ) -> Result<Merger, Error> {
+    let p = load_profile(profile, logs)?;
+    Merger::open(&p, policy.unwrap_or(p.on_error))
+}
+
+/// Reads a log profile and replaces its files' paths by `logs` when given.
+///
+/// # Errors
+/// [`Error::Input`] when the count of `logs` does not match the profile;
+/// the profile's errors.
+pub fn load_profile(
+    profile: &std::path::Path,
+    logs: &[std::path::PathBuf],
+) -> Result<crate::log::LogProfile, Error> {
     let mut p = crate::log::LogProfile::load(profile)?;
     if !logs.is_empty() {
         if logs.len() != p.files.len() {
-            return Err(Error::Input(InputError {
-                at: None,
-                key: Some("log.file".to_owned()),
-                value: Some(logs.len().to_string()),
-                problem: format!(
-                    "{} log files given but the profile {} lists {}",
-                    logs.len(),
-                    profile.display(),
-                    p.files.len()
-                ),
-            }));
+            return Err(Error::Usage(format!(
+                "{} log files given on the command line but the profile {} lists {} \
+                 (give as many as it lists, in its order, or none)",
+                logs.len(),
+                profile.display(),
+                p.files.len()
+            )));
         }
         for (f, l) in p.files.iter_mut().zip(logs) {
             f.path.clone_from(l);
             l.display().to_string().clone_into(&mut f.label);
         }
     }
-    Merger::open(&p, policy.unwrap_or(p.on_error))
+    Ok(p)
 }
 
+/// Runs the replay, writing the verdict CSV (when asked) into a temporary
+/// file that the caller commits.
 fn replay_files(
     rigs: &[LoadedRig],
     merger: &mut Merger,
     every: u64,
     verdicts: Option<&std::path::Path>,
-) -> Result<ReplayReport, Error> {
+) -> Result<(ReplayReport, Option<AtomicFile>), Error> {
     let options = ReplayOptions {
         verdicts_every: every,
     };
     match verdicts {
         Some(path) => {
-            if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
-                std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
-            }
-            let f = std::fs::File::create(path).map_err(|e| Error::io(path, e))?;
-            let mut w = std::io::BufWriter::new(f);
+            let mut w = AtomicFile::create(path)?;
             let name = path.display().to_string();
-            replay(rigs, merger, options, Some((&mut w, &name)))
+            let rep = replay(rigs, merger, options, Some((&mut w, &name)))?;
+            Ok((rep, Some(w)))
         }
-        None => replay(rigs, merger, options, None),
+        None => Ok((replay(rigs, merger, options, None)?, None)),
     }
+}
+
+/// A whole output in a temporary file, for committing with the others.
+fn pending(path: &std::path::Path, text: &str) -> Result<AtomicFile, Error> {
+    let mut f = AtomicFile::create(path)?;
+    f.write_all(text.as_bytes())
+        .map_err(|e| Error::io(path, e))?;
+    Ok(f)
 }
 
 /// Runs `standfast replay`.
 ///
+/// Outputs (`--verdicts`, `--html`, `--events`) that are the same file as
+/// an input or as each other are refused before anything is read or
+/// written; all outputs are written to temporary files and renamed into
+/// place only when the whole run has succeeded.
+///
 /// # Errors
-/// Bad rig file, profile or log ([`Error::Input`], [`Error::Log`]); files
-/// that cannot be read or written ([`Error::Io`]).
+/// Bad rig file, profile or log ([`Error::Input`], [`Error::Log`]); an
+/// output path refused ([`Error::Usage`]); files that cannot be read or
+/// written ([`Error::Io`]).
 pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
+    let mut outputs = Vec::new();
+    if let Some(p) = &a.verdicts {
+        outputs.push(Role::new("--verdicts", p));
+    }
+    if let Some(p) = &a.html {
+        outputs.push(Role::new("--html", p));
+    }
+    if let Some(p) = &a.events {
+        outputs.push(Role::new("--events", p));
+    }
+    let mut inputs: Vec<Role<'_>> = a
+        .rigs
+        .iter()
+        .map(|r| Role::new("the rig file", r))
+        .collect();
+    if let Some(p) = &a.profile {
+        inputs.push(Role::new("the log profile", p));
+    }
+    inputs.extend(a.logs.iter().map(|l| Role::new("the log", l)));
+    check_paths(&inputs, &outputs)?;
+    let overrides = a
+        .what_if
+        .iter()
+        .map(|t| crate::whatif::parse_override(t))
+        .collect::<Result<Vec<_>, _>>()?;
+
     let rigs = a
         .rigs
         .iter()
         .map(|p| crate::rigfile::load(p))
         .collect::<Result<Vec<_>, _>>()?;
     let mut rigs = rigs;
-    if let (false, Some(base)) = (a.what_if.is_empty(), rigs.first()) {
-        rigs.push(crate::whatif::variant_from_texts(base, &a.what_if)?);
+    if let (false, Some(base)) = (overrides.is_empty(), rigs.first()) {
+        rigs.push(crate::whatif::variant(base, &overrides, &a.what_if)?);
     }
     let profile = match (&a.profile, a.rigs.first()) {
         (Some(p), _) => p.clone(),
@@ -927,14 +985,32 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
             crate::log::ErrorPolicy::Skip
         }
     });
-    let mut merger = open_logs_with(&profile, &a.logs, policy)?;
-    let rep = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
-    crate::whatif::write_summary(&rep, a.json, out)?;
+    let p = load_profile(&profile, &a.logs)?;
+    // The profile's own log paths, known only now: checked before any is
+    // opened.
+    let log_paths: Vec<Role<'_>> = p
+        .files
+        .iter()
+        .map(|f| Role::new("the log", &f.path))
+        .collect();
+    check_paths(&log_paths, &outputs)?;
+    let mut merger = Merger::open(&p, policy.unwrap_or(p.on_error))?;
+    let (rep, verdict_file) = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
+    let mut files: Vec<AtomicFile> = verdict_file.into_iter().collect();
     if let Some(path) = &a.events {
-        crate::event_lines::write_file(&rep, path)?;
+        files.push(pending(path, &crate::event_lines::lines(&rep)?)?);
     }
     if let Some(h) = &a.html {
-        crate::report::write_page(h, &crate::report::replay_html(&rep, &rigs)?)?;
+        files.push(pending(h, &crate::report::replay_html(&rep, &rigs)?)?);
+    }
+    let mut summary = Vec::new();
+    crate::whatif::write_summary(&rep, a.json, &mut summary)?;
+    for f in files {
+        f.commit()?;
+    }
+    out.write_all(&summary)
+        .map_err(|e| Error::io("<standard output>", e))?;
+    if let Some(h) = &a.html {
         if !a.json {
             writeln!(out, "Report written to {}", h.display())
                 .map_err(|e| Error::io("<standard output>", e))?;
@@ -955,23 +1031,36 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
 /// # Errors
 /// As [`run_replay`]; [`Error::Io`] when the folder cannot be written.
 pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
+    let hours = match &a.hours {
+        Some(h) => Some(
+            crate::cli::quantity_option::<crate::units::TimeDim>("--hours", h, DEMO_HOURS)?
+                / 3600.0,
+        ),
+        None => None,
+    };
+    let mut folder = OwnedFolder::open(&a.out, a.replace)?;
+    folder.check(&DEMO_FILES)?;
     let mut plan = crate::demo_data::NightPlan::windy_night(a.seed);
-    if let Some(h) = a.hours {
+    if let Some(h) = hours {
         plan.duration_s = h * 3600.0;
     }
-    let logs = crate::demo_data::write_demo_logs(&a.out, &plan)?;
-    let rig_path = a.out.join("rig.toml");
-    std::fs::write(&rig_path, DEMO_RIG_TOML).map_err(|e| Error::io(&rig_path, e))?;
+    let logs = crate::demo_data::write_demo_logs_in(&mut folder, &plan)?;
+    let rig_path = folder.write("rig.toml", DEMO_RIG_TOML.as_bytes())?;
     let rig = crate::rigfile::load(&rig_path)?;
     let verdicts = a.out.join("verdicts.csv");
     let mut merger = open_logs(&logs.profile_toml, &[])?;
-    let rep = replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
-    crate::summary::write(&rep, a.json, out)?;
+    let (rep, verdict_file) =
+        replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
     let report = a.out.join("report.html");
-    crate::report::write_page(
+    let page = pending(
         &report,
         &crate::report::replay_html(&rep, std::slice::from_ref(&rig))?,
     )?;
+    if let Some(v) = verdict_file {
+        folder.commit(v)?;
+    }
+    folder.commit(page)?;
+    crate::summary::write(&rep, a.json, out)?;
     if !a.json {
         writeln!(out, "\nReport: {}", report.display())
             .map_err(|e| Error::io("<standard output>", e))?;

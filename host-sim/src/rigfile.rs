@@ -887,9 +887,16 @@ type FieldAt = (&'static str, Option<u8>);
 #[derive(Default)]
 struct Spans {
     map: HashMap<FieldAt, (String, Range<usize>)>,
+    /// Keys the core reports under one field (a drive's three ratings are
+    /// all `drives.primary`), told apart by the value the core read.
+    by_value: Vec<(&'static str, f32, String, Range<usize>)>,
 }
 
 impl Spans {
+    fn put_value(&mut self, field: &'static str, value: f32, key: String, span: Range<usize>) {
+        self.by_value.push((field, value, key, span));
+    }
+
     fn put(&mut self, field: &'static str, index: Option<usize>, key: String, span: Range<usize>) {
         let idx = index.map(|i| u8::try_from(i).unwrap_or(u8::MAX));
         self.map.entry((field, idx)).or_insert((key, span));
@@ -945,11 +952,14 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             .m()),
         None => 0.0,
     };
-    let air = Air::isa_at_elevation(elevation_m).map_err(|e| InputError {
-        at: None,
-        key: Some("site.elevation".into()),
-        value: None,
-        problem: e.to_string(),
+    let air = Air::isa_at_elevation(elevation_m).map_err(|e| {
+        let span = file
+            .site
+            .get_ref()
+            .elevation
+            .as_ref()
+            .map_or(file.site.span(), Spanned::span);
+        ck.error("site.elevation", span, e.to_string())
     })?;
 
     // support
@@ -1396,6 +1406,24 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
                 a.span(),
             );
         }
+        for (field, sec) in [
+            ("drives.primary", &g.primary),
+            ("drives.secondary", &g.secondary),
+        ] {
+            let r = sec.get_ref();
+            for (name, v) in [
+                ("rated", &r.rated),
+                ("repeated_peak", &r.repeated_peak),
+                ("momentary_peak", &r.momentary_peak),
+            ] {
+                sp.put_value(
+                    field,
+                    f(v.get_ref().nm()),
+                    format!("{field}.{name}"),
+                    v.span(),
+                );
+            }
+        }
         let r = |s: &S<RatingSec>| DriveRating {
             rated_nm: f(s.get_ref().rated.get_ref().nm()),
             repeated_peak_nm: f(s.get_ref().repeated_peak.get_ref().nm()),
@@ -1668,18 +1696,15 @@ fn shaft_hardware(src: &SourceText, g: &ShaftSec) -> Result<Option<ShaftHardware
             (*mat, (*label).to_owned())
         }
         (None, Some(y)) => {
+            let span = y.span();
             let y = ck.range_f64(
                 "shaft.yield_strength_mpa",
                 y,
                 1.0,
                 f64::from(material::MAX_STRENGTH_MPA),
             )?;
-            let mat = Material::new(f(y), f(y)).map_err(|e| InputError {
-                at: None,
-                key: Some("shaft.yield_strength_mpa".into()),
-                value: None,
-                problem: e.to_string(),
-            })?;
+            let mat = Material::new(f(y), f(y))
+                .map_err(|e| ck.error("shaft.yield_strength_mpa", span.clone(), e.to_string()))?;
             (mat, format!("yield strength {} MPa (as given)", fmt_g(y)))
         }
         (Some(m), Some(_)) => {
@@ -1844,6 +1869,8 @@ fn shown_unit(field: &str) -> (&'static str, f64) {
         ("deg/s", 180.0 / std::f64::consts::PI)
     } else if field.ends_with("_rad") {
         ("deg", 180.0 / std::f64::consts::PI)
+    } else if field.ends_with("_mps") {
+        ("m/s", 1.0)
     } else if field.ends_with("_kg") {
         ("kg", 1.0)
     } else if field.ends_with("_nm") || field.starts_with("drives.") {
@@ -1859,38 +1886,132 @@ fn shown_unit(field: &str) -> (&'static str, f64) {
     }
 }
 
+/// What a core [`standfast::Error`] says, in the file's terms: the problem
+/// and, where there is one, the accepted range in the file's units
+/// (degrees for angles), without the core's internal field names.
+#[must_use]
+pub fn core_problem(e: &standfast::Error) -> String {
+    let (unit, k) = shown_unit(e.field);
+    // Rounded to 4 decimals: the core's f32 limits carry float noise; a
+    // small non-zero limit is written in exponent form, never as 0.
+    let num = |x: f32| {
+        let v = f64::from(x) * k;
+        let r = (v * 1e4).round() / 1e4;
+        if r == 0.0 && v != 0.0 {
+            format!("{v:.3e}")
+        } else {
+            fmt_g(r)
+        }
+    };
+    let sp = if unit.is_empty() { "" } else { " " };
+    match e.kind {
+        standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => {
+            // A bound the core refuses itself (a scale of exactly 0) is
+            // stated as excluded.
+            let range = if e.value.to_bits() == e.min.to_bits() {
+                format!("more than {}{sp}{unit}, up to {}", num(e.min), num(e.max))
+            } else if e.value.to_bits() == e.max.to_bits() {
+                format!("{}{sp}{unit} to less than {}", num(e.min), num(e.max))
+            } else {
+                format!("{} to {}", num(e.min), num(e.max))
+            };
+            format!(
+                "outside the accepted range {range}{sp}{unit} (read as {}{sp}{unit})",
+                num(e.value),
+            )
+        }
+        standfast::ErrorKind::DuplicateFoot => {
+            "two feet are less than 1 mm apart (accepted: feet at least 1 mm apart)".to_owned()
+        }
+        standfast::ErrorKind::CollinearFeet => {
+            "the feet lie on one line and enclose no area (accepted: at least 3 feet not in a line)"
+                .to_owned()
+        }
+        standfast::ErrorKind::TooMany => format!(
+            "too many items (accepted: at most {})",
+            fmt_g(f64::from(e.max))
+        ),
+        standfast::ErrorKind::TooFew => format!(
+            "too few items (accepted: at least {})",
+            fmt_g(f64::from(e.min))
+        ),
+        standfast::ErrorKind::ZeroDirection => {
+            "the direction has zero length (accepted: any direction [x, y, z] not all 0)".to_owned()
+        }
+        standfast::ErrorKind::Unreachable => {
+            "the requested result cannot be reached with these values".to_owned()
+        }
+        standfast::ErrorKind::Inconsistent => {
+            "the measurements disagree with each other or with the geometry beyond their uncertainty"
+                .to_owned()
+        }
+    }
+}
+
+/// A core [`standfast::Error`] met after the rig file `file` was read and
+/// checked (starting the guard, assessing, drawing a report): names the
+/// file and what failed, in the file's terms.
+#[must_use]
+pub fn after_load_error(file: &str, what: &str, e: &standfast::Error) -> Error {
+    Error::Input(InputError {
+        at: None,
+        key: None,
+        value: None,
+        problem: format!("{file}: {what}: {}", core_problem(e)),
+    })
+}
+
 /// Turns a core [`standfast::Error`] into a located error at the key it came
 /// from, with the value as written and the accepted range in the file's
 /// units (degrees for angles).
 fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError {
-    let found = sp
-        .map
-        .get(&(e.field, e.index))
-        .or_else(|| sp.map.get(&(e.field, None)));
-    let (unit, k) = shown_unit(e.field);
-    // Rounded to 4 decimals: the core's f32 limits carry float noise.
-    let num = |x: f32| fmt_g((f64::from(x) * k * 1e4).round() / 1e4);
-    let problem = match e.kind {
-        standfast::ErrorKind::OutOfRange | standfast::ErrorKind::NotFinite => format!(
-            "outside the accepted range {} to {}{}{} (read as {}{}{}; core field {})",
-            num(e.min),
-            num(e.max),
-            if unit.is_empty() { "" } else { " " },
-            unit,
-            num(e.value),
-            if unit.is_empty() { "" } else { " " },
-            unit,
-            e.field
-        ),
-        _ => e.to_string(),
-    };
+    let by_value = sp
+        .by_value
+        .iter()
+        .find(|(field, v, _, _)| *field == e.field && v.to_bits() == e.value.to_bits())
+        .map(|(_, _, key, span)| (key.clone(), span.clone()));
+    let found = by_value.as_ref().or_else(|| {
+        sp.map
+            .get(&(e.field, e.index))
+            .or_else(|| sp.map.get(&(e.field, None)))
+    });
+    let problem = core_problem(e);
     match found {
         Some((key, span)) => src.checker().error(key, span.clone(), problem),
-        None => InputError {
-            at: Some(src.location(0)),
-            key: Some(e.field.to_owned()),
-            value: None,
-            problem,
+        None => match UNWRITTEN_KEYS.iter().find(|(field, _)| *field == e.field) {
+            // A default the file did not override: name the key that would.
+            Some((_, key)) => {
+                let section = key.split('.').next().unwrap_or("");
+                let header = format!("[{section}]");
+                let offset = src
+                    .text()
+                    .match_indices(&header)
+                    .map(|(i, _)| i)
+                    .find(|&i| i == 0 || src.text().get(i - 1..i) == Some("\n"))
+                    .unwrap_or(0);
+                InputError {
+                    at: Some(src.location(offset)),
+                    key: Some((*key).to_owned()),
+                    value: None,
+                    problem: format!("{problem}; not written in the file, so its default applies"),
+                }
+            }
+            None => InputError {
+                at: Some(src.location(0)),
+                key: None,
+                value: None,
+                problem: format!("the rig as described: {problem}"),
+            },
         },
     }
 }
+
+/// Core fields whose value comes from a default when the file does not
+/// write its key, and that key (for messages about a default).
+const UNWRITTEN_KEYS: [(&str, &str); 5] = [
+    ("wind.max_speed_mps", "sensor.wind_max"),
+    ("guard.wind.max_speed_mps", "sensor.wind_max"),
+    ("wind.stale_after_s", "sensor.wind_stale"),
+    ("guard.wind.stale_after_s", "sensor.wind_stale"),
+    ("wind.mean_gust_factor", "sensor.gust_factor"),
+];

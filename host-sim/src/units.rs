@@ -345,14 +345,14 @@ impl Dim {
         for other in Dim::ALL {
             if other != self && find_in(other.units(), spelling).is_some() {
                 return Err(UnitError::WrongDimension {
-                    unit: spelling.to_owned(),
+                    unit: crate::located::bounded(spelling),
                     unit_dim: other,
                     expected: self,
                 });
             }
         }
         Err(UnitError::UnknownUnit {
-            unit: spelling.to_owned(),
+            unit: crate::located::bounded(spelling.trim()),
             expected: self,
         })
     }
@@ -364,41 +364,50 @@ impl fmt::Display for Dim {
     }
 }
 
-/// Canonical form of a unit spelling: separators dropped, powers as digits.
-fn canonical(s: &str) -> String {
-    let mut out = String::with_capacity(s.len());
-    for c in s.trim().chars() {
-        match c {
-            ' ' | '\t' | '·' | '⋅' | '*' | '.' | '-' | '_' | '^' => {}
-            '²' => out.push('2'),
-            '³' => out.push('3'),
-            '⁻' => {}
-            'µ' | 'μ' => out.push('u'),
-            _ => out.push(c),
-        }
+/// The characters of the canonical form of a unit spelling: separators
+/// dropped, powers as digits, micro signs as `u` (no allocation).
+fn canonical_chars(s: &str) -> impl Iterator<Item = char> + '_ {
+    s.trim().chars().filter_map(|c| match c {
+        ' ' | '\t' | '·' | '⋅' | '*' | '.' | '-' | '_' | '^' | '⁻' => None,
+        '²' => Some('2'),
+        '³' => Some('3'),
+        'µ' | 'μ' => Some('u'),
+        _ => Some(c),
+    })
+}
+
+/// Whether two spellings have the same canonical form (optionally ignoring
+/// case).
+fn same_spelling(a: &str, b: &str, ignore_case: bool) -> bool {
+    if ignore_case {
+        canonical_chars(a)
+            .flat_map(char::to_lowercase)
+            .eq(canonical_chars(b).flat_map(char::to_lowercase))
+    } else {
+        canonical_chars(a).eq(canonical_chars(b))
     }
-    out
 }
 
 fn find_in(units: &'static [Unit], spelling: &str) -> Option<Unit> {
-    let want = canonical(spelling);
-    if want.is_empty() {
-        return None;
-    }
+    // Nothing to look up when only separators were written.
+    canonical_chars(spelling).next()?;
     // Case-sensitive first.
     for unit in units {
-        if unit.symbols.iter().any(|s| canonical(s) == want) {
+        if unit
+            .symbols
+            .iter()
+            .any(|s| same_spelling(s, spelling, false))
+        {
             return Some(*unit);
         }
     }
     // Then case-insensitive, only when exactly one unit matches.
-    let lower = want.to_lowercase();
     let mut found = None;
     for unit in units {
         if unit
             .symbols
             .iter()
-            .any(|s| canonical(s).to_lowercase() == lower)
+            .any(|s| same_spelling(s, spelling, true))
         {
             if found.is_some() {
                 return None;
@@ -426,6 +435,12 @@ pub enum UnitError {
     /// The number is NaN or infinite.
     #[error("\"{text}\" is not a finite number")]
     NotFinite {
+        /// What was given.
+        text: String,
+    },
+    /// The number is finite but too large once converted to the SI unit.
+    #[error("\"{text}\" is too large (not finite in the SI unit)")]
+    TooLarge {
         /// What was given.
         text: String,
     },
@@ -459,32 +474,62 @@ pub fn split_number(text: &str, dim: Dim) -> Result<(f64, &str), UnitError> {
     if t.is_empty() {
         return Err(UnitError::Empty(dim));
     }
-    // Longest prefix made of number characters that parses as a number.
-    let end = t
-        .char_indices()
-        .find(|(_, c)| !(c.is_ascii_digit() || matches!(c, '+' | '-' | '.' | 'e' | 'E')))
-        .map_or(t.len(), |(i, _)| i);
-    let mut cut = end;
-    while cut > 0 {
-        if let Some(head) = t.get(..cut) {
-            if let Ok(v) = head.parse::<f64>() {
-                if !v.is_finite() {
-                    return Err(UnitError::NotFinite { text: t.to_owned() });
-                }
-                let rest = t.get(cut..).unwrap_or("").trim();
-                return Ok((v, rest));
+    // The longest prefix that is a decimal number, found in one pass
+    // (sign, digits, a point and digits, an exponent with digits), then
+    // parsed once: linear in the length of the text, whatever it holds.
+    let cut = number_prefix(t.as_bytes());
+    if cut > 0 {
+        if let Some(Ok(v)) = t.get(..cut).map(str::parse::<f64>) {
+            if !v.is_finite() {
+                return Err(UnitError::NotFinite {
+                    text: crate::located::bounded(t),
+                });
             }
+            let rest = t.get(cut..).unwrap_or("").trim();
+            return Ok((v, rest));
         }
-        cut -= 1;
     }
-    let lower = t.to_ascii_lowercase();
+    let lower = t.get(..4).unwrap_or(t).to_ascii_lowercase();
     if lower.starts_with("nan") || lower.starts_with("inf") || lower.starts_with("-inf") {
-        return Err(UnitError::NotFinite { text: t.to_owned() });
+        return Err(UnitError::NotFinite {
+            text: crate::located::bounded(t),
+        });
     }
     Err(UnitError::NoNumber {
-        text: t.to_owned(),
+        text: crate::located::bounded(t),
         expected: dim,
     })
+}
+
+/// Length of the longest prefix of `b` of the form `[+-]? digits [. digits]
+/// [(e|E) [+-]? digits]` with at least one digit before the exponent; 0 when
+/// there is none.
+fn number_prefix(b: &[u8]) -> usize {
+    let digits = |from: usize| {
+        b.get(from..)
+            .map_or(0, |r| r.iter().take_while(|c| c.is_ascii_digit()).count())
+    };
+    let mut i = usize::from(matches!(b.first(), Some(b'+' | b'-')));
+    let int = digits(i);
+    i += int;
+    let mut frac = 0;
+    if b.get(i) == Some(&b'.') {
+        frac = digits(i + 1);
+        if int + frac > 0 {
+            i += 1 + frac;
+        }
+    }
+    if int + frac == 0 {
+        return 0;
+    }
+    if matches!(b.get(i), Some(b'e' | b'E')) {
+        let sign = usize::from(matches!(b.get(i + 1), Some(b'+' | b'-')));
+        let exp = digits(i + 1 + sign);
+        if exp > 0 {
+            i += 1 + sign + exp;
+        }
+    }
+    i
 }
 
 /// Marker types naming a dimension at the type level.
@@ -559,7 +604,14 @@ impl<D: Dimension> Quantity<D> {
     /// # Errors
     /// As [`Dim::unit`].
     pub fn from_unit(value: f64, unit: &str) -> Result<Self, UnitError> {
-        Ok(Self::from_si(D::DIM.unit(unit)?.to_si(value)))
+        let si = D::DIM.unit(unit)?.to_si(value);
+        if si.is_finite() {
+            Ok(Self::from_si(si))
+        } else {
+            Err(UnitError::TooLarge {
+                text: crate::located::bounded(&format!("{value} {unit}")),
+            })
+        }
     }
 
     /// Parses `"18 lb"`-style text; a plain number is in the SI unit.
@@ -577,7 +629,14 @@ impl<D: Dimension> Quantity<D> {
     pub fn parse_or(text: &str, bare_unit: &str) -> Result<Self, UnitError> {
         let (v, unit) = split_number(text, D::DIM)?;
         let unit = if unit.is_empty() { bare_unit } else { unit };
-        Ok(Self::from_si(D::DIM.unit(unit)?.to_si(v)))
+        let si = D::DIM.unit(unit)?.to_si(v);
+        if si.is_finite() {
+            Ok(Self::from_si(si))
+        } else {
+            Err(UnitError::TooLarge {
+                text: crate::located::bounded(text.trim()),
+            })
+        }
     }
 }
 

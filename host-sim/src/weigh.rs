@@ -582,24 +582,9 @@ pub fn measured_section(r: &WeighReport) -> Option<String> {
     ))
 }
 
-/// Writes `text` to `path` atomically: a temporary file in the same folder,
-/// then a rename over the target.
+/// Writes `text` to `path` atomically (see [`crate::output::AtomicFile`]).
 fn write_atomic(path: &Path, text: &str) -> Result<(), Error> {
-    let dir = path
-        .parent()
-        .filter(|d| !d.as_os_str().is_empty())
-        .unwrap_or_else(|| Path::new("."));
-    let name = path
-        .file_name()
-        .map_or_else(|| "rig".into(), |n| n.to_string_lossy().into_owned());
-    let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
-    let res = std::fs::write(&tmp, text).and_then(|()| std::fs::rename(&tmp, path));
-    if let Err(e) = res {
-        // The temporary file is ours; the target is untouched.
-        let _ = std::fs::remove_file(&tmp);
-        return Err(Error::io(path, e));
-    }
-    Ok(())
+    crate::output::write_atomic(path, text.as_bytes()).map(|_| ())
 }
 
 fn same_file(a: &Path, b: &Path) -> bool {
@@ -634,6 +619,17 @@ pub struct WeighArgs {
 /// Unreadable or invalid files; a failed check or a missing height when
 /// asked to write; output that cannot be written.
 pub fn run(a: &WeighArgs, out: &mut dyn Write) -> Result<(), Error> {
+    // An output over an input (same path, a symbolic or hard link) is
+    // refused before anything is read (exit 2).
+    if let Some(path) = &a.write_rig {
+        crate::output::check_paths(
+            &[
+                crate::output::Role::new("the rig file", &a.rig),
+                crate::output::Role::new("the weighing file", &a.weighing),
+            ],
+            &[crate::output::Role::new("--write-rig", path)],
+        )?;
+    }
     let rig_src = SourceText::read(&a.rig)?;
     let rig = crate::rigfile::load_source(&rig_src)?;
     let src = SourceText::read(&a.weighing)?;

@@ -85,13 +85,18 @@ const TIME_TO_PARK_RANGE_S: (f64, f64) = (0.0, 3_600.0);
 /// height, m (the core's envelope of a rig).
 const BALLAST_OFFSET_M: f64 = 5.0;
 
+/// A bad override: a command-line error (exit code 2) naming the option,
+/// the key, the value (bounded) and what is accepted.
 fn bad(key: &str, value: &str, problem: impl Into<String>) -> Error {
-    Error::Input(InputError {
-        at: None,
-        key: Some(format!("--what-if {key}")),
-        value: Some(format!("\"{value}\"")),
-        problem: problem.into(),
-    })
+    Error::Usage(
+        InputError {
+            at: None,
+            key: Some(format!("--what-if {}", crate::located::bounded(key))),
+            value: Some(format!("\"{}\"", crate::located::bounded(value))),
+            problem: problem.into(),
+        }
+        .to_string(),
+    )
 }
 
 fn in_range(key: &str, value: &str, x: f64, lo: f64, hi: f64, unit: &str) -> Result<f64, Error> {
@@ -101,16 +106,29 @@ fn in_range(key: &str, value: &str, x: f64, lo: f64, hi: f64, unit: &str) -> Res
         Err(bad(
             key,
             value,
-            format!("outside the accepted range {lo} to {hi}{unit}"),
+            format!(
+                "outside the accepted range {} to {}{unit}",
+                fmt_g(lo),
+                fmt_g(hi)
+            ),
         ))
     }
 }
 
-fn number(key: &str, value: &str) -> Result<f64, Error> {
-    value
-        .trim()
-        .parse::<f64>()
-        .map_err(|_| bad(key, value, "not a number"))
+/// A plain number in `[lo, hi]`.
+fn ranged(key: &str, value: &str, lo: f64, hi: f64) -> Result<f64, Error> {
+    let x = value.trim().parse::<f64>().map_err(|_| {
+        bad(
+            key,
+            value,
+            format!(
+                "not a number (accepted range {} to {})",
+                fmt_g(lo),
+                fmt_g(hi)
+            ),
+        )
+    })?;
+    in_range(key, value, x, lo, hi, "")
 }
 
 /// Reads `<x>,<y>,<z>` with an optional unit after each number or one unit
@@ -146,8 +164,8 @@ fn position(key: &str, value: &str, text: &str) -> Result<[f64; 3], Error> {
 /// Parses one `KEY=VALUE` override.
 ///
 /// # Errors
-/// [`Error::Input`] naming the override, its value and the accepted range or
-/// set (exit code 1).
+/// [`Error::Usage`] naming the override, its value and the accepted range or
+/// set (exit code 2).
 pub fn parse_override(text: &str) -> Result<Override, Error> {
     let Some((key, value)) = text.split_once('=') else {
         return Err(bad(
@@ -202,32 +220,18 @@ pub fn parse_override(text: &str) -> Result<Override, Error> {
         "watch_utilisation" => {
             // The core's lower bound; the upper one is the park and alarm
             // thresholds, checked once all overrides are applied.
-            let x = number(key, v)?;
-            Ok(Override::WatchUtilisation(in_range(
-                key, v, x, 0.05, 1.0, "",
-            )?))
+            Ok(Override::WatchUtilisation(ranged(key, v, 0.05, 1.0)?))
         }
-        "park_utilisation" => {
-            let x = number(key, v)?;
-            Ok(Override::ParkUtilisation(in_range(
-                key, v, x, 0.05, 1.0, "",
-            )?))
-        }
-        "alarm_utilisation" => {
-            let x = number(key, v)?;
-            Ok(Override::AlarmUtilisation(in_range(
-                key, v, x, 0.05, 1.0, "",
-            )?))
-        }
+        "park_utilisation" => Ok(Override::ParkUtilisation(ranged(key, v, 0.05, 1.0)?)),
+        "alarm_utilisation" => Ok(Override::AlarmUtilisation(ranged(key, v, 0.05, 1.0)?)),
         "time_to_park" => {
             let s = Duration::parse(v).map_err(quantity_err)?.s();
             let (lo, hi) = TIME_TO_PARK_RANGE_S;
             Ok(Override::TimeToPark(in_range(key, v, s, lo, hi, " s")?))
         }
         "friction" => {
-            let x = number(key, v)?;
             let (lo, hi) = FRICTION_RANGE;
-            Ok(Override::Friction(in_range(key, v, x, lo, hi, "")?))
+            Ok(Override::Friction(ranged(key, v, lo, hi)?))
         }
         "tie_down" => {
             let n = Force::parse(v).map_err(quantity_err)?.n();
@@ -251,7 +255,7 @@ fn f(x: f64) -> f32 {
 /// `cover=off` removes the cover.
 ///
 /// # Errors
-/// [`Error::Input`] naming the override when the variant is not valid
+/// [`Error::Usage`] naming the override when the variant is not valid
 /// (thresholds out of order, too many ballast items, `cover=on` without a
 /// cover, a value the core rejects).
 pub fn variant(
@@ -377,7 +381,10 @@ pub fn variant(
         bad(
             "",
             "",
-            format!("the variant's guard settings are not valid: {e}"),
+            format!(
+                "the variant's guard settings are not valid: {}",
+                crate::rigfile::core_problem(&e)
+            ),
         )
     })?;
     if base.measured.is_some() {
@@ -391,8 +398,16 @@ pub fn variant(
                 .to_owned(),
         ));
     }
-    let rig =
-        Rig::new(&spec).map_err(|e| bad("", "", format!("the variant rig is not valid: {e}")))?;
+    let rig = Rig::new(&spec).map_err(|e| {
+        bad(
+            "",
+            "",
+            format!(
+                "the variant rig is not valid: {}",
+                crate::rigfile::core_problem(&e)
+            ),
+        )
+    })?;
     Ok(LoadedRig {
         file: format!("{} with {}", base.file, texts.join(", ")),
         spec,

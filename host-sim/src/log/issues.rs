@@ -87,7 +87,10 @@ impl fmt::Display for Issue {
         write!(
             f,
             "{}:{}: {}: {}",
-            self.file, self.line, self.kind, self.detail
+            self.file,
+            self.line,
+            self.kind,
+            crate::located::bounded_to(&self.detail, crate::located::MAX_PROBLEM_CHARS)
         )
     }
 }

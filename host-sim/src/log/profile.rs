@@ -393,7 +393,7 @@ fn file_profile(
                             return Err(ck.error(
                                 &format!("{ckey}.scale"),
                                 s.span(),
-                                "a scale of 0 would erase every value",
+                                "a scale of 0 would erase every value (accepted: -1e12 to 1e12, not 0)",
                             ));
                         }
                         v

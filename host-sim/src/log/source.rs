@@ -20,7 +20,7 @@ use super::profile::{AxisSource, ColumnProfile, FileProfile};
 use super::record::{Channel, ChannelKind, ChannelSet, N_CHANNELS};
 use super::time::{TimeFormat, Timestamp};
 use crate::error::Error;
-use crate::located::{InputError, Location};
+use crate::located::{bounded, bounded_bytes, bounded_to, InputError, Location};
 
 /// One usable row of one file: the time and the channels it carries, in SI.
 #[derive(Clone, Debug, PartialEq)]
@@ -184,6 +184,101 @@ impl Lines {
     }
 }
 
+/// Turns each CR LF pair into a LF as the bytes are read, so that a log
+/// with Windows line ends is read by the line splitter like any other and
+/// its line numbers are right (the `csv` crate's count runs one line short
+/// after CR LF ends). A lone CR is passed on (and read by the `csv` crate
+/// as a line end). A CR LF inside a quoted field becomes a LF.
+struct CrlfToLf {
+    inner: Box<dyn Read>,
+    buf: Vec<u8>,
+    start: usize,
+    end: usize,
+    /// A CR ended the previous read; whether it is dropped depends on the
+    /// next byte.
+    held_cr: bool,
+}
+
+impl CrlfToLf {
+    fn new(inner: Box<dyn Read>) -> CrlfToLf {
+        CrlfToLf {
+            inner,
+            buf: vec![0; BLOCK],
+            start: 0,
+            end: 0,
+            held_cr: false,
+        }
+    }
+}
+
+impl Read for CrlfToLf {
+    fn read(&mut self, out: &mut [u8]) -> io::Result<usize> {
+        if out.is_empty() {
+            return Ok(0);
+        }
+        if self.start == self.end {
+            let n = loop {
+                match self.inner.read(&mut self.buf) {
+                    Ok(n) => break n,
+                    Err(e) if e.kind() == io::ErrorKind::Interrupted => {}
+                    Err(e) => return Err(e),
+                }
+            };
+            self.start = 0;
+            self.end = n;
+            if n == 0 {
+                if self.held_cr {
+                    self.held_cr = false;
+                    if let Some(o) = out.first_mut() {
+                        *o = b'\r';
+                    }
+                    return Ok(1);
+                }
+                return Ok(0);
+            }
+        }
+        let mut w = 0;
+        if self.held_cr {
+            self.held_cr = false;
+            if self.buf.get(self.start) != Some(&b'\n') {
+                if let Some(o) = out.get_mut(w) {
+                    *o = b'\r';
+                    w += 1;
+                }
+            }
+        }
+        let data = self.buf.get(self.start..self.end).unwrap_or_default();
+        let mut i = 0;
+        while let (Some(&b), true) = (data.get(i), w < out.len()) {
+            if b == b'\r' {
+                match data.get(i + 1) {
+                    Some(b'\n') => {
+                        i += 1;
+                        continue;
+                    }
+                    None => {
+                        self.held_cr = true;
+                        i += 1;
+                        break;
+                    }
+                    Some(_) => {}
+                }
+            }
+            if let Some(o) = out.get_mut(w) {
+                *o = b;
+            }
+            w += 1;
+            i += 1;
+        }
+        self.start += i;
+        if w == 0 && self.held_cr {
+            // Only a held CR was consumed: read on to decide it.
+            return self.read(out);
+        }
+        Ok(w)
+    }
+}
+
 /// The fields of a row.
 trait Fields {
     fn count(&self) -> usize;
@@ -343,7 +438,7 @@ impl CsvSource {
     /// # Errors
     /// As [`CsvSource::open`].
     pub fn from_reader(fp: &FileProfile, input: Box<dyn Read>) -> Result<CsvSource, Error> {
-        let (input, names) = read_header(fp, input)?;
+        let (input, names) = read_header(fp, Box::new(CrlfToLf::new(input)))?;
         if names.iter().all(String::is_empty) {
             return Err(Error::Input(InputError {
                 at: Some(Location {
@@ -366,7 +461,7 @@ impl CsvSource {
                     problem: format!(
                         "no such column in the header of {} (its columns: {})",
                         fp.label,
-                        names.join(", ")
+                        bounded_to(&names.join(", "), 300)
                     ),
                 })
             })
@@ -536,18 +631,22 @@ impl CsvSource {
                     let raw = match fast_decimal(cell) {
                         Some(x) => x,
                         None => {
-                            let text = String::from_utf8_lossy(cell);
-                            let x: f64 = text.parse().map_err(|_| {
-                                format!(
-                                    "{} = \"{text}\" is not a number (column unit {})",
-                                    col.header.value,
-                                    col.unit.symbol()
-                                )
-                            })?;
+                            let x: f64 = core::str::from_utf8(cell)
+                                .ok()
+                                .and_then(|t| t.parse().ok())
+                                .ok_or_else(|| {
+                                    format!(
+                                        "{} = \"{}\" is not a number (column unit {})",
+                                        bounded(&col.header.value),
+                                        bounded_bytes(cell),
+                                        col.unit.symbol()
+                                    )
+                                })?;
                             if !x.is_finite() {
                                 return Err(format!(
-                                    "{} = \"{text}\" is not a finite number",
-                                    col.header.value
+                                    "{} = \"{}\" is not a finite number",
+                                    bounded(&col.header.value),
+                                    bounded_bytes(cell)
                                 ));
                             }
                             x
@@ -560,13 +659,15 @@ impl CsvSource {
                     col.channel.parse_word(&text).ok_or_else(|| {
                         if col.channel.kind() == ChannelKind::PierSide {
                             format!(
-                                "{} = \"{text}\" is not a pier side (east, e, west, w)",
-                                col.header.value
+                                "{} = \"{}\" is not a pier side (accepted: east, e, west, w)",
+                                bounded(&col.header.value),
+                                bounded_bytes(cell)
                             )
                         } else {
                             format!(
-                                "{} = \"{text}\" is not a yes/no value (1, 0, true, false, yes, no, on, off)",
-                                col.header.value
+                                "{} = \"{}\" is not a yes/no value (accepted: 1, 0, true, false, yes, no, on, off)",
+                                bounded(&col.header.value),
+                                bounded_bytes(cell)
                             )
                         }
                     })?
@@ -845,6 +946,29 @@ mod tests {
         }
         let want = reference(Box::new(std::io::Cursor::new(long.clone())));
         assert_eq!(ours(Box::new(std::io::Cursor::new(long))), want);
+    }
+
+    /// A file with CR LF line ends reads as the same file with LF ends:
+    /// the same fields on the same lines (the line count of the LF file is
+    /// the `csv` crate's, the reference), whatever the read sizes; a lone
+    /// CR and a CR at the very end are kept.
+    #[test]
+    fn crlf_reads_as_lf() {
+        use super::CrlfToLf;
+        let lf: &[u8] = b"t,a\n1,2\n\n3,\"4\"\n5,6\n";
+        let crlf: Vec<u8> = b"t,a\r\n1,2\r\n\r\n3,\"4\"\r\n5,6\r\n".to_vec();
+        let want = reference(Box::new(std::io::Cursor::new(lf.to_vec())));
+        let via = |data: Vec<u8>, step: usize| -> Box<dyn Read> {
+            Box::new(CrlfToLf::new(Box::new(Trickle { data, pos: 0, step })))
+        };
+        for step in 0..7 {
+            assert_eq!(ours(via(crlf.clone(), step)), want, "step {step}");
+        }
+        let mut out = Vec::new();
+        via(b"a\rb\r\nc\r".to_vec(), 0)
+            .read_to_end(&mut out)
+            .unwrap();
+        assert_eq!(out, b"a\rb\nc\r");
     }
 
     /// The fast path must agree bit for bit with the standard library's

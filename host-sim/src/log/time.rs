@@ -12,6 +12,30 @@ pub struct Timestamp(i64);
 /// Nanoseconds in one second.
 pub const NS_PER_S: i64 = 1_000_000_000;
 
+/// The earliest log time accepted: 1970-01-01T00:00:00Z (epoch 0).
+pub const EARLIEST: Timestamp = Timestamp(0);
+
+/// The first log time no longer accepted: 2200-01-01T00:00:00Z
+/// (7 258 118 400 s after the epoch). Times from [`EARLIEST`] up to, not
+/// including, this one are accepted; anything else in a log is a bad row
+/// (a clock far off is a fault to see, not a time to clamp).
+pub const END: Timestamp = Timestamp(7_258_118_400 * NS_PER_S);
+
+/// The accepted time range in words, for messages.
+pub const ACCEPTED_RANGE: &str = "1970-01-01T00:00:00Z to 2199-12-31T23:59:59Z";
+
+/// Checks that `t` (parsed from `field`) is in the accepted range.
+fn in_range(t: Timestamp, field: &[u8]) -> Result<Timestamp, String> {
+    if (EARLIEST..END).contains(&t) {
+        Ok(t)
+    } else {
+        Err(format!(
+            "time \"{}\" is outside the accepted range {ACCEPTED_RANGE}",
+            crate::located::bounded_bytes(field)
+        ))
+    }
+}
+
 impl Timestamp {
     /// From nanoseconds since the Unix epoch.
     #[must_use]
@@ -170,11 +194,12 @@ impl TimeFormat {
         if field.trim().is_empty() {
             return Err("empty time".to_owned());
         }
-        match self {
+        let t = match self {
             TimeFormat::Iso8601 => parse_iso8601(field, default_offset_s),
             TimeFormat::EpochSeconds => parse_decimal_scaled(field, 9).map(Timestamp),
             TimeFormat::EpochMillis => parse_decimal_scaled(field, 6).map(Timestamp),
-        }
+        }?;
+        in_range(t, field.trim().as_bytes())
     }
 
     /// As [`TimeFormat::parse`] on trimmed bytes, without a detour through
@@ -193,7 +218,7 @@ impl TimeFormat {
             }
         };
         match parse_decimal_scaled_bytes(field, shift) {
-            Some(ns) => Ok(Timestamp(ns)),
+            Some(ns) => in_range(Timestamp(ns), field),
             None => self.parse(&String::from_utf8_lossy(field), default_offset_s),
         }
     }
@@ -204,9 +229,15 @@ impl TimeFormat {
 /// notation falls back to floating point.
 fn parse_decimal_scaled(field: &str, shift: u32) -> Result<i64, String> {
     parse_decimal_scaled_bytes(field.trim().as_bytes(), shift).ok_or_else(|| {
+        if field.trim().parse::<f64>().is_ok_and(f64::is_finite) {
+            return format!(
+                "time \"{}\" is outside the accepted range {ACCEPTED_RANGE}",
+                crate::located::bounded(field.trim())
+            );
+        }
         format!(
-            "\"{}\" is not a number of seconds since the epoch",
-            field.trim()
+            "time \"{}\" is not a decimal number (seconds or milliseconds since 1970-01-01T00:00:00Z)",
+            crate::located::bounded(field.trim())
         )
     })
 }
@@ -306,11 +337,16 @@ fn short_decimal_scaled(b: &[u8], shift: u32) -> Option<i64> {
     Some(if neg { -v } else { v })
 }
 
-#[allow(clippy::cast_possible_truncation)] // saturating float-to-int cast
+/// Exponent notation through floating point; `None` when not a finite
+/// number or when it does not fit an `i64` count of the scaled unit (no
+/// clamping: a time out of range must stay out of range).
+#[allow(clippy::cast_possible_truncation, clippy::cast_precision_loss)]
 fn parse_exponent_form(b: &[u8], shift: u32) -> Option<i64> {
     let v: f64 = core::str::from_utf8(b).ok()?.parse().ok()?;
-    v.is_finite()
-        .then(|| (v * 10f64.powi(i32::try_from(shift).unwrap_or(9))).round() as i64)
+    let scaled = (v * 10f64.powi(i32::try_from(shift).unwrap_or(9))).round();
+    // i64::MAX as f64 rounds up to 2^63, itself out of range.
+    (scaled.is_finite() && scaled >= i64::MIN as f64 && scaled < i64::MAX as f64)
+        .then_some(scaled as i64)
 }
 
 fn digits(s: &[u8]) -> Option<u32> {
@@ -333,7 +369,12 @@ fn digits(s: &[u8]) -> Option<u32> {
 /// A short description of what is wrong.
 pub fn parse_iso8601(field: &str, default_offset_s: i32) -> Result<Timestamp, String> {
     let s = field.trim();
-    let bad = |why: &str| format!("\"{s}\" is not an ISO 8601 date and time ({why})");
+    let bad = |why: &str| {
+        format!(
+            "\"{}\" is not an ISO 8601 date and time ({why})",
+            crate::located::bounded(s)
+        )
+    };
     let b = s.as_bytes();
     let get = |r: core::ops::Range<usize>| b.get(r).ok_or_else(|| bad("too short"));
     let year = digits(get(0..4)?).ok_or_else(|| bad("year"))?;
@@ -409,6 +450,13 @@ pub fn parse_iso8601(field: &str, default_offset_s: i32) -> Result<Timestamp, St
     if hour > 23 || minute > 59 || second > 59 {
         return Err(bad("time of day out of range"));
     }
+    // Far outside the accepted range (and before any overflow below).
+    if !(1969..=2200).contains(&year) {
+        return Err(format!(
+            "time \"{}\" is outside the accepted range {ACCEPTED_RANGE}",
+            crate::located::bounded(s)
+        ));
+    }
     let days = days_from_civil(i64::from(year), month, day);
     let secs = days * 86_400 + i64::from(hour * 3600 + minute * 60 + second) - offset_s;
     Ok(Timestamp(secs * NS_PER_S + frac_ns))
@@ -427,8 +475,18 @@ pub fn parse_offset(s: &str) -> Result<i32, String> {
     // Reuse the date-time parser on a fixed date.
     let probe = format!("1970-01-01T00:00:00{t}");
     let ts = parse_iso8601(&probe, 0)
-        .map_err(|_| format!("\"{t}\" is not a zone offset (write Z, +hh:mm or -hh:mm)"))?;
-    i32::try_from(-ts.unix_ns() / NS_PER_S).map_err(|_| format!("\"{t}\" is out of range"))
+        .map_err(|_| {
+            format!(
+                "\"{}\" is not a zone offset (write Z, +hh:mm or -hh:mm; accepted range -23:59 to +23:59)",
+                crate::located::bounded(t)
+            )
+        })?;
+    i32::try_from(-ts.unix_ns() / NS_PER_S).map_err(|_| {
+        format!(
+            "\"{}\" is outside the accepted range -23:59 to +23:59",
+            crate::located::bounded(t)
+        )
+    })
 }
 
 #[cfg(test)]

@@ -470,12 +470,7 @@ fn rig_section(
 }
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    Error::Input(crate::located::InputError {
-        at: None,
-        key: Some(e.field.to_owned()),
-        value: None,
-        problem: format!("{file}: the report cannot be drawn: {e}"),
-    })
+    crate::rigfile::after_load_error(file, "the report cannot be drawn", e)
 }
 
 /// The replay report as a self-contained HTML page. `rigs` are the rig
@@ -714,13 +709,11 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
     Ok(page.finish())
 }
 
-/// Writes a report page to `path` (creating its folder).
+/// Writes a report page to `path` atomically (temporary file in the same
+/// folder, then rename), creating its folder.
 ///
 /// # Errors
 /// [`Error::Io`] when the file cannot be written.
 pub fn write_page(path: &Path, html: &str) -> Result<(), Error> {
-    if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
-        std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
-    }
-    std::fs::write(path, html).map_err(|e| Error::io(path, e))
+    crate::output::write_atomic(path, html.as_bytes()).map(|_| ())
 }

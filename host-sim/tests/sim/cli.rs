@@ -75,3 +75,45 @@ fn help_states_exit_codes_and_caution() {
     );
     assert!(text.contains("licensed engineers"), "{text}");
 }
+
+/// `demo` replaces the files it wrote (unchanged) on a second run, refuses
+/// a file it did not write or one changed since (exit 2, before anything is
+/// written), and replaces it with --replace (host-sim/README.md, "Outputs
+/// never destroy a file").
+#[test]
+fn demo_replaces_only_its_own_files_unless_asked() {
+    let dir = tempfile::tempdir().unwrap();
+    let run = |extra: &[&str]| {
+        standfast()
+            .args(["demo", "--hours", "0.05", "--out"])
+            .arg(dir.path())
+            .args(extra)
+            .output()
+            .unwrap()
+    };
+    assert_eq!(run(&[]).status.code(), Some(0));
+    assert_eq!(
+        run(&[]).status.code(),
+        Some(0),
+        "a second run over its own files"
+    );
+    let rig = dir.path().join("rig.toml");
+    std::fs::write(&rig, "# my own rig\n").unwrap();
+    let out = run(&[]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("rig.toml exists and was not written by standfast"),
+        "{err}"
+    );
+    assert_eq!(std::fs::read_to_string(&rig).unwrap(), "# my own rig\n");
+    assert_eq!(run(&["--replace"]).status.code(), Some(0));
+    assert!(std::fs::read_to_string(&rig)
+        .unwrap()
+        .contains("INVENTED demo rig"));
+    // No temporary file is left in the folder.
+    for e in std::fs::read_dir(dir.path()).unwrap() {
+        let name = e.unwrap().file_name().to_string_lossy().into_owned();
+        assert!(!name.contains("standfast-tmp"), "{name}");
+    }
+}

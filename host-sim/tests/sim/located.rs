@@ -78,7 +78,8 @@ fn unit_error_from_the_parser_is_located() {
     let e = src.parse_toml::<Doc>().unwrap_err();
     let at = e.at.clone().unwrap();
     assert_eq!((at.line, at.column), (3, 7));
-    assert_eq!(e.key.as_deref(), Some("arm"));
+    // The full key, section included.
+    assert_eq!(e.key.as_deref(), Some("payload.arm"));
     assert_eq!(e.value.as_deref(), Some("\"18 lb\""));
     assert!(e.problem.contains("unit of mass"), "{}", e.problem);
     assert!(

@@ -68,12 +68,47 @@ fn epoch_seconds_are_exact() {
     assert_eq!(t.unix_ns(), 1_763_154_000 * S + 20_000_000);
     let t = TimeFormat::EpochSeconds.parse("1.5e3", 0).unwrap();
     assert_eq!(t.unix_ns(), 1500 * S);
-    assert_eq!(
-        TimeFormat::EpochSeconds.parse("-1.5", 0).unwrap().unix_ns(),
-        -3 * S / 2
-    );
     for s in ["abc", "12:00", "1.2.3", "", "."] {
         assert!(TimeFormat::EpochSeconds.parse(s, 0).is_err(), "{s}");
+    }
+}
+
+/// Log times are accepted from 1970-01-01T00:00:00Z up to, not including,
+/// 2200-01-01T00:00:00Z (host-sim/src/log/time.rs, `EARLIEST` and `END`);
+/// outside it a time is an error naming the range, never clamped (an epoch
+/// of 1e300 was once read as the year 2262). 2200-01-01 is 7 258 118 400 s
+/// after the epoch (days from 1970: 84 006, Python's `datetime.date`
+/// difference, a reference library).
+#[test]
+fn times_outside_the_accepted_range_are_refused() {
+    let end_s = 7_258_118_400_i64;
+    assert_eq!(
+        TimeFormat::Iso8601
+            .parse("2199-12-31T23:59:59Z", 0)
+            .unwrap()
+            .unix_ns(),
+        (end_s - 1) * S
+    );
+    assert_eq!(TimeFormat::EpochSeconds.parse("0", 0).unwrap().unix_ns(), 0);
+    for (f, text) in [
+        (TimeFormat::EpochSeconds, "-1.5"),
+        (TimeFormat::EpochSeconds, "1e300"),
+        (TimeFormat::EpochSeconds, "-1e300"),
+        (TimeFormat::EpochSeconds, "7258118400"),
+        (TimeFormat::EpochSeconds, "99999999999999999999999"),
+        (TimeFormat::EpochMillis, "7258118400000"),
+        (TimeFormat::EpochMillis, "1e30"),
+        (TimeFormat::Iso8601, "2200-01-01T00:00:00Z"),
+        (TimeFormat::Iso8601, "9999-12-31T23:59:59Z"),
+        (TimeFormat::Iso8601, "0000-01-01T00:00:00Z"),
+        (TimeFormat::Iso8601, "1970-01-01T00:30:00+01:00"),
+    ] {
+        let e = f.parse(text, 0).unwrap_err();
+        assert!(
+            e.contains("outside the accepted range 1970-01-01T00:00:00Z to 2199-12-31T23:59:59Z"),
+            "{text}: {e}"
+        );
+        assert!(f.parse_bytes(text.as_bytes(), 0).is_err(), "{text}");
     }
 }
 

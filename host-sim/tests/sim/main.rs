@@ -2,12 +2,14 @@
 //! subject; every check names its outside source beside it.
 
 mod assess_condition;
+mod bad_input;
 mod bridge;
 mod cli;
 mod common;
 mod demo;
 mod drag_inputs;
 mod firmware_replay;
+mod fuzz_seeds;
 mod golden;
 mod hardware_assess;
 mod located;

@@ -94,7 +94,7 @@ fn mass_unit_where_length_expected() {
         e.at.clone().unwrap().line,
         line_of(&text, "height = \"18 lb\"")
     );
-    assert_eq!(e.key.as_deref(), Some("height"));
+    assert_eq!(e.key.as_deref(), Some("mount.height"));
     assert!(e.problem.contains("a unit of mass"), "{}", e.problem);
     assert!(e.problem.contains("length"), "{}", e.problem);
 }
@@ -105,6 +105,9 @@ fn unknown_key_is_named() {
     let e = err(&text);
     assert_eq!(e.at.clone().unwrap().line, line_of(&text, "frictoin"));
     assert!(e.to_string().contains("frictoin"), "{e}");
+    // The full key, and the nearest accepted key as a suggestion.
+    assert_eq!(e.key.as_deref(), Some("support.frictoin"));
+    assert!(e.problem.contains("did you mean `friction`?"), "{e}");
 }
 
 #[test]
@@ -382,7 +385,9 @@ fn ten_minute_mean_station_needs_a_long_stale_time() {
         "wind_stale = \"11 min\"\nwind_source = \"ten_minute_means\"\ngust_factor = 1.7",
     );
     let e = err(&short_mast);
-    assert_eq!(e.key.as_deref(), Some("guard.wind.max_speed_mps"), "{e}");
+    // Named by the file key that sets it (not written here: its default
+    // applies), never by the core's internal field name.
+    assert_eq!(e.key.as_deref(), Some("sensor.wind_max"), "{e}");
     assert!(e.to_string().contains("65.289"), "{e}");
     // A station's means from a 40 m mast: ln(2/0.05)/ln(40/0.05) =
     // 3.689/6.685 = 0.552, 100 × 0.552 × 1.7 = 93.8 m/s: inside the model.

@@ -192,8 +192,9 @@ fn a_bad_override_is_refused_with_its_range() {
     };
     // The core accepts a friction coefficient of 0 to 2 (core/src/rig.rs
     // `Rig::new`); the message names the override, the value and the range.
+    // A bad option is a command-line error: exit code 2.
     let out = run_cli("friction=3");
-    assert_eq!(out.status.code(), Some(1));
+    assert_eq!(out.status.code(), Some(2));
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(
         err.contains("friction") && err.contains("\"3\"") && err.contains("0 to 2"),
@@ -203,7 +204,7 @@ fn a_bad_override_is_refused_with_its_range() {
     // The park threshold may not go below the watch threshold (0.5 in the
     // demo rig).
     let out = run_cli("park_utilisation=0.3");
-    assert_eq!(out.status.code(), Some(1));
+    assert_eq!(out.status.code(), Some(2));
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(
         err.contains("park_utilisation") && err.contains("0.3") && err.contains("0.5 to 1"),
@@ -211,7 +212,7 @@ fn a_bad_override_is_refused_with_its_range() {
     );
     // A cover word outside the set is named with the set.
     let out = run_cli("cover=maybe");
-    assert_eq!(out.status.code(), Some(1));
+    assert_eq!(out.status.code(), Some(2));
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("on, off, as-logged"), "{err}");
 
