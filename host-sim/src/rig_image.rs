@@ -5,7 +5,7 @@
 //! layout is documented in `standfast_ffi::image`.
 
 use std::io::Write;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 use clap::Args;
 use standfast_ffi::image::{self, RigImage, IMAGE_MAX_BYTES, IMAGE_VERSION};
@@ -68,49 +68,22 @@ pub fn image_bytes(r: &LoadedRig) -> Result<Vec<u8>, Error> {
     }
 }
 
-/// Writes `bytes` to `path` through a temporary file in the same folder and
-/// a rename, so a reader never sees half an image.
-fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), Error> {
-    let dir = path
-        .parent()
-        .filter(|d| !d.as_os_str().is_empty())
-        .unwrap_or_else(|| Path::new("."));
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "rig-image".to_owned());
-    let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
-    let written = std::fs::File::create(&tmp)
-        .and_then(|mut f| f.write_all(bytes).and_then(|()| f.sync_all()));
-    if let Err(e) = written {
-        let _ = std::fs::remove_file(&tmp); // best effort: the error below is what matters
-        return Err(Error::io(&tmp, e));
-    }
-    std::fs::rename(&tmp, path).map_err(|e| {
-        let _ = std::fs::remove_file(&tmp); // best effort, as above
-        Error::io(path, e)
-    })
-}
-
 /// Runs `rig-image`.
 ///
 /// # Errors
-/// The rig file's errors; [`Error::Input`] when `--out` names the rig file;
+/// The rig file's errors; [`Error::Usage`] (exit 2) when `--out` is the rig
+/// file (by path or link);
 /// [`Error::Io`] when the image cannot be written.
 pub fn run(a: &RigImageArgs, out: &mut dyn Write) -> Result<(), Error> {
-    let same = match (a.rig.canonicalize(), a.out.canonicalize()) {
-        (Ok(x), Ok(y)) => x == y,
-        _ => a.rig == a.out,
-    };
-    if same {
-        return Err(input_error(
-            &a.out.display().to_string(),
-            "--out names the rig file itself; the image must go to another file".to_owned(),
-        ));
-    }
+    // An output over the input (same path, a symbolic or hard link) is
+    // refused before anything is read (exit 2), as for every output.
+    crate::output::check_paths(
+        &[crate::output::Role::new("the rig file", &a.rig)],
+        &[crate::output::Role::new("--out", &a.out)],
+    )?;
     let r = rigfile::load(&a.rig)?;
     let bytes = image_bytes(&r)?;
-    write_atomic(&a.out, &bytes)?;
+    crate::output::write_atomic(&a.out, &bytes)?;
     writeln!(
         out,
         "wrote {} ({} bytes, rig image format {IMAGE_VERSION}) from {}",

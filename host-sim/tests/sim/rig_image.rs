@@ -41,8 +41,23 @@ fn command_writes_the_image_and_never_over_the_rig_file() {
         out: rig.clone(),
     };
     let e = run(&same, &mut out).unwrap_err();
-    assert_eq!(e.exit_code(), 1, "{e}");
+    assert_eq!(e.exit_code(), 2, "{e}");
+    assert!(e.to_string().contains("same file"), "{e}");
     assert_eq!(std::fs::read(&rig).unwrap(), before);
+    // A hard link to the rig file is the same file too.
+    let link = dir.path().join("link.sfri");
+    std::fs::hard_link(&rig, &link).unwrap();
+    let e = run(
+        &RigImageArgs {
+            rig: rig.clone(),
+            out: link.clone(),
+        },
+        &mut out,
+    )
+    .unwrap_err();
+    assert_eq!(e.exit_code(), 2, "{e}");
+    assert_eq!(std::fs::read(&rig).unwrap(), before);
+    std::fs::remove_file(&link).unwrap();
 
     let img = dir.path().join("rig.sfri");
     run(
