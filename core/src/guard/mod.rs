@@ -790,8 +790,10 @@ mod tests {
             pier_side: e,
         };
         let (east, west) = (PierSide::TubeEast, PierSide::TubeWest);
-        let cases: [(Pose, Pose, bool); 18] = [
+        let cases: [(Pose, Pose, bool); 19] = [
             (axes(1.0, 0.5), axes(1.0, 0.5), false),
+            // Exactly the tolerance apart: not a move (exact in f32).
+            (axes(0.0, 0.5), axes(TOL, 0.5), false),
             (
                 axes(1.0, 0.5),
                 axes(1.0 + 0.5 * TOL, 0.5 - 0.5 * TOL),

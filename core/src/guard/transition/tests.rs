@@ -567,3 +567,28 @@ fn a_figure_in_a_band_or_at_its_bound_holds_its_level() {
         }
     }
 }
+
+/// The settle bounds scale with each threshold, not only at the defaults
+/// (where the drive threshold is 1 and `r × 1 = r / 1`): with a drive park
+/// threshold of 1.2 a drive at 0.7 (below 0.8 × 1.2 = 0.96) is settled; and
+/// exactly at a tilt-margin bound (0.16 rad × 0.5 = 0.08 rad, exact in
+/// binary) the margin is not yet settled.
+#[test]
+fn settle_bounds_follow_their_thresholds() {
+    let mut t = t();
+    t.drive_park_utilisation = 1.2;
+    let mut f = calm();
+    f.drive = Some([0.7, 0.0]);
+    assert!(settled_below(P, &f, &t));
+    f.drive = Some([0.97, 0.0]);
+    assert!(!settled_below(P, &f, &t));
+
+    let mut t = super::tests::t();
+    t.clear_ratio = 0.5;
+    t.tilt_margin_alarm_rad = 0.08;
+    let mut f = calm();
+    f.tilt_margin_rad = 0.16;
+    assert!(!settled_below(A, &f, &t));
+    f.tilt_margin_rad = 0.17;
+    assert!(settled_below(A, &f, &t));
+}
