@@ -681,16 +681,23 @@ impl<'r> Guard<'r> {
     /// The safest park pose for the predicted gust from `from_rad`: among the
     /// home pose and the configured park poses, the one whose highest
     /// utilisation (overturning, or either drive) is lowest
-    /// ([`Rig::safest_park`]); a park-pose fault when the search fails. A
+    /// ([`Rig::safest_park`]); a park-pose fault when the search fails (a
+    /// no-reading fault when there is no tilt to rank the poses by). A
     /// predicted gust beyond the model's [`MAX_WIND_SPEED_MPS`] is searched
     /// at that speed: every pose is far past tipping there, and the ranking
     /// only picks the least bad.
     fn safest_park_pose(&self, speed_mps: f32, from_rad: f32) -> Result<Pose, Fault> {
+        // No tilt to rank the poses by: park at home, and say why.
+        let Some(tilt) = self.tilt.tilt() else {
+            return Err(Fault::NoReading {
+                sensor: Sensor::Accelerometer,
+            });
+        };
         let req = ParkRequest {
             wind_from_rad: from_rad,
             wind_speed_mps: speed_mps.min(MAX_WIND_SPEED_MPS),
             air: self.air,
-            tilt: self.tilt.tilt().unwrap_or(Tilt::LEVEL),
+            tilt,
             cover_fitted: self.cover_fitted,
             scan: None,
         };
