@@ -7,8 +7,10 @@
 //!    position `p_i`), readings `F_i` (N). The total weight is `W = Σ F_i` and,
 //!    by moment balance about two horizontal axes, the centre of gravity lies
 //!    above `P = Σ F_i·p_i / W`.
-//! 2. **Lift weighing** (the axle-lift or tilt method used for road vehicles,
-//!    ISO 10392 and SAE J874, titles and method from memory). Lift one side
+//! 2. **Lift weighing** (the axle-lift method of ISO 10392 for road
+//!    vehicles; SAE J874 hangs earth-moving machinery from one end instead;
+//!    titles and scope checked, the standards' equations not seen, see
+//!    `SOURCES.md`). Lift one side
 //!    so the rig turns by θ about the line through the resting feet and weigh
 //!    again, every foot still on a scale. Seen from the rig, "up" is now
 //!    `u = cos θ·z + sin θ·t`, with `t` the horizontal unit vector from the

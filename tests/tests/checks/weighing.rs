@@ -198,6 +198,149 @@ fn four_feet_match_the_published_two_axle_formula() {
     );
 }
 
+/// A published worked example of the axle-lift method, with its own
+/// measurements: the engineering journal of the robotics team Mac-Lego-RMS,
+/// chapter "Mobility and mechanical design", section "Mass and centre of
+/// gravity" (their tests T01/T02), `docs/journal/02-mobility.md` in the
+/// GitHub repository Mac-Lego-RMS/JetsonOrinNano (read at commit b87f3cc;
+/// https://github.com/Mac-Lego-RMS/JetsonOrinNano). A small four-wheeled
+/// vehicle with wheelbase L = 102 mm and effective wheel radius r = 15 mm,
+/// on two kitchen scales: front axle 322 g and rear axle 257 g level (sum
+/// 579 g); rear axle raised by Δh = 40 mm, θ = asin(Δh / L) = 23.1°, front
+/// axle 377 g. Published results: the centre 56.7 mm ahead of the rear axle
+/// (55.6 % of the load on the front), 22.7 mm above the axles, 38 mm above
+/// the ground, and "one gram on the scale moves z by about 0.4 mm". Their
+/// formula: z = r + L·(m_f′ − m_f) / ((m_f + m_r)·tan θ). A team's measured
+/// example, not a textbook's or a standard's; checked, see SOURCES.md.
+///
+/// Mapping onto `standfast::weighing` (rigid body, vertical scale forces):
+/// - A wheel on a scale pushes up along the vertical through its axle
+///   centre, so each wheel is a point foot at its wheel centre; the frame's
+///   z = 0 is the plane of the two axles and the height the core returns is
+///   above that plane. The published height above ground adds r (the same r
+///   front and rear, as in their formula), exactly, not as a tolerance.
+/// - Raising the rear wheels' support by Δh raises the rear axle centre by
+///   Δh; the axle centres are L apart, so the core's sin θ = h / L is their
+///   θ = asin(Δh / L).
+/// - Feet: front-left, front-right at y = L; rear-right, rear-left at y = 0
+///   (y forward). The track is not given in that section; the fore-aft
+///   position and the height depend only on the axle sums, so any track
+///   serves (0.09 m here), and each axle load is split evenly between its two
+///   wheels, which leaves the published side loads (284 g / 295 g) unused.
+/// - The rear reading while raised is not published; vertical balance gives
+///   579 − 377 = 202 g (their formula uses the same total for both states).
+///
+/// Tolerances are the published rounding: half the last digit shown.
+#[test]
+fn a_published_axle_lift_measurement_is_reproduced() {
+    let g = STANDARD_GRAVITY_MPS2;
+    let newtons = |grams: f32| grams * 1e-3 * g;
+    let (wheelbase, radius, raise) = (0.102_f32, 0.015_f32, 0.040_f32);
+    let half_track = 0.045_f32;
+    let foot = |x: f32, y: f32| Foot {
+        position_m: [x, y],
+        tie_down_n: 0.0,
+    };
+    let feet = [
+        foot(-half_track, wheelbase),
+        foot(half_track, wheelbase),
+        foot(half_track, 0.0),
+        foot(-half_track, 0.0),
+    ];
+    let s = Support::new(&feet).unwrap();
+    let (front_g, rear_g) = (322.0_f32, 257.0_f32);
+    let axles = |front: f32, rear: f32| {
+        [
+            newtons(front / 2.0),
+            newtons(front / 2.0),
+            newtons(rear / 2.0),
+            newtons(rear / 2.0),
+        ]
+    };
+    let level = axles(front_g, rear_g);
+    // A 1 g kitchen-scale resolution, u = 1 g / √12 (ours, not published).
+    let u_reading = newtons(1.0) / 12f32.sqrt();
+    let weigh = |front_raised_g: f32| {
+        let lifted = axles(front_raised_g, front_g + rear_g - front_raised_g);
+        let w = Weighing {
+            level_n: &level,
+            reading_uncertainty_n: u_reading,
+            lift: Some(Lift {
+                geometry: LiftGeometry::Feet {
+                    lifted_mask: 0b1100,
+                    height_m: raise,
+                    height_uncertainty_m: 0.5e-3,
+                },
+                loads_n: &lifted,
+            }),
+            tip: None,
+        };
+        centre_from_weighing(&s, &w).unwrap()
+    };
+    let m = weigh(377.0);
+    assert!(m.checks.passed, "{:?}", m.checks);
+    assert_abs_diff_eq!(m.mass_kg.value, 0.579, epsilon = 0.5e-3);
+    // 56.7 mm ahead of the rear axle, 55.6 % on the front.
+    assert_abs_diff_eq!(m.y_m.value, 56.7e-3, epsilon = 0.05e-3);
+    assert_abs_diff_eq!(m.y_m.value / wheelbase, 0.556, epsilon = 0.0005);
+    assert_abs_diff_eq!(m.x_m.value, 0.0, epsilon = 1e-6);
+    // θ = 23.1°.
+    assert_abs_diff_eq!(
+        m.lift_angle_rad.unwrap(),
+        deg_to_rad(23.1),
+        epsilon = deg_to_rad(0.05)
+    );
+    // 22.7 mm above the axles, 38 mm above the ground.
+    let above_axles = m.height_m.unwrap().value;
+    assert_abs_diff_eq!(above_axles, 22.7e-3, epsilon = 0.05e-3);
+    assert_abs_diff_eq!(above_axles + radius, 38e-3, epsilon = 0.5e-3);
+    // "One gram on the scale moves z by about 0.4 mm": one gram more on the
+    // front scale while raised (and one less on the rear, the total fixed).
+    let moved = weigh(378.0).height_m.unwrap().value - above_axles;
+    assert_abs_diff_eq!(moved, 0.4e-3, epsilon = 0.05e-3);
+}
+
+/// A published worked example of weighing on three points: FAA-H-8083-1B,
+/// *Aircraft Weight and Balance Handbook* (Federal Aviation Administration,
+/// 2016), chapter 10, "Use of Computer for Weight and Balance Computations",
+/// "Electronic Calculator" (edition and chapter number from memory; the
+/// example read in the reproduction at
+/// https://flight-study.com/electronic-calculator/). A nose-wheel airplane:
+/// nose wheel F = 340 lb, main wheels to nose wheel L = −78 in (the nose
+/// wheel ahead), total W = 2,006 lb; CG = F·L / W = −13.2 in, i.e. 13.2 in
+/// ahead of the main-wheel weighing points.
+///
+/// Mapping: the nose wheel a foot 78 in ahead (+y) of the main wheels' line
+/// (y = 0); the example gives the main wheels only as the rest of the total
+/// (1,666 lb), so they are split evenly between two feet at an arbitrary
+/// track (2.5 m here; the fore-aft result does not depend on it). Pounds
+/// (avoirdupois, 0.453 592 37 kg, exact) and inches (25.4 mm, exact)
+/// converted. Tolerance: half the last digit shown, 0.05 in.
+#[test]
+fn a_published_three_point_weighing_is_reproduced() {
+    let g = STANDARD_GRAVITY_MPS2;
+    let lb = |pounds: f32| pounds * 0.453_592_37 * g;
+    let inch = 0.0254_f32;
+    let foot = |x: f32, y: f32| Foot {
+        position_m: [x, y],
+        tie_down_n: 0.0,
+    };
+    let feet = [foot(0.0, 78.0 * inch), foot(1.25, 0.0), foot(-1.25, 0.0)];
+    let s = Support::new(&feet).unwrap();
+    let mains = 2006.0 - 340.0;
+    let level = [lb(340.0), lb(mains / 2.0), lb(mains / 2.0)];
+    let w = Weighing {
+        level_n: &level,
+        reading_uncertainty_n: lb(1.0) / 12f32.sqrt(),
+        lift: None,
+        tip: None,
+    };
+    let m = centre_from_weighing(&s, &w).unwrap();
+    assert_abs_diff_eq!(m.mass_kg.value, 2006.0 * 0.453_592_37, epsilon = 0.1);
+    assert_abs_diff_eq!(m.y_m.value / inch, 13.2, epsilon = 0.05);
+    assert!(m.height_m.is_none());
+}
+
 /// Inconsistent readings are flagged, not averaged away.
 #[test]
 fn inconsistent_readings_fail_the_checks_and_impossible_ones_are_errors() {
