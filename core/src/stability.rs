@@ -139,17 +139,19 @@ impl EdgeTerms {
     }
 }
 
-/// Overturning ÷ stabilising, capped.
+/// Overturning ÷ stabilising, in [0, [`UTILISATION_CAP`]]; NaN if either is.
+///
+/// With nothing stabilising (`stab` ≤ 0) the result is the cap when anything
+/// overturns, and 1.0 when nothing does either: neutral equilibrium, on the
+/// point of moving, never read as safe.
 #[must_use]
 pub fn ratio(over: f32, stab: f32) -> f32 {
-    if stab <= over / UTILISATION_CAP || stab <= 0.0 {
-        if over > 0.0 {
-            UTILISATION_CAP
-        } else {
-            0.0
-        }
-    } else {
+    if stab > 0.0 || stab.is_nan() {
         math::clamp(over / stab, 0.0, UTILISATION_CAP)
+    } else if over > 0.0 {
+        UTILISATION_CAP
+    } else {
+        1.0
     }
 }
 
@@ -721,5 +723,72 @@ impl Rig {
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let loads = Loads::new(&placement, c.wind_from_rad);
         Ok(loads.foot_reactions_n(&placement, c.air.dynamic_pressure_pa(c.wind_speed_mps)))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    //! The definitions of the edge terms and the ratio (no outside source:
+    //! they are this module's own conventions, documented above).
+    use super::*;
+
+    const TERMS: EdgeTerms = EdgeTerms {
+        gravity_over_nm: 1.0,
+        gravity_stab_nm: 10.0,
+        wind_over_nm_per_pa: 0.5,
+        wind_stab_nm_per_pa: 0.25,
+        tie_stab_nm: 3.0,
+    };
+
+    #[test]
+    fn edge_moments_add_wind_and_tie_downs_on_their_sides() {
+        assert_eq!(TERMS.at(0.0), (1.0, 13.0));
+        assert_eq!(TERMS.at(4.0), (3.0, 14.0));
+    }
+
+    #[test]
+    fn tip_pressure_nets_wind_against_gravity_and_ties() {
+        // base = 1 − 10 − 3 = −12 N·m; k = 0.5 − 0.25 = 0.25 N·m/Pa.
+        assert_eq!(TERMS.tip_pressure_pa(), Some(48.0));
+        // Wind that steadies as much as it overturns cannot tip.
+        let even = EdgeTerms {
+            wind_stab_nm_per_pa: 0.5,
+            ..TERMS
+        };
+        assert_eq!(even.tip_pressure_pa(), None);
+        // Balanced on the edge: tipping already, whatever the wind does.
+        let balanced = EdgeTerms {
+            gravity_over_nm: 13.0,
+            wind_stab_nm_per_pa: 0.5,
+            ..TERMS
+        };
+        assert_eq!(balanced.tip_pressure_pa(), Some(0.0));
+        // Just inside the edge, a steadying wind cannot tip it.
+        let inside = EdgeTerms {
+            gravity_over_nm: 12.9,
+            ..balanced
+        };
+        assert_eq!(inside.tip_pressure_pa(), None);
+    }
+
+    #[test]
+    fn ratio_is_capped_and_never_reads_nothing_as_safe() {
+        assert_eq!(ratio(1.0, 4.0), 0.25);
+        assert_eq!(ratio(0.0, 4.0), 0.0);
+        assert_eq!(ratio(3.0e6, 1.0), UTILISATION_CAP);
+        assert_eq!(ratio(1.0, 1.0e-30), UTILISATION_CAP);
+        assert_eq!(ratio(1.0, 0.0), UTILISATION_CAP);
+        assert_eq!(ratio(1.0, -2.0), UTILISATION_CAP);
+        assert_eq!(ratio(0.0, 0.0), 1.0);
+        assert!(ratio(f32::NAN, 1.0).is_nan());
+        assert!(ratio(1.0, f32::NAN).is_nan());
+    }
+
+    #[test]
+    fn a_weight_splits_by_the_sign_of_its_moment() {
+        let (mut over, mut stab) = (1.0, 2.0);
+        split(0.5, &mut over, &mut stab);
+        split(-0.25, &mut over, &mut stab);
+        assert_eq!((over, stab), (1.5, 2.25));
     }
 }

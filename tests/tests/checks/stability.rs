@@ -309,3 +309,91 @@ fn ballast_needed_meets_target_exactly() {
     let closed_t = (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / 0.75;
     assert_relative_eq!(tie.amount, closed_t, max_relative = 1e-3);
 }
+
+/// Utilisation at a wind below the tip wind, with tie-downs: about the edge
+/// opposite the upwind foot, overturning F·H = q·(C_d·A)·H against the weight
+/// on its arm r plus the upwind foot's tie-down T on the triangle's height 3r
+/// (the same block-tipping moment balance of Beer & Johnston, *Vector
+/// Mechanics for Engineers: Statics*, ch. 8, with the anchor as one more
+/// stabilising force). W = 392.3 N, r = 0.25 m, T = 100 N, C_d·A = 0.222 m²,
+/// H = 1.5 m: at 15 m/s, q = 137.8 Pa, u = 45.9 / (98.1 + 75.0) = 0.265;
+/// the tip wind rises from 21.9 to 29.1 m/s.
+#[test]
+fn tie_downs_steady_the_rig_by_their_arm() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let mut spec = post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5);
+    for f in spec.feet.iter_mut() {
+        f.tie_down_n = 100.0;
+    }
+    let rig = Rig::new(&spec).unwrap();
+    let a = rig.assess(&wind(altaz(0.0, 0.0), 15.0, 0.0)).unwrap();
+    let (w, r, t, cda, h) = (40.0 * STANDARD_GRAVITY_MPS2, 0.25, 100.0, 0.222, 1.5);
+    let q = Air::default().dynamic_pressure_pa(15.0);
+    let over = q * cda * h;
+    let stab = w * r + t * 3.0 * r;
+    assert_relative_eq!(a.critical.overturning_nm, over, max_relative = 1e-4);
+    assert_relative_eq!(a.critical.stabilising_nm, stab, max_relative = 1e-4);
+    assert_relative_eq!(a.critical.utilisation, over / stab, max_relative = 1e-4);
+    assert_relative_eq!(a.critical.margin_nm, stab - over, max_relative = 1e-4);
+    assert_relative_eq!(over / stab, 0.265, max_relative = 2e-3);
+    let v_tip = (2.0 * stab / (cda * h) / 1.225_f32).sqrt();
+    assert_relative_eq!(v_tip, 29.1, max_relative = 2e-3);
+    assert_relative_eq!(a.tip_wind_mps.unwrap(), v_tip, max_relative = 1e-4);
+}
+
+/// A wind blowing up a slope steadies the downhill edge and tips the rig over
+/// the uphill ones. On ground tilted θ toward one edge, the weight splits into
+/// W·sinθ along the ground (overturning on the CG height h) and W·cosθ normal
+/// to it (stabilising on the arm r), as in the slope checks of mobile cranes;
+/// the wind stays horizontal in the world, so in the ground's frame it is
+/// (cosθ along the slope, −sinθ into the ground) and a cylinder standing
+/// normal to the ground meets it θ off broadside: C_d·A = C_d⊥·d·l·cosθ +
+/// C_d∥·(π/4)·d²·sinθ (cross-flow principle, Hoerner, *Fluid-Dynamic Drag*,
+/// 1965, ch. 3, from memory). About the downhill edge:
+/// u = W·sinθ·h / (W·cosθ·r + q·C_d·A·(H·cosθ + r·sinθ)).
+/// About each uphill edge (outward normals 60° off the wind) the wind tips
+/// the rig when q·C_d·A·(H·cosθ·cos60° − r·sinθ) = W·cosθ·r + W·sinθ·h·cos60°.
+/// (Statics; the decomposition is common practice, no source.)
+#[test]
+fn wind_up_a_slope_steadies_the_downhill_edge() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let mut spec = post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5);
+    let end_cd = 0.8_f32;
+    if let Some(x) = spec.bodies[0].exposure.as_mut() {
+        x.end_drag_coefficient = Some(end_cd);
+    }
+    let rig = Rig::new(&spec).unwrap();
+    let theta = 0.15_f32;
+    // Downhill toward the southern edge; the wind from the south blows uphill.
+    let c = |speed: f32| Conditions {
+        tilt: Tilt::new(theta, deg_to_rad(180.0)).unwrap(),
+        ..wind(altaz(0.0, 0.0), speed, 180.0)
+    };
+    let (w, r, h, big_h) = (40.0 * STANDARD_GRAVITY_MPS2, 0.25_f32, 0.8_f32, 1.5_f32);
+    let d = 0.25_f32; // the post's diameter (fixtures::post_rig)
+    let cda = 0.222 * theta.cos() + end_cd * core::f32::consts::FRAC_PI_4 * d * d * theta.sin();
+    let calm = rig.assess(&c(0.0)).unwrap();
+    assert_relative_eq!(
+        calm.critical.utilisation,
+        w * theta.sin() * h / (w * theta.cos() * r),
+        max_relative = 1e-3
+    );
+    let v = 8.0;
+    let q = Air::default().dynamic_pressure_pa(v);
+    let a = rig.assess(&c(v)).unwrap();
+    let stab = w * theta.cos() * r + q * cda * (big_h * theta.cos() + r * theta.sin());
+    assert_relative_eq!(a.critical.stabilising_nm, stab, max_relative = 1e-3);
+    assert_relative_eq!(
+        a.critical.utilisation,
+        w * theta.sin() * h / stab,
+        max_relative = 1e-3
+    );
+    assert!(a.critical.utilisation < calm.critical.utilisation);
+    let q_tip = (w * theta.cos() * r + w * theta.sin() * h * 0.5)
+        / (cda * (big_h * theta.cos() * 0.5 - r * theta.sin()));
+    assert_relative_eq!(
+        a.tip_wind_mps.unwrap(),
+        (2.0 * q_tip / 1.225_f32).sqrt(),
+        max_relative = 1e-3
+    );
+}
