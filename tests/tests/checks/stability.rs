@@ -353,7 +353,9 @@ fn tie_downs_steady_the_rig_by_their_arm() {
 /// u = W·sinθ·h / (W·cosθ·r + q·C_d·A·(H·cosθ + r·sinθ)).
 /// About each uphill edge (outward normals 60° off the wind) the wind tips
 /// the rig when q·C_d·A·(H·cosθ·cos60° − r·sinθ) = W·cosθ·r + W·sinθ·h·cos60°.
-/// (Statics; the decomposition is common practice, no source.)
+/// Sliding by Coulomb friction on the net force along and normal to the
+/// ground (Beer & Johnston, ch. 8). (Statics; the decomposition is common
+/// practice, no source.)
 #[test]
 fn wind_up_a_slope_steadies_the_downhill_edge() {
     let support = Support::tripod(0.5, 0.0).unwrap();
@@ -389,6 +391,18 @@ fn wind_up_a_slope_steadies_the_downhill_edge() {
         max_relative = 1e-3
     );
     assert!(a.critical.utilisation < calm.critical.utilisation);
+    // Sliding (Coulomb friction, μ = 0.5): the wind's push up the slope
+    // offsets the weight's pull down it, and its part into the ground adds
+    // to the normal force.
+    let along = q * cda * theta.cos() - w * theta.sin();
+    let normal = w * theta.cos() + q * cda * theta.sin();
+    assert_relative_eq!(a.sliding.tangential_n, along.abs(), max_relative = 1e-3);
+    assert_relative_eq!(a.sliding.normal_n, normal, max_relative = 1e-4);
+    assert_relative_eq!(
+        a.sliding.utilisation,
+        along.abs() / (0.5 * normal),
+        max_relative = 1e-3
+    );
     let q_tip = (w * theta.cos() * r + w * theta.sin() * h * 0.5)
         / (cda * (big_h * theta.cos() * 0.5 - r * theta.sin()));
     assert_relative_eq!(
