@@ -403,11 +403,31 @@ fn wind_up_a_slope_steadies_the_downhill_edge() {
         along.abs() / (0.5 * normal),
         max_relative = 1e-3
     );
+    // The three foot reactions carry the whole force normal to the ground.
+    let reactions = rig.foot_reactions_n(&c(v)).unwrap().unwrap();
+    assert_relative_eq!(reactions.iter().sum::<f32>(), normal, max_relative = 1e-4);
     let q_tip = (w * theta.cos() * r + w * theta.sin() * h * 0.5)
         / (cda * (big_h * theta.cos() * 0.5 - r * theta.sin()));
     assert_relative_eq!(
         a.tip_wind_mps.unwrap(),
         (2.0 * q_tip / 1.225_f32).sqrt(),
         max_relative = 1e-3
+    );
+}
+
+/// Ties go to the first edge in the support's order: on level ground in calm
+/// air no edge of a rig centred over its feet is loaded, and the critical
+/// edge reported is the first (the documented order of
+/// `standfast::stability::Assessment::critical`).
+#[test]
+fn an_unloaded_rig_reports_its_first_edge() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let a = rig.assess(&wind(altaz(0.0, 0.0), 0.0, 0.0)).unwrap();
+    let first = support.edges()[0];
+    assert_eq!(a.critical.utilisation, 0.0);
+    assert_eq!(
+        (a.critical.from_foot, a.critical.to_foot),
+        (first.from, first.to)
     );
 }
