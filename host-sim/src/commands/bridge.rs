@@ -70,10 +70,11 @@ use standfast::guard::{AirSample, Cause, Event, Guard, GuardConfig, Inputs, Verd
 use standfast::mount::{PierSide, Pose};
 use standfast::sense::{Millis, Mounting};
 
-use crate::assess::CAUTIONS;
-use crate::error::Error;
-use crate::located::{bounded, bounded_to, fmt_g, MAX_PROBLEM_CHARS};
-use crate::rigfile::{self, LoadedRig};
+use crate::cautions::CAUTIONS;
+use crate::input::error::Error;
+use crate::input::located::{bounded, bounded_to, fmt_g, MAX_PROBLEM_CHARS};
+use crate::input::rigfile::{self, LoadedRig};
+use crate::input::units::f32_of;
 
 /// Input line format.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum, Default)]
@@ -311,11 +312,6 @@ fn check(name: &str, v: f64, min: f64, max: f64, unit: &str) -> Result<f64, Stri
             fmt_g(max)
         ))
     }
-}
-
-#[allow(clippy::cast_possible_truncation)] // checked ranges fit f32
-fn f32_of(x: f64) -> f32 {
-    x as f32
 }
 
 /// Pose and air values that hold until changed.
@@ -734,7 +730,11 @@ impl<'r> Bridge<'r> {
     pub fn start(&mut self, now: Millis) -> Result<(), Error> {
         if self.guard.is_none() {
             let g = Guard::new(&self.rig.rig, self.config.clone(), now).map_err(|e| {
-                crate::rigfile::after_load_error(&self.rig.file, "the guard cannot start", &e)
+                crate::input::rigfile::after_load_error(
+                    &self.rig.file,
+                    "the guard cannot start",
+                    &e,
+                )
             })?;
             let mut g = g;
             // The site's air until measured air arrives.

@@ -1,23 +1,21 @@
 //! Command-line interface: argument definitions and dispatch. `main.rs` only
-//! parses and maps errors to exit codes (see [`crate::error::exit`]).
+//! parses and maps errors to exit codes (see [`crate::input::error::exit`]).
 
 use std::io::Write;
 use std::path::PathBuf;
 
 use clap::{Args, Parser, Subcommand};
 
-use crate::demo_data::{self, NightPlan};
-use crate::error::Error;
+use crate::cautions::caution_paragraph;
+use crate::commands::demo_data::{self, NightPlan};
+use crate::commands::options::{quantity_option, OptionRange};
+use crate::input::error::Error;
 
-/// Cautions printed with every result a person reads.
-pub const CAUTION: &str = "Caution: Standfast's figures are estimates from a simplified static model. \
-Secure the rig anyway, stay inside the mount maker's limits, and defer to local codes and licensed engineers.";
-
-const AFTER_HELP: &str = "\
-Exit codes: 0 success; 1 bad input (rig file, log profile or log); 2 bad command line; 3 a file or folder cannot be read or written.
-
-Caution: Standfast's figures are estimates from a simplified static model. Secure the rig anyway, \
-stay inside the mount maker's limits, and defer to local codes and licensed engineers.";
+const AFTER_HELP: &str = concat!(
+    "Exit codes: 0 success; 1 bad input (rig file, log profile or log); 2 bad command line; \
+3 a file or folder cannot be read or written.\n\n",
+    caution_paragraph!()
+);
 
 /// How close is a telescope rig left outdoors to tipping, sliding or
 /// overloading its drives?
@@ -36,18 +34,18 @@ pub enum Command {
     /// or (with --bench) a long 50 Hz log for the throughput benchmark.
     GenDemo(GenDemoArgs),
     /// Assess a rig file without logs (tip wind, torques, ballast, tripod orientation).
-    Assess(crate::assess::AssessArgs),
+    Assess(crate::commands::assess::AssessArgs),
     /// Find the rig's centre of gravity from scale readings under its feet
     /// (level, one side lifted, tilted until a foot unloads).
-    Weigh(crate::weigh::WeighArgs),
+    Weigh(crate::commands::weigh::WeighArgs),
     /// Replay a night's logs through the guard and summarise the closest approaches.
-    Replay(crate::replay::ReplayArgs),
+    Replay(crate::commands::replay::ReplayArgs),
     /// Write an invented windy night and demo rig, replay them and print the summary.
-    Demo(crate::replay::DemoArgs),
+    Demo(crate::commands::replay::DemoArgs),
     /// Read live samples (JSON lines or CSV) on standard input and write one JSON verdict line per sample.
-    Bridge(crate::bridge::BridgeArgs),
+    Bridge(crate::commands::bridge::BridgeArgs),
     /// Write a rig file as a versioned, checksummed binary rig image for the C ABI (core/ffi).
-    RigImage(crate::rig_image::RigImageArgs),
+    RigImage(crate::commands::rig_image::RigImageArgs),
 }
 
 /// Arguments of `gen-demo`.
@@ -81,69 +79,6 @@ pub struct GenDemoArgs {
     pub hours: String,
 }
 
-/// The accepted range of an option, for messages: `0 to 360 deg`, or
-/// `more than 0 h, up to 9 h` when the lower bound is excluded.
-fn range_text(lo: f64, hi: f64, lo_open: bool, unit: &str) -> String {
-    use crate::located::fmt_g;
-    if lo_open {
-        format!("more than {} {unit}, up to {} {unit}", fmt_g(lo), fmt_g(hi))
-    } else {
-        format!("{} to {} {unit}", fmt_g(lo), fmt_g(hi))
-    }
-}
-
-/// The accepted range and unit of a numeric option.
-#[derive(Clone, Copy, Debug)]
-pub struct OptionRange {
-    /// Lowest accepted value, in `unit`.
-    pub lo: f64,
-    /// Highest accepted value, in `unit`.
-    pub hi: f64,
-    /// Whether `lo` itself is refused.
-    pub lo_open: bool,
-    /// The unit of a plain number and of the range in messages.
-    pub unit: &'static str,
-}
-
-/// Reads a numeric command-line option that may carry a unit (`"45 mph"`,
-/// `"270 deg"`, `"90 min"`; a plain number is in `range.unit`), checks
-/// that it is finite and within the range, and returns it in SI.
-///
-/// # Errors
-/// [`Error::Usage`] (exit code 2) naming the option, the value (bounded),
-/// what is wrong and the accepted range.
-pub fn quantity_option<D: crate::units::Dimension>(
-    option: &str,
-    text: &str,
-    range: OptionRange,
-) -> Result<f64, Error> {
-    let accepted = range_text(range.lo, range.hi, range.lo_open, range.unit);
-    let bad = |problem: String| {
-        Error::Usage(format!(
-            "{option} = \"{}\": {problem}",
-            crate::located::bounded(text)
-        ))
-    };
-    let q = crate::units::Quantity::<D>::parse_or(text, range.unit)
-        .map_err(|e| bad(format!("{e}; accepted range {accepted}")))?;
-    let unit = D::DIM.unit(range.unit).map_err(|e| bad(e.to_string()))?;
-    let v = unit.from_si(q.si());
-    let low_ok = if range.lo_open {
-        v > range.lo
-    } else {
-        v >= range.lo
-    };
-    if v.is_finite() && q.si().is_finite() && low_ok && v <= range.hi {
-        Ok(q.si())
-    } else {
-        Err(bad(format!(
-            "outside the accepted range {accepted} (this value is {} {})",
-            crate::located::fmt_g(v),
-            range.unit
-        )))
-    }
-}
-
 /// Accepted length of the benchmark log.
 pub const BENCH_HOURS: OptionRange = OptionRange {
     lo: 0.0,
@@ -159,20 +94,20 @@ pub const BENCH_HOURS: OptionRange = OptionRange {
 pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
     match &cli.command {
         Command::GenDemo(a) => gen_demo(a, out),
-        Command::Assess(a) => crate::assess::run(a, out),
-        Command::Weigh(a) => crate::weigh::run(a, out),
-        Command::Replay(a) => crate::replay::run_replay(a, out),
-        Command::Demo(a) => crate::replay::run_demo(a, out),
-        Command::Bridge(a) => crate::bridge::run_bridge(a, out),
-        Command::RigImage(a) => crate::rig_image::run(a, out),
+        Command::Assess(a) => crate::commands::assess::run(a, out),
+        Command::Weigh(a) => crate::commands::weigh::run(a, out),
+        Command::Replay(a) => crate::commands::replay::run_replay(a, out),
+        Command::Demo(a) => crate::commands::replay::run_demo(a, out),
+        Command::Bridge(a) => crate::commands::bridge::run_bridge(a, out),
+        Command::RigImage(a) => crate::commands::rig_image::run(a, out),
     }
 }
 
 fn gen_demo(a: &GenDemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     let stdout = |e| Error::io("<standard output>", e);
     let hours =
-        quantity_option::<crate::units::TimeDim>("--hours", &a.hours, BENCH_HOURS)? / 3600.0;
-    let mut folder = crate::output::OwnedFolder::open(&a.out, a.replace)?;
+        quantity_option::<crate::input::units::TimeDim>("--hours", &a.hours, BENCH_HOURS)? / 3600.0;
+    let mut folder = crate::commands::output::OwnedFolder::open(&a.out, a.replace)?;
     if a.bench {
         folder.check(&[demo_data::BENCH_CSV, demo_data::BENCH_PROFILE_TOML])?;
         let b = demo_data::write_bench_log_in(&mut folder, a.seed, hours)?;

@@ -26,9 +26,9 @@ use std::path::{Path, PathBuf};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 
-use crate::error::Error;
-use crate::log::time::{write_iso8601, Timestamp, NS_PER_S};
-use crate::output::OwnedFolder;
+use crate::commands::output::OwnedFolder;
+use crate::input::error::Error;
+use crate::input::log::time::{write_iso8601, Timestamp, NS_PER_S};
 
 /// Terrain categories of EN 1991-1-4 Table 4.1.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

@@ -10,9 +10,9 @@ use std::path::PathBuf;
 use clap::Args;
 use standfast_ffi::image::{self, RigImage, IMAGE_MAX_BYTES, IMAGE_VERSION};
 
-use crate::error::Error;
-use crate::located::InputError;
-use crate::rigfile::{self, LoadedRig};
+use crate::input::error::Error;
+use crate::input::located::InputError;
+use crate::input::rigfile::{self, LoadedRig};
 
 /// Arguments of `rig-image`.
 #[derive(Debug, Args)]
@@ -77,13 +77,13 @@ pub fn image_bytes(r: &LoadedRig) -> Result<Vec<u8>, Error> {
 pub fn run(a: &RigImageArgs, out: &mut dyn Write) -> Result<(), Error> {
     // An output over the input (same path, a symbolic or hard link) is
     // refused before anything is read (exit 2), as for every output.
-    crate::output::check_paths(
-        &[crate::output::Role::new("the rig file", &a.rig)],
-        &[crate::output::Role::new("--out", &a.out)],
+    crate::commands::output::check_paths(
+        &[crate::commands::output::Role::new("the rig file", &a.rig)],
+        &[crate::commands::output::Role::new("--out", &a.out)],
     )?;
     let r = rigfile::load(&a.rig)?;
     let bytes = image_bytes(&r)?;
-    crate::output::write_atomic(&a.out, &bytes)?;
+    crate::commands::output::write_atomic(&a.out, &bytes)?;
     writeln!(
         out,
         "wrote {} ({} bytes, rig image format {IMAGE_VERSION}) from {}",

@@ -7,10 +7,11 @@
 //! | 2 | bad command line: unknown option, missing argument, an option value out of range (printed by the argument parser), an output path that is an input or another output, a demo folder holding files standfast did not write |
 //! | 3 | I/O: a file or folder cannot be read or written |
 
+use core::fmt;
 use std::path::PathBuf;
 
-use crate::located::InputError;
-use crate::log::Issue;
+use crate::input::bounded::{bounded_to, ECHO_CHARS, MAX_PROBLEM_CHARS};
+use crate::input::issues::Issue;
 
 /// Process exit codes of the `standfast` command.
 pub mod exit {
@@ -72,3 +73,53 @@ impl Error {
 
 /// Result with the crate's [`Error`].
 pub type Result<T, E = Error> = std::result::Result<T, E>;
+
+/// A position in a named text file: 1-based line and column (in characters).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Location {
+    /// File name as given by the user.
+    pub file: String,
+    /// Line, from 1.
+    pub line: usize,
+    /// Column in characters, from 1.
+    pub column: usize,
+}
+
+impl fmt::Display for Location {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}:{}:{}", self.file, self.line, self.column)
+    }
+}
+
+/// A bad value in a configuration file.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
+pub struct InputError {
+    /// Where, when known.
+    pub at: Option<Location>,
+    /// Dotted key path, when known (`log.file[1].columns.wind_speed.unit`).
+    pub key: Option<String>,
+    /// The value as written in the file, when known.
+    pub value: Option<String>,
+    /// What is wrong, including the accepted range or set where there is one.
+    pub problem: String,
+}
+
+impl fmt::Display for InputError {
+    /// `file:line:column: key = value: problem`, the key and value bounded
+    /// to twice [`ECHO_CHARS`] and the problem to [`MAX_PROBLEM_CHARS`].
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if let Some(at) = &self.at {
+            write!(f, "{at}: ")?;
+        }
+        // Twice the echo limit, so a value a caller already bounded (and
+        // quoted) is shown whole with its byte count.
+        let b = |t: &str| bounded_to(t, 2 * ECHO_CHARS);
+        match (&self.key, &self.value) {
+            (Some(k), Some(v)) => write!(f, "{} = {}: ", b(k), b(v))?,
+            (Some(k), None) => write!(f, "{}: ", b(k))?,
+            (None, Some(v)) => write!(f, "{}: ", b(v))?,
+            (None, None) => {}
+        }
+        f.write_str(&bounded_to(&self.problem, MAX_PROBLEM_CHARS))
+    }
+}

@@ -90,7 +90,10 @@ impl fmt::Display for Issue {
             self.file,
             self.line,
             self.kind,
-            crate::located::bounded_to(&self.detail, crate::located::MAX_PROBLEM_CHARS)
+            crate::input::bounded::bounded_to(
+                &self.detail,
+                crate::input::bounded::MAX_PROBLEM_CHARS
+            )
         )
     }
 }

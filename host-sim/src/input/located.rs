@@ -9,32 +9,18 @@
 //! rig.toml:12:10: payload.mass = "18 lbs x": unknown unit "lbs x" for a mass (units: kg, g, t, lb, oz)
 //! ```
 
-use core::fmt;
 use core::ops::Range;
 use std::path::Path;
 
 use serde::de::DeserializeOwned;
 use toml::Spanned;
 
-use crate::error::Error;
-use crate::units::{Dim, Dimension, Quantity, Unit};
-
-/// A position in a named text file: 1-based line and column (in characters).
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub struct Location {
-    /// File name as given by the user.
-    pub file: String,
-    /// Line, from 1.
-    pub line: usize,
-    /// Column in characters, from 1.
-    pub column: usize,
-}
-
-impl fmt::Display for Location {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{}:{}:{}", self.file, self.line, self.column)
-    }
-}
+pub use crate::input::bounded::{
+    bounded, bounded_bytes, bounded_to, ECHO_CHARS, MAX_PROBLEM_CHARS,
+};
+use crate::input::error::Error;
+pub use crate::input::error::{InputError, Location};
+use crate::input::units::{Dim, Dimension, Quantity, Unit};
 
 /// A value with the place it was written.
 #[derive(Clone, Debug, PartialEq)]
@@ -43,108 +29,6 @@ pub struct Located<T> {
     pub value: T,
     /// Where it was written.
     pub at: Location,
-}
-
-/// A bad value in a configuration file.
-#[derive(Clone, Debug, PartialEq, thiserror::Error)]
-pub struct InputError {
-    /// Where, when known.
-    pub at: Option<Location>,
-    /// Dotted key path, when known (`log.file[1].columns.wind_speed.unit`).
-    pub key: Option<String>,
-    /// The value as written in the file, when known.
-    pub value: Option<String>,
-    /// What is wrong, including the accepted range or set where there is one.
-    pub problem: String,
-}
-
-impl fmt::Display for InputError {
-    /// `file:line:column: key = value: problem`, the key and value bounded
-    /// to twice [`ECHO_CHARS`] and the problem to [`MAX_PROBLEM_CHARS`].
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        if let Some(at) = &self.at {
-            write!(f, "{at}: ")?;
-        }
-        // Twice the echo limit, so a value a caller already bounded (and
-        // quoted) is shown whole with its byte count.
-        let b = |t: &str| bounded_to(t, 2 * ECHO_CHARS);
-        match (&self.key, &self.value) {
-            (Some(k), Some(v)) => write!(f, "{} = {}: ", b(k), b(v))?,
-            (Some(k), None) => write!(f, "{}: ", b(k))?,
-            (None, Some(v)) => write!(f, "{}: ", b(v))?,
-            (None, None) => {}
-        }
-        f.write_str(&bounded_to(&self.problem, MAX_PROBLEM_CHARS))
-    }
-}
-
-/// Most characters of a value written by a person (or a program) that a
-/// message repeats; longer values are cut and their length in bytes given.
-pub const ECHO_CHARS: usize = 60;
-
-/// Most characters of the problem part of a message (which may quote a
-/// parser's message, itself quoting the input).
-pub const MAX_PROBLEM_CHARS: usize = 600;
-
-/// `text` for a message: control characters escaped (`\u{1b}`), cut after
-/// [`ECHO_CHARS`] characters with its length in bytes added
-/// (`"aaaa…" (20000000 bytes)`).
-#[must_use]
-pub fn bounded(text: &str) -> String {
-    bounded_to(text, ECHO_CHARS)
-}
-
-/// As [`bounded`] with a limit of `max_chars`.
-#[must_use]
-pub fn bounded_to(text: &str, max_chars: usize) -> String {
-    let mut out = String::with_capacity(text.len().min(max_chars + 32));
-    let mut cut = false;
-    // Counted in characters written, so escapes (6 for `\u{7f}`) count in
-    // full and the limit holds whatever the text.
-    let mut n = 0;
-    for c in text.chars() {
-        let width = if c.is_control() {
-            c.escape_default().count()
-        } else {
-            1
-        };
-        if n + width > max_chars {
-            cut = true;
-            break;
-        }
-        n += width;
-        if c.is_control() {
-            out.extend(c.escape_default());
-        } else {
-            out.push(c);
-        }
-    }
-    if cut {
-        out.push_str(&format!("… ({} bytes)", text.len()));
-    }
-    out
-}
-
-/// As [`bounded`] for bytes that may not be UTF-8 (invalid sequences shown
-/// as U+FFFD).
-#[must_use]
-pub fn bounded_bytes(bytes: &[u8]) -> String {
-    let head = bytes
-        .get(..bytes.len().min(ECHO_CHARS * 4))
-        .unwrap_or(bytes);
-    let text = String::from_utf8_lossy(head);
-    let b = bounded(&text);
-    if head.len() < bytes.len() && !b.ends_with(" bytes)") {
-        format!("{b}… ({} bytes)", bytes.len())
-    } else if head.len() < bytes.len() {
-        // Cut by characters already; give the whole length.
-        match b.rfind("… (") {
-            Some(i) => format!("{}… ({} bytes)", b.get(..i).unwrap_or(""), bytes.len()),
-            None => b,
-        }
-    } else {
-        b
-    }
 }
 
 /// The text of a configuration file with its name and line index.

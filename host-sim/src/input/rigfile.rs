@@ -4,7 +4,7 @@
 //! # Units
 //! Every quantity accepts a number or a string with a unit (`"18 lb"`,
 //! `"45 in"`, `"1.1 m"`, `"30 mph"`, `"12 N m"`, `"47.3 deg"`; see
-//! [`crate::units`]). A plain number is in the SI unit of its dimension (m,
+//! [`crate::input::units`]). A plain number is in the SI unit of its dimension (m,
 //! kg, N, N m, s) **except angles: a plain number is in degrees** (the core
 //! works in radians; the conversion is done here).
 //!
@@ -71,7 +71,7 @@
 //! [measured]         mass, cg = [x, y, z] (rig frame, home pose, level), mass_uncertainty,
 //!                    cg_uncertainty, cover_fitted = false, note: a weighed centre of
 //!                    gravity (written by `standfast weigh`; see [`MeasuredNote`])
-//! [log]              the log profile (read by [`crate::log`], ignored here)
+//! [log]              the log profile (read by [`crate::input::log`], ignored here)
 //! ```
 //! Frames and sign conventions are the core's: rig frame x east, y north, z
 //! up (see `standfast::frame`); stage frames in `standfast::mount`.
@@ -100,9 +100,10 @@ use standfast::shape::{Exposure, Shape};
 use standfast::support::{Foot, Support};
 use toml::Spanned;
 
-use crate::error::Error;
-use crate::located::{fmt_g, InputError, SourceText};
-use crate::units::{Angle, Duration, Force, Length, Mass, Speed, Torque};
+use crate::input::error::Error;
+use crate::input::located::{fmt_g, Checker, InputError, SourceText};
+use crate::input::units::f32_of as f;
+use crate::input::units::{Angle, Duration, Force, Length, Mass, Speed, Torque};
 
 /// An angle as written in the rig file: a plain number is in **degrees**, a
 /// string may carry any angle unit. Held in radians.
@@ -168,7 +169,7 @@ struct FileSpec {
     joint: Vec<S<JointSec>>,
     guard: Option<S<GuardSec>>,
     sensor: Option<S<SensorSec>>,
-    /// The log profile, read by [`crate::log`].
+    /// The log profile, read by [`crate::input::log`].
     #[allow(dead_code)]
     log: Option<toml::Value>,
 }
@@ -903,11 +904,6 @@ impl Spans {
     }
 }
 
-#[allow(clippy::cast_possible_truncation)] // SI values of a rig fit f32
-fn f(x: f64) -> f32 {
-    x as f32
-}
-
 fn v3(a: &[Length; 3]) -> [f32; 3] {
     [f(a[0].m()), f(a[1].m()), f(a[2].m())]
 }
@@ -922,25 +918,97 @@ pub fn load(path: &Path) -> Result<LoadedRig, Error> {
     Ok(load_source(&src)?)
 }
 
-/// Reads and checks a rig file already in memory.
+/// Reads and checks a rig file already in memory: section by section, each
+/// reader returning its part of the spec and recording where its keys were
+/// written (for errors the core reports later by field).
 ///
 /// # Errors
 /// [`InputError`] naming file, line, key, value and accepted range.
-#[allow(clippy::too_many_lines)] // one straight mapping, section by section
 pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
     let file: FileSpec = src.parse_toml()?;
     let ck = src.checker();
     let mut sp = Spans::default();
+    let SitePart {
+        latitude_rad,
+        elevation_m,
+        air,
+    } = site_section(&ck, &file.site, &mut sp)?;
+    let (feet, friction_coefficient) = support_section(src, &ck, &file.support, &mut sp)?;
+    let legs = legs_section(file.legs.as_ref(), &mut sp);
+    let mount = mount_section(&ck, &file.mount, latitude_rad, &mut sp)?;
+    let bodies = bodies_section(src, &ck, &file.body, &mut sp)?;
+    let counterweights = counterweights_section(&ck, &file.counterweight, &mut sp)?;
+    let shaft = shaft_section(file.shaft.as_ref(), &mut sp);
+    let shaft_hardware = match &file.shaft {
+        Some(s) => shaft_hardware(src, s.get_ref())?,
+        None => None,
+    };
+    let cover = cover_section(file.cover.as_ref(), &mut sp);
+    let ballast = ballast_section(&ck, &file.ballast, &mut sp)?;
+    let drives = drives_section(file.drives.as_ref(), &mut sp);
+    let spec = RigSpec {
+        feet,
+        legs,
+        friction_coefficient,
+        mount,
+        bodies,
+        counterweights,
+        shaft,
+        cover,
+        ballast,
+        drives,
+    };
+    let rig = Rig::new(&spec).map_err(|e| core_error(src, &sp, &e))?;
+    let hardware = attachment_hardware(src, &file, shaft_hardware.as_ref())?;
+    let (rig, measured) = match &file.measured {
+        Some(m) => {
+            let (r, note) = apply_measured(src, m, &rig)?;
+            (r, Some(note))
+        }
+        None => (rig, None),
+    };
 
-    // site
-    let lat = &file.site.get_ref().latitude;
+    let mut guard = guard_config(file.guard.as_ref(), &mut sp);
+    if let Some(sec) = &file.sensor {
+        sensor_config(src, sec.get_ref(), &mut sp, &mut guard)?;
+    }
+    guard.validate().map_err(|e| core_error(src, &sp, &e))?;
+
+    Ok(LoadedRig {
+        file: src.name().to_owned(),
+        spec,
+        rig,
+        guard,
+        elevation_m,
+        shaft_hardware,
+        air,
+        measured,
+        hardware,
+    })
+}
+
+/// `[site]`: the latitude (rad, north positive), the elevation (m above
+/// sea level) and the site's air (ISA at that elevation).
+struct SitePart {
+    latitude_rad: f32,
+    elevation_m: f32,
+    air: Air,
+}
+
+/// Reads `[site]`, recording where its keys were written in `sp`.
+fn site_section(
+    ck: &Checker<'_>,
+    site: &S<SiteSec>,
+    sp: &mut Spans,
+) -> Result<SitePart, InputError> {
+    let lat = &site.get_ref().latitude;
     sp.put(
         "mount.latitude_rad",
         None,
         "site.latitude".into(),
         lat.span(),
     );
-    let elevation_m = match &file.site.get_ref().elevation {
+    let elevation_m = match &site.get_ref().elevation {
         Some(e) => f(ck
             .range(
                 "site.elevation",
@@ -953,17 +1021,33 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         None => 0.0,
     };
     let air = Air::isa_at_elevation(elevation_m).map_err(|e| {
-        let span = file
-            .site
+        let span = site
             .get_ref()
             .elevation
             .as_ref()
-            .map_or(file.site.span(), Spanned::span);
+            .map_or(site.span(), Spanned::span);
         ck.error("site.elevation", span, e.to_string())
     })?;
 
-    // support
-    let sup = file.support.get_ref();
+    Ok(SitePart {
+        latitude_rad: f(lat.get_ref().0),
+        elevation_m,
+        air,
+    })
+}
+
+/// The feet of a rig (rig frame, m; tie-down pull, N).
+type Feet = heapless::Vec<Foot, { standfast::support::MAX_FEET }>;
+
+/// Reads `[support]`: the feet (a list, or a regular tripod) with their
+/// tie-downs, and the foot–ground friction coefficient.
+fn support_section(
+    src: &SourceText,
+    ck: &Checker<'_>,
+    support: &S<SupportSec>,
+    sp: &mut Spans,
+) -> Result<(Feet, f32), InputError> {
+    let sup = support.get_ref();
     sp.put(
         "friction_coefficient",
         None,
@@ -971,8 +1055,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         sup.friction.span(),
     );
     let tie_all = sup.tie_down.as_ref().map_or(0.0, |t| f(t.get_ref().n()));
-    let feet: heapless::Vec<Foot, { standfast::support::MAX_FEET }> = match (&sup.feet, &sup.tripod)
-    {
+    let feet: Feet = match (&sup.feet, &sup.tripod) {
         (Some(list), None) => {
             sp.put("support.feet", None, "support.feet".into(), list.span());
             let mut v = heapless::Vec::new();
@@ -1056,7 +1139,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
                     ))
                 }
             };
-            let s = s.map_err(|e| core_error(src, &sp, &e))?;
+            let s = s.map_err(|e| core_error(src, sp, &e))?;
             s.feet()
                 .iter()
                 .map(|ft| Foot {
@@ -1068,7 +1151,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         _ => {
             return Err(ck.error(
                 "support",
-                file.support.span(),
+                support.span(),
                 "give exactly one of `feet` (a list of {x, y, tie_down}) and `tripod`",
             ))
         }
@@ -1084,8 +1167,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         }
     }
 
-    // legs
-    let legs = file.legs.as_ref().map(|l| {
+    Ok((feet, f(*sup.friction.get_ref())))
+}
+
+/// Reads `[legs]` (the tripod's legs as bodies), when given.
+fn legs_section(legs: Option<&S<LegsSec>>, sp: &mut Spans) -> Option<LegsSpec> {
+    legs.map(|l| {
         let g = l.get_ref();
         sp.put("legs.mass_kg", None, "legs.mass".into(), g.mass.span());
         sp.put(
@@ -1112,10 +1199,18 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             top_height_m: f(g.top_height.get_ref().m()),
             top_radius_m: f(g.top_radius.get_ref().m()),
         }
-    });
+    })
+}
 
-    // mount
-    let m = file.mount.get_ref();
+/// Reads `[mount]`: its kind and axis origin (rig frame, m), at the site's
+/// latitude (rad).
+fn mount_section(
+    ck: &Checker<'_>,
+    mount: &S<MountSec>,
+    latitude_rad: f32,
+    sp: &mut Spans,
+) -> Result<MountGeometry, InputError> {
+    let m = mount.get_ref();
     let kind = match ck.one_of("mount.kind", &m.kind, &["equatorial", "alt_azimuth"])? {
         "equatorial" => MountKind::Equatorial,
         _ => MountKind::AltAzimuth,
@@ -1137,20 +1232,28 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         _ => {
             return Err(ck.error(
                 "mount",
-                file.mount.span(),
+                mount.span(),
                 "give exactly one of axis_origin = [x, y, z] and height",
             ))
         }
     };
-    let mount = MountGeometry {
+    Ok(MountGeometry {
         kind,
-        latitude_rad: f(lat.get_ref().0),
+        latitude_rad,
         axis_origin_m: origin,
-    };
+    })
+}
 
-    // bodies
+/// Reads the `[[body]]` list: each body's mass, centre of gravity, stage,
+/// mass model and wind exposure.
+fn bodies_section(
+    src: &SourceText,
+    ck: &Checker<'_>,
+    list: &[S<BodySec>],
+    sp: &mut Spans,
+) -> Result<heapless::Vec<BodySpec, { standfast::rig::MAX_BODIES }>, InputError> {
     let mut bodies = heapless::Vec::new();
-    for (i, b) in file.body.iter().enumerate() {
+    for (i, b) in list.iter().enumerate() {
         let key = format!("body[{i}]");
         let g = b.get_ref();
         sp.put(
@@ -1193,7 +1296,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             None => None,
             Some(sh) => Some(exposure(
                 src,
-                &mut sp,
+                sp,
                 &key,
                 Some(i),
                 sh,
@@ -1236,13 +1339,20 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             ));
         }
     }
-    if let Some(b) = file.body.first() {
+    if let Some(b) = list.first() {
         sp.put("bodies", None, "body".into(), b.span());
     }
+    Ok(bodies)
+}
 
-    // counterweights
+/// Reads the `[[counterweight]]` list.
+fn counterweights_section(
+    ck: &Checker<'_>,
+    list: &[S<CwSec>],
+    sp: &mut Spans,
+) -> Result<heapless::Vec<CounterweightSpec, { standfast::rig::MAX_COUNTERWEIGHTS }>, InputError> {
     let mut counterweights = heapless::Vec::new();
-    for (i, c) in file.counterweight.iter().enumerate() {
+    for (i, c) in list.iter().enumerate() {
         let key = format!("counterweight[{i}]");
         let g = c.get_ref();
         sp.put(
@@ -1295,8 +1405,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             ));
         }
     }
+    Ok(counterweights)
+}
 
-    let shaft = file.shaft.as_ref().map(|s| {
+/// Reads `[shaft]` (the counterweight shaft as a body), when given.
+fn shaft_section(shaft: Option<&S<ShaftSec>>, sp: &mut Spans) -> Option<ShaftSpec> {
+    shaft.map(|s| {
         let g = s.get_ref();
         sp.put("shaft.mass_kg", None, "shaft.mass".into(), g.mass.span());
         sp.put(
@@ -1316,14 +1430,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             length_m: f(g.length.get_ref().m()),
             diameter_m: f(g.diameter.get_ref().m()),
         }
-    });
+    })
+}
 
-    let shaft_hardware = match &file.shaft {
-        Some(s) => shaft_hardware(src, s.get_ref())?,
-        None => None,
-    };
-
-    let cover = file.cover.as_ref().map(|c| {
+/// Reads `[cover]` (its mass, size and centre, rig frame, m), when given.
+fn cover_section(cover: Option<&S<CoverSec>>, sp: &mut Spans) -> Option<CoverSpec> {
+    cover.map(|c| {
         let g = c.get_ref();
         sp.put("cover.mass_kg", None, "cover.mass".into(), g.mass.span());
         sp.put(
@@ -1353,10 +1465,17 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             centre_m: v3(g.centre.get_ref()),
             drag_coefficient: g.drag_coefficient.as_ref().map(|d| f(*d.get_ref())),
         }
-    });
+    })
+}
 
+/// Reads the `[[ballast]]` list (mass, kg; position, rig frame, m).
+fn ballast_section(
+    ck: &Checker<'_>,
+    list: &[S<BallastSec>],
+    sp: &mut Spans,
+) -> Result<heapless::Vec<BallastSpec, { standfast::rig::MAX_BALLAST }>, InputError> {
     let mut ballast = heapless::Vec::new();
-    for (i, b) in file.ballast.iter().enumerate() {
+    for (i, b) in list.iter().enumerate() {
         let key = format!("ballast[{i}]");
         let g = b.get_ref();
         sp.put(
@@ -1383,8 +1502,12 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
             ));
         }
     }
+    Ok(ballast)
+}
 
-    let drives = file.drives.as_ref().map(|d| {
+/// Reads `[drives]` (ratings, N·m; slew acceleration, rad/s²), when given.
+fn drives_section(drives: Option<&S<DrivesSec>>, sp: &mut Spans) -> Option<Drives> {
+    drives.map(|d| {
         let g = d.get_ref();
         sp.put(
             "drives.primary",
@@ -1437,46 +1560,6 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
                 .as_ref()
                 .map_or(0.0, |a| f(*a.get_ref())),
         }
-    });
-
-    let spec = RigSpec {
-        feet,
-        legs,
-        friction_coefficient: f(*sup.friction.get_ref()),
-        mount,
-        bodies,
-        counterweights,
-        shaft,
-        cover,
-        ballast,
-        drives,
-    };
-    let rig = Rig::new(&spec).map_err(|e| core_error(src, &sp, &e))?;
-    let hardware = attachment_hardware(src, &file, shaft_hardware.as_ref())?;
-    let (rig, measured) = match &file.measured {
-        Some(m) => {
-            let (r, note) = apply_measured(src, m, &rig)?;
-            (r, Some(note))
-        }
-        None => (rig, None),
-    };
-
-    let mut guard = guard_config(file.guard.as_ref(), &mut sp);
-    if let Some(sec) = &file.sensor {
-        sensor_config(src, sec.get_ref(), &mut sp, &mut guard)?;
-    }
-    guard.validate().map_err(|e| core_error(src, &sp, &e))?;
-
-    Ok(LoadedRig {
-        file: src.name().to_owned(),
-        spec,
-        rig,
-        guard,
-        elevation_m,
-        shaft_hardware,
-        air,
-        measured,
-        hardware,
     })
 }
 

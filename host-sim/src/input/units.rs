@@ -89,6 +89,17 @@ pub const STANDARD_GRAVITY_MPS2: f64 = 9.806_65;
 /// definitions above).
 pub const POUND_FORCE_N: f64 = POUND_KG * STANDARD_GRAVITY_MPS2;
 
+/// An SI value read at the host boundary (f64) as the core takes it (f32),
+/// rounded to nearest. Values out of f32's range become ±infinity, which
+/// the core's checks refuse; every caller passes values already checked
+/// against their accepted range (rig, log, bridge and what-if values all
+/// fit f32).
+#[must_use]
+#[allow(clippy::cast_possible_truncation)] // rounding to f32 is the point
+pub fn f32_of(x: f64) -> f32 {
+    x as f32
+}
+
 const LENGTH_UNITS: &[Unit] = &[
     u(&["m", "metre", "meter", "metres", "meters"], 1.0),
     u(
@@ -345,14 +356,14 @@ impl Dim {
         for other in Dim::ALL {
             if other != self && find_in(other.units(), spelling).is_some() {
                 return Err(UnitError::WrongDimension {
-                    unit: crate::located::bounded(spelling),
+                    unit: crate::input::bounded::bounded(spelling),
                     unit_dim: other,
                     expected: self,
                 });
             }
         }
         Err(UnitError::UnknownUnit {
-            unit: crate::located::bounded(spelling.trim()),
+            unit: crate::input::bounded::bounded(spelling.trim()),
             expected: self,
         })
     }
@@ -482,7 +493,7 @@ pub fn split_number(text: &str, dim: Dim) -> Result<(f64, &str), UnitError> {
         if let Some(Ok(v)) = t.get(..cut).map(str::parse::<f64>) {
             if !v.is_finite() {
                 return Err(UnitError::NotFinite {
-                    text: crate::located::bounded(t),
+                    text: crate::input::bounded::bounded(t),
                 });
             }
             let rest = t.get(cut..).unwrap_or("").trim();
@@ -492,11 +503,11 @@ pub fn split_number(text: &str, dim: Dim) -> Result<(f64, &str), UnitError> {
     let lower = t.get(..4).unwrap_or(t).to_ascii_lowercase();
     if lower.starts_with("nan") || lower.starts_with("inf") || lower.starts_with("-inf") {
         return Err(UnitError::NotFinite {
-            text: crate::located::bounded(t),
+            text: crate::input::bounded::bounded(t),
         });
     }
     Err(UnitError::NoNumber {
-        text: crate::located::bounded(t),
+        text: crate::input::bounded::bounded(t),
         expected: dim,
     })
 }
@@ -609,7 +620,7 @@ impl<D: Dimension> Quantity<D> {
             Ok(Self::from_si(si))
         } else {
             Err(UnitError::TooLarge {
-                text: crate::located::bounded(&format!("{value} {unit}")),
+                text: crate::input::bounded::bounded(&format!("{value} {unit}")),
             })
         }
     }
@@ -634,7 +645,7 @@ impl<D: Dimension> Quantity<D> {
             Ok(Self::from_si(si))
         } else {
             Err(UnitError::TooLarge {
-                text: crate::located::bounded(text.trim()),
+                text: crate::input::bounded::bounded(text.trim()),
             })
         }
     }

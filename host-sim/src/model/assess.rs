@@ -6,26 +6,18 @@
 //! from north, clockwise; wind directions are where the wind blows FROM),
 //! speeds m/s, torques N·m, masses kg, lengths m, forces N.
 
-use std::io::Write;
-
 use serde::Serialize;
 use standfast::frame::{self, Tilt};
 use standfast::math::Vec3;
+use standfast::mount::{PierSide, Pose};
 use standfast::rig::{Conditions, Rig, RigSpec};
 use standfast::sky::{EnvelopeRow, PayloadOffset, SkyGrid, SkyScan, SkyWorst};
 use standfast::support::Support;
 use standfast::torque::{Balance, PayloadPick};
 
-use crate::error::Error;
-use crate::rigfile::LoadedRig;
-
-/// The cautions that end every report a person reads.
-pub const CAUTIONS: &[&str] = &[
-    "The figures are estimates from a simplified static model, not a guarantee.",
-    "Secure the rig anyway: ballast and tie-downs; a cover keeps weather out but catches wind, so count it in.",
-    "Stay inside the mount maker's load and torque limits whatever these figures say.",
-    "Defer to local codes and to licensed engineers for anything that can hurt people or property.",
-];
+use crate::cautions::CAUTIONS;
+use crate::input::error::Error;
+use crate::input::rigfile::LoadedRig;
 
 /// Options of an assessment.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -165,7 +157,7 @@ fn condition_report(
     let w = rig.worst_wind(&calm)?;
     let m = rig.tilt_margin(&calm)?;
     Ok(ConditionReport {
-        pose: crate::report::pose_words(&pose),
+        pose: pose_words(&pose),
         pose_rad: pose,
         tilt_deg: deg(k.tilt.magnitude_rad),
         downhill_deg: deg(k.tilt.downhill_azimuth_rad).rem_euclid(360.0),
@@ -291,7 +283,7 @@ pub struct AssessReport {
     pub condition: ConditionReport,
     /// The weighed centre of gravity the rig carries (`[measured]`), with
     /// the figures the bodies imply, when the file has one.
-    pub measured: Option<crate::rigfile::MeasuredNote>,
+    pub measured: Option<crate::input::rigfile::MeasuredNote>,
     /// The cautions.
     pub cautions: Vec<&'static str>,
 }
@@ -398,7 +390,7 @@ fn governs_words(m: standfast::hardware::FailureMode) -> &'static str {
 }
 
 fn strip_capacity(
-    j: &crate::rigfile::ThreadJoint,
+    j: &crate::input::rigfile::ThreadJoint,
 ) -> Result<standfast::hardware::StrippingResult, standfast::Error> {
     use standfast::hardware::{strip, ShearFactor, StrengthBasis, StrippingInput};
     strip::check_stripping(&StrippingInput {
@@ -469,7 +461,7 @@ fn shaft_joint_row(
 fn joint_row(
     r: &LoadedRig,
     o: &AssessOptions,
-    j: &crate::rigfile::BoltedJoint,
+    j: &crate::input::rigfile::BoltedJoint,
 ) -> Result<HardwareRow, standfast::Error> {
     use standfast::hardware::JointLoad;
     let rig = &r.rig;
@@ -495,7 +487,7 @@ fn joint_row(
                 t.max_n,
                 format!(
                     "{}, {}, cover {}, {:.0} m/s gust from {:.0}° ({:.1} kg above the joint)",
-                    crate::report::pose_words(&pose),
+                    pose_words(&pose),
                     if tilt.magnitude_rad > 0.0 {
                         format!(
                             "ground tilt {:.1}° toward {:.0}°",
@@ -618,7 +610,7 @@ fn deg(rad: f32) -> f32 {
 }
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    crate::rigfile::after_load_error(file, "assessment failed", e)
+    crate::input::rigfile::after_load_error(file, "assessment failed", e)
 }
 
 fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, standfast::Error> {
@@ -635,7 +627,7 @@ fn orientation(
     spec: &RigSpec,
     c: &Conditions,
     storm_from_deg: f32,
-    measured: Option<&crate::rigfile::MeasuredNote>,
+    measured: Option<&crate::input::rigfile::MeasuredNote>,
 ) -> Result<Option<Orientation>, standfast::Error> {
     if spec.feet.len() != 3 {
         return Ok(None);
@@ -814,605 +806,46 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
     })
 }
 
-fn speed(v: Option<f32>) -> String {
-    v.map_or_else(
-        || "no wind tips it".to_owned(),
-        |s| format!("{s:.1} m/s ({:.0} km/h)", s * 3.6),
-    )
-}
-
-/// Writes the report as text.
-///
-/// # Errors
-/// I/O errors of `out`.
-pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()> {
-    writeln!(out, "Static assessment of {}", rep.file)?;
-    let [x, y, z] = rep.centre_of_gravity_m;
-    writeln!(
-        out,
-        "  mass {:.1} kg, centre of gravity x {x:.3} m (east), y {y:.3} m (north), z {z:.3} m (up), home pose, cover off",
-        rep.mass_kg
-    )?;
-    if let Some(m) = &rep.measured {
-        let [dx, dy, dz] = m.difference_m;
-        writeln!(
-            out,
-            "  weighed ([measured]): the bodies alone imply {:.1} kg at z {:.3} m; weighed minus modelled x {dx:+.3} m, y {dy:+.3} m, z {dz:+.3} m{}",
-            m.modelled_mass_kg,
-            m.modelled_centre_m[2],
-            m.centre_uncertainty_m
-                .map_or_else(String::new, |u| format!(" (weighed height ± {:.3} m)", u[2]))
-        )?;
-    }
-    writeln!(
-        out,
-        "  air density {:.3} kg/m³ (ISA at the site elevation)",
-        rep.air_density_kg_m3
-    )?;
-    writeln!(out, "\nTip wind speed by direction, home pose, cover off:")?;
-    for row in &rep.home_by_direction {
-        writeln!(
-            out,
-            "  from {:>5.0}°  {}",
-            row.from_deg,
-            speed(row.tip_wind_mps)
-        )?;
-    }
-    writeln!(
-        out,
-        "\nLowest tip wind, home pose: {} from {:.0}°",
-        speed(rep.home_worst.tip_wind_mps),
-        rep.home_worst.from_deg
-    )?;
-    if let Some(c) = &rep.home_worst_covered {
-        writeln!(
-            out,
-            "Lowest tip wind, home pose, cover fitted: {} from {:.0}°",
-            speed(c.tip_wind_mps),
-            c.from_deg
-        )?;
-    }
-    writeln!(
-        out,
-        "Lowest tip wind over the whole sky ({} poses): {} from {:.0}°",
-        rep.sky.poses_checked,
-        speed(rep.sky.tip.tip_wind_mps),
-        deg(rep.sky.tip.from_rad)
-    )?;
-    writeln!(
-        out,
-        "\nAxis torques, worst case over the sky in {:.0} m/s wind:",
-        rep.sky_torque_wind_mps
-    )?;
-    for (name, a) in [
-        ("primary", &rep.sky.primary),
-        ("secondary", &rep.sky.secondary),
-    ] {
-        write!(
-            out,
-            "  {name}: {:.2} N m steady (gravity {:.2}, wind {:.2})",
-            a.steady_nm, a.gravity_nm, a.wind_nm
-        )?;
-        match a.rated_utilisation {
-            Some(u) => writeln!(out, ", {:.0} % of the rated torque", u * 100.0)?,
-            None => writeln!(out, ", no drive rating given")?,
-        }
-    }
-    write_condition(&rep.condition, out)?;
-    writeln!(
-        out,
-        "\nFor a {:.0} m/s design gust at utilisation {:.2}, home pose:",
-        rep.design_gust_mps, rep.target_utilisation
-    )?;
-    match &rep.ballast_needed {
-        Some(n) if n.amount > 0.0 => writeln!(
-            out,
-            "  ballast below the rig centre: {:.1} kg (governing wind from {:.0}°)",
-            n.amount, n.worst_from_deg
-        )?,
-        Some(_) => writeln!(out, "  ballast: none needed")?,
-        None => writeln!(out, "  ballast: cannot be computed for this rig")?,
-    }
-    match &rep.tie_down_needed {
-        Some(n) if n.amount > 0.0 => writeln!(
-            out,
-            "  or a tie-down on every foot holding {:.0} N (governing wind from {:.0}°)",
-            n.amount, n.worst_from_deg
-        )?,
-        Some(_) => writeln!(out, "  tie-downs: none needed")?,
-        None => writeln!(out, "  tie-downs: cannot be computed for this rig")?,
-    }
-    if let Some(t) = &rep.orientation {
-        writeln!(
-            out,
-            "\nTripod orientation for a storm from {:.0}°: first leg at {:.0}° gives {}; at {:.0}° (as given) {}{}",
-            t.storm_from_deg,
-            t.best_first_leg_deg,
-            speed(t.best_tip_wind_mps),
-            t.current_first_leg_deg,
-            speed(t.current_tip_wind_mps),
-            t.gain_mps.map_or(String::new(), |g| format!("; gain {g:.1} m/s"))
-        )?;
-    }
-    if let Some(b) = &rep.balance {
-        write_balance(b, out)?;
-    }
-    if let Some(rows) = &rep.payload_envelope {
-        write_envelope(rows, out)?;
-    }
-    if let Some(c) = &rep.shaft_check {
-        writeln!(
-            out,
-            "\nCounterweight shaft at its root, shaft horizontal: {:.1} N m on {} ({:.2} mm root diameter), {}",
-            c.moment_nm,
-            c.thread.as_deref().unwrap_or("the plain shaft"),
-            c.root_diameter_mm,
-            c.material
-        )?;
-        writeln!(
-            out,
-            "  bending stress {:.0} MPa against {:.0} MPa allowed (yield / {:.1}): {:.0} %{}; the root carries {:.1} N m at most",
-            c.stress_mpa,
-            c.allowable_mpa,
-            SHAFT_SAFETY_FACTOR,
-            c.utilisation * 100.0,
-            if c.utilisation > 1.0 { ", OVER the allowable stress" } else { "" },
-            c.allowable_moment_nm
-        )?;
-    }
-    if !rep.hardware.is_empty() {
-        writeln!(
-            out,
-            "\nAttachment hardware, weakest first (allowable = yield / {SHAFT_SAFETY_FACTOR:.1}):"
-        )?;
-        for h in &rep.hardware {
-            writeln!(
-                out,
-                "  {:>4.0} %{}  {}: {}",
-                h.utilisation * 100.0,
-                if h.utilisation > 1.0 {
-                    " OVER"
-                } else {
-                    "     "
-                },
-                h.part,
-                h.check
-            )?;
-            writeln!(
-                out,
-                "           {:.0} {} against {:.0} {} allowed ({} governs); worst case: {}",
-                h.load, h.unit, h.allowable, h.unit, h.governs, h.case
-            )?;
-        }
-    }
-    writeln!(out, "\nCautions:")?;
-    for c in &rep.cautions {
-        writeln!(out, "  - {c}")?;
-    }
-    Ok(())
-}
-
-fn pct(u: f32) -> String {
-    if u >= standfast::stability::UTILISATION_CAP {
-        "nothing holds it".to_owned()
-    } else {
-        format!("{:.0} %", u * 100.0)
-    }
-}
-
-fn write_condition(c: &ConditionReport, out: &mut dyn Write) -> std::io::Result<()> {
-    let ground = if c.tilt_deg > 0.0 {
-        format!(
-            "ground tilt {:.1}° (downhill toward {:.0}°)",
-            c.tilt_deg, c.downhill_deg
-        )
-    } else {
-        "level ground".to_owned()
-    };
-    writeln!(
-        out,
-        "\nAt {}, {ground}, cover {}, design gust {:.1} m/s ({:.0} km/h):",
-        c.pose,
-        if c.cover_fitted { "fitted" } else { "off" },
-        c.design_gust_mps,
-        c.design_gust_mps * 3.6
-    )?;
-    let tips = c.overturning_utilisation >= 1.0;
-    let slides = c.sliding_utilisation >= 1.0;
-    writeln!(
-        out,
-        "  wind from {:.0}°{}: overturning {}{}, sliding {}{}",
-        c.wind_from_deg,
-        if c.worst_direction {
-            " (the worst direction)"
-        } else {
-            ""
-        },
-        pct(c.overturning_utilisation),
-        if tips { ", TIPS" } else { "" },
-        pct(c.sliding_utilisation),
-        if slides { ", SLIDES" } else { "" }
-    )?;
-    writeln!(
-        out,
-        "  from there it tips at {} and slides at {}; it would fall toward {:.0}°",
-        speed(c.tip_wind_mps),
-        speed(c.slide_wind_mps),
-        c.critical_edge_outward_deg
-    )?;
-    writeln!(
-        out,
-        "  highest sliding over directions: {} from {:.0}°; lowest tip wind: {} from {:.0}°",
-        pct(c.worst_sliding.0),
-        c.worst_sliding.1,
-        speed(c.lowest_tip_wind.tip_wind_mps),
-        c.lowest_tip_wind.from_deg
-    )?;
-    writeln!(
-        out,
-        "  extra ground tilt that tips it with no wind: {:.1}° (downhill toward {:.0}°)",
-        c.tilt_margin_deg.0, c.tilt_margin_deg.1
-    )?;
-    writeln!(out, "  from   overturning  sliding   tip wind")?;
-    for r in &c.by_direction {
-        writeln!(
-            out,
-            "  {:>4.0}°  {:>11}  {:>7}   {}",
-            r.from_deg,
-            pct(r.overturning_utilisation),
-            pct(r.sliding_utilisation),
-            speed(r.tip_wind_mps)
-        )?;
-    }
-    Ok(())
-}
-
-fn unbalance(nm: f32) -> String {
-    if nm.abs() < 0.005 {
-        "balanced".to_owned()
-    } else if nm > 0.0 {
-        format!("{nm:.2} N m, payload side heavy")
-    } else {
-        format!("{:.2} N m, counterweight side heavy", -nm)
-    }
-}
-
-fn write_balance(b: &Balance, out: &mut dyn Write) -> std::io::Result<()> {
-    writeln!(
-        out,
-        "\nBalance (payload {:.1} kg, counterweights as given):",
-        b.payload_mass_kg
-    )?;
-    writeln!(out, "  primary axis: {}", unbalance(b.primary_unbalance_nm))?;
-    match (b.counterweight_shift_m, b.counterweight_centre_m) {
-        (Some(d), Some(c)) => {
-            let dir = if d >= 0.0 { "outward" } else { "inward" };
-            writeln!(
-                out,
-                "  move the counterweights together {:.0} mm {dir}: their common centre at {:.0} mm from the axis balances it{}",
-                d.abs() * 1000.0,
-                c * 1000.0,
-                match b.fits_on_shaft {
-                    Some(true) => "",
-                    Some(false) => " (beyond the shaft: add mass or a longer shaft)",
-                    None => "",
-                }
-            )?;
-        }
-        _ => writeln!(out, "  no counterweights")?,
-    }
-    if let Some(r) = b.residual_at_shaft_end_nm {
-        writeln!(
-            out,
-            "  with the outermost counterweight at the shaft end: {}",
-            unbalance(r)
-        )?;
-    }
-    writeln!(
-        out,
-        "  secondary axis: {:.2} N m at most; slide the payload {:.0} mm toward the {} end, leaving {:.2} N m (offset across the tube)",
-        b.secondary_unbalance_nm,
-        b.payload_slide_m.abs() * 1000.0,
-        if b.payload_slide_m >= 0.0 { "sky" } else { "rear" },
-        b.secondary_residual_nm
-    )
-}
-
-fn mass_range(m: Option<&standfast::sky::MassRange>) -> String {
-    match m {
-        None => "none fits".to_owned(),
-        Some(r) => format!(
-            "{:.1} to {:.1} kg{}",
-            r.lightest_kg,
-            r.heaviest_kg,
-            if r.capped { " (no drive limit)" } else { "" }
+/// A pose in words: axis angles, hour angle and declination, or azimuth and
+/// altitude, in degrees (hour angle in hours). The assessment's conditions
+/// and the replay's closest approaches name their pose with it.
+#[must_use]
+pub fn pose_words(p: &Pose) -> String {
+    match p {
+        Pose::Axes {
+            primary_rad,
+            secondary_rad,
+        } => format!(
+            "axes {:.1}°, {:.1}°",
+            primary_rad.to_degrees(),
+            secondary_rad.to_degrees()
+        ),
+        Pose::Equatorial {
+            hour_angle_rad,
+            declination_rad,
+            pier_side,
+        } => format!(
+            "hour angle {:+.2} h, declination {:+.1}°, {}",
+            hour_angle_rad.to_degrees() / 15.0,
+            declination_rad.to_degrees(),
+            side_words(*pier_side)
+        ),
+        Pose::Horizontal {
+            azimuth_rad,
+            altitude_rad,
+            pier_side,
+        } => format!(
+            "azimuth {:.1}°, altitude {:.1}°, {}",
+            azimuth_rad.to_degrees(),
+            altitude_rad.to_degrees(),
+            side_words(*pier_side)
         ),
     }
 }
 
-fn write_envelope(rows: &[EnvelopeRow], out: &mut dyn Write) -> std::io::Result<()> {
-    writeln!(
-        out,
-        "\nPayload envelope (drives within their ratings over the sky, calm, level, cover off):"
-    )?;
-    writeln!(
-        out,
-        "  offset s (m)      p (m)   with counterweights          without counterweights"
-    )?;
-    for r in rows {
-        writeln!(
-            out,
-            "  {:>12.2} {:>10.2}   {:<28} {}",
-            r.offset.along_secondary_axis_m,
-            r.offset.along_tube_m,
-            mass_range(r.with_counterweights.as_ref()),
-            mass_range(r.without_counterweights.as_ref())
-        )?;
+fn side_words(s: PierSide) -> &'static str {
+    match s {
+        PierSide::TubeEast => "tube east",
+        PierSide::TubeWest => "tube west",
     }
-    writeln!(
-        out,
-        "  wind is not included: keep a margin below the heaviest payload"
-    )
-}
-
-/// Writes the report as pretty JSON.
-///
-/// # Errors
-/// I/O or serialisation errors.
-pub fn write_json(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()> {
-    serde_json::to_writer_pretty(&mut *out, rep).map_err(std::io::Error::other)?;
-    writeln!(out)
-}
-
-/// Arguments of `assess`.
-#[derive(Debug, clap::Args)]
-pub struct AssessArgs {
-    /// The rig file (TOML; see the rig file section of the README).
-    #[arg(value_name = "RIG.toml")]
-    pub rig: std::path::PathBuf,
-    /// Print the report as JSON instead of text.
-    #[arg(long)]
-    pub json: bool,
-    /// Storm direction (wind from), clockwise from north, for the best
-    /// tripod orientation: degrees, or an angle with a unit ("4.7 rad");
-    /// 0 to 360 deg.
-    #[arg(
-        long,
-        value_name = "DEG",
-        default_value = "270",
-        allow_hyphen_values = true
-    )]
-    pub storm_from: String,
-    /// Design gust for ballast and tie-down needs: m/s, or a speed with a
-    /// unit ("45 mph"); more than 0, up to 100 m/s.
-    #[arg(
-        long,
-        value_name = "M/S",
-        default_value = "20",
-        allow_hyphen_values = true
-    )]
-    pub design_gust: String,
-    /// Also write a self-contained HTML report with charts to this file.
-    #[arg(long, value_name = "FILE")]
-    pub html: Option<std::path::PathBuf>,
-    /// Hour angle of the assessed pose, with --declination: a plain number
-    /// is in hours (positive west), or give an angle unit ("-30 deg").
-    #[arg(long, value_name = "H", allow_hyphen_values = true, requires = "declination",
-          conflicts_with_all = ["azimuth", "altitude"], value_parser = parse_hour_angle)]
-    pub hour_angle: Option<f32>,
-    /// Declination of the assessed pose, degrees (−90 to 90), with --hour-angle.
-    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "hour_angle",
-          value_parser = parse_declination)]
-    pub declination: Option<f32>,
-    /// Azimuth the tube points to, degrees from north clockwise, with --altitude.
-    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "altitude",
-          value_parser = parse_azimuth)]
-    pub azimuth: Option<f32>,
-    /// Altitude the tube points to, degrees (−90 to 90), with --azimuth.
-    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "azimuth",
-          value_parser = parse_declination)]
-    pub altitude: Option<f32>,
-    /// Pier side of the assessed pose (equatorial mounts).
-    #[arg(long, value_enum, default_value_t = SideArg::TubeEast)]
-    pub pier_side: SideArg,
-    /// Ground tilt of the assessed condition, degrees (0 to 45), with --downhill.
-    #[arg(long, value_name = "DEG", requires = "downhill", value_parser = parse_tilt)]
-    pub tilt: Option<f32>,
-    /// Azimuth the ground falls toward, degrees from north clockwise, with --tilt.
-    #[arg(long, value_name = "DEG", allow_hyphen_values = true, requires = "tilt",
-          value_parser = parse_azimuth)]
-    pub downhill: Option<f32>,
-    /// Cover of the assessed condition.
-    #[arg(long, value_enum, default_value_t = CoverArg::Off)]
-    pub cover: CoverArg,
-    /// Direction the design gust blows from, degrees from north clockwise,
-    /// or `worst`.
-    #[arg(long, value_name = "DEG|worst", default_value = "worst", allow_hyphen_values = true,
-          value_parser = parse_wind_from)]
-    pub wind_from: WindFrom,
-}
-
-/// Pier side on the command line.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
-pub enum SideArg {
-    /// The tube east of the pier (the usual side for targets west of the meridian).
-    TubeEast,
-    /// The tube west of the pier.
-    TubeWest,
-}
-
-/// Cover state on the command line.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
-pub enum CoverArg {
-    /// Cover fitted (if the rig has one).
-    On,
-    /// Cover off.
-    Off,
-}
-
-/// Wind direction on the command line.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub enum WindFrom {
-    /// The direction of highest overturning utilisation.
-    Worst,
-    /// From this azimuth, degrees.
-    Deg(f32),
-}
-
-#[allow(clippy::cast_possible_truncation)] // angles of a command line fit f32
-fn angle_deg(s: &str, bare: &str) -> Result<f32, String> {
-    let a = crate::units::Angle::parse_or(s, bare).map_err(|e| e.to_string())?;
-    let d = a.deg();
-    if d.is_finite() {
-        Ok(d as f32)
-    } else {
-        Err(format!("\"{s}\" is not a finite angle"))
-    }
-}
-
-fn in_range(s: &str, v: f32, lo: f32, hi: f32, unit: &str) -> Result<f32, String> {
-    if (lo..=hi).contains(&v) {
-        Ok(v)
-    } else {
-        Err(format!(
-            "\"{s}\" ({v} {unit}) is outside the accepted range {lo} to {hi} {unit}"
-        ))
-    }
-}
-
-fn parse_hour_angle(s: &str) -> Result<f32, String> {
-    let d = angle_deg(s, "hourangle")?;
-    in_range(s, d / 15.0, -12.0, 12.0, "h").map(|h| h * 15.0)
-}
-
-fn parse_declination(s: &str) -> Result<f32, String> {
-    let d = angle_deg(s, "deg")?;
-    in_range(s, d, -90.0, 90.0, "deg")
-}
-
-fn parse_azimuth(s: &str) -> Result<f32, String> {
-    let d = angle_deg(s, "deg")?;
-    in_range(s, d, -360.0, 360.0, "deg")
-}
-
-fn parse_tilt(s: &str) -> Result<f32, String> {
-    let d = angle_deg(s, "deg")?;
-    in_range(
-        s,
-        d,
-        0.0,
-        standfast::frame::MAX_TILT_RAD.to_degrees(),
-        "deg",
-    )
-}
-
-fn parse_wind_from(s: &str) -> Result<WindFrom, String> {
-    if s.trim().eq_ignore_ascii_case("worst") {
-        return Ok(WindFrom::Worst);
-    }
-    parse_azimuth(s)
-        .map(WindFrom::Deg)
-        .map_err(|e| format!("{e} (or `worst`)"))
-}
-
-impl AssessArgs {
-    /// The condition the options describe (angles converted to radians).
-    #[must_use]
-    pub fn condition(&self) -> Condition {
-        use standfast::mount::{PierSide, Pose};
-        let pier_side = match self.pier_side {
-            SideArg::TubeEast => PierSide::TubeEast,
-            SideArg::TubeWest => PierSide::TubeWest,
-        };
-        let pose = match (
-            self.hour_angle,
-            self.declination,
-            self.azimuth,
-            self.altitude,
-        ) {
-            (Some(h), Some(d), _, _) => Some(Pose::Equatorial {
-                hour_angle_rad: h.to_radians(),
-                declination_rad: d.to_radians(),
-                pier_side,
-            }),
-            (_, _, Some(az), Some(alt)) => Some(Pose::Horizontal {
-                azimuth_rad: az.to_radians(),
-                altitude_rad: alt.to_radians(),
-                pier_side,
-            }),
-            _ => None,
-        };
-        Condition {
-            pose,
-            tilt: Tilt {
-                magnitude_rad: self.tilt.unwrap_or(0.0).to_radians(),
-                downhill_azimuth_rad: self.downhill.unwrap_or(0.0).to_radians(),
-            },
-            cover_fitted: self.cover == CoverArg::On,
-            wind_from_deg: match self.wind_from {
-                WindFrom::Worst => None,
-                WindFrom::Deg(d) => Some(d),
-            },
-        }
-    }
-}
-
-/// Accepted storm direction of `--storm-from`.
-pub const STORM_FROM_RANGE: crate::cli::OptionRange = crate::cli::OptionRange {
-    lo: 0.0,
-    hi: 360.0,
-    lo_open: false,
-    unit: "deg",
-};
-
-/// Accepted design gust of `--design-gust`.
-pub const DESIGN_GUST_RANGE: crate::cli::OptionRange = crate::cli::OptionRange {
-    lo: 0.0,
-    hi: 100.0,
-    lo_open: true,
-    unit: "m/s",
-};
-
-/// Runs `standfast assess`.
-///
-/// # Errors
-/// The rig file cannot be read or is invalid, or the output cannot be written.
-pub fn run(a: &AssessArgs, out: &mut dyn Write) -> Result<(), Error> {
-    let storm = crate::cli::quantity_option::<crate::units::AngleDim>(
-        "--storm-from",
-        &a.storm_from,
-        STORM_FROM_RANGE,
-    )?;
-    let gust = crate::cli::quantity_option::<crate::units::SpeedDim>(
-        "--design-gust",
-        &a.design_gust,
-        DESIGN_GUST_RANGE,
-    )?;
-    if let Some(h) = &a.html {
-        crate::output::check_paths(
-            &[crate::output::Role::new("the rig file", &a.rig)],
-            &[crate::output::Role::new("--html", h)],
-        )?;
-    }
-    let r = crate::rigfile::load(&a.rig)?;
-    #[allow(clippy::cast_possible_truncation)] // checked ranges fit f32
-    let o = AssessOptions {
-        storm_from_deg: storm.to_degrees() as f32,
-        design_gust_mps: gust as f32,
-        condition: a.condition(),
-        ..AssessOptions::default()
-    };
-    let rep = assess(&r, &o)?;
-    if let Some(h) = &a.html {
-        crate::report::write_page(h, &crate::report::assess_html(&rep, &r)?)?;
-    }
-    let res = if a.json {
-        write_json(&rep, out)
-    } else {
-        write_text(&rep, out).and_then(|()| match &a.html {
-            Some(h) => writeln!(out, "Report written to {}", h.display()),
-            None => Ok(()),
-        })
-    };
-    res.map_err(|e| Error::io("<standard output>", e))
 }

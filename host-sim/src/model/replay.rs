@@ -18,21 +18,16 @@
 //! * pose: axis angles when the log has them, else hour angle, declination
 //!   and pier side (tube east when the log gives no side).
 
-use std::io::Write;
-
 use serde::Serialize;
 use standfast::guard::{Event, Guard, Inputs, Stage, Verdict, WindSample};
 use standfast::mount::{PierSide as MountPierSide, Pose};
 use standfast::sense::Millis;
 use standfast::sense::Mounting;
 
-use crate::error::Error;
-use crate::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
-use crate::output::{check_paths, AtomicFile, OwnedFolder, Role};
-use crate::rigfile::LoadedRig;
-
-/// Standard gravity, m/s² (ISO 80000-3; 3rd CGPM 1901).
-pub const STANDARD_GRAVITY_MPS2: f64 = 9.806_65;
+use crate::input::error::Error;
+use crate::input::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
+use crate::input::rigfile::{after_load_error, LoadedRig};
+use crate::input::units::{f32_of, STANDARD_GRAVITY_MPS2};
 
 /// Most stage changes and faults kept per rig; beyond it only counts grow.
 pub const MAX_KEPT_EVENTS: usize = 1000;
@@ -119,7 +114,7 @@ pub struct FaultSeen {
     pub t_s: f64,
     /// The fault, as the core describes it.
     pub fault: String,
-    /// The fault itself (for [`crate::event_lines`]).
+    /// The fault itself (for [`crate::render::event_lines`]).
     #[serde(skip)]
     pub kind: standfast::sense::Fault,
 }
@@ -166,12 +161,12 @@ pub struct RigReplay {
     /// lost them: (seconds since the first record, count), the first
     /// [`MAX_KEPT_EVENTS`].
     pub events_lost: u64,
-    /// Steps that lost events (for [`crate::event_lines`]).
+    /// Steps that lost events (for [`crate::render::event_lines`]).
     #[serde(skip)]
     pub events_lost_at: Vec<(f64, u16)>,
     /// Bounded time series for the HTML report (not in the JSON summary).
     #[serde(skip)]
-    pub series: crate::report::series::Series,
+    pub series: crate::model::series::Series,
 }
 
 /// Count of one kind of log issue.
@@ -210,12 +205,7 @@ pub struct ReplayReport {
 pub const FIRST_ISSUES: usize = 10;
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
-    crate::rigfile::after_load_error(file, "the guard cannot start", e)
-}
-
-#[allow(clippy::cast_possible_truncation)] // log values fit f32
-fn f32_of(x: f64) -> f32 {
-    x as f32
+    after_load_error(file, "the guard cannot start", e)
 }
 
 /// The guard inputs of one merged record: only channels updated at its time.
@@ -342,7 +332,7 @@ impl Tracker {
                 faults_not_kept: 0,
                 events_lost: 0,
                 events_lost_at: Vec::new(),
-                series: crate::report::series::Series::new(),
+                series: crate::model::series::Series::new(),
             },
             stage_s: [0.0; 5],
             // A guard starts unable to see (sensor_fault).
@@ -434,60 +424,31 @@ impl Tracker {
     }
 }
 
-const VERDICT_HEADER: &str = "time,t_s,rig,stage,overturning_utilisation,predicted_utilisation,sliding_utilisation,drive1_utilisation,drive2_utilisation,tip_wind_mps,gust_mps,predicted_gust_mps,wind_from_deg,tilt_deg,tilt_margin_deg,faults\n";
+/// Records between two progress reports to a [`ReplayObserver`].
+pub const PROGRESS_EVERY: u64 = 1 << 16;
 
-fn opt(v: Option<f32>) -> String {
-    v.map_or_else(String::new, |x| format!("{x:.4}"))
-}
+/// What a replay hands out as it goes, to whoever runs it (the commands
+/// layer draws the progress and writes the verdict CSV).
+pub trait ReplayObserver {
+    /// `records` merged records read so far; called every
+    /// [`PROGRESS_EVERY`] records, from 0.
+    fn progress(&mut self, records: u64);
 
-fn write_verdict(
-    w: &mut dyn Write,
-    time: Timestamp,
-    t_s: f64,
-    rig: usize,
-    v: &Verdict,
-) -> std::io::Result<()> {
-    let d = |i: usize| v.drive_utilisation.and_then(|d| d.get(i).copied());
-    writeln!(
-        w,
-        "{},{t_s:.3},{rig},{},{},{},{},{},{},{},{},{},{},{},{},{}",
-        time.to_iso8601(3),
-        v.stage.name(),
-        opt(v.overturning_utilisation),
-        opt(v.predicted_utilisation),
-        opt(v.sliding_utilisation),
-        opt(d(0)),
-        opt(d(1)),
-        opt(v.tip_wind_mps),
-        opt(v.gust_mps),
-        opt(v.predicted_gust_mps),
-        opt(v.wind_from_rad.map(f32::to_degrees)),
-        opt(v.tilt.map(|t| t.magnitude_rad.to_degrees())),
-        opt(v.tilt_margin_rad.map(f32::to_degrees)),
-        v.faults.len(),
-    )
-}
+    /// Verdict `v` of rig number `rig` (0 for the first) at `time`, `t_s`
+    /// seconds since the first record: for every
+    /// [`ReplayOptions::verdicts_every`]-th record, and for every record
+    /// whose verdict has a stage change or fault event, in record order.
+    ///
+    /// # Errors
+    /// Whatever the observer cannot do with it (an output that cannot be
+    /// written); the replay stops with it.
+    fn verdict(&mut self, time: Timestamp, t_s: f64, rig: usize, v: &Verdict) -> Result<(), Error>;
 
-/// Records between two updates of the progress bar.
-const PROGRESS_EVERY: u64 = 1 << 16;
-
-/// A spinner on standard error counting records, drawn only when standard
-/// error is a terminal.
-fn progress_bar() -> indicatif::ProgressBar {
-    use std::io::IsTerminal;
-    let target = if std::io::stderr().is_terminal() {
-        indicatif::ProgressDrawTarget::stderr()
-    } else {
-        indicatif::ProgressDrawTarget::hidden()
-    };
-    let pb = indicatif::ProgressBar::with_draw_target(None, target);
-    pb.set_style(
-        indicatif::ProgressStyle::with_template(
-            "{spinner} replaying: {human_pos} records, {per_sec}, {elapsed}",
-        )
-        .unwrap_or_else(|_| indicatif::ProgressStyle::default_spinner()),
-    );
-    pb
+    /// The replay has read and taken every record.
+    ///
+    /// # Errors
+    /// As [`ReplayObserver::verdict`].
+    fn finished(&mut self) -> Result<(), Error>;
 }
 
 /// Records per batch handed from the reading thread to the guard thread.
@@ -556,7 +517,7 @@ fn take_batch(
     trackers: &mut [Tracker],
     n: &mut u64,
     every: u64,
-    verdicts: &mut Option<(&mut dyn Write, &str)>,
+    observer: &mut Option<&mut dyn ReplayObserver>,
 ) -> Result<(), Error> {
     let mut vs = b.verdicts.iter();
     for s in &b.steps {
@@ -568,14 +529,13 @@ fn take_batch(
             tr.report
                 .series
                 .push(s.t_s, v, s.wind_speed_mps, s.cover_fitted);
-            if let Some((w, name)) = verdicts.as_mut() {
+            if let Some(o) = observer.as_mut() {
                 let has_event = v
                     .events
                     .iter()
                     .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
                 if *n % every == 0 || has_event {
-                    write_verdict(&mut **w, s.time, s.t_s, i, v)
-                        .map_err(|e| Error::io(*name, e))?;
+                    o.verdict(s.time, s.t_s, i, v)?;
                 }
             }
         }
@@ -586,9 +546,9 @@ fn take_batch(
 
 /// Replays the merged stream through one guard per rig.
 ///
-/// `verdicts`, when given, receives a CSV of verdicts (every
-/// `options.verdicts_every`-th record per rig, and every record with an
-/// event); `verdicts_name` names it in I/O errors.
+/// `observer`, when given, is told the progress and receives the verdicts
+/// (every `options.verdicts_every`-th record per rig, and every record
+/// with an event), for a verdict CSV.
 ///
 /// Two threads share the work: this one reads and merges the logs and
 /// keeps the closest approaches, stage times, events, time series and
@@ -607,15 +567,11 @@ pub fn replay(
     rigs: &[LoadedRig],
     merger: &mut Merger,
     options: ReplayOptions,
-    mut verdicts: Option<(&mut dyn Write, &str)>,
+    mut observer: Option<&mut dyn ReplayObserver>,
 ) -> Result<ReplayReport, Error> {
     use std::sync::mpsc::sync_channel;
 
     let every = options.verdicts_every.max(1);
-    if let Some((w, name)) = verdicts.as_mut() {
-        w.write_all(VERDICT_HEADER.as_bytes())
-            .map_err(|e| Error::io(*name, e))?;
-    }
     let mut guards: Vec<Guard<'_>> = Vec::with_capacity(rigs.len());
     for r in rigs {
         let mut cfg = r.guard.clone();
@@ -634,7 +590,6 @@ pub fn replay(
     // Records read, and records whose verdicts were taken.
     let mut n_read: u64 = 0;
     let mut n_taken: u64 = 0;
-    let progress = progress_bar();
     // Every batch is at any time in one place only (this thread, a channel
     // or the guard thread), so no channel ever holds more than BATCHES.
     let (to_guards, from_reader) = sync_channel::<Batch>(BATCHES);
@@ -658,7 +613,7 @@ pub fn replay(
                     Err(_) => break,
                 },
             };
-            if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut verdicts) {
+            if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut observer) {
                 take_error = Some(e);
                 break;
             }
@@ -678,7 +633,9 @@ pub fn replay(
                     }
                 };
                 if n_read % PROGRESS_EVERY == 0 {
-                    progress.set_position(n_read);
+                    if let Some(o) = observer.as_mut() {
+                        o.progress(n_read);
+                    }
                 }
                 let start = *t0.get_or_insert(rec.time);
                 let dt_s = last.map_or(0.0, |l| rec.time.seconds_since(l).max(0.0));
@@ -705,7 +662,7 @@ pub fn replay(
         drop(to_guards);
         for b in &from_guards {
             if take_error.is_none() {
-                if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut verdicts) {
+                if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut observer) {
                     take_error = Some(e);
                 }
             }
@@ -718,9 +675,8 @@ pub fn replay(
     if let Some(e) = take_error.or(read_error) {
         return Err(e);
     }
-    progress.finish_and_clear();
-    if let Some((w, name)) = verdicts.as_mut() {
-        w.flush().map_err(|e| Error::io(*name, e))?;
+    if let Some(o) = observer.as_mut() {
+        o.finished()?;
     }
     let issues = merger.issues();
     Ok(ReplayReport {
@@ -748,334 +704,4 @@ pub fn replay(
             .collect(),
         rigs: trackers.into_iter().map(Tracker::finish).collect(),
     })
-}
-
-/// Arguments of `replay`.
-#[derive(Debug, clap::Args)]
-pub struct ReplayArgs {
-    /// Rig file (TOML); repeat for several rigs on the same logs, each with
-    /// its own guard.
-    #[arg(long = "rig", value_name = "RIG.toml", required = true)]
-    pub rigs: Vec<std::path::PathBuf>,
-    /// Log profile (a TOML file with a `[log]` section). Default: the
-    /// `[log]` section of the first rig file.
-    #[arg(long, value_name = "PROFILE.toml")]
-    pub profile: Option<std::path::PathBuf>,
-    /// Log files replacing the profile's `[[log.file]]` paths, in the
-    /// profile's order (as many as it lists). Default: the profile's paths.
-    #[arg(value_name = "LOGS")]
-    pub logs: Vec<std::path::PathBuf>,
-    /// Print the summary as JSON instead of text.
-    #[arg(long)]
-    pub json: bool,
-    /// Write the guard's verdicts as CSV to this file.
-    #[arg(long, value_name = "FILE")]
-    pub verdicts: Option<std::path::PathBuf>,
-    /// With --verdicts: write every N-th record (records with a stage change
-    /// or fault always).
-    #[arg(long, value_name = "N", default_value_t = 1, requires = "verdicts",
-          value_parser = clap::value_parser!(u64).range(1..))]
-    pub every: u64,
-    /// Also write a self-contained HTML report with charts to this file.
-    #[arg(long, value_name = "FILE")]
-    pub html: Option<std::path::PathBuf>,
-    /// What to do with a bad log row (malformed, out of order, duplicate):
-    /// `stop` at the first one (exit 1, the rows before it replayed), or
-    /// `skip` it, report and count it. Overrides the profile's `on_error`.
-    #[arg(long, value_name = "POLICY", value_parser = ["stop", "skip"])]
-    pub on_error: Option<String>,
-    /// Also replay a variant of the first rig with this override, side by
-    /// side (repeatable; all apply to one variant): ballast=MASS@X,Y,Z,
-    /// cover=on|off|as-logged, watch_utilisation=, park_utilisation=,
-    /// alarm_utilisation=, time_to_park=, friction=, tie_down=.
-    #[arg(long = "what-if", value_name = "KEY=VALUE")]
-    pub what_if: Vec<String>,
-    /// Write the first rig's stage changes and faults as the firmware
-    /// example's event lines to this file (see `event_lines`).
-    #[arg(long, value_name = "FILE")]
-    pub events: Option<std::path::PathBuf>,
-}
-
-/// Arguments of `demo`.
-#[derive(Debug, clap::Args)]
-pub struct DemoArgs {
-    /// Folder for the invented night's logs, profile, rig file, verdicts and
-    /// report (created if missing). Files of the same names are replaced
-    /// only when standfast wrote them and they are unchanged, unless
-    /// --replace is given.
-    #[arg(long, value_name = "DIR", default_value = "target/standfast-demo")]
-    pub out: std::path::PathBuf,
-    /// Replace files of the same names in the --out folder even when
-    /// standfast did not write them (for example your own rig.toml).
-    #[arg(long)]
-    pub replace: bool,
-    /// Seed of the invented night.
-    #[arg(long, default_value_t = 2025)]
-    pub seed: u64,
-    /// Length of the night: hours, or a time with a unit ("90 min"); more
-    /// than 0, up to 9 h (default: the whole invented night, 9 h); shorter
-    /// nights replay faster.
-    #[arg(long, value_name = "H", allow_hyphen_values = true)]
-    pub hours: Option<String>,
-    /// Print the summary as JSON instead of text.
-    #[arg(long)]
-    pub json: bool,
-}
-
-/// Accepted length of the demo night.
-pub const DEMO_HOURS: crate::cli::OptionRange = crate::cli::OptionRange {
-    lo: 0.0,
-    hi: 9.0,
-    lo_open: true,
-    unit: "h",
-};
-
-/// The files `standfast demo` writes into its folder.
-pub const DEMO_FILES: [&str; 7] = [
-    crate::demo_data::DEMO_WIND_CSV,
-    crate::demo_data::DEMO_ACCEL_CSV,
-    crate::demo_data::DEMO_MOUNT_CSV,
-    crate::demo_data::DEMO_PROFILE_TOML,
-    "rig.toml",
-    "verdicts.csv",
-    "report.html",
-];
-
-/// The demo rig file (invented), as shipped in `host-sim/demo/rig.toml`.
-pub const DEMO_RIG_TOML: &str = include_str!("../demo/rig.toml");
-
-/// Opens the merge of a profile, with the profile's paths optionally
-/// replaced by `logs`.
-///
-/// # Errors
-/// [`Error::Input`] when the count of `logs` does not match the profile;
-/// the merge's errors.
-pub fn open_logs(profile: &std::path::Path, logs: &[std::path::PathBuf]) -> Result<Merger, Error> {
-    open_logs_with(profile, logs, None)
-}
-
-/// As [`open_logs`], with the profile's bad-row policy replaced by `policy`
-/// when given.
-///
-/// # Errors
-/// As [`open_logs`].
-pub fn open_logs_with(
-    profile: &std::path::Path,
-    logs: &[std::path::PathBuf],
-    policy: Option<crate::log::ErrorPolicy>,
-) -> Result<Merger, Error> {
-    let p = load_profile(profile, logs)?;
-    Merger::open(&p, policy.unwrap_or(p.on_error))
-}
-
-/// Reads a log profile and replaces its files' paths by `logs` when given.
-///
-/// # Errors
-/// [`Error::Input`] when the count of `logs` does not match the profile;
-/// the profile's errors.
-pub fn load_profile(
-    profile: &std::path::Path,
-    logs: &[std::path::PathBuf],
-) -> Result<crate::log::LogProfile, Error> {
-    let mut p = crate::log::LogProfile::load(profile)?;
-    if !logs.is_empty() {
-        if logs.len() != p.files.len() {
-            return Err(Error::Usage(format!(
-                "{} log files given on the command line but the profile {} lists {} \
-                 (give as many as it lists, in its order, or none)",
-                logs.len(),
-                profile.display(),
-                p.files.len()
-            )));
-        }
-        for (f, l) in p.files.iter_mut().zip(logs) {
-            f.path.clone_from(l);
-            l.display().to_string().clone_into(&mut f.label);
-        }
-    }
-    Ok(p)
-}
-
-/// Runs the replay, writing the verdict CSV (when asked) into a temporary
-/// file that the caller commits.
-fn replay_files(
-    rigs: &[LoadedRig],
-    merger: &mut Merger,
-    every: u64,
-    verdicts: Option<&std::path::Path>,
-) -> Result<(ReplayReport, Option<AtomicFile>), Error> {
-    let options = ReplayOptions {
-        verdicts_every: every,
-    };
-    match verdicts {
-        Some(path) => {
-            let mut w = AtomicFile::create(path)?;
-            let name = path.display().to_string();
-            let rep = replay(rigs, merger, options, Some((&mut w, &name)))?;
-            Ok((rep, Some(w)))
-        }
-        None => Ok((replay(rigs, merger, options, None)?, None)),
-    }
-}
-
-/// A whole output in a temporary file, for committing with the others.
-fn pending(path: &std::path::Path, text: &str) -> Result<AtomicFile, Error> {
-    let mut f = AtomicFile::create(path)?;
-    f.write_all(text.as_bytes())
-        .map_err(|e| Error::io(path, e))?;
-    Ok(f)
-}
-
-/// Runs `standfast replay`.
-///
-/// Outputs (`--verdicts`, `--html`, `--events`) that are the same file as
-/// an input or as each other are refused before anything is read or
-/// written; all outputs are written to temporary files and renamed into
-/// place only when the whole run has succeeded.
-///
-/// # Errors
-/// Bad rig file, profile or log ([`Error::Input`], [`Error::Log`]); an
-/// output path refused ([`Error::Usage`]); files that cannot be read or
-/// written ([`Error::Io`]).
-pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
-    let mut outputs = Vec::new();
-    if let Some(p) = &a.verdicts {
-        outputs.push(Role::new("--verdicts", p));
-    }
-    if let Some(p) = &a.html {
-        outputs.push(Role::new("--html", p));
-    }
-    if let Some(p) = &a.events {
-        outputs.push(Role::new("--events", p));
-    }
-    let mut inputs: Vec<Role<'_>> = a
-        .rigs
-        .iter()
-        .map(|r| Role::new("the rig file", r))
-        .collect();
-    if let Some(p) = &a.profile {
-        inputs.push(Role::new("the log profile", p));
-    }
-    inputs.extend(a.logs.iter().map(|l| Role::new("the log", l)));
-    check_paths(&inputs, &outputs)?;
-    let overrides = a
-        .what_if
-        .iter()
-        .map(|t| crate::whatif::parse_override(t))
-        .collect::<Result<Vec<_>, _>>()?;
-
-    let rigs = a
-        .rigs
-        .iter()
-        .map(|p| crate::rigfile::load(p))
-        .collect::<Result<Vec<_>, _>>()?;
-    let mut rigs = rigs;
-    if let (false, Some(base)) = (overrides.is_empty(), rigs.first()) {
-        rigs.push(crate::whatif::variant(base, &overrides, &a.what_if)?);
-    }
-    let profile = match (&a.profile, a.rigs.first()) {
-        (Some(p), _) => p.clone(),
-        (None, Some(r)) => r.clone(),
-        (None, None) => std::path::PathBuf::new(),
-    };
-    let policy = a.on_error.as_deref().map(|p| {
-        if p == "stop" {
-            crate::log::ErrorPolicy::Stop
-        } else {
-            crate::log::ErrorPolicy::Skip
-        }
-    });
-    let p = load_profile(&profile, &a.logs)?;
-    // The profile's own log paths, known only now: checked before any is
-    // opened.
-    let log_paths: Vec<Role<'_>> = p
-        .files
-        .iter()
-        .map(|f| Role::new("the log", &f.path))
-        .collect();
-    check_paths(&log_paths, &outputs)?;
-    let mut merger = Merger::open(&p, policy.unwrap_or(p.on_error))?;
-    let (rep, verdict_file) = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
-    let mut files: Vec<AtomicFile> = verdict_file.into_iter().collect();
-    if let Some(path) = &a.events {
-        files.push(pending(path, &crate::event_lines::lines(&rep)?)?);
-    }
-    if let Some(h) = &a.html {
-        files.push(pending(h, &crate::report::replay_html(&rep, &rigs)?)?);
-    }
-    let mut summary = Vec::new();
-    crate::whatif::write_summary(&rep, a.json, &mut summary)?;
-    for f in files {
-        f.commit()?;
-    }
-    out.write_all(&summary)
-        .map_err(|e| Error::io("<standard output>", e))?;
-    if let Some(h) = &a.html {
-        if !a.json {
-            writeln!(out, "Report written to {}", h.display())
-                .map_err(|e| Error::io("<standard output>", e))?;
-        }
-    }
-    if let Some(v) = &a.verdicts {
-        if !a.json {
-            writeln!(out, "Verdicts written to {}", v.display())
-                .map_err(|e| Error::io("<standard output>", e))?;
-        }
-    }
-    Ok(())
-}
-
-/// Runs `standfast demo`: writes the invented night and rig into the
-/// folder, replays them and prints the summary and the paths written.
-///
-/// # Errors
-/// As [`run_replay`]; [`Error::Io`] when the folder cannot be written.
-pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
-    let hours = match &a.hours {
-        Some(h) => Some(
-            crate::cli::quantity_option::<crate::units::TimeDim>("--hours", h, DEMO_HOURS)?
-                / 3600.0,
-        ),
-        None => None,
-    };
-    let mut folder = OwnedFolder::open(&a.out, a.replace)?;
-    folder.check(&DEMO_FILES)?;
-    let mut plan = crate::demo_data::NightPlan::windy_night(a.seed);
-    if let Some(h) = hours {
-        plan.duration_s = h * 3600.0;
-    }
-    let logs = crate::demo_data::write_demo_logs_in(&mut folder, &plan)?;
-    let rig_path = folder.write("rig.toml", DEMO_RIG_TOML.as_bytes())?;
-    let rig = crate::rigfile::load(&rig_path)?;
-    let verdicts = a.out.join("verdicts.csv");
-    let mut merger = open_logs(&logs.profile_toml, &[])?;
-    let (rep, verdict_file) =
-        replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
-    let report = a.out.join("report.html");
-    let page = pending(
-        &report,
-        &crate::report::replay_html(&rep, std::slice::from_ref(&rig))?,
-    )?;
-    if let Some(v) = verdict_file {
-        folder.commit(v)?;
-    }
-    folder.commit(page)?;
-    crate::summary::write(&rep, a.json, out)?;
-    if !a.json {
-        writeln!(out, "\nReport: {}", report.display())
-            .map_err(|e| Error::io("<standard output>", e))?;
-        writeln!(
-            out,
-            "\nAn invented windy night (seed {}); no real rig or site is described. Files written:\n  {}\n  {}\n  {}\n  {}\n  {}\n  {} (every 10th record)",
-            a.seed,
-            rig_path.display(),
-            logs.wind_csv.display(),
-            logs.accel_csv.display(),
-            logs.mount_csv.display(),
-            logs.profile_toml.display(),
-            verdicts.display()
-        )
-        .map_err(|e| Error::io("<standard output>", e))?;
-    }
-    Ok(())
 }

@@ -24,18 +24,15 @@
 //! ```
 //! Readings accept any mass unit (`"18.2 lb"`); a plain number is kg.
 
-use std::io::Write;
-use std::path::{Path, PathBuf};
-
 use serde::{Deserialize, Serialize};
 use standfast::math::STANDARD_GRAVITY_MPS2;
 use standfast::weighing::{self, LiftGeometry, MeasuredCentre, TipTest, Weighing};
 use toml::Spanned;
 
-use crate::error::Error;
-use crate::located::{fmt_g, InputError, SourceText};
-use crate::rigfile::LoadedRig;
-use crate::units::{Length, Mass};
+use crate::input::located::{fmt_g, InputError, SourceText};
+use crate::input::rigfile::LoadedRig;
+use crate::input::units::f32_of as f;
+use crate::input::units::{Length, Mass};
 
 type S<T> = Spanned<T>;
 
@@ -55,9 +52,9 @@ struct LiftSec {
     feet: Option<S<Vec<i64>>>,
     height: Option<S<Length>>,
     height_uncertainty: Option<S<Length>>,
-    toward: Option<S<crate::rigfile::Degrees>>,
-    angle: Option<S<crate::rigfile::Degrees>>,
-    angle_uncertainty: Option<S<crate::rigfile::Degrees>>,
+    toward: Option<S<crate::input::rigfile::Degrees>>,
+    angle: Option<S<crate::input::rigfile::Degrees>>,
+    angle_uncertainty: Option<S<crate::input::rigfile::Degrees>>,
     readings: S<Vec<Mass>>,
 }
 
@@ -65,8 +62,8 @@ struct LiftSec {
 #[serde(deny_unknown_fields)]
 struct TipSec {
     edge: S<[i64; 2]>,
-    angle: S<crate::rigfile::Degrees>,
-    angle_uncertainty: Option<S<crate::rigfile::Degrees>>,
+    angle: S<crate::input::rigfile::Degrees>,
+    angle_uncertainty: Option<S<crate::input::rigfile::Degrees>>,
 }
 
 /// Default standard uncertainty of a lift height, metres (1 mm).
@@ -96,11 +93,6 @@ pub struct WeighReport {
     pub written: Option<String>,
     /// The cautions.
     pub cautions: Vec<&'static str>,
-}
-
-#[allow(clippy::cast_possible_truncation)]
-fn f(x: f64) -> f32 {
-    x as f32
 }
 
 fn feet_mask(
@@ -137,13 +129,83 @@ fn newtons(list: &[Mass]) -> Vec<f32> {
 ///
 /// # Errors
 /// [`InputError`] naming the file, key and accepted range.
-#[allow(clippy::too_many_lines)]
 pub fn measure(rig: &LoadedRig, src: &SourceText) -> Result<WeighReport, InputError> {
     let file: WeighingFile = src.parse_toml()?;
     let ck = src.checker();
     let support = rig.rig.support();
     let n_feet = support.feet().len();
-    let u_n = match (&file.reading_uncertainty, &file.resolution) {
+    let u_n = reading_uncertainty_n(src, &file)?;
+    let count = |key: &str, v: &S<Vec<Mass>>| {
+        if v.get_ref().len() == n_feet {
+            Ok(())
+        } else {
+            Err(ck.error(
+                key,
+                v.span(),
+                format!(
+                    "{} readings for a rig with {n_feet} feet (accepted: one per foot, in the rig file's foot order)",
+                    v.get_ref().len()
+                ),
+            ))
+        }
+    };
+    count("level", &file.level)?;
+    let level = newtons(file.level.get_ref());
+    let lift_readings;
+    let lift = match &file.lift {
+        None => None,
+        Some(l) => {
+            let g = l.get_ref();
+            count("lift.readings", &g.readings)?;
+            lift_readings = newtons(g.readings.get_ref());
+            let geometry = lift_geometry(src, l, n_feet)?;
+            Some(weighing::Lift {
+                geometry,
+                loads_n: &lift_readings,
+            })
+        }
+    };
+    let tip = match &file.tip {
+        None => None,
+        Some(t) => Some(tip_test(src, t, n_feet)?),
+    };
+    let w = Weighing {
+        level_n: &level,
+        reading_uncertainty_n: u_n,
+        lift,
+        tip,
+    };
+    let spans = key_spans(&file);
+    let result =
+        weighing::centre_from_weighing(support, &w).map_err(|e| core_err(src, &e, &spans))?;
+    let placement = rig
+        .rig
+        .place(rig.rig.mount().home_pose(), standfast::Tilt::LEVEL, false)
+        .map_err(|e| core_err(src, &e, &spans))?;
+    let modelled = placement.centre_of_gravity_m();
+    let measured_h = result.height_m.map(|h| h.value);
+    Ok(WeighReport {
+        rig_file: rig.file.clone(),
+        weighing_file: src.name().to_owned(),
+        reading_uncertainty_n: u_n,
+        result,
+        modelled_centre_m: modelled.to_array(),
+        modelled_mass_kg: placement.mass_kg(),
+        difference_m: [
+            Some(result.x_m.value - modelled.x),
+            Some(result.y_m.value - modelled.y),
+            measured_h.map(|h| h - modelled.z),
+        ],
+        written: None,
+        cautions: crate::cautions::CAUTIONS.to_vec(),
+    })
+}
+
+/// The standard uncertainty of one reading, N: `reading_uncertainty`, or
+/// the scales' `resolution` / √12.
+fn reading_uncertainty_n(src: &SourceText, file: &WeighingFile) -> Result<f32, InputError> {
+    let ck = src.checker();
+    Ok(match (&file.reading_uncertainty, &file.resolution) {
         (Some(u), _) => {
             f(ck.range(
                 "reading_uncertainty",
@@ -177,102 +239,82 @@ pub fn measure(rig: &LoadedRig, src: &SourceText) -> Result<WeighReport, InputEr
                 problem: "give the scales' `resolution` (or `reading_uncertainty`)".into(),
             })
         }
-    };
-    let count = |key: &str, v: &S<Vec<Mass>>| {
-        if v.get_ref().len() == n_feet {
-            Ok(())
-        } else {
-            Err(ck.error(
-                key,
-                v.span(),
-                format!(
-                    "{} readings for a rig with {n_feet} feet (accepted: one per foot, in the rig file's foot order)",
-                    v.get_ref().len()
-                ),
+    })
+}
+
+/// The geometry of the `[lift]` test: raised feet and height, or an
+/// inclinometer's direction and angle.
+fn lift_geometry(
+    src: &SourceText,
+    l: &S<LiftSec>,
+    n_feet: usize,
+) -> Result<LiftGeometry, InputError> {
+    let ck = src.checker();
+    let g = l.get_ref();
+    Ok(match (&g.feet, &g.height, &g.toward, &g.angle) {
+        (Some(feet), Some(h), None, None) => LiftGeometry::Feet {
+            lifted_mask: feet_mask(src, "lift.feet", feet, n_feet)?,
+            height_m: f(h.get_ref().m()),
+            height_uncertainty_m: g
+                .height_uncertainty
+                .as_ref()
+                .map_or(DEFAULT_HEIGHT_UNCERTAINTY_M, |u| f(u.get_ref().m())),
+        },
+        (None, None, Some(t), Some(a)) => LiftGeometry::Angle {
+            raised_toward_rad: f(t.get_ref().0),
+            angle_rad: f(a.get_ref().0),
+            angle_uncertainty_rad: g
+                .angle_uncertainty
+                .as_ref()
+                .map_or(DEFAULT_ANGLE_UNCERTAINTY_DEG.to_radians(), |u| {
+                    f(u.get_ref().0)
+                }),
+        },
+        _ => {
+            return Err(ck.error(
+                "lift",
+                l.span(),
+                "give either `feet` and `height` (feet raised by a measured height) \
+                 or `toward` and `angle` (an inclinometer reading), not a mix",
             ))
         }
-    };
-    count("level", &file.level)?;
-    let level = newtons(file.level.get_ref());
-    let lift_readings;
-    let lift = match &file.lift {
-        None => None,
-        Some(l) => {
-            let g = l.get_ref();
-            count("lift.readings", &g.readings)?;
-            lift_readings = newtons(g.readings.get_ref());
-            let geometry = match (&g.feet, &g.height, &g.toward, &g.angle) {
-                (Some(feet), Some(h), None, None) => LiftGeometry::Feet {
-                    lifted_mask: feet_mask(src, "lift.feet", feet, n_feet)?,
-                    height_m: f(h.get_ref().m()),
-                    height_uncertainty_m: g
-                        .height_uncertainty
-                        .as_ref()
-                        .map_or(DEFAULT_HEIGHT_UNCERTAINTY_M, |u| f(u.get_ref().m())),
-                },
-                (None, None, Some(t), Some(a)) => LiftGeometry::Angle {
-                    raised_toward_rad: f(t.get_ref().0),
-                    angle_rad: f(a.get_ref().0),
-                    angle_uncertainty_rad: g
-                        .angle_uncertainty
-                        .as_ref()
-                        .map_or(DEFAULT_ANGLE_UNCERTAINTY_DEG.to_radians(), |u| {
-                            f(u.get_ref().0)
-                        }),
-                },
-                _ => {
-                    return Err(ck.error(
-                        "lift",
-                        l.span(),
-                        "give either `feet` and `height` (feet raised by a measured height) \
-                         or `toward` and `angle` (an inclinometer reading), not a mix",
-                    ))
-                }
-            };
-            Some(weighing::Lift {
-                geometry,
-                loads_n: &lift_readings,
+    })
+}
+
+/// The `[tip]` test: the edge's two feet and the angle.
+fn tip_test(src: &SourceText, t: &S<TipSec>, n_feet: usize) -> Result<TipTest, InputError> {
+    let ck = src.checker();
+    let g = t.get_ref();
+    let [a, b] = *g.edge.get_ref();
+    let idx = |i: i64| {
+        u8::try_from(i)
+            .ok()
+            .filter(|&k| usize::from(k) < n_feet)
+            .ok_or_else(|| {
+                ck.error(
+                    "tip.edge",
+                    g.edge.span(),
+                    format!(
+                        "foot {i} does not exist (accepted: 0 to {})",
+                        n_feet.saturating_sub(1)
+                    ),
+                )
             })
-        }
     };
-    let tip = match &file.tip {
-        None => None,
-        Some(t) => {
-            let g = t.get_ref();
-            let [a, b] = *g.edge.get_ref();
-            let idx = |i: i64| {
-                u8::try_from(i)
-                    .ok()
-                    .filter(|&k| usize::from(k) < n_feet)
-                    .ok_or_else(|| {
-                        ck.error(
-                            "tip.edge",
-                            g.edge.span(),
-                            format!(
-                                "foot {i} does not exist (accepted: 0 to {})",
-                                n_feet.saturating_sub(1)
-                            ),
-                        )
-                    })
-            };
-            Some(TipTest {
-                edge_feet: [idx(a)?, idx(b)?],
-                angle_rad: f(g.angle.get_ref().0),
-                angle_uncertainty_rad: g
-                    .angle_uncertainty
-                    .as_ref()
-                    .map_or(DEFAULT_ANGLE_UNCERTAINTY_DEG.to_radians(), |u| {
-                        f(u.get_ref().0)
-                    }),
-            })
-        }
-    };
-    let w = Weighing {
-        level_n: &level,
-        reading_uncertainty_n: u_n,
-        lift,
-        tip,
-    };
+    Ok(TipTest {
+        edge_feet: [idx(a)?, idx(b)?],
+        angle_rad: f(g.angle.get_ref().0),
+        angle_uncertainty_rad: g
+            .angle_uncertainty
+            .as_ref()
+            .map_or(DEFAULT_ANGLE_UNCERTAINTY_DEG.to_radians(), |u| {
+                f(u.get_ref().0)
+            }),
+    })
+}
+
+/// Where each weighing key is in the file.
+fn key_spans(file: &WeighingFile) -> KeySpans {
     let mut spans: KeySpans = vec![("level", file.level.span())];
     if let Some(l) = &file.lift {
         let g = l.get_ref();
@@ -301,29 +343,7 @@ pub fn measure(rig: &LoadedRig, src: &SourceText) -> Result<WeighReport, InputEr
             spans.push(("tip.angle_uncertainty", v.span()));
         }
     }
-    let result =
-        weighing::centre_from_weighing(support, &w).map_err(|e| core_err(src, &e, &spans))?;
-    let placement = rig
-        .rig
-        .place(rig.rig.mount().home_pose(), standfast::Tilt::LEVEL, false)
-        .map_err(|e| core_err(src, &e, &spans))?;
-    let modelled = placement.centre_of_gravity_m();
-    let measured_h = result.height_m.map(|h| h.value);
-    Ok(WeighReport {
-        rig_file: rig.file.clone(),
-        weighing_file: src.name().to_owned(),
-        reading_uncertainty_n: u_n,
-        result,
-        modelled_centre_m: modelled.to_array(),
-        modelled_mass_kg: placement.mass_kg(),
-        difference_m: [
-            Some(result.x_m.value - modelled.x),
-            Some(result.y_m.value - modelled.y),
-            measured_h.map(|h| h - modelled.z),
-        ],
-        written: None,
-        cautions: crate::assess::CAUTIONS.to_vec(),
-    })
+    spans
 }
 
 /// Where each weighing key is in the file, for the core's errors.
@@ -415,273 +435,4 @@ fn core_err(src: &SourceText, e: &standfast::Error, spans: &KeySpans) -> InputEr
             problem: format!("{}: {problem}", src.name()),
         },
     }
-}
-
-/// `x` to four decimals, without the sign of a value that rounds to zero.
-fn fmt4(x: f32) -> String {
-    let s = format!("{x:.4}");
-    if s.trim_start_matches('-')
-        .chars()
-        .all(|c| c == '0' || c == '.')
-    {
-        s.trim_start_matches('-').to_owned()
-    } else {
-        s
-    }
-}
-
-fn est(e: weighing::Estimate, unit: &str, k: f32) -> String {
-    format!("{} ± {:.4} {unit}", fmt4(e.value * k), e.uncertainty * k)
-}
-
-/// Writes the report as text.
-///
-/// # Errors
-/// I/O errors of `out`.
-pub fn write_text(r: &WeighReport, out: &mut dyn Write) -> std::io::Result<()> {
-    let m = &r.result;
-    writeln!(
-        out,
-        "Centre of gravity of {} from the weighing {}",
-        r.rig_file, r.weighing_file
-    )?;
-    writeln!(
-        out,
-        "  (± one standard uncertainty; each reading ± {:.3} kg)",
-        r.reading_uncertainty_n / STANDARD_GRAVITY_MPS2
-    )?;
-    writeln!(out, "  mass      {}", est(m.mass_kg, "kg", 1.0))?;
-    writeln!(out, "  x (east)  {}", est(m.x_m, "m", 1.0))?;
-    writeln!(out, "  y (north) {}", est(m.y_m, "m", 1.0))?;
-    if let Some(h) = m.height_from_lift_m {
-        writeln!(
-            out,
-            "  height from the lift ({:.1}°): {}",
-            m.lift_angle_rad.unwrap_or(0.0).to_degrees(),
-            est(h, "m", 1.0)
-        )?;
-    }
-    if let Some(h) = m.height_from_tip_m {
-        writeln!(out, "  height from the tip test: {}", est(h, "m", 1.0))?;
-    }
-    match m.height_m {
-        Some(h) => writeln!(out, "  height    {}", est(h, "m", 1.0))?,
-        None => writeln!(
-            out,
-            "  height    not measured (add a [lift] or [tip] section)"
-        )?,
-    }
-    // Values that round to zero print without a sign.
-    let z = |x: f32| if x.abs() < 5e-4 { 0.0 } else { x };
-    let [mx, my, mz] = r.modelled_centre_m.map(z);
-    writeln!(
-        out,
-        "\nThe rig file's bodies imply {:.2} kg at x {mx:.3} m, y {my:.3} m, z {mz:.3} m (home pose, level, cover off)",
-        r.modelled_mass_kg
-    )?;
-    let d = |v: Option<f32>| v.map_or_else(|| "-".to_owned(), |x| format!("{:+.3} m", z(x)));
-    writeln!(
-        out,
-        "  weighed minus modelled: mass {:+.2} kg, x {}, y {}, z {}",
-        m.mass_kg.value - r.modelled_mass_kg,
-        d(r.difference_m[0]),
-        d(r.difference_m[1]),
-        d(r.difference_m[2])
-    )?;
-    let c = &m.checks;
-    writeln!(
-        out,
-        "\nConsistency checks (tolerance: three standard uncertainties):"
-    )?;
-    if let Some(x) = c.lift_total_difference_n {
-        writeln!(
-            out,
-            "  lifted total minus level total {:+.3} kg (tolerance {:.3} kg): {}",
-            x / STANDARD_GRAVITY_MPS2,
-            c.lift_total_tolerance_n / STANDARD_GRAVITY_MPS2,
-            ok(x.abs() <= c.lift_total_tolerance_n)
-        )?;
-    }
-    if let Some(x) = c.lift_cross_shift_m {
-        writeln!(
-            out,
-            "  centre moved across the lift direction {:+.4} m (tolerance {:.4} m): {}",
-            x,
-            c.lift_cross_tolerance_m,
-            ok(x.abs() <= c.lift_cross_tolerance_m)
-        )?;
-    }
-    if let Some(x) = c.height_disagreement_m {
-        writeln!(
-            out,
-            "  lift height minus tip height {:+.3} m (tolerance {:.3} m): {}",
-            x,
-            c.height_disagreement_tolerance_m,
-            ok(x.abs() <= c.height_disagreement_tolerance_m)
-        )?;
-    }
-    if c.height_below_ground {
-        writeln!(out, "  the height lies below the ground: FAILED")?;
-    }
-    if c.small_lift_angle {
-        writeln!(
-            out,
-            "  the lift angle is under 5°: the height's uncertainty is large; lift further if you can"
-        )?;
-    }
-    writeln!(
-        out,
-        "  overall: {}",
-        if c.passed {
-            "the readings agree"
-        } else {
-            "the readings DISAGREE: weigh again (scales level and zeroed, nothing touching the rig)"
-        }
-    )?;
-    if let Some(w) = &r.written {
-        writeln!(out, "\nRig file with the [measured] section written to {w}")?;
-    }
-    writeln!(out, "\nCautions:")?;
-    for c in &r.cautions {
-        writeln!(out, "  - {c}")?;
-    }
-    Ok(())
-}
-
-fn ok(b: bool) -> &'static str {
-    if b {
-        "ok"
-    } else {
-        "FAILED"
-    }
-}
-
-/// The `[measured]` section for a weighed centre (home pose, cover off).
-///
-/// # Errors
-/// A result without a height (the section needs the full centre).
-pub fn measured_section(r: &WeighReport) -> Option<String> {
-    let m = &r.result;
-    let h = m.height_m?;
-    Some(format!(
-        "\n[measured]                      # written by `standfast weigh` from {}\n\
-         mass = \"{:.3} kg\"\n\
-         mass_uncertainty = \"{:.3} kg\"\n\
-         cg = [\"{} m\", \"{} m\", \"{} m\"]\n\
-         cg_uncertainty = [\"{:.4} m\", \"{:.4} m\", \"{:.4} m\"]\n\
-         cover_fitted = false\n",
-        r.weighing_file.replace(['"', '\n'], ""),
-        m.mass_kg.value,
-        m.mass_kg.uncertainty,
-        fmt4(m.x_m.value),
-        fmt4(m.y_m.value),
-        fmt4(h.value),
-        m.x_m.uncertainty,
-        m.y_m.uncertainty,
-        h.uncertainty
-    ))
-}
-
-/// Writes `text` to `path` atomically (see [`crate::output::AtomicFile`]).
-fn write_atomic(path: &Path, text: &str) -> Result<(), Error> {
-    crate::output::write_atomic(path, text.as_bytes()).map(|_| ())
-}
-
-fn same_file(a: &Path, b: &Path) -> bool {
-    match (a.canonicalize(), b.canonicalize()) {
-        (Ok(x), Ok(y)) => x == y,
-        _ => false,
-    }
-}
-
-/// Arguments of `weigh`.
-#[derive(Debug, clap::Args)]
-pub struct WeighArgs {
-    /// The rig file (its feet, in order, are where the scales stood).
-    #[arg(value_name = "RIG.toml")]
-    pub rig: PathBuf,
-    /// The weighing file (see the README's weighing section).
-    #[arg(value_name = "WEIGHING.toml")]
-    pub weighing: PathBuf,
-    /// Print the report as JSON instead of text.
-    #[arg(long)]
-    pub json: bool,
-    /// Write a copy of the rig file with a `[measured]` section to this file
-    /// (never over the rig file itself; refused when a check fails or no
-    /// height was measured).
-    #[arg(long, value_name = "OUT.toml")]
-    pub write_rig: Option<PathBuf>,
-}
-
-/// Runs `standfast weigh`.
-///
-/// # Errors
-/// Unreadable or invalid files; a failed check or a missing height when
-/// asked to write; output that cannot be written.
-pub fn run(a: &WeighArgs, out: &mut dyn Write) -> Result<(), Error> {
-    // An output over an input (same path, a symbolic or hard link) is
-    // refused before anything is read (exit 2).
-    if let Some(path) = &a.write_rig {
-        crate::output::check_paths(
-            &[
-                crate::output::Role::new("the rig file", &a.rig),
-                crate::output::Role::new("the weighing file", &a.weighing),
-            ],
-            &[crate::output::Role::new("--write-rig", path)],
-        )?;
-    }
-    let rig_src = SourceText::read(&a.rig)?;
-    let rig = crate::rigfile::load_source(&rig_src)?;
-    let src = SourceText::read(&a.weighing)?;
-    let mut rep = measure(&rig, &src)?;
-    if let Some(path) = &a.write_rig {
-        let refuse = |problem: String| {
-            Error::Input(InputError {
-                at: None,
-                key: Some("--write-rig".into()),
-                value: Some(path.display().to_string()),
-                problem,
-            })
-        };
-        if same_file(path, &a.rig) || same_file(path, &a.weighing) {
-            return Err(refuse(
-                "the output would replace an input file; name another file".into(),
-            ));
-        }
-        if rig.measured.is_some() {
-            return Err(refuse(format!(
-                "{} already has a [measured] section; remove it and weigh against the bodies",
-                rig.file
-            )));
-        }
-        if !rep.result.checks.passed {
-            return Err(refuse(
-                "the readings failed a consistency check (run without --write-rig to see \
-                 which); nothing written"
-                    .into(),
-            ));
-        }
-        let Some(section) = measured_section(&rep) else {
-            return Err(refuse(
-                "no height was measured (add a [lift] or [tip] section); nothing written".into(),
-            ));
-        };
-        let mut text = rig_src.text().to_owned();
-        if !text.ends_with('\n') {
-            text.push('\n');
-        }
-        text.push_str(&section);
-        // The written file must load: the same checks as any rig file.
-        crate::rigfile::load_source(&SourceText::new(path.display().to_string(), text.clone()))?;
-        write_atomic(path, &text)?;
-        rep.written = Some(path.display().to_string());
-    }
-    let res = if a.json {
-        serde_json::to_writer_pretty(&mut *out, &rep)
-            .map_err(std::io::Error::other)
-            .and_then(|()| writeln!(out))
-    } else {
-        write_text(&rep, out)
-    };
-    res.map_err(|e| Error::io("<standard output>", e))
 }

@@ -23,17 +23,16 @@
 //! **Caution.** A what-if is the same simplified static model with other
 //! inputs: it compares estimates, it does not prove a set-up safe.
 
-use std::io::Write;
-
 use serde::Serialize;
-use standfast::guard::Stage;
+use standfast::guard::{GuardConfig, Stage};
 use standfast::rig::{BallastSpec, BodySpec, Rig, MAX_BALLAST, MAX_PART_MASS_KG};
 
-use crate::error::Error;
-use crate::located::InputError;
-use crate::replay::{ReplayReport, RigReplay};
-use crate::rigfile::LoadedRig;
-use crate::units::{split_number, Dim, Duration, Force, Length, Mass};
+use crate::input::error::Error;
+use crate::input::located::{fmt_g, InputError};
+use crate::input::rigfile::LoadedRig;
+use crate::input::units::f32_of as f;
+use crate::input::units::{split_number, Dim, Duration, Force, Length, Mass};
+use crate::model::replay::{ReplayReport, RigReplay};
 
 /// The cover state of a variant.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -91,8 +90,8 @@ fn bad(key: &str, value: &str, problem: impl Into<String>) -> Error {
     Error::Usage(
         InputError {
             at: None,
-            key: Some(format!("--what-if {}", crate::located::bounded(key))),
-            value: Some(format!("\"{}\"", crate::located::bounded(value))),
+            key: Some(format!("--what-if {}", crate::input::located::bounded(key))),
+            value: Some(format!("\"{}\"", crate::input::located::bounded(value))),
             problem: problem.into(),
         }
         .to_string(),
@@ -176,7 +175,7 @@ pub fn parse_override(text: &str) -> Result<Override, Error> {
     };
     let key = key.trim();
     let v = value.trim();
-    let quantity_err = |e: crate::units::UnitError| bad(key, v, e.to_string());
+    let quantity_err = |e: crate::input::units::UnitError| bad(key, v, e.to_string());
     match key {
         "ballast" => {
             let Some((m, at)) = v.split_once('@') else {
@@ -242,11 +241,6 @@ pub fn parse_override(text: &str) -> Result<Override, Error> {
     }
 }
 
-#[allow(clippy::cast_possible_truncation)] // rig values fit f32
-fn f(x: f64) -> f32 {
-    x as f32
-}
-
 /// The variant of `base` with the overrides applied (`texts` are the
 /// overrides as written, for the variant's name).
 ///
@@ -289,47 +283,7 @@ pub fn variant(
             }
             Override::Cover(CoverMode::AsLogged) => {}
             Override::Cover(CoverMode::Off) => spec.cover = None,
-            Override::Cover(CoverMode::On) => {
-                let Some(c) = spec.cover.take() else {
-                    return Err(bad(key, value, "the rig file has no [cover] to fit"));
-                };
-                let mut label = standfast::rig::Label::new();
-                let _ = label.push_str("cover (fitted)");
-                let body = BodySpec {
-                    label,
-                    stage: standfast::rig::Stage::Secondary,
-                    mass_kg: c.mass_kg,
-                    cg_m: c.centre_m,
-                    exposure: Some(standfast::shape::Exposure {
-                        shape: standfast::shape::Shape::Box {
-                            size_m: c.size_m,
-                            edges: None,
-                        },
-                        centre_m: c.centre_m,
-                        drag_coefficient: c.drag_coefficient,
-                        end_drag_coefficient: None,
-                    }),
-                    mass_model: standfast::rig::MassModel::Shell,
-                    under_cover: false,
-                };
-                for b in &mut spec.bodies {
-                    if b.under_cover {
-                        // Shielded all night: its mass counts, not its area.
-                        b.exposure = None;
-                        b.under_cover = false;
-                    }
-                }
-                if spec.bodies.push(body).is_err() {
-                    return Err(bad(
-                        key,
-                        value,
-                        format!(
-                            "the rig already has the most bodies ({}); the fitted cover cannot be added",
-                            standfast::rig::MAX_BODIES
-                        ),
-                    ));
-                }
-            }
+            Override::Cover(CoverMode::On) => fit_cover(&mut spec, key, value)?,
             Override::WatchUtilisation(x) => guard.watch_utilisation = f(x),
             Override::ParkUtilisation(x) => guard.park_utilisation = f(x),
             Override::AlarmUtilisation(x) => guard.alarm_utilisation = f(x),
@@ -343,7 +297,99 @@ pub fn variant(
             foot.tie_down_n = f(n);
         }
     }
-    // Threshold order, named by the override that broke it.
+    check_threshold_order(&guard, texts)?;
+    guard.validate().map_err(|e| {
+        bad(
+            "",
+            "",
+            format!(
+                "the variant's guard settings are not valid: {}",
+                crate::input::rigfile::core_problem(&e)
+            ),
+        )
+    })?;
+    if base.measured.is_some() {
+        // The weighed centre replaced the ground parts' masses for the rig as
+        // weighed; a variant changes what was weighed, so it cannot carry it.
+        return Err(bad(
+            "",
+            "",
+            "variants of a rig file with a [measured] section are not supported: \
+             compare variants of the file without it, or weigh each variant"
+                .to_owned(),
+        ));
+    }
+    let rig = Rig::new(&spec).map_err(|e| {
+        bad(
+            "",
+            "",
+            format!(
+                "the variant rig is not valid: {}",
+                crate::input::rigfile::core_problem(&e)
+            ),
+        )
+    })?;
+    Ok(LoadedRig {
+        file: format!("{} with {}", base.file, texts.join(", ")),
+        spec,
+        rig,
+        guard,
+        elevation_m: base.elevation_m,
+        shaft_hardware: base.shaft_hardware.clone(),
+        air: base.air,
+        measured: None,
+        hardware: base.hardware.clone(),
+    })
+}
+
+/// `cover=on`: the cover becomes a permanent body (its mass and wind area
+/// all night) and the bodies under it lose their wind area.
+fn fit_cover(spec: &mut standfast::rig::RigSpec, key: &str, value: &str) -> Result<(), Error> {
+    let Some(c) = spec.cover.take() else {
+        return Err(bad(key, value, "the rig file has no [cover] to fit"));
+    };
+    let mut label = standfast::rig::Label::new();
+    let _ = label.push_str("cover (fitted)");
+    let body = BodySpec {
+        label,
+        stage: standfast::rig::Stage::Secondary,
+        mass_kg: c.mass_kg,
+        cg_m: c.centre_m,
+        exposure: Some(standfast::shape::Exposure {
+            shape: standfast::shape::Shape::Box {
+                size_m: c.size_m,
+                edges: None,
+            },
+            centre_m: c.centre_m,
+            drag_coefficient: c.drag_coefficient,
+            end_drag_coefficient: None,
+        }),
+        mass_model: standfast::rig::MassModel::Shell,
+        under_cover: false,
+    };
+    for b in &mut spec.bodies {
+        if b.under_cover {
+            // Shielded all night: its mass counts, not its area.
+            b.exposure = None;
+            b.under_cover = false;
+        }
+    }
+    if spec.bodies.push(body).is_err() {
+        return Err(bad(
+            key,
+            value,
+            format!(
+                "the rig already has the most bodies ({}); the fitted cover cannot be added",
+                standfast::rig::MAX_BODIES
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// The park and alarm thresholds must not be below the watch threshold;
+/// the error names the override that broke the order.
+fn check_threshold_order(guard: &GuardConfig, texts: &[String]) -> Result<(), Error> {
     let find = |k: &str| -> (String, String) {
         texts
             .iter()
@@ -377,52 +423,7 @@ pub fn variant(
             ));
         }
     }
-    guard.validate().map_err(|e| {
-        bad(
-            "",
-            "",
-            format!(
-                "the variant's guard settings are not valid: {}",
-                crate::rigfile::core_problem(&e)
-            ),
-        )
-    })?;
-    if base.measured.is_some() {
-        // The weighed centre replaced the ground parts' masses for the rig as
-        // weighed; a variant changes what was weighed, so it cannot carry it.
-        return Err(bad(
-            "",
-            "",
-            "variants of a rig file with a [measured] section are not supported: \
-             compare variants of the file without it, or weigh each variant"
-                .to_owned(),
-        ));
-    }
-    let rig = Rig::new(&spec).map_err(|e| {
-        bad(
-            "",
-            "",
-            format!(
-                "the variant rig is not valid: {}",
-                crate::rigfile::core_problem(&e)
-            ),
-        )
-    })?;
-    Ok(LoadedRig {
-        file: format!("{} with {}", base.file, texts.join(", ")),
-        spec,
-        rig,
-        guard,
-        elevation_m: base.elevation_m,
-        shaft_hardware: base.shaft_hardware.clone(),
-        air: base.air,
-        measured: None,
-        hardware: base.hardware.clone(),
-    })
-}
-
-fn fmt_g(x: f64) -> String {
-    crate::located::fmt_g(x)
+    Ok(())
 }
 
 /// Parses the overrides and builds the variant of `base`.
@@ -529,178 +530,4 @@ pub fn compare(rep: &ReplayReport) -> Comparison {
             .map(|(i, r)| line(i, r))
             .collect(),
     }
-}
-
-fn pct(v: Option<f32>) -> String {
-    v.map_or_else(|| "-".to_owned(), |x| format!("{:.1} %", x * 100.0))
-}
-
-fn at_s(v: Option<f64>) -> String {
-    v.map_or_else(|| "-".to_owned(), |x| format!("+{x:.0} s"))
-}
-
-impl Comparison {
-    /// The side-by-side table as text.
-    #[must_use]
-    pub fn text(&self) -> String {
-        let mut s = String::from("\nSide by side (the same logs through each rig):\n");
-        for r in &self.rigs {
-            s.push_str(&format!("  {} = {}\n", r.column, r.rig));
-        }
-        let rows: Vec<(&str, Vec<String>)> = vec![
-            (
-                "highest overturning",
-                self.rigs
-                    .iter()
-                    .map(|r| pct(r.overturning_utilisation))
-                    .collect(),
-            ),
-            (
-                "  at",
-                self.rigs.iter().map(|r| at_s(r.overturning_t_s)).collect(),
-            ),
-            (
-                "  tip wind there",
-                self.rigs
-                    .iter()
-                    .map(|r| {
-                        r.tip_wind_mps
-                            .map_or_else(|| "-".to_owned(), |v| format!("{v:.1} m/s"))
-                    })
-                    .collect(),
-            ),
-            (
-                "highest sliding",
-                self.rigs
-                    .iter()
-                    .map(|r| pct(r.sliding_utilisation))
-                    .collect(),
-            ),
-            (
-                "highest drive axis 1",
-                self.rigs
-                    .iter()
-                    .map(|r| pct(r.drive_utilisation[0]))
-                    .collect(),
-            ),
-            (
-                "highest drive axis 2",
-                self.rigs
-                    .iter()
-                    .map(|r| pct(r.drive_utilisation[1]))
-                    .collect(),
-            ),
-            (
-                "highest stage",
-                self.rigs
-                    .iter()
-                    .map(|r| r.highest_stage.name().to_owned())
-                    .collect(),
-            ),
-            (
-                "first park request",
-                self.rigs.iter().map(|r| at_s(r.first_park_t_s)).collect(),
-            ),
-            (
-                "first alarm",
-                self.rigs.iter().map(|r| at_s(r.first_alarm_t_s)).collect(),
-            ),
-            (
-                "time in watch",
-                self.rigs
-                    .iter()
-                    .map(|r| format!("{:.0} s", r.watch_s))
-                    .collect(),
-            ),
-            (
-                "time in park_now",
-                self.rigs
-                    .iter()
-                    .map(|r| format!("{:.0} s", r.park_now_s))
-                    .collect(),
-            ),
-            (
-                "time in alarm",
-                self.rigs
-                    .iter()
-                    .map(|r| format!("{:.0} s", r.alarm_s))
-                    .collect(),
-            ),
-            (
-                "time in sensor_fault",
-                self.rigs
-                    .iter()
-                    .map(|r| format!("{:.0} s", r.sensor_fault_s))
-                    .collect(),
-            ),
-            (
-                "stage changes",
-                self.rigs
-                    .iter()
-                    .map(|r| r.stage_changes.to_string())
-                    .collect(),
-            ),
-        ];
-        let label_w = rows.iter().map(|r| r.0.len()).max().unwrap_or(0) + 2;
-        let col_w = rows
-            .iter()
-            .flat_map(|r| r.1.iter().map(|c| c.chars().count()))
-            .max()
-            .unwrap_or(1)
-            .max(6)
-            + 2;
-        s.push_str(&format!("  {:label_w$}", ""));
-        for r in &self.rigs {
-            s.push_str(&format!("{:>col_w$}", r.column));
-        }
-        s.push('\n');
-        for (label, cells) in rows {
-            s.push_str(&format!("  {label:label_w$}"));
-            for c in cells {
-                s.push_str(&format!("{c:>col_w$}"));
-            }
-            s.push('\n');
-        }
-        s
-    }
-}
-
-#[derive(Serialize)]
-struct JsonOut<'a> {
-    #[serde(flatten)]
-    report: &'a ReplayReport,
-    comparison: &'a Comparison,
-    cautions: &'a [&'a str],
-}
-
-const CAUTIONS_HEADING: &str = "\nCautions:\n";
-
-/// Writes the replay summary (text or JSON); with two or more rigs, with the
-/// side-by-side comparison (text: before the cautions; JSON: a
-/// `comparison` field).
-///
-/// # Errors
-/// [`Error::Io`] when `out` cannot be written.
-pub fn write_summary(rep: &ReplayReport, as_json: bool, out: &mut dyn Write) -> Result<(), Error> {
-    if rep.rigs.len() < 2 {
-        return crate::summary::write(rep, as_json, out);
-    }
-    let stdout = |e| Error::io("<standard output>", e);
-    let cmp = compare(rep);
-    let body = if as_json {
-        let mut s = serde_json::to_string_pretty(&JsonOut {
-            report: rep,
-            comparison: &cmp,
-            cautions: crate::assess::CAUTIONS,
-        })
-        .map_err(|e| stdout(std::io::Error::other(e)))?;
-        s.push('\n');
-        s
-    } else {
-        let mut s = crate::summary::text(rep);
-        let at = s.rfind(CAUTIONS_HEADING).unwrap_or(s.len());
-        s.insert_str(at, &cmp.text());
-        s
-    };
-    out.write_all(body.as_bytes()).map_err(stdout)
 }

@@ -11,7 +11,7 @@
 //! ```
 //!
 //! * `t_ms`: milliseconds since the log's first record (the replay's clock,
-//!   [`crate::replay`]); the firmware prints its station clock, which is the
+//!   [`crate::model::replay`]); the firmware prints its station clock, which is the
 //!   log's `t_ms` column, so the two agree for a log that starts at 0 ms.
 //! * stage names: [`Stage::name`] (`clear`, `watch`, `park_now`, `alarm`,
 //!   `sensor_fault`), as the firmware's guard adapter prints them.
@@ -26,19 +26,18 @@
 //!   (the firmware prints a step's raised faults, then its stage change).
 //!
 //! Only the first rig of a report is written, and only the kept events
-//! ([`crate::replay::MAX_KEPT_EVENTS`]); [`lines`] says so in an error when
+//! ([`crate::model::replay::MAX_KEPT_EVENTS`]); [`lines`] says so in an error when
 //! events were not kept rather than writing a shortened list.
 
 use std::fmt::Write as _;
-use std::path::Path;
 
 use standfast::guard::Stage;
 use standfast::sense::Fault;
 
-use crate::error::Error;
-use crate::located::InputError;
-use crate::replay::ReplayReport;
-use crate::replay::RigReplay;
+use crate::input::error::Error;
+use crate::input::located::InputError;
+use crate::model::replay::ReplayReport;
+use crate::model::replay::RigReplay;
 
 /// The event-line names of a guard fault: sensor and class.
 #[must_use]
@@ -137,14 +136,4 @@ pub fn lines(report: &ReplayReport) -> Result<String, Error> {
         let _ = writeln!(out, "{l}");
     }
     Ok(out)
-}
-
-/// Writes [`lines`] to `path` atomically (temporary file and rename),
-/// creating its folder.
-///
-/// # Errors
-/// As [`lines`]; [`Error::Io`] when the file cannot be written.
-pub fn write_file(report: &ReplayReport, path: &Path) -> Result<(), Error> {
-    let text = lines(report)?;
-    crate::output::write_atomic(path, text.as_bytes()).map(|_| ())
 }

@@ -4,35 +4,24 @@
 //! Everything is inline (CSS and SVG); the page loads nothing and runs no
 //! script, so it opens anywhere without a network. The charts are drawn by
 //! the small writer in [`svg`]; the replay's time series comes from the
-//! bounded collector in [`series`]. Units on the page: utilisation as a
+//! bounded collector in [`crate::model::series`], the polar and torque data
+//! from [`crate::model::charts`]. Units on the page: utilisation as a
 //! fraction (1.0 is the limit), speeds m/s, angles degrees (wind directions
 //! are where the wind blows FROM, clockwise from north), time as h:mm since
 //! the first record.
 
-pub mod html;
-pub mod series;
-pub mod svg;
-
-use std::path::Path;
-
-use standfast::frame::Tilt;
 use standfast::guard::Stage;
-use standfast::mount::{PierSide, Pose};
-use standfast::rig::{Conditions, Rig};
 
-use crate::assess::{AssessReport, CAUTIONS};
-use crate::error::Error;
-use crate::replay::{Approach, ReplayReport, RigReplay, STAGES};
-use crate::rigfile::LoadedRig;
-use html::Page;
-use series::Series;
-use svg::{HLine, HeatMap, Line, LineChart, Mark, PolarChart, PolarMarker, PolarTrace, Span};
-
-/// Step of the polar charts' directions, degrees (72 directions).
-pub const POLAR_STEP_DEG: u32 = 5;
-
-/// Step of the axis-torque map over hour angle and declination, degrees.
-pub const TORQUE_MAP_STEP_DEG: i32 = 15;
+use crate::cautions::CAUTIONS;
+use crate::input::error::Error;
+use crate::model::assess::{pose_words, AssessReport};
+use crate::model::charts::{AssessCharts, RigCharts, POLAR_STEP_DEG, TORQUE_MAP_STEP_DEG};
+use crate::model::replay::{Approach, ReplayReport, RigReplay, STAGES};
+use crate::model::series::Series;
+use crate::render::html::Page;
+use crate::render::svg::{
+    self, HLine, HeatMap, Line, LineChart, Mark, PolarChart, PolarMarker, PolarTrace, Span,
+};
 
 /// The report's colour of each stage (in [`STAGES`] order).
 fn stage_colour(s: Stage) -> &'static str {
@@ -49,96 +38,8 @@ fn stage_cat(s: Stage) -> usize {
     STAGES.iter().position(|x| *x == s).unwrap_or(0)
 }
 
-/// A pose in words: axis angles, hour angle and declination, or azimuth and
-/// altitude, in degrees (hour angle in hours).
-#[must_use]
-pub fn pose_words(p: &Pose) -> String {
-    match p {
-        Pose::Axes {
-            primary_rad,
-            secondary_rad,
-        } => format!(
-            "axes {:.1}°, {:.1}°",
-            primary_rad.to_degrees(),
-            secondary_rad.to_degrees()
-        ),
-        Pose::Equatorial {
-            hour_angle_rad,
-            declination_rad,
-            pier_side,
-        } => format!(
-            "hour angle {:+.2} h, declination {:+.1}°, {}",
-            hour_angle_rad.to_degrees() / 15.0,
-            declination_rad.to_degrees(),
-            side_words(*pier_side)
-        ),
-        Pose::Horizontal {
-            azimuth_rad,
-            altitude_rad,
-            pier_side,
-        } => format!(
-            "azimuth {:.1}°, altitude {:.1}°, {}",
-            azimuth_rad.to_degrees(),
-            altitude_rad.to_degrees(),
-            side_words(*pier_side)
-        ),
-    }
-}
-
-fn side_words(s: PierSide) -> &'static str {
-    match s {
-        PierSide::TubeEast => "tube east",
-        PierSide::TubeWest => "tube west",
-    }
-}
-
 fn opt(v: Option<f32>, unit: &str, digits: usize) -> String {
     v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
-}
-
-/// Tip wind speed every [`POLAR_STEP_DEG`] degrees of wind direction (from),
-/// by [`Rig::assess`] in the given conditions (their own direction is
-/// replaced).
-///
-/// # Errors
-/// The core's error for invalid conditions.
-pub fn tip_wind_by_direction(
-    rig: &Rig,
-    c: &Conditions,
-) -> Result<Vec<(f64, Option<f64>)>, standfast::Error> {
-    let mut out = Vec::with_capacity(72);
-    for k in 0..(360 / POLAR_STEP_DEG) {
-        let deg = k * POLAR_STEP_DEG;
-        let mut cc = *c;
-        #[allow(clippy::cast_precision_loss)] // deg < 360
-        let from = (deg as f32).to_radians();
-        cc.wind_from_rad = from;
-        let tip = rig.assess(&cc)?.tip_wind_mps;
-        out.push((f64::from(deg), tip.map(f64::from)));
-    }
-    Ok(out)
-}
-
-/// The conditions at a closest approach: its pose, tilt and wind direction,
-/// the site's air and the cover state held then (off when unknown).
-///
-/// # Errors
-/// The core's error for an invalid tilt.
-pub fn approach_conditions(
-    r: &LoadedRig,
-    a: &Approach,
-    cover: Option<bool>,
-) -> Result<Conditions, standfast::Error> {
-    let mut c = Conditions::calm(a.pose);
-    c.air = r.air;
-    c.cover_fitted = cover.unwrap_or(false);
-    if let (Some(m), Some(d)) = (a.tilt_deg, a.tilt_downhill_deg) {
-        c.tilt = Tilt::new(m.to_radians(), d.to_radians())?;
-    }
-    if let Some(w) = a.wind_from_deg {
-        c.wind_from_rad = w.to_radians();
-    }
-    Ok(c)
 }
 
 fn approach_row(label: &str, a: Option<&Approach>) -> Vec<String> {
@@ -168,7 +69,10 @@ fn approach_row(label: &str, a: Option<&Approach>) -> Vec<String> {
     ]
 }
 
-fn points(s: &Series, f: impl Fn(&series::SeriesPoint) -> Option<f32>) -> Vec<(f64, Option<f64>)> {
+fn points(
+    s: &Series,
+    f: impl Fn(&crate::model::series::SeriesPoint) -> Option<f32>,
+) -> Vec<(f64, Option<f64>)> {
     s.points
         .iter()
         .map(|p| ((p.t_start_s + p.t_last_s) / 2.0, f(p).map(f64::from)))
@@ -224,12 +128,9 @@ fn stage_spans(s: &Series) -> Vec<Span> {
     out
 }
 
-fn rig_section(
-    page: &mut Page,
-    rep: &ReplayReport,
-    r: &RigReplay,
-    rig: Option<&LoadedRig>,
-) -> Result<(), Error> {
+/// One rig's section of the replay report: closest approaches, charts,
+/// stage times, stage changes and faults.
+fn rig_section(page: &mut Page, rep: &ReplayReport, r: &RigReplay, charts: Option<&RigCharts>) {
     page.h2(&format!("Rig {}", r.rig_file));
     page.p(&format!(
         "Highest stage {}, final stage {}.",
@@ -261,12 +162,35 @@ fn rig_section(
         &rows,
     );
 
+    utilisation_charts(page, rep, r, charts);
+    wind_and_tilt_charts(page, rep, r);
+    polar_chart(page, r, charts);
+    stage_tables(page, rep, r);
+}
+
+/// The time axis of a rig's charts (s since the first record) and the
+/// sentence saying what a point stands for.
+fn time_axis(rep: &ReplayReport, r: &RigReplay) -> ((f64, f64), String) {
     let s = &r.series;
-    let x_range = (0.0, rep.duration_s.max(s.width_s));
-    let bucket = format!(
-        "Each point is the highest value (mean for the mean wind) over {:.0} s of log.",
-        s.width_s
-    );
+    (
+        (0.0, rep.duration_s.max(s.width_s)),
+        format!(
+            "Each point is the highest value (mean for the mean wind) over {:.0} s of log.",
+            s.width_s
+        ),
+    )
+}
+
+/// (a) Utilisation over time with the guard's thresholds, and the stage
+/// timeline.
+fn utilisation_charts(
+    page: &mut Page,
+    rep: &ReplayReport,
+    r: &RigReplay,
+    charts: Option<&RigCharts>,
+) {
+    let s = &r.series;
+    let (x_range, bucket) = time_axis(rep, r);
     // (a) Utilisation with the guard thresholds and the event marks.
     let mut u = LineChart::new(
         "Utilisation over time",
@@ -288,11 +212,11 @@ fn rig_section(
     u.lines.push(pred);
     u.lines
         .push(line("sliding", "#2a9d8f", points(s, |p| p.sliding_max)));
-    if let Some(l) = rig {
+    if let Some([watch, park, alarm]) = charts.and_then(|c| c.thresholds) {
         for (value, label, colour) in [
-            (l.guard.watch_utilisation, "watch", "#b8901a"),
-            (l.guard.park_utilisation, "park", "#d06a10"),
-            (l.guard.alarm_utilisation, "alarm", "#b5321f"),
+            (watch, "watch", "#b8901a"),
+            (park, "park", "#d06a10"),
+            (alarm, "alarm", "#b5321f"),
         ] {
             u.hlines.push(HLine {
                 value: f64::from(value),
@@ -315,6 +239,12 @@ fn rig_section(
         &svg::timeline("Stage over time", x_range, &stage_spans(s), &cats),
         "The guard's stage; each interval shows its most severe stage.",
     );
+}
+
+/// (b) Wind speed and direction, (c) tilt, over time.
+fn wind_and_tilt_charts(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
+    let s = &r.series;
+    let (x_range, bucket) = time_axis(rep, r);
     // (b) Wind speed and direction.
     let mut w = LineChart::new(
         "Wind speed",
@@ -335,7 +265,7 @@ fn rig_section(
     w.lines.push(line(
         "mean wind",
         "#2b6cb0",
-        points(s, series::SeriesPoint::wind_mean_mps),
+        points(s, crate::model::series::SeriesPoint::wind_mean_mps),
     ));
     w.marks = event_marks(r);
     page.figure(&w.to_svg(), &format!("Wind speed: the anemometer's highest sample and mean, and the gust the guard's figures use (its peak estimate over its window). {bucket}"));
@@ -375,11 +305,16 @@ fn rig_section(
         &t.to_svg(),
         &format!("Tilt of the rig from the vertical. {bucket}"),
     );
+}
+
+/// (d) Tip wind by direction at the closest approach to overturning.
+fn polar_chart(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>) {
+    let s = &r.series;
     // (d) Polar chart at the closest approach.
-    if let (Some(l), Some(a)) = (rig, r.overturning.as_ref()) {
-        let c =
-            approach_conditions(l, a, s.cover_at_closest).map_err(|e| core_err(&r.rig_file, &e))?;
-        let pts = tip_wind_by_direction(&l.rig, &c).map_err(|e| core_err(&r.rig_file, &e))?;
+    if let (Some(pts), Some(a)) = (
+        charts.and_then(|c| c.approach_tip_wind.clone()),
+        r.overturning.as_ref(),
+    ) {
         let chart = PolarChart {
             title: "Tip wind speed by direction at the closest approach".to_owned(),
             r_label: "tip wind (m/s)".to_owned(),
@@ -415,6 +350,10 @@ fn rig_section(
             ),
         );
     }
+}
+
+/// Time per stage, stage changes and sensor faults, as tables.
+fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
     page.h3("Time per stage");
     let rows: Vec<Vec<String>> = r
         .stage_time
@@ -466,21 +405,14 @@ fn rig_section(
     if r.faults_not_kept > 0 {
         page.note(&format!("… and {} more not kept.", r.faults_not_kept));
     }
-    Ok(())
 }
 
-fn core_err(file: &str, e: &standfast::Error) -> Error {
-    crate::rigfile::after_load_error(file, "the report cannot be drawn", e)
-}
-
-/// The replay report as a self-contained HTML page. `rigs` are the rig
-/// files replayed, in the report's order (thresholds and the polar chart
-/// come from them; a rig missing from the list gets no thresholds or polar
-/// chart).
-///
-/// # Errors
-/// [`Error::Input`] when the core refuses the closest approach's conditions.
-pub fn replay_html(rep: &ReplayReport, rigs: &[LoadedRig]) -> Result<String, Error> {
+/// The replay report as a self-contained HTML page. `charts` are the chart
+/// data of each rig, in the report's order
+/// ([`crate::model::charts::replay_charts`]; a rig without them gets no
+/// thresholds and no polar chart).
+#[must_use]
+pub fn replay_html(rep: &ReplayReport, charts: &[RigCharts]) -> String {
     let mut page = Page::new("Standfast replay report");
     page.cautions(CAUTIONS);
     page.h2("Summary");
@@ -511,110 +443,27 @@ pub fn replay_html(rep: &ReplayReport, rigs: &[LoadedRig]) -> Result<String, Err
         page.pre(&rep.first_issues.join("\n"));
     }
     for (i, r) in rep.rigs.iter().enumerate() {
-        rig_section(&mut page, rep, r, rigs.get(i))?;
+        rig_section(&mut page, rep, r, charts.get(i));
     }
     page.note("Standfast replay report; all charts are drawn from the replay above.");
     page.cautions(CAUTIONS);
-    Ok(page.finish())
-}
-
-/// The usual pier side for an hour angle: tube east for targets west of the
-/// meridian (hour angle ≥ 0), tube west for targets east of it (as the
-/// core's [`PierSide`] documents).
-fn usual_side(ha_deg: i32) -> PierSide {
-    if ha_deg >= 0 {
-        PierSide::TubeEast
-    } else {
-        PierSide::TubeWest
-    }
-}
-
-/// |Gravity torque| ÷ rated torque of each axis over hour angle (columns,
-/// −180° to 180°) and declination (rows, 90° down to −90°), every
-/// [`TORQUE_MAP_STEP_DEG`] degrees, level ground, calm, cover off, on the
-/// usual pier side. Without drive ratings the values are divided by the
-/// largest |gravity torque| of that axis on the map instead (the `bool` is
-/// false then). Poses the core refuses are `None`.
-#[must_use]
-pub fn torque_map(r: &LoadedRig) -> ([Vec<Vec<Option<f64>>>; 2], bool) {
-    let step = TORQUE_MAP_STEP_DEG;
-    let decs: Vec<i32> = (0..=180 / step).map(|k| 90 - k * step).collect();
-    let has = (-180 / step..=180 / step).map(|k| k * step);
-    let ha: Vec<i32> = has.collect();
-    let rated = r
-        .rig
-        .drives()
-        .map(|d| [d.primary.rated_nm, d.secondary.rated_nm]);
-    let mut maps: [Vec<Vec<Option<f64>>>; 2] = [Vec::new(), Vec::new()];
-    for &dec in &decs {
-        let mut rows: [Vec<Option<f64>>; 2] = [Vec::new(), Vec::new()];
-        for &h in &ha {
-            #[allow(clippy::cast_precision_loss)]
-            let pose = Pose::Equatorial {
-                hour_angle_rad: (h as f32).to_radians(),
-                declination_rad: (dec as f32).to_radians(),
-                pier_side: usual_side(h),
-            };
-            let mut c = Conditions::calm(pose);
-            c.air = r.air;
-            let loads = r.rig.axis_loads(&c, 0.0).ok();
-            for (axis, row) in rows.iter_mut().enumerate() {
-                let g = loads.map(|l| {
-                    if axis == 0 {
-                        l.primary.gravity_nm
-                    } else {
-                        l.secondary.gravity_nm
-                    }
-                });
-                let v = match (g, rated) {
-                    (Some(g), Some(rt)) => rt.get(axis).map(|rt| f64::from(g.abs() / rt)),
-                    (Some(g), None) => Some(f64::from(g.abs())),
-                    (None, _) => None,
-                };
-                row.push(v);
-            }
-        }
-        for (m, row) in maps.iter_mut().zip(rows) {
-            m.push(row);
-        }
-    }
-    if rated.is_none() {
-        for m in &mut maps {
-            let top = m.iter().flatten().flatten().fold(0.0_f64, |a, b| a.max(*b));
-            if top > 0.0 {
-                for v in m.iter_mut().flatten().flatten() {
-                    *v /= top;
-                }
-            }
-        }
-    }
-    (maps, rated.is_some())
+    page.finish()
 }
 
 /// The assessment report as a self-contained HTML page: tip wind by
 /// direction in the home pose and in the worst pose of the sky scan (cover
 /// off, level), the axis-torque maps, the text sections and the cautions.
 ///
+/// `charts` are the assessment's chart data
+/// ([`crate::model::charts::assess_charts`]).
+///
 /// # Errors
-/// [`Error::Input`] when the core refuses a case.
-pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
-    let e = |x: standfast::Error| core_err(&rep.file, &x);
+/// [`Error::Io`] when the text of the assessment cannot be formatted.
+pub fn assess_html(rep: &AssessReport, charts: &AssessCharts) -> Result<String, Error> {
     let mut page = Page::new(&format!("Standfast assessment of {}", rep.file));
     page.cautions(&rep.cautions);
     page.h2("Tip wind speed by direction");
-    let home = r.rig.mount().home_pose();
-    let mut c = Conditions::calm(home);
-    c.air = r.air;
-    let home_pts = tip_wind_by_direction(&r.rig, &c).map_err(e)?;
-    let mut cw = Conditions::calm(rep.sky.tip.pose);
-    cw.air = r.air;
-    let worst_pts = tip_wind_by_direction(&r.rig, &cw).map_err(e)?;
     let k = &rep.condition;
-    let mut ck = Conditions::calm(k.pose_rad);
-    ck.air = r.air;
-    ck.tilt = Tilt::new(k.tilt_deg.to_radians(), k.downhill_deg.to_radians()).map_err(e)?;
-    ck.cover_fitted = k.cover_fitted;
-    let condition_pts = tip_wind_by_direction(&r.rig, &ck).map_err(e)?;
     let chart = PolarChart {
         title: "Tip wind speed by direction".to_owned(),
         r_label: "tip wind (m/s)".to_owned(),
@@ -622,17 +471,17 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
             PolarTrace {
                 name: "home pose".to_owned(),
                 colour: "#1f5fa8".to_owned(),
-                points: home_pts,
+                points: charts.home.clone(),
             },
             PolarTrace {
                 name: "worst pose of the sky".to_owned(),
                 colour: "#c05621".to_owned(),
-                points: worst_pts,
+                points: charts.worst.clone(),
             },
             PolarTrace {
                 name: "assessed condition".to_owned(),
                 colour: "#2f855a".to_owned(),
-                points: condition_pts,
+                points: charts.condition.clone(),
             },
         ],
         marker: rep.sky.tip.tip_wind_mps.map(|v| PolarMarker {
@@ -646,7 +495,7 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
         &chart.to_svg(),
         &format!(
             "Lowest wind speed that tips the rig, for a wind from each direction (every {POLAR_STEP_DEG}°), level ground, cover off: in the home pose ({}) and in the worst pose of the sky scan ({}); and in the assessed condition ({}, {}, cover {}). Open circles on the outer ring: no wind tips it from that direction.",
-            pose_words(&home),
+            pose_words(&charts.home_pose),
             pose_words(&rep.sky.tip.pose),
             k.pose,
             if k.tilt_deg > 0.0 {
@@ -658,7 +507,7 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
         ),
     );
     page.h2("Axis torque over the sky");
-    let (maps, rated) = torque_map(r);
+    let (maps, rated) = (charts.torque.clone(), charts.rated);
     let step = TORQUE_MAP_STEP_DEG;
     let x_labels: Vec<String> = (-180 / step..=180 / step)
         .map(|k| format!("{:+}", k * step / 15))
@@ -703,17 +552,8 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
     }
     page.h2("Assessment");
     let mut text = Vec::new();
-    crate::assess::write_text(rep, &mut text).map_err(|x| Error::io("<report>", x))?;
+    crate::render::assess::write_text(rep, &mut text).map_err(|x| Error::io("<report>", x))?;
     page.pre(&String::from_utf8_lossy(&text));
     page.cautions(&rep.cautions);
     Ok(page.finish())
-}
-
-/// Writes a report page to `path` atomically (temporary file in the same
-/// folder, then rename), creating its folder.
-///
-/// # Errors
-/// [`Error::Io`] when the file cannot be written.
-pub fn write_page(path: &Path, html: &str) -> Result<(), Error> {
-    crate::output::write_atomic(path, html.as_bytes()).map(|_| ())
 }

@@ -1,23 +1,28 @@
 //! A replay's findings for a person (text) or a program (JSON).
 //!
-//! The text ends with the cautions of [`crate::assess::CAUTIONS`]; the JSON
-//! carries them in a `cautions` field.
+//! Composed of parts: the findings, then with two or more rigs the
+//! side-by-side comparison ([`crate::render::whatif`]), then the cautions of
+//! [`crate::cautions::CAUTIONS`]. The JSON carries the report's fields, a
+//! `comparison` field with two or more rigs, and a `cautions` field.
 
 use std::io::Write;
 
 use serde::Serialize;
 use standfast::mount::Pose;
 
-use crate::assess::CAUTIONS;
-use crate::error::Error;
-use crate::replay::{Approach, ReplayReport};
+use crate::cautions::CAUTIONS;
+use crate::input::error::Error;
+use crate::model::assess::pose_words;
+use crate::model::replay::{Approach, ReplayReport};
+use crate::model::whatif::{compare, Comparison};
+use crate::render::whatif::comparison_text;
 
 fn stdout_err(e: std::io::Error) -> Error {
     Error::io("<standard output>", e)
 }
 
 fn pose_text(p: &Pose) -> String {
-    crate::report::pose_words(p)
+    pose_words(p)
 }
 
 fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
@@ -42,9 +47,32 @@ fn approach_text(label: &str, a: Option<&Approach>) -> String {
     )
 }
 
-/// The summary as text.
+/// The summary as text: the findings, the comparison when the replay has
+/// two or more rigs, and the cautions.
 #[must_use]
 pub fn text(rep: &ReplayReport) -> String {
+    let mut s = findings_text(rep);
+    if rep.rigs.len() >= 2 {
+        s.push_str(&comparison_text(&compare(rep)));
+    }
+    s.push_str(&cautions_text());
+    s
+}
+
+/// The cautions as the text summary ends with them.
+#[must_use]
+pub fn cautions_text() -> String {
+    let mut s = String::from("\nCautions:\n");
+    for c in CAUTIONS {
+        s.push_str(&format!("  - {c}\n"));
+    }
+    s
+}
+
+/// What the replay found, as text: records, log issues and each rig's
+/// closest approaches, stage times, stage changes and faults.
+#[must_use]
+pub fn findings_text(rep: &ReplayReport) -> String {
     let mut s = String::new();
     s.push_str(&format!(
         "Replayed {} merged records ({} log rows) from {} to {} ({:.0} s).\n",
@@ -116,10 +144,6 @@ pub fn text(rep: &ReplayReport) -> String {
             s.push_str(&format!("  ... and {} more\n", r.faults_not_kept));
         }
     }
-    s.push_str("\nCautions:\n");
-    for c in CAUTIONS {
-        s.push_str(&format!("  - {c}\n"));
-    }
     s
 }
 
@@ -127,17 +151,22 @@ pub fn text(rep: &ReplayReport) -> String {
 struct JsonOut<'a> {
     #[serde(flatten)]
     report: &'a ReplayReport,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    comparison: Option<&'a Comparison>,
     cautions: &'a [&'a str],
 }
 
-/// The summary as pretty-printed JSON, with the cautions.
+/// The summary as pretty-printed JSON: the report, the comparison when the
+/// replay has two or more rigs, and the cautions.
 ///
 /// # Errors
 /// Never in practice; a serialisation failure is reported as I/O on
 /// standard output.
 pub fn json(rep: &ReplayReport) -> Result<String, Error> {
+    let cmp = (rep.rigs.len() >= 2).then(|| compare(rep));
     serde_json::to_string_pretty(&JsonOut {
         report: rep,
+        comparison: cmp.as_ref(),
         cautions: CAUTIONS,
     })
     .map_err(|e| stdout_err(std::io::Error::other(e)))

@@ -230,6 +230,24 @@ pub struct LineChart {
     pub height: f64,
 }
 
+/// The geometry of a line chart's plot: size and margins (px), data
+/// ranges, and the scales from data to pixels.
+#[derive(Clone, Copy, Debug)]
+struct Frame {
+    w: f64,
+    h: f64,
+    ml: f64,
+    mr: f64,
+    mt: f64,
+    mb: f64,
+    x0: f64,
+    x1: f64,
+    y0: f64,
+    y1: f64,
+    xs: Scale,
+    ys: Scale,
+}
+
 impl LineChart {
     /// An empty chart 900 × 260 px.
     #[must_use]
@@ -298,6 +316,20 @@ impl LineChart {
             p0: h - mb,
             p1: mt,
         };
+        let f = Frame {
+            w,
+            h,
+            ml,
+            mr,
+            mt,
+            mb,
+            x0,
+            x1,
+            y0,
+            y1,
+            xs,
+            ys,
+        };
         let mut s = String::new();
         let _ = write!(
             s,
@@ -323,12 +355,38 @@ impl LineChart {
             n(w - ml - mr),
             n(h - mt - mb)
         );
+        self.axes_svg(&mut s, &f);
+        self.marks_svg(&mut s, &f);
+        self.hlines_svg(&mut s, &f);
+        self.lines_svg(&mut s, &f);
+        self.legend_svg(&mut s, &f);
+        s.push_str("</svg>");
+        s
+    }
+
+    /// The y ticks and grid, the x ticks, the axes and their labels.
+    fn axes_svg(&self, s: &mut String, f: &Frame) {
+        let Frame {
+            w,
+            h,
+            ml,
+            mr,
+            mt,
+            mb,
+            x0,
+            x1,
+            y0,
+            y1,
+            xs,
+            ys,
+            ..
+        } = *f;
         // Y ticks and grid.
         let y_step = self.y_step.unwrap_or_else(|| nice_step(y1 - y0, 5));
         for t in ticks_with_step(y0, y1, y_step) {
             let py = ys.at(t);
             let _ = write!(
-                s,
+                *s,
                 r#"<line class="grid" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="end">{}</text>"#,
                 n(ml),
                 n(py),
@@ -348,7 +406,7 @@ impl LineChart {
         for t in ticks_with_step(x0, x1, x_step) {
             let px = xs.at(t);
             let _ = write!(
-                s,
+                *s,
                 r#"<line class="tick" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
                 n(px),
                 n(h - mb),
@@ -361,7 +419,7 @@ impl LineChart {
         }
         // Axes and their labels.
         let _ = write!(
-            s,
+            *s,
             r#"<line class="axis" x1="{}" y1="{}" x2="{}" y2="{}"/><line class="axis" x1="{}" y1="{}" x2="{}" y2="{}"/>"#,
             n(ml),
             n(h - mb),
@@ -373,19 +431,34 @@ impl LineChart {
             n(h - mb)
         );
         let _ = write!(
-            s,
+            *s,
             r#"<text class="axis-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
             n((ml + w - mr) / 2.0),
             n(h - 8.0),
             esc(&self.x_label)
         );
         let _ = write!(
-            s,
+            *s,
             r#"<text class="axis-label" x="14" y="{}" text-anchor="middle" transform="rotate(-90 14 {})">{}</text>"#,
             n((mt + h - mb) / 2.0),
             n((mt + h - mb) / 2.0),
             esc(&self.y_label)
         );
+    }
+
+    /// The event marks with their labels.
+    fn marks_svg(&self, s: &mut String, f: &Frame) {
+        let Frame {
+            w,
+            h,
+            mr,
+            mt,
+            mb,
+            x0,
+            x1,
+            xs,
+            ..
+        } = *f;
         // Event marks; labels go on the first of a few rows where they do
         // not overlap the previous label (about 5.5 px a character at 10 px),
         // else only the line (its title holds the label).
@@ -397,7 +470,7 @@ impl LineChart {
             }
             let px = xs.at(m.x);
             let _ = write!(
-                s,
+                *s,
                 r#"<line class="event-mark" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}"><title>{}</title></line>"#,
                 n(px),
                 n(mt),
@@ -424,7 +497,7 @@ impl LineChart {
                 #[allow(clippy::cast_precision_loss)]
                 let dy = row as f64 * 11.0;
                 let _ = write!(
-                    s,
+                    *s,
                     r#"<text class="mark-label" x="{}" y="{}" fill="{}"{}>{}</text>"#,
                     n(if right_side { b } else { a }),
                     n(mt + 10.0 + dy),
@@ -438,6 +511,19 @@ impl LineChart {
                 );
             }
         }
+    }
+
+    /// The threshold lines.
+    fn hlines_svg(&self, s: &mut String, f: &Frame) {
+        let Frame {
+            w,
+            ml,
+            mr,
+            y0,
+            y1,
+            ys,
+            ..
+        } = *f;
         // Threshold lines.
         for t in &self.hlines {
             if t.value < y0 || t.value > y1 {
@@ -445,7 +531,7 @@ impl LineChart {
             }
             let py = ys.at(t.value);
             let _ = write!(
-                s,
+                *s,
                 r#"<line class="threshold" data-value="{}" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}"/><text class="threshold-label" x="{}" y="{}" fill="{}">{}</text>"#,
                 t.value,
                 n(ml),
@@ -459,12 +545,17 @@ impl LineChart {
                 esc(&t.label)
             );
         }
+    }
+
+    /// The data lines (paths, or dots).
+    fn lines_svg(&self, s: &mut String, f: &Frame) {
+        let Frame { y0, y1, xs, ys, .. } = *f;
         // Lines.
         for l in &self.lines {
             let clamp = |v: f64| ys.at(v.clamp(y0, y1));
             if l.dots {
                 let _ = write!(
-                    s,
+                    *s,
                     r#"<g class="series dots" fill="{}"><title>{}</title>"#,
                     esc(&l.colour),
                     esc(&l.name)
@@ -472,7 +563,7 @@ impl LineChart {
                 for &(x, y) in &l.points {
                     if let Some(y) = y.filter(|v| v.is_finite()) {
                         let _ = write!(
-                            s,
+                            *s,
                             r#"<circle cx="{}" cy="{}" r="1.6"/>"#,
                             n(xs.at(x)),
                             n(clamp(y))
@@ -500,7 +591,7 @@ impl LineChart {
                 }
             }
             let _ = write!(
-                s,
+                *s,
                 r#"<path class="series" d="{}" stroke="{}" fill="none"{}><title>{}</title></path>"#,
                 d.trim_end(),
                 esc(&l.colour),
@@ -512,12 +603,17 @@ impl LineChart {
                 esc(&l.name)
             );
         }
+    }
+
+    /// The legend, in the title row.
+    fn legend_svg(&self, s: &mut String, f: &Frame) {
+        let Frame { ml, .. } = *f;
         // Legend, in the title row.
         for (i, l) in self.lines.iter().enumerate() {
             #[allow(clippy::cast_precision_loss)]
             let lx = ml + 330.0 + i as f64 * 150.0;
             let _ = write!(
-                s,
+                *s,
                 r#"<rect class="legend-key" x="{}" y="12" width="14" height="4" fill="{}"/><text class="legend" x="{}" y="19">{}</text>"#,
                 n(lx),
                 esc(&l.colour),
@@ -525,8 +621,6 @@ impl LineChart {
                 esc(&l.name)
             );
         }
-        s.push_str("</svg>");
-        s
     }
 }
 

@@ -3,11 +3,11 @@
 
 use std::path::Path;
 
-use standfast_sim::demo_data::{
+use standfast_sim::commands::demo_data::{
     turbulence_intensity, wind_series, write_accel_log, write_bench_log, write_demo_logs,
     write_mount_log, write_wind_log, NightPlan, TerrainCategory, WindSite,
 };
-use standfast_sim::log::{Channel, ErrorPolicy, IssueKind, LogProfile, Merger, PierSide};
+use standfast_sim::input::log::{Channel, ErrorPolicy, IssueKind, LogProfile, Merger, PierSide};
 
 /// Per 10-minute window of 1 Hz speeds: mean, standard deviation, and the
 /// highest 3-s running mean (3 samples), computed here independently of the
@@ -214,7 +214,7 @@ fn mount_flips_at_the_meridian_then_parks_and_covers() {
     std::fs::write(&p, prof).unwrap();
     let profile = LogProfile::load(Path::new(&p)).unwrap();
     let mut m = Merger::open(&profile, ErrorPolicy::Stop).unwrap();
-    let mut prev: Option<standfast_sim::log::SampleRecord> = None;
+    let mut prev: Option<standfast_sim::input::log::SampleRecord> = None;
     let mut flips = Vec::new();
     let mut tracked = (0.0, 0.0); // (degrees of hour angle, hours)
     let mut cover_at = None;

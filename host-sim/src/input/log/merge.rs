@@ -2,12 +2,12 @@
 
 use std::io::Read;
 
-use super::issues::{ErrorPolicy, IssueLog};
 use super::profile::LogProfile;
 use super::record::{Channel, ChannelSet, SampleRecord, N_CHANNELS};
 use super::source::{CsvSource, Row};
 use super::time::Timestamp;
-use crate::error::Error;
+use crate::input::error::Error;
+use crate::input::issues::{ErrorPolicy, IssueLog};
 
 /// Merges the files of a [`LogProfile`] into one time-ordered stream of
 /// [`SampleRecord`]s.

@@ -12,18 +12,17 @@
 //! * Out-of-order and duplicate time stamps, gaps and malformed rows are
 //!   reported with file and line as [`Issue`]s and counted in an
 //!   [`IssueLog`]; with [`ErrorPolicy::Stop`] the first bad row ends the
-//!   read with [`crate::Error::Log`], with [`ErrorPolicy::Skip`] the row is
+//!   read with [`crate::input::error::Error::Log`], with [`ErrorPolicy::Skip`] the row is
 //!   left out and counted. Gaps are counted and reported under both
 //!   policies but never stop the read: the rows around a gap are valid.
 
-mod issues;
 mod merge;
 mod profile;
 mod record;
 mod source;
 pub mod time;
 
-pub use issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
+pub use crate::input::issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
 pub use merge::Merger;
 pub use profile::{
     AxisSource, ColumnProfile, ColumnSpec, ColumnsSpec, FileProfile, FileSpec, LogProfile, LogSpec,

@@ -9,12 +9,12 @@ use std::path::{Path, PathBuf};
 use serde::Deserialize;
 use toml::Spanned;
 
-use super::issues::ErrorPolicy;
 use super::record::{Channel, ChannelKind};
 use super::time::{parse_offset, TimeFormat};
-use crate::error::Error;
-use crate::located::{Checker, InputError, Located, Location, SourceText};
-use crate::units::{Dim, Duration, Unit};
+use crate::input::error::Error;
+use crate::input::issues::ErrorPolicy;
+use crate::input::located::{Checker, InputError, Located, Location, SourceText};
+use crate::input::units::{Dim, Duration, Unit};
 
 /// Gap length used when the profile gives none, seconds.
 pub const DEFAULT_GAP_S: f64 = 10.0;

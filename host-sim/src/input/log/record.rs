@@ -3,7 +3,7 @@
 use core::fmt;
 
 use super::time::Timestamp;
-use crate::units::Dim;
+use crate::input::units::Dim;
 
 /// Number of [`Channel`]s.
 pub const N_CHANNELS: usize = 13;

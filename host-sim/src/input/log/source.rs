@@ -15,12 +15,12 @@
 use std::fs::File;
 use std::io::{self, Read};
 
-use super::issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
 use super::profile::{AxisSource, ColumnProfile, FileProfile};
 use super::record::{Channel, ChannelKind, ChannelSet, N_CHANNELS};
 use super::time::{TimeFormat, Timestamp};
-use crate::error::Error;
-use crate::located::{bounded, bounded_bytes, bounded_to, InputError, Location};
+use crate::input::error::Error;
+use crate::input::issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
+use crate::input::located::{bounded, bounded_bytes, bounded_to, InputError, Location};
 
 /// One usable row of one file: the time and the channels it carries, in SI.
 #[derive(Clone, Debug, PartialEq)]
@@ -452,7 +452,7 @@ impl CsvSource {
                     .to_owned(),
             }));
         }
-        let find = |want: &crate::located::Located<String>| -> Result<usize, Error> {
+        let find = |want: &crate::input::located::Located<String>| -> Result<usize, Error> {
             names.iter().position(|n| n == &want.value).ok_or_else(|| {
                 Error::Input(InputError {
                     at: Some(want.at.clone()),

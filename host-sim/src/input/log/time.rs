@@ -31,7 +31,7 @@ fn in_range(t: Timestamp, field: &[u8]) -> Result<Timestamp, String> {
     } else {
         Err(format!(
             "time \"{}\" is outside the accepted range {ACCEPTED_RANGE}",
-            crate::located::bounded_bytes(field)
+            crate::input::bounded::bounded_bytes(field)
         ))
     }
 }
@@ -232,12 +232,12 @@ fn parse_decimal_scaled(field: &str, shift: u32) -> Result<i64, String> {
         if field.trim().parse::<f64>().is_ok_and(f64::is_finite) {
             return format!(
                 "time \"{}\" is outside the accepted range {ACCEPTED_RANGE}",
-                crate::located::bounded(field.trim())
+                crate::input::bounded::bounded(field.trim())
             );
         }
         format!(
             "time \"{}\" is not a decimal number (seconds or milliseconds since 1970-01-01T00:00:00Z)",
-            crate::located::bounded(field.trim())
+            crate::input::bounded::bounded(field.trim())
         )
     })
 }
@@ -372,7 +372,7 @@ pub fn parse_iso8601(field: &str, default_offset_s: i32) -> Result<Timestamp, St
     let bad = |why: &str| {
         format!(
             "\"{}\" is not an ISO 8601 date and time ({why})",
-            crate::located::bounded(s)
+            crate::input::bounded::bounded(s)
         )
     };
     let b = s.as_bytes();
@@ -454,7 +454,7 @@ pub fn parse_iso8601(field: &str, default_offset_s: i32) -> Result<Timestamp, St
     if !(1969..=2200).contains(&year) {
         return Err(format!(
             "time \"{}\" is outside the accepted range {ACCEPTED_RANGE}",
-            crate::located::bounded(s)
+            crate::input::bounded::bounded(s)
         ));
     }
     let days = days_from_civil(i64::from(year), month, day);
@@ -478,13 +478,13 @@ pub fn parse_offset(s: &str) -> Result<i32, String> {
         .map_err(|_| {
             format!(
                 "\"{}\" is not a zone offset (write Z, +hh:mm or -hh:mm; accepted range -23:59 to +23:59)",
-                crate::located::bounded(t)
+                crate::input::bounded::bounded(t)
             )
         })?;
     i32::try_from(-ts.unix_ns() / NS_PER_S).map_err(|_| {
         format!(
             "\"{}\" is outside the accepted range -23:59 to +23:59",
-            crate::located::bounded(t)
+            crate::input::bounded::bounded(t)
         )
     })
 }
