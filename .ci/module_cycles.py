@@ -296,6 +296,8 @@ def check(crate: str, quiet: bool = False) -> int:
     for parent in sorted(edges):
         for comp in cycles(edges[parent]):
             found += 1
+            if quiet:
+                continue
             name = "::".join(("crate",) + parent)
             print(f"{crate}: cycle among the children of {name}: {', '.join(comp)}")
             members = set(comp)
