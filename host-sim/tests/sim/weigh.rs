@@ -169,7 +169,7 @@ fn weigh_refuses_bad_readings_and_never_writes_over_its_inputs() {
         .output()
         .unwrap();
     // An output over an input is a command-line error, refused before
-    // anything is read (exit 2, host-sim/src/output.rs).
+    // anything is read (exit 2, host-sim/src/commands/output.rs).
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("is the same file as the rig file"));
     assert_eq!(std::fs::read(&copy).unwrap(), before);
