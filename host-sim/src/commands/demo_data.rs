@@ -30,43 +30,32 @@ use crate::commands::output::OwnedFolder;
 use crate::input::error::Error;
 use crate::input::log::time::{write_iso8601, Timestamp, NS_PER_S};
 
-/// Terrain categories of EN 1991-1-4 Table 4.1.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum TerrainCategory {
-    /// 0: sea or coastal area exposed to the open sea.
-    Sea,
-    /// I: lakes or flat, horizontal area with negligible vegetation.
-    I,
-    /// II: low vegetation such as grass and isolated obstacles.
-    II,
-    /// III: regular cover of vegetation or buildings, isolated obstacles.
-    III,
-    /// IV: at least 15 % of the surface covered with buildings over 15 m.
-    IV,
+/// Terrain categories of EN 1991-1-4 Table 4.1: the core's type (one
+/// `TerrainCategory` in the project); the demo's turbulence model reads its
+/// table in f64 below.
+pub use standfast::sense::TerrainCategory;
+
+/// Roughness length z0 of `terrain`, m (EN 1991-1-4 Table 4.1), in f64 for
+/// the demo's turbulence model (the core keeps the same table in f32).
+#[must_use]
+pub fn z0_m(terrain: TerrainCategory) -> f64 {
+    match terrain {
+        TerrainCategory::Cat0Sea => 0.003,
+        TerrainCategory::CatIFlat => 0.01,
+        TerrainCategory::CatIIOpen => 0.05,
+        TerrainCategory::CatIIISuburban => 0.3,
+        TerrainCategory::CatIVUrban => 1.0,
+    }
 }
 
-impl TerrainCategory {
-    /// Roughness length z0, m (EN 1991-1-4 Table 4.1).
-    #[must_use]
-    pub fn z0_m(self) -> f64 {
-        match self {
-            TerrainCategory::Sea => 0.003,
-            TerrainCategory::I => 0.01,
-            TerrainCategory::II => 0.05,
-            TerrainCategory::III => 0.3,
-            TerrainCategory::IV => 1.0,
-        }
-    }
-
-    /// Minimum height z_min, m (EN 1991-1-4 Table 4.1).
-    #[must_use]
-    pub fn z_min_m(self) -> f64 {
-        match self {
-            TerrainCategory::Sea | TerrainCategory::I => 1.0,
-            TerrainCategory::II => 2.0,
-            TerrainCategory::III => 5.0,
-            TerrainCategory::IV => 10.0,
-        }
+/// Minimum height z_min of `terrain`, m (EN 1991-1-4 Table 4.1), in f64.
+#[must_use]
+pub fn z_min_m(terrain: TerrainCategory) -> f64 {
+    match terrain {
+        TerrainCategory::Cat0Sea | TerrainCategory::CatIFlat => 1.0,
+        TerrainCategory::CatIIOpen => 2.0,
+        TerrainCategory::CatIIISuburban => 5.0,
+        TerrainCategory::CatIVUrban => 10.0,
     }
 }
 
@@ -74,15 +63,15 @@ impl TerrainCategory {
 /// EN 1991-1-4 eq. (4.7) with `k_I = c_0 = 1`: `1 / ln(max(z, z_min) / z0)`.
 #[must_use]
 pub fn turbulence_intensity(terrain: TerrainCategory, z_m: f64) -> f64 {
-    1.0 / (z_m.max(terrain.z_min_m()) / terrain.z0_m()).ln()
+    1.0 / (z_m.max(z_min_m(terrain)) / z0_m(terrain)).ln()
 }
 
 /// Integral length scale of along-wind turbulence at `z_m`, m, EN 1991-1-4
 /// Annex B eq. (B.1) (from memory): `300 (z/200)^α`, `α = 0.67 + 0.05 ln z0`.
 #[must_use]
 pub fn integral_length_scale_m(terrain: TerrainCategory, z_m: f64) -> f64 {
-    let alpha = 0.67 + 0.05 * terrain.z0_m().ln();
-    300.0 * (z_m.max(terrain.z_min_m()) / 200.0).powf(alpha)
+    let alpha = 0.67 + 0.05 * z0_m(terrain).ln();
+    300.0 * (z_m.max(z_min_m(terrain)) / 200.0).powf(alpha)
 }
 
 /// Standard normal variates by the Box–Muller transform over a seeded
@@ -162,9 +151,10 @@ impl WindSite {
     }
 }
 
-/// One wind sample.
+/// One point of the invented wind series (not the guard's
+/// [`standfast::guard::WindSample`], the one wind sample type the host uses).
 #[derive(Clone, Copy, Debug, PartialEq)]
-pub struct WindSample {
+pub struct WindPoint {
     /// Seconds since the start.
     pub t_s: f64,
     /// Horizontal speed, m/s.
@@ -183,7 +173,7 @@ pub fn wind_series(
     dt_s: f64,
     n: usize,
     seed: u64,
-) -> Vec<WindSample> {
+) -> Vec<WindPoint> {
     let mut normal = Normal::new(seed, 1);
     let iv = site.intensity();
     let l_m = site.length_scale_m();
@@ -210,7 +200,7 @@ pub fn wind_series(
         let along = mean_u + u.x;
         let speed = along.hypot(v.x);
         let dir = (from + v.x.atan2(along.max(0.05)).to_degrees()).rem_euclid(360.0);
-        out.push(WindSample {
+        out.push(WindPoint {
             t_s: t,
             speed_mps: speed,
             from_deg: dir,
@@ -281,7 +271,7 @@ impl NightPlan {
             duration_s: 9.0 * 3600.0,
             accel_hz: 50.0,
             site: WindSite {
-                terrain: TerrainCategory::II,
+                terrain: TerrainCategory::CatIIOpen,
                 height_m: 3.0,
             },
             wind_before: (3.0, 200.0),
@@ -325,7 +315,7 @@ impl NightPlan {
     /// The wind at 1 Hz over the whole night.
     #[must_use]
     #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
-    pub fn wind(&self) -> Vec<WindSample> {
+    pub fn wind(&self) -> Vec<WindPoint> {
         let n = self.duration_s.max(0.0) as usize + 1;
         wind_series(&self.site, |t| self.mean_wind(t), 1.0, n, self.seed)
     }
@@ -526,7 +516,7 @@ fn push_epoch_centis(buf: &mut Vec<u8>, t: Timestamp) {
 pub fn write_wind_log(
     w: &mut impl Write,
     plan: &NightPlan,
-    wind: &[WindSample],
+    wind: &[WindPoint],
 ) -> std::io::Result<()> {
     let mut normal = Normal::new(plan.seed, 2);
     let mut buf = Vec::with_capacity(64);
@@ -570,7 +560,7 @@ pub fn write_wind_log(
 
 /// Wind speed at `t_s` linearly interpolated in a 1 Hz series.
 #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
-fn wind_at(wind: &[WindSample], t_s: f64) -> (f64, f64) {
+fn wind_at(wind: &[WindPoint], t_s: f64) -> (f64, f64) {
     let i = t_s.max(0.0).floor() as usize;
     match (wind.get(i), wind.get(i + 1)) {
         (Some(a), Some(b)) => {
@@ -606,7 +596,7 @@ fn specific_force_g(tx_deg: f64, ty_deg: f64) -> [f64; 3] {
 pub fn write_accel_log(
     w: &mut impl Write,
     plan: &NightPlan,
-    wind: &[WindSample],
+    wind: &[WindPoint],
 ) -> std::io::Result<()> {
     let mut normal = Normal::new(plan.seed, 3);
     let mut rock = GaussMarkov::default();
