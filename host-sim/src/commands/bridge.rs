@@ -337,57 +337,75 @@ pub struct Checked {
     pub ack: bool,
 }
 
+/// A sample's own time: `t_ms`, or `t_s` rounded to whole ms; none when it
+/// gives neither.
+fn sample_time(s: &Sample) -> Result<Option<Millis>, String> {
+    Ok(match (s.t_ms, s.t_s) {
+        (Some(_), Some(_)) => return Err("give t_ms or t_s, not both".into()),
+        (Some(ms), None) => Some(Millis(ms)),
+        (None, Some(sec)) => {
+            let sec = check("t_s", sec, 0.0, 1.8e16, "s")?;
+            let ms = (sec * 1000.0).round();
+            #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+            // 0 ≤ ms ≤ 1.8e19 < u64::MAX after the range check
+            Some(Millis(ms as u64))
+        }
+        (None, None) => None,
+    })
+}
+
+/// A sample's accelerometer reading in g (rig frame), from `accel_g` or the
+/// three `accel_*_g` fields.
+fn sample_accel(s: &Sample) -> Result<Option<[f32; 3]>, String> {
+    let flat = [s.accel_x_g, s.accel_y_g, s.accel_z_g];
+    Ok(match (s.accel_g, flat) {
+        (Some(_), [None, None, None]) | (None, [Some(_), Some(_), Some(_)]) => {
+            let a = s.accel_g.unwrap_or([
+                s.accel_x_g.unwrap_or(0.0),
+                s.accel_y_g.unwrap_or(0.0),
+                s.accel_z_g.unwrap_or(0.0),
+            ]);
+            let mut out = [0.0_f32; 3];
+            for (o, (v, n)) in out
+                .iter_mut()
+                .zip(a.iter().zip(["accel x", "accel y", "accel z"]))
+            {
+                *o = f32_of(check(n, *v, -16.0, 16.0, "g")?);
+            }
+            Some(out)
+        }
+        (None, [None, None, None]) => None,
+        (Some(_), _) => return Err("give accel_g or accel_x_g/_y_g/_z_g, not both".into()),
+        (None, _) => return Err("accel_x_g, accel_y_g and accel_z_g go together".into()),
+    })
+}
+
+/// A sample's wind: speed (m/s, 0 to the rig's limit) and optional
+/// direction it blows from (degrees → radians).
+fn sample_wind(s: &Sample, max_wind_mps: f64) -> Result<Option<WindSample>, String> {
+    Ok(match (s.wind_mps, s.wind_from_deg) {
+        (Some(v), d) => Some(WindSample {
+            speed_mps: f32_of(check("wind_mps", v, 0.0, max_wind_mps, "m/s")?),
+            from_rad: match d {
+                Some(d) => Some(f32_of(
+                    check("wind_from_deg", d, 0.0, 360.0, "degrees")?.to_radians(),
+                )),
+                None => None,
+            },
+        }),
+        (None, Some(_)) => return Err("wind_from_deg needs wind_mps on the same line".into()),
+        (None, None) => None,
+    })
+}
+
 impl Held {
     /// Range checks and the conversion to guard inputs; `self` is updated
     /// only when the whole line is accepted.
     fn check(&mut self, s: &Sample, max_wind_mps: f64) -> Result<Checked, String> {
         let mut next = *self;
-        let t = match (s.t_ms, s.t_s) {
-            (Some(_), Some(_)) => return Err("give t_ms or t_s, not both".into()),
-            (Some(ms), None) => Some(Millis(ms)),
-            (None, Some(sec)) => {
-                let sec = check("t_s", sec, 0.0, 1.8e16, "s")?;
-                let ms = (sec * 1000.0).round();
-                #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
-                // 0 ≤ ms ≤ 1.8e19 < u64::MAX after the range check
-                Some(Millis(ms as u64))
-            }
-            (None, None) => None,
-        };
-        let flat = [s.accel_x_g, s.accel_y_g, s.accel_z_g];
-        let accel = match (s.accel_g, flat) {
-            (Some(_), [None, None, None]) | (None, [Some(_), Some(_), Some(_)]) => {
-                let a = s.accel_g.unwrap_or([
-                    s.accel_x_g.unwrap_or(0.0),
-                    s.accel_y_g.unwrap_or(0.0),
-                    s.accel_z_g.unwrap_or(0.0),
-                ]);
-                let mut out = [0.0_f32; 3];
-                for (o, (v, n)) in out
-                    .iter_mut()
-                    .zip(a.iter().zip(["accel x", "accel y", "accel z"]))
-                {
-                    *o = f32_of(check(n, *v, -16.0, 16.0, "g")?);
-                }
-                Some(out)
-            }
-            (None, [None, None, None]) => None,
-            (Some(_), _) => return Err("give accel_g or accel_x_g/_y_g/_z_g, not both".into()),
-            (None, _) => return Err("accel_x_g, accel_y_g and accel_z_g go together".into()),
-        };
-        let wind = match (s.wind_mps, s.wind_from_deg) {
-            (Some(v), d) => Some(WindSample {
-                speed_mps: f32_of(check("wind_mps", v, 0.0, max_wind_mps, "m/s")?),
-                from_rad: match d {
-                    Some(d) => Some(f32_of(
-                        check("wind_from_deg", d, 0.0, 360.0, "degrees")?.to_radians(),
-                    )),
-                    None => None,
-                },
-            }),
-            (None, Some(_)) => return Err("wind_from_deg needs wind_mps on the same line".into()),
-            (None, None) => None,
-        };
+        let t = sample_time(s)?;
+        let accel = sample_accel(s)?;
+        let wind = sample_wind(s, max_wind_mps)?;
         let eq_given = s.ha_deg.is_some() || s.dec_deg.is_some() || s.pier_side.is_some();
         let axes_given = s.primary_axis_deg.is_some() || s.secondary_axis_deg.is_some();
         if eq_given && axes_given {

@@ -562,159 +562,175 @@ fn attachment_hardware(
     file: &FileSpec,
     shaft: Option<&ShaftHardware>,
 ) -> Result<AttachmentHardware, InputError> {
-    let ck = src.checker();
     let mut out = AttachmentHardware::default();
     if let Some(sj) = &file.shaft_joint {
-        let g = sj.get_ref();
-        let (Some(hw), Some(thread)) = (shaft, shaft.and_then(|h| h.thread.as_ref())) else {
-            return Err(ck.error(
-                "shaft_joint",
-                sj.span(),
-                "the shaft joint needs [shaft] with `thread` and `material` (or \
-                 `yield_strength_mpa`): the shaft is the screw",
-            ));
-        };
-        let Some((internal, internal_label)) = material_by_name(
-            src,
-            "shaft_joint.housing",
-            g.housing.as_ref(),
-            g.housing_yield_strength_mpa.as_ref(),
-        )?
-        else {
-            return Err(ck.error(
-                "shaft_joint",
-                sj.span(),
-                "give the housing's material: `housing` (a listed name) or \
-                 `housing_yield_strength_mpa`",
-            ));
-        };
-        out.shaft_joint = Some(ThreadJoint {
-            thread: *thread,
-            thread_name: hw.thread_name.clone().unwrap_or_default(),
-            screw: hw.material,
-            screw_label: hw.material_label.clone(),
-            internal,
-            internal_label,
-            engagement_mm: engagement_mm(src, "shaft_joint.engagement", &g.engagement)?,
-        });
+        out.shaft_joint = Some(shaft_joint(src, sj, shaft)?);
     }
     for (i, j) in file.joint.iter().enumerate() {
-        let key = format!("joint[{i}]");
-        let g = j.get_ref();
-        let thread = thread_by_name(src, &format!("{key}.thread"), &g.thread)?;
-        let height_m = f(ck
-            .range(
-                &format!("{key}.height"),
-                &g.height,
-                Length::from_m(0.0),
-                Length::from_m(f64::from(standfast::rig::MAX_OFFSET_M)),
-                "m",
-            )?
-            .m());
-        let bad = |problem: String| ck.error(&key, j.span(), problem);
-        let pattern = match (&g.bolts, &g.bolt_circle, &g.positions) {
-            (Some(n), Some(d), None) => {
-                let count = usize::try_from(*n.get_ref())
-                    .ok()
-                    .filter(|c| (3..=standfast::hardware::bolt::MAX_SCREWS).contains(c))
-                    .ok_or_else(|| {
-                        ck.error(
-                            &format!("{key}.bolts"),
-                            n.span(),
-                            format!(
-                                "accepted: 3 to {} bolts on a circle (or give `positions`)",
-                                standfast::hardware::bolt::MAX_SCREWS
-                            ),
-                        )
-                    })?;
-                let diameter_mm = f(ck
-                    .range(
-                        &format!("{key}.bolt_circle"),
-                        d,
-                        Length::from_m(0.005),
-                        Length::from_m(2.0),
-                        "mm",
-                    )?
-                    .m())
-                    * 1000.0;
-                let phase = g.phase.as_ref().map_or(0.0, |p| f(p.get_ref().0));
-                standfast::hardware::BoltPattern::circle(count, diameter_mm / 2.0, phase)
-                    .map_err(|e| bad(e.to_string()))?
-            }
-            (None, None, Some(p)) => {
-                let pts: Vec<[f32; 2]> = p
-                    .get_ref()
-                    .iter()
-                    .map(|[x, y]| [f(x.m()) * 1000.0, f(y.m()) * 1000.0])
-                    .collect();
-                standfast::hardware::BoltPattern::new(&pts)
-                    .map_err(|e| ck.error(&format!("{key}.positions"), p.span(), e.to_string()))?
-            }
-            _ => {
-                return Err(bad(
-                    "give `bolts` and `bolt_circle` (a diameter), or `positions` = [[x, y], ...]"
-                        .into(),
-                ))
-            }
-        };
-        let (screw, screw_label) = match (&g.class, &g.material) {
-            (Some(c), None) => {
-                ck.one_of(&format!("{key}.class"), c, &["8.8"])?;
-                (
-                    Material::bolt_class_8_8(thread.nominal_mm),
-                    "property class 8.8 (ISO 898-1 minimum)".to_owned(),
-                )
-            }
-            (None, Some(_)) => {
-                material_by_name(src, &format!("{key}.material"), g.material.as_ref(), None)?
-                    .ok_or_else(|| bad("unknown material".into()))?
-            }
-            _ => {
-                return Err(bad(
-                    "give the screws' `class` (\"8.8\") or `material` (a listed name)".into(),
-                ))
-            }
-        };
-        let (internal, internal_label) =
-            match material_by_name(src, &format!("{key}.tapped"), g.tapped.as_ref(), None)? {
-                Some(m) => m,
-                None => (
-                    screw,
-                    format!("a nut of the screws' material ({screw_label})"),
-                ),
-            };
-        let pivot = match &g.heel {
-            Some(h) => standfast::hardware::bolt::PivotLine::Heel {
-                offset_mm: f(ck
-                    .range(
-                        &format!("{key}.heel"),
-                        h,
-                        Length::from_m(0.0),
-                        Length::from_m(2.0),
-                        "mm",
-                    )?
-                    .m())
-                    * 1000.0,
-            },
-            None => standfast::hardware::bolt::PivotLine::Centroid,
-        };
-        out.joints.push(BoltedJoint {
-            label: g.label.get_ref().clone(),
-            height_m,
-            pattern,
-            screws: ThreadJoint {
-                thread,
-                thread_name: g.thread.get_ref().trim().to_owned(),
-                screw,
-                screw_label,
-                internal,
-                internal_label,
-                engagement_mm: engagement_mm(src, &format!("{key}.engagement"), &g.engagement)?,
-            },
-            pivot,
-        });
+        out.joints.push(bolted_joint(src, i, j)?);
     }
     Ok(out)
+}
+
+/// Reads `[shaft_joint]`: the counterweight shaft screwed into its housing.
+fn shaft_joint(
+    src: &SourceText,
+    sj: &S<ShaftJointSec>,
+    shaft: Option<&ShaftHardware>,
+) -> Result<ThreadJoint, InputError> {
+    let ck = src.checker();
+    let g = sj.get_ref();
+    let (Some(hw), Some(thread)) = (shaft, shaft.and_then(|h| h.thread.as_ref())) else {
+        return Err(ck.error(
+            "shaft_joint",
+            sj.span(),
+            "the shaft joint needs [shaft] with `thread` and `material` (or \
+             `yield_strength_mpa`): the shaft is the screw",
+        ));
+    };
+    let Some((internal, internal_label)) = material_by_name(
+        src,
+        "shaft_joint.housing",
+        g.housing.as_ref(),
+        g.housing_yield_strength_mpa.as_ref(),
+    )?
+    else {
+        return Err(ck.error(
+            "shaft_joint",
+            sj.span(),
+            "give the housing's material: `housing` (a listed name) or \
+             `housing_yield_strength_mpa`",
+        ));
+    };
+    Ok(ThreadJoint {
+        thread: *thread,
+        thread_name: hw.thread_name.clone().unwrap_or_default(),
+        screw: hw.material,
+        screw_label: hw.material_label.clone(),
+        internal,
+        internal_label,
+        engagement_mm: engagement_mm(src, "shaft_joint.engagement", &g.engagement)?,
+    })
+}
+
+/// Reads `joint[i]`: a bolted joint's thread, pattern, screws, tapped part
+/// and pivot line.
+fn bolted_joint(src: &SourceText, i: usize, j: &S<JointSec>) -> Result<BoltedJoint, InputError> {
+    let ck = src.checker();
+    let key = format!("joint[{i}]");
+    let g = j.get_ref();
+    let thread = thread_by_name(src, &format!("{key}.thread"), &g.thread)?;
+    let height_m = f(ck
+        .range(
+            &format!("{key}.height"),
+            &g.height,
+            Length::from_m(0.0),
+            Length::from_m(f64::from(standfast::rig::MAX_OFFSET_M)),
+            "m",
+        )?
+        .m());
+    let bad = |problem: String| ck.error(&key, j.span(), problem);
+    let pattern = match (&g.bolts, &g.bolt_circle, &g.positions) {
+        (Some(n), Some(d), None) => {
+            let count = usize::try_from(*n.get_ref())
+                .ok()
+                .filter(|c| (3..=standfast::hardware::bolt::MAX_SCREWS).contains(c))
+                .ok_or_else(|| {
+                    ck.error(
+                        &format!("{key}.bolts"),
+                        n.span(),
+                        format!(
+                            "accepted: 3 to {} bolts on a circle (or give `positions`)",
+                            standfast::hardware::bolt::MAX_SCREWS
+                        ),
+                    )
+                })?;
+            let diameter_mm = f(ck
+                .range(
+                    &format!("{key}.bolt_circle"),
+                    d,
+                    Length::from_m(0.005),
+                    Length::from_m(2.0),
+                    "mm",
+                )?
+                .m())
+                * 1000.0;
+            let phase = g.phase.as_ref().map_or(0.0, |p| f(p.get_ref().0));
+            standfast::hardware::BoltPattern::circle(count, diameter_mm / 2.0, phase)
+                .map_err(|e| bad(e.to_string()))?
+        }
+        (None, None, Some(p)) => {
+            let pts: Vec<[f32; 2]> = p
+                .get_ref()
+                .iter()
+                .map(|[x, y]| [f(x.m()) * 1000.0, f(y.m()) * 1000.0])
+                .collect();
+            standfast::hardware::BoltPattern::new(&pts)
+                .map_err(|e| ck.error(&format!("{key}.positions"), p.span(), e.to_string()))?
+        }
+        _ => {
+            return Err(bad(
+                "give `bolts` and `bolt_circle` (a diameter), or `positions` = [[x, y], ...]"
+                    .into(),
+            ))
+        }
+    };
+    let (screw, screw_label) = match (&g.class, &g.material) {
+        (Some(c), None) => {
+            ck.one_of(&format!("{key}.class"), c, &["8.8"])?;
+            (
+                Material::bolt_class_8_8(thread.nominal_mm),
+                "property class 8.8 (ISO 898-1 minimum)".to_owned(),
+            )
+        }
+        (None, Some(_)) => {
+            material_by_name(src, &format!("{key}.material"), g.material.as_ref(), None)?
+                .ok_or_else(|| bad("unknown material".into()))?
+        }
+        _ => {
+            return Err(bad(
+                "give the screws' `class` (\"8.8\") or `material` (a listed name)".into(),
+            ))
+        }
+    };
+    let (internal, internal_label) =
+        match material_by_name(src, &format!("{key}.tapped"), g.tapped.as_ref(), None)? {
+            Some(m) => m,
+            None => (
+                screw,
+                format!("a nut of the screws' material ({screw_label})"),
+            ),
+        };
+    let pivot = match &g.heel {
+        Some(h) => standfast::hardware::bolt::PivotLine::Heel {
+            offset_mm: f(ck
+                .range(
+                    &format!("{key}.heel"),
+                    h,
+                    Length::from_m(0.0),
+                    Length::from_m(2.0),
+                    "mm",
+                )?
+                .m())
+                * 1000.0,
+        },
+        None => standfast::hardware::bolt::PivotLine::Centroid,
+    };
+    Ok(BoltedJoint {
+        label: g.label.get_ref().clone(),
+        height_m,
+        pattern,
+        screws: ThreadJoint {
+            thread,
+            thread_name: g.thread.get_ref().trim().to_owned(),
+            screw,
+            screw_label,
+            internal,
+            internal_label,
+            engagement_mm: engagement_mm(src, &format!("{key}.engagement"), &g.engagement)?,
+        },
+        pivot,
+    })
 }
 
 /// The `[measured]` section: the whole rig weighed (see `standfast weigh`).
@@ -802,22 +818,7 @@ fn apply_measured(
         None => None,
     };
     let centre_uncertainty_m = match &g.cg_uncertainty {
-        Some(u) => {
-            for (i, c) in u.get_ref().iter().enumerate() {
-                if c.m().is_nan() || c.m() < 0.0 || c.m() > lim {
-                    return Err(ck.error(
-                        &format!("measured.cg_uncertainty[{i}]"),
-                        u.span(),
-                        format!(
-                            "{} m is outside the accepted range 0 to {} m",
-                            fmt_g(c.m()),
-                            fmt_g(lim)
-                        ),
-                    ));
-                }
-            }
-            Some(v3(u.get_ref()))
-        }
+        Some(u) => Some(measured_cg_uncertainty(&ck, u, lim)?),
         None => None,
     };
     let home = rig.mount().home_pose();
@@ -835,25 +836,11 @@ fn apply_measured(
             g.cover_fitted,
         )
         .map_err(|e| {
-            let problem = match (e.kind, e.field) {
-                (standfast::ErrorKind::Inconsistent, "measured.mass_kg") => format!(
-                    "the weighed {} kg is not more than the {} kg of the parts that move with the \
-                     mount (counterweights, shaft, bodies on the primary and secondary stages{}): \
-                     check the weighing or those masses",
-                    fmt_g(f64::from(mass_kg)),
-                    fmt_g(f64::from(e.min - 0.001)),
-                    if g.cover_fitted { ", cover" } else { "" }
-                ),
-                (standfast::ErrorKind::Inconsistent, _) => format!(
-                    "with this centre the ground-stage parts (legs, pier, head, ballast) would \
-                     have their centre of gravity {} m above the ground, outside the accepted \
-                     range 0 to {} m: check the weighing or the moving parts' masses and centres",
-                    fmt_g(f64::from(e.value)),
-                    fmt_g(lim)
-                ),
-                _ => e.to_string(),
-            };
-            ck.error("measured", sec.span(), problem)
+            ck.error(
+                "measured",
+                sec.span(),
+                measured_problem(&e, mass_kg, g.cover_fitted, lim),
+            )
         })?;
     let placed = out
         .place(home, standfast::Tilt::LEVEL, g.cover_fitted)
@@ -879,6 +866,51 @@ fn apply_measured(
             note: g.note.as_ref().map(|n| n.get_ref().clone()),
         },
     ))
+}
+
+/// `measured.cg_uncertainty`: each 0 to `lim` m.
+fn measured_cg_uncertainty(
+    ck: &Checker<'_>,
+    u: &S<[Length; 3]>,
+    lim: f64,
+) -> Result<[f32; 3], InputError> {
+    for (i, c) in u.get_ref().iter().enumerate() {
+        if c.m().is_nan() || c.m() < 0.0 || c.m() > lim {
+            return Err(ck.error(
+                &format!("measured.cg_uncertainty[{i}]"),
+                u.span(),
+                format!(
+                    "{} m is outside the accepted range 0 to {} m",
+                    fmt_g(c.m()),
+                    fmt_g(lim)
+                ),
+            ));
+        }
+    }
+    Ok(v3(u.get_ref()))
+}
+
+/// What is wrong when the core refuses a weighed centre, in the rig
+/// file's words.
+fn measured_problem(e: &standfast::Error, mass_kg: f32, cover_fitted: bool, lim: f64) -> String {
+    match (e.kind, e.field) {
+        (standfast::ErrorKind::Inconsistent, "measured.mass_kg") => format!(
+            "the weighed {} kg is not more than the {} kg of the parts that move with the \
+             mount (counterweights, shaft, bodies on the primary and secondary stages{}): \
+             check the weighing or those masses",
+            fmt_g(f64::from(mass_kg)),
+            fmt_g(f64::from(e.min - 0.001)),
+            if cover_fitted { ", cover" } else { "" }
+        ),
+        (standfast::ErrorKind::Inconsistent, _) => format!(
+            "with this centre the ground-stage parts (legs, pier, head, ballast) would \
+             have their centre of gravity {} m above the ground, outside the accepted \
+             range 0 to {} m: check the weighing or the moving parts' masses and centres",
+            fmt_g(f64::from(e.value)),
+            fmt_g(lim)
+        ),
+        _ => e.to_string(),
+    }
 }
 
 /// A core field name and list index.
@@ -1056,98 +1088,8 @@ fn support_section(
     );
     let tie_all = sup.tie_down.as_ref().map_or(0.0, |t| f(t.get_ref().n()));
     let feet: Feet = match (&sup.feet, &sup.tripod) {
-        (Some(list), None) => {
-            sp.put("support.feet", None, "support.feet".into(), list.span());
-            let mut v = heapless::Vec::new();
-            for (i, ft) in list.get_ref().iter().enumerate() {
-                let ft = ft.get_ref();
-                let key = format!("support.feet[{i}]");
-                sp.put(
-                    "support.feet.position_m",
-                    Some(i),
-                    format!("{key}.x"),
-                    ft.x.span(),
-                );
-                let tie = match &ft.tie_down {
-                    Some(t) => {
-                        sp.put(
-                            "support.feet.tie_down_n",
-                            Some(i),
-                            format!("{key}.tie_down"),
-                            t.span(),
-                        );
-                        f(t.get_ref().n())
-                    }
-                    None => tie_all,
-                };
-                let foot = Foot {
-                    position_m: [f(ft.x.get_ref().m()), f(ft.y.get_ref().m())],
-                    tie_down_n: tie,
-                };
-                if v.push(foot).is_err() {
-                    return Err(ck.error(
-                        "support.feet",
-                        list.span(),
-                        format!(
-                            "more than {} feet (accepted: 3 to {})",
-                            standfast::support::MAX_FEET,
-                            standfast::support::MAX_FEET
-                        ),
-                    ));
-                }
-            }
-            v
-        }
-        (None, Some(t)) => {
-            let tr = t.get_ref();
-            let az = tr
-                .first_leg_azimuth
-                .as_ref()
-                .map_or(0.0, |a| f(a.get_ref().0));
-            if let Some(a) = &tr.first_leg_azimuth {
-                sp.put(
-                    "support.first_leg_azimuth_rad",
-                    None,
-                    "support.tripod.first_leg_azimuth".into(),
-                    a.span(),
-                );
-            }
-            let s = match (&tr.foot_circle_radius, &tr.leg_spread) {
-                (Some(r), None) => {
-                    sp.put(
-                        "support.foot_circle_radius_m",
-                        None,
-                        "support.tripod.foot_circle_radius".into(),
-                        r.span(),
-                    );
-                    Support::tripod(f(r.get_ref().m()), az)
-                }
-                (None, Some(l)) => {
-                    sp.put(
-                        "support.leg_spread_m",
-                        None,
-                        "support.tripod.leg_spread".into(),
-                        l.span(),
-                    );
-                    Support::tripod_from_spread(f(l.get_ref().m()), az)
-                }
-                _ => {
-                    return Err(ck.error(
-                        "support.tripod",
-                        t.span(),
-                        "give exactly one of foot_circle_radius and leg_spread",
-                    ))
-                }
-            };
-            let s = s.map_err(|e| core_error(src, sp, &e))?;
-            s.feet()
-                .iter()
-                .map(|ft| Foot {
-                    position_m: ft.position_m,
-                    tie_down_n: tie_all,
-                })
-                .collect()
-        }
+        (Some(list), None) => listed_feet(ck, list, tie_all, sp)?,
+        (None, Some(t)) => tripod_feet(src, ck, t, tie_all, sp)?,
         _ => {
             return Err(ck.error(
                 "support",
@@ -1168,6 +1110,115 @@ fn support_section(
     }
 
     Ok((feet, f(*sup.friction.get_ref())))
+}
+
+/// `support.feet`: each foot's position (rig frame, m) and tie-down pull
+/// (N; the section's `tie_down`, `tie_all`, unless the foot gives its own).
+fn listed_feet(
+    ck: &Checker<'_>,
+    list: &S<Vec<S<FootSec>>>,
+    tie_all: f32,
+    sp: &mut Spans,
+) -> Result<Feet, InputError> {
+    sp.put("support.feet", None, "support.feet".into(), list.span());
+    let mut v = heapless::Vec::new();
+    for (i, ft) in list.get_ref().iter().enumerate() {
+        let ft = ft.get_ref();
+        let key = format!("support.feet[{i}]");
+        sp.put(
+            "support.feet.position_m",
+            Some(i),
+            format!("{key}.x"),
+            ft.x.span(),
+        );
+        let tie = match &ft.tie_down {
+            Some(t) => {
+                sp.put(
+                    "support.feet.tie_down_n",
+                    Some(i),
+                    format!("{key}.tie_down"),
+                    t.span(),
+                );
+                f(t.get_ref().n())
+            }
+            None => tie_all,
+        };
+        let foot = Foot {
+            position_m: [f(ft.x.get_ref().m()), f(ft.y.get_ref().m())],
+            tie_down_n: tie,
+        };
+        if v.push(foot).is_err() {
+            return Err(ck.error(
+                "support.feet",
+                list.span(),
+                format!(
+                    "more than {} feet (accepted: 3 to {})",
+                    standfast::support::MAX_FEET,
+                    standfast::support::MAX_FEET
+                ),
+            ));
+        }
+    }
+    Ok(v)
+}
+
+/// `support.tripod`: a regular tripod from its foot circle or leg spread,
+/// each foot with the section's tie-down pull `tie_all` (N).
+fn tripod_feet(
+    src: &SourceText,
+    ck: &Checker<'_>,
+    t: &S<TripodSec>,
+    tie_all: f32,
+    sp: &mut Spans,
+) -> Result<Feet, InputError> {
+    let tr = t.get_ref();
+    let az = tr
+        .first_leg_azimuth
+        .as_ref()
+        .map_or(0.0, |a| f(a.get_ref().0));
+    if let Some(a) = &tr.first_leg_azimuth {
+        sp.put(
+            "support.first_leg_azimuth_rad",
+            None,
+            "support.tripod.first_leg_azimuth".into(),
+            a.span(),
+        );
+    }
+    let s = match (&tr.foot_circle_radius, &tr.leg_spread) {
+        (Some(r), None) => {
+            sp.put(
+                "support.foot_circle_radius_m",
+                None,
+                "support.tripod.foot_circle_radius".into(),
+                r.span(),
+            );
+            Support::tripod(f(r.get_ref().m()), az)
+        }
+        (None, Some(l)) => {
+            sp.put(
+                "support.leg_spread_m",
+                None,
+                "support.tripod.leg_spread".into(),
+                l.span(),
+            );
+            Support::tripod_from_spread(f(l.get_ref().m()), az)
+        }
+        _ => {
+            return Err(ck.error(
+                "support.tripod",
+                t.span(),
+                "give exactly one of foot_circle_radius and leg_spread",
+            ))
+        }
+    };
+    let s = s.map_err(|e| core_error(src, sp, &e))?;
+    Ok(s.feet()
+        .iter()
+        .map(|ft| Foot {
+            position_m: ft.position_m,
+            tie_down_n: tie_all,
+        })
+        .collect())
 }
 
 /// Reads `[legs]` (the tripod's legs as bodies), when given.

@@ -544,6 +544,61 @@ fn take_batch(
     Ok(())
 }
 
+/// One guard per rig, started at 0 ms, its tilt processing set to samples
+/// in g in the rig frame (the log profile has already mapped sensor axes and
+/// counts), with the site's air until the log measures it.
+fn start_guards(rigs: &[LoadedRig]) -> Result<Vec<Guard<'_>>, Error> {
+    let mut guards: Vec<Guard<'_>> = Vec::with_capacity(rigs.len());
+    for r in rigs {
+        let mut cfg = r.guard.clone();
+        // The log profile has already mapped sensor axes and counts to the
+        // rig frame; samples arrive in g.
+        cfg.tilt.scale_g_per_count = 1.0;
+        cfg.tilt.mounting = Mounting::IDENTITY;
+        let mut guard = Guard::new(&r.rig, cfg, Millis(0)).map_err(|e| core_err(&r.file, &e))?;
+        // The site's air (from its elevation) until the log measures it.
+        guard.set_air(r.air);
+        guards.push(guard);
+    }
+    Ok(guards)
+}
+
+/// The replay's report once every record is taken: record and row counts,
+/// first and last time, log issues, and each rig's findings.
+fn report_of(
+    merger: &Merger,
+    t0: Option<Timestamp>,
+    last: Option<Timestamp>,
+    trackers: Vec<Tracker>,
+) -> ReplayReport {
+    let issues = merger.issues();
+    ReplayReport {
+        records: merger.records(),
+        rows: merger.rows(),
+        start: t0.map(|t| t.to_iso8601(3)),
+        end: last.map(|t| t.to_iso8601(3)),
+        duration_s: match (t0, last) {
+            (Some(a), Some(b)) => b.seconds_since(a),
+            _ => 0.0,
+        },
+        issues: IssueKind::ALL
+            .iter()
+            .map(|k| IssueCount {
+                kind: k.name().to_owned(),
+                count: issues.count(*k),
+            })
+            .collect(),
+        issues_total: issues.total(),
+        first_issues: issues
+            .kept()
+            .iter()
+            .take(FIRST_ISSUES)
+            .map(ToString::to_string)
+            .collect(),
+        rigs: trackers.into_iter().map(Tracker::finish).collect(),
+    }
+}
+
 /// Replays the merged stream through one guard per rig.
 ///
 /// `observer`, when given, is told the progress and receives the verdicts
@@ -551,8 +606,8 @@ fn take_batch(
 /// with an event), for a verdict CSV.
 ///
 /// Two threads share the work: this one reads and merges the logs and
-/// keeps the closest approaches, stage times, events, time series and
-/// verdict CSV; a second one steps the guards. They pass batches of
+/// keeps the closest approaches, stage times, events and time series (and
+/// hands the verdicts to the observer); a second one steps the guards. They pass batches of
 /// 1 024 records (and back, their verdicts) through bounded
 /// channels, so memory stays fixed. The results are those of one thread
 /// taking every record in turn: the guards step through the same records
@@ -572,18 +627,7 @@ pub fn replay(
     use std::sync::mpsc::sync_channel;
 
     let every = options.verdicts_every.max(1);
-    let mut guards: Vec<Guard<'_>> = Vec::with_capacity(rigs.len());
-    for r in rigs {
-        let mut cfg = r.guard.clone();
-        // The log profile has already mapped sensor axes and counts to the
-        // rig frame; samples arrive in g.
-        cfg.tilt.scale_g_per_count = 1.0;
-        cfg.tilt.mounting = Mounting::IDENTITY;
-        let mut guard = Guard::new(&r.rig, cfg, Millis(0)).map_err(|e| core_err(&r.file, &e))?;
-        // The site's air (from its elevation) until the log measures it.
-        guard.set_air(r.air);
-        guards.push(guard);
-    }
+    let mut guards = start_guards(rigs)?;
     let mut trackers: Vec<Tracker> = rigs.iter().map(|r| Tracker::new(&r.file)).collect();
     let mut t0: Option<Timestamp> = None;
     let mut last: Option<Timestamp> = None;
@@ -678,30 +722,5 @@ pub fn replay(
     if let Some(o) = observer.as_mut() {
         o.finished()?;
     }
-    let issues = merger.issues();
-    Ok(ReplayReport {
-        records: merger.records(),
-        rows: merger.rows(),
-        start: t0.map(|t| t.to_iso8601(3)),
-        end: last.map(|t| t.to_iso8601(3)),
-        duration_s: match (t0, last) {
-            (Some(a), Some(b)) => b.seconds_since(a),
-            _ => 0.0,
-        },
-        issues: IssueKind::ALL
-            .iter()
-            .map(|k| IssueCount {
-                kind: k.name().to_owned(),
-                count: issues.count(*k),
-            })
-            .collect(),
-        issues_total: issues.total(),
-        first_issues: issues
-            .kept()
-            .iter()
-            .take(FIRST_ISSUES)
-            .map(ToString::to_string)
-            .collect(),
-        rigs: trackers.into_iter().map(Tracker::finish).collect(),
-    })
+    Ok(report_of(merger, t0, last, trackers))
 }

@@ -809,29 +809,7 @@ impl PolarChart {
                 esc(&value_label(t, step))
             );
         }
-        for k in 0..12_u32 {
-            let deg = f64::from(k) * 30.0;
-            let (x, y) = polar_xy(cx, cy, deg, r_px);
-            let (lx, ly) = polar_xy(cx, cy, deg, r_px + 16.0);
-            let name = match k {
-                0 => "N".to_owned(),
-                3 => "E".to_owned(),
-                6 => "S".to_owned(),
-                9 => "W".to_owned(),
-                _ => format!("{deg:.0}°"),
-            };
-            let _ = write!(
-                s,
-                r#"<line class="spoke" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
-                n(cx),
-                n(cy),
-                n(x),
-                n(y),
-                n(lx),
-                n(ly + 4.0),
-                esc(&name)
-            );
-        }
+        polar_spokes(&mut s, cx, cy, r_px);
         let _ = write!(
             s,
             r#"<text class="axis-label" x="{}" y="{}">radius: {}</text>"#,
@@ -896,6 +874,34 @@ impl PolarChart {
         }
         s.push_str("</svg>");
         s
+    }
+}
+
+/// The twelve spokes of a polar chart every 30°, labelled with N, E, S, W
+/// and degrees, around the centre (`cx`, `cy`) out to `r_px`.
+fn polar_spokes(s: &mut String, cx: f64, cy: f64, r_px: f64) {
+    for k in 0..12_u32 {
+        let deg = f64::from(k) * 30.0;
+        let (x, y) = polar_xy(cx, cy, deg, r_px);
+        let (lx, ly) = polar_xy(cx, cy, deg, r_px + 16.0);
+        let name = match k {
+            0 => "N".to_owned(),
+            3 => "E".to_owned(),
+            6 => "S".to_owned(),
+            9 => "W".to_owned(),
+            _ => format!("{deg:.0}°"),
+        };
+        let _ = write!(
+            *s,
+            r#"<line class="spoke" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
+            n(cx),
+            n(cy),
+            n(x),
+            n(y),
+            n(lx),
+            n(ly + 4.0),
+            esc(&name)
+        );
     }
 }
 

@@ -18,7 +18,33 @@ pub fn comparison_text(cmp: &Comparison) -> String {
     for r in &cmp.rigs {
         s.push_str(&format!("  {} = {}\n", r.column, r.rig));
     }
-    let rows: Vec<(&str, Vec<String>)> = vec![
+    let rows = comparison_rows(cmp);
+    let label_w = rows.iter().map(|r| r.0.len()).max().unwrap_or(0) + 2;
+    let col_w = rows
+        .iter()
+        .flat_map(|r| r.1.iter().map(|c| c.chars().count()))
+        .max()
+        .unwrap_or(1)
+        .max(6)
+        + 2;
+    s.push_str(&format!("  {:label_w$}", ""));
+    for r in &cmp.rigs {
+        s.push_str(&format!("{:>col_w$}", r.column));
+    }
+    s.push('\n');
+    for (label, cells) in rows {
+        s.push_str(&format!("  {label:label_w$}"));
+        for c in cells {
+            s.push_str(&format!("{c:>col_w$}"));
+        }
+        s.push('\n');
+    }
+    s
+}
+
+/// The comparison's rows: a label and one cell per rig.
+fn comparison_rows(cmp: &Comparison) -> Vec<(&'static str, Vec<String>)> {
+    vec![
         (
             "highest overturning",
             cmp.rigs
@@ -111,26 +137,5 @@ pub fn comparison_text(cmp: &Comparison) -> String {
                 .map(|r| r.stage_changes.to_string())
                 .collect(),
         ),
-    ];
-    let label_w = rows.iter().map(|r| r.0.len()).max().unwrap_or(0) + 2;
-    let col_w = rows
-        .iter()
-        .flat_map(|r| r.1.iter().map(|c| c.chars().count()))
-        .max()
-        .unwrap_or(1)
-        .max(6)
-        + 2;
-    s.push_str(&format!("  {:label_w$}", ""));
-    for r in &cmp.rigs {
-        s.push_str(&format!("{:>col_w$}", r.column));
-    }
-    s.push('\n');
-    for (label, cells) in rows {
-        s.push_str(&format!("  {label:label_w$}"));
-        for c in cells {
-            s.push_str(&format!("{c:>col_w$}"));
-        }
-        s.push('\n');
-    }
-    s
+    ]
 }

@@ -313,6 +313,74 @@ impl LogProfile {
     }
 }
 
+/// A column's unit and scale: a quantity's unit (SI by default) and a
+/// non-zero scale for raw counts; words (pier side, flags) take neither.
+fn column_unit(
+    ck: &Checker<'_>,
+    ckey: &str,
+    channel: Channel,
+    c: &ColumnSpec,
+) -> Result<(Unit, f64), InputError> {
+    Ok(match channel.kind() {
+        ChannelKind::Quantity(dim) => {
+            let unit = match &c.unit {
+                None => dim.si_unit(),
+                Some(u) => ck.unit(&format!("{ckey}.unit"), u, dim)?,
+            };
+            let scale = match &c.scale {
+                None => 1.0,
+                Some(s) => {
+                    let v = ck.range_f64(&format!("{ckey}.scale"), s, -1e12, 1e12)?;
+                    if v == 0.0 {
+                        return Err(ck.error(
+                            &format!("{ckey}.scale"),
+                            s.span(),
+                            "a scale of 0 would erase every value (accepted: -1e12 to 1e12, not 0)",
+                        ));
+                    }
+                    v
+                }
+            };
+            (unit, scale)
+        }
+        ChannelKind::PierSide | ChannelKind::Flag => {
+            if let Some(u) = &c.unit {
+                return Err(ck.error(
+                    &format!("{ckey}.unit"),
+                    u.span(),
+                    format!("{channel} is read from words and takes no unit"),
+                ));
+            }
+            if let Some(s) = &c.scale {
+                return Err(ck.error(
+                    &format!("{ckey}.scale"),
+                    s.span(),
+                    format!("{channel} is read from words and takes no scale"),
+                ));
+            }
+            (Dim::Length.si_unit(), 1.0)
+        }
+    })
+}
+
+/// A file's delimiter: one ASCII character other than a quote or a line
+/// break; a comma by default.
+fn delimiter(ck: &Checker<'_>, key: &str, d: Option<&Spanned<String>>) -> Result<u8, InputError> {
+    Ok(match d {
+        None => b',',
+        Some(d) => {
+            match d.get_ref().as_bytes() {
+                [b] if b.is_ascii() && *b != b'"' && *b != b'\n' && *b != b'\r' => *b,
+                _ => return Err(ck.error(
+                    &format!("{key}.delimiter"),
+                    d.span(),
+                    "the delimiter must be one ASCII character other than a quote or line break",
+                )),
+            }
+        }
+    })
+}
+
 #[allow(clippy::too_many_arguments)]
 fn file_profile(
     ck: &Checker<'_>,
@@ -331,18 +399,7 @@ fn file_profile(
     }
     let path = base_dir.join(path_str);
     let label = spec.name.clone().unwrap_or_else(|| path_str.clone());
-    let delimiter =
-        match &spec.delimiter {
-            None => b',',
-            Some(d) => match d.get_ref().as_bytes() {
-                [b] if b.is_ascii() && *b != b'"' && *b != b'\n' && *b != b'\r' => *b,
-                _ => return Err(ck.error(
-                    &format!("{key}.delimiter"),
-                    d.span(),
-                    "the delimiter must be one ASCII character other than a quote or line break",
-                )),
-            },
-        };
+    let delimiter = delimiter(ck, key, spec.delimiter.as_ref())?;
     let t = spec.time.get_ref();
     let time_format = match ck.one_of(
         &format!("{key}.time.format"),
@@ -379,46 +436,7 @@ fn file_profile(
     for (channel, cs) in entries {
         let ckey = format!("{key}.columns.{channel}");
         let c = cs.get_ref();
-        let (unit, scale) = match channel.kind() {
-            ChannelKind::Quantity(dim) => {
-                let unit = match &c.unit {
-                    None => dim.si_unit(),
-                    Some(u) => ck.unit(&format!("{ckey}.unit"), u, dim)?,
-                };
-                let scale = match &c.scale {
-                    None => 1.0,
-                    Some(s) => {
-                        let v = ck.range_f64(&format!("{ckey}.scale"), s, -1e12, 1e12)?;
-                        if v == 0.0 {
-                            return Err(ck.error(
-                                &format!("{ckey}.scale"),
-                                s.span(),
-                                "a scale of 0 would erase every value (accepted: -1e12 to 1e12, not 0)",
-                            ));
-                        }
-                        v
-                    }
-                };
-                (unit, scale)
-            }
-            ChannelKind::PierSide | ChannelKind::Flag => {
-                if let Some(u) = &c.unit {
-                    return Err(ck.error(
-                        &format!("{ckey}.unit"),
-                        u.span(),
-                        format!("{channel} is read from words and takes no unit"),
-                    ));
-                }
-                if let Some(s) = &c.scale {
-                    return Err(ck.error(
-                        &format!("{ckey}.scale"),
-                        s.span(),
-                        format!("{channel} is read from words and takes no scale"),
-                    ));
-                }
-                (Dim::Length.si_unit(), 1.0)
-            }
-        };
+        let (unit, scale) = column_unit(ck, &ckey, channel, c)?;
         columns.push(ColumnProfile {
             channel,
             header: ck.locate(&c.column),
