@@ -75,6 +75,7 @@ use crate::input::error::Error;
 use crate::input::located::{bounded, bounded_to, fmt_g, MAX_PROBLEM_CHARS};
 use crate::input::rigfile::{self, LoadedRig};
 use crate::input::units::f32_of;
+use crate::model::figures::Figures;
 
 /// Input line format.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum, Default)]
@@ -598,28 +599,10 @@ pub struct VerdictLine {
     pub park_requested: bool,
     /// The alarm output.
     pub alarm: bool,
-    /// Overturning utilisation at the peak gust now.
-    pub overturning_utilisation: Option<f32>,
-    /// Overturning utilisation predicted for the end of a park.
-    pub predicted_utilisation: Option<f32>,
-    /// Sliding utilisation at the peak gust now.
-    pub sliding_utilisation: Option<f32>,
-    /// Governing drive utilisation, [primary, secondary].
-    pub drive_utilisation: Option<[f32; 2]>,
-    /// Wind speed that would tip the rig in this pose and direction, m/s.
-    pub tip_wind_mps: Option<f32>,
-    /// Gust the figures are for, m/s.
-    pub gust_mps: Option<f32>,
-    /// Gust predicted for the end of a park, m/s.
-    pub predicted_gust_mps: Option<f32>,
-    /// Direction used (the worst one when not measured), degrees.
-    pub wind_from_deg: Option<f32>,
-    /// Ground tilt, degrees.
-    pub tilt_deg: Option<f32>,
-    /// Downhill azimuth, degrees clockwise from north.
-    pub tilt_downhill_deg: Option<f32>,
-    /// Extra tilt that would tip the rig with no wind, degrees.
-    pub tilt_margin_deg: Option<f32>,
+    /// The verdict's figures (fields of their own in the JSON line, in
+    /// this order).
+    #[serde(flatten)]
+    pub figures: Figures,
     /// The pose the figures are for.
     pub pose: PoseOut,
     /// With a park request: the safest park pose.
@@ -644,17 +627,7 @@ impl VerdictLine {
             stage: v.stage.name(),
             park_requested: v.stage.park_requested(),
             alarm: v.stage.alarm(),
-            overturning_utilisation: v.overturning_utilisation,
-            predicted_utilisation: v.predicted_utilisation,
-            sliding_utilisation: v.sliding_utilisation,
-            drive_utilisation: v.drive_utilisation,
-            tip_wind_mps: v.tip_wind_mps,
-            gust_mps: v.gust_mps,
-            predicted_gust_mps: v.predicted_gust_mps,
-            wind_from_deg: v.wind_from_rad.map(f32::to_degrees),
-            tilt_deg: v.tilt.map(|t| t.magnitude_rad.to_degrees()),
-            tilt_downhill_deg: v.tilt.map(|t| t.downhill_azimuth_rad.to_degrees()),
-            tilt_margin_deg: v.tilt_margin_rad.map(f32::to_degrees),
+            figures: Figures::of(v),
             pose: v.pose.into(),
             park_pose: v.park_pose.map(PoseOut::from),
             acknowledged,

@@ -28,6 +28,7 @@ use crate::input::error::Error;
 use crate::input::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
 use crate::input::rigfile::{after_load_error, LoadedRig};
 use crate::input::units::{f32_of, STANDARD_GRAVITY_MPS2};
+use crate::model::figures::Figures;
 
 /// Most stage changes and faults kept per rig; beyond it only counts grow.
 pub const MAX_KEPT_EVENTS: usize = 1000;
@@ -279,16 +280,17 @@ fn millis_since(t: Timestamp, t0: Timestamp) -> Millis {
 }
 
 fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64) -> Approach {
+    let f = Figures::of(v);
     Approach {
         utilisation: u,
         time: time.to_iso8601(3),
         t_s,
-        gust_mps: v.gust_mps,
-        wind_from_deg: v.wind_from_rad.map(f32::to_degrees),
+        gust_mps: f.gust_mps,
+        wind_from_deg: f.wind_from_deg,
         pose: v.pose,
-        tilt_deg: v.tilt.map(|t| t.magnitude_rad.to_degrees()),
-        tilt_downhill_deg: v.tilt.map(|t| t.downhill_azimuth_rad.to_degrees()),
-        tip_wind_mps: v.tip_wind_mps,
+        tilt_deg: f.tilt_deg,
+        tilt_downhill_deg: f.tilt_downhill_deg,
+        tip_wind_mps: f.tip_wind_mps,
         stage: v.stage,
     }
 }

@@ -6,6 +6,7 @@
 use standfast::guard::Verdict;
 
 use crate::input::log::Timestamp;
+use crate::model::figures::Figures;
 
 /// The verdict CSV's header line (with its line break).
 pub const VERDICT_HEADER: &str = "time,t_s,rig,stage,overturning_utilisation,predicted_utilisation,sliding_utilisation,drive1_utilisation,drive2_utilisation,tip_wind_mps,gust_mps,predicted_gust_mps,wind_from_deg,tilt_deg,tilt_margin_deg,faults\n";
@@ -18,22 +19,22 @@ fn opt(v: Option<f32>) -> String {
 /// `rig` (0 for the first `--rig`) at `time`, `t_s` seconds since the first
 /// record, to `out`.
 pub fn verdict_line(out: &mut String, time: Timestamp, t_s: f64, rig: usize, v: &Verdict) {
-    let d = |i: usize| v.drive_utilisation.and_then(|d| d.get(i).copied());
+    let f = Figures::of(v);
     out.push_str(&format!(
         "{},{t_s:.3},{rig},{},{},{},{},{},{},{},{},{},{},{},{},{}\n",
         time.to_iso8601(3),
         v.stage.name(),
-        opt(v.overturning_utilisation),
-        opt(v.predicted_utilisation),
-        opt(v.sliding_utilisation),
-        opt(d(0)),
-        opt(d(1)),
-        opt(v.tip_wind_mps),
-        opt(v.gust_mps),
-        opt(v.predicted_gust_mps),
-        opt(v.wind_from_rad.map(f32::to_degrees)),
-        opt(v.tilt.map(|t| t.magnitude_rad.to_degrees())),
-        opt(v.tilt_margin_rad.map(f32::to_degrees)),
+        opt(f.overturning_utilisation),
+        opt(f.predicted_utilisation),
+        opt(f.sliding_utilisation),
+        opt(f.drive(0)),
+        opt(f.drive(1)),
+        opt(f.tip_wind_mps),
+        opt(f.gust_mps),
+        opt(f.predicted_gust_mps),
+        opt(f.wind_from_deg),
+        opt(f.tilt_deg),
+        opt(f.tilt_margin_deg),
         v.faults.len(),
     ));
 }
