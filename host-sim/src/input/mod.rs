@@ -14,4 +14,5 @@ pub mod issues;
 pub mod located;
 pub mod log;
 pub mod rigfile;
+pub mod samples;
 pub mod units;

@@ -9,6 +9,7 @@
 //! [`report`] (the HTML pages) drawn with [`html`] and [`svg`].
 
 pub mod assess;
+pub mod bridge_lines;
 pub mod event_lines;
 pub mod html;
 pub mod report;
