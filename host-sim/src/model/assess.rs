@@ -17,7 +17,11 @@ use standfast::torque::{Balance, PayloadPick};
 
 use crate::cautions::CAUTIONS;
 use crate::input::error::Error;
-use crate::input::rigfile::LoadedRig;
+use crate::input::rigfile::{after_load_error, LoadedRig};
+
+/// What could not be done when the core refuses an assessment (for
+/// [`after_load_error`]).
+const ASSESS_FAILED: &str = "assessment failed";
 
 /// Options of an assessment.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -609,10 +613,6 @@ fn deg(rad: f32) -> f32 {
     rad.to_degrees()
 }
 
-fn core_err(file: &str, e: &standfast::Error) -> Error {
-    crate::input::rigfile::after_load_error(file, "assessment failed", e)
-}
-
 fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, standfast::Error> {
     let mut c = *c;
     c.wind_from_rad = from_rad;
@@ -690,7 +690,7 @@ fn orientation(
 /// # Errors
 /// [`Error::Input`] when the core refuses a case (it names the field).
 pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
-    let e = |x: standfast::Error| core_err(&r.file, &x);
+    let e = |x: standfast::Error| after_load_error(&r.file, ASSESS_FAILED, &x);
     let rig = &r.rig;
     let home = rig.mount().home_pose();
     let mut c = Conditions::calm(home);

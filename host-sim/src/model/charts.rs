@@ -12,6 +12,10 @@ use crate::input::rigfile::{after_load_error, LoadedRig};
 use crate::model::assess::AssessReport;
 use crate::model::replay::{Approach, ReplayReport};
 
+/// What could not be done when the core refuses the chart data (for
+/// [`after_load_error`]).
+const CHARTS_FAILED: &str = "the report cannot be drawn";
+
 /// Points of a polar chart: (direction the wind blows from, degrees;
 /// tip wind speed, m/s, `None` when no wind tips the rig from there).
 pub type PolarPoints = Vec<(f64, Option<f64>)>;
@@ -89,10 +93,6 @@ pub fn torque_map(r: &LoadedRig) -> ([Vec<Vec<Option<f64>>>; 2], bool) {
     (maps, rated.is_some())
 }
 
-fn core_err(file: &str, e: &standfast::Error) -> Error {
-    after_load_error(file, "the report cannot be drawn", e)
-}
-
 /// Tip wind speed every [`POLAR_STEP_DEG`] degrees of wind direction (from),
 /// by [`Rig::assess`] in the given conditions (their own direction is
 /// replaced).
@@ -168,8 +168,11 @@ pub fn replay_charts(rep: &ReplayReport, rigs: &[LoadedRig]) -> Result<Vec<RigCh
         let approach_tip_wind = match (rig, r.overturning.as_ref()) {
             (Some(l), Some(a)) => {
                 let c = approach_conditions(l, a, r.series.cover_at_closest)
-                    .map_err(|e| core_err(&r.rig_file, &e))?;
-                Some(tip_wind_by_direction(&l.rig, &c).map_err(|e| core_err(&r.rig_file, &e))?)
+                    .map_err(|e| after_load_error(&r.rig_file, CHARTS_FAILED, &e))?;
+                Some(
+                    tip_wind_by_direction(&l.rig, &c)
+                        .map_err(|e| after_load_error(&r.rig_file, CHARTS_FAILED, &e))?,
+                )
             }
             _ => None,
         };
@@ -210,7 +213,7 @@ pub struct AssessCharts {
 /// # Errors
 /// [`Error::Input`] when the core refuses a case.
 pub fn assess_charts(rep: &AssessReport, r: &LoadedRig) -> Result<AssessCharts, Error> {
-    let e = |x: standfast::Error| core_err(&rep.file, &x);
+    let e = |x: standfast::Error| after_load_error(&rep.file, CHARTS_FAILED, &x);
     let home_pose = r.rig.mount().home_pose();
     let mut c = Conditions::calm(home_pose);
     c.air = r.air;

@@ -30,6 +30,10 @@ use crate::input::rigfile::{after_load_error, LoadedRig};
 use crate::input::units::{f32_of, STANDARD_GRAVITY_MPS2};
 use crate::model::figures::Figures;
 
+/// What could not be done when the core refuses a replay's guard (for
+/// [`after_load_error`]).
+const GUARD_FAILED: &str = "the guard cannot start";
+
 /// Most stage changes and faults kept per rig; beyond it only counts grow.
 pub const MAX_KEPT_EVENTS: usize = 1000;
 
@@ -204,10 +208,6 @@ pub struct ReplayReport {
 
 /// Most issues quoted in full in a report.
 pub const FIRST_ISSUES: usize = 10;
-
-fn core_err(file: &str, e: &standfast::Error) -> Error {
-    after_load_error(file, "the guard cannot start", e)
-}
 
 /// The guard inputs of one merged record: only channels updated at its time.
 #[must_use]
@@ -557,7 +557,8 @@ fn start_guards(rigs: &[LoadedRig]) -> Result<Vec<Guard<'_>>, Error> {
         // rig frame; samples arrive in g.
         cfg.tilt.scale_g_per_count = 1.0;
         cfg.tilt.mounting = Mounting::IDENTITY;
-        let mut guard = Guard::new(&r.rig, cfg, Millis(0)).map_err(|e| core_err(&r.file, &e))?;
+        let mut guard = Guard::new(&r.rig, cfg, Millis(0))
+            .map_err(|e| after_load_error(&r.file, GUARD_FAILED, &e))?;
         // The site's air (from its elevation) until the log measures it.
         guard.set_air(r.air);
         guards.push(guard);
