@@ -16,3 +16,4 @@ pub mod log;
 pub mod rigfile;
 pub mod samples;
 pub mod units;
+pub mod weighing;
