@@ -9,8 +9,8 @@ use std::hint::black_box;
 use std::path::PathBuf;
 use std::time::Instant;
 
-use standfast_sim::demo_data::{write_bench_log, BENCH_PROFILE_TOML};
-use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::commands::demo_data::{write_bench_log, BENCH_PROFILE_TOML};
+use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
 
 fn main() {
     let hours: f64 = std::env::var("STANDFAST_BENCH_HOURS")

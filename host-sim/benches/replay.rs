@@ -19,9 +19,9 @@ use std::hint::black_box;
 use std::path::PathBuf;
 use std::time::Instant;
 
-use standfast_sim::demo_data::{write_bench_log, BENCH_PROFILE_TOML};
-use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
-use standfast_sim::replay::{replay, ReplayOptions};
+use standfast_sim::commands::demo_data::{write_bench_log, BENCH_PROFILE_TOML};
+use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::model::replay::{replay, ReplayOptions};
 
 /// CPU time of this process so far (user and system, all threads), in
 /// seconds, from `/proc/self/stat` (Linux; `None` elsewhere). Clock ticks
@@ -89,7 +89,7 @@ fn main() {
         );
     }
     let profile = LogProfile::load(&profile_path).expect("profile");
-    let rig = standfast_sim::rigfile::load(&root.join("demo/rig.toml")).expect("demo rig");
+    let rig = standfast_sim::input::rigfile::load(&root.join("demo/rig.toml")).expect("demo rig");
 
     println!("load average before: {}", load_average());
     let mut parse_best = f64::INFINITY;

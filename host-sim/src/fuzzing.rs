@@ -6,7 +6,7 @@
 //! besides not panicking, hanging or overflowing by itself, every error
 //! must name where it is (file and line, or the input line for the
 //! bridge) and its message must stay bounded whatever the input's size
-//! (values are echoed by [`crate::located::bounded`]).
+//! (values are echoed by [`crate::input::located::bounded`]).
 //!
 //! They are not used by the command itself.
 
@@ -14,11 +14,11 @@ use std::io::Read;
 use std::path::Path;
 use std::sync::OnceLock;
 
-use crate::bridge::{Answer, Bridge, InputFormat};
-use crate::error::Error;
-use crate::located::{InputError, SourceText, MAX_PROBLEM_CHARS};
-use crate::log::{ErrorPolicy, LogProfile, Merger};
-use crate::rigfile::LoadedRig;
+use crate::commands::bridge::{Answer, Bridge, InputFormat};
+use crate::input::error::Error;
+use crate::input::located::{InputError, SourceText, MAX_PROBLEM_CHARS};
+use crate::input::log::{ErrorPolicy, LogProfile, Merger};
+use crate::input::rigfile::LoadedRig;
 
 /// Longest message an error may print, in characters: location, key and
 /// value (each bounded), and the problem (at most [`MAX_PROBLEM_CHARS`]).
@@ -50,7 +50,7 @@ fn assert_located(e: &InputError, file: &str) {
 pub fn rig_file(data: &[u8]) {
     let text = String::from_utf8_lossy(data);
     let src = SourceText::new("fuzz-rig.toml", text.as_ref());
-    if let Err(e) = crate::rigfile::load_source(&src) {
+    if let Err(e) = crate::input::rigfile::load_source(&src) {
         assert_located(&e, "fuzz-rig.toml");
     }
 }
@@ -214,8 +214,8 @@ pub fn csv_merge(data: &[u8]) {
 /// When a promise is broken (see the module docs).
 pub fn units(data: &[u8]) {
     let text = String::from_utf8_lossy(data);
-    fn one<D: crate::units::Dimension>(text: &str) {
-        match crate::units::Quantity::<D>::parse(text) {
+    fn one<D: crate::input::units::Dimension>(text: &str) {
+        match crate::input::units::Quantity::<D>::parse(text) {
             Ok(q) => assert!(q.si().is_finite(), "{text:?} read as {}", q.si()),
             Err(e) => {
                 let m = e.to_string();
@@ -224,25 +224,25 @@ pub fn units(data: &[u8]) {
             }
         }
     }
-    one::<crate::units::LengthDim>(&text);
-    one::<crate::units::MassDim>(&text);
-    one::<crate::units::SpeedDim>(&text);
-    one::<crate::units::TorqueDim>(&text);
-    one::<crate::units::ForceDim>(&text);
-    one::<crate::units::AngleDim>(&text);
-    one::<crate::units::PressureDim>(&text);
-    one::<crate::units::TemperatureDim>(&text);
-    one::<crate::units::TimeDim>(&text);
-    one::<crate::units::AccelerationDim>(&text);
-    one::<crate::units::AreaDim>(&text);
+    one::<crate::input::units::LengthDim>(&text);
+    one::<crate::input::units::MassDim>(&text);
+    one::<crate::input::units::SpeedDim>(&text);
+    one::<crate::input::units::TorqueDim>(&text);
+    one::<crate::input::units::ForceDim>(&text);
+    one::<crate::input::units::AngleDim>(&text);
+    one::<crate::input::units::PressureDim>(&text);
+    one::<crate::input::units::TemperatureDim>(&text);
+    one::<crate::input::units::TimeDim>(&text);
+    one::<crate::input::units::AccelerationDim>(&text);
+    one::<crate::input::units::AreaDim>(&text);
 }
 
 /// The demo rig, loaded once for [`bridge_lines`].
 fn demo_rig() -> &'static LoadedRig {
     static RIG: OnceLock<LoadedRig> = OnceLock::new();
     RIG.get_or_init(|| {
-        let src = SourceText::new("demo-rig.toml", crate::replay::DEMO_RIG_TOML);
-        match crate::rigfile::load_source(&src) {
+        let src = SourceText::new("demo-rig.toml", crate::commands::replay::DEMO_RIG_TOML);
+        match crate::input::rigfile::load_source(&src) {
             Ok(r) => r,
             Err(e) => panic!("the demo rig does not load: {e}"),
         }

@@ -1,31 +1,29 @@
 //! # standfast-sim
 //!
 //! The host side of Standfast: the `standfast` command and the library
-//! behind it. Quantities with units at the boundary ([`units`]), located
-//! validation errors for configuration files ([`located`]), night logs read
-//! and merged by time ([`log`]), invented demo data ([`demo_data`]).
+//! behind it, in four layers that depend one way only (DEVELOPERS.md,
+//! "The command's layers"):
+//!
+//! 1. [`input`]: units, located values and errors, the rig file, log
+//!    profiles, logs and their merge by time;
+//! 2. [`model`]: replay, assessment, what-if variants and their comparison,
+//!    chart data, weighing; computing only;
+//! 3. [`render`]: text, JSON, CSV, event lines, HTML and SVG; pure
+//!    functions of the model's results;
+//! 4. [`commands`]: argument parsing, files, the terminal.
+//!
+//! [`cautions`] sits below them all; [`fuzzing`] (entry points for the fuzz
+//! targets) above them all.
 //!
 //! **Caution.** Standfast's numbers are estimates from a simplified static
 //! model. Secure the rig anyway, stay inside the mount maker's limits and
 //! defer to local codes and licensed engineers.
 
-pub mod assess;
-pub mod bridge;
-pub mod cli;
-pub mod demo_data;
-pub mod error;
-pub mod event_lines;
+pub mod cautions;
+pub mod commands;
 pub mod fuzzing;
-pub mod located;
-pub mod log;
-pub mod output;
-pub mod replay;
-pub mod report;
-pub mod rig_image;
-pub mod rigfile;
-pub mod summary;
-pub mod units;
-pub mod weigh;
-pub mod whatif;
+pub mod input;
+pub mod model;
+pub mod render;
 
-pub use error::{Error, Result};
+pub use input::error::{Error, Result};

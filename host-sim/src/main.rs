@@ -5,7 +5,7 @@
 use std::process::ExitCode;
 
 use clap::Parser;
-use standfast_sim::cli::{run, Cli};
+use standfast_sim::commands::cli::{run, Cli};
 
 fn main() -> ExitCode {
     // Usage errors exit with code 2 from inside `parse`.

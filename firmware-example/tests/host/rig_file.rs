@@ -8,7 +8,7 @@
 
 use standfast::guard::GuardConfig;
 use standfast_firmware::guard_adapter::{example_guard_config, example_rig, example_rig_spec};
-use standfast_sim::rigfile;
+use standfast_sim::input::rigfile;
 use std::path::PathBuf;
 
 fn loaded() -> rigfile::LoadedRig {

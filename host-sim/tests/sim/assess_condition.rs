@@ -6,9 +6,9 @@
 use std::path::PathBuf;
 use std::process::Command;
 
-use standfast_sim::assess::{assess, AssessOptions, Condition};
-use standfast_sim::located::SourceText;
-use standfast_sim::rigfile::load_source;
+use standfast_sim::input::located::SourceText;
+use standfast_sim::input::rigfile::load_source;
+use standfast_sim::model::assess::{assess, AssessOptions, Condition};
 
 /// The README's tripod: 40 kg on feet on a 0.5 m circle (first leg north),
 /// a drag area Cd·A = 1.2 × 0.25 m × 0.74 m = 0.222 m² centred 1.5 m up on a
@@ -32,7 +32,7 @@ centre = [0, 0, "1.5 m"]
 drag_coefficient = 1.2
 "#;
 
-fn tripod() -> standfast_sim::rigfile::LoadedRig {
+fn tripod() -> standfast_sim::input::rigfile::LoadedRig {
     load_source(&SourceText::new("tripod.toml", TRIPOD)).unwrap()
 }
 

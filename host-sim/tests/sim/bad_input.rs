@@ -17,7 +17,7 @@ use std::io::Write as _;
 use std::path::Path;
 use std::process::{Command, Stdio};
 
-use standfast_sim::output::fingerprint;
+use standfast_sim::commands::output::fingerprint;
 
 /// The demo rig (host-sim/demo/rig.toml), the base of the rig cases.
 const RIG: &str = include_str!("../../demo/rig.toml");

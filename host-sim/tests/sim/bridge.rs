@@ -10,8 +10,10 @@ use std::process::{Command, Output, Stdio};
 
 use serde_json::Value;
 use standfast::mount::PierSide;
-use standfast_sim::bridge::{parse_json_line, Answer, Bridge, CsvHeader, InputFormat, Sample};
-use standfast_sim::rigfile;
+use standfast_sim::commands::bridge::{
+    parse_json_line, Answer, Bridge, CsvHeader, InputFormat, Sample,
+};
+use standfast_sim::input::rigfile;
 
 fn demo_rig() -> PathBuf {
     Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")

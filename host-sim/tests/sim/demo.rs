@@ -3,11 +3,11 @@
 
 use std::path::Path;
 
-use standfast_sim::demo_data::{
+use standfast_sim::commands::demo_data::{
     turbulence_intensity, wind_series, write_accel_log, write_bench_log, write_demo_logs,
     write_mount_log, write_wind_log, NightPlan, TerrainCategory, WindSite,
 };
-use standfast_sim::log::{Channel, ErrorPolicy, IssueKind, LogProfile, Merger, PierSide};
+use standfast_sim::input::log::{Channel, ErrorPolicy, IssueKind, LogProfile, Merger, PierSide};
 
 /// Per 10-minute window of 1 Hz speeds: mean, standard deviation, and the
 /// highest 3-s running mean (3 samples), computed here independently of the
@@ -34,10 +34,10 @@ fn turbulence_intensity_follows_en_1991_1_4() {
     // EN 1991-1-4 eq. (4.7), k_I = c_0 = 1, Table 4.1 (category II: z0 = 0.05 m,
     // z_min = 2 m): I_v(10 m) = 1/ln(200) = 0.1887, derived here from the
     // standard's equation and table (checked).
-    assert!((turbulence_intensity(TerrainCategory::II, 10.0) - 0.1887).abs() < 1e-4);
+    assert!((turbulence_intensity(TerrainCategory::CatIIOpen, 10.0) - 0.1887).abs() < 1e-4);
     // Below z_min the value at z_min holds: category III, z_min = 5 m, z0 = 0.3 m.
     let at_min = 1.0 / (5.0_f64 / 0.3).ln();
-    assert!((turbulence_intensity(TerrainCategory::III, 2.0) - at_min).abs() < 1e-12);
+    assert!((turbulence_intensity(TerrainCategory::CatIIISuburban, 2.0) - at_min).abs() < 1e-12);
 }
 
 /// Expected 3-s gust factor for the demo site (category II, z = 3 m):
@@ -56,7 +56,7 @@ fn turbulence_intensity_follows_en_1991_1_4() {
 #[test]
 fn wind_mean_turbulence_and_gust_factor_are_plausible() {
     let site = WindSite {
-        terrain: TerrainCategory::II,
+        terrain: TerrainCategory::CatIIOpen,
         height_m: 3.0,
     };
     let iv = site.intensity();
@@ -214,7 +214,7 @@ fn mount_flips_at_the_meridian_then_parks_and_covers() {
     std::fs::write(&p, prof).unwrap();
     let profile = LogProfile::load(Path::new(&p)).unwrap();
     let mut m = Merger::open(&profile, ErrorPolicy::Stop).unwrap();
-    let mut prev: Option<standfast_sim::log::SampleRecord> = None;
+    let mut prev: Option<standfast_sim::input::log::SampleRecord> = None;
     let mut flips = Vec::new();
     let mut tracked = (0.0, 0.0); // (degrees of hour angle, hours)
     let mut cover_at = None;

@@ -2,8 +2,8 @@
 //! coefficient on counterweights, drag-only shapes (mass 0 with a shape).
 
 use standfast::rig::PartRole;
-use standfast_sim::located::SourceText;
-use standfast_sim::rigfile::load_source;
+use standfast_sim::input::located::SourceText;
+use standfast_sim::input::rigfile::load_source;
 
 const DEMO: &str = include_str!("../../demo/rig.toml");
 

@@ -11,9 +11,10 @@
 //! firmware's example rig and guard settings is checked on the firmware side
 //! (firmware-example/tests/host/rig_file.rs, through host-sim's rig loader).
 
-use standfast_sim::event_lines;
-use standfast_sim::replay::{open_logs, replay, ReplayOptions};
-use standfast_sim::rigfile;
+use standfast_sim::commands::replay::open_logs;
+use standfast_sim::input::rigfile;
+use standfast_sim::model::replay::{replay, ReplayOptions};
+use standfast_sim::render::event_lines;
 use std::path::PathBuf;
 
 fn dir() -> PathBuf {
@@ -92,7 +93,7 @@ fn profile_accel_scale_reproduces_the_driver_in_f32() {
     let c = 0.001_f32;
     let scale = f64::from(c) / 16.0;
     assert_eq!(scale, 6.250_000_296_859_07e-5);
-    let g0 = standfast_sim::replay::STANDARD_GRAVITY_MPS2;
+    let g0 = standfast_sim::input::units::STANDARD_GRAVITY_MPS2;
     for n in -2048_i16..2048 {
         let word = n * 16;
         let firmware = f32::from(word >> 4) * c;

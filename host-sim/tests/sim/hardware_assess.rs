@@ -3,9 +3,10 @@
 //! with the core's stripping and bolt-group checks against hand-worked loads
 //! and the published values those checks already use.
 
-use standfast_sim::assess::{assess, write_text, AssessOptions, Condition};
-use standfast_sim::located::SourceText;
-use standfast_sim::rigfile::load_source;
+use standfast_sim::input::located::SourceText;
+use standfast_sim::input::rigfile::load_source;
+use standfast_sim::model::assess::{assess, AssessOptions, Condition};
+use standfast_sim::render::assess::write_text;
 
 const DEMO: &str = include_str!("../../demo/rig.toml");
 

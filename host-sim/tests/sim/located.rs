@@ -4,8 +4,8 @@
 //! (1-based, as editors and compilers show them).
 
 use serde::Deserialize;
-use standfast_sim::located::SourceText;
-use standfast_sim::units::{Length, Mass};
+use standfast_sim::input::located::SourceText;
+use standfast_sim::input::units::{Length, Mass};
 use toml::Spanned;
 
 #[derive(Debug, Deserialize)]

@@ -10,8 +10,8 @@ use std::io::Cursor;
 use std::io::Read;
 use std::path::Path;
 
-use standfast_sim::located::SourceText;
-use standfast_sim::log::{
+use standfast_sim::input::located::SourceText;
+use standfast_sim::input::log::{
     Channel, ErrorPolicy, IssueKind, LogProfile, Merger, PierSide, SampleRecord,
 };
 use standfast_sim::Error;
@@ -101,9 +101,15 @@ impl Lcg {
 const T0: i64 = 1_763_154_000; // 2025-11-14T21:00:00Z
 
 fn iso(ns: i64, offset_s: i64, zone: bool) -> String {
-    let t = standfast_sim::log::Timestamp::from_unix_ns(ns);
+    let t = standfast_sim::input::log::Timestamp::from_unix_ns(ns);
     let mut s = String::new();
-    standfast_sim::log::time::write_iso8601(&mut s, t, 9, i32::try_from(offset_s).unwrap(), zone);
+    standfast_sim::input::log::time::write_iso8601(
+        &mut s,
+        t,
+        9,
+        i32::try_from(offset_s).unwrap(),
+        zone,
+    );
     s
 }
 

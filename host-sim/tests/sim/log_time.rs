@@ -5,8 +5,8 @@
 //! days, 10 957 days × 86 400 s); other instants are checked against the
 //! `time` crate's calendar (a reference library).
 
-use standfast_sim::log::time::{civil_from_days, days_from_civil, parse_offset};
-use standfast_sim::log::{TimeFormat, Timestamp};
+use standfast_sim::input::log::time::{civil_from_days, days_from_civil, parse_offset};
+use standfast_sim::input::log::{TimeFormat, Timestamp};
 
 const S: i64 = 1_000_000_000;
 

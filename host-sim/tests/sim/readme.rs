@@ -1,7 +1,7 @@
 //! The top-level README's rig file is the demo rig, and it loads.
 
-use standfast_sim::located::SourceText;
-use standfast_sim::rigfile;
+use standfast_sim::input::located::SourceText;
+use standfast_sim::input::rigfile;
 
 fn readme_rig() -> String {
     let readme = include_str!("../../../README.md");

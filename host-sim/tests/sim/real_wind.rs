@@ -17,8 +17,8 @@ use standfast::frame::Tilt;
 use standfast::mount::Pose;
 use standfast::rig::Conditions;
 use standfast::sense::{MeanWind, Millis, TerrainCategory, WindConfig};
-use standfast_sim::replay::DEMO_RIG_TOML;
-use standfast_sim::rigfile;
+use standfast_sim::commands::replay::DEMO_RIG_TOML;
+use standfast_sim::input::rigfile;
 
 fn data(name: &str) -> PathBuf {
     Path::new(env!("CARGO_MANIFEST_DIR"))

@@ -6,9 +6,10 @@ use std::process::Command;
 
 use standfast::guard::Stage;
 use standfast::sense::{Fault, Sensor};
-use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
-use standfast_sim::replay::{replay, ReplayOptions, ReplayReport, StageChange};
-use standfast_sim::rigfile::{self, LoadedRig};
+use standfast_sim::commands::replay::ReplayOutputs;
+use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::input::rigfile::{self, LoadedRig};
+use standfast_sim::model::replay::{replay, ReplayOptions, ReplayReport, StageChange};
 
 fn demo_rig() -> LoadedRig {
     rigfile::load(&Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")).unwrap()
@@ -109,7 +110,7 @@ fn run(profile: &Path, verdicts: Option<&Path>) -> ReplayReport {
                 std::slice::from_ref(&rig),
                 &mut m,
                 opts,
-                Some((&mut f, "verdicts")),
+                Some(&mut ReplayOutputs::new(Some((&mut f, "verdicts"))).unwrap()),
             )
             .unwrap()
         }
@@ -225,7 +226,7 @@ fn demo_command_runs_and_prints_the_cautions() {
         String::from_utf8_lossy(&out.stderr)
     );
     let text = String::from_utf8(out.stdout).unwrap();
-    for c in standfast_sim::assess::CAUTIONS {
+    for c in standfast_sim::cautions::CAUTIONS {
         assert!(text.contains(c), "{c} missing in\n{text}");
     }
     assert!(text.contains("Closest approach"), "{text}");

@@ -7,12 +7,16 @@ use std::path::{Path, PathBuf};
 use std::process::Command;
 
 use standfast::rig::Conditions;
-use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
-use standfast_sim::replay::{replay, ReplayOptions, ReplayReport};
-use standfast_sim::report::series::MAX_SERIES_POINTS;
-use standfast_sim::report::svg::{nice_step, polar_xy, ticks, time_step_s};
-use standfast_sim::report::{self, approach_conditions, tip_wind_by_direction};
-use standfast_sim::rigfile::{self, LoadedRig};
+use standfast_sim::commands::replay::ReplayOutputs;
+use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::input::rigfile::{self, LoadedRig};
+use standfast_sim::model::charts::{
+    self, approach_conditions, assess_charts, replay_charts, tip_wind_by_direction,
+};
+use standfast_sim::model::replay::{replay, ReplayOptions, ReplayReport};
+use standfast_sim::model::series::MAX_SERIES_POINTS;
+use standfast_sim::render::report;
+use standfast_sim::render::svg::{nice_step, polar_xy, ticks, time_step_s};
 
 fn demo_rig() -> LoadedRig {
     rigfile::load(&Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")).unwrap()
@@ -61,7 +65,7 @@ fn run(profile: &Path, rig: &LoadedRig, verdicts: &Path) -> ReplayReport {
         std::slice::from_ref(rig),
         &mut m,
         ReplayOptions { verdicts_every: 1 },
-        Some((&mut f, "verdicts")),
+        Some(&mut ReplayOutputs::new(Some((&mut f, "verdicts"))).unwrap()),
     )
     .unwrap()
 }
@@ -244,7 +248,10 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
     let profile = invented_log(dir.path());
     let rig = demo_rig();
     let rep = run(&profile, &rig, &dir.path().join("v.csv"));
-    let html = report::replay_html(&rep, std::slice::from_ref(&rig)).unwrap();
+    let html = report::replay_html(
+        &rep,
+        &replay_charts(&rep, std::slice::from_ref(&rig)).unwrap(),
+    );
     let doc = parse(&html);
     assert_self_contained(&html, &doc);
     let svgs: Vec<_> = doc
@@ -327,8 +334,8 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
     assert_eq!(
         cautions(&doc),
         [
-            standfast_sim::assess::CAUTIONS,
-            standfast_sim::assess::CAUTIONS
+            standfast_sim::cautions::CAUTIONS,
+            standfast_sim::cautions::CAUTIONS
         ]
         .concat()
     );
@@ -337,9 +344,12 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
 #[test]
 fn assess_report_holds_both_polar_traces_and_the_torque_maps() {
     let rig = demo_rig();
-    let rep = standfast_sim::assess::assess(&rig, &standfast_sim::assess::AssessOptions::default())
-        .unwrap();
-    let html = report::assess_html(&rep, &rig).unwrap();
+    let rep = standfast_sim::model::assess::assess(
+        &rig,
+        &standfast_sim::model::assess::AssessOptions::default(),
+    )
+    .unwrap();
+    let html = report::assess_html(&rep, &assess_charts(&rep, &rig).unwrap()).unwrap();
     let doc = parse(&html);
     assert_self_contained(&html, &doc);
     let svgs: Vec<_> = doc
@@ -382,7 +392,7 @@ fn assess_report_holds_both_polar_traces_and_the_torque_maps() {
         .filter(|n| n.has_tag_name("rect") && class_is(n, "cell"))
         .count();
     assert_eq!(cells, 2 * 25 * 13);
-    let (maps, rated) = report::torque_map(&rig);
+    let (maps, rated) = charts::torque_map(&rig);
     assert!(rated);
     // One cell computed here: hour angle +3 h (45°, tube east, the usual side
     // west of the meridian), declination +30° (row 4 from +90°, column 15
@@ -404,8 +414,8 @@ fn assess_report_holds_both_polar_traces_and_the_torque_maps() {
     assert_eq!(
         cautions(&doc),
         [
-            standfast_sim::assess::CAUTIONS,
-            standfast_sim::assess::CAUTIONS
+            standfast_sim::cautions::CAUTIONS,
+            standfast_sim::cautions::CAUTIONS
         ]
         .concat()
     );

@@ -1,8 +1,8 @@
 //! `standfast rig-image`: the rig image of the C ABI (`core/ffi`).
 
 use standfast_ffi::image;
-use standfast_sim::rig_image::{image_bytes, run, RigImageArgs};
-use standfast_sim::rigfile;
+use standfast_sim::commands::rig_image::{image_bytes, run, RigImageArgs};
+use standfast_sim::input::rigfile;
 use std::path::PathBuf;
 
 fn root() -> PathBuf {

@@ -2,9 +2,11 @@
 //! reach the core converted.
 
 use standfast::mount::MountKind;
-use standfast_sim::assess::{assess, write_text, AssessOptions, CAUTIONS};
-use standfast_sim::located::{InputError, SourceText};
-use standfast_sim::rigfile::{load, load_source};
+use standfast_sim::cautions::CAUTIONS;
+use standfast_sim::input::located::{InputError, SourceText};
+use standfast_sim::input::rigfile::{load, load_source};
+use standfast_sim::model::assess::{assess, AssessOptions};
+use standfast_sim::render::assess::write_text;
 
 const DEMO: &str = include_str!("../../demo/rig.toml");
 

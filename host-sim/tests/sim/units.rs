@@ -6,7 +6,7 @@
 //! alphabetically" (exact values printed in bold there are marked "exact"
 //! below). 3rd CGPM (1901): standard acceleration of gravity 9.806 65 m/s².
 
-use standfast_sim::units::{
+use standfast_sim::input::units::{
     Acceleration, Angle, Area, Dim, Duration, Force, Length, Mass, Pressure, Speed, Temperature,
     Torque, UnitError,
 };

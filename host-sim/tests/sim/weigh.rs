@@ -9,8 +9,8 @@ use std::process::Command;
 use standfast::math::STANDARD_GRAVITY_MPS2;
 use standfast::rig::{Conditions, Rig};
 use standfast::Tilt;
-use standfast_sim::located::SourceText;
-use standfast_sim::rigfile;
+use standfast_sim::input::located::SourceText;
+use standfast_sim::input::rigfile;
 
 fn demo_rig_path() -> PathBuf {
     Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")
@@ -169,7 +169,7 @@ fn weigh_refuses_bad_readings_and_never_writes_over_its_inputs() {
         .output()
         .unwrap();
     // An output over an input is a command-line error, refused before
-    // anything is read (exit 2, host-sim/src/output.rs).
+    // anything is read (exit 2, host-sim/src/commands/output.rs).
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("is the same file as the rig file"));
     assert_eq!(std::fs::read(&copy).unwrap(), before);
@@ -269,11 +269,11 @@ fn orientation_advice_uses_the_weighed_centre() {
         .unwrap();
     assert!(out.status.success());
     let loaded = rigfile::load(&out_rig).unwrap();
-    let o = standfast_sim::assess::AssessOptions {
+    let o = standfast_sim::model::assess::AssessOptions {
         storm_from_deg: 90.0,
-        ..standfast_sim::assess::AssessOptions::default()
+        ..standfast_sim::model::assess::AssessOptions::default()
     };
-    let rep = standfast_sim::assess::assess(&loaded, &o).unwrap();
+    let rep = standfast_sim::model::assess::assess(&loaded, &o).unwrap();
     let t = rep.orientation.unwrap();
     let row = rep
         .home_by_direction
@@ -304,7 +304,7 @@ fn what_if_variants_of_a_weighed_rig_are_refused() {
         .unwrap();
     assert!(out.status.success());
     let loaded = rigfile::load(&out_rig).unwrap();
-    let e = standfast_sim::whatif::variant_from_texts(&loaded, &["cover=off".to_owned()])
+    let e = standfast_sim::model::whatif::variant_from_texts(&loaded, &["cover=off".to_owned()])
         .unwrap_err()
         .to_string();
     assert!(e.contains("[measured]"), "{e}");

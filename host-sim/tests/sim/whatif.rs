@@ -7,10 +7,10 @@ use std::process::Command;
 
 use standfast::frame::Tilt;
 use standfast::rig::Conditions;
-use standfast_sim::log::{ErrorPolicy, LogProfile, Merger};
-use standfast_sim::replay::{replay, ReplayOptions, ReplayReport};
-use standfast_sim::rigfile::{self, LoadedRig};
-use standfast_sim::whatif::{self, CoverMode, Override};
+use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::input::rigfile::{self, LoadedRig};
+use standfast_sim::model::replay::{replay, ReplayOptions, ReplayReport};
+use standfast_sim::model::whatif::{self, CoverMode, Override};
 
 fn demo_rig_path() -> PathBuf {
     Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")
@@ -168,7 +168,7 @@ fn a_lower_park_threshold_parks_earlier() {
         f64::from(b.overturning_utilisation.unwrap()),
         1e-6,
     );
-    let text = cmp.text();
+    let text = standfast_sim::render::whatif::comparison_text(&cmp);
     assert!(text.contains("A = ") && text.contains("B = "), "{text}");
     assert!(text.contains("park_utilisation=0.55"), "{text}");
     assert!(text.contains("first park request"), "{text}");

@@ -1,0 +1,443 @@
+//! Binned wind statistics from an anemometer ([`WindStats`]): the 3-second
+//! gust from fine bins, the 10-minute mean, peak gust, gust factor and the
+//! circular mean of direction from coarse bins, in fixed memory.
+
+use crate::error::Error;
+use crate::math;
+use crate::sense::fault::{Fault, FaultSet, Sensor};
+use crate::sense::{ms_to_s, s_to_ms, Millis};
+
+use super::channel::{check_direction, check_speed, Channel, FaultLimits};
+use super::config::{GustBasis, WindConfig, WindDirection, WindReport};
+
+/// Number of fine bins in the 3-second gust window (WMO-No. 8 §5.8.2: 3 s =
+/// 12 × 0.25 s).
+pub const FINE_BINS: usize = 12;
+/// Width of a fine bin, ms (WMO-No. 8 §5.8.3: 4 Hz sampling for gusts).
+pub const FINE_BIN_MS: u64 = 250;
+/// Number of coarse bins in the 10-minute window.
+pub const COARSE_BINS: usize = 60;
+/// Width of a coarse bin, ms.
+pub const COARSE_BIN_MS: u64 = 10_000;
+/// Length of the mean window, ms (WMO-No. 8 §5.1.1: 10 min).
+const MEAN_WINDOW_MS: u64 = 600_000;
+
+#[derive(Clone, Copy, Debug, Default)]
+struct FineBin {
+    id: u64,
+    sum_mps: f32,
+    count: u32,
+}
+
+#[derive(Clone, Copy, Debug, Default)]
+struct CoarseBin {
+    id: u64,
+    sum_mps: f32,
+    count: u32,
+    calm_count: u32,
+    /// Largest 3-s mean ending in this bin; negative when none.
+    gust_max_mps: f32,
+    dir_sin: f32,
+    dir_cos: f32,
+    dir_count: u32,
+}
+
+impl CoarseBin {
+    const fn empty(id: u64) -> Self {
+        CoarseBin {
+            id,
+            sum_mps: 0.0,
+            count: 0,
+            calm_count: 0,
+            gust_max_mps: -1.0,
+            dir_sin: 0.0,
+            dir_cos: 0.0,
+            dir_count: 0,
+        }
+    }
+}
+
+/// Ring-buffer slot of absolute bin number `id`.
+fn slot(id: u64, n: usize) -> usize {
+    let n64 = u64::try_from(n).unwrap_or(1).max(1);
+    usize::try_from(id % n64).unwrap_or(0)
+}
+
+/// Number of whole coarse bins covering `s` seconds, 1 to [`COARSE_BINS`].
+fn coarse_bins_for(s: f32) -> u64 {
+    let ms = s_to_ms(s);
+    let n = ms.div_ceil(COARSE_BIN_MS).max(1);
+    n.min(u64::try_from(COARSE_BINS).unwrap_or(60))
+}
+
+/// Wind statistics from speed and direction samples at any rate.
+///
+/// Memory: `core::mem::size_of::<WindStats>()` is a compile-time constant
+/// below 3 KiB (2800 bytes on x86-64: 12 fine bins, 60 coarse bins and the configuration;
+/// checked by a unit test); nothing is allocated.
+#[derive(Clone, Debug)]
+pub struct WindStats {
+    config: WindConfig,
+    height_factor: f32,
+    start: Millis,
+    first_sample: Option<Millis>,
+    last_sample: Option<Millis>,
+    /// Absolute number of the newest fine bin holding data.
+    newest_fine: Option<u64>,
+    fine: [FineBin; FINE_BINS],
+    coarse: [CoarseBin; COARSE_BINS],
+    latest_gust_mps: Option<f32>,
+    speed: Channel,
+    direction: Channel,
+    /// Fault time limits, computed once from the configuration.
+    limits: FaultLimits,
+}
+
+impl WindStats {
+    /// Statistics started at `now` (stale time counts from here).
+    ///
+    /// # Errors
+    /// As [`WindConfig::validate`].
+    pub fn new(config: WindConfig, now: Millis) -> Result<Self, Error> {
+        config.validate()?;
+        Ok(WindStats {
+            config,
+            height_factor: config.height_factor()?,
+            start: now,
+            first_sample: None,
+            last_sample: None,
+            newest_fine: None,
+            fine: [FineBin {
+                id: u64::MAX,
+                ..FineBin::default()
+            }; FINE_BINS],
+            coarse: [CoarseBin::empty(u64::MAX); COARSE_BINS],
+            latest_gust_mps: None,
+            speed: Channel::new(now),
+            direction: Channel::new(now),
+            limits: FaultLimits::of(&config),
+        })
+    }
+
+    /// The configuration in use.
+    #[must_use]
+    pub fn config(&self) -> &WindConfig {
+        &self.config
+    }
+
+    /// The height factor applied to every speed (anemometer → rig).
+    #[must_use]
+    pub fn height_factor(&self) -> f32 {
+        self.height_factor
+    }
+
+    /// Feeds one sample taken at `now`: speed at the anemometer in m/s and,
+    /// if the source has one, the direction the wind blows *from* in radians
+    /// from north clockwise, 0 to 2π.
+    ///
+    /// # Errors
+    /// The rejected part and the reason: [`Fault::TimeReversed`] (whole
+    /// sample dropped), [`Fault::NotFinite`] or [`Fault::OutOfRange`] of the
+    /// speed (whole sample dropped) or of the direction (the speed is still
+    /// used, the direction dropped).
+    pub fn push(
+        &mut self,
+        now: Millis,
+        speed_mps: f32,
+        from_rad: Option<f32>,
+    ) -> Result<(), Fault> {
+        if self.last_sample.is_some_and(|t| now < t) {
+            return Err(Fault::TimeReversed {
+                sensor: Sensor::WindSpeed,
+            });
+        }
+        self.last_sample = Some(now);
+        let speed = match check_speed(speed_mps, &self.config) {
+            Ok(s) => s,
+            Err(f) => {
+                self.speed.reject(now, f);
+                return Err(f);
+            }
+        };
+        self.speed.accept(now, speed, speed > 0.0);
+        let calm = speed < self.config.calm_below_mps;
+        let dir = match from_rad.map(check_direction) {
+            Some(Ok(d)) => {
+                self.direction.accept(now, d, !calm);
+                Ok(Some(d))
+            }
+            Some(Err(f)) => {
+                self.direction.reject(now, f);
+                Err(f)
+            }
+            None => Ok(None),
+        };
+        self.add(now, speed * self.height_factor, calm, dir.unwrap_or(None));
+        dir.map(|_| ())
+    }
+
+    fn add(&mut self, now: Millis, v_mps: f32, calm: bool, from_rad: Option<f32>) {
+        if self.first_sample.is_none() {
+            self.first_sample = Some(now);
+        }
+        let b = now.0 / FINE_BIN_MS;
+        if let Some(c) = self.newest_fine {
+            if b > c {
+                // Close the boundaries after bins c ..= b−1 (at most 12 can
+                // still hold data in their window).
+                let last = (b - 1).min(c.saturating_add(11));
+                let mut k = c;
+                while k <= last {
+                    if let Some(m) = self.fine_mean_ending(k) {
+                        self.record_gust(k, m);
+                    }
+                    k = k.saturating_add(1);
+                }
+            }
+        }
+        if self.newest_fine.is_none_or(|c| b >= c) {
+            self.newest_fine = Some(b);
+        }
+        if let Some(f) = self.fine.get_mut(slot(b, FINE_BINS)) {
+            if f.id != b {
+                *f = FineBin {
+                    id: b,
+                    sum_mps: 0.0,
+                    count: 0,
+                };
+            }
+            f.sum_mps += v_mps;
+            f.count = f.count.saturating_add(1);
+        }
+        let cb = self.coarse_mut(now.0 / COARSE_BIN_MS);
+        if let Some(cb) = cb {
+            cb.sum_mps += v_mps;
+            cb.count = cb.count.saturating_add(1);
+            if calm {
+                cb.calm_count = cb.calm_count.saturating_add(1);
+            } else if let Some(d) = from_rad {
+                cb.dir_sin += math::sin(d);
+                cb.dir_cos += math::cos(d);
+                cb.dir_count = cb.dir_count.saturating_add(1);
+            }
+        }
+    }
+
+    /// The coarse bin of absolute number `id`, emptied first if its slot
+    /// held an older bin.
+    fn coarse_mut(&mut self, id: u64) -> Option<&mut CoarseBin> {
+        let cb = self.coarse.get_mut(slot(id, COARSE_BINS))?;
+        if cb.id != id {
+            *cb = CoarseBin::empty(id);
+        }
+        Some(cb)
+    }
+
+    /// Mean of the samples in fine bins k−11 ..= k, if the record already
+    /// spans the whole window and the window holds a sample.
+    fn fine_mean_ending(&self, k: u64) -> Option<f32> {
+        let first = self.first_sample?.0 / FINE_BIN_MS;
+        let n = u64::try_from(FINE_BINS).unwrap_or(12);
+        if k < first.saturating_add(n - 1) {
+            return None;
+        }
+        let lo = k.saturating_add(1).saturating_sub(n);
+        let (sum, count) = self
+            .fine
+            .iter()
+            .filter(|f| f.id >= lo && f.id <= k)
+            .fold((0.0_f32, 0_u32), |(s, c), f| {
+                (s + f.sum_mps, c.saturating_add(f.count))
+            });
+        (count > 0).then(|| sum / count_f32(count))
+    }
+
+    fn record_gust(&mut self, k: u64, m: f32) {
+        self.latest_gust_mps = Some(m);
+        if let Some(cb) = self.coarse_mut(k.saturating_mul(FINE_BIN_MS) / COARSE_BIN_MS) {
+            if m > cb.gust_max_mps {
+                cb.gust_max_mps = m;
+            }
+        }
+    }
+
+    /// Coarse bins within the last `n` bins up to and including the one
+    /// containing `now`.
+    fn recent(&self, now: Millis, n: u64) -> impl Iterator<Item = &CoarseBin> {
+        let cur = now.0 / COARSE_BIN_MS;
+        let lo = cur.saturating_add(1).saturating_sub(n);
+        self.coarse
+            .iter()
+            .filter(move |b| b.id >= lo && b.id <= cur)
+    }
+
+    /// The latest 3-s running mean at rig height as of `now`, m/s: the
+    /// same value as [`WindReport::gust_3s_mps`] of [`WindStats::report`]
+    /// at `now`, without the rest of the report (a dozen bins summed
+    /// instead of the peak, mean and direction windows). `None` with no
+    /// sample in the last 3 s or before 3 s of record.
+    #[must_use]
+    pub fn gust_3s_mps(&self, now: Millis) -> Option<f32> {
+        let now_bin = now.0 / FINE_BIN_MS;
+        match self.newest_fine {
+            Some(c) if now_bin >= c => self.fine_mean_ending(now_bin),
+            _ => None,
+        }
+    }
+
+    /// The statistics as of `now` (normally the time of the latest sample).
+    #[must_use]
+    pub fn report(&self, now: Millis) -> WindReport {
+        // 3-s means at the boundaries not yet closed by a later sample.
+        let now_bin = now.0 / FINE_BIN_MS;
+        let mut gust_now = None;
+        let mut open_peak: Option<f32> = None;
+        if let Some(c) = self.newest_fine {
+            let last = now_bin.min(c.saturating_add(11));
+            let mut k = c;
+            while k <= last {
+                if let Some(m) = self.fine_mean_ending(k) {
+                    open_peak = Some(open_peak.map_or(m, |p| p.max(m)));
+                }
+                k = k.saturating_add(1);
+            }
+            if now_bin >= c {
+                gust_now = self.fine_mean_ending(now_bin);
+            }
+        }
+        let peak_n = coarse_bins_for(self.config.peak_window_s);
+        let closed_peak = self
+            .recent(now, peak_n)
+            .map(|b| b.gust_max_mps)
+            .filter(|g| *g >= 0.0)
+            .fold(None, |acc: Option<f32>, g| {
+                Some(acc.map_or(g, |a| a.max(g)))
+            });
+        let peak = match (closed_peak, open_peak) {
+            (Some(a), Some(b)) => Some(a.max(b)),
+            (a, b) => a.or(b),
+        };
+        let mean_n = MEAN_WINDOW_MS / COARSE_BIN_MS;
+        let (sum, count) = self
+            .recent(now, mean_n)
+            .fold((0.0_f32, 0_u32), |(s, c), b| {
+                (s + b.sum_mps, c.saturating_add(b.count))
+            });
+        let mean = (count > 0).then(|| sum / count_f32(count));
+        let mean_span_s = self
+            .first_sample
+            .map_or(0.0, |f| ms_to_s(now.since(f).min(MEAN_WINDOW_MS)));
+        let gust_factor = match (peak, mean) {
+            (Some(p), Some(m)) if m >= self.config.calm_below_mps && m > 0.0 => Some(p / m),
+            _ => None,
+        };
+        WindReport {
+            gust_3s_mps: gust_now,
+            peak_gust_mps: peak,
+            mean_10min_mps: mean,
+            mean_span_s,
+            gust_factor,
+            direction: self.direction_summary(now),
+            basis: GustBasis::Measured,
+        }
+    }
+
+    fn direction_summary(&self, now: Millis) -> WindDirection {
+        let n = coarse_bins_for(self.config.direction_window_s);
+        let (mut count, mut calm, mut dn) = (0_u32, 0_u32, 0_u32);
+        let (mut s, mut c) = (0.0_f32, 0.0_f32);
+        for b in self.recent(now, n) {
+            count = count.saturating_add(b.count);
+            calm = calm.saturating_add(b.calm_count);
+            dn = dn.saturating_add(b.dir_count);
+            s += b.dir_sin;
+            c += b.dir_cos;
+        }
+        if count == 0 {
+            return WindDirection::NoData;
+        }
+        if calm.saturating_mul(2) > count {
+            return WindDirection::Calm;
+        }
+        if dn == 0 {
+            return WindDirection::Unknown;
+        }
+        let (from_rad, spread_rad, resultant_length) = circular_stats(s, c, dn);
+        if spread_rad > self.config.variable_spread_rad {
+            WindDirection::Variable {
+                from_rad,
+                spread_rad,
+                resultant_length,
+            }
+        } else {
+            WindDirection::Defined {
+                from_rad,
+                spread_rad,
+                resultant_length,
+            }
+        }
+    }
+
+    /// The faults active at `now`: rejected latest samples, stale or stuck
+    /// speed and direction channels.
+    #[must_use]
+    pub fn faults(&self, now: Millis) -> FaultSet {
+        let mut set = FaultSet::new();
+        self.faults_into(now, &mut set);
+        set
+    }
+
+    /// Adds the faults of [`WindStats::faults`] to `set` (no set built and
+    /// copied on every step).
+    pub(crate) fn faults_into(&self, now: Millis, set: &mut FaultSet) {
+        let c = &self.config;
+        let l = self.limits;
+        self.speed
+            .faults(set, Sensor::WindSpeed, now, self.start, l);
+        if c.expect_direction {
+            self.direction
+                .faults(set, Sensor::WindDirection, now, self.start, l);
+        } else if let Some(f) = self.direction.rejection {
+            set.push(f);
+        }
+    }
+}
+
+/// `u32 → f32`; exact below 2²⁴, nearest above (counts here stay far below).
+#[allow(clippy::cast_precision_loss)]
+fn count_f32(n: u32) -> f32 {
+    n as f32
+}
+
+/// Circular mean direction (radians, [0, 2π)), circular standard deviation
+/// √(−2 ln R̄) (radians) and mean resultant length R̄ from sums of sin and
+/// cos over `n` unit vectors (Mardia & Jupp, *Directional Statistics*, 2000,
+/// §2.2–2.3, from memory).
+fn circular_stats(sum_sin: f32, sum_cos: f32, n: u32) -> (f32, f32, f32) {
+    let r = math::clamp(
+        math::hypot(sum_sin, sum_cos) / count_f32(n.max(1)),
+        0.0,
+        1.0,
+    );
+    let mean = math::wrap_tau(math::atan2(sum_sin, sum_cos));
+    let spread = if r > 0.0 {
+        math::sqrt((-2.0 * math::ln(r)).max(0.0))
+    } else {
+        f32::INFINITY
+    };
+    (mean, spread, r)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn slot_wraps() {
+        assert_eq!(slot(12, FINE_BINS), 0);
+        assert_eq!(slot(61, COARSE_BINS), 1);
+        assert_eq!(coarse_bins_for(600.0), 60);
+        assert_eq!(coarse_bins_for(15.0), 2);
+        assert_eq!(coarse_bins_for(0.0), 1);
+    }
+}

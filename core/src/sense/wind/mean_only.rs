@@ -1,0 +1,127 @@
+//! A wind source that reports only mean speeds ([`MeanWind`]): the gust is
+//! the mean times a gust factor.
+
+use crate::error::Error;
+use crate::sense::fault::{Fault, FaultSet, Sensor};
+use crate::sense::Millis;
+
+use super::channel::{check_direction, check_speed, Channel, FaultLimits};
+use super::config::{GustBasis, WindConfig, WindDirection, WindReport};
+use super::profile::gust_from_mean;
+
+/// Wind from a source that gives only mean speeds (for example 10-minute
+/// statistics of a remote station): the gust is the mean times the
+/// configured gust factor (`mean_gust_factor`, chosen by terrain).
+///
+/// Memory: a compile-time constant below 192 bytes; nothing is allocated.
+#[derive(Clone, Debug)]
+pub struct MeanWind {
+    config: WindConfig,
+    height_factor: f32,
+    start: Millis,
+    latest: Option<(Millis, f32)>,
+    latest_from_rad: Option<f32>,
+    speed: Channel,
+    direction: Channel,
+}
+
+impl MeanWind {
+    /// A mean-only source started at `now`.
+    ///
+    /// # Errors
+    /// As [`WindConfig::validate`].
+    pub fn new(config: WindConfig, now: Millis) -> Result<Self, Error> {
+        config.validate()?;
+        Ok(MeanWind {
+            config,
+            height_factor: config.height_factor()?,
+            start: now,
+            latest: None,
+            latest_from_rad: None,
+            speed: Channel::new(now),
+            direction: Channel::new(now),
+        })
+    }
+
+    /// Feeds one reported 10-minute mean speed at the anemometer (m/s) and,
+    /// if given, its mean from-direction (radians from north clockwise).
+    ///
+    /// # Errors
+    /// As [`WindStats::push`](crate::sense::WindStats::push).
+    pub fn push(&mut self, now: Millis, mean_mps: f32, from_rad: Option<f32>) -> Result<(), Fault> {
+        if self.latest.is_some_and(|(t, _)| now < t) {
+            return Err(Fault::TimeReversed {
+                sensor: Sensor::WindSpeed,
+            });
+        }
+        let mean = match check_speed(mean_mps, &self.config) {
+            Ok(m) => m,
+            Err(f) => {
+                self.speed.reject(now, f);
+                return Err(f);
+            }
+        };
+        self.speed.accept(now, mean, mean > 0.0);
+        self.latest = Some((now, mean * self.height_factor));
+        let calm = mean < self.config.calm_below_mps;
+        match from_rad.map(check_direction) {
+            Some(Ok(d)) => {
+                self.direction.accept(now, d, !calm);
+                self.latest_from_rad = Some(d);
+                Ok(())
+            }
+            Some(Err(f)) => {
+                self.direction.reject(now, f);
+                self.latest_from_rad = None;
+                Err(f)
+            }
+            None => {
+                self.latest_from_rad = None;
+                Ok(())
+            }
+        }
+    }
+
+    /// The estimate from the latest mean (stale data is flagged by
+    /// [`MeanWind::faults`], not hidden here).
+    #[must_use]
+    pub fn report(&self, _now: Millis) -> WindReport {
+        let factor = self.config.mean_gust_factor;
+        let mean = self.latest.map(|(_, m)| m);
+        let gust = mean.map(|m| gust_from_mean(m, factor));
+        let direction = match (mean, self.latest_from_rad) {
+            (None, _) => WindDirection::NoData,
+            (Some(m), _) if m < self.config.calm_below_mps * self.height_factor => {
+                WindDirection::Calm
+            }
+            (Some(_), Some(d)) => WindDirection::Reported { from_rad: d },
+            (Some(_), None) => WindDirection::Unknown,
+        };
+        WindReport {
+            gust_3s_mps: gust,
+            peak_gust_mps: gust,
+            mean_10min_mps: mean,
+            mean_span_s: if mean.is_some() { 600.0 } else { 0.0 },
+            gust_factor: mean.map(|_| factor),
+            direction,
+            basis: GustBasis::FromMean { factor },
+        }
+    }
+
+    /// The faults active at `now` (as [`WindStats::faults`](crate::sense::WindStats::faults)).
+    #[must_use]
+    pub fn faults(&self, now: Millis) -> FaultSet {
+        let mut set = FaultSet::new();
+        let c = &self.config;
+        let l = FaultLimits::of(c);
+        self.speed
+            .faults(&mut set, Sensor::WindSpeed, now, self.start, l);
+        if c.expect_direction {
+            self.direction
+                .faults(&mut set, Sensor::WindDirection, now, self.start, l);
+        } else if let Some(f) = self.direction.rejection {
+            set.push(f);
+        }
+        set
+    }
+}

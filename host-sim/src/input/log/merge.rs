@@ -1,0 +1,189 @@
+//! Streaming k-way merge of several logs by time.
+
+use std::io::Read;
+
+use super::profile::LogProfile;
+use super::record::{Channel, ChannelSet, SampleRecord, N_CHANNELS};
+use super::source::{CsvSource, Row};
+use super::time::Timestamp;
+use crate::input::error::Error;
+use crate::input::issues::{ErrorPolicy, IssueLog};
+
+/// Merges the files of a [`LogProfile`] into one time-ordered stream of
+/// [`SampleRecord`]s.
+///
+/// Each source holds one row of look-ahead, so memory is fixed whatever the
+/// length of the logs. Rows of several files with the same time stamp go
+/// into one record. A channel's value holds until its file gives a new one.
+///
+/// As an iterator it yields `Result`s and stops after the first error.
+#[derive(Debug)]
+pub struct Merger {
+    sources: Vec<CsvSource>,
+    heads: Vec<Option<Row>>,
+    values: [f64; N_CHANNELS],
+    last_update: [Option<Timestamp>; N_CHANNELS],
+    policy: ErrorPolicy,
+    issues: IssueLog,
+    records: u64,
+    rows: u64,
+    done: bool,
+    /// An error met while reading ahead, returned after the record that
+    /// was complete before it.
+    pending: Option<Error>,
+}
+
+impl Merger {
+    /// Opens every file of the profile.
+    ///
+    /// # Errors
+    /// [`Error::Io`] when a file cannot be opened, [`Error::Input`] when a
+    /// header lacks a column, [`Error::Log`] when the first row of a file is
+    /// bad under [`ErrorPolicy::Stop`].
+    pub fn open(profile: &LogProfile, policy: ErrorPolicy) -> Result<Merger, Error> {
+        let sources = profile
+            .files
+            .iter()
+            .map(CsvSource::open)
+            .collect::<Result<Vec<_>, _>>()?;
+        Merger::from_sources(sources, policy)
+    }
+
+    /// Merges in-memory or other streams, one per profile file, in the
+    /// profile's order.
+    ///
+    /// # Errors
+    /// As [`Merger::open`].
+    pub fn from_readers(
+        profile: &LogProfile,
+        readers: Vec<Box<dyn Read>>,
+        policy: ErrorPolicy,
+    ) -> Result<Merger, Error> {
+        let sources = profile
+            .files
+            .iter()
+            .zip(readers)
+            .map(|(f, r)| CsvSource::from_reader(f, r))
+            .collect::<Result<Vec<_>, _>>()?;
+        Merger::from_sources(sources, policy)
+    }
+
+    /// Merges already opened sources.
+    ///
+    /// # Errors
+    /// [`Error::Log`] or [`Error::Io`] from reading the first rows.
+    pub fn from_sources(mut sources: Vec<CsvSource>, policy: ErrorPolicy) -> Result<Merger, Error> {
+        let mut issues = IssueLog::default();
+        let mut heads = Vec::with_capacity(sources.len());
+        for s in &mut sources {
+            heads.push(s.next_row(policy, &mut issues)?);
+        }
+        Ok(Merger {
+            sources,
+            heads,
+            values: [f64::NAN; N_CHANNELS],
+            last_update: [None; N_CHANNELS],
+            policy,
+            issues,
+            records: 0,
+            rows: 0,
+            done: false,
+            pending: None,
+        })
+    }
+
+    /// Problems found so far.
+    #[must_use]
+    pub fn issues(&self) -> &IssueLog {
+        &self.issues
+    }
+
+    /// Records produced so far.
+    #[must_use]
+    pub fn records(&self) -> u64 {
+        self.records
+    }
+
+    /// Usable rows read so far (all files).
+    #[must_use]
+    pub fn rows(&self) -> u64 {
+        self.rows
+    }
+
+    /// The next merged record; `None` when every file is at its end.
+    ///
+    /// # Errors
+    /// [`Error::Log`] under [`ErrorPolicy::Stop`] at the first bad row;
+    /// [`Error::Io`] when a file cannot be read.
+    pub fn next_record(&mut self) -> Result<Option<SampleRecord>, Error> {
+        if let Some(e) = self.pending.take() {
+            return Err(e);
+        }
+        let Some(time) = self.heads.iter().flatten().map(|r| r.time).min() else {
+            return Ok(None);
+        };
+        let mut updated = ChannelSet::EMPTY;
+        for (head, source) in self.heads.iter_mut().zip(self.sources.iter_mut()) {
+            let Some(row) = head.as_ref() else { continue };
+            if row.time != time {
+                continue;
+            }
+            for ch in row.set.iter() {
+                if let (Some(v), Some(t)) = (
+                    self.values.get_mut(ch.index()),
+                    self.last_update.get_mut(ch.index()),
+                ) {
+                    *v = row.values.get(ch.index()).copied().unwrap_or(f64::NAN);
+                    *t = Some(time);
+                }
+            }
+            updated = updated.union(row.set);
+            self.rows += 1;
+            match source.next_row(self.policy, &mut self.issues) {
+                Ok(next) => *head = next,
+                Err(e) => {
+                    // Finish this record; the error comes with the next call.
+                    *head = None;
+                    if self.pending.is_none() {
+                        self.pending = Some(e);
+                    }
+                }
+            }
+        }
+        self.records += 1;
+        Ok(Some(SampleRecord::from_state(
+            time,
+            &self.values,
+            self.last_update,
+            updated,
+        )))
+    }
+
+    /// The latest value of a channel in the merge state (NaN before its
+    /// first).
+    #[must_use]
+    pub fn current(&self, ch: Channel) -> f64 {
+        self.values.get(ch.index()).copied().unwrap_or(f64::NAN)
+    }
+}
+
+impl Iterator for Merger {
+    type Item = Result<SampleRecord, Error>;
+
+    fn next(&mut self) -> Option<Self::Item> {
+        if self.done {
+            return None;
+        }
+        match self.next_record() {
+            Ok(Some(r)) => Some(Ok(r)),
+            Ok(None) => {
+                self.done = true;
+                None
+            }
+            Err(e) => {
+                self.done = true;
+                Some(Err(e))
+            }
+        }
+    }
+}

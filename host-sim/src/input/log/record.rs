@@ -1,0 +1,358 @@
+//! Channels of a log and the merged, timestamped sample record.
+
+use core::fmt;
+
+use super::time::Timestamp;
+use crate::input::units::Dim;
+
+/// Number of [`Channel`]s.
+pub const N_CHANNELS: usize = 13;
+
+/// A measured quantity a log column can carry.
+///
+/// Frames and conventions (values are SI after reading):
+/// * accelerometer: specific force in the rig frame (x east, y north, z up
+///   along the ground normal; see `standfast::frame`), m/s²; a level sensor
+///   at rest reads +9.81 m/s² on z. The profile's `accel_axes` maps the
+///   sensor's axes onto the rig frame.
+/// * wind direction: where the wind blows **from**, clockwise from north,
+///   rad (the meteorological convention).
+/// * hour angle: positive west of the meridian, rad; declination, rad.
+/// * axis 1 / axis 2: the mount's first (polar or azimuth) and second
+///   (declination or altitude) axis angles, rad, in the mount's own zero
+///   and sign (described in the rig file).
+/// * pier side: which side of the pier the optical tube is on.
+/// * cover fitted: whether the rig's cover is on.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+pub enum Channel {
+    /// Accelerometer, rig x (east), m/s².
+    AccelX,
+    /// Accelerometer, rig y (north), m/s².
+    AccelY,
+    /// Accelerometer, rig z (up), m/s².
+    AccelZ,
+    /// Horizontal wind speed, m/s.
+    WindSpeed,
+    /// Wind direction (from), rad clockwise from north.
+    WindDirection,
+    /// Mount hour angle, rad, positive west.
+    HourAngle,
+    /// Mount declination, rad.
+    Declination,
+    /// Pier side of the tube.
+    PierSide,
+    /// Mount axis 1 angle, rad.
+    Axis1Angle,
+    /// Mount axis 2 angle, rad.
+    Axis2Angle,
+    /// Cover fitted (true) or off (false).
+    CoverFitted,
+    /// Air temperature, K.
+    AirTemperature,
+    /// Air (station) pressure, Pa.
+    Pressure,
+}
+
+/// How a channel's cells are read.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ChannelKind {
+    /// A number with a unit of this dimension.
+    Quantity(Dim),
+    /// `east`/`e` or `west`/`w` (any case).
+    PierSide,
+    /// `1`/`0`, `true`/`false`, `yes`/`no`, `on`/`off` (any case).
+    Flag,
+}
+
+impl Channel {
+    /// All channels, in index order.
+    pub const ALL: [Channel; N_CHANNELS] = [
+        Channel::AccelX,
+        Channel::AccelY,
+        Channel::AccelZ,
+        Channel::WindSpeed,
+        Channel::WindDirection,
+        Channel::HourAngle,
+        Channel::Declination,
+        Channel::PierSide,
+        Channel::Axis1Angle,
+        Channel::Axis2Angle,
+        Channel::CoverFitted,
+        Channel::AirTemperature,
+        Channel::Pressure,
+    ];
+
+    /// Index in `0..N_CHANNELS`.
+    #[must_use]
+    pub fn index(self) -> usize {
+        self as usize
+    }
+
+    /// The name used in log profiles (`wind_speed`, ...).
+    #[must_use]
+    pub fn name(self) -> &'static str {
+        match self {
+            Channel::AccelX => "accel_x",
+            Channel::AccelY => "accel_y",
+            Channel::AccelZ => "accel_z",
+            Channel::WindSpeed => "wind_speed",
+            Channel::WindDirection => "wind_direction",
+            Channel::HourAngle => "hour_angle",
+            Channel::Declination => "declination",
+            Channel::PierSide => "pier_side",
+            Channel::Axis1Angle => "axis1_angle",
+            Channel::Axis2Angle => "axis2_angle",
+            Channel::CoverFitted => "cover_fitted",
+            Channel::AirTemperature => "air_temperature",
+            Channel::Pressure => "pressure",
+        }
+    }
+
+    /// How the channel's cells are read.
+    #[must_use]
+    pub fn kind(self) -> ChannelKind {
+        match self {
+            Channel::AccelX | Channel::AccelY | Channel::AccelZ => {
+                ChannelKind::Quantity(Dim::Acceleration)
+            }
+            Channel::WindSpeed => ChannelKind::Quantity(Dim::Speed),
+            Channel::WindDirection
+            | Channel::HourAngle
+            | Channel::Declination
+            | Channel::Axis1Angle
+            | Channel::Axis2Angle => ChannelKind::Quantity(Dim::Angle),
+            Channel::PierSide => ChannelKind::PierSide,
+            Channel::CoverFitted => ChannelKind::Flag,
+            Channel::AirTemperature => ChannelKind::Quantity(Dim::Temperature),
+            Channel::Pressure => ChannelKind::Quantity(Dim::Pressure),
+        }
+    }
+
+    /// Whether this is one of the three accelerometer channels.
+    #[must_use]
+    pub fn is_accel(self) -> bool {
+        matches!(self, Channel::AccelX | Channel::AccelY | Channel::AccelZ)
+    }
+
+    /// Reads a non-numeric cell ([`ChannelKind::PierSide`] or
+    /// [`ChannelKind::Flag`]) into its numeric code (pier side: east 0,
+    /// west 1; flag: 1 true, 0 false).
+    #[must_use]
+    pub fn parse_word(self, cell: &str) -> Option<f64> {
+        let c = cell.trim();
+        match self.kind() {
+            ChannelKind::PierSide => {
+                if c.eq_ignore_ascii_case("east") || c.eq_ignore_ascii_case("e") {
+                    Some(PierSide::East.code())
+                } else if c.eq_ignore_ascii_case("west") || c.eq_ignore_ascii_case("w") {
+                    Some(PierSide::West.code())
+                } else {
+                    None
+                }
+            }
+            ChannelKind::Flag => {
+                const YES: [&str; 4] = ["1", "true", "yes", "on"];
+                const NO: [&str; 4] = ["0", "false", "no", "off"];
+                if YES.iter().any(|w| c.eq_ignore_ascii_case(w)) {
+                    Some(1.0)
+                } else if NO.iter().any(|w| c.eq_ignore_ascii_case(w)) {
+                    Some(0.0)
+                } else {
+                    None
+                }
+            }
+            ChannelKind::Quantity(_) => None,
+        }
+    }
+
+    /// The channel named `name` in a profile.
+    #[must_use]
+    pub fn from_name(name: &str) -> Option<Channel> {
+        Channel::ALL.into_iter().find(|c| c.name() == name)
+    }
+}
+
+impl fmt::Display for Channel {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+/// Which side of the pier (or tripod head) the optical tube is on, seen from
+/// above.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+pub enum PierSide {
+    /// The tube is east of the pier.
+    East,
+    /// The tube is west of the pier.
+    West,
+}
+
+impl PierSide {
+    /// Numeric code used inside the merge: east 0, west 1.
+    #[must_use]
+    pub fn code(self) -> f64 {
+        match self {
+            PierSide::East => 0.0,
+            PierSide::West => 1.0,
+        }
+    }
+
+    /// From the numeric code (values ≥ 0.5 are west).
+    #[must_use]
+    pub fn from_code(c: f64) -> PierSide {
+        if c >= 0.5 {
+            PierSide::West
+        } else {
+            PierSide::East
+        }
+    }
+}
+
+/// A set of channels (bit `i` is channel index `i`).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]
+pub struct ChannelSet(u16);
+
+impl ChannelSet {
+    /// The empty set.
+    pub const EMPTY: ChannelSet = ChannelSet(0);
+
+    /// Whether `ch` is in the set.
+    #[must_use]
+    pub fn contains(self, ch: Channel) -> bool {
+        self.0 & (1 << ch.index()) != 0
+    }
+
+    /// Adds `ch`.
+    pub fn insert(&mut self, ch: Channel) {
+        self.0 |= 1 << ch.index();
+    }
+
+    /// The union of two sets.
+    #[must_use]
+    pub fn union(self, o: ChannelSet) -> ChannelSet {
+        ChannelSet(self.0 | o.0)
+    }
+
+    /// Whether the set is empty.
+    #[must_use]
+    pub fn is_empty(self) -> bool {
+        self.0 == 0
+    }
+
+    /// The channels in the set, in index order.
+    pub fn iter(self) -> impl Iterator<Item = Channel> {
+        Channel::ALL.into_iter().filter(move |c| self.contains(*c))
+    }
+}
+
+/// One merged sample: every channel's latest value at `time`.
+///
+/// A field is `None` until its channel has had a first value. Values hold
+/// until the next value of the same channel; [`SampleRecord::age_s`] says how
+/// old each is, so a consumer can treat a stale channel as a fault.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SampleRecord {
+    /// Time of this record (the time stamp of the rows merged into it).
+    pub time: Timestamp,
+    /// Accelerometer specific force in the rig frame (x east, y north, z
+    /// up), m/s²; present once all three axes have a value.
+    pub accel_mps2: Option<[f64; 3]>,
+    /// Horizontal wind speed, m/s.
+    pub wind_speed_mps: Option<f64>,
+    /// Direction the wind blows from, rad clockwise from north.
+    pub wind_from_rad: Option<f64>,
+    /// Mount hour angle, rad, positive west of the meridian.
+    pub hour_angle_rad: Option<f64>,
+    /// Mount declination, rad.
+    pub declination_rad: Option<f64>,
+    /// Side of the pier the tube is on.
+    pub pier_side: Option<PierSide>,
+    /// Mount axis 1 angle, rad (mount's own zero and sign).
+    pub axis1_rad: Option<f64>,
+    /// Mount axis 2 angle, rad (mount's own zero and sign).
+    pub axis2_rad: Option<f64>,
+    /// Whether the cover is fitted.
+    pub cover_fitted: Option<bool>,
+    /// Air temperature, K.
+    pub air_temperature_k: Option<f64>,
+    /// Air pressure, Pa.
+    pub pressure_pa: Option<f64>,
+    /// Channels that received a new value at exactly this time.
+    pub updated: ChannelSet,
+    /// Time of each channel's latest value (index [`Channel::index`]).
+    pub last_update: [Option<Timestamp>; N_CHANNELS],
+}
+
+impl SampleRecord {
+    /// A record from the merge state: `values[i]` is channel `i`'s latest
+    /// value (NaN when none yet).
+    #[must_use]
+    pub fn from_state(
+        time: Timestamp,
+        values: &[f64; N_CHANNELS],
+        last_update: [Option<Timestamp>; N_CHANNELS],
+        updated: ChannelSet,
+    ) -> SampleRecord {
+        let get = |c: Channel| {
+            let v = values.get(c.index()).copied().unwrap_or(f64::NAN);
+            (!v.is_nan()).then_some(v)
+        };
+        let accel = match (
+            get(Channel::AccelX),
+            get(Channel::AccelY),
+            get(Channel::AccelZ),
+        ) {
+            (Some(x), Some(y), Some(z)) => Some([x, y, z]),
+            _ => None,
+        };
+        SampleRecord {
+            time,
+            accel_mps2: accel,
+            wind_speed_mps: get(Channel::WindSpeed),
+            wind_from_rad: get(Channel::WindDirection),
+            hour_angle_rad: get(Channel::HourAngle),
+            declination_rad: get(Channel::Declination),
+            pier_side: get(Channel::PierSide).map(PierSide::from_code),
+            axis1_rad: get(Channel::Axis1Angle),
+            axis2_rad: get(Channel::Axis2Angle),
+            cover_fitted: get(Channel::CoverFitted).map(|v| v >= 0.5),
+            air_temperature_k: get(Channel::AirTemperature),
+            pressure_pa: get(Channel::Pressure),
+            updated,
+            last_update,
+        }
+    }
+
+    /// The channel's value as a number (pier side: east 0, west 1; cover:
+    /// 1 fitted, 0 off), `None` before its first value.
+    #[must_use]
+    pub fn value(&self, ch: Channel) -> Option<f64> {
+        let accel = |i: usize| self.accel_mps2.and_then(|a| a.get(i).copied());
+        match ch {
+            Channel::AccelX => accel(0),
+            Channel::AccelY => accel(1),
+            Channel::AccelZ => accel(2),
+            Channel::WindSpeed => self.wind_speed_mps,
+            Channel::WindDirection => self.wind_from_rad,
+            Channel::HourAngle => self.hour_angle_rad,
+            Channel::Declination => self.declination_rad,
+            Channel::PierSide => self.pier_side.map(PierSide::code),
+            Channel::Axis1Angle => self.axis1_rad,
+            Channel::Axis2Angle => self.axis2_rad,
+            Channel::CoverFitted => self.cover_fitted.map(|c| if c { 1.0 } else { 0.0 }),
+            Channel::AirTemperature => self.air_temperature_k,
+            Channel::Pressure => self.pressure_pa,
+        }
+    }
+
+    /// Seconds since the channel's latest value, `None` before its first.
+    #[must_use]
+    pub fn age_s(&self, ch: Channel) -> Option<f64> {
+        self.last_update
+            .get(ch.index())
+            .copied()
+            .flatten()
+            .map(|t| self.time.seconds_since(t))
+    }
+}

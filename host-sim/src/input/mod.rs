@@ -1,0 +1,19 @@
+//! The input layer: what the command reads, checked and located.
+//!
+//! From the bottom up: [`bounded`] (text quoted in messages), [`units`]
+//! (quantities with units at the boundary), [`issues`] (bad log rows),
+//! [`error`] (the crate's error, exit codes, located input errors),
+//! [`located`] (values that remember where they were written), [`log`]
+//! (log profiles, CSV logs and their merge by time), [`rigfile`] (the rig
+//! file). Nothing here computes a verdict, formats a report or knows the
+//! command line.
+
+pub mod bounded;
+pub mod error;
+pub mod issues;
+pub mod located;
+pub mod log;
+pub mod rigfile;
+pub mod samples;
+pub mod units;
+pub mod weighing;

@@ -1,0 +1,729 @@
+//! Replaying a night's logs through the guard.
+//!
+//! The merged [`SampleRecord`] stream of a [`Merger`] is fed, record by
+//! record, through one [`Guard`] per rig, exactly as a controller would feed
+//! live samples: only channels with a new value at a record's time become
+//! [`Inputs`]. Memory does not grow with the log: per rig the replay keeps
+//! the closest approach of each figure, the time per stage and (up to
+//! [`MAX_KEPT_EVENTS`]) the stage changes and faults. The guards run on a
+//! second thread, overlapping the reading of the logs (see [`replay`]).
+//!
+//! Conversions at the boundary (the log side is SI after the profile):
+//! * time: milliseconds since the first record ([`Millis`]);
+//! * accelerometer: m/s² in the rig frame → g (divided by standard gravity,
+//!   9.806 65 m/s², ISO 80000-3 / CGPM 1901); the guard's tilt processing is
+//!   set to samples in g with the identity mounting, because the log profile
+//!   already maps sensor axes and counts;
+//! * wind: m/s and radians (from, clockwise from north);
+//! * pose: axis angles when the log has them, else hour angle, declination
+//!   and pier side (tube east when the log gives no side).
+
+use serde::Serialize;
+use standfast::guard::{Event, Guard, Inputs, Stage, Verdict, WindSample};
+use standfast::mount::{PierSide as MountPierSide, Pose};
+use standfast::sense::Millis;
+use standfast::sense::Mounting;
+
+use crate::input::error::Error;
+use crate::input::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
+use crate::input::rigfile::{after_load_error, LoadedRig};
+use crate::input::units::{f32_of, STANDARD_GRAVITY_MPS2};
+use crate::model::figures::Figures;
+
+/// What could not be done when the core refuses a replay's guard (for
+/// [`after_load_error`]).
+const GUARD_FAILED: &str = "the guard cannot start";
+
+/// Most stage changes and faults kept per rig; beyond it only counts grow.
+pub const MAX_KEPT_EVENTS: usize = 1000;
+
+/// All guard stages in report order.
+pub const STAGES: [Stage; 5] = [
+    Stage::Clear,
+    Stage::Watch,
+    Stage::ParkNow,
+    Stage::Alarm,
+    Stage::SensorFault,
+];
+
+fn stage_index(s: Stage) -> usize {
+    match s {
+        Stage::Clear => 0,
+        Stage::Watch => 1,
+        Stage::ParkNow => 2,
+        Stage::Alarm => 3,
+        Stage::SensorFault => 4,
+    }
+}
+
+/// Options of a replay.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct ReplayOptions {
+    /// Write every n-th verdict to the verdict CSV (stage changes always);
+    /// 1 writes all.
+    pub verdicts_every: u64,
+}
+
+impl Default for ReplayOptions {
+    fn default() -> Self {
+        ReplayOptions { verdicts_every: 1 }
+    }
+}
+
+/// The conditions at a figure's highest value.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Approach {
+    /// The utilisation (1.0 is the limit), dimensionless.
+    pub utilisation: f32,
+    /// Time of the record, ISO 8601 UTC.
+    pub time: String,
+    /// Seconds since the first record.
+    pub t_s: f64,
+    /// Gust the figures were computed for, m/s at rig height.
+    pub gust_mps: Option<f32>,
+    /// Wind direction used (from), degrees clockwise from north.
+    pub wind_from_deg: Option<f32>,
+    /// Mount pose of the figures.
+    pub pose: Pose,
+    /// Ground tilt, degrees.
+    pub tilt_deg: Option<f32>,
+    /// Downhill azimuth of the tilt, degrees clockwise from north.
+    pub tilt_downhill_deg: Option<f32>,
+    /// Wind speed that would tip the rig there, m/s.
+    pub tip_wind_mps: Option<f32>,
+    /// Stage at that step.
+    pub stage: Stage,
+}
+
+/// A stage change seen in the replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct StageChange {
+    /// Time, ISO 8601 UTC.
+    pub time: String,
+    /// Seconds since the first record.
+    pub t_s: f64,
+    /// Previous stage.
+    pub from: Stage,
+    /// New stage.
+    pub to: Stage,
+    /// What drove it (lower-case name).
+    pub cause: String,
+}
+
+/// A sensor fault raised in the replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct FaultSeen {
+    /// Time, ISO 8601 UTC.
+    pub time: String,
+    /// Seconds since the first record.
+    pub t_s: f64,
+    /// The fault, as the core describes it.
+    pub fault: String,
+    /// The fault itself (for [`crate::render::event_lines`]).
+    #[serde(skip)]
+    pub kind: standfast::sense::Fault,
+}
+
+/// Time spent in one stage.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct StageTime {
+    /// The stage.
+    pub stage: Stage,
+    /// Seconds spent in it (from one record to the next).
+    pub seconds: f64,
+}
+
+/// What the replay found for one rig.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct RigReplay {
+    /// The rig file.
+    pub rig_file: String,
+    /// Highest overturning utilisation (closest approach to tipping).
+    pub overturning: Option<Approach>,
+    /// Highest sliding utilisation.
+    pub sliding: Option<Approach>,
+    /// Highest governing drive utilisation of the primary and secondary axis.
+    pub drive: [Option<Approach>; 2],
+    /// Time in each stage, in the order clear, watch, park_now, alarm,
+    /// sensor_fault.
+    pub stage_time: Vec<StageTime>,
+    /// The most severe stage reached once the guard had first judged the
+    /// rig: the start-up `sensor_fault` (no readings yet) does not count;
+    /// `sensor_fault` when the guard never could judge it.
+    pub highest_stage: Stage,
+    /// The stage at the end of the log.
+    pub final_stage: Stage,
+    /// Stage changes, in time order (the first [`MAX_KEPT_EVENTS`]).
+    pub stage_changes: Vec<StageChange>,
+    /// Stage changes not kept.
+    pub stage_changes_not_kept: u64,
+    /// Sensor faults raised, in time order (the first [`MAX_KEPT_EVENTS`]).
+    pub faults: Vec<FaultSeen>,
+    /// Faults not kept.
+    pub faults_not_kept: u64,
+    /// Guard events lost because a step had more than the verdict's
+    /// [`standfast::guard::MAX_EVENTS`] (0 normally), and the steps that
+    /// lost them: (seconds since the first record, count), the first
+    /// [`MAX_KEPT_EVENTS`].
+    pub events_lost: u64,
+    /// Steps that lost events (for [`crate::render::event_lines`]).
+    #[serde(skip)]
+    pub events_lost_at: Vec<(f64, u16)>,
+    /// Bounded time series for the HTML report (not in the JSON summary).
+    #[serde(skip)]
+    pub series: crate::model::series::Series,
+}
+
+/// Count of one kind of log issue.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct IssueCount {
+    /// The kind (`malformed row`, `time out of order`, `duplicate time`, `gap`).
+    pub kind: String,
+    /// How many.
+    pub count: u64,
+}
+
+/// The result of a replay.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct ReplayReport {
+    /// Merged records replayed.
+    pub records: u64,
+    /// Usable log rows read (all files).
+    pub rows: u64,
+    /// Time of the first record, ISO 8601 UTC.
+    pub start: Option<String>,
+    /// Time of the last record, ISO 8601 UTC.
+    pub end: Option<String>,
+    /// Seconds from the first to the last record.
+    pub duration_s: f64,
+    /// Log issues by kind.
+    pub issues: Vec<IssueCount>,
+    /// All log issues.
+    pub issues_total: u64,
+    /// The first few issues in full (file:line: kind: detail).
+    pub first_issues: Vec<String>,
+    /// Per rig.
+    pub rigs: Vec<RigReplay>,
+}
+
+/// Most issues quoted in full in a report.
+pub const FIRST_ISSUES: usize = 10;
+
+/// The guard inputs of one merged record: only channels updated at its time.
+#[must_use]
+pub fn inputs_of(r: &SampleRecord) -> Inputs {
+    let up = |c: Channel| r.updated.contains(c);
+    let accel_raw = if up(Channel::AccelX) || up(Channel::AccelY) || up(Channel::AccelZ) {
+        r.accel_mps2
+            .map(|a| a.map(|v| f32_of(v / STANDARD_GRAVITY_MPS2)))
+    } else {
+        None
+    };
+    let wind = if up(Channel::WindSpeed) || up(Channel::WindDirection) {
+        r.wind_speed_mps.map(|s| WindSample {
+            speed_mps: f32_of(s),
+            from_rad: r.wind_from_rad.map(f32_of),
+        })
+    } else {
+        None
+    };
+    let axes_up = up(Channel::Axis1Angle) || up(Channel::Axis2Angle);
+    let eq_up = up(Channel::HourAngle) || up(Channel::Declination) || up(Channel::PierSide);
+    let pose = match (
+        r.axis1_rad,
+        r.axis2_rad,
+        r.hour_angle_rad,
+        r.declination_rad,
+    ) {
+        (Some(a1), Some(a2), _, _) if axes_up => Some(Pose::Axes {
+            primary_rad: f32_of(a1),
+            secondary_rad: f32_of(a2),
+        }),
+        (_, _, Some(h), Some(d)) if eq_up => Some(Pose::Equatorial {
+            hour_angle_rad: f32_of(h),
+            declination_rad: f32_of(d),
+            pier_side: match r.pier_side {
+                Some(PierSide::West) => MountPierSide::TubeWest,
+                _ => MountPierSide::TubeEast,
+            },
+        }),
+        _ => None,
+    };
+    let cover_fitted = if up(Channel::CoverFitted) {
+        r.cover_fitted
+    } else {
+        None
+    };
+    let air = if up(Channel::AirTemperature) || up(Channel::Pressure) {
+        match (r.air_temperature_k, r.pressure_pa) {
+            (Some(t), Some(p)) => Some(standfast::guard::AirSample {
+                temperature_c: f32_of(t - 273.15),
+                pressure_pa: f32_of(p),
+            }),
+            _ => None,
+        }
+    } else {
+        None
+    };
+    Inputs {
+        accel_raw,
+        wind,
+        pose,
+        cover_fitted,
+        air,
+    }
+}
+
+fn millis_since(t: Timestamp, t0: Timestamp) -> Millis {
+    let ns = t.unix_ns().saturating_sub(t0.unix_ns()).max(0);
+    Millis(u64::try_from(ns / 1_000_000).unwrap_or(0))
+}
+
+fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64) -> Approach {
+    let f = Figures::of(v);
+    Approach {
+        utilisation: u,
+        time: time.to_iso8601(3),
+        t_s,
+        gust_mps: f.gust_mps,
+        wind_from_deg: f.wind_from_deg,
+        pose: v.pose,
+        tilt_deg: f.tilt_deg,
+        tilt_downhill_deg: f.tilt_downhill_deg,
+        tip_wind_mps: f.tip_wind_mps,
+        stage: v.stage,
+    }
+}
+
+fn raise(slot: &mut Option<Approach>, u: Option<f32>, v: &Verdict, time: Timestamp, t_s: f64) {
+    let Some(u) = u.filter(|u| u.is_finite()) else {
+        return;
+    };
+    if slot.as_ref().is_none_or(|a| u > a.utilisation) {
+        *slot = Some(approach(v, u, time, t_s));
+    }
+}
+
+/// One rig's running state in a replay.
+struct Tracker {
+    report: RigReplay,
+    stage_s: [f64; 5],
+    last_stage: Stage,
+    /// The figures of the previous step (overturning, sliding, drive 1 and
+    /// 2): while they repeat, as between evaluations, no closest approach
+    /// can rise, so the comparisons are skipped.
+    last_figures: [Option<f32>; 4],
+    /// The guard has left its start-up `sensor_fault` at least once.
+    judged: bool,
+}
+
+impl Tracker {
+    fn new(file: &str) -> Tracker {
+        Tracker {
+            report: RigReplay {
+                rig_file: file.to_owned(),
+                overturning: None,
+                sliding: None,
+                drive: [None, None],
+                stage_time: Vec::new(),
+                highest_stage: Stage::SensorFault,
+                final_stage: Stage::SensorFault,
+                stage_changes: Vec::new(),
+                stage_changes_not_kept: 0,
+                faults: Vec::new(),
+                faults_not_kept: 0,
+                events_lost: 0,
+                events_lost_at: Vec::new(),
+                series: crate::model::series::Series::new(),
+            },
+            stage_s: [0.0; 5],
+            // A guard starts unable to see (sensor_fault).
+            last_stage: Stage::SensorFault,
+            last_figures: [None; 4],
+            judged: false,
+        }
+    }
+
+    fn take(&mut self, v: &Verdict, time: Timestamp, t_s: f64, dt_s: f64) {
+        if let Some(s) = self.stage_s.get_mut(stage_index(self.last_stage)) {
+            *s += dt_s;
+        }
+        let r = &mut self.report;
+        let figures = [
+            v.overturning_utilisation,
+            v.sliding_utilisation,
+            v.drive_utilisation.map(|d| d[0]),
+            v.drive_utilisation.map(|d| d[1]),
+        ];
+        // Equal (and not NaN) figures cannot beat the approach they set.
+        if figures != self.last_figures {
+            self.last_figures = figures;
+            raise(&mut r.overturning, v.overturning_utilisation, v, time, t_s);
+            raise(&mut r.sliding, v.sliding_utilisation, v, time, t_s);
+            for (i, slot) in r.drive.iter_mut().enumerate() {
+                raise(
+                    slot,
+                    v.drive_utilisation.and_then(|d| d.get(i).copied()),
+                    v,
+                    time,
+                    t_s,
+                );
+            }
+        }
+        for e in &v.events {
+            match e {
+                Event::StageChanged { from, to, cause } => {
+                    if r.stage_changes.len() < MAX_KEPT_EVENTS {
+                        r.stage_changes.push(StageChange {
+                            time: time.to_iso8601(3),
+                            t_s,
+                            from: *from,
+                            to: *to,
+                            cause: cause.name().to_owned(),
+                        });
+                    } else {
+                        r.stage_changes_not_kept += 1;
+                    }
+                }
+                Event::FaultRaised(f) => {
+                    if r.faults.len() < MAX_KEPT_EVENTS {
+                        r.faults.push(FaultSeen {
+                            time: time.to_iso8601(3),
+                            t_s,
+                            fault: f.to_string(),
+                            kind: *f,
+                        });
+                    } else {
+                        r.faults_not_kept += 1;
+                    }
+                }
+                Event::NewHighUtilisation { .. } => {}
+            }
+        }
+        if v.events_lost > 0 {
+            r.events_lost += u64::from(v.events_lost);
+            if r.events_lost_at.len() < MAX_KEPT_EVENTS {
+                r.events_lost_at.push((t_s, v.events_lost));
+            }
+        }
+        if !self.judged && v.stage != Stage::SensorFault {
+            self.judged = true;
+            r.highest_stage = v.stage;
+        } else if self.judged {
+            r.highest_stage = r.highest_stage.max(v.stage);
+        }
+        r.final_stage = v.stage;
+        self.last_stage = v.stage;
+    }
+
+    fn finish(mut self) -> RigReplay {
+        self.report.stage_time = STAGES
+            .iter()
+            .zip(self.stage_s)
+            .map(|(s, seconds)| StageTime { stage: *s, seconds })
+            .collect();
+        self.report
+    }
+}
+
+/// Records between two progress reports to a [`ReplayObserver`].
+pub const PROGRESS_EVERY: u64 = 1 << 16;
+
+/// What a replay hands out as it goes, to whoever runs it (the commands
+/// layer draws the progress and writes the verdict CSV).
+pub trait ReplayObserver {
+    /// `records` merged records read so far; called every
+    /// [`PROGRESS_EVERY`] records, from 0.
+    fn progress(&mut self, records: u64);
+
+    /// Verdict `v` of rig number `rig` (0 for the first) at `time`, `t_s`
+    /// seconds since the first record: for every
+    /// [`ReplayOptions::verdicts_every`]-th record, and for every record
+    /// whose verdict has a stage change or fault event, in record order.
+    ///
+    /// # Errors
+    /// Whatever the observer cannot do with it (an output that cannot be
+    /// written); the replay stops with it.
+    fn verdict(&mut self, time: Timestamp, t_s: f64, rig: usize, v: &Verdict) -> Result<(), Error>;
+
+    /// The replay has read and taken every record.
+    ///
+    /// # Errors
+    /// As [`ReplayObserver::verdict`].
+    fn finished(&mut self) -> Result<(), Error>;
+}
+
+/// Records per batch handed from the reading thread to the guard thread.
+/// Small enough that the batches in circulation with their verdicts (about
+/// 400 bytes each on x86-64) stay in the processor's caches: with 4096 the
+/// replay bench took more CPU time and was slower.
+const BATCH_RECORDS: usize = 1024;
+
+/// Batches in circulation between the two threads (being filled, waiting,
+/// being stepped, or back with their verdicts); with [`BATCH_RECORDS`] it
+/// fixes the memory of a replay, whatever the log's length.
+const BATCHES: usize = 4;
+
+/// One merged record as the replay uses it: its time in the units the
+/// replay needs, the guard inputs of the channels updated at it, and the
+/// held values the time series takes.
+#[derive(Clone, Copy, Debug)]
+struct Step {
+    time: Timestamp,
+    now: Millis,
+    t_s: f64,
+    dt_s: f64,
+    inputs: Inputs,
+    wind_speed_mps: Option<f64>,
+    cover_fitted: Option<bool>,
+}
+
+/// A batch of consecutive records and, once the guards have stepped
+/// through it, their verdicts (record by record, rig by rig). The `Vec`s
+/// are reused from batch to batch.
+struct Batch {
+    steps: Vec<Step>,
+    verdicts: Vec<Verdict>,
+}
+
+/// The guard thread of a replay: steps every guard through the batches in
+/// the order sent and sends each batch back with its verdicts. Ends when
+/// the reading side hangs up.
+fn step_guards(
+    guards: &mut [Guard<'_>],
+    batches: &std::sync::mpsc::Receiver<Batch>,
+    stepped: &std::sync::mpsc::SyncSender<Batch>,
+) {
+    for mut b in batches {
+        b.verdicts.clear();
+        for s in &b.steps {
+            for g in guards.iter_mut() {
+                b.verdicts.push(g.step(s.now, &s.inputs));
+            }
+        }
+        if stepped.send(b).is_err() {
+            return;
+        }
+    }
+}
+
+/// What the replay keeps of a stepped batch, in record order: closest
+/// approaches, stage times and events, the time series and the verdict
+/// CSV. `n` counts the records taken so far.
+///
+/// # Errors
+/// [`Error::Io`] when the verdict CSV cannot be written (at the first
+/// line that fails, as records are taken in order).
+fn take_batch(
+    b: &Batch,
+    trackers: &mut [Tracker],
+    n: &mut u64,
+    every: u64,
+    observer: &mut Option<&mut dyn ReplayObserver>,
+) -> Result<(), Error> {
+    let mut vs = b.verdicts.iter();
+    for s in &b.steps {
+        for (i, tr) in trackers.iter_mut().enumerate() {
+            let Some(v) = vs.next() else {
+                return Ok(());
+            };
+            tr.take(v, s.time, s.t_s, s.dt_s);
+            tr.report
+                .series
+                .push(s.t_s, v, s.wind_speed_mps, s.cover_fitted);
+            if let Some(o) = observer.as_mut() {
+                let has_event = v
+                    .events
+                    .iter()
+                    .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
+                if *n % every == 0 || has_event {
+                    o.verdict(s.time, s.t_s, i, v)?;
+                }
+            }
+        }
+        *n += 1;
+    }
+    Ok(())
+}
+
+/// One guard per rig, started at 0 ms, its tilt processing set to samples
+/// in g in the rig frame (the log profile has already mapped sensor axes and
+/// counts), with the site's air until the log measures it.
+fn start_guards(rigs: &[LoadedRig]) -> Result<Vec<Guard<'_>>, Error> {
+    let mut guards: Vec<Guard<'_>> = Vec::with_capacity(rigs.len());
+    for r in rigs {
+        let mut cfg = r.guard.clone();
+        // The log profile has already mapped sensor axes and counts to the
+        // rig frame; samples arrive in g.
+        cfg.tilt.scale_g_per_count = 1.0;
+        cfg.tilt.mounting = Mounting::IDENTITY;
+        let mut guard = Guard::new(&r.rig, cfg, Millis(0))
+            .map_err(|e| after_load_error(&r.file, GUARD_FAILED, &e))?;
+        // The site's air (from its elevation) until the log measures it.
+        guard.set_air(r.air);
+        guards.push(guard);
+    }
+    Ok(guards)
+}
+
+/// The replay's report once every record is taken: record and row counts,
+/// first and last time, log issues, and each rig's findings.
+fn report_of(
+    merger: &Merger,
+    t0: Option<Timestamp>,
+    last: Option<Timestamp>,
+    trackers: Vec<Tracker>,
+) -> ReplayReport {
+    let issues = merger.issues();
+    ReplayReport {
+        records: merger.records(),
+        rows: merger.rows(),
+        start: t0.map(|t| t.to_iso8601(3)),
+        end: last.map(|t| t.to_iso8601(3)),
+        duration_s: match (t0, last) {
+            (Some(a), Some(b)) => b.seconds_since(a),
+            _ => 0.0,
+        },
+        issues: IssueKind::ALL
+            .iter()
+            .map(|k| IssueCount {
+                kind: k.name().to_owned(),
+                count: issues.count(*k),
+            })
+            .collect(),
+        issues_total: issues.total(),
+        first_issues: issues
+            .kept()
+            .iter()
+            .take(FIRST_ISSUES)
+            .map(ToString::to_string)
+            .collect(),
+        rigs: trackers.into_iter().map(Tracker::finish).collect(),
+    }
+}
+
+/// Replays the merged stream through one guard per rig.
+///
+/// `observer`, when given, is told the progress and receives the verdicts
+/// (every `options.verdicts_every`-th record per rig, and every record
+/// with an event), for a verdict CSV.
+///
+/// Two threads share the work: this one reads and merges the logs and
+/// keeps the closest approaches, stage times, events and time series (and
+/// hands the verdicts to the observer); a second one steps the guards. They pass batches of
+/// 1 024 records (and back, their verdicts) through bounded
+/// channels, so memory stays fixed. The results are those of one thread
+/// taking every record in turn: the guards step through the same records
+/// in the same order, the verdicts are taken in that order, and a merge
+/// error is returned after every record read before it has been taken.
+///
+/// # Errors
+/// [`Error::Input`] when a rig's guard configuration is rejected by the core;
+/// the merge's errors ([`Error::Log`], [`Error::Io`]); [`Error::Io`] when the
+/// verdict CSV cannot be written.
+pub fn replay(
+    rigs: &[LoadedRig],
+    merger: &mut Merger,
+    options: ReplayOptions,
+    mut observer: Option<&mut dyn ReplayObserver>,
+) -> Result<ReplayReport, Error> {
+    use std::sync::mpsc::sync_channel;
+
+    let every = options.verdicts_every.max(1);
+    let mut guards = start_guards(rigs)?;
+    let mut trackers: Vec<Tracker> = rigs.iter().map(|r| Tracker::new(&r.file)).collect();
+    let mut t0: Option<Timestamp> = None;
+    let mut last: Option<Timestamp> = None;
+    // Records read, and records whose verdicts were taken.
+    let mut n_read: u64 = 0;
+    let mut n_taken: u64 = 0;
+    // Every batch is at any time in one place only (this thread, a channel
+    // or the guard thread), so no channel ever holds more than BATCHES.
+    let (to_guards, from_reader) = sync_channel::<Batch>(BATCHES);
+    let (to_reader, from_guards) = sync_channel::<Batch>(BATCHES);
+    let mut spare: Vec<Batch> = (0..BATCHES)
+        .map(|_| Batch {
+            steps: Vec::with_capacity(BATCH_RECORDS),
+            verdicts: Vec::with_capacity(BATCH_RECORDS * guards.len()),
+        })
+        .collect();
+    let mut read_error: Option<Error> = None;
+    let mut take_error: Option<Error> = None;
+    std::thread::scope(|scope| {
+        let guards = &mut guards;
+        let worker = scope.spawn(move || step_guards(guards, &from_reader, &to_reader));
+        loop {
+            let mut b = match spare.pop() {
+                Some(b) => b,
+                None => match from_guards.recv() {
+                    Ok(b) => b,
+                    Err(_) => break,
+                },
+            };
+            if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut observer) {
+                take_error = Some(e);
+                break;
+            }
+            b.steps.clear();
+            let mut at_end = false;
+            while b.steps.len() < BATCH_RECORDS {
+                let rec = match merger.next_record() {
+                    Ok(Some(rec)) => rec,
+                    Ok(None) => {
+                        at_end = true;
+                        break;
+                    }
+                    Err(e) => {
+                        read_error = Some(e);
+                        at_end = true;
+                        break;
+                    }
+                };
+                if n_read % PROGRESS_EVERY == 0 {
+                    if let Some(o) = observer.as_mut() {
+                        o.progress(n_read);
+                    }
+                }
+                let start = *t0.get_or_insert(rec.time);
+                let dt_s = last.map_or(0.0, |l| rec.time.seconds_since(l).max(0.0));
+                last = Some(rec.time);
+                b.steps.push(Step {
+                    time: rec.time,
+                    now: millis_since(rec.time, start),
+                    t_s: rec.time.seconds_since(start),
+                    dt_s,
+                    inputs: inputs_of(&rec),
+                    wind_speed_mps: rec.wind_speed_mps,
+                    cover_fitted: rec.cover_fitted,
+                });
+                n_read += 1;
+            }
+            if !b.steps.is_empty() && to_guards.send(b).is_err() {
+                break;
+            }
+            if at_end {
+                break;
+            }
+        }
+        // Hang up, then take the batches still on their way, in order.
+        drop(to_guards);
+        for b in &from_guards {
+            if take_error.is_none() {
+                if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut observer) {
+                    take_error = Some(e);
+                }
+            }
+        }
+        if let Err(p) = worker.join() {
+            std::panic::resume_unwind(p);
+        }
+    });
+    // A write error was met at a record before any read error.
+    if let Some(e) = take_error.or(read_error) {
+        return Err(e);
+    }
+    if let Some(o) = observer.as_mut() {
+        o.finished()?;
+    }
+    Ok(report_of(merger, t0, last, trackers))
+}

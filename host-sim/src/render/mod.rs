@@ -1,0 +1,20 @@
+//! The render layer: pure functions of the model's results into text,
+//! JSON, CSV, event lines, HTML and SVG. It never calls the core and never
+//! opens a file; the [`crate::commands`] layer writes what it returns.
+//!
+//! [`summary`] (the replay's text and JSON, with the what-if comparison),
+//! [`whatif`] (the comparison table), [`assess`] (the assessment's text and
+//! JSON), [`weigh`] (the weighing's text and JSON), [`verdicts`] (the
+//! verdict CSV), [`event_lines`] (the firmware example's event lines),
+//! [`report`] (the HTML pages) drawn with [`html`] and [`svg`].
+
+pub mod assess;
+pub mod bridge_lines;
+pub mod event_lines;
+pub mod html;
+pub mod report;
+pub mod summary;
+pub mod svg;
+pub mod verdicts;
+pub mod weigh;
+pub mod whatif;

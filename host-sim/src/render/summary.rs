@@ -1,0 +1,186 @@
+//! A replay's findings for a person (text) or a program (JSON).
+//!
+//! Composed of parts: the findings, then with two or more rigs the
+//! side-by-side comparison ([`crate::render::whatif`]), then the cautions of
+//! [`crate::cautions::CAUTIONS`]. The JSON carries the report's fields, a
+//! `comparison` field with two or more rigs, and a `cautions` field.
+
+use std::io::Write;
+
+use serde::Serialize;
+use standfast::mount::Pose;
+
+use crate::cautions::CAUTIONS;
+use crate::input::error::Error;
+use crate::model::assess::pose_words;
+use crate::model::replay::{Approach, ReplayReport};
+use crate::model::whatif::{compare, Comparison};
+use crate::render::whatif::comparison_text;
+
+fn stdout_err(e: std::io::Error) -> Error {
+    Error::io("<standard output>", e)
+}
+
+fn pose_text(p: &Pose) -> String {
+    pose_words(p)
+}
+
+fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
+    v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
+}
+
+fn approach_text(label: &str, a: Option<&Approach>) -> String {
+    let Some(a) = a else {
+        return format!("  {label}: no figure (no wind, tilt or pose data)\n");
+    };
+    format!(
+        "  {label}: {:.0} % at {} (+{:.0} s), gust {}, from {}, {}, tilt {}, tip wind {}, stage {}\n",
+        a.utilisation * 100.0,
+        a.time,
+        a.t_s,
+        num(a.gust_mps, "m/s", 1),
+        num(a.wind_from_deg, "°", 0),
+        pose_text(&a.pose),
+        num(a.tilt_deg, "°", 2),
+        num(a.tip_wind_mps, "m/s", 1),
+        a.stage.name(),
+    )
+}
+
+/// The summary as text: the findings, the comparison when the replay has
+/// two or more rigs, and the cautions.
+#[must_use]
+pub fn text(rep: &ReplayReport) -> String {
+    let mut s = findings_text(rep);
+    if rep.rigs.len() >= 2 {
+        s.push_str(&comparison_text(&compare(rep)));
+    }
+    s.push_str(&cautions_text());
+    s
+}
+
+/// The cautions as the text summary ends with them.
+#[must_use]
+pub fn cautions_text() -> String {
+    let mut s = String::from("\nCautions:\n");
+    for c in CAUTIONS {
+        s.push_str(&format!("  - {c}\n"));
+    }
+    s
+}
+
+/// What the replay found, as text: records, log issues and each rig's
+/// closest approaches, stage times, stage changes and faults.
+#[must_use]
+pub fn findings_text(rep: &ReplayReport) -> String {
+    let mut s = String::new();
+    s.push_str(&format!(
+        "Replayed {} merged records ({} log rows) from {} to {} ({:.0} s).\n",
+        rep.records,
+        rep.rows,
+        rep.start.as_deref().unwrap_or("-"),
+        rep.end.as_deref().unwrap_or("-"),
+        rep.duration_s
+    ));
+    s.push_str(&format!("Log issues: {}", rep.issues_total));
+    if rep.issues_total > 0 {
+        let parts: Vec<String> = rep
+            .issues
+            .iter()
+            .filter(|c| c.count > 0)
+            .map(|c| format!("{} {}", c.count, c.kind))
+            .collect();
+        s.push_str(&format!(" ({})", parts.join(", ")));
+    }
+    s.push('\n');
+    for i in &rep.first_issues {
+        s.push_str(&format!("  {i}\n"));
+    }
+    for r in &rep.rigs {
+        s.push_str(&format!("\nRig {}\n", r.rig_file));
+        s.push_str(&format!(
+            "  highest stage {}, final stage {}\n",
+            r.highest_stage.name(),
+            r.final_stage.name()
+        ));
+        s.push_str("Closest approach:\n");
+        s.push_str(&approach_text("overturning", r.overturning.as_ref()));
+        s.push_str(&approach_text("sliding", r.sliding.as_ref()));
+        for (i, d) in r.drive.iter().enumerate() {
+            if d.is_some() {
+                s.push_str(&approach_text(&format!("drive axis {}", i + 1), d.as_ref()));
+            }
+        }
+        s.push_str("Time per stage:\n");
+        for t in &r.stage_time {
+            s.push_str(&format!("  {:<13}{:>9.0} s\n", t.stage.name(), t.seconds));
+        }
+        s.push_str(&format!("Stage changes ({}):\n", r.stage_changes.len()));
+        for c in &r.stage_changes {
+            s.push_str(&format!(
+                "  {} (+{:.0} s): {} -> {} ({})\n",
+                c.time,
+                c.t_s,
+                c.from.name(),
+                c.to.name(),
+                c.cause
+            ));
+        }
+        if r.stage_changes_not_kept > 0 {
+            s.push_str(&format!("  ... and {} more\n", r.stage_changes_not_kept));
+        }
+        s.push_str(&format!("Sensor faults ({}):\n", r.faults.len()));
+        for f in &r.faults {
+            s.push_str(&format!("  {} (+{:.0} s): {}\n", f.time, f.t_s, f.fault));
+        }
+        if r.events_lost > 0 {
+            s.push_str(&format!(
+                "  {} guard events lost: a step had more than {} (see the verdicts' faults)\n",
+                r.events_lost,
+                standfast::guard::MAX_EVENTS
+            ));
+        }
+        if r.faults_not_kept > 0 {
+            s.push_str(&format!("  ... and {} more\n", r.faults_not_kept));
+        }
+    }
+    s
+}
+
+#[derive(Serialize)]
+struct JsonOut<'a> {
+    #[serde(flatten)]
+    report: &'a ReplayReport,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    comparison: Option<&'a Comparison>,
+    cautions: &'a [&'a str],
+}
+
+/// The summary as pretty-printed JSON: the report, the comparison when the
+/// replay has two or more rigs, and the cautions.
+///
+/// # Errors
+/// Never in practice; a serialisation failure is reported as I/O on
+/// standard output.
+pub fn json(rep: &ReplayReport) -> Result<String, Error> {
+    let cmp = (rep.rigs.len() >= 2).then(|| compare(rep));
+    serde_json::to_string_pretty(&JsonOut {
+        report: rep,
+        comparison: cmp.as_ref(),
+        cautions: CAUTIONS,
+    })
+    .map_err(|e| stdout_err(std::io::Error::other(e)))
+}
+
+/// Writes the summary (text or JSON) to `out`.
+///
+/// # Errors
+/// [`Error::Io`] when `out` cannot be written.
+pub fn write(rep: &ReplayReport, as_json: bool, out: &mut dyn Write) -> Result<(), Error> {
+    let body = if as_json { json(rep)? } else { text(rep) };
+    out.write_all(body.as_bytes()).map_err(stdout_err)?;
+    if as_json {
+        out.write_all(b"\n").map_err(stdout_err)?;
+    }
+    Ok(())
+}

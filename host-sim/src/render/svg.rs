@@ -1,0 +1,1077 @@
+//! A small SVG writer for the reports: line charts with axes, ticks, labels,
+//! horizontal threshold lines and event marks; a band timeline; a polar
+//! chart; a heat map with its colour scale.
+//!
+//! The output is well-formed XML (every element closed, text escaped) so it
+//! can sit inline in an HTML page and be checked by an XML parser. No
+//! namespace declaration is written: inline SVG in HTML needs none, and the
+//! page then holds no address at all. Coordinates are SVG user units
+//! (pixels), y down; chart values are mapped linearly.
+//!
+//! Polar charts follow the compass: 0° (north) up, angles clockwise, so a
+//! point at angle θ and radius r sits at `(cx + r·sin θ, cy − r·cos θ)`.
+
+use std::fmt::Write as _;
+
+/// Escapes text for XML character data and double-quoted attribute values.
+#[must_use]
+pub fn esc(s: &str) -> String {
+    let mut o = String::with_capacity(s.len());
+    for c in s.chars() {
+        match c {
+            '&' => o.push_str("&amp;"),
+            '<' => o.push_str("&lt;"),
+            '>' => o.push_str("&gt;"),
+            '"' => o.push_str("&quot;"),
+            _ => o.push(c),
+        }
+    }
+    o
+}
+
+/// A number for an SVG attribute: two decimals, no `-0.00`.
+fn n(v: f64) -> String {
+    let s = format!("{v:.2}");
+    if s == "-0.00" {
+        "0.00".to_owned()
+    } else {
+        s
+    }
+}
+
+/// The tick step nearest `range / target` among 1, 2 and 5 times a power of
+/// ten ("nice numbers" for axis labels).
+#[must_use]
+pub fn nice_step(range: f64, target: usize) -> f64 {
+    #[allow(clippy::cast_precision_loss)] // small counts
+    let raw = range.abs() / target.max(1) as f64;
+    if !raw.is_finite() || raw <= 0.0 {
+        return 1.0;
+    }
+    let mag = 10f64.powf(raw.log10().floor());
+    let f = raw / mag;
+    let nice = if f < 1.5 {
+        1.0
+    } else if f < 3.0 {
+        2.0
+    } else if f < 7.0 {
+        5.0
+    } else {
+        10.0
+    };
+    nice * mag
+}
+
+/// Ticks at multiples of `step` from the first at or above `min` to the
+/// last at or below `max` (a small tolerance for rounding).
+#[must_use]
+pub fn ticks_with_step(min: f64, max: f64, step: f64) -> Vec<f64> {
+    let mut out = Vec::new();
+    if step.is_nan() || step <= 0.0 || !min.is_finite() || !max.is_finite() || max < min {
+        return out;
+    }
+    let first = (min / step - 1e-9).ceil();
+    let mut k = first;
+    while k * step <= max + step * 1e-9 && out.len() < 1000 {
+        let v = k * step;
+        out.push(if v.abs() < step * 1e-9 { 0.0 } else { v });
+        k += 1.0;
+    }
+    out
+}
+
+/// "Nice" ticks covering `min..=max`, about `target` of them.
+#[must_use]
+pub fn ticks(min: f64, max: f64, target: usize) -> Vec<f64> {
+    ticks_with_step(min, max, nice_step(max - min, target))
+}
+
+/// Steps for elapsed-time axes, seconds: whole seconds, minutes and hours.
+const TIME_STEPS_S: [f64; 17] = [
+    1.0, 2.0, 5.0, 10.0, 15.0, 30.0, 60.0, 120.0, 300.0, 600.0, 900.0, 1800.0, 3600.0, 7200.0,
+    10800.0, 21600.0, 43200.0,
+];
+
+/// A step for an elapsed-time axis of `span_s` seconds with about `target`
+/// ticks: the smallest of `TIME_STEPS_S` giving at most `target` steps
+/// (whole days beyond).
+#[must_use]
+pub fn time_step_s(span_s: f64, target: usize) -> f64 {
+    #[allow(clippy::cast_precision_loss)]
+    let t = target.max(1) as f64;
+    TIME_STEPS_S
+        .iter()
+        .copied()
+        .find(|s| span_s / s <= t)
+        .unwrap_or_else(|| (span_s / t / 86400.0).ceil().max(1.0) * 86400.0)
+}
+
+/// An elapsed time as `h:mm` (or `m:ss` when `step_s` is under a minute).
+#[must_use]
+pub fn time_label(t_s: f64, step_s: f64) -> String {
+    #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+    let s = t_s.max(0.0).round() as u64;
+    if step_s < 60.0 {
+        format!("{}:{:02}", s / 60, s % 60)
+    } else {
+        format!("{}:{:02}", s / 3600, (s / 60) % 60)
+    }
+}
+
+/// A label for a tick value at a given step.
+#[must_use]
+pub fn value_label(v: f64, step: f64) -> String {
+    let digits = if step >= 1.0 {
+        0
+    } else {
+        #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+        let d = (-step.log10()).ceil().max(0.0) as usize;
+        d.min(6)
+    };
+    let s = format!("{v:.digits$}");
+    if s.starts_with('-') && s.trim_start_matches(['-', '0', '.']).is_empty() {
+        s.trim_start_matches('-').to_owned()
+    } else {
+        s
+    }
+}
+
+/// A linear map from data values to pixels.
+#[derive(Clone, Copy, Debug)]
+pub struct Scale {
+    /// Data value at the first pixel.
+    pub d0: f64,
+    /// Data value at the second pixel.
+    pub d1: f64,
+    /// First pixel.
+    pub p0: f64,
+    /// Second pixel.
+    pub p1: f64,
+}
+
+impl Scale {
+    /// The pixel of data value `v`.
+    #[must_use]
+    pub fn at(&self, v: f64) -> f64 {
+        let span = self.d1 - self.d0;
+        if span.abs() < f64::EPSILON {
+            return self.p0;
+        }
+        self.p0 + (v - self.d0) / span * (self.p1 - self.p0)
+    }
+}
+
+/// One line of a line chart.
+#[derive(Clone, Debug)]
+pub struct Line {
+    /// Legend name.
+    pub name: String,
+    /// Stroke colour (CSS colour).
+    pub colour: String,
+    /// `(x, y)` points; `None` breaks the line.
+    pub points: Vec<(f64, Option<f64>)>,
+    /// Dashed stroke.
+    pub dashed: bool,
+    /// Draw dots only (for directions, which wrap at 360°).
+    pub dots: bool,
+}
+
+/// A horizontal threshold line across the plot.
+#[derive(Clone, Debug)]
+pub struct HLine {
+    /// Its y value.
+    pub value: f64,
+    /// Its label, written at the right end.
+    pub label: String,
+    /// Stroke colour.
+    pub colour: String,
+}
+
+/// A vertical event mark at an x value.
+#[derive(Clone, Debug)]
+pub struct Mark {
+    /// Its x value.
+    pub x: f64,
+    /// Its label (written when the chart has few marks).
+    pub label: String,
+    /// Stroke colour.
+    pub colour: String,
+}
+
+/// Most event marks that get a written label; beyond it only lines.
+pub const MAX_LABELLED_MARKS: usize = 24;
+
+/// A line chart over elapsed time (or any x).
+#[derive(Clone, Debug)]
+pub struct LineChart {
+    /// Title above the plot.
+    pub title: String,
+    /// Label of the x axis.
+    pub x_label: String,
+    /// Label of the y axis.
+    pub y_label: String,
+    /// The x axis is elapsed seconds, labelled `h:mm`.
+    pub x_time: bool,
+    /// X range.
+    pub x_range: (f64, f64),
+    /// Y range; `None` fits the data (from 0 when all data are ≥ 0).
+    pub y_range: Option<(f64, f64)>,
+    /// Fixed y tick step; `None` picks a nice one.
+    pub y_step: Option<f64>,
+    /// The lines.
+    pub lines: Vec<Line>,
+    /// Horizontal threshold lines.
+    pub hlines: Vec<HLine>,
+    /// Vertical event marks.
+    pub marks: Vec<Mark>,
+    /// Width, pixels.
+    pub width: f64,
+    /// Height, pixels.
+    pub height: f64,
+}
+
+/// The geometry of a line chart's plot: size and margins (px), data
+/// ranges, and the scales from data to pixels.
+#[derive(Clone, Copy, Debug)]
+struct Frame {
+    w: f64,
+    h: f64,
+    ml: f64,
+    mr: f64,
+    mt: f64,
+    mb: f64,
+    x0: f64,
+    x1: f64,
+    y0: f64,
+    y1: f64,
+    xs: Scale,
+    ys: Scale,
+}
+
+impl LineChart {
+    /// An empty chart 900 × 260 px.
+    #[must_use]
+    pub fn new(title: &str, x_label: &str, y_label: &str) -> LineChart {
+        LineChart {
+            title: title.to_owned(),
+            x_label: x_label.to_owned(),
+            y_label: y_label.to_owned(),
+            x_time: true,
+            x_range: (0.0, 1.0),
+            y_range: None,
+            y_step: None,
+            lines: Vec::new(),
+            hlines: Vec::new(),
+            marks: Vec::new(),
+            width: 900.0,
+            height: 260.0,
+        }
+    }
+
+    fn y_extent(&self) -> (f64, f64) {
+        if let Some(r) = self.y_range {
+            return r;
+        }
+        let vals = self
+            .lines
+            .iter()
+            .flat_map(|l| l.points.iter().filter_map(|p| p.1))
+            .chain(self.hlines.iter().map(|h| h.value))
+            .filter(|v| v.is_finite());
+        let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
+        for v in vals {
+            lo = lo.min(v);
+            hi = hi.max(v);
+        }
+        if !lo.is_finite() {
+            return (0.0, 1.0);
+        }
+        if lo >= 0.0 {
+            lo = 0.0;
+        }
+        if hi - lo < 1e-9 {
+            hi = lo + 1.0;
+        }
+        let step = nice_step(hi - lo, 5);
+        ((lo / step).floor() * step, (hi / step).ceil() * step)
+    }
+
+    /// The chart as an `<svg>` element.
+    #[must_use]
+    pub fn to_svg(&self) -> String {
+        let (w, h) = (self.width, self.height);
+        let (ml, mr, mt, mb) = (64.0, 96.0, 34.0, 44.0);
+        let (x0, x1) = self.x_range;
+        let x1 = if x1 - x0 < 1e-9 { x0 + 1.0 } else { x1 };
+        let (y0, y1) = self.y_extent();
+        let xs = Scale {
+            d0: x0,
+            d1: x1,
+            p0: ml,
+            p1: w - mr,
+        };
+        let ys = Scale {
+            d0: y0,
+            d1: y1,
+            p0: h - mb,
+            p1: mt,
+        };
+        let f = Frame {
+            w,
+            h,
+            ml,
+            mr,
+            mt,
+            mb,
+            x0,
+            x1,
+            y0,
+            y1,
+            xs,
+            ys,
+        };
+        let mut s = String::new();
+        let _ = write!(
+            s,
+            r#"<svg class="chart line-chart" width="{}" height="{}" viewBox="0 0 {} {}" role="img" aria-label="{}">"#,
+            n(w),
+            n(h),
+            n(w),
+            n(h),
+            esc(&self.title)
+        );
+        let _ = write!(
+            s,
+            r#"<text class="chart-title" x="{}" y="20">{}</text>"#,
+            n(ml),
+            esc(&self.title)
+        );
+        // Plot frame.
+        let _ = write!(
+            s,
+            r#"<rect class="plot-area" x="{}" y="{}" width="{}" height="{}"/>"#,
+            n(ml),
+            n(mt),
+            n(w - ml - mr),
+            n(h - mt - mb)
+        );
+        self.axes_svg(&mut s, &f);
+        self.marks_svg(&mut s, &f);
+        self.hlines_svg(&mut s, &f);
+        self.lines_svg(&mut s, &f);
+        self.legend_svg(&mut s, &f);
+        s.push_str("</svg>");
+        s
+    }
+
+    /// The y ticks and grid, the x ticks, the axes and their labels.
+    fn axes_svg(&self, s: &mut String, f: &Frame) {
+        let Frame {
+            w,
+            h,
+            ml,
+            mr,
+            mt,
+            mb,
+            x0,
+            x1,
+            y0,
+            y1,
+            xs,
+            ys,
+            ..
+        } = *f;
+        // Y ticks and grid.
+        let y_step = self.y_step.unwrap_or_else(|| nice_step(y1 - y0, 5));
+        for t in ticks_with_step(y0, y1, y_step) {
+            let py = ys.at(t);
+            let _ = write!(
+                *s,
+                r#"<line class="grid" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="end">{}</text>"#,
+                n(ml),
+                n(py),
+                n(w - mr),
+                n(py),
+                n(ml - 6.0),
+                n(py + 4.0),
+                esc(&value_label(t, y_step))
+            );
+        }
+        // X ticks.
+        let (x_step, label_of): (f64, Box<dyn Fn(f64, f64) -> String>) = if self.x_time {
+            (time_step_s(x1 - x0, 8), Box::new(time_label))
+        } else {
+            (nice_step(x1 - x0, 8), Box::new(value_label))
+        };
+        for t in ticks_with_step(x0, x1, x_step) {
+            let px = xs.at(t);
+            let _ = write!(
+                *s,
+                r#"<line class="tick" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
+                n(px),
+                n(h - mb),
+                n(px),
+                n(h - mb + 5.0),
+                n(px),
+                n(h - mb + 18.0),
+                esc(&label_of(t, x_step))
+            );
+        }
+        // Axes and their labels.
+        let _ = write!(
+            *s,
+            r#"<line class="axis" x1="{}" y1="{}" x2="{}" y2="{}"/><line class="axis" x1="{}" y1="{}" x2="{}" y2="{}"/>"#,
+            n(ml),
+            n(h - mb),
+            n(w - mr),
+            n(h - mb),
+            n(ml),
+            n(mt),
+            n(ml),
+            n(h - mb)
+        );
+        let _ = write!(
+            *s,
+            r#"<text class="axis-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
+            n((ml + w - mr) / 2.0),
+            n(h - 8.0),
+            esc(&self.x_label)
+        );
+        let _ = write!(
+            *s,
+            r#"<text class="axis-label" x="14" y="{}" text-anchor="middle" transform="rotate(-90 14 {})">{}</text>"#,
+            n((mt + h - mb) / 2.0),
+            n((mt + h - mb) / 2.0),
+            esc(&self.y_label)
+        );
+    }
+
+    /// The event marks with their labels.
+    fn marks_svg(&self, s: &mut String, f: &Frame) {
+        let Frame {
+            w,
+            h,
+            mr,
+            mt,
+            mb,
+            x0,
+            x1,
+            xs,
+            ..
+        } = *f;
+        // Event marks; labels go on the first of a few rows where they do
+        // not overlap the previous label (about 5.5 px a character at 10 px),
+        // else only the line (its title holds the label).
+        let labelled = self.marks.len() <= MAX_LABELLED_MARKS;
+        let mut row_end = [f64::NEG_INFINITY; 5];
+        for m in &self.marks {
+            if m.x < x0 || m.x > x1 {
+                continue;
+            }
+            let px = xs.at(m.x);
+            let _ = write!(
+                *s,
+                r#"<line class="event-mark" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}"><title>{}</title></line>"#,
+                n(px),
+                n(mt),
+                n(px),
+                n(h - mb),
+                esc(&m.colour),
+                esc(&m.label)
+            );
+            if !labelled {
+                continue;
+            }
+            #[allow(clippy::cast_precision_loss)]
+            let tw = m.label.chars().count() as f64 * 5.5;
+            let right_side = px + 3.0 + tw > w - mr;
+            let (a, b) = if right_side {
+                (px - 3.0 - tw, px - 3.0)
+            } else {
+                (px + 3.0, px + 3.0 + tw)
+            };
+            if let Some(row) = row_end.iter().position(|e| *e < a) {
+                if let Some(e) = row_end.get_mut(row) {
+                    *e = b + 4.0;
+                }
+                #[allow(clippy::cast_precision_loss)]
+                let dy = row as f64 * 11.0;
+                let _ = write!(
+                    *s,
+                    r#"<text class="mark-label" x="{}" y="{}" fill="{}"{}>{}</text>"#,
+                    n(if right_side { b } else { a }),
+                    n(mt + 10.0 + dy),
+                    esc(&m.colour),
+                    if right_side {
+                        r#" text-anchor="end""#
+                    } else {
+                        ""
+                    },
+                    esc(&m.label)
+                );
+            }
+        }
+    }
+
+    /// The threshold lines.
+    fn hlines_svg(&self, s: &mut String, f: &Frame) {
+        let Frame {
+            w,
+            ml,
+            mr,
+            y0,
+            y1,
+            ys,
+            ..
+        } = *f;
+        // Threshold lines.
+        for t in &self.hlines {
+            if t.value < y0 || t.value > y1 {
+                continue;
+            }
+            let py = ys.at(t.value);
+            let _ = write!(
+                *s,
+                r#"<line class="threshold" data-value="{}" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}"/><text class="threshold-label" x="{}" y="{}" fill="{}">{}</text>"#,
+                t.value,
+                n(ml),
+                n(py),
+                n(w - mr),
+                n(py),
+                esc(&t.colour),
+                n(w - mr + 4.0),
+                n(py + 4.0),
+                esc(&t.colour),
+                esc(&t.label)
+            );
+        }
+    }
+
+    /// The data lines (paths, or dots).
+    fn lines_svg(&self, s: &mut String, f: &Frame) {
+        let Frame { y0, y1, xs, ys, .. } = *f;
+        // Lines.
+        for l in &self.lines {
+            let clamp = |v: f64| ys.at(v.clamp(y0, y1));
+            if l.dots {
+                let _ = write!(
+                    *s,
+                    r#"<g class="series dots" fill="{}"><title>{}</title>"#,
+                    esc(&l.colour),
+                    esc(&l.name)
+                );
+                for &(x, y) in &l.points {
+                    if let Some(y) = y.filter(|v| v.is_finite()) {
+                        let _ = write!(
+                            *s,
+                            r#"<circle cx="{}" cy="{}" r="1.6"/>"#,
+                            n(xs.at(x)),
+                            n(clamp(y))
+                        );
+                    }
+                }
+                s.push_str("</g>");
+                continue;
+            }
+            let mut d = String::new();
+            let mut pen_down = false;
+            for &(x, y) in &l.points {
+                match y.filter(|v| v.is_finite()) {
+                    Some(y) => {
+                        let _ = write!(
+                            d,
+                            "{}{} {} ",
+                            if pen_down { "L" } else { "M" },
+                            n(xs.at(x)),
+                            n(clamp(y))
+                        );
+                        pen_down = true;
+                    }
+                    None => pen_down = false,
+                }
+            }
+            let _ = write!(
+                *s,
+                r#"<path class="series" d="{}" stroke="{}" fill="none"{}><title>{}</title></path>"#,
+                d.trim_end(),
+                esc(&l.colour),
+                if l.dashed {
+                    r#" stroke-dasharray="5 3""#
+                } else {
+                    ""
+                },
+                esc(&l.name)
+            );
+        }
+    }
+
+    /// The legend, in the title row.
+    fn legend_svg(&self, s: &mut String, f: &Frame) {
+        let Frame { ml, .. } = *f;
+        // Legend, in the title row.
+        for (i, l) in self.lines.iter().enumerate() {
+            #[allow(clippy::cast_precision_loss)]
+            let lx = ml + 330.0 + i as f64 * 150.0;
+            let _ = write!(
+                *s,
+                r#"<rect class="legend-key" x="{}" y="12" width="14" height="4" fill="{}"/><text class="legend" x="{}" y="19">{}</text>"#,
+                n(lx),
+                esc(&l.colour),
+                n(lx + 18.0),
+                esc(&l.name)
+            );
+        }
+    }
+}
+
+/// A span of a band timeline: `[t0, t1)` in category `cat`.
+#[derive(Clone, Copy, Debug)]
+pub struct Span {
+    /// Start.
+    pub t0: f64,
+    /// End.
+    pub t1: f64,
+    /// Index into the timeline's categories.
+    pub cat: usize,
+}
+
+/// A band timeline (one row of coloured spans) over elapsed time, with a
+/// legend of its categories `(name, colour)`.
+#[must_use]
+pub fn timeline(
+    title: &str,
+    x_range: (f64, f64),
+    spans: &[Span],
+    categories: &[(&str, &str)],
+) -> String {
+    let (w, h) = (900.0, 110.0);
+    let (ml, mr) = (64.0, 96.0);
+    let (x0, x1) = x_range;
+    let x1 = if x1 - x0 < 1e-9 { x0 + 1.0 } else { x1 };
+    let xs = Scale {
+        d0: x0,
+        d1: x1,
+        p0: ml,
+        p1: w - mr,
+    };
+    let (by, bh) = (30.0, 28.0);
+    let mut s = String::new();
+    let _ = write!(
+        s,
+        r#"<svg class="chart timeline" width="{}" height="{}" viewBox="0 0 {} {}" role="img" aria-label="{}"><text class="chart-title" x="{}" y="20">{}</text>"#,
+        n(w),
+        n(h),
+        n(w),
+        n(h),
+        esc(title),
+        n(ml),
+        esc(title)
+    );
+    for sp in spans {
+        let Some((name, colour)) = categories.get(sp.cat) else {
+            continue;
+        };
+        let a = xs.at(sp.t0.max(x0));
+        let b = xs.at(sp.t1.min(x1));
+        let _ = write!(
+            s,
+            r#"<rect class="band" x="{}" y="{}" width="{}" height="{}" fill="{}"><title>{}</title></rect>"#,
+            n(a),
+            n(by),
+            n((b - a).max(0.5)),
+            n(bh),
+            esc(colour),
+            esc(name)
+        );
+    }
+    let step = time_step_s(x1 - x0, 8);
+    for t in ticks_with_step(x0, x1, step) {
+        let px = xs.at(t);
+        let _ = write!(
+            s,
+            r#"<line class="tick" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
+            n(px),
+            n(by + bh),
+            n(px),
+            n(by + bh + 5.0),
+            n(px),
+            n(by + bh + 18.0),
+            esc(&time_label(t, step))
+        );
+    }
+    let _ = write!(
+        s,
+        r#"<text class="axis-label" x="{}" y="{}" text-anchor="middle">time since the first record (h:mm)</text>"#,
+        n((ml + w - mr) / 2.0),
+        n(by + bh + 34.0)
+    );
+    for (i, (name, colour)) in categories.iter().enumerate() {
+        #[allow(clippy::cast_precision_loss)]
+        let lx = ml + 260.0 + i as f64 * 100.0;
+        let _ = write!(
+            s,
+            r#"<rect class="legend-key" x="{}" y="10" width="10" height="10" fill="{}"/><text class="legend" x="{}" y="19">{}</text>"#,
+            n(lx),
+            esc(colour),
+            n(lx + 14.0),
+            esc(name)
+        );
+    }
+    s.push_str("</svg>");
+    s
+}
+
+/// One trace of a polar chart: `(direction in degrees, value)`; `None`
+/// values are drawn on the outer ring with an open marker.
+#[derive(Clone, Debug)]
+pub struct PolarTrace {
+    /// Legend name.
+    pub name: String,
+    /// Stroke colour.
+    pub colour: String,
+    /// Points in direction order.
+    pub points: Vec<(f64, Option<f64>)>,
+}
+
+/// A marked point on a polar chart (e.g. the gust at the closest approach).
+#[derive(Clone, Debug)]
+pub struct PolarMarker {
+    /// Direction, degrees clockwise from north.
+    pub deg: f64,
+    /// Radius value.
+    pub value: f64,
+    /// Label.
+    pub label: String,
+}
+
+/// A polar chart over compass directions.
+#[derive(Clone, Debug)]
+pub struct PolarChart {
+    /// Title.
+    pub title: String,
+    /// What the radius is (with unit).
+    pub r_label: String,
+    /// The traces.
+    pub traces: Vec<PolarTrace>,
+    /// An optional marked point.
+    pub marker: Option<PolarMarker>,
+    /// Size of the square chart, pixels.
+    pub size: f64,
+}
+
+/// The pixel of compass direction `deg` at radius `r_px` around `(cx, cy)`:
+/// north up, clockwise.
+#[must_use]
+pub fn polar_xy(cx: f64, cy: f64, deg: f64, r_px: f64) -> (f64, f64) {
+    let a = deg.to_radians();
+    (cx + r_px * a.sin(), cy - r_px * a.cos())
+}
+
+impl PolarChart {
+    /// The chart as an `<svg>` element.
+    #[must_use]
+    pub fn to_svg(&self) -> String {
+        let size = self.size;
+        let (cx, cy) = (size / 2.0, size / 2.0 + 14.0);
+        let r_px = size / 2.0 - 52.0;
+        let max = self
+            .traces
+            .iter()
+            .flat_map(|t| t.points.iter().filter_map(|p| p.1))
+            .chain(self.marker.iter().map(|m| m.value))
+            .filter(|v| v.is_finite())
+            .fold(0.0_f64, f64::max);
+        let step = nice_step(max.max(1.0), 4);
+        let r_max = ((max.max(1.0) / step).ceil() * step).max(step);
+        let rs = |v: f64| v.clamp(0.0, r_max) / r_max * r_px;
+        let mut s = String::new();
+        let _ = write!(
+            s,
+            r#"<svg class="chart polar-chart" width="{}" height="{}" viewBox="0 0 {} {}" role="img" aria-label="{}"><text class="chart-title" x="8" y="18">{}</text>"#,
+            n(size + 150.0),
+            n(size + 28.0),
+            n(size + 150.0),
+            n(size + 28.0),
+            esc(&self.title),
+            esc(&self.title)
+        );
+        for t in ticks_with_step(step, r_max, step) {
+            // Ring labels along the 15° bearing, clear of the spokes.
+            let (lx, ly) = polar_xy(cx, cy, 15.0, rs(t));
+            let _ = write!(
+                s,
+                r#"<circle class="ring" cx="{}" cy="{}" r="{}"/><text class="tick-label" x="{}" y="{}">{}</text>"#,
+                n(cx),
+                n(cy),
+                n(rs(t)),
+                n(lx + 2.0),
+                n(ly - 2.0),
+                esc(&value_label(t, step))
+            );
+        }
+        polar_spokes(&mut s, cx, cy, r_px);
+        let _ = write!(
+            s,
+            r#"<text class="axis-label" x="{}" y="{}">radius: {}</text>"#,
+            n(size + 4.0),
+            n(size + 20.0),
+            esc(&self.r_label)
+        );
+        for (i, t) in self.traces.iter().enumerate() {
+            let mut pts = String::new();
+            let mut open = String::new();
+            for &(deg, v) in &t.points {
+                let (x, y) = match v.filter(|v| v.is_finite()) {
+                    Some(v) => polar_xy(cx, cy, deg, rs(v)),
+                    None => {
+                        let (x, y) = polar_xy(cx, cy, deg, r_px);
+                        let _ = write!(
+                            open,
+                            r#"<circle class="beyond" cx="{}" cy="{}" r="3" stroke="{}"/>"#,
+                            n(x),
+                            n(y),
+                            esc(&t.colour)
+                        );
+                        (x, y)
+                    }
+                };
+                let _ = write!(pts, "{},{} ", n(x), n(y));
+            }
+            let _ = write!(
+                s,
+                r#"<polygon class="polar-trace" data-points="{}" points="{}" stroke="{}"><title>{}</title></polygon>{}"#,
+                t.points.len(),
+                pts.trim_end(),
+                esc(&t.colour),
+                esc(&t.name),
+                open
+            );
+            #[allow(clippy::cast_precision_loss)]
+            let ly = 40.0 + i as f64 * 16.0;
+            let _ = write!(
+                s,
+                r#"<rect class="legend-key" x="{}" y="{}" width="12" height="4" fill="{}"/><text class="legend" x="{}" y="{}">{}</text>"#,
+                n(size + 4.0),
+                n(ly - 4.0),
+                esc(&t.colour),
+                n(size + 20.0),
+                n(ly),
+                esc(&t.name)
+            );
+        }
+        if let Some(m) = &self.marker {
+            let (x, y) = polar_xy(cx, cy, m.deg, rs(m.value));
+            let _ = write!(
+                s,
+                r#"<circle class="polar-marker" cx="{}" cy="{}" r="5"><title>{}</title></circle><text class="mark-label" x="{}" y="{}">{}</text>"#,
+                n(x),
+                n(y),
+                esc(&m.label),
+                n(x + 7.0),
+                n(y - 6.0),
+                esc(&m.label)
+            );
+        }
+        s.push_str("</svg>");
+        s
+    }
+}
+
+/// The twelve spokes of a polar chart every 30°, labelled with N, E, S, W
+/// and degrees, around the centre (`cx`, `cy`) out to `r_px`.
+fn polar_spokes(s: &mut String, cx: f64, cy: f64, r_px: f64) {
+    for k in 0..12_u32 {
+        let deg = f64::from(k) * 30.0;
+        let (x, y) = polar_xy(cx, cy, deg, r_px);
+        let (lx, ly) = polar_xy(cx, cy, deg, r_px + 16.0);
+        let name = match k {
+            0 => "N".to_owned(),
+            3 => "E".to_owned(),
+            6 => "S".to_owned(),
+            9 => "W".to_owned(),
+            _ => format!("{deg:.0}°"),
+        };
+        let _ = write!(
+            *s,
+            r#"<line class="spoke" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
+            n(cx),
+            n(cy),
+            n(x),
+            n(y),
+            n(lx),
+            n(ly + 4.0),
+            esc(&name)
+        );
+    }
+}
+
+/// Colour of a utilisation on the heat maps' own scale: pale green at 0,
+/// through amber at 0.5 to red at 1, and a dark brown beyond 1 (over the
+/// rating). `None` is grey.
+#[must_use]
+pub fn heat_colour(v: Option<f64>) -> String {
+    let Some(v) = v.filter(|v| v.is_finite()) else {
+        return "#bbbbbb".to_owned();
+    };
+    if v > 1.0 {
+        return "#4a1c10".to_owned();
+    }
+    let stops: [(f64, [f64; 3]); 3] = [
+        (0.0, [232.0, 244.0, 226.0]),
+        (0.5, [240.0, 190.0, 80.0]),
+        (1.0, [196.0, 52.0, 40.0]),
+    ];
+    let v = v.max(0.0);
+    let (a, b) = if v <= 0.5 {
+        (stops[0], stops[1])
+    } else {
+        (stops[1], stops[2])
+    };
+    let f = (v - a.0) / (b.0 - a.0);
+    let c: Vec<u8> = (0..3)
+        .map(|i| {
+            let x = a.1[i] + (b.1[i] - a.1[i]) * f;
+            #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+            let x = x.round().clamp(0.0, 255.0) as u8;
+            x
+        })
+        .collect();
+    format!("#{:02x}{:02x}{:02x}", c[0], c[1], c[2])
+}
+
+/// A heat map: rows (`y_labels`, top to bottom) × columns (`x_labels`) of
+/// values coloured by [`heat_colour`], with a colour-scale legend.
+#[derive(Clone, Debug)]
+pub struct HeatMap {
+    /// Title.
+    pub title: String,
+    /// Label of the x axis.
+    pub x_label: String,
+    /// Label of the y axis.
+    pub y_label: String,
+    /// Column labels.
+    pub x_labels: Vec<String>,
+    /// Row labels, top row first.
+    pub y_labels: Vec<String>,
+    /// `values[row][column]`.
+    pub values: Vec<Vec<Option<f64>>>,
+    /// What a value is (for cell tooltips and the legend).
+    pub value_label: String,
+}
+
+impl HeatMap {
+    /// The map as an `<svg>` element.
+    #[must_use]
+    pub fn to_svg(&self) -> String {
+        let (cw, ch) = (24.0, 18.0);
+        let (ml, mt) = (64.0, 34.0);
+        #[allow(clippy::cast_precision_loss)]
+        let (cols, rows) = (self.x_labels.len() as f64, self.y_labels.len() as f64);
+        let w = ml + cols * cw + 130.0;
+        let h = mt + rows * ch + 58.0;
+        let mut s = String::new();
+        let _ = write!(
+            s,
+            r#"<svg class="chart heat-map" width="{}" height="{}" viewBox="0 0 {} {}" role="img" aria-label="{}"><text class="chart-title" x="{}" y="20">{}</text>"#,
+            n(w),
+            n(h),
+            n(w),
+            n(h),
+            esc(&self.title),
+            n(ml),
+            esc(&self.title)
+        );
+        for (r, row) in self.values.iter().enumerate() {
+            for (c, v) in row.iter().enumerate() {
+                #[allow(clippy::cast_precision_loss)]
+                let (x, y) = (ml + c as f64 * cw, mt + r as f64 * ch);
+                let tip = format!(
+                    "{} {}, {} {}: {}",
+                    self.x_label,
+                    self.x_labels.get(c).map_or("", String::as_str),
+                    self.y_label,
+                    self.y_labels.get(r).map_or("", String::as_str),
+                    v.map_or_else(|| "n/a".to_owned(), |v| format!("{v:.2}"))
+                );
+                let _ = write!(
+                    s,
+                    r#"<rect class="cell" x="{}" y="{}" width="{}" height="{}" fill="{}"><title>{}</title></rect>"#,
+                    n(x),
+                    n(y),
+                    n(cw),
+                    n(ch),
+                    heat_colour(*v),
+                    esc(&tip)
+                );
+            }
+        }
+        for (r, l) in self.y_labels.iter().enumerate() {
+            #[allow(clippy::cast_precision_loss)]
+            let y = mt + r as f64 * ch + ch / 2.0 + 4.0;
+            let _ = write!(
+                s,
+                r#"<text class="tick-label" x="{}" y="{}" text-anchor="end">{}</text>"#,
+                n(ml - 4.0),
+                n(y),
+                esc(l)
+            );
+        }
+        for (c, l) in self.x_labels.iter().enumerate() {
+            if c % 2 == 1 {
+                continue;
+            }
+            #[allow(clippy::cast_precision_loss)]
+            let x = ml + c as f64 * cw + cw / 2.0;
+            let _ = write!(
+                s,
+                r#"<text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
+                n(x),
+                n(mt + rows * ch + 14.0),
+                esc(l)
+            );
+        }
+        let _ = write!(
+            s,
+            r#"<text class="axis-label" x="{}" y="{}" text-anchor="middle">{}</text><text class="axis-label" x="14" y="{}" text-anchor="middle" transform="rotate(-90 14 {})">{}</text>"#,
+            n(ml + cols * cw / 2.0),
+            n(mt + rows * ch + 32.0),
+            esc(&self.x_label),
+            n(mt + rows * ch / 2.0),
+            n(mt + rows * ch / 2.0),
+            esc(&self.y_label)
+        );
+        // Colour scale.
+        let lx = ml + cols * cw + 24.0;
+        let steps = [0.0, 0.25, 0.5, 0.75, 1.0, 1.25];
+        for (i, v) in steps.iter().enumerate() {
+            #[allow(clippy::cast_precision_loss)]
+            let y = mt + i as f64 * 18.0;
+            let label = if *v > 1.0 {
+                "over 1".to_owned()
+            } else {
+                format!("{v:.2}")
+            };
+            let _ = write!(
+                s,
+                r#"<rect class="scale-key" x="{}" y="{}" width="16" height="16" fill="{}"/><text class="legend" x="{}" y="{}">{}</text>"#,
+                n(lx),
+                n(y),
+                heat_colour(Some(*v)),
+                n(lx + 20.0),
+                n(y + 12.0),
+                esc(&label)
+            );
+        }
+        let _ = write!(
+            s,
+            r#"<rect class="scale-key" x="{}" y="{}" width="16" height="16" fill="{}"/><text class="legend" x="{}" y="{}">n/a</text>"#,
+            n(lx),
+            n(mt + 6.0 * 18.0),
+            heat_colour(None),
+            n(lx + 20.0),
+            n(mt + 6.0 * 18.0 + 12.0)
+        );
+        s.push_str("</svg>");
+        s
+    }
+}
