@@ -204,6 +204,10 @@ pub struct ReplayReport {
     pub first_issues: Vec<String>,
     /// Per rig.
     pub rigs: Vec<RigReplay>,
+    /// Local offset east of UTC the logs carry, seconds, for the report's
+    /// wall-clock axes (`None`: the logs say none; not in the JSON).
+    #[serde(skip)]
+    pub local_offset_s: Option<i32>,
 }
 
 /// Most issues quoted in full in a report.
@@ -747,6 +751,7 @@ pub fn replay(
             .map(ToString::to_string)
             .collect(),
         rigs: trackers.into_iter().map(Tracker::finish).collect(),
+        local_offset_s: None,
     })
 }
 
@@ -995,7 +1000,8 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
         .collect();
     check_paths(&log_paths, &outputs)?;
     let mut merger = Merger::open(&p, policy.unwrap_or(p.on_error))?;
-    let (rep, verdict_file) = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
+    let (mut rep, verdict_file) = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
+    rep.local_offset_s = crate::report::clock::written_offset_s(&p);
     let mut files: Vec<AtomicFile> = verdict_file.into_iter().collect();
     if let Some(path) = &a.events {
         files.push(pending(path, &crate::event_lines::lines(&rep)?)?);
@@ -1048,9 +1054,11 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     let rig_path = folder.write("rig.toml", DEMO_RIG_TOML.as_bytes())?;
     let rig = crate::rigfile::load(&rig_path)?;
     let verdicts = a.out.join("verdicts.csv");
-    let mut merger = open_logs(&logs.profile_toml, &[])?;
-    let (rep, verdict_file) =
+    let profile = load_profile(&logs.profile_toml, &[])?;
+    let mut merger = Merger::open(&profile, profile.on_error)?;
+    let (mut rep, verdict_file) =
         replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
+    rep.local_offset_s = crate::report::clock::written_offset_s(&profile);
     let report = a.out.join("report.html");
     let page = pending(
         &report,

@@ -5,11 +5,16 @@
 //! script, so it opens anywhere without a network. The charts are drawn by
 //! the small writer in [`svg`]; the replay's time series comes from the
 //! bounded collector in [`series`]. Units on the page: utilisation as a
-//! fraction (1.0 is the limit), speeds m/s, angles degrees (wind directions
-//! are where the wind blows FROM, clockwise from north), time as h:mm since
-//! the first record.
+//! percentage of the limit (100 % tips, slides or reaches the rating, in
+//! tables and on axes alike), speeds m/s (the replay's wind chart: all at
+//! the rig height of the rig file), angles degrees (wind directions are
+//! where the wind blows FROM, clockwise from north), time as local wall
+//! time at the offset the logs carry (UTC in the event table). Colours come
+//! from [`palette`], checked for colour-blind readers.
 
+pub mod clock;
 pub mod html;
+pub mod palette;
 pub mod series;
 pub mod svg;
 
@@ -24,6 +29,7 @@ use crate::assess::{AssessReport, CAUTIONS};
 use crate::error::Error;
 use crate::replay::{Approach, ReplayReport, RigReplay, STAGES};
 use crate::rigfile::LoadedRig;
+use clock::Clock;
 use html::Page;
 use series::Series;
 use svg::{HLine, HeatMap, Line, LineChart, Mark, PolarChart, PolarMarker, PolarTrace, Span};
@@ -34,15 +40,13 @@ pub const POLAR_STEP_DEG: u32 = 5;
 /// Step of the axis-torque map over hour angle and declination, degrees.
 pub const TORQUE_MAP_STEP_DEG: i32 = 15;
 
-/// The report's colour of each stage (in [`STAGES`] order).
+/// The report's colour of each stage ([`palette::STAGE`], in [`STAGES`]
+/// order).
 fn stage_colour(s: Stage) -> &'static str {
-    match s {
-        Stage::Clear => "#9bcf9b",
-        Stage::Watch => "#e2bd3a",
-        Stage::ParkNow => "#e58a2e",
-        Stage::Alarm => "#c8372d",
-        Stage::SensorFault => "#7b7f9e",
-    }
+    palette::STAGE
+        .get(stage_cat(s))
+        .copied()
+        .unwrap_or(palette::INK)
 }
 
 fn stage_cat(s: Stage) -> usize {
@@ -141,7 +145,16 @@ pub fn approach_conditions(
     Ok(c)
 }
 
-fn approach_row(label: &str, a: Option<&Approach>) -> Vec<String> {
+/// A time of the replay for a table: local wall time with its zone, then
+/// the UTC time the replay recorded (`utc`).
+fn when(clock: Option<&Clock>, t_s: f64, utc: &str) -> String {
+    match clock {
+        Some(c) if c.offset_s != 0 => format!("{} ({utc})", c.local_text(t_s)),
+        _ => utc.to_owned(),
+    }
+}
+
+fn approach_row(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> Vec<String> {
     let Some(a) = a else {
         return vec![
             label.to_owned(),
@@ -158,7 +171,7 @@ fn approach_row(label: &str, a: Option<&Approach>) -> Vec<String> {
     vec![
         label.to_owned(),
         format!("{:.0} %", a.utilisation * 100.0),
-        format!("{} (+{:.0} s)", a.time, a.t_s),
+        when(clock, a.t_s, &a.time),
         opt(a.gust_mps, "m/s", 1),
         opt(a.wind_from_deg, "°", 0),
         pose_words(&a.pose),
@@ -168,11 +181,27 @@ fn approach_row(label: &str, a: Option<&Approach>) -> Vec<String> {
     ]
 }
 
-fn points(s: &Series, f: impl Fn(&series::SeriesPoint) -> Option<f32>) -> Vec<(f64, Option<f64>)> {
-    s.points
-        .iter()
-        .map(|p| ((p.t_start_s + p.t_last_s) / 2.0, f(p).map(f64::from)))
-        .collect()
+/// The chart points of one figure of the series, scaled by `k`: one per
+/// bucket, and a break (`None`) wherever buckets are missing (no record in
+/// that interval), so a gap in the logs is drawn as a gap.
+fn points(
+    s: &Series,
+    k: f64,
+    f: impl Fn(&series::SeriesPoint) -> Option<f32>,
+) -> Vec<(f64, Option<f64>)> {
+    let mut out = Vec::with_capacity(s.points.len());
+    let mut prev_start: Option<f64> = None;
+    for p in &s.points {
+        if prev_start.is_some_and(|q| p.t_start_s - q > s.width_s * 1.5) {
+            out.push((p.t_start_s, None));
+        }
+        prev_start = Some(p.t_start_s);
+        out.push((
+            (p.t_start_s + p.t_last_s) / 2.0,
+            f(p).map(|v| f64::from(v) * k),
+        ));
+    }
+    out
 }
 
 fn line(name: &str, colour: &str, pts: Vec<(f64, Option<f64>)>) -> Line {
@@ -185,23 +214,47 @@ fn line(name: &str, colour: &str, pts: Vec<(f64, Option<f64>)>) -> Line {
     }
 }
 
-fn event_marks(r: &RigReplay) -> Vec<Mark> {
-    let mut m: Vec<Mark> = r
+/// One event of a rig (a stage change or a fault) for the charts and the
+/// event table: its number is its place in time order, from 1.
+struct NightEvent {
+    t_s: f64,
+    utc: String,
+    what: String,
+    colour: &'static str,
+}
+
+fn night_events(r: &RigReplay) -> Vec<NightEvent> {
+    let mut m: Vec<NightEvent> = r
         .stage_changes
         .iter()
-        .map(|c| Mark {
-            x: c.t_s,
-            label: format!("{} → {}", c.from.name(), c.to.name()),
-            colour: stage_colour(c.to).to_owned(),
+        .map(|c| NightEvent {
+            t_s: c.t_s,
+            utc: c.time.clone(),
+            what: format!("{} → {} ({})", c.from.name(), c.to.name(), c.cause),
+            colour: stage_colour(c.to),
         })
         .collect();
-    m.extend(r.faults.iter().map(|f| Mark {
-        x: f.t_s,
-        label: format!("fault: {}", f.fault),
-        colour: stage_colour(Stage::SensorFault).to_owned(),
+    m.extend(r.faults.iter().map(|f| NightEvent {
+        t_s: f.t_s,
+        utc: f.time.clone(),
+        what: format!("fault: {}", f.fault),
+        colour: stage_colour(Stage::SensorFault),
     }));
-    m.sort_by(|a, b| a.x.total_cmp(&b.x));
+    m.sort_by(|a, b| a.t_s.total_cmp(&b.t_s));
     m
+}
+
+fn event_marks(events: &[NightEvent]) -> Vec<Mark> {
+    events
+        .iter()
+        .enumerate()
+        .map(|(i, e)| Mark {
+            x: e.t_s,
+            number: i + 1,
+            label: e.what.clone(),
+            colour: e.colour.to_owned(),
+        })
+        .collect()
 }
 
 fn stage_spans(s: &Series) -> Vec<Span> {
@@ -236,14 +289,20 @@ fn rig_section(
         r.highest_stage.name(),
         r.final_stage.name()
     ));
+    let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+    let ck = clock.as_ref();
     page.h3("Closest approach");
     let mut rows = vec![
-        approach_row("overturning", r.overturning.as_ref()),
-        approach_row("sliding", r.sliding.as_ref()),
+        approach_row("overturning", r.overturning.as_ref(), ck),
+        approach_row("sliding", r.sliding.as_ref(), ck),
     ];
     for (i, d) in r.drive.iter().enumerate() {
         if d.is_some() {
-            rows.push(approach_row(&format!("drive axis {}", i + 1), d.as_ref()));
+            rows.push(approach_row(
+                &format!("drive axis {}", i + 1),
+                d.as_ref(),
+                ck,
+            ));
         }
     }
     page.table(
@@ -263,48 +322,67 @@ fn rig_section(
 
     let s = &r.series;
     let x_range = (0.0, rep.duration_s.max(s.width_s));
+    let x_label = match (clock, rep.local_offset_s) {
+        (Some(c), Some(_)) => format!("local time ({}, hh:mm)", c.zone_text()),
+        (Some(_), None) => "time (UTC, hh:mm)".to_owned(),
+        (None, _) => "time since the first record (h:mm)".to_owned(),
+    };
+    let zone_note = match (clock, rep.local_offset_s) {
+        (Some(c), Some(_)) => format!(
+            " Times are local ({}), the offset the logs carry.",
+            c.zone_text()
+        ),
+        (Some(_), None) => " Times are UTC: the logs carry no zone offset.".to_owned(),
+        (None, _) => String::new(),
+    };
+    let events = night_events(r);
+    let marks = event_marks(&events);
+    let new_chart = |title: &str, y: &str| {
+        let mut c = LineChart::new(title, &x_label, y);
+        c.x_range = x_range;
+        c.clock = clock;
+        c
+    };
     let bucket = format!(
         "Each point is the highest value (mean for the mean wind) over {:.0} s of log.",
         s.width_s
     );
     // (a) Utilisation with the guard thresholds and the event marks.
-    let mut u = LineChart::new(
-        "Utilisation over time",
-        "time since the first record (h:mm)",
-        "utilisation (1 = limit)",
-    );
-    u.x_range = x_range;
+    let mut u = new_chart("Utilisation over time", "utilisation (% of the limit)");
     u.lines.push(line(
         "overturning",
-        "#1f5fa8",
-        points(s, |p| p.overturning_max),
+        palette::BLUE,
+        points(s, 100.0, |p| p.overturning_max),
     ));
     let mut pred = line(
         "predicted (end of park)",
-        "#7a4fb0",
-        points(s, |p| p.predicted_max),
+        palette::PINK,
+        points(s, 100.0, |p| p.predicted_max),
     );
     pred.dashed = true;
     u.lines.push(pred);
-    u.lines
-        .push(line("sliding", "#2a9d8f", points(s, |p| p.sliding_max)));
+    u.lines.push(line(
+        "sliding",
+        palette::AMBER,
+        points(s, 100.0, |p| p.sliding_max),
+    ));
     if let Some(l) = rig {
-        for (value, label, colour) in [
-            (l.guard.watch_utilisation, "watch", "#b8901a"),
-            (l.guard.park_utilisation, "park", "#d06a10"),
-            (l.guard.alarm_utilisation, "alarm", "#b5321f"),
+        for (value, label) in [
+            (l.guard.watch_utilisation, "watch"),
+            (l.guard.park_utilisation, "park"),
+            (l.guard.alarm_utilisation, "alarm"),
         ] {
             u.hlines.push(HLine {
-                value: f64::from(value),
-                label: format!("{label} {value:.2}"),
-                colour: colour.to_owned(),
+                value: f64::from(value) * 100.0,
+                label: format!("{label} {:.0} %", value * 100.0),
+                colour: palette::INK.to_owned(),
             });
         }
     }
-    u.marks = event_marks(r);
+    u.marks.clone_from(&marks);
     page.figure(
         &u.to_svg(),
-        &format!("Overturning, predicted and sliding utilisation with the guard's watch, park and alarm thresholds (dashed) and the stage changes and faults (vertical lines). {bucket}"),
+        &format!("Overturning, predicted and sliding utilisation in % of the limit (100 %: the rig tips or slides) with the guard's watch, park and alarm thresholds (dashed) and the numbered events (vertical lines; the table below names them). {bucket}{zone_note}"),
     );
     // Stage timeline.
     let cats: Vec<(&str, &str)> = STAGES
@@ -312,45 +390,72 @@ fn rig_section(
         .map(|st| (st.name(), stage_colour(*st)))
         .collect();
     page.figure(
-        &svg::timeline("Stage over time", x_range, &stage_spans(s), &cats),
+        &svg::timeline(
+            "Stage over time",
+            x_range,
+            &stage_spans(s),
+            &cats,
+            ck,
+            &x_label,
+        ),
         "The guard's stage; each interval shows its most severe stage.",
     );
-    // (b) Wind speed and direction.
-    let mut w = LineChart::new(
-        "Wind speed",
-        "time since the first record (h:mm)",
-        "wind speed (m/s)",
-    );
-    w.x_range = x_range;
+    event_table(page, &events, ck);
+    // (b) Wind speed, all at rig height, and direction.
+    let heights = rig.and_then(|l| {
+        l.guard.wind.height_factor().ok().map(|k| {
+            (
+                k,
+                l.guard.wind.anemometer_height_m,
+                l.guard.wind.rig_height_m,
+            )
+        })
+    });
+    let (k, at) = match heights {
+        Some((k, _, rig_m)) => (f64::from(k), format!("at rig height ({rig_m:.1} m)")),
+        None => (
+            1.0,
+            "at the anemometer (no rig file: not scaled)".to_owned(),
+        ),
+    };
+    let mut w = new_chart(&format!("Wind {at}"), "wind speed (m/s)");
     w.lines.push(line(
-        "highest sample",
-        "#d69e2e",
-        points(s, |p| p.wind_max_mps),
+        "anemometer: highest sample",
+        palette::PALE_BLUE,
+        points(s, k, |p| p.wind_max_mps),
+    ));
+    w.lines.push(line(
+        "anemometer: mean",
+        palette::INK,
+        points(s, k, series::SeriesPoint::wind_mean_mps),
     ));
     w.lines.push(line(
         "gust used by the guard",
-        "#c05621",
-        points(s, |p| p.gust_max_mps),
+        palette::BLUE,
+        points(s, 1.0, |p| p.gust_max_mps),
     ));
-    w.lines.push(line(
-        "mean wind",
-        "#2b6cb0",
-        points(s, series::SeriesPoint::wind_mean_mps),
-    ));
-    w.marks = event_marks(r);
-    page.figure(&w.to_svg(), &format!("Wind speed: the anemometer's highest sample and mean, and the gust the guard's figures use (its peak estimate over its window). {bucket}"));
-    let mut d = LineChart::new(
-        "Wind direction",
-        "time since the first record (h:mm)",
-        "from (degrees)",
+    let mut tip = line(
+        "tip wind (lowest)",
+        palette::PINK,
+        points(s, 1.0, |p| p.tip_wind_min_mps),
     );
-    d.x_range = x_range;
+    tip.dashed = true;
+    w.lines.push(tip);
+    w.marks.clone_from(&marks);
+    let scaled = match heights {
+        Some((k, anemo_m, rig_m)) => format!(
+            "The anemometer's samples (at {anemo_m:.1} m) are scaled to the rig height of {rig_m:.1} m by the guard's own factor ×{k:.3} (logarithmic wind profile), so every line is at rig height."
+        ),
+        None => "No rig file: the anemometer's samples are drawn as measured.".to_owned(),
+    };
+    page.figure(&w.to_svg(), &format!("Wind speed: the anemometer's highest sample and mean, the gust the guard's figures use (its peak estimate over its window) and the tip wind, the lowest wind speed that would tip the rig in its pose then (dashed; where the gust meets it, the rig tips). {scaled} {bucket}"));
+    let mut d = new_chart("Wind direction", "from (degrees)");
     d.y_range = Some((0.0, 360.0));
     d.y_step = Some(90.0);
     let mut dl = line(
         "direction at the highest gust",
-        "#4a5568",
-        points(s, |p| p.wind_from_deg),
+        palette::INK,
+        points(s, 1.0, |p| p.wind_from_deg),
     );
     dl.dots = true;
     d.lines.push(dl);
@@ -359,18 +464,13 @@ fn rig_section(
         "Direction the wind blows from (0° north, 90° east), at each interval's highest gust.",
     );
     // (c) Tilt.
-    let mut t = LineChart::new(
-        "Ground tilt",
-        "time since the first record (h:mm)",
-        "tilt (degrees)",
-    );
-    t.x_range = x_range;
+    let mut t = new_chart("Ground tilt", "tilt (degrees)");
     t.lines.push(line(
         "tilt (highest)",
-        "#6b46c1",
-        points(s, |p| p.tilt_max_deg),
+        palette::BLUE,
+        points(s, 1.0, |p| p.tilt_max_deg),
     ));
-    t.marks = event_marks(r);
+    t.marks.clone_from(&marks);
     page.figure(
         &t.to_svg(),
         &format!("Tilt of the rig from the vertical. {bucket}"),
@@ -385,7 +485,7 @@ fn rig_section(
             r_label: "tip wind (m/s)".to_owned(),
             traces: vec![PolarTrace {
                 name: "tip wind".to_owned(),
-                colour: "#1f5fa8".to_owned(),
+                colour: palette::BLUE.to_owned(),
                 points: pts,
             }],
             marker: match (a.wind_from_deg, a.gust_mps) {
@@ -467,6 +567,24 @@ fn rig_section(
         page.note(&format!("… and {} more not kept.", r.faults_not_kept));
     }
     Ok(())
+}
+
+/// The numbered events of the charts, with local and UTC times.
+fn event_table(page: &mut Page, events: &[NightEvent], clock: Option<&Clock>) {
+    page.h3(&format!("Events on the charts ({})", events.len()));
+    let rows: Vec<Vec<String>> = events
+        .iter()
+        .enumerate()
+        .map(|(i, e)| {
+            vec![
+                (i + 1).to_string(),
+                clock.map_or_else(|| "-".to_owned(), |c| c.local_text(e.t_s)),
+                e.utc.clone(),
+                e.what.clone(),
+            ]
+        })
+        .collect();
+    page.table(&["no.", "local time", "UTC", "what happened"], &rows);
 }
 
 fn core_err(file: &str, e: &standfast::Error) -> Error {
@@ -621,17 +739,17 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
         traces: vec![
             PolarTrace {
                 name: "home pose".to_owned(),
-                colour: "#1f5fa8".to_owned(),
+                colour: palette::BLUE.to_owned(),
                 points: home_pts,
             },
             PolarTrace {
                 name: "worst pose of the sky".to_owned(),
-                colour: "#c05621".to_owned(),
+                colour: palette::PINK.to_owned(),
                 points: worst_pts,
             },
             PolarTrace {
                 name: "assessed condition".to_owned(),
-                colour: "#2f855a".to_owned(),
+                colour: palette::AMBER.to_owned(),
                 points: condition_pts,
             },
         ],

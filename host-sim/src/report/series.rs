@@ -46,6 +46,9 @@ pub struct SeriesPoint {
     wind_sum_mps: f64,
     /// Records with a wind speed.
     wind_n: u32,
+    /// Lowest tip wind speed (the wind that would tip the rig), m/s at
+    /// rig height.
+    pub tip_wind_min_mps: Option<f32>,
     /// Largest ground tilt, degrees.
     pub tilt_max_deg: Option<f32>,
     /// Most severe stage in the bucket.
@@ -67,6 +70,7 @@ impl SeriesPoint {
             wind_max_mps: None,
             wind_sum_mps: 0.0,
             wind_n: 0,
+            tip_wind_min_mps: None,
             tilt_max_deg: None,
             stage: Stage::Clear,
             records: 0,
@@ -97,6 +101,7 @@ impl SeriesPoint {
         self.wind_sum_mps += o.wind_sum_mps;
         self.wind_n = self.wind_n.saturating_add(o.wind_n);
         self.tilt_max_deg = hi(self.tilt_max_deg, o.tilt_max_deg);
+        self.tip_wind_min_mps = lo(self.tip_wind_min_mps, o.tip_wind_min_mps);
         self.stage = self.stage.max(o.stage);
         self.records = self.records.saturating_add(o.records);
     }
@@ -106,6 +111,15 @@ impl SeriesPoint {
 fn hi(a: Option<f32>, b: Option<f32>) -> Option<f32> {
     match (a, b.filter(|x| x.is_finite())) {
         (Some(x), Some(y)) => Some(if y > x { y } else { x }),
+        (None, y) => y,
+        (x, None) => x,
+    }
+}
+
+/// The lower of two optional values (a finite value beats `None`).
+fn lo(a: Option<f32>, b: Option<f32>) -> Option<f32> {
+    match (a, b.filter(|x| x.is_finite())) {
+        (Some(x), Some(y)) => Some(if y < x { y } else { x }),
         (None, y) => y,
         (x, None) => x,
     }
@@ -219,6 +233,7 @@ impl Series {
             p.wind_n = p.wind_n.saturating_add(1);
         }
         p.tilt_max_deg = hi(p.tilt_max_deg, v.tilt.map(|t| t.magnitude_rad.to_degrees()));
+        p.tip_wind_min_mps = lo(p.tip_wind_min_mps, v.tip_wind_mps);
         p.stage = p.stage.max(v.stage);
     }
 }

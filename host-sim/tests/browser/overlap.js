@@ -7,14 +7,17 @@
 //   STRUCK     a label crossed by a guide line (a threshold or an event
 //              mark: class "threshold" or "event-mark") more than TOL_PX
 //              inside its box;
-//   UNLABELLED a chart with more event marks (class "event-mark") than
-//              event labels (class "mark-label"): an event nobody can name.
+//   UNLABELLED an event mark (class "event-mark") no label names: marks
+//              with data-event="n" need a visible label (class "mark-label")
+//              whose data-events lists n; without numbers, a chart with
+//              more marks than labels fails.
 // The result is written into the page as a pre element with the id
 // standfast-overlap-check, one line each, which check.sh reads from
 // Chromium's --dump-dom output:
 //   CHECKED <charts> <labels>
 //   OVERLAP <chart title> | "<text a>" | "<text b>" | <w>x<h> px
 //   STRUCK <chart title> | "<text>" | <line class>
+//   UNLABELLED <chart title> | events <n, ...> have no label
 //   UNLABELLED <chart title> | <marks> marks, <labels> labels
 //   PAGEHEIGHT <pixels> (for the full-page screenshot)
 (function () {
@@ -56,26 +59,35 @@
         }
       }
     }
-    var marks = svg.querySelectorAll(".event-mark").length;
-    var markLabels = svg.querySelectorAll(".mark-label").length;
-    if (marks > markLabels) {
-      lines.push(
-        "UNLABELLED " + title + " | " + marks + " marks, " + markLabels + " labels"
-      );
+    // Every event mark must be named by a label: by number when the marks
+    // carry data-event and the labels data-events (a label may name a run
+    // of close events), else by count.
+    var markEls = svg.querySelectorAll(".event-mark");
+    var labelEls = svg.querySelectorAll(".mark-label");
+    var named = {};
+    var numbered = markEls.length > 0;
+    for (var m = 0; m < markEls.length; m++) {
+      if (!markEls[m].hasAttribute("data-event")) numbered = false;
     }
-    for (var a = 0; a < boxes.length; a++) {
-      for (var b = a + 1; b < boxes.length; b++) {
-        var p = boxes[a].r;
-        var q = boxes[b].r;
-        var w = Math.min(p.right, q.right) - Math.max(p.left, q.left);
-        var h = Math.min(p.bottom, q.bottom) - Math.max(p.top, q.top);
-        if (w > TOL_PX && h > TOL_PX) {
-          lines.push(
-            "OVERLAP " + title + ' | "' + boxes[a].t + '" | "' + boxes[b].t +
-              '" | ' + w.toFixed(1) + "x" + h.toFixed(1) + " px"
-          );
-        }
+    for (var l = 0; l < labelEls.length; l++) {
+      var ev = (labelEls[l].getAttribute("data-events") || "").split(" ");
+      var box = labelEls[l].getBoundingClientRect();
+      if (box.width <= 0 || labelEls[l].textContent.trim() === "") continue;
+      for (var e = 0; e < ev.length; e++) named[ev[e]] = true;
+    }
+    if (numbered) {
+      var missing = [];
+      for (var m2 = 0; m2 < markEls.length; m2++) {
+        var id = markEls[m2].getAttribute("data-event");
+        if (!named[id]) missing.push(id);
       }
+      if (missing.length > 0) {
+        lines.push("UNLABELLED " + title + " | events " + missing.join(", ") + " have no label");
+      }
+    } else if (markEls.length > labelEls.length) {
+      lines.push(
+        "UNLABELLED " + title + " | " + markEls.length + " marks, " + labelEls.length + " labels"
+      );
     }
   }
   lines.unshift("CHECKED " + charts + " " + labels);

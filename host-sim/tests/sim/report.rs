@@ -256,15 +256,17 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
     assert_eq!(html.matches("<svg").count(), 6);
     let axis = texts(&doc, "axis-label");
     for l in [
-        "utilisation (1 = limit)",
+        "utilisation (% of the limit)",
         "wind speed (m/s)",
         "from (degrees)",
         "tilt (degrees)",
-        "time since the first record (h:mm)",
+        // The invented log writes UTC times without an offset.
+        "time (UTC, hh:mm)",
     ] {
         assert!(axis.iter().any(|a| a == l), "{l} missing in {axis:?}");
     }
-    // The guard's three thresholds, at the rig file's values.
+    // The guard's three thresholds, at the rig file's values, in % like
+    // the axis and the tables.
     let th: Vec<f64> = doc
         .descendants()
         .filter(|n| n.has_tag_name("line") && class_is(n, "threshold"))
@@ -273,7 +275,7 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
     let g = &rig.guard;
     for v in [g.watch_utilisation, g.park_utilisation, g.alarm_utilisation] {
         assert!(
-            th.iter().any(|t| (t - f64::from(v)).abs() < 1e-6),
+            th.iter().any(|t| (t - f64::from(v) * 100.0).abs() < 1e-4),
             "{v} in {th:?}"
         );
     }
@@ -285,7 +287,32 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
         .filter(|n| n.has_tag_name("line") && class_is(n, "event-mark"))
         .count();
     // Marked on the utilisation, wind speed and tilt charts.
-    assert_eq!(marks, 3 * (r.stage_changes.len() + r.faults.len()));
+    let n_events = r.stage_changes.len() + r.faults.len();
+    assert_eq!(marks, 3 * n_events);
+    // Each chart names every event by its number in the strip above the
+    // plot (close events share a label such as "2–4"), and the page lists
+    // the numbers once in the event table.
+    for svg in svgs.iter().filter(|s| {
+        s.descendants()
+            .any(|n| n.has_tag_name("line") && class_is(&n, "event-mark"))
+    }) {
+        let mut named: Vec<usize> = svg
+            .descendants()
+            .filter(|n| n.has_tag_name("text") && class_is(n, "mark-label"))
+            .flat_map(|n| {
+                n.attribute("data-events")
+                    .unwrap()
+                    .split(' ')
+                    .map(|x| x.parse::<usize>().unwrap())
+                    .collect::<Vec<_>>()
+            })
+            .collect();
+        named.sort_unstable();
+        assert_eq!(named, (1..=n_events).collect::<Vec<_>>());
+    }
+    assert!(html.contains(&format!("Events on the charts ({n_events})")));
+    // The tip wind is drawn with the gusts.
+    assert!(html.contains("<title>tip wind (lowest)</title>"));
     // The polar chart: 72 directions every 5°, north first, radii in
     // proportion to the tip wind speeds from the core's assessment at the
     // closest approach.
