@@ -438,7 +438,48 @@ impl Tracker {
     }
 }
 
-const VERDICT_HEADER: &str = "time,t_s,rig,stage,overturning_utilisation,predicted_utilisation,sliding_utilisation,drive1_utilisation,drive2_utilisation,tip_wind_mps,gust_mps,predicted_gust_mps,wind_from_deg,tilt_deg,tilt_margin_deg,faults\n";
+const VERDICT_HEADER: &str = "time,t_s,rig,stage,overturning_utilisation,predicted_utilisation,sliding_utilisation,drive1_utilisation,drive2_utilisation,tip_wind_mps,gust_mps,predicted_gust_mps,wind_from_deg,tilt_deg,tilt_margin_deg,faults,cover,pose_frame,pose_a_deg,pose_b_deg,pier_side\n";
+
+/// The pose columns of the verdict CSV: frame, its two angles in degrees
+/// (hour angle and declination; azimuth and altitude; primary and
+/// secondary axis angles) and the pier side (empty for axis angles).
+fn pose_columns(p: &Pose) -> (&'static str, f32, f32, &'static str) {
+    let side = |s: MountPierSide| match s {
+        MountPierSide::TubeEast => "tube_east",
+        MountPierSide::TubeWest => "tube_west",
+    };
+    match *p {
+        Pose::Axes {
+            primary_rad,
+            secondary_rad,
+        } => (
+            "axes",
+            primary_rad.to_degrees(),
+            secondary_rad.to_degrees(),
+            "",
+        ),
+        Pose::Equatorial {
+            hour_angle_rad,
+            declination_rad,
+            pier_side,
+        } => (
+            "equatorial",
+            hour_angle_rad.to_degrees(),
+            declination_rad.to_degrees(),
+            side(pier_side),
+        ),
+        Pose::Horizontal {
+            azimuth_rad,
+            altitude_rad,
+            pier_side,
+        } => (
+            "horizontal",
+            azimuth_rad.to_degrees(),
+            altitude_rad.to_degrees(),
+            side(pier_side),
+        ),
+    }
+}
 
 fn opt(v: Option<f32>) -> String {
     v.map_or_else(String::new, |x| format!("{x:.4}"))
@@ -450,11 +491,13 @@ fn write_verdict(
     t_s: f64,
     rig: usize,
     v: &Verdict,
+    cover: Option<bool>,
 ) -> std::io::Result<()> {
     let d = |i: usize| v.drive_utilisation.and_then(|d| d.get(i).copied());
+    let (frame, a_deg, b_deg, side) = pose_columns(&v.pose);
     writeln!(
         w,
-        "{},{t_s:.3},{rig},{},{},{},{},{},{},{},{},{},{},{},{},{}",
+        "{},{t_s:.3},{rig},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{frame},{a_deg:.4},{b_deg:.4},{side}",
         time.to_iso8601(3),
         v.stage.name(),
         opt(v.overturning_utilisation),
@@ -469,6 +512,11 @@ fn write_verdict(
         opt(v.tilt.map(|t| t.magnitude_rad.to_degrees())),
         opt(v.tilt_margin_rad.map(f32::to_degrees)),
         v.faults.len(),
+        match cover {
+            Some(true) => "fitted",
+            Some(false) => "off",
+            None => "",
+        },
     )
 }
 
@@ -578,7 +626,7 @@ fn take_batch(
                     .iter()
                     .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
                 if *n % every == 0 || has_event {
-                    write_verdict(&mut **w, s.time, s.t_s, i, v)
+                    write_verdict(&mut **w, s.time, s.t_s, i, v, s.cover_fitted)
                         .map_err(|e| Error::io(*name, e))?;
                 }
             }
@@ -805,11 +853,14 @@ pub struct ReplayArgs {
 #[derive(Debug, clap::Args)]
 pub struct DemoArgs {
     /// Folder for the invented night's logs, profile, rig file, verdicts and
-    /// report (created if missing). Files of the same names are replaced
-    /// only when standfast wrote them and they are unchanged, unless
-    /// --replace is given.
-    #[arg(long, value_name = "DIR", default_value = "target/standfast-demo")]
-    pub out: std::path::PathBuf,
+    /// report (created if missing; about 66 MB for the whole night). Default:
+    /// `standfast-demo` in cargo's target folder when the command runs from
+    /// one (`cargo run`), else `standfast-demo` in the current folder; the
+    /// command prints the folder it used. Files of the same names are
+    /// replaced only when standfast wrote them and they are unchanged,
+    /// unless --replace is given.
+    #[arg(long, value_name = "DIR")]
+    pub out: Option<std::path::PathBuf>,
     /// Replace files of the same names in the --out folder even when
     /// standfast did not write them (for example your own rig.toml).
     #[arg(long)]
@@ -1031,6 +1082,30 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
     Ok(())
 }
 
+/// The demo's default folder: `standfast-demo` in cargo's target folder
+/// when the executable `exe` lies in one (a folder holding the
+/// `CACHEDIR.TAG` cargo writes there, up to three levels above the
+/// executable: `target/debug/`, `target/<triple>/release/`), else
+/// `standfast-demo` in `cwd`.
+#[must_use]
+pub fn demo_dir_for(exe: &std::path::Path, cwd: &std::path::Path) -> std::path::PathBuf {
+    exe.ancestors()
+        .skip(1)
+        .take(3)
+        .find(|d| d.join("CACHEDIR.TAG").is_file())
+        .map_or_else(|| cwd.join("standfast-demo"), |t| t.join("standfast-demo"))
+}
+
+/// Total size of the named files in `dir`, bytes (files that cannot be
+/// read count 0: the size is only reported).
+fn files_size(dir: &std::path::Path, names: &[&str]) -> u64 {
+    names
+        .iter()
+        .filter_map(|n| std::fs::metadata(dir.join(n)).ok())
+        .map(|m| m.len())
+        .sum()
+}
+
 /// Runs `standfast demo`: writes the invented night and rig into the
 /// folder, replays them and prints the summary and the paths written.
 ///
@@ -1044,7 +1119,11 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
         ),
         None => None,
     };
-    let mut folder = OwnedFolder::open(&a.out, a.replace)?;
+    let out_dir = a.out.clone().unwrap_or_else(|| {
+        let exe = std::env::current_exe().unwrap_or_default();
+        demo_dir_for(&exe, std::path::Path::new("."))
+    });
+    let mut folder = OwnedFolder::open(&out_dir, a.replace)?;
     folder.check(&DEMO_FILES)?;
     let mut plan = crate::demo_data::NightPlan::windy_night(a.seed);
     if let Some(h) = hours {
@@ -1053,13 +1132,13 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     let logs = crate::demo_data::write_demo_logs_in(&mut folder, &plan)?;
     let rig_path = folder.write("rig.toml", DEMO_RIG_TOML.as_bytes())?;
     let rig = crate::rigfile::load(&rig_path)?;
-    let verdicts = a.out.join("verdicts.csv");
+    let verdicts = out_dir.join("verdicts.csv");
     let profile = load_profile(&logs.profile_toml, &[])?;
     let mut merger = Merger::open(&profile, profile.on_error)?;
     let (mut rep, verdict_file) =
         replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
     rep.local_offset_s = crate::report::clock::written_offset_s(&profile);
-    let report = a.out.join("report.html");
+    let report = out_dir.join("report.html");
     let page = pending(
         &report,
         &crate::report::replay_html(&rep, std::slice::from_ref(&rig))?,
@@ -1070,12 +1149,16 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     folder.commit(page)?;
     crate::summary::write(&rep, a.json, out)?;
     if !a.json {
+        #[allow(clippy::cast_precision_loss)] // sizes far below 2^53
+        let size_mb = files_size(&out_dir, &DEMO_FILES) as f64 / 1e6;
         writeln!(out, "\nReport: {}", report.display())
             .map_err(|e| Error::io("<standard output>", e))?;
         writeln!(
             out,
-            "\nAn invented windy night (seed {}); no real rig or site is described. Files written:\n  {}\n  {}\n  {}\n  {}\n  {}\n  {} (every 10th record)",
+            "\nAn invented windy night (seed {}); no real rig or site is described. Files written in {} ({:.1} MB in all):\n  {}\n  {}\n  {}\n  {}\n  {}\n  {} (every 10th record)",
             a.seed,
+            out_dir.display(),
+            size_mb,
             rig_path.display(),
             logs.wind_csv.display(),
             logs.accel_csv.display(),
