@@ -48,6 +48,9 @@ pub enum Command {
     Bridge(crate::bridge::BridgeArgs),
     /// Write a rig file as a versioned, checksummed binary rig image for the C ABI (core/ffi).
     RigImage(crate::rig_image::RigImageArgs),
+    /// Write a commented starting rig file for a tripod or a pier with an
+    /// equatorial or alt-azimuth mount (never over an existing file).
+    StarterRig(crate::starter::StarterRigArgs),
 }
 
 /// Arguments of `gen-demo`.
@@ -165,6 +168,7 @@ pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
         Command::Demo(a) => crate::replay::run_demo(a, out),
         Command::Bridge(a) => crate::bridge::run_bridge(a, out),
         Command::RigImage(a) => crate::rig_image::run(a, out),
+        Command::StarterRig(a) => crate::starter::run(a, out),
     }
 }
 

@@ -23,6 +23,7 @@ pub mod replay;
 pub mod report;
 pub mod rig_image;
 pub mod rigfile;
+pub mod starter;
 pub mod summary;
 pub mod units;
 pub mod weigh;

@@ -21,6 +21,7 @@ mod replay;
 mod report;
 mod rig_image;
 mod rigfile;
+mod starter;
 mod units;
 mod weigh;
 mod whatif;
