@@ -20,6 +20,7 @@ mod real_wind;
 mod replay;
 mod report;
 mod rig_image;
+mod rig_reference;
 mod rigfile;
 mod starter;
 mod units;
