@@ -4,6 +4,7 @@
 mod assess_condition;
 mod bad_input;
 mod bridge;
+mod bridge_readme;
 mod cli;
 mod common;
 mod demo;
