@@ -330,7 +330,7 @@ struct Tracker {
 }
 
 impl Tracker {
-    fn new(file: &str) -> Tracker {
+    fn new(file: &str, wind_gap_s: f64) -> Tracker {
         Tracker {
             report: RigReplay {
                 rig_file: file.to_owned(),
@@ -346,7 +346,7 @@ impl Tracker {
                 faults_not_kept: 0,
                 events_lost: 0,
                 events_lost_at: Vec::new(),
-                series: crate::report::series::Series::new(),
+                series: crate::report::series::Series::with_wind_gap(wind_gap_s),
             },
             stage_s: [0.0; 5],
             // A guard starts unable to see (sensor_fault).
@@ -680,7 +680,10 @@ pub fn replay(
         guard.set_air(r.air);
         guards.push(guard);
     }
-    let mut trackers: Vec<Tracker> = rigs.iter().map(|r| Tracker::new(&r.file)).collect();
+    let mut trackers: Vec<Tracker> = rigs
+        .iter()
+        .map(|r| Tracker::new(&r.file, f64::from(r.guard.wind.stale_after_s)))
+        .collect();
     let mut t0: Option<Timestamp> = None;
     let mut last: Option<Timestamp> = None;
     // Records read, and records whose verdicts were taken.
@@ -741,7 +744,11 @@ pub fn replay(
                     t_s: rec.time.seconds_since(start),
                     dt_s,
                     inputs: inputs_of(&rec),
-                    wind_speed_mps: rec.wind_speed_mps,
+                    // Only a fresh anemometer sample counts for the charts'
+                    // sample statistics (a held value is not a reading).
+                    wind_speed_mps: rec
+                        .wind_speed_mps
+                        .filter(|_| rec.updated.contains(Channel::WindSpeed)),
                     cover_fitted: rec.cover_fitted,
                 });
                 n_read += 1;

@@ -214,6 +214,24 @@ fn line(name: &str, colour: &str, pts: Vec<(f64, Option<f64>)>) -> Line {
     }
 }
 
+/// `pts` with a break in the middle of each gap, so no line bridges one.
+fn with_gaps(mut pts: Vec<(f64, Option<f64>)>, gaps: &[(f64, f64)]) -> Vec<(f64, Option<f64>)> {
+    pts.extend(gaps.iter().map(|&(a, b)| (f64::midpoint(a, b), None)));
+    pts.sort_by(|p, q| p.0.total_cmp(&q.0));
+    pts
+}
+
+/// A duration as `h:mm:ss` (`m:ss` under an hour).
+fn duration_words(s: f64) -> String {
+    #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+    let t = s.max(0.0).round() as u64;
+    if t >= 3600 {
+        format!("{}:{:02}:{:02}", t / 3600, (t / 60) % 60, t % 60)
+    } else {
+        format!("{}:{:02}", t / 60, t % 60)
+    }
+}
+
 /// One event of a rig (a stage change or a fault) for the charts and the
 /// event table: its number is its place in time order, from 1.
 struct NightEvent {
@@ -422,13 +440,29 @@ fn rig_section(
     w.lines.push(line(
         "anemometer: highest sample",
         palette::PALE_BLUE,
-        points(s, k, |p| p.wind_max_mps),
+        with_gaps(points(s, k, |p| p.wind_max_mps), &s.wind_gaps),
     ));
     w.lines.push(line(
         "anemometer: mean",
         palette::INK,
-        points(s, k, series::SeriesPoint::wind_mean_mps),
+        with_gaps(
+            points(s, k, series::SeriesPoint::wind_mean_mps),
+            &s.wind_gaps,
+        ),
     ));
+    w.bands = s
+        .wind_gaps
+        .iter()
+        .map(|&(a, b)| svg::Band {
+            x0: a,
+            x1: b,
+            label: format!(
+                "no anemometer sample for {} (from {})",
+                duration_words(b - a),
+                ck.map_or_else(|| format!("+{a:.0} s"), |c| c.local_text(a))
+            ),
+        })
+        .collect();
     w.lines.push(line(
         "gust used by the guard",
         palette::BLUE,
@@ -448,7 +482,22 @@ fn rig_section(
         ),
         None => "No rig file: the anemometer's samples are drawn as measured.".to_owned(),
     };
-    page.figure(&w.to_svg(), &format!("Wind speed: the anemometer's highest sample and mean, the gust the guard's figures use (its peak estimate over its window) and the tip wind, the lowest wind speed that would tip the rig in its pose then (dashed; where the gust meets it, the rig tips). {scaled} {bucket}"));
+    let gaps = if s.wind_gaps.is_empty() {
+        String::new()
+    } else {
+        format!(
+            " Grey bands: {} gap{} in the anemometer's samples longer than {:.0} s (the rig's wind_stale, after which the guard raises a fault){}.",
+            s.wind_gaps.len(),
+            if s.wind_gaps.len() == 1 { "" } else { "s" },
+            s.wind_gap_s,
+            if s.wind_gaps_not_kept > 0 {
+                format!(", and {} more not drawn", s.wind_gaps_not_kept)
+            } else {
+                String::new()
+            }
+        )
+    };
+    page.figure(&w.to_svg(), &format!("Wind speed: the anemometer's highest sample and mean, the gust the guard's figures use (its peak estimate over its window) and the tip wind, the lowest wind speed that would tip the rig in its pose then (dashed; where the gust meets it, the rig tips). {scaled}{gaps} {bucket}"));
     let mut d = new_chart("Wind direction", "from (degrees)");
     d.y_range = Some((0.0, 360.0));
     d.y_step = Some(90.0);

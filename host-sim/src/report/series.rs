@@ -139,7 +139,20 @@ pub struct Series {
     top_overturning: Option<f32>,
     /// Cover state held at the record of the highest overturning utilisation.
     pub cover_at_closest: Option<bool>,
+    /// A wind gap is longer than this without an anemometer sample, seconds
+    /// (the rig's `wind_stale`, the guard's own limit).
+    pub wind_gap_s: f64,
+    /// Time of the last anemometer sample, seconds since the first record.
+    last_wind_t_s: Option<f64>,
+    /// Intervals `(from, to)` without an anemometer sample for longer than
+    /// `wind_gap_s`, in time order; at most [`MAX_WIND_GAPS`] kept.
+    pub wind_gaps: Vec<(f64, f64)>,
+    /// Wind gaps beyond [`MAX_WIND_GAPS`], counted.
+    pub wind_gaps_not_kept: u64,
 }
+
+/// Most wind gaps a series keeps.
+pub const MAX_WIND_GAPS: usize = 200;
 
 impl Default for Series {
     fn default() -> Self {
@@ -148,15 +161,26 @@ impl Default for Series {
 }
 
 impl Series {
-    /// An empty series.
+    /// An empty series; wind gaps longer than 10 s are kept (the core's
+    /// default `wind_stale`).
     #[must_use]
     pub fn new() -> Series {
+        Series::with_wind_gap(10.0)
+    }
+
+    /// An empty series keeping wind gaps longer than `wind_gap_s` seconds.
+    #[must_use]
+    pub fn with_wind_gap(wind_gap_s: f64) -> Series {
         Series {
             width_s: FIRST_WIDTH_S,
             points: Vec::with_capacity(MAX_SERIES_POINTS),
             last_index: 0,
             top_overturning: None,
             cover_at_closest: None,
+            wind_gap_s,
+            last_wind_t_s: None,
+            wind_gaps: Vec::new(),
+            wind_gaps_not_kept: 0,
         }
     }
 
@@ -192,7 +216,8 @@ impl Series {
     }
 
     /// Adds one verdict at `t_s` seconds since the first record, with the
-    /// wind speed (m/s) and cover state held at that record.
+    /// anemometer's sample at that record (m/s; `None` when the record has
+    /// no new one) and the cover state held then.
     pub fn push(&mut self, t_s: f64, v: &Verdict, wind_mps: Option<f64>, cover: Option<bool>) {
         let mut k = self.index_of(t_s);
         while k >= MAX_SERIES_POINTS as u64 {
@@ -226,6 +251,16 @@ impl Series {
             }
         }
         if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
+            if let Some(last) = self.last_wind_t_s {
+                if t_s - last > self.wind_gap_s {
+                    if self.wind_gaps.len() < MAX_WIND_GAPS {
+                        self.wind_gaps.push((last, t_s));
+                    } else {
+                        self.wind_gaps_not_kept = self.wind_gaps_not_kept.saturating_add(1);
+                    }
+                }
+            }
+            self.last_wind_t_s = Some(t_s);
             #[allow(clippy::cast_possible_truncation)] // m/s fit f32
             let w32 = w as f32;
             p.wind_max_mps = hi(p.wind_max_mps, Some(w32));

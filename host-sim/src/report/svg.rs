@@ -201,6 +201,17 @@ pub struct Mark {
     pub colour: String,
 }
 
+/// A shaded interval across the plot (for example a gap in the data).
+#[derive(Clone, Debug)]
+pub struct Band {
+    /// Start, x units.
+    pub x0: f64,
+    /// End, x units.
+    pub x1: f64,
+    /// What it is (the band's tooltip).
+    pub label: String,
+}
+
 /// Estimated width of a character of the charts' 10–11 px labels, pixels
 /// (generous for the common sans-serif fonts, so that estimated boxes are
 /// never narrower than drawn ones).
@@ -286,6 +297,8 @@ pub struct LineChart {
     pub hlines: Vec<HLine>,
     /// Vertical event marks.
     pub marks: Vec<Mark>,
+    /// Shaded intervals behind the lines.
+    pub bands: Vec<Band>,
     /// Width, pixels.
     pub width: f64,
     /// Height, pixels.
@@ -308,6 +321,7 @@ impl LineChart {
             lines: Vec::new(),
             hlines: Vec::new(),
             marks: Vec::new(),
+            bands: Vec::new(),
             width: 900.0,
             height: 260.0,
         }
@@ -396,6 +410,23 @@ impl LineChart {
             n(w - ml - mr),
             n(h - mt - mb)
         );
+        // Shaded bands, behind everything else in the plot.
+        for b in &self.bands {
+            let a = xs.at(b.x0.max(x0));
+            let e = xs.at(b.x1.min(x1));
+            if e <= a {
+                continue;
+            }
+            let _ = write!(
+                s,
+                r#"<rect class="gap-band" x="{}" y="{}" width="{}" height="{}"><title>{}</title></rect>"#,
+                n(a),
+                n(mt),
+                n((e - a).max(1.5)),
+                n(h - mt - mb),
+                esc(&b.label)
+            );
+        }
         // Y ticks and grid.
         let y_step = self.y_step.unwrap_or_else(|| nice_step(y1 - y0, 5));
         for t in ticks_with_step(y0, y1, y_step) {

@@ -481,3 +481,41 @@ fn demo_and_assess_commands_write_their_reports() {
     parse(&html);
     assert!(html.contains("Tip wind speed by direction"));
 }
+
+#[test]
+fn a_gap_in_the_wind_is_drawn_as_a_gap() {
+    // The invented night with 40 s of the anemometer's column left empty
+    // (an empty cell holds the previous value: host-sim/src/log/mod.rs),
+    // longer than the demo rig's wind_stale of 15 s.
+    let dir = tempfile::tempdir().unwrap();
+    let mut csv = String::from("t,ax,ay,az,speed,dir\n");
+    for t in 0..3600_u32 {
+        let (speed, dir) = if (1000..1040).contains(&t) {
+            (String::new(), String::new())
+        } else {
+            (format!("{:.3}", wind_at(t)), dir_at(t).to_string())
+        };
+        writeln!(
+            csv,
+            "{},{},0,1,{speed},{dir}",
+            1_700_000_000 + u64::from(t),
+            f64::from(t % 3) * 1e-4
+        )
+        .unwrap();
+    }
+    std::fs::write(dir.path().join("night.csv"), csv).unwrap();
+    let profile = crate::common::one_file_profile(dir.path(), "night");
+    let rig = demo_rig();
+    let rep = run(&profile, &rig, &dir.path().join("v.csv"));
+    let s = &rep.rigs[0].series;
+    assert!((s.wind_gap_s - 15.0).abs() < 1e-6, "{}", s.wind_gap_s);
+    assert_eq!(s.wind_gaps, vec![(999.0, 1040.0)]);
+    let html = report::replay_html(&rep, std::slice::from_ref(&rig)).unwrap();
+    let doc = parse(&html);
+    let bands: Vec<_> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("rect") && class_is(n, "gap-band"))
+        .collect();
+    assert_eq!(bands.len(), 1);
+    assert!(html.contains("no anemometer sample for 0:41"), "{html}");
+}
