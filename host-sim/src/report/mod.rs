@@ -861,9 +861,9 @@ pub fn assess_html(rep: &AssessReport, r: &LoadedRig) -> Result<String, Error> {
             &format!(
                 "Gravity torque on the {axis} axis every {step}° of hour angle and declination, calm, level, cover off, on the usual pier side (tube east at hour angles ≥ 0, tube west below), {}.",
                 if rated {
-                    "as a fraction of the drive's rated torque (over 1: beyond the rating)"
+                    "in % of the drive's rated torque (over 100 %: beyond the rating)"
                 } else {
-                    "as a fraction of the largest on the map (the rig file gives no drive ratings)"
+                    "in % of the largest on the map (the rig file gives no drive ratings)"
                 }
             ),
         );
