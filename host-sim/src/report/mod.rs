@@ -418,6 +418,7 @@ fn rig_section(
         ),
         "The guard's stage; each interval shows its most severe stage.",
     );
+    cover_and_pose(page, s, x_range, ck, &x_label, &marks);
     event_table(page, &events, ck);
     // (b) Wind speed, all at rig height, and direction.
     let heights = rig.and_then(|l| {
@@ -616,6 +617,77 @@ fn rig_section(
         page.note(&format!("… and {} more not kept.", r.faults_not_kept));
     }
     Ok(())
+}
+
+/// The cover band and the pose track: what the mount did, beside what the
+/// guard saw.
+fn cover_and_pose(
+    page: &mut Page,
+    s: &Series,
+    x_range: (f64, f64),
+    clock: Option<&Clock>,
+    x_label: &str,
+    marks: &[Mark],
+) {
+    let cats = [
+        ("cover off", palette::PALE_BLUE),
+        ("cover fitted", palette::BLUE),
+        ("not known", "#d9dde2"),
+    ];
+    let mut spans: Vec<Span> = Vec::new();
+    for (i, p) in s.points.iter().enumerate() {
+        let end = s
+            .points
+            .get(i + 1)
+            .map_or(p.t_last_s.max(p.t_start_s + s.width_s), |q| q.t_start_s);
+        let cat = match p.cover {
+            Some(false) => 0,
+            Some(true) => 1,
+            None => 2,
+        };
+        match spans.last_mut() {
+            Some(l) if l.cat == cat && (l.t1 - p.t_start_s).abs() < 1e-9 => l.t1 = end,
+            _ => spans.push(Span {
+                t0: p.t_start_s,
+                t1: end,
+                cat,
+            }),
+        }
+    }
+    page.figure(
+        &svg::timeline("Cover", x_range, &spans, &cats, clock, x_label),
+        "The weather cover from the logs: an interval is shown fitted when the cover was fitted at any moment in it. A fitted cover adds mass and catches wind, so it changes the tip wind.",
+    );
+    let Some(frame) = s.pose_frame else {
+        return;
+    };
+    let (a_name, b_name, what) = match frame {
+        "equatorial" => (
+            "hour angle (°, 15° = 1 h, west positive)",
+            "declination (°)",
+            "hour angle and declination",
+        ),
+        "horizontal" => ("azimuth (°)", "altitude (°)", "azimuth and altitude"),
+        _ => ("primary axis (°)", "secondary axis (°)", "the axis angles"),
+    };
+    let mut c = LineChart::new("Mount pose", x_label, "angle (degrees)");
+    c.x_range = x_range;
+    c.clock = clock.copied();
+    c.lines.push(line(
+        a_name,
+        palette::BLUE,
+        points(s, 1.0, |p| p.pose_a_deg),
+    ));
+    c.lines.push(line(
+        b_name,
+        palette::PINK,
+        points(s, 1.0, |p| p.pose_b_deg),
+    ));
+    c.marks = marks.to_vec();
+    page.figure(
+        &c.to_svg(),
+        &format!("The pose the guard's figures are for ({what}) at the end of each interval, with the numbered events; a park shows as the move to the park pose."),
+    );
 }
 
 /// The numbered events of the charts, with local and UTC times.

@@ -51,6 +51,16 @@ pub struct SeriesPoint {
     pub tip_wind_min_mps: Option<f32>,
     /// Largest ground tilt, degrees.
     pub tilt_max_deg: Option<f32>,
+    /// Cover state: fitted when it was fitted at any record of the bucket,
+    /// off when known and never fitted, `None` when no record knew it.
+    pub cover: Option<bool>,
+    /// The pose's first angle at the bucket's last record, degrees: hour
+    /// angle (positive west), azimuth, or the primary axis angle, as
+    /// [`Series::pose_frame`] says.
+    pub pose_a_deg: Option<f32>,
+    /// The pose's second angle at the bucket's last record, degrees:
+    /// declination, altitude, or the secondary axis angle.
+    pub pose_b_deg: Option<f32>,
     /// Most severe stage in the bucket.
     pub stage: Stage,
     /// Records in the bucket.
@@ -72,6 +82,9 @@ impl SeriesPoint {
             wind_n: 0,
             tip_wind_min_mps: None,
             tilt_max_deg: None,
+            cover: None,
+            pose_a_deg: None,
+            pose_b_deg: None,
             stage: Stage::Clear,
             records: 0,
         }
@@ -102,6 +115,14 @@ impl SeriesPoint {
         self.wind_n = self.wind_n.saturating_add(o.wind_n);
         self.tilt_max_deg = hi(self.tilt_max_deg, o.tilt_max_deg);
         self.tip_wind_min_mps = lo(self.tip_wind_min_mps, o.tip_wind_min_mps);
+        self.cover = match (self.cover, o.cover) {
+            (Some(a), Some(b)) => Some(a || b),
+            (a, b) => a.or(b),
+        };
+        if o.pose_a_deg.is_some() {
+            self.pose_a_deg = o.pose_a_deg;
+            self.pose_b_deg = o.pose_b_deg;
+        }
         self.stage = self.stage.max(o.stage);
         self.records = self.records.saturating_add(o.records);
     }
@@ -113,6 +134,37 @@ fn hi(a: Option<f32>, b: Option<f32>) -> Option<f32> {
         (Some(x), Some(y)) => Some(if y > x { y } else { x }),
         (None, y) => y,
         (x, None) => x,
+    }
+}
+
+/// A pose's frame and its two angles in degrees (hour angle positive west
+/// and declination; azimuth and altitude; primary and secondary axis).
+#[must_use]
+pub fn pose_angles_deg(p: &standfast::mount::Pose) -> (&'static str, f32, f32) {
+    use standfast::mount::Pose;
+    match *p {
+        Pose::Axes {
+            primary_rad,
+            secondary_rad,
+        } => ("axes", primary_rad.to_degrees(), secondary_rad.to_degrees()),
+        Pose::Equatorial {
+            hour_angle_rad,
+            declination_rad,
+            ..
+        } => (
+            "equatorial",
+            hour_angle_rad.to_degrees(),
+            declination_rad.to_degrees(),
+        ),
+        Pose::Horizontal {
+            azimuth_rad,
+            altitude_rad,
+            ..
+        } => (
+            "horizontal",
+            azimuth_rad.to_degrees(),
+            altitude_rad.to_degrees(),
+        ),
     }
 }
 
@@ -149,6 +201,9 @@ pub struct Series {
     pub wind_gaps: Vec<(f64, f64)>,
     /// Wind gaps beyond [`MAX_WIND_GAPS`], counted.
     pub wind_gaps_not_kept: u64,
+    /// The frame of the pose angles: `equatorial`, `horizontal` or `axes`
+    /// (the first pose's; a pose in another frame is not charted).
+    pub pose_frame: Option<&'static str>,
 }
 
 /// Most wind gaps a series keeps.
@@ -181,6 +236,7 @@ impl Series {
             last_wind_t_s: None,
             wind_gaps: Vec::new(),
             wind_gaps_not_kept: 0,
+            pose_frame: None,
         }
     }
 
@@ -269,6 +325,14 @@ impl Series {
         }
         p.tilt_max_deg = hi(p.tilt_max_deg, v.tilt.map(|t| t.magnitude_rad.to_degrees()));
         p.tip_wind_min_mps = lo(p.tip_wind_min_mps, v.tip_wind_mps);
+        if let Some(c) = cover {
+            p.cover = Some(p.cover.unwrap_or(false) || c);
+        }
+        let (frame, a, b) = pose_angles_deg(&v.pose);
+        if *self.pose_frame.get_or_insert(frame) == frame {
+            p.pose_a_deg = Some(a);
+            p.pose_b_deg = Some(b);
+        }
         p.stage = p.stage.max(v.stage);
     }
 }

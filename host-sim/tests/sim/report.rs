@@ -251,9 +251,10 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
         .descendants()
         .filter(|n| n.has_tag_name("svg"))
         .collect();
-    // Utilisation, stage timeline, wind speed, wind direction, tilt, polar.
-    assert_eq!(svgs.len(), 6);
-    assert_eq!(html.matches("<svg").count(), 6);
+    // Utilisation, stage timeline, cover, pose, wind speed, wind direction,
+    // tilt, polar.
+    assert_eq!(svgs.len(), 8);
+    assert_eq!(html.matches("<svg").count(), 8);
     let axis = texts(&doc, "axis-label");
     for l in [
         "utilisation (% of the limit)",
@@ -286,9 +287,9 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
         .descendants()
         .filter(|n| n.has_tag_name("line") && class_is(n, "event-mark"))
         .count();
-    // Marked on the utilisation, wind speed and tilt charts.
+    // Marked on the utilisation, pose, wind speed and tilt charts.
     let n_events = r.stage_changes.len() + r.faults.len();
-    assert_eq!(marks, 3 * n_events);
+    assert_eq!(marks, 4 * n_events);
     // Each chart names every event by its number in the strip above the
     // plot (close events share a label such as "2–4"), and the page lists
     // the numbers once in the event table.
@@ -460,7 +461,7 @@ fn demo_and_assess_commands_write_their_reports() {
     assert_self_contained(&html, &doc);
     assert_eq!(
         doc.descendants().filter(|n| n.has_tag_name("svg")).count(),
-        6
+        8
     );
 
     let page = dir.path().join("assess.html");
