@@ -46,6 +46,9 @@ pub enum Command {
     Bridge(crate::commands::bridge::BridgeArgs),
     /// Write a rig file as a versioned, checksummed binary rig image for the C ABI (core/ffi).
     RigImage(crate::commands::rig_image::RigImageArgs),
+    /// Write a commented starting rig file for a tripod or a pier with an
+    /// equatorial or alt-azimuth mount (never over an existing file).
+    StarterRig(crate::commands::starter::StarterRigArgs),
 }
 
 /// Arguments of `gen-demo`.
@@ -100,6 +103,7 @@ pub fn run(cli: &Cli, out: &mut dyn Write) -> Result<(), Error> {
         Command::Demo(a) => crate::commands::replay::run_demo(a, out),
         Command::Bridge(a) => crate::commands::bridge::run_bridge(a, out),
         Command::RigImage(a) => crate::commands::rig_image::run(a, out),
+        Command::StarterRig(a) => crate::commands::starter::run(a, out),
     }
 }
 

@@ -62,11 +62,14 @@ pub struct ReplayArgs {
 #[derive(Debug, clap::Args)]
 pub struct DemoArgs {
     /// Folder for the invented night's logs, profile, rig file, verdicts and
-    /// report (created if missing). Files of the same names are replaced
-    /// only when standfast wrote them and they are unchanged, unless
-    /// --replace is given.
-    #[arg(long, value_name = "DIR", default_value = "target/standfast-demo")]
-    pub out: std::path::PathBuf,
+    /// report (created if missing; about 66 MB for the whole night). Default:
+    /// `standfast-demo` in cargo's target folder when the command runs from
+    /// one (`cargo run`), else `standfast-demo` in the current folder; the
+    /// command prints the folder it used. Files of the same names are
+    /// replaced only when standfast wrote them and they are unchanged,
+    /// unless --replace is given.
+    #[arg(long, value_name = "DIR")]
+    pub out: Option<std::path::PathBuf>,
     /// Replace files of the same names in the --out folder even when
     /// standfast did not write them (for example your own rig.toml).
     #[arg(long)]
@@ -201,10 +204,11 @@ impl ReplayObserver for ReplayOutputs<'_> {
         t_s: f64,
         rig: usize,
         v: &standfast::guard::Verdict,
+        cover: Option<bool>,
     ) -> Result<(), Error> {
         if let Some((w, name)) = self.verdicts.as_mut() {
             self.line.clear();
-            verdict_line(&mut self.line, time, t_s, rig, v);
+            verdict_line(&mut self.line, time, t_s, rig, v, cover);
             w.write_all(self.line.as_bytes())
                 .map_err(|e| Error::io(name.as_str(), e))?;
         }
@@ -321,7 +325,8 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
         .collect();
     check_paths(&log_paths, &outputs)?;
     let mut merger = Merger::open(&p, policy.unwrap_or(p.on_error))?;
-    let (rep, verdict_file) = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
+    let (mut rep, verdict_file) = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
+    rep.local_offset_s = crate::input::log::zone::written_offset_s(&p);
     let mut files: Vec<AtomicFile> = verdict_file.into_iter().collect();
     if let Some(path) = &a.events {
         files.push(pending(path, &crate::render::event_lines::lines(&rep)?)?);
@@ -355,6 +360,30 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
     Ok(())
 }
 
+/// The demo's default folder: `standfast-demo` in cargo's target folder
+/// when the executable `exe` lies in one (a folder holding the
+/// `CACHEDIR.TAG` cargo writes there, up to three levels above the
+/// executable: `target/debug/`, `target/<triple>/release/`), else
+/// `standfast-demo` in `cwd`.
+#[must_use]
+pub fn demo_dir_for(exe: &std::path::Path, cwd: &std::path::Path) -> std::path::PathBuf {
+    exe.ancestors()
+        .skip(1)
+        .take(3)
+        .find(|d| d.join("CACHEDIR.TAG").is_file())
+        .map_or_else(|| cwd.join("standfast-demo"), |t| t.join("standfast-demo"))
+}
+
+/// Total size of the named files in `dir`, bytes (files that cannot be
+/// read count 0: the size is only reported).
+fn files_size(dir: &std::path::Path, names: &[&str]) -> u64 {
+    names
+        .iter()
+        .filter_map(|n| std::fs::metadata(dir.join(n)).ok())
+        .map(|m| m.len())
+        .sum()
+}
+
 /// Runs `standfast demo`: writes the invented night and rig into the
 /// folder, replays them and prints the summary and the paths written.
 ///
@@ -369,7 +398,11 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
         ),
         None => None,
     };
-    let mut folder = OwnedFolder::open(&a.out, a.replace)?;
+    let out_dir = a.out.clone().unwrap_or_else(|| {
+        let exe = std::env::current_exe().unwrap_or_default();
+        demo_dir_for(&exe, std::path::Path::new("."))
+    });
+    let mut folder = OwnedFolder::open(&out_dir, a.replace)?;
     folder.check(&DEMO_FILES)?;
     let mut plan = crate::commands::demo_data::NightPlan::windy_night(a.seed);
     if let Some(h) = hours {
@@ -378,11 +411,13 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     let logs = crate::commands::demo_data::write_demo_logs_in(&mut folder, &plan)?;
     let rig_path = folder.write("rig.toml", DEMO_RIG_TOML.as_bytes())?;
     let rig = crate::input::rigfile::load(&rig_path)?;
-    let verdicts = a.out.join("verdicts.csv");
-    let mut merger = open_logs(&logs.profile_toml, &[])?;
-    let (rep, verdict_file) =
+    let verdicts = out_dir.join("verdicts.csv");
+    let profile = load_profile(&logs.profile_toml, &[])?;
+    let mut merger = Merger::open(&profile, profile.on_error)?;
+    let (mut rep, verdict_file) =
         replay_files(std::slice::from_ref(&rig), &mut merger, 10, Some(&verdicts))?;
-    let report = a.out.join("report.html");
+    rep.local_offset_s = crate::input::log::zone::written_offset_s(&profile);
+    let report = out_dir.join("report.html");
     let page = pending(
         &report,
         &crate::render::report::replay_html(
@@ -396,12 +431,16 @@ pub fn run_demo(a: &DemoArgs, out: &mut dyn Write) -> Result<(), Error> {
     folder.commit(page)?;
     crate::render::summary::write(&rep, a.json, out)?;
     if !a.json {
+        #[allow(clippy::cast_precision_loss)] // sizes far below 2^53
+        let size_mb = files_size(&out_dir, &DEMO_FILES) as f64 / 1e6;
         writeln!(out, "\nReport: {}", report.display())
             .map_err(|e| Error::io("<standard output>", e))?;
         writeln!(
             out,
-            "\nAn invented windy night (seed {}); no real rig or site is described. Files written:\n  {}\n  {}\n  {}\n  {}\n  {}\n  {} (every 10th record)",
+            "\nAn invented windy night (seed {}); no real rig or site is described. Files written in {} ({:.1} MB in all):\n  {}\n  {}\n  {}\n  {}\n  {}\n  {} (every 10th record)",
             a.seed,
+            out_dir.display(),
+            size_mb,
             rig_path.display(),
             logs.wind_csv.display(),
             logs.accel_csv.display(),

@@ -9,6 +9,9 @@
 //! works in radians; the conversion is done here).
 //!
 //! # Sections
+//! Every key with its unit, default and range, for users:
+//! `host-sim/RIG-FILE.md` (tested against this loader by
+//! `tests/sim/rig_reference.rs`). In short:
 //! ```toml
 //! [site]
 //! latitude = "47.3 deg"          # −90 to 90 deg, north positive

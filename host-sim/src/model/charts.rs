@@ -153,6 +153,22 @@ pub struct RigCharts {
     /// Tip wind by direction in the conditions of the closest approach to
     /// overturning, when there is one and the rig file is known.
     pub approach_tip_wind: Option<PolarPoints>,
+    /// The anemometer's and the rig's heights and the guard's factor from
+    /// one to the other, when the rig file is known (the wind chart draws
+    /// every speed at rig height with it).
+    pub wind_heights: Option<WindHeights>,
+}
+
+/// Heights of the wind chart: the guard's own scaling of the anemometer's
+/// samples to rig height (logarithmic profile).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct WindHeights {
+    /// Rig-height speed ÷ anemometer speed (dimensionless).
+    pub factor: f32,
+    /// Height of the anemometer above the ground, m.
+    pub anemometer_m: f32,
+    /// Height of the rig's wind exposure the guard uses, m.
+    pub rig_m: f32,
 }
 
 /// The chart data of each rig of a replay; `rigs` are the rig files
@@ -185,6 +201,15 @@ pub fn replay_charts(rep: &ReplayReport, rigs: &[LoadedRig]) -> Result<Vec<RigCh
                 ]
             }),
             approach_tip_wind,
+            // Without a factor the chart draws the samples as measured and
+            // says so; nothing on a safety path reads it.
+            wind_heights: rig.and_then(|l| {
+                l.guard.wind.height_factor().ok().map(|factor| WindHeights {
+                    factor,
+                    anemometer_m: l.guard.wind.anemometer_height_m,
+                    rig_m: l.guard.wind.rig_height_m,
+                })
+            }),
         });
     }
     Ok(out)

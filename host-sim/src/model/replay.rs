@@ -204,6 +204,10 @@ pub struct ReplayReport {
     pub first_issues: Vec<String>,
     /// Per rig.
     pub rigs: Vec<RigReplay>,
+    /// Local offset east of UTC the logs carry, seconds, for the report's
+    /// wall-clock axes (`None`: the logs say none; not in the JSON).
+    #[serde(skip)]
+    pub local_offset_s: Option<i32>,
 }
 
 /// Most issues quoted in full in a report.
@@ -318,7 +322,7 @@ struct Tracker {
 }
 
 impl Tracker {
-    fn new(file: &str) -> Tracker {
+    fn new(file: &str, wind_gap_s: f64) -> Tracker {
         Tracker {
             report: RigReplay {
                 rig_file: file.to_owned(),
@@ -334,7 +338,7 @@ impl Tracker {
                 faults_not_kept: 0,
                 events_lost: 0,
                 events_lost_at: Vec::new(),
-                series: crate::model::series::Series::new(),
+                series: crate::model::series::Series::with_wind_gap(wind_gap_s),
             },
             stage_s: [0.0; 5],
             // A guard starts unable to see (sensor_fault).
@@ -444,7 +448,14 @@ pub trait ReplayObserver {
     /// # Errors
     /// Whatever the observer cannot do with it (an output that cannot be
     /// written); the replay stops with it.
-    fn verdict(&mut self, time: Timestamp, t_s: f64, rig: usize, v: &Verdict) -> Result<(), Error>;
+    fn verdict(
+        &mut self,
+        time: Timestamp,
+        t_s: f64,
+        rig: usize,
+        v: &Verdict,
+        cover: Option<bool>,
+    ) -> Result<(), Error>;
 
     /// The replay has read and taken every record.
     ///
@@ -537,7 +548,7 @@ fn take_batch(
                     .iter()
                     .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
                 if *n % every == 0 || has_event {
-                    o.verdict(s.time, s.t_s, i, v)?;
+                    o.verdict(s.time, s.t_s, i, v, s.cover_fitted)?;
                 }
             }
         }
@@ -599,6 +610,7 @@ fn report_of(
             .map(ToString::to_string)
             .collect(),
         rigs: trackers.into_iter().map(Tracker::finish).collect(),
+        local_offset_s: None,
     }
 }
 
@@ -631,7 +643,10 @@ pub fn replay(
 
     let every = options.verdicts_every.max(1);
     let mut guards = start_guards(rigs)?;
-    let mut trackers: Vec<Tracker> = rigs.iter().map(|r| Tracker::new(&r.file)).collect();
+    let mut trackers: Vec<Tracker> = rigs
+        .iter()
+        .map(|r| Tracker::new(&r.file, f64::from(r.guard.wind.stale_after_s)))
+        .collect();
     let mut t0: Option<Timestamp> = None;
     let mut last: Option<Timestamp> = None;
     // Records read, and records whose verdicts were taken.
@@ -693,7 +708,11 @@ pub fn replay(
                     t_s: rec.time.seconds_since(start),
                     dt_s,
                     inputs: inputs_of(&rec),
-                    wind_speed_mps: rec.wind_speed_mps,
+                    // Only a fresh anemometer sample counts for the charts'
+                    // sample statistics (a held value is not a reading).
+                    wind_speed_mps: rec
+                        .wind_speed_mps
+                        .filter(|_| rec.updated.contains(Channel::WindSpeed)),
                     cover_fitted: rec.cover_fitted,
                 });
                 n_read += 1;

@@ -46,8 +46,21 @@ pub struct SeriesPoint {
     wind_sum_mps: f64,
     /// Records with a wind speed.
     wind_n: u32,
+    /// Lowest tip wind speed (the wind that would tip the rig), m/s at
+    /// rig height.
+    pub tip_wind_min_mps: Option<f32>,
     /// Largest ground tilt, degrees.
     pub tilt_max_deg: Option<f32>,
+    /// Cover state: fitted when it was fitted at any record of the bucket,
+    /// off when known and never fitted, `None` when no record knew it.
+    pub cover: Option<bool>,
+    /// The pose's first angle at the bucket's last record, degrees: hour
+    /// angle (positive west), azimuth, or the primary axis angle, as
+    /// [`Series::pose_frame`] says.
+    pub pose_a_deg: Option<f32>,
+    /// The pose's second angle at the bucket's last record, degrees:
+    /// declination, altitude, or the secondary axis angle.
+    pub pose_b_deg: Option<f32>,
     /// Most severe stage in the bucket.
     pub stage: Stage,
     /// Records in the bucket.
@@ -67,7 +80,11 @@ impl SeriesPoint {
             wind_max_mps: None,
             wind_sum_mps: 0.0,
             wind_n: 0,
+            tip_wind_min_mps: None,
             tilt_max_deg: None,
+            cover: None,
+            pose_a_deg: None,
+            pose_b_deg: None,
             stage: Stage::Clear,
             records: 0,
         }
@@ -97,6 +114,15 @@ impl SeriesPoint {
         self.wind_sum_mps += o.wind_sum_mps;
         self.wind_n = self.wind_n.saturating_add(o.wind_n);
         self.tilt_max_deg = hi(self.tilt_max_deg, o.tilt_max_deg);
+        self.tip_wind_min_mps = lo(self.tip_wind_min_mps, o.tip_wind_min_mps);
+        self.cover = match (self.cover, o.cover) {
+            (Some(a), Some(b)) => Some(a || b),
+            (a, b) => a.or(b),
+        };
+        if o.pose_a_deg.is_some() {
+            self.pose_a_deg = o.pose_a_deg;
+            self.pose_b_deg = o.pose_b_deg;
+        }
         self.stage = self.stage.max(o.stage);
         self.records = self.records.saturating_add(o.records);
     }
@@ -106,6 +132,46 @@ impl SeriesPoint {
 fn hi(a: Option<f32>, b: Option<f32>) -> Option<f32> {
     match (a, b.filter(|x| x.is_finite())) {
         (Some(x), Some(y)) => Some(if y > x { y } else { x }),
+        (None, y) => y,
+        (x, None) => x,
+    }
+}
+
+/// A pose's frame and its two angles in degrees (hour angle positive west
+/// and declination; azimuth and altitude; primary and secondary axis).
+#[must_use]
+pub fn pose_angles_deg(p: &standfast::mount::Pose) -> (&'static str, f32, f32) {
+    use standfast::mount::Pose;
+    match *p {
+        Pose::Axes {
+            primary_rad,
+            secondary_rad,
+        } => ("axes", primary_rad.to_degrees(), secondary_rad.to_degrees()),
+        Pose::Equatorial {
+            hour_angle_rad,
+            declination_rad,
+            ..
+        } => (
+            "equatorial",
+            hour_angle_rad.to_degrees(),
+            declination_rad.to_degrees(),
+        ),
+        Pose::Horizontal {
+            azimuth_rad,
+            altitude_rad,
+            ..
+        } => (
+            "horizontal",
+            azimuth_rad.to_degrees(),
+            altitude_rad.to_degrees(),
+        ),
+    }
+}
+
+/// The lower of two optional values (a finite value beats `None`).
+fn lo(a: Option<f32>, b: Option<f32>) -> Option<f32> {
+    match (a, b.filter(|x| x.is_finite())) {
+        (Some(x), Some(y)) => Some(if y < x { y } else { x }),
         (None, y) => y,
         (x, None) => x,
     }
@@ -125,7 +191,23 @@ pub struct Series {
     top_overturning: Option<f32>,
     /// Cover state held at the record of the highest overturning utilisation.
     pub cover_at_closest: Option<bool>,
+    /// A wind gap is longer than this without an anemometer sample, seconds
+    /// (the rig's `wind_stale`, the guard's own limit).
+    pub wind_gap_s: f64,
+    /// Time of the last anemometer sample, seconds since the first record.
+    last_wind_t_s: Option<f64>,
+    /// Intervals `(from, to)` without an anemometer sample for longer than
+    /// `wind_gap_s`, in time order; at most [`MAX_WIND_GAPS`] kept.
+    pub wind_gaps: Vec<(f64, f64)>,
+    /// Wind gaps beyond [`MAX_WIND_GAPS`], counted.
+    pub wind_gaps_not_kept: u64,
+    /// The frame of the pose angles: `equatorial`, `horizontal` or `axes`
+    /// (the first pose's; a pose in another frame is not charted).
+    pub pose_frame: Option<&'static str>,
 }
+
+/// Most wind gaps a series keeps.
+pub const MAX_WIND_GAPS: usize = 200;
 
 impl Default for Series {
     fn default() -> Self {
@@ -134,15 +216,27 @@ impl Default for Series {
 }
 
 impl Series {
-    /// An empty series.
+    /// An empty series; wind gaps longer than 10 s are kept (the core's
+    /// default `wind_stale`).
     #[must_use]
     pub fn new() -> Series {
+        Series::with_wind_gap(10.0)
+    }
+
+    /// An empty series keeping wind gaps longer than `wind_gap_s` seconds.
+    #[must_use]
+    pub fn with_wind_gap(wind_gap_s: f64) -> Series {
         Series {
             width_s: FIRST_WIDTH_S,
             points: Vec::with_capacity(MAX_SERIES_POINTS),
             last_index: 0,
             top_overturning: None,
             cover_at_closest: None,
+            wind_gap_s,
+            last_wind_t_s: None,
+            wind_gaps: Vec::new(),
+            wind_gaps_not_kept: 0,
+            pose_frame: None,
         }
     }
 
@@ -178,7 +272,8 @@ impl Series {
     }
 
     /// Adds one verdict at `t_s` seconds since the first record, with the
-    /// wind speed (m/s) and cover state held at that record.
+    /// anemometer's sample at that record (m/s; `None` when the record has
+    /// no new one) and the cover state held then.
     pub fn push(&mut self, t_s: f64, v: &Verdict, wind_mps: Option<f64>, cover: Option<bool>) {
         let mut k = self.index_of(t_s);
         while k >= MAX_SERIES_POINTS as u64 {
@@ -212,6 +307,16 @@ impl Series {
             }
         }
         if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
+            if let Some(last) = self.last_wind_t_s {
+                if t_s - last > self.wind_gap_s {
+                    if self.wind_gaps.len() < MAX_WIND_GAPS {
+                        self.wind_gaps.push((last, t_s));
+                    } else {
+                        self.wind_gaps_not_kept = self.wind_gaps_not_kept.saturating_add(1);
+                    }
+                }
+            }
+            self.last_wind_t_s = Some(t_s);
             #[allow(clippy::cast_possible_truncation)] // m/s fit f32
             let w32 = w as f32;
             p.wind_max_mps = hi(p.wind_max_mps, Some(w32));
@@ -219,6 +324,15 @@ impl Series {
             p.wind_n = p.wind_n.saturating_add(1);
         }
         p.tilt_max_deg = hi(p.tilt_max_deg, v.tilt.map(|t| t.magnitude_rad.to_degrees()));
+        p.tip_wind_min_mps = lo(p.tip_wind_min_mps, v.tip_wind_mps);
+        if let Some(c) = cover {
+            p.cover = Some(p.cover.unwrap_or(false) || c);
+        }
+        let (frame, a, b) = pose_angles_deg(&v.pose);
+        if *self.pose_frame.get_or_insert(frame) == frame {
+            p.pose_a_deg = Some(a);
+            p.pose_b_deg = Some(b);
+        }
         p.stage = p.stage.max(v.stage);
     }
 }

@@ -38,6 +38,7 @@ svg .threshold { stroke-width: 1.2; stroke-dasharray: 7 4; }
 svg .threshold-label { font-size: 11px; }
 svg .event-mark { stroke-width: 1; stroke-opacity: 0.75; }
 svg .mark-label { font-size: 10px; paint-order: stroke; stroke: #ffffff; stroke-width: 3px; stroke-linejoin: round; }
+svg .gap-band { fill: #d9dde2; fill-opacity: 0.7; }
 svg .ring { fill: none; stroke: #d4d9de; }
 svg .spoke { stroke: #e3e7eb; }
 svg .polar-trace { fill: none; stroke-width: 1.8; stroke-linejoin: round; }

@@ -6,15 +6,19 @@
 //! [`whatif`] (the comparison table), [`assess`] (the assessment's text and
 //! JSON), [`weigh`] (the weighing's text and JSON), [`verdicts`] (the
 //! verdict CSV), [`event_lines`] (the firmware example's event lines),
-//! [`report`] (the HTML pages) drawn with [`html`] and [`svg`].
+//! [`report`] (the HTML pages) drawn with [`html`] and [`svg`], in the
+//! colours of [`palette`], on wall-clock axes from [`clock`].
 
 pub mod assess;
 pub mod bridge_lines;
+pub mod clock;
 pub mod event_lines;
 pub mod html;
+pub mod palette;
 pub mod report;
 pub mod summary;
 pub mod svg;
+pub mod ticks;
 pub mod verdicts;
 pub mod weigh;
 pub mod whatif;

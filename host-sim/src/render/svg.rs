@@ -13,6 +13,8 @@
 
 use std::fmt::Write as _;
 
+pub use super::ticks::ticks_with_step;
+
 /// Escapes text for XML character data and double-quoted attribute values.
 #[must_use]
 pub fn esc(s: &str) -> String {
@@ -60,24 +62,6 @@ pub fn nice_step(range: f64, target: usize) -> f64 {
         10.0
     };
     nice * mag
-}
-
-/// Ticks at multiples of `step` from the first at or above `min` to the
-/// last at or below `max` (a small tolerance for rounding).
-#[must_use]
-pub fn ticks_with_step(min: f64, max: f64, step: f64) -> Vec<f64> {
-    let mut out = Vec::new();
-    if step.is_nan() || step <= 0.0 || !min.is_finite() || !max.is_finite() || max < min {
-        return out;
-    }
-    let first = (min / step - 1e-9).ceil();
-    let mut k = first;
-    while k * step <= max + step * 1e-9 && out.len() < 1000 {
-        let v = k * step;
-        out.push(if v.abs() < step * 1e-9 { 0.0 } else { v });
-        k += 1.0;
-    }
-    out
 }
 
 /// "Nice" ticks covering `min..=max`, about `target` of them.
@@ -187,19 +171,89 @@ pub struct HLine {
     pub colour: String,
 }
 
-/// A vertical event mark at an x value.
+/// A vertical event mark at an x value, labelled with its number in a
+/// strip above the plot (the page lists the numbers in a table).
 #[derive(Clone, Debug)]
 pub struct Mark {
     /// Its x value.
     pub x: f64,
-    /// Its label (written when the chart has few marks).
+    /// Its number in the page's event table (1 = first).
+    pub number: usize,
+    /// What happened (the line's tooltip).
     pub label: String,
     /// Stroke colour.
     pub colour: String,
 }
 
-/// Most event marks that get a written label; beyond it only lines.
-pub const MAX_LABELLED_MARKS: usize = 24;
+/// A shaded interval across the plot (for example a gap in the data).
+#[derive(Clone, Debug)]
+pub struct Band {
+    /// Start, x units.
+    pub x0: f64,
+    /// End, x units.
+    pub x1: f64,
+    /// What it is (the band's tooltip).
+    pub label: String,
+}
+
+/// Estimated width of a character of the charts' 10–11 px labels, pixels
+/// (generous for the common sans-serif fonts, so that estimated boxes are
+/// never narrower than drawn ones).
+pub const CHAR_W_PX: f64 = 6.8;
+
+/// Numbered labels for event marks at pixel positions `px` (sorted): marks
+/// too close to the previous label join it (`3–5`), so labels never
+/// overlap. Returns `(first pixel, first index, last index)` per label.
+#[must_use]
+pub fn mark_clusters(px: &[f64], numbers: &[usize]) -> Vec<(f64, usize, usize)> {
+    let mut out: Vec<(f64, usize, usize)> = Vec::new();
+    let text_w = |a: usize, b: usize| {
+        let t = mark_text(numbers.get(a).copied(), numbers.get(b).copied());
+        #[allow(clippy::cast_precision_loss)]
+        let w = t.chars().count() as f64 * CHAR_W_PX;
+        w
+    };
+    for (k, &x) in px.iter().enumerate() {
+        match out.last_mut() {
+            Some((x0, a, b)) if x < *x0 + 2.0 + text_w(*a, *b) + 6.0 => *b = k,
+            _ => out.push((x, k, k)),
+        }
+    }
+    out
+}
+
+/// The text of a mark label: `3`, or `3–5` for a run.
+#[must_use]
+pub fn mark_text(first: Option<usize>, last: Option<usize>) -> String {
+    match (first, last) {
+        (Some(a), Some(b)) if a != b => format!("{a}–{b}"),
+        (Some(a), _) => a.to_string(),
+        _ => String::new(),
+    }
+}
+
+/// Places legend entries (a 14 px key and the name) left to right from
+/// `left`, wrapping before `right`: `(x, row)` per entry.
+#[must_use]
+pub fn legend_layout<'a>(
+    names: impl Iterator<Item = &'a str>,
+    left: f64,
+    right: f64,
+) -> Vec<(f64, usize)> {
+    let mut out = Vec::new();
+    let (mut x, mut row) = (left, 0_usize);
+    for name in names {
+        #[allow(clippy::cast_precision_loss)]
+        let w = 18.0 + name.chars().count() as f64 * CHAR_W_PX + 16.0;
+        if x > left && x + w > right {
+            x = left;
+            row += 1;
+        }
+        out.push((x, row));
+        x += w;
+    }
+    out
+}
 
 /// A line chart over elapsed time (or any x).
 #[derive(Clone, Debug)]
@@ -210,8 +264,11 @@ pub struct LineChart {
     pub x_label: String,
     /// Label of the y axis.
     pub y_label: String,
-    /// The x axis is elapsed seconds, labelled `h:mm`.
+    /// The x axis is elapsed seconds, labelled `h:mm`, or local wall
+    /// time when `clock` is set.
     pub x_time: bool,
+    /// Wall clock for a time axis (`None`: time since the first record).
+    pub clock: Option<super::clock::Clock>,
     /// X range.
     pub x_range: (f64, f64),
     /// Y range; `None` fits the data (from 0 when all data are ≥ 0).
@@ -224,6 +281,8 @@ pub struct LineChart {
     pub hlines: Vec<HLine>,
     /// Vertical event marks.
     pub marks: Vec<Mark>,
+    /// Shaded intervals behind the lines.
+    pub bands: Vec<Band>,
     /// Width, pixels.
     pub width: f64,
     /// Height, pixels.
@@ -257,12 +316,14 @@ impl LineChart {
             x_label: x_label.to_owned(),
             y_label: y_label.to_owned(),
             x_time: true,
+            clock: None,
             x_range: (0.0, 1.0),
             y_range: None,
             y_step: None,
             lines: Vec::new(),
             hlines: Vec::new(),
             marks: Vec::new(),
+            bands: Vec::new(),
             width: 900.0,
             height: 260.0,
         }
@@ -300,7 +361,17 @@ impl LineChart {
     #[must_use]
     pub fn to_svg(&self) -> String {
         let (w, h) = (self.width, self.height);
-        let (ml, mr, mt, mb) = (64.0, 96.0, 34.0, 44.0);
+        let (ml, mr, mb) = (64.0, 96.0, 44.0);
+        // Legend rows under the title, then a strip for the event numbers.
+        let legend = legend_layout(
+            self.lines.iter().map(|l| l.name.as_str()),
+            ml,
+            w - mr + 60.0,
+        );
+        let legend_rows = legend.iter().map(|p| p.1).max().map_or(0, |r| r + 1);
+        #[allow(clippy::cast_precision_loss)]
+        let mt = 30.0 + legend_rows as f64 * 16.0 + if self.marks.is_empty() { 4.0 } else { 18.0 };
+        let h = h + mt - 34.0;
         let (x0, x1) = self.x_range;
         let x1 = if x1 - x0 < 1e-9 { x0 + 1.0 } else { x1 };
         let (y0, y1) = self.y_extent();
@@ -355,13 +426,43 @@ impl LineChart {
             n(w - ml - mr),
             n(h - mt - mb)
         );
+        self.bands_svg(&mut s, &f);
         self.axes_svg(&mut s, &f);
         self.marks_svg(&mut s, &f);
         self.hlines_svg(&mut s, &f);
         self.lines_svg(&mut s, &f);
-        self.legend_svg(&mut s, &f);
+        self.legend_svg(&mut s, &legend);
         s.push_str("</svg>");
         s
+    }
+
+    /// Shaded bands, behind everything else in the plot.
+    fn bands_svg(&self, s: &mut String, f: &Frame) {
+        let Frame {
+            h,
+            mt,
+            mb,
+            x0,
+            x1,
+            xs,
+            ..
+        } = *f;
+        for b in &self.bands {
+            let a = xs.at(b.x0.max(x0));
+            let e = xs.at(b.x1.min(x1));
+            if e <= a {
+                continue;
+            }
+            let _ = write!(
+                *s,
+                r#"<rect class="gap-band" x="{}" y="{}" width="{}" height="{}"><title>{}</title></rect>"#,
+                n(a),
+                n(mt),
+                n((e - a).max(1.5)),
+                n(h - mt - mb),
+                esc(&b.label)
+            );
+        }
     }
 
     /// The y ticks and grid, the x ticks, the axes and their labels.
@@ -398,12 +499,20 @@ impl LineChart {
             );
         }
         // X ticks.
-        let (x_step, label_of): (f64, Box<dyn Fn(f64, f64) -> String>) = if self.x_time {
-            (time_step_s(x1 - x0, 8), Box::new(time_label))
-        } else {
-            (nice_step(x1 - x0, 8), Box::new(value_label))
+        let clock = self.clock.filter(|_| self.x_time);
+        let (x_step, label_of): (f64, Box<dyn Fn(f64, f64) -> String>) = match clock {
+            Some(c) => (
+                time_step_s(x1 - x0, 8),
+                Box::new(move |t, st| c.label(t, st)),
+            ),
+            None if self.x_time => (time_step_s(x1 - x0, 8), Box::new(time_label)),
+            None => (nice_step(x1 - x0, 8), Box::new(value_label)),
         };
-        for t in ticks_with_step(x0, x1, x_step) {
+        let x_ticks = match clock {
+            Some(c) => c.ticks(x0, x1, x_step),
+            None => ticks_with_step(x0, x1, x_step),
+        };
+        for t in x_ticks {
             let px = xs.at(t);
             let _ = write!(
                 *s,
@@ -446,12 +555,11 @@ impl LineChart {
         );
     }
 
-    /// The event marks with their labels.
+    /// The event marks: a line across the plot, and its number in the
+    /// strip above the plot (marks too close together share one label).
     fn marks_svg(&self, s: &mut String, f: &Frame) {
         let Frame {
-            w,
             h,
-            mr,
             mt,
             mb,
             x0,
@@ -459,57 +567,46 @@ impl LineChart {
             xs,
             ..
         } = *f;
-        // Event marks; labels go on the first of a few rows where they do
-        // not overlap the previous label (about 5.5 px a character at 10 px),
-        // else only the line (its title holds the label).
-        let labelled = self.marks.len() <= MAX_LABELLED_MARKS;
-        let mut row_end = [f64::NEG_INFINITY; 5];
-        for m in &self.marks {
-            if m.x < x0 || m.x > x1 {
-                continue;
-            }
+        let shown: Vec<&Mark> = self
+            .marks
+            .iter()
+            .filter(|m| m.x >= x0 && m.x <= x1)
+            .collect();
+        for m in &shown {
             let px = xs.at(m.x);
             let _ = write!(
                 *s,
-                r#"<line class="event-mark" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}"><title>{}</title></line>"#,
+                r#"<line class="event-mark" data-event="{}" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}"><title>{}: {}</title></line>"#,
+                m.number,
                 n(px),
                 n(mt),
                 n(px),
                 n(h - mb),
                 esc(&m.colour),
+                m.number,
                 esc(&m.label)
             );
-            if !labelled {
-                continue;
-            }
-            #[allow(clippy::cast_precision_loss)]
-            let tw = m.label.chars().count() as f64 * 5.5;
-            let right_side = px + 3.0 + tw > w - mr;
-            let (a, b) = if right_side {
-                (px - 3.0 - tw, px - 3.0)
-            } else {
-                (px + 3.0, px + 3.0 + tw)
-            };
-            if let Some(row) = row_end.iter().position(|e| *e < a) {
-                if let Some(e) = row_end.get_mut(row) {
-                    *e = b + 4.0;
-                }
-                #[allow(clippy::cast_precision_loss)]
-                let dy = row as f64 * 11.0;
-                let _ = write!(
-                    *s,
-                    r#"<text class="mark-label" x="{}" y="{}" fill="{}"{}>{}</text>"#,
-                    n(if right_side { b } else { a }),
-                    n(mt + 10.0 + dy),
-                    esc(&m.colour),
-                    if right_side {
-                        r#" text-anchor="end""#
-                    } else {
-                        ""
-                    },
-                    esc(&m.label)
-                );
-            }
+        }
+        let px: Vec<f64> = shown.iter().map(|m| xs.at(m.x)).collect();
+        let numbers: Vec<usize> = shown.iter().map(|m| m.number).collect();
+        for (x, a, b) in mark_clusters(&px, &numbers) {
+            let events: Vec<String> = numbers
+                .get(a..=b)
+                .unwrap_or(&[])
+                .iter()
+                .map(ToString::to_string)
+                .collect();
+            // The number in ink (pale stage colours would not read); the line
+            // carries the stage colour.
+            let _ = write!(
+                *s,
+                r#"<text class="mark-label" data-events="{}" x="{}" y="{}" fill="{}">{}</text>"#,
+                events.join(" "),
+                n(x + 2.0),
+                n(mt - 5.0),
+                super::palette::INK,
+                esc(&mark_text(numbers.get(a).copied(), numbers.get(b).copied()))
+            );
         }
     }
 
@@ -525,11 +622,18 @@ impl LineChart {
             ..
         } = *f;
         // Threshold lines.
-        for t in &self.hlines {
-            if t.value < y0 || t.value > y1 {
-                continue;
-            }
+        let mut last_label_y = f64::NEG_INFINITY;
+        let mut hl: Vec<&HLine> = self
+            .hlines
+            .iter()
+            .filter(|t| t.value >= y0 && t.value <= y1)
+            .collect();
+        hl.sort_by(|a, b| b.value.total_cmp(&a.value));
+        for t in hl {
             let py = ys.at(t.value);
+            // Labels one line apart at least, top to bottom.
+            let ly = (py + 4.0).max(last_label_y + 13.0);
+            last_label_y = ly;
             let _ = write!(
                 *s,
                 r#"<line class="threshold" data-value="{}" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}"/><text class="threshold-label" x="{}" y="{}" fill="{}">{}</text>"#,
@@ -540,7 +644,7 @@ impl LineChart {
                 n(py),
                 esc(&t.colour),
                 n(w - mr + 4.0),
-                n(py + 4.0),
+                n(ly),
                 esc(&t.colour),
                 esc(&t.label)
             );
@@ -605,19 +709,19 @@ impl LineChart {
         }
     }
 
-    /// The legend, in the title row.
-    fn legend_svg(&self, s: &mut String, f: &Frame) {
-        let Frame { ml, .. } = *f;
-        // Legend, in the title row.
-        for (i, l) in self.lines.iter().enumerate() {
+    /// The legend, in rows under the title (placed by [`legend_layout`]).
+    fn legend_svg(&self, s: &mut String, legend: &[(f64, usize)]) {
+        for (l, &(lx, row)) in self.lines.iter().zip(legend) {
             #[allow(clippy::cast_precision_loss)]
-            let lx = ml + 330.0 + i as f64 * 150.0;
+            let ly = 40.0 + row as f64 * 16.0;
             let _ = write!(
                 *s,
-                r#"<rect class="legend-key" x="{}" y="12" width="14" height="4" fill="{}"/><text class="legend" x="{}" y="19">{}</text>"#,
+                r#"<rect class="legend-key" x="{}" y="{}" width="14" height="4" fill="{}"/><text class="legend" x="{}" y="{}">{}</text>"#,
                 n(lx),
+                n(ly - 7.0),
                 esc(&l.colour),
                 n(lx + 18.0),
+                n(ly),
                 esc(&l.name)
             );
         }
@@ -636,13 +740,17 @@ pub struct Span {
 }
 
 /// A band timeline (one row of coloured spans) over elapsed time, with a
-/// legend of its categories `(name, colour)`.
+/// legend of its categories `(name, colour)`; the axis shows wall time
+/// when `clock` is given, else time since the first record, and is
+/// labelled `x_label`.
 #[must_use]
 pub fn timeline(
     title: &str,
     x_range: (f64, f64),
     spans: &[Span],
     categories: &[(&str, &str)],
+    clock: Option<&super::clock::Clock>,
+    x_label: &str,
 ) -> String {
     let (w, h) = (900.0, 110.0);
     let (ml, mr) = (64.0, 96.0);
@@ -685,7 +793,11 @@ pub fn timeline(
         );
     }
     let step = time_step_s(x1 - x0, 8);
-    for t in ticks_with_step(x0, x1, step) {
+    let x_ticks = match clock {
+        Some(c) => c.ticks(x0, x1, step),
+        None => ticks_with_step(x0, x1, step),
+    };
+    for t in x_ticks {
         let px = xs.at(t);
         let _ = write!(
             s,
@@ -696,14 +808,15 @@ pub fn timeline(
             n(by + bh + 5.0),
             n(px),
             n(by + bh + 18.0),
-            esc(&time_label(t, step))
+            esc(&clock.map_or_else(|| time_label(t, step), |c| c.label(t, step)))
         );
     }
     let _ = write!(
         s,
-        r#"<text class="axis-label" x="{}" y="{}" text-anchor="middle">time since the first record (h:mm)</text>"#,
+        r#"<text class="axis-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
         n((ml + w - mr) / 2.0),
-        n(by + bh + 34.0)
+        n(by + bh + 34.0),
+        esc(x_label)
     );
     for (i, (name, colour)) in categories.iter().enumerate() {
         #[allow(clippy::cast_precision_loss)]
@@ -991,7 +1104,7 @@ impl HeatMap {
                     self.x_labels.get(c).map_or("", String::as_str),
                     self.y_label,
                     self.y_labels.get(r).map_or("", String::as_str),
-                    v.map_or_else(|| "n/a".to_owned(), |v| format!("{v:.2}"))
+                    v.map_or_else(|| "n/a".to_owned(), |v| format!("{:.0} %", v * 100.0))
                 );
                 let _ = write!(
                     s,
@@ -1047,9 +1160,9 @@ impl HeatMap {
             #[allow(clippy::cast_precision_loss)]
             let y = mt + i as f64 * 18.0;
             let label = if *v > 1.0 {
-                "over 1".to_owned()
+                "over 100 %".to_owned()
             } else {
-                format!("{v:.2}")
+                format!("{:.0} %", v * 100.0)
             };
             let _ = write!(
                 s,

@@ -4,6 +4,7 @@
 mod assess_condition;
 mod bad_input;
 mod bridge;
+mod bridge_readme;
 mod cli;
 mod common;
 mod demo;
@@ -20,7 +21,9 @@ mod real_wind;
 mod replay;
 mod report;
 mod rig_image;
+mod rig_reference;
 mod rigfile;
+mod starter;
 mod units;
 mod weigh;
 mod whatif;

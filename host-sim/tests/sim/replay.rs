@@ -233,4 +233,53 @@ fn demo_command_runs_and_prints_the_cautions() {
     for f in ["rig.toml", "verdicts.csv", "night-wind.csv"] {
         assert!(dir.path().join(f).is_file(), "{f}");
     }
+    // The verdict CSV carries the cover and the pose the figures are for:
+    // the demo's mount log starts at hour angle -2.5 h, declination +22°,
+    // tube west, cover off (host-sim/src/demo_data.rs; mount log's first row).
+    let csv = std::fs::read_to_string(dir.path().join("verdicts.csv")).unwrap();
+    let mut lines = csv.lines();
+    let head: Vec<&str> = lines.next().unwrap().split(',').collect();
+    let col = |name: &str| head.iter().position(|h| *h == name).unwrap();
+    let rows: Vec<Vec<&str>> = lines.map(|l| l.split(',').collect()).collect();
+    let first = rows
+        .iter()
+        .find(|r| !r[col("cover")].is_empty())
+        .expect("a row with the cover state");
+    assert_eq!(first[col("cover")], "off");
+    assert_eq!(first[col("pose_frame")], "equatorial");
+    let ha_deg: f64 = first[col("pose_a_deg")].parse().unwrap();
+    let dec_deg: f64 = first[col("pose_b_deg")].parse().unwrap();
+    assert!((ha_deg - (-2.5 * 15.0)).abs() < 0.5, "{ha_deg}");
+    assert!((dec_deg - 22.0).abs() < 1e-3, "{dec_deg}");
+    assert_eq!(first[col("pier_side")], "tube_west");
+    for r in &rows {
+        assert_eq!(r.len(), head.len(), "{r:?}");
+    }
+}
+
+#[test]
+fn demo_folder_defaults_to_cargos_target_folder() {
+    // Cargo marks its target folder with CACHEDIR.TAG (the Cache Directory
+    // Tagging Specification, Bryan Ford; cargo writes it since 1.56, from
+    // memory); the executable of `cargo run` is in target/<profile>/ or
+    // target/<triple>/<profile>/.
+    let dir = tempfile::tempdir().unwrap();
+    let target = dir.path().join("target");
+    std::fs::create_dir_all(target.join("x86_64-unknown-linux-gnu/release")).unwrap();
+    std::fs::write(
+        target.join("CACHEDIR.TAG"),
+        "Signature: 8a477f597d28d172789f06886806bc55\n",
+    )
+    .unwrap();
+    let cwd = dir.path().join("elsewhere");
+    let d = standfast_sim::commands::replay::demo_dir_for(&target.join("debug/standfast"), &cwd);
+    assert_eq!(d, target.join("standfast-demo"));
+    let d = standfast_sim::commands::replay::demo_dir_for(
+        &target.join("x86_64-unknown-linux-gnu/release/standfast"),
+        &cwd,
+    );
+    assert_eq!(d, target.join("standfast-demo"));
+    // Installed (~/.cargo/bin has no tag): the current folder.
+    let d = standfast_sim::commands::replay::demo_dir_for(&dir.path().join("bin/standfast"), &cwd);
+    assert_eq!(d, cwd.join("standfast-demo"));
 }

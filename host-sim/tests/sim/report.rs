@@ -258,20 +258,23 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
         .descendants()
         .filter(|n| n.has_tag_name("svg"))
         .collect();
-    // Utilisation, stage timeline, wind speed, wind direction, tilt, polar.
-    assert_eq!(svgs.len(), 6);
-    assert_eq!(html.matches("<svg").count(), 6);
+    // Utilisation, stage timeline, cover, pose, wind speed, wind direction,
+    // tilt, polar.
+    assert_eq!(svgs.len(), 8);
+    assert_eq!(html.matches("<svg").count(), 8);
     let axis = texts(&doc, "axis-label");
     for l in [
-        "utilisation (1 = limit)",
+        "utilisation (% of the limit)",
         "wind speed (m/s)",
         "from (degrees)",
         "tilt (degrees)",
-        "time since the first record (h:mm)",
+        // The invented log writes UTC times without an offset.
+        "time (UTC, hh:mm)",
     ] {
         assert!(axis.iter().any(|a| a == l), "{l} missing in {axis:?}");
     }
-    // The guard's three thresholds, at the rig file's values.
+    // The guard's three thresholds, at the rig file's values, in % like
+    // the axis and the tables.
     let th: Vec<f64> = doc
         .descendants()
         .filter(|n| n.has_tag_name("line") && class_is(n, "threshold"))
@@ -280,7 +283,7 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
     let g = &rig.guard;
     for v in [g.watch_utilisation, g.park_utilisation, g.alarm_utilisation] {
         assert!(
-            th.iter().any(|t| (t - f64::from(v)).abs() < 1e-6),
+            th.iter().any(|t| (t - f64::from(v) * 100.0).abs() < 1e-4),
             "{v} in {th:?}"
         );
     }
@@ -291,8 +294,33 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
         .descendants()
         .filter(|n| n.has_tag_name("line") && class_is(n, "event-mark"))
         .count();
-    // Marked on the utilisation, wind speed and tilt charts.
-    assert_eq!(marks, 3 * (r.stage_changes.len() + r.faults.len()));
+    // Marked on the utilisation, pose, wind speed and tilt charts.
+    let n_events = r.stage_changes.len() + r.faults.len();
+    assert_eq!(marks, 4 * n_events);
+    // Each chart names every event by its number in the strip above the
+    // plot (close events share a label such as "2–4"), and the page lists
+    // the numbers once in the event table.
+    for svg in svgs.iter().filter(|s| {
+        s.descendants()
+            .any(|n| n.has_tag_name("line") && class_is(&n, "event-mark"))
+    }) {
+        let mut named: Vec<usize> = svg
+            .descendants()
+            .filter(|n| n.has_tag_name("text") && class_is(n, "mark-label"))
+            .flat_map(|n| {
+                n.attribute("data-events")
+                    .unwrap()
+                    .split(' ')
+                    .map(|x| x.parse::<usize>().unwrap())
+                    .collect::<Vec<_>>()
+            })
+            .collect();
+        named.sort_unstable();
+        assert_eq!(named, (1..=n_events).collect::<Vec<_>>());
+    }
+    assert!(html.contains(&format!("Events on the charts ({n_events})")));
+    // The tip wind is drawn with the gusts.
+    assert!(html.contains("<title>tip wind (lowest)</title>"));
     // The polar chart: 72 directions every 5°, north first, radii in
     // proportion to the tip wind speeds from the core's assessment at the
     // closest approach.
@@ -443,7 +471,7 @@ fn demo_and_assess_commands_write_their_reports() {
     assert_self_contained(&html, &doc);
     assert_eq!(
         doc.descendants().filter(|n| n.has_tag_name("svg")).count(),
-        6
+        8
     );
 
     let page = dir.path().join("assess.html");
@@ -463,4 +491,45 @@ fn demo_and_assess_commands_write_their_reports() {
     let html = std::fs::read_to_string(&page).unwrap();
     parse(&html);
     assert!(html.contains("Tip wind speed by direction"));
+}
+
+#[test]
+fn a_gap_in_the_wind_is_drawn_as_a_gap() {
+    // The invented night with 40 s of the anemometer's column left empty
+    // (an empty cell holds the previous value: host-sim/src/log/mod.rs),
+    // longer than the demo rig's wind_stale of 15 s.
+    let dir = tempfile::tempdir().unwrap();
+    let mut csv = String::from("t,ax,ay,az,speed,dir\n");
+    for t in 0..3600_u32 {
+        let (speed, dir) = if (1000..1040).contains(&t) {
+            (String::new(), String::new())
+        } else {
+            (format!("{:.3}", wind_at(t)), dir_at(t).to_string())
+        };
+        writeln!(
+            csv,
+            "{},{},0,1,{speed},{dir}",
+            1_700_000_000 + u64::from(t),
+            f64::from(t % 3) * 1e-4
+        )
+        .unwrap();
+    }
+    std::fs::write(dir.path().join("night.csv"), csv).unwrap();
+    let profile = crate::common::one_file_profile(dir.path(), "night");
+    let rig = demo_rig();
+    let rep = run(&profile, &rig, &dir.path().join("v.csv"));
+    let s = &rep.rigs[0].series;
+    assert!((s.wind_gap_s - 15.0).abs() < 1e-6, "{}", s.wind_gap_s);
+    assert_eq!(s.wind_gaps, vec![(999.0, 1040.0)]);
+    let html = report::replay_html(
+        &rep,
+        &replay_charts(&rep, std::slice::from_ref(&rig)).unwrap(),
+    );
+    let doc = parse(&html);
+    let bands: Vec<_> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("rect") && class_is(n, "gap-band"))
+        .collect();
+    assert_eq!(bands.len(), 1);
+    assert!(html.contains("no anemometer sample for 0:41"), "{html}");
 }

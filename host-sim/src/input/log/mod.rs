@@ -21,6 +21,7 @@ mod profile;
 mod record;
 mod source;
 pub mod time;
+pub mod zone;
 
 pub use crate::input::issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
 pub use merge::Merger;
