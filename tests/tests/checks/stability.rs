@@ -303,11 +303,25 @@ fn ballast_needed_meets_target_exactly() {
         })
         .unwrap();
     assert!(u2 > 0.8);
+    // A design gust just past the target (utilisation 0.9 against 0.8)
+    // needs a little ballast, by the same closed form: about 5.0 kg.
+    let over_small = 0.9 * 40.0 * STANDARD_GRAVITY_MPS2 * 0.25;
+    let v_small = (2.0 * over_small / (0.222 * 1.5) / 1.225_f32).sqrt();
+    let small = rig
+        .ballast_needed(&c, v_small, 0.8, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .unwrap();
+    let closed_small =
+        (over_small / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / (STANDARD_GRAVITY_MPS2 * 0.25);
+    assert_relative_eq!(small.amount, closed_small, max_relative = 1e-3);
+    assert_relative_eq!(closed_small, 5.0, max_relative = 1e-3);
     // Tie-downs: about the edge opposite the upwind foot only that foot is off
     // the edge, at the triangle's height 3r = 0.75 m from it.
     let tie = rig.tie_down_needed(&c, 25.0, 0.8).unwrap();
     let closed_t = (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / 0.75;
     assert_relative_eq!(tie.amount, closed_t, max_relative = 1e-3);
+    let tie_small = rig.tie_down_needed(&c, v_small, 0.8).unwrap();
+    let closed_t_small = (over_small / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / 0.75;
+    assert_relative_eq!(tie_small.amount, closed_t_small, max_relative = 1e-3);
 }
 
 /// Utilisation at a wind below the tip wind, with tie-downs: about the edge
