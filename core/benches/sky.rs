@@ -12,9 +12,9 @@
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use standfast::air::Air;
+use standfast::bounded::Vec;
 use standfast::drive::{DriveRating, Drives};
 use standfast::frame::Tilt;
-use standfast::heapless::Vec;
 use standfast::math::deg_to_rad;
 use standfast::mount::{MountGeometry, MountKind};
 use standfast::rig::{

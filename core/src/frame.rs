@@ -95,7 +95,7 @@ impl Tilt {
 /// *from* azimuth `from_rad` (meteorological convention), made perpendicular to
 /// gravity `g_unit` so that wind stays truly horizontal on tilted ground.
 #[must_use]
-pub fn wind_unit(from_rad: f32, g_unit: Vec3) -> Vec3 {
+pub(crate) fn wind_unit(from_rad: f32, g_unit: Vec3) -> Vec3 {
     let toward = -azimuth_unit(from_rad);
     toward.reject(g_unit).normalized().unwrap_or(toward)
 }

@@ -12,34 +12,57 @@
 //! codes and licensed engineers.
 //!
 //! ## Map
-//! - [`rig`]: the rig description ([`rig::RigSpec`]), the validated
-//!   [`rig::Rig`] and the placement of its parts in a pose;
+//! The types an integrator needs are re-exported at the root (see below);
+//! the modules hold the rest.
+//! - [`rig`]: the rig description ([`RigSpec`], its parts and the builders
+//!   for common ones), the validated [`Rig`], the [`Conditions`] it is
+//!   judged in and the placement of its parts in a pose;
 //! - [`stability`]: overturning about every edge of the support polygon,
 //!   sliding, tip wind speed, tilt margin, foot reactions, ballast and
-//!   tie-down needs;
-//! - [`support`], [`mount`], [`shape`], [`air`], [`frame`]: feet, mount
-//!   kinematics, wind-exposed shapes and drag, air density, the rig frame;
-//! - [`drive`], [`hardware`]: drive ratings; counterweight hardware checks;
-//! - [`sense`]: accelerometer tilt, wind statistics and sensor faults;
+//!   tie-down needs ([`Assessment`]);
+//! - [`torque`]: drive torques and utilisation of both mount axes, inertia
+//!   formulas, balance;
+//! - [`sky`]: scans over the whole sky (worst pose, payload envelope, the
+//!   safest park pose);
+//! - [`guard`]: the staged park-and-alarm decision from live samples
+//!   ([`Guard`], [`GuardConfig`], [`Inputs`], [`Verdict`]);
+//! - [`sense`]: accelerometer tilt, wind statistics, sensor faults and the
+//!   time stamp [`Millis`];
+//! - [`support`]: feet and the support polygon ([`Support`]);
+//! - [`mount`]: mount kinds, kinematics and poses ([`Pose`]);
+//! - [`shape`]: wind-exposed shapes and their drag;
+//! - [`air`]: air density ([`Air`]);
+//! - [`frame`]: the rig frame, ground tilt ([`Tilt`]);
+//! - [`drive`]: drive ratings;
+//! - [`hardware`]: counterweight hardware checks (bolts, threads, shafts,
+//!   materials);
 //! - [`weighing`]: the centre of gravity of the whole rig from scale
-//!   readings under its feet, level, lifted and tilted to unload.
+//!   readings under its feet, level, lifted and tilted to unload;
+//! - [`math`]: the 3-vector [`Vec3`], angle conversions and the constants
+//!   the crate's interfaces use;
+//! - [`bounded`]: the fixed-capacity list and string types that appear in
+//!   the rig description and the verdict;
+//! - [`error`]: the typed [`Error`].
 //!
 //! ## Example
-//! An invented rig: a 9 kg alt-azimuth head and tube on a light tripod.
+//! An invented rig: a 9 kg alt-azimuth head and tube on a light tripod. The
+//! static answer first, then the guard fed a steady breeze for 70 s.
 //!
 //! ```
-//! use standfast::heapless::{String, Vec};
+//! use standfast::bounded::{String, Vec};
 //! use standfast::math::deg_to_rad;
-//! use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
-//! use standfast::rig::{BodySpec, Conditions, LegsSpec, Rig, RigSpec, Stage};
+//! use standfast::rig::LegsSpec;
 //! use standfast::shape::{Exposure, Shape};
-//! use standfast::support::Support;
+//! use standfast::{
+//!     BodySpec, Conditions, Guard, GuardConfig, Inputs, Millis, MountGeometry, MountKind,
+//!     PierSide, Pose, Rig, RigSpec, Support, WindSample,
+//! };
 //!
 //! let tripod = Support::tripod(0.45, 0.0)?; // feet on a 0.45 m circle, one north
 //! let mut bodies = Vec::new();
 //! let tube = BodySpec {
 //!     label: String::try_from("tube").unwrap_or_default(),
-//!     stage: Stage::Secondary,
+//!     stage: standfast::rig::Stage::Secondary,
 //!     mass_kg: 5.0,
 //!     cg_m: [0.15, 0.1, 0.0], // 15 cm beside the altitude axis, 10 cm up the tube
 //!     exposure: Some(Exposure {
@@ -79,6 +102,28 @@
 //!     println!("tips at {v:.1} m/s from {:.0}°", worst.from_rad.to_degrees());
 //!     assert!(v > 10.0 && v < 60.0);
 //! }
+//!
+//! // The guard: 4 samples a second of a level accelerometer (in g) and a
+//! // 5 m/s breeze from the west, each with a little noise (bit-identical
+//! // readings for a minute would be a stuck sensor). The guard starts in the
+//! // sensor-fault stage (no reading yet) and leaves it after a minute of
+//! // healthy inputs.
+//! let mut guard = Guard::new(&rig, GuardConfig::default(), Millis(0))?;
+//! let mut verdict = None;
+//! for i in 1..=280_u64 {
+//!     let inputs = Inputs {
+//!         accel_raw: Some([0.0, 0.0, 1.0 + 0.001 * (i % 3) as f32]), // with a little noise
+//!         wind: Some(WindSample { speed_mps: 5.0 + 0.1 * (i % 4) as f32, from_rad: Some(deg_to_rad(270.0)) }),
+//!         pose: Some(pose),
+//!         ..Inputs::default()
+//!     };
+//!     verdict = Some(guard.step(Millis(250 * i), &inputs));
+//! }
+//! let verdict = verdict.ok_or(standfast::Error::new(standfast::ErrorKind::TooFew, "steps"))?;
+//! assert!(verdict.faults.is_empty());
+//! assert!(!verdict.stage.park_requested());
+//! let u = verdict.overturning_utilisation.unwrap_or(f32::NAN);
+//! assert!(u > 0.0 && u < 0.5, "overturning utilisation {u}");
 //! # Ok::<(), standfast::Error>(())
 //! ```
 #![no_std]
@@ -101,8 +146,21 @@ pub mod support;
 pub mod torque;
 pub mod weighing;
 
+pub use air::Air;
 pub use error::{Error, ErrorKind};
 pub use frame::Tilt;
-/// The `heapless` crate, re-exported: rig descriptions hold its `Vec` and `String`.
-pub use heapless;
+pub use guard::{AirSample, Guard, GuardConfig, Inputs, Verdict, WindSample};
 pub use math::Vec3;
+pub use mount::{MountGeometry, MountKind, PierSide, Pose};
+pub use rig::{BodySpec, Conditions, Rig, RigSpec};
+pub use sense::Millis;
+pub use stability::Assessment;
+pub use support::{Foot, Support};
+
+/// The fixed-capacity containers of the public interface: the lists of the
+/// rig description ([`RigSpec`]), the labels of its parts and the events of a
+/// [`Verdict`] are `Vec`s and `String`s of the `heapless` crate (0.9), with
+/// the capacity in the type. Only these two types are re-exported.
+pub mod bounded {
+    pub use heapless::{String, Vec};
+}

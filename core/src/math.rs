@@ -1,4 +1,8 @@
-//! Scalar functions and a small 3-vector, with the math back end chosen by feature.
+//! The 3-vector [`Vec3`], angle conversions ([`deg_to_rad`], [`rad_to_deg`],
+//! [`wrap_pi`], [`wrap_tau`]), [`clamp`], the square root the crate computes
+//! with ([`sqrt`]) and the constants its interfaces use. These are the public
+//! part of the module; the transcendental functions behind them are the
+//! crate's own.
 //!
 //! Every transcendental function the crate uses goes through this module, so the
 //! `libm` (default) and `micromath` features switch all of them at once. With both
@@ -7,13 +11,13 @@
 //! **Single precision only.** On a Cortex-M4F the FPU does `f32` only, and any
 //! `f64` operation is a software routine of hundreds of instructions. Under
 //! `libm`, three functions are therefore this module's own `f32` code rather
-//! than libm's (whose `sinf`, `cosf` and `hypotf` compute in `f64`): [`sin`],
-//! [`cos`] and [`hypot`]; every other function is libm's `f32` routine, which
+//! than libm's (whose `sinf`, `cosf` and `hypotf` compute in `f64`): `sin`,
+//! `cos` and `hypot`; every other function is libm's `f32` routine, which
 //! uses no `f64`. [`sqrt`] is the FPU's `vsqrt.f32` on targets with a
 //! hardware-float ABI (`target_abi = "eabihf"`) and libm's `sqrtf` elsewhere:
 //! both are IEEE 754 square roots, correctly rounded, so the results are the
 //! same bits and a host replay still matches the firmware's exactly. The same
-//! `f32` code runs on every target, so [`sin`], [`cos`] and [`hypot`] give the
+//! `f32` code runs on every target, so `sin`, `cos` and `hypot` give the
 //! same bits on the host and on the board too. `firmware-example/ci.sh` checks
 //! the firmware's disassembly for software double-precision routines.
 
@@ -142,7 +146,7 @@ mod fpu {
 /// radians apart: no angle); otherwise the result never leaves [−1, 1].
 #[inline]
 #[must_use]
-pub fn sin(x: f32) -> f32 {
+pub(crate) fn sin(x: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         x.sin()
@@ -157,7 +161,7 @@ pub fn sin(x: f32) -> f32 {
 /// single-precision routine, as [`sin`].
 #[inline]
 #[must_use]
-pub fn cos(x: f32) -> f32 {
+pub(crate) fn cos(x: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         x.cos()
@@ -215,7 +219,7 @@ fn sin_cos_f32(x: f32) -> (f32, f32) {
 /// Four-quadrant arc tangent of `y / x`, in radians in (−π, π].
 #[inline]
 #[must_use]
-pub fn atan2(y: f32, x: f32) -> f32 {
+pub(crate) fn atan2(y: f32, x: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         y.atan2(x)
@@ -230,7 +234,7 @@ pub fn atan2(y: f32, x: f32) -> f32 {
 /// noise on a unit-vector dot product never yields NaN.
 #[inline]
 #[must_use]
-pub fn acos(x: f32) -> f32 {
+pub(crate) fn acos(x: f32) -> f32 {
     let x = clamp(x, -1.0, 1.0);
     #[cfg(feature = "micromath")]
     {
@@ -245,7 +249,7 @@ pub fn acos(x: f32) -> f32 {
 /// Arc sine in radians; the argument is clamped to [−1, 1] first.
 #[inline]
 #[must_use]
-pub fn asin(x: f32) -> f32 {
+pub(crate) fn asin(x: f32) -> f32 {
     let x = clamp(x, -1.0, 1.0);
     #[cfg(feature = "micromath")]
     {
@@ -260,7 +264,7 @@ pub fn asin(x: f32) -> f32 {
 /// Natural exponential eˣ.
 #[inline]
 #[must_use]
-pub fn exp(x: f32) -> f32 {
+pub(crate) fn exp(x: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         x.exp()
@@ -274,7 +278,7 @@ pub fn exp(x: f32) -> f32 {
 /// Natural logarithm.
 #[inline]
 #[must_use]
-pub fn ln(x: f32) -> f32 {
+pub(crate) fn ln(x: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         if x <= 0.0 || !x.is_finite() {
@@ -295,7 +299,7 @@ pub fn ln(x: f32) -> f32 {
 /// `x` raised to the real power `y`.
 #[inline]
 #[must_use]
-pub fn powf(x: f32, y: f32) -> f32 {
+pub(crate) fn powf(x: f32, y: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         if x > 0.0 {
@@ -320,7 +324,7 @@ pub fn powf(x: f32, y: f32) -> f32 {
 /// infinite, else NaN if either is NaN (as C's `hypot`).
 #[inline]
 #[must_use]
-pub fn hypot(x: f32, y: f32) -> f32 {
+pub(crate) fn hypot(x: f32, y: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         sqrt(x * x + y * y)
@@ -364,7 +368,7 @@ fn hypot_f32(x: f32, y: f32) -> f32 {
 /// Largest integer value not greater than `x`.
 #[inline]
 #[must_use]
-pub fn floor(x: f32) -> f32 {
+pub(crate) fn floor(x: f32) -> f32 {
     #[cfg(feature = "micromath")]
     {
         x.floor()

@@ -107,7 +107,7 @@ pub struct Exposure {
 /// Linear interpolation in a table of (x, y) pairs sorted by x; the end values
 /// hold outside the table.
 #[must_use]
-pub fn interpolate(table: &[(f32, f32)], x: f32) -> f32 {
+pub(crate) fn interpolate(table: &[(f32, f32)], x: f32) -> f32 {
     let (Some(first), Some(last)) = (table.first(), table.last()) else {
         return 0.0;
     };
@@ -167,7 +167,7 @@ pub fn cylinder_axial_cd(aspect: f32) -> f32 {
 /// frame's axes (rig coordinates) and the box's optional edge directions in
 /// the stage frame; `None` when the edges are zero or parallel.
 #[must_use]
-pub fn box_frame(stage_axes: &[Vec3; 3], edges: Option<[Vec3; 2]>) -> Option<[Vec3; 3]> {
+pub(crate) fn box_frame(stage_axes: &[Vec3; 3], edges: Option<[Vec3; 2]>) -> Option<[Vec3; 3]> {
     let Some([a, b]) = edges else {
         return Some(*stage_axes);
     };
@@ -180,7 +180,7 @@ pub fn box_frame(stage_axes: &[Vec3; 3], edges: Option<[Vec3; 2]>) -> Option<[Ve
 
 /// [`box_frame`] for a validated box, falling back to the stage axes.
 #[must_use]
-pub fn box_axes(stage_axes: &[Vec3; 3], edges: Option<[[f32; 3]; 2]>) -> [Vec3; 3] {
+pub(crate) fn box_axes(stage_axes: &[Vec3; 3], edges: Option<[[f32; 3]; 2]>) -> [Vec3; 3] {
     let e = edges.map(|[a, b]| [Vec3::from_array(a), Vec3::from_array(b)]);
     box_frame(stage_axes, e).unwrap_or(*stage_axes)
 }

@@ -10,7 +10,7 @@
 //! (radians from north clockwise, k = 0..N_d).
 //!
 //! **Cost.** The scan evaluates, per kept pose, the gravity and inertia terms
-//! once and, per wind direction, one [`Loads`] (the overturning terms of every
+//! once and, per wind direction, one `Loads` (the overturning terms of every
 //! support edge) and the axis wind terms: about poses × N_d × (edges + 2)
 //! passes over the parts. The lowest tip wind of the grid is then refined at
 //! its pose by [`Rig::worst_wind`] (72 directions and a golden-section

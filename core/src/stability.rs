@@ -100,7 +100,7 @@ pub struct Assessment {
 /// Gravity and wind moment terms of one edge: net moment = gravity + q·wind.
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub struct EdgeTerms {
+pub(crate) struct EdgeTerms {
     /// Overturning moment of the weights, N·m.
     pub gravity_over_nm: f32,
     /// Stabilising moment of the weights, N·m.
@@ -145,7 +145,7 @@ impl EdgeTerms {
 /// overturns, and 1.0 when nothing does either: neutral equilibrium, on the
 /// point of moving, never read as safe.
 #[must_use]
-pub fn ratio(over: f32, stab: f32) -> f32 {
+pub(crate) fn ratio(over: f32, stab: f32) -> f32 {
     if stab > 0.0 || stab.is_nan() {
         math::clamp(over / stab, 0.0, UTILISATION_CAP)
     } else if over > 0.0 {
@@ -174,7 +174,7 @@ struct Resultant {
 
 /// Wind-direction-specific loads on a placed rig.
 #[derive(Clone, Debug)]
-pub struct Loads {
+pub(crate) struct Loads {
     terms: Vec<EdgeTerms, MAX_FEET>,
     resultant: Resultant,
 }
@@ -387,7 +387,7 @@ fn edge_load(e: &Edge, t: &EdgeTerms, q_pa: f32) -> EdgeLoad {
 /// Scans a full turn of directions for the largest value of `f` (coarse steps
 /// of 5°, then golden-section refinement around the best), returning the value
 /// and the direction in radians [0, 2π).
-pub fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
+pub(crate) fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
     let step = TAU / DIRECTION_STEPS as f32;
     let mut best = (f32::NEG_INFINITY, 0.0_f32);
     for k in 0..DIRECTION_STEPS {

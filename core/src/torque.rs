@@ -147,7 +147,7 @@ pub fn parallel_axis_kg_m2(centroidal_kg_m2: f32, mass_kg: f32, distance_m: f32)
 /// part's stage frame in rig coordinates (from [`Placement::axes`]). A point
 /// mass, or a distributed part without an exposed shape, gives 0.
 #[must_use]
-pub fn centroidal_inertia_kg_m2(part: &Part, stage_axes: &[Vec3; 3], dir: Vec3) -> f32 {
+pub(crate) fn centroidal_inertia_kg_m2(part: &Part, stage_axes: &[Vec3; 3], dir: Vec3) -> f32 {
     let Some(x) = part.exposure else {
         return 0.0;
     };
@@ -223,7 +223,7 @@ pub type PoseTerms = [AxisTerms; 2];
 /// for a placed rig; the wind terms are left 0. Uses the placement's gravity
 /// (ground tilt included) and its cover state.
 #[must_use]
-pub fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
+pub(crate) fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
     let frames = placement.frames();
     let origin = frames.origin_m;
     let mut out = [AxisTerms::default(); 2];
@@ -256,7 +256,7 @@ pub fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
 /// (radians from north clockwise, meteorological convention), signed about
 /// each axis unit vector. The fitted cover hides the parts marked under cover.
 #[must_use]
-pub fn wind_terms_nm_per_pa(placement: &Placement<'_>, from_rad: f32) -> [f32; 2] {
+pub(crate) fn wind_terms_nm_per_pa(placement: &Placement<'_>, from_rad: f32) -> [f32; 2] {
     let frames = placement.frames();
     let origin = frames.origin_m;
     let (k, s) = (frames.primary_axis(), frames.secondary_axis());
@@ -280,7 +280,7 @@ pub fn wind_terms_nm_per_pa(placement: &Placement<'_>, from_rad: f32) -> [f32; 2
 
 /// Gravity, inertia and wind terms of both axes for a wind from `from_rad`.
 #[must_use]
-pub fn pose_terms(placement: &Placement<'_>, from_rad: f32) -> PoseTerms {
+pub(crate) fn pose_terms(placement: &Placement<'_>, from_rad: f32) -> PoseTerms {
     let mut t = gravity_terms(placement);
     let w = wind_terms_nm_per_pa(placement, from_rad);
     for (ti, wi) in t.iter_mut().zip(w) {

@@ -34,10 +34,10 @@
 //! the mount maker's limits, local codes and licensed engineers.
 
 use crate::assess::{Assess, Assessment, LimitRule, RaisedFault, Samples};
+use standfast::bounded::{String, Vec};
 use standfast::guard::{
     Event as GuardEvent, Guard, GuardConfig, Inputs, Stage, WindSample as GuardWind, MAX_EVENTS,
 };
-use standfast::heapless::{String, Vec};
 use standfast::math::deg_to_rad;
 use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec};

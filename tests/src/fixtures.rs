@@ -7,7 +7,7 @@ use standfast::shape::{Exposure, Shape};
 use standfast::support::{Foot, Support};
 
 /// Feet of a support as a heapless list.
-pub fn feet_of(s: &Support) -> standfast::heapless::Vec<Foot, 8> {
+pub fn feet_of(s: &Support) -> standfast::bounded::Vec<Foot, 8> {
     s.feet_list()
 }
 
@@ -25,9 +25,9 @@ pub fn post_rig(
     // Cylinder 0.25 m across and 0.74 m long; its drag coefficient is set so
     // that Cd·A equals the requested drag area whatever the wind direction.
     let (d, l) = (0.25_f32, 0.74_f32);
-    let mut bodies = standfast::heapless::Vec::new();
+    let mut bodies = standfast::bounded::Vec::new();
     let _ = bodies.push(BodySpec {
-        label: standfast::heapless::String::try_from("post").unwrap(),
+        label: standfast::bounded::String::try_from("post").unwrap(),
         stage: Stage::Ground,
         mass_kg,
         cg_m,
@@ -53,10 +53,10 @@ pub fn post_rig(
             axis_origin_m: [0.0, 0.0, 1.0],
         },
         bodies,
-        counterweights: standfast::heapless::Vec::new(),
+        counterweights: standfast::bounded::Vec::new(),
         shaft: None,
         cover: None,
-        ballast: standfast::heapless::Vec::new(),
+        ballast: standfast::bounded::Vec::new(),
         drives: None,
     }
 }

@@ -5,6 +5,7 @@
 use crate::unknowns::Unknowns;
 use core::hint::black_box;
 use standfast::air::Air;
+use standfast::bounded::{String, Vec};
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::transition::{transition, Figures, Memory, Readings};
 use standfast::guard::{AirSample, Guard, GuardConfig, Inputs, Stage as Level, WindSample};
@@ -13,7 +14,6 @@ use standfast::hardware::material::{Material, AL_6061_T6_EXTRUSION_MIN};
 use standfast::hardware::shaft::{check_shaft_bending, ShaftSection};
 use standfast::hardware::strip::{check_stripping, ShearFactor, StrippingInput};
 use standfast::hardware::{IsoThread, StrengthBasis};
-use standfast::heapless::{String, Vec};
 use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{
     BallastSpec, BodySpec, Conditions, CounterweightSpec, CoverSpec, LegsSpec, Rig, RigSpec,

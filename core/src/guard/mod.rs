@@ -69,11 +69,12 @@ pub use transition::{Cause, Stage};
 use crate::air::{celsius_to_kelvin, Air};
 use crate::error::{Error, ErrorKind};
 use crate::frame::Tilt;
+use crate::math::Vec3;
 use crate::mount::Pose;
 use crate::rig::{Conditions, Rig, MAX_WIND_SPEED_MPS};
 use crate::sense::{
-    Check, Fault, FaultSet, MeanWind, Millis, Sensor, TiltSensor, WindDirection, WindReport,
-    WindStats,
+    Check, Fault, FaultSet, LevelCapture, MeanWind, Millis, Sensor, TiltSensor, WindDirection,
+    WindReport, WindStats,
 };
 use crate::sky::ParkRequest;
 use gusts::{GustCache, GustHistory};
@@ -314,9 +315,29 @@ impl<'r> Guard<'r> {
         self.stage
     }
 
-    /// The tilt processor (for a level capture at set-up).
-    pub fn tilt_sensor_mut(&mut self) -> &mut TiltSensor {
-        &mut self.tilt
+    /// Starts a level capture at set-up (see
+    /// [`crate::sense::TiltReference::LevelReference`]): the accepted
+    /// accelerometer samples of the next `level_capture_s` seconds are
+    /// averaged into the level reference. The rig must be levelled and still
+    /// meanwhile.
+    pub fn start_level_capture(&mut self, now: Millis) {
+        self.tilt.start_level_capture(now);
+    }
+
+    /// Progress of the latest level capture.
+    #[must_use]
+    pub fn level_capture(&self) -> LevelCapture {
+        self.tilt.level_capture()
+    }
+
+    /// Sets the level reference from one stored earlier (rig frame, specific
+    /// force pointing up, any length), instead of capturing it again.
+    ///
+    /// # Errors
+    /// As [`crate::sense::TiltSensor::set_level_reference`]: a zero or
+    /// non-finite vector, or one more than 45° from +z.
+    pub fn set_level_reference(&mut self, up: Vec3) -> Result<(), Error> {
+        self.tilt.set_level_reference(up)
     }
 
     /// Sets the air density used until measured air arrives in

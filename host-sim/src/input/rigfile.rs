@@ -89,10 +89,10 @@ use std::path::Path;
 use serde::de::{self, Deserializer, Visitor};
 use serde::Deserialize;
 use standfast::air::Air;
+use standfast::bounded;
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::{GuardConfig, WindSource};
 use standfast::hardware::{material, IsoThread, Material};
-use standfast::heapless;
 use standfast::mount::{MountGeometry, MountKind};
 use standfast::rig::{
     BallastSpec, BodySpec, CounterweightSpec, CoverSpec, LegsSpec, MassModel, Rig, RigSpec,
@@ -1072,7 +1072,7 @@ fn site_section(
 }
 
 /// The feet of a rig (rig frame, m; tie-down pull, N).
-type Feet = heapless::Vec<Foot, { standfast::support::MAX_FEET }>;
+type Feet = bounded::Vec<Foot, { standfast::support::MAX_FEET }>;
 
 /// Reads `[support]`: the feet (a list, or a regular tripod) with their
 /// tie-downs, and the foot–ground friction coefficient.
@@ -1124,7 +1124,7 @@ fn listed_feet(
     sp: &mut Spans,
 ) -> Result<Feet, InputError> {
     sp.put("support.feet", None, "support.feet".into(), list.span());
-    let mut v = heapless::Vec::new();
+    let mut v = bounded::Vec::new();
     for (i, ft) in list.get_ref().iter().enumerate() {
         let ft = ft.get_ref();
         let key = format!("support.feet[{i}]");
@@ -1305,8 +1305,8 @@ fn bodies_section(
     ck: &Checker<'_>,
     list: &[S<BodySec>],
     sp: &mut Spans,
-) -> Result<heapless::Vec<BodySpec, { standfast::rig::MAX_BODIES }>, InputError> {
-    let mut bodies = heapless::Vec::new();
+) -> Result<bounded::Vec<BodySpec, { standfast::rig::MAX_BODIES }>, InputError> {
+    let mut bodies = bounded::Vec::new();
     for (i, b) in list.iter().enumerate() {
         let key = format!("body[{i}]");
         let g = b.get_ref();
@@ -1342,9 +1342,9 @@ fn bodies_section(
             },
         };
         let label = match &g.label {
-            Some(l) => heapless::String::try_from(l.get_ref().as_str())
+            Some(l) => bounded::String::try_from(l.get_ref().as_str())
                 .map_err(|_| ck.error(&format!("{key}.label"), l.span(), "longer than 24 bytes"))?,
-            None => heapless::String::new(),
+            None => bounded::String::new(),
         };
         let exposure = match &g.shape {
             None => None,
@@ -1404,8 +1404,8 @@ fn counterweights_section(
     ck: &Checker<'_>,
     list: &[S<CwSec>],
     sp: &mut Spans,
-) -> Result<heapless::Vec<CounterweightSpec, { standfast::rig::MAX_COUNTERWEIGHTS }>, InputError> {
-    let mut counterweights = heapless::Vec::new();
+) -> Result<bounded::Vec<CounterweightSpec, { standfast::rig::MAX_COUNTERWEIGHTS }>, InputError> {
+    let mut counterweights = bounded::Vec::new();
     for (i, c) in list.iter().enumerate() {
         let key = format!("counterweight[{i}]");
         let g = c.get_ref();
@@ -1527,8 +1527,8 @@ fn ballast_section(
     ck: &Checker<'_>,
     list: &[S<BallastSec>],
     sp: &mut Spans,
-) -> Result<heapless::Vec<BallastSpec, { standfast::rig::MAX_BALLAST }>, InputError> {
-    let mut ballast = heapless::Vec::new();
+) -> Result<bounded::Vec<BallastSpec, { standfast::rig::MAX_BALLAST }>, InputError> {
+    let mut ballast = bounded::Vec::new();
     for (i, b) in list.iter().enumerate() {
         let key = format!("ballast[{i}]");
         let g = b.get_ref();

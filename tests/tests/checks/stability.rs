@@ -180,7 +180,7 @@ fn tilt_margin_is_atan_d_over_h() {
 fn rotating_rig_and_wind_together_changes_nothing() {
     let feet = [[0.6, 0.1], [-0.2, 0.5], [-0.3, -0.45], [0.25, -0.5]];
     let mk = |turn_deg: f32| {
-        let turned: standfast::heapless::Vec<Foot, 8> = feet
+        let turned: standfast::bounded::Vec<Foot, 8> = feet
             .iter()
             .map(|p| Foot {
                 position_m: standfast::support::rotate_cw(*p, deg_to_rad(turn_deg)),

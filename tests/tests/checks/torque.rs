@@ -10,9 +10,9 @@
 
 use approx::{assert_abs_diff_eq, assert_relative_eq};
 use standfast::air::Air;
+use standfast::bounded::Vec as HVec;
 use standfast::drive::{DriveRating, Drives};
 use standfast::frame::Tilt;
-use standfast::heapless::Vec as HVec;
 use standfast::math::{deg_to_rad, STANDARD_GRAVITY_MPS2 as G};
 use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{
