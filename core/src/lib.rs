@@ -49,48 +49,23 @@
 //! static answer first, then the guard fed a steady breeze for 70 s.
 //!
 //! ```
-//! use standfast::bounded::{String, Vec};
 //! use standfast::math::deg_to_rad;
-//! use standfast::rig::LegsSpec;
-//! use standfast::shape::{Exposure, Shape};
+//! use standfast::rig::{LegsSpec, Stage};
 //! use standfast::{
-//!     BodySpec, Conditions, Guard, GuardConfig, Inputs, Millis, MountGeometry, MountKind,
-//!     PierSide, Pose, Rig, RigSpec, Support, WindSample,
+//!     BodySpec, Conditions, Guard, GuardConfig, Inputs, Millis, MountGeometry, PierSide, Pose,
+//!     Rig, RigSpec, Support, WindSample,
 //! };
 //!
-//! let tripod = Support::tripod(0.45, 0.0)?; // feet on a 0.45 m circle, one north
-//! let mut bodies = Vec::new();
-//! let tube = BodySpec {
-//!     label: String::try_from("tube").unwrap_or_default(),
-//!     stage: standfast::rig::Stage::Secondary,
-//!     mass_kg: 5.0,
-//!     cg_m: [0.15, 0.1, 0.0], // 15 cm beside the altitude axis, 10 cm up the tube
-//!     exposure: Some(Exposure {
-//!         shape: Shape::Cylinder { diameter_m: 0.12, length_m: 0.7, axis: [0.0, 1.0, 0.0] },
-//!         centre_m: [0.15, 0.1, 0.0],
-//!         drag_coefficient: None, // Hoerner's finite-cylinder value for l/d ≈ 6
-//!         end_drag_coefficient: None,
-//!     }),
-//!     ..BodySpec::default()
-//! };
-//! bodies.push(tube).ok();
-//! bodies.push(BodySpec { mass_kg: 4.0, cg_m: [0.0, 0.0, 1.1], ..BodySpec::default() }).ok();
-//! let spec = RigSpec {
-//!     feet: tripod.feet_list(),
-//!     legs: Some(LegsSpec { mass_kg: 0.8, diameter_m: 0.03, top_height_m: 1.05, top_radius_m: 0.06 }),
-//!     friction_coefficient: 0.3,
-//!     mount: MountGeometry {
-//!         kind: MountKind::AltAzimuth,
-//!         latitude_rad: deg_to_rad(47.0),
-//!         axis_origin_m: [0.0, 0.0, 1.25],
-//!     },
-//!     bodies,
-//!     counterweights: Vec::new(),
-//!     shaft: None,
-//!     cover: None,
-//!     ballast: Vec::new(),
-//!     drives: None,
-//! };
+//! let spec = RigSpec::new(
+//!     &Support::tripod(0.45, 0.0)?, // feet on a 0.45 m circle, one north
+//!     MountGeometry::alt_azimuth(deg_to_rad(47.0), [0.0, 0.0, 1.25]),
+//!     0.3, // friction coefficient of the feet on grass, a low value
+//! )
+//! .with_legs(LegsSpec::new(0.8, 0.03, 1.05, 0.06))
+//! // 5 kg, 12 cm across, 70 cm long, 15 cm beside the altitude axis, its
+//! // centre of gravity 10 cm up the tube.
+//! .with_body(BodySpec::optical_tube(5.0, 0.12, 0.7, [0.15, 0.1, 0.0]).labelled("tube"))?
+//! .with_body(BodySpec::point(Stage::Ground, 4.0, [0.0, 0.0, 1.1]).labelled("head"))?;
 //! let rig = Rig::new(&spec)?;
 //! let pose = Pose::Horizontal {
 //!     azimuth_rad: deg_to_rad(90.0),

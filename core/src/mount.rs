@@ -155,6 +155,30 @@ pub struct MountGeometry {
     pub axis_origin_m: [f32; 3],
 }
 
+impl MountGeometry {
+    /// An alt-azimuth mount at latitude `latitude_rad` (north positive) whose
+    /// axes meet at `axis_origin_m` (rig frame, metres).
+    #[must_use]
+    pub fn alt_azimuth(latitude_rad: f32, axis_origin_m: [f32; 3]) -> MountGeometry {
+        MountGeometry {
+            kind: MountKind::AltAzimuth,
+            latitude_rad,
+            axis_origin_m,
+        }
+    }
+
+    /// A German equatorial mount at latitude `latitude_rad` (north positive)
+    /// whose axes meet at `axis_origin_m` (rig frame, metres).
+    #[must_use]
+    pub fn equatorial(latitude_rad: f32, axis_origin_m: [f32; 3]) -> MountGeometry {
+        MountGeometry {
+            kind: MountKind::Equatorial,
+            latitude_rad,
+            axis_origin_m,
+        }
+    }
+}
+
 /// Horizontal coordinates (azimuth from north clockwise, altitude) of the
 /// direction with hour angle `h_rad` and declination `dec_rad` at latitude
 /// `lat_rad`, all radians. Standard spherical astronomy (Meeus, *Astronomical

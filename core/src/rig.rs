@@ -209,6 +209,331 @@ pub struct RigSpec {
     pub drives: Option<Drives>,
 }
 
+impl BodySpec {
+    /// A body whose mass sits at one point, `cg_m` in the frame of `stage`,
+    /// catching no wind (a camera, a battery inside a housing). Without a
+    /// shape the mass model is moot: any model counts it as a point mass; the
+    /// field keeps its default, as in a rig file that leaves it out.
+    #[must_use]
+    pub fn point(stage: Stage, mass_kg: f32, cg_m: [f32; 3]) -> BodySpec {
+        BodySpec {
+            stage,
+            mass_kg,
+            cg_m,
+            ..BodySpec::default()
+        }
+    }
+
+    /// A solid cylinder on `stage`: `diameter_m` across, `length_m` long
+    /// along `axis` (a direction in the stage frame, any length), centred at
+    /// `centre_m` (stage frame, metres), which is also its centre of
+    /// gravity and of wind pressure; published drag defaults.
+    #[must_use]
+    pub fn cylinder(
+        stage: Stage,
+        mass_kg: f32,
+        centre_m: [f32; 3],
+        diameter_m: f32,
+        length_m: f32,
+        axis: [f32; 3],
+    ) -> BodySpec {
+        BodySpec {
+            stage,
+            mass_kg,
+            cg_m: centre_m,
+            exposure: Some(Exposure {
+                shape: Shape::Cylinder {
+                    diameter_m,
+                    length_m,
+                    axis,
+                },
+                centre_m,
+                drag_coefficient: None,
+                end_drag_coefficient: None,
+            }),
+            mass_model: MassModel::Solid,
+            ..BodySpec::default()
+        }
+    }
+
+    /// A solid box on `stage` with edge lengths `size_m` along the stage
+    /// frame's axes, centred at `centre_m` (stage frame, metres), which is
+    /// also its centre of gravity and of wind pressure (a mount head, an
+    /// electronics case); the published drag default of a box.
+    #[must_use]
+    pub fn cuboid(stage: Stage, mass_kg: f32, centre_m: [f32; 3], size_m: [f32; 3]) -> BodySpec {
+        BodySpec {
+            stage,
+            mass_kg,
+            cg_m: centre_m,
+            exposure: Some(Exposure {
+                shape: Shape::Box {
+                    size_m,
+                    edges: None,
+                },
+                centre_m,
+                drag_coefficient: None,
+                end_drag_coefficient: None,
+            }),
+            mass_model: MassModel::Solid,
+            ..BodySpec::default()
+        }
+    }
+
+    /// An optical tube: a thin-walled cylinder on the secondary stage, its
+    /// axis along the stage's pointing direction p, centred at `centre_m`
+    /// (secondary-stage frame `[s, p, n]`, metres), shielded by the cover
+    /// when one is fitted. Move its centre of gravity with
+    /// [`BodySpec::with_cg_m`] when it is not at the middle of the tube.
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::BodySpec;
+    /// // 9 kg, 240 mm across, 950 mm long, 21 cm out along s from the axes.
+    /// let tube = BodySpec::optical_tube(9.0, 0.24, 0.95, [0.21, 0.08, 0.0])
+    ///     .labelled("tube")
+    ///     .with_cg_m([0.21, 0.04, 0.0]);
+    /// assert!(tube.under_cover);
+    /// assert_eq!(tube.label.as_str(), "tube");
+    /// ```
+    #[must_use]
+    pub fn optical_tube(
+        mass_kg: f32,
+        diameter_m: f32,
+        length_m: f32,
+        centre_m: [f32; 3],
+    ) -> BodySpec {
+        let mut b = BodySpec::cylinder(
+            Stage::Secondary,
+            mass_kg,
+            centre_m,
+            diameter_m,
+            length_m,
+            [0.0, 1.0, 0.0],
+        );
+        b.mass_model = MassModel::Shell;
+        b.under_cover = true;
+        b
+    }
+
+    /// The same body with the label `label`, cut to the label capacity (24
+    /// bytes) at a character boundary.
+    #[must_use]
+    pub fn labelled(mut self, label: &str) -> BodySpec {
+        self.label = label_of(label);
+        self
+    }
+
+    /// The same body with its centre of gravity at `cg_m` (stage frame,
+    /// metres); the wind still acts where its shape is.
+    #[must_use]
+    pub fn with_cg_m(mut self, cg_m: [f32; 3]) -> BodySpec {
+        self.cg_m = cg_m;
+        self
+    }
+
+    /// The same body with its mass spread as `mass_model`.
+    #[must_use]
+    pub fn with_mass_model(mut self, mass_model: MassModel) -> BodySpec {
+        self.mass_model = mass_model;
+        self
+    }
+
+    /// The same body, shielded (`true`) or not by a fitted cover.
+    #[must_use]
+    pub fn with_under_cover(mut self, under_cover: bool) -> BodySpec {
+        self.under_cover = under_cover;
+        self
+    }
+
+    /// The same body with a drag coefficient of its own for broadside flow
+    /// (see [`Exposure::drag_coefficient`]); no effect on a body without a
+    /// shape.
+    #[must_use]
+    pub fn with_drag_coefficient(mut self, drag_coefficient: f32) -> BodySpec {
+        if let Some(e) = self.exposure.as_mut() {
+            e.drag_coefficient = Some(drag_coefficient);
+        }
+        self
+    }
+}
+
+/// `text` as a [`Label`], cut at the last character boundary that fits.
+fn label_of(text: &str) -> Label {
+    let mut label = Label::new();
+    for c in text.chars() {
+        if label.push(c).is_err() {
+            break;
+        }
+    }
+    label
+}
+
+impl LegsSpec {
+    /// Three (or as many as there are feet) legs of `mass_kg` each and
+    /// `diameter_m` across, from the feet up to a head whose leg tops are
+    /// `top_radius_m` from the vertical axis at `top_height_m`.
+    #[must_use]
+    pub fn new(mass_kg: f32, diameter_m: f32, top_height_m: f32, top_radius_m: f32) -> LegsSpec {
+        LegsSpec {
+            mass_kg,
+            diameter_m,
+            top_height_m,
+            top_radius_m,
+        }
+    }
+}
+
+impl CounterweightSpec {
+    /// A disc counterweight of `mass_kg`, `diameter_m` across and
+    /// `thickness_m` thick, its centre `distance_m` along the shaft from the
+    /// axis origin; the published drag default.
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::rig::CounterweightSpec;
+    /// let cw = CounterweightSpec::disc(4.5, 0.27, 0.12, 0.045);
+    /// assert_eq!(cw.drag_coefficient, None);
+    /// ```
+    #[must_use]
+    pub fn disc(mass_kg: f32, distance_m: f32, diameter_m: f32, thickness_m: f32) -> Self {
+        CounterweightSpec {
+            mass_kg,
+            distance_m,
+            diameter_m,
+            thickness_m,
+            drag_coefficient: None,
+        }
+    }
+}
+
+impl ShaftSpec {
+    /// A solid counterweight shaft of `mass_kg`, `length_m` from the axis
+    /// origin to its end and `diameter_m` across.
+    #[must_use]
+    pub fn new(mass_kg: f32, length_m: f32, diameter_m: f32) -> ShaftSpec {
+        ShaftSpec {
+            mass_kg,
+            length_m,
+            diameter_m,
+        }
+    }
+}
+
+impl RigSpec {
+    /// A rig standing on `support`, with `mount` and the lower bound
+    /// `friction_coefficient` of static friction between feet and ground; no
+    /// bodies, legs, counterweights, shaft, cover, ballast or drives yet (add
+    /// them with the `with_` methods). Checked only by [`Rig::new`].
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::{BodySpec, MountGeometry, Rig, RigSpec, Support};
+    /// use standfast::math::deg_to_rad;
+    /// use standfast::rig::{LegsSpec, Stage};
+    ///
+    /// let spec = RigSpec::new(
+    ///     &Support::tripod(0.45, 0.0)?,
+    ///     MountGeometry::alt_azimuth(deg_to_rad(47.0), [0.0, 0.0, 1.25]),
+    ///     0.3,
+    /// )
+    /// .with_legs(LegsSpec::new(0.8, 0.03, 1.05, 0.06))
+    /// .with_body(BodySpec::optical_tube(5.0, 0.12, 0.7, [0.15, 0.1, 0.0]))?
+    /// .with_body(BodySpec::point(Stage::Ground, 4.0, [0.0, 0.0, 1.1]))?;
+    /// let rig = Rig::new(&spec)?;
+    /// assert_eq!(rig.support().feet().len(), 3);
+    /// # Ok::<(), standfast::Error>(())
+    /// ```
+    #[must_use]
+    pub fn new(support: &Support, mount: MountGeometry, friction_coefficient: f32) -> RigSpec {
+        RigSpec {
+            feet: support.feet_list(),
+            legs: None,
+            friction_coefficient,
+            mount,
+            bodies: Vec::new(),
+            counterweights: Vec::new(),
+            shaft: None,
+            cover: None,
+            ballast: Vec::new(),
+            drives: None,
+        }
+    }
+
+    /// The same description with `body` added.
+    ///
+    /// # Errors
+    /// [`ErrorKind::TooMany`] on `bodies` past [`MAX_BODIES`].
+    pub fn with_body(mut self, body: BodySpec) -> Result<RigSpec, Error> {
+        let n = self.bodies.len();
+        self.bodies
+            .push(body)
+            .map_err(|_| list_full("bodies", n, MAX_BODIES))?;
+        Ok(self)
+    }
+
+    /// The same description with the counterweight `cw` added.
+    ///
+    /// # Errors
+    /// [`ErrorKind::TooMany`] on `counterweights` past
+    /// [`MAX_COUNTERWEIGHTS`].
+    pub fn with_counterweight(mut self, cw: CounterweightSpec) -> Result<RigSpec, Error> {
+        let n = self.counterweights.len();
+        self.counterweights
+            .push(cw)
+            .map_err(|_| list_full("counterweights", n, MAX_COUNTERWEIGHTS))?;
+        Ok(self)
+    }
+
+    /// The same description with the ballast item `ballast` added.
+    ///
+    /// # Errors
+    /// [`ErrorKind::TooMany`] on `ballast` past [`MAX_BALLAST`].
+    pub fn with_ballast(mut self, ballast: BallastSpec) -> Result<RigSpec, Error> {
+        let n = self.ballast.len();
+        self.ballast
+            .push(ballast)
+            .map_err(|_| list_full("ballast", n, MAX_BALLAST))?;
+        Ok(self)
+    }
+
+    /// The same description with tripod legs.
+    #[must_use]
+    pub fn with_legs(mut self, legs: LegsSpec) -> RigSpec {
+        self.legs = Some(legs);
+        self
+    }
+
+    /// The same description with a counterweight shaft.
+    #[must_use]
+    pub fn with_shaft(mut self, shaft: ShaftSpec) -> RigSpec {
+        self.shaft = Some(shaft);
+        self
+    }
+
+    /// The same description with a cover.
+    #[must_use]
+    pub fn with_cover(mut self, cover: CoverSpec) -> RigSpec {
+        self.cover = Some(cover);
+        self
+    }
+
+    /// The same description with drive ratings.
+    #[must_use]
+    pub fn with_drives(mut self, drives: Drives) -> RigSpec {
+        self.drives = Some(drives);
+        self
+    }
+}
+
+/// A list that is full: `field` holds `len` items, at most `max`.
+fn list_full(field: &'static str, len: usize, max: usize) -> Error {
+    let mut e = Error::new(ErrorKind::TooMany, field);
+    e.value = (len + 1) as f32;
+    e.max = max as f32;
+    e
+}
+
 /// What a part is, for reports and for the cover and balance logic.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -925,4 +1250,75 @@ impl Placement<'_> {
 #[must_use]
 pub fn weight_n(mass_kg: f32) -> f32 {
     mass_kg * STANDARD_GRAVITY_MPS2
+}
+
+#[cfg(test)]
+mod builder_tests {
+    use super::*;
+    use crate::math::deg_to_rad;
+
+    /// The builders give the same description as the literal they stand for.
+    #[test]
+    fn builders_match_the_literal() {
+        let support = Support::tripod(0.55, 0.0).unwrap();
+        let mount = MountGeometry::equatorial(deg_to_rad(47.0), [0.0, 0.0, 1.3]);
+        let tube = BodySpec::optical_tube(9.0, 0.24, 0.95, [0.21, 0.08, 0.0])
+            .labelled("tube")
+            .with_cg_m([0.21, 0.04, 0.0]);
+        let literal = BodySpec {
+            label: Label::try_from("tube").unwrap(),
+            stage: Stage::Secondary,
+            mass_kg: 9.0,
+            cg_m: [0.21, 0.04, 0.0],
+            exposure: Some(Exposure {
+                shape: Shape::Cylinder {
+                    diameter_m: 0.24,
+                    length_m: 0.95,
+                    axis: [0.0, 1.0, 0.0],
+                },
+                centre_m: [0.21, 0.08, 0.0],
+                drag_coefficient: None,
+                end_drag_coefficient: None,
+            }),
+            mass_model: MassModel::Shell,
+            under_cover: true,
+        };
+        assert_eq!(tube, literal);
+        let spec = RigSpec::new(&support, mount, 0.3)
+            .with_body(tube)
+            .unwrap()
+            .with_counterweight(CounterweightSpec::disc(4.5, 0.27, 0.12, 0.045))
+            .unwrap()
+            .with_shaft(ShaftSpec::new(1.0, 0.4, 0.03));
+        assert_eq!(spec.feet, support.feet_list());
+        assert_eq!(spec.bodies.len(), 1);
+        assert_eq!(spec.counterweights.len(), 1);
+        assert!(Rig::new(&spec).is_ok());
+    }
+
+    /// A full list is a typed error naming the list and its capacity.
+    #[test]
+    fn a_full_list_is_an_error() {
+        let support = Support::tripod(0.5, 0.0).unwrap();
+        let mount = MountGeometry::alt_azimuth(0.8, [0.0, 0.0, 1.0]);
+        let mut spec = RigSpec::new(&support, mount, 0.3);
+        for _ in 0..MAX_BODIES {
+            spec = spec
+                .with_body(BodySpec::point(Stage::Ground, 1.0, [0.0; 3]))
+                .unwrap();
+        }
+        let e = spec
+            .with_body(BodySpec::point(Stage::Ground, 1.0, [0.0; 3]))
+            .unwrap_err();
+        assert_eq!(e.kind, ErrorKind::TooMany);
+        assert_eq!(e.max, MAX_BODIES as f32);
+    }
+
+    /// A long label is cut at a character boundary, never in the middle of
+    /// one (a two-byte character straddling byte 24).
+    #[test]
+    fn long_labels_are_cut_at_a_character() {
+        let b = BodySpec::point(Stage::Ground, 1.0, [0.0; 3]).labelled("aaaaaaaaaaaaaaaaaaaaaaaé");
+        assert_eq!(b.label.as_str(), "aaaaaaaaaaaaaaaaaaaaaaa");
+    }
 }

@@ -5,7 +5,7 @@
 use crate::unknowns::Unknowns;
 use core::hint::black_box;
 use standfast::air::Air;
-use standfast::bounded::{String, Vec};
+use standfast::bounded::Vec;
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::transition::{transition, Figures, Memory, Readings};
 use standfast::guard::{AirSample, Guard, GuardConfig, Inputs, Stage as Level, WindSample};
@@ -63,24 +63,16 @@ impl Tally {
 pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
     let tripod = Support::tripod(u.foot_circle_radius_m, u.first_leg_azimuth_rad)?;
     let mut bodies = Vec::new();
-    let tube = BodySpec {
-        label: String::try_from("tube").unwrap_or_default(),
-        stage: Stage::Secondary,
-        mass_kg: u.tube_mass_kg,
-        cg_m: u.tube_cg_m,
-        exposure: Some(Exposure {
-            shape: Shape::Cylinder {
-                diameter_m: u.tube_diameter_m,
-                length_m: u.tube_length_m,
-                axis: [0.0, 1.0, 0.0],
-            },
-            centre_m: u.tube_cg_m,
-            drag_coefficient: None,
-            end_drag_coefficient: None,
-        }),
-        under_cover: true,
-        ..BodySpec::default()
-    };
+    let tube = BodySpec::cylinder(
+        Stage::Secondary,
+        u.tube_mass_kg,
+        u.tube_cg_m,
+        u.tube_diameter_m,
+        u.tube_length_m,
+        [0.0, 1.0, 0.0],
+    )
+    .labelled("tube")
+    .with_under_cover(true);
     bodies.push(tube).ok();
     bodies
         .push(BodySpec {
@@ -111,13 +103,12 @@ pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
     }
     let mut counterweights = Vec::new();
     counterweights
-        .push(CounterweightSpec {
-            mass_kg: u.counterweight_kg,
-            distance_m: u.counterweight_distance_m,
-            diameter_m: 0.1,
-            thickness_m: 0.06,
-            drag_coefficient: None,
-        })
+        .push(CounterweightSpec::disc(
+            u.counterweight_kg,
+            u.counterweight_distance_m,
+            0.1,
+            0.06,
+        ))
         .ok();
     let mut ballast = Vec::new();
     ballast

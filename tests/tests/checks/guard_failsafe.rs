@@ -372,28 +372,14 @@ fn new_highs_are_reported_as_they_rise() {
 /// The post rig with a 1.2 m tube (0.25 m across, 5 kg) on the altitude
 /// axis 1 m up, optionally under a 0.5 × 1.5 × 0.5 m cover.
 fn tube_rig(cover: bool) -> Rig {
-    use standfast::rig::{BodySpec, CoverSpec, Stage as MountStage};
-    use standfast::shape::{Exposure, Shape};
+    use standfast::rig::{BodySpec, CoverSpec, MassModel};
     let support = Support::tripod(0.5, 0.0).unwrap();
     let mut spec = post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.1, 0.6, 0.5);
     spec.bodies
-        .push(BodySpec {
-            stage: MountStage::Secondary,
-            mass_kg: 5.0,
-            cg_m: [0.0, 0.0, 0.0],
-            exposure: Some(Exposure {
-                shape: Shape::Cylinder {
-                    diameter_m: 0.25,
-                    length_m: 1.2,
-                    axis: [0.0, 1.0, 0.0],
-                },
-                centre_m: [0.0, 0.0, 0.0],
-                drag_coefficient: None,
-                end_drag_coefficient: None,
-            }),
-            under_cover: true,
-            ..BodySpec::default()
-        })
+        .push(
+            BodySpec::optical_tube(5.0, 0.25, 1.2, [0.0, 0.0, 0.0])
+                .with_mass_model(MassModel::Solid),
+        )
         .unwrap();
     if cover {
         spec.cover = Some(CoverSpec {

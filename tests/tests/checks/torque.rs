@@ -56,34 +56,11 @@ fn point(stage: Stage, mass_kg: f32, cg_m: [f32; 3]) -> BodySpec {
 }
 
 fn tube(mass_kg: f32, cg_m: [f32; 3], model: MassModel) -> BodySpec {
-    BodySpec {
-        stage: Stage::Secondary,
-        mass_kg,
-        cg_m,
-        exposure: Some(Exposure {
-            shape: Shape::Cylinder {
-                diameter_m: 0.2,
-                length_m: 0.8,
-                axis: [0.0, 1.0, 0.0],
-            },
-            centre_m: cg_m,
-            drag_coefficient: None,
-            end_drag_coefficient: None,
-        }),
-        mass_model: model,
-        under_cover: true,
-        ..BodySpec::default()
-    }
+    BodySpec::optical_tube(mass_kg, 0.2, 0.8, cg_m).with_mass_model(model)
 }
 
 fn disc(mass_kg: f32, distance_m: f32) -> CounterweightSpec {
-    CounterweightSpec {
-        mass_kg,
-        distance_m,
-        diameter_m: 0.1,
-        thickness_m: 0.05,
-        drag_coefficient: None,
-    }
+    CounterweightSpec::disc(mass_kg, distance_m, 0.1, 0.05)
 }
 
 fn drives(rated: f32, alpha: f32) -> Drives {
