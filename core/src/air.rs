@@ -5,7 +5,7 @@
 //! temperature and pressure through the ideal-gas law. Dynamic pressure is
 //! q = ½ ρ V².
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math;
 
 /// ISO 2533 sea-level temperature T₀ = 288.15 K.
@@ -58,7 +58,7 @@ impl Air {
     /// Non-finite, or outside [`MIN_DENSITY_KG_M3`] to [`MAX_DENSITY_KG_M3`].
     pub fn from_density(density_kg_m3: f32) -> Result<Air, Error> {
         Error::check(
-            "air.density_kg_m3",
+            Field::AirDensityKgM3,
             density_kg_m3,
             MIN_DENSITY_KG_M3,
             MAX_DENSITY_KG_M3,
@@ -73,7 +73,7 @@ impl Air {
     /// Elevation outside [`MIN_ELEVATION_M`] to [`MAX_ELEVATION_M`].
     pub fn isa_at_elevation(elevation_m: f32) -> Result<Air, Error> {
         Error::check(
-            "site.elevation_m",
+            Field::SiteElevationM,
             elevation_m,
             MIN_ELEVATION_M,
             MAX_ELEVATION_M,
@@ -92,8 +92,8 @@ impl Air {
     /// # Errors
     /// Temperature outside 200 to 330 K, pressure outside 40 to 110 kPa.
     pub fn from_temperature_pressure(temperature_k: f32, pressure_pa: f32) -> Result<Air, Error> {
-        Error::check("air.temperature_k", temperature_k, 200.0, 330.0)?;
-        Error::check("air.pressure_pa", pressure_pa, 40_000.0, 110_000.0)?;
+        Error::check(Field::AirTemperatureK, temperature_k, 200.0, 330.0)?;
+        Error::check(Field::AirPressurePa, pressure_pa, 40_000.0, 110_000.0)?;
         Ok(Air {
             density_kg_m3: pressure_pa / (R_DRY_AIR_J_PER_KG_K * temperature_k),
         })

@@ -84,17 +84,16 @@
 //! // sensor-fault stage (no reading yet) and leaves it after a minute of
 //! // healthy inputs.
 //! let mut guard = Guard::new(&rig, GuardConfig::default(), Millis(0))?;
-//! let mut verdict = None;
-//! for i in 1..=280_u64 {
-//!     let inputs = Inputs {
-//!         accel_raw: Some([0.0, 0.0, 1.0 + 0.001 * (i % 3) as f32]), // with a little noise
-//!         wind: Some(WindSample { speed_mps: 5.0 + 0.1 * (i % 4) as f32, from_rad: Some(deg_to_rad(270.0)) }),
-//!         pose: Some(pose),
-//!         ..Inputs::default()
-//!     };
-//!     verdict = Some(guard.step(Millis(250 * i), &inputs));
+//! let inputs = |i: u64| Inputs {
+//!     accel_raw: Some([0.0, 0.0, 1.0 + 0.001 * (i % 3) as f32]),
+//!     wind: Some(WindSample { speed_mps: 5.0 + 0.1 * (i % 4) as f32, from_rad: Some(deg_to_rad(270.0)) }),
+//!     pose: Some(pose),
+//!     ..Inputs::default()
+//! };
+//! for i in 1..280_u64 {
+//!     guard.step(Millis(250 * i), &inputs(i));
 //! }
-//! let verdict = verdict.ok_or(standfast::Error::new(standfast::ErrorKind::TooFew, "steps"))?;
+//! let verdict = guard.step(Millis(250 * 280), &inputs(280));
 //! assert!(verdict.faults.is_empty());
 //! assert!(!verdict.stage.park_requested());
 //! let u = verdict.overturning_utilisation.unwrap_or(f32::NAN);

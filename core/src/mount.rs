@@ -35,7 +35,7 @@
 //! along the tube), p = cos h·f + sin h·ẑ. Mechanical angles are θ₁ = A,
 //! θ₂ = h.
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math::{self, Vec3, PI};
 
 /// The kind of mount.
@@ -218,10 +218,15 @@ impl MountGeometry {
     /// # Errors
     /// Latitude outside ±90°, axis origin outside ±10 m or below the ground.
     pub fn validate(&self) -> Result<(), Error> {
-        Error::check("mount.latitude_rad", self.latitude_rad, -PI / 2.0, PI / 2.0)?;
+        Error::check(
+            Field::MountLatitudeRad,
+            self.latitude_rad,
+            -PI / 2.0,
+            PI / 2.0,
+        )?;
         let o = Vec3::from_array(self.axis_origin_m);
-        Error::check_vec("mount.axis_origin_m", o, -10.0, 10.0)?;
-        Error::check("mount.axis_origin_m", o.z, 0.05, 10.0)?;
+        Error::check_vec(Field::MountAxisOriginM, o, -10.0, 10.0)?;
+        Error::check(Field::MountAxisOriginM, o.z, 0.05, 10.0)?;
         Ok(())
     }
 
@@ -236,8 +241,8 @@ impl MountGeometry {
                 primary_rad,
                 secondary_rad,
             } => {
-                Error::check("pose.primary_rad", primary_rad, -lim, lim)?;
-                Error::check("pose.secondary_rad", secondary_rad, -lim, lim)?;
+                Error::check(Field::PosePrimaryRad, primary_rad, -lim, lim)?;
+                Error::check(Field::PoseSecondaryRad, secondary_rad, -lim, lim)?;
                 Ok((primary_rad, secondary_rad))
             }
             Pose::Equatorial {
@@ -245,8 +250,13 @@ impl MountGeometry {
                 declination_rad,
                 pier_side,
             } => {
-                Error::check("pose.hour_angle_rad", hour_angle_rad, -lim, lim)?;
-                Error::check("pose.declination_rad", declination_rad, -PI / 2.0, PI / 2.0)?;
+                Error::check(Field::PoseHourAngleRad, hour_angle_rad, -lim, lim)?;
+                Error::check(
+                    Field::PoseDeclinationRad,
+                    declination_rad,
+                    -PI / 2.0,
+                    PI / 2.0,
+                )?;
                 match self.kind {
                     MountKind::Equatorial => {
                         Ok(side_angles(hour_angle_rad, declination_rad, pier_side))
@@ -263,8 +273,8 @@ impl MountGeometry {
                 altitude_rad,
                 pier_side,
             } => {
-                Error::check("pose.azimuth_rad", azimuth_rad, -lim, lim)?;
-                Error::check("pose.altitude_rad", altitude_rad, -PI / 2.0, PI / 2.0)?;
+                Error::check(Field::PoseAzimuthRad, azimuth_rad, -lim, lim)?;
+                Error::check(Field::PoseAltitudeRad, altitude_rad, -PI / 2.0, PI / 2.0)?;
                 match self.kind {
                     MountKind::AltAzimuth => Ok((azimuth_rad, altitude_rad)),
                     MountKind::Equatorial => {

@@ -9,7 +9,7 @@
 
 use crate::air::Air;
 use crate::drive::Drives;
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::frame::{self, Tilt};
 use crate::math::{Vec3, STANDARD_GRAVITY_MPS2};
 use crate::mount::{MountGeometry, Pose, StageFrames};
@@ -468,7 +468,7 @@ impl RigSpec {
         let n = self.bodies.len();
         self.bodies
             .push(body)
-            .map_err(|_| list_full("bodies", n, MAX_BODIES))?;
+            .map_err(|_| list_full(Field::Bodies, n, MAX_BODIES))?;
         Ok(self)
     }
 
@@ -481,7 +481,7 @@ impl RigSpec {
         let n = self.counterweights.len();
         self.counterweights
             .push(cw)
-            .map_err(|_| list_full("counterweights", n, MAX_COUNTERWEIGHTS))?;
+            .map_err(|_| list_full(Field::Counterweights, n, MAX_COUNTERWEIGHTS))?;
         Ok(self)
     }
 
@@ -493,7 +493,7 @@ impl RigSpec {
         let n = self.ballast.len();
         self.ballast
             .push(ballast)
-            .map_err(|_| list_full("ballast", n, MAX_BALLAST))?;
+            .map_err(|_| list_full(Field::Ballast, n, MAX_BALLAST))?;
         Ok(self)
     }
 
@@ -527,7 +527,7 @@ impl RigSpec {
 }
 
 /// A list that is full: `field` holds `len` items, at most `max`.
-fn list_full(field: &'static str, len: usize, max: usize) -> Error {
+fn list_full(field: Field, len: usize, max: usize) -> Error {
     let mut e = Error::new(ErrorKind::TooMany, field);
     e.value = (len + 1) as f32;
     e.max = max as f32;
@@ -633,26 +633,26 @@ impl Conditions {
     /// direction.
     pub fn validate(&self) -> Result<(), Error> {
         Error::check(
-            "conditions.wind_speed_mps",
+            Field::ConditionsWindSpeedMps,
             self.wind_speed_mps,
             0.0,
             MAX_WIND_SPEED_MPS,
         )?;
-        Error::check("conditions.wind_from_rad", self.wind_from_rad, -1e4, 1e4)?;
+        Error::check(Field::ConditionsWindFromRad, self.wind_from_rad, -1e4, 1e4)?;
         Error::check(
-            "conditions.tilt.magnitude_rad",
+            Field::ConditionsTiltMagnitudeRad,
             self.tilt.magnitude_rad,
             0.0,
             frame::MAX_TILT_RAD,
         )?;
         Error::check(
-            "conditions.tilt.downhill_azimuth_rad",
+            Field::ConditionsTiltDownhillAzimuthRad,
             self.tilt.downhill_azimuth_rad,
             -1e4,
             1e4,
         )?;
         Error::check(
-            "conditions.air.density_kg_m3",
+            Field::ConditionsAirDensityKgM3,
             self.air.density_kg_m3(),
             crate::air::MIN_DENSITY_KG_M3,
             crate::air::MAX_DENSITY_KG_M3,
@@ -661,15 +661,15 @@ impl Conditions {
     }
 }
 
-fn check_mass(field: &'static str, m: f32, i: usize) -> Result<f32, Error> {
+fn check_mass(field: Field, m: f32, i: usize) -> Result<f32, Error> {
     Error::check(field, m, 1e-3, MAX_PART_MASS_KG).map_err(|e| e.at(i))
 }
 
-fn check_offset(field: &'static str, v: [f32; 3], i: usize) -> Result<Vec3, Error> {
+fn check_offset(field: Field, v: [f32; 3], i: usize) -> Result<Vec3, Error> {
     Error::check_vec(field, Vec3::from_array(v), -MAX_OFFSET_M, MAX_OFFSET_M).map_err(|e| e.at(i))
 }
 
-fn too_many(field: &'static str) -> Error {
+fn too_many(field: Field) -> Error {
     let mut e = Error::new(ErrorKind::TooMany, field);
     e.max = MAX_PARTS as f32;
     e
@@ -684,18 +684,23 @@ impl Rig {
     pub fn new(spec: &RigSpec) -> Result<Rig, Error> {
         let support = Support::new(&spec.feet)?;
         spec.mount.validate()?;
-        Error::check("friction_coefficient", spec.friction_coefficient, 0.0, 2.0)?;
+        Error::check(
+            Field::FrictionCoefficient,
+            spec.friction_coefficient,
+            0.0,
+            2.0,
+        )?;
         let mut parts: Vec<Part, MAX_PARTS> = Vec::new();
-        let mut push = |p: Part, field: &'static str| parts.push(p).map_err(|_| too_many(field));
+        let mut push = |p: Part, field: Field| parts.push(p).map_err(|_| too_many(field));
 
         for (i, b) in spec.bodies.iter().enumerate() {
             // A body with a shape may be massless: a drag-only surface (a
             // sign, a dew shield, a cable tray) whose mass is counted
             // elsewhere or negligible.
             if !(b.mass_kg == 0.0 && b.exposure.is_some()) {
-                check_mass("bodies.mass_kg", b.mass_kg, i)?;
+                check_mass(Field::BodiesMassKg, b.mass_kg, i)?;
             }
-            let cg = check_offset("bodies.cg_m", b.cg_m, i)?;
+            let cg = check_offset(Field::BodiesCgM, b.cg_m, i)?;
             if let Some(x) = &b.exposure {
                 x.validate().map_err(|e| e.at(i))?;
             }
@@ -709,14 +714,14 @@ impl Rig {
                     mass_model: b.mass_model,
                     under_cover: b.under_cover,
                 },
-                "bodies",
+                Field::Bodies,
             )?;
         }
         if let Some(l) = spec.legs {
-            Error::check("legs.mass_kg", l.mass_kg, 1e-3, 100.0)?;
-            Error::check("legs.diameter_m", l.diameter_m, 0.003, 0.3)?;
-            Error::check("legs.top_height_m", l.top_height_m, 0.1, 5.0)?;
-            Error::check("legs.top_radius_m", l.top_radius_m, 0.0, 1.0)?;
+            Error::check(Field::LegsMassKg, l.mass_kg, 1e-3, 100.0)?;
+            Error::check(Field::LegsDiameterM, l.diameter_m, 0.003, 0.3)?;
+            Error::check(Field::LegsTopHeightM, l.top_height_m, 0.1, 5.0)?;
+            Error::check(Field::LegsTopRadiusM, l.top_radius_m, 0.0, 1.0)?;
             for (i, f) in spec.feet.iter().enumerate() {
                 let foot = Vec3::new(f.position_m[0], f.position_m[1], 0.0);
                 let radial = foot.normalized().unwrap_or(Vec3::X);
@@ -742,20 +747,25 @@ impl Rig {
                         mass_model: MassModel::Solid,
                         under_cover: false,
                     },
-                    "legs",
+                    Field::Legs,
                 )?;
             }
         }
         for (i, c) in spec.counterweights.iter().enumerate() {
-            check_mass("counterweights.mass_kg", c.mass_kg, i)?;
-            Error::check("counterweights.distance_m", c.distance_m, 0.0, MAX_OFFSET_M)
+            check_mass(Field::CounterweightsMassKg, c.mass_kg, i)?;
+            Error::check(
+                Field::CounterweightsDistanceM,
+                c.distance_m,
+                0.0,
+                MAX_OFFSET_M,
+            )
+            .map_err(|e| e.at(i))?;
+            Error::check(Field::CounterweightsDiameterM, c.diameter_m, 0.01, 1.0)
                 .map_err(|e| e.at(i))?;
-            Error::check("counterweights.diameter_m", c.diameter_m, 0.01, 1.0)
-                .map_err(|e| e.at(i))?;
-            Error::check("counterweights.thickness_m", c.thickness_m, 0.002, 1.0)
+            Error::check(Field::CounterweightsThicknessM, c.thickness_m, 0.002, 1.0)
                 .map_err(|e| e.at(i))?;
             if let Some(cd) = c.drag_coefficient {
-                Error::check("counterweights.drag_coefficient", cd, 0.1, 3.0)
+                Error::check(Field::CounterweightsDragCoefficient, cd, 0.1, 3.0)
                     .map_err(|e| e.at(i))?;
             }
             push(
@@ -777,13 +787,13 @@ impl Rig {
                     mass_model: MassModel::Solid,
                     under_cover: false,
                 },
-                "counterweights",
+                Field::Counterweights,
             )?;
         }
         if let Some(s) = spec.shaft {
-            Error::check("shaft.mass_kg", s.mass_kg, 1e-3, 100.0)?;
-            Error::check("shaft.length_m", s.length_m, 0.01, MAX_OFFSET_M)?;
-            Error::check("shaft.diameter_m", s.diameter_m, 0.003, 0.2)?;
+            Error::check(Field::ShaftMassKg, s.mass_kg, 1e-3, 100.0)?;
+            Error::check(Field::ShaftLengthM, s.length_m, 0.01, MAX_OFFSET_M)?;
+            Error::check(Field::ShaftDiameterM, s.diameter_m, 0.003, 0.2)?;
             let c = [-0.5 * s.length_m, 0.0, 0.0];
             push(
                 Part {
@@ -804,12 +814,12 @@ impl Rig {
                     mass_model: MassModel::Solid,
                     under_cover: false,
                 },
-                "shaft",
+                Field::Shaft,
             )?;
         }
         if let Some(c) = spec.cover {
-            Error::check("cover.mass_kg", c.mass_kg, 0.0, MAX_PART_MASS_KG)?;
-            let centre = check_offset("cover.centre_m", c.centre_m, 0)?;
+            Error::check(Field::CoverMassKg, c.mass_kg, 0.0, MAX_PART_MASS_KG)?;
+            let centre = check_offset(Field::CoverCentreM, c.centre_m, 0)?;
             let exposure = Exposure {
                 shape: Shape::Box {
                     size_m: c.size_m,
@@ -830,13 +840,13 @@ impl Rig {
                     mass_model: MassModel::Shell,
                     under_cover: false,
                 },
-                "cover",
+                Field::Cover,
             )?;
         }
         for (i, b) in spec.ballast.iter().enumerate() {
-            check_mass("ballast.mass_kg", b.mass_kg, i)?;
-            let p = check_offset("ballast.position_m", b.position_m, i)?;
-            Error::check("ballast.position_m", p.z, 0.0, MAX_OFFSET_M).map_err(|e| e.at(i))?;
+            check_mass(Field::BallastMassKg, b.mass_kg, i)?;
+            let p = check_offset(Field::BallastPositionM, b.position_m, i)?;
+            Error::check(Field::BallastPositionM, p.z, 0.0, MAX_OFFSET_M).map_err(|e| e.at(i))?;
             push(
                 Part {
                     role: PartRole::Ballast(i as u8),
@@ -847,14 +857,14 @@ impl Rig {
                     mass_model: MassModel::Point,
                     under_cover: false,
                 },
-                "ballast",
+                Field::Ballast,
             )?;
         }
         if let Some(d) = &spec.drives {
             d.validate()?;
         }
         if parts.is_empty() {
-            let mut e = Error::new(ErrorKind::TooFew, "bodies");
+            let mut e = Error::new(ErrorKind::TooFew, Field::Bodies);
             e.min = 1.0;
             return Err(e);
         }
@@ -908,8 +918,8 @@ impl Rig {
     /// # Errors
     /// An invalid mass or position, or no room for another part.
     pub fn with_ballast(&self, mass_kg: f32, position_m: Vec3) -> Result<Rig, Error> {
-        check_mass("ballast.mass_kg", mass_kg, 0)?;
-        let p = check_offset("ballast.position_m", position_m.to_array(), 0)?;
+        check_mass(Field::BallastMassKg, mass_kg, 0)?;
+        let p = check_offset(Field::BallastPositionM, position_m.to_array(), 0)?;
         let mut rig = self.clone();
         let n = rig
             .parts
@@ -926,7 +936,7 @@ impl Rig {
                 mass_model: MassModel::Point,
                 under_cover: false,
             })
-            .map_err(|_| too_many("ballast"))?;
+            .map_err(|_| too_many(Field::Ballast))?;
         Ok(rig)
     }
 
@@ -956,8 +966,13 @@ impl Rig {
         pose: Pose,
         cover_fitted: bool,
     ) -> Result<Rig, Error> {
-        Error::check("measured.mass_kg", mass_kg, 1e-3, MAX_PART_MASS_KG)?;
-        Error::check_vec("measured.centre_m", centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
+        Error::check(Field::MeasuredMassKg, mass_kg, 1e-3, MAX_PART_MASS_KG)?;
+        Error::check_vec(
+            Field::MeasuredCentreM,
+            centre_m,
+            -MAX_OFFSET_M,
+            MAX_OFFSET_M,
+        )?;
         let placement = self.place(pose, Tilt::LEVEL, cover_fitted)?;
         let (mut m_moving, mut s_moving) = (0.0_f32, Vec3::ZERO);
         for p in placement.parts() {
@@ -968,7 +983,7 @@ impl Rig {
         }
         let m_ground = mass_kg - m_moving;
         if m_ground.is_nan() || m_ground < 1e-3 {
-            let mut e = Error::new(ErrorKind::Inconsistent, "measured.mass_kg");
+            let mut e = Error::new(ErrorKind::Inconsistent, Field::MeasuredMassKg);
             e.value = mass_kg;
             e.min = m_moving + 1e-3;
             e.max = MAX_PART_MASS_KG;
@@ -981,7 +996,7 @@ impl Rig {
             || c_ground.z < 0.0
             || c_ground.z > MAX_OFFSET_M;
         if outside {
-            let mut e = Error::new(ErrorKind::Inconsistent, "measured.centre_m");
+            let mut e = Error::new(ErrorKind::Inconsistent, Field::MeasuredCentreM);
             e.value = c_ground.z;
             e.min = 0.0;
             e.max = MAX_OFFSET_M;
@@ -1004,7 +1019,7 @@ impl Rig {
                 mass_model: MassModel::Point,
                 under_cover: false,
             })
-            .map_err(|_| too_many("measured"))?;
+            .map_err(|_| too_many(Field::Measured))?;
         Ok(rig)
     }
 
@@ -1219,10 +1234,10 @@ impl Placement<'_> {
         from_rad: f32,
         q_pa: f32,
     ) -> Result<JointResultant, Error> {
-        Error::check("joint.height_m", plane_z_m, 0.0, MAX_OFFSET_M)?;
-        Error::check_vec("joint.centre_m", centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
-        Error::check("joint.dynamic_pressure_pa", q_pa, 0.0, 1.0e5)?;
-        Error::check("joint.wind_from_rad", from_rad, -1e4, 1e4)?;
+        Error::check(Field::JointHeightM, plane_z_m, 0.0, MAX_OFFSET_M)?;
+        Error::check_vec(Field::JointCentreM, centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
+        Error::check(Field::JointDynamicPressurePa, q_pa, 0.0, 1.0e5)?;
+        Error::check(Field::JointWindFromRad, from_rad, -1e4, 1e4)?;
         let (mut f, mut m, mut mass) = (Vec3::ZERO, Vec3::ZERO, 0.0_f32);
         for p in self.parts() {
             if self.carried(&p.part, plane_z_m) {

@@ -22,7 +22,7 @@
 //! The model is static and quasi-steady: it uses the wind speed given (use a
 //! gust), rigid parts and no dynamic amplification. It is an estimate.
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2, TAU};
 use crate::rig::{Conditions, Placement, Rig, MAX_PARTS};
 use crate::support::{Edge, MAX_FEET};
@@ -529,7 +529,7 @@ impl Rig {
     ) -> Result<Assessment, Error> {
         let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
         let (edges, critical) = self.edge_loads(loads, q);
-        let critical = critical.ok_or(Error::new(ErrorKind::TooFew, "support.feet"))?;
+        let critical = critical.ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))?;
         let r = loads.resultant;
         Ok(Assessment {
             critical,
@@ -617,7 +617,7 @@ impl Rig {
                 best = Some(m);
             }
         }
-        best.ok_or(Error::new(ErrorKind::TooFew, "support.feet"))
+        best.ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))
     }
 
     /// Ballast mass at `position_m` (rig frame) needed to keep every edge's
@@ -636,15 +636,15 @@ impl Rig {
         position_m: Vec3,
     ) -> Result<Requirement, Error> {
         c.validate()?;
-        Error::check("design_speed_mps", design_speed_mps, 0.0, 100.0)?;
-        Error::check("target_utilisation", target, 0.1, 1.0)?;
-        Error::check_vec("ballast.position_m", position_m, -5.0, 5.0)?;
+        Error::check(Field::DesignSpeedMps, design_speed_mps, 0.0, 100.0)?;
+        Error::check(Field::TargetUtilisation, target, 0.1, 1.0)?;
+        Error::check_vec(Field::BallastPositionM, position_m, -5.0, 5.0)?;
         if self
             .support()
             .inset_m(Vec3::new(position_m.x, position_m.y, 0.0))
             <= 0.0
         {
-            let mut e = Error::new(ErrorKind::Unreachable, "ballast.position_m");
+            let mut e = Error::new(ErrorKind::Unreachable, Field::BallastPositionM);
             e.value = position_m.x;
             return Err(e);
         }
@@ -684,8 +684,8 @@ impl Rig {
         target: f32,
     ) -> Result<Requirement, Error> {
         c.validate()?;
-        Error::check("design_speed_mps", design_speed_mps, 0.0, 100.0)?;
-        Error::check("target_utilisation", target, 0.1, 1.0)?;
+        Error::check(Field::DesignSpeedMps, design_speed_mps, 0.0, 100.0)?;
+        Error::check(Field::TargetUtilisation, target, 0.1, 1.0)?;
         let bare = self.with_tie_downs(0.0)?;
         let placement = bare.place(c.pose, c.tilt, c.cover_fitted)?;
         let q = c.air.dynamic_pressure_pa(design_speed_mps);

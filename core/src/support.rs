@@ -5,7 +5,7 @@
 //! carries load but no edge runs through it. Edges are ordered
 //! counter-clockwise seen from above, so the inside lies to the left of each.
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::frame;
 use crate::math::{self, Vec3};
 use heapless::Vec;
@@ -89,7 +89,7 @@ impl Support {
     /// one line.
     pub fn new(feet: &[Foot]) -> Result<Support, Error> {
         if feet.len() < MIN_FEET {
-            let mut e = Error::new(ErrorKind::TooFew, "support.feet");
+            let mut e = Error::new(ErrorKind::TooFew, Field::SupportFeet);
             e.min = MIN_FEET as f32;
             e.value = feet.len() as f32;
             return Err(e);
@@ -98,14 +98,14 @@ impl Support {
         for (i, f) in feet.iter().enumerate() {
             for c in f.position_m {
                 Error::check(
-                    "support.feet.position_m",
+                    Field::SupportFeetPositionM,
                     c,
                     -MAX_FOOT_RADIUS_M,
                     MAX_FOOT_RADIUS_M,
                 )
                 .map_err(|e| e.at(i))?;
             }
-            Error::check("support.feet.tie_down_n", f.tie_down_n, 0.0, 1.0e5)
+            Error::check(Field::SupportFeetTieDownN, f.tie_down_n, 0.0, 1.0e5)
                 .map_err(|e| e.at(i))?;
             for (j, g) in list.iter().enumerate() {
                 let d = math::hypot(
@@ -113,13 +113,13 @@ impl Support {
                     f.position_m[1] - g.position_m[1],
                 );
                 if d < MIN_FOOT_SPACING_M {
-                    let mut e = Error::new(ErrorKind::DuplicateFoot, "support.feet").at(i);
+                    let mut e = Error::new(ErrorKind::DuplicateFoot, Field::SupportFeet).at(i);
                     e.value = j as f32;
                     return Err(e);
                 }
             }
             list.push(*f).map_err(|_| {
-                let mut e = Error::new(ErrorKind::TooMany, "support.feet");
+                let mut e = Error::new(ErrorKind::TooMany, Field::SupportFeet);
                 e.max = MAX_FEET as f32;
                 e.value = feet.len() as f32;
                 e
@@ -147,13 +147,13 @@ impl Support {
     /// ```
     pub fn tripod(foot_circle_radius_m: f32, first_leg_azimuth_rad: f32) -> Result<Support, Error> {
         Error::check(
-            "support.foot_circle_radius_m",
+            Field::SupportFootCircleRadiusM,
             foot_circle_radius_m,
             0.05,
             MAX_FOOT_RADIUS_M,
         )?;
         Error::check(
-            "support.first_leg_azimuth_rad",
+            Field::SupportFirstLegAzimuthRad,
             first_leg_azimuth_rad,
             -1e4,
             1e4,
@@ -180,19 +180,19 @@ impl Support {
         first_azimuth_rad: f32,
     ) -> Result<Support, Error> {
         Error::check(
-            "support.feet",
+            Field::SupportFeet,
             count as f32,
             MIN_FEET as f32,
             MAX_FEET as f32,
         )?;
         Error::check(
-            "support.foot_circle_radius_m",
+            Field::SupportFootCircleRadiusM,
             radius_m,
             0.05,
             MAX_FOOT_RADIUS_M,
         )?;
         Error::check(
-            "support.first_leg_azimuth_rad",
+            Field::SupportFirstLegAzimuthRad,
             first_azimuth_rad,
             -1e4,
             1e4,
@@ -205,7 +205,7 @@ impl Support {
                 position_m: [u.x, u.y],
                 tie_down_n: 0.0,
             })
-            .map_err(|_| Error::new(ErrorKind::TooMany, "support.feet"))?;
+            .map_err(|_| Error::new(ErrorKind::TooMany, Field::SupportFeet))?;
         }
         Support::new(&feet)
     }
@@ -232,7 +232,7 @@ impl Support {
         anchor_circle_radius_m: f32,
         anchor_pull_n: f32,
     ) -> Result<Support, Error> {
-        Error::check("support.feet.tie_down_n", anchor_pull_n, 0.0, 1.0e5)?;
+        Error::check(Field::SupportFeetTieDownN, anchor_pull_n, 0.0, 1.0e5)?;
         let base = Support::on_circle(anchor_count, anchor_circle_radius_m, 0.0)?;
         base.with_tie_downs(anchor_pull_n)
     }
@@ -253,8 +253,8 @@ impl Support {
     /// ```
     pub fn plate(size_m: [f32; 2]) -> Result<Support, Error> {
         let [w, d] = size_m;
-        Error::check("support.plate.size_m", w, 0.05, MAX_FOOT_RADIUS_M)?;
-        Error::check("support.plate.size_m", d, 0.05, MAX_FOOT_RADIUS_M)?;
+        Error::check(Field::SupportPlateSizeM, w, 0.05, MAX_FOOT_RADIUS_M)?;
+        Error::check(Field::SupportPlateSizeM, d, 0.05, MAX_FOOT_RADIUS_M)?;
         let (x, y) = (0.5 * w, 0.5 * d);
         let corner = |px: f32, py: f32| Foot {
             position_m: [px, py],
@@ -268,7 +268,7 @@ impl Support {
     /// # Errors
     /// A pull outside 0 to 100 kN.
     pub fn with_tie_downs(&self, pull_n: f32) -> Result<Support, Error> {
-        Error::check("support.feet.tie_down_n", pull_n, 0.0, 1.0e5)?;
+        Error::check(Field::SupportFeetTieDownN, pull_n, 0.0, 1.0e5)?;
         let mut feet = self.feet.clone();
         for f in &mut feet {
             f.tie_down_n = pull_n;
@@ -288,7 +288,7 @@ impl Support {
         leg_spread_m: f32,
         first_leg_azimuth_rad: f32,
     ) -> Result<Support, Error> {
-        Error::check("support.leg_spread_m", leg_spread_m, 0.08, 17.0)?;
+        Error::check(Field::SupportLegSpreadM, leg_spread_m, 0.08, 17.0)?;
         Support::tripod(leg_spread_m / math::sqrt(3.0), first_leg_azimuth_rad)
     }
 
@@ -360,7 +360,7 @@ fn cross2(o: [f32; 2], a: [f32; 2], b: [f32; 2]) -> f32 {
 
 /// Convex hull (Andrew's monotone chain) as counter-clockwise edges.
 fn hull_edges(feet: &[Foot]) -> Result<Vec<Edge, MAX_FEET>, Error> {
-    let collinear = Error::new(ErrorKind::CollinearFeet, "support.feet");
+    let collinear = Error::new(ErrorKind::CollinearFeet, Field::SupportFeet);
     // Sort indices by (x, y) with an insertion sort: at most eight items.
     let mut idx: Vec<u8, MAX_FEET> = Vec::new();
     for i in 0..feet.len() {

@@ -33,7 +33,7 @@
 //! quasi-steady model; stay inside the mount maker's limits.
 
 use crate::drive::DriveRating;
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2};
 use crate::mount::StageFrames;
 use crate::rig::{Conditions, MassModel, Part, PartRole, Placement, Rig, RigSpec, Stage};
@@ -432,12 +432,12 @@ impl Payload {
             match found {
                 Some(p) if p.stage == Stage::Secondary => {}
                 Some(_) => {
-                    let mut e = Error::new(ErrorKind::OutOfRange, "payload.body").at(i.into());
+                    let mut e = Error::new(ErrorKind::OutOfRange, Field::PayloadBody).at(i.into());
                     e.value = f32::from(i);
                     return Err(e);
                 }
                 None => {
-                    let mut e = Error::new(ErrorKind::OutOfRange, "payload.body").at(i.into());
+                    let mut e = Error::new(ErrorKind::OutOfRange, Field::PayloadBody).at(i.into());
                     e.value = f32::from(i);
                     e.min = 0.0;
                     return Err(e);
@@ -445,7 +445,7 @@ impl Payload {
             }
         }
         if !rig.parts().iter().any(|p| me.contains(p)) {
-            let mut e = Error::new(ErrorKind::TooFew, "payload");
+            let mut e = Error::new(ErrorKind::TooFew, Field::Payload);
             e.min = 1.0;
             return Err(e);
         }
@@ -556,7 +556,7 @@ impl Balance {
             for (i, c) in out.counterweights.iter_mut().enumerate() {
                 c.distance_m += d;
                 if c.distance_m < 0.0 {
-                    let mut e = Error::new(ErrorKind::Unreachable, "counterweights.distance_m");
+                    let mut e = Error::new(ErrorKind::Unreachable, Field::CounterweightsDistanceM);
                     e.value = c.distance_m;
                     return Err(e.at(i));
                 }
@@ -590,7 +590,7 @@ impl Balance {
 }
 
 fn no_drives() -> Error {
-    let mut e = Error::new(ErrorKind::TooFew, "drives");
+    let mut e = Error::new(ErrorKind::TooFew, Field::Drives);
     e.min = 1.0;
     e
 }
@@ -605,7 +605,7 @@ impl Rig {
     /// Invalid conditions, or a mean speed outside 0 to the gust speed.
     pub fn axis_loads(&self, c: &Conditions, mean_wind_mps: f32) -> Result<AxisLoads, Error> {
         c.validate()?;
-        Error::check("mean_wind_mps", mean_wind_mps, 0.0, c.wind_speed_mps)?;
+        Error::check(Field::MeanWindMps, mean_wind_mps, 0.0, c.wind_speed_mps)?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let t = pose_terms(&placement, c.wind_from_rad);
         let q_mean = c.air.dynamic_pressure_pa(mean_wind_mps);
@@ -633,7 +633,7 @@ impl Rig {
         cover_fitted: bool,
         from_rad: f32,
     ) -> Result<PoseTerms, Error> {
-        Error::check("wind_from_rad", from_rad, -1e4, 1e4)?;
+        Error::check(Field::WindFromRad, from_rad, -1e4, 1e4)?;
         let placement = self.place(pose, tilt, cover_fitted)?;
         Ok(pose_terms(&placement, from_rad))
     }

@@ -108,7 +108,7 @@ impl SfError {
         SfError {
             has_index: u8::from(e.index.is_some()),
             index: e.index.unwrap_or(0),
-            ..SfError::range(error_code(e.kind), e.field, e.value, e.min, e.max)
+            ..SfError::range(error_code(e.kind), e.field.path(), e.value, e.min, e.max)
         }
     }
 

@@ -439,7 +439,7 @@ fn out_of_range_rig_values_give_the_core_error() {
     assert!(g.is_null());
     assert_eq!(e, SfError::from_core(&want));
     assert_eq!(st, SF_ERR_OUT_OF_RANGE);
-    assert_eq!(e.field_str(), want.field);
+    assert_eq!(e.field_str(), want.field.path());
     assert_eq!((e.value, e.min, e.max), (want.value, want.min, want.max));
     // A body mass that is not a number, in a list: the index comes through.
     let mut img = decoded();
@@ -447,7 +447,7 @@ fn out_of_range_rig_values_give_the_core_error() {
     let want = Rig::new(&img.spec).unwrap_err();
     let (st, e, _) = init(&s, &encoded(&img));
     assert_eq!(st, SF_ERR_NOT_FINITE);
-    assert_eq!(e.field_str(), want.field);
+    assert_eq!(e.field_str(), want.field.path());
     assert_eq!(e.has_index, 1);
     assert_eq!(Some(e.index), want.index);
     // A guard setting the core refuses.
@@ -455,13 +455,19 @@ fn out_of_range_rig_values_give_the_core_error() {
     img.guard.dwell_s = -1.0;
     let want = img.guard.validate().unwrap_err();
     let (st, e, _) = init(&s, &encoded(&img));
-    assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
+    assert_eq!(
+        (st, e.field_str()),
+        (SF_ERR_OUT_OF_RANGE, want.field.path())
+    );
     // Air denser than any on Earth.
     let mut img = decoded();
     img.air_density_kg_m3 = 50.0;
     let want = standfast::air::Air::from_density(50.0).unwrap_err();
     let (st, e, _) = init(&s, &encoded(&img));
-    assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
+    assert_eq!(
+        (st, e.field_str()),
+        (SF_ERR_OUT_OF_RANGE, want.field.path())
+    );
     // A failed init leaves no guard behind in storage that held one.
     let (st, _, g) = init(&s, IMAGE);
     assert_eq!(st, SF_OK);
@@ -801,7 +807,10 @@ fn assessment_checks_its_request() {
         tilt_magnitude_rad: 2.0,
         ..request()
     });
-    assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
+    assert_eq!(
+        (st, e.field_str()),
+        (SF_ERR_OUT_OF_RANGE, want.field.path())
+    );
 }
 
 #[test]

@@ -3,7 +3,7 @@
 
 use super::transition::Thresholds;
 use super::MAX_PARK_POSES;
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::mount::Pose;
 use crate::rig::MAX_WIND_SPEED_MPS;
 use crate::sense::{TiltConfig, WindConfig};
@@ -140,50 +140,55 @@ impl GuardConfig {
             // A mean arrives every ten minutes: a shorter stale time would
             // fault between two reports.
             Error::check(
-                "guard.wind.stale_after_s",
+                Field::GuardWindStaleAfterS,
                 self.wind.stale_after_s,
                 600.0,
                 86_400.0,
             )?;
         }
-        Error::check("guard.watch_utilisation", self.watch_utilisation, 0.05, 1.0)?;
         Error::check(
-            "guard.park_utilisation",
+            Field::GuardWatchUtilisation,
+            self.watch_utilisation,
+            0.05,
+            1.0,
+        )?;
+        Error::check(
+            Field::GuardParkUtilisation,
             self.park_utilisation,
             self.watch_utilisation,
             1.0,
         )?;
         Error::check(
-            "guard.alarm_utilisation",
+            Field::GuardAlarmUtilisation,
             self.alarm_utilisation,
             self.watch_utilisation,
             1.0,
         )?;
         Error::check(
-            "guard.drive_park_utilisation",
+            Field::GuardDriveParkUtilisation,
             self.drive_park_utilisation,
             0.1,
             5.0,
         )?;
-        Error::check("guard.clear_ratio", self.clear_ratio, 0.1, 1.0)?;
-        Error::check("guard.dwell_s", self.dwell_s, 0.0, 86_400.0)?;
-        Error::check("guard.time_to_park_s", self.time_to_park_s, 0.0, 3_600.0)?;
-        Error::check("guard.gust_allowance", self.gust_allowance, 1.0, 2.0)?;
+        Error::check(Field::GuardClearRatio, self.clear_ratio, 0.1, 1.0)?;
+        Error::check(Field::GuardDwellS, self.dwell_s, 0.0, 86_400.0)?;
+        Error::check(Field::GuardTimeToParkS, self.time_to_park_s, 0.0, 3_600.0)?;
+        Error::check(Field::GuardGustAllowance, self.gust_allowance, 1.0, 2.0)?;
         Error::check(
-            "guard.tilt_margin_alarm_rad",
+            Field::GuardTiltMarginAlarmRad,
             self.tilt_margin_alarm_rad,
             0.0,
             0.5,
         )?;
         Error::check(
-            "guard.drift_watch_rad_per_s",
+            Field::GuardDriftWatchRadPerS,
             self.drift_watch_rad_per_s,
             0.0,
             1.0,
         )?;
-        Error::check("guard.fault_clear_s", self.fault_clear_s, 0.0, 86_400.0)?;
+        Error::check(Field::GuardFaultClearS, self.fault_clear_s, 0.0, 86_400.0)?;
         check_ms(
-            "guard.evaluate_every_ms",
+            Field::GuardEvaluateEveryMs,
             self.evaluate_every_ms,
             MAX_EVALUATE_EVERY_MS,
         )?;
@@ -221,7 +226,7 @@ impl GuardConfig {
         let limit = self.wind.max_speed_mps * MAX_WIND_SPEED_MPS / max_gust;
         Err(Error {
             kind: ErrorKind::OutOfRange,
-            field: "guard.wind.max_speed_mps",
+            field: Field::GuardWindMaxSpeedMps,
             index: None,
             value: self.wind.max_speed_mps,
             min: 1.0,
@@ -263,7 +268,7 @@ fn s_to_ms(s: f32) -> u64 {
 }
 
 /// Checks a duration in whole milliseconds against `0..=max_ms`.
-fn check_ms(field: &'static str, value_ms: u64, max_ms: u64) -> Result<u64, Error> {
+fn check_ms(field: Field, value_ms: u64, max_ms: u64) -> Result<u64, Error> {
     if value_ms <= max_ms {
         return Ok(value_ms);
     }

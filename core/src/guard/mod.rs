@@ -855,9 +855,10 @@ mod tests {
     /// value out of range is out of range and carries the value.
     #[test]
     fn rejected_samples_name_their_kind() {
-        let nan = Error::check("x", f32::NAN, 0.0, 1.0).unwrap_err();
-        let inf = Error::check("x", f32::INFINITY, 0.0, 1.0).unwrap_err();
-        let out = Error::check("x", 2.0, 0.0, 1.0).unwrap_err();
+        let nan = Error::check(crate::error::Field::AirPressurePa, f32::NAN, 0.0, 1.0).unwrap_err();
+        let inf =
+            Error::check(crate::error::Field::AirPressurePa, f32::INFINITY, 0.0, 1.0).unwrap_err();
+        let out = Error::check(crate::error::Field::AirPressurePa, 2.0, 0.0, 1.0).unwrap_err();
         let s = Sensor::Air;
         assert_eq!(input_fault(s, &nan), Fault::NotFinite { sensor: s });
         assert_eq!(input_fault(s, &inf), Fault::NotFinite { sensor: s });

@@ -896,7 +896,7 @@ fn measured_cg_uncertainty(
 /// What is wrong when the core refuses a weighed centre, in the rig
 /// file's words.
 fn measured_problem(e: &standfast::Error, mass_kg: f32, cover_fitted: bool, lim: f64) -> String {
-    match (e.kind, e.field) {
+    match (e.kind, e.field.path()) {
         (standfast::ErrorKind::Inconsistent, "measured.mass_kg") => format!(
             "the weighed {} kg is not more than the {} kg of the parts that move with the \
              mount (counterweights, shaft, bodies on the primary and secondary stages{}): \
@@ -1997,29 +1997,15 @@ fn sensor_config(
     Ok(())
 }
 
-/// The unit a core field name carries, and the factor from its SI value to
-/// the unit shown (degrees for angles, as in the file).
-fn shown_unit(field: &str) -> (&'static str, f64) {
-    if field.ends_with("_rad_s2") {
-        ("rad/s²", 1.0)
-    } else if field.ends_with("_rad_per_s") {
-        ("deg/s", 180.0 / std::f64::consts::PI)
-    } else if field.ends_with("_rad") {
-        ("deg", 180.0 / std::f64::consts::PI)
-    } else if field.ends_with("_mps") {
-        ("m/s", 1.0)
-    } else if field.ends_with("_kg") {
-        ("kg", 1.0)
-    } else if field.ends_with("_nm") || field.starts_with("drives.") {
-        ("N m", 1.0)
-    } else if field.ends_with("_n") {
-        ("N", 1.0)
-    } else if field.ends_with("_s") {
-        ("s", 1.0)
-    } else if field.ends_with("_m") || field.ends_with("position_m") {
-        ("m", 1.0)
-    } else {
-        ("", 1.0)
+/// How the file shows a value of the core's unit `unit`: the unit's symbol
+/// and the factor from the core's SI value (degrees for angles, as rig files
+/// write them).
+fn shown_unit(unit: standfast::error::Unit) -> (&'static str, f64) {
+    use standfast::error::Unit;
+    match unit {
+        Unit::Radian => ("deg", 180.0 / std::f64::consts::PI),
+        Unit::RadianPerSecond => ("deg/s", 180.0 / std::f64::consts::PI),
+        other => (other.symbol(), 1.0),
     }
 }
 
@@ -2028,7 +2014,7 @@ fn shown_unit(field: &str) -> (&'static str, f64) {
 /// (degrees for angles), without the core's internal field names.
 #[must_use]
 pub fn core_problem(e: &standfast::Error) -> String {
-    let (unit, k) = shown_unit(e.field);
+    let (unit, k) = shown_unit(e.unit());
     // Rounded to 4 decimals: the core's f32 limits carry float noise; a
     // small non-zero limit is written in exponent form, never as 0.
     let num = |x: f32| {
@@ -2105,17 +2091,20 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
     let by_value = sp
         .by_value
         .iter()
-        .find(|(field, v, _, _)| *field == e.field && v.to_bits() == e.value.to_bits())
+        .find(|(field, v, _, _)| *field == e.field.path() && v.to_bits() == e.value.to_bits())
         .map(|(_, _, key, span)| (key.clone(), span.clone()));
     let found = by_value.as_ref().or_else(|| {
         sp.map
-            .get(&(e.field, e.index))
-            .or_else(|| sp.map.get(&(e.field, None)))
+            .get(&(e.field.path(), e.index))
+            .or_else(|| sp.map.get(&(e.field.path(), None)))
     });
     let problem = core_problem(e);
     match found {
         Some((key, span)) => src.checker().error(key, span.clone(), problem),
-        None => match UNWRITTEN_KEYS.iter().find(|(field, _)| *field == e.field) {
+        None => match UNWRITTEN_KEYS
+            .iter()
+            .find(|(field, _)| *field == e.field.path())
+        {
             // A default the file did not override: name the key that would.
             Some((_, key)) => {
                 let section = key.split('.').next().unwrap_or("");

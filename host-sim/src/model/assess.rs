@@ -537,7 +537,10 @@ fn joint_row(
     let Some((max_n, case)) = worst else {
         return Err(standfast::Error::new(
             standfast::ErrorKind::TooFew,
-            "joint.load_cases",
+            standfast::error::Field::External {
+                path: "joint.load_cases",
+                unit: standfast::error::Unit::Count,
+            },
         ));
     };
     let cap = strip_capacity(&j.screws)?;

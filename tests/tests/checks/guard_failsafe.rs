@@ -89,7 +89,7 @@ fn a_wind_beyond_the_model_is_never_clear() {
     cfg.wind.anemometer_height_m = 2.0;
     cfg.wind.rig_height_m = 2.0;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!(e.field, "guard.wind.max_speed_mps");
+    assert_eq!(e.field, standfast::error::Field::GuardWindMaxSpeedMps);
     assert_eq!((e.value, e.max), (150.0, MAX_WIND_SPEED_MPS));
 
     cfg.wind.max_speed_mps = MAX_WIND_SPEED_MPS;
@@ -280,7 +280,10 @@ fn the_evaluation_period_is_validated() {
     let mut cfg = config();
     cfg.evaluate_every_ms = 60_001;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!((e.field, e.max), ("guard.evaluate_every_ms", 60_000.0));
+    assert_eq!(
+        (e.field, e.max),
+        (standfast::error::Field::GuardEvaluateEveryMs, 60_000.0)
+    );
     cfg.evaluate_every_ms = 60_000;
     assert!(Guard::new(&rig, cfg, Millis(0)).is_ok());
 }

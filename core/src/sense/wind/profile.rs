@@ -2,7 +2,7 @@
 //! categories, the logarithmic correction from the anemometer's height to
 //! the rig's, and the gust of a mean speed.
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math;
 
 /// Terrain category of EN 1991-1-4 Table 4.1, which fixes the roughness
@@ -85,8 +85,8 @@ pub fn log_profile_factor(
     z_to_m: f32,
     terrain: TerrainCategory,
 ) -> Result<f32, Error> {
-    Error::check("wind.z_from_m", z_from_m, 0.01, 200.0)?;
-    Error::check("wind.z_to_m", z_to_m, 0.01, 200.0)?;
+    Error::check(Field::WindZFromM, z_from_m, 0.01, 200.0)?;
+    Error::check(Field::WindZToM, z_to_m, 0.01, 200.0)?;
     let z0 = terrain.roughness_length_m();
     let zmin = terrain.min_height_m();
     let from = math::ln(z_from_m.max(zmin) / z0);
