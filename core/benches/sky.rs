@@ -39,7 +39,7 @@ fn rig() -> Rig {
     .with_drives(Drives {
         primary: rating,
         secondary: rating,
-        slew_acceleration_rad_s2: 0.3,
+        slew_acceleration_rad_per_s2: 0.3,
     })
     .with_body(
         BodySpec::optical_tube(9.0, 0.24, 0.95, [0.21, 0.08, 0.0]).with_cg_m([0.21, 0.04, 0.0]),

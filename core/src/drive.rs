@@ -47,7 +47,7 @@ pub struct Drives {
     pub secondary: DriveRating,
     /// Angular acceleration of a slew start or stop on either axis, rad/s².
     #[cfg_attr(feature = "serde", serde(default))]
-    pub slew_acceleration_rad_s2: f32,
+    pub slew_acceleration_rad_per_s2: f32,
 }
 
 impl Drives {
@@ -59,8 +59,8 @@ impl Drives {
         self.primary.validate(Field::DrivesPrimary)?;
         self.secondary.validate(Field::DrivesSecondary)?;
         Error::check(
-            Field::DrivesSlewAccelerationRadS2,
-            self.slew_acceleration_rad_s2,
+            Field::DrivesSlewAccelerationRadPerS2,
+            self.slew_acceleration_rad_per_s2,
             0.0,
             10.0,
         )?;

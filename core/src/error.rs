@@ -37,8 +37,8 @@ pub enum ErrorKind {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[non_exhaustive]
 pub enum Field {
-    /// `air.density_kg_m3`.
-    AirDensityKgM3,
+    /// `air.density_kg_per_m3`.
+    AirDensityKgPerM3,
     /// `air.pressure_pa`.
     AirPressurePa,
     /// `air.temperature_k`.
@@ -71,8 +71,8 @@ pub enum Field {
     BoltPatternRadiusMm,
     /// `bolt_pattern.screws_mm`.
     BoltPatternScrewsMm,
-    /// `conditions.air.density_kg_m3`.
-    ConditionsAirDensityKgM3,
+    /// `conditions.air.density_kg_per_m3`.
+    ConditionsAirDensityKgPerM3,
     /// `conditions.tilt.downhill_azimuth_rad`.
     ConditionsTiltDownhillAzimuthRad,
     /// `conditions.tilt.magnitude_rad`.
@@ -107,8 +107,8 @@ pub enum Field {
     DrivesPrimary,
     /// `drives.secondary`.
     DrivesSecondary,
-    /// `drives.slew_acceleration_rad_s2`.
-    DrivesSlewAccelerationRadS2,
+    /// `drives.slew_acceleration_rad_per_s2`.
+    DrivesSlewAccelerationRadPerS2,
     /// `exposure.axis`.
     ExposureAxis,
     /// `exposure.centre_m`.
@@ -405,7 +405,7 @@ pub enum Field {
 impl Field {
     /// Every field of the crate's own inputs, in the order of their paths.
     pub const ALL: [Field; 177] = [
-        Field::AirDensityKgM3,
+        Field::AirDensityKgPerM3,
         Field::AirPressurePa,
         Field::AirTemperatureK,
         Field::Ballast,
@@ -422,7 +422,7 @@ impl Field {
         Field::BoltPatternPivotOffsetMm,
         Field::BoltPatternRadiusMm,
         Field::BoltPatternScrewsMm,
-        Field::ConditionsAirDensityKgM3,
+        Field::ConditionsAirDensityKgPerM3,
         Field::ConditionsTiltDownhillAzimuthRad,
         Field::ConditionsTiltMagnitudeRad,
         Field::ConditionsWindFromRad,
@@ -440,7 +440,7 @@ impl Field {
         Field::Drives,
         Field::DrivesPrimary,
         Field::DrivesSecondary,
-        Field::DrivesSlewAccelerationRadS2,
+        Field::DrivesSlewAccelerationRadPerS2,
         Field::ExposureAxis,
         Field::ExposureCentreM,
         Field::ExposureDiameterM,
@@ -590,7 +590,7 @@ impl Field {
     #[must_use]
     pub const fn path(self) -> &'static str {
         match self {
-            Field::AirDensityKgM3 => "air.density_kg_m3",
+            Field::AirDensityKgPerM3 => "air.density_kg_per_m3",
             Field::AirPressurePa => "air.pressure_pa",
             Field::AirTemperatureK => "air.temperature_k",
             Field::Ballast => "ballast",
@@ -607,7 +607,7 @@ impl Field {
             Field::BoltPatternPivotOffsetMm => "bolt_pattern.pivot.offset_mm",
             Field::BoltPatternRadiusMm => "bolt_pattern.radius_mm",
             Field::BoltPatternScrewsMm => "bolt_pattern.screws_mm",
-            Field::ConditionsAirDensityKgM3 => "conditions.air.density_kg_m3",
+            Field::ConditionsAirDensityKgPerM3 => "conditions.air.density_kg_per_m3",
             Field::ConditionsTiltDownhillAzimuthRad => "conditions.tilt.downhill_azimuth_rad",
             Field::ConditionsTiltMagnitudeRad => "conditions.tilt.magnitude_rad",
             Field::ConditionsWindFromRad => "conditions.wind_from_rad",
@@ -625,7 +625,7 @@ impl Field {
             Field::Drives => "drives",
             Field::DrivesPrimary => "drives.primary",
             Field::DrivesSecondary => "drives.secondary",
-            Field::DrivesSlewAccelerationRadS2 => "drives.slew_acceleration_rad_s2",
+            Field::DrivesSlewAccelerationRadPerS2 => "drives.slew_acceleration_rad_per_s2",
             Field::ExposureAxis => "exposure.axis",
             Field::ExposureCentreM => "exposure.centre_m",
             Field::ExposureDiameterM => "exposure.diameter_m",
@@ -776,7 +776,7 @@ impl Field {
     #[must_use]
     pub const fn unit(self) -> Unit {
         match self {
-            Field::AirDensityKgM3 => Unit::KilogramPerCubicMetre,
+            Field::AirDensityKgPerM3 => Unit::KilogramPerCubicMetre,
             Field::AirPressurePa => Unit::Pascal,
             Field::AirTemperatureK => Unit::Kelvin,
             Field::Ballast => Unit::Count,
@@ -793,7 +793,7 @@ impl Field {
             Field::BoltPatternPivotOffsetMm => Unit::Millimetre,
             Field::BoltPatternRadiusMm => Unit::Millimetre,
             Field::BoltPatternScrewsMm => Unit::Millimetre,
-            Field::ConditionsAirDensityKgM3 => Unit::KilogramPerCubicMetre,
+            Field::ConditionsAirDensityKgPerM3 => Unit::KilogramPerCubicMetre,
             Field::ConditionsTiltDownhillAzimuthRad => Unit::Radian,
             Field::ConditionsTiltMagnitudeRad => Unit::Radian,
             Field::ConditionsWindFromRad => Unit::Radian,
@@ -811,7 +811,7 @@ impl Field {
             Field::Drives => Unit::Count,
             Field::DrivesPrimary => Unit::NewtonMetre,
             Field::DrivesSecondary => Unit::NewtonMetre,
-            Field::DrivesSlewAccelerationRadS2 => Unit::RadianPerSecondSquared,
+            Field::DrivesSlewAccelerationRadPerS2 => Unit::RadianPerSecondSquared,
             Field::ExposureAxis => Unit::Dimensionless,
             Field::ExposureCentreM => Unit::Metre,
             Field::ExposureDiameterM => Unit::Metre,
@@ -1242,6 +1242,7 @@ mod tests {
             let p = a.path();
             let want = [
                 ("_rad_per_s2", Unit::RadianPerSecondSquared),
+                ("_kg_per_m3", Unit::KilogramPerCubicMetre),
                 ("_rad_per_s", Unit::RadianPerSecond),
                 ("_rad", Unit::Radian),
                 ("_mps", Unit::MetrePerSecond),

@@ -652,10 +652,10 @@ impl Conditions {
             1e4,
         )?;
         Error::check(
-            Field::ConditionsAirDensityKgM3,
-            self.air.density_kg_m3(),
-            crate::air::MIN_DENSITY_KG_M3,
-            crate::air::MAX_DENSITY_KG_M3,
+            Field::ConditionsAirDensityKgPerM3,
+            self.air.density_kg_per_m3(),
+            crate::air::MIN_DENSITY_KG_PER_M3,
+            crate::air::MAX_DENSITY_KG_PER_M3,
         )?;
         Ok(())
     }

@@ -590,7 +590,7 @@ impl Rig {
                 .map_err(|e| e.at(i))?;
             let _ = state.push((*o, Interval::FULL, Interval::FULL));
         }
-        let alpha = drives.slew_acceleration_rad_s2;
+        let alpha = drives.slew_acceleration_rad_per_s2;
         let ratings = [drives.primary, drives.secondary];
         let g = STANDARD_GRAVITY_MPS2;
         let mut any = false;

@@ -449,13 +449,25 @@ pub struct TiltMargin {
     pub edge: u8,
 }
 
-/// Ballast or tie-down needed to meet a target utilisation.
+/// Ballast needed to meet a target utilisation ([`Rig::ballast_needed`]).
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize))]
-pub struct Requirement {
-    /// Ballast mass, kg, or tie-down pull per foot, N (0: none needed).
-    pub amount: f32,
+pub struct BallastNeed {
+    /// Ballast mass, kg (0: none needed).
+    pub mass_kg: f32,
+    /// Wind direction that governs, radians from north clockwise.
+    pub worst_from_rad: f32,
+}
+
+/// Tie-down pull needed to meet a target utilisation
+/// ([`Rig::tie_down_needed`]).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct TieDownNeed {
+    /// Rated pull of the tie-down on every foot, N (0: none needed).
+    pub pull_per_foot_n: f32,
     /// Wind direction that governs, radians from north clockwise.
     pub worst_from_rad: f32,
 }
@@ -634,7 +646,7 @@ impl Rig {
         design_speed_mps: f32,
         target: f32,
         position_m: Vec3,
-    ) -> Result<Requirement, Error> {
+    ) -> Result<BallastNeed, Error> {
         c.validate()?;
         Error::check(Field::DesignSpeedMps, design_speed_mps, 0.0, 100.0)?;
         Error::check(Field::TargetUtilisation, target, 0.1, 1.0)?;
@@ -664,8 +676,8 @@ impl Rig {
             }
             need
         });
-        Ok(Requirement {
-            amount: mass,
+        Ok(BallastNeed {
+            mass_kg: mass,
             worst_from_rad: from,
         })
     }
@@ -682,7 +694,7 @@ impl Rig {
         c: &Conditions,
         design_speed_mps: f32,
         target: f32,
-    ) -> Result<Requirement, Error> {
+    ) -> Result<TieDownNeed, Error> {
         c.validate()?;
         Error::check(Field::DesignSpeedMps, design_speed_mps, 0.0, 100.0)?;
         Error::check(Field::TargetUtilisation, target, 0.1, 1.0)?;
@@ -706,8 +718,8 @@ impl Rig {
             }
             need
         });
-        Ok(Requirement {
-            amount: pull,
+        Ok(TieDownNeed {
+            pull_per_foot_n: pull,
             worst_from_rad: from,
         })
     }

@@ -611,7 +611,7 @@ impl Rig {
         let q_mean = c.air.dynamic_pressure_pa(mean_wind_mps);
         let q_gust = c.air.dynamic_pressure_pa(c.wind_speed_mps);
         let drives = self.drives();
-        let alpha = drives.map_or(0.0, |d| d.slew_acceleration_rad_s2);
+        let alpha = drives.map_or(0.0, |d| d.slew_acceleration_rad_per_s2);
         let [tp, ts] = t;
         Ok(AxisLoads {
             primary: axis_torque(&tp, q_mean, q_gust, alpha, drives.map(|d| &d.primary)),

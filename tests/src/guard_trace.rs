@@ -45,7 +45,7 @@ pub fn rig() -> Rig {
     spec.drives = Some(Drives {
         primary: r,
         secondary: r,
-        slew_acceleration_rad_s2: 0.0,
+        slew_acceleration_rad_per_s2: 0.0,
     });
     Rig::new(&spec).unwrap()
 }

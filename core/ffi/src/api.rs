@@ -337,7 +337,7 @@ pub(crate) fn inputs_of(i: &SfInputs) -> Result<Inputs, SfError> {
         None
     };
     let air = flag(i.has_air, "inputs.has_air")?.then_some(AirSample {
-        temperature_c: i.air_temperature_c,
+        temperature_k: standfast::air::celsius_to_kelvin(i.air_temperature_c),
         pressure_pa: i.air_pressure_pa,
     });
     Ok(Inputs {
@@ -886,7 +886,7 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
     let w = rig.worst_wind(&c)?;
     out.lowest_tip_wind_mps = maybe(w.tip_wind_mps);
     out.lowest_from_rad = w.from_rad;
-    out.ballast_kg = b.amount;
+    out.ballast_kg = b.mass_kg;
     out.ballast_worst_from_rad = b.worst_from_rad;
     Ok(out)
 }

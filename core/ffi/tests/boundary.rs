@@ -658,7 +658,7 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
             }),
             cover_fitted: (i.has_cover == 1).then_some(i.cover_fitted == 1),
             air: (i.has_air == 1).then_some(standfast::guard::AirSample {
-                temperature_c: i.air_temperature_c,
+                temperature_k: standfast::air::celsius_to_kelvin(i.air_temperature_c),
                 pressure_pa: i.air_pressure_pa,
             }),
         };
@@ -729,7 +729,7 @@ fn assessment_matches_the_rust_api() {
         .unwrap();
     assert_eq!(
         (a.ballast_kg, a.ballast_worst_from_rad),
-        (b.amount, b.worst_from_rad)
+        (b.mass_kg, b.worst_from_rad)
     );
 }
 

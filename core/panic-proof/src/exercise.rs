@@ -160,7 +160,7 @@ pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
         drives: Some(Drives {
             primary: rating,
             secondary: rating,
-            slew_acceleration_rad_s2: u.slew_acceleration_rad_s2,
+            slew_acceleration_rad_per_s2: u.slew_acceleration_rad_per_s2,
         }),
     })
 }
@@ -373,7 +373,7 @@ fn guard_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
             pose: (k % 5 == 0).then(|| pose(u)),
             cover_fitted: (k % 50 == 0).then_some(k % 100 == 0),
             air: (k % 20 == 0).then_some(AirSample {
-                temperature_c: u.temperature_c,
+                temperature_k: standfast::air::celsius_to_kelvin(u.temperature_c),
                 pressure_pa: u.pressure_pa,
             }),
         };

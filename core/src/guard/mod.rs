@@ -66,7 +66,7 @@ pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_MS};
 pub use gusts::GUST_HISTORY_MIN;
 pub use transition::{Cause, Stage};
 
-use crate::air::{celsius_to_kelvin, Air};
+use crate::air::Air;
 use crate::error::{Error, ErrorKind};
 use crate::frame::Tilt;
 use crate::math::Vec3;
@@ -132,8 +132,9 @@ pub struct WindSample {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct AirSample {
-    /// Air temperature, °C.
-    pub temperature_c: f32,
+    /// Air temperature, K (kelvin; [`crate::air::celsius_to_kelvin`] converts
+    /// a reading in °C).
+    pub temperature_k: f32,
     /// Station pressure, Pa.
     pub pressure_pa: f32,
 }
@@ -514,8 +515,7 @@ impl<'r> Guard<'r> {
             }
         }
         if let Some(a) = inputs.air {
-            match Air::from_temperature_pressure(celsius_to_kelvin(a.temperature_c), a.pressure_pa)
-            {
+            match Air::from_temperature_pressure(a.temperature_k, a.pressure_pa) {
                 Ok(air) => self.air = air,
                 Err(e) => rejected.push(input_fault(Sensor::Air, &e)),
             }

@@ -1577,7 +1577,7 @@ fn drives_section(drives: Option<&S<DrivesSec>>, sp: &mut Spans) -> Option<Drive
         );
         if let Some(a) = &g.slew_acceleration {
             sp.put(
-                "drives.slew_acceleration_rad_s2",
+                "drives.slew_acceleration_rad_per_s2",
                 None,
                 "drives.slew_acceleration".into(),
                 a.span(),
@@ -1609,7 +1609,7 @@ fn drives_section(drives: Option<&S<DrivesSec>>, sp: &mut Spans) -> Option<Drive
         Drives {
             primary: r(&g.primary),
             secondary: r(&g.secondary),
-            slew_acceleration_rad_s2: g
+            slew_acceleration_rad_per_s2: g
                 .slew_acceleration
                 .as_ref()
                 .map_or(0.0, |a| f(*a.get_ref())),

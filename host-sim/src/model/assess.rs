@@ -743,14 +743,14 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         )
         .ok()
         .map(|q| Need {
-            amount: q.amount,
+            amount: q.mass_kg,
             worst_from_deg: deg(q.worst_from_rad),
         });
     let tie_down_needed = rig
         .tie_down_needed(&c, o.design_gust_mps, o.target_utilisation)
         .ok()
         .map(|q| Need {
-            amount: q.amount,
+            amount: q.pull_per_foot_n,
             worst_from_deg: deg(q.worst_from_rad),
         });
     let orientation = orientation(&r.spec, &c, o.storm_from_deg, r.measured.as_ref()).map_err(e)?;
@@ -788,7 +788,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         file: r.file.clone(),
         mass_kg: placement.mass_kg(),
         centre_of_gravity_m: cg.to_array(),
-        air_density_kg_m3: r.air.density_kg_m3(),
+        air_density_kg_m3: r.air.density_kg_per_m3(),
         home_by_direction: by_dir,
         home_worst,
         home_worst_covered,

@@ -261,7 +261,8 @@ pub fn inputs_of(r: &SampleRecord) -> Inputs {
     let air = if up(Channel::AirTemperature) || up(Channel::Pressure) {
         match (r.air_temperature_k, r.pressure_pa) {
             (Some(t), Some(p)) => Some(standfast::guard::AirSample {
-                temperature_c: f32_of(t - 273.15),
+                // Through °C in f32, as the firmware receives it: the same bits.
+                temperature_k: standfast::air::celsius_to_kelvin(f32_of(t - 273.15)),
                 pressure_pa: f32_of(p),
             }),
             _ => None,

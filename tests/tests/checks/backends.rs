@@ -53,7 +53,7 @@ fn isa_density_within_backend_tolerance() {
     let t = 288.15 - 0.0065 * 3000.0_f64;
     let want = 101_325.0 * (t / 288.15).powf(5.255_876) / (287.052_87 * t);
     close(
-        Air::isa_at_elevation(3000.0).unwrap().density_kg_m3(),
+        Air::isa_at_elevation(3000.0).unwrap().density_kg_per_m3(),
         want,
         "density",
     );
@@ -166,7 +166,7 @@ fn no_result_moves_unless_the_binary_asks() {
         ..Conditions::calm(altaz(30.0, 0.0))
     };
     let tip = rig.assess(&c).unwrap().tip_wind_mps.unwrap();
-    let rho = Air::isa_at_elevation(3000.0).unwrap().density_kg_m3();
+    let rho = Air::isa_at_elevation(3000.0).unwrap().density_kg_per_m3();
     let m = MountGeometry {
         kind: MountKind::Equatorial,
         latitude_rad: deg_to_rad(52.0),

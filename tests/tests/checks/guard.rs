@@ -333,7 +333,7 @@ fn overloaded_drive_requests_park() {
     spec.drives = Some(Drives {
         primary: weak,
         secondary: weak,
-        slew_acceleration_rad_s2: 0.0,
+        slew_acceleration_rad_per_s2: 0.0,
     });
     let rig = Rig::new(&spec).unwrap();
     let cfg = config();

@@ -133,7 +133,7 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
         (
             |i| {
                 i.air = Some(AirSample {
-                    temperature_c: f32::NAN,
+                    temperature_k: f32::NAN,
                     pressure_pa: 101_325.0,
                 })
             },
@@ -144,7 +144,7 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
         (
             |i| {
                 i.air = Some(AirSample {
-                    temperature_c: 15.0,
+                    temperature_k: standfast::air::celsius_to_kelvin(15.0),
                     pressure_pa: 5.0,
                 })
             },
@@ -263,7 +263,7 @@ fn events_beyond_capacity_are_counted() {
         pose: Some(altaz(f32::NAN, 0.0)),
         cover_fitted: Some(true),
         air: Some(AirSample {
-            temperature_c: f32::NAN,
+            temperature_k: f32::NAN,
             pressure_pa: f32::NAN,
         }),
     };

@@ -282,9 +282,9 @@ fn ballast_needed_meets_target_exactly() {
     let over = q * 0.222 * 1.5;
     let closed =
         (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / (STANDARD_GRAVITY_MPS2 * 0.25);
-    assert_relative_eq!(need.amount, closed, max_relative = 1e-3);
+    assert_relative_eq!(need.mass_kg, closed, max_relative = 1e-3);
     let ok = rig
-        .with_ballast(need.amount, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .with_ballast(need.mass_kg, standfast::Vec3::new(0.0, 0.0, 0.3))
         .unwrap();
     let (u, _) = ok
         .worst_direction_utilisation(&Conditions {
@@ -294,7 +294,7 @@ fn ballast_needed_meets_target_exactly() {
         .unwrap();
     assert_relative_eq!(u, 0.8, max_relative = 1e-3);
     let short = rig
-        .with_ballast(0.9 * need.amount, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .with_ballast(0.9 * need.mass_kg, standfast::Vec3::new(0.0, 0.0, 0.3))
         .unwrap();
     let (u2, _) = short
         .worst_direction_utilisation(&Conditions {
@@ -307,7 +307,7 @@ fn ballast_needed_meets_target_exactly() {
     // the edge, at the triangle's height 3r = 0.75 m from it.
     let tie = rig.tie_down_needed(&c, 25.0, 0.8).unwrap();
     let closed_t = (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / 0.75;
-    assert_relative_eq!(tie.amount, closed_t, max_relative = 1e-3);
+    assert_relative_eq!(tie.pull_per_foot_n, closed_t, max_relative = 1e-3);
 }
 
 /// Utilisation at a wind below the tip wind, with tie-downs: about the edge

@@ -72,7 +72,7 @@ fn drives(rated: f32, alpha: f32) -> Drives {
     Drives {
         primary: r,
         secondary: r,
-        slew_acceleration_rad_s2: alpha,
+        slew_acceleration_rad_per_s2: alpha,
     }
 }
 
@@ -368,7 +368,7 @@ fn wind_torque_and_utilisation_by_hand() {
             repeated_peak_nm: 10.0,
             momentary_peak_nm: 20.0,
         },
-        slew_acceleration_rad_s2: 0.5,
+        slew_acceleration_rad_per_s2: 0.5,
     });
     let rig = Rig::new(&s).unwrap();
     let c = Conditions {
