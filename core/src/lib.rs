@@ -19,7 +19,7 @@
 //!   judged in and the placement of its parts in a pose;
 //! - [`stability`]: overturning about every edge of the support polygon,
 //!   sliding, tip wind speed, tilt margin, foot reactions, ballast and
-//!   tie-down needs ([`Assessment`]);
+//!   tie-down needs ([`StabilityFigures`]);
 //! - [`torque`]: drive torques and utilisation of both mount axes, inertia
 //!   formulas, balance;
 //! - [`sky`]: scans over the whole sky (worst pose, payload envelope, the
@@ -95,7 +95,7 @@
 //! }
 //! let verdict = guard.step(Millis(250 * 280), &inputs(280));
 //! assert!(verdict.faults.is_empty());
-//! assert!(!verdict.stage.park_requested());
+//! assert!(!verdict.level.park_requested());
 //! let u = verdict.overturning_utilisation.unwrap_or(f32::NAN);
 //! assert!(u > 0.0 && u < 0.5, "overturning utilisation {u}");
 //! # Ok::<(), standfast::Error>(())
@@ -128,7 +128,7 @@ pub use math::Vec3;
 pub use mount::{MountGeometry, MountKind, PierSide, Pose};
 pub use rig::{BodySpec, Conditions, Rig, RigSpec};
 pub use sense::Millis;
-pub use stability::Assessment;
+pub use stability::StabilityFigures;
 pub use support::{Foot, Support};
 
 /// The fixed-capacity containers of the public interface: the lists of the

@@ -32,7 +32,7 @@ use crate::mount::{MountGeometry, MountKind, PierSide, Pose};
 use crate::rig::{Conditions, PartRole, Rig, Stage, MAX_PART_MASS_KG};
 use crate::stability::{ratio, Loads};
 use crate::torque::{
-    centroidal_inertia_kg_m2, gravity_terms, parallel_axis_kg_m2, wind_terms_nm_per_pa, Axis,
+    centroidal_inertia_kg_m2, gravity_terms, parallel_axis_kg_m2, wind_terms_nm_per_pa, MountAxis,
     Payload, PayloadPick,
 };
 use heapless::Vec;
@@ -615,7 +615,7 @@ impl Rig {
                 } else {
                     &mut rest
                 };
-                for (axis, t) in [Axis::Primary, Axis::Secondary]
+                for (axis, t) in [MountAxis::Primary, MountAxis::Secondary]
                     .into_iter()
                     .zip(target.iter_mut())
                 {
@@ -635,7 +635,7 @@ impl Rig {
                 let local = Vec3::new(o.along_secondary_axis_m, o.along_tube_m, 0.0);
                 let r = placement.to_rig(Stage::Secondary, local) - origin;
                 let per_kg = r.cross(gravity);
-                for (((axis, rating), base), extra) in [Axis::Primary, Axis::Secondary]
+                for (((axis, rating), base), extra) in [MountAxis::Primary, MountAxis::Secondary]
                     .into_iter()
                     .zip(ratings.iter())
                     .zip(rest.iter())

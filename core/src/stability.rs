@@ -74,7 +74,7 @@ pub struct Sliding {
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize))]
-pub struct Assessment {
+pub struct StabilityFigures {
     /// Every edge, counter-clockwise.
     pub edges: Vec<EdgeLoad, MAX_FEET>,
     /// The edge of highest utilisation (the first in `edges` on a tie).
@@ -477,14 +477,14 @@ impl Rig {
     ///
     /// # Errors
     /// Invalid conditions (non-finite or out-of-range wind, tilt, pose, air).
-    pub fn assess(&self, c: &Conditions) -> Result<Assessment, Error> {
+    pub fn stability_figures(&self, c: &Conditions) -> Result<StabilityFigures, Error> {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let loads = Loads::new(&placement, c.wind_from_rad);
-        self.assessment(c, &placement, &loads)
+        self.figures(c, &placement, &loads)
     }
 
-    /// [`Rig::assess`] for `c`, and the critical-edge utilisation at a second
+    /// [`Rig::stability_figures`] for `c`, and the critical-edge utilisation at a second
     /// wind speed `other_speed_mps` (m/s, same direction, pose, tilt, cover
     /// and air): the same value as `assess` at that speed gives in
     /// `critical.utilisation`. The placement and wind loads, which do not
@@ -496,16 +496,16 @@ impl Rig {
     /// the speed. `None` only for a negative or non-finite second speed.
     ///
     /// # Errors
-    /// As [`Rig::assess`] for `c`.
-    pub fn assess_with_utilisation_at(
+    /// As [`Rig::stability_figures`] for `c`.
+    pub fn stability_figures_with_utilisation_at(
         &self,
         c: &Conditions,
         other_speed_mps: f32,
-    ) -> Result<(Assessment, Option<f32>), Error> {
+    ) -> Result<(StabilityFigures, Option<f32>), Error> {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let loads = Loads::new(&placement, c.wind_from_rad);
-        let a = self.assessment(c, &placement, &loads)?;
+        let a = self.figures(c, &placement, &loads)?;
         let u = if other_speed_mps.is_finite() && other_speed_mps >= 0.0 {
             let q = c.air.dynamic_pressure_pa(other_speed_mps);
             self.edge_loads(&loads, q).1.map(|e| e.utilisation)
@@ -533,17 +533,17 @@ impl Rig {
     }
 
     /// The assessment of `c` from its placement and loads.
-    fn assessment(
+    fn figures(
         &self,
         c: &Conditions,
         placement: &Placement<'_>,
         loads: &Loads,
-    ) -> Result<Assessment, Error> {
+    ) -> Result<StabilityFigures, Error> {
         let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
         let (edges, critical) = self.edge_loads(loads, q);
         let critical = critical.ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))?;
         let r = loads.resultant;
-        Ok(Assessment {
+        Ok(StabilityFigures {
             critical,
             edges,
             sliding: loads.sliding(q, self.friction_coefficient()),

@@ -46,20 +46,20 @@ use crate::Tilt;
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 #[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
-pub enum Axis {
+pub(crate) enum MountAxis {
     /// The primary axis `k` (right ascension, or azimuth).
     Primary,
     /// The secondary axis `s` (declination, or altitude).
     Secondary,
 }
 
-impl Axis {
+impl MountAxis {
     /// True when parts fixed to `stage` turn about this axis.
     #[must_use]
     pub fn carries(self, stage: Stage) -> bool {
         match (self, stage) {
-            (_, Stage::Ground) | (Axis::Secondary, Stage::Primary) => false,
-            (Axis::Primary, _) | (Axis::Secondary, Stage::Secondary) => true,
+            (_, Stage::Ground) | (MountAxis::Secondary, Stage::Primary) => false,
+            (MountAxis::Primary, _) | (MountAxis::Secondary, Stage::Secondary) => true,
         }
     }
 
@@ -67,8 +67,8 @@ impl Axis {
     #[must_use]
     pub fn unit(self, frames: &StageFrames) -> Vec3 {
         match self {
-            Axis::Primary => frames.primary_axis(),
-            Axis::Secondary => frames.secondary_axis(),
+            MountAxis::Primary => frames.primary_axis(),
+            MountAxis::Secondary => frames.secondary_axis(),
         }
     }
 }
@@ -231,7 +231,7 @@ pub(crate) fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
         let r = p.cg_m - origin;
         let moment = r.cross(p.weight_n);
         let stage_axes = placement.axes(p.part.stage);
-        for (axis, t) in [Axis::Primary, Axis::Secondary]
+        for (axis, t) in [MountAxis::Primary, MountAxis::Secondary]
             .into_iter()
             .zip(out.iter_mut())
         {

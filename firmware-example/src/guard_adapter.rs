@@ -16,8 +16,8 @@
 //!
 //! It passes the guard's sensor faults on ([`Assess::raised_faults`], logged
 //! as `fault sensor=.. class=..` events, names by [`fault_names`]) and maps
-//! the verdict's stage to `park` ([`Stage::park_requested`]), `alarm`
-//! ([`Stage::alarm`]) and the stage name ([`Stage::name`]). The station's
+//! the verdict's stage to `park` ([`AlertLevel::park_requested`]), `alarm`
+//! ([`AlertLevel::alarm`]) and the stage name ([`AlertLevel::name`]). The station's
 //! own sensor-health supervision still overrides everything toward park and
 //! alarm.
 //!
@@ -36,7 +36,8 @@
 use crate::assess::{Assess, Assessment, LimitRule, RaisedFault, Samples};
 use standfast::bounded::Vec;
 use standfast::guard::{
-    Event as GuardEvent, Guard, GuardConfig, Inputs, Stage, WindSample as GuardWind, MAX_EVENTS,
+    AlertLevel, Event as GuardEvent, Guard, GuardConfig, Inputs, WindSample as GuardWind,
+    MAX_EVENTS,
 };
 use standfast::math::deg_to_rad;
 use standfast::mount::{MountGeometry, PierSide, Pose};
@@ -114,7 +115,7 @@ pub fn example_guard_config() -> GuardConfig {
 pub struct GuardAssess<'r> {
     guard: Guard<'r>,
     backstop: Option<LimitRule>,
-    last_stage: Stage,
+    last_stage: AlertLevel,
     raised: Vec<RaisedFault, MAX_EVENTS>,
     events_lost: u16,
 }
@@ -147,7 +148,7 @@ impl<'r> GuardAssess<'r> {
         Ok(GuardAssess {
             // The guard starts unable to see (sensor_fault) until its
             // sensors have given readings.
-            last_stage: guard.stage(),
+            last_stage: guard.level(),
             guard,
             backstop,
             raised: Vec::new(),
@@ -163,7 +164,7 @@ impl<'r> GuardAssess<'r> {
 
     /// The guard's stage after the last step.
     #[must_use]
-    pub const fn guard_stage(&self) -> Stage {
+    pub const fn guard_stage(&self) -> AlertLevel {
         self.last_stage
     }
 
@@ -200,7 +201,7 @@ impl Assess for GuardAssess<'_> {
                 let _ = self.raised.push(fault_names(f));
             }
         }
-        let stage = verdict.stage;
+        let stage = verdict.level;
         self.last_stage = stage;
         let guard = Assessment {
             park: stage.park_requested(),

@@ -448,7 +448,7 @@ pub fn sf_fault(f: &Fault) -> SfFault {
 pub fn sf_event(e: &Event) -> SfEvent {
     let kind = event_kind(e);
     match *e {
-        Event::StageChanged { from, to, cause } => SfEvent {
+        Event::LevelChanged { from, to, cause } => SfEvent {
             kind,
             from_stage: stage_code(from),
             to_stage: stage_code(to),
@@ -473,9 +473,9 @@ pub fn sf_event(e: &Event) -> SfEvent {
 pub fn sf_verdict(v: &Verdict) -> SfVerdict {
     let mut out = SfVerdict {
         now_ms: v.now.0,
-        stage: stage_code(v.stage),
-        park: u8::from(v.stage.park_requested()),
-        alarm: u8::from(v.stage.alarm()),
+        stage: stage_code(v.level),
+        park: u8::from(v.level.park_requested()),
+        alarm: u8::from(v.level.alarm()),
         overturning_utilisation: maybe(v.overturning_utilisation),
         predicted_utilisation: maybe(v.predicted_utilisation),
         sliding_utilisation: maybe(v.sliding_utilisation),
@@ -877,7 +877,7 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
         if u32::from(i) >= q.directions {
             break;
         }
-        let a = rig.assess(&Conditions {
+        let a = rig.stability_figures(&Conditions {
             wind_from_rad: f32::from(i) * step,
             ..c
         })?;

@@ -710,7 +710,7 @@ fn assessment_matches_the_rust_api() {
     for (k, t) in a.tip_wind_mps.iter().take(8).enumerate() {
         let from = k as f32 * (std::f32::consts::TAU / 8.0);
         let want = rig
-            .assess(&standfast::rig::Conditions {
+            .stability_figures(&standfast::rig::Conditions {
                 wind_from_rad: from,
                 ..c
             })

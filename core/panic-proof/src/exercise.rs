@@ -8,7 +8,7 @@ use standfast::air::Air;
 use standfast::bounded::Vec;
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::transition::{transition, Figures, Memory, Readings};
-use standfast::guard::{AirSample, Guard, GuardConfig, Inputs, Stage as Level, WindSample};
+use standfast::guard::{AirSample, AlertLevel as Level, Guard, GuardConfig, Inputs, WindSample};
 use standfast::hardware::bolt::{BoltPattern, PivotLine, ShaftLoad};
 use standfast::hardware::material::{Material, AL_6061_T6_EXTRUSION_MIN};
 use standfast::hardware::shaft::{check_shaft_bending, ShaftSection};
@@ -178,7 +178,7 @@ fn pose(u: &Unknowns) -> Pose {
 }
 
 /// Covered entry points, in order: [`Support::tripod`], [`Rig::new`],
-/// [`Rig::assess`], [`Rig::worst_wind`], [`Rig::tilt_margin`],
+/// [`Rig::stability_figures`], [`Rig::worst_wind`], [`Rig::tilt_margin`],
 /// [`Rig::axis_loads`], [`Rig::foot_reactions_n`], [`Rig::ballast_needed`],
 /// [`Rig::tie_down_needed`], [`Guard::new`], [`Guard::step`] (in a loop, with
 /// every field of [`Inputs`] set), [`TiltSensor::new`], [`TiltSensor::push`],
@@ -221,7 +221,7 @@ fn rig_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
         air,
         cover_fitted: u.cover_fitted == 1,
     };
-    t.note(rig.assess(&c));
+    t.note(rig.stability_figures(&c));
     t.note(rig.worst_wind(&c));
     t.note(rig.tilt_margin(&c));
     t.note(rig.axis_loads(&c, u.mean_wind_mps));

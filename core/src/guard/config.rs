@@ -44,28 +44,28 @@ pub struct GuardConfig {
     #[cfg_attr(feature = "serde", serde(default))]
     pub wind_source: WindSource,
     /// Predicted overturning or sliding utilisation that raises
-    /// [`Stage::Watch`](super::Stage::Watch). Default 0.5: half way to the tipping point, time to
+    /// [`AlertLevel::Watch`](super::AlertLevel::Watch). Default 0.5: half way to the tipping point, time to
     /// look at the rig.
     pub watch_utilisation: f32,
     /// Predicted overturning utilisation (at the end of a park) that raises
-    /// [`Stage::ParkNow`](super::Stage::ParkNow). Default 0.75: by analogy with mobile cranes on
+    /// [`AlertLevel::ParkNow`](super::AlertLevel::ParkNow). Default 0.75: by analogy with mobile cranes on
     /// crawlers, whose rated load is at most 75 % of the tipping load
     /// (ASME B30.5 §5-1.1.1), leaving a quarter for what the model misses.
     pub park_utilisation: f32,
     /// Present overturning or sliding utilisation (at the peak gust) that raises
-    /// [`Stage::Alarm`](super::Stage::Alarm). Default 0.9: the early-warning level of crane rated
+    /// [`AlertLevel::Alarm`](super::AlertLevel::Alarm). Default 0.9: the early-warning level of crane rated
     /// capacity limiters (EN 13000 practice, warning at about 90 %).
     pub alarm_utilisation: f32,
     /// Governing drive utilisation (steady torque against rated torque, with
     /// the slew torque against repeated peak, gust torque against momentary
     /// peak; see [`crate::torque::Utilisation`]) that raises
-    /// [`Stage::ParkNow`](super::Stage::ParkNow). Default 1.0: beyond its ratings a drive may slip or
+    /// [`AlertLevel::ParkNow`](super::AlertLevel::ParkNow). Default 1.0: beyond its ratings a drive may slip or
     /// backdrive.
     pub drive_park_utilisation: f32,
     /// Hysteresis: a figure counts as settled below this fraction of the
     /// threshold it crossed. Default 0.8.
     pub clear_ratio: f32,
-    /// Time every figure must stay settled before the stage steps down, s.
+    /// Time every figure must stay settled before the alert level steps down, s.
     /// Default 600 s: one 10-minute mean period, so a lull between gusts
     /// does not unpark a rig in a rising storm.
     pub dwell_s: f32,
@@ -75,14 +75,14 @@ pub struct GuardConfig {
     /// the peak of the last ten minutes (common practice, no source).
     pub gust_allowance: f32,
     /// Remaining tilt margin (extra tilt that would tip the rig with no wind)
-    /// below which [`Stage::Alarm`](super::Stage::Alarm) is raised, radians. Default 5° (0.0873 rad):
+    /// below which [`AlertLevel::Alarm`](super::AlertLevel::Alarm) is raised, radians. Default 5° (0.0873 rad):
     /// well above the 1–3° chassis-tilt alarms of aerial work platforms,
     /// measured here as distance from tipping.
     pub tilt_margin_alarm_rad: f32,
-    /// Tilt drift rate that raises [`Stage::Watch`](super::Stage::Watch), rad/s. Default 0.5°/h
+    /// Tilt drift rate that raises [`AlertLevel::Watch`](super::AlertLevel::Watch), rad/s. Default 0.5°/h
     /// (2.42e-6 rad/s): a leg sinking that fast needs a look before dawn.
     pub drift_watch_rad_per_s: f32,
-    /// Time without faults before leaving [`Stage::SensorFault`](super::Stage::SensorFault), s. Default
+    /// Time without faults before leaving [`AlertLevel::SensorFault`](super::AlertLevel::SensorFault), s. Default
     /// 60 s.
     pub fault_clear_s: f32,
     /// Least time between physics evaluations, ms, 0 to

@@ -1,25 +1,25 @@
-//! The guard: live samples in, a staged park-and-alarm decision out.
+//! The guard: live samples in, a park-and-alarm decision in alert levels out.
 //!
 //! Each [`Guard::step`] takes the caller's time stamp and whatever samples
 //! arrived since the last step (accelerometer, wind, mount pose, cover, air)
 //! and returns a [`Verdict`]: the present overturning and sliding
 //! utilisation, the utilisation predicted for the end of a park, the tip wind
-//! speed for the present pose and wind direction, the tilt margin, the stage
-//! ([`Stage`]), the active faults and the events of this step.
+//! speed for the present pose and wind direction, the tilt margin, the alert level
+//! ([`AlertLevel`]), the active faults and the events of this step.
 //!
-//! **Stages**, in rising order: [`Stage::Clear`], [`Stage::Watch`],
-//! [`Stage::ParkNow`], [`Stage::Alarm`]; and [`Stage::SensorFault`], the
+//! **Alert levels**, in rising order: [`AlertLevel::Clear`], [`AlertLevel::Watch`],
+//! [`AlertLevel::ParkNow`], [`AlertLevel::Alarm`]; and [`AlertLevel::SensorFault`], the
 //! can't-see level, which parks and alarms. Every rule that changes the
-//! stage is in one pure function, [`transition::transition`], whose module
+//! alert level is in one pure function, [`transition::transition`], whose module
 //! docs give the whole transition table. In short: escalation is immediate;
 //! a step down needs every figure settled below `clear_ratio` × the threshold
 //! of every level being left, for `dwell_s`; the alarm latches until
 //! [`Guard::acknowledge`]; a fault clears after `fault_clear_s` of healthy
-//! inputs, to the stage the figures call for but no lower than
-//! [`Stage::Watch`] (and no lower than [`Stage::Alarm`] while latched).
+//! inputs, to the alert level the figures call for but no lower than
+//! [`AlertLevel::Watch`] (and no lower than [`AlertLevel::Alarm`] while latched).
 //!
 //! **Fail safe.** Anything the guard cannot compute or cannot trust is a
-//! [`Fault`] in the verdict and puts the guard in [`Stage::SensorFault`],
+//! [`Fault`] in the verdict and puts the guard in [`AlertLevel::SensorFault`],
 //! which asserts the park and alarm outputs. Never is a figure read as zero
 //! or a sample dropped in silence:
 //! - a rejected sample of any input (accelerometer, wind, pose, cover, air)
@@ -28,7 +28,7 @@
 //!   ([`Sensor::Clock`]); that step's samples are not used;
 //! - no reading yet (no tilt before the first accelerometer sample, no gust
 //!   before the wind statistics hold one) is [`Fault::NoReading`]; a guard
-//!   starts in [`Stage::SensorFault`];
+//!   starts in [`AlertLevel::SensorFault`];
 //! - a physics evaluation that fails or gives a non-finite figure is
 //!   [`Fault::Unevaluable`] naming the figure;
 //! - [`GuardConfig::validate`] refuses a wind configuration that accepts
@@ -64,7 +64,7 @@ pub mod transition;
 
 pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_MS};
 pub use gusts::GUST_HISTORY_MIN;
-pub use transition::{Cause, Stage};
+pub use transition::{AlertCause, AlertLevel};
 
 use crate::air::Air;
 use crate::error::{Error, ErrorKind};
@@ -98,14 +98,14 @@ pub const POSE_TOLERANCE_RAD: f32 = 1e-3;
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum Event {
-    /// The stage changed.
-    StageChanged {
-        /// Previous stage.
-        from: Stage,
-        /// New stage.
-        to: Stage,
+    /// The alert level changed.
+    LevelChanged {
+        /// Previous alert level.
+        from: AlertLevel,
+        /// New alert level.
+        to: AlertLevel,
         /// Why.
-        cause: Cause,
+        cause: AlertCause,
     },
     /// A fault was raised (first step it is seen).
     FaultRaised(Fault),
@@ -163,8 +163,8 @@ pub struct Verdict {
     /// Time stamp of the step (the previous step's when the clock went
     /// backwards: see [`Sensor::Clock`]).
     pub now: Millis,
-    /// The stage.
-    pub stage: Stage,
+    /// The alert level.
+    pub level: AlertLevel,
     /// Overturning utilisation at the peak gust now (1.0 tips).
     pub overturning_utilisation: Option<f32>,
     /// Overturning utilisation predicted for the end of a park.
@@ -247,7 +247,7 @@ pub struct Guard<'r> {
     tilt: TiltSensor,
     wind: WindStats,
     means: MeanWind,
-    stage: Stage,
+    stage: AlertLevel,
     memory: Memory,
     pose: Pose,
     cover_fitted: bool,
@@ -268,7 +268,7 @@ pub struct Guard<'r> {
 }
 
 impl<'r> Guard<'r> {
-    /// A guard for `rig`, started at `now`, in [`Stage::SensorFault`]: it
+    /// A guard for `rig`, started at `now`, in [`AlertLevel::SensorFault`]: it
     /// cannot judge the rig before its sensors have given readings.
     ///
     /// # Errors
@@ -287,7 +287,7 @@ impl<'r> Guard<'r> {
             wind: WindStats::new(config.wind, now)?,
             means: MeanWind::new(config.wind, now)?,
             config,
-            stage: Stage::SensorFault,
+            stage: AlertLevel::SensorFault,
             memory: Memory::default(),
             pose,
             cover_fitted: false,
@@ -310,9 +310,9 @@ impl<'r> Guard<'r> {
         &self.config
     }
 
-    /// The present stage.
+    /// The present alert level.
     #[must_use]
-    pub fn stage(&self) -> Stage {
+    pub fn level(&self) -> AlertLevel {
         self.stage
     }
 
@@ -347,8 +347,8 @@ impl<'r> Guard<'r> {
         self.air = air;
     }
 
-    /// Acknowledges a latched alarm: the stage may step down once the figures
-    /// have settled (in the next step, with cause [`Cause::Acknowledged`], if
+    /// Acknowledges a latched alarm: the alert level may step down once the figures
+    /// have settled (in the next step, with cause [`AlertCause::Acknowledged`], if
     /// they already have for the dwell time).
     pub fn acknowledge(&mut self) {
         self.memory.acknowledge();
@@ -455,7 +455,7 @@ impl<'r> Guard<'r> {
         let fig = self.shown;
         Verdict {
             now,
-            stage: self.stage,
+            level: self.stage,
             overturning_utilisation: fig.overturning,
             predicted_utilisation: fig.predicted,
             sliding_utilisation: fig.sliding,
@@ -575,7 +575,7 @@ impl<'r> Guard<'r> {
         self.stage = t.stage;
         self.memory = t.memory;
         if let Some(c) = t.change {
-            events.push(Event::StageChanged {
+            events.push(Event::LevelChanged {
                 from: c.from,
                 to: c.to,
                 cause: c.cause,
@@ -663,7 +663,10 @@ impl<'r> Guard<'r> {
         f.from_rad = Some(from);
 
         let c = self.conditions(tilt, gust, from);
-        match self.rig.assess_with_utilisation_at(&c, predicted) {
+        match self
+            .rig
+            .stability_figures_with_utilisation_at(&c, predicted)
+        {
             Ok((a, at_predicted)) => {
                 f.overturning = finite(a.critical.utilisation);
                 f.sliding = finite(a.sliding.utilisation);

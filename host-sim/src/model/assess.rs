@@ -132,7 +132,7 @@ fn condition_report(
     let at = |from_deg: f32| {
         let mut cc = c;
         cc.wind_from_rad = from_deg.to_radians();
-        rig.assess(&cc)
+        rig.stability_figures(&cc)
     };
     let mut rows = Vec::new();
     let mut worst_slide = (f32::NEG_INFINITY, 0.0_f32);
@@ -619,7 +619,7 @@ fn deg(rad: f32) -> f32 {
 fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, standfast::Error> {
     let mut c = *c;
     c.wind_from_rad = from_rad;
-    Ok(rig.assess(&c)?.tip_wind_mps)
+    Ok(rig.stability_figures(&c)?.tip_wind_mps)
 }
 
 /// Best tripod orientation. A weighed centre (`[measured]`) is applied to

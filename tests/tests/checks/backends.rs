@@ -40,7 +40,7 @@ fn tripod_tip_wind_within_backend_tolerance() {
         wind_speed_mps: 5.0,
         ..Conditions::calm(altaz(0.0, 0.0))
     };
-    let got = rig.assess(&c).unwrap().tip_wind_mps.unwrap();
+    let got = rig.stability_figures(&c).unwrap().tip_wind_mps.unwrap();
     let w = 40.0 * 9.806_65_f64;
     let want = (2.0 * w * 0.25 / (1.5 * 0.222 * 1.225)).sqrt();
     close(got, want, "tip wind");
@@ -165,7 +165,7 @@ fn no_result_moves_unless_the_binary_asks() {
         wind_speed_mps: 5.0,
         ..Conditions::calm(altaz(30.0, 0.0))
     };
-    let tip = rig.assess(&c).unwrap().tip_wind_mps.unwrap();
+    let tip = rig.stability_figures(&c).unwrap().tip_wind_mps.unwrap();
     let rho = Air::isa_at_elevation(3000.0).unwrap().density_kg_per_m3();
     let m = MountGeometry {
         kind: MountKind::Equatorial,

@@ -6,7 +6,8 @@
 
 use crate::fixtures::{altaz, post_rig};
 use standfast::guard::{
-    AirSample, Cause, Event, Guard, GuardConfig, Inputs, Stage, Verdict, WindSample, MAX_EVENTS,
+    AirSample, AlertCause, AlertLevel, Event, Guard, GuardConfig, Inputs, Verdict, WindSample,
+    MAX_EVENTS,
 };
 use standfast::rig::{Rig, MAX_WIND_SPEED_MPS};
 use standfast::sense::{Fault, Millis, Sensor};
@@ -62,15 +63,15 @@ fn run(
 fn settled(rig: &Rig) -> Guard<'_> {
     let mut g = Guard::new(rig, config(), Millis(0)).unwrap();
     run(&mut g, 0, 400, 3.0, |_| {});
-    assert_eq!(g.stage(), Stage::Clear);
+    assert_eq!(g.level(), AlertLevel::Clear);
     g
 }
 
-fn changes(vs: &[Verdict]) -> Vec<(Stage, Stage, Cause)> {
+fn changes(vs: &[Verdict]) -> Vec<(AlertLevel, AlertLevel, AlertCause)> {
     vs.iter()
         .flat_map(|v| v.events.iter())
         .filter_map(|e| match *e {
-            Event::StageChanged { from, to, cause } => Some((from, to, cause)),
+            Event::LevelChanged { from, to, cause } => Some((from, to, cause)),
             _ => None,
         })
         .collect()
@@ -102,7 +103,7 @@ fn a_wind_beyond_the_model_is_never_clear() {
         v.predicted_utilisation.unwrap() > 1.0,
         "predicted gust beyond 100 m/s still evaluated"
     );
-    assert_eq!(v.stage, Stage::Alarm);
+    assert_eq!(v.level, AlertLevel::Alarm);
 
     let mut g = settled(&rig);
     let vs = run(&mut g, 400, 420, 120.0, |_| {});
@@ -114,7 +115,7 @@ fn a_wind_beyond_the_model_is_never_clear() {
             ..
         }
     )));
-    assert_eq!(v.stage, Stage::SensorFault);
+    assert_eq!(v.level, AlertLevel::SensorFault);
 }
 
 /// Case 2: rejected pose, air and cover samples are faults of their input in
@@ -165,7 +166,7 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
         let mut i = samples(400, 3.0);
         bad(&mut i);
         let v = g.step(Millis(40_000), &i);
-        assert_eq!(v.stage, Stage::SensorFault, "{expected:?}");
+        assert_eq!(v.level, AlertLevel::SensorFault, "{expected:?}");
         assert!(v.faults.any(|f| f.same_class(&expected)), "{:?}", v.faults);
         assert!(
             v.events.contains(&Event::FaultRaised(
@@ -175,9 +176,9 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
             v.events
         );
         assert!(changes(std::slice::from_ref(&v)).contains(&(
-            Stage::Clear,
-            Stage::SensorFault,
-            Cause::SensorFault
+            AlertLevel::Clear,
+            AlertLevel::SensorFault,
+            AlertCause::SensorFault
         )));
     }
 }
@@ -193,7 +194,7 @@ fn a_reversed_clock_is_a_fault() {
         == Fault::TimeReversed {
             sensor: Sensor::Clock
         }));
-    assert_eq!((v.stage, v.now), (Stage::SensorFault, Millis(39_900)));
+    assert_eq!((v.level, v.now), (AlertLevel::SensorFault, Millis(39_900)));
 }
 
 /// Case 3: hysteresis across levels. A spell that parks (predicted ≥ 0.75),
@@ -207,8 +208,8 @@ fn no_step_down_past_a_band() {
     let mut g = settled(&rig);
     let vs = run(&mut g, 400, 700, 19.0, |_| {});
     assert_eq!(
-        vs.last().unwrap().stage,
-        Stage::ParkNow,
+        vs.last().unwrap().level,
+        AlertLevel::ParkNow,
         "{:?}",
         changes(&vs)
     );
@@ -218,7 +219,7 @@ fn no_step_down_past_a_band() {
     let last = vs.last().unwrap();
     let p = last.predicted_utilisation.unwrap();
     assert!((0.6..0.75).contains(&p), "predicted {p}");
-    assert_eq!(last.stage, Stage::ParkNow, "{:?}", changes(&vs));
+    assert_eq!(last.level, AlertLevel::ParkNow, "{:?}", changes(&vs));
 }
 
 /// Case 4: a watch raised by sliding says so.
@@ -229,7 +230,7 @@ fn a_watch_from_sliding_is_caused_by_sliding() {
     let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.05)).unwrap();
     let mut g = Guard::new(&rig, config(), Millis(0)).unwrap();
     run(&mut g, 0, 400, 1.0, |_| {});
-    assert_eq!(g.stage(), Stage::Clear);
+    assert_eq!(g.level(), AlertLevel::Clear);
     // 10 m/s: sliding 0.613·V²·0.222 / (0.05·40·9.81) ≈ 0.7 at the gust,
     // predicted overturning about (1.15·V / 21.9)² ≈ 0.3.
     let vs = run(&mut g, 400, 600, 10.0, |_| {});
@@ -239,7 +240,7 @@ fn a_watch_from_sliding_is_caused_by_sliding() {
     assert!(v.predicted_utilisation.unwrap() < 0.5);
     assert_eq!(
         c.first(),
-        Some(&(Stage::Clear, Stage::Watch, Cause::Sliding)),
+        Some(&(AlertLevel::Clear, AlertLevel::Watch, AlertCause::Sliding)),
         "{c:?}"
     );
 }
@@ -270,7 +271,7 @@ fn events_beyond_capacity_are_counted() {
     let v = g.step(Millis(60_000), &i);
     assert_eq!(v.events.len(), MAX_EVENTS);
     assert_eq!(v.events_lost, 1, "{:?} {:?}", v.events, v.faults);
-    assert_eq!(v.stage, Stage::SensorFault);
+    assert_eq!(v.level, AlertLevel::SensorFault);
 }
 
 /// Case 6: the evaluation period is validated like every other field.
@@ -415,7 +416,7 @@ fn the_safest_park_pose_is_searched() {
     run(&mut g, 0, 400, 3.0, east);
     let vs = run(&mut g, 400, 700, 22.0, east);
     let v = vs.last().unwrap();
-    assert!(v.stage.park_requested(), "{v:?}");
+    assert!(v.level.park_requested(), "{v:?}");
     assert_eq!(v.park_pose, Some(zenith), "{v:?}");
 }
 
@@ -435,7 +436,7 @@ fn a_fault_between_evaluations_carries_a_park_pose() {
         },
     );
     assert!(!v.evaluated);
-    assert_eq!(v.stage, Stage::SensorFault);
+    assert_eq!(v.level, AlertLevel::SensorFault);
     assert_eq!(v.park_pose, Some(rig.mount().home_pose()));
 }
 
@@ -511,7 +512,7 @@ fn a_sinking_leg_raises_watch() {
         i.accel_raw = Some([a.sin(), 1e-4 * ((k % 7) as f32), a.cos()]);
         let v = g.step(Millis(k * 100), &i);
         for e in &v.events {
-            if let Event::StageChanged { from, to, cause } = *e {
+            if let Event::LevelChanged { from, to, cause } = *e {
                 changes.push((from, to, cause));
             }
         }
@@ -520,7 +521,7 @@ fn a_sinking_leg_raises_watch() {
     let v = last.unwrap();
     approx::assert_relative_eq!(v.tilt_drift_rad_per_s, rate, max_relative = 0.3);
     assert!(
-        changes.contains(&(Stage::Clear, Stage::Watch, Cause::TiltDrift)),
+        changes.contains(&(AlertLevel::Clear, AlertLevel::Watch, AlertCause::TiltDrift)),
         "{changes:?}"
     );
 }
@@ -544,7 +545,7 @@ fn a_measured_direction_is_used_and_an_unknown_one_is_the_worst() {
     .pop()
     .unwrap();
     assert!(
-        w.faults.is_empty() || w.stage == Stage::SensorFault,
+        w.faults.is_empty() || w.level == AlertLevel::SensorFault,
         "{w:?}"
     );
     if w.faults.is_empty() {

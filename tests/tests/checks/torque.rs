@@ -487,7 +487,7 @@ fn sky_scan_maximum_bounds_every_sample() {
             assert!(l.primary.steady_nm.abs() <= worst.primary.steady_nm.abs() + 1e-4);
             assert!(l.secondary.steady_nm.abs() <= worst.secondary.steady_nm.abs() + 1e-4);
             assert!(l.primary.inertia_kg_m2 <= worst.max_inertia_kg_m2[0] + 1e-6);
-            if let Some(v) = rig.assess(&c).unwrap().tip_wind_mps {
+            if let Some(v) = rig.stability_figures(&c).unwrap().tip_wind_mps {
                 assert!(tip <= v + 1e-3);
             }
         }
