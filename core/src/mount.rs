@@ -51,6 +51,17 @@ pub enum MountKind {
     AltAzimuth,
 }
 
+impl MountKind {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            MountKind::Equatorial => "equatorial",
+            MountKind::AltAzimuth => "alt_azimuth",
+        }
+    }
+}
+
 /// Which way round an equatorial mount reaches a sky position (see the module
 /// docs). Ignored by alt-azimuth mounts.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
@@ -63,6 +74,17 @@ pub enum PierSide {
     TubeEast,
     /// θ₁ = H + π, θ₂ = π − δ: the usual side for targets east of the meridian.
     TubeWest,
+}
+
+impl PierSide {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            PierSide::TubeEast => "tube_east",
+            PierSide::TubeWest => "tube_west",
+        }
+    }
 }
 
 impl PierSide {

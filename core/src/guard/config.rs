@@ -29,6 +29,17 @@ pub enum WindSource {
     TenMinuteMeans,
 }
 
+impl WindSource {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            WindSource::Samples => "samples",
+            WindSource::TenMinuteMeans => "ten_minute_means",
+        }
+    }
+}
+
 /// Thresholds and timing of the guard. Every default is given with its reason.
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]

@@ -23,6 +23,17 @@ pub enum StrengthBasis {
     Ultimate,
 }
 
+impl StrengthBasis {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            StrengthBasis::Yield => "yield",
+            StrengthBasis::Ultimate => "ultimate",
+        }
+    }
+}
+
 /// Yield and ultimate strength of a material, MPa. Built only through
 /// [`Material::new`] or the listed constants, so it is always valid:
 /// 0 < yield ≤ ultimate ≤ [`MAX_STRENGTH_MPA`].

@@ -72,6 +72,17 @@ pub enum ThreadSide {
     Internal,
 }
 
+impl ThreadSide {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            ThreadSide::External => "external",
+            ThreadSide::Internal => "internal",
+        }
+    }
+}
+
 /// What limits a threaded joint in axial tension.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -85,6 +96,18 @@ pub enum FailureMode {
     /// The internal thread strips (shears on the external major diameter);
     /// the usual weak point of a steel screw in an aluminium part.
     InternalThreadStrip,
+}
+
+impl FailureMode {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            FailureMode::ScrewTension => "screw_tension",
+            FailureMode::ExternalThreadStrip => "external_thread_strip",
+            FailureMode::InternalThreadStrip => "internal_thread_strip",
+        }
+    }
 }
 
 fn engagement(le_mm: f32) -> Result<f32, Error> {

@@ -32,6 +32,18 @@ pub enum LimitsSource {
     Caller,
 }
 
+impl LimitsSource {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            LimitsSource::Class6g6H => "class_6g_6h",
+            LimitsSource::BasicProfile => "basic_profile",
+            LimitsSource::Caller => "caller",
+        }
+    }
+}
+
 /// The four limit diameters that the FED-STD-H28/2B stripping formulas use,
 /// with the pitch. Millimetres.
 ///

@@ -49,6 +49,21 @@ pub enum SignedAxis {
 }
 
 impl SignedAxis {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            SignedAxis::PlusX => "plus_x",
+            SignedAxis::MinusX => "minus_x",
+            SignedAxis::PlusY => "plus_y",
+            SignedAxis::MinusY => "minus_y",
+            SignedAxis::PlusZ => "plus_z",
+            SignedAxis::MinusZ => "minus_z",
+        }
+    }
+}
+
+impl SignedAxis {
     /// The unit vector of this axis in sensor coordinates.
     #[must_use]
     pub const fn unit(self) -> Vec3 {
@@ -167,6 +182,17 @@ pub enum TiltReference {
     /// (the rig was levelled then), which removes the sensor's small mounting
     /// error. No tilt is reported until a reference exists.
     LevelReference,
+}
+
+impl TiltReference {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            TiltReference::Absolute => "absolute",
+            TiltReference::LevelReference => "level_reference",
+        }
+    }
 }
 
 /// Configuration of a [`TiltSensor`]. Defaults are listed per field with the
@@ -306,6 +332,19 @@ pub enum LevelCapture {
     /// The averaged direction was more than 45° from the rig's +z axis (or no
     /// sample came): the rig was not upright; no reference was stored.
     Failed,
+}
+
+impl LevelCapture {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            LevelCapture::Idle => "idle",
+            LevelCapture::InProgress => "in_progress",
+            LevelCapture::Done => "done",
+            LevelCapture::Failed => "failed",
+        }
+    }
 }
 
 /// The smoothing factor α = 1 − exp(−Δt/τ) of a single-pole low-pass filter

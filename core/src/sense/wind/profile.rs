@@ -32,6 +32,20 @@ pub enum TerrainCategory {
 }
 
 impl TerrainCategory {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            TerrainCategory::Cat0Sea => "cat_0_sea",
+            TerrainCategory::CatIFlat => "cat_i_flat",
+            TerrainCategory::CatIIOpen => "cat_ii_open",
+            TerrainCategory::CatIIISuburban => "cat_iii_suburban",
+            TerrainCategory::CatIVUrban => "cat_iv_urban",
+        }
+    }
+}
+
+impl TerrainCategory {
     /// Roughness length z0, metres (EN 1991-1-4 Table 4.1).
     #[must_use]
     pub const fn roughness_length_m(self) -> f32 {
