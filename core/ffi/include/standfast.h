@@ -215,7 +215,7 @@ typedef struct SfInputs {
 } SfInputs;
 
 /**
- * The guard's stage (`standfast::guard::Stage`), in rising severity.
+ * The guard's stage (`standfast::guard::AlertLevel`), in rising severity.
  */
 typedef uint32_t SfStage;
 
@@ -296,7 +296,7 @@ typedef struct SfFault {
 typedef uint32_t SfEventKind;
 
 /**
- * What drove a stage change (`standfast::guard::Cause`).
+ * What drove a stage change (`standfast::guard::AlertCause`).
  */
 typedef uint32_t SfCause;
 
