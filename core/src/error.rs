@@ -137,8 +137,8 @@ pub enum Field {
     GuardDriveParkUtilisation,
     /// `guard.dwell_s`.
     GuardDwellS,
-    /// `guard.evaluate_every_ms`.
-    GuardEvaluateEveryMs,
+    /// `guard.evaluate_every_s`.
+    GuardEvaluateEveryS,
     /// `guard.fault_clear_s`.
     GuardFaultClearS,
     /// `guard.gust_allowance`.
@@ -455,7 +455,7 @@ impl Field {
         Field::GuardDriftWatchRadPerS,
         Field::GuardDriveParkUtilisation,
         Field::GuardDwellS,
-        Field::GuardEvaluateEveryMs,
+        Field::GuardEvaluateEveryS,
         Field::GuardFaultClearS,
         Field::GuardGustAllowance,
         Field::GuardParkUtilisation,
@@ -640,7 +640,7 @@ impl Field {
             Field::GuardDriftWatchRadPerS => "guard.drift_watch_rad_per_s",
             Field::GuardDriveParkUtilisation => "guard.drive_park_utilisation",
             Field::GuardDwellS => "guard.dwell_s",
-            Field::GuardEvaluateEveryMs => "guard.evaluate_every_ms",
+            Field::GuardEvaluateEveryS => "guard.evaluate_every_s",
             Field::GuardFaultClearS => "guard.fault_clear_s",
             Field::GuardGustAllowance => "guard.gust_allowance",
             Field::GuardParkUtilisation => "guard.park_utilisation",
@@ -826,7 +826,7 @@ impl Field {
             Field::GuardDriftWatchRadPerS => Unit::RadianPerSecond,
             Field::GuardDriveParkUtilisation => Unit::Dimensionless,
             Field::GuardDwellS => Unit::Second,
-            Field::GuardEvaluateEveryMs => Unit::Millisecond,
+            Field::GuardEvaluateEveryS => Unit::Second,
             Field::GuardFaultClearS => Unit::Second,
             Field::GuardGustAllowance => Unit::Dimensionless,
             Field::GuardParkUtilisation => Unit::Dimensionless,

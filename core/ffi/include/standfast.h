@@ -26,7 +26,7 @@
 /**
  * The rig image format version this library reads (see `image`).
  */
-#define SF_RIG_IMAGE_VERSION 1
+#define SF_RIG_IMAGE_VERSION 2
 
 /**
  * Largest rig image accepted, bytes.

@@ -27,7 +27,7 @@ use crate::types::*;
 /// a mismatch.
 pub const SF_ABI_VERSION: u32 = 1;
 /// The rig image format version this library reads (see `image`).
-pub const SF_RIG_IMAGE_VERSION: u32 = 1;
+pub const SF_RIG_IMAGE_VERSION: u32 = 2;
 /// Largest rig image accepted, bytes.
 pub const SF_RIG_IMAGE_MAX_BYTES: usize = 16384;
 /// Bytes of caller storage a guard needs (checked at run time). Holds the

@@ -391,11 +391,14 @@ fn damaged_and_foreign_images() {
         SF_ERR_IMAGE_TRUNCATED | SF_ERR_IMAGE_SIZE
     ));
     // Another format version, correctly sealed: refused by version.
-    let mut b = IMAGE.to_vec();
-    b[4] = 2;
-    let (st, e) = status(&s, &resealed(b));
-    assert_eq!(st, SF_ERR_IMAGE_VERSION);
-    assert_eq!((e.value, e.min, e.max), (2.0, 1.0, 1.0));
+    let ours = f32::from(image::IMAGE_VERSION);
+    for other in [image::IMAGE_VERSION - 1, image::IMAGE_VERSION + 1] {
+        let mut b = IMAGE.to_vec();
+        b[4..6].copy_from_slice(&other.to_le_bytes());
+        let (st, e) = status(&s, &resealed(b));
+        assert_eq!(st, SF_ERR_IMAGE_VERSION);
+        assert_eq!((e.value, e.min, e.max), (f32::from(other), ours, ours));
+    }
     // Not an image at all.
     let mut b = IMAGE.to_vec();
     b[0] = b'X';

@@ -9,10 +9,10 @@ use crate::rig::MAX_WIND_SPEED_MPS;
 use crate::sense::{TiltConfig, WindConfig};
 use heapless::Vec;
 
-/// Longest accepted time between physics evaluations, ms: a minute. Longer,
+/// Longest accepted time between physics evaluations, s: a minute. Longer,
 /// and a slew or a gust front could go unjudged for longer than a park
 /// takes.
-pub const MAX_EVALUATE_EVERY_MS: u64 = 60_000;
+pub const MAX_EVALUATE_EVERY_S: f32 = 60.0;
 
 /// What the guard's wind input carries.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
@@ -96,12 +96,13 @@ pub struct GuardConfig {
     /// Time without faults before leaving [`AlertLevel::SensorFault`](super::AlertLevel::SensorFault), s. Default
     /// 60 s.
     pub fault_clear_s: f32,
-    /// Least time between physics evaluations, ms, 0 to
-    /// [`MAX_EVALUATE_EVERY_MS`]; samples in between only update the
-    /// filters (a changed pose or cover state evaluates at once, see
-    /// [`super::POSE_TOLERANCE_RAD`]). Default 1000 ms: wind statistics
-    /// change on the 0.25 s bin and the 3-s window, tilt on a 1 s filter.
-    pub evaluate_every_ms: u64,
+    /// Least time between physics evaluations, s, 0 to
+    /// [`MAX_EVALUATE_EVERY_S`] (used in whole milliseconds, rounded to
+    /// nearest, like every duration here); samples in between only update
+    /// the filters (a changed pose or cover state evaluates at once, see
+    /// [`super::POSE_TOLERANCE_RAD`]). Default 1 s: wind statistics change
+    /// on the 0.25 s bin and the 3-s window, tilt on a 1 s filter.
+    pub evaluate_every_s: f32,
     /// Pose assumed until the mount reports one. Default: `None`, the mount's
     /// home pose.
     #[cfg_attr(feature = "serde", serde(default))]
@@ -128,7 +129,7 @@ impl Default for GuardConfig {
             tilt_margin_alarm_rad: 0.087_266_46,
             drift_watch_rad_per_s: 2.424e-6,
             fault_clear_s: 60.0,
-            evaluate_every_ms: 1000,
+            evaluate_every_s: 1.0,
             assumed_pose: None,
             park_poses: Vec::new(),
         }
@@ -198,10 +199,11 @@ impl GuardConfig {
             1.0,
         )?;
         Error::check(Field::GuardFaultClearS, self.fault_clear_s, 0.0, 86_400.0)?;
-        check_ms(
-            Field::GuardEvaluateEveryMs,
-            self.evaluate_every_ms,
-            MAX_EVALUATE_EVERY_MS,
+        Error::check(
+            Field::GuardEvaluateEveryS,
+            self.evaluate_every_s,
+            0.0,
+            MAX_EVALUATE_EVERY_S,
         )?;
         self.check_wind_within_model()?;
         Ok(())
@@ -265,7 +267,7 @@ impl GuardConfig {
 
 /// Whole milliseconds of a validated non-negative duration in seconds
 /// (rounded to nearest; at most 86 400 s here).
-fn s_to_ms(s: f32) -> u64 {
+pub(super) fn s_to_ms(s: f32) -> u64 {
     // + 0.5 and truncation: round half up for these non-negative values.
     let ms = s * 1000.0 + 0.5;
     if ms.is_finite() && ms >= 1.0 {
@@ -276,24 +278,6 @@ fn s_to_ms(s: f32) -> u64 {
     } else {
         0
     }
-}
-
-/// Checks a duration in whole milliseconds against `0..=max_ms`.
-fn check_ms(field: Field, value_ms: u64, max_ms: u64) -> Result<u64, Error> {
-    if value_ms <= max_ms {
-        return Ok(value_ms);
-    }
-    // Shown in the error as f32: exact to 1 ms up to 16.7 million ms.
-    #[allow(clippy::cast_precision_loss)]
-    let (value, max) = (value_ms as f32, max_ms as f32);
-    Err(Error {
-        kind: ErrorKind::OutOfRange,
-        field,
-        index: None,
-        value,
-        min: 0.0,
-        max,
-    })
 }
 
 #[cfg(test)]
@@ -321,12 +305,12 @@ mod tests {
     /// The evaluation period is accepted from 0 to a minute, inclusive.
     #[test]
     fn the_evaluation_period_range_is_inclusive() {
-        for (ms, ok) in [(0, true), (60_000, true), (60_001, false)] {
+        for (s, ok) in [(0.0, true), (60.0, true), (60.001, false), (-0.001, false)] {
             let c = GuardConfig {
-                evaluate_every_ms: ms,
+                evaluate_every_s: s,
                 ..GuardConfig::default()
             };
-            assert_eq!(c.validate().is_ok(), ok, "{ms} ms");
+            assert_eq!(c.validate().is_ok(), ok, "{s} s");
         }
     }
 }

@@ -44,7 +44,7 @@
 //! variable, calm or unknown direction it takes the worst direction, as the
 //! wind may swing to it (for the drive torques too).
 //!
-//! **When the physics runs.** At most once per `evaluate_every_ms`, and at
+//! **When the physics runs.** At most once per `evaluate_every_s`, and at
 //! once when the cover state changes or the pose moves by more than
 //! [`POSE_TOLERANCE_RAD`] from the last evaluated one. Samples in between
 //! only update the filters, so a controller may pass its pose in every step.
@@ -62,7 +62,7 @@ mod config;
 mod gusts;
 pub mod transition;
 
-pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_MS};
+pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_S};
 pub use gusts::GUST_HISTORY_MIN;
 pub use transition::{AlertCause, AlertLevel};
 
@@ -383,7 +383,7 @@ impl<'r> Guard<'r> {
         faults.extend(&rejected);
 
         let due = self.last_eval.is_none_or(|(t, pose, cover)| {
-            now.since(t) >= self.config.evaluate_every_ms
+            now.since(t) >= config::s_to_ms(self.config.evaluate_every_s)
                 || cover != self.cover_fitted
                 || pose_moved(pose, self.pose)
         });

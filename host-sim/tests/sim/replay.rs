@@ -181,7 +181,7 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
     // Drag grows with the square of the wind speed (q = ½ρv², any fluids
     // textbook), so with a rising wind the highest overturning utilisation
     // is at the last evaluation (the guard evaluates once a second, default
-    // evaluate_every_ms = 1000).
+    // evaluate_every_s = 1).
     let o = r.overturning.as_ref().unwrap();
     assert!(rep.duration_s - o.t_s <= 1.0, "{o:?} of {}", rep.duration_s);
     assert!(o.utilisation > 0.9, "{o:?}");

@@ -279,13 +279,13 @@ fn events_beyond_capacity_are_counted() {
 fn the_evaluation_period_is_validated() {
     let rig = rig();
     let mut cfg = config();
-    cfg.evaluate_every_ms = 60_001;
+    cfg.evaluate_every_s = 60.001;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
     assert_eq!(
         (e.field, e.max),
-        (standfast::error::Field::GuardEvaluateEveryMs, 60_000.0)
+        (standfast::error::Field::GuardEvaluateEveryS, 60.0)
     );
-    cfg.evaluate_every_ms = 60_000;
+    cfg.evaluate_every_s = 60.0;
     assert!(Guard::new(&rig, cfg, Millis(0)).is_ok());
 }
 
