@@ -151,10 +151,6 @@ pub enum Field {
     GuardTimeToParkS,
     /// `guard.watch_utilisation`.
     GuardWatchUtilisation,
-    /// `guard.wind.max_speed_mps`.
-    GuardWindMaxSpeedMps,
-    /// `guard.wind.stale_after_s`.
-    GuardWindStaleAfterS,
     /// `joint.centre_m`.
     JointCentreM,
     /// `joint.dynamic_pressure_pa`.
@@ -404,7 +400,7 @@ pub enum Field {
 
 impl Field {
     /// Every field of the crate's own inputs, in the order of their paths.
-    pub const ALL: [Field; 177] = [
+    pub const ALL: [Field; 175] = [
         Field::AirDensityKgPerM3,
         Field::AirPressurePa,
         Field::AirTemperatureK,
@@ -462,8 +458,6 @@ impl Field {
         Field::GuardTiltMarginAlarmRad,
         Field::GuardTimeToParkS,
         Field::GuardWatchUtilisation,
-        Field::GuardWindMaxSpeedMps,
-        Field::GuardWindStaleAfterS,
         Field::JointCentreM,
         Field::JointDynamicPressurePa,
         Field::JointHeightM,
@@ -647,8 +641,6 @@ impl Field {
             Field::GuardTiltMarginAlarmRad => "guard.tilt_margin_alarm_rad",
             Field::GuardTimeToParkS => "guard.time_to_park_s",
             Field::GuardWatchUtilisation => "guard.watch_utilisation",
-            Field::GuardWindMaxSpeedMps => "guard.wind.max_speed_mps",
-            Field::GuardWindStaleAfterS => "guard.wind.stale_after_s",
             Field::JointCentreM => "joint.centre_m",
             Field::JointDynamicPressurePa => "joint.dynamic_pressure_pa",
             Field::JointHeightM => "joint.height_m",
@@ -833,8 +825,6 @@ impl Field {
             Field::GuardTiltMarginAlarmRad => Unit::Radian,
             Field::GuardTimeToParkS => Unit::Second,
             Field::GuardWatchUtilisation => Unit::Dimensionless,
-            Field::GuardWindMaxSpeedMps => Unit::MetrePerSecond,
-            Field::GuardWindStaleAfterS => Unit::Second,
             Field::JointCentreM => Unit::Metre,
             Field::JointDynamicPressurePa => Unit::Pascal,
             Field::JointHeightM => Unit::Metre,

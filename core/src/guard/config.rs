@@ -152,7 +152,7 @@ impl GuardConfig {
             // A mean arrives every ten minutes: a shorter stale time would
             // fault between two reports.
             Error::check(
-                Field::GuardWindStaleAfterS,
+                Field::WindStaleAfterS,
                 self.wind.stale_after_s,
                 600.0,
                 86_400.0,
@@ -239,7 +239,7 @@ impl GuardConfig {
         let limit = self.wind.max_speed_mps * MAX_WIND_SPEED_MPS / max_gust;
         Err(Error {
             kind: ErrorKind::OutOfRange,
-            field: Field::GuardWindMaxSpeedMps,
+            field: Field::WindMaxSpeedMps,
             index: None,
             value: self.wind.max_speed_mps,
             min: 1.0,

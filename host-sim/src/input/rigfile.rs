@@ -1964,18 +1964,15 @@ fn sensor_config(
             "sensor.wind_stale".into(),
             v.span(),
         );
-        sp.put(
-            "guard.wind.stale_after_s",
-            None,
-            "sensor.wind_stale".into(),
-            v.span(),
-        );
         c.wind.stale_after_s = f(v.get_ref().s());
     }
     if let Some(v) = &g.wind_max {
-        for field in ["wind.max_speed_mps", "guard.wind.max_speed_mps"] {
-            sp.put(field, None, "sensor.wind_max".into(), v.span());
-        }
+        sp.put(
+            "wind.max_speed_mps",
+            None,
+            "sensor.wind_max".into(),
+            v.span(),
+        );
         c.wind.max_speed_mps = f(v.get_ref().mps());
     }
     if let Some(v) = &g.wind_source {
@@ -2134,10 +2131,8 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
 
 /// Core fields whose value comes from a default when the file does not
 /// write its key, and that key (for messages about a default).
-const UNWRITTEN_KEYS: [(&str, &str); 5] = [
+const UNWRITTEN_KEYS: [(&str, &str); 3] = [
     ("wind.max_speed_mps", "sensor.wind_max"),
-    ("guard.wind.max_speed_mps", "sensor.wind_max"),
     ("wind.stale_after_s", "sensor.wind_stale"),
-    ("guard.wind.stale_after_s", "sensor.wind_stale"),
     ("wind.mean_gust_factor", "sensor.gust_factor"),
 ];

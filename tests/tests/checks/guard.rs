@@ -409,12 +409,12 @@ fn ten_minute_means_give_gust_by_factor() {
     let mut cfg = config();
     cfg.wind_source = WindSource::TenMinuteMeans;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!(e.field, standfast::error::Field::GuardWindStaleAfterS);
+    assert_eq!(e.field, standfast::error::Field::WindStaleAfterS);
     cfg.wind.stale_after_s = 660.0;
     // Means up to 100 m/s would be gusts of 145 m/s, beyond the model's
     // 100 m/s: refused, naming the limit that keeps every mean evaluable.
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!(e.field, standfast::error::Field::GuardWindMaxSpeedMps);
+    assert_eq!(e.field, standfast::error::Field::WindMaxSpeedMps);
     approx::assert_relative_eq!(e.max, 100.0 / 1.45, max_relative = 1e-5);
     cfg.wind.max_speed_mps = 60.0;
     let mut g = Guard::new(&rig, cfg, Millis(0)).unwrap();

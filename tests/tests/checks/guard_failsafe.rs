@@ -90,7 +90,7 @@ fn a_wind_beyond_the_model_is_never_clear() {
     cfg.wind.anemometer_height_m = 2.0;
     cfg.wind.rig_height_m = 2.0;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!(e.field, standfast::error::Field::GuardWindMaxSpeedMps);
+    assert_eq!(e.field, standfast::error::Field::WindMaxSpeedMps);
     assert_eq!((e.value, e.max), (150.0, MAX_WIND_SPEED_MPS));
 
     cfg.wind.max_speed_mps = MAX_WIND_SPEED_MPS;
