@@ -1353,69 +1353,6 @@ mod builder_tests {
         assert_eq!(e.max, MAX_BODIES as f32);
     }
 
-    /// Every printed name is distinct within its enum and in snake case.
-    #[test]
-    fn enum_names_are_distinct_snake_case() {
-        use crate::guard::{AlertCause, AlertLevel, WindSource};
-        use crate::mount::{MountKind, PierSide};
-        use crate::sense::{LevelCapture, SignedAxis, TerrainCategory, TiltReference};
-        let lists: [&[&str]; 9] = [
-            &[
-                Stage::Ground.name(),
-                Stage::Primary.name(),
-                Stage::Secondary.name(),
-            ],
-            &[
-                MassModel::Point.name(),
-                MassModel::Solid.name(),
-                MassModel::Shell.name(),
-            ],
-            &[MountKind::Equatorial.name(), MountKind::AltAzimuth.name()],
-            &[PierSide::TubeEast.name(), PierSide::TubeWest.name()],
-            &[
-                WindSource::Samples.name(),
-                WindSource::TenMinuteMeans.name(),
-            ],
-            &[
-                TerrainCategory::Cat0Sea.name(),
-                TerrainCategory::CatIFlat.name(),
-                TerrainCategory::CatIIOpen.name(),
-                TerrainCategory::CatIIISuburban.name(),
-                TerrainCategory::CatIVUrban.name(),
-            ],
-            &[
-                LevelCapture::Idle.name(),
-                LevelCapture::InProgress.name(),
-                LevelCapture::Done.name(),
-                LevelCapture::Failed.name(),
-            ],
-            &[
-                TiltReference::Absolute.name(),
-                TiltReference::LevelReference.name(),
-            ],
-            &[
-                SignedAxis::PlusX.name(),
-                SignedAxis::MinusX.name(),
-                SignedAxis::PlusY.name(),
-                SignedAxis::MinusY.name(),
-                SignedAxis::PlusZ.name(),
-                SignedAxis::MinusZ.name(),
-            ],
-        ];
-        let levels = AlertLevel::ALL.map(AlertLevel::name);
-        let cause = AlertCause::Settled.name();
-        for list in lists.iter().copied().chain([&levels[..], &[cause][..]]) {
-            for (i, a) in list.iter().enumerate() {
-                assert!(
-                    a.bytes()
-                        .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'_'),
-                    "{a}"
-                );
-                assert!(list.iter().skip(i + 1).all(|b| b != a), "{a}");
-            }
-        }
-    }
-
     /// A long label is cut at a character boundary, never in the middle of
     /// one (a two-byte character straddling byte 24).
     #[test]
