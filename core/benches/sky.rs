@@ -14,13 +14,9 @@ use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use standfast::air::Air;
 use standfast::drive::{DriveRating, Drives};
 use standfast::frame::Tilt;
-use standfast::heapless::Vec;
 use standfast::math::deg_to_rad;
-use standfast::mount::{MountGeometry, MountKind};
-use standfast::rig::{
-    BodySpec, CounterweightSpec, LegsSpec, MassModel, Rig, RigSpec, ShaftSpec, Stage,
-};
-use standfast::shape::{Exposure, Shape};
+use standfast::mount::MountGeometry;
+use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec, ShaftSpec, Stage};
 use standfast::sky::{ParkRequest, PayloadOffset, SkyGrid, SkyScan};
 use standfast::support::Support;
 use standfast::torque::PayloadPick;
@@ -28,87 +24,37 @@ use standfast::torque::PayloadPick;
 /// An invented rig: tripod with legs, 9 kg tube, mount head, two
 /// counterweights, a shaft and drives.
 fn rig() -> Rig {
-    let support = Support::tripod(0.55, 0.0).unwrap_or_else(|e| panic!("{e}"));
-    let mut bodies = Vec::new();
-    let tube = BodySpec {
-        stage: Stage::Secondary,
-        mass_kg: 9.0,
-        cg_m: [0.21, 0.04, 0.0],
-        exposure: Some(Exposure {
-            shape: Shape::Cylinder {
-                diameter_m: 0.24,
-                length_m: 0.95,
-                axis: [0.0, 1.0, 0.0],
-            },
-            centre_m: [0.21, 0.08, 0.0],
-            drag_coefficient: None,
-            end_drag_coefficient: None,
-        }),
-        mass_model: MassModel::Shell,
-        under_cover: true,
-        ..BodySpec::default()
-    };
-    let head = BodySpec {
-        stage: Stage::Primary,
-        mass_kg: 7.0,
-        cg_m: [0.0, 0.0, -0.1],
-        exposure: Some(Exposure {
-            shape: Shape::Box {
-                size_m: [0.2, 0.2, 0.25],
-                edges: None,
-            },
-            centre_m: [0.0, 0.0, -0.1],
-            drag_coefficient: None,
-            end_drag_coefficient: None,
-        }),
-        ..BodySpec::default()
-    };
-    let _ = bodies.push(tube);
-    let _ = bodies.push(head);
-    let mut counterweights = Vec::new();
-    for (m, l) in [(4.5, 0.27), (4.5, 0.32)] {
-        let _ = counterweights.push(CounterweightSpec {
-            mass_kg: m,
-            distance_m: l,
-            diameter_m: 0.12,
-            thickness_m: 0.045,
-            drag_coefficient: None,
-        });
-    }
     let rating = DriveRating {
         rated_nm: 15.0,
         repeated_peak_nm: 35.0,
         momentary_peak_nm: 70.0,
     };
-    let spec = RigSpec {
-        feet: support.feet().iter().copied().collect(),
-        legs: Some(LegsSpec {
-            mass_kg: 1.5,
-            diameter_m: 0.04,
-            top_height_m: 1.1,
-            top_radius_m: 0.1,
-        }),
-        friction_coefficient: 0.5,
-        mount: MountGeometry {
-            kind: MountKind::Equatorial,
-            latitude_rad: deg_to_rad(47.0),
-            axis_origin_m: [0.0, 0.0, 1.35],
-        },
-        bodies,
-        counterweights,
-        shaft: Some(ShaftSpec {
-            mass_kg: 0.9,
-            length_m: 0.42,
-            diameter_m: 0.02,
-        }),
-        cover: None,
-        ballast: Vec::new(),
-        drives: Some(Drives {
-            primary: rating,
-            secondary: rating,
-            slew_acceleration_rad_s2: 0.3,
-        }),
-    };
+    let spec = RigSpec::new(
+        &Support::tripod(0.55, 0.0).unwrap_or_else(|e| panic!("{e}")),
+        MountGeometry::equatorial(deg_to_rad(47.0), [0.0, 0.0, 1.35]),
+        0.5,
+    )
+    .with_legs(LegsSpec::new(1.5, 0.04, 1.1, 0.1))
+    .with_shaft(ShaftSpec::new(0.9, 0.42, 0.02))
+    .with_drives(Drives {
+        primary: rating,
+        secondary: rating,
+        slew_acceleration_rad_per_s2: 0.3,
+    })
+    .with_body(
+        BodySpec::optical_tube(9.0, 0.24, 0.95, [0.21, 0.08, 0.0]).with_cg_m([0.21, 0.04, 0.0]),
+    )
+    .and_then(|s| {
+        s.with_body(BodySpec::cuboid(
+            Stage::Primary,
+            7.0,
+            [0.0, 0.0, -0.1],
+            [0.2, 0.2, 0.25],
+        ))
+    })
+    .and_then(|s| s.with_counterweight(CounterweightSpec::disc(4.5, 0.27, 0.12, 0.045)))
+    .and_then(|s| s.with_counterweight(CounterweightSpec::disc(4.5, 0.32, 0.12, 0.045)))
+    .unwrap_or_else(|e| panic!("{e}"));
     Rig::new(&spec).unwrap_or_else(|e| panic!("{e}"))
 }
 

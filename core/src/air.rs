@@ -5,7 +5,7 @@
 //! temperature and pressure through the ideal-gas law. Dynamic pressure is
 //! q = ½ ρ V².
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math;
 
 /// ISO 2533 sea-level temperature T₀ = 288.15 K.
@@ -13,7 +13,7 @@ pub const ISA_T0_K: f32 = 288.15;
 /// ISO 2533 sea-level pressure p₀ = 101 325 Pa.
 pub const ISA_P0_PA: f32 = 101_325.0;
 /// ISO 2533 sea-level density ρ₀ = 1.225 kg/m³.
-pub const ISA_RHO0_KG_M3: f32 = 1.225;
+pub const ISA_RHO0_KG_PER_M3: f32 = 1.225;
 /// ISO 2533 tropospheric temperature lapse rate, 0.0065 K/m.
 pub const ISA_LAPSE_K_PER_M: f32 = 0.0065;
 /// Specific gas constant of dry air R = R*/M₀ = 287.052 87 J/(kg·K) (ISO 2533).
@@ -31,39 +31,39 @@ pub const MAX_ELEVATION_M: f32 = 11_000.0;
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct Air {
-    density_kg_m3: f32,
+    density_kg_per_m3: f32,
 }
 
 impl Default for Air {
     /// ISO 2533 sea-level air, 1.225 kg/m³.
     fn default() -> Self {
         Air {
-            density_kg_m3: ISA_RHO0_KG_M3,
+            density_kg_per_m3: ISA_RHO0_KG_PER_M3,
         }
     }
 }
 
 /// Lowest air density the model accepts, kg/m³ (about 11 km up in the
 /// standard atmosphere: no telescope site is higher).
-pub const MIN_DENSITY_KG_M3: f32 = 0.3;
+pub const MIN_DENSITY_KG_PER_M3: f32 = 0.3;
 /// Highest air density the model accepts, kg/m³: above the 1.92 kg/m³ of the
 /// densest air [`Air::from_temperature_pressure`] accepts (110 kPa at
 /// 200 K), so every accepted sample can be evaluated.
-pub const MAX_DENSITY_KG_M3: f32 = 2.0;
+pub const MAX_DENSITY_KG_PER_M3: f32 = 2.0;
 
 impl Air {
     /// Air of a given density.
     ///
     /// # Errors
-    /// Non-finite, or outside [`MIN_DENSITY_KG_M3`] to [`MAX_DENSITY_KG_M3`].
-    pub fn from_density(density_kg_m3: f32) -> Result<Air, Error> {
+    /// Non-finite, or outside [`MIN_DENSITY_KG_PER_M3`] to [`MAX_DENSITY_KG_PER_M3`].
+    pub fn from_density(density_kg_per_m3: f32) -> Result<Air, Error> {
         Error::check(
-            "air.density_kg_m3",
-            density_kg_m3,
-            MIN_DENSITY_KG_M3,
-            MAX_DENSITY_KG_M3,
+            Field::AirDensityKgPerM3,
+            density_kg_per_m3,
+            MIN_DENSITY_KG_PER_M3,
+            MAX_DENSITY_KG_PER_M3,
         )?;
-        Ok(Air { density_kg_m3 })
+        Ok(Air { density_kg_per_m3 })
     }
 
     /// ISO 2533 standard-atmosphere air at a geopotential elevation above mean
@@ -73,7 +73,7 @@ impl Air {
     /// Elevation outside [`MIN_ELEVATION_M`] to [`MAX_ELEVATION_M`].
     pub fn isa_at_elevation(elevation_m: f32) -> Result<Air, Error> {
         Error::check(
-            "site.elevation_m",
+            Field::SiteElevationM,
             elevation_m,
             MIN_ELEVATION_M,
             MAX_ELEVATION_M,
@@ -81,7 +81,7 @@ impl Air {
         let t = ISA_T0_K - ISA_LAPSE_K_PER_M * elevation_m;
         let p = ISA_P0_PA * math::powf(t / ISA_T0_K, ISA_PRESSURE_EXPONENT);
         Ok(Air {
-            density_kg_m3: p / (R_DRY_AIR_J_PER_KG_K * t),
+            density_kg_per_m3: p / (R_DRY_AIR_J_PER_KG_K * t),
         })
     }
 
@@ -92,23 +92,23 @@ impl Air {
     /// # Errors
     /// Temperature outside 200 to 330 K, pressure outside 40 to 110 kPa.
     pub fn from_temperature_pressure(temperature_k: f32, pressure_pa: f32) -> Result<Air, Error> {
-        Error::check("air.temperature_k", temperature_k, 200.0, 330.0)?;
-        Error::check("air.pressure_pa", pressure_pa, 40_000.0, 110_000.0)?;
+        Error::check(Field::AirTemperatureK, temperature_k, 200.0, 330.0)?;
+        Error::check(Field::AirPressurePa, pressure_pa, 40_000.0, 110_000.0)?;
         Ok(Air {
-            density_kg_m3: pressure_pa / (R_DRY_AIR_J_PER_KG_K * temperature_k),
+            density_kg_per_m3: pressure_pa / (R_DRY_AIR_J_PER_KG_K * temperature_k),
         })
     }
 
     /// Density in kg/m³.
     #[must_use]
-    pub fn density_kg_m3(self) -> f32 {
-        self.density_kg_m3
+    pub fn density_kg_per_m3(self) -> f32 {
+        self.density_kg_per_m3
     }
 
     /// Dynamic pressure q = ½ρV² in pascal for a wind speed in m/s.
     #[must_use]
     pub fn dynamic_pressure_pa(self, speed_mps: f32) -> f32 {
-        0.5 * self.density_kg_m3 * speed_mps * speed_mps
+        0.5 * self.density_kg_per_m3 * speed_mps * speed_mps
     }
 
     /// The wind speed in m/s whose dynamic pressure is `q_pa` (0 for q ≤ 0).
@@ -117,15 +117,16 @@ impl Air {
         if q_pa <= 0.0 {
             0.0
         } else {
-            math::sqrt(2.0 * q_pa / self.density_kg_m3)
+            math::sqrt(2.0 * q_pa / self.density_kg_per_m3)
         }
     }
 }
 
-/// Degrees Celsius to kelvin.
+/// A temperature in degrees Celsius (`celsius`) in kelvin, for the
+/// boundary where a reading in °C comes in (inside, temperatures are kelvin).
 #[must_use]
-pub fn celsius_to_kelvin(t_c: f32) -> f32 {
-    t_c + 273.15
+pub fn celsius_to_kelvin(celsius: f32) -> f32 {
+    celsius + 273.15
 }
 
 #[cfg(test)]
@@ -139,7 +140,10 @@ mod tests {
         for t in [200.0, 330.0] {
             for p in [40_000.0, 110_000.0] {
                 let a = Air::from_temperature_pressure(t, p).unwrap();
-                assert!(Air::from_density(a.density_kg_m3()).is_ok(), "{t} K {p} Pa");
+                assert!(
+                    Air::from_density(a.density_kg_per_m3()).is_ok(),
+                    "{t} K {p} Pa"
+                );
             }
         }
     }
@@ -149,7 +153,7 @@ mod tests {
     #[test]
     fn sea_level_isa() {
         let a = Air::isa_at_elevation(0.0).unwrap();
-        assert!((a.density_kg_m3() - 1.225).abs() < 2e-4);
+        assert!((a.density_kg_per_m3() - 1.225).abs() < 2e-4);
     }
 
     #[test]

@@ -1,7 +1,7 @@
 //! Drive ratings of the mount's two axes, in the strain-wave and worm-gear
 //! trade's terms.
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 
 /// Torque ratings of one axis drive at its output, N·m.
 ///
@@ -28,7 +28,7 @@ impl DriveRating {
     ///
     /// # Errors
     /// A non-finite or non-positive rating, or peaks below the rated torque.
-    pub fn validate(&self, field: &'static str) -> Result<(), Error> {
+    pub fn validate(&self, field: Field) -> Result<(), Error> {
         Error::check(field, self.rated_nm, 1e-3, 1e5)?;
         Error::check(field, self.repeated_peak_nm, self.rated_nm, 1e5)?;
         Error::check(field, self.momentary_peak_nm, self.repeated_peak_nm, 1e5)?;
@@ -47,7 +47,7 @@ pub struct Drives {
     pub secondary: DriveRating,
     /// Angular acceleration of a slew start or stop on either axis, rad/s².
     #[cfg_attr(feature = "serde", serde(default))]
-    pub slew_acceleration_rad_s2: f32,
+    pub slew_acceleration_rad_per_s2: f32,
 }
 
 impl Drives {
@@ -56,11 +56,11 @@ impl Drives {
     /// # Errors
     /// The first invalid field.
     pub fn validate(&self) -> Result<(), Error> {
-        self.primary.validate("drives.primary")?;
-        self.secondary.validate("drives.secondary")?;
+        self.primary.validate(Field::DrivesPrimary)?;
+        self.secondary.validate(Field::DrivesSecondary)?;
         Error::check(
-            "drives.slew_acceleration_rad_s2",
-            self.slew_acceleration_rad_s2,
+            Field::DrivesSlewAccelerationRadPerS2,
+            self.slew_acceleration_rad_per_s2,
             0.0,
             10.0,
         )?;

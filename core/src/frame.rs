@@ -13,7 +13,7 @@
 //! downhill direction, both in the rig frame; with tilt, gravity gains a
 //! component along the downhill direction.
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3};
 
 /// Horizontal unit vector (z = 0) at azimuth `az_rad` (from north, clockwise).
@@ -61,8 +61,13 @@ impl Tilt {
     /// # Errors
     /// Non-finite values, or a magnitude outside 0 to [`MAX_TILT_RAD`].
     pub fn new(magnitude_rad: f32, downhill_azimuth_rad: f32) -> Result<Tilt, Error> {
-        Error::check("tilt.magnitude_rad", magnitude_rad, 0.0, MAX_TILT_RAD)?;
-        Error::check("tilt.downhill_azimuth_rad", downhill_azimuth_rad, -1e4, 1e4)?;
+        Error::check(Field::TiltMagnitudeRad, magnitude_rad, 0.0, MAX_TILT_RAD)?;
+        Error::check(
+            Field::TiltDownhillAzimuthRad,
+            downhill_azimuth_rad,
+            -1e4,
+            1e4,
+        )?;
         Ok(Tilt {
             magnitude_rad,
             downhill_azimuth_rad: math::wrap_tau(downhill_azimuth_rad),
@@ -77,7 +82,7 @@ impl Tilt {
     pub fn from_gravity(down: Vec3) -> Result<Tilt, Error> {
         let g = down
             .normalized()
-            .ok_or(Error::new(ErrorKind::ZeroDirection, "tilt.gravity"))?;
+            .ok_or(Error::new(ErrorKind::ZeroDirection, Field::TiltGravity))?;
         let magnitude = math::acos(-g.z);
         Tilt::new(magnitude, azimuth_of(g))
     }
@@ -95,7 +100,7 @@ impl Tilt {
 /// *from* azimuth `from_rad` (meteorological convention), made perpendicular to
 /// gravity `g_unit` so that wind stays truly horizontal on tilted ground.
 #[must_use]
-pub fn wind_unit(from_rad: f32, g_unit: Vec3) -> Vec3 {
+pub(crate) fn wind_unit(from_rad: f32, g_unit: Vec3) -> Vec3 {
     let toward = -azimuth_unit(from_rad);
     toward.reject(g_unit).normalized().unwrap_or(toward)
 }

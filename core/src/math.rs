@@ -1,28 +1,54 @@
-//! Scalar functions and a small 3-vector, with the math back end chosen by feature.
+//! The 3-vector [`Vec3`], angle conversions ([`deg_to_rad`], [`rad_to_deg`],
+//! [`wrap_pi`], [`wrap_tau`]), [`clamp`], the square root the crate computes
+//! with ([`sqrt`]) and the constants its interfaces use. These are the public
+//! part of the module; the transcendental functions behind them are the
+//! crate's own.
 //!
-//! Every transcendental function the crate uses goes through this module, so the
-//! `libm` (default) and `micromath` features switch all of them at once. With both
-//! features on, `micromath` wins. Angles are radians everywhere.
+//! **The math back end is chosen by the final binary.** Every transcendental
+//! function the crate uses goes through this module. By default they are
+//! `libm`'s (always a dependency) and this module's own exact routines. The
+//! fast approximations of `micromath` replace all of them at once only when
+//! both hold:
+//! - the `micromath` feature of this crate is on (it makes them available;
+//!   any crate in the dependency graph may turn it on), and
+//! - the final binary sets `--cfg standfast_fast_math` in its compiler flags,
+//!   for example in its `.cargo/config.toml`:
+//!   `[build] rustflags = ["--cfg", "standfast_fast_math"]` (or
+//!   `RUSTFLAGS="--cfg standfast_fast_math"`).
+//!
+//! So a library that depends on this crate cannot move the numbers of the
+//! binary that links it: with the feature on and the flag unset the results
+//! are bit for bit the default ones (`tests/tests/checks/backends.rs`). The
+//! flag without the feature is a compile error. [`FAST_MATH`] tells which
+//! back end a build has. Angles are radians everywhere.
 //!
 //! **Single precision only.** On a Cortex-M4F the FPU does `f32` only, and any
 //! `f64` operation is a software routine of hundreds of instructions. Under
 //! `libm`, three functions are therefore this module's own `f32` code rather
-//! than libm's (whose `sinf`, `cosf` and `hypotf` compute in `f64`): [`sin`],
-//! [`cos`] and [`hypot`]; every other function is libm's `f32` routine, which
+//! than libm's (whose `sinf`, `cosf` and `hypotf` compute in `f64`): `sin`,
+//! `cos` and `hypot`; every other function is libm's `f32` routine, which
 //! uses no `f64`. [`sqrt`] is the FPU's `vsqrt.f32` on targets with a
 //! hardware-float ABI (`target_abi = "eabihf"`) and libm's `sqrtf` elsewhere:
 //! both are IEEE 754 square roots, correctly rounded, so the results are the
 //! same bits and a host replay still matches the firmware's exactly. The same
-//! `f32` code runs on every target, so [`sin`], [`cos`] and [`hypot`] give the
+//! `f32` code runs on every target, so `sin`, `cos` and `hypot` give the
 //! same bits on the host and on the board too. `firmware-example/ci.sh` checks
 //! the firmware's disassembly for software double-precision routines.
 
-#[cfg(not(any(feature = "libm", feature = "micromath")))]
-compile_error!("standfast needs a math back end: enable feature `libm` (default) or `micromath`");
+#[cfg(all(standfast_fast_math, not(feature = "micromath")))]
+compile_error!(
+    "`--cfg standfast_fast_math` selects micromath's approximations: enable standfast's \
+     `micromath` feature too"
+);
 
-#[cfg(feature = "micromath")]
+#[cfg(all(feature = "micromath", standfast_fast_math))]
 #[allow(unused_imports)]
 use micromath::F32Ext as _;
+
+/// True when this build computes with `micromath`'s fast approximations
+/// (feature `micromath` on and `--cfg standfast_fast_math` set by the final
+/// binary; see the module docs); false for the default, exact back end.
+pub const FAST_MATH: bool = cfg!(all(feature = "micromath", standfast_fast_math));
 
 /// π as `f32`.
 pub const PI: f32 = core::f32::consts::PI;
@@ -35,7 +61,7 @@ pub const STANDARD_GRAVITY_MPS2: f32 = 9.806_65;
 #[inline]
 #[must_use]
 pub fn sqrt(x: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         if x < 0.0 {
             return f32::NAN;
@@ -50,8 +76,7 @@ pub fn sqrt(x: f32) -> f32 {
         0.5 * (y + x / y)
     }
     #[cfg(all(
-        feature = "libm",
-        not(feature = "micromath"),
+        not(all(feature = "micromath", standfast_fast_math)),
         target_arch = "arm",
         target_abi = "eabihf"
     ))]
@@ -59,8 +84,7 @@ pub fn sqrt(x: f32) -> f32 {
         vsqrt_f32(x)
     }
     #[cfg(all(
-        feature = "libm",
-        not(feature = "micromath"),
+        not(all(feature = "micromath", standfast_fast_math)),
         not(all(target_arch = "arm", target_abi = "eabihf"))
     ))]
     {
@@ -81,8 +105,7 @@ pub fn sqrt(x: f32) -> f32 {
 /// `s0`. A call and a return more than the bare instruction, against about
 /// a hundred instructions of libm's integer square root.
 #[cfg(all(
-    feature = "libm",
-    not(feature = "micromath"),
+    not(all(feature = "micromath", standfast_fast_math)),
     target_arch = "arm",
     target_abi = "eabihf"
 ))]
@@ -100,8 +123,7 @@ fn vsqrt_f32(x: f32) -> f32 {
 /// The `vsqrt.f32` leaf function and its declaration (the only `unsafe` of
 /// the crate: `global_asm!` and the foreign declaration).
 #[cfg(all(
-    feature = "libm",
-    not(feature = "micromath"),
+    not(all(feature = "micromath", standfast_fast_math)),
     target_arch = "arm",
     target_abi = "eabihf"
 ))]
@@ -142,12 +164,12 @@ mod fpu {
 /// radians apart: no angle); otherwise the result never leaves [−1, 1].
 #[inline]
 #[must_use]
-pub fn sin(x: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn sin(x: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         x.sin()
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         sin_cos_f32(x).0
     }
@@ -157,12 +179,12 @@ pub fn sin(x: f32) -> f32 {
 /// single-precision routine, as [`sin`].
 #[inline]
 #[must_use]
-pub fn cos(x: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn cos(x: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         x.cos()
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         sin_cos_f32(x).1
     }
@@ -176,7 +198,7 @@ pub fn cos(x: f32) -> f32 {
 /// by their Taylor-like minimax polynomials on [−π/4, π/4] (coefficients
 /// close to the Taylor ones, adjusted for single precision; from memory of
 /// the usual single-precision set, checked by the unit tests against libm).
-#[cfg(all(feature = "libm", not(feature = "micromath")))]
+#[cfg(not(all(feature = "micromath", standfast_fast_math)))]
 #[inline]
 fn sin_cos_f32(x: f32) -> (f32, f32) {
     // π/2 = P1 + P2 + P3 to about 2^-50: 1.5703125 (8 significant bits),
@@ -215,12 +237,12 @@ fn sin_cos_f32(x: f32) -> (f32, f32) {
 /// Four-quadrant arc tangent of `y / x`, in radians in (−π, π].
 #[inline]
 #[must_use]
-pub fn atan2(y: f32, x: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn atan2(y: f32, x: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         y.atan2(x)
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         libm::atan2f(y, x)
     }
@@ -230,13 +252,13 @@ pub fn atan2(y: f32, x: f32) -> f32 {
 /// noise on a unit-vector dot product never yields NaN.
 #[inline]
 #[must_use]
-pub fn acos(x: f32) -> f32 {
+pub(crate) fn acos(x: f32) -> f32 {
     let x = clamp(x, -1.0, 1.0);
-    #[cfg(feature = "micromath")]
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         x.acos()
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         libm::acosf(x)
     }
@@ -245,13 +267,13 @@ pub fn acos(x: f32) -> f32 {
 /// Arc sine in radians; the argument is clamped to [−1, 1] first.
 #[inline]
 #[must_use]
-pub fn asin(x: f32) -> f32 {
+pub(crate) fn asin(x: f32) -> f32 {
     let x = clamp(x, -1.0, 1.0);
-    #[cfg(feature = "micromath")]
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         x.asin()
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         libm::asinf(x)
     }
@@ -260,12 +282,12 @@ pub fn asin(x: f32) -> f32 {
 /// Natural exponential eˣ.
 #[inline]
 #[must_use]
-pub fn exp(x: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn exp(x: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         x.exp()
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         libm::expf(x)
     }
@@ -274,8 +296,8 @@ pub fn exp(x: f32) -> f32 {
 /// Natural logarithm.
 #[inline]
 #[must_use]
-pub fn ln(x: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn ln(x: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         if x <= 0.0 || !x.is_finite() {
             return x.ln();
@@ -286,7 +308,7 @@ pub fn ln(x: f32) -> f32 {
         l += x * (-l).exp() - 1.0;
         l + x * (-l).exp() - 1.0
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         libm::logf(x)
     }
@@ -295,8 +317,8 @@ pub fn ln(x: f32) -> f32 {
 /// `x` raised to the real power `y`.
 #[inline]
 #[must_use]
-pub fn powf(x: f32, y: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn powf(x: f32, y: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         if x > 0.0 {
             exp(y * ln(x))
@@ -304,7 +326,7 @@ pub fn powf(x: f32, y: f32) -> f32 {
             x.powf(y)
         }
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         libm::powf(x, y)
     }
@@ -320,19 +342,19 @@ pub fn powf(x: f32, y: f32) -> f32 {
 /// infinite, else NaN if either is NaN (as C's `hypot`).
 #[inline]
 #[must_use]
-pub fn hypot(x: f32, y: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn hypot(x: f32, y: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         sqrt(x * x + y * y)
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         hypot_f32(x, y)
     }
 }
 
 /// See [`hypot`].
-#[cfg(all(feature = "libm", not(feature = "micromath")))]
+#[cfg(not(all(feature = "micromath", standfast_fast_math)))]
 #[inline]
 fn hypot_f32(x: f32, y: f32) -> f32 {
     /// 2^64 and 2^-64: squares of values up to 2^63 stay below f32::MAX
@@ -364,12 +386,12 @@ fn hypot_f32(x: f32, y: f32) -> f32 {
 /// Largest integer value not greater than `x`.
 #[inline]
 #[must_use]
-pub fn floor(x: f32) -> f32 {
-    #[cfg(feature = "micromath")]
+pub(crate) fn floor(x: f32) -> f32 {
+    #[cfg(all(feature = "micromath", standfast_fast_math))]
     {
         x.floor()
     }
-    #[cfg(all(feature = "libm", not(feature = "micromath")))]
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
         libm::floorf(x)
     }
@@ -571,7 +593,7 @@ mod tests {
 /// libm: the reference library the module used before; its `sinf`, `cosf` and
 /// `hypotf` compute in `f64`, correctly rounded or within about one unit in
 /// the last place).
-#[cfg(all(test, feature = "libm", not(feature = "micromath")))]
+#[cfg(all(test, not(all(feature = "micromath", standfast_fast_math))))]
 mod against_libm {
     use super::*;
 

@@ -35,7 +35,7 @@
 //! along the tube), p = cos h·f + sin h·ẑ. Mechanical angles are θ₁ = A,
 //! θ₂ = h.
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math::{self, Vec3, PI};
 
 /// The kind of mount.
@@ -51,6 +51,17 @@ pub enum MountKind {
     AltAzimuth,
 }
 
+impl MountKind {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            MountKind::Equatorial => "equatorial",
+            MountKind::AltAzimuth => "alt_azimuth",
+        }
+    }
+}
+
 /// Which way round an equatorial mount reaches a sky position (see the module
 /// docs). Ignored by alt-azimuth mounts.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
@@ -63,6 +74,17 @@ pub enum PierSide {
     TubeEast,
     /// θ₁ = H + π, θ₂ = π − δ: the usual side for targets east of the meridian.
     TubeWest,
+}
+
+impl PierSide {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            PierSide::TubeEast => "tube_east",
+            PierSide::TubeWest => "tube_west",
+        }
+    }
 }
 
 impl PierSide {
@@ -155,6 +177,30 @@ pub struct MountGeometry {
     pub axis_origin_m: [f32; 3],
 }
 
+impl MountGeometry {
+    /// An alt-azimuth mount at latitude `latitude_rad` (north positive) whose
+    /// axes meet at `axis_origin_m` (rig frame, metres).
+    #[must_use]
+    pub fn alt_azimuth(latitude_rad: f32, axis_origin_m: [f32; 3]) -> MountGeometry {
+        MountGeometry {
+            kind: MountKind::AltAzimuth,
+            latitude_rad,
+            axis_origin_m,
+        }
+    }
+
+    /// A German equatorial mount at latitude `latitude_rad` (north positive)
+    /// whose axes meet at `axis_origin_m` (rig frame, metres).
+    #[must_use]
+    pub fn equatorial(latitude_rad: f32, axis_origin_m: [f32; 3]) -> MountGeometry {
+        MountGeometry {
+            kind: MountKind::Equatorial,
+            latitude_rad,
+            axis_origin_m,
+        }
+    }
+}
+
 /// Horizontal coordinates (azimuth from north clockwise, altitude) of the
 /// direction with hour angle `h_rad` and declination `dec_rad` at latitude
 /// `lat_rad`, all radians. Standard spherical astronomy (Meeus, *Astronomical
@@ -194,10 +240,15 @@ impl MountGeometry {
     /// # Errors
     /// Latitude outside ±90°, axis origin outside ±10 m or below the ground.
     pub fn validate(&self) -> Result<(), Error> {
-        Error::check("mount.latitude_rad", self.latitude_rad, -PI / 2.0, PI / 2.0)?;
+        Error::check(
+            Field::MountLatitudeRad,
+            self.latitude_rad,
+            -PI / 2.0,
+            PI / 2.0,
+        )?;
         let o = Vec3::from_array(self.axis_origin_m);
-        Error::check_vec("mount.axis_origin_m", o, -10.0, 10.0)?;
-        Error::check("mount.axis_origin_m", o.z, 0.05, 10.0)?;
+        Error::check_vec(Field::MountAxisOriginM, o, -10.0, 10.0)?;
+        Error::check(Field::MountAxisOriginM, o.z, 0.05, 10.0)?;
         Ok(())
     }
 
@@ -212,8 +263,8 @@ impl MountGeometry {
                 primary_rad,
                 secondary_rad,
             } => {
-                Error::check("pose.primary_rad", primary_rad, -lim, lim)?;
-                Error::check("pose.secondary_rad", secondary_rad, -lim, lim)?;
+                Error::check(Field::PosePrimaryRad, primary_rad, -lim, lim)?;
+                Error::check(Field::PoseSecondaryRad, secondary_rad, -lim, lim)?;
                 Ok((primary_rad, secondary_rad))
             }
             Pose::Equatorial {
@@ -221,8 +272,13 @@ impl MountGeometry {
                 declination_rad,
                 pier_side,
             } => {
-                Error::check("pose.hour_angle_rad", hour_angle_rad, -lim, lim)?;
-                Error::check("pose.declination_rad", declination_rad, -PI / 2.0, PI / 2.0)?;
+                Error::check(Field::PoseHourAngleRad, hour_angle_rad, -lim, lim)?;
+                Error::check(
+                    Field::PoseDeclinationRad,
+                    declination_rad,
+                    -PI / 2.0,
+                    PI / 2.0,
+                )?;
                 match self.kind {
                     MountKind::Equatorial => {
                         Ok(side_angles(hour_angle_rad, declination_rad, pier_side))
@@ -239,8 +295,8 @@ impl MountGeometry {
                 altitude_rad,
                 pier_side,
             } => {
-                Error::check("pose.azimuth_rad", azimuth_rad, -lim, lim)?;
-                Error::check("pose.altitude_rad", altitude_rad, -PI / 2.0, PI / 2.0)?;
+                Error::check(Field::PoseAzimuthRad, azimuth_rad, -lim, lim)?;
+                Error::check(Field::PoseAltitudeRad, altitude_rad, -PI / 2.0, PI / 2.0)?;
                 match self.kind {
                     MountKind::AltAzimuth => Ok((azimuth_rad, altitude_rad)),
                     MountKind::Equatorial => {

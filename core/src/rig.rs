@@ -9,7 +9,7 @@
 
 use crate::air::Air;
 use crate::drive::Drives;
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::frame::{self, Tilt};
 use crate::math::{Vec3, STANDARD_GRAVITY_MPS2};
 use crate::mount::{MountGeometry, Pose, StageFrames};
@@ -52,6 +52,18 @@ pub enum Stage {
     Secondary,
 }
 
+impl Stage {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            Stage::Ground => "ground",
+            Stage::Primary => "primary",
+            Stage::Secondary => "secondary",
+        }
+    }
+}
+
 /// How a body's mass is spread, for its moment of inertia.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -67,6 +79,18 @@ pub enum MassModel {
     /// Mass in the wall of the exposed shape (thin-walled tube; a box's
     /// faces), as for an optical tube; a point mass without a shape.
     Shell,
+}
+
+impl MassModel {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            MassModel::Point => "point",
+            MassModel::Solid => "solid",
+            MassModel::Shell => "shell",
+        }
+    }
 }
 
 /// A free rigid body of the rig.
@@ -209,6 +233,331 @@ pub struct RigSpec {
     pub drives: Option<Drives>,
 }
 
+impl BodySpec {
+    /// A body whose mass sits at one point, `cg_m` in the frame of `stage`,
+    /// catching no wind (a camera, a battery inside a housing). Without a
+    /// shape the mass model is moot: any model counts it as a point mass; the
+    /// field keeps its default, as in a rig file that leaves it out.
+    #[must_use]
+    pub fn point(stage: Stage, mass_kg: f32, cg_m: [f32; 3]) -> BodySpec {
+        BodySpec {
+            stage,
+            mass_kg,
+            cg_m,
+            ..BodySpec::default()
+        }
+    }
+
+    /// A solid cylinder on `stage`: `diameter_m` across, `length_m` long
+    /// along `axis` (a direction in the stage frame, any length), centred at
+    /// `centre_m` (stage frame, metres), which is also its centre of
+    /// gravity and of wind pressure; published drag defaults.
+    #[must_use]
+    pub fn cylinder(
+        stage: Stage,
+        mass_kg: f32,
+        centre_m: [f32; 3],
+        diameter_m: f32,
+        length_m: f32,
+        axis: [f32; 3],
+    ) -> BodySpec {
+        BodySpec {
+            stage,
+            mass_kg,
+            cg_m: centre_m,
+            exposure: Some(Exposure {
+                shape: Shape::Cylinder {
+                    diameter_m,
+                    length_m,
+                    axis,
+                },
+                centre_m,
+                drag_coefficient: None,
+                end_drag_coefficient: None,
+            }),
+            mass_model: MassModel::Solid,
+            ..BodySpec::default()
+        }
+    }
+
+    /// A solid box on `stage` with edge lengths `size_m` along the stage
+    /// frame's axes, centred at `centre_m` (stage frame, metres), which is
+    /// also its centre of gravity and of wind pressure (a mount head, an
+    /// electronics case); the published drag default of a box.
+    #[must_use]
+    pub fn cuboid(stage: Stage, mass_kg: f32, centre_m: [f32; 3], size_m: [f32; 3]) -> BodySpec {
+        BodySpec {
+            stage,
+            mass_kg,
+            cg_m: centre_m,
+            exposure: Some(Exposure {
+                shape: Shape::Box {
+                    size_m,
+                    edges: None,
+                },
+                centre_m,
+                drag_coefficient: None,
+                end_drag_coefficient: None,
+            }),
+            mass_model: MassModel::Solid,
+            ..BodySpec::default()
+        }
+    }
+
+    /// An optical tube: a thin-walled cylinder on the secondary stage, its
+    /// axis along the stage's pointing direction p, centred at `centre_m`
+    /// (secondary-stage frame `[s, p, n]`, metres), shielded by the cover
+    /// when one is fitted. Move its centre of gravity with
+    /// [`BodySpec::with_cg_m`] when it is not at the middle of the tube.
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::BodySpec;
+    /// // 9 kg, 240 mm across, 950 mm long, 21 cm out along s from the axes.
+    /// let tube = BodySpec::optical_tube(9.0, 0.24, 0.95, [0.21, 0.08, 0.0])
+    ///     .labelled("tube")
+    ///     .with_cg_m([0.21, 0.04, 0.0]);
+    /// assert!(tube.under_cover);
+    /// assert_eq!(tube.label.as_str(), "tube");
+    /// ```
+    #[must_use]
+    pub fn optical_tube(
+        mass_kg: f32,
+        diameter_m: f32,
+        length_m: f32,
+        centre_m: [f32; 3],
+    ) -> BodySpec {
+        let mut b = BodySpec::cylinder(
+            Stage::Secondary,
+            mass_kg,
+            centre_m,
+            diameter_m,
+            length_m,
+            [0.0, 1.0, 0.0],
+        );
+        b.mass_model = MassModel::Shell;
+        b.under_cover = true;
+        b
+    }
+
+    /// The same body with the label `label`, cut to the label capacity (24
+    /// bytes) at a character boundary.
+    #[must_use]
+    pub fn labelled(mut self, label: &str) -> BodySpec {
+        self.label = label_of(label);
+        self
+    }
+
+    /// The same body with its centre of gravity at `cg_m` (stage frame,
+    /// metres); the wind still acts where its shape is.
+    #[must_use]
+    pub fn with_cg_m(mut self, cg_m: [f32; 3]) -> BodySpec {
+        self.cg_m = cg_m;
+        self
+    }
+
+    /// The same body with its mass spread as `mass_model`.
+    #[must_use]
+    pub fn with_mass_model(mut self, mass_model: MassModel) -> BodySpec {
+        self.mass_model = mass_model;
+        self
+    }
+
+    /// The same body, shielded (`true`) or not by a fitted cover.
+    #[must_use]
+    pub fn with_under_cover(mut self, under_cover: bool) -> BodySpec {
+        self.under_cover = under_cover;
+        self
+    }
+
+    /// The same body with a drag coefficient of its own for broadside flow
+    /// (see [`Exposure::drag_coefficient`]); no effect on a body without a
+    /// shape.
+    #[must_use]
+    pub fn with_drag_coefficient(mut self, drag_coefficient: f32) -> BodySpec {
+        if let Some(e) = self.exposure.as_mut() {
+            e.drag_coefficient = Some(drag_coefficient);
+        }
+        self
+    }
+}
+
+/// `text` as a [`Label`], cut at the last character boundary that fits.
+fn label_of(text: &str) -> Label {
+    let mut label = Label::new();
+    for c in text.chars() {
+        if label.push(c).is_err() {
+            break;
+        }
+    }
+    label
+}
+
+impl LegsSpec {
+    /// Three (or as many as there are feet) legs of `mass_kg` each and
+    /// `diameter_m` across, from the feet up to a head whose leg tops are
+    /// `top_radius_m` from the vertical axis at `top_height_m`.
+    #[must_use]
+    pub fn new(mass_kg: f32, diameter_m: f32, top_height_m: f32, top_radius_m: f32) -> LegsSpec {
+        LegsSpec {
+            mass_kg,
+            diameter_m,
+            top_height_m,
+            top_radius_m,
+        }
+    }
+}
+
+impl CounterweightSpec {
+    /// A disc counterweight of `mass_kg`, `diameter_m` across and
+    /// `thickness_m` thick, its centre `distance_m` along the shaft from the
+    /// axis origin; the published drag default.
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::rig::CounterweightSpec;
+    /// let cw = CounterweightSpec::disc(4.5, 0.27, 0.12, 0.045);
+    /// assert_eq!(cw.drag_coefficient, None);
+    /// ```
+    #[must_use]
+    pub fn disc(mass_kg: f32, distance_m: f32, diameter_m: f32, thickness_m: f32) -> Self {
+        CounterweightSpec {
+            mass_kg,
+            distance_m,
+            diameter_m,
+            thickness_m,
+            drag_coefficient: None,
+        }
+    }
+}
+
+impl ShaftSpec {
+    /// A solid counterweight shaft of `mass_kg`, `length_m` from the axis
+    /// origin to its end and `diameter_m` across.
+    #[must_use]
+    pub fn new(mass_kg: f32, length_m: f32, diameter_m: f32) -> ShaftSpec {
+        ShaftSpec {
+            mass_kg,
+            length_m,
+            diameter_m,
+        }
+    }
+}
+
+impl RigSpec {
+    /// A rig standing on `support`, with `mount` and the lower bound
+    /// `friction_coefficient` of static friction between feet and ground; no
+    /// bodies, legs, counterweights, shaft, cover, ballast or drives yet (add
+    /// them with the `with_` methods). Checked only by [`Rig::new`].
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::{BodySpec, MountGeometry, Rig, RigSpec, Support};
+    /// use standfast::math::deg_to_rad;
+    /// use standfast::rig::{LegsSpec, Stage};
+    ///
+    /// let spec = RigSpec::new(
+    ///     &Support::tripod(0.45, 0.0)?,
+    ///     MountGeometry::alt_azimuth(deg_to_rad(47.0), [0.0, 0.0, 1.25]),
+    ///     0.3,
+    /// )
+    /// .with_legs(LegsSpec::new(0.8, 0.03, 1.05, 0.06))
+    /// .with_body(BodySpec::optical_tube(5.0, 0.12, 0.7, [0.15, 0.1, 0.0]))?
+    /// .with_body(BodySpec::point(Stage::Ground, 4.0, [0.0, 0.0, 1.1]))?;
+    /// let rig = Rig::new(&spec)?;
+    /// assert_eq!(rig.support().feet().len(), 3);
+    /// # Ok::<(), standfast::Error>(())
+    /// ```
+    #[must_use]
+    pub fn new(support: &Support, mount: MountGeometry, friction_coefficient: f32) -> RigSpec {
+        RigSpec {
+            feet: support.feet_list(),
+            legs: None,
+            friction_coefficient,
+            mount,
+            bodies: Vec::new(),
+            counterweights: Vec::new(),
+            shaft: None,
+            cover: None,
+            ballast: Vec::new(),
+            drives: None,
+        }
+    }
+
+    /// The same description with `body` added.
+    ///
+    /// # Errors
+    /// [`ErrorKind::TooMany`] on `bodies` past [`MAX_BODIES`].
+    pub fn with_body(mut self, body: BodySpec) -> Result<RigSpec, Error> {
+        let n = self.bodies.len();
+        self.bodies
+            .push(body)
+            .map_err(|_| list_full(Field::Bodies, n, MAX_BODIES))?;
+        Ok(self)
+    }
+
+    /// The same description with the counterweight `cw` added.
+    ///
+    /// # Errors
+    /// [`ErrorKind::TooMany`] on `counterweights` past
+    /// [`MAX_COUNTERWEIGHTS`].
+    pub fn with_counterweight(mut self, cw: CounterweightSpec) -> Result<RigSpec, Error> {
+        let n = self.counterweights.len();
+        self.counterweights
+            .push(cw)
+            .map_err(|_| list_full(Field::Counterweights, n, MAX_COUNTERWEIGHTS))?;
+        Ok(self)
+    }
+
+    /// The same description with the ballast item `ballast` added.
+    ///
+    /// # Errors
+    /// [`ErrorKind::TooMany`] on `ballast` past [`MAX_BALLAST`].
+    pub fn with_ballast(mut self, ballast: BallastSpec) -> Result<RigSpec, Error> {
+        let n = self.ballast.len();
+        self.ballast
+            .push(ballast)
+            .map_err(|_| list_full(Field::Ballast, n, MAX_BALLAST))?;
+        Ok(self)
+    }
+
+    /// The same description with tripod legs.
+    #[must_use]
+    pub fn with_legs(mut self, legs: LegsSpec) -> RigSpec {
+        self.legs = Some(legs);
+        self
+    }
+
+    /// The same description with a counterweight shaft.
+    #[must_use]
+    pub fn with_shaft(mut self, shaft: ShaftSpec) -> RigSpec {
+        self.shaft = Some(shaft);
+        self
+    }
+
+    /// The same description with a cover.
+    #[must_use]
+    pub fn with_cover(mut self, cover: CoverSpec) -> RigSpec {
+        self.cover = Some(cover);
+        self
+    }
+
+    /// The same description with drive ratings.
+    #[must_use]
+    pub fn with_drives(mut self, drives: Drives) -> RigSpec {
+        self.drives = Some(drives);
+        self
+    }
+}
+
+/// A list that is full: `field` holds `len` items, at most `max`.
+fn list_full(field: Field, len: usize, max: usize) -> Error {
+    let mut e = Error::new(ErrorKind::TooMany, field);
+    e.value = (len + 1) as f32;
+    e.max = max as f32;
+    e
+}
+
 /// What a part is, for reports and for the cover and balance logic.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -308,43 +657,43 @@ impl Conditions {
     /// direction.
     pub fn validate(&self) -> Result<(), Error> {
         Error::check(
-            "conditions.wind_speed_mps",
+            Field::ConditionsWindSpeedMps,
             self.wind_speed_mps,
             0.0,
             MAX_WIND_SPEED_MPS,
         )?;
-        Error::check("conditions.wind_from_rad", self.wind_from_rad, -1e4, 1e4)?;
+        Error::check(Field::ConditionsWindFromRad, self.wind_from_rad, -1e4, 1e4)?;
         Error::check(
-            "conditions.tilt.magnitude_rad",
+            Field::ConditionsTiltMagnitudeRad,
             self.tilt.magnitude_rad,
             0.0,
             frame::MAX_TILT_RAD,
         )?;
         Error::check(
-            "conditions.tilt.downhill_azimuth_rad",
+            Field::ConditionsTiltDownhillAzimuthRad,
             self.tilt.downhill_azimuth_rad,
             -1e4,
             1e4,
         )?;
         Error::check(
-            "conditions.air.density_kg_m3",
-            self.air.density_kg_m3(),
-            crate::air::MIN_DENSITY_KG_M3,
-            crate::air::MAX_DENSITY_KG_M3,
+            Field::ConditionsAirDensityKgPerM3,
+            self.air.density_kg_per_m3(),
+            crate::air::MIN_DENSITY_KG_PER_M3,
+            crate::air::MAX_DENSITY_KG_PER_M3,
         )?;
         Ok(())
     }
 }
 
-fn check_mass(field: &'static str, m: f32, i: usize) -> Result<f32, Error> {
+fn check_mass(field: Field, m: f32, i: usize) -> Result<f32, Error> {
     Error::check(field, m, 1e-3, MAX_PART_MASS_KG).map_err(|e| e.at(i))
 }
 
-fn check_offset(field: &'static str, v: [f32; 3], i: usize) -> Result<Vec3, Error> {
+fn check_offset(field: Field, v: [f32; 3], i: usize) -> Result<Vec3, Error> {
     Error::check_vec(field, Vec3::from_array(v), -MAX_OFFSET_M, MAX_OFFSET_M).map_err(|e| e.at(i))
 }
 
-fn too_many(field: &'static str) -> Error {
+fn too_many(field: Field) -> Error {
     let mut e = Error::new(ErrorKind::TooMany, field);
     e.max = MAX_PARTS as f32;
     e
@@ -359,18 +708,23 @@ impl Rig {
     pub fn new(spec: &RigSpec) -> Result<Rig, Error> {
         let support = Support::new(&spec.feet)?;
         spec.mount.validate()?;
-        Error::check("friction_coefficient", spec.friction_coefficient, 0.0, 2.0)?;
+        Error::check(
+            Field::FrictionCoefficient,
+            spec.friction_coefficient,
+            0.0,
+            2.0,
+        )?;
         let mut parts: Vec<Part, MAX_PARTS> = Vec::new();
-        let mut push = |p: Part, field: &'static str| parts.push(p).map_err(|_| too_many(field));
+        let mut push = |p: Part, field: Field| parts.push(p).map_err(|_| too_many(field));
 
         for (i, b) in spec.bodies.iter().enumerate() {
             // A body with a shape may be massless: a drag-only surface (a
             // sign, a dew shield, a cable tray) whose mass is counted
             // elsewhere or negligible.
             if !(b.mass_kg == 0.0 && b.exposure.is_some()) {
-                check_mass("bodies.mass_kg", b.mass_kg, i)?;
+                check_mass(Field::BodiesMassKg, b.mass_kg, i)?;
             }
-            let cg = check_offset("bodies.cg_m", b.cg_m, i)?;
+            let cg = check_offset(Field::BodiesCgM, b.cg_m, i)?;
             if let Some(x) = &b.exposure {
                 x.validate().map_err(|e| e.at(i))?;
             }
@@ -384,14 +738,14 @@ impl Rig {
                     mass_model: b.mass_model,
                     under_cover: b.under_cover,
                 },
-                "bodies",
+                Field::Bodies,
             )?;
         }
         if let Some(l) = spec.legs {
-            Error::check("legs.mass_kg", l.mass_kg, 1e-3, 100.0)?;
-            Error::check("legs.diameter_m", l.diameter_m, 0.003, 0.3)?;
-            Error::check("legs.top_height_m", l.top_height_m, 0.1, 5.0)?;
-            Error::check("legs.top_radius_m", l.top_radius_m, 0.0, 1.0)?;
+            Error::check(Field::LegsMassKg, l.mass_kg, 1e-3, 100.0)?;
+            Error::check(Field::LegsDiameterM, l.diameter_m, 0.003, 0.3)?;
+            Error::check(Field::LegsTopHeightM, l.top_height_m, 0.1, 5.0)?;
+            Error::check(Field::LegsTopRadiusM, l.top_radius_m, 0.0, 1.0)?;
             for (i, f) in spec.feet.iter().enumerate() {
                 let foot = Vec3::new(f.position_m[0], f.position_m[1], 0.0);
                 let radial = foot.normalized().unwrap_or(Vec3::X);
@@ -417,20 +771,25 @@ impl Rig {
                         mass_model: MassModel::Solid,
                         under_cover: false,
                     },
-                    "legs",
+                    Field::Legs,
                 )?;
             }
         }
         for (i, c) in spec.counterweights.iter().enumerate() {
-            check_mass("counterweights.mass_kg", c.mass_kg, i)?;
-            Error::check("counterweights.distance_m", c.distance_m, 0.0, MAX_OFFSET_M)
+            check_mass(Field::CounterweightsMassKg, c.mass_kg, i)?;
+            Error::check(
+                Field::CounterweightsDistanceM,
+                c.distance_m,
+                0.0,
+                MAX_OFFSET_M,
+            )
+            .map_err(|e| e.at(i))?;
+            Error::check(Field::CounterweightsDiameterM, c.diameter_m, 0.01, 1.0)
                 .map_err(|e| e.at(i))?;
-            Error::check("counterweights.diameter_m", c.diameter_m, 0.01, 1.0)
-                .map_err(|e| e.at(i))?;
-            Error::check("counterweights.thickness_m", c.thickness_m, 0.002, 1.0)
+            Error::check(Field::CounterweightsThicknessM, c.thickness_m, 0.002, 1.0)
                 .map_err(|e| e.at(i))?;
             if let Some(cd) = c.drag_coefficient {
-                Error::check("counterweights.drag_coefficient", cd, 0.1, 3.0)
+                Error::check(Field::CounterweightsDragCoefficient, cd, 0.1, 3.0)
                     .map_err(|e| e.at(i))?;
             }
             push(
@@ -452,13 +811,13 @@ impl Rig {
                     mass_model: MassModel::Solid,
                     under_cover: false,
                 },
-                "counterweights",
+                Field::Counterweights,
             )?;
         }
         if let Some(s) = spec.shaft {
-            Error::check("shaft.mass_kg", s.mass_kg, 1e-3, 100.0)?;
-            Error::check("shaft.length_m", s.length_m, 0.01, MAX_OFFSET_M)?;
-            Error::check("shaft.diameter_m", s.diameter_m, 0.003, 0.2)?;
+            Error::check(Field::ShaftMassKg, s.mass_kg, 1e-3, 100.0)?;
+            Error::check(Field::ShaftLengthM, s.length_m, 0.01, MAX_OFFSET_M)?;
+            Error::check(Field::ShaftDiameterM, s.diameter_m, 0.003, 0.2)?;
             let c = [-0.5 * s.length_m, 0.0, 0.0];
             push(
                 Part {
@@ -479,12 +838,12 @@ impl Rig {
                     mass_model: MassModel::Solid,
                     under_cover: false,
                 },
-                "shaft",
+                Field::Shaft,
             )?;
         }
         if let Some(c) = spec.cover {
-            Error::check("cover.mass_kg", c.mass_kg, 0.0, MAX_PART_MASS_KG)?;
-            let centre = check_offset("cover.centre_m", c.centre_m, 0)?;
+            Error::check(Field::CoverMassKg, c.mass_kg, 0.0, MAX_PART_MASS_KG)?;
+            let centre = check_offset(Field::CoverCentreM, c.centre_m, 0)?;
             let exposure = Exposure {
                 shape: Shape::Box {
                     size_m: c.size_m,
@@ -505,13 +864,13 @@ impl Rig {
                     mass_model: MassModel::Shell,
                     under_cover: false,
                 },
-                "cover",
+                Field::Cover,
             )?;
         }
         for (i, b) in spec.ballast.iter().enumerate() {
-            check_mass("ballast.mass_kg", b.mass_kg, i)?;
-            let p = check_offset("ballast.position_m", b.position_m, i)?;
-            Error::check("ballast.position_m", p.z, 0.0, MAX_OFFSET_M).map_err(|e| e.at(i))?;
+            check_mass(Field::BallastMassKg, b.mass_kg, i)?;
+            let p = check_offset(Field::BallastPositionM, b.position_m, i)?;
+            Error::check(Field::BallastPositionM, p.z, 0.0, MAX_OFFSET_M).map_err(|e| e.at(i))?;
             push(
                 Part {
                     role: PartRole::Ballast(i as u8),
@@ -522,14 +881,14 @@ impl Rig {
                     mass_model: MassModel::Point,
                     under_cover: false,
                 },
-                "ballast",
+                Field::Ballast,
             )?;
         }
         if let Some(d) = &spec.drives {
             d.validate()?;
         }
         if parts.is_empty() {
-            let mut e = Error::new(ErrorKind::TooFew, "bodies");
+            let mut e = Error::new(ErrorKind::TooFew, Field::Bodies);
             e.min = 1.0;
             return Err(e);
         }
@@ -583,8 +942,8 @@ impl Rig {
     /// # Errors
     /// An invalid mass or position, or no room for another part.
     pub fn with_ballast(&self, mass_kg: f32, position_m: Vec3) -> Result<Rig, Error> {
-        check_mass("ballast.mass_kg", mass_kg, 0)?;
-        let p = check_offset("ballast.position_m", position_m.to_array(), 0)?;
+        check_mass(Field::BallastMassKg, mass_kg, 0)?;
+        let p = check_offset(Field::BallastPositionM, position_m.to_array(), 0)?;
         let mut rig = self.clone();
         let n = rig
             .parts
@@ -601,7 +960,7 @@ impl Rig {
                 mass_model: MassModel::Point,
                 under_cover: false,
             })
-            .map_err(|_| too_many("ballast"))?;
+            .map_err(|_| too_many(Field::Ballast))?;
         Ok(rig)
     }
 
@@ -631,8 +990,13 @@ impl Rig {
         pose: Pose,
         cover_fitted: bool,
     ) -> Result<Rig, Error> {
-        Error::check("measured.mass_kg", mass_kg, 1e-3, MAX_PART_MASS_KG)?;
-        Error::check_vec("measured.centre_m", centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
+        Error::check(Field::MeasuredMassKg, mass_kg, 1e-3, MAX_PART_MASS_KG)?;
+        Error::check_vec(
+            Field::MeasuredCentreM,
+            centre_m,
+            -MAX_OFFSET_M,
+            MAX_OFFSET_M,
+        )?;
         let placement = self.place(pose, Tilt::LEVEL, cover_fitted)?;
         let (mut m_moving, mut s_moving) = (0.0_f32, Vec3::ZERO);
         for p in placement.parts() {
@@ -643,7 +1007,7 @@ impl Rig {
         }
         let m_ground = mass_kg - m_moving;
         if m_ground.is_nan() || m_ground < 1e-3 {
-            let mut e = Error::new(ErrorKind::Inconsistent, "measured.mass_kg");
+            let mut e = Error::new(ErrorKind::Inconsistent, Field::MeasuredMassKg);
             e.value = mass_kg;
             e.min = m_moving + 1e-3;
             e.max = MAX_PART_MASS_KG;
@@ -656,7 +1020,7 @@ impl Rig {
             || c_ground.z < 0.0
             || c_ground.z > MAX_OFFSET_M;
         if outside {
-            let mut e = Error::new(ErrorKind::Inconsistent, "measured.centre_m");
+            let mut e = Error::new(ErrorKind::Inconsistent, Field::MeasuredCentreM);
             e.value = c_ground.z;
             e.min = 0.0;
             e.max = MAX_OFFSET_M;
@@ -679,7 +1043,7 @@ impl Rig {
                 mass_model: MassModel::Point,
                 under_cover: false,
             })
-            .map_err(|_| too_many("measured"))?;
+            .map_err(|_| too_many(Field::Measured))?;
         Ok(rig)
     }
 
@@ -894,10 +1258,10 @@ impl Placement<'_> {
         from_rad: f32,
         q_pa: f32,
     ) -> Result<JointResultant, Error> {
-        Error::check("joint.height_m", plane_z_m, 0.0, MAX_OFFSET_M)?;
-        Error::check_vec("joint.centre_m", centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
-        Error::check("joint.dynamic_pressure_pa", q_pa, 0.0, 1.0e5)?;
-        Error::check("joint.wind_from_rad", from_rad, -1e4, 1e4)?;
+        Error::check(Field::JointHeightM, plane_z_m, 0.0, MAX_OFFSET_M)?;
+        Error::check_vec(Field::JointCentreM, centre_m, -MAX_OFFSET_M, MAX_OFFSET_M)?;
+        Error::check(Field::JointDynamicPressurePa, q_pa, 0.0, 1.0e5)?;
+        Error::check(Field::JointWindFromRad, from_rad, -1e4, 1e4)?;
         let (mut f, mut m, mut mass) = (Vec3::ZERO, Vec3::ZERO, 0.0_f32);
         for p in self.parts() {
             if self.carried(&p.part, plane_z_m) {
@@ -925,4 +1289,75 @@ impl Placement<'_> {
 #[must_use]
 pub fn weight_n(mass_kg: f32) -> f32 {
     mass_kg * STANDARD_GRAVITY_MPS2
+}
+
+#[cfg(test)]
+mod builder_tests {
+    use super::*;
+    use crate::math::deg_to_rad;
+
+    /// The builders give the same description as the literal they stand for.
+    #[test]
+    fn builders_match_the_literal() {
+        let support = Support::tripod(0.55, 0.0).unwrap();
+        let mount = MountGeometry::equatorial(deg_to_rad(47.0), [0.0, 0.0, 1.3]);
+        let tube = BodySpec::optical_tube(9.0, 0.24, 0.95, [0.21, 0.08, 0.0])
+            .labelled("tube")
+            .with_cg_m([0.21, 0.04, 0.0]);
+        let literal = BodySpec {
+            label: Label::try_from("tube").unwrap(),
+            stage: Stage::Secondary,
+            mass_kg: 9.0,
+            cg_m: [0.21, 0.04, 0.0],
+            exposure: Some(Exposure {
+                shape: Shape::Cylinder {
+                    diameter_m: 0.24,
+                    length_m: 0.95,
+                    axis: [0.0, 1.0, 0.0],
+                },
+                centre_m: [0.21, 0.08, 0.0],
+                drag_coefficient: None,
+                end_drag_coefficient: None,
+            }),
+            mass_model: MassModel::Shell,
+            under_cover: true,
+        };
+        assert_eq!(tube, literal);
+        let spec = RigSpec::new(&support, mount, 0.3)
+            .with_body(tube)
+            .unwrap()
+            .with_counterweight(CounterweightSpec::disc(4.5, 0.27, 0.12, 0.045))
+            .unwrap()
+            .with_shaft(ShaftSpec::new(1.0, 0.4, 0.03));
+        assert_eq!(spec.feet, support.feet_list());
+        assert_eq!(spec.bodies.len(), 1);
+        assert_eq!(spec.counterweights.len(), 1);
+        assert!(Rig::new(&spec).is_ok());
+    }
+
+    /// A full list is a typed error naming the list and its capacity.
+    #[test]
+    fn a_full_list_is_an_error() {
+        let support = Support::tripod(0.5, 0.0).unwrap();
+        let mount = MountGeometry::alt_azimuth(0.8, [0.0, 0.0, 1.0]);
+        let mut spec = RigSpec::new(&support, mount, 0.3);
+        for _ in 0..MAX_BODIES {
+            spec = spec
+                .with_body(BodySpec::point(Stage::Ground, 1.0, [0.0; 3]))
+                .unwrap();
+        }
+        let e = spec
+            .with_body(BodySpec::point(Stage::Ground, 1.0, [0.0; 3]))
+            .unwrap_err();
+        assert_eq!(e.kind, ErrorKind::TooMany);
+        assert_eq!(e.max, MAX_BODIES as f32);
+    }
+
+    /// A long label is cut at a character boundary, never in the middle of
+    /// one (a two-byte character straddling byte 24).
+    #[test]
+    fn long_labels_are_cut_at_a_character() {
+        let b = BodySpec::point(Stage::Ground, 1.0, [0.0; 3]).labelled("aaaaaaaaaaaaaaaaaaaaaaaé");
+        assert_eq!(b.label.as_str(), "aaaaaaaaaaaaaaaaaaaaaaa");
+    }
 }

@@ -14,7 +14,7 @@
 //! as reproduced in the *Aeronautical Engineer's Data Book*, Fig. 5.13b:
 //! finite circular cylinders at subcritical Reynolds number, free ends.
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math::{self, Vec3};
 
 /// Cross-flow drag coefficient of a finite circular cylinder with free ends by
@@ -107,7 +107,7 @@ pub struct Exposure {
 /// Linear interpolation in a table of (x, y) pairs sorted by x; the end values
 /// hold outside the table.
 #[must_use]
-pub fn interpolate(table: &[(f32, f32)], x: f32) -> f32 {
+pub(crate) fn interpolate(table: &[(f32, f32)], x: f32) -> f32 {
     let (Some(first), Some(last)) = (table.first(), table.last()) else {
         return 0.0;
     };
@@ -167,7 +167,7 @@ pub fn cylinder_axial_cd(aspect: f32) -> f32 {
 /// frame's axes (rig coordinates) and the box's optional edge directions in
 /// the stage frame; `None` when the edges are zero or parallel.
 #[must_use]
-pub fn box_frame(stage_axes: &[Vec3; 3], edges: Option<[Vec3; 2]>) -> Option<[Vec3; 3]> {
+pub(crate) fn box_frame(stage_axes: &[Vec3; 3], edges: Option<[Vec3; 2]>) -> Option<[Vec3; 3]> {
     let Some([a, b]) = edges else {
         return Some(*stage_axes);
     };
@@ -180,7 +180,7 @@ pub fn box_frame(stage_axes: &[Vec3; 3], edges: Option<[Vec3; 2]>) -> Option<[Ve
 
 /// [`box_frame`] for a validated box, falling back to the stage axes.
 #[must_use]
-pub fn box_axes(stage_axes: &[Vec3; 3], edges: Option<[[f32; 3]; 2]>) -> [Vec3; 3] {
+pub(crate) fn box_axes(stage_axes: &[Vec3; 3], edges: Option<[[f32; 3]; 2]>) -> [Vec3; 3] {
     let e = edges.map(|[a, b]| [Vec3::from_array(a), Vec3::from_array(b)]);
     box_frame(stage_axes, e).unwrap_or(*stage_axes)
 }
@@ -198,46 +198,54 @@ impl Exposure {
                 length_m,
                 axis,
             } => {
-                Error::check("exposure.diameter_m", diameter_m, 0.001, MAX_SHAPE_SIZE_M)?;
-                Error::check("exposure.length_m", length_m, 0.001, MAX_SHAPE_SIZE_M)?;
+                Error::check(
+                    Field::ExposureDiameterM,
+                    diameter_m,
+                    0.001,
+                    MAX_SHAPE_SIZE_M,
+                )?;
+                Error::check(Field::ExposureLengthM, length_m, 0.001, MAX_SHAPE_SIZE_M)?;
                 let a = Vec3::from_array(axis);
-                Error::check_vec("exposure.axis", a, -1e3, 1e3)?;
+                Error::check_vec(Field::ExposureAxis, a, -1e3, 1e3)?;
                 if a.normalized().is_none() {
-                    return Err(Error::new(crate::ErrorKind::ZeroDirection, "exposure.axis"));
+                    return Err(Error::new(
+                        crate::ErrorKind::ZeroDirection,
+                        Field::ExposureAxis,
+                    ));
                 }
             }
             Shape::Box { size_m, edges } => {
                 for s in size_m {
-                    Error::check("exposure.size_m", s, 0.001, MAX_SHAPE_SIZE_M)?;
+                    Error::check(Field::ExposureSizeM, s, 0.001, MAX_SHAPE_SIZE_M)?;
                 }
                 if let Some([a, b]) = edges {
                     let (a, b) = (Vec3::from_array(a), Vec3::from_array(b));
-                    Error::check_vec("exposure.edges", a, -1e3, 1e3)?;
-                    Error::check_vec("exposure.edges", b, -1e3, 1e3)?;
+                    Error::check_vec(Field::ExposureEdges, a, -1e3, 1e3)?;
+                    Error::check_vec(Field::ExposureEdges, b, -1e3, 1e3)?;
                     if box_frame(&[Vec3::X, Vec3::Y, Vec3::Z], Some([a, b])).is_none() {
                         return Err(Error::new(
                             crate::ErrorKind::ZeroDirection,
-                            "exposure.edges",
+                            Field::ExposureEdges,
                         ));
                     }
                 }
             }
         }
         Error::check_vec(
-            "exposure.centre_m",
+            Field::ExposureCentreM,
             Vec3::from_array(self.centre_m),
             -MAX_SHAPE_SIZE_M,
             MAX_SHAPE_SIZE_M,
         )?;
         if let Some(cd) = self.drag_coefficient {
-            Error::check("exposure.drag_coefficient", cd, 0.1, 3.0)?;
+            Error::check(Field::ExposureDragCoefficient, cd, 0.1, 3.0)?;
         }
         if let Some(cd) = self.end_drag_coefficient {
-            Error::check("exposure.end_drag_coefficient", cd, 0.1, 3.0)?;
+            Error::check(Field::ExposureEndDragCoefficient, cd, 0.1, 3.0)?;
             if matches!(self.shape, Shape::Box { .. }) {
                 return Err(Error::new(
                     crate::ErrorKind::OutOfRange,
-                    "exposure.end_drag_coefficient",
+                    Field::ExposureEndDragCoefficient,
                 ));
             }
         }

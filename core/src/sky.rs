@@ -10,7 +10,7 @@
 //! (radians from north clockwise, k = 0..N_d).
 //!
 //! **Cost.** The scan evaluates, per kept pose, the gravity and inertia terms
-//! once and, per wind direction, one [`Loads`] (the overturning terms of every
+//! once and, per wind direction, one `Loads` (the overturning terms of every
 //! support edge) and the axis wind terms: about poses × N_d × (edges + 2)
 //! passes over the parts. The lowest tip wind of the grid is then refined at
 //! its pose by [`Rig::worst_wind`] (72 directions and a golden-section
@@ -25,14 +25,14 @@
 //! pose. Secure the rig anyway and stay inside the mount maker's limits.
 
 use crate::air::Air;
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::frame::Tilt;
 use crate::math::{self, Vec3, PI, STANDARD_GRAVITY_MPS2, TAU};
 use crate::mount::{MountGeometry, MountKind, PierSide, Pose};
 use crate::rig::{Conditions, PartRole, Rig, Stage, MAX_PART_MASS_KG};
 use crate::stability::{ratio, Loads};
 use crate::torque::{
-    centroidal_inertia_kg_m2, gravity_terms, parallel_axis_kg_m2, wind_terms_nm_per_pa, Axis,
+    centroidal_inertia_kg_m2, gravity_terms, parallel_axis_kg_m2, wind_terms_nm_per_pa, MountAxis,
     Payload, PayloadPick,
 };
 use heapless::Vec;
@@ -82,19 +82,19 @@ impl SkyGrid {
     /// The first field out of range.
     pub fn validate(&self) -> Result<(), Error> {
         Error::check(
-            "sky_grid.primary_steps",
+            Field::SkyGridPrimarySteps,
             f32::from(self.primary_steps),
             1.0,
             f32::from(MAX_GRID_STEPS),
         )?;
         Error::check(
-            "sky_grid.secondary_steps",
+            Field::SkyGridSecondarySteps,
             f32::from(self.secondary_steps),
             2.0,
             f32::from(MAX_GRID_STEPS),
         )?;
         Error::check(
-            "sky_grid.horizon_limit_rad",
+            Field::SkyGridHorizonLimitRad,
             self.horizon_limit_rad,
             -PI / 2.0,
             PI / 2.0,
@@ -225,12 +225,12 @@ impl SkyScan {
     pub fn validate(&self) -> Result<(), Error> {
         self.grid.validate()?;
         Error::check(
-            "sky_scan.wind_directions",
+            Field::SkyScanWindDirections,
             f32::from(self.wind_directions),
             1.0,
             f32::from(MAX_WIND_DIRECTIONS),
         )?;
-        Error::check("sky_scan.wind_speed_mps", self.wind_speed_mps, 0.0, 100.0)?;
+        Error::check(Field::SkyScanWindSpeedMps, self.wind_speed_mps, 0.0, 100.0)?;
         Tilt::new(self.tilt.magnitude_rad, self.tilt.downhill_azimuth_rad)?;
         Ok(())
     }
@@ -300,7 +300,7 @@ fn empty_extreme(pose: Pose) -> AxisExtreme {
 }
 
 fn no_pose() -> Error {
-    let mut e = Error::new(ErrorKind::TooFew, "sky_grid");
+    let mut e = Error::new(ErrorKind::TooFew, Field::SkyGrid);
     e.min = 1.0;
     e
 }
@@ -573,24 +573,24 @@ impl Rig {
         let drives = *self.require_drives()?;
         let payload = Payload::resolve(self, pick)?;
         if offsets.len() > MAX_ENVELOPE_ROWS {
-            let mut e = Error::new(ErrorKind::TooMany, "payload_envelope.offsets");
+            let mut e = Error::new(ErrorKind::TooMany, Field::PayloadEnvelopeOffsets);
             e.max = 16.0;
             return Err(e);
         }
         let mut state: Vec<(PayloadOffset, Interval, Interval), MAX_ENVELOPE_ROWS> = Vec::new();
         for (i, o) in offsets.iter().enumerate() {
             Error::check(
-                "payload_envelope.offsets",
+                Field::PayloadEnvelopeOffsets,
                 o.along_secondary_axis_m,
                 -5.0,
                 5.0,
             )
             .map_err(|e| e.at(i))?;
-            Error::check("payload_envelope.offsets", o.along_tube_m, -5.0, 5.0)
+            Error::check(Field::PayloadEnvelopeOffsets, o.along_tube_m, -5.0, 5.0)
                 .map_err(|e| e.at(i))?;
             let _ = state.push((*o, Interval::FULL, Interval::FULL));
         }
-        let alpha = drives.slew_acceleration_rad_s2;
+        let alpha = drives.slew_acceleration_rad_per_s2;
         let ratings = [drives.primary, drives.secondary];
         let g = STANDARD_GRAVITY_MPS2;
         let mut any = false;
@@ -615,7 +615,7 @@ impl Rig {
                 } else {
                     &mut rest
                 };
-                for (axis, t) in [Axis::Primary, Axis::Secondary]
+                for (axis, t) in [MountAxis::Primary, MountAxis::Secondary]
                     .into_iter()
                     .zip(target.iter_mut())
                 {
@@ -635,7 +635,7 @@ impl Rig {
                 let local = Vec3::new(o.along_secondary_axis_m, o.along_tube_m, 0.0);
                 let r = placement.to_rig(Stage::Secondary, local) - origin;
                 let per_kg = r.cross(gravity);
-                for (((axis, rating), base), extra) in [Axis::Primary, Axis::Secondary]
+                for (((axis, rating), base), extra) in [MountAxis::Primary, MountAxis::Secondary]
                     .into_iter()
                     .zip(ratings.iter())
                     .zip(rest.iter())
@@ -714,8 +714,8 @@ impl Rig {
     /// # Errors
     /// An invalid request, scan or extra pose (indexed).
     pub fn safest_park(&self, req: &ParkRequest, extra: &[Pose]) -> Result<ParkChoice, Error> {
-        Error::check("park.wind_speed_mps", req.wind_speed_mps, 0.0, 100.0)?;
-        Error::check("park.wind_from_rad", req.wind_from_rad, -1e4, 1e4)?;
+        Error::check(Field::ParkWindSpeedMps, req.wind_speed_mps, 0.0, 100.0)?;
+        Error::check(Field::ParkWindFromRad, req.wind_from_rad, -1e4, 1e4)?;
         if let Some(s) = &req.scan {
             s.validate()?;
         }

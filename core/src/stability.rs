@@ -22,7 +22,7 @@
 //! The model is static and quasi-steady: it uses the wind speed given (use a
 //! gust), rigid parts and no dynamic amplification. It is an estimate.
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2, TAU};
 use crate::rig::{Conditions, Placement, Rig, MAX_PARTS};
 use crate::support::{Edge, MAX_FEET};
@@ -74,7 +74,7 @@ pub struct Sliding {
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize))]
-pub struct Assessment {
+pub struct StabilityFigures {
     /// Every edge, counter-clockwise.
     pub edges: Vec<EdgeLoad, MAX_FEET>,
     /// The edge of highest utilisation (the first in `edges` on a tie).
@@ -100,7 +100,7 @@ pub struct Assessment {
 /// Gravity and wind moment terms of one edge: net moment = gravity + q·wind.
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub struct EdgeTerms {
+pub(crate) struct EdgeTerms {
     /// Overturning moment of the weights, N·m.
     pub gravity_over_nm: f32,
     /// Stabilising moment of the weights, N·m.
@@ -145,7 +145,7 @@ impl EdgeTerms {
 /// overturns, and 1.0 when nothing does either: neutral equilibrium, on the
 /// point of moving, never read as safe.
 #[must_use]
-pub fn ratio(over: f32, stab: f32) -> f32 {
+pub(crate) fn ratio(over: f32, stab: f32) -> f32 {
     if stab > 0.0 || stab.is_nan() {
         math::clamp(over / stab, 0.0, UTILISATION_CAP)
     } else if over > 0.0 {
@@ -174,7 +174,7 @@ struct Resultant {
 
 /// Wind-direction-specific loads on a placed rig.
 #[derive(Clone, Debug)]
-pub struct Loads {
+pub(crate) struct Loads {
     terms: Vec<EdgeTerms, MAX_FEET>,
     resultant: Resultant,
 }
@@ -387,7 +387,7 @@ fn edge_load(e: &Edge, t: &EdgeTerms, q_pa: f32) -> EdgeLoad {
 /// Scans a full turn of directions for the largest value of `f` (coarse steps
 /// of 5°, then golden-section refinement around the best), returning the value
 /// and the direction in radians [0, 2π).
-pub fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
+pub(crate) fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
     let step = TAU / DIRECTION_STEPS as f32;
     let mut best = (f32::NEG_INFINITY, 0.0_f32);
     for k in 0..DIRECTION_STEPS {
@@ -449,13 +449,25 @@ pub struct TiltMargin {
     pub edge: u8,
 }
 
-/// Ballast or tie-down needed to meet a target utilisation.
+/// Ballast needed to meet a target utilisation ([`Rig::ballast_needed`]).
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize))]
-pub struct Requirement {
-    /// Ballast mass, kg, or tie-down pull per foot, N (0: none needed).
-    pub amount: f32,
+pub struct BallastNeed {
+    /// Ballast mass, kg (0: none needed).
+    pub mass_kg: f32,
+    /// Wind direction that governs, radians from north clockwise.
+    pub worst_from_rad: f32,
+}
+
+/// Tie-down pull needed to meet a target utilisation
+/// ([`Rig::tie_down_needed`]).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize))]
+pub struct TieDownNeed {
+    /// Rated pull of the tie-down on every foot, N (0: none needed).
+    pub pull_per_foot_n: f32,
     /// Wind direction that governs, radians from north clockwise.
     pub worst_from_rad: f32,
 }
@@ -465,14 +477,14 @@ impl Rig {
     ///
     /// # Errors
     /// Invalid conditions (non-finite or out-of-range wind, tilt, pose, air).
-    pub fn assess(&self, c: &Conditions) -> Result<Assessment, Error> {
+    pub fn stability_figures(&self, c: &Conditions) -> Result<StabilityFigures, Error> {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let loads = Loads::new(&placement, c.wind_from_rad);
-        self.assessment(c, &placement, &loads)
+        self.figures(c, &placement, &loads)
     }
 
-    /// [`Rig::assess`] for `c`, and the critical-edge utilisation at a second
+    /// [`Rig::stability_figures`] for `c`, and the critical-edge utilisation at a second
     /// wind speed `other_speed_mps` (m/s, same direction, pose, tilt, cover
     /// and air): the same value as `assess` at that speed gives in
     /// `critical.utilisation`. The placement and wind loads, which do not
@@ -484,16 +496,16 @@ impl Rig {
     /// the speed. `None` only for a negative or non-finite second speed.
     ///
     /// # Errors
-    /// As [`Rig::assess`] for `c`.
-    pub fn assess_with_utilisation_at(
+    /// As [`Rig::stability_figures`] for `c`.
+    pub fn stability_figures_with_utilisation_at(
         &self,
         c: &Conditions,
         other_speed_mps: f32,
-    ) -> Result<(Assessment, Option<f32>), Error> {
+    ) -> Result<(StabilityFigures, Option<f32>), Error> {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let loads = Loads::new(&placement, c.wind_from_rad);
-        let a = self.assessment(c, &placement, &loads)?;
+        let a = self.figures(c, &placement, &loads)?;
         let u = if other_speed_mps.is_finite() && other_speed_mps >= 0.0 {
             let q = c.air.dynamic_pressure_pa(other_speed_mps);
             self.edge_loads(&loads, q).1.map(|e| e.utilisation)
@@ -521,17 +533,17 @@ impl Rig {
     }
 
     /// The assessment of `c` from its placement and loads.
-    fn assessment(
+    fn figures(
         &self,
         c: &Conditions,
         placement: &Placement<'_>,
         loads: &Loads,
-    ) -> Result<Assessment, Error> {
+    ) -> Result<StabilityFigures, Error> {
         let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
         let (edges, critical) = self.edge_loads(loads, q);
-        let critical = critical.ok_or(Error::new(ErrorKind::TooFew, "support.feet"))?;
+        let critical = critical.ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))?;
         let r = loads.resultant;
-        Ok(Assessment {
+        Ok(StabilityFigures {
             critical,
             edges,
             sliding: loads.sliding(q, self.friction_coefficient()),
@@ -617,7 +629,7 @@ impl Rig {
                 best = Some(m);
             }
         }
-        best.ok_or(Error::new(ErrorKind::TooFew, "support.feet"))
+        best.ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))
     }
 
     /// Ballast mass at `position_m` (rig frame) needed to keep every edge's
@@ -634,17 +646,17 @@ impl Rig {
         design_speed_mps: f32,
         target: f32,
         position_m: Vec3,
-    ) -> Result<Requirement, Error> {
+    ) -> Result<BallastNeed, Error> {
         c.validate()?;
-        Error::check("design_speed_mps", design_speed_mps, 0.0, 100.0)?;
-        Error::check("target_utilisation", target, 0.1, 1.0)?;
-        Error::check_vec("ballast.position_m", position_m, -5.0, 5.0)?;
+        Error::check(Field::DesignSpeedMps, design_speed_mps, 0.0, 100.0)?;
+        Error::check(Field::TargetUtilisation, target, 0.1, 1.0)?;
+        Error::check_vec(Field::BallastPositionM, position_m, -5.0, 5.0)?;
         if self
             .support()
             .inset_m(Vec3::new(position_m.x, position_m.y, 0.0))
             <= 0.0
         {
-            let mut e = Error::new(ErrorKind::Unreachable, "ballast.position_m");
+            let mut e = Error::new(ErrorKind::Unreachable, Field::BallastPositionM);
             e.value = position_m.x;
             return Err(e);
         }
@@ -664,8 +676,8 @@ impl Rig {
             }
             need
         });
-        Ok(Requirement {
-            amount: mass,
+        Ok(BallastNeed {
+            mass_kg: mass,
             worst_from_rad: from,
         })
     }
@@ -682,10 +694,10 @@ impl Rig {
         c: &Conditions,
         design_speed_mps: f32,
         target: f32,
-    ) -> Result<Requirement, Error> {
+    ) -> Result<TieDownNeed, Error> {
         c.validate()?;
-        Error::check("design_speed_mps", design_speed_mps, 0.0, 100.0)?;
-        Error::check("target_utilisation", target, 0.1, 1.0)?;
+        Error::check(Field::DesignSpeedMps, design_speed_mps, 0.0, 100.0)?;
+        Error::check(Field::TargetUtilisation, target, 0.1, 1.0)?;
         let bare = self.with_tie_downs(0.0)?;
         let placement = bare.place(c.pose, c.tilt, c.cover_fitted)?;
         let q = c.air.dynamic_pressure_pa(design_speed_mps);
@@ -706,8 +718,8 @@ impl Rig {
             }
             need
         });
-        Ok(Requirement {
-            amount: pull,
+        Ok(TieDownNeed {
+            pull_per_foot_n: pull,
             worst_from_rad: from,
         })
     }

@@ -5,7 +5,7 @@
 //! carries load but no edge runs through it. Edges are ordered
 //! counter-clockwise seen from above, so the inside lies to the left of each.
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::frame;
 use crate::math::{self, Vec3};
 use heapless::Vec;
@@ -89,7 +89,7 @@ impl Support {
     /// one line.
     pub fn new(feet: &[Foot]) -> Result<Support, Error> {
         if feet.len() < MIN_FEET {
-            let mut e = Error::new(ErrorKind::TooFew, "support.feet");
+            let mut e = Error::new(ErrorKind::TooFew, Field::SupportFeet);
             e.min = MIN_FEET as f32;
             e.value = feet.len() as f32;
             return Err(e);
@@ -98,14 +98,14 @@ impl Support {
         for (i, f) in feet.iter().enumerate() {
             for c in f.position_m {
                 Error::check(
-                    "support.feet.position_m",
+                    Field::SupportFeetPositionM,
                     c,
                     -MAX_FOOT_RADIUS_M,
                     MAX_FOOT_RADIUS_M,
                 )
                 .map_err(|e| e.at(i))?;
             }
-            Error::check("support.feet.tie_down_n", f.tie_down_n, 0.0, 1.0e5)
+            Error::check(Field::SupportFeetTieDownN, f.tie_down_n, 0.0, 1.0e5)
                 .map_err(|e| e.at(i))?;
             for (j, g) in list.iter().enumerate() {
                 let d = math::hypot(
@@ -113,13 +113,13 @@ impl Support {
                     f.position_m[1] - g.position_m[1],
                 );
                 if d < MIN_FOOT_SPACING_M {
-                    let mut e = Error::new(ErrorKind::DuplicateFoot, "support.feet").at(i);
+                    let mut e = Error::new(ErrorKind::DuplicateFoot, Field::SupportFeet).at(i);
                     e.value = j as f32;
                     return Err(e);
                 }
             }
             list.push(*f).map_err(|_| {
-                let mut e = Error::new(ErrorKind::TooMany, "support.feet");
+                let mut e = Error::new(ErrorKind::TooMany, Field::SupportFeet);
                 e.max = MAX_FEET as f32;
                 e.value = feet.len() as f32;
                 e
@@ -136,15 +136,24 @@ impl Support {
     ///
     /// # Errors
     /// Radius outside 0.05 to 10 m; non-finite azimuth.
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::Support;
+    /// let tripod = Support::tripod(0.45, 0.0)?; // one leg due north
+    /// let north = tripod.feet()[0].position_m;
+    /// assert!(north[0].abs() < 1e-6 && (north[1] - 0.45).abs() < 1e-6);
+    /// # Ok::<(), standfast::Error>(())
+    /// ```
     pub fn tripod(foot_circle_radius_m: f32, first_leg_azimuth_rad: f32) -> Result<Support, Error> {
         Error::check(
-            "support.foot_circle_radius_m",
+            Field::SupportFootCircleRadiusM,
             foot_circle_radius_m,
             0.05,
             MAX_FOOT_RADIUS_M,
         )?;
         Error::check(
-            "support.first_leg_azimuth_rad",
+            Field::SupportFirstLegAzimuthRad,
             first_leg_azimuth_rad,
             -1e4,
             1e4,
@@ -158,6 +167,118 @@ impl Support {
         Support::new(&feet)
     }
 
+    /// `count` feet equally spaced on a circle of radius `radius_m` about the
+    /// origin, the first at azimuth `first_azimuth_rad` (from north,
+    /// clockwise), the others following clockwise. No tie-downs.
+    ///
+    /// # Errors
+    /// A count outside 3 to [`MAX_FEET`]; a radius outside 0.05 to 10 m; a
+    /// non-finite azimuth.
+    pub fn on_circle(
+        count: usize,
+        radius_m: f32,
+        first_azimuth_rad: f32,
+    ) -> Result<Support, Error> {
+        Error::check(
+            Field::SupportFeet,
+            count as f32,
+            MIN_FEET as f32,
+            MAX_FEET as f32,
+        )?;
+        Error::check(
+            Field::SupportFootCircleRadiusM,
+            radius_m,
+            0.05,
+            MAX_FOOT_RADIUS_M,
+        )?;
+        Error::check(
+            Field::SupportFirstLegAzimuthRad,
+            first_azimuth_rad,
+            -1e4,
+            1e4,
+        )?;
+        let mut feet: Vec<Foot, MAX_FEET> = Vec::new();
+        let step = math::TAU / count as f32;
+        for k in 0..count {
+            let u = frame::azimuth_unit(first_azimuth_rad + k as f32 * step) * radius_m;
+            feet.push(Foot {
+                position_m: [u.x, u.y],
+                tie_down_n: 0.0,
+            })
+            .map_err(|_| Error::new(ErrorKind::TooMany, Field::SupportFeet))?;
+        }
+        Support::new(&feet)
+    }
+
+    /// A pier: a column standing on `anchor_count` anchor bolts on a circle
+    /// of radius `anchor_circle_radius_m` (the base flange's bolt circle),
+    /// the first anchor due north, each anchor rated to hold
+    /// `anchor_pull_n` newtons down (0 for a pier that only stands on its
+    /// base).
+    ///
+    /// # Errors
+    /// As [`Support::on_circle`]; a pull outside 0 to 100 kN.
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::Support;
+    /// let pier = Support::pier(4, 0.15, 5_000.0)?; // four anchors, 5 kN each
+    /// assert_eq!(pier.feet().len(), 4);
+    /// assert_eq!(pier.feet()[0].tie_down_n, 5_000.0);
+    /// # Ok::<(), standfast::Error>(())
+    /// ```
+    pub fn pier(
+        anchor_count: usize,
+        anchor_circle_radius_m: f32,
+        anchor_pull_n: f32,
+    ) -> Result<Support, Error> {
+        Error::check(Field::SupportFeetTieDownN, anchor_pull_n, 0.0, 1.0e5)?;
+        let base = Support::on_circle(anchor_count, anchor_circle_radius_m, 0.0)?;
+        base.with_tie_downs(anchor_pull_n)
+    }
+
+    /// A rectangular plate (a base board, a flat platform) resting on its
+    /// four corners, centred on the origin, `size_m = [east-west, north-south]`
+    /// metres. No tie-downs.
+    ///
+    /// # Errors
+    /// A side outside 0.05 to 10 m.
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::Support;
+    /// let plate = Support::plate([0.6, 0.4])?;
+    /// assert_eq!(plate.edges().len(), 4);
+    /// # Ok::<(), standfast::Error>(())
+    /// ```
+    pub fn plate(size_m: [f32; 2]) -> Result<Support, Error> {
+        let [w, d] = size_m;
+        Error::check(Field::SupportPlateSizeM, w, 0.05, MAX_FOOT_RADIUS_M)?;
+        Error::check(Field::SupportPlateSizeM, d, 0.05, MAX_FOOT_RADIUS_M)?;
+        let (x, y) = (0.5 * w, 0.5 * d);
+        let corner = |px: f32, py: f32| Foot {
+            position_m: [px, py],
+            tie_down_n: 0.0,
+        };
+        Support::new(&[corner(-x, -y), corner(x, -y), corner(x, y), corner(-x, y)])
+    }
+
+    /// The same support with every foot's tie-down rated `pull_n` newtons.
+    ///
+    /// # Errors
+    /// A pull outside 0 to 100 kN.
+    pub fn with_tie_downs(&self, pull_n: f32) -> Result<Support, Error> {
+        Error::check(Field::SupportFeetTieDownN, pull_n, 0.0, 1.0e5)?;
+        let mut feet = self.feet.clone();
+        for f in &mut feet {
+            f.tie_down_n = pull_n;
+        }
+        Ok(Support {
+            feet,
+            edges: self.edges.clone(),
+        })
+    }
+
     /// A tripod from its leg spread: the distance between two feet, metres.
     /// The foot circle radius is spread/√3.
     ///
@@ -167,7 +288,7 @@ impl Support {
         leg_spread_m: f32,
         first_leg_azimuth_rad: f32,
     ) -> Result<Support, Error> {
-        Error::check("support.leg_spread_m", leg_spread_m, 0.08, 17.0)?;
+        Error::check(Field::SupportLegSpreadM, leg_spread_m, 0.08, 17.0)?;
         Support::tripod(leg_spread_m / math::sqrt(3.0), first_leg_azimuth_rad)
     }
 
@@ -239,7 +360,7 @@ fn cross2(o: [f32; 2], a: [f32; 2], b: [f32; 2]) -> f32 {
 
 /// Convex hull (Andrew's monotone chain) as counter-clockwise edges.
 fn hull_edges(feet: &[Foot]) -> Result<Vec<Edge, MAX_FEET>, Error> {
-    let collinear = Error::new(ErrorKind::CollinearFeet, "support.feet");
+    let collinear = Error::new(ErrorKind::CollinearFeet, Field::SupportFeet);
     // Sort indices by (x, y) with an insertion sort: at most eight items.
     let mut idx: Vec<u8, MAX_FEET> = Vec::new();
     for i in 0..feet.len() {
@@ -322,6 +443,30 @@ fn hull_edges(feet: &[Foot]) -> Result<Vec<Edge, MAX_FEET>, Error> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Four feet on a circle of radius r stand on a square of side r·√2
+    /// and the support edge is r/√2 from the centre (plane geometry).
+    #[test]
+    fn four_feet_on_a_circle_make_a_square() {
+        let s = Support::on_circle(4, 0.5, 0.0).unwrap();
+        assert_eq!(s.edges().len(), 4);
+        let inset = s.inset_m(Vec3::ZERO);
+        assert!((inset - 0.5 / core::f32::consts::SQRT_2).abs() < 1e-6);
+        assert!(Support::on_circle(2, 0.5, 0.0).is_err());
+        assert!(Support::on_circle(MAX_FEET + 1, 0.5, 0.0).is_err());
+    }
+
+    /// A pier carries its anchors' rating on every foot; a plate of 0.6 m ×
+    /// 0.4 m is 0.2 m inset from its centre (the half of the short side).
+    #[test]
+    fn pier_and_plate() {
+        let p = Support::pier(3, 0.2, 2500.0).unwrap();
+        assert!(p.feet().iter().all(|f| f.tie_down_n == 2500.0));
+        assert!(Support::pier(3, 0.2, -1.0).is_err());
+        let plate = Support::plate([0.6, 0.4]).unwrap();
+        assert!((plate.inset_m(Vec3::ZERO) - 0.2).abs() < 1e-6);
+        assert!(Support::plate([0.0, 0.4]).is_err());
+    }
 
     fn foot(x: f32, y: f32) -> Foot {
         Foot {

@@ -33,7 +33,7 @@
 //! quasi-steady model; stay inside the mount maker's limits.
 
 use crate::drive::DriveRating;
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2};
 use crate::mount::StageFrames;
 use crate::rig::{Conditions, MassModel, Part, PartRole, Placement, Rig, RigSpec, Stage};
@@ -46,20 +46,20 @@ use crate::Tilt;
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 #[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
-pub enum Axis {
+pub(crate) enum MountAxis {
     /// The primary axis `k` (right ascension, or azimuth).
     Primary,
     /// The secondary axis `s` (declination, or altitude).
     Secondary,
 }
 
-impl Axis {
+impl MountAxis {
     /// True when parts fixed to `stage` turn about this axis.
     #[must_use]
     pub fn carries(self, stage: Stage) -> bool {
         match (self, stage) {
-            (_, Stage::Ground) | (Axis::Secondary, Stage::Primary) => false,
-            (Axis::Primary, _) | (Axis::Secondary, Stage::Secondary) => true,
+            (_, Stage::Ground) | (MountAxis::Secondary, Stage::Primary) => false,
+            (MountAxis::Primary, _) | (MountAxis::Secondary, Stage::Secondary) => true,
         }
     }
 
@@ -67,8 +67,8 @@ impl Axis {
     #[must_use]
     pub fn unit(self, frames: &StageFrames) -> Vec3 {
         match self {
-            Axis::Primary => frames.primary_axis(),
-            Axis::Secondary => frames.secondary_axis(),
+            MountAxis::Primary => frames.primary_axis(),
+            MountAxis::Secondary => frames.secondary_axis(),
         }
     }
 }
@@ -147,7 +147,7 @@ pub fn parallel_axis_kg_m2(centroidal_kg_m2: f32, mass_kg: f32, distance_m: f32)
 /// part's stage frame in rig coordinates (from [`Placement::axes`]). A point
 /// mass, or a distributed part without an exposed shape, gives 0.
 #[must_use]
-pub fn centroidal_inertia_kg_m2(part: &Part, stage_axes: &[Vec3; 3], dir: Vec3) -> f32 {
+pub(crate) fn centroidal_inertia_kg_m2(part: &Part, stage_axes: &[Vec3; 3], dir: Vec3) -> f32 {
     let Some(x) = part.exposure else {
         return 0.0;
     };
@@ -223,7 +223,7 @@ pub type PoseTerms = [AxisTerms; 2];
 /// for a placed rig; the wind terms are left 0. Uses the placement's gravity
 /// (ground tilt included) and its cover state.
 #[must_use]
-pub fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
+pub(crate) fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
     let frames = placement.frames();
     let origin = frames.origin_m;
     let mut out = [AxisTerms::default(); 2];
@@ -231,7 +231,7 @@ pub fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
         let r = p.cg_m - origin;
         let moment = r.cross(p.weight_n);
         let stage_axes = placement.axes(p.part.stage);
-        for (axis, t) in [Axis::Primary, Axis::Secondary]
+        for (axis, t) in [MountAxis::Primary, MountAxis::Secondary]
             .into_iter()
             .zip(out.iter_mut())
         {
@@ -256,7 +256,7 @@ pub fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
 /// (radians from north clockwise, meteorological convention), signed about
 /// each axis unit vector. The fitted cover hides the parts marked under cover.
 #[must_use]
-pub fn wind_terms_nm_per_pa(placement: &Placement<'_>, from_rad: f32) -> [f32; 2] {
+pub(crate) fn wind_terms_nm_per_pa(placement: &Placement<'_>, from_rad: f32) -> [f32; 2] {
     let frames = placement.frames();
     let origin = frames.origin_m;
     let (k, s) = (frames.primary_axis(), frames.secondary_axis());
@@ -280,7 +280,7 @@ pub fn wind_terms_nm_per_pa(placement: &Placement<'_>, from_rad: f32) -> [f32; 2
 
 /// Gravity, inertia and wind terms of both axes for a wind from `from_rad`.
 #[must_use]
-pub fn pose_terms(placement: &Placement<'_>, from_rad: f32) -> PoseTerms {
+pub(crate) fn pose_terms(placement: &Placement<'_>, from_rad: f32) -> PoseTerms {
     let mut t = gravity_terms(placement);
     let w = wind_terms_nm_per_pa(placement, from_rad);
     for (ti, wi) in t.iter_mut().zip(w) {
@@ -432,12 +432,12 @@ impl Payload {
             match found {
                 Some(p) if p.stage == Stage::Secondary => {}
                 Some(_) => {
-                    let mut e = Error::new(ErrorKind::OutOfRange, "payload.body").at(i.into());
+                    let mut e = Error::new(ErrorKind::OutOfRange, Field::PayloadBody).at(i.into());
                     e.value = f32::from(i);
                     return Err(e);
                 }
                 None => {
-                    let mut e = Error::new(ErrorKind::OutOfRange, "payload.body").at(i.into());
+                    let mut e = Error::new(ErrorKind::OutOfRange, Field::PayloadBody).at(i.into());
                     e.value = f32::from(i);
                     e.min = 0.0;
                     return Err(e);
@@ -445,7 +445,7 @@ impl Payload {
             }
         }
         if !rig.parts().iter().any(|p| me.contains(p)) {
-            let mut e = Error::new(ErrorKind::TooFew, "payload");
+            let mut e = Error::new(ErrorKind::TooFew, Field::Payload);
             e.min = 1.0;
             return Err(e);
         }
@@ -556,7 +556,7 @@ impl Balance {
             for (i, c) in out.counterweights.iter_mut().enumerate() {
                 c.distance_m += d;
                 if c.distance_m < 0.0 {
-                    let mut e = Error::new(ErrorKind::Unreachable, "counterweights.distance_m");
+                    let mut e = Error::new(ErrorKind::Unreachable, Field::CounterweightsDistanceM);
                     e.value = c.distance_m;
                     return Err(e.at(i));
                 }
@@ -590,7 +590,7 @@ impl Balance {
 }
 
 fn no_drives() -> Error {
-    let mut e = Error::new(ErrorKind::TooFew, "drives");
+    let mut e = Error::new(ErrorKind::TooFew, Field::Drives);
     e.min = 1.0;
     e
 }
@@ -605,13 +605,13 @@ impl Rig {
     /// Invalid conditions, or a mean speed outside 0 to the gust speed.
     pub fn axis_loads(&self, c: &Conditions, mean_wind_mps: f32) -> Result<AxisLoads, Error> {
         c.validate()?;
-        Error::check("mean_wind_mps", mean_wind_mps, 0.0, c.wind_speed_mps)?;
+        Error::check(Field::MeanWindMps, mean_wind_mps, 0.0, c.wind_speed_mps)?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let t = pose_terms(&placement, c.wind_from_rad);
         let q_mean = c.air.dynamic_pressure_pa(mean_wind_mps);
         let q_gust = c.air.dynamic_pressure_pa(c.wind_speed_mps);
         let drives = self.drives();
-        let alpha = drives.map_or(0.0, |d| d.slew_acceleration_rad_s2);
+        let alpha = drives.map_or(0.0, |d| d.slew_acceleration_rad_per_s2);
         let [tp, ts] = t;
         Ok(AxisLoads {
             primary: axis_torque(&tp, q_mean, q_gust, alpha, drives.map(|d| &d.primary)),
@@ -633,7 +633,7 @@ impl Rig {
         cover_fitted: bool,
         from_rad: f32,
     ) -> Result<PoseTerms, Error> {
-        Error::check("wind_from_rad", from_rad, -1e4, 1e4)?;
+        Error::check(Field::WindFromRad, from_rad, -1e4, 1e4)?;
         let placement = self.place(pose, tilt, cover_fitted)?;
         Ok(pose_terms(&placement, from_rad))
     }

@@ -54,7 +54,7 @@
 //! z = 0). Forces in newtons; a caller with kilograms multiplies by
 //! [`crate::math::STANDARD_GRAVITY_MPS2`].
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2};
 use crate::support::Support;
 
@@ -222,7 +222,7 @@ struct Sums {
     centre_m: Vec3,
 }
 
-fn reading_error(field: &'static str, i: usize, v: f32, u: f32) -> Error {
+fn reading_error(field: Field, i: usize, v: f32, u: f32) -> Error {
     let mut e = Error::check(field, v, -COVERAGE_K * u, MAX_READING_N)
         .err()
         .unwrap_or(Error::new(ErrorKind::OutOfRange, field));
@@ -230,7 +230,7 @@ fn reading_error(field: &'static str, i: usize, v: f32, u: f32) -> Error {
     e
 }
 
-fn sums(field: &'static str, support: &Support, loads_n: &[f32], u_n: f32) -> Result<Sums, Error> {
+fn sums(field: Field, support: &Support, loads_n: &[f32], u_n: f32) -> Result<Sums, Error> {
     let feet = support.feet();
     if loads_n.len() != feet.len() {
         let kind = if loads_n.len() < feet.len() {
@@ -279,7 +279,7 @@ fn spread_uncertainty_m(support: &Support, s: &Sums, n: Vec3, u_n: f32) -> f32 {
     u_n * math::sqrt(q) / s.total_n
 }
 
-fn check_angle(fields: [&'static str; 2], angle_rad: f32, u_rad: f32) -> Result<(), Error> {
+fn check_angle(fields: [Field; 2], angle_rad: f32, u_rad: f32) -> Result<(), Error> {
     let [angle, uncertainty] = fields;
     Error::check(angle, angle_rad, MIN_ANGLE_RAD, MAX_ANGLE_RAD)?;
     Error::check(uncertainty, u_rad, 0.0, MAX_ANGLE_RAD)?;
@@ -319,15 +319,15 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, Turn), Error>
             angle_uncertainty_rad,
         } => {
             Error::check(
-                "weighing.lift.raised_toward_rad",
+                Field::WeighingLiftRaisedTowardRad,
                 raised_toward_rad,
                 -1e4,
                 1e4,
             )?;
             check_angle(
                 [
-                    "weighing.lift.angle_rad",
-                    "weighing.lift.angle_uncertainty_rad",
+                    Field::WeighingLiftAngleRad,
+                    Field::WeighingLiftAngleUncertaintyRad,
                 ],
                 angle_rad,
                 angle_uncertainty_rad,
@@ -342,9 +342,9 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, Turn), Error>
             height_m,
             height_uncertainty_m,
         } => {
-            Error::check("weighing.lift.height_m", height_m, 0.001, 2.0)?;
+            Error::check(Field::WeighingLiftHeightM, height_m, 0.001, 2.0)?;
             Error::check(
-                "weighing.lift.height_uncertainty_m",
+                Field::WeighingLiftHeightUncertaintyM,
                 height_uncertainty_m,
                 0.0,
                 height_m,
@@ -361,7 +361,7 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, Turn), Error>
                     .map(|(_, f)| Vec3::new(f.position_m[0], f.position_m[1], 0.0))
             };
             let bad_mask = || {
-                let mut e = Error::new(ErrorKind::OutOfRange, "weighing.lift.lifted_mask");
+                let mut e = Error::new(ErrorKind::OutOfRange, Field::WeighingLiftLiftedMask);
                 e.value = f32::from(lifted_mask);
                 e
             };
@@ -379,13 +379,16 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, Turn), Error>
                 return Err(bad_mask());
             };
             let Some(along) = (b - a).normalized().filter(|_| len > LINE_TOLERANCE_M) else {
-                return Err(Error::new(ErrorKind::TooFew, "weighing.lift.resting_feet"));
+                return Err(Error::new(
+                    ErrorKind::TooFew,
+                    Field::WeighingLiftRestingFeet,
+                ));
             };
             for p in points(false) {
                 if (p - a).reject(along).norm() > LINE_TOLERANCE_M {
                     return Err(Error::new(
                         ErrorKind::Inconsistent,
-                        "weighing.lift.resting_feet",
+                        Field::WeighingLiftRestingFeet,
                     ));
                 }
             }
@@ -407,13 +410,13 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, Turn), Error>
                 if (off.norm() - base_m).abs() > LINE_TOLERANCE_M || off.dot(t) <= 0.0 {
                     return Err(Error::new(
                         ErrorKind::Inconsistent,
-                        "weighing.lift.lifted_feet",
+                        Field::WeighingLiftLiftedFeet,
                     ));
                 }
             }
             let s = height_m / base_m;
             Error::check(
-                "weighing.lift.height_m",
+                Field::WeighingLiftHeightM,
                 height_m,
                 0.001,
                 base_m * core::f32::consts::FRAC_1_SQRT_2,
@@ -422,7 +425,7 @@ fn lift_frame(support: &Support, g: LiftGeometry) -> Result<(Vec3, Turn), Error>
             let c = math::sqrt(1.0 - s * s);
             let angle = math::asin(s);
             Error::check(
-                "weighing.lift.angle_rad",
+                Field::WeighingLiftAngleRad,
                 angle,
                 MIN_ANGLE_RAD,
                 MAX_ANGLE_RAD,
@@ -460,12 +463,12 @@ fn height_from(d_m: f32, u_d_m: f32, turn: Turn) -> Estimate {
 /// The hard errors listed in the module docs, naming the `weighing.*` field.
 pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<MeasuredCentre, Error> {
     let u_n = Error::check(
-        "weighing.reading_uncertainty_n",
+        Field::WeighingReadingUncertaintyN,
         w.reading_uncertainty_n,
         1e-6,
         MAX_READING_UNCERTAINTY_N,
     )?;
-    let level = sums("weighing.level_n", support, w.level_n, u_n)?;
+    let level = sums(Field::WeighingLevelN, support, w.level_n, u_n)?;
     let n_feet = support.feet().len() as f32;
     let g = STANDARD_GRAVITY_MPS2;
     let mass = Estimate {
@@ -489,7 +492,7 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
     let mut lift_angle = None;
     if let Some(l) = &w.lift {
         let (t, turn) = lift_frame(support, l.geometry)?;
-        let lifted = sums("weighing.lift.loads_n", support, l.loads_n, u_n)?;
+        let lifted = sums(Field::WeighingLiftLoadsN, support, l.loads_n, u_n)?;
         let diff = lifted.total_n - level.total_n;
         let tol = COVERAGE_K * u_n * math::sqrt(2.0 * n_feet);
         checks.lift_total_difference_n = Some(diff);
@@ -516,8 +519,8 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
     if let Some(tip) = &w.tip {
         check_angle(
             [
-                "weighing.tip.angle_rad",
-                "weighing.tip.angle_uncertainty_rad",
+                Field::WeighingTipAngleRad,
+                Field::WeighingTipAngleUncertaintyRad,
             ],
             tip.angle_rad,
             tip.angle_uncertainty_rad,
@@ -529,7 +532,7 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
             .find(|e| (e.from == a && e.to == b) || (e.from == b && e.to == a))
             .ok_or(Error::new(
                 ErrorKind::Inconsistent,
-                "weighing.tip.edge_feet",
+                Field::WeighingTipEdgeFeet,
             ))?;
         let d = edge.inset_m(level.centre_m);
         let u_d = spread_uncertainty_m(support, &level, edge.outward, u_n);
@@ -559,7 +562,7 @@ pub fn centre_from_weighing(support: &Support, w: &Weighing<'_>) -> Result<Measu
     };
     if let Some(h) = height {
         if !h.value.is_finite() || !h.uncertainty.is_finite() {
-            return Err(Error::new(ErrorKind::NotFinite, "weighing.height_m"));
+            return Err(Error::new(ErrorKind::NotFinite, Field::WeighingHeightM));
         }
         checks.height_below_ground = h.value < -COVERAGE_K * h.uncertainty;
         checks.passed &= !checks.height_below_ground;

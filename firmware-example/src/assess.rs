@@ -12,6 +12,7 @@
 //! stability: its limits must come from an assessment of the rig.
 
 use crate::pose::MountPose;
+use standfast::error::{Field, Unit};
 use standfast::math::Vec3;
 use standfast::{Error, Tilt};
 
@@ -118,10 +119,29 @@ impl Limits {
         alarm_tilt_rad: f32,
         hold_ms: u32,
     ) -> Result<Self, Error> {
-        Error::check("limits.park_wind_mps", park_wind_mps, 1.0, 60.0)?;
-        Error::check("limits.alarm_wind_mps", alarm_wind_mps, park_wind_mps, 80.0)?;
         Error::check(
-            "limits.alarm_tilt_rad",
+            Field::External {
+                path: "limits.park_wind_mps",
+                unit: Unit::MetrePerSecond,
+            },
+            park_wind_mps,
+            1.0,
+            60.0,
+        )?;
+        Error::check(
+            Field::External {
+                path: "limits.alarm_wind_mps",
+                unit: Unit::MetrePerSecond,
+            },
+            alarm_wind_mps,
+            park_wind_mps,
+            80.0,
+        )?;
+        Error::check(
+            Field::External {
+                path: "limits.alarm_tilt_rad",
+                unit: Unit::Radian,
+            },
             alarm_tilt_rad,
             1e-4,
             standfast::frame::MAX_TILT_RAD,
@@ -131,7 +151,13 @@ impl Limits {
                 value: 86_400_001.0,
                 min: 0.0,
                 max: 86_400_000.0,
-                ..Error::new(standfast::ErrorKind::OutOfRange, "limits.hold_ms")
+                ..Error::new(
+                    standfast::ErrorKind::OutOfRange,
+                    Field::External {
+                        path: "limits.hold_ms",
+                        unit: Unit::Millisecond,
+                    },
+                )
             });
         }
         Ok(Limits {

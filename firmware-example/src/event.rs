@@ -101,8 +101,8 @@ pub enum EventKind {
     /// A sensor is usable again.
     FaultCleared(Source),
     /// The assessment's stage changed (names as [`crate::Assessment::stage`];
-    /// the guard's are [`standfast::guard::Stage::name`]).
-    Stage {
+    /// the guard's are [`standfast::guard::AlertLevel::name`]).
+    AlertLevel {
         /// The stage before.
         from: &'static str,
         /// The stage now.
@@ -144,7 +144,7 @@ impl fmt::Display for Event {
                 write!(f, "fault source={} cause={}", s.name(), c.name())
             }
             EventKind::FaultCleared(s) => write!(f, "fault_cleared source={}", s.name()),
-            EventKind::Stage { from, to } => write!(f, "stage from={from} to={to}"),
+            EventKind::AlertLevel { from, to } => write!(f, "stage from={from} to={to}"),
             EventKind::AssessFault(r) => {
                 write!(f, "fault sensor={} class={}", r.sensor, r.class)
             }

@@ -16,8 +16,8 @@
 //!
 //! It passes the guard's sensor faults on ([`Assess::raised_faults`], logged
 //! as `fault sensor=.. class=..` events, names by [`fault_names`]) and maps
-//! the verdict's stage to `park` ([`Stage::park_requested`]), `alarm`
-//! ([`Stage::alarm`]) and the stage name ([`Stage::name`]). The station's
+//! the verdict's stage to `park` ([`AlertLevel::park_requested`]), `alarm`
+//! ([`AlertLevel::alarm`]) and the stage name ([`AlertLevel::name`]). The station's
 //! own sensor-health supervision still overrides everything toward park and
 //! alarm.
 //!
@@ -34,16 +34,16 @@
 //! the mount maker's limits, local codes and licensed engineers.
 
 use crate::assess::{Assess, Assessment, LimitRule, RaisedFault, Samples};
+use standfast::bounded::Vec;
 use standfast::guard::{
-    Event as GuardEvent, Guard, GuardConfig, Inputs, Stage, WindSample as GuardWind, MAX_EVENTS,
+    AlertLevel, Event as GuardEvent, Guard, GuardConfig, Inputs, WindSample as GuardWind,
+    MAX_EVENTS,
 };
-use standfast::heapless::{String, Vec};
 use standfast::math::deg_to_rad;
-use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
-use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec};
+use standfast::mount::{MountGeometry, PierSide, Pose};
+use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec, Stage as MountStage};
 use standfast::sense::Fault;
 use standfast::sense::Millis;
-use standfast::shape::{Exposure, Shape};
 use standfast::support::Support;
 use standfast::Error;
 
@@ -70,64 +70,25 @@ pub fn example_rig() -> Result<Rig, Error> {
 /// # Errors
 /// Whatever [`Support::tripod`] rejects (not expected for these figures).
 pub fn example_rig_spec() -> Result<RigSpec, Error> {
-    let tripod = Support::tripod(0.45, 0.0)?;
-    let mut bodies = Vec::new();
-    let tube = BodySpec {
-        label: String::try_from("tube").unwrap_or_default(),
-        stage: standfast::rig::Stage::Secondary,
-        mass_kg: 5.0,
-        cg_m: [0.15, 0.1, 0.0],
-        exposure: Some(Exposure {
-            shape: Shape::Cylinder {
-                diameter_m: 0.12,
-                length_m: 0.7,
-                axis: [0.0, 1.0, 0.0],
-            },
-            centre_m: [0.15, 0.1, 0.0],
-            drag_coefficient: None,
-            end_drag_coefficient: None,
-        }),
-        ..BodySpec::default()
-    };
-    bodies.push(tube).ok();
-    bodies
-        .push(BodySpec {
-            mass_kg: 4.0,
-            cg_m: [0.0, 0.0, 1.1],
-            ..BodySpec::default()
-        })
-        .ok();
-    let mut counterweights = Vec::new();
-    counterweights
-        .push(CounterweightSpec {
-            mass_kg: 4.0,
-            distance_m: 0.25,
-            diameter_m: 0.1,
-            thickness_m: 0.06,
-            drag_coefficient: None,
-        })
-        .ok();
-    Ok(RigSpec {
-        feet: tripod.feet_list(),
-        legs: Some(LegsSpec {
-            mass_kg: 0.8,
-            diameter_m: 0.03,
-            top_height_m: 1.05,
-            top_radius_m: 0.06,
-        }),
-        friction_coefficient: 0.3,
-        mount: MountGeometry {
-            kind: MountKind::Equatorial,
-            latitude_rad: deg_to_rad(47.0),
-            axis_origin_m: [0.0, 0.0, 1.25],
-        },
-        bodies,
-        counterweights,
-        shaft: None,
-        cover: None,
-        ballast: Vec::new(),
-        drives: None,
-    })
+    RigSpec::new(
+        &Support::tripod(0.45, 0.0)?,
+        MountGeometry::equatorial(deg_to_rad(47.0), [0.0, 0.0, 1.25]),
+        0.3,
+    )
+    .with_legs(LegsSpec::new(0.8, 0.03, 1.05, 0.06))
+    .with_body(
+        BodySpec::cylinder(
+            MountStage::Secondary,
+            5.0,
+            [0.15, 0.1, 0.0],
+            0.12,
+            0.7,
+            [0.0, 1.0, 0.0],
+        )
+        .labelled("tube"),
+    )?
+    .with_body(BodySpec::point(MountStage::Ground, 4.0, [0.0, 0.0, 1.1]))?
+    .with_counterweight(CounterweightSpec::disc(4.0, 0.25, 0.1, 0.06))
 }
 
 /// The guard settings of the replay: [`GuardConfig::default()`] with a
@@ -154,7 +115,7 @@ pub fn example_guard_config() -> GuardConfig {
 pub struct GuardAssess<'r> {
     guard: Guard<'r>,
     backstop: Option<LimitRule>,
-    last_stage: Stage,
+    last_stage: AlertLevel,
     raised: Vec<RaisedFault, MAX_EVENTS>,
     events_lost: u16,
 }
@@ -187,7 +148,7 @@ impl<'r> GuardAssess<'r> {
         Ok(GuardAssess {
             // The guard starts unable to see (sensor_fault) until its
             // sensors have given readings.
-            last_stage: guard.stage(),
+            last_stage: guard.level(),
             guard,
             backstop,
             raised: Vec::new(),
@@ -203,7 +164,7 @@ impl<'r> GuardAssess<'r> {
 
     /// The guard's stage after the last step.
     #[must_use]
-    pub const fn guard_stage(&self) -> Stage {
+    pub const fn guard_stage(&self) -> AlertLevel {
         self.last_stage
     }
 
@@ -240,7 +201,7 @@ impl Assess for GuardAssess<'_> {
                 let _ = self.raised.push(fault_names(f));
             }
         }
-        let stage = verdict.stage;
+        let stage = verdict.level;
         self.last_stage = stage;
         let guard = Assessment {
             park: stage.park_requested(),

@@ -5,6 +5,7 @@
 //! assessment only in the step it arrived; what to assume in between (hold the
 //! last pose for a while, or take the worst pose) is the assessment's choice.
 
+use standfast::error::Field;
 use standfast::math;
 use standfast::Error;
 
@@ -31,12 +32,17 @@ impl MountPose {
     pub fn new(hour_angle_rad: f32, declination_rad: f32) -> Result<Self, Error> {
         let quarter = core::f32::consts::FRAC_PI_2 + 1e-6;
         Error::check(
-            "pose.hour_angle_rad",
+            Field::PoseHourAngleRad,
             hour_angle_rad,
             -4.0 * core::f32::consts::PI,
             4.0 * core::f32::consts::PI,
         )?;
-        Error::check("pose.declination_rad", declination_rad, -quarter, quarter)?;
+        Error::check(
+            Field::PoseDeclinationRad,
+            declination_rad,
+            -quarter,
+            quarter,
+        )?;
         Ok(MountPose {
             hour_angle_rad: math::wrap_pi(hour_angle_rad),
             declination_rad: math::clamp(

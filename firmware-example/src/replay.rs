@@ -488,7 +488,7 @@ pub struct Replay<'r> {
     header_seen: bool,
     last_t_ms: Option<u64>,
     rows: u32,
-    guard_stage: standfast::guard::Stage,
+    guard_stage: standfast::guard::AlertLevel,
     guard_events: heapless::Vec<Event, GUARD_EVENTS>,
 }
 
@@ -534,7 +534,7 @@ impl<'r> Replay<'r> {
 
     /// The guard's own events of the last step, without the backstop and
     /// the station: the faults it raised, then its stage change (names as
-    /// [`standfast::guard::Stage::name`], starting from the stage the guard
+    /// [`standfast::guard::AlertLevel::name`], starting from the stage the guard
     /// starts in, `sensor_fault`). The
     /// binaries print them as `guard event ...` lines; host-sim's
     /// `standfast replay --events` writes the same lines for the same rig and
@@ -614,7 +614,7 @@ impl<'r> Replay<'r> {
             let _ = self.guard_events.push(Event {
                 // The log's time never goes back (checked), so it is the station's.
                 t_ms: row.t_ms,
-                kind: EventKind::Stage {
+                kind: EventKind::AlertLevel {
                     from: self.guard_stage.name(),
                     to: stage.name(),
                 },

@@ -281,7 +281,7 @@ where
             last_step_ms: None,
             // Before its first assessment the station cannot see: both
             // lines start de-energised, as for the guard's sensor_fault.
-            stage: standfast::guard::Stage::SensorFault.name(),
+            stage: standfast::guard::AlertLevel::SensorFault.name(),
         }
     }
 
@@ -389,7 +389,7 @@ where
         }
         if self.stage != assessment.stage {
             push(
-                EventKind::Stage {
+                EventKind::AlertLevel {
                     from: self.stage,
                     to: assessment.stage,
                 },

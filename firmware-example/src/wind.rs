@@ -16,6 +16,7 @@
 //! rig frame (radians from north, clockwise).
 
 use core::sync::atomic::{AtomicU32, Ordering};
+use standfast::error::{Field, Unit};
 use standfast::Error;
 
 /// A running pulse total shared between an interrupt handler and the main
@@ -94,9 +95,33 @@ impl AnemometerCal {
     /// Slope outside (0, 100] m/s/Hz (checked as [1e-4, 100]), offset outside
     /// [0, 10] m/s, stall outside [0, 100] Hz, or non-finite values.
     pub fn new(slope_mps_per_hz: f32, offset_mps: f32, stall_hz: f32) -> Result<Self, Error> {
-        Error::check("anemometer.slope_mps_per_hz", slope_mps_per_hz, 1e-4, 100.0)?;
-        Error::check("anemometer.offset_mps", offset_mps, 0.0, 10.0)?;
-        Error::check("anemometer.stall_hz", stall_hz, 0.0, 100.0)?;
+        Error::check(
+            Field::External {
+                path: "anemometer.slope_mps_per_hz",
+                unit: Unit::MetrePerSecondPerHertz,
+            },
+            slope_mps_per_hz,
+            1e-4,
+            100.0,
+        )?;
+        Error::check(
+            Field::External {
+                path: "anemometer.offset_mps",
+                unit: Unit::MetrePerSecond,
+            },
+            offset_mps,
+            0.0,
+            10.0,
+        )?;
+        Error::check(
+            Field::External {
+                path: "anemometer.stall_hz",
+                unit: Unit::Hertz,
+            },
+            stall_hz,
+            0.0,
+            100.0,
+        )?;
         Ok(AnemometerCal {
             slope_mps_per_hz,
             offset_mps,

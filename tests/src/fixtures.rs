@@ -1,13 +1,12 @@
 //! Small rigs for the checks. Invented, except where a check says otherwise.
 
 use standfast::math::deg_to_rad;
-use standfast::mount::{MountGeometry, MountKind, Pose};
+use standfast::mount::{MountGeometry, Pose};
 use standfast::rig::{BodySpec, RigSpec, Stage};
-use standfast::shape::{Exposure, Shape};
 use standfast::support::{Foot, Support};
 
 /// Feet of a support as a heapless list.
-pub fn feet_of(s: &Support) -> standfast::heapless::Vec<Foot, 8> {
+pub fn feet_of(s: &Support) -> standfast::bounded::Vec<Foot, 8> {
     s.feet_list()
 }
 
@@ -25,40 +24,24 @@ pub fn post_rig(
     // Cylinder 0.25 m across and 0.74 m long; its drag coefficient is set so
     // that Cd·A equals the requested drag area whatever the wind direction.
     let (d, l) = (0.25_f32, 0.74_f32);
-    let mut bodies = standfast::heapless::Vec::new();
-    let _ = bodies.push(BodySpec {
-        label: standfast::heapless::String::try_from("post").unwrap(),
-        stage: Stage::Ground,
+    let post = BodySpec::cylinder(
+        Stage::Ground,
         mass_kg,
-        cg_m,
-        exposure: Some(Exposure {
-            shape: Shape::Cylinder {
-                diameter_m: d,
-                length_m: l,
-                axis: [0.0, 0.0, 1.0],
-            },
-            centre_m: [0.0, 0.0, h_m],
-            drag_coefficient: Some(cd_a_m2 / (d * l)),
-            end_drag_coefficient: None,
-        }),
-        ..BodySpec::default()
-    });
-    RigSpec {
-        feet: feet_of(support),
-        legs: None,
-        friction_coefficient: mu,
-        mount: MountGeometry {
-            kind: MountKind::AltAzimuth,
-            latitude_rad: deg_to_rad(45.0),
-            axis_origin_m: [0.0, 0.0, 1.0],
-        },
-        bodies,
-        counterweights: standfast::heapless::Vec::new(),
-        shaft: None,
-        cover: None,
-        ballast: standfast::heapless::Vec::new(),
-        drives: None,
-    }
+        [0.0, 0.0, h_m],
+        d,
+        l,
+        [0.0, 0.0, 1.0],
+    )
+    .labelled("post")
+    .with_cg_m(cg_m)
+    .with_drag_coefficient(cd_a_m2 / (d * l));
+    RigSpec::new(
+        support,
+        MountGeometry::alt_azimuth(deg_to_rad(45.0), [0.0, 0.0, 1.0]),
+        mu,
+    )
+    .with_body(post)
+    .unwrap()
 }
 
 /// An alt-azimuth pose.

@@ -19,7 +19,7 @@
 use crate::fixtures::{altaz, post_rig};
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::transition::{settled_below, wanted, Figures};
-use standfast::guard::{Event, Guard, GuardConfig, Inputs, Stage, Verdict};
+use standfast::guard::{AlertLevel, Event, Guard, GuardConfig, Inputs, Verdict};
 use standfast::rig::{BodySpec, Rig, Stage as MountStage};
 use standfast::sense::Millis;
 use standfast::support::Support;
@@ -45,7 +45,7 @@ pub fn rig() -> Rig {
     spec.drives = Some(Drives {
         primary: r,
         secondary: r,
-        slew_acceleration_rad_s2: 0.0,
+        slew_acceleration_rad_per_s2: 0.0,
     });
     Rig::new(&spec).unwrap()
 }
@@ -106,7 +106,7 @@ pub fn figures(v: &Verdict) -> Option<Figures> {
 pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(), String> {
     let t = config.thresholds();
     let mut guard = Guard::new(rig, config, Millis(1_000_000)).expect("a valid configuration");
-    if guard.stage() != Stage::SensorFault {
+    if guard.level() != AlertLevel::SensorFault {
         return Err("a new guard must start in sensor_fault".to_owned());
     }
     let mut now: i64 = 1_000_000;
@@ -119,7 +119,7 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
         }
         now = now.saturating_add(s.dt_ms).clamp(0, i64::MAX / 2);
         let reversed = now < last_now;
-        let before = guard.stage();
+        let before = guard.level();
         let v = guard.step(Millis(u64::try_from(now).unwrap_or(0)), &s.inputs);
         last_now = last_now.max(now);
         let fail = |what: &str| Err(format!("step {i}: {what}\nstep: {s:?}\nverdict: {v:?}"));
@@ -146,10 +146,10 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
             return fail("a bad sample or a reversed clock raised no fault");
         }
         // 4.
-        if !v.faults.is_empty() && v.stage != Stage::SensorFault {
+        if !v.faults.is_empty() && v.level != AlertLevel::SensorFault {
             return fail("a fault outside sensor_fault");
         }
-        if v.park_pose.is_some() != v.stage.park_requested() {
+        if v.park_pose.is_some() != v.level.park_requested() {
             return fail("a park request without a park pose, or the reverse");
         }
         // 1.
@@ -157,41 +157,43 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
             let Some(f) = figures(&v) else {
                 return fail("no fault, yet figures are missing");
             };
-            if v.stage < wanted(&f, &t).0 {
+            if v.level < wanted(&f, &t).0 {
                 return fail("below the wanted level");
             }
         }
         // 2. and 5.
         for e in &v.events {
-            let Event::StageChanged { from, to, .. } = *e else {
+            let Event::LevelChanged { from, to, .. } = *e else {
                 continue;
             };
             if from != before {
                 return fail("a change from a level the guard was not at");
             }
-            if to < from && from != Stage::SensorFault {
+            if to < from && from != AlertLevel::SensorFault {
                 if latched {
                     return fail("a latched alarm stepped down");
                 }
                 let Some(f) = figures(&v) else {
                     return fail("a step down without figures");
                 };
-                let left = Stage::ALL.into_iter().filter(|l| *l > to && *l <= from);
+                let left = AlertLevel::ALL
+                    .into_iter()
+                    .filter(|l| *l > to && *l <= from);
                 if left.clone().any(|l| !settled_below(l, &f, &t)) {
                     return fail("a step down with a figure in the band of a level left");
                 }
             }
-            if latched && from == Stage::SensorFault && to < Stage::Alarm {
+            if latched && from == AlertLevel::SensorFault && to < AlertLevel::Alarm {
                 return fail("a fault cleared below a latched alarm");
             }
         }
         // An alarm entered because a figure reached its threshold latches; one
         // resumed after a fault keeps the latch it had.
-        let at_threshold = figures(&v).is_some_and(|f| wanted(&f, &t).0 == Stage::Alarm);
-        if v.stage == Stage::Alarm && before != Stage::Alarm && at_threshold {
+        let at_threshold = figures(&v).is_some_and(|f| wanted(&f, &t).0 == AlertLevel::Alarm);
+        if v.level == AlertLevel::Alarm && before != AlertLevel::Alarm && at_threshold {
             latched = true;
         }
-        if latched && v.stage < Stage::Alarm {
+        if latched && v.level < AlertLevel::Alarm {
             return fail("a latched alarm left without acknowledgement");
         }
     }

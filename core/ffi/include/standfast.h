@@ -26,7 +26,7 @@
 /**
  * The rig image format version this library reads (see `image`).
  */
-#define SF_RIG_IMAGE_VERSION 1
+#define SF_RIG_IMAGE_VERSION 2
 
 /**
  * Largest rig image accepted, bytes.
@@ -215,7 +215,7 @@ typedef struct SfInputs {
 } SfInputs;
 
 /**
- * The guard's stage (`standfast::guard::Stage`), in rising severity.
+ * The guard's stage (`standfast::guard::AlertLevel`), in rising severity.
  */
 typedef uint32_t SfStage;
 
@@ -296,7 +296,7 @@ typedef struct SfFault {
 typedef uint32_t SfEventKind;
 
 /**
- * What drove a stage change (`standfast::guard::Cause`).
+ * What drove a stage change (`standfast::guard::AlertCause`).
  */
 typedef uint32_t SfCause;
 

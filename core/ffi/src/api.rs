@@ -27,7 +27,7 @@ use crate::types::*;
 /// a mismatch.
 pub const SF_ABI_VERSION: u32 = 1;
 /// The rig image format version this library reads (see `image`).
-pub const SF_RIG_IMAGE_VERSION: u32 = 1;
+pub const SF_RIG_IMAGE_VERSION: u32 = 2;
 /// Largest rig image accepted, bytes.
 pub const SF_RIG_IMAGE_MAX_BYTES: usize = 16384;
 /// Bytes of caller storage a guard needs (checked at run time). Holds the
@@ -108,7 +108,7 @@ impl SfError {
         SfError {
             has_index: u8::from(e.index.is_some()),
             index: e.index.unwrap_or(0),
-            ..SfError::range(error_code(e.kind), e.field, e.value, e.min, e.max)
+            ..SfError::range(error_code(e.kind), e.field.path(), e.value, e.min, e.max)
         }
     }
 
@@ -337,7 +337,7 @@ pub(crate) fn inputs_of(i: &SfInputs) -> Result<Inputs, SfError> {
         None
     };
     let air = flag(i.has_air, "inputs.has_air")?.then_some(AirSample {
-        temperature_c: i.air_temperature_c,
+        temperature_k: standfast::air::celsius_to_kelvin(i.air_temperature_c),
         pressure_pa: i.air_pressure_pa,
     });
     Ok(Inputs {
@@ -448,7 +448,7 @@ pub fn sf_fault(f: &Fault) -> SfFault {
 pub fn sf_event(e: &Event) -> SfEvent {
     let kind = event_kind(e);
     match *e {
-        Event::StageChanged { from, to, cause } => SfEvent {
+        Event::LevelChanged { from, to, cause } => SfEvent {
             kind,
             from_stage: stage_code(from),
             to_stage: stage_code(to),
@@ -473,9 +473,9 @@ pub fn sf_event(e: &Event) -> SfEvent {
 pub fn sf_verdict(v: &Verdict) -> SfVerdict {
     let mut out = SfVerdict {
         now_ms: v.now.0,
-        stage: stage_code(v.stage),
-        park: u8::from(v.stage.park_requested()),
-        alarm: u8::from(v.stage.alarm()),
+        stage: stage_code(v.level),
+        park: u8::from(v.level.park_requested()),
+        alarm: u8::from(v.level.alarm()),
         overturning_utilisation: maybe(v.overturning_utilisation),
         predicted_utilisation: maybe(v.predicted_utilisation),
         sliding_utilisation: maybe(v.sliding_utilisation),
@@ -877,7 +877,7 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
         if u32::from(i) >= q.directions {
             break;
         }
-        let a = rig.assess(&Conditions {
+        let a = rig.stability_figures(&Conditions {
             wind_from_rad: f32::from(i) * step,
             ..c
         })?;
@@ -886,7 +886,7 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
     let w = rig.worst_wind(&c)?;
     out.lowest_tip_wind_mps = maybe(w.tip_wind_mps);
     out.lowest_from_rad = w.from_rad;
-    out.ballast_kg = b.amount;
+    out.ballast_kg = b.mass_kg;
     out.ballast_worst_from_rad = b.worst_from_rad;
     Ok(out)
 }

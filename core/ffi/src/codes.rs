@@ -7,7 +7,7 @@
 //! are appended and raise [`crate::SF_ABI_VERSION`].
 
 use core::ffi::CStr;
-use standfast::guard::{Cause, Event, Stage};
+use standfast::guard::{AlertCause, AlertLevel, Event};
 use standfast::sense::{Check, Fault, Sensor};
 use standfast::ErrorKind;
 
@@ -61,7 +61,7 @@ pub const SF_ERR_NO_MEMORY: SfStatus = 19;
 /// the core's weighing).
 pub const SF_ERR_INCONSISTENT: SfStatus = 20;
 
-/// The guard's stage (`standfast::guard::Stage`), in rising severity.
+/// The guard's stage (`standfast::guard::AlertLevel`), in rising severity.
 pub type SfStage = u32;
 /// All figures comfortably inside their limits.
 pub const SF_STAGE_CLEAR: SfStage = 0;
@@ -74,7 +74,7 @@ pub const SF_STAGE_ALARM: SfStage = 3;
 /// A sensor fault: the guard cannot see; park and alarm.
 pub const SF_STAGE_SENSOR_FAULT: SfStage = 4;
 
-/// What drove a stage change (`standfast::guard::Cause`).
+/// What drove a stage change (`standfast::guard::AlertCause`).
 pub type SfCause = u32;
 /// Overturning utilisation at the present peak gust.
 pub const SF_CAUSE_OVERTURNING: SfCause = 0;
@@ -189,31 +189,31 @@ pub const SF_PIER_TUBE_WEST: SfPierSide = 1;
 
 /// The C code of a stage.
 #[must_use]
-pub const fn stage_code(s: Stage) -> SfStage {
+pub const fn stage_code(s: AlertLevel) -> SfStage {
     match s {
-        Stage::Clear => SF_STAGE_CLEAR,
-        Stage::Watch => SF_STAGE_WATCH,
-        Stage::ParkNow => SF_STAGE_PARK_NOW,
-        Stage::Alarm => SF_STAGE_ALARM,
-        Stage::SensorFault => SF_STAGE_SENSOR_FAULT,
+        AlertLevel::Clear => SF_STAGE_CLEAR,
+        AlertLevel::Watch => SF_STAGE_WATCH,
+        AlertLevel::ParkNow => SF_STAGE_PARK_NOW,
+        AlertLevel::Alarm => SF_STAGE_ALARM,
+        AlertLevel::SensorFault => SF_STAGE_SENSOR_FAULT,
     }
 }
 
 /// The C code of a cause.
 #[must_use]
-pub const fn cause_code(c: Cause) -> SfCause {
+pub const fn cause_code(c: AlertCause) -> SfCause {
     match c {
-        Cause::Overturning => SF_CAUSE_OVERTURNING,
-        Cause::PredictedOverturning => SF_CAUSE_PREDICTED_OVERTURNING,
-        Cause::Sliding => SF_CAUSE_SLIDING,
-        Cause::Drive => SF_CAUSE_DRIVE,
-        Cause::TiltMargin => SF_CAUSE_TILT_MARGIN,
-        Cause::TiltDrift => SF_CAUSE_TILT_DRIFT,
-        Cause::SensorFault => SF_CAUSE_SENSOR_FAULT,
-        Cause::EvaluationFault => SF_CAUSE_EVALUATION_FAULT,
-        Cause::Settled => SF_CAUSE_SETTLED,
-        Cause::FaultCleared => SF_CAUSE_FAULT_CLEARED,
-        Cause::Acknowledged => SF_CAUSE_ACKNOWLEDGED,
+        AlertCause::Overturning => SF_CAUSE_OVERTURNING,
+        AlertCause::PredictedOverturning => SF_CAUSE_PREDICTED_OVERTURNING,
+        AlertCause::Sliding => SF_CAUSE_SLIDING,
+        AlertCause::Drive => SF_CAUSE_DRIVE,
+        AlertCause::TiltMargin => SF_CAUSE_TILT_MARGIN,
+        AlertCause::TiltDrift => SF_CAUSE_TILT_DRIFT,
+        AlertCause::SensorFault => SF_CAUSE_SENSOR_FAULT,
+        AlertCause::EvaluationFault => SF_CAUSE_EVALUATION_FAULT,
+        AlertCause::Settled => SF_CAUSE_SETTLED,
+        AlertCause::FaultCleared => SF_CAUSE_FAULT_CLEARED,
+        AlertCause::Acknowledged => SF_CAUSE_ACKNOWLEDGED,
     }
 }
 
@@ -304,7 +304,7 @@ pub const fn fault_parts(f: &Fault) -> FaultParts {
 #[must_use]
 pub const fn event_kind(e: &Event) -> SfEventKind {
     match e {
-        Event::StageChanged { .. } => SF_EVENT_STAGE_CHANGED,
+        Event::LevelChanged { .. } => SF_EVENT_STAGE_CHANGED,
         Event::FaultRaised(_) => SF_EVENT_FAULT_RAISED,
         Event::NewHighUtilisation { .. } => SF_EVENT_NEW_HIGH_UTILISATION,
     }
@@ -329,7 +329,7 @@ pub const fn error_code(k: ErrorKind) -> SfStatus {
 /// Returned by the name functions for a code outside the set.
 pub const UNKNOWN: &CStr = c"unknown";
 
-/// Names of [`SfStage`] codes, by value (the core's `Stage::name`).
+/// Names of [`SfStage`] codes, by value (the core's `AlertLevel::name`).
 pub(crate) const STAGE_NAMES: [&CStr; 5] =
     [c"clear", c"watch", c"park_now", c"alarm", c"sensor_fault"];
 /// Names of [`SfCause`] codes, by value.
@@ -431,11 +431,11 @@ mod tests {
     #[test]
     fn names_match_the_core() {
         for st in [
-            Stage::Clear,
-            Stage::Watch,
-            Stage::ParkNow,
-            Stage::Alarm,
-            Stage::SensorFault,
+            AlertLevel::Clear,
+            AlertLevel::Watch,
+            AlertLevel::ParkNow,
+            AlertLevel::Alarm,
+            AlertLevel::SensorFault,
         ] {
             assert_eq!(s(name_in(&STAGE_NAMES, stage_code(st))), st.name());
         }
@@ -502,17 +502,17 @@ mod tests {
         }
         assert_eq!(FAULT_CLASS_NAMES.len(), faults.len());
         let causes = [
-            Cause::Overturning,
-            Cause::PredictedOverturning,
-            Cause::Sliding,
-            Cause::Drive,
-            Cause::TiltMargin,
-            Cause::TiltDrift,
-            Cause::SensorFault,
-            Cause::EvaluationFault,
-            Cause::Settled,
-            Cause::FaultCleared,
-            Cause::Acknowledged,
+            AlertCause::Overturning,
+            AlertCause::PredictedOverturning,
+            AlertCause::Sliding,
+            AlertCause::Drive,
+            AlertCause::TiltMargin,
+            AlertCause::TiltDrift,
+            AlertCause::SensorFault,
+            AlertCause::EvaluationFault,
+            AlertCause::Settled,
+            AlertCause::FaultCleared,
+            AlertCause::Acknowledged,
         ];
         for c in causes {
             assert_eq!(s(name_in(&CAUSE_NAMES, cause_code(c))), c.name());

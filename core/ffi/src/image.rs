@@ -40,7 +40,7 @@ use standfast::rig::RigSpec;
 /// The four magic bytes at the start of every rig image.
 pub const IMAGE_MAGIC: [u8; 4] = *b"SFRI";
 /// The image format this build writes and reads.
-pub const IMAGE_VERSION: u16 = 1;
+pub const IMAGE_VERSION: u16 = 2;
 /// Size of the image header, bytes.
 pub const IMAGE_HEADER_BYTES: usize = 16;
 /// Largest image accepted, bytes (header included). A rig at every

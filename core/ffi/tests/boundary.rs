@@ -391,11 +391,14 @@ fn damaged_and_foreign_images() {
         SF_ERR_IMAGE_TRUNCATED | SF_ERR_IMAGE_SIZE
     ));
     // Another format version, correctly sealed: refused by version.
-    let mut b = IMAGE.to_vec();
-    b[4] = 2;
-    let (st, e) = status(&s, &resealed(b));
-    assert_eq!(st, SF_ERR_IMAGE_VERSION);
-    assert_eq!((e.value, e.min, e.max), (2.0, 1.0, 1.0));
+    let ours = f32::from(image::IMAGE_VERSION);
+    for other in [image::IMAGE_VERSION - 1, image::IMAGE_VERSION + 1] {
+        let mut b = IMAGE.to_vec();
+        b[4..6].copy_from_slice(&other.to_le_bytes());
+        let (st, e) = status(&s, &resealed(b));
+        assert_eq!(st, SF_ERR_IMAGE_VERSION);
+        assert_eq!((e.value, e.min, e.max), (f32::from(other), ours, ours));
+    }
     // Not an image at all.
     let mut b = IMAGE.to_vec();
     b[0] = b'X';
@@ -439,7 +442,7 @@ fn out_of_range_rig_values_give_the_core_error() {
     assert!(g.is_null());
     assert_eq!(e, SfError::from_core(&want));
     assert_eq!(st, SF_ERR_OUT_OF_RANGE);
-    assert_eq!(e.field_str(), want.field);
+    assert_eq!(e.field_str(), want.field.path());
     assert_eq!((e.value, e.min, e.max), (want.value, want.min, want.max));
     // A body mass that is not a number, in a list: the index comes through.
     let mut img = decoded();
@@ -447,7 +450,7 @@ fn out_of_range_rig_values_give_the_core_error() {
     let want = Rig::new(&img.spec).unwrap_err();
     let (st, e, _) = init(&s, &encoded(&img));
     assert_eq!(st, SF_ERR_NOT_FINITE);
-    assert_eq!(e.field_str(), want.field);
+    assert_eq!(e.field_str(), want.field.path());
     assert_eq!(e.has_index, 1);
     assert_eq!(Some(e.index), want.index);
     // A guard setting the core refuses.
@@ -455,13 +458,19 @@ fn out_of_range_rig_values_give_the_core_error() {
     img.guard.dwell_s = -1.0;
     let want = img.guard.validate().unwrap_err();
     let (st, e, _) = init(&s, &encoded(&img));
-    assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
+    assert_eq!(
+        (st, e.field_str()),
+        (SF_ERR_OUT_OF_RANGE, want.field.path())
+    );
     // Air denser than any on Earth.
     let mut img = decoded();
     img.air_density_kg_m3 = 50.0;
     let want = standfast::air::Air::from_density(50.0).unwrap_err();
     let (st, e, _) = init(&s, &encoded(&img));
-    assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
+    assert_eq!(
+        (st, e.field_str()),
+        (SF_ERR_OUT_OF_RANGE, want.field.path())
+    );
     // A failed init leaves no guard behind in storage that held one.
     let (st, _, g) = init(&s, IMAGE);
     assert_eq!(st, SF_OK);
@@ -652,7 +661,7 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
             }),
             cover_fitted: (i.has_cover == 1).then_some(i.cover_fitted == 1),
             air: (i.has_air == 1).then_some(standfast::guard::AirSample {
-                temperature_c: i.air_temperature_c,
+                temperature_k: standfast::air::celsius_to_kelvin(i.air_temperature_c),
                 pressure_pa: i.air_pressure_pa,
             }),
         };
@@ -704,7 +713,7 @@ fn assessment_matches_the_rust_api() {
     for (k, t) in a.tip_wind_mps.iter().take(8).enumerate() {
         let from = k as f32 * (std::f32::consts::TAU / 8.0);
         let want = rig
-            .assess(&standfast::rig::Conditions {
+            .stability_figures(&standfast::rig::Conditions {
                 wind_from_rad: from,
                 ..c
             })
@@ -723,7 +732,7 @@ fn assessment_matches_the_rust_api() {
         .unwrap();
     assert_eq!(
         (a.ballast_kg, a.ballast_worst_from_rad),
-        (b.amount, b.worst_from_rad)
+        (b.mass_kg, b.worst_from_rad)
     );
 }
 
@@ -801,7 +810,10 @@ fn assessment_checks_its_request() {
         tilt_magnitude_rad: 2.0,
         ..request()
     });
-    assert_eq!((st, e.field_str()), (SF_ERR_OUT_OF_RANGE, want.field));
+    assert_eq!(
+        (st, e.field_str()),
+        (SF_ERR_OUT_OF_RANGE, want.field.path())
+    );
 }
 
 #[test]

@@ -90,8 +90,8 @@ impl StepIn {
                 }),
                 pose,
                 cover_fitted: self.cover,
-                air: self.air.map(|(temperature_c, pressure_pa)| AirSample {
-                    temperature_c,
+                air: self.air.map(|(celsius, pressure_pa)| AirSample {
+                    temperature_k: standfast::air::celsius_to_kelvin(celsius),
                     pressure_pa,
                 }),
             },

@@ -5,15 +5,15 @@
 use crate::unknowns::Unknowns;
 use core::hint::black_box;
 use standfast::air::Air;
+use standfast::bounded::Vec;
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::transition::{transition, Figures, Memory, Readings};
-use standfast::guard::{AirSample, Guard, GuardConfig, Inputs, Stage as Level, WindSample};
+use standfast::guard::{AirSample, AlertLevel as Level, Guard, GuardConfig, Inputs, WindSample};
 use standfast::hardware::bolt::{BoltPattern, PivotLine, ShaftLoad};
 use standfast::hardware::material::{Material, AL_6061_T6_EXTRUSION_MIN};
 use standfast::hardware::shaft::{check_shaft_bending, ShaftSection};
 use standfast::hardware::strip::{check_stripping, ShearFactor, StrippingInput};
 use standfast::hardware::{IsoThread, StrengthBasis};
-use standfast::heapless::{String, Vec};
 use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{
     BallastSpec, BodySpec, Conditions, CounterweightSpec, CoverSpec, LegsSpec, Rig, RigSpec,
@@ -63,24 +63,16 @@ impl Tally {
 pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
     let tripod = Support::tripod(u.foot_circle_radius_m, u.first_leg_azimuth_rad)?;
     let mut bodies = Vec::new();
-    let tube = BodySpec {
-        label: String::try_from("tube").unwrap_or_default(),
-        stage: Stage::Secondary,
-        mass_kg: u.tube_mass_kg,
-        cg_m: u.tube_cg_m,
-        exposure: Some(Exposure {
-            shape: Shape::Cylinder {
-                diameter_m: u.tube_diameter_m,
-                length_m: u.tube_length_m,
-                axis: [0.0, 1.0, 0.0],
-            },
-            centre_m: u.tube_cg_m,
-            drag_coefficient: None,
-            end_drag_coefficient: None,
-        }),
-        under_cover: true,
-        ..BodySpec::default()
-    };
+    let tube = BodySpec::cylinder(
+        Stage::Secondary,
+        u.tube_mass_kg,
+        u.tube_cg_m,
+        u.tube_diameter_m,
+        u.tube_length_m,
+        [0.0, 1.0, 0.0],
+    )
+    .labelled("tube")
+    .with_under_cover(true);
     bodies.push(tube).ok();
     bodies
         .push(BodySpec {
@@ -111,13 +103,12 @@ pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
     }
     let mut counterweights = Vec::new();
     counterweights
-        .push(CounterweightSpec {
-            mass_kg: u.counterweight_kg,
-            distance_m: u.counterweight_distance_m,
-            diameter_m: 0.1,
-            thickness_m: 0.06,
-            drag_coefficient: None,
-        })
+        .push(CounterweightSpec::disc(
+            u.counterweight_kg,
+            u.counterweight_distance_m,
+            0.1,
+            0.06,
+        ))
         .ok();
     let mut ballast = Vec::new();
     ballast
@@ -169,7 +160,7 @@ pub fn rig_spec(u: &Unknowns) -> Result<RigSpec, Error> {
         drives: Some(Drives {
             primary: rating,
             secondary: rating,
-            slew_acceleration_rad_s2: u.slew_acceleration_rad_s2,
+            slew_acceleration_rad_per_s2: u.slew_acceleration_rad_per_s2,
         }),
     })
 }
@@ -187,7 +178,7 @@ fn pose(u: &Unknowns) -> Pose {
 }
 
 /// Covered entry points, in order: [`Support::tripod`], [`Rig::new`],
-/// [`Rig::assess`], [`Rig::worst_wind`], [`Rig::tilt_margin`],
+/// [`Rig::stability_figures`], [`Rig::worst_wind`], [`Rig::tilt_margin`],
 /// [`Rig::axis_loads`], [`Rig::foot_reactions_n`], [`Rig::ballast_needed`],
 /// [`Rig::tie_down_needed`], [`Guard::new`], [`Guard::step`] (in a loop, with
 /// every field of [`Inputs`] set), [`TiltSensor::new`], [`TiltSensor::push`],
@@ -230,7 +221,7 @@ fn rig_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
         air,
         cover_fitted: u.cover_fitted == 1,
     };
-    t.note(rig.assess(&c));
+    t.note(rig.stability_figures(&c));
     t.note(rig.worst_wind(&c));
     t.note(rig.tilt_margin(&c));
     t.note(rig.axis_loads(&c, u.mean_wind_mps));
@@ -382,7 +373,7 @@ fn guard_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
             pose: (k % 5 == 0).then(|| pose(u)),
             cover_fitted: (k % 50 == 0).then_some(k % 100 == 0),
             air: (k % 20 == 0).then_some(AirSample {
-                temperature_c: u.temperature_c,
+                temperature_k: standfast::air::celsius_to_kelvin(u.temperature_c),
                 pressure_pa: u.pressure_pa,
             }),
         };

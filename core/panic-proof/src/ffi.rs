@@ -12,7 +12,7 @@ use standfast_ffi::*;
 
 /// The firmware example's invented rig as a rig image (the ffi tests' fixture).
 static IMAGE: [u8; IMAGE_LEN] = *include_bytes!("../../ffi/tests/data/firmware-example-rig.sfri");
-const IMAGE_LEN: usize = 384;
+const IMAGE_LEN: usize = 380;
 
 /// Codes, flags and sizes the compiler cannot know.
 #[derive(Clone, Copy)]

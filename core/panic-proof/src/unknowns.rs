@@ -52,7 +52,7 @@ pub struct Unknowns {
     /// Rated, repeated peak and momentary peak torque of both drives, N·m.
     pub drive_nm: [f32; 3],
     /// Slew acceleration, rad/s².
-    pub slew_acceleration_rad_s2: f32,
+    pub slew_acceleration_rad_per_s2: f32,
     /// Hour angle, rad, positive west.
     pub hour_angle_rad: f32,
     /// Declination, rad.
@@ -143,7 +143,7 @@ pub static UNKNOWNS: Unknowns = Unknowns {
     latitude_rad: 0.820_304_7,
     axis_height_m: 1.25,
     drive_nm: [2.0, 4.0, 6.0],
-    slew_acceleration_rad_s2: 0.05,
+    slew_acceleration_rad_per_s2: 0.05,
     hour_angle_rad: 0.7,
     declination_rad: 0.3,
     pier_side: 0,

@@ -3,16 +3,16 @@
 
 use super::transition::Thresholds;
 use super::MAX_PARK_POSES;
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::mount::Pose;
 use crate::rig::MAX_WIND_SPEED_MPS;
 use crate::sense::{TiltConfig, WindConfig};
 use heapless::Vec;
 
-/// Longest accepted time between physics evaluations, ms: a minute. Longer,
+/// Longest accepted time between physics evaluations, s: a minute. Longer,
 /// and a slew or a gust front could go unjudged for longer than a park
 /// takes.
-pub const MAX_EVALUATE_EVERY_MS: u64 = 60_000;
+pub const MAX_EVALUATE_EVERY_S: f32 = 60.0;
 
 /// What the guard's wind input carries.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
@@ -27,6 +27,17 @@ pub enum WindSource {
     /// Ten-minute mean speeds (and directions) only: the gust is estimated
     /// as mean × gust factor ([`crate::sense::MeanWind`]).
     TenMinuteMeans,
+}
+
+impl WindSource {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            WindSource::Samples => "samples",
+            WindSource::TenMinuteMeans => "ten_minute_means",
+        }
+    }
 }
 
 /// Thresholds and timing of the guard. Every default is given with its reason.
@@ -44,28 +55,28 @@ pub struct GuardConfig {
     #[cfg_attr(feature = "serde", serde(default))]
     pub wind_source: WindSource,
     /// Predicted overturning or sliding utilisation that raises
-    /// [`Stage::Watch`](super::Stage::Watch). Default 0.5: half way to the tipping point, time to
+    /// [`AlertLevel::Watch`](super::AlertLevel::Watch). Default 0.5: half way to the tipping point, time to
     /// look at the rig.
     pub watch_utilisation: f32,
     /// Predicted overturning utilisation (at the end of a park) that raises
-    /// [`Stage::ParkNow`](super::Stage::ParkNow). Default 0.75: by analogy with mobile cranes on
+    /// [`AlertLevel::ParkNow`](super::AlertLevel::ParkNow). Default 0.75: by analogy with mobile cranes on
     /// crawlers, whose rated load is at most 75 % of the tipping load
     /// (ASME B30.5 §5-1.1.1), leaving a quarter for what the model misses.
     pub park_utilisation: f32,
     /// Present overturning or sliding utilisation (at the peak gust) that raises
-    /// [`Stage::Alarm`](super::Stage::Alarm). Default 0.9: the early-warning level of crane rated
+    /// [`AlertLevel::Alarm`](super::AlertLevel::Alarm). Default 0.9: the early-warning level of crane rated
     /// capacity limiters (EN 13000 practice, warning at about 90 %).
     pub alarm_utilisation: f32,
     /// Governing drive utilisation (steady torque against rated torque, with
     /// the slew torque against repeated peak, gust torque against momentary
     /// peak; see [`crate::torque::Utilisation`]) that raises
-    /// [`Stage::ParkNow`](super::Stage::ParkNow). Default 1.0: beyond its ratings a drive may slip or
+    /// [`AlertLevel::ParkNow`](super::AlertLevel::ParkNow). Default 1.0: beyond its ratings a drive may slip or
     /// backdrive.
     pub drive_park_utilisation: f32,
     /// Hysteresis: a figure counts as settled below this fraction of the
     /// threshold it crossed. Default 0.8.
     pub clear_ratio: f32,
-    /// Time every figure must stay settled before the stage steps down, s.
+    /// Time every figure must stay settled before the alert level steps down, s.
     /// Default 600 s: one 10-minute mean period, so a lull between gusts
     /// does not unpark a rig in a rising storm.
     pub dwell_s: f32,
@@ -75,22 +86,23 @@ pub struct GuardConfig {
     /// the peak of the last ten minutes (common practice, no source).
     pub gust_allowance: f32,
     /// Remaining tilt margin (extra tilt that would tip the rig with no wind)
-    /// below which [`Stage::Alarm`](super::Stage::Alarm) is raised, radians. Default 5° (0.0873 rad):
+    /// below which [`AlertLevel::Alarm`](super::AlertLevel::Alarm) is raised, radians. Default 5° (0.0873 rad):
     /// well above the 1–3° chassis-tilt alarms of aerial work platforms,
     /// measured here as distance from tipping.
     pub tilt_margin_alarm_rad: f32,
-    /// Tilt drift rate that raises [`Stage::Watch`](super::Stage::Watch), rad/s. Default 0.5°/h
+    /// Tilt drift rate that raises [`AlertLevel::Watch`](super::AlertLevel::Watch), rad/s. Default 0.5°/h
     /// (2.42e-6 rad/s): a leg sinking that fast needs a look before dawn.
     pub drift_watch_rad_per_s: f32,
-    /// Time without faults before leaving [`Stage::SensorFault`](super::Stage::SensorFault), s. Default
+    /// Time without faults before leaving [`AlertLevel::SensorFault`](super::AlertLevel::SensorFault), s. Default
     /// 60 s.
     pub fault_clear_s: f32,
-    /// Least time between physics evaluations, ms, 0 to
-    /// [`MAX_EVALUATE_EVERY_MS`]; samples in between only update the
-    /// filters (a changed pose or cover state evaluates at once, see
-    /// [`super::POSE_TOLERANCE_RAD`]). Default 1000 ms: wind statistics
-    /// change on the 0.25 s bin and the 3-s window, tilt on a 1 s filter.
-    pub evaluate_every_ms: u64,
+    /// Least time between physics evaluations, s, 0 to
+    /// [`MAX_EVALUATE_EVERY_S`] (used in whole milliseconds, rounded to
+    /// nearest, like every duration here); samples in between only update
+    /// the filters (a changed pose or cover state evaluates at once, see
+    /// [`super::POSE_TOLERANCE_RAD`]). Default 1 s: wind statistics change
+    /// on the 0.25 s bin and the 3-s window, tilt on a 1 s filter.
+    pub evaluate_every_s: f32,
     /// Pose assumed until the mount reports one. Default: `None`, the mount's
     /// home pose.
     #[cfg_attr(feature = "serde", serde(default))]
@@ -117,7 +129,7 @@ impl Default for GuardConfig {
             tilt_margin_alarm_rad: 0.087_266_46,
             drift_watch_rad_per_s: 2.424e-6,
             fault_clear_s: 60.0,
-            evaluate_every_ms: 1000,
+            evaluate_every_s: 1.0,
             assumed_pose: None,
             park_poses: Vec::new(),
         }
@@ -140,52 +152,58 @@ impl GuardConfig {
             // A mean arrives every ten minutes: a shorter stale time would
             // fault between two reports.
             Error::check(
-                "guard.wind.stale_after_s",
+                Field::WindStaleAfterS,
                 self.wind.stale_after_s,
                 600.0,
                 86_400.0,
             )?;
         }
-        Error::check("guard.watch_utilisation", self.watch_utilisation, 0.05, 1.0)?;
         Error::check(
-            "guard.park_utilisation",
+            Field::GuardWatchUtilisation,
+            self.watch_utilisation,
+            0.05,
+            1.0,
+        )?;
+        Error::check(
+            Field::GuardParkUtilisation,
             self.park_utilisation,
             self.watch_utilisation,
             1.0,
         )?;
         Error::check(
-            "guard.alarm_utilisation",
+            Field::GuardAlarmUtilisation,
             self.alarm_utilisation,
             self.watch_utilisation,
             1.0,
         )?;
         Error::check(
-            "guard.drive_park_utilisation",
+            Field::GuardDriveParkUtilisation,
             self.drive_park_utilisation,
             0.1,
             5.0,
         )?;
-        Error::check("guard.clear_ratio", self.clear_ratio, 0.1, 1.0)?;
-        Error::check("guard.dwell_s", self.dwell_s, 0.0, 86_400.0)?;
-        Error::check("guard.time_to_park_s", self.time_to_park_s, 0.0, 3_600.0)?;
-        Error::check("guard.gust_allowance", self.gust_allowance, 1.0, 2.0)?;
+        Error::check(Field::GuardClearRatio, self.clear_ratio, 0.1, 1.0)?;
+        Error::check(Field::GuardDwellS, self.dwell_s, 0.0, 86_400.0)?;
+        Error::check(Field::GuardTimeToParkS, self.time_to_park_s, 0.0, 3_600.0)?;
+        Error::check(Field::GuardGustAllowance, self.gust_allowance, 1.0, 2.0)?;
         Error::check(
-            "guard.tilt_margin_alarm_rad",
+            Field::GuardTiltMarginAlarmRad,
             self.tilt_margin_alarm_rad,
             0.0,
             0.5,
         )?;
         Error::check(
-            "guard.drift_watch_rad_per_s",
+            Field::GuardDriftWatchRadPerS,
             self.drift_watch_rad_per_s,
             0.0,
             1.0,
         )?;
-        Error::check("guard.fault_clear_s", self.fault_clear_s, 0.0, 86_400.0)?;
-        check_ms(
-            "guard.evaluate_every_ms",
-            self.evaluate_every_ms,
-            MAX_EVALUATE_EVERY_MS,
+        Error::check(Field::GuardFaultClearS, self.fault_clear_s, 0.0, 86_400.0)?;
+        Error::check(
+            Field::GuardEvaluateEveryS,
+            self.evaluate_every_s,
+            0.0,
+            MAX_EVALUATE_EVERY_S,
         )?;
         self.check_wind_within_model()?;
         Ok(())
@@ -221,7 +239,7 @@ impl GuardConfig {
         let limit = self.wind.max_speed_mps * MAX_WIND_SPEED_MPS / max_gust;
         Err(Error {
             kind: ErrorKind::OutOfRange,
-            field: "guard.wind.max_speed_mps",
+            field: Field::WindMaxSpeedMps,
             index: None,
             value: self.wind.max_speed_mps,
             min: 1.0,
@@ -249,7 +267,7 @@ impl GuardConfig {
 
 /// Whole milliseconds of a validated non-negative duration in seconds
 /// (rounded to nearest; at most 86 400 s here).
-fn s_to_ms(s: f32) -> u64 {
+pub(super) fn s_to_ms(s: f32) -> u64 {
     // + 0.5 and truncation: round half up for these non-negative values.
     let ms = s * 1000.0 + 0.5;
     if ms.is_finite() && ms >= 1.0 {
@@ -260,24 +278,6 @@ fn s_to_ms(s: f32) -> u64 {
     } else {
         0
     }
-}
-
-/// Checks a duration in whole milliseconds against `0..=max_ms`.
-fn check_ms(field: &'static str, value_ms: u64, max_ms: u64) -> Result<u64, Error> {
-    if value_ms <= max_ms {
-        return Ok(value_ms);
-    }
-    // Shown in the error as f32: exact to 1 ms up to 16.7 million ms.
-    #[allow(clippy::cast_precision_loss)]
-    let (value, max) = (value_ms as f32, max_ms as f32);
-    Err(Error {
-        kind: ErrorKind::OutOfRange,
-        field,
-        index: None,
-        value,
-        min: 0.0,
-        max,
-    })
 }
 
 #[cfg(test)]
@@ -305,12 +305,12 @@ mod tests {
     /// The evaluation period is accepted from 0 to a minute, inclusive.
     #[test]
     fn the_evaluation_period_range_is_inclusive() {
-        for (ms, ok) in [(0, true), (60_000, true), (60_001, false)] {
+        for (s, ok) in [(0.0, true), (60.0, true), (60.001, false), (-0.001, false)] {
             let c = GuardConfig {
-                evaluate_every_ms: ms,
+                evaluate_every_s: s,
                 ..GuardConfig::default()
             };
-            assert_eq!(c.validate().is_ok(), ok, "{ms} ms");
+            assert_eq!(c.validate().is_ok(), ok, "{s} s");
         }
     }
 }

@@ -1,25 +1,25 @@
-//! The guard: live samples in, a staged park-and-alarm decision out.
+//! The guard: live samples in, a park-and-alarm decision in alert levels out.
 //!
 //! Each [`Guard::step`] takes the caller's time stamp and whatever samples
 //! arrived since the last step (accelerometer, wind, mount pose, cover, air)
 //! and returns a [`Verdict`]: the present overturning and sliding
 //! utilisation, the utilisation predicted for the end of a park, the tip wind
-//! speed for the present pose and wind direction, the tilt margin, the stage
-//! ([`Stage`]), the active faults and the events of this step.
+//! speed for the present pose and wind direction, the tilt margin, the alert level
+//! ([`AlertLevel`]), the active faults and the events of this step.
 //!
-//! **Stages**, in rising order: [`Stage::Clear`], [`Stage::Watch`],
-//! [`Stage::ParkNow`], [`Stage::Alarm`]; and [`Stage::SensorFault`], the
+//! **Alert levels**, in rising order: [`AlertLevel::Clear`], [`AlertLevel::Watch`],
+//! [`AlertLevel::ParkNow`], [`AlertLevel::Alarm`]; and [`AlertLevel::SensorFault`], the
 //! can't-see level, which parks and alarms. Every rule that changes the
-//! stage is in one pure function, [`transition::transition`], whose module
+//! alert level is in one pure function, [`transition::transition`], whose module
 //! docs give the whole transition table. In short: escalation is immediate;
 //! a step down needs every figure settled below `clear_ratio` × the threshold
 //! of every level being left, for `dwell_s`; the alarm latches until
 //! [`Guard::acknowledge`]; a fault clears after `fault_clear_s` of healthy
-//! inputs, to the stage the figures call for but no lower than
-//! [`Stage::Watch`] (and no lower than [`Stage::Alarm`] while latched).
+//! inputs, to the alert level the figures call for but no lower than
+//! [`AlertLevel::Watch`] (and no lower than [`AlertLevel::Alarm`] while latched).
 //!
 //! **Fail safe.** Anything the guard cannot compute or cannot trust is a
-//! [`Fault`] in the verdict and puts the guard in [`Stage::SensorFault`],
+//! [`Fault`] in the verdict and puts the guard in [`AlertLevel::SensorFault`],
 //! which asserts the park and alarm outputs. Never is a figure read as zero
 //! or a sample dropped in silence:
 //! - a rejected sample of any input (accelerometer, wind, pose, cover, air)
@@ -28,7 +28,7 @@
 //!   ([`Sensor::Clock`]); that step's samples are not used;
 //! - no reading yet (no tilt before the first accelerometer sample, no gust
 //!   before the wind statistics hold one) is [`Fault::NoReading`]; a guard
-//!   starts in [`Stage::SensorFault`];
+//!   starts in [`AlertLevel::SensorFault`];
 //! - a physics evaluation that fails or gives a non-finite figure is
 //!   [`Fault::Unevaluable`] naming the figure;
 //! - [`GuardConfig::validate`] refuses a wind configuration that accepts
@@ -44,7 +44,7 @@
 //! variable, calm or unknown direction it takes the worst direction, as the
 //! wind may swing to it (for the drive torques too).
 //!
-//! **When the physics runs.** At most once per `evaluate_every_ms`, and at
+//! **When the physics runs.** At most once per `evaluate_every_s`, and at
 //! once when the cover state changes or the pose moves by more than
 //! [`POSE_TOLERANCE_RAD`] from the last evaluated one. Samples in between
 //! only update the filters, so a controller may pass its pose in every step.
@@ -62,18 +62,19 @@ mod config;
 mod gusts;
 pub mod transition;
 
-pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_MS};
+pub use config::{GuardConfig, WindSource, MAX_EVALUATE_EVERY_S};
 pub use gusts::GUST_HISTORY_MIN;
-pub use transition::{Cause, Stage};
+pub use transition::{AlertCause, AlertLevel};
 
-use crate::air::{celsius_to_kelvin, Air};
+use crate::air::Air;
 use crate::error::{Error, ErrorKind};
 use crate::frame::Tilt;
+use crate::math::Vec3;
 use crate::mount::Pose;
 use crate::rig::{Conditions, Rig, MAX_WIND_SPEED_MPS};
 use crate::sense::{
-    Check, Fault, FaultSet, MeanWind, Millis, Sensor, TiltSensor, WindDirection, WindReport,
-    WindStats,
+    Check, Fault, FaultSet, LevelCapture, MeanWind, Millis, Sensor, TiltSensor, WindDirection,
+    WindReport, WindStats,
 };
 use crate::sky::ParkRequest;
 use gusts::{GustCache, GustHistory};
@@ -97,14 +98,14 @@ pub const POSE_TOLERANCE_RAD: f32 = 1e-3;
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum Event {
-    /// The stage changed.
-    StageChanged {
-        /// Previous stage.
-        from: Stage,
-        /// New stage.
-        to: Stage,
+    /// The alert level changed.
+    LevelChanged {
+        /// Previous alert level.
+        from: AlertLevel,
+        /// New alert level.
+        to: AlertLevel,
         /// Why.
-        cause: Cause,
+        cause: AlertCause,
     },
     /// A fault was raised (first step it is seen).
     FaultRaised(Fault),
@@ -131,8 +132,9 @@ pub struct WindSample {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 pub struct AirSample {
-    /// Air temperature, °C.
-    pub temperature_c: f32,
+    /// Air temperature, K (kelvin; [`crate::air::celsius_to_kelvin`] converts
+    /// a reading in °C).
+    pub temperature_k: f32,
     /// Station pressure, Pa.
     pub pressure_pa: f32,
 }
@@ -161,8 +163,8 @@ pub struct Verdict {
     /// Time stamp of the step (the previous step's when the clock went
     /// backwards: see [`Sensor::Clock`]).
     pub now: Millis,
-    /// The stage.
-    pub stage: Stage,
+    /// The alert level.
+    pub level: AlertLevel,
     /// Overturning utilisation at the peak gust now (1.0 tips).
     pub overturning_utilisation: Option<f32>,
     /// Overturning utilisation predicted for the end of a park.
@@ -245,7 +247,7 @@ pub struct Guard<'r> {
     tilt: TiltSensor,
     wind: WindStats,
     means: MeanWind,
-    stage: Stage,
+    stage: AlertLevel,
     memory: Memory,
     pose: Pose,
     cover_fitted: bool,
@@ -266,7 +268,7 @@ pub struct Guard<'r> {
 }
 
 impl<'r> Guard<'r> {
-    /// A guard for `rig`, started at `now`, in [`Stage::SensorFault`]: it
+    /// A guard for `rig`, started at `now`, in [`AlertLevel::SensorFault`]: it
     /// cannot judge the rig before its sensors have given readings.
     ///
     /// # Errors
@@ -285,7 +287,7 @@ impl<'r> Guard<'r> {
             wind: WindStats::new(config.wind, now)?,
             means: MeanWind::new(config.wind, now)?,
             config,
-            stage: Stage::SensorFault,
+            stage: AlertLevel::SensorFault,
             memory: Memory::default(),
             pose,
             cover_fitted: false,
@@ -308,15 +310,35 @@ impl<'r> Guard<'r> {
         &self.config
     }
 
-    /// The present stage.
+    /// The present alert level.
     #[must_use]
-    pub fn stage(&self) -> Stage {
+    pub fn level(&self) -> AlertLevel {
         self.stage
     }
 
-    /// The tilt processor (for a level capture at set-up).
-    pub fn tilt_sensor_mut(&mut self) -> &mut TiltSensor {
-        &mut self.tilt
+    /// Starts a level capture at set-up (see
+    /// [`crate::sense::TiltReference::LevelReference`]): the accepted
+    /// accelerometer samples of the next `level_capture_s` seconds are
+    /// averaged into the level reference. The rig must be levelled and still
+    /// meanwhile.
+    pub fn start_level_capture(&mut self, now: Millis) {
+        self.tilt.start_level_capture(now);
+    }
+
+    /// Progress of the latest level capture.
+    #[must_use]
+    pub fn level_capture(&self) -> LevelCapture {
+        self.tilt.level_capture()
+    }
+
+    /// Sets the level reference from one stored earlier (rig frame, specific
+    /// force pointing up, any length), instead of capturing it again.
+    ///
+    /// # Errors
+    /// As [`crate::sense::TiltSensor::set_level_reference`]: a zero or
+    /// non-finite vector, or one more than 45° from +z.
+    pub fn set_level_reference(&mut self, up: Vec3) -> Result<(), Error> {
+        self.tilt.set_level_reference(up)
     }
 
     /// Sets the air density used until measured air arrives in
@@ -325,8 +347,8 @@ impl<'r> Guard<'r> {
         self.air = air;
     }
 
-    /// Acknowledges a latched alarm: the stage may step down once the figures
-    /// have settled (in the next step, with cause [`Cause::Acknowledged`], if
+    /// Acknowledges a latched alarm: the alert level may step down once the figures
+    /// have settled (in the next step, with cause [`AlertCause::Acknowledged`], if
     /// they already have for the dwell time).
     pub fn acknowledge(&mut self) {
         self.memory.acknowledge();
@@ -361,7 +383,7 @@ impl<'r> Guard<'r> {
         faults.extend(&rejected);
 
         let due = self.last_eval.is_none_or(|(t, pose, cover)| {
-            now.since(t) >= self.config.evaluate_every_ms
+            now.since(t) >= config::s_to_ms(self.config.evaluate_every_s)
                 || cover != self.cover_fitted
                 || pose_moved(pose, self.pose)
         });
@@ -433,7 +455,7 @@ impl<'r> Guard<'r> {
         let fig = self.shown;
         Verdict {
             now,
-            stage: self.stage,
+            level: self.stage,
             overturning_utilisation: fig.overturning,
             predicted_utilisation: fig.predicted,
             sliding_utilisation: fig.sliding,
@@ -493,8 +515,7 @@ impl<'r> Guard<'r> {
             }
         }
         if let Some(a) = inputs.air {
-            match Air::from_temperature_pressure(celsius_to_kelvin(a.temperature_c), a.pressure_pa)
-            {
+            match Air::from_temperature_pressure(a.temperature_k, a.pressure_pa) {
                 Ok(air) => self.air = air,
                 Err(e) => rejected.push(input_fault(Sensor::Air, &e)),
             }
@@ -554,7 +575,7 @@ impl<'r> Guard<'r> {
         self.stage = t.stage;
         self.memory = t.memory;
         if let Some(c) = t.change {
-            events.push(Event::StageChanged {
+            events.push(Event::LevelChanged {
                 from: c.from,
                 to: c.to,
                 cause: c.cause,
@@ -642,7 +663,10 @@ impl<'r> Guard<'r> {
         f.from_rad = Some(from);
 
         let c = self.conditions(tilt, gust, from);
-        match self.rig.assess_with_utilisation_at(&c, predicted) {
+        match self
+            .rig
+            .stability_figures_with_utilisation_at(&c, predicted)
+        {
             Ok((a, at_predicted)) => {
                 f.overturning = finite(a.critical.utilisation);
                 f.sliding = finite(a.sliding.utilisation);
@@ -834,9 +858,10 @@ mod tests {
     /// value out of range is out of range and carries the value.
     #[test]
     fn rejected_samples_name_their_kind() {
-        let nan = Error::check("x", f32::NAN, 0.0, 1.0).unwrap_err();
-        let inf = Error::check("x", f32::INFINITY, 0.0, 1.0).unwrap_err();
-        let out = Error::check("x", 2.0, 0.0, 1.0).unwrap_err();
+        let nan = Error::check(crate::error::Field::AirPressurePa, f32::NAN, 0.0, 1.0).unwrap_err();
+        let inf =
+            Error::check(crate::error::Field::AirPressurePa, f32::INFINITY, 0.0, 1.0).unwrap_err();
+        let out = Error::check(crate::error::Field::AirPressurePa, 2.0, 0.0, 1.0).unwrap_err();
         let s = Sensor::Air;
         assert_eq!(input_fault(s, &nan), Fault::NotFinite { sensor: s });
         assert_eq!(input_fault(s, &inf), Fault::NotFinite { sensor: s });

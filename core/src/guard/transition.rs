@@ -5,8 +5,8 @@
 //! so the rules below are all the rules.
 //!
 //! # Levels
-//! [`Stage::Clear`] < [`Stage::Watch`] < [`Stage::ParkNow`] < [`Stage::Alarm`]
-//! < [`Stage::SensorFault`]. Park is requested from `park_now` up; the alarm
+//! [`AlertLevel::Clear`] < [`AlertLevel::Watch`] < [`AlertLevel::ParkNow`] < [`AlertLevel::Alarm`]
+//! < [`AlertLevel::SensorFault`]. Park is requested from `park_now` up; the alarm
 //! output from `alarm` up. `sensor_fault` is the can't-see level: the guard
 //! has a fault (of a sensor, of another input, or of its own evaluation) and
 //! cannot judge the rig, so it parks and alarms.
@@ -19,9 +19,9 @@
 //!
 //! | level | raised when (cause) | settled below it when |
 //! |---|---|---|
-//! | `alarm` | overturning ≥ `alarm_utilisation` ([`Cause::Overturning`]); sliding ≥ `alarm_utilisation` ([`Cause::Sliding`]); tilt margin ≤ `tilt_margin_alarm_rad` ([`Cause::TiltMargin`]) | overturning < r·alarm, sliding < r·alarm, tilt margin > alarm margin ÷ r |
-//! | `park_now` | predicted overturning ≥ `park_utilisation` ([`Cause::PredictedOverturning`]); either drive ≥ `drive_park_utilisation` ([`Cause::Drive`]) | predicted < r·park, both drives < r·drive park |
-//! | `watch` | predicted overturning ≥ `watch_utilisation` ([`Cause::PredictedOverturning`]); sliding ≥ `watch_utilisation` ([`Cause::Sliding`]); tilt drift ≥ `drift_watch_rad_per_s` ([`Cause::TiltDrift`]) | predicted < r·watch, sliding < r·watch, drift < r·drift watch |
+//! | `alarm` | overturning ≥ `alarm_utilisation` ([`AlertCause::Overturning`]); sliding ≥ `alarm_utilisation` ([`AlertCause::Sliding`]); tilt margin ≤ `tilt_margin_alarm_rad` ([`AlertCause::TiltMargin`]) | overturning < r·alarm, sliding < r·alarm, tilt margin > alarm margin ÷ r |
+//! | `park_now` | predicted overturning ≥ `park_utilisation` ([`AlertCause::PredictedOverturning`]); either drive ≥ `drive_park_utilisation` ([`AlertCause::Drive`]) | predicted < r·park, both drives < r·drive park |
+//! | `watch` | predicted overturning ≥ `watch_utilisation` ([`AlertCause::PredictedOverturning`]); sliding ≥ `watch_utilisation` ([`AlertCause::Sliding`]); tilt drift ≥ `drift_watch_rad_per_s` ([`AlertCause::TiltDrift`]) | predicted < r·watch, sliding < r·watch, drift < r·drift watch |
 //!
 //! The *wanted* level is the highest level whose raise condition holds
 //! (`clear` when none does).
@@ -31,13 +31,13 @@
 //!
 //! | present level | readings | next level | cause |
 //! |---|---|---|---|
-//! | any | a fault, or a figure missing or not finite | `sensor_fault` (no change if already there) | [`Cause::SensorFault`] or [`Cause::EvaluationFault`] |
+//! | any | a fault, or a figure missing or not finite | `sensor_fault` (no change if already there) | [`AlertCause::SensorFault`] or [`AlertCause::EvaluationFault`] |
 //! | `sensor_fault` | figures, healthy for less than `fault_clear_ms` | `sensor_fault` | none |
-//! | `sensor_fault` | figures, healthy for `fault_clear_ms` | from `alarm` down, each level while the figures are settled below it, to no lower than the floor: the wanted level, `watch`, the level held before the fault, and `alarm` while latched | [`Cause::FaultCleared`] |
+//! | `sensor_fault` | figures, healthy for `fault_clear_ms` | from `alarm` down, each level while the figures are settled below it, to no lower than the floor: the wanted level, `watch`, the level held before the fault, and `alarm` while latched | [`AlertCause::FaultCleared`] |
 //! | L | wanted W > L | W (latch when W is `alarm`) | the cause of W's first raise condition |
 //! | L | wanted W = L | L | none |
 //! | L | wanted W < L, latched | L | none |
-//! | L | wanted W < L | the lowest B in W..L such that every level from L down to just above B has been settled for `dwell_ms`; L if there is none | [`Cause::Settled`], or [`Cause::Acknowledged`] in the first step after [`Memory::acknowledge`] |
+//! | L | wanted W < L | the lowest B in W..L such that every level from L down to just above B has been settled for `dwell_ms`; L if there is none | [`AlertCause::Settled`], or [`AlertCause::Acknowledged`] in the first step after [`Memory::acknowledge`] |
 //!
 //! The settled timers (one per level above `clear`) run only while the
 //! figures are trusted: a fault restarts every one of them, and so does a
@@ -57,12 +57,12 @@
 
 use crate::sense::Millis;
 
-/// The stage of the guard, in rising order of severity.
+/// The alert level of the guard, in rising order of severity.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Default, Hash)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 #[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
-pub enum Stage {
+pub enum AlertLevel {
     /// All figures comfortably inside their limits.
     Clear,
     /// A figure has passed the watch threshold: keep an eye on the rig.
@@ -80,37 +80,37 @@ pub enum Stage {
     SensorFault,
 }
 
-impl Stage {
+impl AlertLevel {
     /// Every level, in rising order.
-    pub const ALL: [Stage; 5] = [
-        Stage::Clear,
-        Stage::Watch,
-        Stage::ParkNow,
-        Stage::Alarm,
-        Stage::SensorFault,
+    pub const ALL: [AlertLevel; 5] = [
+        AlertLevel::Clear,
+        AlertLevel::Watch,
+        AlertLevel::ParkNow,
+        AlertLevel::Alarm,
+        AlertLevel::SensorFault,
     ];
 
     /// True when the park-request output should be asserted.
     #[must_use]
     pub fn park_requested(self) -> bool {
-        self >= Stage::ParkNow
+        self >= AlertLevel::ParkNow
     }
 
     /// True when the alarm output should be asserted.
     #[must_use]
     pub fn alarm(self) -> bool {
-        self >= Stage::Alarm
+        self >= AlertLevel::Alarm
     }
 
     /// A short lower-case name for logs.
     #[must_use]
     pub const fn name(self) -> &'static str {
         match self {
-            Stage::Clear => "clear",
-            Stage::Watch => "watch",
-            Stage::ParkNow => "park_now",
-            Stage::Alarm => "alarm",
-            Stage::SensorFault => "sensor_fault",
+            AlertLevel::Clear => "clear",
+            AlertLevel::Watch => "watch",
+            AlertLevel::ParkNow => "park_now",
+            AlertLevel::Alarm => "alarm",
+            AlertLevel::SensorFault => "sensor_fault",
         }
     }
 
@@ -118,30 +118,30 @@ impl Stage {
     /// park_now, alarm); `None` for clear and sensor_fault.
     const fn timer(self) -> Option<usize> {
         match self {
-            Stage::Watch => Some(0),
-            Stage::ParkNow => Some(1),
-            Stage::Alarm => Some(2),
-            Stage::Clear | Stage::SensorFault => None,
+            AlertLevel::Watch => Some(0),
+            AlertLevel::ParkNow => Some(1),
+            AlertLevel::Alarm => Some(2),
+            AlertLevel::Clear | AlertLevel::SensorFault => None,
         }
     }
 
     /// The level just below (clear stays clear).
-    const fn below(self) -> Stage {
+    const fn below(self) -> AlertLevel {
         match self {
-            Stage::Clear | Stage::Watch => Stage::Clear,
-            Stage::ParkNow => Stage::Watch,
-            Stage::Alarm => Stage::ParkNow,
-            Stage::SensorFault => Stage::Alarm,
+            AlertLevel::Clear | AlertLevel::Watch => AlertLevel::Clear,
+            AlertLevel::ParkNow => AlertLevel::Watch,
+            AlertLevel::Alarm => AlertLevel::ParkNow,
+            AlertLevel::SensorFault => AlertLevel::Alarm,
         }
     }
 }
 
-/// Why the stage changed.
+/// Why the alert level changed.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 #[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
-pub enum Cause {
+pub enum AlertCause {
     /// Overturning utilisation at the present peak gust.
     Overturning,
     /// Overturning utilisation predicted for the end of a park.
@@ -169,7 +169,7 @@ pub enum Cause {
     Acknowledged,
 }
 
-impl Cause {
+impl AlertCause {
     /// A short snake-case name for logs: `overturning`,
     /// `predicted_overturning`, `sliding`, `drive`, `tilt_margin`,
     /// `tilt_drift`, `sensor_fault`, `evaluation_fault`, `settled`,
@@ -177,17 +177,17 @@ impl Cause {
     #[must_use]
     pub const fn name(self) -> &'static str {
         match self {
-            Cause::Overturning => "overturning",
-            Cause::PredictedOverturning => "predicted_overturning",
-            Cause::Sliding => "sliding",
-            Cause::Drive => "drive",
-            Cause::TiltMargin => "tilt_margin",
-            Cause::TiltDrift => "tilt_drift",
-            Cause::SensorFault => "sensor_fault",
-            Cause::EvaluationFault => "evaluation_fault",
-            Cause::Settled => "settled",
-            Cause::FaultCleared => "fault_cleared",
-            Cause::Acknowledged => "acknowledged",
+            AlertCause::Overturning => "overturning",
+            AlertCause::PredictedOverturning => "predicted_overturning",
+            AlertCause::Sliding => "sliding",
+            AlertCause::Drive => "drive",
+            AlertCause::TiltMargin => "tilt_margin",
+            AlertCause::TiltDrift => "tilt_drift",
+            AlertCause::SensorFault => "sensor_fault",
+            AlertCause::EvaluationFault => "evaluation_fault",
+            AlertCause::Settled => "settled",
+            AlertCause::FaultCleared => "fault_cleared",
+            AlertCause::Acknowledged => "acknowledged",
         }
     }
 }
@@ -240,9 +240,9 @@ pub enum Readings {
     /// Trusted figures (a non-finite one is still read as an evaluation
     /// fault).
     Figures(Figures),
-    /// A fault of a sensor or another input: cause [`Cause::SensorFault`].
+    /// A fault of a sensor or another input: cause [`AlertCause::SensorFault`].
     SensorFault,
-    /// The physics could not be evaluated: cause [`Cause::EvaluationFault`].
+    /// The physics could not be evaluated: cause [`AlertCause::EvaluationFault`].
     EvaluationFault,
 }
 
@@ -288,12 +288,12 @@ pub struct Memory {
     pub acknowledged: bool,
     /// The level held when the present fault began (`None` before the first
     /// judgement, as at start-up).
-    pub before_fault: Option<Stage>,
+    pub before_fault: Option<AlertLevel>,
 }
 
 impl Memory {
     /// Records an operator's acknowledgement: releases the latch; a step
-    /// down in the next decision is caused [`Cause::Acknowledged`].
+    /// down in the next decision is caused [`AlertCause::Acknowledged`].
     pub fn acknowledge(&mut self) {
         self.latched = false;
         self.acknowledged = true;
@@ -305,11 +305,11 @@ impl Memory {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Change {
     /// Level before.
-    pub from: Stage,
+    pub from: AlertLevel,
     /// Level after.
-    pub to: Stage,
+    pub to: AlertLevel,
     /// Why.
-    pub cause: Cause,
+    pub cause: AlertCause,
 }
 
 /// The outcome of one decision.
@@ -317,7 +317,7 @@ pub struct Change {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Transition {
     /// The next level.
-    pub stage: Stage,
+    pub stage: AlertLevel,
     /// The memory for the next decision.
     pub memory: Memory,
     /// The change, when the level changed.
@@ -327,25 +327,25 @@ pub struct Transition {
 /// The highest level whose raise condition holds, and the cause of its first
 /// condition (module docs, "Conditions"); `(Clear, Settled)` when none holds.
 #[must_use]
-pub fn wanted(f: &Figures, t: &Thresholds) -> (Stage, Cause) {
+pub fn wanted(f: &Figures, t: &Thresholds) -> (AlertLevel, AlertCause) {
     if f.overturning >= t.alarm_utilisation {
-        (Stage::Alarm, Cause::Overturning)
+        (AlertLevel::Alarm, AlertCause::Overturning)
     } else if f.sliding >= t.alarm_utilisation {
-        (Stage::Alarm, Cause::Sliding)
+        (AlertLevel::Alarm, AlertCause::Sliding)
     } else if f.tilt_margin_rad <= t.tilt_margin_alarm_rad {
-        (Stage::Alarm, Cause::TiltMargin)
+        (AlertLevel::Alarm, AlertCause::TiltMargin)
     } else if f.predicted >= t.park_utilisation {
-        (Stage::ParkNow, Cause::PredictedOverturning)
+        (AlertLevel::ParkNow, AlertCause::PredictedOverturning)
     } else if f.drive_max() >= t.drive_park_utilisation {
-        (Stage::ParkNow, Cause::Drive)
+        (AlertLevel::ParkNow, AlertCause::Drive)
     } else if f.predicted >= t.watch_utilisation {
-        (Stage::Watch, Cause::PredictedOverturning)
+        (AlertLevel::Watch, AlertCause::PredictedOverturning)
     } else if f.sliding >= t.watch_utilisation {
-        (Stage::Watch, Cause::Sliding)
+        (AlertLevel::Watch, AlertCause::Sliding)
     } else if f.drift_rad_per_s >= t.drift_watch_rad_per_s {
-        (Stage::Watch, Cause::TiltDrift)
+        (AlertLevel::Watch, AlertCause::TiltDrift)
     } else {
-        (Stage::Clear, Cause::Settled)
+        (AlertLevel::Clear, AlertCause::Settled)
     }
 }
 
@@ -353,30 +353,30 @@ pub fn wanted(f: &Figures, t: &Thresholds) -> (Stage, Cause) {
 /// docs, "Conditions"). Clear and sensor_fault have no thresholds: always
 /// true.
 #[must_use]
-pub fn settled_below(level: Stage, f: &Figures, t: &Thresholds) -> bool {
+pub fn settled_below(level: AlertLevel, f: &Figures, t: &Thresholds) -> bool {
     let r = t.clear_ratio;
     match level {
-        Stage::Watch => {
+        AlertLevel::Watch => {
             f.predicted < r * t.watch_utilisation
                 && f.sliding < r * t.watch_utilisation
                 && f.drift_rad_per_s < r * t.drift_watch_rad_per_s
         }
-        Stage::ParkNow => {
+        AlertLevel::ParkNow => {
             f.predicted < r * t.park_utilisation && f.drive_max() < r * t.drive_park_utilisation
         }
-        Stage::Alarm => {
+        AlertLevel::Alarm => {
             f.overturning < r * t.alarm_utilisation
                 && f.sliding < r * t.alarm_utilisation
                 && f.tilt_margin_rad * r > t.tilt_margin_alarm_rad
         }
-        Stage::Clear | Stage::SensorFault => true,
+        AlertLevel::Clear | AlertLevel::SensorFault => true,
     }
 }
 
 /// One decision (module docs, "Transition table").
 #[must_use]
 pub fn transition(
-    stage: Stage,
+    stage: AlertLevel,
     readings: &Readings,
     t: &Thresholds,
     memory: Memory,
@@ -385,7 +385,7 @@ pub fn transition(
     let mut m = memory;
     let acknowledged = m.acknowledged;
     m.acknowledged = false;
-    let change = |to: Stage, cause: Cause, m: Memory| Transition {
+    let change = |to: AlertLevel, cause: AlertCause, m: Memory| Transition {
         stage: to,
         memory: m,
         change: (to != stage).then_some(Change {
@@ -398,21 +398,21 @@ pub fn transition(
         Readings::Figures(f) if f.all_finite() => f,
         Readings::Figures(_) | Readings::EvaluationFault | Readings::SensorFault => {
             let cause = if matches!(readings, Readings::SensorFault) {
-                Cause::SensorFault
+                AlertCause::SensorFault
             } else {
-                Cause::EvaluationFault
+                AlertCause::EvaluationFault
             };
             m.healthy_since = None;
             m.settled_since = [None; 3];
-            if stage != Stage::SensorFault {
+            if stage != AlertLevel::SensorFault {
                 m.before_fault = Some(stage);
             }
-            return change(Stage::SensorFault, cause, m);
+            return change(AlertLevel::SensorFault, cause, m);
         }
     };
     let healthy_since = *m.healthy_since.get_or_insert(now);
     // The settled timers of the levels with thresholds.
-    for level in [Stage::Watch, Stage::ParkNow, Stage::Alarm] {
+    for level in [AlertLevel::Watch, AlertLevel::ParkNow, AlertLevel::Alarm] {
         if let Some(slot) = level.timer().and_then(|i| m.settled_since.get_mut(i)) {
             *slot = if settled_below(level, figures, t) {
                 Some(slot.unwrap_or(now))
@@ -422,28 +422,28 @@ pub fn transition(
         }
     }
     let (want, cause) = wanted(figures, t);
-    if stage == Stage::SensorFault {
+    if stage == AlertLevel::SensorFault {
         if now.since(healthy_since) < t.fault_clear_ms {
             return change(stage, cause, m);
         }
-        if want == Stage::Alarm {
+        if want == AlertLevel::Alarm {
             m.latched = true;
         }
         let mut floor = want
-            .max(Stage::Watch)
-            .max(m.before_fault.unwrap_or(Stage::Clear));
+            .max(AlertLevel::Watch)
+            .max(m.before_fault.unwrap_or(AlertLevel::Clear));
         if m.latched {
-            floor = Stage::Alarm;
+            floor = AlertLevel::Alarm;
         }
-        let mut to = Stage::Alarm;
+        let mut to = AlertLevel::Alarm;
         while to > floor && settled_below(to, figures, t) {
             to = to.below();
         }
         m.before_fault = None;
-        return change(to, Cause::FaultCleared, m);
+        return change(to, AlertCause::FaultCleared, m);
     }
     if want > stage {
-        if want == Stage::Alarm {
+        if want == AlertLevel::Alarm {
             m.latched = true;
         }
         return change(want, cause, m);
@@ -452,7 +452,7 @@ pub fn transition(
         return change(stage, cause, m);
     }
     // Step down: as far as the dwell of every level left allows.
-    let dwelt = |level: Stage| {
+    let dwelt = |level: AlertLevel| {
         level
             .timer()
             .and_then(|i| m.settled_since.get(i).copied().flatten())
@@ -468,9 +468,9 @@ pub fn transition(
     // A fresh dwell for every level from here down.
     m.settled_since = [None; 3];
     let cause = if acknowledged {
-        Cause::Acknowledged
+        AlertCause::Acknowledged
     } else {
-        Cause::Settled
+        AlertCause::Settled
     };
     change(to, cause, m)
 }

@@ -32,7 +32,7 @@
 //! load. A negative force means the rule puts that screw on the compression
 //! side, where the flange, not the screw, carries the load.
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, STANDARD_GRAVITY_MPS2};
 
 /// Most screws a pattern may hold.
@@ -120,7 +120,7 @@ impl BoltPattern {
     pub fn new(positions_mm: &[[f32; 2]]) -> Result<BoltPattern, Error> {
         let count_err = |kind| Error {
             kind,
-            field: "bolt_pattern.screws_mm",
+            field: Field::BoltPatternScrewsMm,
             index: None,
             value: positions_mm.len() as f32,
             min: 1.0,
@@ -132,7 +132,7 @@ impl BoltPattern {
         let mut screws_mm = heapless::Vec::new();
         for (i, p) in positions_mm.iter().enumerate() {
             for c in p {
-                Error::check("bolt_pattern.screws_mm", *c, -MAX_COORD_MM, MAX_COORD_MM)
+                Error::check(Field::BoltPatternScrewsMm, *c, -MAX_COORD_MM, MAX_COORD_MM)
                     .map_err(|e| e.at(i))?;
             }
             screws_mm
@@ -151,9 +151,9 @@ impl BoltPattern {
     /// not finite or beyond ±10⁴ rad.
     pub fn circle(n: usize, radius_mm: f32, phase_rad: f32) -> Result<BoltPattern, Error> {
         let nf = n as f32;
-        Error::check("bolt_pattern.count", nf, 1.0, MAX_SCREWS as f32)?;
-        let r = Error::check("bolt_pattern.radius_mm", radius_mm, 0.0, MAX_COORD_MM)?;
-        let phase = Error::check("bolt_pattern.phase_rad", phase_rad, -1e4, 1e4)?;
+        Error::check(Field::BoltPatternCount, nf, 1.0, MAX_SCREWS as f32)?;
+        let r = Error::check(Field::BoltPatternRadiusMm, radius_mm, 0.0, MAX_COORD_MM)?;
+        let phase = Error::check(Field::BoltPatternPhaseRad, phase_rad, -1e4, 1e4)?;
         let mut screws_mm = heapless::Vec::new();
         for i in 0..n {
             let a = phase + math::TAU * (i as f32) / nf;
@@ -161,7 +161,7 @@ impl BoltPattern {
             // still handled rather than assumed.
             screws_mm
                 .push([r * math::cos(a), r * math::sin(a)])
-                .map_err(|_| Error::new(ErrorKind::TooMany, "bolt_pattern.count"))?;
+                .map_err(|_| Error::new(ErrorKind::TooMany, Field::BoltPatternCount))?;
         }
         Ok(BoltPattern { screws_mm })
     }
@@ -208,9 +208,9 @@ impl BoltPattern {
     /// one line through the centroid while the moment has a component along
     /// that line (centroid pivot), or every screw on the heel line.
     pub fn tensions(&self, load: JointLoad, pivot: PivotLine) -> Result<BoltGroupResult, Error> {
-        let p = Error::check("joint_load.axial_n", load.axial_n, -1e7, 1e7)?;
-        let mx = Error::check("joint_load.moment_x_nm", load.moment_x_nm, -1e6, 1e6)?;
-        let my = Error::check("joint_load.moment_y_nm", load.moment_y_nm, -1e6, 1e6)?;
+        let p = Error::check(Field::JointLoadAxialN, load.axial_n, -1e7, 1e7)?;
+        let mx = Error::check(Field::JointLoadMomentXNm, load.moment_x_nm, -1e6, 1e6)?;
+        let my = Error::check(Field::JointLoadMomentYNm, load.moment_y_nm, -1e6, 1e6)?;
         let n = self.screws_mm.len();
         let share = p / (n.max(1) as f32);
         let mut forces_n = [0.0; MAX_SCREWS];
@@ -262,7 +262,7 @@ impl BoltPattern {
     ) -> Result<f32, Error> {
         let cannot_resist = |v: f32| Error {
             kind: ErrorKind::Unreachable,
-            field: "bolt_pattern.screws_mm",
+            field: Field::BoltPatternScrewsMm,
             index: None,
             value: v,
             min: f32::NAN,
@@ -277,7 +277,7 @@ impl BoltPattern {
         if let PivotLine::Heel { offset_mm } = pivot {
             let need = self.relative().map(|r| -lever(r)).fold(0.0_f32, f32::max);
             let shift = Error::check(
-                "bolt_pattern.pivot.offset_mm",
+                Field::BoltPatternPivotOffsetMm,
                 offset_mm,
                 need,
                 MAX_COORD_MM,
@@ -351,9 +351,9 @@ impl BoltPattern {
 /// `bolt_circle.count` outside 3 to 1000; `bolt_circle.radius_mm` outside
 /// 0.1 to 10 000 mm; `bolt_circle.moment_nm` outside 0 to 10⁶ N·m.
 pub fn circle_max_tension_n(n: usize, radius_mm: f32, moment_nm: f32) -> Result<f32, Error> {
-    let nf = Error::check("bolt_circle.count", n as f32, 3.0, 1000.0)?;
-    let r = Error::check("bolt_circle.radius_mm", radius_mm, 0.1, MAX_COORD_MM)?;
-    let m = Error::check("bolt_circle.moment_nm", moment_nm, 0.0, 1e6)?;
+    let nf = Error::check(Field::BoltCircleCount, n as f32, 3.0, 1000.0)?;
+    let r = Error::check(Field::BoltCircleRadiusMm, radius_mm, 0.1, MAX_COORD_MM)?;
+    let m = Error::check(Field::BoltCircleMomentNm, moment_nm, 0.0, 1e6)?;
     Ok(2.0 * m * 1000.0 / (nf * r))
 }
 
@@ -393,10 +393,10 @@ impl ShaftLoad {
         lever_arm_m: f32,
         angle_from_vertical_rad: f32,
     ) -> Result<ShaftLoad, Error> {
-        let m = Error::check("shaft_load.mass_kg", mass_kg, 0.0, 1e4)?;
-        let l = Error::check("shaft_load.lever_arm_m", lever_arm_m, 0.0, 100.0)?;
+        let m = Error::check(Field::ShaftLoadMassKg, mass_kg, 0.0, 1e4)?;
+        let l = Error::check(Field::ShaftLoadLeverArmM, lever_arm_m, 0.0, 100.0)?;
         let a = Error::check(
-            "shaft_load.angle_from_vertical_rad",
+            Field::ShaftLoadAngleFromVerticalRad,
             angle_from_vertical_rad,
             0.0,
             math::PI,
@@ -491,7 +491,7 @@ mod tests {
         let e = p
             .tensions(load, PivotLine::Heel { offset_mm: 20.0 })
             .unwrap_err();
-        assert_eq!(e.field, "bolt_pattern.pivot.offset_mm");
+        assert_eq!(e.field, Field::BoltPatternPivotOffsetMm);
         assert!((e.min - 40.0).abs() < 1e-3);
     }
 

@@ -8,7 +8,7 @@
 //! primary document; use them as a first estimate only. Minimums depend on
 //! product form and thickness: read the material certificate of the part.
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 
 /// Which strength of a material a check uses.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -21,6 +21,17 @@ pub enum StrengthBasis {
     /// Ultimate (tensile) strength: the load at which the part breaks or the
     /// thread strips. The basis of a failure estimate.
     Ultimate,
+}
+
+impl StrengthBasis {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            StrengthBasis::Yield => "yield",
+            StrengthBasis::Ultimate => "ultimate",
+        }
+    }
 }
 
 /// Yield and ultimate strength of a material, MPa. Built only through
@@ -44,8 +55,13 @@ impl Material {
     /// `material.ultimate_mpa` not finite or outside `yield_mpa` to
     /// [`MAX_STRENGTH_MPA`].
     pub fn new(yield_mpa: f32, ultimate_mpa: f32) -> Result<Material, Error> {
-        let y = Error::check("material.yield_mpa", yield_mpa, 1.0, MAX_STRENGTH_MPA)?;
-        let u = Error::check("material.ultimate_mpa", ultimate_mpa, y, MAX_STRENGTH_MPA)?;
+        let y = Error::check(Field::MaterialYieldMpa, yield_mpa, 1.0, MAX_STRENGTH_MPA)?;
+        let u = Error::check(
+            Field::MaterialUltimateMpa,
+            ultimate_mpa,
+            y,
+            MAX_STRENGTH_MPA,
+        )?;
         Ok(Material {
             yield_mpa: y,
             ultimate_mpa: u,
@@ -230,11 +246,11 @@ mod tests {
     fn free_entry_is_validated() {
         assert_eq!(
             Material::new(300.0, 200.0).unwrap_err().field,
-            "material.ultimate_mpa"
+            Field::MaterialUltimateMpa
         );
         assert_eq!(
             Material::new(-1.0, 200.0).unwrap_err().field,
-            "material.yield_mpa"
+            Field::MaterialYieldMpa
         );
         assert!(Material::new(f32::INFINITY, 200.0).is_err());
         assert_eq!(Material::bolt_class_8_8(20.0), BOLT_8_8_OVER_M16);

@@ -14,7 +14,7 @@
 
 use super::material::{Material, StrengthBasis};
 use super::thread::IsoThread;
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math::PI;
 
 /// Largest shaft diameter accepted, mm.
@@ -45,7 +45,7 @@ impl ShaftSection {
     /// # Errors
     /// `shaft.diameter_mm` not finite or outside 0.5 to 1000 mm.
     pub fn solid(diameter_mm: f32) -> Result<ShaftSection, Error> {
-        let d = Error::check("shaft.diameter_mm", diameter_mm, 0.5, MAX_DIAMETER_MM)?;
+        let d = Error::check(Field::ShaftDiameterMm, diameter_mm, 0.5, MAX_DIAMETER_MM)?;
         Ok(ShaftSection::Solid { diameter_mm: d })
     }
 
@@ -55,8 +55,8 @@ impl ShaftSection {
     /// `shaft.outer_mm` outside 0.5 to 1000 mm; `shaft.bore_mm` outside 0 to
     /// 0.98 × the outer diameter (thinner walls are not a shaft).
     pub fn hollow(outer_mm: f32, bore_mm: f32) -> Result<ShaftSection, Error> {
-        let o = Error::check("shaft.outer_mm", outer_mm, 0.5, MAX_DIAMETER_MM)?;
-        let b = Error::check("shaft.bore_mm", bore_mm, 0.0, 0.98 * o)?;
+        let o = Error::check(Field::ShaftOuterMm, outer_mm, 0.5, MAX_DIAMETER_MM)?;
+        let b = Error::check(Field::ShaftBoreMm, bore_mm, 0.0, 0.98 * o)?;
         Ok(ShaftSection::Hollow {
             outer_mm: o,
             bore_mm: b,
@@ -114,7 +114,7 @@ impl ShaftSection {
 /// Invalid section; `shaft.moment_nm` not finite or outside ±10⁶ N·m.
 pub fn bending_stress_mpa(moment_nm: f32, section: &ShaftSection) -> Result<f32, Error> {
     section.validate()?;
-    let m = Error::check("shaft.moment_nm", moment_nm, -1e6, 1e6)?;
+    let m = Error::check(Field::ShaftMomentNm, moment_nm, -1e6, 1e6)?;
     Ok(m.abs() * 1000.0 / section.section_modulus_mm3())
 }
 
@@ -149,7 +149,7 @@ pub fn check_shaft_bending(
     safety_factor: f32,
 ) -> Result<ShaftBendingResult, Error> {
     let stress_mpa = bending_stress_mpa(moment_nm, section)?;
-    let sf = Error::check("shaft.safety_factor", safety_factor, 1.0, 100.0)?;
+    let sf = Error::check(Field::ShaftSafetyFactor, safety_factor, 1.0, 100.0)?;
     let s = section.section_modulus_mm3();
     let allowable_mpa = material.strength_mpa(basis) / sf;
     Ok(ShaftBendingResult {
@@ -190,12 +190,12 @@ mod tests {
     fn bad_inputs() {
         assert_eq!(
             ShaftSection::hollow(10.0, 10.0).unwrap_err().field,
-            "shaft.bore_mm"
+            Field::ShaftBoreMm
         );
         let sec = ShaftSection::Solid { diameter_mm: -3.0 };
         assert_eq!(
             bending_stress_mpa(1.0, &sec).unwrap_err().field,
-            "shaft.diameter_mm"
+            Field::ShaftDiameterMm
         );
         let sec = ShaftSection::solid(10.0).unwrap();
         assert!(bending_stress_mpa(f32::NAN, &sec).is_err());

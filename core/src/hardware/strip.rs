@@ -18,7 +18,7 @@
 
 use super::material::{Material, StrengthBasis};
 use super::thread::ThreadLimits;
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math::PI;
 
 /// tan 30° = 1/√3, the flank term of the 60° thread in the H28 formulas.
@@ -56,7 +56,7 @@ impl ShearFactor {
             ShearFactor::CommonPractice => Ok(0.6),
             ShearFactor::VonMises => Ok(TAN_30),
             ShearFactor::Tresca => Ok(0.5),
-            ShearFactor::Custom(k) => Error::check("strip.shear_factor", k, 0.3, 1.0),
+            ShearFactor::Custom(k) => Error::check(Field::StripShearFactor, k, 0.3, 1.0),
         }
     }
 }
@@ -70,6 +70,17 @@ pub enum ThreadSide {
     External,
     /// The internal thread (nut, tapped hole).
     Internal,
+}
+
+impl ThreadSide {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            ThreadSide::External => "external",
+            ThreadSide::Internal => "internal",
+        }
+    }
 }
 
 /// What limits a threaded joint in axial tension.
@@ -87,8 +98,20 @@ pub enum FailureMode {
     InternalThreadStrip,
 }
 
+impl FailureMode {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            FailureMode::ScrewTension => "screw_tension",
+            FailureMode::ExternalThreadStrip => "external_thread_strip",
+            FailureMode::InternalThreadStrip => "internal_thread_strip",
+        }
+    }
+}
+
 fn engagement(le_mm: f32) -> Result<f32, Error> {
-    Error::check("strip.engagement_mm", le_mm, 0.0, MAX_ENGAGEMENT_MM)
+    Error::check(Field::StripEngagementMm, le_mm, 0.0, MAX_ENGAGEMENT_MM)
 }
 
 /// External-thread shear area per mm of engagement, mm²/mm.
@@ -139,7 +162,7 @@ pub fn equal_strength_engagement_mm(
     tensile_area_mm2: f32,
 ) -> Result<f32, Error> {
     limits.validate()?;
-    let at = Error::check("strip.tensile_area_mm2", tensile_area_mm2, 0.1, 1e5)?;
+    let at = Error::check(Field::StripTensileAreaMm2, tensile_area_mm2, 0.1, 1e5)?;
     Ok(2.0 * at / external_area_per_mm(limits))
 }
 
@@ -158,8 +181,13 @@ pub fn engagement_for_load_mm(
     shear_strength_mpa: f32,
 ) -> Result<f32, Error> {
     limits.validate()?;
-    let f = Error::check("strip.load_n", load_n, 0.0, 1e7)?;
-    let tau = Error::check("strip.shear_strength_mpa", shear_strength_mpa, 1.0, 3000.0)?;
+    let f = Error::check(Field::StripLoadN, load_n, 0.0, 1e7)?;
+    let tau = Error::check(
+        Field::StripShearStrengthMpa,
+        shear_strength_mpa,
+        1.0,
+        3000.0,
+    )?;
     let per_mm = match side {
         ThreadSide::External => external_area_per_mm(limits),
         ThreadSide::Internal => internal_area_per_mm(limits),
@@ -230,7 +258,7 @@ impl StrippingResult {
     /// # Errors
     /// `strip.load_n` not finite or outside 0 to 10⁷ N.
     pub fn utilisation(&self, load_n: f32) -> Result<f32, Error> {
-        let f = Error::check("strip.load_n", load_n, 0.0, 1e7)?;
+        let f = Error::check(Field::StripLoadN, load_n, 0.0, 1e7)?;
         Ok(f / self.allowable_n)
     }
 }
@@ -249,15 +277,15 @@ impl StrippingResult {
 pub fn check_stripping(input: &StrippingInput) -> Result<StrippingResult, Error> {
     let l = &input.limits;
     l.validate()?;
-    let at = Error::check("strip.tensile_area_mm2", input.tensile_area_mm2, 0.1, 1e5)?;
+    let at = Error::check(Field::StripTensileAreaMm2, input.tensile_area_mm2, 0.1, 1e5)?;
     let le = Error::check(
-        "strip.engagement_mm",
+        Field::StripEngagementMm,
         input.engagement_mm,
         0.01,
         MAX_ENGAGEMENT_MM,
     )?;
     let k = input.shear_factor.value()?;
-    let sf = Error::check("strip.safety_factor", input.safety_factor, 1.0, 100.0)?;
+    let sf = Error::check(Field::StripSafetyFactor, input.safety_factor, 1.0, 100.0)?;
     let s_screw = input.screw.strength_mpa(input.basis);
     let s_int = input.internal.strength_mpa(input.basis);
 
@@ -346,16 +374,19 @@ mod tests {
         i.safety_factor = 0.5;
         assert_eq!(
             check_stripping(&i).unwrap_err().field,
-            "strip.safety_factor"
+            Field::StripSafetyFactor
         );
         let mut i = input(f32::NAN);
         assert_eq!(
             check_stripping(&i).unwrap_err().field,
-            "strip.engagement_mm"
+            Field::StripEngagementMm
         );
         i.engagement_mm = 8.0;
         i.shear_factor = ShearFactor::Custom(2.0);
-        assert_eq!(check_stripping(&i).unwrap_err().field, "strip.shear_factor");
+        assert_eq!(
+            check_stripping(&i).unwrap_err().field,
+            Field::StripShearFactor
+        );
         assert!(external_shear_area_mm2(&i.limits, -1.0).is_err());
     }
 }

@@ -10,7 +10,7 @@
 //! root), tensile stress area As = π/4·((d2 + d3)/2)² = π/4·(d − 0.938194·P)²
 //! (ISO 898-1).
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::math::PI;
 
 /// Where a set of [`ThreadLimits`] comes from.
@@ -30,6 +30,18 @@ pub enum LimitsSource {
     BasicProfile,
     /// Diameters given by the caller.
     Caller,
+}
+
+impl LimitsSource {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            LimitsSource::Class6g6H => "class_6g_6h",
+            LimitsSource::BasicProfile => "basic_profile",
+            LimitsSource::Caller => "caller",
+        }
+    }
 }
 
 /// The four limit diameters that the FED-STD-H28/2B stripping formulas use,
@@ -91,9 +103,9 @@ impl ThreadLimits {
     /// # Errors
     /// As [`ThreadLimits::new`].
     pub fn validate(&self) -> Result<(), Error> {
-        let p = Error::check("thread_limits.pitch_mm", self.pitch_mm, 0.1, 10.0)?;
+        let p = Error::check(Field::ThreadLimitsPitchMm, self.pitch_mm, 0.1, 10.0)?;
         let d = Error::check(
-            "thread_limits.ext_major_min_mm",
+            Field::ThreadLimitsExtMajorMinMm,
             self.ext_major_min_mm,
             0.5,
             500.0,
@@ -102,19 +114,19 @@ impl ThreadLimits {
         // check the pitch diameter against the major first so the minor
         // diameter's own range is well defined.
         let d2 = Error::check(
-            "thread_limits.ext_pitch_min_mm",
+            Field::ThreadLimitsExtPitchMinMm,
             self.ext_pitch_min_mm,
             d - 2.0 * p,
             d,
         )?;
         let d1 = Error::check(
-            "thread_limits.int_minor_max_mm",
+            Field::ThreadLimitsIntMinorMaxMm,
             self.int_minor_max_mm,
             d - 2.0 * p,
             d2,
         )?;
         Error::check(
-            "thread_limits.int_pitch_max_mm",
+            Field::ThreadLimitsIntPitchMaxMm,
             self.int_pitch_max_mm,
             d1,
             d,
@@ -201,7 +213,7 @@ impl IsoThread {
     /// in [`TABLE`] (for example 7 mm): build [`ThreadLimits`] yourself then.
     pub fn by_nominal_mm(nominal_mm: f32) -> Result<IsoThread, Error> {
         let d = Error::check(
-            "thread.nominal_mm",
+            Field::ThreadNominalMm,
             nominal_mm,
             MIN_NOMINAL_MM,
             MAX_NOMINAL_MM,
@@ -212,7 +224,7 @@ impl IsoThread {
             .copied()
             .ok_or(Error {
                 kind: ErrorKind::Unreachable,
-                field: "thread.nominal_mm",
+                field: Field::ThreadNominalMm,
                 index: None,
                 value: d,
                 min: MIN_NOMINAL_MM,
@@ -231,7 +243,7 @@ impl IsoThread {
     /// a pitch is given that is not the coarse pitch (fine threads are not
     /// tabulated; build [`ThreadLimits`] for them).
     pub fn by_name(name: &str) -> Result<IsoThread, Error> {
-        let not_a_name = Error::new(ErrorKind::NotFinite, "thread.name");
+        let not_a_name = Error::new(ErrorKind::NotFinite, Field::ThreadName);
         let s = name.trim();
         let s = s
             .strip_prefix('M')
@@ -252,7 +264,7 @@ impl IsoThread {
             if (p - t.pitch_mm).abs() > 1e-3 {
                 return Err(Error {
                     kind: ErrorKind::OutOfRange,
-                    field: "thread.name.pitch_mm",
+                    field: Field::ThreadNamePitchMm,
                     index: None,
                     value: p,
                     min: t.pitch_mm,
@@ -362,9 +374,15 @@ mod tests {
         assert_eq!(IsoThread::by_name("M10x1.5").unwrap().name, "M10");
         assert_eq!(IsoThread::by_name("M10×1.5").unwrap().name, "M10");
         let e = IsoThread::by_name("M10x1.25").unwrap_err();
-        assert_eq!(e.field, "thread.name.pitch_mm");
-        assert_eq!(IsoThread::by_name("10").unwrap_err().field, "thread.name");
-        assert_eq!(IsoThread::by_name("Mx").unwrap_err().field, "thread.name");
+        assert_eq!(e.field, Field::ThreadNamePitchMm);
+        assert_eq!(
+            IsoThread::by_name("10").unwrap_err().field,
+            Field::ThreadName
+        );
+        assert_eq!(
+            IsoThread::by_name("Mx").unwrap_err().field,
+            Field::ThreadName
+        );
         assert_eq!(
             IsoThread::by_name("M7").unwrap_err().kind,
             ErrorKind::Unreachable
@@ -379,7 +397,7 @@ mod tests {
     fn limits_reject_inverted_diameters() {
         // Internal minor diameter larger than the external pitch diameter.
         let e = ThreadLimits::new(1.5, 9.732, 8.862, 9.0, 9.206).unwrap_err();
-        assert_eq!(e.field, "thread_limits.int_minor_max_mm");
+        assert_eq!(e.field, Field::ThreadLimitsIntMinorMaxMm);
         let e = ThreadLimits::new(f32::NAN, 9.732, 8.862, 8.676, 9.206).unwrap_err();
         assert_eq!(e.kind, ErrorKind::NotFinite);
     }

@@ -22,7 +22,7 @@
 //! here as a series, so it is accurate to f32 rounding with either math back
 //! end.
 
-use crate::error::{Error, ErrorKind};
+use crate::error::{Error, ErrorKind, Field};
 use crate::frame::{self, Tilt, MAX_TILT_RAD};
 use crate::math::{self, Vec3};
 
@@ -46,6 +46,21 @@ pub enum SignedAxis {
     PlusZ,
     /// Sensor −z.
     MinusZ,
+}
+
+impl SignedAxis {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            SignedAxis::PlusX => "plus_x",
+            SignedAxis::MinusX => "minus_x",
+            SignedAxis::PlusY => "plus_y",
+            SignedAxis::MinusY => "minus_y",
+            SignedAxis::PlusZ => "plus_z",
+            SignedAxis::MinusZ => "minus_z",
+        }
+    }
 }
 
 impl SignedAxis {
@@ -106,7 +121,7 @@ impl Mounting {
         if x.cross(y).dot(z) > 0.5 {
             Ok(m)
         } else {
-            Err(Error::new(ErrorKind::OutOfRange, "mounting.axes"))
+            Err(Error::new(ErrorKind::OutOfRange, Field::MountingAxes))
         }
     }
 
@@ -134,7 +149,7 @@ impl Mounting {
             Vec3::from_array(r2),
         );
         for r in [a, b, c] {
-            Error::check_vec("mounting.sensor_to_rig", r, -1.001, 1.001)?;
+            Error::check_vec(Field::MountingSensorToRig, r, -1.001, 1.001)?;
         }
         let bad = (a.dot(a) - 1.0).abs() > 1e-3
             || (b.dot(b) - 1.0).abs() > 1e-3
@@ -144,7 +159,10 @@ impl Mounting {
             || b.dot(c).abs() > 1e-3
             || (a.cross(b).dot(c) - 1.0).abs() > 3e-3;
         if bad {
-            Err(Error::new(ErrorKind::OutOfRange, "mounting.sensor_to_rig"))
+            Err(Error::new(
+                ErrorKind::OutOfRange,
+                Field::MountingSensorToRig,
+            ))
         } else {
             Ok(())
         }
@@ -164,6 +182,17 @@ pub enum TiltReference {
     /// (the rig was levelled then), which removes the sensor's small mounting
     /// error. No tilt is reported until a reference exists.
     LevelReference,
+}
+
+impl TiltReference {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            TiltReference::Absolute => "absolute",
+            TiltReference::LevelReference => "level_reference",
+        }
+    }
 }
 
 /// Configuration of a [`TiltSensor`]. Defaults are listed per field with the
@@ -253,38 +282,38 @@ impl TiltConfig {
     /// `tilt.<field>`; also the filter time constants must increase
     /// fast < step < drift.
     pub fn validate(&self) -> Result<(), Error> {
-        Error::check("tilt.scale_g_per_count", self.scale_g_per_count, 1e-9, 1e6)?;
+        Error::check(Field::TiltScaleGPerCount, self.scale_g_per_count, 1e-9, 1e6)?;
         self.mounting.validate()?;
-        Error::check("tilt.filter_tau_s", self.filter_tau_s, 1e-3, 3600.0)?;
+        Error::check(Field::TiltFilterTauS, self.filter_tau_s, 1e-3, 3600.0)?;
         Error::check(
-            "tilt.step_tau_s",
+            Field::TiltStepTauS,
             self.step_tau_s,
             self.filter_tau_s * 2.0,
             86_400.0,
         )?;
         Error::check(
-            "tilt.drift_tau_s",
+            Field::TiltDriftTauS,
             self.drift_tau_s,
             self.step_tau_s,
             604_800.0,
         )?;
-        Error::check("tilt.band_min_g", self.band_min_g, 0.1, 1.0)?;
-        Error::check("tilt.band_max_g", self.band_max_g, 1.0, 10.0)?;
+        Error::check(Field::TiltBandMinG, self.band_min_g, 0.1, 1.0)?;
+        Error::check(Field::TiltBandMaxG, self.band_max_g, 1.0, 10.0)?;
         Error::check(
-            "tilt.out_of_band_limit_s",
+            Field::TiltOutOfBandLimitS,
             self.out_of_band_limit_s,
             0.0,
             3600.0,
         )?;
         Error::check(
-            "tilt.step_limit_rad",
+            Field::TiltStepLimitRad,
             self.step_limit_rad,
             1e-5,
             MAX_TILT_RAD,
         )?;
-        Error::check("tilt.stale_after_s", self.stale_after_s, 1e-3, 86_400.0)?;
-        Error::check("tilt.stuck_after_s", self.stuck_after_s, 0.0, 86_400.0)?;
-        Error::check("tilt.level_capture_s", self.level_capture_s, 0.0, 3600.0)?;
+        Error::check(Field::TiltStaleAfterS, self.stale_after_s, 1e-3, 86_400.0)?;
+        Error::check(Field::TiltStuckAfterS, self.stuck_after_s, 0.0, 86_400.0)?;
+        Error::check(Field::TiltLevelCaptureS, self.level_capture_s, 0.0, 3600.0)?;
         Ok(())
     }
 }
@@ -303,6 +332,19 @@ pub enum LevelCapture {
     /// The averaged direction was more than 45° from the rig's +z axis (or no
     /// sample came): the rig was not upright; no reference was stored.
     Failed,
+}
+
+impl LevelCapture {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            LevelCapture::Idle => "idle",
+            LevelCapture::InProgress => "in_progress",
+            LevelCapture::Done => "done",
+            LevelCapture::Failed => "failed",
+        }
+    }
 }
 
 /// The smoothing factor α = 1 − exp(−Δt/τ) of a single-pole low-pass filter
@@ -331,7 +373,10 @@ pub fn tilt_of_specific_force(a: Vec3) -> Result<Tilt, Error> {
     // The test of `Vec3::normalized`, without forming the unit vector.
     let n = a.norm();
     if !(n > 1e-12 && n.is_finite()) {
-        return Err(Error::new(ErrorKind::ZeroDirection, "tilt.specific_force"));
+        return Err(Error::new(
+            ErrorKind::ZeroDirection,
+            Field::TiltSpecificForce,
+        ));
     }
     let magnitude = small_angle_atan2(planar_norm(a.x, a.y), a.z);
     Tilt::new(magnitude, frame::azimuth_of(-a))
@@ -599,10 +644,16 @@ impl TiltSensor {
     /// [`ErrorKind::ZeroDirection`] for a zero or non-finite vector;
     /// [`ErrorKind::OutOfRange`] when it lies more than 45° from +z.
     pub fn set_level_reference(&mut self, up: Vec3) -> Result<(), Error> {
-        let r = up
-            .normalized()
-            .ok_or(Error::new(ErrorKind::ZeroDirection, "tilt.level_reference"))?;
-        Error::check("tilt.level_reference.z", r.z, math::cos(MAX_TILT_RAD), 1.0)?;
+        let r = up.normalized().ok_or(Error::new(
+            ErrorKind::ZeroDirection,
+            Field::TiltLevelReference,
+        ))?;
+        Error::check(
+            Field::TiltLevelReferenceZ,
+            r.z,
+            math::cos(MAX_TILT_RAD),
+            1.0,
+        )?;
         self.reference = Some(r);
         self.capture = LevelCapture::Done;
         Ok(())

@@ -156,7 +156,7 @@ fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
         (true, true, "alarm")
     );
     assert_eq!(pins_for(&storm), (false, false), "both lines de-energised");
-    assert_eq!(g.guard_stage(), standfast::guard::Stage::Alarm);
+    assert_eq!(g.guard_stage(), standfast::guard::AlertLevel::Alarm);
 
     // After the warm-up, stages only rose, through park_now before the
     // alarm.
@@ -167,7 +167,7 @@ fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
     assert!(g.raised_faults().is_empty());
 }
 
-/// The guard's stages in rising order (`Stage` docs).
+/// The guard's stages in rising order (`AlertLevel` docs).
 fn rank(stage: &str) -> usize {
     ["clear", "watch", "park_now", "alarm", "sensor_fault"]
         .iter()

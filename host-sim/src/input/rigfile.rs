@@ -89,10 +89,10 @@ use std::path::Path;
 use serde::de::{self, Deserializer, Visitor};
 use serde::Deserialize;
 use standfast::air::Air;
+use standfast::bounded;
 use standfast::drive::{DriveRating, Drives};
 use standfast::guard::{GuardConfig, WindSource};
 use standfast::hardware::{material, IsoThread, Material};
-use standfast::heapless;
 use standfast::mount::{MountGeometry, MountKind};
 use standfast::rig::{
     BallastSpec, BodySpec, CounterweightSpec, CoverSpec, LegsSpec, MassModel, Rig, RigSpec,
@@ -896,7 +896,7 @@ fn measured_cg_uncertainty(
 /// What is wrong when the core refuses a weighed centre, in the rig
 /// file's words.
 fn measured_problem(e: &standfast::Error, mass_kg: f32, cover_fitted: bool, lim: f64) -> String {
-    match (e.kind, e.field) {
+    match (e.kind, e.field.path()) {
         (standfast::ErrorKind::Inconsistent, "measured.mass_kg") => format!(
             "the weighed {} kg is not more than the {} kg of the parts that move with the \
              mount (counterweights, shaft, bodies on the primary and secondary stages{}): \
@@ -1072,7 +1072,7 @@ fn site_section(
 }
 
 /// The feet of a rig (rig frame, m; tie-down pull, N).
-type Feet = heapless::Vec<Foot, { standfast::support::MAX_FEET }>;
+type Feet = bounded::Vec<Foot, { standfast::support::MAX_FEET }>;
 
 /// Reads `[support]`: the feet (a list, or a regular tripod) with their
 /// tie-downs, and the foot–ground friction coefficient.
@@ -1124,7 +1124,7 @@ fn listed_feet(
     sp: &mut Spans,
 ) -> Result<Feet, InputError> {
     sp.put("support.feet", None, "support.feet".into(), list.span());
-    let mut v = heapless::Vec::new();
+    let mut v = bounded::Vec::new();
     for (i, ft) in list.get_ref().iter().enumerate() {
         let ft = ft.get_ref();
         let key = format!("support.feet[{i}]");
@@ -1305,8 +1305,8 @@ fn bodies_section(
     ck: &Checker<'_>,
     list: &[S<BodySec>],
     sp: &mut Spans,
-) -> Result<heapless::Vec<BodySpec, { standfast::rig::MAX_BODIES }>, InputError> {
-    let mut bodies = heapless::Vec::new();
+) -> Result<bounded::Vec<BodySpec, { standfast::rig::MAX_BODIES }>, InputError> {
+    let mut bodies = bounded::Vec::new();
     for (i, b) in list.iter().enumerate() {
         let key = format!("body[{i}]");
         let g = b.get_ref();
@@ -1342,9 +1342,9 @@ fn bodies_section(
             },
         };
         let label = match &g.label {
-            Some(l) => heapless::String::try_from(l.get_ref().as_str())
+            Some(l) => bounded::String::try_from(l.get_ref().as_str())
                 .map_err(|_| ck.error(&format!("{key}.label"), l.span(), "longer than 24 bytes"))?,
-            None => heapless::String::new(),
+            None => bounded::String::new(),
         };
         let exposure = match &g.shape {
             None => None,
@@ -1404,8 +1404,8 @@ fn counterweights_section(
     ck: &Checker<'_>,
     list: &[S<CwSec>],
     sp: &mut Spans,
-) -> Result<heapless::Vec<CounterweightSpec, { standfast::rig::MAX_COUNTERWEIGHTS }>, InputError> {
-    let mut counterweights = heapless::Vec::new();
+) -> Result<bounded::Vec<CounterweightSpec, { standfast::rig::MAX_COUNTERWEIGHTS }>, InputError> {
+    let mut counterweights = bounded::Vec::new();
     for (i, c) in list.iter().enumerate() {
         let key = format!("counterweight[{i}]");
         let g = c.get_ref();
@@ -1527,8 +1527,8 @@ fn ballast_section(
     ck: &Checker<'_>,
     list: &[S<BallastSec>],
     sp: &mut Spans,
-) -> Result<heapless::Vec<BallastSpec, { standfast::rig::MAX_BALLAST }>, InputError> {
-    let mut ballast = heapless::Vec::new();
+) -> Result<bounded::Vec<BallastSpec, { standfast::rig::MAX_BALLAST }>, InputError> {
+    let mut ballast = bounded::Vec::new();
     for (i, b) in list.iter().enumerate() {
         let key = format!("ballast[{i}]");
         let g = b.get_ref();
@@ -1577,7 +1577,7 @@ fn drives_section(drives: Option<&S<DrivesSec>>, sp: &mut Spans) -> Option<Drive
         );
         if let Some(a) = &g.slew_acceleration {
             sp.put(
-                "drives.slew_acceleration_rad_s2",
+                "drives.slew_acceleration_rad_per_s2",
                 None,
                 "drives.slew_acceleration".into(),
                 a.span(),
@@ -1609,7 +1609,7 @@ fn drives_section(drives: Option<&S<DrivesSec>>, sp: &mut Spans) -> Option<Drive
         Drives {
             primary: r(&g.primary),
             secondary: r(&g.secondary),
-            slew_acceleration_rad_s2: g
+            slew_acceleration_rad_per_s2: g
                 .slew_acceleration
                 .as_ref()
                 .map_or(0.0, |a| f(*a.get_ref())),
@@ -1964,18 +1964,15 @@ fn sensor_config(
             "sensor.wind_stale".into(),
             v.span(),
         );
-        sp.put(
-            "guard.wind.stale_after_s",
-            None,
-            "sensor.wind_stale".into(),
-            v.span(),
-        );
         c.wind.stale_after_s = f(v.get_ref().s());
     }
     if let Some(v) = &g.wind_max {
-        for field in ["wind.max_speed_mps", "guard.wind.max_speed_mps"] {
-            sp.put(field, None, "sensor.wind_max".into(), v.span());
-        }
+        sp.put(
+            "wind.max_speed_mps",
+            None,
+            "sensor.wind_max".into(),
+            v.span(),
+        );
         c.wind.max_speed_mps = f(v.get_ref().mps());
     }
     if let Some(v) = &g.wind_source {
@@ -1997,29 +1994,15 @@ fn sensor_config(
     Ok(())
 }
 
-/// The unit a core field name carries, and the factor from its SI value to
-/// the unit shown (degrees for angles, as in the file).
-fn shown_unit(field: &str) -> (&'static str, f64) {
-    if field.ends_with("_rad_s2") {
-        ("rad/s²", 1.0)
-    } else if field.ends_with("_rad_per_s") {
-        ("deg/s", 180.0 / std::f64::consts::PI)
-    } else if field.ends_with("_rad") {
-        ("deg", 180.0 / std::f64::consts::PI)
-    } else if field.ends_with("_mps") {
-        ("m/s", 1.0)
-    } else if field.ends_with("_kg") {
-        ("kg", 1.0)
-    } else if field.ends_with("_nm") || field.starts_with("drives.") {
-        ("N m", 1.0)
-    } else if field.ends_with("_n") {
-        ("N", 1.0)
-    } else if field.ends_with("_s") {
-        ("s", 1.0)
-    } else if field.ends_with("_m") || field.ends_with("position_m") {
-        ("m", 1.0)
-    } else {
-        ("", 1.0)
+/// How the file shows a value of the core's unit `unit`: the unit's symbol
+/// and the factor from the core's SI value (degrees for angles, as rig files
+/// write them).
+fn shown_unit(unit: standfast::error::Unit) -> (&'static str, f64) {
+    use standfast::error::Unit;
+    match unit {
+        Unit::Radian => ("deg", 180.0 / std::f64::consts::PI),
+        Unit::RadianPerSecond => ("deg/s", 180.0 / std::f64::consts::PI),
+        other => (other.symbol(), 1.0),
     }
 }
 
@@ -2028,7 +2011,7 @@ fn shown_unit(field: &str) -> (&'static str, f64) {
 /// (degrees for angles), without the core's internal field names.
 #[must_use]
 pub fn core_problem(e: &standfast::Error) -> String {
-    let (unit, k) = shown_unit(e.field);
+    let (unit, k) = shown_unit(e.unit());
     // Rounded to 4 decimals: the core's f32 limits carry float noise; a
     // small non-zero limit is written in exponent form, never as 0.
     let num = |x: f32| {
@@ -2105,17 +2088,20 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
     let by_value = sp
         .by_value
         .iter()
-        .find(|(field, v, _, _)| *field == e.field && v.to_bits() == e.value.to_bits())
+        .find(|(field, v, _, _)| *field == e.field.path() && v.to_bits() == e.value.to_bits())
         .map(|(_, _, key, span)| (key.clone(), span.clone()));
     let found = by_value.as_ref().or_else(|| {
         sp.map
-            .get(&(e.field, e.index))
-            .or_else(|| sp.map.get(&(e.field, None)))
+            .get(&(e.field.path(), e.index))
+            .or_else(|| sp.map.get(&(e.field.path(), None)))
     });
     let problem = core_problem(e);
     match found {
         Some((key, span)) => src.checker().error(key, span.clone(), problem),
-        None => match UNWRITTEN_KEYS.iter().find(|(field, _)| *field == e.field) {
+        None => match UNWRITTEN_KEYS
+            .iter()
+            .find(|(field, _)| *field == e.field.path())
+        {
             // A default the file did not override: name the key that would.
             Some((_, key)) => {
                 let section = key.split('.').next().unwrap_or("");
@@ -2145,10 +2131,8 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
 
 /// Core fields whose value comes from a default when the file does not
 /// write its key, and that key (for messages about a default).
-const UNWRITTEN_KEYS: [(&str, &str); 5] = [
+const UNWRITTEN_KEYS: [(&str, &str); 3] = [
     ("wind.max_speed_mps", "sensor.wind_max"),
-    ("guard.wind.max_speed_mps", "sensor.wind_max"),
     ("wind.stale_after_s", "sensor.wind_stale"),
-    ("guard.wind.stale_after_s", "sensor.wind_stale"),
     ("wind.mean_gust_factor", "sensor.gust_factor"),
 ];

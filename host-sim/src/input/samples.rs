@@ -365,7 +365,7 @@ impl Held {
         let air = if s.temp_c.is_some() || s.pressure_hpa.is_some() {
             match (next.temp_c, next.pressure_hpa) {
                 (Some(tc), Some(p)) => Some(AirSample {
-                    temperature_c: f32_of(tc),
+                    temperature_k: standfast::air::celsius_to_kelvin(f32_of(tc)),
                     pressure_pa: f32_of(p * 100.0),
                 }),
                 _ => {

@@ -312,7 +312,7 @@ pub type KeySpans = Vec<(&'static str, std::ops::Range<usize>)>;
 #[must_use]
 pub fn core_error(src: &SourceText, e: &standfast::Error, spans: &KeySpans) -> InputError {
     use standfast::ErrorKind::{Inconsistent, OutOfRange, TooFew};
-    let key = match e.field {
+    let key = match e.field.path() {
         "weighing.level_n" => "level",
         "weighing.lift.loads_n" => "lift.readings",
         "weighing.lift.height_m" => "lift.height",
@@ -330,7 +330,7 @@ pub fn core_error(src: &SourceText, e: &standfast::Error, spans: &KeySpans) -> I
     let kg = |n: f32| fmt_g(f64::from(n / STANDARD_GRAVITY_MPS2));
     let mm = |m: f32| fmt_g((f64::from(m) * 1e4).round() / 10.0);
     let deg = |r: f32| fmt_g((f64::from(r.to_degrees()) * 1e3).round() / 1e3);
-    let problem = match (e.kind, e.field) {
+    let problem = match (e.kind, e.field.path()) {
         (Inconsistent, "weighing.lift.resting_feet") => {
             "the feet left resting do not lie on one line, so the rig cannot turn about them: \
              raise one whole side"

@@ -132,7 +132,7 @@ fn condition_report(
     let at = |from_deg: f32| {
         let mut cc = c;
         cc.wind_from_rad = from_deg.to_radians();
-        rig.assess(&cc)
+        rig.stability_figures(&cc)
     };
     let mut rows = Vec::new();
     let mut worst_slide = (f32::NEG_INFINITY, 0.0_f32);
@@ -537,7 +537,10 @@ fn joint_row(
     let Some((max_n, case)) = worst else {
         return Err(standfast::Error::new(
             standfast::ErrorKind::TooFew,
-            "joint.load_cases",
+            standfast::error::Field::External {
+                path: "joint.load_cases",
+                unit: standfast::error::Unit::Count,
+            },
         ));
     };
     let cap = strip_capacity(&j.screws)?;
@@ -616,7 +619,7 @@ fn deg(rad: f32) -> f32 {
 fn tip_from(rig: &Rig, c: &Conditions, from_rad: f32) -> Result<Option<f32>, standfast::Error> {
     let mut c = *c;
     c.wind_from_rad = from_rad;
-    Ok(rig.assess(&c)?.tip_wind_mps)
+    Ok(rig.stability_figures(&c)?.tip_wind_mps)
 }
 
 /// Best tripod orientation. A weighed centre (`[measured]`) is applied to
@@ -740,14 +743,14 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         )
         .ok()
         .map(|q| Need {
-            amount: q.amount,
+            amount: q.mass_kg,
             worst_from_deg: deg(q.worst_from_rad),
         });
     let tie_down_needed = rig
         .tie_down_needed(&c, o.design_gust_mps, o.target_utilisation)
         .ok()
         .map(|q| Need {
-            amount: q.amount,
+            amount: q.pull_per_foot_n,
             worst_from_deg: deg(q.worst_from_rad),
         });
     let orientation = orientation(&r.spec, &c, o.storm_from_deg, r.measured.as_ref()).map_err(e)?;
@@ -785,7 +788,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         file: r.file.clone(),
         mass_kg: placement.mass_kg(),
         centre_of_gravity_m: cg.to_array(),
-        air_density_kg_m3: r.air.density_kg_m3(),
+        air_density_kg_m3: r.air.density_kg_per_m3(),
         home_by_direction: by_dir,
         home_worst,
         home_worst_covered,

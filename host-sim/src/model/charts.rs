@@ -94,7 +94,7 @@ pub fn torque_map(r: &LoadedRig) -> ([Vec<Vec<Option<f64>>>; 2], bool) {
 }
 
 /// Tip wind speed every [`POLAR_STEP_DEG`] degrees of wind direction (from),
-/// by [`Rig::assess`] in the given conditions (their own direction is
+/// by [`Rig::stability_figures`] in the given conditions (their own direction is
 /// replaced).
 ///
 /// # Errors
@@ -110,7 +110,7 @@ pub fn tip_wind_by_direction(
         #[allow(clippy::cast_precision_loss)] // deg < 360
         let from = (deg as f32).to_radians();
         cc.wind_from_rad = from;
-        let tip = rig.assess(&cc)?.tip_wind_mps;
+        let tip = rig.stability_figures(&cc)?.tip_wind_mps;
         out.push((f64::from(deg), tip.map(f64::from)));
     }
     Ok(out)

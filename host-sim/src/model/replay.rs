@@ -19,7 +19,7 @@
 //!   and pier side (tube east when the log gives no side).
 
 use serde::Serialize;
-use standfast::guard::{Event, Guard, Inputs, Stage, Verdict, WindSample};
+use standfast::guard::{AlertLevel, Event, Guard, Inputs, Verdict, WindSample};
 use standfast::mount::{PierSide as MountPierSide, Pose};
 use standfast::sense::Millis;
 use standfast::sense::Mounting;
@@ -38,21 +38,21 @@ const GUARD_FAILED: &str = "the guard cannot start";
 pub const MAX_KEPT_EVENTS: usize = 1000;
 
 /// All guard stages in report order.
-pub const STAGES: [Stage; 5] = [
-    Stage::Clear,
-    Stage::Watch,
-    Stage::ParkNow,
-    Stage::Alarm,
-    Stage::SensorFault,
+pub const STAGES: [AlertLevel; 5] = [
+    AlertLevel::Clear,
+    AlertLevel::Watch,
+    AlertLevel::ParkNow,
+    AlertLevel::Alarm,
+    AlertLevel::SensorFault,
 ];
 
-fn stage_index(s: Stage) -> usize {
+fn stage_index(s: AlertLevel) -> usize {
     match s {
-        Stage::Clear => 0,
-        Stage::Watch => 1,
-        Stage::ParkNow => 2,
-        Stage::Alarm => 3,
-        Stage::SensorFault => 4,
+        AlertLevel::Clear => 0,
+        AlertLevel::Watch => 1,
+        AlertLevel::ParkNow => 2,
+        AlertLevel::Alarm => 3,
+        AlertLevel::SensorFault => 4,
     }
 }
 
@@ -91,8 +91,8 @@ pub struct Approach {
     pub tilt_downhill_deg: Option<f32>,
     /// Wind speed that would tip the rig there, m/s.
     pub tip_wind_mps: Option<f32>,
-    /// Stage at that step.
-    pub stage: Stage,
+    /// AlertLevel at that step.
+    pub stage: AlertLevel,
 }
 
 /// A stage change seen in the replay.
@@ -103,9 +103,9 @@ pub struct StageChange {
     /// Seconds since the first record.
     pub t_s: f64,
     /// Previous stage.
-    pub from: Stage,
+    pub from: AlertLevel,
     /// New stage.
-    pub to: Stage,
+    pub to: AlertLevel,
     /// What drove it (lower-case name).
     pub cause: String,
 }
@@ -128,7 +128,7 @@ pub struct FaultSeen {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct StageTime {
     /// The stage.
-    pub stage: Stage,
+    pub stage: AlertLevel,
     /// Seconds spent in it (from one record to the next).
     pub seconds: f64,
 }
@@ -150,12 +150,12 @@ pub struct RigReplay {
     /// The most severe stage reached once the guard had first judged the
     /// rig: the start-up `sensor_fault` (no readings yet) does not count;
     /// `sensor_fault` when the guard never could judge it.
-    pub highest_stage: Stage,
+    pub highest_stage: AlertLevel,
     /// The stage at the end of the log.
-    pub final_stage: Stage,
-    /// Stage changes, in time order (the first [`MAX_KEPT_EVENTS`]).
+    pub final_stage: AlertLevel,
+    /// AlertLevel changes, in time order (the first [`MAX_KEPT_EVENTS`]).
     pub stage_changes: Vec<StageChange>,
-    /// Stage changes not kept.
+    /// AlertLevel changes not kept.
     pub stage_changes_not_kept: u64,
     /// Sensor faults raised, in time order (the first [`MAX_KEPT_EVENTS`]).
     pub faults: Vec<FaultSeen>,
@@ -261,7 +261,8 @@ pub fn inputs_of(r: &SampleRecord) -> Inputs {
     let air = if up(Channel::AirTemperature) || up(Channel::Pressure) {
         match (r.air_temperature_k, r.pressure_pa) {
             (Some(t), Some(p)) => Some(standfast::guard::AirSample {
-                temperature_c: f32_of(t - 273.15),
+                // Through °C in f32, as the firmware receives it: the same bits.
+                temperature_k: standfast::air::celsius_to_kelvin(f32_of(t - 273.15)),
                 pressure_pa: f32_of(p),
             }),
             _ => None,
@@ -295,7 +296,7 @@ fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64) -> Approach {
         tilt_deg: f.tilt_deg,
         tilt_downhill_deg: f.tilt_downhill_deg,
         tip_wind_mps: f.tip_wind_mps,
-        stage: v.stage,
+        stage: v.level,
     }
 }
 
@@ -312,7 +313,7 @@ fn raise(slot: &mut Option<Approach>, u: Option<f32>, v: &Verdict, time: Timesta
 struct Tracker {
     report: RigReplay,
     stage_s: [f64; 5],
-    last_stage: Stage,
+    last_stage: AlertLevel,
     /// The figures of the previous step (overturning, sliding, drive 1 and
     /// 2): while they repeat, as between evaluations, no closest approach
     /// can rise, so the comparisons are skipped.
@@ -330,8 +331,8 @@ impl Tracker {
                 sliding: None,
                 drive: [None, None],
                 stage_time: Vec::new(),
-                highest_stage: Stage::SensorFault,
-                final_stage: Stage::SensorFault,
+                highest_stage: AlertLevel::SensorFault,
+                final_stage: AlertLevel::SensorFault,
                 stage_changes: Vec::new(),
                 stage_changes_not_kept: 0,
                 faults: Vec::new(),
@@ -342,7 +343,7 @@ impl Tracker {
             },
             stage_s: [0.0; 5],
             // A guard starts unable to see (sensor_fault).
-            last_stage: Stage::SensorFault,
+            last_stage: AlertLevel::SensorFault,
             last_figures: [None; 4],
             judged: false,
         }
@@ -376,7 +377,7 @@ impl Tracker {
         }
         for e in &v.events {
             match e {
-                Event::StageChanged { from, to, cause } => {
+                Event::LevelChanged { from, to, cause } => {
                     if r.stage_changes.len() < MAX_KEPT_EVENTS {
                         r.stage_changes.push(StageChange {
                             time: time.to_iso8601(3),
@@ -410,14 +411,14 @@ impl Tracker {
                 r.events_lost_at.push((t_s, v.events_lost));
             }
         }
-        if !self.judged && v.stage != Stage::SensorFault {
+        if !self.judged && v.level != AlertLevel::SensorFault {
             self.judged = true;
-            r.highest_stage = v.stage;
+            r.highest_stage = v.level;
         } else if self.judged {
-            r.highest_stage = r.highest_stage.max(v.stage);
+            r.highest_stage = r.highest_stage.max(v.level);
         }
-        r.final_stage = v.stage;
-        self.last_stage = v.stage;
+        r.final_stage = v.level;
+        self.last_stage = v.level;
     }
 
     fn finish(mut self) -> RigReplay {

@@ -14,7 +14,7 @@
 //! clockwise from north; tilt from the vertical).
 
 use serde::Serialize;
-use standfast::guard::{Stage, Verdict};
+use standfast::guard::{AlertLevel, Verdict};
 
 /// Most buckets a series holds.
 pub const MAX_SERIES_POINTS: usize = 2000;
@@ -62,7 +62,7 @@ pub struct SeriesPoint {
     /// declination, altitude, or the secondary axis angle.
     pub pose_b_deg: Option<f32>,
     /// Most severe stage in the bucket.
-    pub stage: Stage,
+    pub stage: AlertLevel,
     /// Records in the bucket.
     pub records: u32,
 }
@@ -85,7 +85,7 @@ impl SeriesPoint {
             cover: None,
             pose_a_deg: None,
             pose_b_deg: None,
-            stage: Stage::Clear,
+            stage: AlertLevel::Clear,
             records: 0,
         }
     }
@@ -333,6 +333,6 @@ impl Series {
             p.pose_a_deg = Some(a);
             p.pose_b_deg = Some(b);
         }
-        p.stage = p.stage.max(v.stage);
+        p.stage = p.stage.max(v.level);
     }
 }

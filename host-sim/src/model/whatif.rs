@@ -24,7 +24,7 @@
 //! inputs: it compares estimates, it does not prove a set-up safe.
 
 use serde::Serialize;
-use standfast::guard::{GuardConfig, Stage};
+use standfast::guard::{AlertLevel, GuardConfig};
 use standfast::rig::{BallastSpec, BodySpec, Rig, MAX_BALLAST, MAX_PART_MASS_KG};
 
 use crate::input::error::Error;
@@ -456,7 +456,7 @@ pub struct RigLine {
     /// Highest drive utilisation per axis.
     pub drive_utilisation: [Option<f32>; 2],
     /// Most severe stage reached.
-    pub highest_stage: Stage,
+    pub highest_stage: AlertLevel,
     /// First park request (stage change to park_now or alarm), seconds since
     /// the first record.
     pub first_park_t_s: Option<f64>,
@@ -470,7 +470,7 @@ pub struct RigLine {
     pub alarm_s: f64,
     /// Seconds in sensor_fault.
     pub sensor_fault_s: f64,
-    /// Stage changes (kept and not kept).
+    /// AlertLevel changes (kept and not kept).
     pub stage_changes: u64,
 }
 
@@ -489,14 +489,15 @@ fn column(i: usize) -> String {
 }
 
 fn line(i: usize, r: &RigReplay) -> RigLine {
-    let secs = |s: Stage| {
+    let secs = |s: AlertLevel| {
         r.stage_time
             .iter()
             .find(|t| t.stage == s)
             .map_or(0.0, |t| t.seconds)
     };
-    let first =
-        |pred: &dyn Fn(Stage) -> bool| r.stage_changes.iter().find(|c| pred(c.to)).map(|c| c.t_s);
+    let first = |pred: &dyn Fn(AlertLevel) -> bool| {
+        r.stage_changes.iter().find(|c| pred(c.to)).map(|c| c.t_s)
+    };
     RigLine {
         column: column(i),
         rig: r.rig_file.clone(),
@@ -509,12 +510,12 @@ fn line(i: usize, r: &RigReplay) -> RigLine {
             r.drive[1].as_ref().map(|a| a.utilisation),
         ],
         highest_stage: r.highest_stage,
-        first_park_t_s: first(&|s| s == Stage::ParkNow || s == Stage::Alarm),
-        first_alarm_t_s: first(&|s| s == Stage::Alarm),
-        watch_s: secs(Stage::Watch),
-        park_now_s: secs(Stage::ParkNow),
-        alarm_s: secs(Stage::Alarm),
-        sensor_fault_s: secs(Stage::SensorFault),
+        first_park_t_s: first(&|s| s == AlertLevel::ParkNow || s == AlertLevel::Alarm),
+        first_alarm_t_s: first(&|s| s == AlertLevel::Alarm),
+        watch_s: secs(AlertLevel::Watch),
+        park_now_s: secs(AlertLevel::ParkNow),
+        alarm_s: secs(AlertLevel::Alarm),
+        sensor_fault_s: secs(AlertLevel::SensorFault),
         stage_changes: r.stage_changes.len() as u64 + r.stage_changes_not_kept,
     }
 }

@@ -5,7 +5,7 @@
 //! the wind blows from).
 
 use serde::Serialize;
-use standfast::guard::{Cause, Event, Verdict};
+use standfast::guard::{AlertCause, Event, Verdict};
 use standfast::mount::{PierSide, Pose};
 
 use crate::model::figures::Figures;
@@ -98,9 +98,9 @@ pub enum EventOut {
     },
 }
 
-/// The snake-case name of a cause ([`Cause::name`]).
+/// The snake-case name of a cause ([`AlertCause::name`]).
 #[must_use]
-pub fn cause_name(c: Cause) -> String {
+pub fn cause_name(c: AlertCause) -> String {
     c.name().to_owned()
 }
 
@@ -144,9 +144,9 @@ impl VerdictLine {
         VerdictLine {
             line,
             t_ms: v.now.0,
-            stage: v.stage.name(),
-            park_requested: v.stage.park_requested(),
-            alarm: v.stage.alarm(),
+            stage: v.level.name(),
+            park_requested: v.level.park_requested(),
+            alarm: v.level.alarm(),
             figures: Figures::of(v),
             pose: v.pose.into(),
             park_pose: v.park_pose.map(PoseOut::from),
@@ -156,7 +156,7 @@ impl VerdictLine {
                 .events
                 .iter()
                 .map(|e| match *e {
-                    Event::StageChanged { from, to, cause } => EventOut::StageChanged {
+                    Event::LevelChanged { from, to, cause } => EventOut::StageChanged {
                         from: from.name(),
                         to: to.name(),
                         cause: cause_name(cause),

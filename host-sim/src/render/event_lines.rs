@@ -13,7 +13,7 @@
 //! * `t_ms`: milliseconds since the log's first record (the replay's clock,
 //!   [`crate::model::replay`]); the firmware prints its station clock, which is the
 //!   log's `t_ms` column, so the two agree for a log that starts at 0 ms.
-//! * stage names: [`Stage::name`] (`clear`, `watch`, `park_now`, `alarm`,
+//! * stage names: [`AlertLevel::name`] (`clear`, `watch`, `park_now`, `alarm`,
 //!   `sensor_fault`), as the firmware's guard adapter prints them.
 //! * fault names: the sensor (`Sensor::code`: `accel`, `wind_speed`,
 //!   `wind_direction`, `pose`, `cover`, `air`, `clock`, `model`) and the
@@ -31,7 +31,7 @@
 
 use std::fmt::Write as _;
 
-use standfast::guard::Stage;
+use standfast::guard::AlertLevel;
 use standfast::sense::Fault;
 
 use crate::input::error::Error;
@@ -60,7 +60,7 @@ fn ms_of(t_s: f64) -> u64 {
     }
 }
 
-fn stage_line(t_ms: u64, from: Stage, to: Stage) -> String {
+fn stage_line(t_ms: u64, from: AlertLevel, to: AlertLevel) -> String {
     format!(
         "event t_ms={t_ms} kind=stage from={} to={}",
         from.name(),

@@ -15,7 +15,7 @@
 //! from [`palette`], checked for colour-blind readers; times through
 //! [`crate::render::clock`].
 
-use standfast::guard::Stage;
+use standfast::guard::AlertLevel;
 
 use crate::cautions::CAUTIONS;
 use crate::input::error::Error;
@@ -32,14 +32,14 @@ use crate::render::svg::{
 
 /// The report's colour of each stage ([`palette::STAGE`], in [`STAGES`]
 /// order).
-fn stage_colour(s: Stage) -> &'static str {
+fn stage_colour(s: AlertLevel) -> &'static str {
     palette::STAGE
         .get(stage_cat(s))
         .copied()
         .unwrap_or(palette::INK)
 }
 
-fn stage_cat(s: Stage) -> usize {
+fn stage_cat(s: AlertLevel) -> usize {
     STAGES.iter().position(|x| *x == s).unwrap_or(0)
 }
 
@@ -158,7 +158,7 @@ fn night_events(r: &RigReplay) -> Vec<NightEvent> {
         t_s: f.t_s,
         utc: f.time.clone(),
         what: format!("fault: {}", f.fault),
-        colour: stage_colour(Stage::SensorFault),
+        colour: stage_colour(AlertLevel::SensorFault),
     }));
     m.sort_by(|a, b| a.t_s.total_cmp(&b.t_s));
     m

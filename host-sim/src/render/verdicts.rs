@@ -76,7 +76,7 @@ pub fn verdict_line(
     out.push_str(&format!(
         "{},{t_s:.3},{rig},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{frame},{a_deg:.4},{b_deg:.4},{side}\n",
         time.to_iso8601(3),
-        v.stage.name(),
+        v.level.name(),
         opt(f.overturning_utilisation),
         opt(f.predicted_utilisation),
         opt(f.sliding_utilisation),

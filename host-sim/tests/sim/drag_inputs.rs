@@ -65,7 +65,7 @@ fn a_massless_shape_is_a_drag_only_surface() {
     assert!((m(&r.rig) - m(&base.rig)).abs() < 1e-6);
     let mut c = standfast::rig::Conditions::calm(home);
     c.air = base.air;
-    let tip = |x: &standfast::rig::Rig| x.assess(&c).unwrap().tip_wind_mps.unwrap();
+    let tip = |x: &standfast::rig::Rig| x.stability_figures(&c).unwrap().tip_wind_mps.unwrap();
     assert!(tip(&r.rig) < tip(&base.rig));
     // Without a shape a massless body is refused.
     let bare = "\n[[body]]\nlabel = \"nothing\"\nmass = 0\ncg = [0, 0, 1]\n";

@@ -112,8 +112,8 @@ fn profile_accel_scale_reproduces_the_driver_in_f32() {
 fn rig_file_air_equals_the_guard_default_air() {
     let rig = rigfile::load(&dir().join("rig.toml")).unwrap();
     assert_eq!(
-        rig.air.density_kg_m3().to_bits(),
-        standfast::air::Air::default().density_kg_m3().to_bits()
+        rig.air.density_kg_per_m3().to_bits(),
+        standfast::air::Air::default().density_kg_per_m3().to_bits()
     );
     assert_eq!(
         rig.guard,

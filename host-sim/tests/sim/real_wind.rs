@@ -213,7 +213,7 @@ fn sonic_replay_gust_and_closest_approach_match_hand_figures() {
     // overturning moment and the horizontal wind no stabilising one about
     // the downwind edge, so utilisation = q/q_tip = (V_gust/V_tip)²
     // (drag ∝ V², any fluids text; the tipping rule of Beer & Johnston,
-    // Statics, ch. 8). V_tip is taken from `Rig::assess` at the pose,
+    // Statics, ch. 8). V_tip is taken from `Rig::stability_figures` at the pose,
     // direction and tilt the replay reports, in the site air the replay
     // uses (ISA at the rig file's elevation).
     let o = &rig["overturning"];
@@ -234,7 +234,7 @@ fn sonic_replay_gust_and_closest_approach_match_hand_figures() {
         air: loaded.air,
         cover_fitted: false,
     };
-    let a = loaded.rig.assess(&c).unwrap();
+    let a = loaded.rig.stability_figures(&c).unwrap();
     let v_tip = f64::from(a.tip_wind_mps.unwrap());
     let expected = (gust / v_tip).powi(2);
     assert!(

@@ -4,7 +4,7 @@ use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
-use standfast::guard::Stage;
+use standfast::guard::AlertLevel;
 use standfast::sense::{Fault, Sensor};
 use standfast_sim::commands::replay::ReplayOutputs;
 use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
@@ -150,11 +150,11 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
         [
             (
                 63.0,
-                Stage::SensorFault,
-                Stage::Watch,
+                AlertLevel::SensorFault,
+                AlertLevel::Watch,
                 "fault_cleared".into()
             ),
-            (63.5, Stage::Watch, Stage::Clear, "settled".into()),
+            (63.5, AlertLevel::Watch, AlertLevel::Clear, "settled".into()),
         ]
     );
     // From clear, the guard's thresholds rise watch 0.5 < park 0.75 (ASME
@@ -162,16 +162,16 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
     // uses the gust predicted for the end of a park; so in a steadily rising
     // wind the stages must come in that order, each once: watch and
     // park_now for the predicted overturning, alarm for the present one.
-    let rising: Vec<(Stage, &str)> = r.stage_changes[2..]
+    let rising: Vec<(AlertLevel, &str)> = r.stage_changes[2..]
         .iter()
         .map(|c| (c.to, c.cause.as_str()))
         .collect();
     assert_eq!(
         rising,
         vec![
-            (Stage::Watch, "predicted_overturning"),
-            (Stage::ParkNow, "predicted_overturning"),
-            (Stage::Alarm, "overturning"),
+            (AlertLevel::Watch, "predicted_overturning"),
+            (AlertLevel::ParkNow, "predicted_overturning"),
+            (AlertLevel::Alarm, "overturning"),
         ],
         "{:?} {:?}",
         r.stage_changes,
@@ -181,7 +181,7 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
     // Drag grows with the square of the wind speed (q = ½ρv², any fluids
     // textbook), so with a rising wind the highest overturning utilisation
     // is at the last evaluation (the guard evaluates once a second, default
-    // evaluate_every_ms = 1000).
+    // evaluate_every_s = 1).
     let o = r.overturning.as_ref().unwrap();
     assert!(rep.duration_s - o.t_s <= 1.0, "{o:?} of {}", rep.duration_s);
     assert!(o.utilisation > 0.9, "{o:?}");
@@ -192,7 +192,7 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
     // Time per stage covers the whole log.
     let total: f64 = r.stage_time.iter().map(|s| s.seconds).sum();
     assert!((total - rep.duration_s).abs() < 1e-6);
-    assert_eq!(r.final_stage, Stage::Alarm);
+    assert_eq!(r.final_stage, AlertLevel::Alarm);
 }
 
 #[test]

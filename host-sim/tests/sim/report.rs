@@ -340,7 +340,11 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
         let mut cc = c;
         cc.wind_from_rad = (f32::from(k) * 5.0).to_radians();
         tips.push(f64::from(
-            rig.rig.assess(&cc).unwrap().tip_wind_mps.unwrap(),
+            rig.rig
+                .stability_figures(&cc)
+                .unwrap()
+                .tip_wind_mps
+                .unwrap(),
         ));
     }
     assert_eq!(

@@ -135,7 +135,7 @@ fn added_ballast_lowers_the_closest_approach_by_the_lever_rule() {
         air: base.air,
         cover_fitted: false,
     };
-    let assessment = base.rig.assess(&c).unwrap();
+    let assessment = base.rig.stability_figures(&c).unwrap();
     let g = 9.806_65; // standard gravity, ISO 80000-3
     let cos_tilt = f64::from(b.tilt_deg.unwrap()).to_radians().cos();
     let extra_nm = mass_kg * g * cos_tilt * DEMO_FOOT_CIRCLE_M / 2.0;

@@ -17,7 +17,7 @@ fn iso_2533_density_table() {
         (4000.0, 0.8191),
     ] {
         let a = Air::isa_at_elevation(h).unwrap();
-        assert_relative_eq!(a.density_kg_m3(), rho, max_relative = 2e-4);
+        assert_relative_eq!(a.density_kg_per_m3(), rho, max_relative = 2e-4);
     }
 }
 
@@ -27,8 +27,8 @@ fn iso_2533_density_table() {
 fn ideal_gas_cold_and_warm_nights() {
     let cold = Air::from_temperature_pressure(253.15, 101_325.0).unwrap();
     let warm = Air::from_temperature_pressure(303.15, 101_325.0).unwrap();
-    assert_relative_eq!(cold.density_kg_m3(), 1.394, max_relative = 5e-4);
-    assert_relative_eq!(warm.density_kg_m3(), 1.164, max_relative = 5e-4);
+    assert_relative_eq!(cold.density_kg_per_m3(), 1.394, max_relative = 5e-4);
+    assert_relative_eq!(warm.density_kg_per_m3(), 1.164, max_relative = 5e-4);
 }
 
 /// The conventional q = 0.613·V² Pa (ISO 4302 for cranes; ASCE 7 SI form

@@ -15,7 +15,7 @@ use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{Conditions, Rig};
 use standfast::support::Support;
 
-const TOL: f64 = if cfg!(feature = "micromath") {
+const TOL: f64 = if standfast::math::FAST_MATH {
     2.5e-2
 } else {
     1e-4
@@ -40,7 +40,7 @@ fn tripod_tip_wind_within_backend_tolerance() {
         wind_speed_mps: 5.0,
         ..Conditions::calm(altaz(0.0, 0.0))
     };
-    let got = rig.assess(&c).unwrap().tip_wind_mps.unwrap();
+    let got = rig.stability_figures(&c).unwrap().tip_wind_mps.unwrap();
     let w = 40.0 * 9.806_65_f64;
     let want = (2.0 * w * 0.25 / (1.5 * 0.222 * 1.225)).sqrt();
     close(got, want, "tip wind");
@@ -53,7 +53,7 @@ fn isa_density_within_backend_tolerance() {
     let t = 288.15 - 0.0065 * 3000.0_f64;
     let want = 101_325.0 * (t / 288.15).powf(5.255_876) / (287.052_87 * t);
     close(
-        Air::isa_at_elevation(3000.0).unwrap().density_kg_m3(),
+        Air::isa_at_elevation(3000.0).unwrap().density_kg_per_m3(),
         want,
         "density",
     );
@@ -138,3 +138,51 @@ fn weighed_height_within_backend_tolerance() {
         "height from a lift by height",
     );
 }
+
+/// The back end is the final binary's choice: turning the core's `micromath`
+/// feature on (as this crate's `micromath` feature does, like any dependency
+/// could) selects nothing by itself; only `--cfg standfast_fast_math` does.
+#[test]
+fn fast_math_only_when_the_binary_asks() {
+    assert_eq!(standfast::math::FAST_MATH, cfg!(standfast_fast_math));
+}
+
+/// Without `--cfg standfast_fast_math`, the figures are bit for bit those of
+/// the default build, whether or not a dependency turned `micromath` on
+/// (`cargo test -p standfast-checks backends` and the same with
+/// `--features micromath` both run this). The bits were recorded from the
+/// default build (libm back end) on x86_64; the core's own sine, cosine and
+/// hypotenuse routines and libm's correctly rounded square root give the same
+/// bits on every target.
+#[test]
+fn no_result_moves_unless_the_binary_asks() {
+    if standfast::math::FAST_MATH {
+        return;
+    }
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let c = Conditions {
+        wind_speed_mps: 5.0,
+        ..Conditions::calm(altaz(30.0, 0.0))
+    };
+    let tip = rig.stability_figures(&c).unwrap().tip_wind_mps.unwrap();
+    let rho = Air::isa_at_elevation(3000.0).unwrap().density_kg_per_m3();
+    let m = MountGeometry {
+        kind: MountKind::Equatorial,
+        latitude_rad: deg_to_rad(52.0),
+        axis_origin_m: [0.0, 0.0, 1.0],
+    };
+    let (az, alt) = m
+        .tube_horizontal(Pose::Equatorial {
+            hour_angle_rad: deg_to_rad(30.0),
+            declination_rad: deg_to_rad(20.0),
+            pier_side: PierSide::TubeWest,
+        })
+        .unwrap();
+    let got = [tip.to_bits(), rho.to_bits(), az.to_bits(), alt.to_bits()];
+    assert_eq!(got, GOLDEN_BITS);
+}
+
+/// Tip wind (m/s), ISA density at 3000 m (kg/m³), tube azimuth and altitude
+/// (rad), as `f32` bits.
+const GOLDEN_BITS: [u32; 4] = [0x41af_6b1c, 0x3f68_bc3b, 0x407e_1b56, 0x3f61_3329];

@@ -3,7 +3,7 @@
 //! utilisation is (V / 21.9)² and the thresholds translate into speeds by hand.
 
 use crate::fixtures::{altaz, post_rig};
-use standfast::guard::{Cause, Event, Guard, GuardConfig, Inputs, Stage, WindSample};
+use standfast::guard::{AlertCause, AlertLevel, Event, Guard, GuardConfig, Inputs, WindSample};
 use standfast::rig::Rig;
 use standfast::sense::{Fault, Millis, Sensor};
 use standfast::support::Support;
@@ -32,7 +32,7 @@ const WARM_UP_S: f32 = 700.0;
 /// seconds since the end of the warm-up.
 struct Run<'r> {
     guard: Guard<'r>,
-    changes: Vec<(f32, Stage, Stage, Cause)>,
+    changes: Vec<(f32, AlertLevel, AlertLevel, AlertCause)>,
     faults: Vec<(f32, Fault)>,
     first_park_s: Option<f32>,
 }
@@ -56,8 +56,8 @@ impl<'r> Run<'r> {
             first_park_s: None,
         };
         assert_eq!(
-            r.guard.stage(),
-            Stage::SensorFault,
+            r.guard.level(),
+            AlertLevel::SensorFault,
             "a guard starts unable to see"
         );
         r.run(-WARM_UP_S, 0.0, |_| Some(speed_mps), true);
@@ -77,10 +77,10 @@ impl<'r> Run<'r> {
         let c = r.changes.first().expect("left sensor_fault");
         assert_eq!(
             (c.1, c.3),
-            (Stage::SensorFault, Cause::FaultCleared),
+            (AlertLevel::SensorFault, AlertCause::FaultCleared),
             "{c:?}"
         );
-        assert!(c.2 >= Stage::Watch, "{c:?}");
+        assert!(c.2 >= AlertLevel::Watch, "{c:?}");
         // The first gust after 3 s of samples, then the clear time.
         assert!((c.0 + WARM_UP_S - 3.0 - clear_s).abs() <= 0.2, "{c:?}");
         r.changes.clear();
@@ -111,14 +111,14 @@ impl<'r> Run<'r> {
             let v = self.guard.step(Millis(k * 100), &inputs);
             for e in &v.events {
                 match *e {
-                    Event::StageChanged { from, to, cause } => {
+                    Event::LevelChanged { from, to, cause } => {
                         self.changes.push((t, from, to, cause))
                     }
                     Event::FaultRaised(f) => self.faults.push((t, f)),
                     Event::NewHighUtilisation { .. } => {}
                 }
             }
-            if v.stage.park_requested() && self.first_park_s.is_none() {
+            if v.level.park_requested() && self.first_park_s.is_none() {
                 self.first_park_s = Some(t);
                 assert!(v.park_pose.is_some(), "a park request carries a park pose");
             }
@@ -138,7 +138,7 @@ fn guard_starts_unable_to_see() {
     let rig = rig();
     let cfg = config();
     let mut g = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap();
-    assert_eq!(g.stage(), Stage::SensorFault);
+    assert_eq!(g.level(), AlertLevel::SensorFault);
     let mut changes = Vec::new();
     for k in 0..7000_u64 {
         let inputs = Inputs {
@@ -151,7 +151,7 @@ fn guard_starts_unable_to_see() {
         };
         let v = g.step(Millis(k * 100), &inputs);
         if k == 0 {
-            assert!(v.stage.park_requested() && v.stage.alarm());
+            assert!(v.level.park_requested() && v.level.alarm());
             assert!(v.faults.any(|f| f
                 == &Fault::NoReading {
                     sensor: Sensor::WindSpeed
@@ -159,7 +159,7 @@ fn guard_starts_unable_to_see() {
             assert_eq!(v.overturning_utilisation, None, "no figure before a gust");
         }
         for e in &v.events {
-            if let Event::StageChanged { from, to, cause } = *e {
+            if let Event::LevelChanged { from, to, cause } = *e {
                 changes.push((k as f32 / 10.0, from, to, cause));
             }
             assert!(!matches!(e, Event::FaultRaised(_)) || k == 0, "{k}: {e:?}");
@@ -169,13 +169,13 @@ fn guard_starts_unable_to_see() {
     let (t0, t1) = (changes[0].0, changes[1].0);
     assert_eq!(
         &changes[0].1..=&changes[0].2,
-        &Stage::SensorFault..=&Stage::Watch
+        &AlertLevel::SensorFault..=&AlertLevel::Watch
     );
-    assert_eq!(changes[0].3, Cause::FaultCleared);
+    assert_eq!(changes[0].3, AlertCause::FaultCleared);
     assert!((t0 - 3.0 - cfg.fault_clear_s).abs() <= 0.2, "{changes:?}");
     assert_eq!(
         (changes[1].1, changes[1].2, changes[1].3),
-        (Stage::Watch, Stage::Clear, Cause::Settled)
+        (AlertLevel::Watch, AlertLevel::Clear, AlertCause::Settled)
     );
     assert!((t1 - 3.0 - cfg.dwell_s).abs() <= 0.2, "{changes:?}");
 }
@@ -188,7 +188,7 @@ fn steady_light_wind_stays_clear() {
     r.run(0.0, 1800.0, |_| Some(5.0), true);
     assert!(r.changes.is_empty(), "{:?}", r.changes);
     assert!(r.faults.is_empty(), "{:?}", r.faults);
-    assert_eq!(r.guard.stage(), Stage::Clear);
+    assert_eq!(r.guard.level(), AlertLevel::Clear);
 }
 
 /// A wind ramping from 4 to 24 m/s over 40 minutes (0.5 m/s per minute): the
@@ -210,8 +210,11 @@ fn ramping_wind_requests_park_in_time() {
         "parked at {t_park} s, U at end of park {u_end}"
     );
     // Stages rose in order through watch to park, then to alarm.
-    let tos: Vec<Stage> = r.changes.iter().map(|c| c.2).collect();
-    assert_eq!(&tos[..3], &[Stage::Watch, Stage::ParkNow, Stage::Alarm]);
+    let tos: Vec<AlertLevel> = r.changes.iter().map(|c| c.2).collect();
+    assert_eq!(
+        &tos[..3],
+        &[AlertLevel::Watch, AlertLevel::ParkNow, AlertLevel::Alarm]
+    );
 }
 
 /// Hysteresis and dwell: after a 14 m/s warm-up (predicted ≈ 0.54: watch,
@@ -225,12 +228,12 @@ fn watch_steps_down_only_after_dwell() {
     let rig = rig();
     let mut r = Run::warmed(&rig, config(), 14.0);
     r.run(0.0, 300.0, |_| Some(15.0), true);
-    assert_eq!(r.guard.stage(), Stage::Watch, "{:?}", r.changes);
+    assert_eq!(r.guard.level(), AlertLevel::Watch, "{:?}", r.changes);
     r.run(300.0, 1700.0, |_| Some(3.0), true);
     let down = r
         .changes
         .iter()
-        .find(|c| c.2 == Stage::Clear)
+        .find(|c| c.2 == AlertLevel::Clear)
         .expect("stepped down");
     // The spell leaves the 600 s peak-gust window at 900 s; the 600 s dwell
     // then ends at 1500 s, give or take the 10 s bins of the peak window.
@@ -239,7 +242,7 @@ fn watch_steps_down_only_after_dwell() {
         "stepped down at {} s",
         down.0
     );
-    assert_eq!(down.3, Cause::Settled);
+    assert_eq!(down.3, AlertCause::Settled);
 }
 
 /// The alarm latches: after a 21 m/s spell (U ≈ 0.92 ≥ 0.9) and a long calm
@@ -249,12 +252,12 @@ fn alarm_latches_until_acknowledged() {
     let rig = rig();
     let mut r = Run::new(&rig, config());
     r.run(0.0, 120.0, |_| Some(21.0), true);
-    assert_eq!(r.guard.stage(), Stage::Alarm);
+    assert_eq!(r.guard.level(), AlertLevel::Alarm);
     r.run(120.0, 2400.0, |_| Some(2.0), true);
-    assert_eq!(r.guard.stage(), Stage::Alarm, "latched");
+    assert_eq!(r.guard.level(), AlertLevel::Alarm, "latched");
     r.guard.acknowledge();
     r.run(2400.0, 2410.0, |_| Some(2.0), true);
-    assert_eq!(r.guard.stage(), Stage::Clear);
+    assert_eq!(r.guard.level(), AlertLevel::Clear);
 }
 
 /// A silent anemometer is a stale-sensor fault after the configured 10 s,
@@ -264,10 +267,10 @@ fn stale_wind_is_a_fault() {
     let rig = rig();
     let mut r = Run::new(&rig, config());
     r.run(0.0, 60.0, |_| Some(4.0), true);
-    assert_eq!(r.guard.stage(), Stage::Clear);
+    assert_eq!(r.guard.level(), AlertLevel::Clear);
     r.run(60.0, 90.0, |_| None, true);
-    assert_eq!(r.guard.stage(), Stage::SensorFault);
-    assert!(r.guard.stage().park_requested() && r.guard.stage().alarm());
+    assert_eq!(r.guard.level(), AlertLevel::SensorFault);
+    assert!(r.guard.level().park_requested() && r.guard.level().alarm());
     assert!(r.faults.iter().any(|(_, f)| matches!(
         f,
         Fault::Stale {
@@ -290,7 +293,7 @@ fn nan_wind_sample_is_a_fault() {
             sensor: Sensor::WindSpeed
         }
     )));
-    assert_eq!(r.guard.stage(), Stage::SensorFault);
+    assert_eq!(r.guard.level(), AlertLevel::SensorFault);
 }
 
 /// A silent accelerometer is a fault too.
@@ -299,7 +302,7 @@ fn stale_accelerometer_is_a_fault() {
     let rig = rig();
     let mut r = Run::new(&rig, config());
     r.run(0.0, 30.0, |_| Some(4.0), false);
-    assert_eq!(r.guard.stage(), Stage::SensorFault);
+    assert_eq!(r.guard.level(), AlertLevel::SensorFault);
     assert!(r.faults.iter().any(|(_, f)| matches!(
         f,
         Fault::Stale {
@@ -333,7 +336,7 @@ fn overloaded_drive_requests_park() {
     spec.drives = Some(Drives {
         primary: weak,
         secondary: weak,
-        slew_acceleration_rad_s2: 0.0,
+        slew_acceleration_rad_per_s2: 0.0,
     });
     let rig = Rig::new(&spec).unwrap();
     let cfg = config();
@@ -351,7 +354,7 @@ fn overloaded_drive_requests_park() {
         last = Some(g.step(Millis(k * 100), &inputs));
     }
     let v = last.unwrap();
-    assert_eq!(v.stage, Stage::ParkNow, "{v:?}");
+    assert_eq!(v.level, AlertLevel::ParkNow, "{v:?}");
     let d = v.drive_utilisation.unwrap();
     approx::assert_relative_eq!(d[1], 3.92 / 2.0, max_relative = 0.02);
     // The cause the decision names for these figures.
@@ -364,7 +367,7 @@ fn overloaded_drive_requests_park() {
         drift_rad_per_s: 0.0,
     };
     let (want, cause) = standfast::guard::transition::wanted(&figures, &cfg.thresholds());
-    assert_eq!((want, cause), (Stage::ParkNow, Cause::Drive));
+    assert_eq!((want, cause), (AlertLevel::ParkNow, AlertCause::Drive));
 }
 
 /// A sensor fault does not latch: once the anemometer is back and healthy for
@@ -377,15 +380,18 @@ fn sensor_fault_clears_after_healthy_period() {
     let mut r = Run::new(&rig, config());
     r.run(0.0, 60.0, |_| Some(4.0), true);
     r.run(60.0, 106.0, |_| None, true);
-    assert_eq!(r.guard.stage(), Stage::SensorFault);
+    assert_eq!(r.guard.level(), AlertLevel::SensorFault);
     r.run(106.0, 300.0, |_| Some(4.0), true);
-    assert_eq!(r.guard.stage(), Stage::Watch, "{:?}", r.changes);
+    assert_eq!(r.guard.level(), AlertLevel::Watch, "{:?}", r.changes);
     let back = *r.changes.last().unwrap();
-    assert_eq!((back.1, back.2), (Stage::SensorFault, Stage::Watch));
+    assert_eq!(
+        (back.1, back.2),
+        (AlertLevel::SensorFault, AlertLevel::Watch)
+    );
     assert!(back.0 >= 106.0 + 60.0 && back.0 <= 106.0 + 75.0, "{back:?}");
     r.run(300.0, 900.0, |_| Some(4.0), true);
     let clear = *r.changes.last().unwrap();
-    assert_eq!(clear.2, Stage::Clear);
+    assert_eq!(clear.2, AlertLevel::Clear);
     assert!(
         clear.0 >= 106.0 + 600.0 - 1.0 && clear.0 <= 106.0 + 600.0 + 15.0,
         "{clear:?}"
@@ -403,12 +409,12 @@ fn ten_minute_means_give_gust_by_factor() {
     let mut cfg = config();
     cfg.wind_source = WindSource::TenMinuteMeans;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!(e.field, "guard.wind.stale_after_s");
+    assert_eq!(e.field, standfast::error::Field::WindStaleAfterS);
     cfg.wind.stale_after_s = 660.0;
     // Means up to 100 m/s would be gusts of 145 m/s, beyond the model's
     // 100 m/s: refused, naming the limit that keeps every mean evaluable.
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!(e.field, "guard.wind.max_speed_mps");
+    assert_eq!(e.field, standfast::error::Field::WindMaxSpeedMps);
     approx::assert_relative_eq!(e.max, 100.0 / 1.45, max_relative = 1e-5);
     cfg.wind.max_speed_mps = 60.0;
     let mut g = Guard::new(&rig, cfg, Millis(0)).unwrap();
@@ -433,5 +439,5 @@ fn ten_minute_means_give_gust_by_factor() {
     // Last mean 18 m/s → gust 26.1 m/s: beyond the 21.9 m/s tip wind.
     approx::assert_relative_eq!(v.gust_mps.unwrap(), 18.0 * 1.45, max_relative = 1e-5);
     assert!(v.faults.is_empty());
-    assert_eq!(v.stage, Stage::Alarm);
+    assert_eq!(v.level, AlertLevel::Alarm);
 }

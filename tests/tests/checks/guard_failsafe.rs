@@ -6,7 +6,8 @@
 
 use crate::fixtures::{altaz, post_rig};
 use standfast::guard::{
-    AirSample, Cause, Event, Guard, GuardConfig, Inputs, Stage, Verdict, WindSample, MAX_EVENTS,
+    AirSample, AlertCause, AlertLevel, Event, Guard, GuardConfig, Inputs, Verdict, WindSample,
+    MAX_EVENTS,
 };
 use standfast::rig::{Rig, MAX_WIND_SPEED_MPS};
 use standfast::sense::{Fault, Millis, Sensor};
@@ -62,15 +63,15 @@ fn run(
 fn settled(rig: &Rig) -> Guard<'_> {
     let mut g = Guard::new(rig, config(), Millis(0)).unwrap();
     run(&mut g, 0, 400, 3.0, |_| {});
-    assert_eq!(g.stage(), Stage::Clear);
+    assert_eq!(g.level(), AlertLevel::Clear);
     g
 }
 
-fn changes(vs: &[Verdict]) -> Vec<(Stage, Stage, Cause)> {
+fn changes(vs: &[Verdict]) -> Vec<(AlertLevel, AlertLevel, AlertCause)> {
     vs.iter()
         .flat_map(|v| v.events.iter())
         .filter_map(|e| match *e {
-            Event::StageChanged { from, to, cause } => Some((from, to, cause)),
+            Event::LevelChanged { from, to, cause } => Some((from, to, cause)),
             _ => None,
         })
         .collect()
@@ -89,7 +90,7 @@ fn a_wind_beyond_the_model_is_never_clear() {
     cfg.wind.anemometer_height_m = 2.0;
     cfg.wind.rig_height_m = 2.0;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!(e.field, "guard.wind.max_speed_mps");
+    assert_eq!(e.field, standfast::error::Field::WindMaxSpeedMps);
     assert_eq!((e.value, e.max), (150.0, MAX_WIND_SPEED_MPS));
 
     cfg.wind.max_speed_mps = MAX_WIND_SPEED_MPS;
@@ -102,7 +103,7 @@ fn a_wind_beyond_the_model_is_never_clear() {
         v.predicted_utilisation.unwrap() > 1.0,
         "predicted gust beyond 100 m/s still evaluated"
     );
-    assert_eq!(v.stage, Stage::Alarm);
+    assert_eq!(v.level, AlertLevel::Alarm);
 
     let mut g = settled(&rig);
     let vs = run(&mut g, 400, 420, 120.0, |_| {});
@@ -114,7 +115,7 @@ fn a_wind_beyond_the_model_is_never_clear() {
             ..
         }
     )));
-    assert_eq!(v.stage, Stage::SensorFault);
+    assert_eq!(v.level, AlertLevel::SensorFault);
 }
 
 /// Case 2: rejected pose, air and cover samples are faults of their input in
@@ -133,7 +134,7 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
         (
             |i| {
                 i.air = Some(AirSample {
-                    temperature_c: f32::NAN,
+                    temperature_k: f32::NAN,
                     pressure_pa: 101_325.0,
                 })
             },
@@ -144,7 +145,7 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
         (
             |i| {
                 i.air = Some(AirSample {
-                    temperature_c: 15.0,
+                    temperature_k: standfast::air::celsius_to_kelvin(15.0),
                     pressure_pa: 5.0,
                 })
             },
@@ -165,7 +166,7 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
         let mut i = samples(400, 3.0);
         bad(&mut i);
         let v = g.step(Millis(40_000), &i);
-        assert_eq!(v.stage, Stage::SensorFault, "{expected:?}");
+        assert_eq!(v.level, AlertLevel::SensorFault, "{expected:?}");
         assert!(v.faults.any(|f| f.same_class(&expected)), "{:?}", v.faults);
         assert!(
             v.events.contains(&Event::FaultRaised(
@@ -175,9 +176,9 @@ fn rejected_pose_air_and_cover_samples_are_faults() {
             v.events
         );
         assert!(changes(std::slice::from_ref(&v)).contains(&(
-            Stage::Clear,
-            Stage::SensorFault,
-            Cause::SensorFault
+            AlertLevel::Clear,
+            AlertLevel::SensorFault,
+            AlertCause::SensorFault
         )));
     }
 }
@@ -193,7 +194,7 @@ fn a_reversed_clock_is_a_fault() {
         == Fault::TimeReversed {
             sensor: Sensor::Clock
         }));
-    assert_eq!((v.stage, v.now), (Stage::SensorFault, Millis(39_900)));
+    assert_eq!((v.level, v.now), (AlertLevel::SensorFault, Millis(39_900)));
 }
 
 /// Case 3: hysteresis across levels. A spell that parks (predicted ≥ 0.75),
@@ -207,8 +208,8 @@ fn no_step_down_past_a_band() {
     let mut g = settled(&rig);
     let vs = run(&mut g, 400, 700, 19.0, |_| {});
     assert_eq!(
-        vs.last().unwrap().stage,
-        Stage::ParkNow,
+        vs.last().unwrap().level,
+        AlertLevel::ParkNow,
         "{:?}",
         changes(&vs)
     );
@@ -218,7 +219,7 @@ fn no_step_down_past_a_band() {
     let last = vs.last().unwrap();
     let p = last.predicted_utilisation.unwrap();
     assert!((0.6..0.75).contains(&p), "predicted {p}");
-    assert_eq!(last.stage, Stage::ParkNow, "{:?}", changes(&vs));
+    assert_eq!(last.level, AlertLevel::ParkNow, "{:?}", changes(&vs));
 }
 
 /// Case 4: a watch raised by sliding says so.
@@ -229,7 +230,7 @@ fn a_watch_from_sliding_is_caused_by_sliding() {
     let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.05)).unwrap();
     let mut g = Guard::new(&rig, config(), Millis(0)).unwrap();
     run(&mut g, 0, 400, 1.0, |_| {});
-    assert_eq!(g.stage(), Stage::Clear);
+    assert_eq!(g.level(), AlertLevel::Clear);
     // 10 m/s: sliding 0.613·V²·0.222 / (0.05·40·9.81) ≈ 0.7 at the gust,
     // predicted overturning about (1.15·V / 21.9)² ≈ 0.3.
     let vs = run(&mut g, 400, 600, 10.0, |_| {});
@@ -239,7 +240,7 @@ fn a_watch_from_sliding_is_caused_by_sliding() {
     assert!(v.predicted_utilisation.unwrap() < 0.5);
     assert_eq!(
         c.first(),
-        Some(&(Stage::Clear, Stage::Watch, Cause::Sliding)),
+        Some(&(AlertLevel::Clear, AlertLevel::Watch, AlertCause::Sliding)),
         "{c:?}"
     );
 }
@@ -263,14 +264,14 @@ fn events_beyond_capacity_are_counted() {
         pose: Some(altaz(f32::NAN, 0.0)),
         cover_fitted: Some(true),
         air: Some(AirSample {
-            temperature_c: f32::NAN,
+            temperature_k: f32::NAN,
             pressure_pa: f32::NAN,
         }),
     };
     let v = g.step(Millis(60_000), &i);
     assert_eq!(v.events.len(), MAX_EVENTS);
     assert_eq!(v.events_lost, 1, "{:?} {:?}", v.events, v.faults);
-    assert_eq!(v.stage, Stage::SensorFault);
+    assert_eq!(v.level, AlertLevel::SensorFault);
 }
 
 /// Case 6: the evaluation period is validated like every other field.
@@ -278,10 +279,13 @@ fn events_beyond_capacity_are_counted() {
 fn the_evaluation_period_is_validated() {
     let rig = rig();
     let mut cfg = config();
-    cfg.evaluate_every_ms = 60_001;
+    cfg.evaluate_every_s = 60.001;
     let e = Guard::new(&rig, cfg.clone(), Millis(0)).unwrap_err();
-    assert_eq!((e.field, e.max), ("guard.evaluate_every_ms", 60_000.0));
-    cfg.evaluate_every_ms = 60_000;
+    assert_eq!(
+        (e.field, e.max),
+        (standfast::error::Field::GuardEvaluateEveryS, 60.0)
+    );
+    cfg.evaluate_every_s = 60.0;
     assert!(Guard::new(&rig, cfg, Millis(0)).is_ok());
 }
 
@@ -372,28 +376,14 @@ fn new_highs_are_reported_as_they_rise() {
 /// The post rig with a 1.2 m tube (0.25 m across, 5 kg) on the altitude
 /// axis 1 m up, optionally under a 0.5 × 1.5 × 0.5 m cover.
 fn tube_rig(cover: bool) -> Rig {
-    use standfast::rig::{BodySpec, CoverSpec, Stage as MountStage};
-    use standfast::shape::{Exposure, Shape};
+    use standfast::rig::{BodySpec, CoverSpec, MassModel};
     let support = Support::tripod(0.5, 0.0).unwrap();
     let mut spec = post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.1, 0.6, 0.5);
     spec.bodies
-        .push(BodySpec {
-            stage: MountStage::Secondary,
-            mass_kg: 5.0,
-            cg_m: [0.0, 0.0, 0.0],
-            exposure: Some(Exposure {
-                shape: Shape::Cylinder {
-                    diameter_m: 0.25,
-                    length_m: 1.2,
-                    axis: [0.0, 1.0, 0.0],
-                },
-                centre_m: [0.0, 0.0, 0.0],
-                drag_coefficient: None,
-                end_drag_coefficient: None,
-            }),
-            under_cover: true,
-            ..BodySpec::default()
-        })
+        .push(
+            BodySpec::optical_tube(5.0, 0.25, 1.2, [0.0, 0.0, 0.0])
+                .with_mass_model(MassModel::Solid),
+        )
         .unwrap();
     if cover {
         spec.cover = Some(CoverSpec {
@@ -426,7 +416,7 @@ fn the_safest_park_pose_is_searched() {
     run(&mut g, 0, 400, 3.0, east);
     let vs = run(&mut g, 400, 700, 22.0, east);
     let v = vs.last().unwrap();
-    assert!(v.stage.park_requested(), "{v:?}");
+    assert!(v.level.park_requested(), "{v:?}");
     assert_eq!(v.park_pose, Some(zenith), "{v:?}");
 }
 
@@ -446,7 +436,7 @@ fn a_fault_between_evaluations_carries_a_park_pose() {
         },
     );
     assert!(!v.evaluated);
-    assert_eq!(v.stage, Stage::SensorFault);
+    assert_eq!(v.level, AlertLevel::SensorFault);
     assert_eq!(v.park_pose, Some(rig.mount().home_pose()));
 }
 
@@ -522,7 +512,7 @@ fn a_sinking_leg_raises_watch() {
         i.accel_raw = Some([a.sin(), 1e-4 * ((k % 7) as f32), a.cos()]);
         let v = g.step(Millis(k * 100), &i);
         for e in &v.events {
-            if let Event::StageChanged { from, to, cause } = *e {
+            if let Event::LevelChanged { from, to, cause } = *e {
                 changes.push((from, to, cause));
             }
         }
@@ -531,7 +521,7 @@ fn a_sinking_leg_raises_watch() {
     let v = last.unwrap();
     approx::assert_relative_eq!(v.tilt_drift_rad_per_s, rate, max_relative = 0.3);
     assert!(
-        changes.contains(&(Stage::Clear, Stage::Watch, Cause::TiltDrift)),
+        changes.contains(&(AlertLevel::Clear, AlertLevel::Watch, AlertCause::TiltDrift)),
         "{changes:?}"
     );
 }
@@ -555,7 +545,7 @@ fn a_measured_direction_is_used_and_an_unknown_one_is_the_worst() {
     .pop()
     .unwrap();
     assert!(
-        w.faults.is_empty() || w.stage == Stage::SensorFault,
+        w.faults.is_empty() || w.level == AlertLevel::SensorFault,
         "{w:?}"
     );
     if w.faults.is_empty() {

@@ -113,7 +113,7 @@ fn step(bad: u32) -> impl Strategy<Value = Step> {
             if let Some(((t, bt), (p, bp))) = air {
                 bad |= bt || bp;
                 inputs.air = Some(AirSample {
-                    temperature_c: t,
+                    temperature_k: standfast::air::celsius_to_kelvin(t),
                     pressure_pa: p,
                 });
             }

@@ -139,14 +139,20 @@ fn lookups_and_typed_errors() {
     let e = IsoThread::by_nominal_mm(7.0).unwrap_err();
     assert_eq!(
         (e.kind, e.field),
-        (ErrorKind::Unreachable, "thread.nominal_mm")
+        (
+            ErrorKind::Unreachable,
+            standfast::error::Field::ThreadNominalMm
+        )
     );
     let e = IsoThread::by_nominal_mm(f32::NAN).unwrap_err();
     assert_eq!(e.kind, ErrorKind::NotFinite);
     let e = IsoThread::by_nominal_mm(2.0).unwrap_err();
     assert_eq!(e.kind, ErrorKind::OutOfRange);
     assert!((e.min - 3.0).abs() < 1e-6);
-    assert_eq!(IsoThread::by_name("bolt").unwrap_err().field, "thread.name");
+    assert_eq!(
+        IsoThread::by_name("bolt").unwrap_err().field,
+        standfast::error::Field::ThreadName
+    );
     // Tabulated 6g/6H limits for M6 and M10 only; basic profile otherwise.
     assert_eq!(thread("M10").limits().source, LimitsSource::Class6g6H);
     assert_eq!(thread("M6").limits().source, LimitsSource::Class6g6H);
@@ -340,20 +346,23 @@ fn stripping_errors_name_fields() {
     i.engagement_mm = -1.0;
     assert_eq!(
         check_stripping(&i).unwrap_err().field,
-        "strip.engagement_mm"
+        standfast::error::Field::StripEngagementMm
     );
     let mut i = base;
     i.tensile_area_mm2 = f32::INFINITY;
     let e = check_stripping(&i).unwrap_err();
     assert_eq!(
         (e.kind, e.field),
-        (ErrorKind::NotFinite, "strip.tensile_area_mm2")
+        (
+            ErrorKind::NotFinite,
+            standfast::error::Field::StripTensileAreaMm2
+        )
     );
     let mut i = base;
     i.limits.int_pitch_max_mm = 20.0;
     assert_eq!(
         check_stripping(&i).unwrap_err().field,
-        "thread_limits.int_pitch_max_mm"
+        standfast::error::Field::ThreadLimitsIntPitchMaxMm
     );
     let r = check_stripping(&base).unwrap();
     assert!(r.utilisation(-5.0).is_err());
@@ -546,7 +555,10 @@ fn two_screws_resist_only_the_perpendicular_moment() {
     let e = p.tensions(skew, PivotLine::Centroid).unwrap_err();
     assert_eq!(
         (e.kind, e.field),
-        (ErrorKind::Unreachable, "bolt_pattern.screws_mm")
+        (
+            ErrorKind::Unreachable,
+            standfast::error::Field::BoltPatternScrewsMm
+        )
     );
 }
 
@@ -601,7 +613,7 @@ fn counterweight_shaft_classic_poses() {
     let both = flat + ShaftLoad::counterweight(2.0, 0.1, PI / 2.0).unwrap();
     assert_abs_diff_eq!(both.moment_nm, 12.258 + 1.961, epsilon = 2e-3);
     let e = ShaftLoad::counterweight(-1.0, 0.25, 0.0).unwrap_err();
-    assert_eq!(e.field, "shaft_load.mass_kg");
+    assert_eq!(e.field, standfast::error::Field::ShaftLoadMassKg);
 
     // Four screws on a 40 mm circle under it: hanging, an equal share of the
     // pull; horizontal, the bolt-circle value 2M/(nR) (atreydes.com).
@@ -714,6 +726,9 @@ fn material_table_values() {
     let e = material::Material::new(250.0, 200.0).unwrap_err();
     assert_eq!(
         (e.kind, e.field),
-        (ErrorKind::OutOfRange, "material.ultimate_mpa")
+        (
+            ErrorKind::OutOfRange,
+            standfast::error::Field::MaterialUltimateMpa
+        )
     );
 }

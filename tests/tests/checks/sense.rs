@@ -52,7 +52,7 @@ fn deg(x: f32) -> f32 {
 /// on the back end (the core sums a series there), so they keep one
 /// tolerance.
 fn tol(libm: f64, micromath: f64) -> f64 {
-    if cfg!(feature = "micromath") {
+    if standfast::math::FAST_MATH {
         micromath
     } else {
         libm

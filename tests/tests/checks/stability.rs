@@ -30,7 +30,7 @@ fn tripod_tip_wind_matches_hand_statics() {
     let pose = altaz(0.0, 0.0);
     // Wind from the north pushes south, toward the middle of the southern edge
     // (the first foot points north, upwind).
-    let a = rig.assess(&wind(pose, 10.0, 0.0)).unwrap();
+    let a = rig.stability_figures(&wind(pose, 10.0, 0.0)).unwrap();
     let w = 40.0 * STANDARD_GRAVITY_MPS2;
     let f_tip = w * 0.25 / 1.5;
     assert_relative_eq!(f_tip, 65.38, max_relative = 1e-3);
@@ -39,7 +39,7 @@ fn tripod_tip_wind_matches_hand_statics() {
     assert_relative_eq!(a.tip_wind_mps.unwrap(), v, max_relative = 1e-4);
     // Wind from the south pushes toward the north foot: arm R = 2r, so the tip
     // pressure doubles and the speed grows by √2.
-    let b = rig.assess(&wind(pose, 10.0, 180.0)).unwrap();
+    let b = rig.stability_figures(&wind(pose, 10.0, 180.0)).unwrap();
     assert_relative_eq!(
         b.tip_wind_mps.unwrap(),
         v * 2f32.sqrt(),
@@ -81,7 +81,9 @@ fn block_tips_before_sliding_vlsm_examples() {
         // Push east: wind from the west. P = q·Cd·A.
         let q = p_lbf * lbf / cd_a;
         let speed = Air::default().speed_for_pressure_mps(q);
-        let a = rig.assess(&wind(altaz(0.0, 0.0), speed, 270.0)).unwrap();
+        let a = rig
+            .stability_figures(&wind(altaz(0.0, 0.0), speed, 270.0))
+            .unwrap();
         assert_eq!(a.critical.utilisation >= 0.999, tips, "h = {h_in} in");
         assert_eq!(a.sliding.utilisation >= 1.0, slides, "h = {h_in} in");
         // Tipping force from the closed form W·(b/2)/h.
@@ -136,7 +138,7 @@ fn upwind_foot_goes_light_at_tip() {
         assert_relative_eq!(x, 40.0 * STANDARD_GRAVITY_MPS2 / 3.0, max_relative = 1e-4);
     }
     let tip = rig
-        .assess(&wind(pose, 1.0, 0.0))
+        .stability_figures(&wind(pose, 1.0, 0.0))
         .unwrap()
         .tip_wind_mps
         .unwrap();
@@ -169,7 +171,7 @@ fn tilt_margin_is_atan_d_over_h() {
     assert_relative_eq!(m2.extra_rad, m.extra_rad - 0.2, max_relative = 1e-3);
     // On the slope the downhill pull W·sinθ·h overturns against W·cosθ·d:
     // utilisation tanθ·h/d, reaching 1 exactly at the tilt margin.
-    let u = rig.assess(&c).unwrap().critical.utilisation;
+    let u = rig.stability_figures(&c).unwrap().critical.utilisation;
     assert_relative_eq!(u, 0.2_f32.tan() * 1.0 / 0.25, max_relative = 1e-3);
 }
 
@@ -180,7 +182,7 @@ fn tilt_margin_is_atan_d_over_h() {
 fn rotating_rig_and_wind_together_changes_nothing() {
     let feet = [[0.6, 0.1], [-0.2, 0.5], [-0.3, -0.45], [0.25, -0.5]];
     let mk = |turn_deg: f32| {
-        let turned: standfast::heapless::Vec<Foot, 8> = feet
+        let turned: standfast::bounded::Vec<Foot, 8> = feet
             .iter()
             .map(|p| Foot {
                 position_m: standfast::support::rotate_cw(*p, deg_to_rad(turn_deg)),
@@ -199,9 +201,9 @@ fn rotating_rig_and_wind_together_changes_nothing() {
             tilt: Tilt::new(0.03, deg_to_rad(70.0 + turn)).unwrap(),
             ..wind(altaz(20.0 + turn, 30.0), 14.0, 250.0 + turn)
         };
-        let a = rig.assess(&c).unwrap();
+        let a = rig.stability_figures(&c).unwrap();
         let base = mk(0.0)
-            .assess(&Conditions {
+            .stability_figures(&Conditions {
                 tilt: Tilt::new(0.03, deg_to_rad(70.0)).unwrap(),
                 ..wind(altaz(20.0, 30.0), 14.0, 250.0)
             })
@@ -238,12 +240,12 @@ fn mass_on_vertical_axis_never_lowers_stability() {
     let rig = Rig::new(&post_rig(&support, 20.0, [0.05, 0.02, 1.0], 0.25, 1.4, 0.5)).unwrap();
     for from in [0.0_f32, 45.0, 133.0, 290.0] {
         let c = wind(altaz(0.0, 0.0), 12.0, from);
-        let before = rig.assess(&c).unwrap();
+        let before = rig.stability_figures(&c).unwrap();
         for (m, z) in [(1.0_f32, 0.1_f32), (5.0, 0.6), (10.0, 1.5)] {
             let heavier = rig
                 .with_ballast(m, standfast::Vec3::new(0.0, 0.0, z))
                 .unwrap();
-            let after = heavier.assess(&c).unwrap();
+            let after = heavier.stability_figures(&c).unwrap();
             assert!(after.critical.utilisation <= before.critical.utilisation + 1e-6);
             assert!(after.tip_wind_mps.unwrap() >= before.tip_wind_mps.unwrap() - 1e-4);
         }
@@ -257,7 +259,7 @@ fn utilisation_grows_as_v_squared() {
     let support = Support::tripod(0.5, 0.0).unwrap();
     let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
     let u = |v: f32| {
-        rig.assess(&wind(altaz(0.0, 0.0), v, 17.0))
+        rig.stability_figures(&wind(altaz(0.0, 0.0), v, 17.0))
             .unwrap()
             .critical
             .utilisation
@@ -282,9 +284,9 @@ fn ballast_needed_meets_target_exactly() {
     let over = q * 0.222 * 1.5;
     let closed =
         (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / (STANDARD_GRAVITY_MPS2 * 0.25);
-    assert_relative_eq!(need.amount, closed, max_relative = 1e-3);
+    assert_relative_eq!(need.mass_kg, closed, max_relative = 1e-3);
     let ok = rig
-        .with_ballast(need.amount, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .with_ballast(need.mass_kg, standfast::Vec3::new(0.0, 0.0, 0.3))
         .unwrap();
     let (u, _) = ok
         .worst_direction_utilisation(&Conditions {
@@ -294,7 +296,7 @@ fn ballast_needed_meets_target_exactly() {
         .unwrap();
     assert_relative_eq!(u, 0.8, max_relative = 1e-3);
     let short = rig
-        .with_ballast(0.9 * need.amount, standfast::Vec3::new(0.0, 0.0, 0.3))
+        .with_ballast(0.9 * need.mass_kg, standfast::Vec3::new(0.0, 0.0, 0.3))
         .unwrap();
     let (u2, _) = short
         .worst_direction_utilisation(&Conditions {
@@ -312,16 +314,20 @@ fn ballast_needed_meets_target_exactly() {
         .unwrap();
     let closed_small =
         (over_small / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / (STANDARD_GRAVITY_MPS2 * 0.25);
-    assert_relative_eq!(small.amount, closed_small, max_relative = 1e-3);
+    assert_relative_eq!(small.mass_kg, closed_small, max_relative = 1e-3);
     assert_relative_eq!(closed_small, 5.0, max_relative = 1e-3);
     // Tie-downs: about the edge opposite the upwind foot only that foot is off
     // the edge, at the triangle's height 3r = 0.75 m from it.
     let tie = rig.tie_down_needed(&c, 25.0, 0.8).unwrap();
     let closed_t = (over / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / 0.75;
-    assert_relative_eq!(tie.amount, closed_t, max_relative = 1e-3);
+    assert_relative_eq!(tie.pull_per_foot_n, closed_t, max_relative = 1e-3);
     let tie_small = rig.tie_down_needed(&c, v_small, 0.8).unwrap();
     let closed_t_small = (over_small / 0.8 - 40.0 * STANDARD_GRAVITY_MPS2 * 0.25) / 0.75;
-    assert_relative_eq!(tie_small.amount, closed_t_small, max_relative = 1e-3);
+    assert_relative_eq!(
+        tie_small.pull_per_foot_n,
+        closed_t_small,
+        max_relative = 1e-3
+    );
 }
 
 /// Utilisation at a wind below the tip wind, with tie-downs: about the edge
@@ -340,7 +346,9 @@ fn tie_downs_steady_the_rig_by_their_arm() {
         f.tie_down_n = 100.0;
     }
     let rig = Rig::new(&spec).unwrap();
-    let a = rig.assess(&wind(altaz(0.0, 0.0), 15.0, 0.0)).unwrap();
+    let a = rig
+        .stability_figures(&wind(altaz(0.0, 0.0), 15.0, 0.0))
+        .unwrap();
     let (w, r, t, cda, h) = (40.0 * STANDARD_GRAVITY_MPS2, 0.25, 100.0, 0.222, 1.5);
     let q = Air::default().dynamic_pressure_pa(15.0);
     let over = q * cda * h;
@@ -388,7 +396,7 @@ fn wind_up_a_slope_steadies_the_downhill_edge() {
     let (w, r, h, big_h) = (40.0 * STANDARD_GRAVITY_MPS2, 0.25_f32, 0.8_f32, 1.5_f32);
     let d = 0.25_f32; // the post's diameter (fixtures::post_rig)
     let cda = 0.222 * theta.cos() + end_cd * core::f32::consts::FRAC_PI_4 * d * d * theta.sin();
-    let calm = rig.assess(&c(0.0)).unwrap();
+    let calm = rig.stability_figures(&c(0.0)).unwrap();
     assert_relative_eq!(
         calm.critical.utilisation,
         w * theta.sin() * h / (w * theta.cos() * r),
@@ -396,7 +404,7 @@ fn wind_up_a_slope_steadies_the_downhill_edge() {
     );
     let v = 8.0;
     let q = Air::default().dynamic_pressure_pa(v);
-    let a = rig.assess(&c(v)).unwrap();
+    let a = rig.stability_figures(&c(v)).unwrap();
     let stab = w * theta.cos() * r + q * cda * (big_h * theta.cos() + r * theta.sin());
     assert_relative_eq!(a.critical.stabilising_nm, stab, max_relative = 1e-3);
     assert_relative_eq!(
@@ -432,12 +440,14 @@ fn wind_up_a_slope_steadies_the_downhill_edge() {
 /// Ties go to the first edge in the support's order: on level ground in calm
 /// air no edge of a rig centred over its feet is loaded, and the critical
 /// edge reported is the first (the documented order of
-/// `standfast::stability::Assessment::critical`).
+/// `standfast::stability::StabilityFigures::critical`).
 #[test]
 fn an_unloaded_rig_reports_its_first_edge() {
     let support = Support::tripod(0.5, 0.0).unwrap();
     let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
-    let a = rig.assess(&wind(altaz(0.0, 0.0), 0.0, 0.0)).unwrap();
+    let a = rig
+        .stability_figures(&wind(altaz(0.0, 0.0), 0.0, 0.0))
+        .unwrap();
     let first = support.edges()[0];
     assert_eq!(a.critical.utilisation, 0.0);
     assert_eq!(
@@ -448,7 +458,7 @@ fn an_unloaded_rig_reports_its_first_edge() {
 
 /// The worst direction is found to the accuracy of a dense scan: tip wind
 /// and utilisation against a brute-force scan of 7,200 directions (every
-/// 0.05°) through `Rig::assess`, on a rig with no symmetry about north
+/// 0.05°) through `Rig::stability_figures`, on a rig with no symmetry about north
 /// (first leg at 17.5°, between the coarse 5° steps; centre of gravity off
 /// the axis). The refinement must close the coarse step's error (up to about
 /// 0.1 % in speed here). (Reference computation; common practice, no source.)
@@ -477,7 +487,7 @@ fn worst_direction_matches_a_dense_scan() {
             )
     };
     let tip = |d: f32| {
-        rig.assess(&wind(pose, 10.0, d))
+        rig.stability_figures(&wind(pose, 10.0, d))
             .unwrap()
             .tip_wind_mps
             .unwrap()
@@ -493,7 +503,7 @@ fn worst_direction_matches_a_dense_scan() {
         worst.from_rad.to_degrees()
     );
     let u = |d: f32| {
-        rig.assess(&wind(pose, 15.0, d))
+        rig.stability_figures(&wind(pose, 15.0, d))
             .unwrap()
             .critical
             .utilisation
@@ -520,26 +530,26 @@ fn wind_at_ground_level_tips_nothing() {
     let support = Support::tripod(0.5, 0.0).unwrap();
     let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 0.0, 0.5)).unwrap();
     let c = wind(altaz(0.0, 0.0), 20.0, 33.0);
-    assert_eq!(rig.assess(&c).unwrap().tip_wind_mps, None);
+    assert_eq!(rig.stability_figures(&c).unwrap().tip_wind_mps, None);
     assert_eq!(rig.worst_wind(&c).unwrap().tip_wind_mps, None);
 }
 
 /// The utilisation at a second speed is defined for any finite speed at or
 /// above zero, and `None` otherwise (the documented contract of
-/// `Rig::assess_with_utilisation_at`).
+/// `Rig::stability_figures_with_utilisation_at`).
 #[test]
 fn utilisation_at_a_second_speed_refuses_negative_and_non_finite() {
     let support = Support::tripod(0.5, 0.0).unwrap();
     let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
     let c = wind(altaz(0.0, 0.0), 10.0, 0.0);
-    let at = |v: f32| rig.assess_with_utilisation_at(&c, v).unwrap().1;
+    let at = |v: f32| rig.stability_figures_with_utilisation_at(&c, v).unwrap().1;
     assert_eq!(at(-1.0), None);
     assert_eq!(at(f32::NAN), None);
     assert_eq!(at(f32::INFINITY), None);
     let u20 = at(20.0).unwrap();
     assert_relative_eq!(
         u20,
-        4.0 * rig.assess(&c).unwrap().critical.utilisation,
+        4.0 * rig.stability_figures(&c).unwrap().critical.utilisation,
         max_relative = 1e-4
     );
     assert_eq!(at(0.0), Some(0.0));

@@ -10,9 +10,9 @@
 
 use approx::{assert_abs_diff_eq, assert_relative_eq};
 use standfast::air::Air;
+use standfast::bounded::Vec as HVec;
 use standfast::drive::{DriveRating, Drives};
 use standfast::frame::Tilt;
-use standfast::heapless::Vec as HVec;
 use standfast::math::{deg_to_rad, STANDARD_GRAVITY_MPS2 as G};
 use standfast::mount::{MountGeometry, MountKind, PierSide, Pose};
 use standfast::rig::{
@@ -56,34 +56,11 @@ fn point(stage: Stage, mass_kg: f32, cg_m: [f32; 3]) -> BodySpec {
 }
 
 fn tube(mass_kg: f32, cg_m: [f32; 3], model: MassModel) -> BodySpec {
-    BodySpec {
-        stage: Stage::Secondary,
-        mass_kg,
-        cg_m,
-        exposure: Some(Exposure {
-            shape: Shape::Cylinder {
-                diameter_m: 0.2,
-                length_m: 0.8,
-                axis: [0.0, 1.0, 0.0],
-            },
-            centre_m: cg_m,
-            drag_coefficient: None,
-            end_drag_coefficient: None,
-        }),
-        mass_model: model,
-        under_cover: true,
-        ..BodySpec::default()
-    }
+    BodySpec::optical_tube(mass_kg, 0.2, 0.8, cg_m).with_mass_model(model)
 }
 
 fn disc(mass_kg: f32, distance_m: f32) -> CounterweightSpec {
-    CounterweightSpec {
-        mass_kg,
-        distance_m,
-        diameter_m: 0.1,
-        thickness_m: 0.05,
-        drag_coefficient: None,
-    }
+    CounterweightSpec::disc(mass_kg, distance_m, 0.1, 0.05)
 }
 
 fn drives(rated: f32, alpha: f32) -> Drives {
@@ -95,7 +72,7 @@ fn drives(rated: f32, alpha: f32) -> Drives {
     Drives {
         primary: r,
         secondary: r,
-        slew_acceleration_rad_s2: alpha,
+        slew_acceleration_rad_per_s2: alpha,
     }
 }
 
@@ -391,7 +368,7 @@ fn wind_torque_and_utilisation_by_hand() {
             repeated_peak_nm: 10.0,
             momentary_peak_nm: 20.0,
         },
-        slew_acceleration_rad_s2: 0.5,
+        slew_acceleration_rad_per_s2: 0.5,
     });
     let rig = Rig::new(&s).unwrap();
     let c = Conditions {
@@ -510,7 +487,7 @@ fn sky_scan_maximum_bounds_every_sample() {
             assert!(l.primary.steady_nm.abs() <= worst.primary.steady_nm.abs() + 1e-4);
             assert!(l.secondary.steady_nm.abs() <= worst.secondary.steady_nm.abs() + 1e-4);
             assert!(l.primary.inertia_kg_m2 <= worst.max_inertia_kg_m2[0] + 1e-6);
-            if let Some(v) = rig.assess(&c).unwrap().tip_wind_mps {
+            if let Some(v) = rig.stability_figures(&c).unwrap().tip_wind_mps {
                 assert!(tip <= v + 1e-3);
             }
         }

@@ -4,7 +4,7 @@
 //! with the stability module's foot reactions, an independent code path).
 
 use approx::assert_abs_diff_eq;
-use standfast::heapless::Vec as HVec;
+use standfast::bounded::Vec as HVec;
 use standfast::math::{deg_to_rad, STANDARD_GRAVITY_MPS2};
 use standfast::mount::{MountGeometry, MountKind};
 use standfast::rig::{BodySpec, Conditions, CounterweightSpec, Rig, RigSpec, ShaftSpec, Stage};

@@ -61,15 +61,15 @@ fn conditions() -> [(&'static str, Readings); 15] {
     ]
 }
 
-use Cause as C;
-use Stage::{Alarm as A, Clear as Cl, ParkNow as P, SensorFault as F, Watch as W};
+use AlertCause as C;
+use AlertLevel::{Alarm as A, Clear as Cl, ParkNow as P, SensorFault as F, Watch as W};
 
 /// Expected (next level, cause when it changes) for each condition, from a
 /// memory in which the figures have been trusted and settled below every
 /// level for an hour (the step's own figures then decide which timers
 /// survive) and no latch. Rows: conditions in the order above; columns: the
 /// present level clear, watch, park_now, alarm, sensor_fault.
-const SETTLED: [[(Stage, Option<Cause>); 5]; 15] = [
+const SETTLED: [[(AlertLevel, Option<AlertCause>); 5]; 15] = [
     // calm: everything settled, so every step down goes all the way.
     [
         (Cl, None),
@@ -208,7 +208,7 @@ fn settled_memory() -> Memory {
 fn every_level_against_every_condition() {
     let t = t();
     for (row, (name, readings)) in conditions().iter().enumerate() {
-        for (col, &level) in Stage::ALL.iter().enumerate() {
+        for (col, &level) in AlertLevel::ALL.iter().enumerate() {
             let out = transition(level, readings, &t, settled_memory(), Millis(HOUR_MS));
             let (to, cause) = SETTLED[row][col];
             assert_eq!(out.stage, to, "{name} at {level:?}");
@@ -239,7 +239,7 @@ fn no_step_down_without_the_dwell() {
         ..Memory::default()
     };
     for (row, (name, readings)) in conditions().iter().enumerate() {
-        for (col, &level) in Stage::ALL.iter().enumerate() {
+        for (col, &level) in AlertLevel::ALL.iter().enumerate() {
             let out = transition(level, readings, &t, fresh, Millis(HOUR_MS));
             let (to, _) = SETTLED[row][col];
             let expected = if to > level || to == F { to } else { level };
@@ -380,7 +380,7 @@ fn names_are_snake_case_and_distinct() {
             assert_ne!(a.name(), b.name());
         }
     }
-    let names = Stage::ALL.map(Stage::name);
+    let names = AlertLevel::ALL.map(AlertLevel::name);
     assert_eq!(
         names,
         ["clear", "watch", "park_now", "alarm", "sensor_fault"]
@@ -447,7 +447,7 @@ fn a_fault_does_not_release_a_park_or_an_alarm() {
         Millis(HOUR_MS),
     );
     let (mut level, mut m) = (out.stage, out.memory);
-    let mut seen: heapless::Vec<(u64, Stage, Cause), 4> = heapless::Vec::new();
+    let mut seen: heapless::Vec<(u64, AlertLevel, AlertCause), 4> = heapless::Vec::new();
     for k in 1..=700_u64 {
         let out = transition(level, &calm, &t, m, Millis(HOUR_MS + k * 1000));
         if let Some(c) = out.change {
@@ -462,8 +462,8 @@ fn a_fault_does_not_release_a_park_or_an_alarm() {
 /// `alarm` up.
 #[test]
 fn outputs_of_each_level() {
-    let park = Stage::ALL.map(Stage::park_requested);
-    let alarm = Stage::ALL.map(Stage::alarm);
+    let park = AlertLevel::ALL.map(AlertLevel::park_requested);
+    let alarm = AlertLevel::ALL.map(AlertLevel::alarm);
     assert_eq!(park, [false, false, true, true, true]);
     assert_eq!(alarm, [false, false, false, true, true]);
 }
@@ -478,7 +478,7 @@ fn a_figure_in_a_band_or_at_its_bound_holds_its_level() {
     let t = t();
     let r = t.clear_ratio;
     type Set = fn(&mut Figures, &Thresholds, f32);
-    let cases: [(&str, Set, Stage); 13] = [
+    let cases: [(&str, Set, AlertLevel); 13] = [
         ("sliding in the watch band", |f, _, _| f.sliding = 0.45, W),
         (
             "drift in the watch band",
@@ -552,7 +552,7 @@ fn a_figure_in_a_band_or_at_its_bound_holds_its_level() {
         // …and from one level higher, it steps down to it, no further.
         if level < A {
             let mut m = settled_memory();
-            let mut at = Stage::ALL[level as usize + 1];
+            let mut at = AlertLevel::ALL[level as usize + 1];
             for k in 0..50_u64 {
                 let out = transition(
                     at,

@@ -1,7 +1,7 @@
 //! What both wind sources share: their configuration ([`WindConfig`]) and
 //! their report ([`WindReport`], [`WindDirection`], [`GustBasis`]).
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 
 use super::profile::{log_profile_factor, TerrainCategory};
 
@@ -84,24 +84,24 @@ impl WindConfig {
     /// The first non-finite or out-of-range field, named `wind.<field>`.
     pub fn validate(&self) -> Result<(), Error> {
         log_profile_factor(self.anemometer_height_m, self.rig_height_m, self.terrain)?;
-        Error::check("wind.peak_window_s", self.peak_window_s, 3.0, 600.0)?;
+        Error::check(Field::WindPeakWindowS, self.peak_window_s, 3.0, 600.0)?;
         Error::check(
-            "wind.direction_window_s",
+            Field::WindDirectionWindowS,
             self.direction_window_s,
             10.0,
             600.0,
         )?;
-        Error::check("wind.calm_below_mps", self.calm_below_mps, 0.0, 5.0)?;
+        Error::check(Field::WindCalmBelowMps, self.calm_below_mps, 0.0, 5.0)?;
         Error::check(
-            "wind.variable_spread_rad",
+            Field::WindVariableSpreadRad,
             self.variable_spread_rad,
             0.0,
             10.0,
         )?;
-        Error::check("wind.max_speed_mps", self.max_speed_mps, 1.0, 150.0)?;
-        Error::check("wind.stale_after_s", self.stale_after_s, 1e-3, 86_400.0)?;
-        Error::check("wind.stuck_after_s", self.stuck_after_s, 0.0, 86_400.0)?;
-        Error::check("wind.mean_gust_factor", self.mean_gust_factor, 1.0, 3.0)?;
+        Error::check(Field::WindMaxSpeedMps, self.max_speed_mps, 1.0, 150.0)?;
+        Error::check(Field::WindStaleAfterS, self.stale_after_s, 1e-3, 86_400.0)?;
+        Error::check(Field::WindStuckAfterS, self.stuck_after_s, 0.0, 86_400.0)?;
+        Error::check(Field::WindMeanGustFactor, self.mean_gust_factor, 1.0, 3.0)?;
         Ok(())
     }
 

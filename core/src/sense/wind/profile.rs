@@ -2,7 +2,7 @@
 //! categories, the logarithmic correction from the anemometer's height to
 //! the rig's, and the gust of a mean speed.
 
-use crate::error::Error;
+use crate::error::{Error, Field};
 use crate::math;
 
 /// Terrain category of EN 1991-1-4 Table 4.1, which fixes the roughness
@@ -29,6 +29,20 @@ pub enum TerrainCategory {
     /// Category IV: at least 15 % of the surface covered by buildings of
     /// average height above 15 m. z0 = 1.0 m, z_min = 10 m.
     CatIVUrban,
+}
+
+impl TerrainCategory {
+    /// A stable snake-case name for logs and machine-readable output.
+    #[must_use]
+    pub const fn name(self) -> &'static str {
+        match self {
+            TerrainCategory::Cat0Sea => "cat_0_sea",
+            TerrainCategory::CatIFlat => "cat_i_flat",
+            TerrainCategory::CatIIOpen => "cat_ii_open",
+            TerrainCategory::CatIIISuburban => "cat_iii_suburban",
+            TerrainCategory::CatIVUrban => "cat_iv_urban",
+        }
+    }
 }
 
 impl TerrainCategory {
@@ -85,8 +99,8 @@ pub fn log_profile_factor(
     z_to_m: f32,
     terrain: TerrainCategory,
 ) -> Result<f32, Error> {
-    Error::check("wind.z_from_m", z_from_m, 0.01, 200.0)?;
-    Error::check("wind.z_to_m", z_to_m, 0.01, 200.0)?;
+    Error::check(Field::WindZFromM, z_from_m, 0.01, 200.0)?;
+    Error::check(Field::WindZToM, z_to_m, 0.01, 200.0)?;
     let z0 = terrain.roughness_length_m();
     let zmin = terrain.min_height_m();
     let from = math::ln(z_from_m.max(zmin) / z0);
