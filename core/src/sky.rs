@@ -491,7 +491,7 @@ impl Rig {
                         });
                     }
                 }
-                if let Some((qt, _)) = Loads::new(&placement, d).tip_pressure_pa() {
+                if let Some(qt) = Loads::new(&placement, d).tip_pressure_pa() {
                     if tip.is_none_or(|(b, _, _)| qt < b) {
                         tip = Some((qt, pose, d));
                     }
@@ -676,9 +676,7 @@ impl Rig {
     pub fn park_candidate(&self, req: &ParkRequest, pose: Pose) -> Result<ParkCandidate, Error> {
         let placement = self.place(pose, req.tilt, req.cover_fitted)?;
         let q = req.air.dynamic_pressure_pa(req.wind_speed_mps);
-        let over = Loads::new(&placement, req.wind_from_rad)
-            .max_utilisation(q)
-            .0;
+        let over = Loads::new(&placement, req.wind_from_rad).max_utilisation(q);
         let g = gravity_terms(&placement);
         let w = wind_terms_nm_per_pa(&placement, req.wind_from_rad);
         let mut axis = [0.0_f32; 2];

@@ -247,31 +247,29 @@ impl Loads {
         &self.terms
     }
 
-    /// Lowest dynamic pressure that tips the rig over any edge, Pa, with the
-    /// edge index; `None` if wind from this direction cannot tip it.
+    /// Lowest dynamic pressure that tips the rig over any edge, Pa; `None`
+    /// if wind from this direction cannot tip it.
     #[must_use]
-    pub fn tip_pressure_pa(&self) -> Option<(f32, usize)> {
-        let mut best: Option<(f32, usize)> = None;
-        for (i, t) in self.terms.iter().enumerate() {
-            if let Some(q) = t.tip_pressure_pa() {
-                if best.is_none_or(|(b, _)| q < b) {
-                    best = Some((q, i));
-                }
-            }
-        }
-        best
+    pub fn tip_pressure_pa(&self) -> Option<f32> {
+        self.terms
+            .iter()
+            .filter_map(EdgeTerms::tip_pressure_pa)
+            .reduce(f32::min)
     }
 
-    /// Highest edge utilisation at dynamic pressure `q_pa`, with the edge index.
+    /// Highest edge utilisation at dynamic pressure `q_pa` (0 with no edge;
+    /// NaN if any edge's is: a figure that cannot be computed is never
+    /// passed over).
     #[must_use]
-    pub fn max_utilisation(&self, q_pa: f32) -> (f32, usize) {
-        let mut best = (0.0_f32, 0_usize);
-        for (i, t) in self.terms.iter().enumerate() {
+    pub fn max_utilisation(&self, q_pa: f32) -> f32 {
+        let mut best = 0.0_f32;
+        for t in &self.terms {
             let (o, s) = t.at(q_pa);
             let u = ratio(o, s);
-            if u > best.0 {
-                best = (u, i);
+            if u.is_nan() {
+                return f32::NAN;
             }
+            best = best.max(u);
         }
         best
     }
@@ -553,7 +551,7 @@ impl Rig {
             centre_of_gravity_m: placement.centre_of_gravity_m(),
             tip_wind_mps: loads
                 .tip_pressure_pa()
-                .map(|(qt, _)| c.air.speed_for_pressure_mps(qt)),
+                .map(|qt| c.air.speed_for_pressure_mps(qt)),
             slide_wind_mps: loads
                 .slide_pressure_pa(self.friction_coefficient())
                 .map(|qs| c.air.speed_for_pressure_mps(qs)),
@@ -571,7 +569,7 @@ impl Rig {
         let (neg_q, from) = scan_directions(|d| {
             Loads::new(&placement, d)
                 .tip_pressure_pa()
-                .map_or(-f32::MAX, |(q, _)| -q)
+                .map_or(-f32::MAX, |q| -q)
         });
         let tip = if neg_q <= -f32::MAX {
             None
@@ -595,7 +593,7 @@ impl Rig {
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
         Ok(scan_directions(|d| {
-            Loads::new(&placement, d).max_utilisation(q).0
+            Loads::new(&placement, d).max_utilisation(q)
         }))
     }
 
@@ -670,12 +668,23 @@ impl Rig {
             for (e, t) in edges.iter().zip(loads.terms()) {
                 let (o, s) = t.at(q);
                 let per_kg = -e.moment_nm(position_m, g);
-                if o > target * s && per_kg > 0.0 {
-                    need = need.max((o - target * s) / (target * per_kg));
+                if o > target * s {
+                    // Ballast that does not steady an edge over its target
+                    // (on a slope, placed high) cannot meet the target.
+                    need = if per_kg > 0.0 {
+                        need.max((o - target * s) / (target * per_kg))
+                    } else {
+                        f32::INFINITY
+                    };
                 }
             }
             need
         });
+        if !mass.is_finite() {
+            let mut e = Error::new(ErrorKind::Unreachable, Field::BallastPositionM);
+            e.value = position_m.z;
+            return Err(e);
+        }
         Ok(BallastNeed {
             mass_kg: mass,
             worst_from_rad: from,

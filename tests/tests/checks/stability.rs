@@ -554,3 +554,29 @@ fn utilisation_at_a_second_speed_refuses_negative_and_non_finite() {
     );
     assert_eq!(at(0.0), Some(0.0));
 }
+
+/// Ballast placed high on a slope pulls the rig downhill more than it holds
+/// it down: about the downhill edge its weight's moment W_b·(cosθ·d −
+/// sinθ·z) is overturning when tanθ > d/z. No amount of it meets the target,
+/// and the core says so instead of answering for the other edges (slope
+/// statics as in the slope checks of mobile cranes; common practice, no
+/// source). θ = 0.3 rad, d = 0.25 m, z = 1.0 m: tanθ = 0.31 > 0.25.
+#[test]
+fn ballast_that_cannot_help_is_refused() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 40.0, [0.0, 0.0, 0.8], 0.222, 1.5, 0.5)).unwrap();
+    let c = Conditions {
+        tilt: Tilt::new(0.3, deg_to_rad(180.0)).unwrap(),
+        ..Conditions::calm(altaz(0.0, 0.0))
+    };
+    let high = rig.ballast_needed(&c, 5.0, 0.8, standfast::Vec3::new(0.0, 0.0, 1.0));
+    assert_eq!(
+        high.unwrap_err().kind,
+        standfast::error::ErrorKind::Unreachable
+    );
+    // Low on the same slope it steadies every edge: a finite answer.
+    let low = rig
+        .ballast_needed(&c, 5.0, 0.8, standfast::Vec3::new(0.0, 0.0, 0.05))
+        .unwrap();
+    assert!(low.mass_kg.is_finite() && low.mass_kg > 0.0);
+}
