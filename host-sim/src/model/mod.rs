@@ -7,6 +7,7 @@
 //! compares their replays; [`charts`] computes the data the charts draw;
 //! [`figures`] is a verdict's figures in report units, the one
 //! verdict-shaped type the outputs share;
+//! [`story`] tells a replay's night at a glance (the headline);
 //! [`weigh`] finds a centre of gravity from scale readings. It reads the
 //! [`crate::input`] layer and calls the core.
 
@@ -15,5 +16,6 @@ pub mod charts;
 pub mod figures;
 pub mod replay;
 pub mod series;
+pub mod story;
 pub mod weigh;
 pub mod whatif;

@@ -19,7 +19,9 @@
 //!   and pier side (tube east when the log gives no side).
 
 use serde::Serialize;
-use standfast::guard::{AlertLevel, Event, Guard, Inputs, Verdict, WindSample};
+use standfast::guard::{
+    AlertCause, AlertLevel, Event, Guard, GuardConfig, Inputs, Verdict, WindSample,
+};
 use standfast::mount::{PierSide as MountPierSide, Pose};
 use standfast::sense::Millis;
 use standfast::sense::Mounting;
@@ -93,6 +95,85 @@ pub struct Approach {
     pub tip_wind_mps: Option<f32>,
     /// AlertLevel at that step.
     pub stage: AlertLevel,
+    /// Cover state held at that record (`None`: the logs do not say).
+    pub cover_fitted: Option<bool>,
+}
+
+/// The figures and inputs of one evaluation of the physics, kept so that a
+/// park request can say what changed (see [`StageChange::before`]).
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct Moment {
+    /// Seconds since the first record.
+    pub t_s: f64,
+    /// The verdict's figures, in report units.
+    #[serde(flatten)]
+    pub figures: Figures,
+    /// Cover state held at that record (`None`: the logs do not say).
+    pub cover_fitted: Option<bool>,
+    /// Mount pose of the figures.
+    pub pose: Pose,
+}
+
+impl Moment {
+    fn of(v: &Verdict, t_s: f64, cover_fitted: Option<bool>) -> Moment {
+        Moment {
+            t_s,
+            figures: Figures::of(v),
+            cover_fitted,
+            pose: v.pose,
+        }
+    }
+}
+
+/// A pose move counts as a slew (not tracking) when an angle changes by
+/// more than this between two evaluations, degrees: sidereal tracking
+/// (0.004 2 °/s) takes two minutes for it, longer than the guard's longest
+/// evaluation period ([`standfast::guard::MAX_EVALUATE_EVERY_S`], 60 s).
+pub const SLEW_DEG: f32 = 0.5;
+
+/// True when pose `b` is a slew away from pose `a`: another pose form or
+/// pier side, or an angle more than [`SLEW_DEG`] away.
+#[must_use]
+pub fn pose_moved(a: &Pose, b: &Pose) -> bool {
+    let side = |p: &Pose| match *p {
+        Pose::Equatorial { pier_side, .. } | Pose::Horizontal { pier_side, .. } => Some(pier_side),
+        Pose::Axes { .. } => None,
+    };
+    let (fa, a1, a2) = crate::model::series::pose_angles_deg(a);
+    let (fb, b1, b2) = crate::model::series::pose_angles_deg(b);
+    // A NaN angle is not near, so it counts as moved.
+    let near = |d: f32| d.abs() <= SLEW_DEG;
+    fa != fb || side(a) != side(b) || !near(a1 - b1) || !near(a2 - b2)
+}
+
+/// The guard's thresholds a replay's story quotes, from the rig file.
+/// Utilisations dimensionless (1.0 is the limit).
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct Limits {
+    /// Predicted overturning that requests a park.
+    pub park_utilisation: f32,
+    /// Overturning or sliding that raises the alarm.
+    pub alarm_utilisation: f32,
+    /// Drive utilisation that requests a park.
+    pub drive_park_utilisation: f32,
+    /// Tilt margin at or below which the alarm is raised, degrees.
+    pub tilt_margin_alarm_deg: f32,
+    /// The time the mount takes to park, seconds.
+    pub time_to_park_s: f32,
+}
+
+impl Limits {
+    /// The thresholds of guard configuration `g`.
+    #[must_use]
+    pub fn of(g: &standfast::guard::GuardConfig) -> Limits {
+        Limits {
+            park_utilisation: g.park_utilisation,
+            alarm_utilisation: g.alarm_utilisation,
+            drive_park_utilisation: g.drive_park_utilisation,
+            tilt_margin_alarm_deg: g.tilt_margin_alarm_rad.to_degrees(),
+            time_to_park_s: g.time_to_park_s,
+        }
+    }
 }
 
 /// A stage change seen in the replay.
@@ -108,6 +189,31 @@ pub struct StageChange {
     pub to: AlertLevel,
     /// What drove it (lower-case name).
     pub cause: String,
+    /// The cause itself.
+    #[serde(skip)]
+    pub cause_kind: AlertCause,
+    /// For a step up to `park_now` or `alarm`: the last evaluation before
+    /// the change (`None` before the first one, or for other changes).
+    #[serde(skip)]
+    pub before: Option<Moment>,
+    /// For a step up to `park_now` or `alarm`: the verdict of the change.
+    #[serde(skip)]
+    pub at: Option<Moment>,
+    /// For a step up to `park_now` or `alarm`: when the mount last slewed
+    /// ([`SLEW_DEG`]) to the pose it held, seconds since the first record
+    /// (`None`: it never slewed in the log).
+    #[serde(skip)]
+    pub pose_since_t_s: Option<f64>,
+}
+
+impl StageChange {
+    /// True for a step up to `park_now` or `alarm`: a park request (with
+    /// or without the alarm). Leaving `sensor_fault` is not one: the fault
+    /// had already requested the park.
+    #[must_use]
+    pub fn is_park_request(&self) -> bool {
+        self.to > self.from && matches!(self.to, AlertLevel::ParkNow | AlertLevel::Alarm)
+    }
 }
 
 /// A sensor fault raised in the replay.
@@ -172,6 +278,15 @@ pub struct RigReplay {
     /// Bounded time series for the HTML report (not in the JSON summary).
     #[serde(skip)]
     pub series: crate::model::series::Series,
+    /// The rig's thresholds (for the story; not in the JSON summary).
+    #[serde(skip)]
+    pub limits: Limits,
+    /// Intervals `(from, to)` in which the verdict had an active fault,
+    /// seconds since the first record, in time order (the first
+    /// [`MAX_KEPT_EVENTS`]); one still open at the end of the log ends at
+    /// its last record.
+    #[serde(skip)]
+    pub unhealthy: Vec<(f64, f64)>,
 }
 
 /// Count of one kind of log issue.
@@ -284,7 +399,7 @@ fn millis_since(t: Timestamp, t0: Timestamp) -> Millis {
     Millis(u64::try_from(ns / 1_000_000).unwrap_or(0))
 }
 
-fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64) -> Approach {
+fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64, cover: Option<bool>) -> Approach {
     let f = Figures::of(v);
     Approach {
         utilisation: u,
@@ -297,15 +412,25 @@ fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64) -> Approach {
         tilt_downhill_deg: f.tilt_downhill_deg,
         tip_wind_mps: f.tip_wind_mps,
         stage: v.level,
+        cover_fitted: cover,
     }
 }
 
-fn raise(slot: &mut Option<Approach>, u: Option<f32>, v: &Verdict, time: Timestamp, t_s: f64) {
+/// Where one verdict is taken: its record's time (UTC and seconds since
+/// the first record) and the cover state held then.
+#[derive(Clone, Copy)]
+struct At {
+    time: Timestamp,
+    t_s: f64,
+    cover: Option<bool>,
+}
+
+fn raise(slot: &mut Option<Approach>, u: Option<f32>, v: &Verdict, at: At) {
     let Some(u) = u.filter(|u| u.is_finite()) else {
         return;
     };
     if slot.as_ref().is_none_or(|a| u > a.utilisation) {
-        *slot = Some(approach(v, u, time, t_s));
+        *slot = Some(approach(v, u, at.time, at.t_s, at.cover));
     }
 }
 
@@ -320,10 +445,18 @@ struct Tracker {
     last_figures: [Option<f32>; 4],
     /// The guard has left its start-up `sensor_fault` at least once.
     judged: bool,
+    /// The last evaluation (taken only at evaluated steps).
+    last_eval: Option<Moment>,
+    /// When the mount last slewed, seconds since the first record.
+    last_slew_t_s: Option<f64>,
+    /// Since when the verdicts have had an active fault, if they have.
+    unhealthy_since: Option<f64>,
+    /// The last record's time, seconds since the first record.
+    last_t_s: f64,
 }
 
 impl Tracker {
-    fn new(file: &str, wind_gap_s: f64) -> Tracker {
+    fn new(file: &str, guard: &GuardConfig) -> Tracker {
         Tracker {
             report: RigReplay {
                 rig_file: file.to_owned(),
@@ -339,21 +472,86 @@ impl Tracker {
                 faults_not_kept: 0,
                 events_lost: 0,
                 events_lost_at: Vec::new(),
-                series: crate::model::series::Series::with_wind_gap(wind_gap_s),
+                series: crate::model::series::Series::with_wind_gap(f64::from(
+                    guard.wind.stale_after_s,
+                )),
+                limits: Limits::of(guard),
+                unhealthy: Vec::new(),
             },
             stage_s: [0.0; 5],
             // A guard starts unable to see (sensor_fault).
             last_stage: AlertLevel::SensorFault,
             last_figures: [None; 4],
             judged: false,
+            last_eval: None,
+            last_slew_t_s: None,
+            unhealthy_since: None,
+            last_t_s: 0.0,
         }
     }
 
-    fn take(&mut self, v: &Verdict, time: Timestamp, t_s: f64, dt_s: f64) {
+    /// A stage change at `at`; a park request keeps the last evaluation
+    /// before it, its own verdict and the time of the last slew.
+    fn stage_change(
+        &mut self,
+        v: &Verdict,
+        at: At,
+        from: AlertLevel,
+        to: AlertLevel,
+        cause: AlertCause,
+    ) {
+        let r = &mut self.report;
+        if r.stage_changes.len() >= MAX_KEPT_EVENTS {
+            r.stage_changes_not_kept += 1;
+            return;
+        }
+        let mut c = StageChange {
+            time: at.time.to_iso8601(3),
+            t_s: at.t_s,
+            from,
+            to,
+            cause: cause.name().to_owned(),
+            cause_kind: cause,
+            before: None,
+            at: None,
+            pose_since_t_s: None,
+        };
+        if c.is_park_request() {
+            c.before = self.last_eval;
+            c.at = Some(Moment::of(v, at.t_s, at.cover));
+            let slewed_now = self
+                .last_eval
+                .is_some_and(|e| v.evaluated && pose_moved(&e.pose, &v.pose));
+            c.pose_since_t_s = if slewed_now {
+                Some(at.t_s)
+            } else {
+                self.last_slew_t_s
+            };
+        }
+        r.stage_changes.push(c);
+    }
+
+    /// Per record, cheaply: whether the verdict has an active fault.
+    fn track_health(&mut self, v: &Verdict, t_s: f64) {
+        let active = !v.faults.is_empty();
+        match (active, self.unhealthy_since) {
+            (true, None) => self.unhealthy_since = Some(t_s),
+            (false, Some(from)) => {
+                self.unhealthy_since = None;
+                if self.report.unhealthy.len() < MAX_KEPT_EVENTS {
+                    self.report.unhealthy.push((from, t_s));
+                }
+            }
+            _ => {}
+        }
+    }
+
+    fn take(&mut self, v: &Verdict, at: At, dt_s: f64) {
         if let Some(s) = self.stage_s.get_mut(stage_index(self.last_stage)) {
             *s += dt_s;
         }
-        let r = &mut self.report;
+        self.last_t_s = at.t_s;
+        self.track_health(v, at.t_s);
         let figures = [
             v.overturning_utilisation,
             v.sliding_utilisation,
@@ -362,39 +560,30 @@ impl Tracker {
         ];
         // Equal (and not NaN) figures cannot beat the approach they set.
         if figures != self.last_figures {
+            let r = &mut self.report;
             self.last_figures = figures;
-            raise(&mut r.overturning, v.overturning_utilisation, v, time, t_s);
-            raise(&mut r.sliding, v.sliding_utilisation, v, time, t_s);
+            raise(&mut r.overturning, v.overturning_utilisation, v, at);
+            raise(&mut r.sliding, v.sliding_utilisation, v, at);
             for (i, slot) in r.drive.iter_mut().enumerate() {
                 raise(
                     slot,
                     v.drive_utilisation.and_then(|d| d.get(i).copied()),
                     v,
-                    time,
-                    t_s,
+                    at,
                 );
             }
         }
         for e in &v.events {
             match e {
                 Event::LevelChanged { from, to, cause } => {
-                    if r.stage_changes.len() < MAX_KEPT_EVENTS {
-                        r.stage_changes.push(StageChange {
-                            time: time.to_iso8601(3),
-                            t_s,
-                            from: *from,
-                            to: *to,
-                            cause: cause.name().to_owned(),
-                        });
-                    } else {
-                        r.stage_changes_not_kept += 1;
-                    }
+                    self.stage_change(v, at, *from, *to, *cause);
                 }
                 Event::FaultRaised(f) => {
+                    let r = &mut self.report;
                     if r.faults.len() < MAX_KEPT_EVENTS {
                         r.faults.push(FaultSeen {
-                            time: time.to_iso8601(3),
-                            t_s,
+                            time: at.time.to_iso8601(3),
+                            t_s: at.t_s,
                             fault: f.to_string(),
                             kind: *f,
                         });
@@ -405,10 +594,19 @@ impl Tracker {
                 Event::NewHighUtilisation { .. } => {}
             }
         }
+        // Only at evaluations (the figures are fresh): the moment a later
+        // park request compares with, and the slews.
+        if v.evaluated {
+            if self.last_eval.is_some_and(|e| pose_moved(&e.pose, &v.pose)) {
+                self.last_slew_t_s = Some(at.t_s);
+            }
+            self.last_eval = Some(Moment::of(v, at.t_s, at.cover));
+        }
+        let r = &mut self.report;
         if v.events_lost > 0 {
             r.events_lost += u64::from(v.events_lost);
             if r.events_lost_at.len() < MAX_KEPT_EVENTS {
-                r.events_lost_at.push((t_s, v.events_lost));
+                r.events_lost_at.push((at.t_s, v.events_lost));
             }
         }
         if !self.judged && v.level != AlertLevel::SensorFault {
@@ -427,6 +625,11 @@ impl Tracker {
             .zip(self.stage_s)
             .map(|(s, seconds)| StageTime { stage: *s, seconds })
             .collect();
+        if let Some(from) = self.unhealthy_since {
+            if self.report.unhealthy.len() < MAX_KEPT_EVENTS {
+                self.report.unhealthy.push((from, self.last_t_s));
+            }
+        }
         self.report
     }
 }
@@ -539,7 +742,12 @@ fn take_batch(
             let Some(v) = vs.next() else {
                 return Ok(());
             };
-            tr.take(v, s.time, s.t_s, s.dt_s);
+            let at = At {
+                time: s.time,
+                t_s: s.t_s,
+                cover: s.cover_fitted,
+            };
+            tr.take(v, at, s.dt_s);
             tr.report
                 .series
                 .push(s.t_s, v, s.wind_speed_mps, s.cover_fitted);
@@ -646,7 +854,7 @@ pub fn replay(
     let mut guards = start_guards(rigs)?;
     let mut trackers: Vec<Tracker> = rigs
         .iter()
-        .map(|r| Tracker::new(&r.file, f64::from(r.guard.wind.stale_after_s)))
+        .map(|r| Tracker::new(&r.file, &r.guard))
         .collect();
     let mut t0: Option<Timestamp> = None;
     let mut last: Option<Timestamp> = None;

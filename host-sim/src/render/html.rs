@@ -17,6 +17,11 @@ h3 { font-size: 1.1em; margin-top: 1.2em; }
 .cautions h2 { border: none; margin-top: 0.2em; color: #8c2412; }
 .cautions li { margin: 0.25em 0; font-weight: bold; }
 .note { color: #505862; font-size: 0.92em; }
+.headline { border-left: 6px solid #1f4e79; background: #f2f6fa; padding: 0.4em 1.2em; margin: 1em 0; }
+.headline h2 { border: none; margin-top: 0.2em; }
+.headline li { margin: 0.5em 0; }
+.headline .head { font-weight: bold; margin: 0; }
+.headline .detail { margin: 0.1em 0 0 1em; }
 table { border-collapse: collapse; margin: 0.6em 0; font-size: 0.92em; }
 th, td { border: 1px solid #c8ccd2; padding: 0.25em 0.6em; text-align: left; vertical-align: top; }
 th { background: #eef1f4; }
@@ -126,6 +131,24 @@ impl Page {
             self.body.push_str("</tr>");
         }
         self.body.push_str("</tbody></table>");
+    }
+
+    /// The headline: a section with a heading and an ordered list of
+    /// items, each a head line in bold and its detail lines below.
+    pub fn headline(&mut self, heading: &str, items: &[(String, Vec<String>)]) {
+        let _ = write!(
+            self.body,
+            r#"<section class="headline"><h2>{}</h2><ol>"#,
+            esc(heading)
+        );
+        for (head, details) in items {
+            let _ = write!(self.body, r#"<li><p class="head">{}</p>"#, esc(head));
+            for d in details {
+                let _ = write!(self.body, r#"<p class="detail">{}</p>"#, esc(d));
+            }
+            self.body.push_str("</li>");
+        }
+        self.body.push_str("</ol></section>");
     }
 
     /// The cautions, in a box that stands out.

@@ -3,6 +3,7 @@
 //! opens a file; the [`crate::commands`] layer writes what it returns.
 //!
 //! [`summary`] (the replay's text and JSON, with the what-if comparison),
+//! [`headline`] (the night's story, first in the summary and the report),
 //! [`whatif`] (the comparison table), [`assess`] (the assessment's text and
 //! JSON), [`weigh`] (the weighing's text and JSON), [`verdicts`] (the
 //! verdict CSV), [`event_lines`] (the firmware example's event lines),
@@ -13,6 +14,7 @@ pub mod assess;
 pub mod bridge_lines;
 pub mod clock;
 pub mod event_lines;
+pub mod headline;
 pub mod html;
 pub mod palette;
 pub mod report;

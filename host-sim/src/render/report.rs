@@ -657,6 +657,17 @@ fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
 #[must_use]
 pub fn replay_html(rep: &ReplayReport, charts: &[RigCharts]) -> String {
     let mut page = Page::new("Standfast replay report");
+    let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+    let stories = crate::model::story::tell(rep);
+    for st in &stories {
+        let items: Vec<(String, Vec<String>)> =
+            crate::render::headline::items(st, clock.as_ref(), rep.duration_s)
+                .into_iter()
+                .map(|i| (i.head, i.details))
+                .collect();
+        let heading = crate::render::headline::title(st, clock.as_ref(), stories.len() > 1);
+        page.headline(heading.trim_end_matches(':'), &items);
+    }
     page.cautions(CAUTIONS);
     page.h2("Summary");
     page.p(&format!(

@@ -1,8 +1,11 @@
 //! A replay's findings for a person (text) or a program (JSON).
 //!
-//! Composed of parts: the findings, then with two or more rigs the
+//! Composed of parts: the headline ([`crate::render::headline`], the
+//! night's story from [`crate::model::story`]), the findings, then with two or more rigs the
 //! side-by-side comparison ([`crate::render::whatif`]), then the cautions of
-//! [`crate::cautions::CAUTIONS`]. The JSON carries the report's fields, a
+//! [`crate::cautions::CAUTIONS`]. The JSON carries a `headline` field
+//! first (the story as data: times ISO 8601 UTC and seconds since the
+//! first record, with the logs' local offset), the report's fields, a
 //! `comparison` field with two or more rigs, and a `cautions` field.
 
 use std::io::Write;
@@ -14,7 +17,9 @@ use crate::cautions::CAUTIONS;
 use crate::input::error::Error;
 use crate::model::assess::pose_words;
 use crate::model::replay::{Approach, ReplayReport};
+use crate::model::story::{tell, RigStory};
 use crate::model::whatif::{compare, Comparison};
+use crate::render::clock::Clock;
 use crate::render::whatif::comparison_text;
 
 fn stdout_err(e: std::io::Error) -> Error {
@@ -51,12 +56,22 @@ fn approach_text(label: &str, a: Option<&Approach>) -> String {
 /// two or more rigs, and the cautions.
 #[must_use]
 pub fn text(rep: &ReplayReport) -> String {
-    let mut s = findings_text(rep);
+    let mut s = headline_text(rep);
+    s.push('\n');
+    s.push_str(&findings_text(rep));
     if rep.rigs.len() >= 2 {
         s.push_str(&comparison_text(&compare(rep)));
     }
     s.push_str(&cautions_text());
     s
+}
+
+/// The headline as the text summary starts with it: per rig, the night's
+/// story in local time.
+#[must_use]
+pub fn headline_text(rep: &ReplayReport) -> String {
+    let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+    crate::render::headline::text(&tell(rep), clock.as_ref(), rep.duration_s)
 }
 
 /// The cautions as the text summary ends with them.
@@ -147,8 +162,17 @@ pub fn findings_text(rep: &ReplayReport) -> String {
     s
 }
 
+/// The headline as data: the logs' local offset and each rig's story.
+#[derive(Serialize)]
+struct HeadlineOut {
+    /// Local offset east of UTC the logs carry, seconds (`null`: none).
+    local_offset_s: Option<i32>,
+    rigs: Vec<RigStory>,
+}
+
 #[derive(Serialize)]
 struct JsonOut<'a> {
+    headline: HeadlineOut,
     #[serde(flatten)]
     report: &'a ReplayReport,
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -165,6 +189,10 @@ struct JsonOut<'a> {
 pub fn json(rep: &ReplayReport) -> Result<String, Error> {
     let cmp = (rep.rigs.len() >= 2).then(|| compare(rep));
     serde_json::to_string_pretty(&JsonOut {
+        headline: HeadlineOut {
+            local_offset_s: rep.local_offset_s,
+            rigs: tell(rep),
+        },
         report: rep,
         comparison: cmp.as_ref(),
         cautions: CAUTIONS,
