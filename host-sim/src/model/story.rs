@@ -492,8 +492,10 @@ mod tests {
     /// for `active_s`, the guard holding sensor_fault 60 s longer.
     fn night(silent_s: f64, active_s: f64) -> RigReplay {
         use AlertLevel::{ParkNow, SensorFault, Watch};
-        let mut limits_cfg = standfast::guard::GuardConfig::default();
-        limits_cfg.time_to_park_s = 90.0;
+        let limits_cfg = standfast::guard::GuardConfig {
+            time_to_park_s: 90.0,
+            ..standfast::guard::GuardConfig::default()
+        };
         let end = 2000.0 + active_s + 60.0;
         RigReplay {
             rig_file: "rig.toml".to_owned(),

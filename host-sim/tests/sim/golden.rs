@@ -11,7 +11,7 @@ use std::process::Command;
 /// An invented 20-minute night: level rig (accelerometer +1 g on z with a
 /// little noise at 2 Hz), wind from the west veering ±1°, ramping from 2 m/s
 /// by 0.03 m/s each second (to 38 m/s).
-fn write_log(dir: &Path) {
+pub fn write_log(dir: &Path) {
     let mut csv = String::from("t,ax,ay,az,speed,dir\n");
     for i in 0..2400_u32 {
         let t = 1_700_000_000.0 + f64::from(i) * 0.5;

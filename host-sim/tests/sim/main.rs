@@ -13,6 +13,7 @@ mod firmware_replay;
 mod fuzz_seeds;
 mod golden;
 mod hardware_assess;
+mod headline;
 mod located;
 mod log_merge;
 mod log_time;

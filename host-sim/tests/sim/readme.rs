@@ -1,4 +1,5 @@
-//! The top-level README's rig file is the demo rig, and it loads.
+//! The top-level README's rig file is the demo rig, and it loads; its
+//! demo headline is the one the demo prints (tests/golden/demo-headline.txt).
 
 use standfast_sim::input::located::SourceText;
 use standfast_sim::input::rigfile;
@@ -29,4 +30,20 @@ fn readme_rig_file_loads() {
     let src = SourceText::new("README.md", readme_rig());
     let loaded = rigfile::load_source(&src).expect("the README's rig file loads");
     assert!(loaded.rig.parts().len() > 5);
+}
+
+#[test]
+fn readme_demo_headline_is_the_golden_one() {
+    let readme = include_str!("../../../README.md");
+    let golden = include_str!("../golden/demo-headline.txt");
+    let start = readme
+        .find("```text\nThe night in brief")
+        .expect("README shows the headline")
+        + "```text\n".len();
+    let close = readme[start..].find("```").expect("closed block");
+    assert_eq!(
+        &readme[start..start + close],
+        golden,
+        "README and tests/golden/demo-headline.txt differ"
+    );
 }
