@@ -7,6 +7,7 @@
 
 use standfast::guard::AlertLevel;
 
+use crate::input::log::Timestamp;
 use crate::model::assess::pose_words;
 use crate::model::replay::Approach;
 use crate::model::story::{Change, Closest, FaultSpell, ParkRequest, RigStory, Told};
@@ -87,12 +88,30 @@ pub fn when(clock: Option<&Clock>, t_s: f64) -> String {
     }
 }
 
-/// The heading of a rig's headline.
+/// Local date and time of `t_s` to the minute: `2025-11-14 22:00`.
+fn local_stamp(c: &Clock, t_s: f64) -> String {
+    let iso = Timestamp::from_unix_s(c.local_s(t_s)).to_iso8601(0);
+    iso.get(..16).unwrap_or(&iso).replace('T', " ")
+}
+
+/// The heading of a rig's headline: the zone and the log's span in local
+/// dates, so that the bare times below read without doubt.
 #[must_use]
-pub fn title(story: &RigStory, clock: Option<&Clock>, several: bool) -> String {
+pub fn title(story: &RigStory, clock: Option<&Clock>, several: bool, end_s: f64) -> String {
     let zone = clock.map_or_else(
         || "times since the first record".to_owned(),
-        |c| format!("local time {}", c.zone_text()),
+        |c| {
+            let zone = if c.offset_s == 0 {
+                "times UTC".to_owned()
+            } else {
+                format!("local time {}", c.zone_text())
+            };
+            format!(
+                "{zone}, {} to {}",
+                local_stamp(c, 0.0),
+                local_stamp(c, end_s)
+            )
+        },
     );
     if several {
         format!("The night in brief, rig {} ({zone}):", story.rig_file)
@@ -374,7 +393,7 @@ pub fn text(stories: &[RigStory], clock: Option<&Clock>, end_s: f64) -> String {
     let mut s = String::new();
     let several = stories.len() > 1;
     for st in stories {
-        s.push_str(&title(st, clock, several));
+        s.push_str(&title(st, clock, several, end_s));
         s.push('\n');
         for it in items(st, clock, end_s) {
             s.push_str(&format!("  {}\n", it.head));

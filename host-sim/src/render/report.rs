@@ -665,7 +665,8 @@ pub fn replay_html(rep: &ReplayReport, charts: &[RigCharts]) -> String {
                 .into_iter()
                 .map(|i| (i.head, i.details))
                 .collect();
-        let heading = crate::render::headline::title(st, clock.as_ref(), stories.len() > 1);
+        let heading =
+            crate::render::headline::title(st, clock.as_ref(), stories.len() > 1, rep.duration_s);
         page.headline(heading.trim_end_matches(':'), &items);
     }
     page.cautions(CAUTIONS);

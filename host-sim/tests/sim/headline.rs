@@ -56,7 +56,10 @@ fn demo_night_headline_says_why_and_when_the_rig_was_parked() {
     assert_eq!(offset, "+01:00");
 
     let lines: Vec<&str> = text.lines().collect();
-    assert_eq!(lines[0], "The night in brief (local time UTC+01:00):");
+    assert_eq!(
+        lines[0],
+        "The night in brief (local time UTC+01:00, 2025-11-14 22:00 to 2025-11-15 07:00):"
+    );
     // First item: the park request, its local time, its cause and numbers.
     assert!(
         lines[1].starts_with("  06:21:00 (05:21:00 UTC) park requested (clear -> park_now"),
@@ -122,7 +125,7 @@ fn demo_night_headline_says_why_and_when_the_rig_was_parked() {
             .descendants()
             .find(|n| n.has_tag_name("h2"))
             .and_then(|n| n.text()),
-        Some("The night in brief (local time UTC+01:00)")
+        Some(lines[0].trim_end_matches(':'))
     );
     let heads: Vec<&str> = section
         .descendants()
