@@ -17,7 +17,7 @@ use crate::render::clock::Clock;
 pub const MAX_TOLD_REQUESTS: usize = 10;
 /// Most fault spells below the physics the text tells.
 pub const MAX_TOLD_FAULTS: usize = 5;
-/// Most faults quoted for one spell.
+/// Most kinds of fault quoted for one spell.
 const MAX_QUOTED_FAULTS: usize = 3;
 
 /// One item of the headline: its head line and its detail lines.
@@ -147,14 +147,16 @@ pub fn items(story: &RigStory, clock: Option<&Clock>, end_s: f64) -> Vec<Item> {
         .iter()
         .filter(|t| matches!(t, Told::Fault(f) if told_below(f, limit)))
         .count();
-    if requests_all == 0 && story.judged {
-        out.push(Item {
-            head: "No park request: the guard stayed below park_now once it had readings."
-                .to_owned(),
-            details: Vec::new(),
-        });
-    }
+    // Where the park requests are told (after the faults that outrank
+    // them), a night without one says so.
+    let mut at_requests = false;
     for t in &story.told {
+        if !at_requests && !matches!(t, Told::Fault(f) if f.outranks_physics) {
+            at_requests = true;
+            if requests_all == 0 && story.judged {
+                out.push(no_request());
+            }
+        }
         match t {
             Told::ParkRequest(p) => {
                 requests += 1;
@@ -179,6 +181,9 @@ pub fn items(story: &RigStory, clock: Option<&Clock>, end_s: f64) -> Vec<Item> {
             }
         }
     }
+    if !at_requests && requests_all == 0 && story.judged {
+        out.push(no_request());
+    }
     out.push(Item {
         head: format!(
             "{} end of the log: stage {}.",
@@ -195,6 +200,41 @@ pub fn items(story: &RigStory, clock: Option<&Clock>, end_s: f64) -> Vec<Item> {
 fn told_below(f: &FaultSpell, limit_s: f64) -> bool {
     let normal_start = f.start_up && f.unwatched_s <= limit_s;
     !f.outranks_physics && !normal_start
+}
+
+fn no_request() -> Item {
+    Item {
+        head: "No park request from the figures (no step up to park_now or alarm).".to_owned(),
+        details: Vec::new(),
+    }
+}
+
+/// The faults of a spell, each description once with its count, the first
+/// [`MAX_QUOTED_FAULTS`] of them.
+fn quoted_faults(faults: &[String]) -> String {
+    let mut seen: Vec<(&str, usize)> = Vec::new();
+    for f in faults {
+        match seen.iter_mut().find(|(d, _)| *d == f.as_str()) {
+            Some((_, n)) => *n += 1,
+            None => seen.push((f, 1)),
+        }
+    }
+    let mut out: Vec<String> = seen
+        .iter()
+        .take(MAX_QUOTED_FAULTS)
+        .map(|(d, n)| {
+            if *n > 1 {
+                format!("{d} ({n} times)")
+            } else {
+                (*d).to_owned()
+            }
+        })
+        .collect();
+    if seen.len() > MAX_QUOTED_FAULTS {
+        let n = seen.len() - MAX_QUOTED_FAULTS;
+        out.push(format!("{n} other kind{}", if n == 1 { "" } else { "s" }));
+    }
+    out.join("; ")
 }
 
 fn more(n: usize, what: &str) -> Item {
@@ -345,16 +385,16 @@ fn closest_item(c: &Closest, clock: Option<&Clock>) -> Item {
 }
 
 fn fault_item(f: &FaultSpell, clock: Option<&Clock>, limit_s: f64) -> Item {
-    let mut quoted: Vec<String> = f.faults.iter().take(MAX_QUOTED_FAULTS).cloned().collect();
-    if f.faults.len() > MAX_QUOTED_FAULTS {
-        quoted.push(format!("{} more", f.faults.len() - MAX_QUOTED_FAULTS));
-    }
     let what = if f.start_up {
         "start-up, no readings yet"
     } else {
         "sensor fault"
     };
-    let head = format!("{} {what}: {}.", when(clock, f.t_s), quoted.join("; "));
+    let head = format!(
+        "{} {what}: {}.",
+        when(clock, f.t_s),
+        quoted_faults(&f.faults)
+    );
     let rank = if f.start_up {
         "the start-up is never ranked above the physics".to_owned()
     } else if f.outranks_physics {
@@ -369,7 +409,7 @@ fn fault_item(f: &FaultSpell, clock: Option<&Clock>, limit_s: f64) -> Item {
         )
     };
     let held = if f.open_at_end {
-        format!("to the end of the log, {}", hms(f.length_s))
+        format!("{}, to the end of the log", hms(f.length_s))
     } else {
         hms(f.length_s)
     };
@@ -408,6 +448,14 @@ pub fn text(stories: &[RigStory], clock: Option<&Clock>, end_s: f64) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn repeated_faults_are_quoted_once_with_their_count() {
+        let f = |s: &str| s.to_owned();
+        let faults = [f("a"), f("b"), f("a"), f("c"), f("d"), f("a")];
+        assert_eq!(quoted_faults(&faults), "a (3 times); b; c; 1 other kind");
+        assert_eq!(quoted_faults(&[f("a")]), "a");
+    }
 
     #[test]
     fn durations_are_hours_minutes_seconds() {
