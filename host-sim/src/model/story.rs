@@ -37,6 +37,7 @@ use standfast::guard::{AlertCause, AlertLevel};
 use standfast::mount::Pose;
 use standfast::sense::Fault;
 
+use crate::input::log::Timestamp;
 use crate::model::replay::{pose_moved, Approach, Limits, Moment, ReplayReport, RigReplay};
 
 /// Beside a cover change or a slew, a gust change smaller than this is not
@@ -125,6 +126,8 @@ pub struct ParkRequest {
     /// When the mount last slewed to that pose, seconds since the first
     /// record (`None`: not in the log).
     pub pose_since_t_s: Option<f64>,
+    /// The same, ISO 8601 UTC.
+    pub pose_since_time: Option<String>,
 }
 
 /// The closest approach to tipping, with the alarm threshold for scale.
@@ -152,6 +155,8 @@ pub struct FaultSpell {
     pub faults: Vec<String>,
     /// Start of the unwatched time, seconds since the first record.
     pub unwatched_from_t_s: f64,
+    /// The same, ISO 8601 UTC (`None` without a readable first time).
+    pub unwatched_from_time: Option<String>,
     /// Unwatched time, seconds (module docs).
     pub unwatched_s: f64,
     /// True for the guard's start-up (the spell it starts in).
@@ -207,6 +212,14 @@ pub fn tell(rep: &ReplayReport) -> Vec<RigStory> {
         .collect()
 }
 
+/// `t_s` seconds after the first record `start` (ISO 8601, as the replay
+/// writes it), ISO 8601 UTC to the millisecond; `None` when `start` does
+/// not read.
+fn iso_at(start: &str, t_s: f64) -> Option<String> {
+    let t0 = crate::input::log::time::parse_iso8601(start, 0).ok()?;
+    Some(Timestamp::from_unix_s(t0.unix_s() + t_s).to_iso8601(3))
+}
+
 fn rig_story(r: &RigReplay, start: &str, end_s: f64) -> RigStory {
     let limit_s = f64::from(r.limits.time_to_park_s);
     let spells = fault_spells(r, start, end_s, limit_s);
@@ -220,7 +233,7 @@ fn rig_story(r: &RigReplay, start: &str, end_s: f64) -> RigStory {
         r.stage_changes
             .iter()
             .filter(|c| c.is_park_request())
-            .map(|c| Told::ParkRequest(park_request(c, &r.limits))),
+            .map(|c| Told::ParkRequest(park_request(c, &r.limits, start))),
     );
     if let Some(a) = &r.overturning {
         told.push(Told::ClosestApproach(Closest {
@@ -339,7 +352,7 @@ pub fn changes(b: &Moment, a: &Moment, predicted: bool) -> Vec<Change> {
     out
 }
 
-fn park_request(c: &crate::model::replay::StageChange, l: &Limits) -> ParkRequest {
+fn park_request(c: &crate::model::replay::StageChange, l: &Limits, start: &str) -> ParkRequest {
     let (figure, value, threshold) = figure_of(c.cause_kind, c.to, c.at.as_ref(), l);
     let (_, value_before, _) = figure_of(c.cause_kind, c.to, c.before.as_ref(), l);
     let changed = match (&c.before, &c.at) {
@@ -364,6 +377,7 @@ fn park_request(c: &crate::model::replay::StageChange, l: &Limits) -> ParkReques
         cover_fitted: c.at.and_then(|m| m.cover_fitted),
         pose: c.at.map(|m| m.pose),
         pose_since_t_s: c.pose_since_t_s,
+        pose_since_time: c.pose_since_t_s.and_then(|t| iso_at(start, t)),
     }
 }
 
@@ -429,6 +443,7 @@ fn fault_spells(r: &RigReplay, first: &str, end_s: f64, limit_s: f64) -> Vec<Fau
                 open_at_end: end.is_none(),
                 faults: raised.iter().map(|f| f.fault.clone()).collect(),
                 unwatched_from_t_s: from,
+                unwatched_from_time: iso_at(first, from),
                 unwatched_s,
                 start_up,
                 outranks_physics: outranks_physics(start_up, unwatched_s, limit_s),
@@ -539,7 +554,7 @@ mod tests {
     fn a_short_drop_out_is_told_after_the_park_request() {
         // Silent 15 s before the fault, active 31 s: unwatched 46 s, as the
         // demo night's anemometer gap (03:29:59 to 03:30:45 UTC in its log).
-        let st = rig_story(&night(15.0, 31.0), "t0", 3600.0);
+        let st = rig_story(&night(15.0, 31.0), "2025-11-14T21:00:00.000Z", 3600.0);
         assert!(st.judged);
         assert_eq!(kinds(&st), ["request", "start-up", "fault"]);
         let Some(Told::Fault(f)) = st.told.last() else {
@@ -547,6 +562,11 @@ mod tests {
         };
         assert!((f.unwatched_s - 46.0).abs() < 1e-9);
         assert!((f.unwatched_from_t_s - 1985.0).abs() < 1e-9);
+        // 21:00:00 + 1 985 s = 21:33:05 UTC.
+        assert_eq!(
+            f.unwatched_from_time.as_deref(),
+            Some("2025-11-14T21:33:05.000Z")
+        );
         assert!((f.length_s - 91.0).abs() < 1e-9);
         assert!(!f.outranks_physics);
     }
