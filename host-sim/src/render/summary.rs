@@ -11,15 +11,17 @@
 use std::io::Write;
 
 use serde::Serialize;
+use standfast::guard::AlertLevel;
 use standfast::mount::Pose;
 
 use crate::cautions::CAUTIONS;
 use crate::input::error::Error;
 use crate::model::assess::pose_words;
-use crate::model::replay::{Approach, ReplayReport};
+use crate::model::replay::{Approach, ReplayReport, RigReplay};
 use crate::model::story::{tell, RigStory};
 use crate::model::whatif::{compare, Comparison};
 use crate::render::clock::Clock;
+use crate::render::headline::hms;
 use crate::render::whatif::comparison_text;
 
 fn stdout_err(e: std::io::Error) -> Error {
@@ -28,6 +30,42 @@ fn stdout_err(e: std::io::Error) -> Error {
 
 fn pose_text(p: &Pose) -> String {
     pose_words(p)
+}
+
+/// An integer with a comma between groups of three digits ("4,320,000").
+fn thousands(n: u64) -> String {
+    let digits = n.to_string();
+    let mut out = String::with_capacity(digits.len() + digits.len() / 3);
+    for (i, c) in digits.chars().enumerate() {
+        if i > 0 && (digits.len() - i) % 3 == 0 {
+            out.push(',');
+        }
+        out.push(c);
+    }
+    out
+}
+
+/// Seconds the rig spent at `level`.
+fn seconds_in(r: &RigReplay, level: AlertLevel) -> f64 {
+    r.stage_time
+        .iter()
+        .filter(|t| t.stage == level)
+        .map(|t| t.seconds)
+        .sum()
+}
+
+/// The highest level the physics raised: the highest of clear, watch,
+/// park_now and alarm that the rig spent time in or ended in; `None` when
+/// the guard never judged the rig.
+fn highest_physics(r: &RigReplay) -> Option<AlertLevel> {
+    [
+        AlertLevel::Alarm,
+        AlertLevel::ParkNow,
+        AlertLevel::Watch,
+        AlertLevel::Clear,
+    ]
+    .into_iter()
+    .find(|l| seconds_in(r, *l) > 0.0 || r.final_stage == *l)
 }
 
 fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
@@ -90,12 +128,12 @@ pub fn cautions_text() -> String {
 pub fn findings_text(rep: &ReplayReport) -> String {
     let mut s = String::new();
     s.push_str(&format!(
-        "Replayed {} merged records ({} log rows) from {} to {} ({:.0} s).\n",
-        rep.records,
-        rep.rows,
+        "Replayed {} merged records ({} log rows) from {} to {} ({}).\n",
+        thousands(rep.records),
+        thousands(rep.rows),
         rep.start.as_deref().unwrap_or("-"),
         rep.end.as_deref().unwrap_or("-"),
-        rep.duration_s
+        hms(rep.duration_s)
     ));
     s.push_str(&format!("Log issues: {}", rep.issues_total));
     if rep.issues_total > 0 {
@@ -118,6 +156,13 @@ pub fn findings_text(rep: &ReplayReport) -> String {
             r.highest_stage.name(),
             r.final_stage.name()
         ));
+        if r.highest_stage == AlertLevel::SensorFault {
+            s.push_str(&format!(
+                "  highest stage from the physics {}; {} in sensor_fault in all, the start-up included (the headline says how long the rig went unwatched)\n",
+                highest_physics(r).map_or("none (the guard never judged the rig)", AlertLevel::name),
+                hms(seconds_in(r, AlertLevel::SensorFault)),
+            ));
+        }
         s.push_str("Closest approach:\n");
         s.push_str(&approach_text("overturning", r.overturning.as_ref()));
         s.push_str(&approach_text("sliding", r.sliding.as_ref()));
@@ -126,9 +171,9 @@ pub fn findings_text(rep: &ReplayReport) -> String {
                 s.push_str(&approach_text(&format!("drive axis {}", i + 1), d.as_ref()));
             }
         }
-        s.push_str("Time per stage:\n");
+        s.push_str("Time per stage (h:mm:ss):\n");
         for t in &r.stage_time {
-            s.push_str(&format!("  {:<13}{:>9.0} s\n", t.stage.name(), t.seconds));
+            s.push_str(&format!("  {:<13}{:>9}\n", t.stage.name(), hms(t.seconds)));
         }
         s.push_str(&format!("Stage changes ({}):\n", r.stage_changes.len()));
         for c in &r.stage_changes {
@@ -211,4 +256,18 @@ pub fn write(rep: &ReplayReport, as_json: bool, out: &mut dyn Write) -> Result<(
         out.write_all(b"\n").map_err(stdout_err)?;
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::thousands;
+
+    #[test]
+    fn thousands_are_grouped_by_three() {
+        assert_eq!(thousands(0), "0");
+        assert_eq!(thousands(999), "999");
+        assert_eq!(thousands(1_000), "1,000");
+        assert_eq!(thousands(4_320_000), "4,320,000");
+        assert_eq!(thousands(12_345_678_901), "12,345,678,901");
+    }
 }

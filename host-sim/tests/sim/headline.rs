@@ -91,6 +91,11 @@ fn demo_night_headline_says_why_and_when_the_rig_was_parked() {
     assert!(1 < closest && closest < fault, "{text}");
     assert!(lines[fault + 1].contains("unwatched 0:00:46 from 04:29:59"));
     assert!(lines[fault + 2].contains("for 0:01:31"));
+    // The findings below name the physics' highest level beside the fault.
+    assert!(
+        text.contains("  highest stage from the physics park_now; 0:02:34 in sensor_fault in all, the start-up included"),
+        "{text}"
+    );
 
     // The whole headline block, pinned.
     let block: String = lines
