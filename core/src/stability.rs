@@ -384,7 +384,8 @@ fn edge_load(e: &Edge, t: &EdgeTerms, q_pa: f32) -> EdgeLoad {
 
 /// Scans a full turn of directions for the largest value of `f` (coarse steps
 /// of 5°, then golden-section refinement around the best), returning the value
-/// and the direction in radians [0, 2π).
+/// and the direction in radians [0, 2π); on a tie the first direction
+/// scanned from north.
 pub(crate) fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
     let step = TAU / DIRECTION_STEPS as f32;
     let mut best = (f32::NEG_INFINITY, 0.0_f32);
@@ -802,6 +803,34 @@ mod tests {
         assert_eq!(ratio(0.0, 0.0), 1.0);
         assert!(ratio(f32::NAN, 1.0).is_nan());
         assert!(ratio(1.0, f32::NAN).is_nan());
+    }
+
+    /// Angular distance between two directions, radians, in [0, π].
+    fn apart(a: f32, b: f32) -> f32 {
+        let d = math::wrap_tau(a - b);
+        d.min(TAU - d)
+    }
+
+    #[test]
+    fn the_scan_finds_a_narrow_peak_between_coarse_steps() {
+        // A narrow peak (height 1, half-width 0.1 rad) at 200.3°, between
+        // the 5° steps, and a broad lower one (0.5) at 40°.
+        let peak = 200.3_f32.to_radians();
+        let broad = 40.0_f32.to_radians();
+        let f = |d: f32| {
+            let n = 1.0 - (apart(d, peak) / 0.1) * (apart(d, peak) / 0.1);
+            let b = 0.5 - 0.1 * apart(d, broad) * apart(d, broad);
+            n.max(b)
+        };
+        let (v, at) = scan_directions(f);
+        assert!(apart(at, peak) < 1e-3, "found {}°", at.to_degrees());
+        assert!(v > 1.0 - 1e-4, "{v}");
+    }
+
+    #[test]
+    fn the_scan_answers_north_for_a_flat_function() {
+        // Ties go to the first direction scanned, north.
+        assert_eq!(scan_directions(|_| 2.0), (2.0, 0.0));
     }
 
     #[test]
