@@ -828,6 +828,28 @@ mod tests {
     }
 
     #[test]
+    fn the_scan_finds_a_narrow_peak_wherever_it_lies() {
+        // A peak of half-width 0.05 rad (2.9°) at every whole degree, beside
+        // a low broad one: the 5° steps always land within 2.5° of it (value
+        // above 0.24, over the broad 0.1), so the scan must find it each
+        // time, to 0.06° after refinement.
+        for k in 0..360 {
+            let peak = (k as f32 + 0.5).to_radians();
+            let f = |d: f32| {
+                let x = apart(d, peak) / 0.05;
+                (1.0 - x * x).max(0.1 - 0.01 * apart(d, peak + 2.0))
+            };
+            let (v, at) = scan_directions(f);
+            assert!(
+                apart(at, peak) < 1e-3,
+                "peak at {k}.5°: found {}°",
+                at.to_degrees()
+            );
+            assert!(v > 1.0 - 1e-3, "peak at {k}.5°: {v}");
+        }
+    }
+
+    #[test]
     fn the_scan_answers_north_for_a_flat_function() {
         // Ties go to the first direction scanned, north.
         assert_eq!(scan_directions(|_| 2.0), (2.0, 0.0));
