@@ -580,3 +580,29 @@ fn ballast_that_cannot_help_is_refused() {
         .unwrap();
     assert!(low.mass_kg.is_finite() && low.mass_kg > 0.0);
 }
+
+/// The ballast and tie-down sizing holds for a very light rig too, where an
+/// edge's stabilising moment is under 1 N·m: 0.1 kg on a tripod of 0.5 m
+/// foot circle (W·r = 0.245 N·m), a small sail (C_d·A = 0.02 m² at 0.3 m),
+/// a design gust at utilisation 0.9 against a target of 0.8. Same closed
+/// forms as for the 40 kg rig: about 12.5 g of ballast on the axis, or
+/// 41 mN on every foot. (Statics; common practice, no source.)
+#[test]
+fn a_very_light_rig_is_sized_by_the_same_closed_forms() {
+    let support = Support::tripod(0.5, 0.0).unwrap();
+    let rig = Rig::new(&post_rig(&support, 0.1, [0.0, 0.0, 0.2], 0.02, 0.3, 0.5)).unwrap();
+    let c = Conditions::calm(altaz(0.0, 0.0));
+    let w_r = 0.1 * STANDARD_GRAVITY_MPS2 * 0.25;
+    let over = 0.9 * w_r;
+    let v = (2.0 * over / (0.02 * 0.3) / 1.225_f32).sqrt();
+    let ballast = rig
+        .ballast_needed(&c, v, 0.8, standfast::Vec3::new(0.0, 0.0, 0.1))
+        .unwrap();
+    let closed = (over / 0.8 - w_r) / (STANDARD_GRAVITY_MPS2 * 0.25);
+    assert_relative_eq!(ballast.mass_kg, closed, max_relative = 2e-3);
+    assert_relative_eq!(closed, 0.0125, max_relative = 1e-3);
+    let tie = rig.tie_down_needed(&c, v, 0.8).unwrap();
+    let closed_t = (over / 0.8 - w_r) / 0.75;
+    assert_relative_eq!(tie.pull_per_foot_n, closed_t, max_relative = 2e-3);
+    assert_relative_eq!(closed_t, 0.0409, max_relative = 2e-3);
+}
