@@ -37,6 +37,20 @@ pub fn hms(seconds: f64) -> String {
     format!("{}:{:02}:{:02}", s / 3600, (s / 60) % 60, s % 60)
 }
 
+/// An integer with a comma between groups of three digits ("4,320,000").
+#[must_use]
+pub fn thousands(n: u64) -> String {
+    let digits = n.to_string();
+    let mut out = String::with_capacity(digits.len() + digits.len() / 3);
+    for (i, c) in digits.chars().enumerate() {
+        if i > 0 && (digits.len() - i) % 3 == 0 {
+            out.push(',');
+        }
+        out.push(c);
+    }
+    out
+}
+
 /// `a -> b` with the unit, to as many decimals (from `digits`, at most
 /// 3) as it takes for two different values to read differently.
 fn pair(a: Option<f32>, b: Option<f32>, scale: f32, unit: &str, digits: usize) -> String {

@@ -24,6 +24,7 @@ use crate::model::charts::{AssessCharts, RigCharts, POLAR_STEP_DEG, TORQUE_MAP_S
 use crate::model::replay::{Approach, ReplayReport, RigReplay, STAGES};
 use crate::model::series::{self as series, Series};
 use crate::render::clock::Clock;
+use crate::render::headline::{hms, thousands};
 use crate::render::html::Page;
 use crate::render::palette;
 use crate::render::svg::{
@@ -672,12 +673,12 @@ pub fn replay_html(rep: &ReplayReport, charts: &[RigCharts]) -> String {
     page.cautions(CAUTIONS);
     page.h2("Summary");
     page.p(&format!(
-        "Replayed {} merged records ({} log rows) from {} to {} ({:.0} s).",
-        rep.records,
-        rep.rows,
+        "Replayed {} merged records ({} log rows) from {} to {} ({}).",
+        thousands(rep.records),
+        thousands(rep.rows),
         rep.start.as_deref().unwrap_or("-"),
         rep.end.as_deref().unwrap_or("-"),
-        rep.duration_s
+        hms(rep.duration_s)
     ));
     let issues: Vec<String> = rep
         .issues

@@ -21,7 +21,7 @@ use crate::model::replay::{Approach, ReplayReport, RigReplay};
 use crate::model::story::{tell, RigStory};
 use crate::model::whatif::{compare, Comparison};
 use crate::render::clock::Clock;
-use crate::render::headline::hms;
+use crate::render::headline::{hms, thousands};
 use crate::render::whatif::comparison_text;
 
 fn stdout_err(e: std::io::Error) -> Error {
@@ -30,19 +30,6 @@ fn stdout_err(e: std::io::Error) -> Error {
 
 fn pose_text(p: &Pose) -> String {
     pose_words(p)
-}
-
-/// An integer with a comma between groups of three digits ("4,320,000").
-fn thousands(n: u64) -> String {
-    let digits = n.to_string();
-    let mut out = String::with_capacity(digits.len() + digits.len() / 3);
-    for (i, c) in digits.chars().enumerate() {
-        if i > 0 && (digits.len() - i) % 3 == 0 {
-            out.push(',');
-        }
-        out.push(c);
-    }
-    out
 }
 
 /// Seconds the rig spent at `level`.
@@ -260,7 +247,7 @@ pub fn write(rep: &ReplayReport, as_json: bool, out: &mut dyn Write) -> Result<(
 
 #[cfg(test)]
 mod tests {
-    use super::thousands;
+    use crate::render::headline::thousands;
 
     #[test]
     fn thousands_are_grouped_by_three() {

@@ -555,7 +555,7 @@ impl CsvSource {
                         line,
                         kind: IssueKind::Gap,
                         detail: format!(
-                            "{:.3} s without data since line {prev_line} ({} to {}; gap length {} s)",
+                            "{:.3} s without data since line {prev_line} ({} to {}), more than the file's {} s allowed between rows",
                             row.time.seconds_since(prev),
                             prev,
                             row.time,
