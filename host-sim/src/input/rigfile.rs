@@ -416,6 +416,12 @@ pub struct LoadedRig {
     pub measured: Option<MeasuredNote>,
     /// Attachment hardware to check (`[shaft_joint]`, `[[joint]]`).
     pub hardware: AttachmentHardware,
+    /// Whether the guard takes the logs' cover samples: true for a rig
+    /// file; false for a what-if variant that sets the cover itself
+    /// (`cover=on` or `cover=off`), whose guard then sees no cover input
+    /// (a logged cover on a rig without one would otherwise be a fault on
+    /// every row).
+    pub cover_input: bool,
 }
 
 /// `[shaft_joint]`: the counterweight shaft's thread in the mount's housing.
@@ -1019,6 +1025,7 @@ pub fn load_source(src: &SourceText) -> Result<LoadedRig, InputError> {
         air,
         measured,
         hardware,
+        cover_input: true,
     })
 }
 

@@ -706,14 +706,24 @@ struct Batch {
 /// the reading side hangs up.
 fn step_guards(
     guards: &mut [Guard<'_>],
+    cover_input: &[bool],
     batches: &std::sync::mpsc::Receiver<Batch>,
     stepped: &std::sync::mpsc::SyncSender<Batch>,
 ) {
     for mut b in batches {
         b.verdicts.clear();
         for s in &b.steps {
-            for g in guards.iter_mut() {
-                b.verdicts.push(g.step(s.now, &s.inputs));
+            let without_cover = Inputs {
+                cover_fitted: None,
+                ..s.inputs
+            };
+            for (g, takes_cover) in guards.iter_mut().zip(cover_input) {
+                let inputs = if *takes_cover {
+                    &s.inputs
+                } else {
+                    &without_cover
+                };
+                b.verdicts.push(g.step(s.now, inputs));
             }
         }
         if stepped.send(b).is_err() {
@@ -852,6 +862,7 @@ pub fn replay(
 
     let every = options.verdicts_every.max(1);
     let mut guards = start_guards(rigs)?;
+    let cover_input: Vec<bool> = rigs.iter().map(|r| r.cover_input).collect();
     let mut trackers: Vec<Tracker> = rigs
         .iter()
         .map(|r| Tracker::new(&r.file, &r.guard))
@@ -875,7 +886,9 @@ pub fn replay(
     let mut take_error: Option<Error> = None;
     std::thread::scope(|scope| {
         let guards = &mut guards;
-        let worker = scope.spawn(move || step_guards(guards, &from_reader, &to_reader));
+        let cover_input = &cover_input;
+        let worker =
+            scope.spawn(move || step_guards(guards, cover_input, &from_reader, &to_reader));
         loop {
             let mut b = match spare.pop() {
                 Some(b) => b,

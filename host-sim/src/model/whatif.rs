@@ -246,7 +246,8 @@ pub fn parse_override(text: &str) -> Result<Override, Error> {
 ///
 /// `cover=on` makes the cover a permanent part (its mass and wind area all
 /// night) that hides the bodies under it, whatever the log says;
-/// `cover=off` removes the cover.
+/// `cover=off` removes the cover. Either way the variant's guard takes no
+/// cover samples from the logs ([`LoadedRig::cover_input`]).
 ///
 /// # Errors
 /// [`Error::Usage`] naming the override when the variant is not valid
@@ -339,6 +340,9 @@ pub fn variant(
         air: base.air,
         measured: None,
         hardware: base.hardware.clone(),
+        cover_input: !overrides
+            .iter()
+            .any(|o| matches!(o, Override::Cover(CoverMode::On | CoverMode::Off))),
     })
 }
 

@@ -245,3 +245,54 @@ fn cover_on_counts_the_cover_all_night() {
     assert_close(f64::from(mass(&on) - mass(&off)), 1.5, 1e-4);
     assert!(off.spec.cover.is_none());
 }
+
+/// A log that reports the cover, replayed with `cover=off` and `cover=on`:
+/// the variants set the cover themselves, so their guards take no cover
+/// samples (a logged "fitted" on a rig without a cover is otherwise a
+/// sensor fault on every row, as the base rig file would rightly get if its
+/// `[cover]` were missing).
+#[test]
+fn cover_variants_take_no_cover_samples_from_the_log() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut csv = String::from("t,ax,ay,az,speed,dir,cover\n");
+    for i in 0..600_u32 {
+        writeln!(
+            csv,
+            "{},{},0,1,{:.2},{},{}",
+            1_700_000_000 + i,
+            f64::from(i % 3) * 1e-4,
+            3.0 + 0.01 * f64::from(i),
+            269 + i % 3,
+            u8::from(i >= 300)
+        )
+        .unwrap();
+    }
+    std::fs::write(dir.path().join("covered.csv"), csv).unwrap();
+    let profile = crate::common::one_file_profile(dir.path(), "covered");
+    let text =
+        std::fs::read_to_string(&profile).unwrap() + "cover_fitted = { column = \"cover\" }\n";
+    std::fs::write(&profile, text).unwrap();
+    let base = demo_rig();
+    let off = whatif::variant_from_texts(&base, &["cover=off".to_owned()]).unwrap();
+    let on = whatif::variant_from_texts(&base, &["cover=on".to_owned()]).unwrap();
+    assert!(base.cover_input && !off.cover_input && !on.cover_input);
+    let rep = run(&profile, &[base, off, on]);
+    let cover_faults = |i: usize| {
+        rep.rigs[i]
+            .faults
+            .iter()
+            .filter(|f| f.fault.contains("cover"))
+            .count()
+    };
+    assert_eq!(cover_faults(0), 0, "{:?}", rep.rigs[0].faults);
+    assert_eq!(cover_faults(1), 0, "{:?}", rep.rigs[1].faults);
+    assert_eq!(cover_faults(2), 0, "{:?}", rep.rigs[2].faults);
+    // The base rig saw the cover go on: its figures changed with it.
+    assert_ne!(
+        rep.rigs[0].final_stage.name(),
+        "sensor_fault",
+        "{:?}",
+        rep.rigs[0].faults
+    );
+    assert_ne!(rep.rigs[1].final_stage.name(), "sensor_fault");
+}
