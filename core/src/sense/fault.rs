@@ -407,4 +407,121 @@ mod tests {
         assert_eq!(s.len(), 3);
         assert!(!s.overflowed());
     }
+
+    /// Every sensor, `NotFinite` and `Stale` on each: 16 distinct classes,
+    /// twice the capacity.
+    fn sixteen_distinct() -> [Fault; 16] {
+        let sensors = [
+            Sensor::Accelerometer,
+            Sensor::WindSpeed,
+            Sensor::WindDirection,
+            Sensor::MountPose,
+            Sensor::Cover,
+            Sensor::Air,
+            Sensor::Clock,
+            Sensor::Model,
+        ];
+        let mut out = [Fault::NotFinite {
+            sensor: Sensor::Model,
+        }; 16];
+        for (i, sensor) in sensors.into_iter().enumerate() {
+            out[2 * i] = Fault::NotFinite { sensor };
+            out[2 * i + 1] = Fault::Stale {
+                sensor,
+                silent_ms: 5,
+            };
+        }
+        out
+    }
+
+    #[test]
+    fn set_beyond_capacity_overflows_and_stays_unsafe() {
+        let mut s = FaultSet::new();
+        for f in sixteen_distinct().iter().take(FAULT_SET_CAPACITY) {
+            s.push(*f);
+        }
+        assert_eq!(s.len(), FAULT_SET_CAPACITY);
+        assert!(!s.overflowed());
+        s.push(sixteen_distinct()[FAULT_SET_CAPACITY]);
+        assert_eq!(s.len(), FAULT_SET_CAPACITY);
+        assert!(s.overflowed());
+        assert!(!s.is_empty());
+        // The oldest are kept, in order.
+        assert!(s.iter().eq(sixteen_distinct().into_iter().take(8)));
+    }
+
+    #[test]
+    fn extend_carries_the_other_sets_overflow() {
+        let mut full = FaultSet::new();
+        for f in sixteen_distinct() {
+            full.push(f);
+        }
+        assert!(full.overflowed());
+        let mut s = FaultSet::new();
+        s.extend(&full);
+        assert!(s.overflowed(), "an overflowed set's loss must not vanish");
+        assert_eq!(s.len(), FAULT_SET_CAPACITY);
+
+        // And extending by a set that did not overflow keeps an earlier flag.
+        let mut one = FaultSet::new();
+        one.push(Fault::TiltStep { step_rad: 0.2 });
+        s.extend(&one);
+        assert!(s.overflowed());
+        let mut fresh = FaultSet::new();
+        fresh.extend(&one);
+        assert!(!fresh.overflowed());
+        assert_eq!(fresh.len(), 1);
+    }
+
+    #[test]
+    fn unevaluable_faults_differ_by_check() {
+        let a = Fault::Unevaluable {
+            check: Check::Drive,
+        };
+        let b = Fault::Unevaluable {
+            check: Check::TiltMargin,
+        };
+        assert!(a.same_class(&a));
+        assert!(!a.same_class(&b));
+        let mut s = FaultSet::new();
+        s.push(a);
+        s.push(b);
+        s.push(a);
+        assert_eq!(s.len(), 2, "one entry per check that failed");
+        // Another class on the same (model) sensor is distinct too.
+        assert!(!a.same_class(&Fault::NotFinite {
+            sensor: Sensor::Model
+        }));
+    }
+
+    /// The codes are what log lines, the host's outputs and the C ABI print:
+    /// written out here so that a change is deliberate.
+    #[test]
+    fn codes_are_the_documented_ones() {
+        let checks = [
+            (Check::WorstDirection, "worst_direction"),
+            (Check::Overturning, "overturning"),
+            (Check::PredictedOverturning, "predicted_overturning"),
+            (Check::Drive, "drive"),
+            (Check::TiltMargin, "tilt_margin"),
+            (Check::TiltDrift, "tilt_drift"),
+            (Check::ParkPose, "park_pose"),
+        ];
+        for (c, code) in checks {
+            assert_eq!(c.code(), code);
+        }
+        let sensors = [
+            (Sensor::Accelerometer, "accel"),
+            (Sensor::WindSpeed, "wind_speed"),
+            (Sensor::WindDirection, "wind_direction"),
+            (Sensor::MountPose, "pose"),
+            (Sensor::Cover, "cover"),
+            (Sensor::Air, "air"),
+            (Sensor::Clock, "clock"),
+            (Sensor::Model, "model"),
+        ];
+        for (sensor, code) in sensors {
+            assert_eq!(sensor.code(), code);
+        }
+    }
 }
