@@ -835,4 +835,188 @@ mod tests {
             Mounting::from_axes(SignedAxis::PlusY, SignedAxis::MinusX, SignedAxis::PlusZ).unwrap();
         assert!(m.validate().is_ok());
     }
+
+    fn mounting(rows: [[f32; 3]; 3]) -> Mounting {
+        Mounting {
+            sensor_to_rig: rows,
+        }
+    }
+
+    fn refused_on(m: Mounting) -> Option<Field> {
+        m.validate().err().map(|e| e.field)
+    }
+
+    /// Each of the rotation conditions alone (unit rows, orthogonal rows,
+    /// right-handed), broken just beyond its tolerance while the others hold.
+    #[test]
+    fn mounting_each_rotation_condition_refuses_alone() {
+        const I: [[f32; 3]; 3] = [[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]];
+        assert_eq!(refused_on(mounting(I)), None);
+        let mut cases: [([[f32; 3]; 3], &str); 7] = [(I, ""); 7];
+        // A row 0.08 % too long: |r·r − 1| = 0.0016 > 1e-3, determinant off
+        // by 0.0008 only (< 3e-3).
+        for (i, case) in cases.iter_mut().take(3).enumerate() {
+            case.0[i][i] = 1.0008;
+            case.1 = "row length";
+        }
+        // Two rows 0.0015 from orthogonal, each of unit length within 2.3e-6.
+        cases[3].0[1] = [0.0015, 1.0, 0.0];
+        cases[3].1 = "rows 0 and 1";
+        cases[4].0[2] = [0.0015, 0.0, 1.0];
+        cases[4].1 = "rows 0 and 2";
+        cases[5].0[2] = [0.0, 0.0015, 1.0];
+        cases[5].1 = "rows 1 and 2";
+        // A mirror image: unit, orthogonal rows, determinant −1.
+        cases[6].0[2] = [0.0, 0.0, -1.0];
+        cases[6].1 = "mirror";
+        for (rows, what) in cases {
+            assert_eq!(
+                refused_on(mounting(rows)),
+                Some(Field::MountingSensorToRig),
+                "{what}: {rows:?}"
+            );
+        }
+    }
+
+    /// "Within 1e-3" includes the tolerance itself (the dot products can
+    /// meet it exactly; the lengths and the determinant cannot in `f32`), and
+    /// a small error inside it is accepted.
+    #[test]
+    fn mounting_within_tolerance_is_accepted() {
+        let t = 1e-3_f32;
+        for rows in [
+            [[1.0, 0.0, 0.0], [t, 1.0, 0.0], [0.0, 0.0, 1.0]],
+            [[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [t, 0.0, 1.0]],
+            [[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, t, 1.0]],
+            [[1.0004, 0.0, 0.0], [0.0, 0.9996, 0.0], [0.0, 0.0, 1.0004]],
+        ] {
+            assert_eq!(refused_on(mounting(rows)), None, "{rows:?}");
+        }
+        // Components beyond ±1.001 are refused before any other test.
+        let e = mounting([[1.002, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]])
+            .validate()
+            .unwrap_err();
+        assert_eq!(e.kind, ErrorKind::OutOfRange);
+        assert!((e.max - 1.001).abs() < 1e-6);
+        let e = mounting([[f32::NAN, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]])
+            .validate()
+            .unwrap_err();
+        assert_eq!(e.kind, ErrorKind::NotFinite);
+    }
+
+    /// Every field of the tilt configuration, just outside its documented
+    /// range, is refused under its own name; the defaults and every bound
+    /// itself are accepted.
+    #[test]
+    fn tilt_config_each_field_refused_under_its_name() {
+        let d = TiltConfig::default();
+        assert_eq!(d.validate(), Ok(()));
+        type Set = fn(&mut TiltConfig, f32);
+        let fields: [(Field, Set, f32, f32); 11] = [
+            (
+                Field::TiltScaleGPerCount,
+                |c, v| c.scale_g_per_count = v,
+                1e-9,
+                1e6,
+            ),
+            (
+                Field::TiltFilterTauS,
+                |c, v| {
+                    c.filter_tau_s = v;
+                    c.step_tau_s = 86_400.0;
+                    c.drift_tau_s = 604_800.0;
+                },
+                1e-3,
+                3600.0,
+            ),
+            (
+                Field::TiltStepTauS,
+                |c, v| {
+                    c.step_tau_s = v;
+                    c.drift_tau_s = 604_800.0;
+                },
+                2.0,
+                86_400.0,
+            ),
+            (
+                Field::TiltDriftTauS,
+                |c, v| c.drift_tau_s = v,
+                60.0,
+                604_800.0,
+            ),
+            (Field::TiltBandMinG, |c, v| c.band_min_g = v, 0.1, 1.0),
+            (Field::TiltBandMaxG, |c, v| c.band_max_g = v, 1.0, 10.0),
+            (
+                Field::TiltOutOfBandLimitS,
+                |c, v| c.out_of_band_limit_s = v,
+                0.0,
+                3600.0,
+            ),
+            (
+                Field::TiltStepLimitRad,
+                |c, v| c.step_limit_rad = v,
+                1e-5,
+                MAX_TILT_RAD,
+            ),
+            (
+                Field::TiltStaleAfterS,
+                |c, v| c.stale_after_s = v,
+                1e-3,
+                86_400.0,
+            ),
+            (
+                Field::TiltStuckAfterS,
+                |c, v| c.stuck_after_s = v,
+                0.0,
+                86_400.0,
+            ),
+            (
+                Field::TiltLevelCaptureS,
+                |c, v| c.level_capture_s = v,
+                0.0,
+                3600.0,
+            ),
+        ];
+        for (field, set, lo, hi) in fields {
+            for ok in [lo, hi] {
+                let mut c = d;
+                set(&mut c, ok);
+                assert_eq!(c.validate(), Ok(()), "{field:?} = {ok}");
+            }
+            let below = if lo == 0.0 { -1e-6 } else { lo * 0.999 };
+            for bad in [below, hi * 1.001, f32::NAN, f32::INFINITY] {
+                let mut c = d;
+                set(&mut c, bad);
+                let e = c.validate().unwrap_err();
+                assert_eq!(e.field, field, "{field:?} = {bad}");
+            }
+        }
+        // The filters' order: the step filter at least twice as slow as the
+        // fast one (not merely 2 s slower), the drift filter no faster than
+        // the step filter.
+        let mut c = d;
+        c.filter_tau_s = 4.0;
+        c.step_tau_s = 7.0;
+        assert_eq!(c.validate().unwrap_err().field, Field::TiltStepTauS);
+        c.step_tau_s = 8.0;
+        assert_eq!(c.validate(), Ok(()));
+        c.drift_tau_s = 7.9;
+        assert_eq!(c.validate().unwrap_err().field, Field::TiltDriftTauS);
+        // A bad mounting is refused as the mounting.
+        c = d;
+        c.mounting = mounting([[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, -1.0]]);
+        assert_eq!(c.validate().unwrap_err().field, Field::MountingSensorToRig);
+    }
+
+    #[test]
+    fn lowpass_alpha_edges() {
+        assert_eq!(lowpass_alpha(f32::NAN, 1.0), 0.0);
+        assert_eq!(lowpass_alpha(-1.0, 1.0), 0.0);
+        assert_eq!(lowpass_alpha(0.0, 1.0), 0.0);
+        assert_eq!(lowpass_alpha(1.0, f32::NAN), 1.0);
+        assert_eq!(lowpass_alpha(1.0, 0.0), 1.0);
+        assert_eq!(lowpass_alpha(1.0, -2.0), 1.0);
+        // 1 − e^(−1) (the first-order step response at one time constant).
+        assert!((lowpass_alpha(2.0, 2.0) - 0.632_120_56).abs() < 1e-6);
+    }
 }
