@@ -48,8 +48,12 @@ svg .ring { fill: none; stroke: #d4d9de; }
 svg .spoke { stroke: #e3e7eb; }
 svg .polar-trace { fill: none; stroke-width: 1.8; stroke-linejoin: round; }
 svg .beyond { fill: #ffffff; stroke-width: 1.2; }
+svg .polar-ring { fill: none; stroke: #2e2e2e; stroke-width: 1.4; stroke-dasharray: 6 3; }
+svg .polar-bearing line, svg .polar-bearing polyline { fill: none; stroke: #2e2e2e; stroke-width: 2; }
 svg .polar-marker { fill: #b5321f; stroke: #ffffff; stroke-width: 1.5; }
 svg .cell { stroke: #ffffff; stroke-width: 0.5; }
+svg .cell-value { font-size: 9px; }
+svg .scale-bar { stroke: #8a9099; stroke-width: 0.5; }
 svg .scale-key { stroke: #8a9099; stroke-width: 0.5; }
 ";
 

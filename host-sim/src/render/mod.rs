@@ -4,10 +4,11 @@
 //!
 //! [`summary`] (the replay's text and JSON, with the what-if comparison),
 //! [`headline`] (the night's story, first in the summary and the report),
-//! [`whatif`] (the comparison table), [`assess`] (the assessment's text and
-//! JSON), [`weigh`] (the weighing's text and JSON), [`verdicts`] (the
+//! [`whatif`] (the comparison table, and the report's what-if part),
+//! [`assess`] (the assessment's text, JSON and HTML), [`weigh`] (the weighing's text and JSON), [`verdicts`] (the
 //! verdict CSV), [`event_lines`] (the firmware example's event lines),
-//! [`report`] (the HTML pages) drawn with [`html`] and [`svg`], in the
+//! [`report`] (the HTML pages, with the pieces in [`night`]) drawn with
+//! [`html`] and [`svg`], in the
 //! colours of [`palette`], on wall-clock axes from [`clock`].
 
 pub mod assess;
@@ -16,6 +17,7 @@ pub mod clock;
 pub mod event_lines;
 pub mod headline;
 pub mod html;
+mod night;
 pub mod palette;
 pub mod report;
 pub mod summary;

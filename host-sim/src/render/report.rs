@@ -15,34 +15,21 @@
 //! from [`palette`], checked for colour-blind readers; times through
 //! [`crate::render::clock`].
 
-use standfast::guard::AlertLevel;
-
 use crate::cautions::CAUTIONS;
 use crate::input::error::Error;
 use crate::model::assess::{pose_words, AssessReport};
-use crate::model::charts::{AssessCharts, RigCharts, POLAR_STEP_DEG, TORQUE_MAP_STEP_DEG};
+use crate::model::charts::{AssessCharts, RigCharts, POLAR_STEP_DEG};
 use crate::model::replay::{Approach, ReplayReport, RigReplay, STAGES};
 use crate::model::series::{self as series, Series};
 use crate::render::clock::Clock;
 use crate::render::headline::{hms, thousands};
 use crate::render::html::Page;
-use crate::render::palette;
-use crate::render::svg::{
-    self, HLine, HeatMap, Line, LineChart, Mark, PolarChart, PolarMarker, PolarTrace, Span,
+use crate::render::night::{
+    cover_spans, line, night_events, points, pose_chart, stage_colour, stage_spans, stage_tables,
+    with_gaps, Axis, NightEvent, COVER_CATS,
 };
-
-/// The report's colour of each stage ([`palette::STAGE`], in [`STAGES`]
-/// order).
-fn stage_colour(s: AlertLevel) -> &'static str {
-    palette::STAGE
-        .get(stage_cat(s))
-        .copied()
-        .unwrap_or(palette::INK)
-}
-
-fn stage_cat(s: AlertLevel) -> usize {
-    STAGES.iter().position(|x| *x == s).unwrap_or(0)
-}
+use crate::render::palette;
+use crate::render::svg::{self, HLine, Mark, PolarChart, PolarMarker, PolarTrace, Stroke};
 
 fn opt(v: Option<f32>, unit: &str, digits: usize) -> String {
     v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
@@ -84,46 +71,6 @@ fn approach_row(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> Vec
     ]
 }
 
-/// The chart points of one figure of the series, scaled by `k`: one per
-/// bucket, and a break (`None`) wherever buckets are missing (no record in
-/// that interval), so a gap in the logs is drawn as a gap.
-fn points(
-    s: &Series,
-    k: f64,
-    f: impl Fn(&series::SeriesPoint) -> Option<f32>,
-) -> Vec<(f64, Option<f64>)> {
-    let mut out = Vec::with_capacity(s.points.len());
-    let mut prev_start: Option<f64> = None;
-    for p in &s.points {
-        if prev_start.is_some_and(|q| p.t_start_s - q > s.width_s * 1.5) {
-            out.push((p.t_start_s, None));
-        }
-        prev_start = Some(p.t_start_s);
-        out.push((
-            (p.t_start_s + p.t_last_s) / 2.0,
-            f(p).map(|v| f64::from(v) * k),
-        ));
-    }
-    out
-}
-
-fn line(name: &str, colour: &str, pts: Vec<(f64, Option<f64>)>) -> Line {
-    Line {
-        name: name.to_owned(),
-        colour: colour.to_owned(),
-        points: pts,
-        dashed: false,
-        dots: false,
-    }
-}
-
-/// `pts` with a break in the middle of each gap, so no line bridges one.
-fn with_gaps(mut pts: Vec<(f64, Option<f64>)>, gaps: &[(f64, f64)]) -> Vec<(f64, Option<f64>)> {
-    pts.extend(gaps.iter().map(|&(a, b)| (f64::midpoint(a, b), None)));
-    pts.sort_by(|p, q| p.0.total_cmp(&q.0));
-    pts
-}
-
 /// A duration as `h:mm:ss` (`m:ss` under an hour).
 fn duration_words(s: f64) -> String {
     #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
@@ -132,120 +79,6 @@ fn duration_words(s: f64) -> String {
         format!("{}:{:02}:{:02}", t / 3600, (t / 60) % 60, t % 60)
     } else {
         format!("{}:{:02}", t / 60, t % 60)
-    }
-}
-
-/// One event of a rig (a stage change or a fault) for the charts and the
-/// event table: its number is its place in time order, from 1.
-struct NightEvent {
-    t_s: f64,
-    utc: String,
-    what: String,
-    colour: &'static str,
-}
-
-fn night_events(r: &RigReplay) -> Vec<NightEvent> {
-    let mut m: Vec<NightEvent> = r
-        .stage_changes
-        .iter()
-        .map(|c| NightEvent {
-            t_s: c.t_s,
-            utc: c.time.clone(),
-            what: format!("{} → {} ({})", c.from.name(), c.to.name(), c.cause),
-            colour: stage_colour(c.to),
-        })
-        .collect();
-    m.extend(r.faults.iter().map(|f| NightEvent {
-        t_s: f.t_s,
-        utc: f.time.clone(),
-        what: format!("fault: {}", f.fault),
-        colour: stage_colour(AlertLevel::SensorFault),
-    }));
-    m.sort_by(|a, b| a.t_s.total_cmp(&b.t_s));
-    m
-}
-
-fn event_marks(events: &[NightEvent]) -> Vec<Mark> {
-    events
-        .iter()
-        .enumerate()
-        .map(|(i, e)| Mark {
-            x: e.t_s,
-            number: i + 1,
-            label: e.what.clone(),
-            colour: e.colour.to_owned(),
-        })
-        .collect()
-}
-
-fn stage_spans(s: &Series) -> Vec<Span> {
-    let mut out: Vec<Span> = Vec::new();
-    for (i, p) in s.points.iter().enumerate() {
-        let end = s
-            .points
-            .get(i + 1)
-            .map_or(p.t_last_s.max(p.t_start_s + s.width_s), |q| q.t_start_s);
-        let cat = stage_cat(p.stage);
-        match out.last_mut() {
-            Some(l) if l.cat == cat && (l.t1 - p.t_start_s).abs() < 1e-9 => l.t1 = end,
-            _ => out.push(Span {
-                t0: p.t_start_s,
-                t1: end,
-                cat,
-            }),
-        }
-    }
-    out
-}
-
-/// The time axis every chart of a rig shares: its range (s since the first
-/// record), its label and the note on the zone, the clock, the numbered
-/// event marks, and the sentence saying what a point stands for.
-struct Axis {
-    x_range: (f64, f64),
-    x_label: String,
-    zone_note: String,
-    clock: Option<Clock>,
-    marks: Vec<Mark>,
-    bucket: String,
-}
-
-impl Axis {
-    fn of(rep: &ReplayReport, r: &RigReplay, events: &[NightEvent]) -> Axis {
-        let s = &r.series;
-        let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
-        let x_label = match (clock, rep.local_offset_s) {
-            (Some(c), Some(_)) => format!("local time ({}, hh:mm)", c.zone_text()),
-            (Some(_), None) => "time (UTC, hh:mm)".to_owned(),
-            (None, _) => "time since the first record (h:mm)".to_owned(),
-        };
-        let zone_note = match (clock, rep.local_offset_s) {
-            (Some(c), Some(_)) => format!(
-                " Times are local ({}), the offset the logs carry.",
-                c.zone_text()
-            ),
-            (Some(_), None) => " Times are UTC: the logs carry no zone offset.".to_owned(),
-            (None, _) => String::new(),
-        };
-        Axis {
-            x_range: (0.0, rep.duration_s.max(s.width_s)),
-            x_label,
-            zone_note,
-            clock,
-            marks: event_marks(events),
-            bucket: format!(
-                "Each point is the highest value (mean for the mean wind) over {:.0} s of log.",
-                s.width_s
-            ),
-        }
-    }
-
-    /// A line chart on this axis.
-    fn chart(&self, title: &str, y: &str) -> LineChart {
-        let mut c = LineChart::new(title, &self.x_label, y);
-        c.x_range = self.x_range;
-        c.clock = self.clock;
-        c
     }
 }
 
@@ -330,7 +163,7 @@ fn utilisation_charts(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>
         palette::PINK,
         points(s, 100.0, |p| p.predicted_max),
     );
-    pred.dashed = true;
+    pred.stroke = Stroke::Dashed;
     u.lines.push(pred);
     u.lines.push(line(
         "sliding",
@@ -420,7 +253,7 @@ fn wind_charts(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>, axis:
         palette::PINK,
         points(s, 1.0, |p| p.tip_wind_min_mps),
     );
-    tip.dashed = true;
+    tip.stroke = Stroke::Dashed;
     w.lines.push(tip);
     w.marks.clone_from(&axis.marks);
     let scaled = match heights {
@@ -478,6 +311,7 @@ fn polar_chart(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>) {
             name: "tip wind".to_owned(),
             colour: palette::BLUE.to_owned(),
             points: pts,
+            stroke: Stroke::Solid,
         }],
         marker: match (a.wind_from_deg, a.gust_mps) {
             (Some(dir), Some(g)) => Some(PolarMarker {
@@ -487,6 +321,8 @@ fn polar_chart(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>) {
             }),
             _ => None,
         },
+        rings: Vec::new(),
+        bearings: Vec::new(),
         size: 420.0,
     };
     page.figure(
@@ -517,65 +353,11 @@ fn cover_and_pose(
     x_label: &str,
     marks: &[Mark],
 ) {
-    let cats = [
-        ("cover off", palette::PALE_BLUE),
-        ("cover fitted", palette::BLUE),
-        ("not known", "#d9dde2"),
-    ];
-    let mut spans: Vec<Span> = Vec::new();
-    for (i, p) in s.points.iter().enumerate() {
-        let end = s
-            .points
-            .get(i + 1)
-            .map_or(p.t_last_s.max(p.t_start_s + s.width_s), |q| q.t_start_s);
-        let cat = match p.cover {
-            Some(false) => 0,
-            Some(true) => 1,
-            None => 2,
-        };
-        match spans.last_mut() {
-            Some(l) if l.cat == cat && (l.t1 - p.t_start_s).abs() < 1e-9 => l.t1 = end,
-            _ => spans.push(Span {
-                t0: p.t_start_s,
-                t1: end,
-                cat,
-            }),
-        }
-    }
     page.figure(
-        &svg::timeline("Cover", x_range, &spans, &cats, clock, x_label),
+        &svg::timeline("Cover", x_range, &cover_spans(s), &COVER_CATS, clock, x_label),
         "The weather cover from the logs: an interval is shown fitted when the cover was fitted at any moment in it. A fitted cover adds mass and catches wind, so it changes the tip wind.",
     );
-    let Some(frame) = s.pose_frame else {
-        return;
-    };
-    let (a_name, b_name, what) = match frame {
-        "equatorial" => (
-            "hour angle (°, 15° = 1 h, west positive)",
-            "declination (°)",
-            "hour angle and declination",
-        ),
-        "horizontal" => ("azimuth (°)", "altitude (°)", "azimuth and altitude"),
-        _ => ("primary axis (°)", "secondary axis (°)", "the axis angles"),
-    };
-    let mut c = LineChart::new("Mount pose", x_label, "angle (degrees)");
-    c.x_range = x_range;
-    c.clock = clock.copied();
-    c.lines.push(line(
-        a_name,
-        palette::BLUE,
-        points(s, 1.0, |p| p.pose_a_deg),
-    ));
-    c.lines.push(line(
-        b_name,
-        palette::PINK,
-        points(s, 1.0, |p| p.pose_b_deg),
-    ));
-    c.marks = marks.to_vec();
-    page.figure(
-        &c.to_svg(),
-        &format!("The pose the guard's figures are for ({what}) at the end of each interval, with the numbered events; a park shows as the move to the park pose."),
-    );
+    pose_chart(page, s, x_range, clock, x_label, marks);
 }
 
 /// The numbered events of the charts, with local and UTC times.
@@ -594,61 +376,6 @@ fn event_table(page: &mut Page, events: &[NightEvent], clock: Option<&Clock>) {
         })
         .collect();
     page.table(&["no.", "local time", "UTC", "what happened"], &rows);
-}
-
-/// Time per stage, stage changes and sensor faults, as tables.
-fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
-    page.h3("Time per stage");
-    let rows: Vec<Vec<String>> = r
-        .stage_time
-        .iter()
-        .map(|t| {
-            vec![
-                t.stage.name().to_owned(),
-                format!("{:.0} s", t.seconds),
-                format!(
-                    "{:.1} %",
-                    if rep.duration_s > 0.0 {
-                        t.seconds / rep.duration_s * 100.0
-                    } else {
-                        0.0
-                    }
-                ),
-            ]
-        })
-        .collect();
-    page.table(&["stage", "time", "share"], &rows);
-    page.h3(&format!("Stage changes ({})", r.stage_changes.len()));
-    let rows: Vec<Vec<String>> = r
-        .stage_changes
-        .iter()
-        .map(|c| {
-            vec![
-                c.time.clone(),
-                format!("+{:.0} s", c.t_s),
-                c.from.name().to_owned(),
-                c.to.name().to_owned(),
-                c.cause.clone(),
-            ]
-        })
-        .collect();
-    page.table(&["time", "since start", "from", "to", "cause"], &rows);
-    if r.stage_changes_not_kept > 0 {
-        page.note(&format!(
-            "… and {} more not kept.",
-            r.stage_changes_not_kept
-        ));
-    }
-    page.h3(&format!("Sensor faults ({})", r.faults.len()));
-    let rows: Vec<Vec<String>> = r
-        .faults
-        .iter()
-        .map(|f| vec![f.time.clone(), format!("+{:.0} s", f.t_s), f.fault.clone()])
-        .collect();
-    page.table(&["time", "since start", "fault"], &rows);
-    if r.faults_not_kept > 0 {
-        page.note(&format!("… and {} more not kept.", r.faults_not_kept));
-    }
 }
 
 /// The replay report as a self-contained HTML page. `charts` are the chart
@@ -698,118 +425,27 @@ pub fn replay_html(rep: &ReplayReport, charts: &[RigCharts]) -> String {
     if !rep.first_issues.is_empty() {
         page.pre(&rep.first_issues.join("\n"));
     }
-    for (i, r) in rep.rigs.iter().enumerate() {
-        rig_section(&mut page, rep, r, charts.get(i));
+    if rep.rigs.len() >= 2 {
+        // What-if: one set of charts with the rigs overlaid.
+        crate::render::whatif::html_sections(&mut page, rep, charts);
+    } else {
+        for (i, r) in rep.rigs.iter().enumerate() {
+            rig_section(&mut page, rep, r, charts.get(i));
+        }
     }
     page.note("Standfast replay report; all charts are drawn from the replay above.");
     page.cautions(CAUTIONS);
     page.finish()
 }
 
-/// The assessment report as a self-contained HTML page: tip wind by
-/// direction in the home pose and in the worst pose of the sky scan (cover
-/// off, level), the axis-torque maps, the text sections and the cautions.
+/// The assessment report as a self-contained HTML page: a table or chart
+/// for each finding ([`crate::render::assess::html`]).
 ///
 /// `charts` are the assessment's chart data
 /// ([`crate::model::charts::assess_charts`]).
 ///
 /// # Errors
-/// [`Error::Io`] when the text of the assessment cannot be formatted.
+/// As [`crate::render::assess::html`].
 pub fn assess_html(rep: &AssessReport, charts: &AssessCharts) -> Result<String, Error> {
-    let mut page = Page::new(&format!("Standfast assessment of {}", rep.file));
-    page.cautions(&rep.cautions);
-    page.h2("Tip wind speed by direction");
-    let k = &rep.condition;
-    let chart = PolarChart {
-        title: "Tip wind speed by direction".to_owned(),
-        r_label: "tip wind (m/s)".to_owned(),
-        traces: vec![
-            PolarTrace {
-                name: "home pose".to_owned(),
-                colour: palette::BLUE.to_owned(),
-                points: charts.home.clone(),
-            },
-            PolarTrace {
-                name: "worst pose of the sky".to_owned(),
-                colour: palette::PINK.to_owned(),
-                points: charts.worst.clone(),
-            },
-            PolarTrace {
-                name: "assessed condition".to_owned(),
-                colour: palette::AMBER.to_owned(),
-                points: charts.condition.clone(),
-            },
-        ],
-        marker: rep.sky.tip.tip_wind_mps.map(|v| PolarMarker {
-            deg: f64::from(rep.sky.tip.from_rad.to_degrees()),
-            value: f64::from(v),
-            label: format!("lowest {v:.1} m/s"),
-        }),
-        size: 440.0,
-    };
-    page.figure(
-        &chart.to_svg(),
-        &format!(
-            "Lowest wind speed that tips the rig, for a wind from each direction (every {POLAR_STEP_DEG}°), level ground, cover off: in the home pose ({}) and in the worst pose of the sky scan ({}); and in the assessed condition ({}, {}, cover {}). Open circles on the outer ring: no wind tips it from that direction.",
-            pose_words(&charts.home_pose),
-            pose_words(&rep.sky.tip.pose),
-            k.pose,
-            if k.tilt_deg > 0.0 {
-                format!("ground tilt {:.1}° downhill toward {:.0}°", k.tilt_deg, k.downhill_deg)
-            } else {
-                "level ground".to_owned()
-            },
-            if k.cover_fitted { "fitted" } else { "off" }
-        ),
-    );
-    page.h2("Axis torque over the sky");
-    let (maps, rated) = (charts.torque.clone(), charts.rated);
-    let step = TORQUE_MAP_STEP_DEG;
-    let x_labels: Vec<String> = (-180 / step..=180 / step)
-        .map(|k| format!("{:+}", k * step / 15))
-        .collect();
-    let y_labels: Vec<String> = (0..=180 / step)
-        .map(|k| format!("{:+}°", 90 - k * step))
-        .collect();
-    for (axis, m) in ["primary", "secondary"].iter().zip(maps) {
-        if m.iter().flatten().all(Option::is_none) {
-            page.note(&format!(
-                "No {axis}-axis map: the mount does not take hour angle and declination poses."
-            ));
-            continue;
-        }
-        let hm = HeatMap {
-            title: format!(
-                "{axis} axis: |gravity torque| ÷ {}",
-                if rated {
-                    "rated torque"
-                } else {
-                    "largest on the map"
-                }
-            ),
-            x_label: "hour angle (h)".to_owned(),
-            y_label: "declination".to_owned(),
-            x_labels: x_labels.clone(),
-            y_labels: y_labels.clone(),
-            values: m,
-            value_label: "utilisation".to_owned(),
-        };
-        page.figure(
-            &hm.to_svg(),
-            &format!(
-                "Gravity torque on the {axis} axis every {step}° of hour angle and declination, calm, level, cover off, on the usual pier side (tube east at hour angles ≥ 0, tube west below), {}.",
-                if rated {
-                    "in % of the drive's rated torque (over 100 %: beyond the rating)"
-                } else {
-                    "in % of the largest on the map (the rig file gives no drive ratings)"
-                }
-            ),
-        );
-    }
-    page.h2("Assessment");
-    let mut text = Vec::new();
-    crate::render::assess::write_text(rep, &mut text).map_err(|x| Error::io("<report>", x))?;
-    page.pre(&String::from_utf8_lossy(&text));
-    page.cautions(&rep.cautions);
-    Ok(page.finish())
+    crate::render::assess::html(rep, charts)
 }

@@ -145,6 +145,48 @@ impl Scale {
     }
 }
 
+/// The stroke pattern of a chart line: with the colour it tells lines
+/// apart (a what-if page gives each rig its own colour and pattern, so the
+/// rigs stay apart in grey print and for colour-blind readers too).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Stroke {
+    /// A solid line.
+    Solid,
+    /// Long dashes.
+    Dashed,
+    /// Dots.
+    Dotted,
+    /// Dash and dot.
+    DashDot,
+}
+
+impl Stroke {
+    /// The patterns in the order the rigs of a what-if page take them.
+    pub const ALL: [Stroke; 4] = [
+        Stroke::Solid,
+        Stroke::Dashed,
+        Stroke::Dotted,
+        Stroke::DashDot,
+    ];
+
+    /// The SVG `stroke-dasharray` of the pattern (`None`: solid), pixels.
+    #[must_use]
+    pub fn dasharray(self) -> Option<&'static str> {
+        match self {
+            Stroke::Solid => None,
+            Stroke::Dashed => Some("6 3"),
+            Stroke::Dotted => Some("1.5 3"),
+            Stroke::DashDot => Some("8 3 1.5 3"),
+        }
+    }
+
+    /// The ` stroke-dasharray="…"` attribute (empty for solid).
+    fn attr(self) -> String {
+        self.dasharray()
+            .map_or_else(String::new, |d| format!(r#" stroke-dasharray="{d}""#))
+    }
+}
+
 /// One line of a line chart.
 #[derive(Clone, Debug)]
 pub struct Line {
@@ -154,8 +196,8 @@ pub struct Line {
     pub colour: String,
     /// `(x, y)` points; `None` breaks the line.
     pub points: Vec<(f64, Option<f64>)>,
-    /// Dashed stroke.
-    pub dashed: bool,
+    /// Stroke pattern.
+    pub stroke: Stroke,
     /// Draw dots only (for directions, which wrap at 360°).
     pub dots: bool,
 }
@@ -699,11 +741,7 @@ impl LineChart {
                 r#"<path class="series" d="{}" stroke="{}" fill="none"{}><title>{}</title></path>"#,
                 d.trim_end(),
                 esc(&l.colour),
-                if l.dashed {
-                    r#" stroke-dasharray="5 3""#
-                } else {
-                    ""
-                },
+                l.stroke.attr(),
                 esc(&l.name)
             );
         }
@@ -714,12 +752,29 @@ impl LineChart {
         for (l, &(lx, row)) in self.lines.iter().zip(legend) {
             #[allow(clippy::cast_precision_loss)]
             let ly = 40.0 + row as f64 * 16.0;
+            // The key is a short stretch of the line itself, in its colour
+            // and pattern (dots for a dot series).
+            let key = if l.dots {
+                format!(
+                    r#"<circle class="legend-key" cx="{}" cy="{}" r="2.5" fill="{}"/>"#,
+                    n(lx + 7.0),
+                    n(ly - 4.0),
+                    esc(&l.colour)
+                )
+            } else {
+                format!(
+                    r#"<line class="legend-key" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}" stroke-width="2.5"{}/>"#,
+                    n(lx),
+                    n(ly - 4.0),
+                    n(lx + 14.0),
+                    n(ly - 4.0),
+                    esc(&l.colour),
+                    l.stroke.attr()
+                )
+            };
             let _ = write!(
                 *s,
-                r#"<rect class="legend-key" x="{}" y="{}" width="14" height="4" fill="{}"/><text class="legend" x="{}" y="{}">{}</text>"#,
-                n(lx),
-                n(ly - 7.0),
-                esc(&l.colour),
+                r#"{key}<text class="legend" x="{}" y="{}">{}</text>"#,
                 n(lx + 18.0),
                 n(ly),
                 esc(&l.name)
@@ -752,8 +807,23 @@ pub fn timeline(
     clock: Option<&super::clock::Clock>,
     x_label: &str,
 ) -> String {
-    let (w, h) = (900.0, 110.0);
-    let (ml, mr) = (64.0, 96.0);
+    timeline_rows(title, x_range, &[("", spans)], categories, clock, x_label)
+}
+
+/// A band timeline with one row per `(row label, spans)` (the label is
+/// written left of its row; a what-if page has a row per rig), one time
+/// axis under the last row, and the legend of the categories above the
+/// first.
+#[must_use]
+pub fn timeline_rows(
+    title: &str,
+    x_range: (f64, f64),
+    rows: &[(&str, &[Span])],
+    categories: &[(&str, &str)],
+    clock: Option<&super::clock::Clock>,
+    x_label: &str,
+) -> String {
+    let (w, ml, mr) = (900.0, 64.0, 96.0);
     let (x0, x1) = x_range;
     let x1 = if x1 - x0 < 1e-9 { x0 + 1.0 } else { x1 };
     let xs = Scale {
@@ -762,7 +832,11 @@ pub fn timeline(
         p0: ml,
         p1: w - mr,
     };
-    let (by, bh) = (30.0, 28.0);
+    let (by, bh, gap) = (30.0, 28.0, 6.0);
+    #[allow(clippy::cast_precision_loss)] // a few rows
+    let n_rows = rows.len().max(1) as f64;
+    let bottom = by + n_rows * bh + (n_rows - 1.0) * gap;
+    let h = bottom + 52.0;
     let mut s = String::new();
     let _ = write!(
         s,
@@ -775,22 +849,35 @@ pub fn timeline(
         n(ml),
         esc(title)
     );
-    for sp in spans {
-        let Some((name, colour)) = categories.get(sp.cat) else {
-            continue;
-        };
-        let a = xs.at(sp.t0.max(x0));
-        let b = xs.at(sp.t1.min(x1));
-        let _ = write!(
-            s,
-            r#"<rect class="band" x="{}" y="{}" width="{}" height="{}" fill="{}"><title>{}</title></rect>"#,
-            n(a),
-            n(by),
-            n((b - a).max(0.5)),
-            n(bh),
-            esc(colour),
-            esc(name)
-        );
+    for (i, (label, spans)) in rows.iter().enumerate() {
+        #[allow(clippy::cast_precision_loss)]
+        let ry = by + i as f64 * (bh + gap);
+        for sp in *spans {
+            let Some((name, colour)) = categories.get(sp.cat) else {
+                continue;
+            };
+            let a = xs.at(sp.t0.max(x0));
+            let b = xs.at(sp.t1.min(x1));
+            let _ = write!(
+                s,
+                r#"<rect class="band" x="{}" y="{}" width="{}" height="{}" fill="{}"><title>{}</title></rect>"#,
+                n(a),
+                n(ry),
+                n((b - a).max(0.5)),
+                n(bh),
+                esc(colour),
+                esc(name)
+            );
+        }
+        if !label.is_empty() {
+            let _ = write!(
+                s,
+                r#"<text class="axis-label" x="{}" y="{}" text-anchor="end">{}</text>"#,
+                n(ml - 6.0),
+                n(ry + bh / 2.0 + 4.0),
+                esc(label)
+            );
+        }
     }
     let step = time_step_s(x1 - x0, 8);
     let x_ticks = match clock {
@@ -803,11 +890,11 @@ pub fn timeline(
             s,
             r#"<line class="tick" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="tick-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
             n(px),
-            n(by + bh),
+            n(bottom),
             n(px),
-            n(by + bh + 5.0),
+            n(bottom + 5.0),
             n(px),
-            n(by + bh + 18.0),
+            n(bottom + 18.0),
             esc(&clock.map_or_else(|| time_label(t, step), |c| c.label(t, step)))
         );
     }
@@ -815,7 +902,7 @@ pub fn timeline(
         s,
         r#"<text class="axis-label" x="{}" y="{}" text-anchor="middle">{}</text>"#,
         n((ml + w - mr) / 2.0),
-        n(by + bh + 34.0),
+        n(bottom + 34.0),
         esc(x_label)
     );
     for (i, (name, colour)) in categories.iter().enumerate() {
@@ -844,6 +931,29 @@ pub struct PolarTrace {
     pub colour: String,
     /// Points in direction order.
     pub points: Vec<(f64, Option<f64>)>,
+    /// Stroke pattern.
+    pub stroke: Stroke,
+}
+
+/// A circle of one radius value on a polar chart (e.g. the design gust),
+/// drawn dashed in ink and named in the legend, not on the plot.
+#[derive(Clone, Debug)]
+pub struct PolarRing {
+    /// Radius value.
+    pub value: f64,
+    /// Legend text.
+    pub label: String,
+}
+
+/// A direction drawn as an arrow from the outer ring to the centre on a
+/// polar chart (e.g. the storm direction: the wind blows from there),
+/// named in the legend, not on the plot.
+#[derive(Clone, Debug)]
+pub struct PolarBearing {
+    /// Direction, degrees clockwise from north.
+    pub deg: f64,
+    /// Legend text.
+    pub label: String,
 }
 
 /// A marked point on a polar chart (e.g. the gust at the closest approach).
@@ -868,6 +978,10 @@ pub struct PolarChart {
     pub traces: Vec<PolarTrace>,
     /// An optional marked point.
     pub marker: Option<PolarMarker>,
+    /// Circles of given radius values (named in the legend).
+    pub rings: Vec<PolarRing>,
+    /// Directions drawn as arrows toward the centre (named in the legend).
+    pub bearings: Vec<PolarBearing>,
     /// Size of the square chart, pixels.
     pub size: f64,
 }
@@ -892,18 +1006,31 @@ impl PolarChart {
             .iter()
             .flat_map(|t| t.points.iter().filter_map(|p| p.1))
             .chain(self.marker.iter().map(|m| m.value))
+            .chain(self.rings.iter().map(|r| r.value))
             .filter(|v| v.is_finite())
             .fold(0.0_f64, f64::max);
         let step = nice_step(max.max(1.0), 4);
         let r_max = ((max.max(1.0) / step).ceil() * step).max(step);
         let rs = |v: f64| v.clamp(0.0, r_max) / r_max * r_px;
+        // The legend's column right of the plot: as wide as its longest
+        // entry (150 px at least).
+        #[allow(clippy::cast_precision_loss)] // short labels
+        let legend_w = self
+            .traces
+            .iter()
+            .map(|t| t.name.chars().count())
+            .chain(self.rings.iter().map(|r| r.label.chars().count()))
+            .chain(self.bearings.iter().map(|b| b.label.chars().count()))
+            .chain(std::iter::once(self.r_label.chars().count() + 8))
+            .map(|c| 28.0 + c as f64 * CHAR_W_PX)
+            .fold(150.0_f64, f64::max);
         let mut s = String::new();
         let _ = write!(
             s,
             r#"<svg class="chart polar-chart" width="{}" height="{}" viewBox="0 0 {} {}" role="img" aria-label="{}"><text class="chart-title" x="8" y="18">{}</text>"#,
-            n(size + 150.0),
+            n(size + legend_w),
             n(size + 28.0),
-            n(size + 150.0),
+            n(size + legend_w),
             n(size + 28.0),
             esc(&self.title),
             esc(&self.title)
@@ -952,25 +1079,71 @@ impl PolarChart {
             }
             let _ = write!(
                 s,
-                r#"<polygon class="polar-trace" data-points="{}" points="{}" stroke="{}"><title>{}</title></polygon>{}"#,
+                r#"<polygon class="polar-trace" data-points="{}" points="{}" stroke="{}"{}><title>{}</title></polygon>{}"#,
                 t.points.len(),
                 pts.trim_end(),
                 esc(&t.colour),
+                t.stroke.attr(),
                 esc(&t.name),
                 open
             );
-            #[allow(clippy::cast_precision_loss)]
-            let ly = 40.0 + i as f64 * 16.0;
             let _ = write!(
                 s,
-                r#"<rect class="legend-key" x="{}" y="{}" width="12" height="4" fill="{}"/><text class="legend" x="{}" y="{}">{}</text>"#,
-                n(size + 4.0),
-                n(ly - 4.0),
+                r#"<line class="legend-key" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}" stroke-width="2.5"{}/>"#,
+                n(size + 2.0),
+                n(legend_y(i) - 4.0),
+                n(size + 16.0),
+                n(legend_y(i) - 4.0),
                 esc(&t.colour),
-                n(size + 20.0),
-                n(ly),
-                esc(&t.name)
+                t.stroke.attr()
             );
+            legend_text(&mut s, size + 20.0, legend_y(i), &t.name);
+        }
+        let mut row = self.traces.len();
+        for ring in &self.rings {
+            let _ = write!(
+                s,
+                r#"<circle class="polar-ring" cx="{}" cy="{}" r="{}"><title>{}</title></circle><line class="legend-key polar-ring" x1="{}" y1="{}" x2="{}" y2="{}"/>"#,
+                n(cx),
+                n(cy),
+                n(rs(ring.value)),
+                esc(&ring.label),
+                n(size + 2.0),
+                n(legend_y(row) - 4.0),
+                n(size + 16.0),
+                n(legend_y(row) - 4.0)
+            );
+            legend_text(&mut s, size + 20.0, legend_y(row), &ring.label);
+            row += 1;
+        }
+        for b in &self.bearings {
+            let (x, y) = polar_xy(cx, cy, b.deg, r_px);
+            let (hx, hy) = polar_xy(cx, cy, b.deg, r_px * 0.55);
+            // The arrow head at the inner end: the wind blows toward the
+            // centre.
+            let (l1x, l1y) = polar_xy(hx, hy, b.deg + 20.0, 10.0);
+            let (l2x, l2y) = polar_xy(hx, hy, b.deg - 20.0, 10.0);
+            let _ = write!(
+                s,
+                r#"<g class="polar-bearing"><title>{}</title><line x1="{}" y1="{}" x2="{}" y2="{}"/><polyline points="{},{} {},{} {},{}"/></g><g class="polar-bearing legend-key"><line x1="{}" y1="{}" x2="{}" y2="{}"/></g>"#,
+                esc(&b.label),
+                n(x),
+                n(y),
+                n(hx),
+                n(hy),
+                n(l1x),
+                n(l1y),
+                n(hx),
+                n(hy),
+                n(l2x),
+                n(l2y),
+                n(size + 2.0),
+                n(legend_y(row) - 4.0),
+                n(size + 16.0),
+                n(legend_y(row) - 4.0)
+            );
+            legend_text(&mut s, size + 20.0, legend_y(row), &b.label);
+            row += 1;
         }
         if let Some(m) = &self.marker {
             let (x, y) = polar_xy(cx, cy, m.deg, rs(m.value));
@@ -988,6 +1161,24 @@ impl PolarChart {
         s.push_str("</svg>");
         s
     }
+}
+
+/// The baseline of the polar chart's legend row `i`, pixels.
+fn legend_y(i: usize) -> f64 {
+    #[allow(clippy::cast_precision_loss)] // a few rows
+    let y = 40.0 + i as f64 * 16.0;
+    y
+}
+
+/// A legend entry's text at (`x`, `y`).
+fn legend_text(s: &mut String, x: f64, y: f64, text: &str) {
+    let _ = write!(
+        *s,
+        r#"<text class="legend" x="{}" y="{}">{}</text>"#,
+        n(x),
+        n(y),
+        esc(text)
+    );
 }
 
 /// The twelve spokes of a polar chart every 30°, labelled with N, E, S, W
@@ -1018,46 +1209,69 @@ fn polar_spokes(s: &mut String, cx: f64, cy: f64, r_px: f64) {
     }
 }
 
-/// Colour of a utilisation on the heat maps' own scale: pale green at 0,
-/// through amber at 0.5 to red at 1, and a dark brown beyond 1 (over the
-/// rating). `None` is grey.
+/// The heat maps' continuous colour scale: `(value, sRGB)` stops, linear
+/// between them, from a pale cream at 0 through amber and brick to a deep
+/// plum at 1 (100 % of the rating). Lightness falls all the way, so the
+/// order reads without colour vision and in grey print.
+pub const HEAT_STOPS: [(f64, [u8; 3]); 4] = [
+    (0.0, [0xfb, 0xf3, 0xc4]),
+    (1.0 / 3.0, [0xee, 0xa9, 0x4e]),
+    (2.0 / 3.0, [0xc0, 0x4f, 0x3c]),
+    (1.0, [0x52, 0x17, 0x45]),
+];
+
+/// Colour of cells over 1 (beyond the rating): near black.
+pub const HEAT_OVER: &str = "#161616";
+
+/// Colour of cells without a value.
+pub const HEAT_NONE: &str = "#c9ccd1";
+
+/// Colour of a utilisation on the heat maps' continuous scale
+/// ([`HEAT_STOPS`]): 0 to 1 interpolated, over 1 [`HEAT_OVER`], `None` or
+/// not finite [`HEAT_NONE`].
 #[must_use]
 pub fn heat_colour(v: Option<f64>) -> String {
     let Some(v) = v.filter(|v| v.is_finite()) else {
-        return "#bbbbbb".to_owned();
+        return HEAT_NONE.to_owned();
     };
     if v > 1.0 {
-        return "#4a1c10".to_owned();
+        return HEAT_OVER.to_owned();
     }
-    let stops: [(f64, [f64; 3]); 3] = [
-        (0.0, [232.0, 244.0, 226.0]),
-        (0.5, [240.0, 190.0, 80.0]),
-        (1.0, [196.0, 52.0, 40.0]),
-    ];
     let v = v.max(0.0);
-    let (a, b) = if v <= 0.5 {
-        (stops[0], stops[1])
-    } else {
-        (stops[1], stops[2])
-    };
-    let f = (v - a.0) / (b.0 - a.0);
-    let c: Vec<u8> = (0..3)
-        .map(|i| {
-            let x = a.1[i] + (b.1[i] - a.1[i]) * f;
-            #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
-            let x = x.round().clamp(0.0, 255.0) as u8;
-            x
-        })
-        .collect();
+    let mut c = HEAT_STOPS[0].1;
+    for w in HEAT_STOPS.windows(2) {
+        let ((a, ca), (b, cb)) = (w[0], w[1]);
+        if v >= a && v <= b {
+            let f = (v - a) / (b - a);
+            for (k, slot) in c.iter_mut().enumerate() {
+                let x = f64::from(ca[k]) + (f64::from(cb[k]) - f64::from(ca[k])) * f;
+                #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+                let x = x.round().clamp(0.0, 255.0) as u8;
+                *slot = x;
+            }
+            break;
+        }
+    }
     format!("#{:02x}{:02x}{:02x}", c[0], c[1], c[2])
 }
 
+/// Whether a cell's value is written in white (on the dark end of the
+/// scale) rather than in ink.
+#[must_use]
+pub fn heat_text_is_white(v: Option<f64>) -> bool {
+    v.is_some_and(|v| v.is_finite() && v > 0.55)
+}
+
 /// A heat map: rows (`y_labels`, top to bottom) × columns (`x_labels`) of
-/// values coloured by [`heat_colour`], with a colour-scale legend.
+/// values coloured by [`heat_colour`], each cell with its value in % written
+/// in it, and a continuous colour-scale legend (a gradient with tick
+/// values).
 #[derive(Clone, Debug)]
 pub struct HeatMap {
     /// Title.
     pub title: String,
+    /// Id of the map's gradient (unique on the page; letters, digits, `-`).
+    pub id: String,
     /// Label of the x axis.
     pub x_label: String,
     /// Label of the y axis.
@@ -1066,7 +1280,7 @@ pub struct HeatMap {
     pub x_labels: Vec<String>,
     /// Row labels, top row first.
     pub y_labels: Vec<String>,
-    /// `values[row][column]`.
+    /// `values[row][column]`, fractions (1 = 100 %).
     pub values: Vec<Vec<Option<f64>>>,
     /// What a value is (for cell tooltips and the legend).
     pub value_label: String,
@@ -1076,12 +1290,17 @@ impl HeatMap {
     /// The map as an `<svg>` element.
     #[must_use]
     pub fn to_svg(&self) -> String {
-        let (cw, ch) = (24.0, 18.0);
+        let (cw, ch) = (26.0, 18.0);
         let (ml, mt) = (64.0, 34.0);
         #[allow(clippy::cast_precision_loss)]
         let (cols, rows) = (self.x_labels.len() as f64, self.y_labels.len() as f64);
-        let w = ml + cols * cw + 130.0;
-        let h = mt + rows * ch + 58.0;
+        let w = ml + cols * cw + 150.0;
+        let h = (mt + rows * ch + 58.0).max(mt + 250.0);
+        let id: String = self
+            .id
+            .chars()
+            .filter(|c| c.is_ascii_alphanumeric() || *c == '-')
+            .collect();
         let mut s = String::new();
         let _ = write!(
             s,
@@ -1098,13 +1317,14 @@ impl HeatMap {
             for (c, v) in row.iter().enumerate() {
                 #[allow(clippy::cast_precision_loss)]
                 let (x, y) = (ml + c as f64 * cw, mt + r as f64 * ch);
+                let value = v.filter(|v| v.is_finite());
                 let tip = format!(
                     "{} {}, {} {}: {}",
                     self.x_label,
                     self.x_labels.get(c).map_or("", String::as_str),
                     self.y_label,
                     self.y_labels.get(r).map_or("", String::as_str),
-                    v.map_or_else(|| "n/a".to_owned(), |v| format!("{:.0} %", v * 100.0))
+                    value.map_or_else(|| "n/a".to_owned(), |v| format!("{:.0} %", v * 100.0))
                 );
                 let _ = write!(
                     s,
@@ -1113,9 +1333,23 @@ impl HeatMap {
                     n(y),
                     n(cw),
                     n(ch),
-                    heat_colour(*v),
+                    heat_colour(value),
                     esc(&tip)
                 );
+                if let Some(v) = value {
+                    let _ = write!(
+                        s,
+                        r#"<text class="cell-value" x="{}" y="{}" text-anchor="middle" fill="{}">{:.0}</text>"#,
+                        n(x + cw / 2.0),
+                        n(y + ch / 2.0 + 3.5),
+                        if heat_text_is_white(value) {
+                            "#ffffff"
+                        } else {
+                            super::palette::INK
+                        },
+                        v * 100.0
+                    );
+                }
             }
         }
         for (r, l) in self.y_labels.iter().enumerate() {
@@ -1153,38 +1387,67 @@ impl HeatMap {
             n(mt + rows * ch / 2.0),
             esc(&self.y_label)
         );
-        // Colour scale.
-        let lx = ml + cols * cw + 24.0;
-        let steps = [0.0, 0.25, 0.5, 0.75, 1.0, 1.25];
-        for (i, v) in steps.iter().enumerate() {
-            #[allow(clippy::cast_precision_loss)]
-            let y = mt + i as f64 * 18.0;
-            let label = if *v > 1.0 {
-                "over 100 %".to_owned()
-            } else {
-                format!("{:.0} %", v * 100.0)
-            };
+        self.scale_svg(&mut s, ml + cols * cw + 24.0, mt, &id);
+        s.push_str("</svg>");
+        s
+    }
+
+    /// The continuous colour scale at (`lx`, `top`): a vertical gradient
+    /// bar, 100 % at the top, ticks every 25 %, then swatches for over
+    /// 100 % and for no value.
+    fn scale_svg(&self, s: &mut String, lx: f64, top: f64, id: &str) {
+        let bar_h = 160.0;
+        let _ = write!(
+            *s,
+            r#"<defs><linearGradient id="{id}" x1="0" y1="1" x2="0" y2="0">"#
+        );
+        for (v, c) in HEAT_STOPS {
             let _ = write!(
-                s,
-                r#"<rect class="scale-key" x="{}" y="{}" width="16" height="16" fill="{}"/><text class="legend" x="{}" y="{}">{}</text>"#,
-                n(lx),
-                n(y),
-                heat_colour(Some(*v)),
-                n(lx + 20.0),
-                n(y + 12.0),
-                esc(&label)
+                *s,
+                r##"<stop offset="{}" stop-color="#{:02x}{:02x}{:02x}"/>"##,
+                n(v),
+                c[0],
+                c[1],
+                c[2]
             );
         }
         let _ = write!(
-            s,
-            r#"<rect class="scale-key" x="{}" y="{}" width="16" height="16" fill="{}"/><text class="legend" x="{}" y="{}">n/a</text>"#,
+            *s,
+            r#"</linearGradient></defs><text class="legend" x="{}" y="{}">{} (%)</text><rect class="scale-bar" x="{}" y="{}" width="16" height="{}" fill="url(#{id})"/>"#,
             n(lx),
-            n(mt + 6.0 * 18.0),
-            heat_colour(None),
-            n(lx + 20.0),
-            n(mt + 6.0 * 18.0 + 12.0)
+            n(top + 4.0),
+            esc(&self.value_label),
+            n(lx),
+            n(top + 14.0),
+            n(bar_h)
         );
-        s.push_str("</svg>");
-        s
+        for k in 0..=4_u32 {
+            let v = f64::from(k) * 0.25;
+            let y = top + 14.0 + bar_h * (1.0 - v);
+            let _ = write!(
+                *s,
+                r#"<line class="tick" x1="{}" y1="{}" x2="{}" y2="{}"/><text class="legend" x="{}" y="{}">{:.0}</text>"#,
+                n(lx + 16.0),
+                n(y),
+                n(lx + 21.0),
+                n(y),
+                n(lx + 24.0),
+                n(y + 4.0),
+                v * 100.0
+            );
+        }
+        let y = top + 14.0 + bar_h + 14.0;
+        let _ = write!(
+            *s,
+            r#"<rect class="scale-key" x="{}" y="{}" width="16" height="14" fill="{HEAT_OVER}"/><text class="legend" x="{}" y="{}">over 100</text><rect class="scale-key" x="{}" y="{}" width="16" height="14" fill="{HEAT_NONE}"/><text class="legend" x="{}" y="{}">no value</text>"#,
+            n(lx),
+            n(y),
+            n(lx + 20.0),
+            n(y + 11.0),
+            n(lx),
+            n(y + 20.0),
+            n(lx + 20.0),
+            n(y + 31.0)
+        );
     }
 }

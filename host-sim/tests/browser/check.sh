@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Chart check in headless Chromium (Debian's `chromium`): writes the demo
-# report and an assess page, takes a full-page screenshot of each, and fails
+# report, a what-if report (the demo night through the demo rig and through
+# the same rig with its cover never fitted) and an assess page, takes a full-page screenshot of each, and fails
 # when two text labels of any chart overlap, a label is struck through by a
 # threshold or event line, or an event mark has no label (overlap.js says
 # how).
@@ -35,9 +36,12 @@ out="$(cd "$out" && pwd)"
 cargo build -q -p standfast-sim --bin standfast
 bin="$target/debug/standfast"
 
-# The pages: the demo night's report (the whole invented night) and the
+# The pages: the demo night's report (the whole invented night), the same
+# night as a what-if (the rig as it is, and without its cover), and the
 # assessment of the demo rig.
 "$bin" demo --out "$out/demo" --replace >"$out/demo-summary.txt"
+"$bin" replay --rig "$out/demo/rig.toml" --profile "$out/demo/night-log-profile.toml" \
+  --what-if cover=off --html "$out/whatif.html" >"$out/whatif-summary.txt"
 "$bin" assess host-sim/demo/rig.toml --html "$out/assess.html" >"$out/assess.txt"
 
 profile="$(mktemp -d)"
@@ -50,9 +54,9 @@ chrome() {
 }
 
 status=0
-for page in "$out/demo/report.html" "$out/assess.html"; do
+for page in "$out/demo/report.html" "$out/whatif.html" "$out/assess.html"; do
   name="$(basename "$(dirname "$page")")-$(basename "$page" .html)"
-  [ "$page" = "$out/assess.html" ] && name="assess"
+  [ "$(dirname "$page")" = "$out" ] && name="$(basename "$page" .html)"
   # A copy with the check appended as an inline script.
   probe="$out/$name.probe.html"
   {

@@ -215,7 +215,12 @@ fn assert_self_contained(html: &str, doc: &roxmltree::Document<'_>) {
         assert!(!n.has_tag_name("script") && !n.has_tag_name("link") && !n.has_tag_name("img"));
         assert!(n.attribute("src").is_none() && n.attribute("href").is_none());
     }
-    assert!(!html.contains("url("), "no CSS resource");
+    // `url(#id)` names a gradient on the page itself; nothing else.
+    assert!(
+        html.match_indices("url(")
+            .all(|(i, _)| html[i + 4..].starts_with('#')),
+        "no CSS resource"
+    );
 }
 
 /// Vertices of a polygon's `points` attribute.
@@ -536,4 +541,166 @@ fn a_gap_in_the_wind_is_drawn_as_a_gap() {
         .collect();
     assert_eq!(bands.len(), 1);
     assert!(html.contains("no anemometer sample for 0:41"), "{html}");
+}
+
+/// Issue 14: the assess page shows each finding as a table or chart, not a
+/// monospace dump: the design gust and the storm direction are drawn on
+/// the polar chart, the torque maps carry their values and a continuous
+/// colour scale, and the payload envelope's axes are defined in words
+/// (in the text too). Each assertion fails on the page as it was (one
+/// `<pre>` with the text, swatches for the scale, no ring or arrow).
+#[test]
+fn assess_page_gives_each_finding_its_table_or_chart() {
+    let rig = demo_rig();
+    let rep = standfast_sim::model::assess::assess(
+        &rig,
+        &standfast_sim::model::assess::AssessOptions::default(),
+    )
+    .unwrap();
+    let html = report::assess_html(&rep, &assess_charts(&rep, &rig).unwrap()).unwrap();
+    let doc = parse(&html);
+    assert!(
+        !doc.descendants().any(|n| n.has_tag_name("pre")),
+        "no monospace dump"
+    );
+    let headers: Vec<String> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("th"))
+        .map(|n| n.text().unwrap_or("").to_owned())
+        .collect();
+    for h in [
+        "finding",
+        "governing wind from",
+        "first leg at",
+        "wind from",
+        "of the rated torque",
+        "unbalance",
+        "offset s (m)",
+        "offset p (m)",
+        "utilisation",
+    ] {
+        assert!(headers.iter().any(|x| x == h), "no table headed {h:?}");
+    }
+    // The findings' figures as the text gives them.
+    let ballast = rep.ballast_needed.unwrap().amount;
+    assert!(html.contains(&format!("<td class=\"num\">{ballast:.1} kg</td>")));
+    let o = rep.orientation.unwrap();
+    assert!(html.contains(&format!("first leg at {:.0}°", o.best_first_leg_deg)));
+    // The envelope's axes in words, in the page and in the text.
+    let axes = standfast_sim::render::assess::ENVELOPE_AXES;
+    assert!(axes.contains("s along the secondary") && axes.contains("p along the tube"));
+    assert!(html.contains(axes));
+    let mut text = Vec::new();
+    standfast_sim::render::assess::write_text(&rep, &mut text).unwrap();
+    assert!(String::from_utf8(text).unwrap().contains(axes));
+
+    // Polar chart: the design gust as a ring whose radius stands to the
+    // home trace's as the speeds do, and the storm direction as an arrow
+    // from the outer ring along its bearing (compass: north up, clockwise).
+    let polar = doc
+        .descendants()
+        .find(|n| n.has_tag_name("svg") && class_is(n, "polar-chart"))
+        .unwrap();
+    let (cx, cy) = centre(&polar);
+    let ring = polar
+        .descendants()
+        .find(|n| n.has_tag_name("circle") && class_is(n, "polar-ring"))
+        .expect("a design-gust ring");
+    let ring_r: f64 = ring.attribute("r").unwrap().parse().unwrap();
+    let home = polar
+        .descendants()
+        .find(|n| n.has_tag_name("polygon") && class_is(n, "polar-trace"))
+        .unwrap();
+    let v0 = vertices(&home)[0];
+    let t0 = f64::from(rep.home_by_direction[0].tip_wind_mps.unwrap());
+    let want = f64::from(rep.design_gust_mps) / t0;
+    let got = ring_r / (v0.0 - cx).hypot(v0.1 - cy);
+    assert!((got - want).abs() < 2e-3, "{got} {want}");
+    let arrow = polar
+        .descendants()
+        .find(|n| n.has_tag_name("g") && class_is(n, "polar-bearing"))
+        .and_then(|g| g.children().find(|n| n.has_tag_name("line")))
+        .expect("a storm-direction arrow");
+    let x1: f64 = arrow.attribute("x1").unwrap().parse().unwrap();
+    let y1: f64 = arrow.attribute("y1").unwrap().parse().unwrap();
+    let bearing = (x1 - cx).atan2(cy - y1).to_degrees().rem_euclid(360.0);
+    assert!(
+        (bearing - f64::from(o.storm_from_deg)).abs() < 0.1,
+        "{bearing}"
+    );
+    let legend = texts(&doc, "legend");
+    assert!(legend
+        .iter()
+        .any(|t| t == &format!("design gust {:.0} m/s", rep.design_gust_mps)));
+    assert!(legend
+        .iter()
+        .any(|t| t == &format!("storm from {:.0}°", o.storm_from_deg)));
+
+    // Torque maps: a gradient legend with tick values, and each cell's
+    // value written in it (the secondary map's cell at +3 h, +30°).
+    let maps: Vec<_> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("svg") && class_is(n, "heat-map"))
+        .collect();
+    assert_eq!(maps.len(), 2);
+    for m in &maps {
+        let grad = m
+            .descendants()
+            .find(|n| n.has_tag_name("linearGradient"))
+            .expect("a continuous scale");
+        let stops = grad.children().filter(|n| n.has_tag_name("stop")).count();
+        assert!(stops >= 3);
+        let id = grad.attribute("id").unwrap();
+        assert!(
+            m.descendants()
+                .any(|n| n.has_tag_name("rect")
+                    && n.attribute("fill") == Some(&format!("url(#{id})")))
+        );
+        let ticks: Vec<String> = m
+            .descendants()
+            .filter(|n| n.has_tag_name("text") && class_is(n, "legend"))
+            .map(|n| n.text().unwrap_or("").to_owned())
+            .collect();
+        for t in ["0", "25", "50", "75", "100"] {
+            assert!(ticks.iter().any(|x| x == t), "tick {t} in {ticks:?}");
+        }
+    }
+    let ids: Vec<&str> = maps
+        .iter()
+        .filter_map(|m| m.descendants().find(|n| n.has_tag_name("linearGradient")))
+        .map(|g| g.attribute("id").unwrap())
+        .collect();
+    assert_ne!(ids[0], ids[1], "gradient ids unique on the page");
+    let values: Vec<String> = maps[1]
+        .descendants()
+        .filter(|n| n.has_tag_name("text") && class_is(n, "cell-value"))
+        .map(|n| n.text().unwrap_or("").to_owned())
+        .collect();
+    let (torque, _) = charts::torque_map(&rig);
+    assert_eq!(
+        values[4 * 25 + 15],
+        format!("{:.0}", torque[1][4][15].unwrap() * 100.0)
+    );
+}
+
+#[test]
+fn heat_scale_is_continuous_and_darkens_with_the_value() {
+    // A continuous scale: every 1 % step gives its own colour, and the
+    // lightness (CIE L*, from the palette's own conversion) falls
+    // monotonically from 0 to 100 %, so the order reads in grey too.
+    use standfast_sim::render::palette::{seen, NORMAL};
+    use standfast_sim::render::svg::heat_colour;
+    let mut last_l = f64::INFINITY;
+    let mut last_c = String::new();
+    for k in 0..=100 {
+        let c = heat_colour(Some(f64::from(k) / 100.0));
+        assert_ne!(c, last_c, "{k} %");
+        let l = seen(&c, &NORMAL).unwrap()[0];
+        assert!(l < last_l, "{k} %: L* {l} not below {last_l}");
+        last_l = l;
+        last_c = c;
+    }
+    // Over the rating and no value stand apart from the scale.
+    assert_ne!(heat_colour(Some(1.01)), heat_colour(Some(1.0)));
+    assert_ne!(heat_colour(None), heat_colour(Some(0.0)));
 }

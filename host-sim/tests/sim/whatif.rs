@@ -296,3 +296,129 @@ fn cover_variants_take_no_cover_samples_from_the_log() {
     );
     assert_ne!(rep.rigs[1].final_stage.name(), "sensor_fault");
 }
+
+fn has_class(n: &roxmltree::Node<'_, '_>, c: &str) -> bool {
+    n.attribute("class")
+        .is_some_and(|a| a.split_whitespace().any(|x| x == c))
+}
+
+/// Issue 14: the what-if HTML draws ONE set of charts with the rigs
+/// overlaid (each rig its own colour and line pattern, named in the
+/// legend) and the side-by-side table of the text summary; before, the page
+/// repeated every chart per rig and had no table, so each assertion below
+/// failed.
+#[test]
+fn what_if_page_overlays_the_rigs_and_has_the_side_by_side_table() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = ramp_log(dir.path());
+    let base = demo_rig();
+    let heavier =
+        whatif::variant_from_texts(&base, &["ballast=12 kg@0,0,0.2 m".to_owned()]).unwrap();
+    let rigs = [base, heavier];
+    let rep = run(&profile, &rigs);
+    let charts = standfast_sim::model::charts::replay_charts(&rep, &rigs).unwrap();
+    let html = standfast_sim::render::report::replay_html(&rep, &charts);
+    let doc = roxmltree::Document::parse_with_options(
+        &html,
+        roxmltree::ParsingOptions {
+            allow_dtd: true,
+            ..roxmltree::ParsingOptions::default()
+        },
+    )
+    .unwrap();
+    let svgs: Vec<_> = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("svg"))
+        .collect();
+    let titled = |t: &str| {
+        svgs.iter()
+            .filter(|s| s.attribute("aria-label") == Some(t))
+            .count()
+    };
+    // One chart of each kind, not one per rig.
+    for t in [
+        "Overturning utilisation",
+        "Stage over time",
+        "Gust and tip wind at rig height",
+    ] {
+        assert_eq!(titled(t), 1, "{t}");
+    }
+    assert_eq!(titled("Utilisation over time"), 0, "no per-rig copies");
+    // The overturning chart holds a line per rig, told apart by colour and
+    // pattern, each named in the legend.
+    let chart = svgs
+        .iter()
+        .find(|s| s.attribute("aria-label") == Some("Overturning utilisation"))
+        .unwrap();
+    let lines: Vec<_> = chart
+        .descendants()
+        .filter(|n| n.has_tag_name("path") && has_class(n, "series"))
+        .collect();
+    assert_eq!(lines.len(), 2);
+    let style = |n: &roxmltree::Node<'_, '_>| {
+        (
+            n.attribute("stroke").unwrap().to_owned(),
+            n.attribute("stroke-dasharray").map(str::to_owned),
+        )
+    };
+    let (a, b) = (style(&lines[0]), style(&lines[1]));
+    assert_ne!(a.0, b.0, "colours");
+    assert_ne!(a.1, b.1, "patterns");
+    let legend: Vec<&str> = chart
+        .descendants()
+        .filter(|n| n.has_tag_name("text") && has_class(n, "legend"))
+        .filter_map(|n| n.text())
+        .collect();
+    assert_eq!(legend, ["A: overturning", "B: overturning"]);
+    let keys: Vec<_> = chart
+        .descendants()
+        .filter(|n| n.has_tag_name("line") && has_class(n, "legend-key"))
+        .map(|n| {
+            (
+                n.attribute("stroke").unwrap().to_owned(),
+                n.attribute("stroke-dasharray").map(str::to_owned),
+            )
+        })
+        .collect();
+    assert_eq!(keys, [a, b], "each key drawn as its line");
+    // The side-by-side table: a column per rig and the text's rows and
+    // cells.
+    let cmp = whatif::compare(&rep);
+    let table = doc
+        .descendants()
+        .filter(|n| n.has_tag_name("table"))
+        .find(|t| {
+            t.descendants()
+                .filter(|n| n.has_tag_name("th"))
+                .filter_map(|n| n.text())
+                .eq(["figure", "A", "B"])
+        })
+        .expect("a side-by-side table");
+    let rows: Vec<Vec<String>> = table
+        .descendants()
+        .filter(|n| n.has_tag_name("tr"))
+        .skip(1)
+        .map(|r| {
+            r.children()
+                .filter(|c| c.has_tag_name("td"))
+                .map(|c| c.text().unwrap_or("").to_owned())
+                .collect()
+        })
+        .collect();
+    let want: Vec<Vec<String>> = standfast_sim::render::whatif::comparison_rows(&cmp)
+        .into_iter()
+        .map(|(label, cells)| {
+            let mut r = vec![label.trim().to_owned()];
+            r.extend(cells);
+            r
+        })
+        .collect();
+    assert_eq!(rows, want);
+    assert!(rows.iter().any(|r| r[0] == "highest overturning"));
+    let text = standfast_sim::render::whatif::comparison_text(&cmp);
+    for r in &want {
+        for cell in &r[1..] {
+            assert!(text.contains(cell.as_str()), "{cell} not in the text");
+        }
+    }
+}
