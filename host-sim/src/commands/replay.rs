@@ -56,6 +56,26 @@ pub struct ReplayArgs {
     /// example's event lines to this file (see `event_lines`).
     #[arg(long, value_name = "FILE")]
     pub events: Option<std::path::PathBuf>,
+    /// Local time zone of the summary's and the HTML report's times, as an
+    /// offset east of UTC: +hh:mm, -hh:mm or Z (-23:59 to +23:59), e.g.
+    /// +02:00. Default: the offset the logs write (UTC when they write
+    /// none). JSON and CSV times stay ISO 8601 UTC.
+    #[arg(long, value_name = "±hh:mm", allow_hyphen_values = true)]
+    pub utc_offset: Option<String>,
+}
+
+/// Reads `--utc-offset`: seconds east of UTC.
+///
+/// # Errors
+/// [`Error::Usage`] (exit code 2) naming the option, the value (bounded),
+/// the forms accepted and the range.
+pub fn utc_offset_option(text: &str) -> Result<i32, Error> {
+    crate::input::log::time::parse_offset(text).map_err(|_| {
+        Error::Usage(format!(
+            "--utc-offset = \"{}\": not a zone offset; write +hh:mm, -hh:mm or Z, in the accepted range -23:59 to +23:59 (e.g. +02:00)",
+            crate::input::located::bounded(text)
+        ))
+    })
 }
 
 /// Arguments of `demo`.
@@ -288,6 +308,7 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
     }
     inputs.extend(a.logs.iter().map(|l| Role::new("the log", l)));
     check_paths(&inputs, &outputs)?;
+    let utc_offset_s = a.utc_offset.as_deref().map(utc_offset_option).transpose()?;
     let overrides = a
         .what_if
         .iter()
@@ -326,7 +347,7 @@ pub fn run_replay(a: &ReplayArgs, out: &mut dyn Write) -> Result<(), Error> {
     check_paths(&log_paths, &outputs)?;
     let mut merger = Merger::open(&p, policy.unwrap_or(p.on_error))?;
     let (mut rep, verdict_file) = replay_files(&rigs, &mut merger, a.every, a.verdicts.as_deref())?;
-    rep.local_offset_s = crate::input::log::zone::written_offset_s(&p);
+    rep.local_offset_s = utc_offset_s.or_else(|| crate::input::log::zone::written_offset_s(&p));
     let mut files: Vec<AtomicFile> = verdict_file.into_iter().collect();
     if let Some(path) = &a.events {
         files.push(pending(path, &crate::render::event_lines::lines(&rep)?)?);

@@ -85,6 +85,18 @@ impl Clock {
         Timestamp::from_unix_s(self.start_unix_s + t_s).to_iso8601(0)
     }
 
+    /// `t_s` as local date and time to the second followed by the zone
+    /// (`2025-11-15 05:21:00 UTC+01:00`): the tables' and the text
+    /// summary's notation.
+    #[must_use]
+    pub fn local_datetime_text(&self, t_s: f64) -> String {
+        let t = Timestamp::from_unix_s((self.start_unix_s + t_s).round());
+        let iso = t.to_iso8601_offset(0, self.offset_s);
+        let (date, rest) = iso.split_once('T').unwrap_or((iso.as_str(), ""));
+        let time: String = rest.chars().take(8).collect();
+        format!("{date} {time} {}", self.zone_text())
+    }
+
     /// `t_s` as local `hh:mm:ss` followed by the zone (`05:21:00 UTC+01:00`).
     #[must_use]
     pub fn local_text(&self, t_s: f64) -> String {
@@ -110,5 +122,24 @@ mod tests {
         let labels: Vec<String> = t.iter().map(|x| c.label(*x, 3600.0)).collect();
         assert_eq!(labels, ["16:00", "17:00"]);
         assert_eq!(c.zone_text(), "UTC-05:30");
+    }
+
+    #[test]
+    fn local_date_and_time_cross_midnight() {
+        // 23:30 UTC on 14 November is 00:30 on the 15th at UTC+01:00 and
+        // 18:00 on the 14th at UTC-05:30 (an offset is local time minus
+        // UTC, as ISO 8601 writes it; common practice, no source).
+        let c = Clock::from_start(Some("2025-11-14T23:00:00Z"), Some(3600)).unwrap();
+        assert_eq!(
+            c.local_datetime_text(1800.0),
+            "2025-11-15 00:30:00 UTC+01:00"
+        );
+        let c = Clock::from_start(Some("2025-11-14T23:00:00Z"), Some(-19_800)).unwrap();
+        assert_eq!(
+            c.local_datetime_text(1800.0),
+            "2025-11-14 18:00:00 UTC-05:30"
+        );
+        let c = Clock::from_start(Some("2025-11-14T23:00:00Z"), None).unwrap();
+        assert_eq!(c.local_datetime_text(0.4), "2025-11-14 23:00:00 UTC");
     }
 }

@@ -258,8 +258,17 @@ pub(super) fn pose_chart(
     );
 }
 
-/// Time per stage, stage changes and sensor faults, as tables.
+/// Time per stage (h:mm:ss), stage changes and sensor faults, as tables;
+/// each change and fault at its local date and time with the zone (the
+/// offset the logs carry, or the replay's `--utc-offset`), then in ISO 8601
+/// UTC as the replay recorded it.
 pub(super) fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
+    let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+    let local = |t_s: f64| {
+        clock
+            .as_ref()
+            .map_or_else(|| "-".to_owned(), |c| c.local_datetime_text(t_s))
+    };
     page.h3("Time per stage");
     let rows: Vec<Vec<String>> = r
         .stage_time
@@ -267,7 +276,7 @@ pub(super) fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
         .map(|t| {
             vec![
                 t.stage.name().to_owned(),
-                format!("{:.0} s", t.seconds),
+                crate::render::headline::hms(t.seconds),
                 format!(
                     "{:.1} %",
                     if rep.duration_s > 0.0 {
@@ -279,22 +288,22 @@ pub(super) fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
             ]
         })
         .collect();
-    page.table(&["stage", "time", "share"], &rows);
+    page.table(&["stage", "time (h:mm:ss)", "share"], &rows);
     page.h3(&format!("Stage changes ({})", r.stage_changes.len()));
     let rows: Vec<Vec<String>> = r
         .stage_changes
         .iter()
         .map(|c| {
             vec![
+                local(c.t_s),
                 c.time.clone(),
-                format!("+{:.0} s", c.t_s),
                 c.from.name().to_owned(),
                 c.to.name().to_owned(),
                 c.cause.clone(),
             ]
         })
         .collect();
-    page.table(&["time", "since start", "from", "to", "cause"], &rows);
+    page.table(&["local time", "UTC", "from", "to", "cause"], &rows);
     if r.stage_changes_not_kept > 0 {
         page.note(&format!(
             "… and {} more not kept.",
@@ -305,9 +314,9 @@ pub(super) fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
     let rows: Vec<Vec<String>> = r
         .faults
         .iter()
-        .map(|f| vec![f.time.clone(), format!("+{:.0} s", f.t_s), f.fault.clone()])
+        .map(|f| vec![local(f.t_s), f.time.clone(), f.fault.clone()])
         .collect();
-    page.table(&["time", "since start", "fault"], &rows);
+    page.table(&["local time", "UTC", "fault"], &rows);
     if r.faults_not_kept > 0 {
         page.note(&format!("… and {} more not kept.", r.faults_not_kept));
     }

@@ -59,15 +59,21 @@ fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
     v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
 }
 
-fn approach_text(label: &str, a: Option<&Approach>) -> String {
+/// A time of the replay for the text: local date and time with the zone
+/// when the first record's time is known (UTC when the logs carry no
+/// offset), else seconds since the first record.
+fn at_text(clock: Option<&Clock>, t_s: f64) -> String {
+    clock.map_or_else(|| format!("+{t_s:.0} s"), |c| c.local_datetime_text(t_s))
+}
+
+fn approach_text(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> String {
     let Some(a) = a else {
         return format!("  {label}: no figure (no wind, tilt or pose data)\n");
     };
     format!(
-        "  {label}: {:.0} % at {} (+{:.0} s), gust {}, from {}, {}, tilt {}, tip wind {}, stage {}\n",
+        "  {label}: {:.0} % at {}, gust {}, from {}, {}, tilt {}, tip wind {}, stage {}\n",
         a.utilisation * 100.0,
-        a.time,
-        a.t_s,
+        at_text(clock, a.t_s),
         num(a.gust_mps, "m/s", 1),
         num(a.wind_from_deg, "°", 0),
         pose_text(&a.pose),
@@ -85,7 +91,8 @@ pub fn text(rep: &ReplayReport) -> String {
     s.push('\n');
     s.push_str(&findings_text(rep));
     if rep.rigs.len() >= 2 {
-        s.push_str(&comparison_text(&compare(rep)));
+        let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+        s.push_str(&comparison_text(&compare(rep), clock.as_ref()));
     }
     s.push_str(&cautions_text());
     s
@@ -113,13 +120,15 @@ pub fn cautions_text() -> String {
 /// closest approaches, stage times, stage changes and faults.
 #[must_use]
 pub fn findings_text(rep: &ReplayReport) -> String {
+    let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+    let ck = clock.as_ref();
     let mut s = String::new();
     s.push_str(&format!(
         "Replayed {} merged records ({} log rows) from {} to {} ({}).\n",
         thousands(rep.records),
         thousands(rep.rows),
-        rep.start.as_deref().unwrap_or("-"),
-        rep.end.as_deref().unwrap_or("-"),
+        ck.map_or("-".to_owned(), |c| c.local_datetime_text(0.0)),
+        ck.map_or("-".to_owned(), |c| c.local_datetime_text(rep.duration_s)),
         hms(rep.duration_s)
     ));
     s.push_str(&format!("Log issues: {}", rep.issues_total));
@@ -151,11 +160,15 @@ pub fn findings_text(rep: &ReplayReport) -> String {
             ));
         }
         s.push_str("Closest approach:\n");
-        s.push_str(&approach_text("overturning", r.overturning.as_ref()));
-        s.push_str(&approach_text("sliding", r.sliding.as_ref()));
+        s.push_str(&approach_text("overturning", r.overturning.as_ref(), ck));
+        s.push_str(&approach_text("sliding", r.sliding.as_ref(), ck));
         for (i, d) in r.drive.iter().enumerate() {
             if d.is_some() {
-                s.push_str(&approach_text(&format!("drive axis {}", i + 1), d.as_ref()));
+                s.push_str(&approach_text(
+                    &format!("drive axis {}", i + 1),
+                    d.as_ref(),
+                    ck,
+                ));
             }
         }
         s.push_str("Time per stage (h:mm:ss):\n");
@@ -165,9 +178,8 @@ pub fn findings_text(rep: &ReplayReport) -> String {
         s.push_str(&format!("Stage changes ({}):\n", r.stage_changes.len()));
         for c in &r.stage_changes {
             s.push_str(&format!(
-                "  {} (+{:.0} s): {} -> {} ({})\n",
-                c.time,
-                c.t_s,
+                "  {}: {} -> {} ({})\n",
+                at_text(ck, c.t_s),
                 c.from.name(),
                 c.to.name(),
                 c.cause
@@ -178,7 +190,7 @@ pub fn findings_text(rep: &ReplayReport) -> String {
         }
         s.push_str(&format!("Sensor faults ({}):\n", r.faults.len()));
         for f in &r.faults {
-            s.push_str(&format!("  {} (+{:.0} s): {}\n", f.time, f.t_s, f.fault));
+            s.push_str(&format!("  {}: {}\n", at_text(ck, f.t_s), f.fault));
         }
         if r.events_lost > 0 {
             s.push_str(&format!(

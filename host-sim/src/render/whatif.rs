@@ -9,6 +9,8 @@ use crate::model::charts::{RigCharts, POLAR_STEP_DEG};
 use crate::model::replay::{ReplayReport, RigReplay, STAGES};
 use crate::model::series::Series;
 use crate::model::whatif::{compare, Comparison};
+use crate::render::clock::Clock;
+use crate::render::headline::hms;
 use crate::render::html::Page;
 use crate::render::night::{
     cover_spans, line, points, pose_chart, stage_colour, stage_spans, stage_tables, Axis,
@@ -21,18 +23,41 @@ fn pct(v: Option<f32>) -> String {
     v.map_or_else(|| "-".to_owned(), |x| format!("{:.1} %", x * 100.0))
 }
 
-fn at_s(v: Option<f64>) -> String {
-    v.map_or_else(|| "-".to_owned(), |x| format!("+{x:.0} s"))
+/// A time of the comparison: local wall time `hh:mm:ss` when the first
+/// record's time is known (the zone is said once, by [`times_note`]), else
+/// seconds since the first record.
+fn at_s(v: Option<f64>, clock: Option<&Clock>) -> String {
+    match (v, clock) {
+        (None, _) => "-".to_owned(),
+        (Some(x), Some(c)) => c.label(x, 1.0),
+        (Some(x), None) => format!("+{x:.0} s"),
+    }
 }
 
-/// The side-by-side table as text (it starts with an empty line).
+/// What the comparison's times and durations are.
 #[must_use]
-pub fn comparison_text(cmp: &Comparison) -> String {
-    let mut s = String::from("\nSide by side (the same logs through each rig):\n");
+pub fn times_note(clock: Option<&Clock>) -> String {
+    format!(
+        "times {}; durations h:mm:ss",
+        clock.map_or_else(
+            || "in seconds since the first record".to_owned(),
+            |c| format!("local, {}", c.zone_text())
+        )
+    )
+}
+
+/// The side-by-side table as text (it starts with an empty line); `clock`
+/// gives local times (`None`: seconds since the first record).
+#[must_use]
+pub fn comparison_text(cmp: &Comparison, clock: Option<&Clock>) -> String {
+    let mut s = format!(
+        "\nSide by side (the same logs through each rig; {}):\n",
+        times_note(clock)
+    );
     for r in &cmp.rigs {
         s.push_str(&format!("  {} = {}\n", r.column, r.rig));
     }
-    let rows = comparison_rows(cmp);
+    let rows = comparison_rows(cmp, clock);
     let label_w = rows.iter().map(|r| r.0.len()).max().unwrap_or(0) + 2;
     let col_w = rows
         .iter()
@@ -57,9 +82,12 @@ pub fn comparison_text(cmp: &Comparison) -> String {
 }
 
 /// The comparison's rows: a label and one cell per rig (the text and the
-/// HTML tables show the same rows).
+/// HTML tables show the same rows); times as [`at_s`] writes them.
 #[must_use]
-pub fn comparison_rows(cmp: &Comparison) -> Vec<(&'static str, Vec<String>)> {
+pub fn comparison_rows(
+    cmp: &Comparison,
+    clock: Option<&Clock>,
+) -> Vec<(&'static str, Vec<String>)> {
     vec![
         (
             "highest overturning",
@@ -70,7 +98,10 @@ pub fn comparison_rows(cmp: &Comparison) -> Vec<(&'static str, Vec<String>)> {
         ),
         (
             "  at",
-            cmp.rigs.iter().map(|r| at_s(r.overturning_t_s)).collect(),
+            cmp.rigs
+                .iter()
+                .map(|r| at_s(r.overturning_t_s, clock))
+                .collect(),
         ),
         (
             "  tip wind there",
@@ -112,39 +143,33 @@ pub fn comparison_rows(cmp: &Comparison) -> Vec<(&'static str, Vec<String>)> {
         ),
         (
             "first park request",
-            cmp.rigs.iter().map(|r| at_s(r.first_park_t_s)).collect(),
+            cmp.rigs
+                .iter()
+                .map(|r| at_s(r.first_park_t_s, clock))
+                .collect(),
         ),
         (
             "first alarm",
-            cmp.rigs.iter().map(|r| at_s(r.first_alarm_t_s)).collect(),
+            cmp.rigs
+                .iter()
+                .map(|r| at_s(r.first_alarm_t_s, clock))
+                .collect(),
         ),
         (
             "time in watch",
-            cmp.rigs
-                .iter()
-                .map(|r| format!("{:.0} s", r.watch_s))
-                .collect(),
+            cmp.rigs.iter().map(|r| hms(r.watch_s)).collect(),
         ),
         (
             "time in park_now",
-            cmp.rigs
-                .iter()
-                .map(|r| format!("{:.0} s", r.park_now_s))
-                .collect(),
+            cmp.rigs.iter().map(|r| hms(r.park_now_s)).collect(),
         ),
         (
             "time in alarm",
-            cmp.rigs
-                .iter()
-                .map(|r| format!("{:.0} s", r.alarm_s))
-                .collect(),
+            cmp.rigs.iter().map(|r| hms(r.alarm_s)).collect(),
         ),
         (
             "time in sensor_fault",
-            cmp.rigs
-                .iter()
-                .map(|r| format!("{:.0} s", r.sensor_fault_s))
-                .collect(),
+            cmp.rigs.iter().map(|r| hms(r.sensor_fault_s)).collect(),
         ),
         (
             "stage changes",
@@ -251,7 +276,8 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
     page.table(&["rig", "line", "rig file and changes"], &key);
     let mut headers = vec!["figure"];
     headers.extend(cmp.rigs.iter().map(|r| r.column.as_str()));
-    let rows: Vec<Vec<String>> = comparison_rows(&cmp)
+    let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+    let rows: Vec<Vec<String>> = comparison_rows(&cmp, clock.as_ref())
         .into_iter()
         .map(|(label, cells)| {
             let mut row = vec![label.trim().to_owned()];
@@ -261,7 +287,10 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         .collect();
     page.h3("Side by side");
     page.table(&headers, &rows);
-    page.note("Utilisation in % of the limit (100 %: the rig tips, slides or reaches the drive's rating); times in seconds since the first record; stage times in seconds.");
+    page.note(&format!(
+        "Utilisation in % of the limit (100 %: the rig tips, slides or reaches the drive's rating); {}.",
+        times_note(clock.as_ref())
+    ));
 
     page.h2("Charts, the rigs overlaid");
     let axis = Axis::of(rep, first, &[]);
@@ -421,6 +450,7 @@ fn wind_chart(
 /// Tip wind by direction at each rig's closest approach to overturning,
 /// overlaid.
 fn polar_overlay(page: &mut Page, rep: &ReplayReport, cmp: &Comparison, charts: &[RigCharts]) {
+    let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
     let mut traces = Vec::new();
     let mut notes = Vec::new();
     for (i, ((r, l), c)) in rep.rigs.iter().zip(&cmp.rigs).zip(charts).enumerate() {
@@ -437,7 +467,9 @@ fn polar_overlay(page: &mut Page, rep: &ReplayReport, cmp: &Comparison, charts: 
         notes.push(format!(
             "{} at {} ({}, {:.0} %)",
             l.column,
-            a.time,
+            clock
+                .as_ref()
+                .map_or_else(|| a.time.clone(), |c| c.local_datetime_text(a.t_s)),
             crate::model::assess::pose_words(&a.pose),
             a.utilisation * 100.0
         ));

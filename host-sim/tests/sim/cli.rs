@@ -117,3 +117,72 @@ fn demo_replaces_only_its_own_files_unless_asked() {
         assert!(!name.contains("standfast-tmp"), "{name}");
     }
 }
+
+/// Issue 14: the summary's stage changes, faults and closest approaches are
+/// in local wall time with the offset (here from `--utc-offset`, which
+/// overrides the logs' UTC), the HTML report's tables too, while the JSON
+/// keeps ISO 8601 UTC. The golden log's park request is at 22:19:43 UTC on
+/// 14 November 2023 (tests/golden/ramp-summary.txt): 00:19:43 on the 15th
+/// at UTC+02:00 (an offset is local time minus UTC; common practice, no
+/// source). Before, the text gave only `2023-11-14T22:19:43.000Z (+383 s)`.
+#[test]
+fn replay_times_are_local_with_the_offset_given() {
+    let dir = tempfile::tempdir().unwrap();
+    crate::golden::write_log(dir.path());
+    let rig = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml");
+    let html = dir.path().join("r.html");
+    let run = |extra: &[&str]| {
+        standfast()
+            .arg("replay")
+            .arg("--rig")
+            .arg(&rig)
+            .arg("--profile")
+            .arg(dir.path().join("ramp.toml"))
+            .args(extra)
+            .output()
+            .unwrap()
+    };
+    let out = run(&["--utc-offset", "+02:00", "--html", html.to_str().unwrap()]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(
+        text.contains("  2023-11-15 00:19:43 UTC+02:00: watch -> park_now (predicted_overturning)"),
+        "{text}"
+    );
+    assert!(
+        text.contains("  2023-11-14 22:13:20 UTC+02:00: wind speed sensor")
+            || text.contains("  2023-11-15 00:13:20 UTC+02:00: wind speed sensor"),
+        "{text}"
+    );
+    assert!(
+        !text.contains("T22:19:43"),
+        "no UTC ISO time in the text: {text}"
+    );
+    let page = std::fs::read_to_string(&html).unwrap();
+    assert!(
+        page.contains("<td>2023-11-15 00:19:43 UTC+02:00</td><td>2023-11-14T22:19:43.000Z</td>")
+    );
+    assert!(page.contains("<th>local time</th><th>UTC</th><th>fault</th>"));
+    // JSON keeps UTC.
+    let out = run(&["--utc-offset", "-05:30", "--json"]);
+    assert_eq!(out.status.code(), Some(0));
+    let json = String::from_utf8(out.stdout).unwrap();
+    assert!(json.contains("\"2023-11-14T22:19:43.000Z\""), "{json}");
+    assert!(!json.contains("UTC-05:30"));
+    // A bad offset is a usage error naming the option, the value and the
+    // range; nothing is written.
+    for bad in ["+25:00", "two", "+02:75"] {
+        let out = run(&["--utc-offset", bad]);
+        assert_eq!(out.status.code(), Some(2), "{bad}");
+        let err = String::from_utf8(out.stderr).unwrap();
+        assert!(
+            err.contains("--utc-offset") && err.contains(bad) && err.contains("-23:59 to +23:59"),
+            "{err}"
+        );
+    }
+}

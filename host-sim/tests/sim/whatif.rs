@@ -168,7 +168,7 @@ fn a_lower_park_threshold_parks_earlier() {
         f64::from(b.overturning_utilisation.unwrap()),
         1e-6,
     );
-    let text = standfast_sim::render::whatif::comparison_text(&cmp);
+    let text = standfast_sim::render::whatif::comparison_text(&cmp, None);
     assert!(text.contains("A = ") && text.contains("B = "), "{text}");
     assert!(text.contains("park_utilisation=0.55"), "{text}");
     assert!(text.contains("first park request"), "{text}");
@@ -405,17 +405,20 @@ fn what_if_page_overlays_the_rigs_and_has_the_side_by_side_table() {
                 .collect()
         })
         .collect();
-    let want: Vec<Vec<String>> = standfast_sim::render::whatif::comparison_rows(&cmp)
-        .into_iter()
-        .map(|(label, cells)| {
-            let mut r = vec![label.trim().to_owned()];
-            r.extend(cells);
-            r
-        })
-        .collect();
+    let clock =
+        standfast_sim::render::clock::Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
+    let want: Vec<Vec<String>> =
+        standfast_sim::render::whatif::comparison_rows(&cmp, clock.as_ref())
+            .into_iter()
+            .map(|(label, cells)| {
+                let mut r = vec![label.trim().to_owned()];
+                r.extend(cells);
+                r
+            })
+            .collect();
     assert_eq!(rows, want);
     assert!(rows.iter().any(|r| r[0] == "highest overturning"));
-    let text = standfast_sim::render::whatif::comparison_text(&cmp);
+    let text = standfast_sim::render::whatif::comparison_text(&cmp, clock.as_ref());
     for r in &want {
         for cell in &r[1..] {
             assert!(text.contains(cell.as_str()), "{cell} not in the text");
