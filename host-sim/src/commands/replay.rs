@@ -214,8 +214,8 @@ impl<'a> ReplayOutputs<'a> {
 }
 
 impl ReplayObserver for ReplayOutputs<'_> {
-    fn progress(&mut self, records: u64) {
-        self.spinner.set(records);
+    fn progress(&mut self, p: crate::model::replay::Progress) {
+        self.spinner.set(p);
     }
 
     fn verdict(

@@ -634,15 +634,25 @@ impl Tracker {
     }
 }
 
+/// How far a replay has come, for a [`ReplayObserver`].
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Progress {
+    /// Merged records read so far.
+    pub records: u64,
+    /// Share of the logs read so far, 0 to 1, when the logs' total size is
+    /// known ([`Merger::fraction_read`]); `None` for streams.
+    pub fraction: Option<f64>,
+}
+
 /// Records between two progress reports to a [`ReplayObserver`].
 pub const PROGRESS_EVERY: u64 = 1 << 16;
 
 /// What a replay hands out as it goes, to whoever runs it (the commands
 /// layer draws the progress and writes the verdict CSV).
 pub trait ReplayObserver {
-    /// `records` merged records read so far; called every
-    /// [`PROGRESS_EVERY`] records, from 0.
-    fn progress(&mut self, records: u64);
+    /// How far the replay has come; called every [`PROGRESS_EVERY`]
+    /// records, from 0.
+    fn progress(&mut self, p: Progress);
 
     /// Verdict `v` of rig number `rig` (0 for the first) at `time`, `t_s`
     /// seconds since the first record: for every
@@ -918,7 +928,10 @@ pub fn replay(
                 };
                 if n_read % PROGRESS_EVERY == 0 {
                     if let Some(o) = observer.as_mut() {
-                        o.progress(n_read);
+                        o.progress(Progress {
+                            records: n_read,
+                            fraction: merger.fraction_read(),
+                        });
                     }
                 }
                 let start = *t0.get_or_insert(rec.time);

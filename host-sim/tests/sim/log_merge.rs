@@ -380,3 +380,37 @@ fn profile_errors_are_located() {
     // No [log] section at all.
     assert!(profile_err("[rig]\n").contains("no [log] section"));
 }
+
+/// Issue 14: the progress bar's share read. For files the merger knows the
+/// logs' size and tells the share of bytes read: it never falls, stays
+/// within 0 to 1, is below 1 while much of a file is unread, and is exactly
+/// 1 at the end (every byte read). Streams have no known size: `None`.
+#[test]
+fn the_share_read_rises_to_one_for_files_and_is_unknown_for_streams() {
+    use std::fmt::Write as _;
+    let dir = tempfile::tempdir().unwrap();
+    let mut csv = String::from("t,ax,ay,az,speed,dir\n");
+    for i in 0..200_000_u32 {
+        writeln!(csv, "{},0,0,1,{}.5,270", 1_700_000_000 + i, i % 20).unwrap();
+    }
+    std::fs::write(dir.path().join("w.csv"), &csv).unwrap();
+    let profile_path = crate::common::one_file_profile(dir.path(), "w");
+    let p = LogProfile::load(&profile_path).unwrap();
+    let mut m = Merger::open(&p, ErrorPolicy::Stop).unwrap();
+    let first = m.fraction_read().expect("a file's size is known");
+    assert!(first < 0.5, "{first}");
+    let mut last = first;
+    let mut n = 0_u64;
+    while m.next_record().unwrap().is_some() {
+        n += 1;
+        if n % 10_000 == 0 {
+            let f = m.fraction_read().unwrap();
+            assert!(f >= last && f <= 1.0, "{f} after {last}");
+            last = f;
+        }
+    }
+    assert_eq!(n, 200_000);
+    assert_eq!(m.fraction_read(), Some(1.0));
+    let s = Merger::from_readers(&p, vec![reader(&csv)], ErrorPolicy::Stop).unwrap();
+    assert_eq!(s.fraction_read(), None);
+}

@@ -1,6 +1,8 @@
 //! Streaming k-way merge of several logs by time.
 
 use std::io::Read;
+use std::sync::atomic::{AtomicU64, Ordering};
+use std::sync::Arc;
 
 use super::profile::LogProfile;
 use super::record::{Channel, ChannelSet, SampleRecord, N_CHANNELS};
@@ -31,6 +33,26 @@ pub struct Merger {
     /// An error met while reading ahead, returned after the record that
     /// was complete before it.
     pending: Option<Error>,
+    /// Bytes read from the files so far (all files), shared with their
+    /// readers.
+    bytes_read: Arc<AtomicU64>,
+    /// Total size of the files, bytes, when known (files, not streams).
+    bytes_total: Option<u64>,
+}
+
+/// A reader that adds the bytes it reads to a shared counter (for the
+/// replay's progress).
+struct Counting<R> {
+    inner: R,
+    count: Arc<AtomicU64>,
+}
+
+impl<R: Read> Read for Counting<R> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let n = self.inner.read(buf)?;
+        self.count.fetch_add(n as u64, Ordering::Relaxed);
+        Ok(n)
+    }
 }
 
 impl Merger {
@@ -41,12 +63,40 @@ impl Merger {
     /// header lacks a column, [`Error::Log`] when the first row of a file is
     /// bad under [`ErrorPolicy::Stop`].
     pub fn open(profile: &LogProfile, policy: ErrorPolicy) -> Result<Merger, Error> {
-        let sources = profile
-            .files
-            .iter()
-            .map(CsvSource::open)
-            .collect::<Result<Vec<_>, _>>()?;
-        Merger::from_sources(sources, policy)
+        let count = Arc::new(AtomicU64::new(0));
+        let mut total: Option<u64> = Some(0);
+        let mut sources = Vec::with_capacity(profile.files.len());
+        for fp in &profile.files {
+            let file = std::fs::File::open(&fp.path).map_err(|e| Error::io(&fp.path, e))?;
+            // The size only scales the progress bar: a file whose size
+            // cannot be read leaves the span unknown (a spinner instead).
+            let len = file
+                .metadata()
+                .ok()
+                .filter(|m| m.is_file())
+                .map(|m| m.len());
+            total = total.zip(len).map(|(a, b)| a.saturating_add(b));
+            let reader = Counting {
+                inner: file,
+                count: Arc::clone(&count),
+            };
+            sources.push(CsvSource::from_reader(fp, Box::new(reader))?);
+        }
+        let mut m = Merger::from_sources(sources, policy)?;
+        m.bytes_read = count;
+        m.bytes_total = total.filter(|t| *t > 0);
+        Ok(m)
+    }
+
+    /// The share of the logs' bytes read so far, 0 to 1, when their total
+    /// size is known (files opened by [`Merger::open`]); `None` for
+    /// streams. Read-ahead makes it run slightly ahead of the records.
+    #[must_use]
+    pub fn fraction_read(&self) -> Option<f64> {
+        let total = self.bytes_total?;
+        #[allow(clippy::cast_precision_loss)] // a share, not an exact count
+        let f = self.bytes_read.load(Ordering::Relaxed) as f64 / total as f64;
+        Some(f.clamp(0.0, 1.0))
     }
 
     /// Merges in-memory or other streams, one per profile file, in the
@@ -89,6 +139,8 @@ impl Merger {
             rows: 0,
             done: false,
             pending: None,
+            bytes_read: Arc::new(AtomicU64::new(0)),
+            bytes_total: None,
         })
     }
 
