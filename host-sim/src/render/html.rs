@@ -45,6 +45,7 @@ svg .event-mark { stroke-width: 1; stroke-opacity: 0.75; }
 svg .mark-label { font-size: 10px; paint-order: stroke; stroke: #ffffff; stroke-width: 3px; stroke-linejoin: round; }
 svg .gap-band { fill: #d9dde2; fill-opacity: 0.7; }
 svg .ring { fill: none; stroke: #d4d9de; }
+svg.polar-chart .tick-label { paint-order: stroke; stroke: #ffffff; stroke-width: 3px; stroke-linejoin: round; }
 svg .spoke { stroke: #e3e7eb; }
 svg .polar-trace { fill: none; stroke-width: 1.8; stroke-linejoin: round; }
 svg .beyond { fill: #ffffff; stroke-width: 1.2; }

@@ -399,12 +399,13 @@ pub fn replay_html(rep: &ReplayReport, charts: &[RigCharts]) -> String {
     }
     page.cautions(CAUTIONS);
     page.h2("Summary");
+    let ck = clock.as_ref();
     page.p(&format!(
         "Replayed {} merged records ({} log rows) from {} to {} ({}).",
         thousands(rep.records),
         thousands(rep.rows),
-        rep.start.as_deref().unwrap_or("-"),
-        rep.end.as_deref().unwrap_or("-"),
+        ck.map_or("-".to_owned(), |c| c.local_datetime_text(0.0)),
+        ck.map_or("-".to_owned(), |c| c.local_datetime_text(rep.duration_s)),
         hms(rep.duration_s)
     ));
     let issues: Vec<String> = rep

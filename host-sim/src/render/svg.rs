@@ -1021,6 +1021,7 @@ impl PolarChart {
             .map(|t| t.name.chars().count())
             .chain(self.rings.iter().map(|r| r.label.chars().count()))
             .chain(self.bearings.iter().map(|b| b.label.chars().count()))
+            .chain(self.marker.iter().map(|m| m.label.chars().count()))
             .chain(std::iter::once(self.r_label.chars().count() + 8))
             .map(|c| 28.0 + c as f64 * CHAR_W_PX)
             .fold(150.0_f64, f64::max);
@@ -1146,17 +1147,19 @@ impl PolarChart {
             row += 1;
         }
         if let Some(m) = &self.marker {
+            // The dot on the plot, its words in the legend: no label on the
+            // plot can meet a ring, spoke or trace label.
             let (x, y) = polar_xy(cx, cy, m.deg, rs(m.value));
             let _ = write!(
                 s,
-                r#"<circle class="polar-marker" cx="{}" cy="{}" r="5"><title>{}</title></circle><text class="mark-label" x="{}" y="{}">{}</text>"#,
+                r#"<circle class="polar-marker" cx="{}" cy="{}" r="5"><title>{}</title></circle><circle class="polar-marker legend-key" cx="{}" cy="{}" r="4"/>"#,
                 n(x),
                 n(y),
                 esc(&m.label),
-                n(x + 7.0),
-                n(y - 6.0),
-                esc(&m.label)
+                n(size + 9.0),
+                n(legend_y(row) - 4.0)
             );
+            legend_text(&mut s, size + 20.0, legend_y(row), &m.label);
         }
         s.push_str("</svg>");
         s

@@ -635,6 +635,27 @@ fn assess_page_gives_each_finding_its_table_or_chart() {
     assert!(legend
         .iter()
         .any(|t| t == &format!("storm from {:.0}°", o.storm_from_deg)));
+    // The gust ring, the arrow and the lowest point are named in the
+    // legend right of the plot, never on it (where their words could meet
+    // the rings' and spokes' labels): the only texts inside the outer ring
+    // are the rings' own values.
+    let spoke = polar
+        .descendants()
+        .find(|n| n.has_tag_name("line") && class_is(n, "spoke"))
+        .unwrap();
+    let outer = (spoke.attribute("x2").unwrap().parse::<f64>().unwrap() - cx)
+        .hypot(spoke.attribute("y2").unwrap().parse::<f64>().unwrap() - cy);
+    for t in polar.descendants().filter(|n| n.has_tag_name("text")) {
+        let x: f64 = t.attribute("x").unwrap().parse().unwrap();
+        let y: f64 = t.attribute("y").unwrap().parse().unwrap();
+        if (x - cx).hypot(y - cy) < outer - 1.0 {
+            assert!(
+                class_is(&t, "tick-label") && t.text().unwrap().parse::<f64>().is_ok(),
+                "{:?} on the plot",
+                t.text()
+            );
+        }
+    }
 
     // Torque maps: a gradient legend with tick values, and each cell's
     // value written in it (the secondary map's cell at +3 h, +30°).
