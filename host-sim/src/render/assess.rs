@@ -920,7 +920,7 @@ fn hardware_section(page: &mut Page, rep: &AssessReport) {
             format!("{:.0} MPa", c.stress_mpa),
             format!("{:.0} MPa", c.allowable_mpa),
             format!(
-                "{:.1} N m at the root; it carries {:.1} N m at most",
+                "moment at the root {:.1} N m; it carries {:.1} N m at most",
                 c.moment_nm, c.allowable_moment_nm
             ),
         ]);

@@ -181,6 +181,16 @@ pub fn comparison_rows(
     ]
 }
 
+/// A row label of the comparison for the HTML table: a sub-row (indented
+/// in the text, like "  at" under "highest overturning") keeps its indent
+/// as no-break spaces, which HTML does not collapse.
+#[must_use]
+pub fn html_label(label: &str) -> String {
+    let body = label.trim_start_matches(' ');
+    let indent = label.len() - body.len();
+    format!("{}{body}", "\u{a0}".repeat(indent * 2))
+}
+
 /// The line colours of the rigs of a what-if page, in column order (A, B,
 /// C, D; then again with the next pattern), with their names for the key.
 const RIG_COLOURS: [(&str, &str); 4] = [
@@ -280,7 +290,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
     let rows: Vec<Vec<String>> = comparison_rows(&cmp, clock.as_ref())
         .into_iter()
         .map(|(label, cells)| {
-            let mut row = vec![label.trim().to_owned()];
+            let mut row = vec![html_label(label)];
             row.extend(cells);
             row
         })

@@ -411,13 +411,15 @@ fn what_if_page_overlays_the_rigs_and_has_the_side_by_side_table() {
         standfast_sim::render::whatif::comparison_rows(&cmp, clock.as_ref())
             .into_iter()
             .map(|(label, cells)| {
-                let mut r = vec![label.trim().to_owned()];
+                let mut r = vec![standfast_sim::render::whatif::html_label(label)];
                 r.extend(cells);
                 r
             })
             .collect();
     assert_eq!(rows, want);
     assert!(rows.iter().any(|r| r[0] == "highest overturning"));
+    // A sub-row keeps its indent (no-break spaces) under its figure.
+    assert!(rows.iter().any(|r| r[0] == "\u{a0}\u{a0}\u{a0}\u{a0}at"));
     let text = standfast_sim::render::whatif::comparison_text(&cmp, clock.as_ref());
     for r in &want {
         for cell in &r[1..] {
