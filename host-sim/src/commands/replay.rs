@@ -70,7 +70,14 @@ pub struct ReplayArgs {
 /// [`Error::Usage`] (exit code 2) naming the option, the value (bounded),
 /// the forms accepted and the range.
 pub fn utc_offset_option(text: &str) -> Result<i32, Error> {
-    crate::input::log::time::parse_offset(text).map_err(|_| {
+    // An empty value would read as no offset at all (UTC): refused, so a
+    // missing value is never taken for a zone.
+    let parsed = if text.trim().is_empty() {
+        Err(String::new())
+    } else {
+        crate::input::log::time::parse_offset(text)
+    };
+    parsed.map_err(|_| {
         Error::Usage(format!(
             "--utc-offset = \"{}\": not a zone offset; write +hh:mm, -hh:mm or Z, in the accepted range -23:59 to +23:59 (e.g. +02:00)",
             crate::input::located::bounded(text)

@@ -176,7 +176,7 @@ fn replay_times_are_local_with_the_offset_given() {
     assert!(!json.contains("UTC-05:30"));
     // A bad offset is a usage error naming the option, the value and the
     // range; nothing is written.
-    for bad in ["+25:00", "two", "+02:75"] {
+    for bad in ["+25:00", "two", "+02:75", ""] {
         let out = run(&["--utc-offset", bad]);
         assert_eq!(out.status.code(), Some(2), "{bad}");
         let err = String::from_utf8(out.stderr).unwrap();
