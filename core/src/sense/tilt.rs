@@ -1019,4 +1019,51 @@ mod tests {
         // 1 − e^(−1) (the first-order step response at one time constant).
         assert!((lowpass_alpha(2.0, 2.0) - 0.632_120_56).abs() < 1e-6);
     }
+
+    /// The branches of `small_angle_atan2` are the documented formulas, to
+    /// the bit, up to t = 1.02 (so the result never depends on the back
+    /// end's arc tangent there), and the back end's `atan2` beyond.
+    #[test]
+    fn small_angle_atan2_uses_the_documented_formula_per_range() {
+        for x in [1.0_f32, 0.37, 9.81, 1e-3] {
+            for i in 0..=300_u16 {
+                let t = f32::from(i) * 0.005; // 0 to 1.5
+                let y = t * x;
+                let got = small_angle_atan2(y, x).to_bits();
+                let want = if y <= 0.42 * x {
+                    atan_series(y / x)
+                } else if y <= 1.02 * x {
+                    2.0 * atan_series(y / (x + math::sqrt(x * x + y * y)))
+                } else {
+                    math::atan2(y, x)
+                };
+                assert_eq!(got, want.to_bits(), "y {y}, x {x}");
+            }
+        }
+        // The series' boundary itself and just past it.
+        let series = atan_series(0.42).to_bits();
+        assert_eq!(small_angle_atan2(0.42, 1.0).to_bits(), series);
+        let half = 2.0 * atan_series(0.43 / (1.0 + math::sqrt(1.0 + 0.43 * 0.43)));
+        assert_eq!(small_angle_atan2(0.43, 1.0).to_bits(), half.to_bits());
+        // x ≤ 0 (a rig past 90°) or y < 0 (never produced) go to atan2.
+        for (y, x) in [(0.1_f32, 0.0_f32), (0.1, -1.0), (-0.1, 1.0), (0.0, -1.0)] {
+            assert_eq!(
+                small_angle_atan2(y, x).to_bits(),
+                math::atan2(y, x).to_bits(),
+                "y {y}, x {x}"
+            );
+        }
+    }
+
+    #[test]
+    fn specific_force_too_small_to_have_a_direction_is_refused() {
+        let tiny = Vec3::new(0.0, 0.0, 1e-12);
+        assert_eq!(tiny.norm(), 1e-12, "the bound itself, exactly");
+        let e = tilt_of_specific_force(tiny).unwrap_err();
+        assert_eq!(e.kind, ErrorKind::ZeroDirection);
+        assert!(tilt_of_specific_force(Vec3::new(0.0, 0.0, 2e-12)).is_ok());
+        for bad in [f32::NAN, f32::INFINITY] {
+            assert!(tilt_of_specific_force(Vec3::new(0.0, bad, 1.0)).is_err());
+        }
+    }
 }
