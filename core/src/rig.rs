@@ -706,6 +706,67 @@ impl Rig {
     /// The first invalid field, named by its path in [`RigSpec`], with its
     /// value and accepted range.
     pub fn new(spec: &RigSpec) -> Result<Rig, Error> {
+        let support = Self::check_head(spec)?;
+        let mut parts: Vec<Part, MAX_PARTS> = Vec::new();
+        Self::check_parts(spec, &mut parts)?;
+        Ok(Rig {
+            support,
+            mount: spec.mount,
+            friction_coefficient: spec.friction_coefficient,
+            parts,
+            drives: spec.drives,
+        })
+    }
+
+    /// Checks a description and builds the rig in place in `slot`: the same
+    /// checks, errors and rig as [`Rig::new`], without the rig passing
+    /// through the stack as a return value. For a small target that keeps its
+    /// rig in a `static`: `Rig::new`'s result is a `Result<Rig, Error>`
+    /// (3.3 KiB on a 32-bit target, most of it the part list) that is built
+    /// in the caller's frame and then copied; here the parts are written
+    /// straight into `slot`. `slot` holds the rig on success and `None` on
+    /// error (a rig that failed a check never exists); whatever it held
+    /// before is replaced either way.
+    ///
+    /// # Errors
+    /// As [`Rig::new`].
+    ///
+    /// # Examples
+    /// ```
+    /// use standfast::{MountGeometry, Rig, RigSpec};
+    /// use standfast::rig::{BodySpec, Stage};
+    /// use standfast::support::Support;
+    ///
+    /// let spec = RigSpec::new(
+    ///     &Support::tripod(0.45, 0.0)?,
+    ///     MountGeometry::equatorial(0.8, [0.0, 0.0, 1.25]),
+    ///     0.3,
+    /// )
+    /// .with_body(BodySpec::point(Stage::Ground, 4.0, [0.0, 0.0, 1.1]))?;
+    /// let mut slot = None;
+    /// Rig::build_in(&mut slot, &spec)?;
+    /// assert_eq!(slot, Some(Rig::new(&spec)?));
+    /// # Ok::<(), standfast::Error>(())
+    /// ```
+    pub fn build_in(slot: &mut Option<Rig>, spec: &RigSpec) -> Result<(), Error> {
+        *slot = None;
+        let support = Self::check_head(spec)?;
+        let rig = slot.insert(Rig {
+            support,
+            mount: spec.mount,
+            friction_coefficient: spec.friction_coefficient,
+            parts: Vec::new(),
+            drives: spec.drives,
+        });
+        let checked = Self::check_parts(spec, &mut rig.parts);
+        if checked.is_err() {
+            *slot = None;
+        }
+        checked
+    }
+
+    /// The support, the mount and the friction coefficient of `spec`, checked.
+    fn check_head(spec: &RigSpec) -> Result<Support, Error> {
         let support = Support::new(&spec.feet)?;
         spec.mount.validate()?;
         Error::check(
@@ -714,7 +775,12 @@ impl Rig {
             0.0,
             2.0,
         )?;
-        let mut parts: Vec<Part, MAX_PARTS> = Vec::new();
+        Ok(support)
+    }
+
+    /// Checks the parts of `spec` (bodies, legs, counterweights, shaft,
+    /// cover, ballast, drives) and appends them to `parts`, which starts empty.
+    fn check_parts(spec: &RigSpec, parts: &mut Vec<Part, MAX_PARTS>) -> Result<(), Error> {
         let mut push = |p: Part, field: Field| parts.push(p).map_err(|_| too_many(field));
 
         for (i, b) in spec.bodies.iter().enumerate() {
@@ -892,13 +958,7 @@ impl Rig {
             e.min = 1.0;
             return Err(e);
         }
-        Ok(Rig {
-            support,
-            mount: spec.mount,
-            friction_coefficient: spec.friction_coefficient,
-            parts,
-            drives: spec.drives,
-        })
+        Ok(())
     }
 
     /// The support polygon.

@@ -275,7 +275,11 @@ impl<'r> Guard<'r> {
     /// An invalid configuration ([`GuardConfig::validate`]) or a configured
     /// pose the mount cannot take.
     pub fn new(rig: &'r Rig, config: GuardConfig, now: Millis) -> Result<Guard<'r>, Error> {
+        // Every check first (the configuration, with its tilt and wind parts,
+        // and the poses), then an infallible build: no `Result` of the 2.8 KiB
+        // wind statistics or of the sensors is made and moved on the way.
         config.validate()?;
+        let height_factor = config.wind.height_factor()?;
         let pose = config.assumed_pose.unwrap_or(rig.mount().home_pose());
         rig.mount().axis_angles(pose)?;
         for p in &config.park_poses {
@@ -283,9 +287,9 @@ impl<'r> Guard<'r> {
         }
         Ok(Guard {
             rig,
-            tilt: TiltSensor::new(config.tilt, now)?,
-            wind: WindStats::new(config.wind, now)?,
-            means: MeanWind::new(config.wind, now)?,
+            tilt: TiltSensor::started(config.tilt, now),
+            wind: WindStats::started(config.wind, height_factor, now),
+            means: MeanWind::started(config.wind, height_factor, now),
             config,
             stage: AlertLevel::SensorFault,
             memory: Memory::default(),

@@ -496,7 +496,14 @@ impl TiltSensor {
     /// As [`TiltConfig::validate`].
     pub fn new(config: TiltConfig, now: Millis) -> Result<Self, Error> {
         config.validate()?;
-        Ok(TiltSensor {
+        Ok(Self::started(config, now))
+    }
+
+    /// [`TiltSensor::new`] for a `config` already validated (the guard
+    /// validates its whole configuration first): infallible, so a caller
+    /// can build the sensor in place, with no `Result` of it on the stack.
+    pub(crate) fn started(config: TiltConfig, now: Millis) -> Self {
+        TiltSensor {
             config,
             start: now,
             last_sample: None,
@@ -519,7 +526,7 @@ impl TiltSensor {
             capture_start: now,
             capture_sum_g: Vec3::ZERO,
             capture_count: 0,
-        })
+        }
     }
 
     /// The configuration in use.

@@ -100,9 +100,17 @@ impl WindStats {
     /// As [`WindConfig::validate`].
     pub fn new(config: WindConfig, now: Millis) -> Result<Self, Error> {
         config.validate()?;
-        Ok(WindStats {
+        Ok(Self::started(config, config.height_factor()?, now))
+    }
+
+    /// [`WindStats::new`] for a `config` already validated, with its
+    /// `height_factor` ([`WindConfig::height_factor`]): infallible, so the
+    /// guard builds its 2.8 KiB of statistics in place, with no `Result` of
+    /// them on the stack.
+    pub(crate) fn started(config: WindConfig, height_factor: f32, now: Millis) -> Self {
+        WindStats {
             config,
-            height_factor: config.height_factor()?,
+            height_factor,
             start: now,
             first_sample: None,
             last_sample: None,
@@ -116,7 +124,7 @@ impl WindStats {
             speed: Channel::new(now),
             direction: Channel::new(now),
             limits: FaultLimits::of(&config),
-        })
+        }
     }
 
     /// The configuration in use.

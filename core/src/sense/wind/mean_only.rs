@@ -32,15 +32,21 @@ impl MeanWind {
     /// As [`WindConfig::validate`].
     pub fn new(config: WindConfig, now: Millis) -> Result<Self, Error> {
         config.validate()?;
-        Ok(MeanWind {
+        Ok(Self::started(config, config.height_factor()?, now))
+    }
+
+    /// [`MeanWind::new`] for a `config` already validated, with its
+    /// `height_factor`: infallible (see [`WindStats`](crate::sense::WindStats)'s).
+    pub(crate) fn started(config: WindConfig, height_factor: f32, now: Millis) -> Self {
+        MeanWind {
             config,
-            height_factor: config.height_factor()?,
+            height_factor,
             start: now,
             latest: None,
             latest_from_rad: None,
             speed: Channel::new(now),
             direction: Channel::new(now),
-        })
+        }
     }
 
     /// Feeds one reported 10-minute mean speed at the anemometer (m/s) and,
