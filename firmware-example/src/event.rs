@@ -22,8 +22,105 @@
 //!
 //! The same lines come from the emulated board and from a host replay, so
 //! the two can be compared with `diff`.
+//!
+//! **One writer for both.** [`Event::write_text`] writes a line piece by
+//! piece into any [`TextSink`], with its own decimal conversion
+//! ([`decimal`]), so a board can print events without `core::fmt` (about
+//! 3 KiB of flash with its integer formatting and 64-bit division); the
+//! `Display` impl, which the host replay prints with, goes through the same
+//! function, so the two texts are the same by construction.
 
 use core::fmt;
+
+/// Where a line of text goes, piece by piece (a serial port, a semihosting
+/// stream, a buffer, or a `core::fmt::Formatter` through `Display`).
+pub trait TextSink {
+    /// Appends `s`.
+    fn text(&mut self, s: &str);
+
+    /// Appends `n` in decimal, as `{}` formats an unsigned integer (no sign,
+    /// no leading zeros, `0` for zero), by [`decimal`].
+    fn decimal(&mut self, n: u64) {
+        let digits = decimal(n);
+        self.text(digits.as_str());
+    }
+}
+
+/// Powers of ten from 10^19 (the largest below `u64::MAX`) down to 1.
+const POWERS_OF_TEN: [u64; 20] = {
+    let mut p = [1u64; 20];
+    let mut i = 19;
+    while i > 0 {
+        i -= 1;
+        p[i] = p[i + 1] * 10;
+    }
+    p
+};
+
+/// The decimal digits of a `u64` (at most 20), as [`decimal`] makes them.
+#[derive(Clone, Copy, Debug)]
+pub struct Decimal {
+    digits: [u8; 20],
+    len: usize,
+}
+
+impl Decimal {
+    /// The digits as text.
+    #[must_use]
+    pub fn as_str(&self) -> &str {
+        core::str::from_utf8(self.digits.get(..self.len).unwrap_or(&[])).unwrap_or("")
+    }
+}
+
+/// `n` in decimal, the same text as `format!("{n}")`, computed by repeated
+/// subtraction of powers of ten: no division, so a 32-bit target links no
+/// 64-bit division routine for it (at most 9 subtractions per digit).
+#[must_use]
+pub fn decimal(mut n: u64) -> Decimal {
+    let mut out = Decimal {
+        digits: [b'0'; 20],
+        len: 0,
+    };
+    for (i, p) in POWERS_OF_TEN.iter().enumerate() {
+        let mut digit = b'0';
+        while n >= *p {
+            n -= *p;
+            digit += 1;
+        }
+        // Leading zeros are skipped; the units digit always counts.
+        if digit != b'0' || out.len > 0 || i == POWERS_OF_TEN.len() - 1 {
+            if let Some(d) = out.digits.get_mut(out.len) {
+                *d = digit;
+            }
+            out.len += 1;
+        }
+    }
+    out
+}
+
+/// A [`TextSink`] over a `Formatter`, keeping its first error.
+struct FmtSink<'a, 'b> {
+    f: &'a mut fmt::Formatter<'b>,
+    result: fmt::Result,
+}
+
+impl TextSink for FmtSink<'_, '_> {
+    fn text(&mut self, s: &str) {
+        if self.result.is_ok() {
+            self.result = self.f.write_str(s);
+        }
+    }
+}
+
+/// Formats through [`TextSink`]: `write` gets the sink and writes the text.
+pub(crate) fn fmt_via_sink(
+    f: &mut fmt::Formatter<'_>,
+    write: impl FnOnce(&mut dyn TextSink),
+) -> fmt::Result {
+    let mut sink = FmtSink { f, result: Ok(()) };
+    write(&mut sink);
+    sink.result
+}
 
 /// A sensor the station watches.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -131,27 +228,89 @@ pub struct Event {
     pub kind: EventKind,
 }
 
+impl Event {
+    /// Writes the event's line (without a line ending) into `out`: the text
+    /// of the module docs' format, the same as `Display` gives.
+    pub fn write_text(&self, out: &mut (impl TextSink + ?Sized)) {
+        out.text("event t_ms=");
+        out.decimal(self.t_ms);
+        out.text(" kind=");
+        match self.kind {
+            EventKind::Started => out.text("started"),
+            EventKind::Park(true) => out.text("park_on"),
+            EventKind::Park(false) => out.text("park_off"),
+            EventKind::Alarm(true) => out.text("alarm_on"),
+            EventKind::Alarm(false) => out.text("alarm_off"),
+            EventKind::Fault(s, c) => {
+                out.text("fault source=");
+                out.text(s.name());
+                out.text(" cause=");
+                out.text(c.name());
+            }
+            EventKind::FaultCleared(s) => {
+                out.text("fault_cleared source=");
+                out.text(s.name());
+            }
+            EventKind::AlertLevel { from, to } => {
+                out.text("stage from=");
+                out.text(from);
+                out.text(" to=");
+                out.text(to);
+            }
+            EventKind::AssessFault(r) => {
+                out.text("fault sensor=");
+                out.text(r.sensor);
+                out.text(" class=");
+                out.text(r.class);
+            }
+            EventKind::EventsLost(n) => {
+                out.text("events_lost count=");
+                out.decimal(u64::from(n));
+            }
+            EventKind::Late(gap_ms) => {
+                out.text("late gap_ms=");
+                out.decimal(u64::from(gap_ms));
+            }
+            EventKind::LineError(Line::Park) => out.text("line_error line=park"),
+            EventKind::LineError(Line::Alarm) => out.text("line_error line=alarm"),
+        }
+    }
+}
+
 impl fmt::Display for Event {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "event t_ms={} kind=", self.t_ms)?;
-        match self.kind {
-            EventKind::Started => f.write_str("started"),
-            EventKind::Park(true) => f.write_str("park_on"),
-            EventKind::Park(false) => f.write_str("park_off"),
-            EventKind::Alarm(true) => f.write_str("alarm_on"),
-            EventKind::Alarm(false) => f.write_str("alarm_off"),
-            EventKind::Fault(s, c) => {
-                write!(f, "fault source={} cause={}", s.name(), c.name())
-            }
-            EventKind::FaultCleared(s) => write!(f, "fault_cleared source={}", s.name()),
-            EventKind::AlertLevel { from, to } => write!(f, "stage from={from} to={to}"),
-            EventKind::AssessFault(r) => {
-                write!(f, "fault sensor={} class={}", r.sensor, r.class)
-            }
-            EventKind::EventsLost(n) => write!(f, "events_lost count={n}"),
-            EventKind::Late(gap_ms) => write!(f, "late gap_ms={gap_ms}"),
-            EventKind::LineError(Line::Park) => f.write_str("line_error line=park"),
-            EventKind::LineError(Line::Alarm) => f.write_str("line_error line=alarm"),
+        fmt_via_sink(f, |out| self.write_text(out))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::decimal;
+
+    /// Against the standard library's integer formatting (`format!`).
+    #[test]
+    fn decimal_is_the_standard_formatting() {
+        let mut probes = vec![0, 1, 9, 10, 11, 99, 100, 101, 120_000, u64::from(u32::MAX)];
+        probes.extend([
+            u64::MAX,
+            u64::MAX - 1,
+            10_000_000_000_000_000_000,
+            9_999_999_999_999_999_999,
+        ]);
+        for k in 0..20 {
+            let p = 10u64.pow(k);
+            probes.extend([p - 1, p, p + 1]);
+        }
+        let mut x: u64 = 0x9e37_79b9_7f4a_7c15;
+        for _ in 0..10_000 {
+            // xorshift64: spread over every digit count.
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            probes.push(x >> (x % 64));
+        }
+        for n in probes {
+            assert_eq!(decimal(n).as_str(), n.to_string(), "{n}");
         }
     }
 }

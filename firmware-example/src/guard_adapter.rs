@@ -34,7 +34,10 @@
 //! the mount maker's limits, local codes and licensed engineers.
 
 use crate::assess::{Assess, Assessment, LimitRule, RaisedFault, Samples};
+use core::borrow::BorrowMut;
+use core::marker::PhantomData;
 use standfast::bounded::Vec;
+use standfast::error::Field;
 use standfast::guard::{
     AlertLevel, Event as GuardEvent, Guard, GuardConfig, Inputs, WindSample as GuardWind,
     MAX_EVENTS,
@@ -45,7 +48,7 @@ use standfast::rig::{BodySpec, CounterweightSpec, LegsSpec, Rig, RigSpec, Stage 
 use standfast::sense::Fault;
 use standfast::sense::Millis;
 use standfast::support::Support;
-use standfast::Error;
+use standfast::{Error, ErrorKind};
 
 /// The invented example rig of the replay: a small equatorial head with a
 /// 5 kg tube (0.12 m × 0.7 m cylinder) and a 4 kg counterweight on a light
@@ -67,28 +70,84 @@ pub fn example_rig() -> Result<Rig, Error> {
 /// same rig as a host-sim rig file; a test loads it through host-sim's rig
 /// loader and compares the two descriptions field by field.
 ///
+/// The lists are filled in place (the fields are public), not through the
+/// `with_` builder chain, whose every step moves the 1.8 KiB description
+/// through a `Result` (about 10 KiB of stack on the Cortex-M4F). Out of line,
+/// so its temporaries are gone before [`Rig::new`] or [`Rig::build_in`] runs.
+///
 /// # Errors
-/// Whatever [`Support::tripod`] rejects (not expected for these figures).
+/// Whatever [`Support::tripod`] rejects (not expected for these figures), and
+/// [`ErrorKind::TooMany`] should a list be full (it cannot be: two bodies and
+/// one counterweight).
+#[inline(never)]
 pub fn example_rig_spec() -> Result<RigSpec, Error> {
+    let support = example_support()?;
+    let mut spec = example_base(&support);
+    add_example_parts(&mut spec)?;
+    Ok(spec)
+}
+
+/// Builds [`example_rig`] in place in `slot` ([`Rig::build_in`]: `slot` holds
+/// the rig on success, `None` on error), with the description
+/// ([`example_rig_spec`]'s) made in this function's own frame and dropped
+/// when it returns. For a board that keeps its rig in a `static`: no
+/// `Result` of the rig or of its description is built and moved on the
+/// stack. Out of line, so its frame is released before the caller goes on.
+///
+/// # Errors
+/// As [`example_rig`].
+#[inline(never)]
+pub fn example_rig_in(slot: &mut Option<Rig>) -> Result<(), Error> {
+    // Borrowed out of the `Result`, not moved out of it: a move would be a
+    // second 1.8 KiB copy in this frame.
+    match &example_rig_spec() {
+        Ok(spec) => Rig::build_in(slot, spec),
+        Err(e) => {
+            *slot = None;
+            Err(*e)
+        }
+    }
+}
+
+/// The example's tripod: feet on a 0.45 m circle, the first due north.
+fn example_support() -> Result<Support, Error> {
+    Support::tripod(0.45, 0.0)
+}
+
+/// The example's description before its parts: `support`, the equatorial
+/// head at 47° N with its axes' origin 1.25 m up, friction coefficient 0.3.
+fn example_base(support: &Support) -> RigSpec {
     RigSpec::new(
-        &Support::tripod(0.45, 0.0)?,
+        support,
         MountGeometry::equatorial(deg_to_rad(47.0), [0.0, 0.0, 1.25]),
         0.3,
     )
-    .with_legs(LegsSpec::new(0.8, 0.03, 1.05, 0.06))
-    .with_body(
-        BodySpec::cylinder(
-            MountStage::Secondary,
-            5.0,
-            [0.15, 0.1, 0.0],
-            0.12,
-            0.7,
-            [0.0, 1.0, 0.0],
+}
+
+/// Adds the example's legs, tube, ground mass and counterweight to `spec`.
+fn add_example_parts(spec: &mut RigSpec) -> Result<(), Error> {
+    spec.legs = Some(LegsSpec::new(0.8, 0.03, 1.05, 0.06));
+    let too_many = |field| Error::new(ErrorKind::TooMany, field);
+    spec.bodies
+        .push(
+            BodySpec::cylinder(
+                MountStage::Secondary,
+                5.0,
+                [0.15, 0.1, 0.0],
+                0.12,
+                0.7,
+                [0.0, 1.0, 0.0],
+            )
+            .labelled("tube"),
         )
-        .labelled("tube"),
-    )?
-    .with_body(BodySpec::point(MountStage::Ground, 4.0, [0.0, 0.0, 1.1]))?
-    .with_counterweight(CounterweightSpec::disc(4.0, 0.25, 0.1, 0.06))
+        .map_err(|_| too_many(Field::Bodies))?;
+    spec.bodies
+        .push(BodySpec::point(MountStage::Ground, 4.0, [0.0, 0.0, 1.1]))
+        .map_err(|_| too_many(Field::Bodies))?;
+    spec.counterweights
+        .push(CounterweightSpec::disc(4.0, 0.25, 0.1, 0.06))
+        .map_err(|_| too_many(Field::Counterweights))?;
+    Ok(())
 }
 
 /// The guard settings of the replay: [`GuardConfig::default()`] with a
@@ -110,14 +169,31 @@ pub fn example_guard_config() -> GuardConfig {
     }
 }
 
+/// The replay's guard: [`Guard::new`] for `rig` with [`example_guard_config`],
+/// started at `now_ms` (station clock).
+///
+/// # Errors
+/// Whatever [`Guard::new`] rejects (not expected for the example rig).
+pub fn example_guard(rig: &Rig, now_ms: u64) -> Result<Guard<'_>, Error> {
+    Guard::new(rig, example_guard_config(), Millis(now_ms))
+}
+
 /// The guard as an [`Assess`] plug-in, with an optional [`LimitRule`] backstop.
+///
+/// `G` is how the adapter holds its guard: by value (`Guard<'r>`, the
+/// default, made by [`GuardAssess::new`]) or borrowed (`&mut Guard<'r>`, from
+/// [`GuardAssess::with_guard`]). A board builds the guard in a `static` of its
+/// own and lends it, so the guard (4 KiB on the Cortex-M4F) is written once,
+/// in place, and never moved through the constructors of the adapter, the
+/// station and the replay (each move of a value that large is a stack copy).
 #[derive(Debug)]
-pub struct GuardAssess<'r> {
-    guard: Guard<'r>,
+pub struct GuardAssess<'r, G = Guard<'r>> {
+    guard: G,
     backstop: Option<LimitRule>,
     last_stage: AlertLevel,
     raised: Vec<RaisedFault, MAX_EVENTS>,
     events_lost: u16,
+    rig: PhantomData<&'r Rig>,
 }
 
 /// The event-line names of a guard fault: sensor (`Sensor::code`: `accel`,
@@ -145,21 +221,31 @@ impl<'r> GuardAssess<'r> {
         backstop: Option<LimitRule>,
     ) -> Result<Self, Error> {
         let guard = Guard::new(rig, config, Millis(now_ms))?;
-        Ok(GuardAssess {
-            // The guard starts unable to see (sensor_fault) until its
+        Ok(GuardAssess::with_guard(guard, backstop))
+    }
+}
+
+impl<'r, G: BorrowMut<Guard<'r>>> GuardAssess<'r, G> {
+    /// The adapter for an already built `guard` (owned or borrowed), with an
+    /// optional fixed-limit backstop. The guard should be fresh (no step
+    /// taken); the adapter starts from its present stage.
+    pub fn with_guard(guard: G, backstop: Option<LimitRule>) -> Self {
+        GuardAssess {
+            // A fresh guard starts unable to see (sensor_fault) until its
             // sensors have given readings.
-            last_stage: guard.level(),
+            last_stage: guard.borrow().level(),
             guard,
             backstop,
             raised: Vec::new(),
             events_lost: 0,
-        })
+            rig: PhantomData,
+        }
     }
 
     /// Acknowledges the guard's latched alarm (an operator's key switch). The
     /// stage steps down once the figures have settled for the dwell time.
     pub fn acknowledge(&mut self) {
-        self.guard.acknowledge();
+        self.guard.borrow_mut().acknowledge();
     }
 
     /// The guard's stage after the last step.
@@ -170,12 +256,12 @@ impl<'r> GuardAssess<'r> {
 
     /// The guard (for inspection).
     #[must_use]
-    pub const fn guard(&self) -> &Guard<'r> {
-        &self.guard
+    pub fn guard(&self) -> &Guard<'r> {
+        self.guard.borrow()
     }
 }
 
-impl Assess for GuardAssess<'_> {
+impl<'r, G: BorrowMut<Guard<'r>>> Assess for GuardAssess<'r, G> {
     fn assess(&mut self, s: &Samples) -> Assessment {
         let inputs = Inputs {
             accel_raw: s.accel_g.map(|a| [a.x, a.y, a.z]),
@@ -191,7 +277,7 @@ impl Assess for GuardAssess<'_> {
             ..Inputs::default()
         };
         crate::marks::guard_step_begin();
-        let verdict = self.guard.step(Millis(s.t_ms), &inputs);
+        let verdict = self.guard.borrow_mut().step(Millis(s.t_ms), &inputs);
         crate::marks::guard_step_end();
         self.raised.clear();
         self.events_lost = verdict.events_lost;

@@ -25,17 +25,21 @@
 //!   both empty otherwise.
 
 use crate::assess::{LimitRule, Limits};
-use crate::event::{Event, EventKind};
-use crate::guard_adapter::{example_guard_config, GuardAssess};
+use crate::event::{fmt_via_sink, Event, EventKind, TextSink};
+#[cfg(doc)]
+use crate::guard_adapter::example_guard_config;
+use crate::guard_adapter::{example_guard, GuardAssess};
 use crate::lines::FailSafeLines;
 use crate::lis3dh::{self, Lis3dh, RawSample};
 use crate::pose::MountPose;
 use crate::station::{AxisMap, Station, StationConfig, StepInputs, StepReport};
 use crate::wind::{Anemometer, AnemometerCal, PulseLatch, WindVane};
+use core::borrow::BorrowMut;
 use core::convert::Infallible;
 use core::fmt;
 use embedded_hal::digital::{ErrorType as PinErrorType, OutputPin};
 use embedded_hal::i2c::{self, ErrorKind, NoAcknowledgeSource, Operation};
+use standfast::guard::Guard;
 use standfast::math;
 use standfast::rig::Rig;
 use standfast::Error;
@@ -241,21 +245,38 @@ pub enum ReplayError {
     },
 }
 
+impl ReplayError {
+    /// Writes the error's line (without a line ending) into `out`, as
+    /// `Display` does: `error line=<n> reason=<reason>[ <key>=<value>]`.
+    pub fn write_text(&self, out: &mut (impl TextSink + ?Sized)) {
+        let (line, reason) = match *self {
+            ReplayError::Header { line } => (line, "header"),
+            ReplayError::Columns { line } => (line, "columns"),
+            ReplayError::Field { line, .. } => (line, "field"),
+            ReplayError::TimeBackwards { line } => (line, "time_backwards"),
+            ReplayError::TooLong { line } => (line, "too_long"),
+        };
+        out.text("error line=");
+        out.decimal(u64::from(line));
+        out.text(" reason=");
+        out.text(reason);
+        match *self {
+            ReplayError::Header { .. } => {
+                out.text(" expected=");
+                out.text(HEADER);
+            }
+            ReplayError::Field { column, .. } => {
+                out.text(" column=");
+                out.text(column);
+            }
+            _ => {}
+        }
+    }
+}
+
 impl fmt::Display for ReplayError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        match *self {
-            ReplayError::Header { line } => {
-                write!(f, "error line={line} reason=header expected={HEADER}")
-            }
-            ReplayError::Columns { line } => write!(f, "error line={line} reason=columns"),
-            ReplayError::Field { line, column } => {
-                write!(f, "error line={line} reason=field column={column}")
-            }
-            ReplayError::TimeBackwards { line } => {
-                write!(f, "error line={line} reason=time_backwards")
-            }
-            ReplayError::TooLong { line } => write!(f, "error line={line} reason=too_long"),
-        }
+        fmt_via_sink(f, |out| self.write_text(out))
     }
 }
 
@@ -476,14 +497,17 @@ impl ReplaySetup {
 }
 
 /// The station as the replay builds it: the Standfast guard for a borrowed
-/// rig, with the [`LimitRule`] as backstop.
-pub type ReplayStation<'r> =
-    Station<EmulatedLis3dh, ScriptedVane, MemoryPin, MemoryPin, GuardAssess<'r>>;
+/// rig (held as `G`, see [`GuardAssess`]), with the [`LimitRule`] as backstop.
+pub type ReplayStation<'r, G = Guard<'r>> =
+    Station<EmulatedLis3dh, ScriptedVane, MemoryPin, MemoryPin, GuardAssess<'r, G>>;
 
-/// Feeds log lines to a station over emulated hardware.
+/// Feeds log lines to a station over emulated hardware. `G` is how the
+/// guard is held: by value ([`Replay::new`]) or borrowed
+/// ([`Replay::with_guard`], the bare-metal binary's way: the guard built in
+/// place in a `static` of its own).
 #[derive(Debug)]
-pub struct Replay<'r> {
-    station: ReplayStation<'r>,
+pub struct Replay<'r, G = Guard<'r>> {
+    station: ReplayStation<'r, G>,
     line: u32,
     header_seen: bool,
     last_t_ms: Option<u64>,
@@ -497,12 +521,22 @@ pub const GUARD_EVENTS: usize = standfast::guard::MAX_EVENTS + 1;
 
 impl<'r> Replay<'r> {
     /// A replay with `setup`, assessed by the guard for `rig`
-    /// ([`example_guard_config`], started at t = 0 ms) with the [`LimitRule`] of
-    /// `setup` as backstop; the emulated sensor sits at address 0x18.
+    /// ([`example_guard`]: [`example_guard_config`], started at t = 0 ms) with
+    /// the [`LimitRule`] of `setup` as backstop; the emulated sensor sits at
+    /// address 0x18.
     ///
     /// # Errors
     /// An invalid guard configuration.
     pub fn new(setup: &ReplaySetup, rig: &'r Rig) -> Result<Self, Error> {
+        Ok(Replay::with_guard(setup, example_guard(rig, 0)?))
+    }
+}
+
+impl<'r, G: BorrowMut<Guard<'r>>> Replay<'r, G> {
+    /// A replay with `setup`, assessed by `guard` (a fresh one, owned or
+    /// borrowed; [`example_guard`] makes the replay's) with the [`LimitRule`]
+    /// of `setup` as backstop; the emulated sensor sits at address 0x18.
+    pub fn with_guard(setup: &ReplaySetup, guard: G) -> Self {
         let bus = EmulatedLis3dh::new(lis3dh::ADDRESS_SA0_LOW);
         let station = Station::new(
             setup.station,
@@ -510,18 +544,13 @@ impl<'r> Replay<'r> {
             Anemometer::new(setup.anemometer, setup.gate_ms),
             ScriptedVane::default(),
             FailSafeLines::new(MemoryPin::default(), MemoryPin::default()),
-            GuardAssess::new(
-                rig,
-                example_guard_config(),
-                0,
-                Some(LimitRule::new(setup.limits)),
-            )?,
+            GuardAssess::with_guard(guard, Some(LimitRule::new(setup.limits))),
         );
         // The guard's stage before the first step: the one it starts in
         // (`sensor_fault`, it cannot judge the rig before its sensors have
         // given readings), so no stage event is invented for step one.
         let guard_stage = station.rule().guard_stage();
-        Ok(Replay {
+        Replay {
             station,
             line: 0,
             header_seen: false,
@@ -529,7 +558,7 @@ impl<'r> Replay<'r> {
             rows: 0,
             guard_stage,
             guard_events: heapless::Vec::new(),
-        })
+        }
     }
 
     /// The guard's own events of the last step, without the backstop and
@@ -552,7 +581,7 @@ impl<'r> Replay<'r> {
 
     /// The station.
     #[must_use]
-    pub const fn station(&self) -> &ReplayStation<'r> {
+    pub const fn station(&self) -> &ReplayStation<'r, G> {
         &self.station
     }
 

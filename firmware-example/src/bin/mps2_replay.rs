@@ -27,10 +27,13 @@
 use core::mem::MaybeUninit;
 use core::panic::PanicInfo;
 use cortex_m_rt::{entry, exception, ExceptionFrame};
-use cortex_m_semihosting::{heprintln, hprintln, nr, syscall};
+use cortex_m_semihosting::hio::{self, HostStream};
+use cortex_m_semihosting::{nr, syscall};
+use standfast::guard::Guard;
 use standfast::rig::Rig;
 use standfast::Error;
-use standfast_firmware::guard_adapter::example_rig;
+use standfast_firmware::event::TextSink;
+use standfast_firmware::guard_adapter::{example_guard, example_rig_in};
 use standfast_firmware::replay::{LineSplitter, Replay, ReplayError, ReplaySetup, SplitLine};
 
 const EXIT_OK: u32 = 0;
@@ -60,6 +63,60 @@ fn exit(code: u32) -> ! {
     }
 }
 
+const USAGE: &str = "usage: mps2-replay <log.csv> [--rate-100hz | --selftest-hardfault]";
+
+/// A semihosting stream of the host (stdout or stderr) as a [`TextSink`]:
+/// every line is written piece by piece, without `core::fmt` (whose
+/// formatting machinery and 64-bit division would take about 3 KiB of
+/// flash), and byte for byte as the host replay's `Display` prints it (both
+/// go through the same `write_text`). A stream that cannot be opened or
+/// written drops the text: the output is the emulated board's log, not
+/// part of its safety function.
+struct Host(Option<HostStream>);
+
+impl TextSink for Host {
+    fn text(&mut self, s: &str) {
+        if let Some(h) = self.0.as_mut() {
+            // A failed write means the host is gone; nothing to tell it.
+            let _ = h.write_all(s.as_bytes());
+        }
+    }
+}
+
+impl Host {
+    /// Writes `parts` and a line ending.
+    fn line(&mut self, parts: &[&str]) {
+        for p in parts {
+            self.text(p);
+        }
+        self.text("\n");
+    }
+
+    /// Writes `v` as `0x` and eight lower-case hexadecimal digits (as
+    /// `{:#010x}` formats a `u32`).
+    fn hex32(&mut self, v: u32) {
+        let mut digits = *b"0x00000000";
+        for (i, d) in digits.iter_mut().skip(2).enumerate() {
+            let nibble = (v >> (28 - 4 * i)) & 0xF;
+            *d = b"0123456789abcdef"
+                .get(nibble as usize)
+                .copied()
+                .unwrap_or(b'?');
+        }
+        self.text(core::str::from_utf8(&digits).unwrap_or("0x????????"));
+    }
+}
+
+/// The host's standard output.
+fn stdout() -> Host {
+    Host(hio::hstdout().ok())
+}
+
+/// The host's standard error.
+fn stderr() -> Host {
+    Host(hio::hstderr().ok())
+}
+
 #[entry]
 fn main() -> ! {
     exit(run())
@@ -70,7 +127,7 @@ fn run() -> u32 {
     let block: [usize; 2] = [cmdline.as_mut_ptr() as usize, cmdline.len()];
     // SAFETY: GET_CMDLINE writes at most `len` bytes into the buffer.
     if unsafe { syscall(nr::GET_CMDLINE, &block) } != 0 {
-        hprintln!("error reason=no_command_line");
+        stdout().line(&["error reason=no_command_line"]);
         return EXIT_USAGE;
     }
     let len = cmdline
@@ -78,12 +135,12 @@ fn run() -> u32 {
         .position(|&b| b == 0)
         .unwrap_or(cmdline.len());
     let Ok(cmd) = core::str::from_utf8(cmdline.get(..len).unwrap_or(&[])) else {
-        hprintln!("error reason=command_line_not_utf8");
+        stdout().line(&["error reason=command_line_not_utf8"]);
         return EXIT_USAGE;
     };
     let mut words = cmd.split_ascii_whitespace().skip(1);
     let Some(path) = words.next() else {
-        hprintln!("usage: mps2-replay <log.csv> [--rate-100hz | --selftest-hardfault]");
+        stdout().line(&[USAGE]);
         return EXIT_USAGE;
     };
     if path == "--selftest-sqrt" {
@@ -93,17 +150,17 @@ fn run() -> u32 {
         None => ReplaySetup::example(),
         Some("--rate-100hz") => ReplaySetup::example_100hz(),
         Some("--selftest-hardfault") => {
-            hprintln!("selftest: executing an undefined instruction");
+            stdout().line(&["selftest: executing an undefined instruction"]);
             cortex_m::asm::udf();
         }
         Some(_) => {
-            hprintln!("usage: mps2-replay <log.csv> [--rate-100hz | --selftest-hardfault]");
+            stdout().line(&[USAGE]);
             return EXIT_USAGE;
         }
     };
 
     let Some(fd) = open_read(path) else {
-        hprintln!("error reason=cannot_open path={}", path);
+        stdout().line(&["error reason=cannot_open path=", path]);
         return EXIT_USAGE;
     };
     // The rig, the station and the buffers live in statics: nothing grows at
@@ -118,6 +175,7 @@ fn run() -> u32 {
         return EXIT_INTERNAL;
     };
 
+    let mut out = stdout();
     let mut events: u32 = 0;
     let mut each = |l: SplitLine<'_>| -> Result<(), ReplayError> {
         let report = match l {
@@ -126,11 +184,14 @@ fn run() -> u32 {
         };
         if let Some(report) = report {
             for e in &report.events {
-                hprintln!("{}", e);
+                e.write_text(&mut out);
+                out.text("\n");
                 events = events.saturating_add(1);
             }
             for e in replay.guard_events() {
-                hprintln!("guard {}", e);
+                out.text("guard ");
+                e.write_text(&mut out);
+                out.text("\n");
             }
         }
         Ok(())
@@ -146,32 +207,51 @@ fn run() -> u32 {
     };
     close(fd);
     // On stderr, so stdout holds only what the host replay prints too.
-    heprintln!("memory stack_peak_bytes={}", stack_peak_bytes());
+    let mut err = stderr();
+    err.text("memory stack_peak_bytes=");
+    err.decimal(stack_peak_bytes() as u64);
+    err.text("\n");
     match outcome {
         Ok(()) => {
-            hprintln!("summary rows={} events={}", replay.rows(), events);
+            out.text("summary rows=");
+            out.decimal(u64::from(replay.rows()));
+            out.text(" events=");
+            out.decimal(u64::from(events));
+            out.text("\n");
             EXIT_OK
         }
         Err(e) => {
-            hprintln!("{}", e);
+            e.write_text(&mut out);
+            out.text("\n");
             EXIT_LOG
         }
     }
 }
 
-/// Builds the example rig and the replay in place in their statics: each
-/// static is reserved uninitialised by `cortex_m::singleton!` and filled by
-/// [`fill`], whose constructor writes its result straight into the static.
+/// Builds the example rig, the guard and the replay in place in their
+/// statics: each static is reserved uninitialised by `cortex_m::singleton!`
+/// and filled by [`fill`], whose constructor writes its result straight into
+/// the static. The guard has a static of its own and the replay borrows it,
+/// so the 4 KiB guard is never moved through the adapter's, the station's
+/// and the replay's constructors.
 /// Kept out of line so its frame is released before the replay runs.
 #[inline(never)]
-fn build_replay(setup: &ReplaySetup) -> Option<&'static mut Replay<'static>> {
-    let rig_slot = cortex_m::singleton!(: MaybeUninit<Result<Rig, Error>> = MaybeUninit::uninit())?;
-    let rig: &'static Rig = fill(rig_slot, example_rig).as_ref().ok()?;
+fn build_replay(setup: &ReplaySetup) -> Option<&'static mut GuardReplay> {
+    let rig_slot = cortex_m::singleton!(: Option<Rig> = None)?;
+    example_rig_in(rig_slot).ok()?;
+    let rig: &'static Rig = rig_slot.as_ref()?;
+    let guard_slot =
+        cortex_m::singleton!(: MaybeUninit<Result<Guard<'static>, Error>> = MaybeUninit::uninit())?;
+    let guard: &'static mut Guard<'static> =
+        fill(guard_slot, || example_guard(rig, 0)).as_mut().ok()?;
     let replay_slot = cortex_m::singleton!(
-        : MaybeUninit<Result<Replay<'static>, Error>> = MaybeUninit::uninit()
+        : MaybeUninit<GuardReplay> = MaybeUninit::uninit()
     )?;
-    fill(replay_slot, || Replay::new(setup, rig)).as_mut().ok()
+    Some(fill(replay_slot, || Replay::with_guard(setup, guard)))
 }
+
+/// The replay as the binary holds it: the guard borrowed from its own static.
+type GuardReplay = Replay<'static, &'static mut Guard<'static>>;
 
 /// Writes `make()` into `slot` and returns it. Out of line, with `slot` a
 /// unique reference, so the optimiser can hand the static's address to the
@@ -226,11 +306,18 @@ fn selftest_sqrt() -> u32 {
     ] {
         check(bits);
     }
-    hprintln!("selftest sqrt: tried={} differ={}", tried, differ);
+    let mut out = stdout();
+    out.text("selftest sqrt: tried=");
+    out.decimal(u64::from(tried));
+    out.text(" differ=");
+    out.decimal(u64::from(differ));
+    out.text("\n");
     match first_bad {
         None => EXIT_OK,
         Some(b) => {
-            hprintln!("selftest sqrt: first difference at bits={:#010x}", b);
+            out.text("selftest sqrt: first difference at bits=");
+            out.hex32(b);
+            out.text("\n");
             EXIT_SQRT_MISMATCH
         }
     }
@@ -293,7 +380,10 @@ fn stack_peak_bytes() -> usize {
 
 #[exception]
 unsafe fn HardFault(ef: &ExceptionFrame) -> ! {
-    hprintln!("hardfault pc={:#010x}", ef.pc());
+    let mut out = stdout();
+    out.text("hardfault pc=");
+    out.hex32(ef.pc());
+    out.text("\n");
     exit(EXIT_HARDFAULT)
 }
 
@@ -303,6 +393,6 @@ unsafe fn HardFault(ef: &ExceptionFrame) -> ! {
 /// flash.
 #[panic_handler]
 fn panic(_info: &PanicInfo) -> ! {
-    heprintln!("panic");
+    stderr().line(&["panic"]);
     exit(EXIT_PANIC)
 }
