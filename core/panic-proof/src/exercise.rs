@@ -177,7 +177,8 @@ fn pose(u: &Unknowns) -> Pose {
     }
 }
 
-/// Covered entry points, in order: [`Support::tripod`], [`Rig::new`],
+/// Covered entry points, in order: [`Support::tripod`], [`Rig::build_in`],
+/// [`Rig::new`],
 /// [`Rig::stability_figures`], [`Rig::worst_wind`], [`Rig::tilt_margin`],
 /// [`Rig::axis_loads`], [`Rig::foot_reactions_n`], [`Rig::ballast_needed`],
 /// [`Rig::tie_down_needed`], [`Guard::new`], [`Guard::step`] (in a loop, with
@@ -197,6 +198,9 @@ fn pose(u: &Unknowns) -> Pose {
 pub fn exercise(u: &Unknowns) -> Tally {
     let mut t = Tally::default();
     if let Some(spec) = t.note(rig_spec(u)) {
+        let mut slot = None;
+        t.note(Rig::build_in(&mut slot, &spec));
+        black_box(&slot);
         if let Some(rig) = t.note(Rig::new(&spec)) {
             rig_calls(&mut t, &rig, u);
             guard_calls(&mut t, &rig, u);
