@@ -8,16 +8,24 @@ cd "$(dirname "$0")/.."
 
 step() { printf '\n== %s ==\n' "$*"; }
 TARGET=thumbv7em-none-eabihf
-ELF="target/$TARGET/firmware/mps2-replay"
+# Cargo's target directory (CARGO_TARGET_DIR when set, as cargo uses it).
+TARGET_DIR="${CARGO_TARGET_DIR:-target}"
+ELF="$TARGET_DIR/$TARGET/firmware/mps2-replay"
+# The same station, rig and guard without the replay harness (size only).
+STATION_ELF="$TARGET_DIR/$TARGET/firmware/mps2-station"
 LOG=firmware-example/replay/short-night.csv
-OUT=target/firmware-ci
+OUT="$TARGET_DIR/firmware-ci"
 # Memory (README, "Memory and flash"), for the whole example image, guard
 # and replay harness included, in the release firmware profile (`firmware`):
 # - hard limits, CI fails above them: flash 64 KiB, static RAM (.data +
 #   .bss) 16 KiB, static RAM + measured peak stack 24 KiB;
-# - aims (issue 15): flash <= 48 KiB and static RAM + peak stack <= 16 KiB:
-#   reported as met or not; STANDFAST_FIRMWARE_AIMS=enforce makes CI fail
-#   when one is not met.
+# - aims (issue 15): flash <= 48 KiB and static RAM + peak stack <= 16 KiB,
+#   reported as met or not. The RAM + stack aim is met and enforced: CI
+#   fails above it. The flash aim is not met by the whole image (the
+#   harness-free image, mps2-station, is reported beside it): CI fails above
+#   it only with STANDFAST_FIRMWARE_AIMS=enforce;
+#   STANDFAST_FIRMWARE_AIMS=report turns the RAM + stack aim back into a
+#   report.
 # The peak stack is measured in the QEMU runs (the stack is painted at reset;
 # the binary reports the deepest word overwritten on stderr).
 FLASH_BUDGET=$((64 * 1024))
@@ -44,32 +52,47 @@ rustup target add "$TARGET" >/dev/null 2>&1 || true
 step "firmware: target builds and lints"
 cargo clippy -p standfast-firmware --target "$TARGET" --release --features mps2 --lib --bins -- -D warnings
 cargo build -p standfast-firmware --target "$TARGET" --features defmt --lib
-cargo build -p standfast-firmware --target "$TARGET" --profile firmware --features mps2 --bin mps2-replay
+cargo build -p standfast-firmware --target "$TARGET" --profile firmware --features mps2 --bin mps2-replay --bin mps2-station
 
-step "firmware: size of $ELF"
 # Flash: every allocated section with contents (vector table, code, read-only
 # data, and the initial image of .data). Static RAM: writable allocated
 # sections (.data, .bss, .uninit). Stack comes on top; the QEMU run measures it.
-readelf -SW "$ELF" | sed 's/^ *\[ *[0-9]*\] *//' | awk -v flash_budget="$FLASH_BUDGET" -v ram_budget="$RAM_BUDGET" '
-  function hex(s,   i, n) {
-    n = 0; s = tolower(s)
-    for (i = 1; i <= length(s); i++) n = n * 16 + index("0123456789abcdef", substr(s, i, 1)) - 1
-    return n
-  }
-  $1 ~ /^\./ && NF >= 7 {
-    name = $1; type = $2; size = hex($5); flags = $7
-    if (flags !~ /A/ || size == 0) next
-    printf "  %-16s %-9s %7d bytes  flags %s\n", name, type, size, flags
-    if (type != "NOBITS") flash += size
-    if (flags ~ /W/) ram += size
-  }
-  END {
-    printf "flash: %d bytes (%.1f KiB of %d KiB budget)\n", flash, flash / 1024, flash_budget / 1024
-    printf "static RAM: %d bytes (%.1f KiB of %d KiB budget)\n", ram, ram / 1024, ram_budget / 1024
-    printf "%d %d\n", flash, ram > "/dev/stderr"
-    if (flash > flash_budget || ram > ram_budget) { print "over budget"; exit 1 }
-  }' 2>"$OUT/size.txt"
+# Prints the sections and totals; writes "flash ram" to $2; fails over the budgets.
+section_sizes() {
+  readelf -SW "$1" | sed 's/^ *\[ *[0-9]*\] *//' | awk -v flash_budget="$FLASH_BUDGET" -v ram_budget="$RAM_BUDGET" '
+    function hex(s,   i, n) {
+      n = 0; s = tolower(s)
+      for (i = 1; i <= length(s); i++) n = n * 16 + index("0123456789abcdef", substr(s, i, 1)) - 1
+      return n
+    }
+    $1 ~ /^\./ && NF >= 7 {
+      name = $1; type = $2; size = hex($5); flags = $7
+      if (flags !~ /A/ || size == 0) next
+      printf "  %-16s %-9s %7d bytes  flags %s\n", name, type, size, flags
+      if (type != "NOBITS") flash += size
+      if (flags ~ /W/) ram += size
+    }
+    END {
+      printf "flash: %d bytes (%.1f KiB of %d KiB budget)\n", flash, flash / 1024, flash_budget / 1024
+      printf "static RAM: %d bytes (%.1f KiB of %d KiB budget)\n", ram, ram / 1024, ram_budget / 1024
+      printf "%d %d\n", flash, ram > "/dev/stderr"
+      if (flash > flash_budget || ram > ram_budget) { print "over budget"; exit 1 }
+    }' 2>"$2"
+}
+
+step "firmware: size of $ELF"
+section_sizes "$ELF" "$OUT/size.txt"
 read -r FLASH_BYTES STATIC_RAM_BYTES <"$OUT/size.txt"
+
+step "firmware: size of $STATION_ELF (the station, rig and guard without the replay harness)"
+# mps2-station (src/bin/mps2_station.rs) builds the same rig, guard and
+# station in place and steps them, with no log reading, CSV parsing, event
+# text, square-root self-test or stack measurement: what the example costs a
+# board before its own HAL drivers. It must run to its end in QEMU (exit 0).
+section_sizes "$STATION_ELF" "$OUT/size-station.txt"
+read -r STATION_FLASH_BYTES STATION_RAM_BYTES <"$OUT/size-station.txt"
+timeout 60 qemu-system-arm -M mps2-an386 -cpu cortex-m4 -nographic \
+  -semihosting-config "enable=on,target=native,arg=mps2-station" -kernel "$STATION_ELF"
 
 step "firmware: no software double precision in the image; square root by the FPU"
 # The Cortex-M4F's FPU does single precision only: any f64 operation becomes
@@ -226,9 +249,16 @@ if [ "$RAM_STACK_BYTES" -gt "$RAM_STACK_LIMIT" ]; then
   echo "static RAM + peak stack over the ${RAM_STACK_LIMIT}-byte limit"
   exit 1
 fi
-if [ "${STANDFAST_FIRMWARE_AIMS:-report}" = enforce ] &&
-  { [ "$FLASH_BYTES" -gt "$FLASH_AIM" ] || [ "$RAM_STACK_BYTES" -gt "$RAM_STACK_AIM" ]; }; then
-  echo "STANDFAST_FIRMWARE_AIMS=enforce: a memory aim is not met"
+printf 'without the harness   flash %d bytes (%s KiB)  aim <= %d KiB: %s; static RAM %d bytes (mps2-station)\n' \
+  "$STATION_FLASH_BYTES" "$(kib "$STATION_FLASH_BYTES")" $((FLASH_AIM / 1024)) \
+  "$(aim "$STATION_FLASH_BYTES" "$FLASH_AIM")" "$STATION_RAM_BYTES"
+AIMS="${STANDFAST_FIRMWARE_AIMS:-ram}"
+if [ "$AIMS" != report ] && [ "$RAM_STACK_BYTES" -gt "$RAM_STACK_AIM" ]; then
+  echo "static RAM + peak stack over the ${RAM_STACK_AIM}-byte aim (enforced; issue 15)"
+  exit 1
+fi
+if [ "$AIMS" = enforce ] && [ "$FLASH_BYTES" -gt "$FLASH_AIM" ]; then
+  echo "STANDFAST_FIRMWARE_AIMS=enforce: the flash aim is not met"
   exit 1
 fi
 

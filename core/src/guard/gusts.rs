@@ -3,7 +3,7 @@
 //! one-minute gust maxima from which the rise of a strengthening wind is
 //! estimated.
 
-use crate::sense::{Millis, FINE_BIN_MS};
+use crate::sense::{div_rem_ms, Millis, FINE_BIN_MS};
 
 /// Minutes of one-minute gust maxima kept to estimate a rising wind.
 pub const GUST_HISTORY_MIN: usize = 10;
@@ -25,7 +25,7 @@ impl GustCache {
 
     /// Records the gust computed at `now`, m/s.
     pub(super) fn put(&mut self, now: Millis, gust_mps: Option<f32>) {
-        self.entry = Some((now.0 / FINE_BIN_MS, gust_mps));
+        self.entry = Some((div_rem_ms(now.0, FINE_BIN_MS).0, gust_mps));
     }
 
     /// The gust at `now`, m/s: the cached one for the same bin, or
@@ -35,7 +35,7 @@ impl GustCache {
         now: Millis,
         compute: impl FnOnce() -> Option<f32>,
     ) -> Option<f32> {
-        let bin = now.0 / FINE_BIN_MS;
+        let bin = div_rem_ms(now.0, FINE_BIN_MS).0;
         match self.entry {
             Some((b, g)) if b == bin => g,
             _ => {
@@ -56,10 +56,10 @@ pub(super) struct GustHistory {
 
 impl GustHistory {
     /// An empty history starting in the minute of `now`.
-    pub(super) const fn new(now: Millis) -> Self {
+    pub(super) fn new(now: Millis) -> Self {
         GustHistory {
             minutes_mps: [0.0; GUST_HISTORY_MIN],
-            minute_index: now.0 / 60_000,
+            minute_index: div_rem_ms(now.0, 60_000).0,
         }
     }
 
@@ -67,7 +67,7 @@ impl GustHistory {
     /// (minutes without a step hold 0: no gust seen); the present minute
     /// keeps the largest gust seen in it.
     pub(super) fn track(&mut self, now: Millis, gust_3s_mps: Option<f32>) {
-        let minute = now.0 / 60_000;
+        let minute = div_rem_ms(now.0, 60_000).0;
         if minute != self.minute_index {
             let steps = minute.saturating_sub(self.minute_index);
             // Shift the maxima `steps` minutes older (at most the whole

@@ -73,6 +73,44 @@ impl Millis {
     }
 }
 
+/// `n / d` and `n % d` for a time in milliseconds and a constant divisor
+/// (the wind bins' 250 ms and 10 s, a minute, a ring's length), without a
+/// 64-bit division: on a 32-bit target (Cortex-M) `u64 / u64` is a call into
+/// compiler-builtins' software division (about 0.9 KiB of flash and tens to
+/// hundreds of instructions a call, on the guard's every step), while a
+/// divisor below 2^16 needs only three 32-bit hardware divisions (long
+/// division in 16-bit digits, [`div_rem_by_u16`]). Other divisors, none
+/// here, take the plain `u64` division; `d = 0` gives `(0, 0)`. Inlined, so
+/// a constant divisor picks its branch at compile time.
+#[inline(always)]
+pub(crate) fn div_rem_ms(n: u64, d: u64) -> (u64, u64) {
+    match u16::try_from(d).ok().and_then(core::num::NonZeroU16::new) {
+        Some(d16) => div_rem_by_u16(n, d16),
+        None => (n.checked_div(d).unwrap_or(0), n.checked_rem(d).unwrap_or(0)),
+    }
+}
+
+/// `n / d` and `n % d` by schoolbook long division of `n` in one 32-bit and
+/// two 16-bit digits: each partial dividend is the previous remainder
+/// (below `d` < 2^16) shifted by 16 bits plus the next digit, so it fits
+/// 32 bits and each partial quotient fits its digit. Equal to `u64`'s `/`
+/// and `%` for every `n` and `d` (tests).
+#[inline(always)]
+pub(crate) fn div_rem_by_u16(n: u64, d: core::num::NonZeroU16) -> (u64, u64) {
+    let d = core::num::NonZeroU32::from(d);
+    #[allow(clippy::cast_possible_truncation)]
+    let (hi, lo) = ((n >> 32) as u32, n as u32);
+    let (q2, r2) = (hi / d, hi % d);
+    let t1 = (r2 << 16) | (lo >> 16);
+    let (q1, r1) = (t1 / d, t1 % d);
+    let t0 = (r1 << 16) | (lo & 0xFFFF);
+    let (q0, r0) = (t0 / d, t0 % d);
+    (
+        (u64::from(q2) << 32) | (u64::from(q1) << 16) | u64::from(q0),
+        u64::from(r0),
+    )
+}
+
 /// Milliseconds to seconds. The `u64 → f32` conversion rounds to the nearest
 /// representable value; that is the intent (no truncation surprise).
 #[allow(clippy::cast_precision_loss)]
@@ -98,6 +136,63 @@ pub(crate) fn s_to_ms(s: f32) -> u64 {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Against `u64`'s own `/` and `%` (the language's integer division):
+    /// the edges of every digit, the divisors in use, and pseudo-random
+    /// numerators over every magnitude with divisors over the whole range.
+    #[test]
+    fn division_by_a_small_divisor_is_u64_division() {
+        let fixed_d = [1, 2, 3, 7, 10, 12, 60, 250, 1000, 10_000, 60_000, 65_535];
+        let mut fixed_n = [
+            0,
+            1,
+            u64::MAX,
+            u64::MAX - 1,
+            0,
+            0,
+            0,
+            0,
+            0,
+            0,
+            0,
+            0,
+            0,
+            0,
+            0,
+        ];
+        for (i, k) in [16, 32, 48].into_iter().enumerate() {
+            fixed_n[4 + 3 * i] = (1u64 << k) - 1;
+            fixed_n[5 + 3 * i] = 1u64 << k;
+            fixed_n[6 + 3 * i] = (1u64 << k) + 1;
+        }
+        let mut x: u64 = 0x2545_f491_4f6c_dd1d;
+        let mut next = move || {
+            // xorshift64
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            x
+        };
+        let check = |n: u64, d: u64| assert_eq!(div_rem_ms(n, d), (n / d, n % d), "{n} / {d}");
+        for d in fixed_d {
+            for n in fixed_n {
+                check(n, d);
+            }
+        }
+        for _ in 0..200_000 {
+            let (r, s) = (next(), next());
+            let d = s % 65_535 + 1;
+            check(r >> (r % 64), d);
+            check(r, d);
+            for n in fixed_n {
+                check(n, d);
+            }
+        }
+        // Divisors from 2^16 up take the plain division; zero gives zeros.
+        assert_eq!(div_rem_ms(600_000_123, 600_000), (1000, 123));
+        assert_eq!(div_rem_ms(u64::MAX, u64::MAX), (1, 0));
+        assert_eq!(div_rem_ms(5, 0), (0, 0));
+    }
 
     #[test]
     fn millis_differences() {

@@ -378,6 +378,10 @@ fn stack_peak_bytes() -> usize {
     top - p
 }
 
+// The interrupt part of the vector table (cortex-m-rt's `device` feature).
+#[path = "mps2_vectors.rs"]
+mod vectors;
+
 #[exception]
 unsafe fn HardFault(ef: &ExceptionFrame) -> ! {
     let mut out = stdout();

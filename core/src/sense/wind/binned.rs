@@ -5,7 +5,7 @@
 use crate::error::Error;
 use crate::math;
 use crate::sense::fault::{Fault, FaultSet, Sensor};
-use crate::sense::{ms_to_s, s_to_ms, Millis};
+use crate::sense::{div_rem_ms, ms_to_s, s_to_ms, Millis};
 
 use super::channel::{check_direction, check_speed, Channel, FaultLimits};
 use super::config::{GustBasis, WindConfig, WindDirection, WindReport};
@@ -60,13 +60,20 @@ impl CoarseBin {
 /// Ring-buffer slot of absolute bin number `id`.
 fn slot(id: u64, n: usize) -> usize {
     let n64 = u64::try_from(n).unwrap_or(1).max(1);
-    usize::try_from(id % n64).unwrap_or(0)
+    usize::try_from(div_rem_ms(id, n64).1).unwrap_or(0)
+}
+
+/// The absolute number of the bin of `width_ms` holding `t_ms` (`t_ms /
+/// width_ms`, by [`div_rem_ms`]).
+fn bin_of(t_ms: u64, width_ms: u64) -> u64 {
+    div_rem_ms(t_ms, width_ms).0
 }
 
 /// Number of whole coarse bins covering `s` seconds, 1 to [`COARSE_BINS`].
 fn coarse_bins_for(s: f32) -> u64 {
     let ms = s_to_ms(s);
-    let n = ms.div_ceil(COARSE_BIN_MS).max(1);
+    let (q, r) = div_rem_ms(ms, COARSE_BIN_MS);
+    let n = q.saturating_add(u64::from(r > 0)).max(1);
     n.min(u64::try_from(COARSE_BINS).unwrap_or(60))
 }
 
@@ -188,7 +195,7 @@ impl WindStats {
         if self.first_sample.is_none() {
             self.first_sample = Some(now);
         }
-        let b = now.0 / FINE_BIN_MS;
+        let b = bin_of(now.0, FINE_BIN_MS);
         if let Some(c) = self.newest_fine {
             if b > c {
                 // Close the boundaries after bins c ..= b−1 (at most 12 can
@@ -217,7 +224,7 @@ impl WindStats {
             f.sum_mps += v_mps;
             f.count = f.count.saturating_add(1);
         }
-        let cb = self.coarse_mut(now.0 / COARSE_BIN_MS);
+        let cb = self.coarse_mut(bin_of(now.0, COARSE_BIN_MS));
         if let Some(cb) = cb {
             cb.sum_mps += v_mps;
             cb.count = cb.count.saturating_add(1);
@@ -244,7 +251,7 @@ impl WindStats {
     /// Mean of the samples in fine bins k−11 ..= k, if the record already
     /// spans the whole window and the window holds a sample.
     fn fine_mean_ending(&self, k: u64) -> Option<f32> {
-        let first = self.first_sample?.0 / FINE_BIN_MS;
+        let first = bin_of(self.first_sample?.0, FINE_BIN_MS);
         let n = u64::try_from(FINE_BINS).unwrap_or(12);
         if k < first.saturating_add(n - 1) {
             return None;
@@ -262,7 +269,7 @@ impl WindStats {
 
     fn record_gust(&mut self, k: u64, m: f32) {
         self.latest_gust_mps = Some(m);
-        if let Some(cb) = self.coarse_mut(k.saturating_mul(FINE_BIN_MS) / COARSE_BIN_MS) {
+        if let Some(cb) = self.coarse_mut(bin_of(k.saturating_mul(FINE_BIN_MS), COARSE_BIN_MS)) {
             if m > cb.gust_max_mps {
                 cb.gust_max_mps = m;
             }
@@ -272,7 +279,7 @@ impl WindStats {
     /// Coarse bins within the last `n` bins up to and including the one
     /// containing `now`.
     fn recent(&self, now: Millis, n: u64) -> impl Iterator<Item = &CoarseBin> {
-        let cur = now.0 / COARSE_BIN_MS;
+        let cur = bin_of(now.0, COARSE_BIN_MS);
         let lo = cur.saturating_add(1).saturating_sub(n);
         self.coarse
             .iter()
@@ -286,7 +293,7 @@ impl WindStats {
     /// sample in the last 3 s or before 3 s of record.
     #[must_use]
     pub fn gust_3s_mps(&self, now: Millis) -> Option<f32> {
-        let now_bin = now.0 / FINE_BIN_MS;
+        let now_bin = bin_of(now.0, FINE_BIN_MS);
         match self.newest_fine {
             Some(c) if now_bin >= c => self.fine_mean_ending(now_bin),
             _ => None,
@@ -297,7 +304,7 @@ impl WindStats {
     #[must_use]
     pub fn report(&self, now: Millis) -> WindReport {
         // 3-s means at the boundaries not yet closed by a later sample.
-        let now_bin = now.0 / FINE_BIN_MS;
+        let now_bin = bin_of(now.0, FINE_BIN_MS);
         let mut gust_now = None;
         let mut open_peak: Option<f32> = None;
         if let Some(c) = self.newest_fine {
