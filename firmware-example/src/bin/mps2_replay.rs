@@ -123,45 +123,9 @@ fn main() -> ! {
 }
 
 fn run() -> u32 {
-    let mut cmdline = [0u8; 256];
-    let block: [usize; 2] = [cmdline.as_mut_ptr() as usize, cmdline.len()];
-    // SAFETY: GET_CMDLINE writes at most `len` bytes into the buffer.
-    if unsafe { syscall(nr::GET_CMDLINE, &block) } != 0 {
-        stdout().line(&["error reason=no_command_line"]);
-        return EXIT_USAGE;
-    }
-    let len = cmdline
-        .iter()
-        .position(|&b| b == 0)
-        .unwrap_or(cmdline.len());
-    let Ok(cmd) = core::str::from_utf8(cmdline.get(..len).unwrap_or(&[])) else {
-        stdout().line(&["error reason=command_line_not_utf8"]);
-        return EXIT_USAGE;
-    };
-    let mut words = cmd.split_ascii_whitespace().skip(1);
-    let Some(path) = words.next() else {
-        stdout().line(&[USAGE]);
-        return EXIT_USAGE;
-    };
-    if path == "--selftest-sqrt" {
-        return selftest_sqrt();
-    }
-    let setup = match words.next() {
-        None => ReplaySetup::example(),
-        Some("--rate-100hz") => ReplaySetup::example_100hz(),
-        Some("--selftest-hardfault") => {
-            stdout().line(&["selftest: executing an undefined instruction"]);
-            cortex_m::asm::udf();
-        }
-        Some(_) => {
-            stdout().line(&[USAGE]);
-            return EXIT_USAGE;
-        }
-    };
-
-    let Some(fd) = open_read(path) else {
-        stdout().line(&["error reason=cannot_open path=", path]);
-        return EXIT_USAGE;
+    let (fd, setup) = match command() {
+        Ok(c) => c,
+        Err(code) => return code,
     };
     // The rig, the station and the buffers live in statics: nothing grows at
     // run time, and the set-up's temporaries are gone before the replay runs.
@@ -226,6 +190,56 @@ fn run() -> u32 {
             EXIT_LOG
         }
     }
+}
+
+/// Reads and acts on the semihosting command line: runs a self-test, or
+/// opens the log and picks the set-up. `Err` holds the exit code (a
+/// self-test's result, or a usage or file error, already printed). Out of
+/// line, so its buffers (the command line, 256 bytes, and the log's name
+/// for the open call, 200) are off the stack before the replay is built and
+/// run: the replay loop and the start-up are the stack's two deepest paths.
+#[inline(never)]
+fn command() -> Result<(usize, ReplaySetup), u32> {
+    let mut cmdline = [0u8; 256];
+    let block: [usize; 2] = [cmdline.as_mut_ptr() as usize, cmdline.len()];
+    // SAFETY: GET_CMDLINE writes at most `len` bytes into the buffer.
+    if unsafe { syscall(nr::GET_CMDLINE, &block) } != 0 {
+        stdout().line(&["error reason=no_command_line"]);
+        return Err(EXIT_USAGE);
+    }
+    let len = cmdline
+        .iter()
+        .position(|&b| b == 0)
+        .unwrap_or(cmdline.len());
+    let Ok(cmd) = core::str::from_utf8(cmdline.get(..len).unwrap_or(&[])) else {
+        stdout().line(&["error reason=command_line_not_utf8"]);
+        return Err(EXIT_USAGE);
+    };
+    let mut words = cmd.split_ascii_whitespace().skip(1);
+    let Some(path) = words.next() else {
+        stdout().line(&[USAGE]);
+        return Err(EXIT_USAGE);
+    };
+    if path == "--selftest-sqrt" {
+        return Err(selftest_sqrt());
+    }
+    let setup = match words.next() {
+        None => ReplaySetup::example(),
+        Some("--rate-100hz") => ReplaySetup::example_100hz(),
+        Some("--selftest-hardfault") => {
+            stdout().line(&["selftest: executing an undefined instruction"]);
+            cortex_m::asm::udf();
+        }
+        Some(_) => {
+            stdout().line(&[USAGE]);
+            return Err(EXIT_USAGE);
+        }
+    };
+    let Some(fd) = open_read(path) else {
+        stdout().line(&["error reason=cannot_open path=", path]);
+        return Err(EXIT_USAGE);
+    };
+    Ok((fd, setup))
 }
 
 /// Builds the example rig, the guard and the replay in place in their
