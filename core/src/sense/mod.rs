@@ -143,28 +143,22 @@ mod tests {
     #[test]
     fn division_by_a_small_divisor_is_u64_division() {
         let fixed_d = [1, 2, 3, 7, 10, 12, 60, 250, 1000, 10_000, 60_000, 65_535];
-        let mut fixed_n = [
+        // Zero, one, the top, and each side of every 16-bit digit boundary.
+        let fixed_n: [u64; 13] = [
             0,
             1,
             u64::MAX,
             u64::MAX - 1,
-            0,
-            0,
-            0,
-            0,
-            0,
-            0,
-            0,
-            0,
-            0,
-            0,
-            0,
+            (1 << 16) - 1,
+            1 << 16,
+            (1 << 16) + 1,
+            (1 << 32) - 1,
+            1 << 32,
+            (1 << 32) + 1,
+            (1 << 48) - 1,
+            1 << 48,
+            (1 << 48) + 1,
         ];
-        for (i, k) in [16, 32, 48].into_iter().enumerate() {
-            fixed_n[4 + 3 * i] = (1u64 << k) - 1;
-            fixed_n[5 + 3 * i] = 1u64 << k;
-            fixed_n[6 + 3 * i] = (1u64 << k) + 1;
-        }
         let mut x: u64 = 0x2545_f491_4f6c_dd1d;
         let mut next = move || {
             // xorshift64
