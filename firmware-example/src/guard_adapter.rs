@@ -92,11 +92,12 @@ pub fn example_rig_spec() -> Result<RigSpec, Error> {
 /// ([`example_rig_spec`]'s) made in this function's own frame and dropped
 /// when it returns. For a board that keeps its rig in a `static`: no
 /// `Result` of the rig or of its description is built and moved on the
-/// stack. Out of line, so its frame is released before the caller goes on.
+/// stack. Call it from an out-of-line function of the board's
+/// (`#[inline(never)]`), so its frame, with the description, is released
+/// before the guard is built (the binaries' `build_rig`).
 ///
 /// # Errors
 /// As [`example_rig`].
-#[inline(never)]
 pub fn example_rig_in(slot: &mut Option<Rig>) -> Result<(), Error> {
     // Borrowed out of the `Result`, not moved out of it: a move would be a
     // second 1.8 KiB copy in this frame.

@@ -136,8 +136,7 @@ fn run() -> u32 {
 fn build_station() -> Option<&'static mut BoardStation> {
     let setup = ReplaySetup::example();
     let rig_slot = cortex_m::singleton!(: Option<Rig> = None)?;
-    example_rig_in(rig_slot).ok()?;
-    let rig: &'static Rig = rig_slot.as_ref()?;
+    let rig: &'static Rig = build_rig(rig_slot)?;
     let guard_slot =
         cortex_m::singleton!(: MaybeUninit<Result<Guard<'static>, Error>> = MaybeUninit::uninit())?;
     let guard: &'static mut Guard<'static> =
@@ -157,6 +156,14 @@ fn build_station() -> Option<&'static mut BoardStation> {
             GuardAssess::with_guard(guard, Some(LimitRule::new(setup.limits))),
         )
     }))
+}
+
+/// Builds the example rig in place in `slot` ([`example_rig_in`]), out of
+/// line and with the error dropped (as in `mps2-replay`).
+#[inline(never)]
+fn build_rig(slot: &'static mut Option<Rig>) -> Option<&'static Rig> {
+    example_rig_in(slot).ok()?;
+    slot.as_ref()
 }
 
 /// Writes `make()` into `slot` and returns it (as in `mps2-replay`).
