@@ -1073,4 +1073,53 @@ mod tests {
             assert!(tilt_of_specific_force(Vec3::new(0.0, bad, 1.0)).is_err());
         }
     }
+
+    /// The shortcut answers "certainly at most the limit" for small angles
+    /// over a positive `x` (so the common case needs no square root), never
+    /// for a tiny or non-positive `x`, and is never wrong.
+    #[test]
+    fn certainly_at_most_is_taken_when_it_can_be_and_is_sound() {
+        let limit = 0.008_726_646_f32; // 0.5°
+                                       // 0.1° of a 1 g vector: certainly below 0.5°.
+        let y = 0.001_745_f32;
+        assert!(atan2_certainly_at_most(y * y, 1.0, limit));
+        assert!(!atan2_certainly_at_most(y * y, 1e-7, limit));
+        assert!(!atan2_certainly_at_most(0.0, -1.0, limit));
+        assert!(atan2_certainly_at_most(0.0, 1e-6, limit));
+        for i in 0..=400_u16 {
+            let t = f32::from(i) * 2.5e-5; // 0 to 0.01 rad, both sides of 0.5°
+            for x in [1.0_f32, 0.9, 2e-6] {
+                let yy = t * x;
+                if atan2_certainly_at_most(yy * yy, x, limit) {
+                    assert!(small_angle_atan2(yy, x) <= limit, "t {t}, x {x}");
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn angle_between_vectors_too_short_to_measure_is_zero() {
+        // |a|·|b| = 1e-14, below the 1e-12 bound: no direction to compare.
+        let a = Vec3::new(1e-7, 0.0, 0.0);
+        let b = Vec3::new(0.0, 1e-7, 0.0);
+        assert_eq!(angle_between(a, b), 0.0);
+        // Long enough: the right angle.
+        let half_pi = core::f32::consts::FRAC_PI_2;
+        let a = Vec3::new(1e-5, 0.0, 0.0);
+        let b = Vec3::new(0.0, 1e-5, 0.0);
+        assert!((angle_between(a, b) - half_pi).abs() < 1e-6);
+        // A zero or non-finite vector: 0.
+        assert_eq!(angle_between(Vec3::new(0.0, 0.0, 0.0), b), 0.0);
+        assert_eq!(angle_between(Vec3::new(f32::INFINITY, 0.0, 0.0), b), 0.0);
+        // At the bound itself, 0.
+        let a = Vec3::new(1e-6, 0.0, 0.0);
+        let b = Vec3::new(0.0, 1e-6, 0.0);
+        if a.norm() * b.norm() == 1e-12 {
+            assert_eq!(angle_between(a, b), 0.0);
+        }
+        // A 3-4-5 pair: the angle is atan2(|a×b|, a·b).
+        let a = Vec3::new(0.0, 0.0, 1.0);
+        let b = Vec3::new(0.0, 0.6, 0.8);
+        assert!((angle_between(a, b) - libm::atan2f(0.6, 0.8)).abs() < 1e-6);
+    }
 }
