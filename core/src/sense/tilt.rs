@@ -1122,4 +1122,120 @@ mod tests {
         let b = Vec3::new(0.0, 0.6, 0.8);
         assert!((angle_between(a, b) - libm::atan2f(0.6, 0.8)).abs() < 1e-6);
     }
+
+    fn sensor_with(config: TiltConfig) -> TiltSensor {
+        TiltSensor::new(config, Millis(0)).unwrap()
+    }
+
+    /// Feeds `sample` every `step_ms` from `from_ms` to `to_ms` inclusive.
+    fn feed(s: &mut TiltSensor, sample: [f32; 3], from_ms: u64, to_ms: u64, step_ms: u64) {
+        let mut t = from_ms;
+        while t <= to_ms {
+            s.push(Millis(t), sample).unwrap();
+            t += step_ms;
+        }
+    }
+
+    #[test]
+    fn level_capture_stores_the_mean_direction_and_refuses_a_rig_past_45_degrees() {
+        let config = TiltConfig {
+            reference: TiltReference::LevelReference,
+            level_capture_s: 2.0,
+            ..TiltConfig::default()
+        };
+        // A sensor 0.6° off true: the capture takes that as level.
+        let off = [0.01_f32, 0.0, 1.0];
+        let mut s = sensor_with(config);
+        assert_eq!(s.level_reference(), None);
+        assert_eq!(s.tilt(), None, "no reference yet");
+        s.start_level_capture(Millis(0));
+        feed(&mut s, off, 0, 1900, 100);
+        assert_eq!(s.level_capture(), LevelCapture::InProgress);
+        feed(&mut s, off, 2000, 2000, 100);
+        assert_eq!(s.level_capture(), LevelCapture::Done);
+        let r = s.level_reference().unwrap();
+        let want = Vec3::from_array(off).normalized().unwrap();
+        assert!((r - want).norm() < 1e-6, "{r:?}");
+        assert!(s.tilt().unwrap().magnitude_rad < 1e-5);
+
+        // Captured while standing 53° over (in band: |a| = 1 g): refused.
+        let mut s = sensor_with(config);
+        s.start_level_capture(Millis(0));
+        feed(&mut s, [0.8, 0.0, 0.6], 0, 2000, 100);
+        assert_eq!(s.level_capture(), LevelCapture::Failed);
+        assert_eq!(s.level_reference(), None);
+    }
+
+    #[test]
+    fn a_stored_level_reference_is_checked_then_used() {
+        let config = TiltConfig {
+            reference: TiltReference::LevelReference,
+            ..TiltConfig::default()
+        };
+        let mut s = sensor_with(config);
+        let e = s.set_level_reference(Vec3::ZERO).unwrap_err();
+        assert_eq!(e.kind, ErrorKind::ZeroDirection);
+        let e = s.set_level_reference(Vec3::new(0.8, 0.0, 0.6)).unwrap_err();
+        assert_eq!(e.field, Field::TiltLevelReferenceZ);
+        assert_eq!(s.level_reference(), None, "a refused reference is not kept");
+        assert_eq!(s.level_capture(), LevelCapture::Idle);
+
+        s.set_level_reference(Vec3::new(0.0, 0.02, 2.0)).unwrap();
+        assert_eq!(s.level_capture(), LevelCapture::Done);
+        let r = s.level_reference().unwrap();
+        assert!((r.norm() - 1.0).abs() < 1e-6 && (r.y - 0.01).abs() < 1e-4);
+        // A sample along the reference reads level.
+        s.push(Millis(0), [0.0, 0.01, 1.0]).unwrap();
+        assert!(s.tilt().unwrap().magnitude_rad < 1e-4);
+    }
+
+    #[test]
+    fn drift_rate_is_the_fast_to_slow_angle_over_the_filters_lag() {
+        let c = TiltConfig::default();
+        let mut s = sensor_with(c);
+        assert_eq!(s.drift_rate_rad_per_s(), 0.0);
+        feed(&mut s, [0.0, 0.0, 1.0], 0, 10_000, 100);
+        assert!(s.drift_rate_rad_per_s() < 1e-9);
+        // A 1° step: fast follows within seconds, slow (30 min) barely moves.
+        feed(&mut s, [0.017_452, 0.0, 0.999_848], 10_100, 20_000, 100);
+        let angle = angle_between(s.fast_g, s.slow_g);
+        assert!(angle > 0.01, "{angle}");
+        let want = angle / (c.drift_tau_s - c.filter_tau_s);
+        assert_eq!(s.drift_rate_rad_per_s(), want);
+    }
+
+    #[test]
+    fn last_magnitude_is_that_of_the_latest_sample_in_band_or_not() {
+        let mut s = sensor_with(TiltConfig::default());
+        assert!(s.last_magnitude_g().is_nan());
+        s.push(Millis(0), [0.0, 0.0, 1.1]).unwrap();
+        assert!((s.last_magnitude_g() - 1.1).abs() < 1e-6);
+        assert!(s.push(Millis(10), [0.0, 0.0, 2.0]).is_err());
+        assert!((s.last_magnitude_g() - 2.0).abs() < 1e-6);
+    }
+
+    fn has(set: &FaultSet, class: &str) -> bool {
+        set.iter().any(|f| f.class_code() == class)
+    }
+
+    /// Stale and stuck are "longer than" their limits: exactly at the limit
+    /// is not yet a fault, one millisecond more is.
+    #[test]
+    fn stale_and_stuck_start_one_millisecond_past_their_limits() {
+        let c = TiltConfig::default(); // stale 5 s, stuck 60 s
+        let mut s = sensor_with(c);
+        s.push(Millis(1000), [0.0, 0.0, 1.0]).unwrap();
+        assert!(!has(&s.faults(Millis(6000)), "stale"));
+        assert!(has(&s.faults(Millis(6001)), "stale"));
+
+        let mut s = sensor_with(c);
+        feed(&mut s, [0.0, 0.0, 1.0], 0, 60_000, 1000);
+        assert!(!has(&s.faults(Millis(60_000)), "stuck"));
+        s.push(Millis(60_001), [0.0, 0.0, 1.0]).unwrap();
+        let f = s.faults(Millis(60_001));
+        assert!(has(&f, "stuck"), "{f:?}");
+        // A changed reading clears it.
+        s.push(Millis(60_100), [0.0, 0.0, 1.000_001]).unwrap();
+        assert!(!has(&s.faults(Millis(60_100)), "stuck"));
+    }
 }
