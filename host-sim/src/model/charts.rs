@@ -129,10 +129,10 @@ pub fn approach_conditions(
     let mut c = Conditions::calm(a.pose);
     c.air = r.air;
     c.cover_fitted = cover.unwrap_or(false);
-    if let (Some(m), Some(d)) = (a.tilt_deg, a.tilt_downhill_deg) {
+    if let (Some(m), Some(d)) = (a.figures.tilt_deg, a.figures.tilt_downhill_deg) {
         c.tilt = Tilt::new(m.to_radians(), d.to_radians())?;
     }
-    if let Some(w) = a.wind_from_deg {
+    if let Some(w) = a.figures.wind_from_deg {
         c.wind_from_rad = w.to_radians();
     }
     Ok(c)

@@ -1,7 +1,9 @@
 //! A verdict's figures in the units every output shows them in: the one
 //! verdict-shaped type of the host. The bridge's JSON line carries it
-//! whole (flattened, in this order), the verdict CSV writes it, and a
-//! replay's closest approach is built from it.
+//! whole (flattened, in this order), the verdict CSV writes it, a replay's
+//! closest approach and a park request's moments hold it, a chart bucket
+//! holds the extremes of its verdicts in it ([`Figures::keep_extremes`]),
+//! and a what-if line holds a rig's closest approach in it.
 //!
 //! Utilisations are dimensionless (1.0 tips, slides or overloads); speeds
 //! m/s at rig height; angles degrees (directions clockwise from north, the
@@ -10,8 +12,9 @@
 use serde::Serialize;
 use standfast::guard::Verdict;
 
-/// The figures of one guard verdict, in report units.
-#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+/// The figures of one guard verdict, in report units (or the extremes of
+/// several, see [`Figures::keep_extremes`]).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
 pub struct Figures {
     /// Overturning utilisation at the peak gust now.
     pub overturning_utilisation: Option<f32>,
@@ -60,5 +63,112 @@ impl Figures {
     #[must_use]
     pub fn drive(&self, i: usize) -> Option<f32> {
         self.drive_utilisation.and_then(|d| d.get(i).copied())
+    }
+
+    /// Keeps the extremes of `self` and `o`, figure by figure: the higher
+    /// utilisations (each drive axis on its own), gusts and tilt, the lower
+    /// tip wind and tilt margin. The direction goes with the higher gust and
+    /// the downhill azimuth with the larger tilt; on a tie `self` keeps its
+    /// own. A figure that is not finite never replaces one (a `None` or
+    /// non-finite figure of `self` is replaced by a finite one of `o`).
+    pub fn keep_extremes(&mut self, o: &Figures) {
+        self.overturning_utilisation = hi(self.overturning_utilisation, o.overturning_utilisation);
+        self.predicted_utilisation = hi(self.predicted_utilisation, o.predicted_utilisation);
+        self.sliding_utilisation = hi(self.sliding_utilisation, o.sliding_utilisation);
+        self.drive_utilisation = match (self.drive_utilisation, o.drive_utilisation) {
+            (Some([a0, a1]), Some([b0, b1])) => Some([
+                hi(Some(a0), Some(b0)).unwrap_or(a0),
+                hi(Some(a1), Some(b1)).unwrap_or(a1),
+            ]),
+            (None, b) => b,
+            (a, None) => a,
+        };
+        self.tip_wind_mps = lo(self.tip_wind_mps, o.tip_wind_mps);
+        if takes(self.gust_mps, o.gust_mps) {
+            self.gust_mps = o.gust_mps;
+            self.wind_from_deg = o.wind_from_deg;
+        }
+        self.predicted_gust_mps = hi(self.predicted_gust_mps, o.predicted_gust_mps);
+        if takes(self.tilt_deg, o.tilt_deg) {
+            self.tilt_deg = o.tilt_deg;
+            self.tilt_downhill_deg = o.tilt_downhill_deg;
+        }
+        self.tilt_margin_deg = lo(self.tilt_margin_deg, o.tilt_margin_deg);
+    }
+}
+
+/// Whether `b` is finite and above `a` (or `a` is `None` or not finite).
+fn takes(a: Option<f32>, b: Option<f32>) -> bool {
+    match (a.filter(|x| x.is_finite()), b.filter(|x| x.is_finite())) {
+        (_, None) => false,
+        (None, Some(_)) => true,
+        (Some(x), Some(y)) => y > x,
+    }
+}
+
+/// The higher of two optional values (a finite value beats `None`).
+fn hi(a: Option<f32>, b: Option<f32>) -> Option<f32> {
+    if takes(a, b) {
+        b
+    } else {
+        a
+    }
+}
+
+/// The lower of two optional values (a finite value beats `None`).
+fn lo(a: Option<f32>, b: Option<f32>) -> Option<f32> {
+    match (a.filter(|x| x.is_finite()), b.filter(|x| x.is_finite())) {
+        (Some(x), Some(y)) => Some(if y < x { y } else { x }),
+        (None, Some(y)) => Some(y),
+        _ => a,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn f(u: f32, gust: f32, from: f32, tip: f32, tilt: f32, downhill: f32) -> Figures {
+        Figures {
+            overturning_utilisation: Some(u),
+            drive_utilisation: Some([u, 1.0 - u]),
+            gust_mps: Some(gust),
+            wind_from_deg: Some(from),
+            tip_wind_mps: Some(tip),
+            tilt_deg: Some(tilt),
+            tilt_downhill_deg: Some(downhill),
+            ..Figures::default()
+        }
+    }
+
+    // Expected values worked by hand from the documented rule.
+    #[test]
+    fn extremes_keep_each_figure_with_its_companion() {
+        let mut a = f(0.2, 8.0, 90.0, 30.0, 0.5, 10.0);
+        a.keep_extremes(&f(0.3, 6.0, 180.0, 20.0, 0.7, 200.0));
+        assert_eq!(a.overturning_utilisation, Some(0.3));
+        assert_eq!(a.drive_utilisation, Some([0.3, 0.8]));
+        // The direction stays with the higher gust, the azimuth with the tilt.
+        assert_eq!((a.gust_mps, a.wind_from_deg), (Some(8.0), Some(90.0)));
+        assert_eq!((a.tilt_deg, a.tilt_downhill_deg), (Some(0.7), Some(200.0)));
+        assert_eq!(a.tip_wind_mps, Some(20.0));
+        // Ties keep the first.
+        a.keep_extremes(&f(0.1, 8.0, 270.0, 25.0, 0.7, 300.0));
+        assert_eq!(
+            (a.wind_from_deg, a.tilt_downhill_deg),
+            (Some(90.0), Some(200.0))
+        );
+    }
+
+    #[test]
+    fn extremes_never_take_a_missing_or_non_finite_figure() {
+        let mut a = f(0.2, 8.0, 90.0, 30.0, 0.5, 10.0);
+        a.keep_extremes(&f(f32::NAN, f32::INFINITY, 0.0, f32::NAN, f32::NAN, 0.0));
+        assert_eq!(a, f(0.2, 8.0, 90.0, 30.0, 0.5, 10.0));
+        a.keep_extremes(&Figures::default());
+        assert_eq!(a, f(0.2, 8.0, 90.0, 30.0, 0.5, 10.0));
+        let mut empty = Figures::default();
+        empty.keep_extremes(&a);
+        assert_eq!(empty, a);
     }
 }

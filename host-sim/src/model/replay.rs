@@ -73,7 +73,11 @@ impl Default for ReplayOptions {
 }
 
 /// The conditions at a figure's highest value.
-#[derive(Clone, Debug, PartialEq, Serialize)]
+///
+/// Its JSON object keeps the fields of the figures it shows where they
+/// always were (`gust_mps`, `wind_from_deg`, then the pose, `tilt_deg`,
+/// `tilt_downhill_deg`, `tip_wind_mps`).
+#[derive(Clone, Debug, PartialEq)]
 pub struct Approach {
     /// The utilisation (1.0 is the limit), dimensionless.
     pub utilisation: f32,
@@ -81,22 +85,51 @@ pub struct Approach {
     pub time: String,
     /// Seconds since the first record.
     pub t_s: f64,
-    /// Gust the figures were computed for, m/s at rig height.
-    pub gust_mps: Option<f32>,
-    /// Wind direction used (from), degrees clockwise from north.
-    pub wind_from_deg: Option<f32>,
+    /// The verdict's figures at that record, in report units.
+    pub figures: Figures,
     /// Mount pose of the figures.
     pub pose: Pose,
-    /// Ground tilt, degrees.
-    pub tilt_deg: Option<f32>,
-    /// Downhill azimuth of the tilt, degrees clockwise from north.
-    pub tilt_downhill_deg: Option<f32>,
-    /// Wind speed that would tip the rig there, m/s.
-    pub tip_wind_mps: Option<f32>,
-    /// AlertLevel at that step.
+    /// Alert level at that step.
     pub stage: AlertLevel,
     /// Cover state held at that record (`None`: the logs do not say).
     pub cover_fitted: Option<bool>,
+}
+
+/// The JSON shape of an [`Approach`]: its figures' gust, direction, tilt
+/// and tip wind, in the summary's long-standing order.
+#[derive(Serialize)]
+struct ApproachJson<'a> {
+    utilisation: f32,
+    time: &'a str,
+    t_s: f64,
+    gust_mps: Option<f32>,
+    wind_from_deg: Option<f32>,
+    pose: &'a Pose,
+    tilt_deg: Option<f32>,
+    tilt_downhill_deg: Option<f32>,
+    tip_wind_mps: Option<f32>,
+    stage: AlertLevel,
+    cover_fitted: Option<bool>,
+}
+
+impl Serialize for Approach {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        let f = &self.figures;
+        ApproachJson {
+            utilisation: self.utilisation,
+            time: &self.time,
+            t_s: self.t_s,
+            gust_mps: f.gust_mps,
+            wind_from_deg: f.wind_from_deg,
+            pose: &self.pose,
+            tilt_deg: f.tilt_deg,
+            tilt_downhill_deg: f.tilt_downhill_deg,
+            tip_wind_mps: f.tip_wind_mps,
+            stage: self.stage,
+            cover_fitted: self.cover_fitted,
+        }
+        .serialize(s)
+    }
 }
 
 /// The figures and inputs of one evaluation of the physics, kept so that a
@@ -400,17 +433,12 @@ fn millis_since(t: Timestamp, t0: Timestamp) -> Millis {
 }
 
 fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64, cover: Option<bool>) -> Approach {
-    let f = Figures::of(v);
     Approach {
         utilisation: u,
         time: time.to_iso8601(3),
         t_s,
-        gust_mps: f.gust_mps,
-        wind_from_deg: f.wind_from_deg,
+        figures: Figures::of(v),
         pose: v.pose,
-        tilt_deg: f.tilt_deg,
-        tilt_downhill_deg: f.tilt_downhill_deg,
-        tip_wind_mps: f.tip_wind_mps,
         stage: v.level,
         cover_fitted: cover,
     }

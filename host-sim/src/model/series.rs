@@ -16,6 +16,8 @@
 use serde::Serialize;
 use standfast::guard::{AlertLevel, Verdict};
 
+use crate::model::figures::Figures;
+
 /// Most buckets a series holds.
 pub const MAX_SERIES_POINTS: usize = 2000;
 
@@ -29,16 +31,10 @@ pub struct SeriesPoint {
     pub t_start_s: f64,
     /// Time of the bucket's last record, seconds since the first record.
     pub t_last_s: f64,
-    /// Highest overturning utilisation.
-    pub overturning_max: Option<f32>,
-    /// Highest predicted overturning utilisation (end of a park).
-    pub predicted_max: Option<f32>,
-    /// Highest sliding utilisation.
-    pub sliding_max: Option<f32>,
-    /// Highest gust the guard used, m/s.
-    pub gust_max_mps: Option<f32>,
-    /// Direction (from) at the highest gust, degrees clockwise from north.
-    pub wind_from_deg: Option<f32>,
+    /// The extremes of the bucket's verdicts ([`Figures::keep_extremes`]):
+    /// the highest utilisations, gust (with its direction, degrees from 0
+    /// to 360 clockwise from north) and tilt, the lowest tip wind speed.
+    pub peak: Figures,
     /// Highest wind speed held at a record (the anemometer's highest
     /// sample), m/s.
     pub wind_max_mps: Option<f32>,
@@ -46,11 +42,6 @@ pub struct SeriesPoint {
     wind_sum_mps: f64,
     /// Records with a wind speed.
     wind_n: u32,
-    /// Lowest tip wind speed (the wind that would tip the rig), m/s at
-    /// rig height.
-    pub tip_wind_min_mps: Option<f32>,
-    /// Largest ground tilt, degrees.
-    pub tilt_max_deg: Option<f32>,
     /// Cover state: fitted when it was fitted at any record of the bucket,
     /// off when known and never fitted, `None` when no record knew it.
     pub cover: Option<bool>,
@@ -72,16 +63,10 @@ impl SeriesPoint {
         SeriesPoint {
             t_start_s,
             t_last_s: t_s,
-            overturning_max: None,
-            predicted_max: None,
-            sliding_max: None,
-            gust_max_mps: None,
-            wind_from_deg: None,
+            peak: Figures::default(),
             wind_max_mps: None,
             wind_sum_mps: 0.0,
             wind_n: 0,
-            tip_wind_min_mps: None,
-            tilt_max_deg: None,
             cover: None,
             pose_a_deg: None,
             pose_b_deg: None,
@@ -103,18 +88,10 @@ impl SeriesPoint {
 
     fn merge(&mut self, o: &SeriesPoint) {
         self.t_last_s = self.t_last_s.max(o.t_last_s);
-        self.overturning_max = hi(self.overturning_max, o.overturning_max);
-        self.predicted_max = hi(self.predicted_max, o.predicted_max);
-        self.sliding_max = hi(self.sliding_max, o.sliding_max);
-        if o.gust_max_mps.is_some() && hi(self.gust_max_mps, o.gust_max_mps) != self.gust_max_mps {
-            self.gust_max_mps = o.gust_max_mps;
-            self.wind_from_deg = o.wind_from_deg;
-        }
+        self.peak.keep_extremes(&o.peak);
         self.wind_max_mps = hi(self.wind_max_mps, o.wind_max_mps);
         self.wind_sum_mps += o.wind_sum_mps;
         self.wind_n = self.wind_n.saturating_add(o.wind_n);
-        self.tilt_max_deg = hi(self.tilt_max_deg, o.tilt_max_deg);
-        self.tip_wind_min_mps = lo(self.tip_wind_min_mps, o.tip_wind_min_mps);
         self.cover = match (self.cover, o.cover) {
             (Some(a), Some(b)) => Some(a || b),
             (a, b) => a.or(b),
@@ -165,15 +142,6 @@ pub fn pose_angles_deg(p: &standfast::mount::Pose) -> (&'static str, f32, f32) {
             azimuth_rad.to_degrees(),
             altitude_rad.to_degrees(),
         ),
-    }
-}
-
-/// The lower of two optional values (a finite value beats `None`).
-fn lo(a: Option<f32>, b: Option<f32>) -> Option<f32> {
-    match (a, b.filter(|x| x.is_finite())) {
-        (Some(x), Some(y)) => Some(if y < x { y } else { x }),
-        (None, y) => y,
-        (x, None) => x,
     }
 }
 
@@ -297,15 +265,9 @@ impl Series {
         };
         p.t_last_s = t_s;
         p.records = p.records.saturating_add(1);
-        p.overturning_max = hi(p.overturning_max, v.overturning_utilisation);
-        p.predicted_max = hi(p.predicted_max, v.predicted_utilisation);
-        p.sliding_max = hi(p.sliding_max, v.sliding_utilisation);
-        if let Some(g) = v.gust_mps.filter(|g| g.is_finite()) {
-            if p.gust_max_mps.is_none_or(|m| g > m) {
-                p.gust_max_mps = Some(g);
-                p.wind_from_deg = v.wind_from_rad.map(|r| r.to_degrees().rem_euclid(360.0));
-            }
-        }
+        let mut f = Figures::of(v);
+        f.wind_from_deg = f.wind_from_deg.map(|d| d.rem_euclid(360.0));
+        p.peak.keep_extremes(&f);
         if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
             if let Some(last) = self.last_wind_t_s {
                 if t_s - last > self.wind_gap_s {
@@ -323,8 +285,6 @@ impl Series {
             p.wind_sum_mps += w;
             p.wind_n = p.wind_n.saturating_add(1);
         }
-        p.tilt_max_deg = hi(p.tilt_max_deg, v.tilt.map(|t| t.magnitude_rad.to_degrees()));
-        p.tip_wind_min_mps = lo(p.tip_wind_min_mps, v.tip_wind_mps);
         if let Some(c) = cover {
             p.cover = Some(p.cover.unwrap_or(false) || c);
         }

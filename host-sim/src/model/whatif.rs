@@ -32,6 +32,7 @@ use crate::input::located::{fmt_g, InputError};
 use crate::input::rigfile::LoadedRig;
 use crate::input::units::f32_of as f;
 use crate::input::units::{split_number, Dim, Duration, Force, Length, Mass};
+use crate::model::figures::Figures;
 use crate::model::replay::{ReplayReport, RigReplay};
 
 /// The cover state of a variant.
@@ -443,22 +444,26 @@ pub fn variant_from_texts(base: &LoadedRig, texts: &[String]) -> Result<LoadedRi
 }
 
 /// One rig's line of the side-by-side comparison.
-#[derive(Clone, Debug, PartialEq, Serialize)]
+///
+/// Its JSON object has, in this order, `column`, `rig`,
+/// `overturning_utilisation`, `overturning_t_s`, `tip_wind_mps`,
+/// `sliding_utilisation`, `drive_utilisation` (two numbers or nulls), then
+/// the level fields.
+#[derive(Clone, Debug, PartialEq)]
 pub struct RigLine {
     /// Column letter (A, B, ...).
     pub column: String,
     /// The rig file, or the base file with its overrides.
     pub rig: String,
-    /// Highest overturning utilisation (dimensionless, 1.0 tips).
-    pub overturning_utilisation: Option<f32>,
-    /// Its time, seconds since the first record.
+    /// The figures of the closest approach to tipping (the record of the
+    /// highest overturning utilisation, dimensionless, 1.0 tips), except
+    /// `sliding_utilisation` and `drive_utilisation`: the replay's highest
+    /// (each drive axis its own; an axis that never had a finite figure is
+    /// NaN, read through [`RigLine::drive`]).
+    pub figures: Figures,
+    /// Time of the highest overturning utilisation, seconds since the
+    /// first record.
     pub overturning_t_s: Option<f64>,
-    /// Tip wind speed at the closest approach, m/s.
-    pub tip_wind_mps: Option<f32>,
-    /// Highest sliding utilisation.
-    pub sliding_utilisation: Option<f32>,
-    /// Highest drive utilisation per axis.
-    pub drive_utilisation: [Option<f32>; 2],
     /// Most severe stage reached.
     pub highest_stage: AlertLevel,
     /// First park request (stage change to park_now or alarm), seconds since
@@ -476,6 +481,58 @@ pub struct RigLine {
     pub sensor_fault_s: f64,
     /// AlertLevel changes (kept and not kept).
     pub stage_changes: u64,
+}
+
+impl RigLine {
+    /// The highest drive utilisation of axis `i` (0 primary, 1 secondary),
+    /// `None` when the axis never had a finite figure.
+    #[must_use]
+    pub fn drive(&self, i: usize) -> Option<f32> {
+        self.figures.drive(i).filter(|u| u.is_finite())
+    }
+}
+
+/// The JSON shape of a [`RigLine`].
+#[derive(Serialize)]
+struct RigLineJson<'a> {
+    column: &'a str,
+    rig: &'a str,
+    overturning_utilisation: Option<f32>,
+    overturning_t_s: Option<f64>,
+    tip_wind_mps: Option<f32>,
+    sliding_utilisation: Option<f32>,
+    drive_utilisation: [Option<f32>; 2],
+    highest_stage: AlertLevel,
+    first_park_t_s: Option<f64>,
+    first_alarm_t_s: Option<f64>,
+    watch_s: f64,
+    park_now_s: f64,
+    alarm_s: f64,
+    sensor_fault_s: f64,
+    stage_changes: u64,
+}
+
+impl Serialize for RigLine {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        RigLineJson {
+            column: &self.column,
+            rig: &self.rig,
+            overturning_utilisation: self.figures.overturning_utilisation,
+            overturning_t_s: self.overturning_t_s,
+            tip_wind_mps: self.figures.tip_wind_mps,
+            sliding_utilisation: self.figures.sliding_utilisation,
+            drive_utilisation: [self.drive(0), self.drive(1)],
+            highest_stage: self.highest_stage,
+            first_park_t_s: self.first_park_t_s,
+            first_alarm_t_s: self.first_alarm_t_s,
+            watch_s: self.watch_s,
+            park_now_s: self.park_now_s,
+            alarm_s: self.alarm_s,
+            sensor_fault_s: self.sensor_fault_s,
+            stage_changes: self.stage_changes,
+        }
+        .serialize(s)
+    }
 }
 
 /// The side-by-side comparison of the rigs of one replay.
@@ -502,17 +559,27 @@ fn line(i: usize, r: &RigReplay) -> RigLine {
     let first = |pred: &dyn Fn(AlertLevel) -> bool| {
         r.stage_changes.iter().find(|c| pred(c.to)).map(|c| c.t_s)
     };
+    let mut figures = r
+        .overturning
+        .as_ref()
+        .map_or_else(Figures::default, |a| Figures {
+            overturning_utilisation: Some(a.utilisation),
+            ..a.figures
+        });
+    figures.sliding_utilisation = r.sliding.as_ref().map(|a| a.utilisation);
+    let drive = |i: usize| {
+        r.drive
+            .get(i)
+            .and_then(Option::as_ref)
+            .map_or(f32::NAN, |a| a.utilisation)
+    };
+    figures.drive_utilisation =
+        (r.drive[0].is_some() || r.drive[1].is_some()).then(|| [drive(0), drive(1)]);
     RigLine {
         column: column(i),
         rig: r.rig_file.clone(),
-        overturning_utilisation: r.overturning.as_ref().map(|a| a.utilisation),
+        figures,
         overturning_t_s: r.overturning.as_ref().map(|a| a.t_s),
-        tip_wind_mps: r.overturning.as_ref().and_then(|a| a.tip_wind_mps),
-        sliding_utilisation: r.sliding.as_ref().map(|a| a.utilisation),
-        drive_utilisation: [
-            r.drive[0].as_ref().map(|a| a.utilisation),
-            r.drive[1].as_ref().map(|a| a.utilisation),
-        ],
         highest_stage: r.highest_stage,
         first_park_t_s: first(&|s| s == AlertLevel::ParkNow || s == AlertLevel::Alarm),
         first_alarm_t_s: first(&|s| s == AlertLevel::Alarm),

@@ -375,12 +375,12 @@ fn cover_words(c: Option<bool>) -> &'static str {
 fn conditions(a: &Approach) -> String {
     format!(
         "gust {} from {}, cover {}, {}, tilt {}, tip wind {}, stage {}",
-        opt(a.gust_mps, "m/s", 1),
-        deg(a.wind_from_deg.map(|d| d.rem_euclid(360.0)), 0),
+        opt(a.figures.gust_mps, "m/s", 1),
+        deg(a.figures.wind_from_deg.map(|d| d.rem_euclid(360.0)), 0),
         cover_words(a.cover_fitted),
         pose_words(&a.pose),
-        deg(a.tilt_deg, 2),
-        opt(a.tip_wind_mps, "m/s", 1),
+        deg(a.figures.tilt_deg, 2),
+        opt(a.figures.tip_wind_mps, "m/s", 1),
         a.stage.name(),
     )
 }

@@ -62,11 +62,11 @@ fn approach_row(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> Vec
         label.to_owned(),
         format!("{:.0} %", a.utilisation * 100.0),
         when(clock, a.t_s, &a.time),
-        opt(a.gust_mps, "m/s", 1),
-        opt(a.wind_from_deg, "°", 0),
+        opt(a.figures.gust_mps, "m/s", 1),
+        opt(a.figures.wind_from_deg, "°", 0),
         pose_words(&a.pose),
-        opt(a.tilt_deg, "°", 2),
-        opt(a.tip_wind_mps, "m/s", 1),
+        opt(a.figures.tilt_deg, "°", 2),
+        opt(a.figures.tip_wind_mps, "m/s", 1),
         a.stage.name().to_owned(),
     ]
 }
@@ -137,7 +137,7 @@ fn rig_section(page: &mut Page, rep: &ReplayReport, r: &RigReplay, charts: Optio
     t.lines.push(line(
         "tilt (highest)",
         palette::BLUE,
-        points(&r.series, 1.0, |p| p.tilt_max_deg),
+        points(&r.series, 1.0, |p| p.peak.tilt_deg),
     ));
     t.marks.clone_from(&axis.marks);
     page.figure(
@@ -156,19 +156,19 @@ fn utilisation_charts(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>
     u.lines.push(line(
         "overturning",
         palette::BLUE,
-        points(s, 100.0, |p| p.overturning_max),
+        points(s, 100.0, |p| p.peak.overturning_utilisation),
     ));
     let mut pred = line(
         "predicted (end of park)",
         palette::PINK,
-        points(s, 100.0, |p| p.predicted_max),
+        points(s, 100.0, |p| p.peak.predicted_utilisation),
     );
     pred.stroke = Stroke::Dashed;
     u.lines.push(pred);
     u.lines.push(line(
         "sliding",
         palette::AMBER,
-        points(s, 100.0, |p| p.sliding_max),
+        points(s, 100.0, |p| p.peak.sliding_utilisation),
     ));
     if let Some([watch, park, alarm]) = charts.and_then(|c| c.thresholds) {
         for (value, label) in [(watch, "watch"), (park, "park"), (alarm, "alarm")] {
@@ -246,12 +246,12 @@ fn wind_charts(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>, axis:
     w.lines.push(line(
         "gust used by the guard",
         palette::BLUE,
-        points(s, 1.0, |p| p.gust_max_mps),
+        points(s, 1.0, |p| p.peak.gust_mps),
     ));
     let mut tip = line(
         "tip wind (lowest)",
         palette::PINK,
-        points(s, 1.0, |p| p.tip_wind_min_mps),
+        points(s, 1.0, |p| p.peak.tip_wind_mps),
     );
     tip.stroke = Stroke::Dashed;
     w.lines.push(tip);
@@ -285,7 +285,7 @@ fn wind_charts(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>, axis:
     let mut dl = line(
         "direction at the highest gust",
         palette::INK,
-        points(s, 1.0, |p| p.wind_from_deg),
+        points(s, 1.0, |p| p.peak.wind_from_deg),
     );
     dl.dots = true;
     d.lines.push(dl);
@@ -313,7 +313,7 @@ fn polar_chart(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>) {
             points: pts,
             stroke: Stroke::Solid,
         }],
-        marker: match (a.wind_from_deg, a.gust_mps) {
+        marker: match (a.figures.wind_from_deg, a.figures.gust_mps) {
             (Some(dir), Some(g)) => Some(PolarMarker {
                 deg: f64::from(dir),
                 value: f64::from(g),
@@ -330,7 +330,7 @@ fn polar_chart(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>) {
         &format!(
             "Lowest wind speed that would tip the rig, for a wind from each direction (every {POLAR_STEP_DEG}°), in the pose of the closest approach ({}), tilt {}, cover {}. The dot is the gust there. Open circles on the outer ring: no wind tips it from that direction.",
             pose_words(&a.pose),
-            match (a.tilt_deg, a.tilt_downhill_deg) {
+            match (a.figures.tilt_deg, a.figures.tilt_downhill_deg) {
                 (Some(m), Some(dd)) => format!("{m:.2}° downhill toward {dd:.0}°"),
                 _ => "unknown (level assumed)".to_owned(),
             },

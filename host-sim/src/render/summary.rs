@@ -74,11 +74,11 @@ fn approach_text(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> St
         "  {label}: {:.0} % at {}, gust {}, from {}, {}, tilt {}, tip wind {}, stage {}\n",
         a.utilisation * 100.0,
         at_text(clock, a.t_s),
-        num(a.gust_mps, "m/s", 1),
-        num(a.wind_from_deg, "°", 0),
+        num(a.figures.gust_mps, "m/s", 1),
+        num(a.figures.wind_from_deg, "°", 0),
         pose_text(&a.pose),
-        num(a.tilt_deg, "°", 2),
-        num(a.tip_wind_mps, "m/s", 1),
+        num(a.figures.tilt_deg, "°", 2),
+        num(a.figures.tip_wind_mps, "m/s", 1),
         a.stage.name(),
     )
 }

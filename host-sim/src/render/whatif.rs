@@ -93,7 +93,7 @@ pub fn comparison_rows(
             "highest overturning",
             cmp.rigs
                 .iter()
-                .map(|r| pct(r.overturning_utilisation))
+                .map(|r| pct(r.figures.overturning_utilisation))
                 .collect(),
         ),
         (
@@ -108,7 +108,8 @@ pub fn comparison_rows(
             cmp.rigs
                 .iter()
                 .map(|r| {
-                    r.tip_wind_mps
+                    r.figures
+                        .tip_wind_mps
                         .map_or_else(|| "-".to_owned(), |v| format!("{v:.1} m/s"))
                 })
                 .collect(),
@@ -117,22 +118,16 @@ pub fn comparison_rows(
             "highest sliding",
             cmp.rigs
                 .iter()
-                .map(|r| pct(r.sliding_utilisation))
+                .map(|r| pct(r.figures.sliding_utilisation))
                 .collect(),
         ),
         (
             "highest drive axis 1",
-            cmp.rigs
-                .iter()
-                .map(|r| pct(r.drive_utilisation[0]))
-                .collect(),
+            cmp.rigs.iter().map(|r| pct(r.drive(0))).collect(),
         ),
         (
             "highest drive axis 2",
-            cmp.rigs
-                .iter()
-                .map(|r| pct(r.drive_utilisation[1]))
-                .collect(),
+            cmp.rigs.iter().map(|r| pct(r.drive(1))).collect(),
         ),
         (
             "highest stage",
@@ -321,7 +316,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         "Overturning utilisation",
         "utilisation (% of the limit)",
         "overturning",
-        &|p| p.overturning_max,
+        &|p| p.peak.overturning_utilisation,
     );
     u.hlines.clone_from(&thresholds);
     page.figure(&u.to_svg(), &format!("Overturning utilisation of each rig in % of the limit (100 %: the rig tips), with the guards' watch, park and alarm thresholds (dashed; a threshold only some rigs use names them). {}{}", axis.bucket, axis.zone_note));
@@ -329,7 +324,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         "Predicted utilisation at the end of a park",
         "utilisation (% of the limit)",
         "predicted",
-        &|p| p.predicted_max,
+        &|p| p.peak.predicted_utilisation,
     );
     pr.hlines = thresholds;
     page.figure(&pr.to_svg(), &format!("The overturning utilisation each guard predicts for the end of a park (the figure its park request answers to), with the thresholds. {}", axis.bucket));
@@ -337,7 +332,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         "Sliding utilisation",
         "utilisation (% of the limit)",
         "sliding",
-        &|p| p.sliding_max,
+        &|p| p.peak.sliding_utilisation,
     );
     page.figure(
         &sl.to_svg(),
@@ -397,7 +392,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
 /// and heights): the wind chart then draws them once.
 fn same_gusts(rigs: &[RigReplay]) -> bool {
     let gusts =
-        |s: &Series| -> Vec<Option<f32>> { s.points.iter().map(|p| p.gust_max_mps).collect() };
+        |s: &Series| -> Vec<Option<f32>> { s.points.iter().map(|p| p.peak.gust_mps).collect() };
     rigs.first()
         .is_none_or(|a| rigs.iter().all(|r| gusts(&r.series) == gusts(&a.series)))
 }
@@ -416,7 +411,7 @@ fn wind_chart(
             w.lines.push(line(
                 "gust used by the guards",
                 palette::INK,
-                points(&r.series, 1.0, |p| p.gust_max_mps),
+                points(&r.series, 1.0, |p| p.peak.gust_mps),
             ));
         }
     } else {
@@ -424,7 +419,7 @@ fn wind_chart(
             let mut g = line(
                 &format!("{}: gust used by its guard", l.column),
                 palette::INK,
-                points(&r.series, 1.0, |p| p.gust_max_mps),
+                points(&r.series, 1.0, |p| p.peak.gust_mps),
             );
             g.stroke = rig_style(i).2;
             w.lines.push(g);
@@ -435,7 +430,7 @@ fn wind_chart(
             i,
             &l.column,
             "tip wind",
-            points(&r.series, 1.0, |p| p.tip_wind_min_mps),
+            points(&r.series, 1.0, |p| p.peak.tip_wind_mps),
         ));
     }
     let heights: Vec<String> = cmp

@@ -187,8 +187,11 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
     assert!(o.utilisation > 0.9, "{o:?}");
     // Direction as logged: from the west, 270° ± 1° (the meteorological
     // convention, WMO No. 8).
-    assert!((o.wind_from_deg.unwrap() - 270.0).abs() <= 1.01, "{o:?}");
-    assert!(o.tilt_deg.unwrap() < 0.01, "level ground: {o:?}");
+    assert!(
+        (o.figures.wind_from_deg.unwrap() - 270.0).abs() <= 1.01,
+        "{o:?}"
+    );
+    assert!(o.figures.tilt_deg.unwrap() < 0.01, "level ground: {o:?}");
     // Time per stage covers the whole log.
     let total: f64 = r.stage_time.iter().map(|s| s.seconds).sum();
     assert!((total - rep.duration_s).abs() < 1e-6);

@@ -148,7 +148,7 @@ fn series_stays_bounded_and_keeps_each_interval_maximum() {
             .filter(|(t, _)| inside(*t))
             .filter_map(|(_, v)| *v)
             .fold(None, |a: Option<f64>, v| Some(a.map_or(v, |a| a.max(v))));
-        match (top, p.overturning_max) {
+        match (top, p.peak.overturning_utilisation) {
             (Some(a), Some(b)) => assert!(
                 (a - f64::from(b)).abs() < 1e-4,
                 "{a} {b} at {}",
@@ -171,7 +171,7 @@ fn series_stays_bounded_and_keeps_each_interval_maximum() {
     let top = s
         .points
         .iter()
-        .filter_map(|p| p.overturning_max)
+        .filter_map(|p| p.peak.overturning_utilisation)
         .fold(f32::MIN, f32::max);
     assert_eq!(top, rep.rigs[0].overturning.as_ref().unwrap().utilisation);
 }

@@ -126,18 +126,18 @@ fn added_ballast_lowers_the_closest_approach_by_the_lever_rule() {
     let c = Conditions {
         pose: b.pose,
         tilt: Tilt::new(
-            b.tilt_deg.unwrap().to_radians(),
-            b.tilt_downhill_deg.unwrap().to_radians(),
+            b.figures.tilt_deg.unwrap().to_radians(),
+            b.figures.tilt_downhill_deg.unwrap().to_radians(),
         )
         .unwrap(),
-        wind_speed_mps: b.gust_mps.unwrap(),
-        wind_from_rad: b.wind_from_deg.unwrap().to_radians(),
+        wind_speed_mps: b.figures.gust_mps.unwrap(),
+        wind_from_rad: b.figures.wind_from_deg.unwrap().to_radians(),
         air: base.air,
         cover_fitted: false,
     };
     let assessment = base.rig.stability_figures(&c).unwrap();
     let g = 9.806_65; // standard gravity, ISO 80000-3
-    let cos_tilt = f64::from(b.tilt_deg.unwrap()).to_radians().cos();
+    let cos_tilt = f64::from(b.figures.tilt_deg.unwrap()).to_radians().cos();
     let extra_nm = mass_kg * g * cos_tilt * DEMO_FOOT_CIRCLE_M / 2.0;
     let expected = assessment
         .edges
@@ -164,8 +164,8 @@ fn a_lower_park_threshold_parks_earlier() {
     // wind and so the figures are the same in both columns.
     assert!(tb < ta, "park at {tb} s with 0.55, {ta} s with 0.65");
     assert_close(
-        f64::from(a.overturning_utilisation.unwrap()),
-        f64::from(b.overturning_utilisation.unwrap()),
+        f64::from(a.figures.overturning_utilisation.unwrap()),
+        f64::from(b.figures.overturning_utilisation.unwrap()),
         1e-6,
     );
     let text = standfast_sim::render::whatif::comparison_text(&cmp, None);
