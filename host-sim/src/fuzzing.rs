@@ -15,9 +15,8 @@ use std::path::Path;
 use std::sync::OnceLock;
 
 use crate::commands::bridge::{Answer, Bridge, InputFormat};
-use crate::input::error::Error;
-use crate::input::located::{InputError, SourceText, MAX_PROBLEM_CHARS};
-use crate::input::log::{ErrorPolicy, LogProfile, Merger};
+use crate::input::located::{FileError, InputError, SourceText, MAX_PROBLEM_CHARS};
+use crate::input::log::{ErrorPolicy, LogError, LogProfile, Merger};
 use crate::input::rigfile::LoadedRig;
 
 /// Longest message an error may print, in characters: location, key and
@@ -161,13 +160,13 @@ pub fn csv_merge(data: &[u8]) {
         Box::new(std::io::Cursor::new(a.to_vec())),
         Box::new(std::io::Cursor::new(b.to_vec())),
     ];
-    let check_error = |e: &Error| match e {
-        Error::Log(issue) => {
+    let check_error = |e: &LogError| match e {
+        LogError::Row(issue) => {
             assert!(issue.line >= 1, "{issue}");
             assert!(issue.file == "a" || issue.file == "b", "{issue}");
             assert_bounded(&issue.to_string());
         }
-        Error::Input(ie) => {
+        LogError::File(FileError::Input(ie)) => {
             let at = ie
                 .at
                 .as_ref()

@@ -12,8 +12,10 @@
 //!    functions of the model's results;
 //! 4. [`commands`]: argument parsing, files, the terminal.
 //!
-//! [`cautions`] sits below them all; [`fuzzing`] (entry points for the fuzz
-//! targets) above them all.
+//! [`cautions`] sits below them all; [`error`] (the command's error and exit
+//! codes, converting from each input module's own error) above [`input`]
+//! and below the rest; [`fuzzing`] (entry points for the fuzz targets)
+//! above them all.
 //!
 //! **Caution.** Standfast's numbers are estimates from a simplified static
 //! model. Secure the rig anyway, stay inside the mount maker's limits and
@@ -21,9 +23,10 @@
 
 pub mod cautions;
 pub mod commands;
+pub mod error;
 pub mod fuzzing;
 pub mod input;
 pub mod model;
 pub mod render;
 
-pub use input::error::{Error, Result};
+pub use error::{Error, Result};

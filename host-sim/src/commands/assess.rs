@@ -4,7 +4,7 @@ use std::io::Write;
 
 use standfast::frame::Tilt;
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::model::assess::{assess, AssessOptions, Condition};
 use crate::render::assess::{write_json, write_text};
 

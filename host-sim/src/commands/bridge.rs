@@ -69,8 +69,8 @@ use standfast::guard::{Guard, GuardConfig};
 use standfast::sense::{Millis, Mounting};
 
 use crate::cautions::CAUTIONS;
+use crate::error::Error;
 use crate::input::bounded::{bounded_to, MAX_PROBLEM_CHARS};
-use crate::input::error::Error;
 use crate::input::rigfile::{self, LoadedRig};
 pub use crate::input::samples::{parse_json_line, Checked, CsvHeader, Held, Sample, FIELDS};
 pub use crate::render::bridge_lines::{cause_name, ErrorLine, EventOut, PoseOut, VerdictLine};

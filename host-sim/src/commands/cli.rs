@@ -1,5 +1,5 @@
 //! Command-line interface: argument definitions and dispatch. `main.rs` only
-//! parses and maps errors to exit codes (see [`crate::input::error::exit`]).
+//! parses and maps errors to exit codes (see [`crate::error::exit`]).
 
 use std::io::Write;
 use std::path::PathBuf;
@@ -9,7 +9,7 @@ use clap::{Args, Parser, Subcommand};
 use crate::cautions::caution_paragraph;
 use crate::commands::demo_data::{self, NightPlan};
 use crate::commands::options::{quantity_option, OptionRange};
-use crate::input::error::Error;
+use crate::error::Error;
 
 const AFTER_HELP: &str = concat!(
     "Exit codes: 0 success; 1 bad input (rig file, log profile or log); 2 bad command line; \

@@ -27,7 +27,7 @@ use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 
 use crate::commands::output::OwnedFolder;
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::log::time::{write_iso8601, Timestamp, NS_PER_S};
 
 /// Terrain categories of EN 1991-1-4 Table 4.1: the core's type (one

@@ -2,7 +2,7 @@
 //! `"270 deg"`, `"90 min"`), checked against their accepted range. Every
 //! command with such an option reads it through [`quantity_option`].
 
-use crate::input::error::Error;
+use crate::error::Error;
 
 /// The accepted range of an option, for messages: `0 to 360 deg`, or
 /// `more than 0 h, up to 9 h` when the lower bound is excluded.

@@ -20,7 +20,7 @@ use std::io::{self, BufWriter, Read, Write};
 use std::path::{Component, Path, PathBuf};
 use std::sync::atomic::{AtomicU64, Ordering};
 
-use crate::input::error::Error;
+use crate::error::Error;
 
 /// Counter making temporary names unique within the process.
 static TEMP_SEQ: AtomicU64 = AtomicU64::new(0);

@@ -6,7 +6,7 @@ use std::io::Write;
 
 use crate::commands::output::{check_paths, AtomicFile, OwnedFolder, Role};
 use crate::commands::progress::Spinner;
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::log::Merger;
 use crate::input::rigfile::LoadedRig;
 use crate::model::replay::{replay, ReplayObserver, ReplayOptions, ReplayReport};
@@ -158,7 +158,7 @@ pub fn open_logs_with(
     policy: Option<crate::input::log::ErrorPolicy>,
 ) -> Result<Merger, Error> {
     let p = load_profile(profile, logs)?;
-    Merger::open(&p, policy.unwrap_or(p.on_error))
+    Ok(Merger::open(&p, policy.unwrap_or(p.on_error))?)
 }
 
 /// Reads a log profile and replaces its files' paths by `logs` when given.

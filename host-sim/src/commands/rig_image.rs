@@ -10,7 +10,7 @@ use std::path::PathBuf;
 use clap::Args;
 use standfast_ffi::image::{self, RigImage, IMAGE_MAX_BYTES, IMAGE_VERSION};
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::located::InputError;
 use crate::input::rigfile::{self, LoadedRig};
 

@@ -5,7 +5,7 @@
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::located::{InputError, SourceText};
 use crate::model::weigh::measure;
 use crate::render::weigh::{measured_section, write_text};

@@ -1,78 +1,41 @@
-//! The crate's error type and the process exit codes.
-//!
-//! | code | meaning |
-//! |---:|---|
-//! | 0 | success |
-//! | 1 | bad input: a rig file, log profile or log that cannot be used (the message names file, line and key) |
-//! | 2 | bad command line: unknown option, missing argument, an option value out of range (printed by the argument parser), an output path that is an input or another output, a demo folder holding files standfast did not write |
-//! | 3 | I/O: a file or folder cannot be read or written |
+//! The input layer's errors: a bad value in a file ([`InputError`], at a
+//! [`Location`]) and a file that cannot be read or holds a bad value
+//! ([`FileError`]). The rig file, the log profile and the logs wrap them in
+//! errors of their own ([`crate::input::rigfile::RigFileError`],
+//! [`crate::input::log::ProfileError`], [`crate::input::log::LogError`]);
+//! the command's error ([`crate::error::Error`]) converts from each.
 
 use core::fmt;
 use std::path::PathBuf;
 
 use crate::input::bounded::{bounded_to, ECHO_CHARS, MAX_PROBLEM_CHARS};
-use crate::input::issues::Issue;
 
-/// Process exit codes of the `standfast` command.
-pub mod exit {
-    /// Success.
-    pub const OK: u8 = 0;
-    /// Bad input: rig file, log profile or log data.
-    pub const INPUT: u8 = 1;
-    /// Bad command line.
-    pub const USAGE: u8 = 2;
-    /// A file or folder cannot be read or written.
-    pub const IO: u8 = 3;
-}
-
-/// Everything that can go wrong in the library.
+/// A text file that cannot be read, or that holds a bad value.
 #[derive(Debug, thiserror::Error)]
-pub enum Error {
-    /// A file or folder cannot be read or written.
+pub enum FileError {
+    /// The file cannot be read.
     #[error("{}: {source}", path.display())]
     Io {
-        /// The file or folder.
+        /// The file.
         path: PathBuf,
         /// What the operating system said.
         #[source]
         source: std::io::Error,
     },
-    /// A configuration file (rig file, log profile) holds a bad value.
+    /// The file holds a bad value (or is not UTF-8 text).
     #[error(transparent)]
     Input(#[from] InputError),
-    /// A log row could not be used and the policy is to stop at the first
-    /// such row.
-    #[error("{0}")]
-    Log(Issue),
-    /// The command line cannot be carried out as given (an output path that
-    /// is an input or another output, an option value out of range, a file
-    /// the command would replace without being asked to).
-    #[error("{0}")]
-    Usage(String),
 }
 
-impl Error {
-    /// An [`Error::Io`] about `path`.
-    pub fn io(path: impl Into<PathBuf>, source: std::io::Error) -> Error {
-        Error::Io {
+impl FileError {
+    /// A [`FileError::Io`] about `path`.
+    pub fn io(path: impl Into<PathBuf>, source: std::io::Error) -> FileError {
+        FileError::Io {
             path: path.into(),
             source,
         }
     }
-
-    /// The process exit code for this error (see [`exit`]).
-    #[must_use]
-    pub fn exit_code(&self) -> u8 {
-        match self {
-            Error::Io { .. } => exit::IO,
-            Error::Input(_) | Error::Log(_) => exit::INPUT,
-            Error::Usage(_) => exit::USAGE,
-        }
-    }
 }
-
-/// Result with the crate's [`Error`].
-pub type Result<T, E = Error> = std::result::Result<T, E>;
 
 /// A position in a named text file: 1-based line and column (in characters).
 #[derive(Clone, Debug, PartialEq, Eq)]

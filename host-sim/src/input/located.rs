@@ -18,8 +18,7 @@ use toml::Spanned;
 pub use crate::input::bounded::{
     bounded, bounded_bytes, bounded_to, ECHO_CHARS, MAX_PROBLEM_CHARS,
 };
-use crate::input::error::Error;
-pub use crate::input::error::{InputError, Location};
+pub use crate::input::error::{FileError, InputError, Location};
 use crate::input::units::{Dim, Dimension, Quantity, Unit};
 
 /// A value with the place it was written.
@@ -56,10 +55,10 @@ impl SourceText {
     /// Reads a file.
     ///
     /// # Errors
-    /// [`Error::Io`] when the file cannot be read; [`Error::Input`] naming
-    /// the line and column when it is not UTF-8 text.
-    pub fn read(path: &Path) -> Result<SourceText, Error> {
-        let bytes = std::fs::read(path).map_err(|e| Error::io(path, e))?;
+    /// [`FileError::Io`] when the file cannot be read; [`FileError::Input`]
+    /// naming the line and column when it is not UTF-8 text.
+    pub fn read(path: &Path) -> Result<SourceText, FileError> {
+        let bytes = std::fs::read(path).map_err(|e| FileError::io(path, e))?;
         let name = path.display().to_string();
         match String::from_utf8(bytes) {
             Ok(text) => Ok(SourceText::new(name, text)),
@@ -68,7 +67,7 @@ impl SourceText {
                 let head = String::from_utf8_lossy(e.as_bytes().get(..good).unwrap_or_default())
                     .into_owned();
                 let at = SourceText::new(name, head).location(good);
-                Err(Error::Input(InputError {
+                Err(FileError::Input(InputError {
                     at: Some(at),
                     key: None,
                     value: None,

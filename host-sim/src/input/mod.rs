@@ -2,7 +2,7 @@
 //!
 //! From the bottom up: [`bounded`] (text quoted in messages), [`units`]
 //! (quantities with units at the boundary), [`issues`] (bad log rows),
-//! [`error`] (the crate's error, exit codes, located input errors),
+//! [`error`] (a bad value at a location, a file that cannot be read),
 //! [`located`] (values that remember where they were written), [`log`]
 //! (log profiles, CSV logs and their merge by time), [`rigfile`] (the rig
 //! file). Nothing here computes a verdict, formats a report or knows the

@@ -103,7 +103,7 @@ use standfast::shape::{Exposure, Shape};
 use standfast::support::{Foot, Support};
 use toml::Spanned;
 
-use crate::input::error::Error;
+use crate::input::error::FileError;
 use crate::input::located::{fmt_g, Checker, InputError, SourceText};
 use crate::input::units::f32_of as f;
 use crate::input::units::{Angle, Duration, Force, Length, Mass, Speed, Torque};
@@ -949,14 +949,19 @@ fn v3(a: &[Length; 3]) -> [f32; 3] {
     [f(a[0].m()), f(a[1].m()), f(a[2].m())]
 }
 
+/// A rig file that cannot be read, or that holds a bad value.
+#[derive(Debug, thiserror::Error)]
+#[error(transparent)]
+pub struct RigFileError(#[from] pub FileError);
+
 /// Reads and checks a rig file.
 ///
 /// # Errors
-/// [`Error::Io`] when it cannot be read; [`Error::Input`] naming file, line,
-/// key, value and accepted range for any bad value.
-pub fn load(path: &Path) -> Result<LoadedRig, Error> {
+/// [`RigFileError`]: the file cannot be read, or an [`InputError`] naming
+/// file, line, key, value and accepted range for any bad value.
+pub fn load(path: &Path) -> Result<LoadedRig, RigFileError> {
     let src = SourceText::read(path)?;
-    Ok(load_source(&src)?)
+    Ok(load_source(&src).map_err(FileError::Input)?)
 }
 
 /// Reads and checks a rig file already in memory: section by section, each
@@ -2079,13 +2084,13 @@ pub fn core_problem(e: &standfast::Error) -> String {
 /// checked (starting the guard, assessing, drawing a report): names the
 /// file and what failed, in the file's terms.
 #[must_use]
-pub fn after_load_error(file: &str, what: &str, e: &standfast::Error) -> Error {
-    Error::Input(InputError {
+pub fn after_load_error(file: &str, what: &str, e: &standfast::Error) -> InputError {
+    InputError {
         at: None,
         key: None,
         value: None,
         problem: format!("{file}: {what}: {}", core_problem(e)),
-    })
+    }
 }
 
 /// Turns a core [`standfast::Error`] into a located error at the key it came

@@ -16,7 +16,7 @@ use standfast::support::Support;
 use standfast::torque::{Balance, PayloadPick};
 
 use crate::cautions::CAUTIONS;
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::rigfile::{after_load_error, LoadedRig};
 
 /// What could not be done when the core refuses an assessment (for

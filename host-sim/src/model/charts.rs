@@ -7,7 +7,7 @@ use standfast::frame::Tilt;
 use standfast::mount::{PierSide, Pose};
 use standfast::rig::{Conditions, Rig};
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::rigfile::{after_load_error, LoadedRig};
 use crate::model::assess::AssessReport;
 use crate::model::replay::{Approach, ReplayReport};

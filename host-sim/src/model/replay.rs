@@ -26,7 +26,7 @@ use standfast::mount::{PierSide as MountPierSide, Pose};
 use standfast::sense::Millis;
 use standfast::sense::Mounting;
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
 use crate::input::rigfile::{after_load_error, LoadedRig};
 use crate::input::units::{f32_of, STANDARD_GRAVITY_MPS2};
@@ -949,7 +949,7 @@ pub fn replay(
                         break;
                     }
                     Err(e) => {
-                        read_error = Some(e);
+                        read_error = Some(Error::from(e));
                         at_end = true;
                         break;
                     }

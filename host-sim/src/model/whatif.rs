@@ -27,7 +27,7 @@ use serde::Serialize;
 use standfast::guard::{AlertLevel, GuardConfig};
 use standfast::rig::{BallastSpec, BodySpec, Rig, MAX_BALLAST, MAX_PART_MASS_KG};
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::located::{fmt_g, InputError};
 use crate::input::rigfile::LoadedRig;
 use crate::input::units::f32_of as f;

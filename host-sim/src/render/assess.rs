@@ -12,7 +12,7 @@ use std::io::Write;
 use standfast::sky::EnvelopeRow;
 use standfast::torque::Balance;
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::model::assess::{pose_words, AssessReport, ConditionReport, SHAFT_SAFETY_FACTOR};
 use crate::model::charts::{AssessCharts, POLAR_STEP_DEG, TORQUE_MAP_STEP_DEG};
 use crate::render::html::Page;

@@ -34,7 +34,7 @@ use std::fmt::Write as _;
 use standfast::guard::AlertLevel;
 use standfast::sense::Fault;
 
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::input::located::InputError;
 use crate::model::replay::ReplayReport;
 use crate::model::replay::RigReplay;

@@ -16,7 +16,7 @@
 //! [`crate::render::clock`].
 
 use crate::cautions::CAUTIONS;
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::model::assess::{pose_words, AssessReport};
 use crate::model::charts::{AssessCharts, RigCharts, POLAR_STEP_DEG};
 use crate::model::replay::{Approach, ReplayReport, RigReplay, STAGES};

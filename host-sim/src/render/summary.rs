@@ -15,7 +15,7 @@ use standfast::guard::AlertLevel;
 use standfast::mount::Pose;
 
 use crate::cautions::CAUTIONS;
-use crate::input::error::Error;
+use crate::error::Error;
 use crate::model::assess::pose_words;
 use crate::model::replay::{Approach, ReplayReport, RigReplay};
 use crate::model::story::{tell, RigStory};

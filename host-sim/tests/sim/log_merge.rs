@@ -12,7 +12,7 @@ use std::path::Path;
 
 use standfast_sim::input::located::SourceText;
 use standfast_sim::input::log::{
-    Channel, ErrorPolicy, IssueKind, LogProfile, Merger, PierSide, SampleRecord,
+    Channel, ErrorPolicy, IssueKind, LogError, LogProfile, Merger, PierSide, SampleRecord,
 };
 use standfast_sim::Error;
 
@@ -306,12 +306,16 @@ fn stop_policy_ends_at_the_first_bad_row() {
     // Rows on lines 2 and 3 give records; line 4 is the duplicate.
     assert_eq!(n, 2);
     match &err {
-        Error::Log(issue) => {
+        LogError::Row(issue) => {
             assert_eq!(issue.line, 4);
             assert_eq!(issue.kind, IssueKind::Duplicate);
         }
         other => panic!("{other:?}"),
     }
+    // The command's error keeps the message and exits with code 1.
+    let message = err.to_string();
+    let err = Error::from(err);
+    assert_eq!(err.to_string(), message);
     assert_eq!(err.exit_code(), 1);
     assert!(m.next().is_none(), "the merge stays ended after an error");
 }
@@ -329,7 +333,7 @@ fn missing_column_names_the_profile_line() {
         "{msg}"
     );
     assert!(msg.contains("t, ax, ay, zz"), "{msg}");
-    assert_eq!(err.exit_code(), 1);
+    assert_eq!(Error::from(err).exit_code(), 1);
 }
 
 fn profile_err(text: &str) -> String {

@@ -8,8 +8,8 @@ use super::profile::LogProfile;
 use super::record::{Channel, ChannelSet, SampleRecord, N_CHANNELS};
 use super::source::{CsvSource, Row};
 use super::time::Timestamp;
-use crate::input::error::Error;
 use crate::input::issues::{ErrorPolicy, IssueLog};
+use crate::input::log::error::LogError;
 
 /// Merges the files of a [`LogProfile`] into one time-ordered stream of
 /// [`SampleRecord`]s.
@@ -32,7 +32,7 @@ pub struct Merger {
     done: bool,
     /// An error met while reading ahead, returned after the record that
     /// was complete before it.
-    pending: Option<Error>,
+    pending: Option<LogError>,
     /// Bytes read from the files so far (all files), shared with their
     /// readers.
     bytes_read: Arc<AtomicU64>,
@@ -59,15 +59,15 @@ impl Merger {
     /// Opens every file of the profile.
     ///
     /// # Errors
-    /// [`Error::Io`] when a file cannot be opened, [`Error::Input`] when a
-    /// header lacks a column, [`Error::Log`] when the first row of a file is
+    /// [`LogError::File`] when a file cannot be opened, [`LogError::File`] when a
+    /// header lacks a column, [`LogError::Row`] when the first row of a file is
     /// bad under [`ErrorPolicy::Stop`].
-    pub fn open(profile: &LogProfile, policy: ErrorPolicy) -> Result<Merger, Error> {
+    pub fn open(profile: &LogProfile, policy: ErrorPolicy) -> Result<Merger, LogError> {
         let count = Arc::new(AtomicU64::new(0));
         let mut total: Option<u64> = Some(0);
         let mut sources = Vec::with_capacity(profile.files.len());
         for fp in &profile.files {
-            let file = std::fs::File::open(&fp.path).map_err(|e| Error::io(&fp.path, e))?;
+            let file = std::fs::File::open(&fp.path).map_err(|e| LogError::io(&fp.path, e))?;
             // The size only scales the progress bar: a file whose size
             // cannot be read leaves the span unknown (a spinner instead).
             let len = file
@@ -108,7 +108,7 @@ impl Merger {
         profile: &LogProfile,
         readers: Vec<Box<dyn Read>>,
         policy: ErrorPolicy,
-    ) -> Result<Merger, Error> {
+    ) -> Result<Merger, LogError> {
         let sources = profile
             .files
             .iter()
@@ -121,8 +121,11 @@ impl Merger {
     /// Merges already opened sources.
     ///
     /// # Errors
-    /// [`Error::Log`] or [`Error::Io`] from reading the first rows.
-    pub fn from_sources(mut sources: Vec<CsvSource>, policy: ErrorPolicy) -> Result<Merger, Error> {
+    /// [`LogError::Row`] or [`LogError::File`] from reading the first rows.
+    pub fn from_sources(
+        mut sources: Vec<CsvSource>,
+        policy: ErrorPolicy,
+    ) -> Result<Merger, LogError> {
         let mut issues = IssueLog::default();
         let mut heads = Vec::with_capacity(sources.len());
         for s in &mut sources {
@@ -165,9 +168,9 @@ impl Merger {
     /// The next merged record; `None` when every file is at its end.
     ///
     /// # Errors
-    /// [`Error::Log`] under [`ErrorPolicy::Stop`] at the first bad row;
-    /// [`Error::Io`] when a file cannot be read.
-    pub fn next_record(&mut self) -> Result<Option<SampleRecord>, Error> {
+    /// [`LogError::Row`] under [`ErrorPolicy::Stop`] at the first bad row;
+    /// [`LogError::File`] when a file cannot be read.
+    pub fn next_record(&mut self) -> Result<Option<SampleRecord>, LogError> {
         if let Some(e) = self.pending.take() {
             return Err(e);
         }
@@ -220,7 +223,7 @@ impl Merger {
 }
 
 impl Iterator for Merger {
-    type Item = Result<SampleRecord, Error>;
+    type Item = Result<SampleRecord, LogError>;
 
     fn next(&mut self) -> Option<Self::Item> {
         if self.done {

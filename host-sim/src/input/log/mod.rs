@@ -12,10 +12,11 @@
 //! * Out-of-order and duplicate time stamps, gaps and malformed rows are
 //!   reported with file and line as [`Issue`]s and counted in an
 //!   [`IssueLog`]; with [`ErrorPolicy::Stop`] the first bad row ends the
-//!   read with [`crate::input::error::Error::Log`], with [`ErrorPolicy::Skip`] the row is
+//!   read with [`LogError::Row`], with [`ErrorPolicy::Skip`] the row is
 //!   left out and counted. Gaps are counted and reported under both
 //!   policies but never stop the read: the rows around a gap are valid.
 
+mod error;
 mod merge;
 mod profile;
 mod record;
@@ -24,10 +25,11 @@ pub mod time;
 pub mod zone;
 
 pub use crate::input::issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
+pub use error::LogError;
 pub use merge::Merger;
 pub use profile::{
     AxisSource, ColumnProfile, ColumnSpec, ColumnsSpec, FileProfile, FileSpec, LogProfile, LogSpec,
-    TimeSpec, DEFAULT_GAP_S,
+    ProfileError, TimeSpec, DEFAULT_GAP_S,
 };
 pub use record::{Channel, ChannelKind, ChannelSet, PierSide, SampleRecord, N_CHANNELS};
 pub use source::{CsvSource, Row};

@@ -11,7 +11,7 @@ use toml::Spanned;
 
 use super::record::{Channel, ChannelKind};
 use super::time::{parse_offset, TimeFormat};
-use crate::input::error::Error;
+use crate::input::error::FileError;
 use crate::input::issues::ErrorPolicy;
 use crate::input::located::{Checker, InputError, Located, Location, SourceText};
 use crate::input::units::{Dim, Duration, Unit};
@@ -211,17 +211,22 @@ const IDENTITY_AXES: [AxisSource; 3] = [
     },
 ];
 
+/// A log profile that cannot be read, or that holds a bad value.
+#[derive(Debug, thiserror::Error)]
+#[error(transparent)]
+pub struct ProfileError(#[from] pub FileError);
+
 impl LogProfile {
     /// Reads the `[log]` section of a TOML file (a rig file or a profile of
     /// its own); file paths are relative to that file's folder.
     ///
     /// # Errors
-    /// [`Error::Io`] when the file cannot be read, [`Error::Input`] naming
-    /// file, line, key and value for anything invalid.
-    pub fn load(path: &Path) -> Result<LogProfile, Error> {
+    /// [`ProfileError`]: the file cannot be read, or an [`InputError`]
+    /// naming file, line, key and value for anything invalid.
+    pub fn load(path: &Path) -> Result<LogProfile, ProfileError> {
         let src = SourceText::read(path)?;
         let base = path.parent().unwrap_or(Path::new("."));
-        Ok(LogProfile::from_source(&src, base)?)
+        Ok(LogProfile::from_source(&src, base).map_err(FileError::Input)?)
     }
 
     /// Reads the `[log]` section of TOML text already in memory.

@@ -18,9 +18,9 @@ use std::io::{self, Read};
 use super::profile::{AxisSource, ColumnProfile, FileProfile};
 use super::record::{Channel, ChannelKind, ChannelSet, N_CHANNELS};
 use super::time::{TimeFormat, Timestamp};
-use crate::input::error::Error;
 use crate::input::issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
 use crate::input::located::{bounded, bounded_bytes, bounded_to, InputError, Location};
+use crate::input::log::error::LogError;
 
 /// One usable row of one file: the time and the channels it carries, in SI.
 #[derive(Clone, Debug, PartialEq)]
@@ -426,10 +426,10 @@ impl CsvSource {
     /// Opens the file named in the profile and reads its header.
     ///
     /// # Errors
-    /// [`Error::Io`] when it cannot be opened; [`Error::Input`] when the
+    /// [`LogError::File`] when it cannot be opened; [`LogError::File`] when the
     /// header lacks a column the profile names.
-    pub fn open(fp: &FileProfile) -> Result<CsvSource, Error> {
-        let file = File::open(&fp.path).map_err(|e| Error::io(&fp.path, e))?;
+    pub fn open(fp: &FileProfile) -> Result<CsvSource, LogError> {
+        let file = File::open(&fp.path).map_err(|e| LogError::io(&fp.path, e))?;
         CsvSource::from_reader(fp, Box::new(file))
     }
 
@@ -437,10 +437,10 @@ impl CsvSource {
     ///
     /// # Errors
     /// As [`CsvSource::open`].
-    pub fn from_reader(fp: &FileProfile, input: Box<dyn Read>) -> Result<CsvSource, Error> {
+    pub fn from_reader(fp: &FileProfile, input: Box<dyn Read>) -> Result<CsvSource, LogError> {
         let (input, names) = read_header(fp, Box::new(CrlfToLf::new(input)))?;
         if names.iter().all(String::is_empty) {
-            return Err(Error::Input(InputError {
+            return Err(LogError::from(InputError {
                 at: Some(Location {
                     file: fp.label.clone(),
                     line: 1,
@@ -452,9 +452,9 @@ impl CsvSource {
                     .to_owned(),
             }));
         }
-        let find = |want: &crate::input::located::Located<String>| -> Result<usize, Error> {
+        let find = |want: &crate::input::located::Located<String>| -> Result<usize, LogError> {
             names.iter().position(|n| n == &want.value).ok_or_else(|| {
-                Error::Input(InputError {
+                LogError::from(InputError {
                     at: Some(want.at.clone()),
                     key: None,
                     value: Some(format!("\"{}\"", want.value)),
@@ -502,13 +502,13 @@ impl CsvSource {
     /// Gaps are recorded and the row is used.
     ///
     /// # Errors
-    /// [`Error::Log`] under [`ErrorPolicy::Stop`]; [`Error::Io`] when the
+    /// [`LogError::Row`] under [`ErrorPolicy::Stop`]; [`LogError::File`] when the
     /// file cannot be read.
     pub fn next_row(
         &mut self,
         policy: ErrorPolicy,
         issues: &mut IssueLog,
-    ) -> Result<Option<Row>, Error> {
+    ) -> Result<Option<Row>, LogError> {
         loop {
             let line = match self.read_record() {
                 Ok(Some(line)) => line,
@@ -580,7 +580,7 @@ impl CsvSource {
         line: u64,
         kind: IssueKind,
         detail: String,
-    ) -> Result<(), Error> {
+    ) -> Result<(), LogError> {
         let issue = Issue {
             file: self.label.clone(),
             line,
@@ -590,7 +590,7 @@ impl CsvSource {
         issues.push(issue.clone());
         match policy {
             ErrorPolicy::Skip => Ok(()),
-            ErrorPolicy::Stop => Err(Error::Log(issue)),
+            ErrorPolicy::Stop => Err(LogError::Row(issue)),
         }
     }
 
@@ -715,7 +715,7 @@ impl CsvSource {
 /// Reads the header: by the line splitter when it is a plain line (the rows
 /// then follow the same way), else by the `csv` crate, which then reads the
 /// whole file. The names are trimmed.
-fn read_header(fp: &FileProfile, input: Box<dyn Read>) -> Result<(Input, Vec<String>), Error> {
+fn read_header(fp: &FileProfile, input: Box<dyn Read>) -> Result<(Input, Vec<String>), LogError> {
     open_input(fp.delimiter, input).map_err(|e| csv_error(&fp.label, &fp.path, e))
 }
 
@@ -779,10 +779,10 @@ fn open_input(delimiter: u8, input: Box<dyn Read>) -> Result<(Input, Vec<String>
     }
 }
 
-fn csv_error(label: &str, path: &std::path::Path, e: csv::Error) -> Error {
+fn csv_error(label: &str, path: &std::path::Path, e: csv::Error) -> LogError {
     match e.into_kind() {
-        csv::ErrorKind::Io(io) => Error::io(path, io),
-        other => Error::Input(InputError {
+        csv::ErrorKind::Io(io) => LogError::io(path, io),
+        other => LogError::from(InputError {
             at: Some(Location {
                 file: label.to_owned(),
                 line: 1,
