@@ -122,11 +122,20 @@ impl Air {
     }
 }
 
+/// 0 °C in kelvin, exact in `f64` (273.15 K by the definition of the
+/// Celsius scale): the one definition of the constant, for hosts that
+/// convert units in `f64` (a compile-time value: the crate computes with
+/// [`ZERO_CELSIUS_K`] only).
+pub const ZERO_CELSIUS_K_F64: f64 = 273.15;
+/// 0 °C in kelvin, 273.15 K rounded to `f32`.
+#[allow(clippy::cast_possible_truncation)] // rounded to f32 at compile time
+pub const ZERO_CELSIUS_K: f32 = ZERO_CELSIUS_K_F64 as f32;
+
 /// A temperature in degrees Celsius (`celsius`) in kelvin, for the
 /// boundary where a reading in °C comes in (inside, temperatures are kelvin).
 #[must_use]
 pub fn celsius_to_kelvin(celsius: f32) -> f32 {
-    celsius + 273.15
+    celsius + ZERO_CELSIUS_K
 }
 
 #[cfg(test)]

@@ -55,7 +55,13 @@ pub const PI: f32 = core::f32::consts::PI;
 /// 2π as `f32`.
 pub const TAU: f32 = core::f32::consts::TAU;
 /// Standard acceleration of gravity g₀ in m/s² (ISO 80000-3, ISO 2533).
-pub const STANDARD_GRAVITY_MPS2: f32 = 9.806_65;
+#[allow(clippy::cast_possible_truncation)] // 9.806 65 rounded to f32, at compile time
+pub const STANDARD_GRAVITY_MPS2: f32 = STANDARD_GRAVITY_MPS2_F64 as f32;
+/// Standard acceleration of gravity g₀ in m/s² (ISO 80000-3, ISO 2533),
+/// exact in `f64`: the one definition of the constant, for hosts that
+/// convert units in `f64` (a compile-time value: the crate computes with
+/// [`STANDARD_GRAVITY_MPS2`] only).
+pub const STANDARD_GRAVITY_MPS2_F64: f64 = 9.806_65;
 
 /// Square root; NaN for negative input.
 #[inline]

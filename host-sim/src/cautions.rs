@@ -2,7 +2,8 @@
 //! the model is an estimate, secure the rig anyway, stay inside the mount
 //! maker's limits, defer to local codes and licensed engineers. Written once
 //! here; the text summary, the JSON, the HTML pages, the bridge's standard
-//! error and the command's help all take them from this module.
+//! error, the command's help and the starter rig files all take them from
+//! this module.
 
 /// The cautions that end every report a person reads, one sentence each.
 pub const CAUTIONS: &[&str] = &[
@@ -23,3 +24,39 @@ pub(crate) use caution_paragraph;
 
 /// The cautions in one paragraph (the command's help ends with it).
 pub const CAUTION: &str = caution_paragraph!();
+
+/// [`CAUTION`] broken into lines of at most `width` characters at spaces
+/// (a word longer than `width` gets a line of its own), for comments in
+/// files the command writes.
+#[must_use]
+pub fn caution_lines(width: usize) -> Vec<String> {
+    let mut lines: Vec<String> = Vec::new();
+    for word in CAUTION.split(' ') {
+        match lines.last_mut() {
+            Some(l) if l.chars().count() + 1 + word.chars().count() <= width => {
+                l.push(' ');
+                l.push_str(word);
+            }
+            _ => lines.push(word.to_owned()),
+        }
+    }
+    lines
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn caution_lines_keep_every_word_within_the_width() {
+        let lines = caution_lines(74);
+        assert_eq!(lines.join(" "), CAUTION);
+        assert!(lines.iter().all(|l| l.chars().count() <= 74), "{lines:?}");
+        assert_eq!(
+            lines[0],
+            "Caution: Standfast's figures are estimates from a simplified static model."
+        );
+        // A word longer than the width stands alone.
+        assert!(caution_lines(5).contains(&"Standfast's".to_owned()));
+    }
+}

@@ -67,10 +67,10 @@ const HEAD: &str = "\
 # angle is in degrees. Rig frame: x east, y north, z up, origin on the
 # ground below the centre of the support.
 #
-# Caution: Standfast's figures are estimates from a simplified static model.
-# Secure the rig anyway, stay inside the mount maker's limits, and defer to
-# local codes and licensed engineers.
+";
 
+/// The rig file after the cautions.
+const SITE: &str = "
 [site]
 latitude = \"45 deg\"                  # your site's latitude, north positive
 elevation = \"300 m\"                  # above sea level, for the air density
@@ -193,6 +193,12 @@ terrain = \"II\"                        # EN 1991-1-4 terrain category: 0, I, II
 #[must_use]
 pub fn template(support: SupportKind, mount: MountChoice) -> String {
     let mut s = String::from(HEAD);
+    for line in crate::cautions::caution_lines(74) {
+        s.push_str("# ");
+        s.push_str(&line);
+        s.push('\n');
+    }
+    s.push_str(SITE);
     s.push_str(match support {
         SupportKind::Tripod => TRIPOD,
         SupportKind::Pier => PIER,

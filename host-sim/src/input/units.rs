@@ -34,6 +34,8 @@ use core::marker::PhantomData;
 
 use serde::de::{self, Deserializer, Visitor};
 use serde::{Deserialize, Serialize, Serializer};
+use standfast::air::ZERO_CELSIUS_K_F64;
+use standfast::math::STANDARD_GRAVITY_MPS2_F64;
 
 /// One unit of a dimension: how to turn a value in it into SI.
 ///
@@ -83,11 +85,10 @@ pub const FOOT_M: f64 = 0.3048;
 pub const INCH_M: f64 = 0.0254;
 /// International avoirdupois pound, kg (1959 agreement).
 pub const POUND_KG: f64 = 0.453_592_37;
-/// Standard acceleration of gravity, m/s² (3rd CGPM, 1901).
-pub const STANDARD_GRAVITY_MPS2: f64 = 9.806_65;
 /// Pound-force, N: one pound under standard gravity (exact by the two
-/// definitions above).
-pub const POUND_FORCE_N: f64 = POUND_KG * STANDARD_GRAVITY_MPS2;
+/// definitions: the pound above and standard gravity, the core's
+/// `standfast::math::STANDARD_GRAVITY_MPS2_F64`).
+pub const POUND_FORCE_N: f64 = POUND_KG * STANDARD_GRAVITY_MPS2_F64;
 
 /// An SI value read at the host boundary (f64) as the core takes it (f32),
 /// rounded to nearest. Values out of f32's range become ±infinity, which
@@ -164,15 +165,15 @@ const TORQUE_UNITS: &[Unit] = &[
         POUND_FORCE_N * INCH_M,
     ),
     u(&["ozf in", "oz in", "in oz"], POUND_FORCE_N / 16.0 * INCH_M),
-    u(&["kgf m", "kgm"], STANDARD_GRAVITY_MPS2),
-    u(&["kgf cm", "kgcm"], STANDARD_GRAVITY_MPS2 * 1e-2),
+    u(&["kgf m", "kgm"], STANDARD_GRAVITY_MPS2_F64),
+    u(&["kgf cm", "kgcm"], STANDARD_GRAVITY_MPS2_F64 * 1e-2),
 ];
 
 const FORCE_UNITS: &[Unit] = &[
     u(&["N", "newton", "newtons"], 1.0),
     u(&["kN"], 1e3),
     u(&["lbf"], POUND_FORCE_N),
-    u(&["kgf", "kp"], STANDARD_GRAVITY_MPS2),
+    u(&["kgf", "kp"], STANDARD_GRAVITY_MPS2_F64),
 ];
 
 const ANGLE_UNITS: &[Unit] = &[
@@ -212,7 +213,7 @@ const TEMPERATURE_UNITS: &[Unit] = &[
     Unit {
         symbols: &["°C", "degC", "C", "℃", "celsius"],
         factor: 1.0,
-        offset: 273.15,
+        offset: ZERO_CELSIUS_K_F64,
     },
     // T/K = (t/°F + 459.67) × 5/9.
     Unit {
@@ -232,8 +233,8 @@ const TIME_UNITS: &[Unit] = &[
 
 const ACCELERATION_UNITS: &[Unit] = &[
     u(&["m/s2", "ms-2", "mps2"], 1.0),
-    u(&["g", "gn", "g0"], STANDARD_GRAVITY_MPS2),
-    u(&["mg", "mgn"], STANDARD_GRAVITY_MPS2 * 1e-3),
+    u(&["g", "gn", "g0"], STANDARD_GRAVITY_MPS2_F64),
+    u(&["mg", "mgn"], STANDARD_GRAVITY_MPS2_F64 * 1e-3),
     u(&["ft/s2"], FOOT_M),
 ];
 
@@ -764,11 +765,11 @@ impl Temperature {
     /// The value in degrees Celsius.
     #[must_use]
     pub fn celsius(self) -> f64 {
-        self.si - 273.15
+        self.si - ZERO_CELSIUS_K_F64
     }
     /// From a value in degrees Celsius.
     #[must_use]
     pub fn from_celsius(v: f64) -> Self {
-        Self::from_si(v + 273.15)
+        Self::from_si(v + ZERO_CELSIUS_K_F64)
     }
 }

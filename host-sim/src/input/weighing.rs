@@ -27,6 +27,7 @@ use standfast::math::STANDARD_GRAVITY_MPS2;
 use standfast::weighing::{LiftGeometry, TipTest};
 use toml::Spanned;
 
+use crate::input::core_error::core_problem;
 use crate::input::located::{fmt_g, InputError, SourceText};
 use crate::input::units::f32_of as f;
 use crate::input::units::{Length, Mass};
@@ -385,7 +386,7 @@ pub fn core_error(src: &SourceText, e: &standfast::Error, spans: &KeySpans) -> I
                 kg(e.value)
             ),
         },
-        _ => e.to_string(),
+        _ => core_problem(e),
     };
     match spans.iter().find(|(k, _)| *k == key) {
         Some((k, span)) => src.checker().error(k, span.clone(), problem),

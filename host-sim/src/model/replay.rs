@@ -29,8 +29,9 @@ use standfast::sense::Mounting;
 use crate::error::Error;
 use crate::input::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
 use crate::input::rigfile::{after_load_error, LoadedRig};
-use crate::input::units::{f32_of, STANDARD_GRAVITY_MPS2};
+use crate::input::units::f32_of;
 use crate::model::figures::Figures;
+use standfast::math::STANDARD_GRAVITY_MPS2_F64;
 
 /// What could not be done when the core refuses a replay's guard (for
 /// [`after_load_error`]).
@@ -367,7 +368,7 @@ pub fn inputs_of(r: &SampleRecord) -> Inputs {
     let up = |c: Channel| r.updated.contains(c);
     let accel_raw = if up(Channel::AccelX) || up(Channel::AccelY) || up(Channel::AccelZ) {
         r.accel_mps2
-            .map(|a| a.map(|v| f32_of(v / STANDARD_GRAVITY_MPS2)))
+            .map(|a| a.map(|v| f32_of(v / STANDARD_GRAVITY_MPS2_F64)))
     } else {
         None
     };
@@ -410,7 +411,9 @@ pub fn inputs_of(r: &SampleRecord) -> Inputs {
         match (r.air_temperature_k, r.pressure_pa) {
             (Some(t), Some(p)) => Some(standfast::guard::AirSample {
                 // Through °C in f32, as the firmware receives it: the same bits.
-                temperature_k: standfast::air::celsius_to_kelvin(f32_of(t - 273.15)),
+                temperature_k: standfast::air::celsius_to_kelvin(f32_of(
+                    t - standfast::air::ZERO_CELSIUS_K_F64,
+                )),
                 pressure_pa: f32_of(p),
             }),
             _ => None,

@@ -306,7 +306,7 @@ pub fn variant(
             "",
             format!(
                 "the variant's guard settings are not valid: {}",
-                crate::input::rigfile::core_problem(&e)
+                crate::input::core_error::core_problem(&e)
             ),
         )
     })?;
@@ -327,7 +327,7 @@ pub fn variant(
             "",
             format!(
                 "the variant rig is not valid: {}",
-                crate::input::rigfile::core_problem(&e)
+                crate::input::core_error::core_problem(&e)
             ),
         )
     })?;

@@ -93,7 +93,7 @@ fn profile_accel_scale_reproduces_the_driver_in_f32() {
     let c = 0.001_f32;
     let scale = f64::from(c) / 16.0;
     assert_eq!(scale, 6.250_000_296_859_07e-5);
-    let g0 = standfast_sim::input::units::STANDARD_GRAVITY_MPS2;
+    let g0 = standfast::math::STANDARD_GRAVITY_MPS2_F64;
     for n in -2048_i16..2048 {
         let word = n * 16;
         let firmware = f32::from(word >> 4) * c;
