@@ -148,7 +148,7 @@ echo "emulator and host agree: $(grep -c '^event ' "$OUT/qemu-events.txt") event
 
 step "firmware: host-sim replay (standfast replay) of the same rig and log, guard events compared"
 # The guard's own events (printed by the board as `guard event ...`, without
-# the backstop's limit stages and the station's health events) must equal
+# the backstop's limit levels and the station's health events) must equal
 # what host-sim's replay of the same core guard gives for the same rig
 # (replay/rig.toml = example_rig_spec() and example_guard_config()) and the same
 # inputs, bit for bit (replay/profile.toml; replay/short-night-host.csv made by

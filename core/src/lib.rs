@@ -1,7 +1,8 @@
 //! # Standfast core
 //!
-//! Static overturning and sliding margins, drive torque loads and a staged
-//! park-and-alarm guard for telescope rigs left standing outdoors.
+//! Static overturning and sliding margins, drive torque loads and a
+//! park-and-alarm guard with alert levels for telescope rigs left standing
+//! outdoors.
 //!
 //! `no_std`, no allocation, `f32`, panic-free. SI units inside; every name that
 //! carries a quantity says its unit (`_m`, `_kg`, `_n`, `_nm`, `_mps`, `_rad`,
@@ -24,7 +25,7 @@
 //!   formulas, balance;
 //! - [`sky`]: scans over the whole sky (worst pose, payload envelope, the
 //!   safest park pose);
-//! - [`guard`]: the staged park-and-alarm decision from live samples
+//! - [`guard`]: the park-and-alarm decision (an alert level) from live samples
 //!   ([`Guard`], [`GuardConfig`], [`Inputs`], [`Verdict`]);
 //! - [`sense`]: accelerometer tilt, wind statistics, sensor faults and the
 //!   time stamp [`Millis`];
@@ -81,7 +82,7 @@
 //! // The guard: 4 samples a second of a level accelerometer (in g) and a
 //! // 5 m/s breeze from the west, each with a little noise (bit-identical
 //! // readings for a minute would be a stuck sensor). The guard starts in the
-//! // sensor-fault stage (no reading yet) and leaves it after a minute of
+//! // sensor-fault level (no reading yet) and leaves it after a minute of
 //! // healthy inputs.
 //! let mut guard = Guard::new(&rig, GuardConfig::default(), Millis(0))?;
 //! let inputs = |i: u64| Inputs {

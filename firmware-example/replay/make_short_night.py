@@ -8,7 +8,7 @@ scripted per second (0.75 m/s per Hz + 0.3 m/s in the firmware's example
 calibration); the vane points about 250 degrees. Everything here is invented
 for the demonstration.
 
-The script, second by second (the guard's stages it leads to, with the
+The script, second by second (the guard's levels it leads to, with the
 replay's guard settings, are listed in firmware-example/tests/host/replay.rs):
 
 *   0-9    light wind, 5 and 6 Hz alternating (4.05 / 4.8 m/s);
@@ -24,7 +24,7 @@ replay's guard settings, are listed in firmware-example/tests/host/replay.rs):
            fault only: far shorter than the guard's own stale time);
 *  60.1-71.9  the pulse counter delivers nothing (last total at 60.0 s, next
            at 72.0 s): longer than the guard's 10 s wind stale time, so the
-           guard raises wind faults and its sensor_fault stage, and leaves it
+           guard raises wind faults and its sensor_fault level, and leaves it
            once the wind has been back for the fault clearing time;
 *  90-98   a storm ramp at 28, 32 and 36 Hz (21.3 / 24.3 / 27.3 m/s), three
            seconds each: park_now, then alarm (latched: it stays to the end);

@@ -45,7 +45,7 @@ pub struct Samples {
     pub pose: Option<MountPose>,
 }
 
-/// What the assessment asks of the lines, and the name of its stage.
+/// What the assessment asks of the lines, and the name of its level.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Assessment {
@@ -53,8 +53,8 @@ pub struct Assessment {
     pub park: bool,
     /// Raise the alarm.
     pub alarm: bool,
-    /// Name of the current stage, for events (lower case, no spaces).
-    pub stage: &'static str,
+    /// Name of the current level, for events (lower case, no spaces).
+    pub level: &'static str,
 }
 
 /// A sensor fault an assessment raised itself (beyond the station's own
@@ -171,7 +171,7 @@ impl Limits {
 
 /// Fixed limits on wind speed and ground tilt, with a hold time.
 ///
-/// Stages: `clear`, `park` (a gate-mean wind at or over the park limit within
+/// Levels: `clear`, `park` (a gate-mean wind at or over the park limit within
 /// the hold time) and `alarm` (the alarm wind limit or the tilt limit, within
 /// the hold time; also parks). A specific force whose tilt cannot be computed
 /// (zero, non-finite, or tilted over 45°: the rig is down) counts as over the
@@ -225,13 +225,13 @@ impl Assess for LimitRule {
         }
         let alarm = self.alarm_until_ms.is_some_and(|u| s.t_ms <= u);
         let park = alarm || self.park_until_ms.is_some_and(|u| s.t_ms <= u);
-        let stage = if alarm {
+        let level = if alarm {
             "alarm"
         } else if park {
             "park"
         } else {
             "clear"
         };
-        Assessment { park, alarm, stage }
+        Assessment { park, alarm, level }
     }
 }

@@ -15,7 +15,7 @@
 //! | `alarm_on` / `alarm_off` | | the alarm line was de-energised / energised |
 //! | `fault` | `source=accel\|wind\|vane cause=bus\|device\|config_lost\|stale` | a sensor became unusable |
 //! | `fault_cleared` | `source=...` | the sensor has been healthy for the clearing time |
-//! | `stage` | `from=<stage> to=<stage>` | the assessment's stage changed (before the first step it counts as `clear`) |
+//! | `level` | `from=<level> to=<level>` | the assessment's level changed (before the first step it counts as `clear`) |
 //! | `fault` | `sensor=<name> class=<name>` | the assessment (the guard) raised a sensor fault of its own |
 //! | `late` | `gap_ms=<u32>` | more than two periods passed since the previous step |
 //! | `line_error` | `line=park\|alarm` | an output pin reported an error; the step is not complete |
@@ -210,12 +210,12 @@ pub enum EventKind {
     Fault(Source, Cause),
     /// A sensor is usable again.
     FaultCleared(Source),
-    /// The assessment's stage changed (names as [`crate::Assessment::stage`];
+    /// The assessment's level changed (names as [`crate::Assessment::level`];
     /// the guard's are [`standfast::guard::AlertLevel::name`]).
     AlertLevel {
-        /// The stage before.
+        /// The level before.
         from: &'static str,
-        /// The stage now.
+        /// The level now.
         to: &'static str,
     },
     /// The assessment raised a sensor fault of its own (the guard's
@@ -265,7 +265,7 @@ impl Event {
                 out.text(s.name());
             }
             EventKind::AlertLevel { from, to } => {
-                out.text("stage from=");
+                out.text("level from=");
                 out.text(from);
                 out.text(" to=");
                 out.text(to);

@@ -16,14 +16,14 @@
 //!
 //! It passes the guard's sensor faults on ([`Assess::raised_faults`], logged
 //! as `fault sensor=.. class=..` events, names by [`fault_names`]) and maps
-//! the verdict's stage to `park` ([`AlertLevel::park_requested`]), `alarm`
-//! ([`AlertLevel::alarm`]) and the stage name ([`AlertLevel::name`]). The station's
+//! the verdict's level to `park` ([`AlertLevel::park_requested`]), `alarm`
+//! ([`AlertLevel::alarm`]) and the level name ([`AlertLevel::name`]). The station's
 //! own sensor-health supervision still overrides everything toward park and
 //! alarm.
 //!
 //! **Backstop.** An optional [`LimitRule`] runs beside the guard; the lines
 //! follow whichever asks for more (park if either asks, alarm if either
-//! asks). When the backstop asks for more than the guard, the stage name is
+//! asks). When the backstop asks for more than the guard, the level name is
 //! `limit_park` or `limit_alarm`, so the event log says which one acted.
 //!
 //! **Acknowledge.** The guard's alarm latches until [`GuardAssess::acknowledge`]
@@ -153,7 +153,7 @@ fn add_example_parts(spec: &mut RigSpec) -> Result<(), Error> {
 
 /// The guard settings of the replay: [`GuardConfig::default()`] with a
 /// 20 s dwell, a 30 s time to park and a 10 s fault clearing time, so an
-/// invented log of a few minutes walks through the stages and back (the
+/// invented log of a few minutes walks through the levels and back (the
 /// defaults, 600 s, 120 s and 60 s, would need a log of hours). Everything
 /// else, thresholds included, is the default. `replay/rig.toml` carries the
 /// same three values in its `[guard]` section (a host test checks that
@@ -191,7 +191,7 @@ pub fn example_guard(rig: &Rig, now_ms: u64) -> Result<Guard<'_>, Error> {
 pub struct GuardAssess<'r, G = Guard<'r>> {
     guard: G,
     backstop: Option<LimitRule>,
-    last_stage: AlertLevel,
+    last_level: AlertLevel,
     raised: Vec<RaisedFault, MAX_EVENTS>,
     events_lost: u16,
     rig: PhantomData<&'r Rig>,
@@ -229,12 +229,12 @@ impl<'r> GuardAssess<'r> {
 impl<'r, G: BorrowMut<Guard<'r>>> GuardAssess<'r, G> {
     /// The adapter for an already built `guard` (owned or borrowed), with an
     /// optional fixed-limit backstop. The guard should be fresh (no step
-    /// taken); the adapter starts from its present stage.
+    /// taken); the adapter starts from its present level.
     pub fn with_guard(guard: G, backstop: Option<LimitRule>) -> Self {
         GuardAssess {
             // A fresh guard starts unable to see (sensor_fault) until its
             // sensors have given readings.
-            last_stage: guard.borrow().level(),
+            last_level: guard.borrow().level(),
             guard,
             backstop,
             raised: Vec::new(),
@@ -244,15 +244,15 @@ impl<'r, G: BorrowMut<Guard<'r>>> GuardAssess<'r, G> {
     }
 
     /// Acknowledges the guard's latched alarm (an operator's key switch). The
-    /// stage steps down once the figures have settled for the dwell time.
+    /// level steps down once the figures have settled for the dwell time.
     pub fn acknowledge(&mut self) {
         self.guard.borrow_mut().acknowledge();
     }
 
-    /// The guard's stage after the last step.
+    /// The guard's level after the last step.
     #[must_use]
-    pub const fn guard_stage(&self) -> AlertLevel {
-        self.last_stage
+    pub const fn guard_level(&self) -> AlertLevel {
+        self.last_level
     }
 
     /// The guard (for inspection).
@@ -288,12 +288,12 @@ impl<'r, G: BorrowMut<Guard<'r>>> Assess for GuardAssess<'r, G> {
                 let _ = self.raised.push(fault_names(f));
             }
         }
-        let stage = verdict.level;
-        self.last_stage = stage;
+        let level = verdict.level;
+        self.last_level = level;
         let guard = Assessment {
-            park: stage.park_requested(),
-            alarm: stage.alarm(),
-            stage: stage.name(),
+            park: level.park_requested(),
+            alarm: level.alarm(),
+            level: level.name(),
         };
         let Some(rule) = self.backstop.as_mut() else {
             return guard;
@@ -301,14 +301,14 @@ impl<'r, G: BorrowMut<Guard<'r>>> Assess for GuardAssess<'r, G> {
         let limit = rule.assess(s);
         let park = guard.park || limit.park;
         let alarm = guard.alarm || limit.alarm;
-        let stage = if limit.alarm && !guard.alarm {
+        let level = if limit.alarm && !guard.alarm {
             "limit_alarm"
         } else if limit.park && !guard.park {
             "limit_park"
         } else {
-            guard.stage
+            guard.level
         };
-        Assessment { park, alarm, stage }
+        Assessment { park, alarm, level }
     }
 
     fn raised_faults(&self) -> &[RaisedFault] {

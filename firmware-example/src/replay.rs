@@ -512,11 +512,11 @@ pub struct Replay<'r, G = Guard<'r>> {
     header_seen: bool,
     last_t_ms: Option<u64>,
     rows: u32,
-    guard_stage: standfast::guard::AlertLevel,
+    guard_level: standfast::guard::AlertLevel,
     guard_events: heapless::Vec<Event, GUARD_EVENTS>,
 }
 
-/// Most guard-only events one step gives: its raised faults and one stage change.
+/// Most guard-only events one step gives: its raised faults and one level change.
 pub const GUARD_EVENTS: usize = standfast::guard::MAX_EVENTS + 1;
 
 impl<'r> Replay<'r> {
@@ -546,24 +546,24 @@ impl<'r, G: BorrowMut<Guard<'r>>> Replay<'r, G> {
             FailSafeLines::new(MemoryPin::default(), MemoryPin::default()),
             GuardAssess::with_guard(guard, Some(LimitRule::new(setup.limits))),
         );
-        // The guard's stage before the first step: the one it starts in
+        // The guard's level before the first step: the one it starts in
         // (`sensor_fault`, it cannot judge the rig before its sensors have
-        // given readings), so no stage event is invented for step one.
-        let guard_stage = station.rule().guard_stage();
+        // given readings), so no level event is invented for step one.
+        let guard_level = station.rule().guard_level();
         Replay {
             station,
             line: 0,
             header_seen: false,
             last_t_ms: None,
             rows: 0,
-            guard_stage,
+            guard_level,
             guard_events: heapless::Vec::new(),
         }
     }
 
     /// The guard's own events of the last step, without the backstop and
-    /// the station: the faults it raised, then its stage change (names as
-    /// [`standfast::guard::AlertLevel::name`], starting from the stage the guard
+    /// the station: the faults it raised, then its level change (names as
+    /// [`standfast::guard::AlertLevel::name`], starting from the level the guard
     /// starts in, `sensor_fault`). The
     /// binaries print them as `guard event ...` lines; host-sim's
     /// `standfast replay --events` writes the same lines for the same rig and
@@ -638,17 +638,17 @@ impl<'r, G: BorrowMut<Guard<'r>>> Replay<'r, G> {
                 let _ = self.guard_events.push(*e);
             }
         }
-        let stage = self.station.rule().guard_stage();
-        if stage != self.guard_stage {
+        let level = self.station.rule().guard_level();
+        if level != self.guard_level {
             let _ = self.guard_events.push(Event {
                 // The log's time never goes back (checked), so it is the station's.
                 t_ms: row.t_ms,
                 kind: EventKind::AlertLevel {
-                    from: self.guard_stage.name(),
-                    to: stage.name(),
+                    from: self.guard_level.name(),
+                    to: level.name(),
                 },
             });
-            self.guard_stage = stage;
+            self.guard_level = level;
         }
         report
     }

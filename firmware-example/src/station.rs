@@ -243,7 +243,7 @@ pub struct Station<I2C, V, P, A, R> {
     vane_health: Health,
     start_ms: Option<u64>,
     last_step_ms: Option<u64>,
-    stage: &'static str,
+    level: &'static str,
 }
 
 impl<I2C, V, P, A, R> Station<I2C, V, P, A, R>
@@ -281,7 +281,7 @@ where
             last_step_ms: None,
             // Before its first assessment the station cannot see: both
             // lines start de-energised, as for the guard's sensor_fault.
-            stage: standfast::guard::AlertLevel::SensorFault.name(),
+            level: standfast::guard::AlertLevel::SensorFault.name(),
         }
     }
 
@@ -387,15 +387,15 @@ where
         if lost > 0 {
             push(EventKind::EventsLost(lost), now_ms);
         }
-        if self.stage != assessment.stage {
+        if self.level != assessment.level {
             push(
                 EventKind::AlertLevel {
-                    from: self.stage,
-                    to: assessment.stage,
+                    from: self.level,
+                    to: assessment.level,
                 },
                 now_ms,
             );
-            self.stage = assessment.stage;
+            self.level = assessment.level;
         }
 
         let usable =

@@ -215,9 +215,9 @@ typedef struct SfInputs {
 } SfInputs;
 
 /**
- * The guard's stage (`standfast::guard::AlertLevel`), in rising severity.
+ * The guard's level (`standfast::guard::AlertLevel`), in rising severity.
  */
-typedef uint32_t SfStage;
+typedef uint32_t SfLevel;
 
 /**
  * A figure that may be absent.
@@ -296,7 +296,7 @@ typedef struct SfFault {
 typedef uint32_t SfEventKind;
 
 /**
- * What drove a stage change (`standfast::guard::AlertCause`).
+ * What drove a level change (`standfast::guard::AlertCause`).
  */
 typedef uint32_t SfCause;
 
@@ -309,15 +309,15 @@ typedef struct SfEvent {
    */
   SfEventKind kind;
   /**
-   * Stage changed: the previous stage ([`SfStage`]).
+   * Level changed: the previous level ([`SfLevel`]).
    */
-  SfStage from_stage;
+  SfLevel from_level;
   /**
-   * Stage changed: the new stage.
+   * Level changed: the new level.
    */
-  SfStage to_stage;
+  SfLevel to_level;
   /**
-   * Stage changed: why ([`SfCause`]).
+   * Level changed: why ([`SfCause`]).
    */
   SfCause cause;
   /**
@@ -340,9 +340,9 @@ typedef struct SfVerdict {
    */
   uint64_t now_ms;
   /**
-   * The stage ([`SfStage`]).
+   * The level ([`SfLevel`]).
    */
-  SfStage stage;
+  SfLevel level;
   /**
    * 1 when the park request should be asserted (`park_now` and above).
    */
@@ -645,27 +645,27 @@ typedef struct SfAssessment {
 /**
  * All figures comfortably inside their limits.
  */
-#define SF_STAGE_CLEAR 0
+#define SF_LEVEL_CLEAR 0
 
 /**
  * A figure passed the watch threshold.
  */
-#define SF_STAGE_WATCH 1
+#define SF_LEVEL_WATCH 1
 
 /**
  * Park the mount now.
  */
-#define SF_STAGE_PARK_NOW 2
+#define SF_LEVEL_PARK_NOW 2
 
 /**
  * Close to tipping or sliding, or tilted near the limit; latched.
  */
-#define SF_STAGE_ALARM 3
+#define SF_LEVEL_ALARM 3
 
 /**
  * A sensor fault: the guard cannot see; park and alarm.
  */
-#define SF_STAGE_SENSOR_FAULT 4
+#define SF_LEVEL_SENSOR_FAULT 4
 
 /**
  * Overturning utilisation at the present peak gust.
@@ -854,9 +854,9 @@ typedef struct SfAssessment {
 #define SF_CHECK_PARK_POSE 6
 
 /**
- * The stage changed (`from_stage`, `to_stage`, `cause`).
+ * The level changed (`from_level`, `to_level`, `cause`).
  */
-#define SF_EVENT_STAGE_CHANGED 0
+#define SF_EVENT_LEVEL_CHANGED 0
 
 /**
  * A sensor fault was raised (`fault`).
@@ -988,7 +988,7 @@ SfStatus sf_guard_fini(struct SfGuard *guard);
  * Errors: null or misaligned pointers, `SF_ERR_BAD_HANDLE`, and a flag or
  * code in `*inputs` outside its set (`SF_ERR_OUT_OF_RANGE`, naming the
  * field); the guard is then not stepped. On any error `*out`, when
- * writable, asserts park and alarm (stage `sensor_fault`, no figures):
+ * writable, asserts park and alarm (level `sensor_fault`, no figures):
  * treat an error as unsafe.
  *
  * # Safety
@@ -1002,7 +1002,7 @@ SfStatus sf_guard_step(struct SfGuard *guard,
                        struct SfError *err);
 
 /**
- * Acknowledges a latched alarm: the stage may step down once the figures
+ * Acknowledges a latched alarm: the level may step down once the figures
  * have settled for the dwell time (at the next step, if they already have).
  *
  * # Safety
@@ -1027,11 +1027,11 @@ SfStatus sf_assess(const uint8_t *image,
                    struct SfError *err);
 
 /**
- * Name of a stage code (`clear`, `watch`, `park_now`, `alarm`,
+ * Name of a level code (`clear`, `watch`, `park_now`, `alarm`,
  * `sensor_fault`); `unknown` outside the set. A static NUL-terminated
  * string: never freed.
  */
-const char *sf_stage_name(SfStage stage);
+const char *sf_level_name(SfLevel level);
 
 /**
  * Name of a cause code (`overturning`, …, `acknowledged`); static.

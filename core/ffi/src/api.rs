@@ -375,8 +375,8 @@ const NO_FAULT: SfFault = SfFault {
 
 const NO_EVENT: SfEvent = SfEvent {
     kind: SF_EVENT_NEW_HIGH_UTILISATION,
-    from_stage: SF_STAGE_CLEAR,
-    to_stage: SF_STAGE_CLEAR,
+    from_level: SF_LEVEL_CLEAR,
+    to_level: SF_LEVEL_CLEAR,
     cause: SF_CAUSE_SETTLED,
     fault: NO_FAULT,
     utilisation: f32::NAN,
@@ -395,10 +395,10 @@ const NONE_F32: SfMaybeF32 = SfMaybeF32 {
 };
 
 /// The verdict written on any error of `sf_guard_step`: park and alarm
-/// asserted, stage `sensor_fault`, no figures.
+/// asserted, level `sensor_fault`, no figures.
 const FAIL_SAFE_VERDICT: SfVerdict = SfVerdict {
     now_ms: 0,
-    stage: SF_STAGE_SENSOR_FAULT,
+    level: SF_LEVEL_SENSOR_FAULT,
     park: 1,
     alarm: 1,
     overturning_utilisation: NONE_F32,
@@ -450,8 +450,8 @@ pub fn sf_event(e: &Event) -> SfEvent {
     match *e {
         Event::LevelChanged { from, to, cause } => SfEvent {
             kind,
-            from_stage: stage_code(from),
-            to_stage: stage_code(to),
+            from_level: level_code(from),
+            to_level: level_code(to),
             cause: cause_code(cause),
             ..NO_EVENT
         },
@@ -473,7 +473,7 @@ pub fn sf_event(e: &Event) -> SfEvent {
 pub fn sf_verdict(v: &Verdict) -> SfVerdict {
     let mut out = SfVerdict {
         now_ms: v.now.0,
-        stage: stage_code(v.level),
+        level: level_code(v.level),
         park: u8::from(v.level.park_requested()),
         alarm: u8::from(v.level.alarm()),
         overturning_utilisation: maybe(v.overturning_utilisation),
@@ -728,7 +728,7 @@ pub unsafe extern "C" fn sf_guard_fini(guard: *mut SfGuard) -> SfStatus {
 /// Errors: null or misaligned pointers, `SF_ERR_BAD_HANDLE`, and a flag or
 /// code in `*inputs` outside its set (`SF_ERR_OUT_OF_RANGE`, naming the
 /// field); the guard is then not stepped. On any error `*out`, when
-/// writable, asserts park and alarm (stage `sensor_fault`, no figures):
+/// writable, asserts park and alarm (level `sensor_fault`, no figures):
 /// treat an error as unsafe.
 ///
 /// # Safety
@@ -773,7 +773,7 @@ pub unsafe extern "C" fn sf_guard_step(
     unsafe { finish(err, r) }
 }
 
-/// Acknowledges a latched alarm: the stage may step down once the figures
+/// Acknowledges a latched alarm: the level may step down once the figures
 /// have settled for the dwell time (at the next step, if they already have).
 ///
 /// # Safety
@@ -891,12 +891,12 @@ pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, 
     Ok(out)
 }
 
-/// Name of a stage code (`clear`, `watch`, `park_now`, `alarm`,
+/// Name of a level code (`clear`, `watch`, `park_now`, `alarm`,
 /// `sensor_fault`); `unknown` outside the set. A static NUL-terminated
 /// string: never freed.
 #[no_mangle]
-pub extern "C" fn sf_stage_name(stage: SfStage) -> *const c_char {
-    name_in(&STAGE_NAMES, stage).as_ptr()
+pub extern "C" fn sf_level_name(level: SfLevel) -> *const c_char {
+    name_in(&LEVEL_NAMES, level).as_ptr()
 }
 
 /// Name of a cause code (`overturning`, …, `acknowledged`); static.

@@ -61,20 +61,20 @@ pub const SF_ERR_NO_MEMORY: SfStatus = 19;
 /// the core's weighing).
 pub const SF_ERR_INCONSISTENT: SfStatus = 20;
 
-/// The guard's stage (`standfast::guard::AlertLevel`), in rising severity.
-pub type SfStage = u32;
+/// The guard's level (`standfast::guard::AlertLevel`), in rising severity.
+pub type SfLevel = u32;
 /// All figures comfortably inside their limits.
-pub const SF_STAGE_CLEAR: SfStage = 0;
+pub const SF_LEVEL_CLEAR: SfLevel = 0;
 /// A figure passed the watch threshold.
-pub const SF_STAGE_WATCH: SfStage = 1;
+pub const SF_LEVEL_WATCH: SfLevel = 1;
 /// Park the mount now.
-pub const SF_STAGE_PARK_NOW: SfStage = 2;
+pub const SF_LEVEL_PARK_NOW: SfLevel = 2;
 /// Close to tipping or sliding, or tilted near the limit; latched.
-pub const SF_STAGE_ALARM: SfStage = 3;
+pub const SF_LEVEL_ALARM: SfLevel = 3;
 /// A sensor fault: the guard cannot see; park and alarm.
-pub const SF_STAGE_SENSOR_FAULT: SfStage = 4;
+pub const SF_LEVEL_SENSOR_FAULT: SfLevel = 4;
 
-/// What drove a stage change (`standfast::guard::AlertCause`).
+/// What drove a level change (`standfast::guard::AlertCause`).
 pub type SfCause = u32;
 /// Overturning utilisation at the present peak gust.
 pub const SF_CAUSE_OVERTURNING: SfCause = 0;
@@ -164,8 +164,8 @@ pub const SF_CHECK_PARK_POSE: SfCheck = 6;
 
 /// The kind of an event (`standfast::guard::Event` variant).
 pub type SfEventKind = u32;
-/// The stage changed (`from_stage`, `to_stage`, `cause`).
-pub const SF_EVENT_STAGE_CHANGED: SfEventKind = 0;
+/// The level changed (`from_level`, `to_level`, `cause`).
+pub const SF_EVENT_LEVEL_CHANGED: SfEventKind = 0;
 /// A sensor fault was raised (`fault`).
 pub const SF_EVENT_FAULT_RAISED: SfEventKind = 1;
 /// The highest overturning utilisation since start rose (`utilisation`).
@@ -187,15 +187,15 @@ pub const SF_PIER_TUBE_EAST: SfPierSide = 0;
 /// θ₁ = H + π, θ₂ = π − δ: the usual side for targets east of the meridian.
 pub const SF_PIER_TUBE_WEST: SfPierSide = 1;
 
-/// The C code of a stage.
+/// The C code of a level.
 #[must_use]
-pub const fn stage_code(s: AlertLevel) -> SfStage {
+pub const fn level_code(s: AlertLevel) -> SfLevel {
     match s {
-        AlertLevel::Clear => SF_STAGE_CLEAR,
-        AlertLevel::Watch => SF_STAGE_WATCH,
-        AlertLevel::ParkNow => SF_STAGE_PARK_NOW,
-        AlertLevel::Alarm => SF_STAGE_ALARM,
-        AlertLevel::SensorFault => SF_STAGE_SENSOR_FAULT,
+        AlertLevel::Clear => SF_LEVEL_CLEAR,
+        AlertLevel::Watch => SF_LEVEL_WATCH,
+        AlertLevel::ParkNow => SF_LEVEL_PARK_NOW,
+        AlertLevel::Alarm => SF_LEVEL_ALARM,
+        AlertLevel::SensorFault => SF_LEVEL_SENSOR_FAULT,
     }
 }
 
@@ -304,7 +304,7 @@ pub const fn fault_parts(f: &Fault) -> FaultParts {
 #[must_use]
 pub const fn event_kind(e: &Event) -> SfEventKind {
     match e {
-        Event::LevelChanged { .. } => SF_EVENT_STAGE_CHANGED,
+        Event::LevelChanged { .. } => SF_EVENT_LEVEL_CHANGED,
         Event::FaultRaised(_) => SF_EVENT_FAULT_RAISED,
         Event::NewHighUtilisation { .. } => SF_EVENT_NEW_HIGH_UTILISATION,
     }
@@ -329,8 +329,8 @@ pub const fn error_code(k: ErrorKind) -> SfStatus {
 /// Returned by the name functions for a code outside the set.
 pub const UNKNOWN: &CStr = c"unknown";
 
-/// Names of [`SfStage`] codes, by value (the core's `AlertLevel::name`).
-pub(crate) const STAGE_NAMES: [&CStr; 5] =
+/// Names of [`SfLevel`] codes, by value (the core's `AlertLevel::name`).
+pub(crate) const LEVEL_NAMES: [&CStr; 5] =
     [c"clear", c"watch", c"park_now", c"alarm", c"sensor_fault"];
 /// Names of [`SfCause`] codes, by value.
 pub(crate) const CAUSE_NAMES: [&CStr; 11] = [
@@ -383,7 +383,7 @@ pub(crate) const CHECK_NAMES: [&CStr; 7] = [
 ];
 /// Names of [`SfEventKind`] codes, by value.
 pub(crate) const EVENT_KIND_NAMES: [&CStr; 3] =
-    [c"stage_changed", c"fault_raised", c"new_high_utilisation"];
+    [c"level_changed", c"fault_raised", c"new_high_utilisation"];
 /// Names of [`SfStatus`] codes, by value.
 pub(crate) const STATUS_NAMES: [&CStr; 21] = [
     c"ok",
@@ -437,7 +437,7 @@ mod tests {
             AlertLevel::Alarm,
             AlertLevel::SensorFault,
         ] {
-            assert_eq!(s(name_in(&STAGE_NAMES, stage_code(st))), st.name());
+            assert_eq!(s(name_in(&LEVEL_NAMES, level_code(st))), st.name());
         }
         let sensors = [
             Sensor::Accelerometer,
@@ -523,6 +523,6 @@ mod tests {
             s(name_in(&STATUS_NAMES, SF_ERR_INCONSISTENT)),
             "inconsistent"
         );
-        assert_eq!(s(name_in(&STAGE_NAMES, 99)), "unknown");
+        assert_eq!(s(name_in(&LEVEL_NAMES, 99)), "unknown");
     }
 }

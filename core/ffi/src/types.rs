@@ -8,7 +8,7 @@
 //! direction being where it blows **from**; SI units, named in each field.
 
 use crate::codes::{
-    SfCause, SfCheck, SfEventKind, SfFaultClass, SfPierSide, SfPoseKind, SfSensor, SfStage,
+    SfCause, SfCheck, SfEventKind, SfFaultClass, SfLevel, SfPierSide, SfPoseKind, SfSensor,
     SfStatus,
 };
 
@@ -143,11 +143,11 @@ pub struct SfFault {
 pub struct SfEvent {
     /// The kind ([`SfEventKind`]); the fields below it names are set.
     pub kind: SfEventKind,
-    /// Stage changed: the previous stage ([`SfStage`]).
-    pub from_stage: SfStage,
-    /// Stage changed: the new stage.
-    pub to_stage: SfStage,
-    /// Stage changed: why ([`SfCause`]).
+    /// Level changed: the previous level ([`SfLevel`]).
+    pub from_level: SfLevel,
+    /// Level changed: the new level.
+    pub to_level: SfLevel,
+    /// Level changed: why ([`SfCause`]).
     pub cause: SfCause,
     /// Fault raised: the fault.
     pub fault: SfFault,
@@ -162,8 +162,8 @@ pub struct SfEvent {
 pub struct SfVerdict {
     /// Time stamp of the step, ms (the caller's clock).
     pub now_ms: u64,
-    /// The stage ([`SfStage`]).
-    pub stage: SfStage,
+    /// The level ([`SfLevel`]).
+    pub level: SfLevel,
     /// 1 when the park request should be asserted (`park_now` and above).
     pub park: u8,
     /// 1 when the alarm should be asserted (`alarm`, `sensor_fault`).

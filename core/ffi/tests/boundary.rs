@@ -137,7 +137,7 @@ fn version_sizes_and_names() {
     assert_eq!(sf_guard_storage_size(), SF_GUARD_STORAGE_SIZE);
     assert_eq!(sf_guard_storage_align(), SF_GUARD_STORAGE_ALIGN);
     assert_eq!(sf_sizeof_verdict(), std::mem::size_of::<SfVerdict>());
-    assert_eq!(name(sf_stage_name(SF_STAGE_PARK_NOW)), "park_now");
+    assert_eq!(name(sf_level_name(SF_LEVEL_PARK_NOW)), "park_now");
     assert_eq!(name(sf_cause_name(SF_CAUSE_ACKNOWLEDGED)), "acknowledged");
     assert_eq!(
         name(sf_sensor_name(SF_SENSOR_WIND_DIRECTION)),
@@ -153,7 +153,7 @@ fn version_sizes_and_names() {
         "image_checksum"
     );
     for bad in [5, 1000, u32::MAX] {
-        assert_eq!(name(sf_stage_name(bad)), "unknown");
+        assert_eq!(name(sf_level_name(bad)), "unknown");
     }
     assert_eq!(name(sf_status_name(u32::MAX)), "unknown");
 }
@@ -169,7 +169,7 @@ fn init_step_acknowledge_fini() {
     let (st, _, v) = step(g, 0, &level_calm());
     assert_eq!(st, SF_OK);
     assert_eq!(v.now_ms, 0);
-    assert_eq!(v.stage, SF_STAGE_SENSOR_FAULT);
+    assert_eq!(v.level, SF_LEVEL_SENSOR_FAULT);
     assert_eq!((v.park, v.alarm), (1, 1));
     // A level rig in a light breeze reaches clear (the example rig's fault
     // clearing time and dwell are 10 s and 20 s).
@@ -177,7 +177,7 @@ fn init_step_acknowledge_fini() {
     for k in 1..=60u64 {
         let (st, _, v) = step(g, k * 1000, &level_calm());
         assert_eq!(st, SF_OK);
-        if v.stage == SF_STAGE_CLEAR {
+        if v.level == SF_LEVEL_CLEAR {
             assert_eq!((v.park, v.alarm), (0, 0));
             clear_at = Some(k);
             break;
@@ -190,7 +190,7 @@ fn init_step_acknowledge_fini() {
     let (st, e, v) = step(g, 100, &level_calm());
     assert_eq!(st, SF_ERR_BAD_HANDLE);
     assert_eq!(e.code, SF_ERR_BAD_HANDLE);
-    assert_eq!((v.park, v.alarm, v.stage), (1, 1, SF_STAGE_SENSOR_FAULT));
+    assert_eq!((v.park, v.alarm, v.level), (1, 1, SF_LEVEL_SENSOR_FAULT));
     assert_eq!(unsafe { sf_guard_fini(g) }, SF_ERR_BAD_HANDLE);
     assert_eq!(unsafe { sf_guard_acknowledge(g) }, SF_ERR_BAD_HANDLE);
 }
@@ -266,7 +266,7 @@ fn null_pointers() {
     let mut v: Box<SfVerdict> = Box::new(unsafe { std::mem::zeroed() });
     let st = unsafe { sf_guard_step(g, 0, ptr::null(), &mut *v, &mut e) };
     assert_eq!((st, e.field_str()), (SF_ERR_NULL_POINTER, "inputs"));
-    assert_eq!((v.park, v.alarm, v.stage), (1, 1, SF_STAGE_SENSOR_FAULT));
+    assert_eq!((v.park, v.alarm, v.level), (1, 1, SF_LEVEL_SENSOR_FAULT));
     let st = unsafe { sf_guard_step(g, 0, &no_inputs(), ptr::null_mut(), &mut e) };
     assert_eq!((st, e.field_str()), (SF_ERR_NULL_POINTER, "out"));
     assert_eq!(
@@ -565,8 +565,8 @@ fn bad_flags_and_codes_are_refused_without_a_step() {
         assert_eq!(e.field_str(), field);
         assert_eq!((e.value, e.min, e.max), (value, 0.0, max));
         assert_eq!(
-            (v.park, v.alarm, v.stage, v.now_ms),
-            (1, 1, SF_STAGE_SENSOR_FAULT, 5)
+            (v.park, v.alarm, v.level, v.now_ms),
+            (1, 1, SF_LEVEL_SENSOR_FAULT, 5)
         );
         assert_eq!(v.event_count, 0);
     }

@@ -295,7 +295,7 @@ fn transition_calls(t: &mut Tally, u: &Unknowns) {
         _ => Readings::EvaluationFault,
     };
     let mut memory = Memory::default();
-    let mut stage = Level::ALL
+    let mut level = Level::ALL
         .get(usize::try_from(u.extra_bodies % 5).unwrap_or(0))
         .copied()
         .unwrap_or_default();
@@ -304,11 +304,11 @@ fn transition_calls(t: &mut Tally, u: &Unknowns) {
         if k % 31 == 30 {
             memory.acknowledge();
         }
-        let out = transition(stage, &readings, &thresholds, memory, now);
-        (stage, memory) = (out.stage, out.memory);
+        let out = transition(level, &readings, &thresholds, memory, now);
+        (level, memory) = (out.level, out.memory);
         t.ok = t.ok.saturating_add(u32::from(out.change.is_some()));
     }
-    black_box(stage);
+    black_box(level);
 }
 
 fn weighing_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {

@@ -33,7 +33,7 @@ static CODES: Codes = Codes {
     flags: [1, 1, 1, 0, 1, 1, 0, 1],
     pose_kind: SF_POSE_EQUATORIAL,
     pier_side: SF_PIER_TUBE_EAST,
-    name_code: SF_STAGE_PARK_NOW,
+    name_code: SF_LEVEL_PARK_NOW,
     directions: 16,
 };
 
@@ -75,7 +75,7 @@ pub fn ffi_calls(t: &mut Tally, u: &Unknowns) {
         sf_sizeof_assessment(),
     ));
     for n in [
-        sf_stage_name(c.name_code),
+        sf_level_name(c.name_code),
         sf_cause_name(c.name_code),
         sf_sensor_name(c.name_code),
         sf_fault_class_name(c.name_code),

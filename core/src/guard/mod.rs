@@ -247,7 +247,7 @@ pub struct Guard<'r> {
     tilt: TiltSensor,
     wind: WindStats,
     means: MeanWind,
-    stage: AlertLevel,
+    level: AlertLevel,
     memory: Memory,
     pose: Pose,
     cover_fitted: bool,
@@ -291,7 +291,7 @@ impl<'r> Guard<'r> {
             wind: WindStats::started(config.wind, height_factor, now),
             means: MeanWind::started(config.wind, height_factor, now),
             config,
-            stage: AlertLevel::SensorFault,
+            level: AlertLevel::SensorFault,
             memory: Memory::default(),
             pose,
             cover_fitted: false,
@@ -317,7 +317,7 @@ impl<'r> Guard<'r> {
     /// The present alert level.
     #[must_use]
     pub fn level(&self) -> AlertLevel {
-        self.stage
+        self.level
     }
 
     /// Starts a level capture at set-up (see
@@ -438,7 +438,7 @@ impl<'r> Guard<'r> {
 
         // The park pose is searched only while a park is requested, once per
         // evaluation (it costs one assessment per candidate).
-        if self.stage.park_requested() && (due || self.park_pose.is_none()) {
+        if self.level.park_requested() && (due || self.park_pose.is_none()) {
             let pose = match (self.shown.predicted_gust_mps, self.shown.from_rad) {
                 (Some(v), Some(d)) => self.safest_park_pose(v, d),
                 _ => Ok(self.rig.mount().home_pose()),
@@ -459,7 +459,7 @@ impl<'r> Guard<'r> {
         let fig = self.shown;
         Verdict {
             now,
-            level: self.stage,
+            level: self.level,
             overturning_utilisation: fig.overturning,
             predicted_utilisation: fig.predicted,
             sliding_utilisation: fig.sliding,
@@ -472,7 +472,7 @@ impl<'r> Guard<'r> {
             tilt_margin_rad: fig.tilt_margin_rad,
             tilt_drift_rad_per_s: fig.drift_rad_per_s,
             pose: self.pose,
-            park_pose: if self.stage.park_requested() {
+            park_pose: if self.level.park_requested() {
                 self.park_pose
             } else {
                 None
@@ -570,13 +570,13 @@ impl<'r> Guard<'r> {
         self.note_new_faults(faults, events);
         let readings = self.readings(faults);
         let t = transition::transition(
-            self.stage,
+            self.level,
             &readings,
             &self.config.thresholds(),
             self.memory,
             now,
         );
-        self.stage = t.stage;
+        self.level = t.level;
         self.memory = t.memory;
         if let Some(c) = t.change {
             events.push(Event::LevelChanged {

@@ -317,7 +317,7 @@ pub struct Change {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Transition {
     /// The next level.
-    pub stage: AlertLevel,
+    pub level: AlertLevel,
     /// The memory for the next decision.
     pub memory: Memory,
     /// The change, when the level changed.
@@ -376,7 +376,7 @@ pub fn settled_below(level: AlertLevel, f: &Figures, t: &Thresholds) -> bool {
 /// One decision (module docs, "Transition table").
 #[must_use]
 pub fn transition(
-    stage: AlertLevel,
+    present: AlertLevel,
     readings: &Readings,
     t: &Thresholds,
     memory: Memory,
@@ -386,10 +386,10 @@ pub fn transition(
     let acknowledged = m.acknowledged;
     m.acknowledged = false;
     let change = |to: AlertLevel, cause: AlertCause, m: Memory| Transition {
-        stage: to,
+        level: to,
         memory: m,
-        change: (to != stage).then_some(Change {
-            from: stage,
+        change: (to != present).then_some(Change {
+            from: present,
             to,
             cause,
         }),
@@ -404,8 +404,8 @@ pub fn transition(
             };
             m.healthy_since = None;
             m.settled_since = [None; 3];
-            if stage != AlertLevel::SensorFault {
-                m.before_fault = Some(stage);
+            if present != AlertLevel::SensorFault {
+                m.before_fault = Some(present);
             }
             return change(AlertLevel::SensorFault, cause, m);
         }
@@ -422,9 +422,9 @@ pub fn transition(
         }
     }
     let (want, cause) = wanted(figures, t);
-    if stage == AlertLevel::SensorFault {
+    if present == AlertLevel::SensorFault {
         if now.since(healthy_since) < t.fault_clear_ms {
-            return change(stage, cause, m);
+            return change(present, cause, m);
         }
         if want == AlertLevel::Alarm {
             m.latched = true;
@@ -442,14 +442,14 @@ pub fn transition(
         m.before_fault = None;
         return change(to, AlertCause::FaultCleared, m);
     }
-    if want > stage {
+    if want > present {
         if want == AlertLevel::Alarm {
             m.latched = true;
         }
         return change(want, cause, m);
     }
-    if want == stage || m.latched {
-        return change(stage, cause, m);
+    if want == present || m.latched {
+        return change(present, cause, m);
     }
     // Step down: as far as the dwell of every level left allows.
     let dwelt = |level: AlertLevel| {
@@ -458,12 +458,12 @@ pub fn transition(
             .and_then(|i| m.settled_since.get(i).copied().flatten())
             .is_some_and(|since| now.since(since) >= t.dwell_ms)
     };
-    let mut to = stage;
+    let mut to = present;
     while to > want && dwelt(to) {
         to = to.below();
     }
-    if to == stage {
-        return change(stage, cause, m);
+    if to == present {
+        return change(present, cause, m);
     }
     // A fresh dwell for every level from here down.
     m.settled_since = [None; 3];

@@ -1,5 +1,5 @@
 //! The Standfast guard as the station's assessment (`GuardAssess`), on its
-//! own: stages map to the fail-safe lines, the alarm latches until
+//! own: levels map to the fail-safe lines, the alarm latches until
 //! acknowledged, and a guard sensor fault de-energises both lines.
 //!
 //! The thresholds are the guard's documented defaults (core/src/guard/config.rs:
@@ -7,7 +7,7 @@
 //! §5-1.1.1; alarm at a present utilisation of 0.9, after EN 13000 limiter
 //! practice; 600 s dwell). The wind speeds below are chosen on either side of
 //! those thresholds for the invented example rig, not derived by hand: the
-//! checks are on the adapter's mapping and the order of the stages, which the
+//! checks are on the adapter's mapping and the order of the levels, which the
 //! guard's documentation fixes (escalation immediate, Clear < Watch <
 //! ParkNow < Alarm < SensorFault, alarm latched until acknowledged, a guard
 //! starts in SensorFault and leaves it only after its fault clearing time,
@@ -58,20 +58,20 @@ fn pins_for(a: &Assessment) -> (bool, bool) {
     (park.high, alarm.high)
 }
 
-/// Runs steps `from..to` with wind `speed_mps`; returns the stages entered
+/// Runs steps `from..to` with wind `speed_mps`; returns the levels entered
 /// (in order, each once) and the last assessment.
 fn run(
     g: &mut GuardAssess<'_>,
     from: u64,
     to: u64,
     speed_mps: f32,
-    stages: &mut Vec<&'static str>,
+    levels: &mut Vec<&'static str>,
 ) -> Assessment {
     let mut last = None;
     for i in from..to {
         let a = g.assess(&samples(i, speed_mps));
-        if stages.last() != Some(&a.stage) {
-            stages.push(a.stage);
+        if levels.last() != Some(&a.level) {
+            levels.push(a.level);
         }
         last = Some(a);
     }
@@ -83,7 +83,7 @@ fn run(
 const WARM_UP_STEPS: u64 = 6031;
 
 /// Runs a calm (3 m/s) from step 0 until the guard reaches `clear`, checks
-/// the start-up stages and their times, and returns the first step after it.
+/// the start-up levels and their times, and returns the first step after it.
 ///
 /// Derived from the guard's documented rules and its default settings
 /// (`GuardConfig::default()`: one evaluation per 1000 ms, 60 s fault
@@ -96,15 +96,15 @@ const WARM_UP_STEPS: u64 = 6031;
 /// guard leaves `sensor_fault` to no lower than `watch`). The figures have
 /// been settled below watch since 3000 ms (the settled timer runs while the
 /// figures are trusted), so the 600 s dwell ends at 603 000 ms: `clear`.
-fn warm_up(g: &mut GuardAssess<'_>, stages: &mut Vec<&'static str>) -> u64 {
+fn warm_up(g: &mut GuardAssess<'_>, levels: &mut Vec<&'static str>) -> u64 {
     let mut entered = Vec::new();
     for i in 0..WARM_UP_STEPS {
         let a = g.assess(&samples(i, 3.0));
-        if entered.last().map(|(s, _)| *s) != Some(a.stage) {
-            entered.push((a.stage, i * PERIOD_MS));
+        if entered.last().map(|(s, _)| *s) != Some(a.level) {
+            entered.push((a.level, i * PERIOD_MS));
         }
-        if stages.last() != Some(&a.stage) {
-            stages.push(a.stage);
+        if levels.last() != Some(&a.level) {
+            levels.push(a.level);
         }
     }
     assert_eq!(
@@ -118,11 +118,11 @@ fn warm_up(g: &mut GuardAssess<'_>, stages: &mut Vec<&'static str>) -> u64 {
 fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
     let rig = example_rig().unwrap();
     let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
-    let mut stages = Vec::new();
+    let mut levels = Vec::new();
     // Until the guard has readings and has settled, it parks and alarms.
     let first = g.assess(&samples(0, 3.0));
     assert_eq!(
-        (first.park, first.alarm, first.stage),
+        (first.park, first.alarm, first.level),
         (true, true, "sensor_fault")
     );
     assert_eq!(pins_for(&first), (false, false), "cannot see: both low");
@@ -134,44 +134,44 @@ fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
         }]
     );
     let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
-    let w = warm_up(&mut g, &mut stages);
-    let calm = run(&mut g, w, w + 100, 3.0, &mut stages);
-    assert_eq!((calm.park, calm.alarm, calm.stage), (false, false, "clear"));
+    let w = warm_up(&mut g, &mut levels);
+    let calm = run(&mut g, w, w + 100, 3.0, &mut levels);
+    assert_eq!((calm.park, calm.alarm, calm.level), (false, false, "clear"));
     assert_eq!(pins_for(&calm), (true, true), "all well: both energised");
 
     // A strong steady wind: a park is due, no alarm yet.
     let w = w + 100;
-    let strong = run(&mut g, w, w + 600, 17.0, &mut stages);
+    let strong = run(&mut g, w, w + 600, 17.0, &mut levels);
     assert_eq!(
-        (strong.park, strong.alarm, strong.stage),
+        (strong.park, strong.alarm, strong.level),
         (true, false, "park_now")
     );
     assert_eq!(pins_for(&strong), (false, true), "park line de-energised");
 
     // A stronger steady wind: the alarm.
     let w = w + 600;
-    let storm = run(&mut g, w, w + 600, 24.0, &mut stages);
+    let storm = run(&mut g, w, w + 600, 24.0, &mut levels);
     assert_eq!(
-        (storm.park, storm.alarm, storm.stage),
+        (storm.park, storm.alarm, storm.level),
         (true, true, "alarm")
     );
     assert_eq!(pins_for(&storm), (false, false), "both lines de-energised");
-    assert_eq!(g.guard_stage(), standfast::guard::AlertLevel::Alarm);
+    assert_eq!(g.guard_level(), standfast::guard::AlertLevel::Alarm);
 
-    // After the warm-up, stages only rose, through park_now before the
+    // After the warm-up, levels only rose, through park_now before the
     // alarm.
-    assert_eq!(stages[..3], ["sensor_fault", "watch", "clear"]);
-    let at = |name| stages.iter().position(|s| *s == name).unwrap();
+    assert_eq!(levels[..3], ["sensor_fault", "watch", "clear"]);
+    let at = |name| levels.iter().position(|s| *s == name).unwrap();
     assert!(at("clear") < at("park_now") && at("park_now") < at("alarm"));
-    assert!(stages[2..].windows(2).all(|p| rank(p[0]) < rank(p[1])));
+    assert!(levels[2..].windows(2).all(|p| rank(p[0]) < rank(p[1])));
     assert!(g.raised_faults().is_empty());
 }
 
-/// The guard's stages in rising order (`AlertLevel` docs).
-fn rank(stage: &str) -> usize {
+/// The guard's levels in rising order (`AlertLevel` docs).
+fn rank(level: &str) -> usize {
     ["clear", "watch", "park_now", "alarm", "sensor_fault"]
         .iter()
-        .position(|s| *s == stage)
+        .position(|s| *s == level)
         .unwrap()
 }
 
@@ -179,19 +179,19 @@ fn rank(stage: &str) -> usize {
 fn acknowledge_after_a_long_calm_clears_the_latched_alarm() {
     let rig = example_rig().unwrap();
     let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
-    let mut stages = Vec::new();
-    let storm = run(&mut g, 0, 600, 24.0, &mut stages);
+    let mut levels = Vec::new();
+    let storm = run(&mut g, 0, 600, 24.0, &mut levels);
     assert!(storm.alarm);
     // 30 minutes of calm: far longer than the 10-minute gust window plus the
     // 600 s dwell, yet the alarm stays latched without an acknowledge.
-    let calm = run(&mut g, 600, 600 + 18_000, 1.0, &mut stages);
-    assert_eq!((calm.park, calm.alarm, calm.stage), (true, true, "alarm"));
+    let calm = run(&mut g, 600, 600 + 18_000, 1.0, &mut levels);
+    assert_eq!((calm.park, calm.alarm, calm.level), (true, true, "alarm"));
     assert_eq!(pins_for(&calm), (false, false));
 
     g.acknowledge();
     let after = g.assess(&samples(600 + 18_000, 1.0));
     assert_eq!(
-        (after.park, after.alarm, after.stage),
+        (after.park, after.alarm, after.level),
         (false, false, "clear")
     );
     assert_eq!(pins_for(&after), (true, true), "both lines energised again");
@@ -211,7 +211,7 @@ fn a_guard_sensor_fault_de_energises_both_lines() {
         let mut s = samples(i, 3.0);
         s.accel_g = Some(Vec3::new(0.0, 0.0, 1.0));
         let a = g.assess(&s);
-        if a.stage == "sensor_fault" {
+        if a.level == "sensor_fault" {
             first_fault = Some((a, g.raised_faults().to_vec()));
             break;
         }

@@ -4,7 +4,7 @@
 //! set-up (`ReplaySetup::example`): 0.75 m/s per Hz + 0.3 m/s, 1 s gate,
 //! park at 12 m/s, alarm at 18 m/s, held 5 s, accelerometer stale after
 //! 250 ms, wind after 3 s, faults cleared after 2 s healthy. The guard's
-//! stage times are read off a run (see the comments); its fault times follow
+//! level times are read off a run (see the comments); its fault times follow
 //! from its settings (`example_guard_config`).
 
 use standfast_firmware::guard_adapter::example_rig;
@@ -45,7 +45,7 @@ fn replay_text(text: &str) -> Result<Vec<String>, ReplayError> {
 // * 0 wind_speed no_reading: a guard starts in sensor_fault (it cannot
 //   judge the rig before its sensors give readings) and says why in its
 //   first step: the accelerometer gives a reading in that step, the wind
-//   none yet (the station's first gate reports at 1000). No stage event:
+//   none yet (the station's first gate reports at 1000). No level event:
 //   the guard was in sensor_fault before the step and stays there.
 // * 14000 sensor_fault → park_now: the first wind sample (1000) starts the
 //   wind record in fine bin 4 (250 ms bins); the 3-s gust is defined once
@@ -74,14 +74,14 @@ fn replay_text(text: &str) -> Result<Vec<String>, ReplayError> {
 //   which latches to the end of the log; the two times were read off a run.
 const GUARD_EVENTS: [&str; 9] = [
     "event t_ms=0 kind=fault sensor=wind_speed class=no_reading",
-    "event t_ms=14000 kind=stage from=sensor_fault to=park_now",
-    "event t_ms=40000 kind=stage from=park_now to=watch",
+    "event t_ms=14000 kind=level from=sensor_fault to=park_now",
+    "event t_ms=40000 kind=level from=park_now to=watch",
     "event t_ms=70100 kind=fault sensor=wind_speed class=stale",
     "event t_ms=70100 kind=fault sensor=wind_direction class=stale",
-    "event t_ms=70100 kind=stage from=watch to=sensor_fault",
-    "event t_ms=83000 kind=stage from=sensor_fault to=watch",
-    "event t_ms=93000 kind=stage from=watch to=park_now",
-    "event t_ms=95000 kind=stage from=park_now to=alarm",
+    "event t_ms=70100 kind=level from=watch to=sensor_fault",
+    "event t_ms=83000 kind=level from=sensor_fault to=watch",
+    "event t_ms=93000 kind=level from=watch to=park_now",
+    "event t_ms=95000 kind=level from=park_now to=alarm",
 ];
 
 #[test]
@@ -98,8 +98,8 @@ fn the_short_night_gives_the_expected_station_events() {
     // until 14000, so the station's own arming at 1000 (first wind speed)
     // switches no line, and the gate of second 10 (20 Hz, 15.3 m/s > 12),
     // which trips the backstop's park at 11000, asks for less than the
-    // guard already does: no stage event. At 14000 the guard leaves
-    // sensor_fault for park_now (above): the stage shown is its `park_now`
+    // guard already does: no level event. At 14000 the guard leaves
+    // sensor_fault for park_now (above): the level shown is its `park_now`
     // and the alarm line is energised (the park line stays requested).
     // Accelerometer silent 25000–25300: last good 24900, stale (> 250 ms)
     // at 25200 (the alarm line drops; park is already requested); good
@@ -108,40 +108,40 @@ fn the_short_night_gives_the_expected_station_events() {
     // hold ended long before). Pulses missing 60100–71900: last speed 60000,
     // stale (> 3000 ms) at 63100; the first latch at 72000 opens a window,
     // speed at 73000, cleared at 75000. The guard's own wind faults and its
-    // sensor_fault stage at 70100, and its return to `watch` at 83000, come
+    // sensor_fault level at 70100, and its return to `watch` at 83000, come
     // as above; with the station healthy again both lines are energised.
     // The storm's first gate (28 Hz, 21.3 m/s > 18) at 91000 raises the
     // backstop's alarm (`limit_alarm`, the guard only at watch); the guard
-    // reaches park_now at 93000 (still less than the backstop: no stage
-    // event) and alarm at 95000, when the stage shown becomes its own.
+    // reaches park_now at 93000 (still less than the backstop: no level
+    // event) and alarm at 95000, when the level shown becomes its own.
     let events = replay_text(SHORT_NIGHT).unwrap();
     assert_eq!(
         events,
         [
             "event t_ms=0 kind=started",
             "event t_ms=0 kind=fault sensor=wind_speed class=no_reading",
-            "event t_ms=14000 kind=stage from=sensor_fault to=park_now",
+            "event t_ms=14000 kind=level from=sensor_fault to=park_now",
             "event t_ms=14000 kind=alarm_off",
             "event t_ms=25200 kind=fault source=accel cause=bus",
             "event t_ms=25200 kind=alarm_on",
             "event t_ms=27400 kind=fault_cleared source=accel",
             "event t_ms=27400 kind=alarm_off",
-            "event t_ms=40000 kind=stage from=park_now to=watch",
+            "event t_ms=40000 kind=level from=park_now to=watch",
             "event t_ms=40000 kind=park_off",
             "event t_ms=63100 kind=fault source=wind cause=stale",
             "event t_ms=63100 kind=park_on",
             "event t_ms=63100 kind=alarm_on",
             "event t_ms=70100 kind=fault sensor=wind_speed class=stale",
             "event t_ms=70100 kind=fault sensor=wind_direction class=stale",
-            "event t_ms=70100 kind=stage from=watch to=sensor_fault",
+            "event t_ms=70100 kind=level from=watch to=sensor_fault",
             "event t_ms=75000 kind=fault_cleared source=wind",
-            "event t_ms=83000 kind=stage from=sensor_fault to=watch",
+            "event t_ms=83000 kind=level from=sensor_fault to=watch",
             "event t_ms=83000 kind=park_off",
             "event t_ms=83000 kind=alarm_off",
-            "event t_ms=91000 kind=stage from=watch to=limit_alarm",
+            "event t_ms=91000 kind=level from=watch to=limit_alarm",
             "event t_ms=91000 kind=park_on",
             "event t_ms=91000 kind=alarm_on",
-            "event t_ms=95000 kind=stage from=limit_alarm to=alarm",
+            "event t_ms=95000 kind=level from=limit_alarm to=alarm",
         ]
     );
 }

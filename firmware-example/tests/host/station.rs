@@ -74,15 +74,15 @@ const PARK_ONLY: LineState = LineState {
 
 /// The first events of a station with the backstop rule and a level,
 /// answering accelerometer, whose anemometer reports its first speed at
-/// 1000 ms. Before its first assessment the station's stage is
+/// 1000 ms. Before its first assessment the station's level is
 /// `sensor_fault` (it has judged nothing yet; the guard's can't-see level);
 /// the rule's first assessment at 0 ms names `clear` (no wind sample yet, a
-/// level tilt), so a stage event at 0 ms, while the station's own
+/// level tilt), so a level event at 0 ms, while the station's own
 /// supervision keeps both lines requested until the first wind speed at
 /// 1000 ms (arming).
 const ARMED: [&str; 4] = [
     "event t_ms=0 kind=started",
-    "event t_ms=0 kind=stage from=sensor_fault to=clear",
+    "event t_ms=0 kind=level from=sensor_fault to=clear",
     "event t_ms=1000 kind=park_off",
     "event t_ms=1000 kind=alarm_off",
 ];
@@ -154,11 +154,11 @@ fn a_scripted_windy_sequence_switches_the_lines() {
     assert_eq!(
         events[4..],
         [
-            "event t_ms=4000 kind=stage from=clear to=park",
+            "event t_ms=4000 kind=level from=clear to=park",
             "event t_ms=4000 kind=park_on",
-            "event t_ms=7000 kind=stage from=park to=alarm",
+            "event t_ms=7000 kind=level from=park to=alarm",
             "event t_ms=7000 kind=alarm_on",
-            "event t_ms=12100 kind=stage from=alarm to=clear",
+            "event t_ms=12100 kind=level from=alarm to=clear",
             "event t_ms=12100 kind=park_off",
             "event t_ms=12100 kind=alarm_off",
         ]
@@ -404,7 +404,7 @@ fn a_tilted_rig_raises_the_alarm() {
     assert_eq!(
         events[4..],
         [
-            "event t_ms=1500 kind=stage from=clear to=alarm",
+            "event t_ms=1500 kind=level from=clear to=alarm",
             "event t_ms=1500 kind=park_on",
             "event t_ms=1500 kind=alarm_on",
         ]

@@ -48,8 +48,8 @@
 //! the end of input. The cautions are written once to standard error at
 //! start.
 //!
-//! **State changes.** With `--on-change CMD`, every stage change spawns
-//! `sh -c CMD` with `STANDFAST_STAGE`, `STANDFAST_PREVIOUS_STAGE`,
+//! **State changes.** With `--on-change CMD`, every level change spawns
+//! `sh -c CMD` with `STANDFAST_LEVEL`, `STANDFAST_PREVIOUS_LEVEL`,
 //! `STANDFAST_T_MS` and `STANDFAST_CAUSE` in its environment, standard input
 //! from nothing and standard output to the bridge's standard error (standard
 //! output stays machine-readable). The bridge does not wait: children are
@@ -104,8 +104,8 @@ pub struct BridgeArgs {
     /// Input line format.
     #[arg(long, value_enum, default_value_t = InputFormat::Json)]
     pub format: InputFormat,
-    /// Command run with `sh -c` on every stage change (environment:
-    /// STANDFAST_STAGE, STANDFAST_PREVIOUS_STAGE, STANDFAST_T_MS, STANDFAST_CAUSE).
+    /// Command run with `sh -c` on every level change (environment:
+    /// STANDFAST_LEVEL, STANDFAST_PREVIOUS_LEVEL, STANDFAST_T_MS, STANDFAST_CAUSE).
     #[arg(long, value_name = "CMD")]
     pub on_change: Option<String>,
     /// Time source: the samples' own time, or the wall clock since start.
@@ -287,15 +287,15 @@ impl Hooks {
     fn fire(&mut self, v: &VerdictLine, err: &mut dyn Write) {
         let Some(cmd) = &self.command else { return };
         for e in &v.events {
-            let EventOut::StageChanged { from, to, cause } = e else {
+            let EventOut::LevelChanged { from, to, cause } = e else {
                 continue;
             };
             let stdout = Stdio::from(std::io::stderr());
             let spawned = Command::new("sh")
                 .arg("-c")
                 .arg(cmd)
-                .env("STANDFAST_STAGE", to)
-                .env("STANDFAST_PREVIOUS_STAGE", from)
+                .env("STANDFAST_LEVEL", to)
+                .env("STANDFAST_PREVIOUS_LEVEL", from)
                 .env("STANDFAST_T_MS", v.t_ms.to_string())
                 .env("STANDFAST_CAUSE", cause)
                 .stdin(Stdio::null())

@@ -33,7 +33,7 @@ pub struct ReplayArgs {
     /// Write the guard's verdicts as CSV to this file.
     #[arg(long, value_name = "FILE")]
     pub verdicts: Option<std::path::PathBuf>,
-    /// With --verdicts: write every N-th record (records with a stage change
+    /// With --verdicts: write every N-th record (records with a level change
     /// or fault always).
     #[arg(long, value_name = "N", default_value_t = 1, requires = "verdicts",
           value_parser = clap::value_parser!(u64).range(1..))]
@@ -52,7 +52,7 @@ pub struct ReplayArgs {
     /// alarm_utilisation=, time_to_park=, friction=, tie_down=.
     #[arg(long = "what-if", value_name = "KEY=VALUE")]
     pub what_if: Vec<String>,
-    /// Write the first rig's stage changes and faults as the firmware
+    /// Write the first rig's level changes and faults as the firmware
     /// example's event lines to this file (see `event_lines`).
     #[arg(long, value_name = "FILE")]
     pub events: Option<std::path::PathBuf>,

@@ -4,8 +4,8 @@
 //! record, through one [`Guard`] per rig, exactly as a controller would feed
 //! live samples: only channels with a new value at a record's time become
 //! [`Inputs`]. Memory does not grow with the log: per rig the replay keeps
-//! the closest approach of each figure, the time per stage and (up to
-//! [`MAX_KEPT_EVENTS`]) the stage changes and faults. The guards run on a
+//! the closest approach of each figure, the time per level and (up to
+//! [`MAX_KEPT_EVENTS`]) the level changes and faults. The guards run on a
 //! second thread, overlapping the reading of the logs (see [`replay`]).
 //!
 //! Conversions at the boundary (the log side is SI after the profile):
@@ -37,11 +37,11 @@ use standfast::math::STANDARD_GRAVITY_MPS2_F64;
 /// [`after_load_error`]).
 const GUARD_FAILED: &str = "the guard cannot start";
 
-/// Most stage changes and faults kept per rig; beyond it only counts grow.
+/// Most level changes and faults kept per rig; beyond it only counts grow.
 pub const MAX_KEPT_EVENTS: usize = 1000;
 
-/// All guard stages in report order.
-pub const STAGES: [AlertLevel; 5] = [
+/// All guard levels in report order.
+pub const LEVELS: [AlertLevel; 5] = [
     AlertLevel::Clear,
     AlertLevel::Watch,
     AlertLevel::ParkNow,
@@ -49,7 +49,7 @@ pub const STAGES: [AlertLevel; 5] = [
     AlertLevel::SensorFault,
 ];
 
-fn stage_index(s: AlertLevel) -> usize {
+fn level_index(s: AlertLevel) -> usize {
     match s {
         AlertLevel::Clear => 0,
         AlertLevel::Watch => 1,
@@ -62,7 +62,7 @@ fn stage_index(s: AlertLevel) -> usize {
 /// Options of a replay.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct ReplayOptions {
-    /// Write every n-th verdict to the verdict CSV (stage changes always);
+    /// Write every n-th verdict to the verdict CSV (level changes always);
     /// 1 writes all.
     pub verdicts_every: u64,
 }
@@ -91,7 +91,7 @@ pub struct Approach {
     /// Mount pose of the figures.
     pub pose: Pose,
     /// Alert level at that step.
-    pub stage: AlertLevel,
+    pub level: AlertLevel,
     /// Cover state held at that record (`None`: the logs do not say).
     pub cover_fitted: Option<bool>,
 }
@@ -109,7 +109,7 @@ struct ApproachJson<'a> {
     tilt_deg: Option<f32>,
     tilt_downhill_deg: Option<f32>,
     tip_wind_mps: Option<f32>,
-    stage: AlertLevel,
+    level: AlertLevel,
     cover_fitted: Option<bool>,
 }
 
@@ -126,7 +126,7 @@ impl Serialize for Approach {
             tilt_deg: f.tilt_deg,
             tilt_downhill_deg: f.tilt_downhill_deg,
             tip_wind_mps: f.tip_wind_mps,
-            stage: self.stage,
+            level: self.level,
             cover_fitted: self.cover_fitted,
         }
         .serialize(s)
@@ -134,7 +134,7 @@ impl Serialize for Approach {
 }
 
 /// The figures and inputs of one evaluation of the physics, kept so that a
-/// park request can say what changed (see [`StageChange::before`]).
+/// park request can say what changed (see [`LevelChange::before`]).
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct Moment {
     /// Seconds since the first record.
@@ -210,16 +210,16 @@ impl Limits {
     }
 }
 
-/// A stage change seen in the replay.
+/// A level change seen in the replay.
 #[derive(Clone, Debug, PartialEq, Serialize)]
-pub struct StageChange {
+pub struct LevelChange {
     /// Time, ISO 8601 UTC.
     pub time: String,
     /// Seconds since the first record.
     pub t_s: f64,
-    /// Previous stage.
+    /// Previous level.
     pub from: AlertLevel,
-    /// New stage.
+    /// New level.
     pub to: AlertLevel,
     /// What drove it (lower-case name).
     pub cause: String,
@@ -240,7 +240,7 @@ pub struct StageChange {
     pub pose_since_t_s: Option<f64>,
 }
 
-impl StageChange {
+impl LevelChange {
     /// True for a step up to `park_now` or `alarm`: a park request (with
     /// or without the alarm). Leaving `sensor_fault` is not one: the fault
     /// had already requested the park.
@@ -264,11 +264,11 @@ pub struct FaultSeen {
     pub kind: standfast::sense::Fault,
 }
 
-/// Time spent in one stage.
+/// Time spent in one level.
 #[derive(Clone, Debug, PartialEq, Serialize)]
-pub struct StageTime {
-    /// The stage.
-    pub stage: AlertLevel,
+pub struct LevelTime {
+    /// The level.
+    pub level: AlertLevel,
     /// Seconds spent in it (from one record to the next).
     pub seconds: f64,
 }
@@ -284,19 +284,19 @@ pub struct RigReplay {
     pub sliding: Option<Approach>,
     /// Highest governing drive utilisation of the primary and secondary axis.
     pub drive: [Option<Approach>; 2],
-    /// Time in each stage, in the order clear, watch, park_now, alarm,
+    /// Time in each level, in the order clear, watch, park_now, alarm,
     /// sensor_fault.
-    pub stage_time: Vec<StageTime>,
-    /// The most severe stage reached once the guard had first judged the
+    pub level_time: Vec<LevelTime>,
+    /// The most severe level reached once the guard had first judged the
     /// rig: the start-up `sensor_fault` (no readings yet) does not count;
     /// `sensor_fault` when the guard never could judge it.
-    pub highest_stage: AlertLevel,
-    /// The stage at the end of the log.
-    pub final_stage: AlertLevel,
+    pub highest_level: AlertLevel,
+    /// The level at the end of the log.
+    pub final_level: AlertLevel,
     /// AlertLevel changes, in time order (the first [`MAX_KEPT_EVENTS`]).
-    pub stage_changes: Vec<StageChange>,
+    pub level_changes: Vec<LevelChange>,
     /// AlertLevel changes not kept.
-    pub stage_changes_not_kept: u64,
+    pub level_changes_not_kept: u64,
     /// Sensor faults raised, in time order (the first [`MAX_KEPT_EVENTS`]).
     pub faults: Vec<FaultSeen>,
     /// Faults not kept.
@@ -442,7 +442,7 @@ fn approach(v: &Verdict, u: f32, time: Timestamp, t_s: f64, cover: Option<bool>)
         t_s,
         figures: Figures::of(v),
         pose: v.pose,
-        stage: v.level,
+        level: v.level,
         cover_fitted: cover,
     }
 }
@@ -468,8 +468,8 @@ fn raise(slot: &mut Option<Approach>, u: Option<f32>, v: &Verdict, at: At) {
 /// One rig's running state in a replay.
 struct Tracker {
     report: RigReplay,
-    stage_s: [f64; 5],
-    last_stage: AlertLevel,
+    level_s: [f64; 5],
+    last_level: AlertLevel,
     /// The figures of the previous step (overturning, sliding, drive 1 and
     /// 2): while they repeat, as between evaluations, no closest approach
     /// can rise, so the comparisons are skipped.
@@ -494,11 +494,11 @@ impl Tracker {
                 overturning: None,
                 sliding: None,
                 drive: [None, None],
-                stage_time: Vec::new(),
-                highest_stage: AlertLevel::SensorFault,
-                final_stage: AlertLevel::SensorFault,
-                stage_changes: Vec::new(),
-                stage_changes_not_kept: 0,
+                level_time: Vec::new(),
+                highest_level: AlertLevel::SensorFault,
+                final_level: AlertLevel::SensorFault,
+                level_changes: Vec::new(),
+                level_changes_not_kept: 0,
                 faults: Vec::new(),
                 faults_not_kept: 0,
                 events_lost: 0,
@@ -509,9 +509,9 @@ impl Tracker {
                 limits: Limits::of(guard),
                 unhealthy: Vec::new(),
             },
-            stage_s: [0.0; 5],
+            level_s: [0.0; 5],
             // A guard starts unable to see (sensor_fault).
-            last_stage: AlertLevel::SensorFault,
+            last_level: AlertLevel::SensorFault,
             last_figures: [None; 4],
             judged: false,
             last_eval: None,
@@ -521,9 +521,9 @@ impl Tracker {
         }
     }
 
-    /// A stage change at `at`; a park request keeps the last evaluation
+    /// A level change at `at`; a park request keeps the last evaluation
     /// before it, its own verdict and the time of the last slew.
-    fn stage_change(
+    fn level_change(
         &mut self,
         v: &Verdict,
         at: At,
@@ -532,11 +532,11 @@ impl Tracker {
         cause: AlertCause,
     ) {
         let r = &mut self.report;
-        if r.stage_changes.len() >= MAX_KEPT_EVENTS {
-            r.stage_changes_not_kept += 1;
+        if r.level_changes.len() >= MAX_KEPT_EVENTS {
+            r.level_changes_not_kept += 1;
             return;
         }
-        let mut c = StageChange {
+        let mut c = LevelChange {
             time: at.time.to_iso8601(3),
             t_s: at.t_s,
             from,
@@ -559,7 +559,7 @@ impl Tracker {
                 self.last_slew_t_s
             };
         }
-        r.stage_changes.push(c);
+        r.level_changes.push(c);
     }
 
     /// Per record, cheaply: whether the verdict has an active fault.
@@ -578,7 +578,7 @@ impl Tracker {
     }
 
     fn take(&mut self, v: &Verdict, at: At, dt_s: f64) {
-        if let Some(s) = self.stage_s.get_mut(stage_index(self.last_stage)) {
+        if let Some(s) = self.level_s.get_mut(level_index(self.last_level)) {
             *s += dt_s;
         }
         self.last_t_s = at.t_s;
@@ -607,7 +607,7 @@ impl Tracker {
         for e in &v.events {
             match e {
                 Event::LevelChanged { from, to, cause } => {
-                    self.stage_change(v, at, *from, *to, *cause);
+                    self.level_change(v, at, *from, *to, *cause);
                 }
                 Event::FaultRaised(f) => {
                     let r = &mut self.report;
@@ -642,19 +642,19 @@ impl Tracker {
         }
         if !self.judged && v.level != AlertLevel::SensorFault {
             self.judged = true;
-            r.highest_stage = v.level;
+            r.highest_level = v.level;
         } else if self.judged {
-            r.highest_stage = r.highest_stage.max(v.level);
+            r.highest_level = r.highest_level.max(v.level);
         }
-        r.final_stage = v.level;
-        self.last_stage = v.level;
+        r.final_level = v.level;
+        self.last_level = v.level;
     }
 
     fn finish(mut self) -> RigReplay {
-        self.report.stage_time = STAGES
+        self.report.level_time = LEVELS
             .iter()
-            .zip(self.stage_s)
-            .map(|(s, seconds)| StageTime { stage: *s, seconds })
+            .zip(self.level_s)
+            .map(|(s, seconds)| LevelTime { level: *s, seconds })
             .collect();
         if let Some(from) = self.unhealthy_since {
             if self.report.unhealthy.len() < MAX_KEPT_EVENTS {
@@ -688,7 +688,7 @@ pub trait ReplayObserver {
     /// Verdict `v` of rig number `rig` (0 for the first) at `time`, `t_s`
     /// seconds since the first record: for every
     /// [`ReplayOptions::verdicts_every`]-th record, and for every record
-    /// whose verdict has a stage change or fault event, in record order.
+    /// whose verdict has a level change or fault event, in record order.
     ///
     /// # Errors
     /// Whatever the observer cannot do with it (an output that cannot be
@@ -774,7 +774,7 @@ fn step_guards(
 }
 
 /// What the replay keeps of a stepped batch, in record order: closest
-/// approaches, stage times and events, the time series and the verdict
+/// approaches, level times and events, the time series and the verdict
 /// CSV. `n` counts the records taken so far.
 ///
 /// # Errors
@@ -881,7 +881,7 @@ fn report_of(
 /// with an event), for a verdict CSV.
 ///
 /// Two threads share the work: this one reads and merges the logs and
-/// keeps the closest approaches, stage times, events and time series (and
+/// keeps the closest approaches, level times, events and time series (and
 /// hands the verdicts to the observer); a second one steps the guards. They pass batches of
 /// 1 024 records (and back, their verdicts) through bounded
 /// channels, so memory stays fixed. The results are those of one thread

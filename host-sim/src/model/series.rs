@@ -2,7 +2,7 @@
 //!
 //! The replay pushes every verdict; the series keeps per-interval buckets
 //! (the highest utilisations, gust and tilt, the mean wind, the direction of
-//! the highest gust, the most severe stage). Buckets start [`FIRST_WIDTH_S`]
+//! the highest gust, the most severe level). Buckets start [`FIRST_WIDTH_S`]
 //! wide; whenever a record would open bucket number [`MAX_SERIES_POINTS`],
 //! neighbouring buckets are merged in pairs and the width doubles. So the
 //! series never holds more than [`MAX_SERIES_POINTS`] buckets, whatever the
@@ -52,8 +52,8 @@ pub struct SeriesPoint {
     /// The pose's second angle at the bucket's last record, degrees:
     /// declination, altitude, or the secondary axis angle.
     pub pose_b_deg: Option<f32>,
-    /// Most severe stage in the bucket.
-    pub stage: AlertLevel,
+    /// Most severe level in the bucket.
+    pub level: AlertLevel,
     /// Records in the bucket.
     pub records: u32,
 }
@@ -70,7 +70,7 @@ impl SeriesPoint {
             cover: None,
             pose_a_deg: None,
             pose_b_deg: None,
-            stage: AlertLevel::Clear,
+            level: AlertLevel::Clear,
             records: 0,
         }
     }
@@ -100,7 +100,7 @@ impl SeriesPoint {
             self.pose_a_deg = o.pose_a_deg;
             self.pose_b_deg = o.pose_b_deg;
         }
-        self.stage = self.stage.max(o.stage);
+        self.level = self.level.max(o.level);
         self.records = self.records.saturating_add(o.records);
     }
 }
@@ -293,6 +293,6 @@ impl Series {
             p.pose_a_deg = Some(a);
             p.pose_b_deg = Some(b);
         }
-        p.stage = p.stage.max(v.level);
+        p.level = p.level.max(v.level);
     }
 }

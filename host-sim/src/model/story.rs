@@ -94,9 +94,9 @@ pub struct ParkRequest {
     pub time: String,
     /// Seconds since the first record.
     pub t_s: f64,
-    /// Stage before.
+    /// Level before.
     pub from: AlertLevel,
-    /// Stage requested.
+    /// Level requested.
     pub to: AlertLevel,
     /// The cause (the guard's name).
     pub cause: String,
@@ -143,7 +143,7 @@ pub struct Closest {
 /// A spell of the guard in `sensor_fault`.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct FaultSpell {
-    /// Start, ISO 8601 UTC (the stage change, or the first record).
+    /// Start, ISO 8601 UTC (the level change, or the first record).
     pub time: String,
     /// Start, seconds since the first record.
     pub t_s: f64,
@@ -187,12 +187,12 @@ pub struct RigStory {
     /// A fault outranks the physics when it left the rig unwatched for
     /// longer than this, seconds (the rig's time to park).
     pub unwatched_limit_s: f64,
-    /// Park requests not in the story (stage changes beyond the kept ones).
+    /// Park requests not in the story (level changes beyond the kept ones).
     pub changes_not_kept: u64,
     /// The items, in the order told.
     pub told: Vec<Told>,
-    /// The stage at the end of the log.
-    pub final_stage: AlertLevel,
+    /// The level at the end of the log.
+    pub final_level: AlertLevel,
 }
 
 /// The ranking rule: a fault spell is told before the physics when it is
@@ -230,7 +230,7 @@ fn rig_story(r: &RigReplay, start: &str, end_s: f64) -> RigStory {
         spells.into_iter().partition(|s| s.outranks_physics);
     told.extend(high.into_iter().map(Told::Fault));
     told.extend(
-        r.stage_changes
+        r.level_changes
             .iter()
             .filter(|c| c.is_park_request())
             .map(|c| Told::ParkRequest(park_request(c, &r.limits, start))),
@@ -246,9 +246,9 @@ fn rig_story(r: &RigReplay, start: &str, end_s: f64) -> RigStory {
         rig_file: r.rig_file.clone(),
         judged,
         unwatched_limit_s: limit_s,
-        changes_not_kept: r.stage_changes_not_kept,
+        changes_not_kept: r.level_changes_not_kept,
         told,
-        final_stage: r.final_stage,
+        final_level: r.final_level,
     }
 }
 
@@ -352,7 +352,7 @@ pub fn changes(b: &Moment, a: &Moment, predicted: bool) -> Vec<Change> {
     out
 }
 
-fn park_request(c: &crate::model::replay::StageChange, l: &Limits, start: &str) -> ParkRequest {
+fn park_request(c: &crate::model::replay::LevelChange, l: &Limits, start: &str) -> ParkRequest {
     let (figure, value, threshold) = figure_of(c.cause_kind, c.to, c.at.as_ref(), l);
     let (_, value_before, _) = figure_of(c.cause_kind, c.to, c.before.as_ref(), l);
     let changed = match (&c.before, &c.at) {
@@ -392,14 +392,14 @@ fn silent_before_s(f: &Fault) -> f64 {
     }
 }
 
-/// The spells of `sensor_fault` from the stage changes (the first one from
+/// The spells of `sensor_fault` from the level changes (the first one from
 /// the first record), with their unwatched time.
 fn fault_spells(r: &RigReplay, first: &str, end_s: f64, limit_s: f64) -> Vec<FaultSpell> {
     // (start, start time, end, start-up): the guard starts in sensor_fault.
     let mut bounds: Vec<(f64, String, Option<f64>, bool)> = Vec::new();
     let mut open: Option<(f64, String)> = Some((0.0, first.to_owned()));
     let mut start_up = true;
-    for c in &r.stage_changes {
+    for c in &r.level_changes {
         if c.to == AlertLevel::SensorFault && open.is_none() {
             open = Some((c.t_s, c.time.clone()));
         } else if c.from == AlertLevel::SensorFault {
@@ -455,7 +455,7 @@ fn fault_spells(r: &RigReplay, first: &str, end_s: f64, limit_s: f64) -> Vec<Fau
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::model::replay::{FaultSeen, StageChange};
+    use crate::model::replay::{FaultSeen, LevelChange};
     use crate::model::series::Series;
     use standfast::sense::Sensor;
 
@@ -474,8 +474,8 @@ mod tests {
         assert!(!outranks_physics(true, 90.5, 90.0));
     }
 
-    fn change(t_s: f64, from: AlertLevel, to: AlertLevel, cause: AlertCause) -> StageChange {
-        StageChange {
+    fn change(t_s: f64, from: AlertLevel, to: AlertLevel, cause: AlertCause) -> LevelChange {
+        LevelChange {
             time: format!("t+{t_s}"),
             t_s,
             from,
@@ -517,17 +517,17 @@ mod tests {
             overturning: None,
             sliding: None,
             drive: [None, None],
-            stage_time: Vec::new(),
-            highest_stage: ParkNow,
-            final_stage: Watch,
-            stage_changes: vec![
+            level_time: Vec::new(),
+            highest_level: ParkNow,
+            final_level: Watch,
+            level_changes: vec![
                 change(60.0, SensorFault, Watch, AlertCause::FaultCleared),
                 change(1000.0, Watch, ParkNow, AlertCause::PredictedOverturning),
                 change(1500.0, ParkNow, Watch, AlertCause::Settled),
                 change(2000.0, Watch, SensorFault, AlertCause::SensorFault),
                 change(end, SensorFault, Watch, AlertCause::FaultCleared),
             ],
-            stage_changes_not_kept: 0,
+            level_changes_not_kept: 0,
             faults: vec![stale(2000.0, (silent_s * 1000.0) as u64)],
             faults_not_kept: 0,
             events_lost: 0,
@@ -581,10 +581,10 @@ mod tests {
     #[test]
     fn a_start_up_that_never_ends_is_not_judged_and_never_first() {
         let mut r = night(15.0, 31.0);
-        r.stage_changes.clear();
+        r.level_changes.clear();
         r.faults.clear();
         r.unhealthy = vec![(0.0, 3600.0)];
-        r.final_stage = AlertLevel::SensorFault;
+        r.final_level = AlertLevel::SensorFault;
         let st = rig_story(&r, "t0", 3600.0);
         assert!(!st.judged);
         let Some(Told::Fault(f)) = st.told.first() else {

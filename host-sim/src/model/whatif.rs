@@ -464,9 +464,9 @@ pub struct RigLine {
     /// Time of the highest overturning utilisation, seconds since the
     /// first record.
     pub overturning_t_s: Option<f64>,
-    /// Most severe stage reached.
-    pub highest_stage: AlertLevel,
-    /// First park request (stage change to park_now or alarm), seconds since
+    /// Most severe level reached.
+    pub highest_level: AlertLevel,
+    /// First park request (level change to park_now or alarm), seconds since
     /// the first record.
     pub first_park_t_s: Option<f64>,
     /// First alarm, seconds since the first record.
@@ -480,7 +480,7 @@ pub struct RigLine {
     /// Seconds in sensor_fault.
     pub sensor_fault_s: f64,
     /// AlertLevel changes (kept and not kept).
-    pub stage_changes: u64,
+    pub level_changes: u64,
 }
 
 impl RigLine {
@@ -502,14 +502,14 @@ struct RigLineJson<'a> {
     tip_wind_mps: Option<f32>,
     sliding_utilisation: Option<f32>,
     drive_utilisation: [Option<f32>; 2],
-    highest_stage: AlertLevel,
+    highest_level: AlertLevel,
     first_park_t_s: Option<f64>,
     first_alarm_t_s: Option<f64>,
     watch_s: f64,
     park_now_s: f64,
     alarm_s: f64,
     sensor_fault_s: f64,
-    stage_changes: u64,
+    level_changes: u64,
 }
 
 impl Serialize for RigLine {
@@ -522,14 +522,14 @@ impl Serialize for RigLine {
             tip_wind_mps: self.figures.tip_wind_mps,
             sliding_utilisation: self.figures.sliding_utilisation,
             drive_utilisation: [self.drive(0), self.drive(1)],
-            highest_stage: self.highest_stage,
+            highest_level: self.highest_level,
             first_park_t_s: self.first_park_t_s,
             first_alarm_t_s: self.first_alarm_t_s,
             watch_s: self.watch_s,
             park_now_s: self.park_now_s,
             alarm_s: self.alarm_s,
             sensor_fault_s: self.sensor_fault_s,
-            stage_changes: self.stage_changes,
+            level_changes: self.level_changes,
         }
         .serialize(s)
     }
@@ -551,13 +551,13 @@ fn column(i: usize) -> String {
 
 fn line(i: usize, r: &RigReplay) -> RigLine {
     let secs = |s: AlertLevel| {
-        r.stage_time
+        r.level_time
             .iter()
-            .find(|t| t.stage == s)
+            .find(|t| t.level == s)
             .map_or(0.0, |t| t.seconds)
     };
     let first = |pred: &dyn Fn(AlertLevel) -> bool| {
-        r.stage_changes.iter().find(|c| pred(c.to)).map(|c| c.t_s)
+        r.level_changes.iter().find(|c| pred(c.to)).map(|c| c.t_s)
     };
     let mut figures = r
         .overturning
@@ -580,14 +580,14 @@ fn line(i: usize, r: &RigReplay) -> RigLine {
         rig: r.rig_file.clone(),
         figures,
         overturning_t_s: r.overturning.as_ref().map(|a| a.t_s),
-        highest_stage: r.highest_stage,
+        highest_level: r.highest_level,
         first_park_t_s: first(&|s| s == AlertLevel::ParkNow || s == AlertLevel::Alarm),
         first_alarm_t_s: first(&|s| s == AlertLevel::Alarm),
         watch_s: secs(AlertLevel::Watch),
         park_now_s: secs(AlertLevel::ParkNow),
         alarm_s: secs(AlertLevel::Alarm),
         sensor_fault_s: secs(AlertLevel::SensorFault),
-        stage_changes: r.stage_changes.len() as u64 + r.stage_changes_not_kept,
+        level_changes: r.level_changes.len() as u64 + r.level_changes_not_kept,
     }
 }
 

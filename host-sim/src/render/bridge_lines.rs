@@ -77,11 +77,11 @@ impl From<Pose> for PoseOut {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
 pub enum EventOut {
-    /// The stage changed.
-    StageChanged {
-        /// Previous stage name.
+    /// The level changed.
+    LevelChanged {
+        /// Previous level name.
         from: &'static str,
-        /// New stage name.
+        /// New level name.
         to: &'static str,
         /// What drove it.
         cause: String,
@@ -113,8 +113,8 @@ pub struct VerdictLine {
     pub line: u64,
     /// Time of the step, ms (the sample's, or since start with the wall clock).
     pub t_ms: u64,
-    /// Stage name: clear, watch, park_now, alarm, sensor_fault.
-    pub stage: &'static str,
+    /// Level name: clear, watch, park_now, alarm, sensor_fault.
+    pub level: &'static str,
     /// The park-request output.
     pub park_requested: bool,
     /// The alarm output.
@@ -144,7 +144,7 @@ impl VerdictLine {
         VerdictLine {
             line,
             t_ms: v.now.0,
-            stage: v.level.name(),
+            level: v.level.name(),
             park_requested: v.level.park_requested(),
             alarm: v.level.alarm(),
             figures: Figures::of(v),
@@ -156,7 +156,7 @@ impl VerdictLine {
                 .events
                 .iter()
                 .map(|e| match *e {
-                    Event::LevelChanged { from, to, cause } => EventOut::StageChanged {
+                    Event::LevelChanged { from, to, cause } => EventOut::LevelChanged {
                         from: from.name(),
                         to: to.name(),
                         cause: cause_name(cause),

@@ -1,4 +1,4 @@
-//! A replay's stage changes and sensor faults as the firmware example's
+//! A replay's level changes and sensor faults as the firmware example's
 //! event lines, so a host replay and the emulated board can be compared with
 //! `diff` (`firmware-example/ci.sh`).
 //!
@@ -7,23 +7,23 @@
 //! ```text
 //! event t_ms=<u64> kind=fault sensor=<sensor> class=<name>
 //! event t_ms=<u64> kind=events_lost count=<u16>
-//! event t_ms=<u64> kind=stage from=<stage> to=<stage>
+//! event t_ms=<u64> kind=level from=<level> to=<level>
 //! ```
 //!
 //! * `t_ms`: milliseconds since the log's first record (the replay's clock,
 //!   [`crate::model::replay`]); the firmware prints its station clock, which is the
 //!   log's `t_ms` column, so the two agree for a log that starts at 0 ms.
-//! * stage names: [`AlertLevel::name`] (`clear`, `watch`, `park_now`, `alarm`,
+//! * level names: [`AlertLevel::name`] (`clear`, `watch`, `park_now`, `alarm`,
 //!   `sensor_fault`), as the firmware's guard adapter prints them.
 //! * fault names: the sensor (`Sensor::code`: `accel`, `wind_speed`,
 //!   `wind_direction`, `pose`, `cover`, `air`, `clock`, `model`) and the
 //!   [`Fault`] variant in snake case, as the firmware's
 //!   `guard_adapter::fault_names`.
-//! * a guard starts in `sensor_fault`: no stage line before its first change
+//! * a guard starts in `sensor_fault`: no level line before its first change
 //!   from there (the firmware's `Replay::guard_events` starts from the same
-//!   stage).
-//! * order: by time; at one time the faults come before the stage change
-//!   (the firmware prints a step's raised faults, then its stage change).
+//!   level).
+//! * order: by time; at one time the faults come before the level change
+//!   (the firmware prints a step's raised faults, then its level change).
 //!
 //! Only the first rig of a report is written, and only the kept events
 //! ([`crate::model::replay::MAX_KEPT_EVENTS`]); [`lines`] says so in an error when
@@ -60,33 +60,33 @@ fn ms_of(t_s: f64) -> u64 {
     }
 }
 
-fn stage_line(t_ms: u64, from: AlertLevel, to: AlertLevel) -> String {
+fn level_line(t_ms: u64, from: AlertLevel, to: AlertLevel) -> String {
     format!(
-        "event t_ms={t_ms} kind=stage from={} to={}",
+        "event t_ms={t_ms} kind=level from={} to={}",
         from.name(),
         to.name()
     )
 }
 
 /// The event lines of one rig's replay, in time order (faults before the
-/// stage change at one time).
+/// level change at one time).
 ///
 /// # Errors
-/// [`Error::Input`] when the replay kept only part of its stage changes or
+/// [`Error::Input`] when the replay kept only part of its level changes or
 /// faults: a shortened list would compare equal to the wrong thing.
 pub fn rig_lines(rig: &RigReplay) -> Result<Vec<String>, Error> {
-    if rig.stage_changes_not_kept > 0 || rig.faults_not_kept > 0 {
+    if rig.level_changes_not_kept > 0 || rig.faults_not_kept > 0 {
         return Err(Error::Input(InputError {
             at: None,
             key: None,
             value: None,
             problem: format!(
-                "{}: {} stage changes and {} faults were not kept; event lines need them all",
-                rig.rig_file, rig.stage_changes_not_kept, rig.faults_not_kept
+                "{}: {} level changes and {} faults were not kept; event lines need them all",
+                rig.rig_file, rig.level_changes_not_kept, rig.faults_not_kept
             ),
         }));
     }
-    // (time, 0 for a fault and 1 for a stage change, sequence) sorts stably.
+    // (time, 0 for a fault and 1 for a level change, sequence) sorts stably.
     let mut keyed: Vec<(u64, u8, usize, String)> = Vec::new();
     for (i, f) in rig.faults.iter().enumerate() {
         let (sensor, class) = fault_names(&f.kind);
@@ -98,12 +98,12 @@ pub fn rig_lines(rig: &RigReplay) -> Result<Vec<String>, Error> {
             format!("event t_ms={t} kind=fault sensor={sensor} class={class}"),
         ));
     }
-    for (i, c) in rig.stage_changes.iter().enumerate() {
+    for (i, c) in rig.level_changes.iter().enumerate() {
         let t = ms_of(c.t_s);
-        keyed.push((t, 1, i, stage_line(t, c.from, c.to)));
+        keyed.push((t, 1, i, level_line(t, c.from, c.to)));
     }
     // The firmware prints a step's lost-event count after its faults and
-    // before its stage change; 0 sorts first among equals, so key it 0 with a
+    // before its level change; 0 sorts first among equals, so key it 0 with a
     // sequence after every fault.
     for (i, (t_s, n)) in rig.events_lost_at.iter().enumerate() {
         let t = ms_of(*t_s);

@@ -136,7 +136,7 @@ pub fn title(story: &RigStory, clock: Option<&Clock>, several: bool, end_s: f64)
 
 /// The items of a rig's headline, in the story's order, with the text's
 /// caps ([`MAX_TOLD_REQUESTS`], [`MAX_TOLD_FAULTS`]) and a last line with
-/// the final stage.
+/// the final level.
 #[must_use]
 pub fn items(story: &RigStory, clock: Option<&Clock>, end_s: f64) -> Vec<Item> {
     let mut out = Vec::new();
@@ -200,9 +200,9 @@ pub fn items(story: &RigStory, clock: Option<&Clock>, end_s: f64) -> Vec<Item> {
     }
     out.push(Item {
         head: format!(
-            "{} end of the log: stage {}.",
+            "{} end of the log: level {}.",
             when(clock, end_s),
-            story.final_stage.name()
+            story.final_level.name()
         ),
         details: Vec::new(),
     });
@@ -374,14 +374,14 @@ fn cover_words(c: Option<bool>) -> &'static str {
 /// The conditions of an approach, in words.
 fn conditions(a: &Approach) -> String {
     format!(
-        "gust {} from {}, cover {}, {}, tilt {}, tip wind {}, stage {}",
+        "gust {} from {}, cover {}, {}, tilt {}, tip wind {}, level {}",
         opt(a.figures.gust_mps, "m/s", 1),
         deg(a.figures.wind_from_deg.map(|d| d.rem_euclid(360.0)), 0),
         cover_words(a.cover_fitted),
         pose_words(&a.pose),
         deg(a.figures.tilt_deg, 2),
         opt(a.figures.tip_wind_mps, "m/s", 1),
-        a.stage.name(),
+        a.level.name(),
     )
 }
 

@@ -1,28 +1,28 @@
 //! The pieces the replay report's single-rig part ([`super::report`]) and
-//! its what-if part ([`super::whatif`]) share: stage colours, chart points
+//! its what-if part ([`super::whatif`]) share: level colours, chart points
 //! from a series, the time axis, the numbered events, the cover band, the
-//! pose track and the stage tables.
+//! pose track and the level tables.
 
 use standfast::guard::AlertLevel;
 
-use crate::model::replay::{ReplayReport, RigReplay, STAGES};
+use crate::model::replay::{ReplayReport, RigReplay, LEVELS};
 use crate::model::series::{self as series, Series};
 use crate::render::clock::Clock;
 use crate::render::html::Page;
 use crate::render::palette;
 use crate::render::svg::{Line, LineChart, Mark, Span, Stroke};
 
-/// The report's colour of each stage ([`palette::STAGE`], in [`STAGES`]
+/// The report's colour of each level ([`palette::LEVEL`], in [`LEVELS`]
 /// order).
-pub(super) fn stage_colour(s: AlertLevel) -> &'static str {
-    palette::STAGE
-        .get(stage_cat(s))
+pub(super) fn level_colour(s: AlertLevel) -> &'static str {
+    palette::LEVEL
+        .get(level_cat(s))
         .copied()
         .unwrap_or(palette::INK)
 }
 
-pub(super) fn stage_cat(s: AlertLevel) -> usize {
-    STAGES.iter().position(|x| *x == s).unwrap_or(0)
+pub(super) fn level_cat(s: AlertLevel) -> usize {
+    LEVELS.iter().position(|x| *x == s).unwrap_or(0)
 }
 
 /// The chart points of one figure of the series, scaled by `k`: one per
@@ -68,7 +68,7 @@ pub(super) fn with_gaps(
     pts
 }
 
-/// One event of a rig (a stage change or a fault) for the charts and the
+/// One event of a rig (a level change or a fault) for the charts and the
 /// event table: its number is its place in time order, from 1.
 pub(super) struct NightEvent {
     pub(super) t_s: f64,
@@ -79,20 +79,20 @@ pub(super) struct NightEvent {
 
 pub(super) fn night_events(r: &RigReplay) -> Vec<NightEvent> {
     let mut m: Vec<NightEvent> = r
-        .stage_changes
+        .level_changes
         .iter()
         .map(|c| NightEvent {
             t_s: c.t_s,
             utc: c.time.clone(),
             what: format!("{} → {} ({})", c.from.name(), c.to.name(), c.cause),
-            colour: stage_colour(c.to),
+            colour: level_colour(c.to),
         })
         .collect();
     m.extend(r.faults.iter().map(|f| NightEvent {
         t_s: f.t_s,
         utc: f.time.clone(),
         what: format!("fault: {}", f.fault),
-        colour: stage_colour(AlertLevel::SensorFault),
+        colour: level_colour(AlertLevel::SensorFault),
     }));
     m.sort_by(|a, b| a.t_s.total_cmp(&b.t_s));
     m
@@ -111,14 +111,14 @@ pub(super) fn event_marks(events: &[NightEvent]) -> Vec<Mark> {
         .collect()
 }
 
-pub(super) fn stage_spans(s: &Series) -> Vec<Span> {
+pub(super) fn level_spans(s: &Series) -> Vec<Span> {
     let mut out: Vec<Span> = Vec::new();
     for (i, p) in s.points.iter().enumerate() {
         let end = s
             .points
             .get(i + 1)
             .map_or(p.t_last_s.max(p.t_start_s + s.width_s), |q| q.t_start_s);
-        let cat = stage_cat(p.stage);
+        let cat = level_cat(p.level);
         match out.last_mut() {
             Some(l) if l.cat == cat && (l.t1 - p.t_start_s).abs() < 1e-9 => l.t1 = end,
             _ => out.push(Span {
@@ -258,24 +258,24 @@ pub(super) fn pose_chart(
     );
 }
 
-/// Time per stage (h:mm:ss), stage changes and sensor faults, as tables;
+/// Time per level (h:mm:ss), level changes and sensor faults, as tables;
 /// each change and fault at its local date and time with the zone (the
 /// offset the logs carry, or the replay's `--utc-offset`), then in ISO 8601
 /// UTC as the replay recorded it.
-pub(super) fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
+pub(super) fn level_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
     let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
     let local = |t_s: f64| {
         clock
             .as_ref()
             .map_or_else(|| "-".to_owned(), |c| c.local_datetime_text(t_s))
     };
-    page.h3("Time per stage");
+    page.h3("Time per level");
     let rows: Vec<Vec<String>> = r
-        .stage_time
+        .level_time
         .iter()
         .map(|t| {
             vec![
-                t.stage.name().to_owned(),
+                t.level.name().to_owned(),
                 crate::render::headline::hms(t.seconds),
                 format!(
                     "{:.1} %",
@@ -288,10 +288,10 @@ pub(super) fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
             ]
         })
         .collect();
-    page.table(&["stage", "time (h:mm:ss)", "share"], &rows);
-    page.h3(&format!("Stage changes ({})", r.stage_changes.len()));
+    page.table(&["level", "time (h:mm:ss)", "share"], &rows);
+    page.h3(&format!("Level changes ({})", r.level_changes.len()));
     let rows: Vec<Vec<String>> = r
-        .stage_changes
+        .level_changes
         .iter()
         .map(|c| {
             vec![
@@ -304,10 +304,10 @@ pub(super) fn stage_tables(page: &mut Page, rep: &ReplayReport, r: &RigReplay) {
         })
         .collect();
     page.table(&["local time", "UTC", "from", "to", "cause"], &rows);
-    if r.stage_changes_not_kept > 0 {
+    if r.level_changes_not_kept > 0 {
         page.note(&format!(
             "… and {} more not kept.",
-            r.stage_changes_not_kept
+            r.level_changes_not_kept
         ));
     }
     page.h3(&format!("Sensor faults ({})", r.faults.len()));

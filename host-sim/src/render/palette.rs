@@ -4,7 +4,7 @@
 //! Two sets are used side by side on one chart: the [`SERIES`] colours for
 //! lines (never more than these five on one chart; threshold lines are
 //! [`INK`] with their own dash pattern and a written label), and the
-//! [`STAGE`] colours for the guard's stages (the stage band and the event
+//! [`LEVEL`] colours for the guard's levels (the level band and the event
 //! markers). The tests simulate deuteranopia and protanopia (full severity)
 //! and check that within each set every pair stays at least
 //! [`MIN_DISTANCE_DE76`] apart in CIELAB (CIE 1976 colour difference).
@@ -23,9 +23,9 @@ pub const PALE_BLUE: &str = "#a9cdee";
 /// The line colours, in the order charts take them.
 pub const SERIES: [&str; 5] = [BLUE, PINK, AMBER, INK, PALE_BLUE];
 
-/// Stage colours in the replay's stage order (clear, watch, park now,
+/// Level colours in the replay's level order (clear, watch, park now,
 /// alarm, sensor fault): pale green, yellow, rust, dark wine, violet blue.
-pub const STAGE: [&str; 5] = ["#cfe6d4", "#e6c13f", "#b8641c", "#6e1430", "#5465c4"];
+pub const LEVEL: [&str; 5] = ["#cfe6d4", "#e6c13f", "#b8641c", "#6e1430", "#5465c4"];
 
 /// Least CIE 1976 colour difference (ΔE*ab) between two colours of one set,
 /// for normal vision and under the simulated deficiencies. About 2.3 is a
@@ -170,7 +170,7 @@ mod tests {
 
     #[test]
     fn each_set_stays_apart_for_colour_blind_readers() {
-        for (name, set) in [("series", &SERIES[..]), ("stage", &STAGE[..])] {
+        for (name, set) in [("series", &SERIES[..]), ("level", &LEVEL[..])] {
             for (vision, m) in [
                 ("normal", &NORMAL),
                 ("deuteranopia", &DEUTERANOPIA),
@@ -192,7 +192,7 @@ mod tests {
         let old = [
             "#2b6cb0", "#c05621", "#2f855a", "#6b46c1", "#4a5568", "#d69e2e",
         ];
-        for c in SERIES.iter().chain(STAGE.iter()) {
+        for c in SERIES.iter().chain(LEVEL.iter()) {
             assert!(!old.contains(c), "{c}");
         }
     }

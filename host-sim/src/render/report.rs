@@ -19,13 +19,13 @@ use crate::cautions::CAUTIONS;
 use crate::error::Error;
 use crate::model::assess::{pose_words, AssessReport};
 use crate::model::charts::{AssessCharts, RigCharts, POLAR_STEP_DEG};
-use crate::model::replay::{Approach, ReplayReport, RigReplay, STAGES};
+use crate::model::replay::{Approach, ReplayReport, RigReplay, LEVELS};
 use crate::model::series::{self as series, Series};
 use crate::render::clock::Clock;
 use crate::render::headline::{hms, thousands};
 use crate::render::html::Page;
 use crate::render::night::{
-    cover_spans, line, night_events, points, pose_chart, stage_colour, stage_spans, stage_tables,
+    cover_spans, level_colour, level_spans, level_tables, line, night_events, points, pose_chart,
     with_gaps, Axis, NightEvent, COVER_CATS,
 };
 use crate::render::palette;
@@ -67,7 +67,7 @@ fn approach_row(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> Vec
         pose_words(&a.pose),
         opt(a.figures.tilt_deg, "°", 2),
         opt(a.figures.tip_wind_mps, "m/s", 1),
-        a.stage.name().to_owned(),
+        a.level.name().to_owned(),
     ]
 }
 
@@ -83,13 +83,13 @@ fn duration_words(s: f64) -> String {
 }
 
 /// One rig's section of the replay report: closest approaches, charts,
-/// the numbered events, stage times, stage changes and faults.
+/// the numbered events, level times, level changes and faults.
 fn rig_section(page: &mut Page, rep: &ReplayReport, r: &RigReplay, charts: Option<&RigCharts>) {
     page.h2(&format!("Rig {}", r.rig_file));
     page.p(&format!(
-        "Highest stage {}, final stage {}.",
-        r.highest_stage.name(),
-        r.final_stage.name()
+        "Highest level {}, final level {}.",
+        r.highest_level.name(),
+        r.final_level.name()
     ));
     let events = night_events(r);
     let axis = Axis::of(rep, r, &events);
@@ -118,7 +118,7 @@ fn rig_section(page: &mut Page, rep: &ReplayReport, r: &RigReplay, charts: Optio
             "pose",
             "tilt",
             "tip wind",
-            "stage",
+            "level",
         ],
         &rows,
     );
@@ -145,11 +145,11 @@ fn rig_section(page: &mut Page, rep: &ReplayReport, r: &RigReplay, charts: Optio
         &format!("Tilt of the rig from the vertical. {}", axis.bucket),
     );
     polar_chart(page, r, charts);
-    stage_tables(page, rep, r);
+    level_tables(page, rep, r);
 }
 
 /// (a) Utilisation over time with the guard's thresholds and the numbered
-/// events, and the stage timeline.
+/// events, and the level timeline.
 fn utilisation_charts(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>, axis: &Axis) {
     let s = &r.series;
     let mut u = axis.chart("Utilisation over time", "utilisation (% of the limit)");
@@ -184,20 +184,20 @@ fn utilisation_charts(page: &mut Page, r: &RigReplay, charts: Option<&RigCharts>
         &u.to_svg(),
         &format!("Overturning, predicted and sliding utilisation in % of the limit (100 %: the rig tips or slides) with the guard's watch, park and alarm thresholds (dashed) and the numbered events (vertical lines; the table below names them). {}{}", axis.bucket, axis.zone_note),
     );
-    let cats: Vec<(&str, &str)> = STAGES
+    let cats: Vec<(&str, &str)> = LEVELS
         .iter()
-        .map(|st| (st.name(), stage_colour(*st)))
+        .map(|st| (st.name(), level_colour(*st)))
         .collect();
     page.figure(
         &svg::timeline(
-            "Stage over time",
+            "Level over time",
             axis.x_range,
-            &stage_spans(s),
+            &level_spans(s),
             &cats,
             axis.clock.as_ref(),
             &axis.x_label,
         ),
-        "The guard's stage; each interval shows its most severe stage.",
+        "The guard's level; each interval shows its most severe level.",
     );
 }
 

@@ -34,9 +34,9 @@ fn pose_text(p: &Pose) -> String {
 
 /// Seconds the rig spent at `level`.
 fn seconds_in(r: &RigReplay, level: AlertLevel) -> f64 {
-    r.stage_time
+    r.level_time
         .iter()
-        .filter(|t| t.stage == level)
+        .filter(|t| t.level == level)
         .map(|t| t.seconds)
         .sum()
 }
@@ -52,7 +52,7 @@ fn highest_physics(r: &RigReplay) -> Option<AlertLevel> {
         AlertLevel::Clear,
     ]
     .into_iter()
-    .find(|l| seconds_in(r, *l) > 0.0 || r.final_stage == *l)
+    .find(|l| seconds_in(r, *l) > 0.0 || r.final_level == *l)
 }
 
 fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
@@ -71,7 +71,7 @@ fn approach_text(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> St
         return format!("  {label}: no figure (no wind, tilt or pose data)\n");
     };
     format!(
-        "  {label}: {:.0} % at {}, gust {}, from {}, {}, tilt {}, tip wind {}, stage {}\n",
+        "  {label}: {:.0} % at {}, gust {}, from {}, {}, tilt {}, tip wind {}, level {}\n",
         a.utilisation * 100.0,
         at_text(clock, a.t_s),
         num(a.figures.gust_mps, "m/s", 1),
@@ -79,7 +79,7 @@ fn approach_text(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> St
         pose_text(&a.pose),
         num(a.figures.tilt_deg, "°", 2),
         num(a.figures.tip_wind_mps, "m/s", 1),
-        a.stage.name(),
+        a.level.name(),
     )
 }
 
@@ -117,7 +117,7 @@ pub fn cautions_text() -> String {
 }
 
 /// What the replay found, as text: records, log issues and each rig's
-/// closest approaches, stage times, stage changes and faults.
+/// closest approaches, level times, level changes and faults.
 #[must_use]
 pub fn findings_text(rep: &ReplayReport) -> String {
     let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
@@ -148,13 +148,13 @@ pub fn findings_text(rep: &ReplayReport) -> String {
     for r in &rep.rigs {
         s.push_str(&format!("\nRig {}\n", r.rig_file));
         s.push_str(&format!(
-            "  highest stage {}, final stage {}\n",
-            r.highest_stage.name(),
-            r.final_stage.name()
+            "  highest level {}, final level {}\n",
+            r.highest_level.name(),
+            r.final_level.name()
         ));
-        if r.highest_stage == AlertLevel::SensorFault {
+        if r.highest_level == AlertLevel::SensorFault {
             s.push_str(&format!(
-                "  highest stage from the physics {}; {} in sensor_fault in all, the start-up included (the headline says how long the rig went unwatched)\n",
+                "  highest level from the physics {}; {} in sensor_fault in all, the start-up included (the headline says how long the rig went unwatched)\n",
                 highest_physics(r).map_or("none (the guard never judged the rig)", AlertLevel::name),
                 hms(seconds_in(r, AlertLevel::SensorFault)),
             ));
@@ -171,12 +171,12 @@ pub fn findings_text(rep: &ReplayReport) -> String {
                 ));
             }
         }
-        s.push_str("Time per stage (h:mm:ss):\n");
-        for t in &r.stage_time {
-            s.push_str(&format!("  {:<13}{:>9}\n", t.stage.name(), hms(t.seconds)));
+        s.push_str("Time per level (h:mm:ss):\n");
+        for t in &r.level_time {
+            s.push_str(&format!("  {:<13}{:>9}\n", t.level.name(), hms(t.seconds)));
         }
-        s.push_str(&format!("Stage changes ({}):\n", r.stage_changes.len()));
-        for c in &r.stage_changes {
+        s.push_str(&format!("Level changes ({}):\n", r.level_changes.len()));
+        for c in &r.level_changes {
             s.push_str(&format!(
                 "  {}: {} -> {} ({})\n",
                 at_text(ck, c.t_s),
@@ -185,8 +185,8 @@ pub fn findings_text(rep: &ReplayReport) -> String {
                 c.cause
             ));
         }
-        if r.stage_changes_not_kept > 0 {
-            s.push_str(&format!("  ... and {} more\n", r.stage_changes_not_kept));
+        if r.level_changes_not_kept > 0 {
+            s.push_str(&format!("  ... and {} more\n", r.level_changes_not_kept));
         }
         s.push_str(&format!("Sensor faults ({}):\n", r.faults.len()));
         for f in &r.faults {

@@ -638,8 +638,8 @@ impl LineChart {
                 .iter()
                 .map(ToString::to_string)
                 .collect();
-            // The number in ink (pale stage colours would not read); the line
-            // carries the stage colour.
+            // The number in ink (pale level colours would not read); the line
+            // carries the level colour.
             let _ = write!(
                 *s,
                 r#"<text class="mark-label" data-events="{}" x="{}" y="{}" fill="{}">{}</text>"#,

@@ -12,7 +12,7 @@ use crate::input::log::Timestamp;
 use crate::model::figures::Figures;
 
 /// The verdict CSV's header line (with its line break).
-pub const VERDICT_HEADER: &str = "time,t_s,rig,stage,overturning_utilisation,predicted_utilisation,sliding_utilisation,drive1_utilisation,drive2_utilisation,tip_wind_mps,gust_mps,predicted_gust_mps,wind_from_deg,tilt_deg,tilt_margin_deg,faults,cover,pose_frame,pose_a_deg,pose_b_deg,pier_side\n";
+pub const VERDICT_HEADER: &str = "time,t_s,rig,level,overturning_utilisation,predicted_utilisation,sliding_utilisation,drive1_utilisation,drive2_utilisation,tip_wind_mps,gust_mps,predicted_gust_mps,wind_from_deg,tilt_deg,tilt_margin_deg,faults,cover,pose_frame,pose_a_deg,pose_b_deg,pier_side\n";
 
 fn opt(v: Option<f32>) -> String {
     v.map_or_else(String::new, |x| format!("{x:.4}"))

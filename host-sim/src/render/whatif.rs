@@ -2,18 +2,18 @@
 //! ([`Comparison`]) as text, which the summary puts before its cautions,
 //! and the HTML report's what-if part ([`html_sections`]): the same table,
 //! then one set of charts with the rigs overlaid, each rig in its own
-//! colour and line pattern ([`rig_style`]), then each rig's stage changes
+//! colour and line pattern ([`rig_style`]), then each rig's level changes
 //! and faults.
 
 use crate::model::charts::{RigCharts, POLAR_STEP_DEG};
-use crate::model::replay::{ReplayReport, RigReplay, STAGES};
+use crate::model::replay::{ReplayReport, RigReplay, LEVELS};
 use crate::model::series::Series;
 use crate::model::whatif::{compare, Comparison};
 use crate::render::clock::Clock;
 use crate::render::headline::hms;
 use crate::render::html::Page;
 use crate::render::night::{
-    cover_spans, line, points, pose_chart, stage_colour, stage_spans, stage_tables, Axis,
+    cover_spans, level_colour, level_spans, level_tables, line, points, pose_chart, Axis,
     COVER_CATS,
 };
 use crate::render::palette;
@@ -130,10 +130,10 @@ pub fn comparison_rows(
             cmp.rigs.iter().map(|r| pct(r.drive(1))).collect(),
         ),
         (
-            "highest stage",
+            "highest level",
             cmp.rigs
                 .iter()
-                .map(|r| r.highest_stage.name().to_owned())
+                .map(|r| r.highest_level.name().to_owned())
                 .collect(),
         ),
         (
@@ -167,10 +167,10 @@ pub fn comparison_rows(
             cmp.rigs.iter().map(|r| hms(r.sensor_fault_s)).collect(),
         ),
         (
-            "stage changes",
+            "level changes",
             cmp.rigs
                 .iter()
-                .map(|r| r.stage_changes.to_string())
+                .map(|r| r.level_changes.to_string())
                 .collect(),
         ),
     ]
@@ -256,7 +256,7 @@ fn threshold_lines(cmp: &Comparison, charts: &[RigCharts]) -> Vec<HLine> {
 
 /// The what-if part of the replay report (two or more rigs): the key of
 /// the rigs, the side-by-side table (the text summary's rows), the charts
-/// with the rigs overlaid, and each rig's stage changes and faults. `charts`
+/// with the rigs overlaid, and each rig's level changes and faults. `charts`
 /// are the rigs' chart data in the report's order.
 pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) {
     let Some(first) = rep.rigs.first() else {
@@ -341,11 +341,11 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
             axis.bucket
         ),
     );
-    let cats: Vec<(&str, &str)> = STAGES
+    let cats: Vec<(&str, &str)> = LEVELS
         .iter()
-        .map(|st| (st.name(), stage_colour(*st)))
+        .map(|st| (st.name(), level_colour(*st)))
         .collect();
-    let spans: Vec<Vec<Span>> = rep.rigs.iter().map(|r| stage_spans(&r.series)).collect();
+    let spans: Vec<Vec<Span>> = rep.rigs.iter().map(|r| level_spans(&r.series)).collect();
     let rows: Vec<(&str, &[Span])> = cmp
         .rigs
         .iter()
@@ -354,14 +354,14 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         .collect();
     page.figure(
         &svg::timeline_rows(
-            "Stage over time",
+            "Level over time",
             axis.x_range,
             &rows,
             &cats,
             ck,
             &axis.x_label,
         ),
-        "Each rig's guard stage, one row per rig; each interval shows its most severe stage.",
+        "Each rig's guard level, one row per rig; each interval shows its most severe level.",
     );
     wind_chart(page, rep, &cmp, charts, &axis);
     page.figure(
@@ -380,11 +380,11 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
     for (r, l) in rep.rigs.iter().zip(&cmp.rigs) {
         page.h2(&format!("Rig {}: {}", l.column, r.rig_file));
         page.p(&format!(
-            "Highest stage {}, final stage {}.",
-            r.highest_stage.name(),
-            r.final_stage.name()
+            "Highest level {}, final level {}.",
+            r.highest_level.name(),
+            r.final_level.name()
         ));
-        stage_tables(page, rep, r);
+        level_tables(page, rep, r);
     }
 }
 

@@ -1692,7 +1692,7 @@ fn bridge_cases() -> Vec<Case> {
             &[
                 "time jumps",
                 "at most 3600 s ahead",
-                "{\"line\":3,\"t_ms\":1000,\"stage\"",
+                "{\"line\":3,\"t_ms\":1000,\"level\"",
             ],
         ),
         bridge(

@@ -189,7 +189,7 @@ fn bridge_checks_ranges_and_holds_the_pose() {
     assert_eq!(answer(6, "   "), Answer::Nothing);
 }
 
-/// The stage a guard on the demo rig is in at `t_ms` when samples with
+/// The level a guard on the demo rig is in at `t_ms` when samples with
 /// wind, direction and a level accelerometer arrive from t = 0 on, every
 /// 250 or 500 ms, in a light wind that calls for `clear`. Derived from the
 /// guard's rules and the demo rig's settings (host-sim/demo/rig.toml: one
@@ -200,7 +200,7 @@ fn bridge_checks_ranges_and_holds_the_pose() {
 /// healthy from then, the fault clears at 63 000 ms, to no lower than
 /// watch; the figures have been settled below watch since 3000 ms, longer
 /// than the dwell, so the next step is clear.
-fn start_stage(t_ms: u64, step_ms: u64) -> &'static str {
+fn start_level(t_ms: u64, step_ms: u64) -> &'static str {
     match t_ms {
         t if t < 63_000 => "sensor_fault",
         63_000 => "watch",
@@ -211,7 +211,7 @@ fn start_stage(t_ms: u64, step_ms: u64) -> &'static str {
 
 #[test]
 fn the_bridge_answers_every_line_with_one_json_line() {
-    // 65 s of samples: past the guard's start (`start_stage`).
+    // 65 s of samples: past the guard's start (`start_level`).
     let n = 260;
     let out = bridge(&[], &windy(n), &[]);
     assert_eq!(out.status.code(), Some(0));
@@ -221,10 +221,10 @@ fn the_bridge_answers_every_line_with_one_json_line() {
         assert_eq!(l["line"], u64::try_from(i).unwrap() + 1);
         let t = u64::try_from(i).unwrap() * 250;
         assert_eq!(l["t_ms"], t);
-        assert!(l["stage"].is_string() && l["faults"].is_array(), "{l}");
-        assert_eq!(l["stage"], start_stage(t, 250), "{l}");
+        assert!(l["level"].is_string() && l["faults"].is_array(), "{l}");
+        assert_eq!(l["level"], start_level(t, 250), "{l}");
         // A guard that cannot see asks for park and alarm.
-        let blind = l["stage"] == "sensor_fault";
+        let blind = l["level"] == "sensor_fault";
         assert_eq!(l["park_requested"], blind, "{l}");
         assert_eq!(l["alarm"], blind, "{l}");
     }
@@ -236,7 +236,7 @@ fn the_bridge_answers_every_line_with_one_json_line() {
         "wind speed sensor: no usable reading yet"
     );
     let last = v.last().unwrap();
-    assert_eq!(last["stage"], "clear", "{last}");
+    assert_eq!(last["level"], "clear", "{last}");
     assert_eq!(last["park_requested"], false);
     // A defined wind direction passes through unchanged (degrees in and out).
     assert!((last["wind_from_deg"].as_f64().unwrap() - 265.0).abs() < 1e-3);
@@ -300,7 +300,7 @@ fn a_bad_line_gets_an_error_line_and_the_stream_goes_on() {
     assert_eq!(v[3]["line"], 4);
     assert!(v[3]["error"].is_string());
     for i in [0, 1, 4, 5] {
-        assert!(v[i]["stage"].is_string(), "{}", v[i]);
+        assert!(v[i]["level"].is_string(), "{}", v[i]);
         assert!(v[i].get("error").is_none());
     }
     let err = String::from_utf8(out.stderr).unwrap();
@@ -349,7 +349,7 @@ fn sample_500ms(i: u64, wind: bool) -> String {
 }
 
 /// Lines 0 to 128 (0 to 64 000 ms): light wind, the guard's warm-up; it is
-/// `clear` from 63 500 ms (`start_stage`). Then lines 129 to 168 (64 500 to
+/// `clear` from 63 500 ms (`start_level`). Then lines 129 to 168 (64 500 to
 /// 84 000 ms): the accelerometer alone, the anemometer silent for 20 s. The
 /// demo rig sets `wind_stale = "15 s"` (host-sim/demo/rig.toml): the last
 /// wind sample at 64 000 ms is stale once more than 15 s old, at the first
@@ -366,12 +366,12 @@ fn a_silent_anemometer_becomes_a_sensor_fault_with_park_and_alarm() {
     for l in &v {
         let t = l["t_ms"].as_u64().unwrap();
         if t < 63_500 {
-            assert_eq!(l["stage"], start_stage(t, 500), "{l}");
+            assert_eq!(l["level"], start_level(t, 500), "{l}");
         } else if t <= 79_000 {
-            assert_eq!(l["stage"], "clear", "{l}");
+            assert_eq!(l["level"], "clear", "{l}");
             assert_eq!(l["alarm"], false);
         } else {
-            assert_eq!(l["stage"], "sensor_fault", "{l}");
+            assert_eq!(l["level"], "sensor_fault", "{l}");
             assert_eq!(l["park_requested"], true);
             assert_eq!(l["alarm"], true);
             let faults = l["faults"].as_array().unwrap();
@@ -386,31 +386,31 @@ fn a_silent_anemometer_becomes_a_sensor_fault_with_park_and_alarm() {
     }
     let first = v
         .iter()
-        .find(|l| l["stage"] == "sensor_fault" && l["t_ms"].as_u64().unwrap() > 63_000)
+        .find(|l| l["level"] == "sensor_fault" && l["t_ms"].as_u64().unwrap() > 63_000)
         .unwrap();
     assert_eq!(first["t_ms"], 79_500);
     let changed = first["events"]
         .as_array()
         .unwrap()
         .iter()
-        .find(|e| e["kind"] == "stage_changed")
+        .find(|e| e["kind"] == "level_changed")
         .unwrap();
     assert_eq!(changed["from"], "clear");
     assert_eq!(changed["cause"], "sensor_fault");
 }
 
 #[test]
-fn on_change_runs_the_command_with_the_stage_names() {
+fn on_change_runs_the_command_with_the_level_names() {
     let dir = tempfile::tempdir().unwrap();
     let file = dir.path().join("changes.txt");
     // The warm-up, wind silent for 20 s (sensor fault), then back for 65 s,
     // beyond the guard's default 60 s fault-clear time
-    // (core/src/guard/config.rs), so the stage steps down again.
+    // (core/src/guard/config.rs), so the level steps down again.
     let mut input = silent_wind();
     for i in 169..=299 {
         input.push_str(&sample_500ms(i, true));
     }
-    let cmd = r#"echo "$STANDFAST_PREVIOUS_STAGE>$STANDFAST_STAGE $STANDFAST_CAUSE $STANDFAST_T_MS" >> "$CHANGES_FILE""#;
+    let cmd = r#"echo "$STANDFAST_PREVIOUS_LEVEL>$STANDFAST_LEVEL $STANDFAST_CAUSE $STANDFAST_T_MS" >> "$CHANGES_FILE""#;
     let out = bridge(&["--on-change", cmd], &input, &[("CHANGES_FILE", &file)]);
     assert_eq!(
         out.status.code(),
@@ -420,7 +420,7 @@ fn on_change_runs_the_command_with_the_stage_names() {
     );
     let v = lines(&out);
     assert_eq!(v.len(), 300);
-    // Every stage change in the verdict stream, in order, as the command
+    // Every level change in the verdict stream, in order, as the command
     // should have written it.
     let expected: Vec<String> = v
         .iter()
@@ -429,7 +429,7 @@ fn on_change_runs_the_command_with_the_stage_names() {
                 .as_array()
                 .unwrap()
                 .iter()
-                .filter(|e| e["kind"] == "stage_changed")
+                .filter(|e| e["kind"] == "level_changed")
                 .map(|e| {
                     format!(
                         "{}>{} {} {}",
@@ -442,7 +442,7 @@ fn on_change_runs_the_command_with_the_stage_names() {
                 .collect::<Vec<_>>()
         })
         .collect();
-    // The start (`start_stage`) and the silence (`silent_wind`); the wind
+    // The start (`start_level`) and the silence (`silent_wind`); the wind
     // is back at 84 500 ms, which ends the stale faults; healthy from then,
     // the fault clears 60 s later, at 144 500 ms, to no lower than watch;
     // settled since 84 500 ms (a fault restarts the settled timers), past
@@ -474,7 +474,7 @@ fn on_change_runs_the_command_with_the_stage_names() {
 
 #[test]
 fn a_command_that_cannot_run_is_reported_and_the_stream_goes_on() {
-    // Three stage changes (63 000, 63 500 and 79 500 ms: `silent_wind`).
+    // Three level changes (63 000, 63 500 and 79 500 ms: `silent_wind`).
     let out = bridge(&["--on-change", "exit 7"], &silent_wind(), &[]);
     assert_eq!(out.status.code(), Some(0));
     assert_eq!(lines(&out).len(), 169);
@@ -494,14 +494,14 @@ fn the_wall_clock_needs_no_sample_time() {
     );
     let v = lines(&out);
     assert_eq!(v.len(), 2);
-    assert!(v.iter().all(|l| l["stage"].is_string()), "{v:?}");
+    assert!(v.iter().all(|l| l["level"].is_string()), "{v:?}");
     assert!(v[0]["t_ms"].as_u64().unwrap() <= v[1]["t_ms"].as_u64().unwrap());
 }
 
 #[test]
 fn an_alarm_latches_until_a_line_acknowledges_it() {
     // A line a second. 65 s of light air: the guard's warm-up, clear from
-    // 64 000 ms (`start_stage` with 1000 ms steps). Then 10 s of a 30 m/s
+    // 64 000 ms (`start_level` with 1000 ms steps). Then 10 s of a 30 m/s
     // storm, far beyond the demo rig's alarm threshold (its tip wind in the
     // home pose is near 23 m/s, well below), then 990 s of light air:
     // beyond the 10-minute peak-gust window and the rig's 30 s dwell, so
@@ -529,9 +529,9 @@ fn an_alarm_latches_until_a_line_acknowledges_it() {
     assert_eq!(v.len(), warm + 1000);
     for (i, l) in v.iter().enumerate().take(warm) {
         let t = u64::try_from(i).unwrap() * 1000;
-        assert_eq!(l["stage"], start_stage(t, 1000), "{l}");
+        assert_eq!(l["level"], start_level(t, 1000), "{l}");
     }
-    let first_alarm = v.iter().position(|l| l["stage"] == "alarm").unwrap();
+    let first_alarm = v.iter().position(|l| l["level"] == "alarm").unwrap();
     assert!(
         (warm..warm + 10).contains(&first_alarm),
         "alarm in the storm"
@@ -540,16 +540,16 @@ fn an_alarm_latches_until_a_line_acknowledges_it() {
         .as_array()
         .unwrap()
         .iter()
-        .find(|e| e["kind"] == "stage_changed")
+        .find(|e| e["kind"] == "level_changed")
         .unwrap();
     assert_eq!(raised["cause"], "overturning", "{raised}");
     for l in &v[first_alarm..warm + 999] {
-        assert_eq!(l["stage"], "alarm", "{l}");
+        assert_eq!(l["level"], "alarm", "{l}");
         assert_eq!(l["park_requested"], true);
     }
     assert!(v[warm + 998]["overturning_utilisation"].as_f64().unwrap() < 0.1);
     let last = &v[warm + 999];
     assert_eq!(last["acknowledged"], true);
-    assert_ne!(last["stage"], "alarm", "{last}");
+    assert_ne!(last["level"], "alarm", "{last}");
     assert_eq!(last["alarm"], false);
 }

@@ -139,6 +139,6 @@ fn the_long_example_clears_where_the_readme_says() {
     let n = usize::try_from(doc["line"].as_u64().unwrap()).unwrap();
     matches(&doc, &verdicts[n - 1], "the clear line").unwrap();
     // And it is the first clear line.
-    let first_clear = verdicts.iter().position(|v| v["stage"] == "clear").unwrap();
+    let first_clear = verdicts.iter().position(|v| v["level"] == "clear").unwrap();
     assert_eq!(first_clear + 1, n);
 }

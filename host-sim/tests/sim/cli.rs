@@ -118,7 +118,7 @@ fn demo_replaces_only_its_own_files_unless_asked() {
     }
 }
 
-/// Issue 14: the summary's stage changes, faults and closest approaches are
+/// Issue 14: the summary's level changes, faults and closest approaches are
 /// in local wall time with the offset (here from `--utc-offset`, which
 /// overrides the logs' UTC), the HTML report's tables too, while the JSON
 /// keeps ISO 8601 UTC. The golden log's park request is at 22:19:43 UTC on

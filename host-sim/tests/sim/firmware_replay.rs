@@ -62,22 +62,22 @@ fn short_night_gives_the_firmware_guard_events() {
         // clearing time to 14 000, to the level the figures call for, at
         // least watch: park_now, by the blow of seconds 10–19
         // (15.3/16.05 m/s) at the observing pose (the level read off a run).
-        "event t_ms=14000 kind=stage from=sensor_fault to=park_now",
+        "event t_ms=14000 kind=level from=sensor_fault to=park_now",
         // Park pose reported from 20 000 ms, figures settled below
         // 0.8 × park from then (read off a run): 20 s dwell to 40 000.
-        "event t_ms=40000 kind=stage from=park_now to=watch",
+        "event t_ms=40000 kind=level from=park_now to=watch",
         // Pulses missing 60.1–71.9 s: the last wind sample at 60 000 is
         // stale (> 10 s) at the first row after 70 000.
         "event t_ms=70100 kind=fault sensor=wind_speed class=stale",
         "event t_ms=70100 kind=fault sensor=wind_direction class=stale",
-        "event t_ms=70100 kind=stage from=watch to=sensor_fault",
+        "event t_ms=70100 kind=level from=watch to=sensor_fault",
         // Wind back at 73 000 (the firmware's restarted gate), 10 s fault
         // clearing time, then no lower than watch.
-        "event t_ms=83000 kind=stage from=sensor_fault to=watch",
+        "event t_ms=83000 kind=level from=sensor_fault to=watch",
         // The storm ramp from second 90 (21.3, 24.3, 27.3 m/s) at the park
         // pose; the times were read off a run. The alarm latches.
-        "event t_ms=93000 kind=stage from=watch to=park_now",
-        "event t_ms=95000 kind=stage from=park_now to=alarm",
+        "event t_ms=93000 kind=level from=watch to=park_now",
+        "event t_ms=95000 kind=level from=park_now to=alarm",
     ];
     let want: String = expected.iter().map(|l| format!("{l}\n")).collect();
     assert_eq!(event_lines::lines(&rep).unwrap(), want);

@@ -93,7 +93,7 @@ fn demo_night_headline_says_why_and_when_the_rig_was_parked() {
     assert!(lines[fault + 2].contains("for 0:01:31"));
     // The findings below name the physics' highest level beside the fault.
     assert!(
-        text.contains("  highest stage from the physics park_now; 0:02:34 in sensor_fault in all, the start-up included"),
+        text.contains("  highest level from the physics park_now; 0:02:34 in sensor_fault in all, the start-up included"),
         "{text}"
     );
 

@@ -140,7 +140,7 @@ fn sonic_replay_gust_and_closest_approach_match_hand_figures() {
     // 3 s, the fault clears 60 s later, at 63 s, to no lower than watch;
     // settled since 3 s (beyond the dwell), the next record (63.05 s, 20 Hz)
     // is clear, which it stays to the end.
-    let changes: Vec<(f64, &str, &str, &str)> = rig["stage_changes"]
+    let changes: Vec<(f64, &str, &str, &str)> = rig["level_changes"]
         .as_array()
         .unwrap()
         .iter()
@@ -158,7 +158,7 @@ fn sonic_replay_gust_and_closest_approach_match_hand_figures() {
     let (t, from, to, cause) = changes[1];
     assert!((t - 63.05).abs() < 1e-9, "{rig}");
     assert_eq!((from, to, cause), ("watch", "clear", "settled"));
-    assert_eq!(rig["final_stage"], "clear", "{rig}");
+    assert_eq!(rig["final_level"], "clear", "{rig}");
 
     // --- Peak gust ------------------------------------------------------
     // Independent: the exact 60-sample running mean at every sample, its
@@ -247,10 +247,10 @@ fn sonic_replay_gust_and_closest_approach_match_hand_figures() {
     // against a tip wind above 20 m/s).
     assert!(u < 0.05, "{o}");
     // Nothing above clear once the guard could see, but for the one step at
-    // watch, the floor when the start-up fault clears: the highest stage once
+    // watch, the floor when the start-up fault clears: the highest level once
     // the guard had judged the rig (the start-up sensor_fault does not count).
-    assert_eq!(o["stage"], "clear", "{o}");
-    assert_eq!(rig["highest_stage"], "watch", "{rig}");
+    assert_eq!(o["level"], "clear", "{o}");
+    assert_eq!(rig["highest_level"], "watch", "{rig}");
 }
 
 /// One 10-minute record of the mast file.

@@ -9,7 +9,7 @@ use standfast::sense::{Fault, Sensor};
 use standfast_sim::commands::replay::ReplayOutputs;
 use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
 use standfast_sim::input::rigfile::{self, LoadedRig};
-use standfast_sim::model::replay::{replay, ReplayOptions, ReplayReport, StageChange};
+use standfast_sim::model::replay::{replay, LevelChange, ReplayOptions, ReplayReport};
 
 fn demo_rig() -> LoadedRig {
     rigfile::load(&Path::new(env!("CARGO_MANIFEST_DIR")).join("demo/rig.toml")).unwrap()
@@ -143,8 +143,8 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
             }
         )]
     );
-    let change = |c: &StageChange| (c.t_s, c.from, c.to, c.cause.clone());
-    let start: Vec<_> = r.stage_changes.iter().take(2).map(change).collect();
+    let change = |c: &LevelChange| (c.t_s, c.from, c.to, c.cause.clone());
+    let start: Vec<_> = r.level_changes.iter().take(2).map(change).collect();
     assert_eq!(
         start,
         [
@@ -160,9 +160,9 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
     // From clear, the guard's thresholds rise watch 0.5 < park 0.75 (ASME
     // B30.5 §5-1.1.1 analogy) < alarm 0.9 (EN 13000 practice), and park
     // uses the gust predicted for the end of a park; so in a steadily rising
-    // wind the stages must come in that order, each once: watch and
+    // wind the levels must come in that order, each once: watch and
     // park_now for the predicted overturning, alarm for the present one.
-    let rising: Vec<(AlertLevel, &str)> = r.stage_changes[2..]
+    let rising: Vec<(AlertLevel, &str)> = r.level_changes[2..]
         .iter()
         .map(|c| (c.to, c.cause.as_str()))
         .collect();
@@ -174,10 +174,10 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
             (AlertLevel::Alarm, "overturning"),
         ],
         "{:?} {:?}",
-        r.stage_changes,
+        r.level_changes,
         r.faults
     );
-    assert!(r.stage_changes.windows(2).all(|w| w[0].t_s < w[1].t_s));
+    assert!(r.level_changes.windows(2).all(|w| w[0].t_s < w[1].t_s));
     // Drag grows with the square of the wind speed (q = ½ρv², any fluids
     // textbook), so with a rising wind the highest overturning utilisation
     // is at the last evaluation (the guard evaluates once a second, default
@@ -192,10 +192,10 @@ fn ramping_wind_parks_before_alarm_and_peaks_at_the_end() {
         "{o:?}"
     );
     assert!(o.figures.tilt_deg.unwrap() < 0.01, "level ground: {o:?}");
-    // Time per stage covers the whole log.
-    let total: f64 = r.stage_time.iter().map(|s| s.seconds).sum();
+    // Time per level covers the whole log.
+    let total: f64 = r.level_time.iter().map(|s| s.seconds).sum();
     assert!((total - rep.duration_s).abs() < 1e-6);
-    assert_eq!(r.final_stage, AlertLevel::Alarm);
+    assert_eq!(r.final_level, AlertLevel::Alarm);
 }
 
 #[test]

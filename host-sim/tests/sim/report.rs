@@ -263,7 +263,7 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
         .descendants()
         .filter(|n| n.has_tag_name("svg"))
         .collect();
-    // Utilisation, stage timeline, cover, pose, wind speed, wind direction,
+    // Utilisation, level timeline, cover, pose, wind speed, wind direction,
     // tilt, polar.
     assert_eq!(svgs.len(), 8);
     assert_eq!(html.matches("<svg").count(), 8);
@@ -292,15 +292,15 @@ fn replay_report_is_well_formed_and_holds_its_charts() {
             "{v} in {th:?}"
         );
     }
-    // This wind rises past the watch threshold: stage changes are marked.
+    // This wind rises past the watch threshold: level changes are marked.
     let r = &rep.rigs[0];
-    assert!(!r.stage_changes.is_empty());
+    assert!(!r.level_changes.is_empty());
     let marks = doc
         .descendants()
         .filter(|n| n.has_tag_name("line") && class_is(n, "event-mark"))
         .count();
     // Marked on the utilisation, pose, wind speed and tilt charts.
-    let n_events = r.stage_changes.len() + r.faults.len();
+    let n_events = r.level_changes.len() + r.faults.len();
     assert_eq!(marks, 4 * n_events);
     // Each chart names every event by its number in the strip above the
     // plot (close events share a label such as "2–4"), and the page lists

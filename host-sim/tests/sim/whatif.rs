@@ -289,12 +289,12 @@ fn cover_variants_take_no_cover_samples_from_the_log() {
     assert_eq!(cover_faults(2), 0, "{:?}", rep.rigs[2].faults);
     // The base rig saw the cover go on: its figures changed with it.
     assert_ne!(
-        rep.rigs[0].final_stage.name(),
+        rep.rigs[0].final_level.name(),
         "sensor_fault",
         "{:?}",
         rep.rigs[0].faults
     );
-    assert_ne!(rep.rigs[1].final_stage.name(), "sensor_fault");
+    assert_ne!(rep.rigs[1].final_level.name(), "sensor_fault");
 }
 
 fn has_class(n: &roxmltree::Node<'_, '_>, c: &str) -> bool {
@@ -338,7 +338,7 @@ fn what_if_page_overlays_the_rigs_and_has_the_side_by_side_table() {
     // One chart of each kind, not one per rig.
     for t in [
         "Overturning utilisation",
-        "Stage over time",
+        "Level over time",
         "Gust and tip wind at rig height",
     ] {
         assert_eq!(titled(t), 1, "{t}");

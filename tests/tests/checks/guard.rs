@@ -28,7 +28,7 @@ const WARM_UP_S: f32 = 700.0;
 
 /// Runs the guard from `t0_s` to `t1_s` after the warm-up: accelerometer
 /// level at 10 Hz, wind at 1 Hz from the north with `speed(t_s)`. Records
-/// every stage change (time s, from, to, cause) and raised fault; times are
+/// every level change (time s, from, to, cause) and raised fault; times are
 /// seconds since the end of the warm-up.
 struct Run<'r> {
     guard: Guard<'r>,
@@ -209,7 +209,7 @@ fn ramping_wind_requests_park_in_time() {
         u_end < cfg.park_utilisation,
         "parked at {t_park} s, U at end of park {u_end}"
     );
-    // Stages rose in order through watch to park, then to alarm.
+    // Levels rose in order through watch to park, then to alarm.
     let tos: Vec<AlertLevel> = r.changes.iter().map(|c| c.2).collect();
     assert_eq!(
         &tos[..3],
@@ -220,7 +220,7 @@ fn ramping_wind_requests_park_in_time() {
 /// Hysteresis and dwell: after a 14 m/s warm-up (predicted ≈ 0.54: watch,
 /// below the band of park, so the guard leaves its start-up fault for watch),
 /// a 15 m/s spell (U ≈ 0.47, predicted ≈ 0.64 with the 1.15 gust allowance
-/// and the small rise from 14 m/s: watch) then calm. The stage stays at watch
+/// and the small rise from 14 m/s: watch) then calm. The level stays at watch
 /// until the figures have been below 0.8 × threshold for the 600 s dwell
 /// *and* the 600 s peak-gust window has forgotten the spell.
 #[test]
@@ -246,7 +246,7 @@ fn watch_steps_down_only_after_dwell() {
 }
 
 /// The alarm latches: after a 21 m/s spell (U ≈ 0.92 ≥ 0.9) and a long calm
-/// the stage stays at alarm until acknowledged, then steps down.
+/// the level stays at alarm until acknowledged, then steps down.
 #[test]
 fn alarm_latches_until_acknowledged() {
     let rig = rig();

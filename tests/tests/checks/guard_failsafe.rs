@@ -249,7 +249,7 @@ fn a_watch_from_sliding_is_caused_by_sliding() {
 /// a 20 s silence, a step whose accelerometer sample shows the rig thrown
 /// over (53°) and whose every other input is bad raises eight faults (tilt
 /// step, tilt beyond the model and so no tilt reading, wind speed, wind
-/// direction stale, pose, cover, air) and a stage change: nine events for
+/// direction stale, pose, cover, air) and a level change: nine events for
 /// eight slots.
 #[test]
 fn events_beyond_capacity_are_counted() {

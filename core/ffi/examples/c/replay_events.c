@@ -5,7 +5,7 @@
  *
  *   event t_ms=<u64> kind=fault sensor=<sensor> class=<class>
  *   event t_ms=<u64> kind=events_lost count=<n>
- *   event t_ms=<u64> kind=stage from=<stage> to=<stage>
+ *   event t_ms=<u64> kind=level from=<level> to=<level>
  *
  * Usage: replay_events RIG_IMAGE ACCEL_LOG GUARD_INPUTS
  *   RIG_IMAGE     written by `standfast rig-image firmware-example/replay/rig.toml --out FILE`
@@ -246,7 +246,7 @@ static void print_error(const char *what, SfStatus s, const SfError *e) {
 }
 
 /* A step's events as the replay prints them: its raised faults, then the
- * count of events that did not fit in the verdict (if any), then its stage
+ * count of events that did not fit in the verdict (if any), then its level
  * change. */
 static void print_events(const SfVerdict *v, unsigned long long t_ms) {
     uint32_t i, n = v->event_count < SF_MAX_EVENTS ? v->event_count : SF_MAX_EVENTS;
@@ -262,9 +262,9 @@ static void print_events(const SfVerdict *v, unsigned long long t_ms) {
     }
     for (i = 0; i < n; i++) {
         const SfEvent *e = &v->events[i];
-        if (e->kind == SF_EVENT_STAGE_CHANGED) {
-            printf("event t_ms=%llu kind=stage from=%s to=%s\n", t_ms, sf_stage_name(e->from_stage),
-                   sf_stage_name(e->to_stage));
+        if (e->kind == SF_EVENT_LEVEL_CHANGED) {
+            printf("event t_ms=%llu kind=level from=%s to=%s\n", t_ms, sf_level_name(e->from_level),
+                   sf_level_name(e->to_level));
         }
     }
 }

@@ -31,7 +31,7 @@ SF_FIELD_BYTES = 64
 SF_MAX_FAULTS = 8
 SF_MAX_EVENTS = 8
 SF_ABI_VERSION = 1
-SF_EVENT_STAGE_CHANGED = 0
+SF_EVENT_LEVEL_CHANGED = 0
 SF_EVENT_FAULT_RAISED = 1
 SF_POSE_EQUATORIAL = 1
 SF_PIER_TUBE_EAST = 0
@@ -96,8 +96,8 @@ class SfFault(C.Structure):
 class SfEvent(C.Structure):
     _fields_ = [
         ("kind", C.c_uint32),
-        ("from_stage", C.c_uint32),
-        ("to_stage", C.c_uint32),
+        ("from_level", C.c_uint32),
+        ("to_level", C.c_uint32),
         ("cause", C.c_uint32),
         ("fault", SfFault),
         ("utilisation", C.c_float),
@@ -107,7 +107,7 @@ class SfEvent(C.Structure):
 class SfVerdict(C.Structure):
     _fields_ = [
         ("now_ms", C.c_uint64),
-        ("stage", C.c_uint32),
+        ("level", C.c_uint32),
         ("park", C.c_uint8),
         ("alarm", C.c_uint8),
         ("overturning_utilisation", SfMaybeF32),
@@ -161,7 +161,7 @@ def load(path):
     lib.sf_guard_step.restype = C.c_uint32
     lib.sf_guard_fini.argtypes = [C.c_void_p]
     lib.sf_guard_fini.restype = C.c_uint32
-    for name in ("sf_stage_name", "sf_sensor_name", "sf_fault_class_name", "sf_status_name"):
+    for name in ("sf_level_name", "sf_sensor_name", "sf_fault_class_name", "sf_status_name"):
         getattr(lib, name).argtypes = [C.c_uint32]
         getattr(lib, name).restype = C.c_char_p
     return lib
@@ -275,7 +275,7 @@ def main(argv):
             if s != SF_OK:
                 return fail(lib, "sf_guard_step", s, err)
             events = verdict.events[: min(verdict.event_count, SF_MAX_EVENTS)]
-            # As the replay prints a step: raised faults, lost events, stage change.
+            # As the replay prints a step: raised faults, lost events, level change.
             for e in events:
                 if e.kind == SF_EVENT_FAULT_RAISED:
                     print(f"event t_ms={now} kind=fault sensor={lib.sf_sensor_name(e.fault.sensor).decode()} "
@@ -283,9 +283,9 @@ def main(argv):
             if verdict.events_lost > 0:
                 print(f"event t_ms={now} kind=events_lost count={verdict.events_lost}")
             for e in events:
-                if e.kind == SF_EVENT_STAGE_CHANGED:
-                    print(f"event t_ms={now} kind=stage from={lib.sf_stage_name(e.from_stage).decode()} "
-                          f"to={lib.sf_stage_name(e.to_stage).decode()}")
+                if e.kind == SF_EVENT_LEVEL_CHANGED:
+                    print(f"event t_ms={now} kind=level from={lib.sf_level_name(e.from_level).decode()} "
+                          f"to={lib.sf_level_name(e.to_level).decode()}")
     except ValueError as e:
         print(e, file=sys.stderr)
         return 3

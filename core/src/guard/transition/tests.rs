@@ -211,7 +211,7 @@ fn every_level_against_every_condition() {
         for (col, &level) in AlertLevel::ALL.iter().enumerate() {
             let out = transition(level, readings, &t, settled_memory(), Millis(HOUR_MS));
             let (to, cause) = SETTLED[row][col];
-            assert_eq!(out.stage, to, "{name} at {level:?}");
+            assert_eq!(out.level, to, "{name} at {level:?}");
             assert_eq!(out.change.map(|c| c.cause), cause, "{name} at {level:?}");
             if let Some(c) = out.change {
                 assert_eq!((c.from, c.to), (level, to), "{name} at {level:?}");
@@ -243,7 +243,7 @@ fn no_step_down_without_the_dwell() {
             let out = transition(level, readings, &t, fresh, Millis(HOUR_MS));
             let (to, _) = SETTLED[row][col];
             let expected = if to > level || to == F { to } else { level };
-            assert_eq!(out.stage, expected, "{name} at {level:?}");
+            assert_eq!(out.level, expected, "{name} at {level:?}");
         }
     }
 }
@@ -261,10 +261,10 @@ fn a_latched_alarm_holds() {
         let fault = matches!(readings, Readings::SensorFault | Readings::EvaluationFault)
             || name == "not finite";
         let out = transition(A, &readings, &t, latched, Millis(HOUR_MS));
-        assert_eq!(out.stage, if fault { F } else { A }, "{name}");
+        assert_eq!(out.level, if fault { F } else { A }, "{name}");
         assert!(out.memory.latched, "{name}");
         let out = transition(F, &readings, &t, latched, Millis(HOUR_MS));
-        assert_eq!(out.stage, if fault { F } else { A }, "{name}");
+        assert_eq!(out.level, if fault { F } else { A }, "{name}");
     }
 }
 
@@ -278,10 +278,10 @@ fn acknowledgement_is_the_cause_of_the_step_down() {
         ..settled_memory()
     };
     let calm = Readings::Figures(calm());
-    assert_eq!(transition(A, &calm, &t, m, Millis(HOUR_MS)).stage, A);
+    assert_eq!(transition(A, &calm, &t, m, Millis(HOUR_MS)).level, A);
     m.acknowledge();
     let out = transition(A, &calm, &t, m, Millis(HOUR_MS));
-    assert_eq!(out.stage, Cl);
+    assert_eq!(out.level, Cl);
     assert_eq!(out.change.map(|c| c.cause), Some(C::Acknowledged));
     assert!(!out.memory.acknowledged && !out.memory.latched);
 }
@@ -299,7 +299,7 @@ fn a_figure_in_a_band_holds_every_level_above_it() {
     let mut level = P;
     for k in 0..100 {
         let out = transition(level, &Readings::Figures(drive), &t, m, Millis(k * 60_000));
-        (level, m) = (out.stage, out.memory);
+        (level, m) = (out.level, out.memory);
     }
     assert_eq!(level, P);
     let mut tilt = calm();
@@ -309,7 +309,7 @@ fn a_figure_in_a_band_holds_every_level_above_it() {
     let mut level = A;
     for k in 0..100 {
         let out = transition(level, &Readings::Figures(tilt), &t, m, Millis(k * 60_000));
-        (level, m) = (out.stage, out.memory);
+        (level, m) = (out.level, out.memory);
     }
     assert_eq!(level, A);
 }
@@ -335,7 +335,7 @@ fn a_fault_restarts_every_timer() {
         }
     );
     let mut m = out.memory;
-    let mut level = out.stage;
+    let mut level = out.level;
     let mut changes = [None; 2];
     let mut n = 0;
     for k in 1..=700 {
@@ -345,7 +345,7 @@ fn a_fault_restarts_every_timer() {
             *slot = Some((now.0 - HOUR_MS, c.to, c.cause));
             n += 1;
         }
-        (level, m) = (out.stage, out.memory);
+        (level, m) = (out.level, out.memory);
     }
     assert_eq!(
         changes,
@@ -406,10 +406,10 @@ fn a_fault_does_not_release_a_park_or_an_alarm() {
         settled_memory(),
         Millis(HOUR_MS),
     );
-    let (mut level, mut m) = (out.stage, out.memory);
+    let (mut level, mut m) = (out.level, out.memory);
     for k in 1..=700_u64 {
         let out = transition(level, &band, &t, m, Millis(HOUR_MS + k * 1000));
-        (level, m) = (out.stage, out.memory);
+        (level, m) = (out.level, out.memory);
         assert!(level >= P, "released at {k} s");
     }
     assert_eq!(level, P);
@@ -419,7 +419,7 @@ fn a_fault_does_not_release_a_park_or_an_alarm() {
     let mut m = settled_memory();
     m.acknowledge();
     let out = transition(A, &Readings::EvaluationFault, &t, m, Millis(HOUR_MS));
-    let (mut level, mut m) = (out.stage, out.memory);
+    let (mut level, mut m) = (out.level, out.memory);
     for k in 1..=100_u64 {
         let out = transition(
             level,
@@ -428,7 +428,7 @@ fn a_fault_does_not_release_a_park_or_an_alarm() {
             m,
             Millis(HOUR_MS + k * 1000),
         );
-        (level, m) = (out.stage, out.memory);
+        (level, m) = (out.level, out.memory);
     }
     assert_eq!(level, A);
     assert!(
@@ -446,14 +446,14 @@ fn a_fault_does_not_release_a_park_or_an_alarm() {
         settled_memory(),
         Millis(HOUR_MS),
     );
-    let (mut level, mut m) = (out.stage, out.memory);
+    let (mut level, mut m) = (out.level, out.memory);
     let mut seen: heapless::Vec<(u64, AlertLevel, AlertCause), 4> = heapless::Vec::new();
     for k in 1..=700_u64 {
         let out = transition(level, &calm, &t, m, Millis(HOUR_MS + k * 1000));
         if let Some(c) = out.change {
             seen.push((k, c.to, c.cause)).unwrap();
         }
-        (level, m) = (out.stage, out.memory);
+        (level, m) = (out.level, out.memory);
     }
     assert_eq!(seen[..], [(61, P, C::FaultCleared), (601, Cl, C::Settled)]);
 }
@@ -546,7 +546,7 @@ fn a_figure_in_a_band_or_at_its_bound_holds_its_level() {
                 m,
                 Millis(HOUR_MS + k * 60_000),
             );
-            (at, m) = (out.stage, out.memory);
+            (at, m) = (out.level, out.memory);
         }
         assert_eq!(at, level, "{name}");
         // …and from one level higher, it steps down to it, no further.
@@ -561,7 +561,7 @@ fn a_figure_in_a_band_or_at_its_bound_holds_its_level() {
                     m,
                     Millis(HOUR_MS + k * 60_000),
                 );
-                (at, m) = (out.stage, out.memory);
+                (at, m) = (out.level, out.memory);
             }
             assert_eq!(at, level, "{name}, from above");
         }
