@@ -30,69 +30,51 @@ use crate::wind::{Anemometer, PulseLatch, WindVane};
 use embedded_hal::digital::OutputPin;
 use embedded_hal::i2c::I2c;
 use standfast::math::{self, Vec3};
+use standfast::sense::SignedAxis;
 
 /// Most events one step can report: at most 10 of the station's own, plus up
 /// to [`standfast::guard::MAX_EVENTS`] sensor faults from the assessment.
 pub const MAX_EVENTS: usize = 12 + standfast::guard::MAX_EVENTS;
 
-/// One sensor axis with its sign.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-#[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub enum Axis {
-    /// Sensor +x.
-    PlusX,
-    /// Sensor −x.
-    MinusX,
-    /// Sensor +y.
-    PlusY,
-    /// Sensor −y.
-    MinusY,
-    /// Sensor +z.
-    PlusZ,
-    /// Sensor −z.
-    MinusZ,
-}
-
-impl Axis {
-    fn pick(self, s: [f32; 3]) -> f32 {
-        let [x, y, z] = s;
-        match self {
-            Axis::PlusX => x,
-            Axis::MinusX => -x,
-            Axis::PlusY => y,
-            Axis::MinusY => -y,
-            Axis::PlusZ => z,
-            Axis::MinusZ => -z,
-        }
+/// The component of sensor vector `s` along signed sensor axis `a`.
+fn pick(a: SignedAxis, s: [f32; 3]) -> f32 {
+    let [x, y, z] = s;
+    match a {
+        SignedAxis::PlusX => x,
+        SignedAxis::MinusX => -x,
+        SignedAxis::PlusY => y,
+        SignedAxis::MinusY => -y,
+        SignedAxis::PlusZ => z,
+        SignedAxis::MinusZ => -z,
     }
 }
 
-/// How the accelerometer is mounted: which signed sensor axis lies along each
-/// rig axis (rig frame: x east, y north, z up). Only the 24 right-angle
+/// How the accelerometer is mounted: which signed sensor axis (the core's
+/// [`SignedAxis`]) lies along each rig axis (rig frame: x east, y north, z up). Only the 24 right-angle
 /// mountings are expressible; mount the board square to the rig.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct AxisMap {
     /// Sensor axis along rig +x (east).
-    pub x: Axis,
+    pub x: SignedAxis,
     /// Sensor axis along rig +y (north).
-    pub y: Axis,
+    pub y: SignedAxis,
     /// Sensor axis along rig +z (up).
-    pub z: Axis,
+    pub z: SignedAxis,
 }
 
 impl AxisMap {
     /// Sensor axes equal rig axes (chip face up, its x toward east).
     pub const IDENTITY: AxisMap = AxisMap {
-        x: Axis::PlusX,
-        y: Axis::PlusY,
-        z: Axis::PlusZ,
+        x: SignedAxis::PlusX,
+        y: SignedAxis::PlusY,
+        z: SignedAxis::PlusZ,
     };
 
     /// A sensor-frame vector in the rig frame.
     #[must_use]
     pub fn apply(&self, s: [f32; 3]) -> Vec3 {
-        Vec3::new(self.x.pick(s), self.y.pick(s), self.z.pick(s))
+        Vec3::new(pick(self.x, s), pick(self.y, s), pick(self.z, s))
     }
 }
 
