@@ -15,8 +15,8 @@
 //! | `alarm_on` / `alarm_off` | | the alarm line was de-energised / energised |
 //! | `fault` | `source=accel\|wind\|vane cause=bus\|device\|config_lost\|stale` | a sensor became unusable |
 //! | `fault_cleared` | `source=...` | the sensor has been healthy for the clearing time |
-//! | `level` | `from=<level> to=<level>` | the assessment's level changed (before the first step it counts as `clear`) |
-//! | `fault` | `sensor=<name> class=<name>` | the assessment (the guard) raised a sensor fault of its own |
+//! | `level` | `from=<level> to=<level>` | the rule's level changed (before the first step it counts as `clear`) |
+//! | `fault` | `sensor=<name> class=<name>` | the rule (the guard) raised a sensor fault of its own |
 //! | `late` | `gap_ms=<u32>` | more than two periods passed since the previous step |
 //! | `line_error` | `line=park\|alarm` | an output pin reported an error; the step is not complete |
 //!
@@ -210,7 +210,7 @@ pub enum EventKind {
     Fault(Source, Cause),
     /// A sensor is usable again.
     FaultCleared(Source),
-    /// The assessment's level changed (names as [`crate::Assessment::level`];
+    /// The rule's level changed (names as [`crate::Decision::level`];
     /// the guard's are [`standfast::guard::AlertLevel::name`]).
     AlertLevel {
         /// The level before.
@@ -218,12 +218,12 @@ pub enum EventKind {
         /// The level now.
         to: &'static str,
     },
-    /// The assessment raised a sensor fault of its own (the guard's
+    /// The rule raised a sensor fault of its own (the guard's
     /// [`standfast::guard::Event::FaultRaised`]), named by
-    /// [`crate::assess::RaisedFault`].
-    AssessFault(crate::assess::RaisedFault),
-    /// The assessment lost this many events of one step for lack of room
-    /// ([`crate::assess::Assess::events_lost`]).
+    /// [`crate::rule::RaisedFault`].
+    RuleFault(crate::rule::RaisedFault),
+    /// The rule lost this many events of one step for lack of room
+    /// ([`crate::rule::Rule::events_lost`]).
     EventsLost(u16),
     /// Milliseconds since the previous step, when over two periods.
     Late(u32),
@@ -270,7 +270,7 @@ impl Event {
                 out.text(" to=");
                 out.text(to);
             }
-            EventKind::AssessFault(r) => {
+            EventKind::RuleFault(r) => {
                 out.text("fault sensor=");
                 out.text(r.sensor);
                 out.text(" class=");

@@ -1,6 +1,6 @@
-//! The Standfast guard behind the station's [`Assess`] plug-in point.
+//! The Standfast guard behind the station's [`Rule`] plug-in point.
 //!
-//! [`GuardAssess`] holds a [`standfast::guard::Guard`] that borrows a
+//! [`GuardRule`] holds a [`standfast::guard::Guard`] that borrows a
 //! [`Rig`] (build the rig once and keep it where it outlives the station: in
 //! `main`'s stack frame on the host, in a `static` made by
 //! `cortex_m::singleton!` on the board). Each step it converts the station's
@@ -14,7 +14,7 @@
 //!   pier side [`PierSide::TubeEast`] (the station's pose input carries no
 //!   pier side; set it from your mount's report when it has one).
 //!
-//! It passes the guard's sensor faults on ([`Assess::raised_faults`], logged
+//! It passes the guard's sensor faults on ([`Rule::raised_faults`], logged
 //! as `fault sensor=.. class=..` events, names by [`fault_names`]) and maps
 //! the verdict's level to `park` ([`AlertLevel::park_requested`]), `alarm`
 //! ([`AlertLevel::alarm`]) and the level name ([`AlertLevel::name`]). The station's
@@ -26,14 +26,14 @@
 //! asks). When the backstop asks for more than the guard, the level name is
 //! `limit_park` or `limit_alarm`, so the event log says which one acted.
 //!
-//! **Acknowledge.** The guard's alarm latches until [`GuardAssess::acknowledge`]
+//! **Acknowledge.** The guard's alarm latches until [`GuardRule::acknowledge`]
 //! (wire a key switch to it through [`crate::Station::rule_mut`]).
 //!
 //! **Caution.** The guard's verdict is an estimate from a static model of an
 //! *invented* rig here; describe your own rig, secure it anyway, and defer to
 //! the mount maker's limits, local codes and licensed engineers.
 
-use crate::assess::{Assess, Assessment, LimitRule, RaisedFault, Samples};
+use crate::rule::{Decision, LimitRule, RaisedFault, Rule, Samples};
 use core::borrow::BorrowMut;
 use core::marker::PhantomData;
 use standfast::bounded::Vec;
@@ -179,16 +179,16 @@ pub fn example_guard(rig: &Rig, now_ms: u64) -> Result<Guard<'_>, Error> {
     Guard::new(rig, example_guard_config(), Millis(now_ms))
 }
 
-/// The guard as an [`Assess`] plug-in, with an optional [`LimitRule`] backstop.
+/// The guard as an [`Rule`] plug-in, with an optional [`LimitRule`] backstop.
 ///
 /// `G` is how the adapter holds its guard: by value (`Guard<'r>`, the
-/// default, made by [`GuardAssess::new`]) or borrowed (`&mut Guard<'r>`, from
-/// [`GuardAssess::with_guard`]). A board builds the guard in a `static` of its
+/// default, made by [`GuardRule::new`]) or borrowed (`&mut Guard<'r>`, from
+/// [`GuardRule::with_guard`]). A board builds the guard in a `static` of its
 /// own and lends it, so the guard (4 KiB on the Cortex-M4F) is written once,
 /// in place, and never moved through the constructors of the adapter, the
 /// station and the replay (each move of a value that large is a stack copy).
 #[derive(Debug)]
-pub struct GuardAssess<'r, G = Guard<'r>> {
+pub struct GuardRule<'r, G = Guard<'r>> {
     guard: G,
     backstop: Option<LimitRule>,
     last_level: AlertLevel,
@@ -209,7 +209,7 @@ pub const fn fault_names(fault: &Fault) -> RaisedFault {
     }
 }
 
-impl<'r> GuardAssess<'r> {
+impl<'r> GuardRule<'r> {
     /// A guard for `rig` with `config`, started at `now_ms` (station clock),
     /// with an optional fixed-limit backstop.
     ///
@@ -222,16 +222,16 @@ impl<'r> GuardAssess<'r> {
         backstop: Option<LimitRule>,
     ) -> Result<Self, Error> {
         let guard = Guard::new(rig, config, Millis(now_ms))?;
-        Ok(GuardAssess::with_guard(guard, backstop))
+        Ok(GuardRule::with_guard(guard, backstop))
     }
 }
 
-impl<'r, G: BorrowMut<Guard<'r>>> GuardAssess<'r, G> {
+impl<'r, G: BorrowMut<Guard<'r>>> GuardRule<'r, G> {
     /// The adapter for an already built `guard` (owned or borrowed), with an
     /// optional fixed-limit backstop. The guard should be fresh (no step
     /// taken); the adapter starts from its present level.
     pub fn with_guard(guard: G, backstop: Option<LimitRule>) -> Self {
-        GuardAssess {
+        GuardRule {
             // A fresh guard starts unable to see (sensor_fault) until its
             // sensors have given readings.
             last_level: guard.borrow().level(),
@@ -262,8 +262,8 @@ impl<'r, G: BorrowMut<Guard<'r>>> GuardAssess<'r, G> {
     }
 }
 
-impl<'r, G: BorrowMut<Guard<'r>>> Assess for GuardAssess<'r, G> {
-    fn assess(&mut self, s: &Samples) -> Assessment {
+impl<'r, G: BorrowMut<Guard<'r>>> Rule for GuardRule<'r, G> {
+    fn decide(&mut self, s: &Samples) -> Decision {
         let inputs = Inputs {
             accel_raw: s.accel_g.map(|a| [a.x, a.y, a.z]),
             wind: s.wind.map(|w| GuardWind {
@@ -290,7 +290,7 @@ impl<'r, G: BorrowMut<Guard<'r>>> Assess for GuardAssess<'r, G> {
         }
         let level = verdict.level;
         self.last_level = level;
-        let guard = Assessment {
+        let guard = Decision {
             park: level.park_requested(),
             alarm: level.alarm(),
             level: level.name(),
@@ -298,7 +298,7 @@ impl<'r, G: BorrowMut<Guard<'r>>> Assess for GuardAssess<'r, G> {
         let Some(rule) = self.backstop.as_mut() else {
             return guard;
         };
-        let limit = rule.assess(s);
+        let limit = rule.decide(s);
         let park = guard.park || limit.park;
         let alarm = guard.alarm || limit.alarm;
         let level = if limit.alarm && !guard.alarm {
@@ -308,7 +308,7 @@ impl<'r, G: BorrowMut<Guard<'r>>> Assess for GuardAssess<'r, G> {
         } else {
             guard.level
         };
-        Assessment { park, alarm, level }
+        Decision { park, alarm, level }
     }
 
     fn raised_faults(&self) -> &[RaisedFault] {

@@ -10,10 +10,10 @@
 //! - [`wind`]: pulse counter, anemometer calibration, the [`wind::WindVane`] trait.
 //! - [`pose`]: the mount pose input.
 //! - [`lines`]: the park and alarm lines and the fail-safe convention.
-//! - [`assess`]: the plug-in point for an assessment (the
-//!   [`assess::Assess`] trait) and the fixed-limit [`assess::LimitRule`].
-//! - [`guard_adapter`]: the `standfast` guard as an [`assess::Assess`]
-//!   plug-in ([`guard_adapter::GuardAssess`]), with the invented example rig.
+//! - [`rule`]: the plug-in point for a decision rule (the
+//!   [`rule::Rule`] trait) and the fixed-limit [`rule::LimitRule`].
+//! - [`guard_adapter`]: the `standfast` guard as a [`rule::Rule`]
+//!   plug-in ([`guard_adapter::GuardRule`]), with the invented example rig.
 //! - [`station`]: the fixed-rate, watchdog-friendly step.
 //! - [`event`]: events and their one-line text format.
 //! - [`replay`]: replay of a log over emulated hardware (QEMU and host).
@@ -24,13 +24,12 @@
 //! binary keeps the station in a `static`.
 //!
 //! **Caution.** This is an example, not a certified safety device. The limits
-//! and the assessment are estimates; secure the rig anyway, stay inside the
+//! and the decision rules are estimates; secure the rig anyway, stay inside the
 //! mount maker's limits, test the whole chain (sensor to park) on your rig,
 //! and defer to local codes and licensed engineers.
 #![cfg_attr(not(test), no_std)]
 #![forbid(unsafe_code)]
 
-pub mod assess;
 pub mod event;
 pub mod guard_adapter;
 pub mod lines;
@@ -38,11 +37,12 @@ pub mod lis3dh;
 pub mod marks;
 pub mod pose;
 pub mod replay;
+pub mod rule;
 pub mod station;
 pub mod wind;
 
-pub use assess::{Assess, Assessment, LimitRule, Limits, RaisedFault, Samples, WindSample};
 pub use event::{Event, EventKind};
-pub use guard_adapter::GuardAssess;
+pub use guard_adapter::GuardRule;
 pub use lines::{FailSafeLines, LineState};
+pub use rule::{Decision, LimitRule, Limits, RaisedFault, Rule, Samples, WindSample};
 pub use station::{Station, StationConfig, StepInputs, StepReport, Watchdog};

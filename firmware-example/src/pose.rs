@@ -2,8 +2,8 @@
 //!
 //! The pose is optional: many rigs have no link from the mount to this
 //! controller, and a link can fall silent. The station passes a pose to the
-//! assessment only in the step it arrived; what to assume in between (hold the
-//! last pose for a while, or take the worst pose) is the assessment's choice.
+//! rule only in the step it arrived; what to assume in between (hold the
+//! last pose for a while, or take the worst pose) is the rule's choice.
 
 use standfast::error::Field;
 use standfast::math;

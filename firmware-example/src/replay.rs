@@ -24,14 +24,14 @@
 //! - `ha_deg,dec_deg`: mount pose in degrees when the mount reported one;
 //!   both empty otherwise.
 
-use crate::assess::{LimitRule, Limits};
 use crate::event::{fmt_via_sink, Event, EventKind, TextSink};
 #[cfg(doc)]
 use crate::guard_adapter::example_guard_config;
-use crate::guard_adapter::{example_guard, GuardAssess};
+use crate::guard_adapter::{example_guard, GuardRule};
 use crate::lines::FailSafeLines;
 use crate::lis3dh::{self, Lis3dh, RawSample};
 use crate::pose::MountPose;
+use crate::rule::{LimitRule, Limits};
 use crate::station::{AxisMap, Station, StationConfig, StepInputs, StepReport};
 use crate::wind::{Anemometer, AnemometerCal, PulseLatch, WindVane};
 use core::borrow::BorrowMut;
@@ -497,9 +497,9 @@ impl ReplaySetup {
 }
 
 /// The station as the replay builds it: the Standfast guard for a borrowed
-/// rig (held as `G`, see [`GuardAssess`]), with the [`LimitRule`] as backstop.
+/// rig (held as `G`, see [`GuardRule`]), with the [`LimitRule`] as backstop.
 pub type ReplayStation<'r, G = Guard<'r>> =
-    Station<EmulatedLis3dh, ScriptedVane, MemoryPin, MemoryPin, GuardAssess<'r, G>>;
+    Station<EmulatedLis3dh, ScriptedVane, MemoryPin, MemoryPin, GuardRule<'r, G>>;
 
 /// Feeds log lines to a station over emulated hardware. `G` is how the
 /// guard is held: by value ([`Replay::new`]) or borrowed
@@ -520,7 +520,7 @@ pub struct Replay<'r, G = Guard<'r>> {
 pub const GUARD_EVENTS: usize = standfast::guard::MAX_EVENTS + 1;
 
 impl<'r> Replay<'r> {
-    /// A replay with `setup`, assessed by the guard for `rig`
+    /// A replay with `setup`, decided by the guard for `rig`
     /// ([`example_guard`]: [`example_guard_config`], started at t = 0 ms) with
     /// the [`LimitRule`] of `setup` as backstop; the emulated sensor sits at
     /// address 0x18.
@@ -533,7 +533,7 @@ impl<'r> Replay<'r> {
 }
 
 impl<'r, G: BorrowMut<Guard<'r>>> Replay<'r, G> {
-    /// A replay with `setup`, assessed by `guard` (a fresh one, owned or
+    /// A replay with `setup`, decided by `guard` (a fresh one, owned or
     /// borrowed; [`example_guard`] makes the replay's) with the [`LimitRule`]
     /// of `setup` as backstop; the emulated sensor sits at address 0x18.
     pub fn with_guard(setup: &ReplaySetup, guard: G) -> Self {
@@ -544,7 +544,7 @@ impl<'r, G: BorrowMut<Guard<'r>>> Replay<'r, G> {
             Anemometer::new(setup.anemometer, setup.gate_ms),
             ScriptedVane::default(),
             FailSafeLines::new(MemoryPin::default(), MemoryPin::default()),
-            GuardAssess::with_guard(guard, Some(LimitRule::new(setup.limits))),
+            GuardRule::with_guard(guard, Some(LimitRule::new(setup.limits))),
         );
         // The guard's level before the first step: the one it starts in
         // (`sensor_fault`, it cannot judge the rig before its sensors have
@@ -634,7 +634,7 @@ impl<'r, G: BorrowMut<Guard<'r>>> Replay<'r, G> {
         let report = self.station.step(row.t_ms, inputs);
         self.guard_events.clear();
         for e in &report.events {
-            if let EventKind::AssessFault(_) = e.kind {
+            if let EventKind::RuleFault(_) = e.kind {
                 let _ = self.guard_events.push(*e);
             }
         }

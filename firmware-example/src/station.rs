@@ -1,5 +1,5 @@
 //! The station: one fixed-rate step that reads the sensors, watches their
-//! health, asks the assessment and drives the two fail-safe lines.
+//! health, asks the rule and drives the two fail-safe lines.
 //!
 //! ```text
 //! loop {
@@ -15,17 +15,17 @@
 //! (a stuck bus, an endless retry) or a step whose pins fail stops feeding the
 //! watchdog; its reset leaves both lines de-energised: park and alarm.
 //!
-//! **Decision.** The park line is de-energised when the assessment asks for a
-//! park *or* any sensor is not usable; the alarm line when the assessment
+//! **Decision.** The park line is de-energised when the rule asks for a
+//! park *or* any sensor is not usable; the alarm line when the rule
 //! raises the alarm *or* any sensor is not usable. A sensor is not usable
 //! before its first good reading ("arming" after reset, no fault event), while
 //! faulted, and until it has been healthy for `fault_clear_ms` after a fault.
 
-use crate::assess::{Assess, Assessment, Samples, WindSample};
 use crate::event::{Cause, Event, EventKind, Line, Source};
 use crate::lines::{FailSafeLines, LineError, LineState};
 use crate::lis3dh::{self, Lis3dh};
 use crate::pose::MountPose;
+use crate::rule::{Decision, Rule, Samples, WindSample};
 use crate::wind::{Anemometer, PulseLatch, WindVane};
 use embedded_hal::digital::OutputPin;
 use embedded_hal::i2c::I2c;
@@ -33,7 +33,7 @@ use standfast::math::{self, Vec3};
 use standfast::sense::SignedAxis;
 
 /// Most events one step can report: at most 10 of the station's own, plus up
-/// to [`standfast::guard::MAX_EVENTS`] sensor faults from the assessment.
+/// to [`standfast::guard::MAX_EVENTS`] sensor faults from the rule.
 pub const MAX_EVENTS: usize = 12 + standfast::guard::MAX_EVENTS;
 
 /// The component of sensor vector `s` along signed sensor axis `a`.
@@ -136,8 +136,8 @@ pub struct StepReport {
     pub events: heapless::Vec<Event, MAX_EVENTS>,
     /// The lines as driven (or [`LineState::SAFE`] after a pin error).
     pub lines: LineState,
-    /// The assessment of this step.
-    pub assessment: Assessment,
+    /// The rule's decision for this step.
+    pub decision: Decision,
     /// Both lines were driven: feed the watchdog.
     pub complete: bool,
 }
@@ -208,7 +208,7 @@ impl Health {
     }
 }
 
-/// The application: generic over the bus, the vane, the two pins and the assessment.
+/// The application: generic over the bus, the vane, the two pins and the rule.
 #[derive(Debug)]
 pub struct Station<I2C, V, P, A, R> {
     cfg: StationConfig,
@@ -234,7 +234,7 @@ where
     V: WindVane,
     P: OutputPin,
     A: OutputPin,
-    R: Assess,
+    R: Rule,
 {
     /// A station. Touches no hardware: the accelerometer is set up in the
     /// first step, and the lines stay as reset left them (low) until then.
@@ -261,7 +261,7 @@ where
             vane_health: Health::default(),
             start_ms: None,
             last_step_ms: None,
-            // Before its first assessment the station cannot see: both
+            // Before its first decision the station cannot see: both
             // lines start de-energised, as for the guard's sensor_fault.
             level: standfast::guard::AlertLevel::SensorFault.name(),
         }
@@ -277,13 +277,13 @@ where
         self.lines.state()
     }
 
-    /// The assessment (for inspection).
+    /// The rule (for inspection).
     pub const fn rule(&self) -> &R {
         &self.rule
     }
 
-    /// The assessment, mutable: for an operator's acknowledge input (for
-    /// example [`crate::GuardAssess::acknowledge`] from a key switch).
+    /// The rule, mutable: for an operator's acknowledge input (for
+    /// example [`crate::GuardRule::acknowledge`] from a key switch).
     pub fn rule_mut(&mut self) -> &mut R {
         &mut self.rule
     }
@@ -294,7 +294,7 @@ where
         (self.accel.bus_mut(), &mut self.vane)
     }
 
-    /// Takes the station apart: bus, vane, park pin, alarm pin, assessment.
+    /// Takes the station apart: bus, vane, park pin, alarm pin, rule.
     pub fn release(self) -> (I2C, V, P, A, R) {
         let (park, alarm) = self.lines.release();
         (self.accel.release(), self.vane, park, alarm, self.rule)
@@ -361,30 +361,30 @@ where
             wind,
             pose: inputs.pose,
         };
-        let assessment = self.rule.assess(&samples);
+        let decision = self.rule.decide(&samples);
         for raised in self.rule.raised_faults() {
-            push(EventKind::AssessFault(*raised), now_ms);
+            push(EventKind::RuleFault(*raised), now_ms);
         }
         let lost = self.rule.events_lost();
         if lost > 0 {
             push(EventKind::EventsLost(lost), now_ms);
         }
-        if self.level != assessment.level {
+        if self.level != decision.level {
             push(
                 EventKind::AlertLevel {
                     from: self.level,
-                    to: assessment.level,
+                    to: decision.level,
                 },
                 now_ms,
             );
-            self.level = assessment.level;
+            self.level = decision.level;
         }
 
         let usable =
             self.accel_health.usable() && self.wind_health.usable() && self.vane_health.usable();
         let want = LineState {
-            park_requested: assessment.park || !usable,
-            alarm_raised: assessment.alarm || !usable,
+            park_requested: decision.park || !usable,
+            alarm_raised: decision.alarm || !usable,
         };
         let before = self.lines.state();
         let complete = match self.lines.drive(want) {
@@ -414,7 +414,7 @@ where
         StepReport {
             events,
             lines: after,
-            assessment,
+            decision,
             complete,
         }
     }

@@ -29,11 +29,11 @@ use standfast::guard::Guard;
 use standfast::math;
 use standfast::rig::Rig;
 use standfast::Error;
-use standfast_firmware::assess::LimitRule;
-use standfast_firmware::guard_adapter::{example_guard, example_rig_in, GuardAssess};
+use standfast_firmware::guard_adapter::{example_guard, example_rig_in, GuardRule};
 use standfast_firmware::lines::FailSafeLines;
 use standfast_firmware::lis3dh::{self, Lis3dh, RawSample};
 use standfast_firmware::replay::{EmulatedLis3dh, MemoryPin, ReplaySetup, ScriptedVane};
+use standfast_firmware::rule::LimitRule;
 use standfast_firmware::station::{Station, StepInputs, Watchdog};
 use standfast_firmware::wind::{Anemometer, PulseLatch};
 
@@ -62,7 +62,7 @@ type BoardStation = Station<
     ScriptedVane,
     MemoryPin,
     MemoryPin,
-    GuardAssess<'static, &'static mut Guard<'static>>,
+    GuardRule<'static, &'static mut Guard<'static>>,
 >;
 
 /// A watchdog stand-in that counts its feeds (a board feeds its independent
@@ -153,7 +153,7 @@ fn build_station() -> Option<&'static mut BoardStation> {
             Anemometer::new(setup.anemometer, setup.gate_ms),
             ScriptedVane::default(),
             FailSafeLines::new(MemoryPin::default(), MemoryPin::default()),
-            GuardAssess::with_guard(guard, Some(LimitRule::new(setup.limits))),
+            GuardRule::with_guard(guard, Some(LimitRule::new(setup.limits))),
         )
     }))
 }

@@ -1,4 +1,4 @@
-//! The Standfast guard as the station's assessment (`GuardAssess`), on its
+//! The Standfast guard as the station's rule (`GuardRule`), on its
 //! own: levels map to the fail-safe lines, the alarm latches until
 //! acknowledged, and a guard sensor fault de-energises both lines.
 //!
@@ -21,9 +21,7 @@ use standfast::math::Vec3;
 use standfast_firmware::guard_adapter::example_rig;
 use standfast_firmware::lines::FailSafeLines;
 use standfast_firmware::replay::MemoryPin;
-use standfast_firmware::{
-    Assess, Assessment, GuardAssess, LineState, RaisedFault, Samples, WindSample,
-};
+use standfast_firmware::{Decision, GuardRule, LineState, RaisedFault, Rule, Samples, WindSample};
 
 /// Step period of these tests, ms.
 const PERIOD_MS: u64 = 100;
@@ -44,9 +42,9 @@ fn samples(i: u64, speed_mps: f32) -> Samples {
     }
 }
 
-/// Drives fail-safe lines on two memory pins from an assessment; returns
+/// Drives fail-safe lines on two memory pins from a decision; returns
 /// (park pin high, alarm pin high).
-fn pins_for(a: &Assessment) -> (bool, bool) {
+fn pins_for(a: &Decision) -> (bool, bool) {
     let mut lines = FailSafeLines::new(MemoryPin::default(), MemoryPin::default());
     lines
         .drive(LineState {
@@ -59,17 +57,17 @@ fn pins_for(a: &Assessment) -> (bool, bool) {
 }
 
 /// Runs steps `from..to` with wind `speed_mps`; returns the levels entered
-/// (in order, each once) and the last assessment.
+/// (in order, each once) and the last decision.
 fn run(
-    g: &mut GuardAssess<'_>,
+    g: &mut GuardRule<'_>,
     from: u64,
     to: u64,
     speed_mps: f32,
     levels: &mut Vec<&'static str>,
-) -> Assessment {
+) -> Decision {
     let mut last = None;
     for i in from..to {
-        let a = g.assess(&samples(i, speed_mps));
+        let a = g.decide(&samples(i, speed_mps));
         if levels.last() != Some(&a.level) {
             levels.push(a.level);
         }
@@ -96,10 +94,10 @@ const WARM_UP_STEPS: u64 = 6031;
 /// guard leaves `sensor_fault` to no lower than `watch`). The figures have
 /// been settled below watch since 3000 ms (the settled timer runs while the
 /// figures are trusted), so the 600 s dwell ends at 603 000 ms: `clear`.
-fn warm_up(g: &mut GuardAssess<'_>, levels: &mut Vec<&'static str>) -> u64 {
+fn warm_up(g: &mut GuardRule<'_>, levels: &mut Vec<&'static str>) -> u64 {
     let mut entered = Vec::new();
     for i in 0..WARM_UP_STEPS {
-        let a = g.assess(&samples(i, 3.0));
+        let a = g.decide(&samples(i, 3.0));
         if entered.last().map(|(s, _)| *s) != Some(a.level) {
             entered.push((a.level, i * PERIOD_MS));
         }
@@ -117,10 +115,10 @@ fn warm_up(g: &mut GuardAssess<'_>, levels: &mut Vec<&'static str>) -> u64 {
 #[test]
 fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
     let rig = example_rig().unwrap();
-    let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
+    let mut g = GuardRule::new(&rig, GuardConfig::default(), 0, None).unwrap();
     let mut levels = Vec::new();
     // Until the guard has readings and has settled, it parks and alarms.
-    let first = g.assess(&samples(0, 3.0));
+    let first = g.decide(&samples(0, 3.0));
     assert_eq!(
         (first.park, first.alarm, first.level),
         (true, true, "sensor_fault")
@@ -133,7 +131,7 @@ fn a_large_steady_wind_parks_then_alarms_with_both_lines_low() {
             class: "no_reading"
         }]
     );
-    let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
+    let mut g = GuardRule::new(&rig, GuardConfig::default(), 0, None).unwrap();
     let w = warm_up(&mut g, &mut levels);
     let calm = run(&mut g, w, w + 100, 3.0, &mut levels);
     assert_eq!((calm.park, calm.alarm, calm.level), (false, false, "clear"));
@@ -178,7 +176,7 @@ fn rank(level: &str) -> usize {
 #[test]
 fn acknowledge_after_a_long_calm_clears_the_latched_alarm() {
     let rig = example_rig().unwrap();
-    let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
+    let mut g = GuardRule::new(&rig, GuardConfig::default(), 0, None).unwrap();
     let mut levels = Vec::new();
     let storm = run(&mut g, 0, 600, 24.0, &mut levels);
     assert!(storm.alarm);
@@ -189,7 +187,7 @@ fn acknowledge_after_a_long_calm_clears_the_latched_alarm() {
     assert_eq!(pins_for(&calm), (false, false));
 
     g.acknowledge();
-    let after = g.assess(&samples(600 + 18_000, 1.0));
+    let after = g.decide(&samples(600 + 18_000, 1.0));
     assert_eq!(
         (after.park, after.alarm, after.level),
         (false, false, "clear")
@@ -200,7 +198,7 @@ fn acknowledge_after_a_long_calm_clears_the_latched_alarm() {
 #[test]
 fn a_guard_sensor_fault_de_energises_both_lines() {
     let rig = example_rig().unwrap();
-    let mut g = GuardAssess::new(&rig, GuardConfig::default(), 0, None).unwrap();
+    let mut g = GuardRule::new(&rig, GuardConfig::default(), 0, None).unwrap();
     // Warmed up to `clear` first, so the fault below is the stuck sensor's,
     // not the start-up's (a guard starts in sensor_fault).
     let w = warm_up(&mut g, &mut Vec::new());
@@ -210,7 +208,7 @@ fn a_guard_sensor_fault_de_energises_both_lines() {
     for i in w..w + 3000 {
         let mut s = samples(i, 3.0);
         s.accel_g = Some(Vec3::new(0.0, 0.0, 1.0));
-        let a = g.assess(&s);
+        let a = g.decide(&s);
         if a.level == "sensor_fault" {
             first_fault = Some((a, g.raised_faults().to_vec()));
             break;
@@ -229,7 +227,7 @@ fn a_guard_sensor_fault_de_energises_both_lines() {
     // Raised once: the next step reports no new fault but stays faulted.
     let mut s = samples(w + 3000, 3.0);
     s.accel_g = Some(Vec3::new(0.0, 0.0, 1.0));
-    let next = g.assess(&s);
+    let next = g.decide(&s);
     assert!(next.park && next.alarm);
     assert!(g.raised_faults().is_empty());
 }

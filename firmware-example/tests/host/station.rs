@@ -74,9 +74,9 @@ const PARK_ONLY: LineState = LineState {
 
 /// The first events of a station with the backstop rule and a level,
 /// answering accelerometer, whose anemometer reports its first speed at
-/// 1000 ms. Before its first assessment the station's level is
+/// 1000 ms. Before its first decision the station's level is
 /// `sensor_fault` (it has judged nothing yet; the guard's can't-see level);
-/// the rule's first assessment at 0 ms names `clear` (no wind sample yet, a
+/// the rule's first decision at 0 ms names `clear` (no wind sample yet, a
 /// level tilt), so a level event at 0 ms, while the station's own
 /// supervision keeps both lines requested until the first wind speed at
 /// 1000 ms (arming).

@@ -1,11 +1,11 @@
-//! The assessment: what the samples of one step mean for the rig.
+//! The decision rule: what the samples of one step mean for the rig.
 //!
-//! **Plug-in point.** The station calls [`Assess::assess`] once per step with
+//! **Plug-in point.** The station calls [`Rule::decide`] once per step with
 //! the samples that arrived in that step and drives the lines from the
-//! returned [`Assessment`] (sensor faults override it toward park and alarm);
-//! faults the assessment raises itself ([`Assess::raised_faults`]) are logged
+//! returned [`Decision`] (sensor faults override it toward park and alarm);
+//! faults the rule raises itself ([`Rule::raised_faults`]) are logged
 //! as events. The `standfast` guard is plugged in this way by
-//! [`crate::guard_adapter::GuardAssess`].
+//! [`crate::guard_adapter::GuardRule`].
 //!
 //! [`LimitRule`], an independent backstop beside the guard, applies fixed
 //! limits on wind speed and ground tilt. It knows nothing of the rig's
@@ -45,10 +45,10 @@ pub struct Samples {
     pub pose: Option<MountPose>,
 }
 
-/// What the assessment asks of the lines, and the name of its level.
+/// What the rule asks of the lines, and the name of its level.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub struct Assessment {
+pub struct Decision {
     /// Request a park.
     pub park: bool,
     /// Raise the alarm.
@@ -57,7 +57,7 @@ pub struct Assessment {
     pub level: &'static str,
 }
 
-/// A sensor fault an assessment raised itself (beyond the station's own
+/// A sensor fault a rule raised itself (beyond the station's own
 /// health supervision), by short lower-case names for event lines.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -71,19 +71,19 @@ pub struct RaisedFault {
     pub class: &'static str,
 }
 
-/// Anything that turns one step's samples into an [`Assessment`].
-pub trait Assess {
-    /// Assesses the samples of one step. Called exactly once per step, with
+/// Anything that turns one step's samples into a [`Decision`].
+pub trait Rule {
+    /// Decides on the samples of one step. Called exactly once per step, with
     /// non-decreasing `samples.t_ms`.
-    fn assess(&mut self, samples: &Samples) -> Assessment;
+    fn decide(&mut self, samples: &Samples) -> Decision;
 
-    /// Sensor faults first raised in the last [`Assess::assess`] call, in
+    /// Sensor faults first raised in the last [`Rule::decide`] call, in
     /// order (none by default). The station logs each as an event.
     fn raised_faults(&self) -> &[RaisedFault] {
         &[]
     }
 
-    /// Events of the last [`Assess::assess`] call that the assessment could
+    /// Events of the last [`Rule::decide`] call that the rule could
     /// not report for lack of room (the guard's
     /// [`standfast::guard::Verdict::events_lost`]); 0 by default. The station
     /// logs a count above 0 as an event.
@@ -201,8 +201,8 @@ impl LimitRule {
     }
 }
 
-impl Assess for LimitRule {
-    fn assess(&mut self, s: &Samples) -> Assessment {
+impl Rule for LimitRule {
+    fn decide(&mut self, s: &Samples) -> Decision {
         let until = s.t_ms.saturating_add(u64::from(self.limits.hold_ms));
         let mut alarm_hit = false;
         let mut park_hit = false;
@@ -232,6 +232,6 @@ impl Assess for LimitRule {
         } else {
             "clear"
         };
-        Assessment { park, alarm, level }
+        Decision { park, alarm, level }
     }
 }
