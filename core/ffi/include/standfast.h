@@ -21,7 +21,7 @@
  * `SF_ABI_VERSION` of the header it was compiled with and refuses to run on
  * a mismatch.
  */
-#define SF_ABI_VERSION 1
+#define SF_ABI_VERSION 2
 
 /**
  * The rig image format version this library reads (see `image`).
@@ -205,9 +205,9 @@ typedef struct SfInputs {
    */
   uint8_t has_air;
   /**
-   * Air temperature, °C.
+   * Air temperature, K (kelvin).
    */
-  float air_temperature_c;
+  float air_temperature_k;
   /**
    * Station pressure, Pa.
    */

@@ -25,7 +25,7 @@ use crate::types::*;
 /// new code or function). A caller compares [`sf_abi_version`] with the
 /// `SF_ABI_VERSION` of the header it was compiled with and refuses to run on
 /// a mismatch.
-pub const SF_ABI_VERSION: u32 = 1;
+pub const SF_ABI_VERSION: u32 = 2;
 /// The rig image format version this library reads (see `image`).
 pub const SF_RIG_IMAGE_VERSION: u32 = 2;
 /// Largest rig image accepted, bytes.
@@ -337,7 +337,7 @@ pub(crate) fn inputs_of(i: &SfInputs) -> Result<Inputs, SfError> {
         None
     };
     let air = flag(i.has_air, "inputs.has_air")?.then_some(AirSample {
-        temperature_k: standfast::air::celsius_to_kelvin(i.air_temperature_c),
+        temperature_k: i.air_temperature_k,
         pressure_pa: i.air_pressure_pa,
     });
     Ok(Inputs {
@@ -572,7 +572,7 @@ unsafe fn init(
     // SAFETY: passed on from the caller.
     let bytes = unsafe { image_bytes(image, image_len)? };
     let img = image::decode(bytes)?;
-    let air = Air::from_density(img.air_density_kg_m3)?;
+    let air = Air::from_density(img.air_density_kg_per_m3)?;
     let rig = Rig::new(&img.spec)?;
     // SAFETY: as above; the rig field is written whole, then borrowed for
     // as long as the storage holds the guard (the caller's promise).
@@ -825,7 +825,7 @@ pub unsafe extern "C" fn sf_assess(
 /// The assessment behind [`sf_assess`].
 pub(crate) fn assess(bytes: &[u8], q: &SfAssessRequest) -> Result<SfAssessment, SfError> {
     let img = image::decode(bytes)?;
-    let air = Air::from_density(img.air_density_kg_m3)?;
+    let air = Air::from_density(img.air_density_kg_per_m3)?;
     let rig = Rig::new(&img.spec)?;
     let pose = if flag(q.has_pose, "request.has_pose")? {
         pose_of(&q.pose, "request.pose.kind", "request.pose.pier_side")?

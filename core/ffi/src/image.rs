@@ -56,7 +56,7 @@ pub struct RigImage {
     pub guard: GuardConfig,
     /// Air density at the site until measured air arrives, kg/m³ (the ISO
     /// 2533 standard atmosphere at the rig file's elevation).
-    pub air_density_kg_m3: f32,
+    pub air_density_kg_per_m3: f32,
 }
 
 /// Why an image cannot be read or written.
@@ -112,7 +112,7 @@ fn image_crc(head12: &[u8], payload: &[u8]) -> u32 {
 /// a value cannot be encoded.
 pub fn encode(image: &RigImage, out: &mut [u8]) -> Result<usize, ImageError> {
     let payload_out = out.get_mut(IMAGE_HEADER_BYTES..).ok_or(ImageError::Full)?;
-    let triple = (&image.spec, &image.guard, image.air_density_kg_m3);
+    let triple = (&image.spec, &image.guard, image.air_density_kg_per_m3);
     let n = wire::encode(&triple, payload_out).map_err(|e| match e {
         WireError::Full => ImageError::Full,
         other => ImageError::Payload(other),
@@ -176,12 +176,12 @@ pub fn decode(bytes: &[u8]) -> Result<RigImage, ImageError> {
     if image_crc(&head12, payload) != crc {
         return Err(ImageError::Checksum);
     }
-    let (spec, guard, air_density_kg_m3): (RigSpec, GuardConfig, f32) =
+    let (spec, guard, air_density_kg_per_m3): (RigSpec, GuardConfig, f32) =
         wire::decode(payload).map_err(ImageError::Payload)?;
     Ok(RigImage {
         spec,
         guard,
-        air_density_kg_m3,
+        air_density_kg_per_m3,
     })
 }
 

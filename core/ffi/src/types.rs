@@ -106,8 +106,8 @@ pub struct SfInputs {
     pub cover_fitted: u8,
     /// 1 when the air fields hold a measurement.
     pub has_air: u8,
-    /// Air temperature, °C.
-    pub air_temperature_c: f32,
+    /// Air temperature, K (kelvin).
+    pub air_temperature_k: f32,
     /// Station pressure, Pa.
     pub air_pressure_pa: f32,
 }

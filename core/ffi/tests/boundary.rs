@@ -102,7 +102,7 @@ fn no_inputs() -> SfInputs {
         has_cover: 0,
         cover_fitted: 0,
         has_air: 0,
-        air_temperature_c: 0.0,
+        air_temperature_k: 0.0,
         air_pressure_pa: 0.0,
     }
 }
@@ -464,7 +464,7 @@ fn out_of_range_rig_values_give_the_core_error() {
     );
     // Air denser than any on Earth.
     let mut img = decoded();
-    img.air_density_kg_m3 = 50.0;
+    img.air_density_kg_per_m3 = 50.0;
     let want = standfast::air::Air::from_density(50.0).unwrap_err();
     let (st, e, _) = init(&s, &encoded(&img));
     assert_eq!(
@@ -593,7 +593,7 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
     let img = decoded();
     let rig = Rig::new(&img.spec).unwrap();
     let mut rust = Guard::new(&rig, img.guard.clone(), Millis(0)).unwrap();
-    rust.set_air(standfast::air::Air::from_density(img.air_density_kg_m3).unwrap());
+    rust.set_air(standfast::air::Air::from_density(img.air_density_kg_per_m3).unwrap());
     let s = storage();
     let (_, _, g) = init(&s, IMAGE);
     let seq: Vec<(u64, SfInputs)> = vec![
@@ -633,7 +633,7 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
                 has_cover: 1,
                 cover_fitted: 1,
                 has_air: 1,
-                air_temperature_c: 10.0,
+                air_temperature_k: 283.15,
                 air_pressure_pa: 95_000.0,
                 ..level_calm()
             },
@@ -661,7 +661,7 @@ fn bad_samples_become_the_same_faults_as_in_rust() {
             }),
             cover_fitted: (i.has_cover == 1).then_some(i.cover_fitted == 1),
             air: (i.has_air == 1).then_some(standfast::guard::AirSample {
-                temperature_k: standfast::air::celsius_to_kelvin(i.air_temperature_c),
+                temperature_k: i.air_temperature_k,
                 pressure_pa: i.air_pressure_pa,
             }),
         };
@@ -700,7 +700,7 @@ fn assess(q: &SfAssessRequest) -> (SfStatus, SfError, Box<SfAssessment>) {
 fn assessment_matches_the_rust_api() {
     let img = decoded();
     let rig = Rig::new(&img.spec).unwrap();
-    let air = standfast::air::Air::from_density(img.air_density_kg_m3).unwrap();
+    let air = standfast::air::Air::from_density(img.air_density_kg_per_m3).unwrap();
     let mut c = standfast::rig::Conditions::calm(rig.mount().home_pose());
     c.air = air;
     let (st, e, a) = assess(&request());

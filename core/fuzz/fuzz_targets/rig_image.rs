@@ -55,7 +55,7 @@ fuzz_target!(|data: &[u8]| {
             has_cover: 0,
             cover_fitted: 0,
             has_air: 0,
-            air_temperature_c: 0.0,
+            air_temperature_k: 0.0,
             air_pressure_pa: 0.0,
         };
         let mut verdict = std::mem::MaybeUninit::<SfVerdict>::uninit();

@@ -216,7 +216,7 @@ pub fn exercise(u: &Unknowns) -> Tally {
 
 fn rig_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
     let tilt = Tilt::new(u.tilt_rad[0], u.tilt_rad[1]).unwrap_or(Tilt::LEVEL);
-    let air = Air::from_density(u.air_density_kg_m3).unwrap_or_default();
+    let air = Air::from_density(u.air_density_kg_per_m3).unwrap_or_default();
     let c = Conditions {
         pose: pose(u),
         tilt,
@@ -354,7 +354,7 @@ fn weighing_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
             u.measured_cg_m[2],
             Vec3::new(0.0, 0.0, u.measured_cg_m[2]),
             u.wind_from_rad,
-            0.5 * u.air_density_kg_m3 * u.gust_mps * u.gust_mps,
+            0.5 * u.air_density_kg_per_m3 * u.gust_mps * u.gust_mps,
         ));
     }
 }
@@ -377,7 +377,7 @@ fn guard_calls(t: &mut Tally, rig: &Rig, u: &Unknowns) {
             pose: (k % 5 == 0).then(|| pose(u)),
             cover_fitted: (k % 50 == 0).then_some(k % 100 == 0),
             air: (k % 20 == 0).then_some(AirSample {
-                temperature_k: standfast::air::celsius_to_kelvin(u.temperature_c),
+                temperature_k: u.temperature_k,
                 pressure_pa: u.pressure_pa,
             }),
         };

@@ -125,7 +125,7 @@ pub fn ffi_calls(t: &mut Tally, u: &Unknowns) {
             has_cover: f[4] & u8::from(k % 50 == 0),
             cover_fitted: f[5],
             has_air: f[6] | u8::from(k % 20 == 0),
-            air_temperature_c: u.temperature_c,
+            air_temperature_k: u.temperature_k,
             air_pressure_pa: u.pressure_pa,
         };
         let now = u

@@ -68,7 +68,7 @@ pub struct Unknowns {
     /// Direction the wind blows from, rad.
     pub wind_from_rad: f32,
     /// Air density, kg/m³.
-    pub air_density_kg_m3: f32,
+    pub air_density_kg_per_m3: f32,
     /// 1: cover fitted.
     pub cover_fitted: u32,
     /// Number of guard steps.
@@ -79,8 +79,8 @@ pub struct Unknowns {
     pub sample_period_ms: u32,
     /// Raw accelerometer sample, g, sensor axes.
     pub accel_g: [f32; 3],
-    /// Air temperature, °C.
-    pub temperature_c: f32,
+    /// Air temperature, K.
+    pub temperature_k: f32,
     /// Station pressure, Pa.
     pub pressure_pa: f32,
     /// Nominal thread diameter, mm.
@@ -151,13 +151,13 @@ pub static UNKNOWNS: Unknowns = Unknowns {
     gust_mps: 12.0,
     mean_wind_mps: 6.0,
     wind_from_rad: 4.7,
-    air_density_kg_m3: 1.2,
+    air_density_kg_per_m3: 1.2,
     cover_fitted: 0,
     guard_steps: 200,
     start_ms: 1_000,
     sample_period_ms: 250,
     accel_g: [0.01, -0.02, 0.999],
-    temperature_c: 8.0,
+    temperature_k: 281.15,
     pressure_pa: 95_000.0,
     thread_nominal_mm: 12.0,
     engagement_mm: 10.0,

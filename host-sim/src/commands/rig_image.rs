@@ -43,7 +43,7 @@ pub fn image_bytes(r: &LoadedRig) -> Result<Vec<u8>, Error> {
     let img = RigImage {
         spec: r.spec.clone(),
         guard: r.guard.clone(),
-        air_density_kg_m3: r.air.density_kg_per_m3(),
+        air_density_kg_per_m3: r.air.density_kg_per_m3(),
     };
     let mut buf = vec![0u8; IMAGE_MAX_BYTES];
     let n = image::encode(&img, &mut buf).map_err(|e| {

@@ -246,7 +246,7 @@ pub struct AssessReport {
     /// Centre of gravity in the home pose, rig frame (x east, y north, z up), m.
     pub centre_of_gravity_m: [f32; 3],
     /// Air density used (ISA at the site elevation), kg/m³.
-    pub air_density_kg_m3: f32,
+    pub air_density_kg_per_m3: f32,
     /// Tip wind speed every 15° in the home pose, cover off.
     pub home_by_direction: Vec<DirectionRow>,
     /// Lowest tip wind over directions in the home pose, cover off.
@@ -788,7 +788,7 @@ pub fn assess(r: &LoadedRig, o: &AssessOptions) -> Result<AssessReport, Error> {
         file: r.file.clone(),
         mass_kg: placement.mass_kg(),
         centre_of_gravity_m: cg.to_array(),
-        air_density_kg_m3: r.air.density_kg_per_m3(),
+        air_density_kg_per_m3: r.air.density_kg_per_m3(),
         home_by_direction: by_dir,
         home_worst,
         home_worst_covered,

@@ -58,7 +58,7 @@ pub fn write_text(rep: &AssessReport, out: &mut dyn Write) -> std::io::Result<()
     writeln!(
         out,
         "  air density {:.3} kg/m³ (ISA at the site elevation)",
-        rep.air_density_kg_m3
+        rep.air_density_kg_per_m3
     )?;
     writeln!(out, "\nTip wind speed by direction, home pose, cover off:")?;
     for row in &rep.home_by_direction {
@@ -508,7 +508,7 @@ fn rig_table(page: &mut Page, rep: &AssessReport) {
         ],
         vec![
             "air density (ISA at the site elevation)".to_owned(),
-            format!("{:.3} kg/m³", rep.air_density_kg_m3),
+            format!("{:.3} kg/m³", rep.air_density_kg_per_m3),
         ],
     ];
     if let Some(m) = &rep.measured {

@@ -25,7 +25,7 @@ fn firmware_rig_gives_the_committed_image() {
     let back = image::decode(&bytes).unwrap();
     assert_eq!(back.spec, r.spec);
     assert_eq!(back.guard, r.guard);
-    assert_eq!(back.air_density_kg_m3, r.air.density_kg_per_m3());
+    assert_eq!(back.air_density_kg_per_m3, r.air.density_kg_per_m3());
 }
 
 #[test]

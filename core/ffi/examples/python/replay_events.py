@@ -30,7 +30,7 @@ SF_OK = 0
 SF_FIELD_BYTES = 64
 SF_MAX_FAULTS = 8
 SF_MAX_EVENTS = 8
-SF_ABI_VERSION = 1
+SF_ABI_VERSION = 2
 SF_EVENT_LEVEL_CHANGED = 0
 SF_EVENT_FAULT_RAISED = 1
 SF_POSE_EQUATORIAL = 1
@@ -75,7 +75,7 @@ class SfInputs(C.Structure):
         ("has_cover", C.c_uint8),
         ("cover_fitted", C.c_uint8),
         ("has_air", C.c_uint8),
-        ("air_temperature_c", C.c_float),
+        ("air_temperature_k", C.c_float),
         ("air_pressure_pa", C.c_float),
     ]
 
