@@ -31,8 +31,8 @@ pub enum ErrorKind {
 }
 
 /// Which field an [`Error`] is about: one variant per checked field of the
-/// crate's inputs, named after its dotted path in the configuration types
-/// ([`Field::path`]), with its unit as data ([`Field::unit`]).
+/// crate's inputs, with its dotted path ([`Field::path`], whose scheme it
+/// documents) and its unit as data ([`Field::unit`]).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[non_exhaustive]
@@ -43,13 +43,13 @@ pub enum Field {
     AirPressurePa,
     /// `air.temperature_k`.
     AirTemperatureK,
-    /// `ballast`.
+    /// `rig.ballast`.
     Ballast,
     /// `ballast.mass_kg`.
     BallastMassKg,
     /// `ballast.position_m`.
     BallastPositionM,
-    /// `bodies`.
+    /// `rig.bodies`.
     Bodies,
     /// `bodies.cg_m`.
     BodiesCgM,
@@ -81,7 +81,7 @@ pub enum Field {
     ConditionsWindFromRad,
     /// `conditions.wind_speed_mps`.
     ConditionsWindSpeedMps,
-    /// `counterweights`.
+    /// `rig.counterweights`.
     Counterweights,
     /// `counterweights.diameter_m`.
     CounterweightsDiameterM,
@@ -93,15 +93,15 @@ pub enum Field {
     CounterweightsMassKg,
     /// `counterweights.thickness_m`.
     CounterweightsThicknessM,
-    /// `cover`.
+    /// `rig.cover`.
     Cover,
     /// `cover.centre_m`.
     CoverCentreM,
     /// `cover.mass_kg`.
     CoverMassKg,
-    /// `design_speed_mps`.
+    /// `ballast_sizing.design_speed_mps`.
     DesignSpeedMps,
-    /// `drives`.
+    /// `rig.drives`.
     Drives,
     /// `drives.primary`.
     DrivesPrimary,
@@ -125,7 +125,7 @@ pub enum Field {
     ExposureLengthM,
     /// `exposure.size_m`.
     ExposureSizeM,
-    /// `friction_coefficient`.
+    /// `rig.friction_coefficient`.
     FrictionCoefficient,
     /// `guard.alarm_utilisation`.
     GuardAlarmUtilisation,
@@ -165,7 +165,7 @@ pub enum Field {
     JointLoadMomentXNm,
     /// `joint_load.moment_y_nm`.
     JointLoadMomentYNm,
-    /// `legs`.
+    /// `rig.legs`.
     Legs,
     /// `legs.diameter_m`.
     LegsDiameterM,
@@ -179,9 +179,9 @@ pub enum Field {
     MaterialUltimateMpa,
     /// `material.yield_mpa`.
     MaterialYieldMpa,
-    /// `mean_wind_mps`.
+    /// `axis_loads.mean_wind_mps`.
     MeanWindMps,
-    /// `measured`.
+    /// `rig.measured`.
     Measured,
     /// `measured.centre_m`.
     MeasuredCentreM,
@@ -191,15 +191,15 @@ pub enum Field {
     MountAxisOriginM,
     /// `mount.latitude_rad`.
     MountLatitudeRad,
-    /// `mounting.axes`.
+    /// `guard.tilt.mounting.axes`.
     MountingAxes,
-    /// `mounting.sensor_to_rig`.
+    /// `guard.tilt.mounting.sensor_to_rig`.
     MountingSensorToRig,
     /// `park.wind_from_rad`.
     ParkWindFromRad,
     /// `park.wind_speed_mps`.
     ParkWindSpeedMps,
-    /// `payload`.
+    /// `payload.pick`.
     Payload,
     /// `payload.body`.
     PayloadBody,
@@ -219,7 +219,7 @@ pub enum Field {
     PoseSecondaryRad,
     /// `rig.mass_kg`.
     RigMassKg,
-    /// `shaft`.
+    /// `rig.shaft`.
     Shaft,
     /// `shaft.bore_mm`.
     ShaftBoreMm,
@@ -245,7 +245,7 @@ pub enum Field {
     ShaftLoadMassKg,
     /// `site.elevation_m`.
     SiteElevationM,
-    /// `sky_grid`.
+    /// `sky_grid.poses`.
     SkyGrid,
     /// `sky_grid.horizon_limit_rad`.
     SkyGridHorizonLimitRad,
@@ -283,7 +283,7 @@ pub enum Field {
     SupportLegSpreadM,
     /// `support.plate.size_m`.
     SupportPlateSizeM,
-    /// `target_utilisation`.
+    /// `ballast_sizing.target_utilisation`.
     TargetUtilisation,
     /// `thread.name`.
     ThreadName,
@@ -301,39 +301,39 @@ pub enum Field {
     ThreadLimitsIntPitchMaxMm,
     /// `thread_limits.pitch_mm`.
     ThreadLimitsPitchMm,
-    /// `tilt.band_max_g`.
+    /// `guard.tilt.band_max_g`.
     TiltBandMaxG,
-    /// `tilt.band_min_g`.
+    /// `guard.tilt.band_min_g`.
     TiltBandMinG,
     /// `tilt.downhill_azimuth_rad`.
     TiltDownhillAzimuthRad,
-    /// `tilt.drift_tau_s`.
+    /// `guard.tilt.drift_tau_s`.
     TiltDriftTauS,
-    /// `tilt.filter_tau_s`.
+    /// `guard.tilt.filter_tau_s`.
     TiltFilterTauS,
     /// `tilt.gravity`.
     TiltGravity,
-    /// `tilt.level_capture_s`.
+    /// `guard.tilt.level_capture_s`.
     TiltLevelCaptureS,
-    /// `tilt.level_reference`.
+    /// `tilt_sensor.level_reference`.
     TiltLevelReference,
-    /// `tilt.level_reference.z`.
+    /// `tilt_sensor.level_reference.z`.
     TiltLevelReferenceZ,
     /// `tilt.magnitude_rad`.
     TiltMagnitudeRad,
-    /// `tilt.out_of_band_limit_s`.
+    /// `guard.tilt.out_of_band_limit_s`.
     TiltOutOfBandLimitS,
-    /// `tilt.scale_g_per_count`.
+    /// `guard.tilt.scale_g_per_count`.
     TiltScaleGPerCount,
-    /// `tilt.specific_force`.
+    /// `tilt_sensor.specific_force`.
     TiltSpecificForce,
-    /// `tilt.stale_after_s`.
+    /// `guard.tilt.stale_after_s`.
     TiltStaleAfterS,
-    /// `tilt.step_limit_rad`.
+    /// `guard.tilt.step_limit_rad`.
     TiltStepLimitRad,
-    /// `tilt.step_tau_s`.
+    /// `guard.tilt.step_tau_s`.
     TiltStepTauS,
-    /// `tilt.stuck_after_s`.
+    /// `guard.tilt.stuck_after_s`.
     TiltStuckAfterS,
     /// `weighing.height_m`.
     WeighingHeightM,
@@ -365,27 +365,27 @@ pub enum Field {
     WeighingTipAngleUncertaintyRad,
     /// `weighing.tip.edge_feet`.
     WeighingTipEdgeFeet,
-    /// `wind.calm_below_mps`.
+    /// `guard.wind.calm_below_mps`.
     WindCalmBelowMps,
-    /// `wind.direction_window_s`.
+    /// `guard.wind.direction_window_s`.
     WindDirectionWindowS,
-    /// `wind.max_speed_mps`.
+    /// `guard.wind.max_speed_mps`.
     WindMaxSpeedMps,
-    /// `wind.mean_gust_factor`.
+    /// `guard.wind.mean_gust_factor`.
     WindMeanGustFactor,
-    /// `wind.peak_window_s`.
+    /// `guard.wind.peak_window_s`.
     WindPeakWindowS,
-    /// `wind.stale_after_s`.
+    /// `guard.wind.stale_after_s`.
     WindStaleAfterS,
-    /// `wind.stuck_after_s`.
+    /// `guard.wind.stuck_after_s`.
     WindStuckAfterS,
-    /// `wind.variable_spread_rad`.
+    /// `guard.wind.variable_spread_rad`.
     WindVariableSpreadRad,
-    /// `wind.z_from_m`.
+    /// `guard.wind.z_from_m`.
     WindZFromM,
-    /// `wind.z_to_m`.
+    /// `guard.wind.z_to_m`.
     WindZToM,
-    /// `wind_from_rad`.
+    /// `axis_terms.wind_from_rad`.
     WindFromRad,
     /// A field of the integrating program's own inputs, checked with this
     /// crate's [`Error`] (the crate itself never returns it): its dotted path
@@ -399,7 +399,7 @@ pub enum Field {
 }
 
 impl Field {
-    /// Every field of the crate's own inputs, in the order of their paths.
+    /// Every field of the crate's own inputs, in the order of the variants.
     pub const ALL: [Field; 175] = [
         Field::AirDensityKgPerM3,
         Field::AirPressurePa,
@@ -578,19 +578,41 @@ impl Field {
         Field::WindFromRad,
     ];
 
-    /// The dotted path of the field in the configuration types (for example
-    /// `"support.feet.position_m"`), stable for hosts that map it to their
-    /// own keys.
+    /// The dotted path of the field (for example `"support.feet.position_m"`),
+    /// stable for hosts that map it to their own keys.
+    ///
+    /// **Scheme.** `holder.field`, or `holder.part.field` for a field of a
+    /// part the holder contains: at least two segments of lower-case
+    /// `snake_case`. The first segment names the value that holds the field,
+    /// one name per kind of value, and the last is the field's own name, with
+    /// its unit suffix when it has a unit (`_m`, `_rad`, `_kg_per_m3`, ...). A
+    /// list or part as a whole is a field of its holder (`rig.ballast`, the
+    /// rig's ballast list; `ballast.mass_kg`, one ballast's mass). The
+    /// holders:
+    ///
+    /// | first segment | the value that holds the field |
+    /// |---|---|
+    /// | `rig` | the rig description as a whole ([`crate::rig::RigSpec`]) |
+    /// | `ballast`, `bodies`, `counterweights`, `cover`, `drives`, `exposure`, `legs`, `measured`, `mount`, `shaft`, `support`, `site` | one part of the rig description (a body's wind `exposure`; the `measured` centre of gravity; the `site` of the air) |
+    /// | `payload`, `payload_envelope`, `sky_grid`, `sky_scan`, `park` | a payload pick, an envelope, a sky grid, a sky scan, a park-pose search |
+    /// | `conditions`, `pose`, `tilt`, `air` | conditions of an assessment, a mount pose, a ground tilt, the air |
+    /// | `guard` | the guard's configuration, with `guard.wind` and `guard.tilt` (and `guard.tilt.mounting`) for its wind and tilt settings |
+    /// | `tilt_sensor` | the tilt sensor's inputs (a specific force, a level reference) |
+    /// | `ballast_sizing`, `axis_loads`, `axis_terms` | the loose inputs of a function of that name |
+    /// | `weighing` | a weighing (scale readings) |
+    /// | `bolt_circle`, `bolt_pattern`, `joint`, `joint_load`, `material`, `shaft_load`, `strip`, `thread`, `thread_limits` | an attachment-hardware check |
+    ///
+    /// A test lists every path and checks it against this scheme.
     #[must_use]
     pub const fn path(self) -> &'static str {
         match self {
             Field::AirDensityKgPerM3 => "air.density_kg_per_m3",
             Field::AirPressurePa => "air.pressure_pa",
             Field::AirTemperatureK => "air.temperature_k",
-            Field::Ballast => "ballast",
+            Field::Ballast => "rig.ballast",
             Field::BallastMassKg => "ballast.mass_kg",
             Field::BallastPositionM => "ballast.position_m",
-            Field::Bodies => "bodies",
+            Field::Bodies => "rig.bodies",
             Field::BodiesCgM => "bodies.cg_m",
             Field::BodiesMassKg => "bodies.mass_kg",
             Field::BoltCircleCount => "bolt_circle.count",
@@ -606,17 +628,17 @@ impl Field {
             Field::ConditionsTiltMagnitudeRad => "conditions.tilt.magnitude_rad",
             Field::ConditionsWindFromRad => "conditions.wind_from_rad",
             Field::ConditionsWindSpeedMps => "conditions.wind_speed_mps",
-            Field::Counterweights => "counterweights",
+            Field::Counterweights => "rig.counterweights",
             Field::CounterweightsDiameterM => "counterweights.diameter_m",
             Field::CounterweightsDistanceM => "counterweights.distance_m",
             Field::CounterweightsDragCoefficient => "counterweights.drag_coefficient",
             Field::CounterweightsMassKg => "counterweights.mass_kg",
             Field::CounterweightsThicknessM => "counterweights.thickness_m",
-            Field::Cover => "cover",
+            Field::Cover => "rig.cover",
             Field::CoverCentreM => "cover.centre_m",
             Field::CoverMassKg => "cover.mass_kg",
-            Field::DesignSpeedMps => "design_speed_mps",
-            Field::Drives => "drives",
+            Field::DesignSpeedMps => "ballast_sizing.design_speed_mps",
+            Field::Drives => "rig.drives",
             Field::DrivesPrimary => "drives.primary",
             Field::DrivesSecondary => "drives.secondary",
             Field::DrivesSlewAccelerationRadPerS2 => "drives.slew_acceleration_rad_per_s2",
@@ -628,7 +650,7 @@ impl Field {
             Field::ExposureEndDragCoefficient => "exposure.end_drag_coefficient",
             Field::ExposureLengthM => "exposure.length_m",
             Field::ExposureSizeM => "exposure.size_m",
-            Field::FrictionCoefficient => "friction_coefficient",
+            Field::FrictionCoefficient => "rig.friction_coefficient",
             Field::GuardAlarmUtilisation => "guard.alarm_utilisation",
             Field::GuardClearRatio => "guard.clear_ratio",
             Field::GuardDriftWatchRadPerS => "guard.drift_watch_rad_per_s",
@@ -648,24 +670,24 @@ impl Field {
             Field::JointLoadAxialN => "joint_load.axial_n",
             Field::JointLoadMomentXNm => "joint_load.moment_x_nm",
             Field::JointLoadMomentYNm => "joint_load.moment_y_nm",
-            Field::Legs => "legs",
+            Field::Legs => "rig.legs",
             Field::LegsDiameterM => "legs.diameter_m",
             Field::LegsMassKg => "legs.mass_kg",
             Field::LegsTopHeightM => "legs.top_height_m",
             Field::LegsTopRadiusM => "legs.top_radius_m",
             Field::MaterialUltimateMpa => "material.ultimate_mpa",
             Field::MaterialYieldMpa => "material.yield_mpa",
-            Field::MeanWindMps => "mean_wind_mps",
-            Field::Measured => "measured",
+            Field::MeanWindMps => "axis_loads.mean_wind_mps",
+            Field::Measured => "rig.measured",
             Field::MeasuredCentreM => "measured.centre_m",
             Field::MeasuredMassKg => "measured.mass_kg",
             Field::MountAxisOriginM => "mount.axis_origin_m",
             Field::MountLatitudeRad => "mount.latitude_rad",
-            Field::MountingAxes => "mounting.axes",
-            Field::MountingSensorToRig => "mounting.sensor_to_rig",
+            Field::MountingAxes => "guard.tilt.mounting.axes",
+            Field::MountingSensorToRig => "guard.tilt.mounting.sensor_to_rig",
             Field::ParkWindFromRad => "park.wind_from_rad",
             Field::ParkWindSpeedMps => "park.wind_speed_mps",
-            Field::Payload => "payload",
+            Field::Payload => "payload.pick",
             Field::PayloadBody => "payload.body",
             Field::PayloadEnvelopeOffsets => "payload_envelope.offsets",
             Field::PoseAltitudeRad => "pose.altitude_rad",
@@ -675,7 +697,7 @@ impl Field {
             Field::PosePrimaryRad => "pose.primary_rad",
             Field::PoseSecondaryRad => "pose.secondary_rad",
             Field::RigMassKg => "rig.mass_kg",
-            Field::Shaft => "shaft",
+            Field::Shaft => "rig.shaft",
             Field::ShaftBoreMm => "shaft.bore_mm",
             Field::ShaftDiameterM => "shaft.diameter_m",
             Field::ShaftDiameterMm => "shaft.diameter_mm",
@@ -688,7 +710,7 @@ impl Field {
             Field::ShaftLoadLeverArmM => "shaft_load.lever_arm_m",
             Field::ShaftLoadMassKg => "shaft_load.mass_kg",
             Field::SiteElevationM => "site.elevation_m",
-            Field::SkyGrid => "sky_grid",
+            Field::SkyGrid => "sky_grid.poses",
             Field::SkyGridHorizonLimitRad => "sky_grid.horizon_limit_rad",
             Field::SkyGridPrimarySteps => "sky_grid.primary_steps",
             Field::SkyGridSecondarySteps => "sky_grid.secondary_steps",
@@ -707,7 +729,7 @@ impl Field {
             Field::SupportFootCircleRadiusM => "support.foot_circle_radius_m",
             Field::SupportLegSpreadM => "support.leg_spread_m",
             Field::SupportPlateSizeM => "support.plate.size_m",
-            Field::TargetUtilisation => "target_utilisation",
+            Field::TargetUtilisation => "ballast_sizing.target_utilisation",
             Field::ThreadName => "thread.name",
             Field::ThreadNamePitchMm => "thread.name.pitch_mm",
             Field::ThreadNominalMm => "thread.nominal_mm",
@@ -716,23 +738,23 @@ impl Field {
             Field::ThreadLimitsIntMinorMaxMm => "thread_limits.int_minor_max_mm",
             Field::ThreadLimitsIntPitchMaxMm => "thread_limits.int_pitch_max_mm",
             Field::ThreadLimitsPitchMm => "thread_limits.pitch_mm",
-            Field::TiltBandMaxG => "tilt.band_max_g",
-            Field::TiltBandMinG => "tilt.band_min_g",
+            Field::TiltBandMaxG => "guard.tilt.band_max_g",
+            Field::TiltBandMinG => "guard.tilt.band_min_g",
             Field::TiltDownhillAzimuthRad => "tilt.downhill_azimuth_rad",
-            Field::TiltDriftTauS => "tilt.drift_tau_s",
-            Field::TiltFilterTauS => "tilt.filter_tau_s",
+            Field::TiltDriftTauS => "guard.tilt.drift_tau_s",
+            Field::TiltFilterTauS => "guard.tilt.filter_tau_s",
             Field::TiltGravity => "tilt.gravity",
-            Field::TiltLevelCaptureS => "tilt.level_capture_s",
-            Field::TiltLevelReference => "tilt.level_reference",
-            Field::TiltLevelReferenceZ => "tilt.level_reference.z",
+            Field::TiltLevelCaptureS => "guard.tilt.level_capture_s",
+            Field::TiltLevelReference => "tilt_sensor.level_reference",
+            Field::TiltLevelReferenceZ => "tilt_sensor.level_reference.z",
             Field::TiltMagnitudeRad => "tilt.magnitude_rad",
-            Field::TiltOutOfBandLimitS => "tilt.out_of_band_limit_s",
-            Field::TiltScaleGPerCount => "tilt.scale_g_per_count",
-            Field::TiltSpecificForce => "tilt.specific_force",
-            Field::TiltStaleAfterS => "tilt.stale_after_s",
-            Field::TiltStepLimitRad => "tilt.step_limit_rad",
-            Field::TiltStepTauS => "tilt.step_tau_s",
-            Field::TiltStuckAfterS => "tilt.stuck_after_s",
+            Field::TiltOutOfBandLimitS => "guard.tilt.out_of_band_limit_s",
+            Field::TiltScaleGPerCount => "guard.tilt.scale_g_per_count",
+            Field::TiltSpecificForce => "tilt_sensor.specific_force",
+            Field::TiltStaleAfterS => "guard.tilt.stale_after_s",
+            Field::TiltStepLimitRad => "guard.tilt.step_limit_rad",
+            Field::TiltStepTauS => "guard.tilt.step_tau_s",
+            Field::TiltStuckAfterS => "guard.tilt.stuck_after_s",
             Field::WeighingHeightM => "weighing.height_m",
             Field::WeighingLevelN => "weighing.level_n",
             Field::WeighingLiftAngleRad => "weighing.lift.angle_rad",
@@ -748,17 +770,17 @@ impl Field {
             Field::WeighingTipAngleRad => "weighing.tip.angle_rad",
             Field::WeighingTipAngleUncertaintyRad => "weighing.tip.angle_uncertainty_rad",
             Field::WeighingTipEdgeFeet => "weighing.tip.edge_feet",
-            Field::WindCalmBelowMps => "wind.calm_below_mps",
-            Field::WindDirectionWindowS => "wind.direction_window_s",
-            Field::WindMaxSpeedMps => "wind.max_speed_mps",
-            Field::WindMeanGustFactor => "wind.mean_gust_factor",
-            Field::WindPeakWindowS => "wind.peak_window_s",
-            Field::WindStaleAfterS => "wind.stale_after_s",
-            Field::WindStuckAfterS => "wind.stuck_after_s",
-            Field::WindVariableSpreadRad => "wind.variable_spread_rad",
-            Field::WindZFromM => "wind.z_from_m",
-            Field::WindZToM => "wind.z_to_m",
-            Field::WindFromRad => "wind_from_rad",
+            Field::WindCalmBelowMps => "guard.wind.calm_below_mps",
+            Field::WindDirectionWindowS => "guard.wind.direction_window_s",
+            Field::WindMaxSpeedMps => "guard.wind.max_speed_mps",
+            Field::WindMeanGustFactor => "guard.wind.mean_gust_factor",
+            Field::WindPeakWindowS => "guard.wind.peak_window_s",
+            Field::WindStaleAfterS => "guard.wind.stale_after_s",
+            Field::WindStuckAfterS => "guard.wind.stuck_after_s",
+            Field::WindVariableSpreadRad => "guard.wind.variable_spread_rad",
+            Field::WindZFromM => "guard.wind.z_from_m",
+            Field::WindZToM => "guard.wind.z_to_m",
+            Field::WindFromRad => "axis_terms.wind_from_rad",
             Field::External { path, .. } => path,
         }
     }
@@ -1254,6 +1276,90 @@ mod tests {
             if let Some((_, unit)) = want {
                 assert_eq!(a.unit(), unit, "{p}");
             }
+        }
+    }
+
+    /// Every path follows the scheme of [`Field::path`]: two or more
+    /// lower-case snake_case segments, a first segment from its table of
+    /// holders, and each holder used for one kind of value only (`tilt` a
+    /// ground tilt; the tilt settings under `guard.tilt`, the sensor's inputs
+    /// under `tilt_sensor`; the wind settings under `guard.wind`).
+    #[test]
+    fn field_paths_follow_the_documented_scheme() {
+        const HOLDERS: [&str; 37] = [
+            "rig",
+            "ballast",
+            "bodies",
+            "counterweights",
+            "cover",
+            "drives",
+            "exposure",
+            "legs",
+            "measured",
+            "mount",
+            "shaft",
+            "support",
+            "site",
+            "payload",
+            "payload_envelope",
+            "sky_grid",
+            "sky_scan",
+            "park",
+            "conditions",
+            "pose",
+            "tilt",
+            "air",
+            "guard",
+            "tilt_sensor",
+            "ballast_sizing",
+            "axis_loads",
+            "axis_terms",
+            "weighing",
+            "bolt_circle",
+            "bolt_pattern",
+            "joint",
+            "joint_load",
+            "material",
+            "shaft_load",
+            "strip",
+            "thread",
+            "thread_limits",
+        ];
+        let mut used = [false; HOLDERS.len()];
+        for f in Field::ALL {
+            let p = f.path();
+            let segments: heapless::Vec<&str, 8> = p.split('.').collect();
+            assert!(segments.len() >= 2, "{p}: one segment");
+            for s in &segments {
+                let ok = s.bytes().next().is_some_and(|b| b.is_ascii_lowercase())
+                    && s.bytes()
+                        .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'_');
+                assert!(ok, "{p}: segment {s:?} is not lower-case snake_case");
+            }
+            let holder = segments.first().copied().unwrap_or_default();
+            let i = HOLDERS.iter().position(|h| *h == holder);
+            assert!(i.is_some(), "{p}: {holder:?} is not a documented holder");
+            if let Some(i) = i {
+                if let Some(u) = used.get_mut(i) {
+                    *u = true;
+                }
+            }
+            // One meaning per holder.
+            if holder == "tilt" {
+                let field = segments.get(1).copied().unwrap_or_default();
+                assert!(
+                    ["magnitude_rad", "downhill_azimuth_rad", "gravity"].contains(&field),
+                    "{p}: `tilt` is a ground tilt only"
+                );
+            }
+            if holder == "guard" && segments.len() > 2 {
+                let part = segments.get(1).copied().unwrap_or_default();
+                assert!(["wind", "tilt"].contains(&part), "{p}: unknown guard part");
+            }
+        }
+        // The table holds no holder that no path uses.
+        for (h, u) in HOLDERS.iter().zip(used) {
+            assert!(u, "{h} unused");
         }
     }
 

@@ -770,7 +770,7 @@ fn assessment_checks_its_request() {
                 ..request()
             },
             SF_ERR_OUT_OF_RANGE,
-            "target_utilisation",
+            "ballast_sizing.target_utilisation",
         ),
         (
             SfAssessRequest {
@@ -778,7 +778,7 @@ fn assessment_checks_its_request() {
                 ..request()
             },
             SF_ERR_NOT_FINITE,
-            "design_speed_mps",
+            "ballast_sizing.design_speed_mps",
         ),
         (
             SfAssessRequest {

@@ -107,8 +107,8 @@ impl Mounting {
     /// +x (east), rig +y (north) and rig +z (up).
     ///
     /// # Errors
-    /// [`ErrorKind::OutOfRange`] on `mounting.axes` when the three axes do not
-    /// form a right-handed set (repeated axis, or a mirror image).
+    /// [`ErrorKind::OutOfRange`] on `guard.tilt.mounting.axes` when the three
+    /// axes do not form a right-handed set (repeated axis, or a mirror image).
     pub fn from_axes(
         rig_x: SignedAxis,
         rig_y: SignedAxis,
@@ -140,7 +140,7 @@ impl Mounting {
     ///
     /// # Errors
     /// [`ErrorKind::NotFinite`] or [`ErrorKind::OutOfRange`] on
-    /// `mounting.sensor_to_rig`.
+    /// `guard.tilt.mounting.sensor_to_rig`.
     pub fn validate(&self) -> Result<(), Error> {
         let [r0, r1, r2] = self.sensor_to_rig;
         let (a, b, c) = (

@@ -1097,7 +1097,7 @@ fn support_section(
 ) -> Result<(Feet, f32), InputError> {
     let sup = support.get_ref();
     sp.put(
-        "friction_coefficient",
+        "rig.friction_coefficient",
         None,
         "support.friction".into(),
         sup.friction.span(),
@@ -1407,7 +1407,7 @@ fn bodies_section(
         }
     }
     if let Some(b) = list.first() {
-        sp.put("bodies", None, "body".into(), b.span());
+        sp.put("rig.bodies", None, "body".into(), b.span());
     }
     Ok(bodies)
 }
@@ -1914,7 +1914,7 @@ fn sensor_config(
     let ck = src.checker();
     if let Some(v) = &g.accel_scale {
         sp.put(
-            "tilt.scale_g_per_count",
+            "guard.tilt.scale_g_per_count",
             None,
             "sensor.accel_scale".into(),
             v.span(),
@@ -1941,7 +1941,7 @@ fn sensor_config(
     }
     if let Some(v) = &g.tilt_filter {
         sp.put(
-            "tilt.filter_tau_s",
+            "guard.tilt.filter_tau_s",
             None,
             "sensor.tilt_filter".into(),
             v.span(),
@@ -1950,7 +1950,7 @@ fn sensor_config(
     }
     if let Some(v) = &g.anemometer_height {
         sp.put(
-            "wind.z_from_m",
+            "guard.wind.z_from_m",
             None,
             "sensor.anemometer_height".into(),
             v.span(),
@@ -1958,7 +1958,12 @@ fn sensor_config(
         c.wind.anemometer_height_m = f(v.get_ref().m());
     }
     if let Some(v) = &g.rig_height {
-        sp.put("wind.z_to_m", None, "sensor.rig_height".into(), v.span());
+        sp.put(
+            "guard.wind.z_to_m",
+            None,
+            "sensor.rig_height".into(),
+            v.span(),
+        );
         c.wind.rig_height_m = f(v.get_ref().m());
     }
     if let Some(v) = &g.terrain {
@@ -1972,7 +1977,7 @@ fn sensor_config(
     }
     if let Some(v) = &g.wind_stale {
         sp.put(
-            "wind.stale_after_s",
+            "guard.wind.stale_after_s",
             None,
             "sensor.wind_stale".into(),
             v.span(),
@@ -1981,7 +1986,7 @@ fn sensor_config(
     }
     if let Some(v) = &g.wind_max {
         sp.put(
-            "wind.max_speed_mps",
+            "guard.wind.max_speed_mps",
             None,
             "sensor.wind_max".into(),
             v.span(),
@@ -1997,7 +2002,7 @@ fn sensor_config(
     }
     if let Some(v) = &g.gust_factor {
         sp.put(
-            "wind.mean_gust_factor",
+            "guard.wind.mean_gust_factor",
             None,
             "sensor.gust_factor".into(),
             v.span(),
@@ -2071,7 +2076,7 @@ fn core_error(src: &SourceText, sp: &Spans, e: &standfast::Error) -> InputError 
 /// Core fields whose value comes from a default when the file does not
 /// write its key, and that key (for messages about a default).
 const UNWRITTEN_KEYS: [(&str, &str); 3] = [
-    ("wind.max_speed_mps", "sensor.wind_max"),
-    ("wind.stale_after_s", "sensor.wind_stale"),
-    ("wind.mean_gust_factor", "sensor.gust_factor"),
+    ("guard.wind.max_speed_mps", "sensor.wind_max"),
+    ("guard.wind.stale_after_s", "sensor.wind_stale"),
+    ("guard.wind.mean_gust_factor", "sensor.gust_factor"),
 ];
