@@ -1238,4 +1238,54 @@ mod tests {
         s.push(Millis(60_100), [0.0, 0.0, 1.000_001]).unwrap();
         assert!(!has(&s.faults(Millis(60_100)), "stuck"));
     }
+
+    /// A tilt past 45° along a diagonal (both horizontal components large)
+    /// is a fault: the shortcut must not pass it.
+    #[test]
+    fn tilt_beyond_the_limit_along_a_diagonal_is_a_fault() {
+        let mut s = sensor_with(TiltConfig::default());
+        // |a| = 1.0 g, tilt atan2(0.849, 0.53) = 58°.
+        s.push(Millis(0), [0.6, 0.6, 0.53]).unwrap();
+        let f = s.faults(Millis(0));
+        assert!(has(&f, "tilt_beyond_limit"), "{f:?}");
+        assert_eq!(s.tilt(), None);
+        // 40° along the same diagonal is not.
+        let (h, z) = (
+            libm::sinf(0.698_13) / core::f32::consts::SQRT_2,
+            libm::cosf(0.698_13),
+        );
+        let mut s = sensor_with(TiltConfig::default());
+        s.push(Millis(0), [h, h, z]).unwrap();
+        assert!(!has(&s.faults(Millis(0)), "tilt_beyond_limit"));
+        assert!((s.tilt().unwrap().magnitude_rad - 0.698_13).abs() < 1e-4);
+    }
+
+    /// Magnitude out of band is "longer than" its limit too.
+    #[test]
+    fn out_of_band_starts_one_millisecond_past_its_limit() {
+        let mut s = sensor_with(TiltConfig::default()); // 5 s
+        s.push(Millis(0), [0.0, 0.0, 1.0]).unwrap();
+        let mut t = 100;
+        while t <= 5001 {
+            assert!(s.push(Millis(t), [0.0, 0.0, 1.5]).is_err());
+            let f = s.faults(Millis(t));
+            assert_eq!(
+                has(&f, "magnitude_out_of_band"),
+                t > 5000,
+                "t {t} ms: {f:?}"
+            );
+            t = if t == 5000 { 5001 } else { t + 100 };
+        }
+    }
+
+    #[test]
+    fn age_is_the_time_since_the_last_accepted_sample() {
+        let mut s = sensor_with(TiltConfig::default());
+        assert_eq!(s.age_s(Millis(500)), None);
+        s.push(Millis(1000), [0.0, 0.0, 1.0]).unwrap();
+        assert_eq!(s.age_s(Millis(3500)), Some(2.5));
+        // A rejected sample does not count as accepted.
+        assert!(s.push(Millis(3000), [0.0, 0.0, 3.0]).is_err());
+        assert_eq!(s.age_s(Millis(3500)), Some(2.5));
+    }
 }
