@@ -17,7 +17,7 @@ const BAR_CHARS: usize = 24;
 const ETA_FROM_FRACTION: f64 = 0.01;
 
 /// Seconds left when `fraction` of the work took `elapsed_s`, at the same
-/// rate: `elapsed × (1 − f) / f`; `None` before [`ETA_FROM_FRACTION`] or
+/// rate: `elapsed × (1 − f) / f`; `None` before 1 % of the work is done or
 /// for values that are not finite.
 #[must_use]
 pub fn eta_s(elapsed_s: f64, fraction: f64) -> Option<f64> {

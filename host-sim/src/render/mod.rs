@@ -7,7 +7,8 @@
 //! [`whatif`] (the comparison table, and the report's what-if part),
 //! [`assess`] (the assessment's text, JSON and HTML), [`weigh`] (the weighing's text and JSON), [`verdicts`] (the
 //! verdict CSV), [`event_lines`] (the firmware example's event lines),
-//! [`report`] (the HTML pages, with the pieces in [`night`]) drawn with
+//! [`report`] (the HTML pages, with the chart pieces both pages share in
+//! `night`) drawn with
 //! [`html`] and [`svg`], in the
 //! colours of [`palette`], on wall-clock axes from [`clock`].
 

@@ -82,7 +82,8 @@ pub fn comparison_text(cmp: &Comparison, clock: Option<&Clock>) -> String {
 }
 
 /// The comparison's rows: a label and one cell per rig (the text and the
-/// HTML tables show the same rows); times as [`at_s`] writes them.
+/// HTML tables show the same rows); times as local wall time `hh:mm:ss`
+/// when the first record's time is known, else seconds since it.
 #[must_use]
 pub fn comparison_rows(
     cmp: &Comparison,
