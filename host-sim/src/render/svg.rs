@@ -994,37 +994,37 @@ pub fn polar_xy(cx: f64, cy: f64, deg: f64, r_px: f64) -> (f64, f64) {
     (cx + r_px * a.sin(), cy - r_px * a.cos())
 }
 
+/// Where a polar chart is drawn: centre and radius in pixels, the value at
+/// the outer ring, the square's size.
+#[derive(Clone, Copy)]
+struct PolarFrame {
+    cx: f64,
+    cy: f64,
+    r_px: f64,
+    r_max: f64,
+    step: f64,
+    size: f64,
+}
+
+impl PolarFrame {
+    /// Radius in pixels of value `v` (clamped to the chart).
+    fn rs(&self, v: f64) -> f64 {
+        v.clamp(0.0, self.r_max) / self.r_max * self.r_px
+    }
+
+    /// The point of direction `deg` and value `v`.
+    fn at(&self, deg: f64, v: f64) -> (f64, f64) {
+        polar_xy(self.cx, self.cy, deg, self.rs(v))
+    }
+}
+
 impl PolarChart {
     /// The chart as an `<svg>` element.
     #[must_use]
     pub fn to_svg(&self) -> String {
-        let size = self.size;
-        let (cx, cy) = (size / 2.0, size / 2.0 + 14.0);
-        let r_px = size / 2.0 - 52.0;
-        let max = self
-            .traces
-            .iter()
-            .flat_map(|t| t.points.iter().filter_map(|p| p.1))
-            .chain(self.marker.iter().map(|m| m.value))
-            .chain(self.rings.iter().map(|r| r.value))
-            .filter(|v| v.is_finite())
-            .fold(0.0_f64, f64::max);
-        let step = nice_step(max.max(1.0), 4);
-        let r_max = ((max.max(1.0) / step).ceil() * step).max(step);
-        let rs = |v: f64| v.clamp(0.0, r_max) / r_max * r_px;
-        // The legend's column right of the plot: as wide as its longest
-        // entry (150 px at least).
-        #[allow(clippy::cast_precision_loss)] // short labels
-        let legend_w = self
-            .traces
-            .iter()
-            .map(|t| t.name.chars().count())
-            .chain(self.rings.iter().map(|r| r.label.chars().count()))
-            .chain(self.bearings.iter().map(|b| b.label.chars().count()))
-            .chain(self.marker.iter().map(|m| m.label.chars().count()))
-            .chain(std::iter::once(self.r_label.chars().count() + 8))
-            .map(|c| 28.0 + c as f64 * CHAR_W_PX)
-            .fold(150.0_f64, f64::max);
+        let f = self.frame();
+        let legend_w = self.legend_width();
+        let size = f.size;
         let mut s = String::new();
         let _ = write!(
             s,
@@ -1036,21 +1036,21 @@ impl PolarChart {
             esc(&self.title),
             esc(&self.title)
         );
-        for t in ticks_with_step(step, r_max, step) {
+        for t in ticks_with_step(f.step, f.r_max, f.step) {
             // Ring labels along the 15° bearing, clear of the spokes.
-            let (lx, ly) = polar_xy(cx, cy, 15.0, rs(t));
+            let (lx, ly) = f.at(15.0, t);
             let _ = write!(
                 s,
                 r#"<circle class="ring" cx="{}" cy="{}" r="{}"/><text class="tick-label" x="{}" y="{}">{}</text>"#,
-                n(cx),
-                n(cy),
-                n(rs(t)),
+                n(f.cx),
+                n(f.cy),
+                n(f.rs(t)),
                 n(lx + 2.0),
                 n(ly - 2.0),
-                esc(&value_label(t, step))
+                esc(&value_label(t, f.step))
             );
         }
-        polar_spokes(&mut s, cx, cy, r_px);
+        polar_spokes(&mut s, f.cx, f.cy, f.r_px);
         let _ = write!(
             s,
             r#"<text class="axis-label" x="{}" y="{}">radius: {}</text>"#,
@@ -1059,55 +1059,16 @@ impl PolarChart {
             esc(&self.r_label)
         );
         for (i, t) in self.traces.iter().enumerate() {
-            let mut pts = String::new();
-            let mut open = String::new();
-            for &(deg, v) in &t.points {
-                let (x, y) = match v.filter(|v| v.is_finite()) {
-                    Some(v) => polar_xy(cx, cy, deg, rs(v)),
-                    None => {
-                        let (x, y) = polar_xy(cx, cy, deg, r_px);
-                        let _ = write!(
-                            open,
-                            r#"<circle class="beyond" cx="{}" cy="{}" r="3" stroke="{}"/>"#,
-                            n(x),
-                            n(y),
-                            esc(&t.colour)
-                        );
-                        (x, y)
-                    }
-                };
-                let _ = write!(pts, "{},{} ", n(x), n(y));
-            }
-            let _ = write!(
-                s,
-                r#"<polygon class="polar-trace" data-points="{}" points="{}" stroke="{}"{}><title>{}</title></polygon>{}"#,
-                t.points.len(),
-                pts.trim_end(),
-                esc(&t.colour),
-                t.stroke.attr(),
-                esc(&t.name),
-                open
-            );
-            let _ = write!(
-                s,
-                r#"<line class="legend-key" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}" stroke-width="2.5"{}/>"#,
-                n(size + 2.0),
-                n(legend_y(i) - 4.0),
-                n(size + 16.0),
-                n(legend_y(i) - 4.0),
-                esc(&t.colour),
-                t.stroke.attr()
-            );
-            legend_text(&mut s, size + 20.0, legend_y(i), &t.name);
+            trace_svg(&mut s, &f, i, t);
         }
         let mut row = self.traces.len();
         for ring in &self.rings {
             let _ = write!(
                 s,
                 r#"<circle class="polar-ring" cx="{}" cy="{}" r="{}"><title>{}</title></circle><line class="legend-key polar-ring" x1="{}" y1="{}" x2="{}" y2="{}"/>"#,
-                n(cx),
-                n(cy),
-                n(rs(ring.value)),
+                n(f.cx),
+                n(f.cy),
+                n(f.rs(ring.value)),
                 esc(&ring.label),
                 n(size + 2.0),
                 n(legend_y(row) - 4.0),
@@ -1118,38 +1079,13 @@ impl PolarChart {
             row += 1;
         }
         for b in &self.bearings {
-            let (x, y) = polar_xy(cx, cy, b.deg, r_px);
-            let (hx, hy) = polar_xy(cx, cy, b.deg, r_px * 0.55);
-            // The arrow head at the inner end: the wind blows toward the
-            // centre.
-            let (l1x, l1y) = polar_xy(hx, hy, b.deg + 20.0, 10.0);
-            let (l2x, l2y) = polar_xy(hx, hy, b.deg - 20.0, 10.0);
-            let _ = write!(
-                s,
-                r#"<g class="polar-bearing"><title>{}</title><line x1="{}" y1="{}" x2="{}" y2="{}"/><polyline points="{},{} {},{} {},{}"/></g><g class="polar-bearing legend-key"><line x1="{}" y1="{}" x2="{}" y2="{}"/></g>"#,
-                esc(&b.label),
-                n(x),
-                n(y),
-                n(hx),
-                n(hy),
-                n(l1x),
-                n(l1y),
-                n(hx),
-                n(hy),
-                n(l2x),
-                n(l2y),
-                n(size + 2.0),
-                n(legend_y(row) - 4.0),
-                n(size + 16.0),
-                n(legend_y(row) - 4.0)
-            );
-            legend_text(&mut s, size + 20.0, legend_y(row), &b.label);
+            bearing_svg(&mut s, &f, row, b);
             row += 1;
         }
         if let Some(m) = &self.marker {
             // The dot on the plot, its words in the legend: no label on the
             // plot can meet a ring, spoke or trace label.
-            let (x, y) = polar_xy(cx, cy, m.deg, rs(m.value));
+            let (x, y) = f.at(m.deg, m.value);
             let _ = write!(
                 s,
                 r#"<circle class="polar-marker" cx="{}" cy="{}" r="5"><title>{}</title></circle><circle class="polar-marker legend-key" cx="{}" cy="{}" r="4"/>"#,
@@ -1164,6 +1100,119 @@ impl PolarChart {
         s.push_str("</svg>");
         s
     }
+
+    /// Centre, radius and scale: the outer ring a whole number of steps
+    /// at or above the largest finite value (1 at least).
+    fn frame(&self) -> PolarFrame {
+        let size = self.size;
+        let max = self
+            .traces
+            .iter()
+            .flat_map(|t| t.points.iter().filter_map(|p| p.1))
+            .chain(self.marker.iter().map(|m| m.value))
+            .chain(self.rings.iter().map(|r| r.value))
+            .filter(|v| v.is_finite())
+            .fold(0.0_f64, f64::max);
+        let step = nice_step(max.max(1.0), 4);
+        PolarFrame {
+            cx: size / 2.0,
+            cy: size / 2.0 + 14.0,
+            r_px: size / 2.0 - 52.0,
+            r_max: ((max.max(1.0) / step).ceil() * step).max(step),
+            step,
+            size,
+        }
+    }
+
+    /// The legend's column right of the plot: as wide as its longest entry
+    /// (150 px at least).
+    fn legend_width(&self) -> f64 {
+        #[allow(clippy::cast_precision_loss)] // short labels
+        self.traces
+            .iter()
+            .map(|t| t.name.chars().count())
+            .chain(self.rings.iter().map(|r| r.label.chars().count()))
+            .chain(self.bearings.iter().map(|b| b.label.chars().count()))
+            .chain(self.marker.iter().map(|m| m.label.chars().count()))
+            .chain(std::iter::once(self.r_label.chars().count() + 8))
+            .map(|c| 28.0 + c as f64 * CHAR_W_PX)
+            .fold(150.0_f64, f64::max)
+    }
+}
+
+/// One trace of a polar chart (a closed polygon; a direction without a
+/// value drawn at the rim with an open circle) and its legend row `i`.
+fn trace_svg(s: &mut String, f: &PolarFrame, i: usize, t: &PolarTrace) {
+    let mut pts = String::new();
+    let mut open = String::new();
+    for &(deg, v) in &t.points {
+        let (x, y) = match v.filter(|v| v.is_finite()) {
+            Some(v) => f.at(deg, v),
+            None => {
+                let (x, y) = polar_xy(f.cx, f.cy, deg, f.r_px);
+                let _ = write!(
+                    open,
+                    r#"<circle class="beyond" cx="{}" cy="{}" r="3" stroke="{}"/>"#,
+                    n(x),
+                    n(y),
+                    esc(&t.colour)
+                );
+                (x, y)
+            }
+        };
+        let _ = write!(pts, "{},{} ", n(x), n(y));
+    }
+    let _ = write!(
+        s,
+        r#"<polygon class="polar-trace" data-points="{}" points="{}" stroke="{}"{}><title>{}</title></polygon>{}"#,
+        t.points.len(),
+        pts.trim_end(),
+        esc(&t.colour),
+        t.stroke.attr(),
+        esc(&t.name),
+        open
+    );
+    let _ = write!(
+        s,
+        r#"<line class="legend-key" x1="{}" y1="{}" x2="{}" y2="{}" stroke="{}" stroke-width="2.5"{}/>"#,
+        n(f.size + 2.0),
+        n(legend_y(i) - 4.0),
+        n(f.size + 16.0),
+        n(legend_y(i) - 4.0),
+        esc(&t.colour),
+        t.stroke.attr()
+    );
+    legend_text(s, f.size + 20.0, legend_y(i), &t.name);
+}
+
+/// A direction of a polar chart drawn as an arrow from the rim toward the
+/// centre (the wind blows toward it), and its legend row.
+fn bearing_svg(s: &mut String, f: &PolarFrame, row: usize, b: &PolarBearing) {
+    let (x, y) = polar_xy(f.cx, f.cy, b.deg, f.r_px);
+    let (hx, hy) = polar_xy(f.cx, f.cy, b.deg, f.r_px * 0.55);
+    // The arrow head at the inner end.
+    let (l1x, l1y) = polar_xy(hx, hy, b.deg + 20.0, 10.0);
+    let (l2x, l2y) = polar_xy(hx, hy, b.deg - 20.0, 10.0);
+    let _ = write!(
+        s,
+        r#"<g class="polar-bearing"><title>{}</title><line x1="{}" y1="{}" x2="{}" y2="{}"/><polyline points="{},{} {},{} {},{}"/></g><g class="polar-bearing legend-key"><line x1="{}" y1="{}" x2="{}" y2="{}"/></g>"#,
+        esc(&b.label),
+        n(x),
+        n(y),
+        n(hx),
+        n(hy),
+        n(l1x),
+        n(l1y),
+        n(hx),
+        n(hy),
+        n(l2x),
+        n(l2y),
+        n(f.size + 2.0),
+        n(legend_y(row) - 4.0),
+        n(f.size + 16.0),
+        n(legend_y(row) - 4.0)
+    );
+    legend_text(s, f.size + 20.0, legend_y(row), &b.label);
 }
 
 /// The baseline of the polar chart's legend row `i`, pixels.
