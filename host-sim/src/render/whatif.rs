@@ -264,6 +264,22 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         return;
     };
     let cmp = compare(rep);
+    side_by_side(page, rep, &cmp);
+    overlaid_charts(page, rep, &cmp, charts, first);
+    for (r, l) in rep.rigs.iter().zip(&cmp.rigs) {
+        page.h2(&format!("Rig {}: {}", l.column, r.rig_file));
+        page.p(&format!(
+            "Highest level {}, final level {}.",
+            r.highest_level.name(),
+            r.final_level.name()
+        ));
+        level_tables(page, rep, r);
+    }
+}
+
+/// The key of the rigs (colour and line pattern) and the side-by-side
+/// table of the figures.
+fn side_by_side(page: &mut Page, rep: &ReplayReport, cmp: &Comparison) {
     page.h2("What-if: the rigs side by side");
     page.p("The same logs through each rig, each with its own guard. On the charts below every rig has its own colour and line pattern:");
     let key: Vec<Vec<String>> = cmp
@@ -283,7 +299,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
     let mut headers = vec!["figure"];
     headers.extend(cmp.rigs.iter().map(|r| r.column.as_str()));
     let clock = Clock::from_start(rep.start.as_deref(), rep.local_offset_s);
-    let rows: Vec<Vec<String>> = comparison_rows(&cmp, clock.as_ref())
+    let rows: Vec<Vec<String>> = comparison_rows(cmp, clock.as_ref())
         .into_iter()
         .map(|(label, cells)| {
             let mut row = vec![html_label(label)];
@@ -297,11 +313,22 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         "Utilisation in % of the limit (100 %: the rig tips, slides or reaches the drive's rating); {}.",
         times_note(clock.as_ref())
     ));
+}
 
+/// The charts with the rigs overlaid: utilisations with the thresholds,
+/// the levels one row per rig, the wind, cover and pose, tip wind by
+/// direction.
+fn overlaid_charts(
+    page: &mut Page,
+    rep: &ReplayReport,
+    cmp: &Comparison,
+    charts: &[RigCharts],
+    first: &RigReplay,
+) {
     page.h2("Charts, the rigs overlaid");
     let axis = Axis::of(rep, first, &[]);
     let ck = axis.clock.as_ref();
-    let thresholds = threshold_lines(&cmp, charts);
+    let thresholds = threshold_lines(cmp, charts);
     let each = |title: &str,
                 y: &str,
                 what: &str,
@@ -364,7 +391,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         ),
         "Each rig's guard level, one row per rig; each interval shows its most severe level.",
     );
-    wind_chart(page, rep, &cmp, charts, &axis);
+    wind_chart(page, rep, cmp, charts, &axis);
     page.figure(
         &svg::timeline(
             "Cover (from the logs)",
@@ -377,16 +404,7 @@ pub fn html_sections(page: &mut Page, rep: &ReplayReport, charts: &[RigCharts]) 
         "The weather cover as the logs give it, the same for every rig; a variant with cover=on or cover=off ignores it (its name says so).",
     );
     pose_chart(page, &first.series, axis.x_range, ck, &axis.x_label, &[]);
-    polar_overlay(page, rep, &cmp, charts);
-    for (r, l) in rep.rigs.iter().zip(&cmp.rigs) {
-        page.h2(&format!("Rig {}: {}", l.column, r.rig_file));
-        page.p(&format!(
-            "Highest level {}, final level {}.",
-            r.highest_level.name(),
-            r.final_level.name()
-        ));
-        level_tables(page, rep, r);
-    }
+    polar_overlay(page, rep, cmp, charts);
 }
 
 /// True when every rig's series has the same gusts (the same anemometer
