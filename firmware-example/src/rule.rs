@@ -16,16 +16,11 @@ use standfast::error::{Field, Unit};
 use standfast::math::Vec3;
 use standfast::{Error, Tilt};
 
-/// A wind reading: the mean over one anemometer gate window.
-#[derive(Clone, Copy, Debug, PartialEq)]
-#[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub struct WindSample {
-    /// Mean horizontal wind speed over the gate window, m/s, ≥ 0.
-    pub speed_mps: f32,
-    /// Azimuth the wind blows from, radians from north clockwise (rig frame);
-    /// `None` when the vane could not be read.
-    pub from_rad: Option<f32>,
-}
+/// A wind reading: the core's own sample type (speed at the anemometer,
+/// m/s, and the direction it blows from, radians from north clockwise,
+/// rig frame, `None` when the vane could not be read); here the mean over
+/// one anemometer gate window.
+pub use standfast::guard::WindSample;
 
 /// The samples that arrived in one step. `None` means "nothing new this step",
 /// either because the sensor has no new reading yet or because it failed; the
