@@ -35,14 +35,22 @@ use core::fmt;
 /// Where a line of text goes, piece by piece (a serial port, a semihosting
 /// stream, a buffer, or a `core::fmt::Formatter` through `Display`).
 pub trait TextSink {
+    /// Appends `b`, UTF-8 text (the writers of this crate give ASCII only).
+    /// Bytes, not `&str`, so that a board can write digits and the bytes of
+    /// its log without `core::str::from_utf8` (its checker and 256-byte
+    /// table would take about 0.6 KiB of flash).
+    fn bytes(&mut self, b: &[u8]);
+
     /// Appends `s`.
-    fn text(&mut self, s: &str);
+    fn text(&mut self, s: &str) {
+        self.bytes(s.as_bytes());
+    }
 
     /// Appends `n` in decimal, as `{}` formats an unsigned integer (no sign,
     /// no leading zeros, `0` for zero), by [`decimal`].
     fn decimal(&mut self, n: u64) {
         let digits = decimal(n);
-        self.text(digits.as_str());
+        self.bytes(digits.as_bytes());
     }
 }
 
@@ -78,10 +86,16 @@ pub struct Decimal {
 }
 
 impl Decimal {
+    /// The digits as ASCII bytes.
+    #[must_use]
+    pub fn as_bytes(&self) -> &[u8] {
+        self.digits.get(..self.len).unwrap_or(&[])
+    }
+
     /// The digits as text.
     #[must_use]
     pub fn as_str(&self) -> &str {
-        core::str::from_utf8(self.digits.get(..self.len).unwrap_or(&[])).unwrap_or("")
+        core::str::from_utf8(self.as_bytes()).unwrap_or("")
     }
 }
 
@@ -90,8 +104,10 @@ impl Decimal {
 /// 64-bit division routine for it (at most 9 subtractions per digit).
 #[must_use]
 pub fn decimal(mut n: u64) -> Decimal {
+    // Zeros, not '0's: every digit below `len` is written; a fill with a
+    // byte other than zero would link the board's `memset` (184 B) for it.
     let mut out = Decimal {
-        digits: [b'0'; 20],
+        digits: [0; 20],
         len: 0,
     };
     for (i, p) in POWERS_OF_TEN.iter().enumerate() {
@@ -118,6 +134,15 @@ struct FmtSink<'a, 'b> {
 }
 
 impl TextSink for FmtSink<'_, '_> {
+    fn bytes(&mut self, b: &[u8]) {
+        // Not UTF-8 (no writer of this crate gives that) is a formatting
+        // error, never text passed on unchecked.
+        match core::str::from_utf8(b) {
+            Ok(s) => self.text(s),
+            Err(_) => self.result = Err(fmt::Error),
+        }
+    }
+
     fn text(&mut self, s: &str) {
         if self.result.is_ok() {
             self.result = self.f.write_str(s);

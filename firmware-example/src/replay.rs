@@ -23,6 +23,11 @@
 //!   vane cannot be read.
 //! - `ha_deg,dec_deg`: mount pose in degrees when the mount reported one;
 //!   both empty otherwise.
+//!
+//! Every line is ASCII (comments included): a byte above 0x7F is an error
+//! of its line ([`ReplayError::NotAscii`]). The lines are read as bytes,
+//! without `core::str`'s UTF-8 checking and splitting, which would take
+//! about 1 KiB of the board's flash.
 
 use crate::event::{fmt_via_sink, Event, EventKind, TextSink};
 #[cfg(doc)]
@@ -243,6 +248,11 @@ pub enum ReplayError {
         /// Line number.
         line: u32,
     },
+    /// A line holds a byte that is not ASCII (above 0x7F).
+    NotAscii {
+        /// Line number.
+        line: u32,
+    },
 }
 
 impl ReplayError {
@@ -255,6 +265,7 @@ impl ReplayError {
             ReplayError::Field { line, .. } => (line, "field"),
             ReplayError::TimeBackwards { line } => (line, "time_backwards"),
             ReplayError::TooLong { line } => (line, "too_long"),
+            ReplayError::NotAscii { line } => (line, "not_ascii"),
         };
         out.text("error line=");
         out.decimal(u64::from(line));
@@ -280,18 +291,61 @@ impl fmt::Display for ReplayError {
     }
 }
 
-fn field<T: core::str::FromStr>(
-    s: &str,
+/// Reads a decimal integer as the standard library's `FromStr` for the
+/// integer types reads one: an optional `+` (or `-` when `signed`), then
+/// at least one ASCII digit and nothing else. Returns whether it is
+/// negative and its magnitude; [`BadNumber`] for anything else, or a
+/// magnitude above `u64::MAX`.
+fn integer(s: &[u8], signed: bool) -> Result<(bool, u64), BadNumber> {
+    let (negative, digits) = match s.split_first() {
+        Some((b'-', rest)) if signed => (true, rest),
+        Some((b'+', rest)) => (false, rest),
+        _ => (false, s),
+    };
+    if digits.is_empty() {
+        return Err(BadNumber);
+    }
+    let mut n: u64 = 0;
+    for &b in digits {
+        n = n
+            .checked_mul(10)
+            .and_then(|n| n.checked_add(u64::from(decimal_digit(b).ok()?)))
+            .ok_or(BadNumber)?;
+    }
+    Ok((negative, n))
+}
+
+/// An unsigned integer field no greater than `max`, as `str::parse` of the
+/// unsigned type of that maximum reads it; `Ok(None)` when empty or blank.
+fn unsigned_field(
+    s: &[u8],
+    max: u64,
     line: u32,
     column: &'static str,
-) -> Result<Option<T>, ReplayError> {
+) -> Result<Option<u64>, ReplayError> {
     let s = s.trim_ascii();
     if s.is_empty() {
         return Ok(None);
     }
-    s.parse()
+    match integer(s, false) {
+        Ok((_, n)) if n <= max => Ok(Some(n)),
+        _ => Err(ReplayError::Field { line, column }),
+    }
+}
+
+/// An accelerometer word, as `str::parse::<i16>` reads it; `Ok(None)` when
+/// empty or blank.
+fn word_field(s: &[u8], line: u32, column: &'static str) -> Result<Option<i16>, ReplayError> {
+    let s = s.trim_ascii();
+    if s.is_empty() {
+        return Ok(None);
+    }
+    let bad = ReplayError::Field { line, column };
+    let (negative, n) = integer(s, true).map_err(|BadNumber| bad)?;
+    let n = i32::try_from(n).map_err(|_| bad)?;
+    i16::try_from(if negative { -n } else { n })
         .map(Some)
-        .map_err(|_| ReplayError::Field { line, column })
+        .map_err(|_| bad)
 }
 
 /// A field that [`parse_degrees`] does not accept.
@@ -315,15 +369,19 @@ pub const DEGREE_DECIMALS: u32 = 3;
 /// # Errors
 /// [`BadNumber`] for anything else (a sign alone, two points, a fourth decimal,
 /// a seventh integer digit, any other character).
-pub fn parse_degrees(s: &str) -> Result<Option<f32>, BadNumber> {
+pub fn parse_degrees(s: impl AsRef<[u8]>) -> Result<Option<f32>, BadNumber> {
+    degrees_of(s.as_ref())
+}
+
+fn degrees_of(s: &[u8]) -> Result<Option<f32>, BadNumber> {
     let s = s.trim_ascii();
     if s.is_empty() {
         return Ok(None);
     }
-    let (negative, digits) = match s.as_bytes().split_first() {
+    let (negative, digits) = match s.split_first() {
         Some((b'-', rest)) => (true, rest),
         Some((b'+', rest)) => (false, rest),
-        _ => (false, s.as_bytes()),
+        _ => (false, s),
     };
     let (int_part, frac_part) = match digits.iter().position(|&b| b == b'.') {
         Some(i) => (
@@ -365,16 +423,20 @@ fn decimal_digit(b: u8) -> Result<u8, BadNumber> {
     }
 }
 
-fn degrees(s: &str, line: u32, column: &'static str) -> Result<Option<f32>, ReplayError> {
-    parse_degrees(s).map_err(|BadNumber| ReplayError::Field { line, column })
+fn degrees(s: &[u8], line: u32, column: &'static str) -> Result<Option<f32>, ReplayError> {
+    degrees_of(s).map_err(|BadNumber| ReplayError::Field { line, column })
 }
 
-/// Parses one data line (not the header).
+/// Parses one data line (not the header), given as bytes or text.
 ///
 /// # Errors
 /// [`ReplayError::Columns`] or [`ReplayError::Field`].
-pub fn parse_row(text: &str, line: u32) -> Result<Row, ReplayError> {
-    let mut it = text.split(',');
+pub fn parse_row(text: impl AsRef<[u8]>, line: u32) -> Result<Row, ReplayError> {
+    row_of(text.as_ref(), line)
+}
+
+fn row_of(text: &[u8], line: u32) -> Result<Row, ReplayError> {
+    let mut it = text.split(|&b| b == b',');
     let mut next = || it.next().ok_or(ReplayError::Columns { line });
     let t = next()?;
     let (ax, ay, az) = (next()?, next()?, next()?);
@@ -382,14 +444,14 @@ pub fn parse_row(text: &str, line: u32) -> Result<Row, ReplayError> {
     if it.next().is_some() {
         return Err(ReplayError::Columns { line });
     }
-    let t_ms = field::<u64>(t, line, "t_ms")?.ok_or(ReplayError::Field {
+    let t_ms = unsigned_field(t, u64::MAX, line, "t_ms")?.ok_or(ReplayError::Field {
         line,
         column: "t_ms",
     })?;
     let accel = match (
-        field::<i16>(ax, line, "accel_x")?,
-        field::<i16>(ay, line, "accel_y")?,
-        field::<i16>(az, line, "accel_z")?,
+        word_field(ax, line, "accel_x")?,
+        word_field(ay, line, "accel_y")?,
+        word_field(az, line, "accel_z")?,
     ) {
         (Some(x), Some(y), Some(z)) => Some(RawSample { words: [x, y, z] }),
         (None, None, None) => None,
@@ -400,7 +462,13 @@ pub fn parse_row(text: &str, line: u32) -> Result<Row, ReplayError> {
             })
         }
     };
-    let pulse_total = field::<u32>(p, line, "pulse_total")?;
+    let pulse_total = match unsigned_field(p, u64::from(u32::MAX), line, "pulse_total")? {
+        Some(n) => Some(u32::try_from(n).map_err(|_| ReplayError::Field {
+            line,
+            column: "pulse_total",
+        })?),
+        None => None,
+    };
     let vane_from_deg = degrees(v, line, "vane_from_deg")?;
     let pose = match (degrees(ha, line, "ha_deg")?, degrees(dec, line, "dec_deg")?) {
         (Some(h), Some(d)) => Some(
@@ -585,27 +653,39 @@ impl<'r, G: BorrowMut<Guard<'r>>> Replay<'r, G> {
         &self.station
     }
 
-    /// Feeds the next line of the log (without its line ending). Returns the
-    /// step's report for a data row, `None` for the header, comments and
-    /// blank lines.
+    /// Feeds the next line of the log (without its line ending), as bytes
+    /// or text. Returns the step's report for a data row, `None` for the
+    /// header, comments and blank lines.
     ///
     /// # Errors
-    /// A [`ReplayError`] naming the line; the station is not stepped.
-    pub fn feed_line(&mut self, text: &str) -> Result<Option<StepReport>, ReplayError> {
+    /// A [`ReplayError`] naming the line; the station is not stepped. A
+    /// line with a byte that is not ASCII is [`ReplayError::NotAscii`],
+    /// whatever else it holds.
+    pub fn feed_line(&mut self, text: impl AsRef<[u8]>) -> Result<Option<StepReport>, ReplayError> {
+        self.feed_bytes(text.as_ref())
+    }
+
+    fn feed_bytes(&mut self, text: &[u8]) -> Result<Option<StepReport>, ReplayError> {
         self.line = self.line.saturating_add(1);
         let line = self.line;
-        let text = text.trim_end_matches('\r');
-        if text.trim_ascii().is_empty() || text.starts_with('#') {
+        if !text.is_ascii() {
+            return Err(ReplayError::NotAscii { line });
+        }
+        let mut text = text;
+        while let Some(rest) = text.strip_suffix(b"\r") {
+            text = rest;
+        }
+        if text.trim_ascii().is_empty() || text.starts_with(b"#") {
             return Ok(None);
         }
         if !self.header_seen {
-            if text.trim_ascii() != HEADER {
+            if text.trim_ascii() != HEADER.as_bytes() {
                 return Err(ReplayError::Header { line });
             }
             self.header_seen = true;
             return Ok(None);
         }
-        let row = parse_row(text, line)?;
+        let row = row_of(text, line)?;
         if self.last_t_ms.is_some_and(|t| row.t_ms < t) {
             return Err(ReplayError::TimeBackwards { line });
         }
@@ -664,10 +744,12 @@ pub struct LineSplitter<const N: usize> {
 /// One line from a [`LineSplitter`].
 #[derive(Debug, PartialEq, Eq)]
 pub enum SplitLine<'a> {
-    /// A complete line, without its `\n`.
-    Text(&'a str),
-    /// A line longer than the buffer, or not UTF-8: skipped.
-    Bad,
+    /// A complete line, without its `\n`, as read (the splitter does not
+    /// look at its encoding; [`Replay::feed_line`] rejects bytes that are
+    /// not ASCII).
+    Text(&'a [u8]),
+    /// A line longer than the buffer: its bytes are lost.
+    TooLong,
 }
 
 impl<const N: usize> Default for LineSplitter<N> {
@@ -722,12 +804,9 @@ impl<const N: usize> LineSplitter<N> {
 
     fn emit<E>(&mut self, each: &mut impl FnMut(SplitLine<'_>) -> Result<(), E>) -> Result<(), E> {
         let r = if self.overflow {
-            each(SplitLine::Bad)
+            each(SplitLine::TooLong)
         } else {
-            match core::str::from_utf8(&self.buf) {
-                Ok(s) => each(SplitLine::Text(s)),
-                Err(_) => each(SplitLine::Bad),
-            }
+            each(SplitLine::Text(&self.buf))
         };
         self.buf.clear();
         self.overflow = false;

@@ -11,24 +11,21 @@
 //! third word `--selftest-hardfault` executes an undefined instruction to
 //! prove that a HardFault ends the run with a failure code, and a third word
 //! `--rate-100hz` runs the station at 100 Hz ([`ReplaySetup::example_100hz`])
-//! instead of 10 Hz, for the guard step's instruction count (`ci.sh`). A
-//! second word `--selftest-sqrt` (no log) compares the core's square root
-//! (the FPU's `vsqrt.f32` here) with libm's `sqrtf`, bit for bit (exit 0
-//! when every value agrees, 6 otherwise).
+//! instead of 10 Hz, for the guard step's instruction count (`ci.sh`). The
+//! words are compared as bytes and the path is passed on as it is. (The
+//! square-root self-test is the binary `mps2-selftest-sqrt`.)
 //!
 //! Exit codes (semihosting extended exit): 0 replay done, 2 usage or file
-//! error, 3 malformed log, 4 HardFault, 5 internal error, 6 square-root
-//! self-test failed, 101 panic.
+//! error, 3 malformed log, 4 HardFault, 5 internal error, 101 panic.
 #![no_std]
 #![no_main]
 // Semihosting calls are `unsafe` (a trap into the debugger with raw pointers).
 #![allow(unsafe_code)]
 
 use core::mem::MaybeUninit;
-use core::panic::PanicInfo;
-use cortex_m_rt::{entry, exception, ExceptionFrame};
-use cortex_m_semihosting::hio::{self, HostStream};
+use cortex_m_rt::entry;
 use cortex_m_semihosting::{nr, syscall};
+use host::{exit, stderr, stdout, EXIT_OK};
 use standfast::guard::Guard;
 use standfast::rig::Rig;
 use standfast::Error;
@@ -36,86 +33,15 @@ use standfast_firmware::event::TextSink;
 use standfast_firmware::guard_adapter::{example_guard, example_rig_in};
 use standfast_firmware::replay::{LineSplitter, Replay, ReplayError, ReplaySetup, SplitLine};
 
-const EXIT_OK: u32 = 0;
 const EXIT_USAGE: u32 = 2;
 const EXIT_LOG: u32 = 3;
-const EXIT_HARDFAULT: u32 = 4;
 const EXIT_INTERNAL: u32 = 5;
-const EXIT_SQRT_MISMATCH: u32 = 6;
-const EXIT_PANIC: u32 = 101;
 
-/// SYS_EXIT_EXTENDED: like SYS_EXIT, but its parameter block carries an exit
-/// code, so codes other than 0 and 1 reach the host (Arm semihosting
-/// specification v2; from memory).
-const SYS_EXIT_EXTENDED: usize = 0x20;
-/// ADP_Stopped_ApplicationExit, the reason code for a normal exit.
-const ADP_STOPPED_APPLICATION_EXIT: usize = 0x20026;
-
-fn exit(code: u32) -> ! {
-    let block: [usize; 2] = [ADP_STOPPED_APPLICATION_EXIT, code as usize];
-    // SAFETY: a valid semihosting operation with a two-word parameter block.
-    unsafe {
-        syscall(SYS_EXIT_EXTENDED, &block);
-    }
-    // Not reached under QEMU; on a debugger that resumes, stay here.
-    loop {
-        cortex_m::asm::bkpt();
-    }
-}
+// The semihosting exit and output, the HardFault and panic handlers.
+#[path = "mps2_host.rs"]
+mod host;
 
 const USAGE: &str = "usage: mps2-replay <log.csv> [--rate-100hz | --selftest-hardfault]";
-
-/// A semihosting stream of the host (stdout or stderr) as a [`TextSink`]:
-/// every line is written piece by piece, without `core::fmt` (whose
-/// formatting machinery and 64-bit division would take about 3 KiB of
-/// flash), and byte for byte as the host replay's `Display` prints it (both
-/// go through the same `write_text`). A stream that cannot be opened or
-/// written drops the text: the output is the emulated board's log, not
-/// part of its safety function.
-struct Host(Option<HostStream>);
-
-impl TextSink for Host {
-    fn text(&mut self, s: &str) {
-        if let Some(h) = self.0.as_mut() {
-            // A failed write means the host is gone; nothing to tell it.
-            let _ = h.write_all(s.as_bytes());
-        }
-    }
-}
-
-impl Host {
-    /// Writes `parts` and a line ending.
-    fn line(&mut self, parts: &[&str]) {
-        for p in parts {
-            self.text(p);
-        }
-        self.text("\n");
-    }
-
-    /// Writes `v` as `0x` and eight lower-case hexadecimal digits (as
-    /// `{:#010x}` formats a `u32`).
-    fn hex32(&mut self, v: u32) {
-        let mut digits = *b"0x00000000";
-        for (i, d) in digits.iter_mut().skip(2).enumerate() {
-            let nibble = (v >> (28 - 4 * i)) & 0xF;
-            *d = b"0123456789abcdef"
-                .get(nibble as usize)
-                .copied()
-                .unwrap_or(b'?');
-        }
-        self.text(core::str::from_utf8(&digits).unwrap_or("0x????????"));
-    }
-}
-
-/// The host's standard output.
-fn stdout() -> Host {
-    Host(hio::hstdout().ok())
-}
-
-/// The host's standard error.
-fn stderr() -> Host {
-    Host(hio::hstderr().ok())
-}
 
 #[entry]
 fn main() -> ! {
@@ -144,7 +70,7 @@ fn run() -> u32 {
     let mut each = |l: SplitLine<'_>| -> Result<(), ReplayError> {
         let report = match l {
             SplitLine::Text(t) => replay.feed_line(t)?,
-            SplitLine::Bad => return Err(replay.too_long()),
+            SplitLine::TooLong => return Err(replay.too_long()),
         };
         if let Some(report) = report {
             for e in &report.events {
@@ -192,12 +118,14 @@ fn run() -> u32 {
     }
 }
 
-/// Reads and acts on the semihosting command line: runs a self-test, or
-/// opens the log and picks the set-up. `Err` holds the exit code (a
-/// self-test's result, or a usage or file error, already printed). Out of
-/// line, so its buffers (the command line, 256 bytes, and the log's name
-/// for the open call, 200) are off the stack before the replay is built and
-/// run: the replay loop and the start-up are the stack's two deepest paths.
+/// Reads and acts on the semihosting command line: opens the log and picks
+/// the set-up, or runs the HardFault self-test. `Err` holds the exit code
+/// (a usage or file error, already printed). The command line is read as
+/// bytes (words split at ASCII white space, as `split_ascii_whitespace`
+/// does; no UTF-8 check, the path goes to the host as it is). Out of line,
+/// so its buffers (the command line, 256 bytes, and the log's name for the
+/// open call, 200) are off the stack before the replay is built and run:
+/// the replay loop and the start-up are the stack's two deepest paths.
 #[inline(never)]
 fn command() -> Result<(usize, ReplaySetup), u32> {
     let mut cmdline = [0u8; 256];
@@ -211,22 +139,20 @@ fn command() -> Result<(usize, ReplaySetup), u32> {
         .iter()
         .position(|&b| b == 0)
         .unwrap_or(cmdline.len());
-    let Ok(cmd) = core::str::from_utf8(cmdline.get(..len).unwrap_or(&[])) else {
-        stdout().line(&["error reason=command_line_not_utf8"]);
-        return Err(EXIT_USAGE);
-    };
-    let mut words = cmd.split_ascii_whitespace().skip(1);
-    let Some(path) = words.next() else {
+    let mut words = cmdline
+        .get(..len)
+        .unwrap_or(&[])
+        .split(u8::is_ascii_whitespace)
+        .filter(|w| !w.is_empty());
+    // The first word is the program's name.
+    let (Some(_), Some(path)) = (words.next(), words.next()) else {
         stdout().line(&[USAGE]);
         return Err(EXIT_USAGE);
     };
-    if path == "--selftest-sqrt" {
-        return Err(selftest_sqrt());
-    }
     let setup = match words.next() {
         None => ReplaySetup::example(),
-        Some("--rate-100hz") => ReplaySetup::example_100hz(),
-        Some("--selftest-hardfault") => {
+        Some(w) if same(w, b"--rate-100hz") => ReplaySetup::example_100hz(),
+        Some(w) if same(w, b"--selftest-hardfault") => {
             stdout().line(&["selftest: executing an undefined instruction"]);
             cortex_m::asm::udf();
         }
@@ -236,10 +162,21 @@ fn command() -> Result<(usize, ReplaySetup), u32> {
         }
     };
     let Some(fd) = open_read(path) else {
-        stdout().line(&["error reason=cannot_open path=", path]);
+        let mut out = stdout();
+        out.text("error reason=cannot_open path=");
+        out.bytes(path);
+        out.text("\n");
         return Err(EXIT_USAGE);
     };
     Ok((fd, setup))
+}
+
+/// Whether `word` is `name`, byte for byte. Out of line and a plain loop:
+/// a comparison with a literal is otherwise unrolled, two instructions a
+/// byte.
+#[inline(never)]
+fn same(word: &[u8], name: &[u8]) -> bool {
+    word.len() == name.len() && word.iter().zip(name).all(|(a, b)| a == b)
 }
 
 /// Builds the example rig, the guard and the replay in place in their
@@ -285,72 +222,9 @@ fn fill<T>(slot: &'static mut MaybeUninit<T>, make: impl FnOnce() -> T) -> &'sta
     slot.write(make())
 }
 
-/// Compares `standfast::math::sqrt` (on this target the FPU's `vsqrt.f32`)
-/// with libm's correctly rounded `sqrtf`, bit for bit (every NaN counts as
-/// equal to every NaN). Every `f32` in [1, 4) is tried: a square root's
-/// significand depends only on the argument's significand and the parity
-/// of its exponent, so that range covers every rounding case of normal
-/// numbers; then every 4099th bit pattern across the whole range (both
-/// signs, subnormals, infinities, NaNs) for the scaling and the special
-/// cases.
-fn selftest_sqrt() -> u32 {
-    let same = |x: f32| {
-        let (ours, reference) = (standfast::math::sqrt(x), libm::sqrtf(x));
-        ours.to_bits() == reference.to_bits() || (ours.is_nan() && reference.is_nan())
-    };
-    let mut tried: u32 = 0;
-    let mut differ: u32 = 0;
-    let mut first_bad: Option<u32> = None;
-    let mut check = |bits: u32| {
-        tried = tried.wrapping_add(1);
-        if !same(f32::from_bits(bits)) {
-            differ = differ.saturating_add(1);
-            first_bad.get_or_insert(bits);
-        }
-    };
-    // [1, 4): 1.0 is 0x3f80_0000, 4.0 is 0x4080_0000.
-    for bits in 0x3f80_0000_u32..0x4080_0000 {
-        check(bits);
-    }
-    let mut bits: u32 = 0;
-    loop {
-        check(bits);
-        let Some(next) = bits.checked_add(4099) else {
-            break;
-        };
-        bits = next;
-    }
-    for bits in [
-        0x0000_0000,
-        0x8000_0000,
-        0x7f80_0000,
-        0xff80_0000,
-        0x0000_0001,
-        0x7f7f_ffff,
-    ] {
-        check(bits);
-    }
-    let mut out = stdout();
-    out.text("selftest sqrt: tried=");
-    out.decimal(u64::from(tried));
-    out.text(" differ=");
-    out.decimal(u64::from(differ));
-    out.text("\n");
-    match first_bad {
-        None => EXIT_OK,
-        Some(b) => {
-            out.text("selftest sqrt: first difference at bits=");
-            out.hex32(b);
-            out.text("\n");
-            EXIT_SQRT_MISMATCH
-        }
-    }
-}
-
 /// Opens a host file for reading; `None` on failure.
-fn open_read(path: &str) -> Option<usize> {
+fn open_read(bytes: &[u8]) -> Option<usize> {
     let mut name = [0u8; 200];
-    let bytes = path.as_bytes();
     // Leave room for the terminating NUL the call needs.
     if bytes.len() >= name.len() {
         return None;
@@ -405,22 +279,3 @@ fn stack_peak_bytes() -> usize {
 // The interrupt part of the vector table (cortex-m-rt's `device` feature).
 #[path = "mps2_vectors.rs"]
 mod vectors;
-
-#[exception]
-unsafe fn HardFault(ef: &ExceptionFrame) -> ! {
-    let mut out = stdout();
-    out.text("hardfault pc=");
-    out.hex32(ef.pc());
-    out.text("\n");
-    exit(EXIT_HARDFAULT)
-}
-
-/// The crate and the core are written not to panic (clippy denies the usual
-/// sources); should one happen anyway, say so and exit with 101. The message
-/// is not formatted: that would keep every panic message and `core::fmt` in
-/// flash.
-#[panic_handler]
-fn panic(_info: &PanicInfo) -> ! {
-    stderr().line(&["panic"]);
-    exit(EXIT_PANIC)
-}

@@ -184,6 +184,120 @@ fn degrees_parse_in_fixed_point_like_the_standard_parser() {
     }
 }
 
+/// The byte-wise integer fields (`t_ms` u64, `accel_*` i16, `pulse_total`
+/// u32) accept and read exactly what Rust's standard `str::parse` of those
+/// types does (the reference), after ASCII trimming: every string of up to
+/// four characters over signs, digits, a blank and a letter, and the edges
+/// of each type's range.
+#[test]
+fn integer_fields_read_like_the_standard_parser() {
+    let alphabet = ['+', '-', '0', '1', '9', ' ', 'x'];
+    let mut cases: Vec<String> = vec![String::new()];
+    for len in 1..=4 {
+        let mut idx = vec![0usize; len];
+        loop {
+            cases.push(idx.iter().map(|&i| alphabet[i]).collect());
+            let mut k = 0;
+            while k < len {
+                idx[k] += 1;
+                if idx[k] < alphabet.len() {
+                    break;
+                }
+                idx[k] = 0;
+                k += 1;
+            }
+            if k == len {
+                break;
+            }
+        }
+    }
+    for edge in [
+        "32767",
+        "32768",
+        "-32768",
+        "-32769",
+        "+32767",
+        "0032767",
+        "4294967295",
+        "4294967296",
+        "18446744073709551615",
+        "18446744073709551616",
+        "-18446744073709551616",
+        "99999999999999999999",
+        "000000000000000000000000001",
+        "\t7\t",
+    ] {
+        cases.push(edge.to_string());
+    }
+    for s in &cases {
+        let trimmed = s.trim_ascii();
+        // t_ms: required, u64.
+        let row = parse_row(format!("{s},,,,,,,"), 1);
+        let want = trimmed.parse::<u64>();
+        match (&row, &want) {
+            (Ok(r), Ok(v)) => assert_eq!(r.t_ms, *v, "t_ms {s:?}"),
+            (Err(e), Err(_)) => assert_eq!(
+                *e,
+                ReplayError::Field {
+                    line: 1,
+                    column: "t_ms"
+                },
+                "t_ms {s:?}"
+            ),
+            _ => panic!("t_ms {s:?}: {row:?} against the standard {want:?}"),
+        }
+        // accel_*: i16, all three the same value.
+        let row = parse_row(format!("1,{s},{s},{s},,,,"), 1);
+        match (trimmed.is_empty(), trimmed.parse::<i16>()) {
+            (true, _) => assert_eq!(row.unwrap().accel, None, "accel {s:?}"),
+            (false, Ok(v)) => assert_eq!(row.unwrap().accel.unwrap().words, [v; 3], "accel {s:?}"),
+            (false, Err(_)) => assert_eq!(
+                row,
+                Err(ReplayError::Field {
+                    line: 1,
+                    column: "accel_x"
+                }),
+                "accel {s:?}"
+            ),
+        }
+        // pulse_total: u32.
+        let row = parse_row(format!("1,,,,{s},,,"), 1);
+        match (trimmed.is_empty(), trimmed.parse::<u32>()) {
+            (true, _) => assert_eq!(row.unwrap().pulse_total, None, "pulses {s:?}"),
+            (false, Ok(v)) => assert_eq!(row.unwrap().pulse_total, Some(v), "pulses {s:?}"),
+            (false, Err(_)) => assert_eq!(
+                row,
+                Err(ReplayError::Field {
+                    line: 1,
+                    column: "pulse_total"
+                }),
+                "pulses {s:?}"
+            ),
+        }
+    }
+}
+
+/// A byte above 0x7F anywhere in a line, a comment's included, and bytes
+/// that are not UTF-8 at all, are an error of that line (the board reads
+/// the log as bytes; the host gives it the same bytes).
+#[test]
+fn a_line_that_is_not_ascii_is_an_error_of_its_line() {
+    let rig = example_rig().unwrap();
+    for (bad, what) in [
+        (&b"# wind 20\xc2\xb0 off north"[..], "UTF-8 comment"),
+        (&b"100,,,,,247\xc2\xb0,,"[..], "UTF-8 in a field"),
+        (&b"100,,,,,\xff,,"[..], "not UTF-8"),
+    ] {
+        let mut r = Replay::new(&ReplaySetup::example(), &rig).unwrap();
+        assert_eq!(r.feed_line(HEADER).unwrap().map(|_| ()), None);
+        assert!(r.feed_line("100,,,,,,,").unwrap().is_some());
+        let e = r.feed_line(bad).unwrap_err();
+        assert_eq!(e, ReplayError::NotAscii { line: 3 }, "{what}");
+        assert_eq!(e.to_string(), "error line=3 reason=not_ascii", "{what}");
+        assert_eq!(r.rows(), 1, "{what}: no step for the bad line");
+    }
+}
+
 #[test]
 fn bad_rows_name_their_line_and_column() {
     assert_eq!(parse_row("1,2,3", 7), Err(ReplayError::Columns { line: 7 }));
@@ -251,8 +365,8 @@ fn lines_split_across_chunks_and_overlong_lines_are_flagged() {
     let mut got: Vec<String> = Vec::new();
     let mut each = |l: SplitLine<'_>| -> Result<(), ()> {
         got.push(match l {
-            SplitLine::Text(t) => t.to_string(),
-            SplitLine::Bad => "<bad>".to_string(),
+            SplitLine::Text(t) => String::from_utf8(t.to_vec()).unwrap(),
+            SplitLine::TooLong => "<too long>".to_string(),
         });
         Ok(())
     };
@@ -260,7 +374,7 @@ fn lines_split_across_chunks_and_overlong_lines_are_flagged() {
     s.feed(b"c\nde", &mut each).unwrap();
     s.feed(b"\n0123456789\nlast", &mut each).unwrap();
     s.finish(&mut each).unwrap();
-    assert_eq!(got, ["abc", "de", "<bad>", "last"]);
+    assert_eq!(got, ["abc", "de", "<too long>", "last"]);
 }
 
 /// A few rows of the short night's first second, every 10 ms, with one gap
