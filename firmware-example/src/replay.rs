@@ -315,10 +315,13 @@ fn integer(s: &[u8], signed: bool) -> Result<(bool, u64), BadNumber> {
     Ok((negative, n))
 }
 
-/// An unsigned integer field no greater than `max`, as `str::parse` of the
-/// unsigned type of that maximum reads it; `Ok(None)` when empty or blank.
-fn unsigned_field(
+/// An integer field in `min..=max`, as `str::parse` of the integer type
+/// of that range reads it (a `-` only when `min` is negative);
+/// `Ok(None)` when empty or blank. One function for the log's three
+/// integer types (`u64`, `i16`, `u32`), not one parser each.
+fn integer_field(
     s: &[u8],
+    min: i64,
     max: u64,
     line: u32,
     column: &'static str,
@@ -327,8 +330,11 @@ fn unsigned_field(
     if s.is_empty() {
         return Ok(None);
     }
-    match integer(s, false) {
-        Ok((_, n)) if n <= max => Ok(Some(n)),
+    match integer(s, min < 0) {
+        Ok((false, n)) if n <= max => Ok(Some(n)),
+        // Negative: returned as its two's complement, which the caller
+        // narrows to its type.
+        Ok((true, n)) if n <= min.unsigned_abs() => Ok(Some(n.wrapping_neg())),
         _ => Err(ReplayError::Field { line, column }),
     }
 }
@@ -336,16 +342,16 @@ fn unsigned_field(
 /// An accelerometer word, as `str::parse::<i16>` reads it; `Ok(None)` when
 /// empty or blank.
 fn word_field(s: &[u8], line: u32, column: &'static str) -> Result<Option<i16>, ReplayError> {
-    let s = s.trim_ascii();
-    if s.is_empty() {
-        return Ok(None);
-    }
-    let bad = ReplayError::Field { line, column };
-    let (negative, n) = integer(s, true).map_err(|BadNumber| bad)?;
-    let n = i32::try_from(n).map_err(|_| bad)?;
-    i16::try_from(if negative { -n } else { n })
-        .map(Some)
-        .map_err(|_| bad)
+    let n = integer_field(
+        s,
+        i16::MIN.into(),
+        i16::MAX.unsigned_abs().into(),
+        line,
+        column,
+    )?;
+    // In i16's range (checked above): the low 16 bits are the word.
+    #[allow(clippy::cast_possible_truncation)]
+    Ok(n.map(|n| n as i16))
 }
 
 /// A field that [`parse_degrees`] does not accept.
@@ -444,7 +450,7 @@ fn row_of(text: &[u8], line: u32) -> Result<Row, ReplayError> {
     if it.next().is_some() {
         return Err(ReplayError::Columns { line });
     }
-    let t_ms = unsigned_field(t, u64::MAX, line, "t_ms")?.ok_or(ReplayError::Field {
+    let t_ms = integer_field(t, 0, u64::MAX, line, "t_ms")?.ok_or(ReplayError::Field {
         line,
         column: "t_ms",
     })?;
@@ -462,13 +468,10 @@ fn row_of(text: &[u8], line: u32) -> Result<Row, ReplayError> {
             })
         }
     };
-    let pulse_total = match unsigned_field(p, u64::from(u32::MAX), line, "pulse_total")? {
-        Some(n) => Some(u32::try_from(n).map_err(|_| ReplayError::Field {
-            line,
-            column: "pulse_total",
-        })?),
-        None => None,
-    };
+    let pulse_total = integer_field(p, 0, u32::MAX.into(), line, "pulse_total")?;
+    // At most u32::MAX (checked above).
+    #[allow(clippy::cast_possible_truncation)]
+    let pulse_total = pulse_total.map(|n| n as u32);
     let vane_from_deg = degrees(v, line, "vane_from_deg")?;
     let pose = match (degrees(ha, line, "ha_deg")?, degrees(dec, line, "dec_deg")?) {
         (Some(h), Some(d)) => Some(

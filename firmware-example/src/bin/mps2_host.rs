@@ -62,24 +62,6 @@ impl Host {
         }
         self.text("\n");
     }
-
-    /// Writes `v` as `0x` and eight lower-case hexadecimal digits (as
-    /// `{:#010x}` formats a `u32`).
-    pub fn hex32(&mut self, v: u32) {
-        let mut digits = *b"0x00000000";
-        let mut rest = v;
-        for d in digits.iter_mut().rev().take(8) {
-            // The low nibble, 0..=15.
-            let nibble = (rest & 0xF) as u8;
-            *d = if nibble < 10 {
-                b'0' + nibble
-            } else {
-                b'a' - 10 + nibble
-            };
-            rest >>= 4;
-        }
-        self.bytes(&digits);
-    }
 }
 
 /// The host's standard output.
@@ -95,8 +77,9 @@ pub fn stderr() -> Host {
 #[exception]
 unsafe fn HardFault(ef: &ExceptionFrame) -> ! {
     let mut out = stdout();
+    // The address in decimal, by the one number writer the event lines use.
     out.text("hardfault pc=");
-    out.hex32(ef.pc());
+    out.decimal(u64::from(ef.pc()));
     out.text("\n");
     exit(EXIT_HARDFAULT)
 }

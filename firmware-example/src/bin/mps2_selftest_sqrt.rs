@@ -95,7 +95,7 @@ fn selftest_sqrt() -> u32 {
         None => EXIT_OK,
         Some(b) => {
             out.text("selftest sqrt: first difference at bits=");
-            out.hex32(b);
+            out.decimal(u64::from(b));
             out.text("\n");
             EXIT_SQRT_MISMATCH
         }
