@@ -25,7 +25,9 @@ fn main() -> ExitCode {
             return ExitCode::from(2);
         }
     };
-    let text = match std::fs::read_to_string(&path) {
+    // Bytes, as the board reads them: a line that is not ASCII is an error
+    // of its line here too (`reason=not_ascii`), not of the whole file.
+    let bytes = match std::fs::read(&path) {
         Ok(t) => t,
         Err(e) => {
             eprintln!("error: cannot read {path}: {e}");
@@ -48,7 +50,8 @@ fn main() -> ExitCode {
         }
     };
     let mut events = 0u32;
-    for line in text.lines() {
+    let body = bytes.strip_suffix(b"\n").unwrap_or(&bytes);
+    for line in body.split(|&b| b == b'\n') {
         match replay.feed_line(line) {
             Ok(Some(report)) => {
                 for e in &report.events {
