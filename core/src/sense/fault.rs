@@ -260,19 +260,26 @@ impl fmt::Display for Fault {
                 write!(f, "{sensor}: sample time stamp went backwards")
             }
             Fault::Stale { sensor, silent_ms } => {
-                write!(f, "{sensor}: no sample for {silent_ms} ms")
+                write!(f, "{sensor}: no sample for ")?;
+                write_seconds(f, silent_ms)
             }
             Fault::Stuck {
                 sensor,
                 unchanged_ms,
-            } => write!(f, "{sensor}: reading unchanged for {unchanged_ms} ms"),
+            } => {
+                write!(f, "{sensor}: reading unchanged for ")?;
+                write_seconds(f, unchanged_ms)
+            }
             Fault::MagnitudeOutOfBand {
                 magnitude_g,
                 for_ms,
-            } => write!(
-                f,
-                "accelerometer: magnitude {magnitude_g} g outside the accepted band for {for_ms} ms"
-            ),
+            } => {
+                write!(
+                    f,
+                    "accelerometer: magnitude {magnitude_g} g outside the accepted band for "
+                )?;
+                write_seconds(f, for_ms)
+            }
             Fault::TiltStep { step_rad } => write!(
                 f,
                 "accelerometer: sudden tilt change of {} degrees",
@@ -295,6 +302,13 @@ impl fmt::Display for Fault {
             }
         }
     }
+}
+
+/// Writes a duration of `ms` milliseconds as seconds with three decimals
+/// and the unit (`15.020 s`): the unit a reader expects of a sensor's
+/// silence, exact to the millisecond.
+fn write_seconds(f: &mut fmt::Formatter<'_>, ms: u64) -> fmt::Result {
+    write!(f, "{}.{:03} s", ms / 1000, ms % 1000)
 }
 
 /// Most faults one processor can report at once.
@@ -523,5 +537,35 @@ mod tests {
         for (sensor, code) in sensors {
             assert_eq!(sensor.code(), code);
         }
+    }
+
+    #[test]
+    fn durations_read_in_seconds_to_the_millisecond() {
+        let mut out = heapless::String::<96>::new();
+        core::fmt::write(
+            &mut out,
+            format_args!(
+                "{}",
+                Fault::Stale {
+                    sensor: Sensor::WindSpeed,
+                    silent_ms: 15_020,
+                }
+            ),
+        )
+        .unwrap();
+        assert_eq!(out.as_str(), "wind speed sensor: no sample for 15.020 s");
+        out.clear();
+        core::fmt::write(
+            &mut out,
+            format_args!(
+                "{}",
+                Fault::Stuck {
+                    sensor: Sensor::Accelerometer,
+                    unchanged_ms: 7,
+                }
+            ),
+        )
+        .unwrap();
+        assert_eq!(out.as_str(), "accelerometer: reading unchanged for 0.007 s");
     }
 }

@@ -717,7 +717,7 @@ fn faults_display_their_sensor() {
     };
     assert_eq!(
         f.to_string(),
-        "wind direction sensor: reading unchanged for 301000 ms"
+        "wind direction sensor: reading unchanged for 301.000 s"
     );
     assert!(Fault::TiltStep { step_rad: 0.1 }
         .to_string()
