@@ -9,6 +9,13 @@
 //! the number of runs (default 3), and `STANDFAST_BENCH_ONLY=parse` or
 //! `=replay` to run one half (for a profiler).
 //!
+//! **Instruction counts** (deterministic, whatever the machine's load):
+//! `host-sim/benches/callgrind.sh` runs this bench once under
+//! `valgrind --tool=callgrind` with `STANDFAST_BENCH_RUNS=1`, dumping the
+//! counters at the entry of [`replay_pass`], so that one run gives the
+//! parse-only count (start-up and [`parse_pass`]) and the full replay's
+//! count (both threads) separately; see BENCHMARKS.md.
+//!
 //! The full replay runs on two threads (reading and merging on one, the
 //! guard on the other), so beside the wall time the bench prints the CPU
 //! time of the process (user and system, all threads, from
@@ -21,6 +28,7 @@ use std::time::Instant;
 
 use standfast_sim::commands::demo_data::{write_bench_log, BENCH_PROFILE_TOML};
 use standfast_sim::input::log::{ErrorPolicy, LogProfile, Merger};
+use standfast_sim::input::rigfile::LoadedRig;
 use standfast_sim::model::replay::{replay, ReplayOptions};
 
 /// CPU time of this process so far (user and system, all threads), in
@@ -64,6 +72,39 @@ fn env_or<T: std::str::FromStr>(name: &str, default: T) -> T {
         .unwrap_or(default)
 }
 
+/// The parse-only pass: reads and merges the whole log (`Merger` to the
+/// end), nothing else; returns the rows read. Not inlined, so that a
+/// profiler can attribute its cost (`callgrind.sh` dumps at the entry of
+/// [`replay_pass`]).
+#[inline(never)]
+fn parse_pass(profile: &LogProfile) -> u64 {
+    let mut m = Merger::open(profile, ErrorPolicy::Stop).expect("open");
+    let mut acc = 0.0;
+    while let Some(r) = m.next_record().expect("read") {
+        acc += r.accel_mps2.map_or(0.0, |a| a[2]);
+    }
+    black_box(acc);
+    m.rows()
+}
+
+/// The full replay pass (the guard on a second thread, as `standfast
+/// replay` runs it, without its output files); returns the rows read and
+/// the highest overturning utilisation. Not inlined (see [`parse_pass`]).
+#[inline(never)]
+fn replay_pass(rig: &LoadedRig, profile: &LogProfile) -> (u64, Option<f32>) {
+    let mut m = Merger::open(profile, ErrorPolicy::Stop).expect("open");
+    let rep = replay(
+        std::slice::from_ref(rig),
+        &mut m,
+        ReplayOptions::default(),
+        None,
+    )
+    .expect("replay");
+    let highest = rep.rigs[0].overturning.as_ref().map(|a| a.utilisation);
+    black_box(&rep);
+    (m.rows(), highest)
+}
+
 #[allow(clippy::cast_precision_loss)]
 fn main() {
     let hours: f64 = env_or("STANDFAST_BENCH_HOURS", 24.0);
@@ -96,15 +137,7 @@ fn main() {
     let mut parse_cpu = None;
     let mut rows = 0;
     for _ in 0..parse_runs {
-        let (wall, cpu) = timed(|| {
-            let mut m = Merger::open(&profile, ErrorPolicy::Stop).expect("open");
-            let mut acc = 0.0;
-            while let Some(r) = m.next_record().expect("read") {
-                acc += r.accel_mps2.map_or(0.0, |a| a[2]);
-            }
-            black_box(acc);
-            rows = m.rows();
-        });
+        let (wall, cpu) = timed(|| rows = parse_pass(&profile));
         if wall < parse_best {
             (parse_best, parse_cpu) = (wall, cpu);
         }
@@ -114,19 +147,7 @@ fn main() {
     let mut replay_cpu = None;
     let mut highest = None;
     for _ in 0..replay_runs {
-        let (wall, cpu) = timed(|| {
-            let mut m = Merger::open(&profile, ErrorPolicy::Stop).expect("open");
-            let rep = replay(
-                std::slice::from_ref(&rig),
-                &mut m,
-                ReplayOptions::default(),
-                None,
-            )
-            .expect("replay");
-            rows = m.rows();
-            highest = rep.rigs[0].overturning.as_ref().map(|a| a.utilisation);
-            black_box(&rep);
-        });
+        let (wall, cpu) = timed(|| (rows, highest) = replay_pass(&rig, &profile));
         if wall < replay_best {
             (replay_best, replay_cpu) = (wall, cpu);
         }
