@@ -19,7 +19,9 @@
 #     taken out).
 # Needs valgrind (callgrind_annotate is not used: the totals are read from
 # the output files). Builds the release binary and the bench with cargo;
-# honours CARGO_TARGET_DIR. Logs go to target/standfast-bench/ of the
+# honours CARGO_TARGET_DIR. To count other builds (an older commit's, for a
+# before-and-after), set STANDFAST_BIN and STANDFAST_BENCH_BIN to their
+# `standfast` and replay-bench executables: nothing is built then. Logs go to target/standfast-bench/ of the
 # workspace (as the bench's), outputs to a temporary folder.
 set -euo pipefail
 root=$(cd "$(dirname "$0")/../.." && pwd)
@@ -29,11 +31,16 @@ hours=("$@")
 command -v valgrind >/dev/null || { echo "valgrind is not installed" >&2; exit 3; }
 
 cd "$root"
-cargo build --release -p standfast-sim --bin standfast >&2
-bench=$(cargo bench -p standfast-sim --bench replay --no-run --message-format=json 2>/dev/null |
-    sed -n 's/.*"executable":"\([^"]*\)".*/\1/p' | tail -1)
+if [ -n "${STANDFAST_BIN:-}" ] && [ -n "${STANDFAST_BENCH_BIN:-}" ]; then
+    bin=$STANDFAST_BIN
+    bench=$STANDFAST_BENCH_BIN
+else
+    cargo build --release -p standfast-sim --bin standfast >&2
+    bench=$(cargo bench -p standfast-sim --bench replay --no-run --message-format=json 2>/dev/null |
+        sed -n 's/.*"executable":"\([^"]*\)".*/\1/p' | tail -1)
+    bin=$target/release/standfast
+fi
 [ -x "$bench" ] || { echo "cannot find the replay bench executable" >&2; exit 3; }
-bin=$target/release/standfast
 out=$(mktemp -d)
 trap 'rm -rf "$out"' EXIT
 

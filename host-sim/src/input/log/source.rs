@@ -74,6 +74,8 @@ struct Lines {
     /// `ends` (offsets from `row`).
     row: usize,
     ends: Vec<usize>,
+    /// The field delimiter.
+    delimiter: u8,
 }
 
 impl Lines {
@@ -95,6 +97,7 @@ impl Lines {
             class,
             row: 0,
             ends: Vec::with_capacity(16),
+            delimiter,
         }
     }
 
@@ -129,31 +132,34 @@ impl Lines {
     }
 
     /// Scans the line at the read position.
+    ///
+    /// The line's end is found first (the first line feed, quote or
+    /// carriage return, by `memchr`, a few bytes per instruction), then
+    /// its delimiters; the same fields and classes as a byte-by-byte scan.
     fn scan(&mut self) -> io::Result<Scan> {
         self.ends.clear();
         // Offset from the line start, kept across refills (which move the
-        // line to the front of the buffer).
+        // line to the front of the buffer): the bytes before it hold no
+        // line feed, quote or carriage return.
         let mut i = 0;
         loop {
             let line = self.buf.get(self.start..self.end).unwrap_or_default();
-            while let Some(&b) = line.get(i) {
-                match self.class[usize::from(b)] {
-                    PLAIN => {}
-                    DELIMITER => self.ends.push(i),
-                    LINE_FEED => {
-                        self.row = self.start;
-                        self.start += i + 1;
-                        self.line += 1;
-                        if i == 0 {
-                            return Ok(Scan::Blank);
-                        }
-                        self.ends.push(i);
-                        return Ok(Scan::Row);
-                    }
-                    _ => return Ok(Scan::General),
+            let rest = line.get(i..).unwrap_or_default();
+            if let Some(p) = memchr::memchr3(b'\n', b'"', b'\r', rest) {
+                let at = i + p;
+                if self.class[usize::from(line.get(at).copied().unwrap_or(b'"'))] != LINE_FEED {
+                    return Ok(Scan::General);
                 }
-                i += 1;
+                self.row = self.start;
+                self.start += at + 1;
+                self.line += 1;
+                if at == 0 {
+                    return Ok(Scan::Blank);
+                }
+                self.push_ends(at);
+                return Ok(Scan::Row);
             }
+            i = line.len();
             if self.eof || !self.fill()? {
                 if i == 0 {
                     return Ok(Scan::End);
@@ -161,10 +167,43 @@ impl Lines {
                 // The last row, without a line end.
                 self.row = self.start;
                 self.start += i;
-                self.ends.push(i);
+                self.push_ends(i);
                 return Ok(Scan::Row);
             }
         }
+    }
+
+    /// Records the field ends of the row `buf[row..row + len]` (which holds
+    /// no line feed, quote or carriage return): each delimiter, then `len`.
+    /// Eight bytes at a time: the bytes equal to the delimiter are the
+    /// zero bytes of the word XOR the delimiter repeated, found exactly
+    /// (no false hits) by the usual bit trick.
+    fn push_ends(&mut self, len: usize) {
+        const LOW7: u64 = 0x7f7f_7f7f_7f7f_7f7f;
+        let line = self.buf.get(self.row..self.row + len).unwrap_or_default();
+        // A delimiter that is a special byte never reaches here (the
+        // splitter is used only when the delimiter's class is DELIMITER).
+        let pattern = u64::from_le_bytes([self.delimiter; 8]);
+        let mut words = line.chunks_exact(8);
+        let mut base = 0;
+        for w in &mut words {
+            let mut bytes = [0u8; 8];
+            bytes.copy_from_slice(w);
+            let x = u64::from_le_bytes(bytes) ^ pattern;
+            // High bit of each byte set exactly where that byte of x is 0.
+            let mut zero = !(((x & LOW7) + LOW7) | x | LOW7);
+            while zero != 0 {
+                self.ends.push(base + (zero.trailing_zeros() / 8) as usize);
+                zero &= zero - 1;
+            }
+            base += 8;
+        }
+        for (j, &b) in words.remainder().iter().enumerate() {
+            if b == self.delimiter {
+                self.ends.push(base + j);
+            }
+        }
+        self.ends.push(len);
     }
 
     /// The current row's fields.
@@ -249,26 +288,37 @@ impl Read for CrlfToLf {
         }
         let data = self.buf.get(self.start..self.end).unwrap_or_default();
         let mut i = 0;
-        while let (Some(&b), true) = (data.get(i), w < out.len()) {
-            if b == b'\r' {
-                match data.get(i + 1) {
-                    Some(b'\n') => {
-                        i += 1;
-                        continue;
+        // Runs without a CR are copied whole (found by `memchr`); each CR
+        // is then dropped before a LF, held when it ends the data, or kept.
+        while w < out.len() {
+            let n = (out.len() - w).min(data.len() - i);
+            let run = data.get(i..i + n).unwrap_or_default();
+            let cr = memchr::memchr(b'\r', run);
+            let copy = cr.unwrap_or(n);
+            if let (Some(o), Some(d)) = (out.get_mut(w..w + copy), run.get(..copy)) {
+                o.copy_from_slice(d);
+            }
+            w += copy;
+            i += copy;
+            if cr.is_none() {
+                break;
+            }
+            // data[i] is a CR.
+            match data.get(i + 1) {
+                Some(b'\n') => i += 1,
+                None => {
+                    self.held_cr = true;
+                    i += 1;
+                    break;
+                }
+                Some(_) => {
+                    if let Some(o) = out.get_mut(w) {
+                        *o = b'\r';
                     }
-                    None => {
-                        self.held_cr = true;
-                        i += 1;
-                        break;
-                    }
-                    Some(_) => {}
+                    w += 1;
+                    i += 1;
                 }
             }
-            if let Some(o) = out.get_mut(w) {
-                *o = b;
-            }
-            w += 1;
-            i += 1;
         }
         self.start += i;
         if w == 0 && self.held_cr {
@@ -397,6 +447,44 @@ fn csv_builder(delimiter: u8, has_headers: bool) -> csv::ReaderBuilder {
     b
 }
 
+/// Where a column's value goes in a row.
+#[derive(Clone, Copy, Debug)]
+enum Slot {
+    /// Accelerometer sensor axis 0, 1 or 2 (mapped to the rig frame once
+    /// the row's three axes are read).
+    Sensor(usize),
+    /// Another channel.
+    Channel(Channel),
+}
+
+/// A mapped column with what its cells need, worked out once per file.
+#[derive(Clone, Debug)]
+struct Column {
+    /// Field index in the row.
+    idx: usize,
+    slot: Slot,
+    /// A word channel (pier side, flag) rather than a number.
+    word: bool,
+    profile: ColumnProfile,
+}
+
+impl Column {
+    fn new(idx: usize, profile: ColumnProfile) -> Column {
+        let slot = match profile.channel {
+            Channel::AccelX => Slot::Sensor(0),
+            Channel::AccelY => Slot::Sensor(1),
+            Channel::AccelZ => Slot::Sensor(2),
+            c => Slot::Channel(c),
+        };
+        Column {
+            idx,
+            slot,
+            word: !matches!(profile.channel.kind(), ChannelKind::Quantity(_)),
+            profile,
+        }
+    }
+}
+
 /// A CSV log being read.
 pub struct CsvSource {
     label: String,
@@ -408,7 +496,7 @@ pub struct CsvSource {
     zone_offset_s: i32,
     gap_ns: i64,
     gap_s: f64,
-    cols: Vec<(usize, ColumnProfile)>,
+    cols: Vec<Column>,
     accel_axes: [AxisSource; 3],
     prev: Option<(Timestamp, u64)>,
 }
@@ -469,7 +557,7 @@ impl CsvSource {
         let time_idx = find(&fp.time_column)?;
         let mut cols = Vec::with_capacity(fp.columns.len());
         for c in &fp.columns {
-            cols.push((find(&c.header)?, c.clone()));
+            cols.push(Column::new(find(&c.header)?, c.clone()));
         }
         #[allow(clippy::cast_possible_truncation)] // gap ≤ 1 day, checked by the profile
         let gap_ns = (fp.gap_s * 1e9).round() as i64;
@@ -621,72 +709,73 @@ impl CsvSource {
         let mut set = ChannelSet::EMPTY;
         let mut sensor = [f64::NAN; 3];
         let mut n_accel = 0;
-        for (idx, col) in &self.cols {
-            let cell = rec.field(*idx).trim_ascii();
+        for c in &self.cols {
+            let field = rec.field(c.idx);
+            if field.is_empty() {
+                continue;
+            }
+            let cell = field.trim_ascii();
             if cell.is_empty() {
                 continue;
             }
-            let v = match col.channel.kind() {
-                ChannelKind::Quantity(_) => {
-                    let raw = match fast_decimal(cell) {
-                        Some(x) => x,
-                        None => {
-                            let x: f64 = core::str::from_utf8(cell)
-                                .ok()
-                                .and_then(|t| t.parse().ok())
-                                .ok_or_else(|| {
-                                    format!(
-                                        "{} = \"{}\" is not a number (column unit {})",
-                                        bounded(&col.header.value),
-                                        bounded_bytes(cell),
-                                        col.unit.symbol()
-                                    )
-                                })?;
-                            if !x.is_finite() {
-                                return Err(format!(
-                                    "{} = \"{}\" is not a finite number",
+            let col = &c.profile;
+            let v = if c.word {
+                let text = String::from_utf8_lossy(cell);
+                col.channel.parse_word(&text).ok_or_else(|| {
+                    if col.channel.kind() == ChannelKind::PierSide {
+                        format!(
+                            "{} = \"{}\" is not a pier side (accepted: east, e, west, w)",
+                            bounded(&col.header.value),
+                            bounded_bytes(cell)
+                        )
+                    } else {
+                        format!(
+                            "{} = \"{}\" is not a yes/no value (accepted: 1, 0, true, false, yes, no, on, off)",
+                            bounded(&col.header.value),
+                            bounded_bytes(cell)
+                        )
+                    }
+                })?
+            } else {
+                let raw = match fast_decimal(cell) {
+                    Some(x) => x,
+                    None => {
+                        let x: f64 = core::str::from_utf8(cell)
+                            .ok()
+                            .and_then(|t| t.parse().ok())
+                            .ok_or_else(|| {
+                                format!(
+                                    "{} = \"{}\" is not a number (column unit {})",
                                     bounded(&col.header.value),
-                                    bounded_bytes(cell)
-                                ));
-                            }
-                            x
-                        }
-                    };
-                    col.to_si(raw)
-                }
-                ChannelKind::PierSide | ChannelKind::Flag => {
-                    let text = String::from_utf8_lossy(cell);
-                    col.channel.parse_word(&text).ok_or_else(|| {
-                        if col.channel.kind() == ChannelKind::PierSide {
-                            format!(
-                                "{} = \"{}\" is not a pier side (accepted: east, e, west, w)",
+                                    bounded_bytes(cell),
+                                    col.unit.symbol()
+                                )
+                            })?;
+                        if !x.is_finite() {
+                            return Err(format!(
+                                "{} = \"{}\" is not a finite number",
                                 bounded(&col.header.value),
                                 bounded_bytes(cell)
-                            )
-                        } else {
-                            format!(
-                                "{} = \"{}\" is not a yes/no value (accepted: 1, 0, true, false, yes, no, on, off)",
-                                bounded(&col.header.value),
-                                bounded_bytes(cell)
-                            )
+                            ));
                         }
-                    })?
-                }
+                        x
+                    }
+                };
+                col.to_si(raw)
             };
-            let axis = match col.channel {
-                Channel::AccelX => Some(0),
-                Channel::AccelY => Some(1),
-                Channel::AccelZ => Some(2),
-                _ => None,
-            };
-            if let Some(a) = axis {
-                if let Some(s) = sensor.get_mut(a) {
-                    *s = v;
-                    n_accel += 1;
+            match c.slot {
+                Slot::Sensor(a) => {
+                    if let Some(s) = sensor.get_mut(a) {
+                        *s = v;
+                        n_accel += 1;
+                    }
                 }
-            } else if let Some(slot) = values.get_mut(col.channel.index()) {
-                *slot = v;
-                set.insert(col.channel);
+                Slot::Channel(ch) => {
+                    if let Some(slot) = values.get_mut(ch.index()) {
+                        *slot = v;
+                        set.insert(ch);
+                    }
+                }
             }
         }
         if n_accel == 3 {

@@ -307,32 +307,33 @@ fn short_decimal_scaled(b: &[u8], shift: u32) -> Option<i64> {
     if body.len() > 19 {
         return None;
     }
-    let (int, frac) = match body.iter().position(|&c| c == b'.') {
-        Some(p) => (body.get(..p)?, body.get(p + 1..)?),
-        None => (body, &[][..]),
-    };
-    if int.is_empty() && frac.is_empty() {
+    // One pass: the digits before the point, then at most `shift` after
+    // it (the rest are checked and dropped, truncating toward zero).
+    let shift_digits = usize::try_from(shift).ok()?;
+    let mut v: u64 = 0;
+    let mut dot = false;
+    let mut keep = 0usize;
+    let mut any_digit = false;
+    for &c in body {
+        let d = c.wrapping_sub(b'0');
+        if d < 10 {
+            any_digit = true;
+            if !dot {
+                v = v * 10 + u64::from(d);
+            } else if keep < shift_digits {
+                v = v * 10 + u64::from(d);
+                keep += 1;
+            }
+        } else if c == b'.' && !dot {
+            dot = true;
+        } else {
+            return None;
+        }
+    }
+    if !any_digit {
         return None;
     }
-    let mut v: u64 = 0;
-    for &c in int {
-        let d = c.wrapping_sub(b'0');
-        if d >= 10 {
-            return None;
-        }
-        v = v * 10 + u64::from(d);
-    }
-    let keep = frac.len().min(usize::try_from(shift).ok()?);
-    for (i, &c) in frac.iter().enumerate() {
-        let d = c.wrapping_sub(b'0');
-        if d >= 10 {
-            return None;
-        }
-        if i < keep {
-            v = v * 10 + u64::from(d);
-        }
-    }
-    let scale = POW10.get(usize::try_from(shift).ok()?.checked_sub(keep)?)?;
+    let scale = POW10.get(shift_digits.checked_sub(keep)?)?;
     let v = i64::try_from(v).ok()?.checked_mul(*scale)?;
     Some(if neg { -v } else { v })
 }
