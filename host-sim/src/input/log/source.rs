@@ -1100,5 +1100,52 @@ mod tests {
         ] {
             assert!(fast_decimal(s.as_bytes()).is_none(), "{s}");
         }
+        // Edge cases: signs, zeros, a point at either end, leading zeros,
+        // 15 digits (the longest the fast path takes).
+        for s in [
+            "0",
+            "-0",
+            "+0",
+            "0.0",
+            "-0.0",
+            "1.",
+            ".5",
+            "-.5",
+            "+5",
+            "000123.4500",
+            "999999999999999",
+            "0.00000000000001",
+            "-99999999.9999999",
+        ] {
+            let reference: f64 = s.parse().unwrap();
+            let v = fast_decimal(s.as_bytes()).unwrap_or_else(|| panic!("{s}"));
+            assert_eq!(v.to_bits(), reference.to_bits(), "{s}");
+        }
+    }
+
+    proptest::proptest! {
+        /// Any sign, up to 15 digits and a point anywhere or none: the fast path
+        /// answers, bit for bit as the standard library's parser (the
+        /// reference); anything with an exponent or other text is left to
+        /// the standard parser.
+        #[test]
+        fn fast_decimal_is_the_standard_parse(
+            sign in proptest::sample::select(vec!["", "-", "+"]),
+            digits in "[0-9]{1,15}",
+            dot in 0usize..16,
+            tail in "(|e[0-9]|[a-z ])",
+        ) {
+            let mut s = format!("{sign}{digits}");
+            if dot <= digits.len() {
+                s.insert(sign.len() + dot, '.');
+            }
+            let reference: f64 = s.parse().unwrap();
+            let v = fast_decimal(s.as_bytes());
+            proptest::prop_assert_eq!(v.map(f64::to_bits), Some(reference.to_bits()), "{}", s);
+            if !tail.is_empty() {
+                s.push_str(&tail);
+                proptest::prop_assert!(fast_decimal(s.as_bytes()).is_none(), "{}", s);
+            }
+        }
     }
 }

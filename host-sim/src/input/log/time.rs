@@ -545,4 +545,32 @@ mod tests {
             Some(1_763_154_000_020_000_000)
         );
     }
+
+    proptest::proptest! {
+        /// Any sign, up to 19 digits and a point anywhere or none, at the
+        /// two scales the log times use: the one-pass short path gives the
+        /// general checked loop's value (the reference) whenever it answers,
+        /// and answers for every such number of at most 19 bytes that fits.
+        #[test]
+        fn short_path_is_the_general_loop(
+            sign in proptest::sample::select(vec!["", "-", "+"]),
+            digits in "[0-9]{1,19}",
+            dot in 0usize..21,
+            shift in proptest::sample::select(vec![6u32, 9]),
+        ) {
+            let mut s = format!("{sign}{digits}");
+            if dot <= digits.len() {
+                s.insert(sign.len() + dot, '.');
+            }
+            let want = any_decimal_scaled(s.as_bytes(), shift);
+            let short = short_decimal_scaled(s.as_bytes(), shift);
+            if short.is_some() {
+                proptest::prop_assert_eq!(short, want, "{}", s);
+            }
+            let body = s.trim_start_matches(['-', '+']);
+            if body.len() <= 19 && want.is_some() {
+                proptest::prop_assert_eq!(short, want, "{}", s);
+            }
+        }
+    }
 }
