@@ -27,6 +27,17 @@ pub const MIN_ELEVATION_M: f32 = -500.0;
 pub const MAX_ELEVATION_M: f32 = 11_000.0;
 
 /// Air at the rig: its density in kg/m³.
+/// # Examples
+/// ```
+/// use standfast::Air;
+///
+/// // 5 °C (278.15 K) at 95 kPa: ρ = p / (R·T), about 1.19 kg/m³.
+/// let measured = Air::from_temperature_pressure(278.15, 95_000.0)?;
+/// let standard = Air::isa_at_elevation(0.0)?;
+/// assert!(measured.density_kg_per_m3() < standard.density_kg_per_m3());
+/// assert!(Air::from_density(5.0).is_err(), "denser than any air on Earth");
+/// # Ok::<(), standfast::Error>(())
+/// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]

@@ -35,6 +35,20 @@ pub fn azimuth_of(v: Vec3) -> f32 {
 
 /// Ground tilt: how far the ground normal (rig +z) leans from the true vertical,
 /// and toward which azimuth the ground falls away.
+/// # Examples
+/// ```
+/// use standfast::math::{deg_to_rad, Vec3};
+/// use standfast::Tilt;
+///
+/// // 1.5° falling away to the south.
+/// let t = Tilt::new(deg_to_rad(1.5), deg_to_rad(180.0))?;
+/// assert!((t.magnitude_rad - 0.026_18).abs() < 1e-5);
+/// // From a measured gravity direction (down) in the rig frame.
+/// let g = Tilt::from_gravity(Vec3::new(0.0, 0.02, -1.0))?;
+/// assert!(g.magnitude_rad > 0.019 && g.magnitude_rad < 0.021);
+/// assert!(Tilt::new(f32::NAN, 0.0).is_err());
+/// # Ok::<(), standfast::Error>(())
+/// ```
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]

@@ -99,6 +99,25 @@ impl PierSide {
 }
 
 /// A mount pose.
+/// # Examples
+/// The same pointing of an equatorial mount at latitude 50° given two ways,
+/// and the axis angles they come to:
+/// ```
+/// use standfast::math::deg_to_rad;
+/// use standfast::{MountGeometry, PierSide, Pose};
+///
+/// let mount = MountGeometry::equatorial(deg_to_rad(50.0), [0.0, 0.0, 1.2]);
+/// // One hour west of the meridian, declination +20°, tube east of the pier.
+/// let eq = Pose::Equatorial {
+///     hour_angle_rad: deg_to_rad(15.0),
+///     declination_rad: deg_to_rad(20.0),
+///     pier_side: PierSide::TubeEast,
+/// };
+/// let (t1, t2) = mount.axis_angles(eq)?;
+/// let axes = Pose::Axes { primary_rad: t1, secondary_rad: t2 };
+/// assert_eq!(mount.axis_angles(axes)?, (t1, t2));
+/// # Ok::<(), standfast::Error>(())
+/// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]

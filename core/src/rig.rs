@@ -611,6 +611,24 @@ pub struct Rig {
 }
 
 /// The conditions the rig stands in: pose, ground tilt, wind and air.
+/// # Examples
+/// A 12 m/s gust from the south-west on ground sloping 2° down to the east,
+/// in air 800 m up:
+/// ```
+/// use standfast::math::deg_to_rad;
+/// use standfast::{Air, Conditions, Pose, Tilt};
+///
+/// let pose = Pose::Axes { primary_rad: 0.0, secondary_rad: deg_to_rad(90.0) };
+/// let c = Conditions {
+///     tilt: Tilt::new(deg_to_rad(2.0), deg_to_rad(90.0))?,
+///     wind_speed_mps: 12.0,
+///     wind_from_rad: deg_to_rad(225.0),
+///     air: Air::isa_at_elevation(800.0)?,
+///     ..Conditions::calm(pose)
+/// };
+/// c.validate()?;
+/// # Ok::<(), standfast::Error>(())
+/// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]

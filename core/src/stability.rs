@@ -71,6 +71,31 @@ pub struct Sliding {
 }
 
 /// The stability of a rig in given conditions.
+/// # Examples
+/// An invented rig (hidden lines build it) in a 10 m/s wind from the west:
+/// ```
+/// use standfast::math::deg_to_rad;
+/// use standfast::{Conditions, Pose};
+/// # use standfast::rig::Stage;
+/// # use standfast::{BodySpec, MountGeometry, Rig, RigSpec, Support};
+/// # let spec = RigSpec::new(
+/// #     &Support::tripod(0.45, 0.0)?,
+/// #     MountGeometry::alt_azimuth(deg_to_rad(47.0), [0.0, 0.0, 1.25]),
+/// #     0.3,
+/// # )
+/// # .with_body(BodySpec::optical_tube(5.0, 0.12, 0.7, [0.15, 0.1, 0.0]))?
+/// # .with_body(BodySpec::point(Stage::Ground, 4.0, [0.0, 0.0, 1.1]))?;
+/// # let rig = Rig::new(&spec)?;
+/// let pose = Pose::Axes { primary_rad: 0.0, secondary_rad: deg_to_rad(60.0) };
+/// let c = Conditions { wind_speed_mps: 10.0, wind_from_rad: deg_to_rad(270.0), ..Conditions::calm(pose) };
+/// let f = rig.stability_figures(&c)?;
+/// // Utilisation 1.0 tips; the tip wind from the same direction is above 10 m/s
+/// // exactly when the critical edge is below 1.
+/// assert!(f.critical.utilisation < 1.0);
+/// assert!(f.tip_wind_mps.is_some_and(|v| v > 10.0));
+/// assert!(f.sliding.utilisation >= 0.0);
+/// # Ok::<(), standfast::Error>(())
+/// ```
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize))]

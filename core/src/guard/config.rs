@@ -41,6 +41,20 @@ impl WindSource {
 }
 
 /// Thresholds and timing of the guard. Every default is given with its reason.
+/// # Examples
+/// The defaults, one threshold changed, and a configuration refused with the
+/// field, value and range named:
+/// ```
+/// use standfast::error::{ErrorKind, Field};
+/// use standfast::GuardConfig;
+///
+/// let mut config = GuardConfig { park_utilisation: 0.6, ..GuardConfig::default() };
+/// config.validate()?;
+/// config.park_utilisation = f32::NAN;
+/// let e = config.validate().unwrap_err();
+/// assert_eq!((e.kind, e.field), (ErrorKind::NotFinite, Field::GuardParkUtilisation));
+/// # Ok::<(), standfast::Error>(())
+/// ```
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]

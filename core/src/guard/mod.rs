@@ -140,6 +140,19 @@ pub struct AirSample {
 }
 
 /// Whatever arrived since the last step. Every field is optional.
+/// # Examples
+/// A step with an accelerometer sample (in g, the default scale) and a wind
+/// sample; nothing of the pose, cover or air this time:
+/// ```
+/// use standfast::{Inputs, WindSample};
+///
+/// let inputs = Inputs {
+///     accel_raw: Some([0.01, 0.0, 1.0]),
+///     wind: Some(WindSample { speed_mps: 6.5, from_rad: Some(4.71) }),
+///     ..Inputs::default()
+/// };
+/// assert!(inputs.pose.is_none() && inputs.cover_fitted.is_none());
+/// ```
 #[derive(Clone, Copy, Debug, PartialEq, Default)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
@@ -157,6 +170,28 @@ pub struct Inputs {
     pub air: Option<AirSample>,
 }
 /// The guard's answer for one step.
+/// # Examples
+/// What a controller does with a verdict (from [`Guard::step`]): park on a
+/// request, sound the alarm, log the events and any that were lost.
+/// ```
+/// use standfast::Verdict;
+///
+/// fn act(v: &Verdict, park: &mut bool, alarm: &mut bool) {
+///     *park = v.level.park_requested();
+///     *alarm = v.level.alarm();
+///     for e in &v.events {
+///         // Write `e` to the log here.
+///         let _ = e;
+///     }
+///     if v.events_lost > 0 {
+///         // Log that `v.events_lost` events did not fit.
+///     }
+///     if let (true, Some(pose)) = (*park, v.park_pose) {
+///         // Send the mount to `pose`.
+///         let _ = pose;
+///     }
+/// }
+/// ```
 #[derive(Clone, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Verdict {
@@ -240,6 +275,40 @@ struct Shown {
 }
 
 /// The guard. Borrows the rig; all other state is inline and fixed in size.
+///
+/// # Examples
+/// A guard on an invented rig (hidden lines build it). It starts unable to
+/// judge the rig, so it asks for a park and raises the alarm until its
+/// sensors have given a reading; a sample it cannot trust is a fault in the
+/// same step.
+/// ```
+/// # use standfast::math::deg_to_rad;
+/// # use standfast::rig::Stage;
+/// # use standfast::{BodySpec, MountGeometry, Rig, RigSpec, Support};
+/// # let spec = RigSpec::new(
+/// #     &Support::tripod(0.45, 0.0)?,
+/// #     MountGeometry::alt_azimuth(deg_to_rad(47.0), [0.0, 0.0, 1.25]),
+/// #     0.3,
+/// # )
+/// # .with_body(BodySpec::optical_tube(5.0, 0.12, 0.7, [0.15, 0.1, 0.0]))?
+/// # .with_body(BodySpec::point(Stage::Ground, 4.0, [0.0, 0.0, 1.1]))?;
+/// # let rig = Rig::new(&spec)?;
+/// use standfast::guard::AlertLevel;
+/// use standfast::{Guard, GuardConfig, Inputs, Millis, WindSample};
+///
+/// let mut guard = Guard::new(&rig, GuardConfig::default(), Millis(0))?;
+/// let v = guard.step(Millis(100), &Inputs::default());
+/// assert_eq!(v.level, AlertLevel::SensorFault);
+/// assert!(v.level.park_requested() && v.level.alarm());
+///
+/// let bad = Inputs {
+///     wind: Some(WindSample { speed_mps: f32::NAN, from_rad: None }),
+///     ..Inputs::default()
+/// };
+/// let v = guard.step(Millis(200), &bad);
+/// assert!(v.faults.iter().any(|f| f.class_code() == "not_finite"));
+/// # Ok::<(), standfast::Error>(())
+/// ```
 #[derive(Clone, Debug)]
 pub struct Guard<'r> {
     rig: &'r Rig,

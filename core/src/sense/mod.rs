@@ -41,6 +41,16 @@ pub use wind::{
 /// A time stamp: whole milliseconds since an arbitrary epoch chosen by the
 /// caller, taken from a monotonic clock. Only differences between time stamps
 /// carry meaning.
+/// # Examples
+/// ```
+/// use standfast::Millis;
+///
+/// let start = Millis::from_secs(10);
+/// let now = start.plus_ms(2_500);
+/// assert_eq!(now.since(start), 2_500);
+/// assert_eq!(now.seconds_since(start), 2.5);
+/// assert_eq!(start.since(now), 0, "never negative");
+/// ```
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq, PartialOrd, Ord, Hash)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
