@@ -455,4 +455,110 @@ mod tests {
         assert_eq!(coarse_bins_for(15.0), 2);
         assert_eq!(coarse_bins_for(0.0), 1);
     }
+
+    fn stats(config: WindConfig, start_ms: u64) -> WindStats {
+        WindStats::new(config, Millis(start_ms)).unwrap()
+    }
+
+    /// `speed(t)` every `step_ms` over [from_ms, to_ms], direction west.
+    fn feed(w: &mut WindStats, from_ms: u64, to_ms: u64, step_ms: u64, speed: impl Fn(u64) -> f32) {
+        let mut t = from_ms;
+        while t <= to_ms {
+            w.push(Millis(t), speed(t), Some(4.712_389)).unwrap();
+            t += step_ms;
+        }
+    }
+
+    #[test]
+    fn height_factor_is_the_configurations() {
+        let config = WindConfig {
+            anemometer_height_m: 10.0,
+            rig_height_m: 2.0,
+            ..WindConfig::default()
+        };
+        let w = stats(config, 0);
+        assert_eq!(w.height_factor(), config.height_factor().unwrap());
+        assert!(w.height_factor() < 1.0, "lower is calmer");
+        // Every speed is scaled by it: 3 s of 10 m/s at the mast.
+        let mut w = w;
+        feed(&mut w, 0, 4000, 100, |_| 10.0);
+        let g = w.gust_3s_mps(Millis(4000)).unwrap();
+        assert!((g - 10.0 * w.height_factor()).abs() < 1e-4, "{g}");
+    }
+
+    /// The first 3-s mean exists once the record spans a whole 3-s window
+    /// (12 bins of 250 ms), counted from the first sample whatever the
+    /// clock's epoch, and not one bin earlier.
+    #[test]
+    fn first_gust_after_exactly_three_seconds_of_record() {
+        for start in [0_u64, 10_000, 123_250] {
+            let mut w = stats(WindConfig::default(), start);
+            feed(&mut w, start, start + 2749, 50, |_| 6.0);
+            // Bin of start + 2 750 ms is the 12th: the window is complete.
+            assert_eq!(w.gust_3s_mps(Millis(start + 2700)), None, "start {start}");
+            assert_eq!(w.report(Millis(start + 2700)).gust_3s_mps, None);
+            feed(&mut w, start + 2750, start + 2750, 50, |_| 6.0);
+            assert_eq!(
+                w.gust_3s_mps(Millis(start + 2750)),
+                Some(6.0),
+                "start {start}"
+            );
+        }
+    }
+
+    /// The 3-s mean holds only the last 3 s; the ten-minute mean only the
+    /// last ten minutes (60 bins of 10 s); the peak includes the present,
+    /// not yet closed, 3-s mean.
+    #[test]
+    fn windows_forget_what_lies_outside_them() {
+        let mut w = stats(WindConfig::default(), 0);
+        feed(&mut w, 0, 5_950, 50, |_| 5.0);
+        feed(&mut w, 6_000, 9_000, 50, |_| 9.0);
+        assert_eq!(w.gust_3s_mps(Millis(9_000)), Some(9.0));
+        let r = w.report(Millis(9_000));
+        assert_eq!(r.gust_3s_mps, Some(9.0));
+        assert_eq!(r.peak_gust_mps, Some(9.0), "the open 3-s mean counts");
+        // The mean of what was fed: 120 samples of 5, 61 of 9.
+        let want = (120.0 * 5.0 + 61.0 * 9.0) / 181.0;
+        assert!((r.mean_10min_mps.unwrap() - want).abs() < 1e-4);
+
+        // Twenty minutes: ten at 4 m/s, then ten at 8 m/s (one sample a
+        // second). The ten-minute mean holds the last 60 coarse bins only.
+        let mut w = stats(WindConfig::default(), 0);
+        feed(&mut w, 0, 599_000, 1000, |_| 4.0);
+        feed(&mut w, 600_000, 1_199_000, 1000, |_| 8.0);
+        let r = w.report(Millis(1_199_000));
+        assert_eq!(r.mean_10min_mps, Some(8.0));
+        assert!((r.mean_span_s - 600.0).abs() < 1e-3);
+        assert_eq!(r.gust_factor, Some(1.0));
+    }
+
+    #[test]
+    fn asking_before_the_newest_sample_gives_no_gust() {
+        let mut w = stats(WindConfig::default(), 0);
+        feed(&mut w, 0, 6_000, 100, |_| 7.0);
+        // A time in an earlier bin than the newest sample's: not a "now".
+        assert_eq!(w.gust_3s_mps(Millis(5_000)), None);
+        assert_eq!(w.report(Millis(5_000)).gust_3s_mps, None);
+        assert_eq!(w.gust_3s_mps(Millis(6_000)), Some(7.0));
+    }
+
+    /// With calm set at 0 and no wind at all, there is no gust factor (not
+    /// a division by zero).
+    #[test]
+    fn no_gust_factor_in_dead_calm() {
+        let config = WindConfig {
+            calm_below_mps: 0.0,
+            ..WindConfig::default()
+        };
+        let mut w = stats(config, 0);
+        let mut t = 0;
+        while t <= 20_000 {
+            w.push(Millis(t), 0.0, None).unwrap();
+            t += 100;
+        }
+        let r = w.report(Millis(20_000));
+        assert_eq!(r.mean_10min_mps, Some(0.0));
+        assert_eq!(r.gust_factor, None);
+    }
 }
