@@ -561,4 +561,32 @@ mod tests {
         assert_eq!(r.mean_10min_mps, Some(0.0));
         assert_eq!(r.gust_factor, None);
     }
+
+    #[test]
+    fn two_samples_at_one_time_stamp_are_both_taken() {
+        let mut w = stats(WindConfig::default(), 0);
+        w.push(Millis(1000), 4.0, Some(1.0)).unwrap();
+        assert_eq!(w.push(Millis(1000), 6.0, Some(1.0)), Ok(()));
+        assert!(w.push(Millis(999), 6.0, Some(1.0)).is_err());
+    }
+
+    /// Calm is "below" its speed: a wind of exactly that speed has a
+    /// direction.
+    #[test]
+    fn wind_at_the_calm_speed_is_not_calm() {
+        let config = WindConfig::default();
+        let mut w = stats(config, 0);
+        feed(&mut w, 0, 30_000, 500, |_| config.calm_below_mps);
+        assert!(
+            matches!(
+                w.report(Millis(30_000)).direction,
+                WindDirection::Defined { .. }
+            ),
+            "{:?}",
+            w.report(Millis(30_000)).direction
+        );
+        let mut w = stats(config, 0);
+        feed(&mut w, 0, 30_000, 500, |_| config.calm_below_mps * 0.99);
+        assert_eq!(w.report(Millis(30_000)).direction, WindDirection::Calm);
+    }
 }
