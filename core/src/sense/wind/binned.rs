@@ -589,4 +589,25 @@ mod tests {
         feed(&mut w, 0, 30_000, 500, |_| config.calm_below_mps * 0.99);
         assert_eq!(w.report(Millis(30_000)).direction, WindDirection::Calm);
     }
+
+    /// The direction is called calm when more than half the samples are
+    /// calm: exactly half is not.
+    #[test]
+    fn calm_needs_more_than_half_the_samples() {
+        let config = WindConfig::default();
+        let mut w = stats(config, 0);
+        // Alternating 0.2 m/s (calm) and 3 m/s from the west: half calm.
+        feed(&mut w, 0, 29_500, 500, |t| {
+            if (t / 500) % 2 == 0 {
+                0.2
+            } else {
+                3.0
+            }
+        });
+        let d = w.report(Millis(29_500)).direction;
+        assert!(matches!(d, WindDirection::Defined { .. }), "{d:?}");
+        // One calm sample more tips it.
+        w.push(Millis(29_600), 0.2, Some(4.712_389)).unwrap();
+        assert_eq!(w.report(Millis(29_600)).direction, WindDirection::Calm);
+    }
 }
