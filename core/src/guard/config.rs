@@ -158,7 +158,7 @@ impl GuardConfig {
     ///
     /// # Errors
     /// The first invalid field, named `guard.<field>` (the tilt and wind
-    /// processors' own fields as `tilt.<field>` and `wind.<field>`).
+    /// processors' own fields as `guard.tilt.<field>` and `guard.wind.<field>`).
     pub fn validate(&self) -> Result<(), Error> {
         self.tilt.validate()?;
         self.wind.validate()?;

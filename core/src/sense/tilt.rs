@@ -279,7 +279,7 @@ impl TiltConfig {
     ///
     /// # Errors
     /// The first field that is non-finite or out of its range, named as
-    /// `tilt.<field>`; also the filter time constants must increase
+    /// `guard.tilt.<field>`; also the filter time constants must increase
     /// fast < step < drift.
     pub fn validate(&self) -> Result<(), Error> {
         Error::check(Field::TiltScaleGPerCount, self.scale_g_per_count, 1e-9, 1e6)?;

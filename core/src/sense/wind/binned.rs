@@ -610,4 +610,144 @@ mod tests {
         w.push(Millis(29_600), 0.2, Some(4.712_389)).unwrap();
         assert_eq!(w.report(Millis(29_600)).direction, WindDirection::Calm);
     }
+
+    /// Every field of the wind configuration, just outside its documented
+    /// range, is refused under its own name; the bounds are accepted.
+    #[test]
+    fn wind_config_each_field_refused_under_its_name() {
+        use crate::error::Field;
+        let d = WindConfig::default();
+        assert_eq!(d.validate(), Ok(()));
+        type Set = fn(&mut WindConfig, f32);
+        let fields: [(Field, Set, f32, f32); 8] = [
+            (
+                Field::WindPeakWindowS,
+                |c, v| c.peak_window_s = v,
+                3.0,
+                600.0,
+            ),
+            (
+                Field::WindDirectionWindowS,
+                |c, v| c.direction_window_s = v,
+                10.0,
+                600.0,
+            ),
+            (
+                Field::WindCalmBelowMps,
+                |c, v| c.calm_below_mps = v,
+                0.0,
+                5.0,
+            ),
+            (
+                Field::WindVariableSpreadRad,
+                |c, v| c.variable_spread_rad = v,
+                0.0,
+                10.0,
+            ),
+            (
+                Field::WindMaxSpeedMps,
+                |c, v| c.max_speed_mps = v,
+                1.0,
+                150.0,
+            ),
+            (
+                Field::WindStaleAfterS,
+                |c, v| c.stale_after_s = v,
+                1e-3,
+                86_400.0,
+            ),
+            (
+                Field::WindStuckAfterS,
+                |c, v| c.stuck_after_s = v,
+                0.0,
+                86_400.0,
+            ),
+            (
+                Field::WindMeanGustFactor,
+                |c, v| c.mean_gust_factor = v,
+                1.0,
+                3.0,
+            ),
+        ];
+        for (field, set, lo, hi) in fields {
+            for ok in [lo, hi] {
+                let mut c = d;
+                set(&mut c, ok);
+                assert_eq!(c.validate(), Ok(()), "{field:?} = {ok}");
+            }
+            let below = if lo == 0.0 { -1e-6 } else { lo * 0.999 };
+            let above = hi * 1.001;
+            for bad in [below, above, f32::NAN, f32::INFINITY] {
+                let mut c = d;
+                set(&mut c, bad);
+                let e = c.validate().unwrap_err();
+                assert_eq!(e.field, field, "{field:?} = {bad}");
+            }
+        }
+    }
+
+    /// The guard's speed: the peak gust, else the latest 3-s mean, else the
+    /// mean times the fallback factor, else none.
+    #[test]
+    fn design_gust_takes_the_first_figure_there_is() {
+        let r = WindReport {
+            gust_3s_mps: Some(7.0),
+            peak_gust_mps: Some(9.0),
+            mean_10min_mps: Some(5.0),
+            mean_span_s: 600.0,
+            gust_factor: Some(1.8),
+            direction: WindDirection::NoData,
+            basis: GustBasis::Measured,
+        };
+        assert_eq!(r.design_gust_mps(1.5), Some(9.0));
+        let r = WindReport {
+            peak_gust_mps: None,
+            ..r
+        };
+        assert_eq!(r.design_gust_mps(1.5), Some(7.0));
+        let r = WindReport {
+            gust_3s_mps: None,
+            ..r
+        };
+        assert_eq!(r.design_gust_mps(1.5), Some(7.5));
+        let r = WindReport {
+            mean_10min_mps: None,
+            ..r
+        };
+        assert_eq!(r.design_gust_mps(1.5), None);
+    }
+
+    /// The speed channel's stale and stuck faults start 1 ms past their
+    /// limits; a stuck time of 0 disables the stuck check.
+    #[test]
+    fn wind_stale_and_stuck_start_one_millisecond_past_their_limits() {
+        let has = |w: &WindStats, t: u64, class: &str| {
+            w.faults(Millis(t))
+                .iter()
+                .any(|f| f.class_code() == class && f.sensor() == Sensor::WindSpeed)
+        };
+        let config = WindConfig {
+            stale_after_s: 5.0,
+            stuck_after_s: 60.0,
+            ..WindConfig::default()
+        };
+        let mut w = stats(config, 0);
+        w.push(Millis(1000), 3.0, None).unwrap();
+        assert!(!has(&w, 6000, "stale"));
+        assert!(has(&w, 6001, "stale"));
+
+        let mut w = stats(config, 0);
+        feed(&mut w, 0, 60_000, 1000, |_| 3.0);
+        assert!(!has(&w, 60_000, "stuck"));
+        w.push(Millis(60_001), 3.0, None).unwrap();
+        assert!(has(&w, 60_001, "stuck"));
+
+        let off = WindConfig {
+            stuck_after_s: 0.0,
+            ..config
+        };
+        let mut w = stats(off, 0);
+        feed(&mut w, 0, 120_000, 1000, |_| 3.0);
+        assert!(!has(&w, 120_000, "stuck"), "stuck check disabled");
+    }
 }

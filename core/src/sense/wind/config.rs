@@ -81,7 +81,7 @@ impl WindConfig {
     /// Checks every field.
     ///
     /// # Errors
-    /// The first non-finite or out-of-range field, named `wind.<field>`.
+    /// The first non-finite or out-of-range field, named `guard.wind.<field>`.
     pub fn validate(&self) -> Result<(), Error> {
         log_profile_factor(self.anemometer_height_m, self.rig_height_m, self.terrain)?;
         Error::check(Field::WindPeakWindowS, self.peak_window_s, 3.0, 600.0)?;
