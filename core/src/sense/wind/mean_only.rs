@@ -131,3 +131,106 @@ impl MeanWind {
         set
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Ten-minute means from a 10 m mast for a rig 2 m up; stale after an
+    /// hour, stuck after 30 minutes of one value.
+    fn config() -> WindConfig {
+        WindConfig {
+            anemometer_height_m: 10.0,
+            rig_height_m: 2.0,
+            stale_after_s: 3600.0,
+            stuck_after_s: 1800.0,
+            expect_direction: true,
+            ..WindConfig::default()
+        }
+    }
+
+    fn has(set: &FaultSet, sensor: Sensor, class: &str) -> bool {
+        set.iter()
+            .any(|f| f.sensor() == sensor && f.class_code() == class)
+    }
+
+    #[test]
+    fn mean_and_gust_at_rig_height() {
+        let c = config();
+        let hf = c.height_factor().unwrap();
+        assert!(hf < 1.0);
+        let mut m = MeanWind::new(c, Millis(0)).unwrap();
+        assert_eq!(m.report(Millis(0)).direction, WindDirection::NoData);
+        m.push(Millis(600_000), 8.0, Some(1.0)).unwrap();
+        let r = m.report(Millis(600_000));
+        assert_eq!(r.mean_10min_mps, Some(8.0 * hf));
+        assert_eq!(
+            r.gust_3s_mps,
+            Some(gust_from_mean(8.0 * hf, c.mean_gust_factor))
+        );
+        assert_eq!(r.peak_gust_mps, r.gust_3s_mps);
+        assert_eq!(r.gust_factor, Some(c.mean_gust_factor));
+        assert_eq!(r.direction, WindDirection::Reported { from_rad: 1.0 });
+        // Without a direction the direction is unknown, not the old one.
+        m.push(Millis(1_200_000), 8.5, None).unwrap();
+        assert_eq!(
+            m.report(Millis(1_200_000)).direction,
+            WindDirection::Unknown
+        );
+    }
+
+    #[test]
+    fn two_means_at_one_time_stamp_are_both_taken() {
+        let mut m = MeanWind::new(config(), Millis(0)).unwrap();
+        m.push(Millis(600_000), 5.0, None).unwrap();
+        assert_eq!(m.push(Millis(600_000), 6.0, None), Ok(()));
+        assert!(m.push(Millis(599_999), 6.0, None).is_err());
+    }
+
+    /// Calm is judged on the mean at the mast against `calm_below_mps`,
+    /// the same in `push` and `report` (the report holds the mean at rig
+    /// height, so it scales the threshold by the height factor).
+    #[test]
+    fn calm_is_below_the_calm_speed_at_the_mast() {
+        let c = config(); // calm below 0.5 m/s
+        let mut m = MeanWind::new(c, Millis(0)).unwrap();
+        m.push(Millis(1000), c.calm_below_mps, Some(2.0)).unwrap();
+        assert_eq!(
+            m.report(Millis(1000)).direction,
+            WindDirection::Reported { from_rad: 2.0 }
+        );
+        m.push(Millis(2000), 0.6, Some(2.0)).unwrap();
+        assert!(matches!(
+            m.report(Millis(2000)).direction,
+            WindDirection::Reported { .. }
+        ));
+        m.push(Millis(3000), 0.49, Some(2.0)).unwrap();
+        assert_eq!(m.report(Millis(3000)).direction, WindDirection::Calm);
+    }
+
+    /// A repeated mean of zero is a calm, not a stuck anemometer; a repeated
+    /// non-zero mean for longer than the stuck time is. The same for the
+    /// direction: repeated in calm is fine, repeated in wind is stuck.
+    #[test]
+    fn stuck_only_when_a_moving_reading_repeats() {
+        let mut m = MeanWind::new(config(), Millis(0)).unwrap();
+        let mut t = 0;
+        while t <= 3_600_000 {
+            m.push(Millis(t), 0.0, Some(3.0)).unwrap();
+            t += 600_000;
+        }
+        let f = m.faults(Millis(3_600_000));
+        assert!(!has(&f, Sensor::WindSpeed, "stuck"), "{f:?}");
+        assert!(!has(&f, Sensor::WindDirection, "stuck"), "{f:?}");
+
+        let mut m = MeanWind::new(config(), Millis(0)).unwrap();
+        let mut t = 0;
+        while t <= 3_600_000 {
+            m.push(Millis(t), 6.0, Some(3.0)).unwrap();
+            t += 600_000;
+        }
+        let f = m.faults(Millis(3_600_000));
+        assert!(has(&f, Sensor::WindSpeed, "stuck"), "{f:?}");
+        assert!(has(&f, Sensor::WindDirection, "stuck"), "{f:?}");
+    }
+}
