@@ -187,7 +187,7 @@ impl Source {
 /// Why a sensor became unusable.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub enum Cause {
+pub enum SensorLoss {
     /// Bus errors for longer than the sensor's stale limit.
     Bus,
     /// The device is not the expected one.
@@ -198,15 +198,15 @@ pub enum Cause {
     Stale,
 }
 
-impl Cause {
+impl SensorLoss {
     /// Name in event lines.
     #[must_use]
     pub const fn name(self) -> &'static str {
         match self {
-            Cause::Bus => "bus",
-            Cause::Device => "device",
-            Cause::ConfigLost => "config_lost",
-            Cause::Stale => "stale",
+            SensorLoss::Bus => "bus",
+            SensorLoss::Device => "device",
+            SensorLoss::ConfigLost => "config_lost",
+            SensorLoss::Stale => "stale",
         }
     }
 }
@@ -232,7 +232,7 @@ pub enum EventKind {
     /// Alarm line de-energised (`true`) or energised (`false`).
     Alarm(bool),
     /// A sensor became unusable.
-    Fault(Source, Cause),
+    Fault(Source, SensorLoss),
     /// A sensor is usable again.
     FaultCleared(Source),
     /// The rule's level changed (names as [`crate::Decision::level`];

@@ -21,7 +21,7 @@
 //! before its first good reading ("arming" after reset, no fault event), while
 //! faulted, and until it has been healthy for `fault_clear_ms` after a fault.
 
-use crate::event::{Cause, Event, EventKind, Line, Source};
+use crate::event::{Event, EventKind, Line, SensorLoss, Source};
 use crate::lines::{FailSafeLines, LineError, LineState};
 use crate::lis3dh::{self, Lis3dh};
 use crate::pose::MountPose;
@@ -215,7 +215,7 @@ pub struct Station<I2C, V, P, A, R> {
     accel: Lis3dh<I2C>,
     accel_ready: bool,
     steps_since_verify: u16,
-    accel_cause: Cause,
+    accel_cause: SensorLoss,
     anemometer: Anemometer,
     vane: V,
     lines: FailSafeLines<P, A>,
@@ -251,7 +251,7 @@ where
             accel,
             accel_ready: false,
             steps_since_verify: 0,
-            accel_cause: Cause::Bus,
+            accel_cause: SensorLoss::Bus,
             anemometer,
             vane,
             lines,
@@ -343,7 +343,7 @@ where
             if f {
                 self.anemometer.reset();
             }
-            push(health_event(Source::Wind, f, Cause::Stale), now_ms);
+            push(health_event(Source::Wind, f, SensorLoss::Stale), now_ms);
         }
         // The vane is judged against the latest wind speed, so a silent
         // anemometer does not also fault the vane.
@@ -352,7 +352,7 @@ where
             self.vane_health
                 .update(vane_now_ms, start_ms, self.cfg.vane_stale_ms, clear_ms)
         {
-            push(health_event(Source::Vane, f, Cause::Stale), now_ms);
+            push(health_event(Source::Vane, f, SensorLoss::Stale), now_ms);
         }
 
         let samples = Samples {
@@ -469,15 +469,15 @@ where
         self.accel_ready = false;
         match e {
             lis3dh::Error::Bus(_) => {
-                self.accel_cause = Cause::Bus;
+                self.accel_cause = SensorLoss::Bus;
                 self.accel_health.bad();
             }
             lis3dh::Error::WrongDevice { .. } => {
-                self.accel_cause = Cause::Device;
+                self.accel_cause = SensorLoss::Device;
                 self.accel_health.trip();
             }
             lis3dh::Error::ConfigLost { .. } => {
-                self.accel_cause = Cause::ConfigLost;
+                self.accel_cause = SensorLoss::ConfigLost;
                 self.accel_health.trip();
             }
         }
@@ -503,7 +503,7 @@ where
     }
 }
 
-fn health_event(source: Source, faulted: bool, cause: Cause) -> EventKind {
+fn health_event(source: Source, faulted: bool, cause: SensorLoss) -> EventKind {
     if faulted {
         EventKind::Fault(source, cause)
     } else {
