@@ -1053,7 +1053,13 @@ mod tests {
         let half = 2.0 * atan_series(0.43 / (1.0 + math::sqrt(1.0 + 0.43 * 0.43)));
         assert_eq!(small_angle_atan2(0.43, 1.0).to_bits(), half.to_bits());
         // x ≤ 0 (a rig past 90°) or y < 0 (never produced) go to atan2.
-        for (y, x) in [(0.1_f32, 0.0_f32), (0.1, -1.0), (-0.1, 1.0), (0.0, -1.0)] {
+        for (y, x) in [
+            (0.1_f32, 0.0_f32),
+            (0.1, -1.0),
+            (-0.1, 1.0),
+            (0.0, -1.0),
+            (0.0, 0.0),
+        ] {
             assert_eq!(
                 small_angle_atan2(y, x).to_bits(),
                 math::atan2(y, x).to_bits(),
