@@ -750,4 +750,22 @@ mod tests {
         feed(&mut w, 0, 120_000, 1000, |_| 3.0);
         assert!(!has(&w, 120_000, "stuck"), "stuck check disabled");
     }
+
+    /// After a gap, the rings still hold bins from before it: the 3-s and
+    /// ten-minute windows must take only the bins inside them.
+    #[test]
+    fn bins_left_from_before_a_gap_stay_out_of_the_windows() {
+        let mut w = stats(WindConfig::default(), 0);
+        feed(&mut w, 0, 3_000, 50, |_| 20.0);
+        // Silence until 10 s, then one sample of 5 m/s.
+        w.push(Millis(10_000), 5.0, Some(4.712_389)).unwrap();
+        assert_eq!(w.gust_3s_mps(Millis(10_000)), Some(5.0));
+
+        // Five minutes at 4 m/s, ten minutes of silence, one minute at
+        // 8 m/s: the ten-minute mean is of the last minute only.
+        let mut w = stats(WindConfig::default(), 0);
+        feed(&mut w, 0, 300_000, 1000, |_| 4.0);
+        feed(&mut w, 900_000, 960_000, 1000, |_| 8.0);
+        assert_eq!(w.report(Millis(960_000)).mean_10min_mps, Some(8.0));
+    }
 }

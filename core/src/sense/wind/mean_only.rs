@@ -233,4 +233,19 @@ mod tests {
         assert!(has(&f, Sensor::WindSpeed, "stuck"), "{f:?}");
         assert!(has(&f, Sensor::WindDirection, "stuck"), "{f:?}");
     }
+
+    /// A mean of exactly the calm speed is not calm: its repeated direction
+    /// counts toward stuck.
+    #[test]
+    fn direction_at_the_calm_speed_can_be_stuck() {
+        let c = config();
+        let mut m = MeanWind::new(c, Millis(0)).unwrap();
+        let mut t = 0;
+        while t <= 3_600_000 {
+            m.push(Millis(t), c.calm_below_mps, Some(3.0)).unwrap();
+            t += 600_000;
+        }
+        let f = m.faults(Millis(3_600_000));
+        assert!(has(&f, Sensor::WindDirection, "stuck"), "{f:?}");
+    }
 }
