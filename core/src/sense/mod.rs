@@ -143,6 +143,36 @@ pub(crate) fn s_to_ms(s: f32) -> u64 {
     }
 }
 
+/// One field of a configuration test: the field, how to set it, its lowest
+/// and highest accepted value.
+#[cfg(test)]
+pub(crate) type FieldRange<C> = (crate::error::Field, fn(&mut C, f32), f32, f32);
+
+/// For the configuration tests: every `(field, setter, low, high)` accepts
+/// its bounds and refuses, under its own name, a value just outside either
+/// bound and a non-finite one, starting each time from `default`.
+#[cfg(test)]
+pub(crate) fn each_field_refused_under_its_name<C: Copy>(
+    default: C,
+    validate: fn(&C) -> Result<(), crate::error::Error>,
+    fields: &[FieldRange<C>],
+) {
+    for &(field, set, lo, hi) in fields {
+        for ok in [lo, hi] {
+            let mut c = default;
+            set(&mut c, ok);
+            assert_eq!(validate(&c), Ok(()), "{field:?} = {ok}");
+        }
+        let below = if lo == 0.0 { -1e-6 } else { lo * 0.999 };
+        for bad in [below, hi * 1.001, f32::NAN, f32::INFINITY] {
+            let mut c = default;
+            set(&mut c, bad);
+            let e = validate(&c).unwrap_err();
+            assert_eq!(e.field, field, "{field:?} = {bad}");
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -984,20 +984,7 @@ mod tests {
                 3600.0,
             ),
         ];
-        for (field, set, lo, hi) in fields {
-            for ok in [lo, hi] {
-                let mut c = d;
-                set(&mut c, ok);
-                assert_eq!(c.validate(), Ok(()), "{field:?} = {ok}");
-            }
-            let below = if lo == 0.0 { -1e-6 } else { lo * 0.999 };
-            for bad in [below, hi * 1.001, f32::NAN, f32::INFINITY] {
-                let mut c = d;
-                set(&mut c, bad);
-                let e = c.validate().unwrap_err();
-                assert_eq!(e.field, field, "{field:?} = {bad}");
-            }
-        }
+        crate::sense::each_field_refused_under_its_name(d, TiltConfig::validate, &fields);
         // The filters' order: the step filter at least twice as slow as the
         // fast one (not merely 2 s slower), the drift filter no faster than
         // the step filter.

@@ -669,21 +669,7 @@ mod tests {
                 3.0,
             ),
         ];
-        for (field, set, lo, hi) in fields {
-            for ok in [lo, hi] {
-                let mut c = d;
-                set(&mut c, ok);
-                assert_eq!(c.validate(), Ok(()), "{field:?} = {ok}");
-            }
-            let below = if lo == 0.0 { -1e-6 } else { lo * 0.999 };
-            let above = hi * 1.001;
-            for bad in [below, above, f32::NAN, f32::INFINITY] {
-                let mut c = d;
-                set(&mut c, bad);
-                let e = c.validate().unwrap_err();
-                assert_eq!(e.field, field, "{field:?} = {bad}");
-            }
-        }
+        crate::sense::each_field_refused_under_its_name(d, WindConfig::validate, &fields);
     }
 
     /// The guard's speed: the peak gust, else the latest 3-s mean, else the
