@@ -754,4 +754,16 @@ mod tests {
         feed(&mut w, 900_000, 960_000, 1000, |_| 8.0);
         assert_eq!(w.report(Millis(960_000)).mean_10min_mps, Some(8.0));
     }
+
+    /// Ten minutes after the last sample the ten-minute mean is gone: no
+    /// figure rather than 0/0.
+    #[test]
+    fn no_mean_when_the_window_holds_no_sample() {
+        let mut w = stats(WindConfig::default(), 0);
+        feed(&mut w, 0, 10_000, 100, |_| 6.0);
+        assert_eq!(w.report(Millis(10_000)).mean_10min_mps, Some(6.0));
+        let r = w.report(Millis(700_000));
+        assert_eq!(r.mean_10min_mps, None);
+        assert_eq!(r.gust_factor, None);
+    }
 }
