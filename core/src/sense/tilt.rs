@@ -1236,12 +1236,16 @@ mod tests {
     /// is a fault: the shortcut must not pass it.
     #[test]
     fn tilt_beyond_the_limit_along_a_diagonal_is_a_fault() {
-        let mut s = sensor_with(TiltConfig::default());
-        // |a| = 1.0 g, tilt atan2(0.849, 0.53) = 58°.
-        s.push(Millis(0), [0.6, 0.6, 0.53]).unwrap();
-        let f = s.faults(Millis(0));
-        assert!(has(&f, "tilt_beyond_limit"), "{f:?}");
-        assert_eq!(s.tilt(), None);
+        // |a| = 1.0 g, tilt atan2(0.849, 0.53) = 58°, toward each of the
+        // four diagonals (negative components too: the shortcut's sum of
+        // squares must stay a sum of squares).
+        for (x, y) in [(0.6, 0.6), (-0.6, 0.6), (0.6, -0.6), (-0.6, -0.6)] {
+            let mut s = sensor_with(TiltConfig::default());
+            s.push(Millis(0), [x, y, 0.53]).unwrap();
+            let f = s.faults(Millis(0));
+            assert!(has(&f, "tilt_beyond_limit"), "({x}, {y}): {f:?}");
+            assert_eq!(s.tilt(), None);
+        }
         // 40° along the same diagonal is not.
         let (h, z) = (
             libm::sinf(0.698_13) / core::f32::consts::SQRT_2,
