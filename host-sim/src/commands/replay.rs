@@ -242,6 +242,10 @@ impl ReplayObserver for ReplayOutputs<'_> {
         Ok(())
     }
 
+    fn wants_verdicts(&self) -> bool {
+        self.verdicts.is_some()
+    }
+
     fn finished(&mut self) -> Result<(), Error> {
         self.spinner.finish();
         if let Some((w, name)) = self.verdicts.as_mut() {

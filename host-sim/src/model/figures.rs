@@ -89,11 +89,22 @@ impl Figures {
             self.wind_from_deg = o.wind_from_deg;
         }
         self.predicted_gust_mps = hi(self.predicted_gust_mps, o.predicted_gust_mps);
-        if takes(self.tilt_deg, o.tilt_deg) {
-            self.tilt_deg = o.tilt_deg;
-            self.tilt_downhill_deg = o.tilt_downhill_deg;
-        }
+        self.keep_higher_tilt(o.tilt_deg, || o.tilt_downhill_deg);
         self.tilt_margin_deg = lo(self.tilt_margin_deg, o.tilt_margin_deg);
+    }
+
+    /// The tilt part of [`Figures::keep_extremes`]: takes `tilt_deg` with its
+    /// downhill azimuth (`downhill_deg`, asked only then) when it is finite
+    /// and larger than the tilt kept (or none is kept).
+    pub fn keep_higher_tilt(
+        &mut self,
+        tilt_deg: Option<f32>,
+        downhill_deg: impl FnOnce() -> Option<f32>,
+    ) {
+        if takes(self.tilt_deg, tilt_deg) {
+            self.tilt_deg = tilt_deg;
+            self.tilt_downhill_deg = downhill_deg();
+        }
     }
 }
 

@@ -105,6 +105,32 @@ impl SeriesPoint {
     }
 }
 
+/// The bits of a verdict's figures other than the tilt, as it gives them
+/// (radians): they change only when the guard evaluates. Bits, not values,
+/// so that a repeated NaN compares equal.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+struct Evaluated([u64; 10]);
+
+impl Evaluated {
+    fn of(v: &Verdict) -> Evaluated {
+        // `None` is 2^32, which no `f32`'s bits are.
+        let b = |x: Option<f32>| x.map_or(1 << 32, |x| u64::from(x.to_bits()));
+        let drive = v.drive_utilisation;
+        Evaluated([
+            b(v.overturning_utilisation),
+            b(v.predicted_utilisation),
+            b(v.sliding_utilisation),
+            b(drive.map(|d| d[0])),
+            b(drive.map(|d| d[1])),
+            b(v.tip_wind_mps),
+            b(v.gust_mps),
+            b(v.predicted_gust_mps),
+            b(v.wind_from_rad),
+            b(v.tilt_margin_rad),
+        ])
+    }
+}
+
 /// The higher of two optional values (a finite value beats `None`).
 fn hi(a: Option<f32>, b: Option<f32>) -> Option<f32> {
     match (a, b.filter(|x| x.is_finite())) {
@@ -154,6 +180,20 @@ pub struct Series {
     pub points: Vec<SeriesPoint>,
     /// Index (`t_start_s / width_s`) of the last bucket.
     last_index: u64,
+    /// The last bucket's time range `[start, end)`, seconds: a record in it
+    /// falls in the last bucket (exact: the width is a power of two times
+    /// [`FIRST_WIDTH_S`], so `k * width_s` and the division are exact).
+    #[serde(skip)]
+    last_range_s: (f64, f64),
+    /// The verdict figures other than the tilt last taken into the last
+    /// bucket: a verdict that did not evaluate repeats them, and taking them
+    /// again changes nothing ([`Figures::keep_extremes`] is idempotent), so
+    /// only its tilt is compared.
+    #[serde(skip)]
+    last_evaluated: Option<Evaluated>,
+    /// The pose last charted in the last bucket.
+    #[serde(skip)]
+    last_pose: Option<standfast::mount::Pose>,
     /// Highest overturning utilisation pushed (strictly rising, as the
     /// replay's closest approach).
     top_overturning: Option<f32>,
@@ -198,6 +238,9 @@ impl Series {
             width_s: FIRST_WIDTH_S,
             points: Vec::with_capacity(MAX_SERIES_POINTS),
             last_index: 0,
+            last_range_s: (0.0, 0.0),
+            last_evaluated: None,
+            last_pose: None,
             top_overturning: None,
             cover_at_closest: None,
             wind_gap_s,
@@ -243,16 +286,10 @@ impl Series {
     /// anemometer's sample at that record (m/s; `None` when the record has
     /// no new one) and the cover state held then.
     pub fn push(&mut self, t_s: f64, v: &Verdict, wind_mps: Option<f64>, cover: Option<bool>) {
-        let mut k = self.index_of(t_s);
-        while k >= MAX_SERIES_POINTS as u64 {
-            self.coarsen();
-            k = self.index_of(t_s);
-        }
-        if self.points.is_empty() || k != self.last_index {
-            #[allow(clippy::cast_precision_loss)] // k < 2000
-            let start = k as f64 * self.width_s;
-            self.points.push(SeriesPoint::empty(start, t_s));
-            self.last_index = k;
+        let (lo, hi_s) = self.last_range_s;
+        // In the last bucket (a NaN time takes the general path).
+        if self.points.is_empty() || !(t_s >= lo && t_s < hi_s) {
+            self.open_bucket_for(t_s);
         }
         if let Some(u) = v.overturning_utilisation.filter(|u| u.is_finite()) {
             if self.top_overturning.is_none_or(|t| u > t) {
@@ -265,9 +302,22 @@ impl Series {
         };
         p.t_last_s = t_s;
         p.records = p.records.saturating_add(1);
-        let mut f = Figures::of(v);
-        f.wind_from_deg = f.wind_from_deg.map(|d| d.rem_euclid(360.0));
-        p.peak.keep_extremes(&f);
+        // Between evaluations a verdict repeats the figures of the one
+        // before (the core's contract for `Verdict::evaluated`, checked in
+        // debug builds), which this bucket has taken already.
+        let repeated = !v.evaluated && self.last_evaluated.is_some();
+        debug_assert!(!repeated || self.last_evaluated == Some(Evaluated::of(v)));
+        if repeated {
+            p.peak
+                .keep_higher_tilt(v.tilt.map(|t| t.magnitude_rad.to_degrees()), || {
+                    v.tilt.map(|t| t.downhill_azimuth_rad.to_degrees())
+                });
+        } else {
+            let mut f = Figures::of(v);
+            f.wind_from_deg = f.wind_from_deg.map(|d| d.rem_euclid(360.0));
+            p.peak.keep_extremes(&f);
+            self.last_evaluated = Some(Evaluated::of(v));
+        }
         if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
             if let Some(last) = self.last_wind_t_s {
                 if t_s - last > self.wind_gap_s {
@@ -288,11 +338,211 @@ impl Series {
         if let Some(c) = cover {
             p.cover = Some(p.cover.unwrap_or(false) || c);
         }
-        let (frame, a, b) = pose_angles_deg(&v.pose);
-        if *self.pose_frame.get_or_insert(frame) == frame {
-            p.pose_a_deg = Some(a);
-            p.pose_b_deg = Some(b);
+        // The same pose as the bucket's last record's charts the same angles.
+        if self.last_pose != Some(v.pose) {
+            self.last_pose = Some(v.pose);
+            let (frame, a, b) = pose_angles_deg(&v.pose);
+            if *self.pose_frame.get_or_insert(frame) == frame {
+                p.pose_a_deg = Some(a);
+                p.pose_b_deg = Some(b);
+            }
         }
         p.level = p.level.max(v.level);
+    }
+
+    /// Makes the bucket of a record at `t_s` the last one: coarsens until its
+    /// index fits, and opens it unless it is the last one already. What was
+    /// taken into the previous last bucket is forgotten.
+    fn open_bucket_for(&mut self, t_s: f64) {
+        let mut k = self.index_of(t_s);
+        while k >= MAX_SERIES_POINTS as u64 {
+            self.coarsen();
+            k = self.index_of(t_s);
+        }
+        if self.points.is_empty() || k != self.last_index {
+            #[allow(clippy::cast_precision_loss)] // k < 2000
+            let start = k as f64 * self.width_s;
+            self.points.push(SeriesPoint::empty(start, t_s));
+            self.last_index = k;
+        }
+        #[allow(clippy::cast_precision_loss)] // k < 2000
+        let start = self.last_index as f64 * self.width_s;
+        self.last_range_s = (start, start + self.width_s);
+        self.last_evaluated = None;
+        self.last_pose = None;
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+    use standfast::sense::FaultSet;
+    use standfast::{Millis, PierSide, Pose, Tilt};
+
+    /// A verdict as the guard gives it: `figures` stands for everything an
+    /// evaluation sets, the tilt and pose for what changes every step.
+    fn verdict(
+        figures: u8,
+        evaluated: bool,
+        tilt: Option<(f32, f32)>,
+        pose: u8,
+        level: u8,
+    ) -> Verdict {
+        let f = f32::from(figures);
+        let some = |x: f32| (figures % 7 != 0).then_some(x);
+        Verdict {
+            now: Millis(0),
+            level: LEVELS[usize::from(level) % LEVELS.len()],
+            overturning_utilisation: some(f / 40.0),
+            predicted_utilisation: some(f / 30.0),
+            sliding_utilisation: if figures % 5 == 0 {
+                Some(f32::NAN)
+            } else {
+                some(f / 50.0)
+            },
+            drive_utilisation: some(f / 60.0).map(|d| [d, 1.0 - d]),
+            tip_wind_mps: some(40.0 - f),
+            gust_mps: some(f / 3.0),
+            predicted_gust_mps: some(f / 2.0),
+            wind_from_rad: some(f * 0.9 - 3.0),
+            tilt: tilt.map(|(m, a)| Tilt {
+                magnitude_rad: m,
+                downhill_azimuth_rad: a,
+            }),
+            tilt_margin_rad: some(0.3 - f / 1000.0),
+            tilt_drift_rad_per_s: 0.0,
+            pose: match pose % 3 {
+                0 => Pose::Axes {
+                    primary_rad: f32::from(pose) / 10.0,
+                    secondary_rad: 0.2,
+                },
+                1 => Pose::Equatorial {
+                    hour_angle_rad: f32::from(pose) / 20.0,
+                    declination_rad: 0.5,
+                    pier_side: PierSide::TubeEast,
+                },
+                _ => Pose::Equatorial {
+                    hour_angle_rad: -0.25,
+                    declination_rad: 0.5,
+                    pier_side: PierSide::TubeWest,
+                },
+            },
+            park_pose: None,
+            faults: FaultSet::new(),
+            events: Default::default(),
+            events_lost: 0,
+            evaluated,
+        }
+    }
+
+    const LEVELS: [AlertLevel; 5] = [
+        AlertLevel::Clear,
+        AlertLevel::Watch,
+        AlertLevel::ParkNow,
+        AlertLevel::Alarm,
+        AlertLevel::SensorFault,
+    ];
+
+    /// The series as the general path builds it: every record's bucket
+    /// found by division, every verdict's figures taken whole.
+    fn general(records: &[(f64, Verdict, Option<f64>, Option<bool>)]) -> Series {
+        let mut s = Series::new();
+        for (t, v, w, c) in records {
+            s.open_bucket_for(*t);
+            s.last_evaluated = None;
+            s.last_pose = None;
+            s.push(*t, v, *w, *c);
+        }
+        s
+    }
+
+    fn fast(records: &[(f64, Verdict, Option<f64>, Option<bool>)]) -> Series {
+        let mut s = Series::new();
+        for (t, v, w, c) in records {
+            s.push(*t, v, *w, *c);
+        }
+        s
+    }
+
+    fn same(a: &Series, b: &Series) {
+        assert_eq!(a.width_s, b.width_s);
+        assert_eq!(a.points.len(), b.points.len());
+        for (p, q) in a.points.iter().zip(&b.points) {
+            // Bits, so that NaN figures compare too.
+            assert_eq!(format!("{p:?}"), format!("{q:?}"));
+        }
+        assert_eq!(a.wind_gaps, b.wind_gaps);
+        assert_eq!(a.top_overturning, b.top_overturning);
+        assert_eq!(a.cover_at_closest, b.cover_at_closest);
+        assert_eq!(a.pose_frame, b.pose_frame);
+    }
+
+    // Bucket edges: a record exactly at a bucket's start opens it, one an
+    // ulp before stays in the previous one, at every width the coarsening
+    // reaches (expected values from the module docs' rule, floor(t / width)).
+    #[test]
+    fn records_at_bucket_edges_fall_in_the_bucket_they_start() {
+        let v = verdict(3, true, Some((0.01, 1.0)), 0, 0);
+        let mut s = Series::new();
+        s.push(0.0, &v, None, None);
+        s.push(1.0_f64.next_down(), &v, None, None);
+        s.push(1.0, &v, None, None);
+        assert_eq!(s.points.len(), 2);
+        assert_eq!(s.points[0].records, 2);
+        assert_eq!(s.points[1].t_start_s, 1.0);
+        // Past 2000 one-second buckets the width doubles, then doubles again.
+        for k in 2..5000_u32 {
+            s.push(f64::from(k), &v, None, None);
+        }
+        assert_eq!(s.width_s, 4.0);
+        assert!(s.points.len() <= MAX_SERIES_POINTS);
+        let last = s.points.last().map(|p| (p.t_start_s, p.records));
+        assert_eq!(last, Some((4996.0, 4)));
+        s.push(5000.0_f64.next_down(), &v, None, None);
+        assert_eq!(s.points.last().map(|p| p.records), Some(5));
+        s.push(5000.0, &v, None, None);
+        assert_eq!(
+            s.points.last().map(|p| (p.t_start_s, p.records)),
+            Some((5000.0, 1))
+        );
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(200))]
+        /// The record-by-record shortcuts (the last bucket's time range, the
+        /// figures of a verdict that did not evaluate, an unchanged pose)
+        /// give the same series as the general path.
+        #[test]
+        fn shortcuts_give_the_general_series(
+            steps in proptest::collection::vec(
+                (0_u32..5, any::<bool>(), 0_u8..200, 0_u16..1000, 0_u8..4, 0_u8..5, any::<bool>(), 0_u8..3),
+                1..400,
+            ),
+            dt_ms in 1_u32..4000,
+        ) {
+            let mut t = 0.0_f64;
+            let mut figures = 0_u8;
+            let mut records = Vec::new();
+            for (gap, new_figures, f, tilt, pose, level, wind, cover) in steps {
+                // Gaps of a step, a bucket, several buckets, or to an edge.
+                t += match gap {
+                    0 => f64::from(dt_ms) / 1000.0,
+                    1 => 1.0,
+                    2 => 37.0,
+                    3 => t.floor() + 1.0 - t,
+                    _ => 0.0,
+                };
+                if new_figures {
+                    figures = f;
+                }
+                let tilt = (tilt > 0).then(|| (f32::from(tilt) / 20_000.0, f32::from(tilt) / 100.0));
+                let v = verdict(figures, new_figures, tilt, pose, level);
+                let w = wind.then_some(f64::from(f) / 10.0);
+                let c = match cover { 0 => None, 1 => Some(false), _ => Some(true) };
+                records.push((t, v, w, c));
+            }
+            same(&fast(&records), &general(&records));
+        }
     }
 }
