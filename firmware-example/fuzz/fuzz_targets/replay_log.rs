@@ -119,7 +119,10 @@ fuzz_target!(|data: &[u8]| {
                     text = rest;
                 }
                 let t = parse_row(text, fed).expect("a stepped row parses").t_ms;
-                assert!(last_t.is_none_or(|l| t >= l), "time went back at line {fed}");
+                assert!(
+                    last_t.is_none_or(|l| t >= l),
+                    "time went back at line {fed}"
+                );
                 last_t = Some(t);
             }
             Ok(None) => {}
