@@ -1153,6 +1153,21 @@ impl Rig {
         cover_fitted: bool,
     ) -> Result<Placement<'_>, Error> {
         let frames = self.mount.frames(pose)?;
+        self.place_in(frames, tilt, cover_fitted)
+    }
+
+    /// [`Rig::place`] with the stage frames of the pose already computed
+    /// (`frames`, from [`MountGeometry::frames`] of a checked pose): the same
+    /// placement, without the pose's trigonometry.
+    ///
+    /// # Errors
+    /// An invalid tilt.
+    pub(crate) fn place_in(
+        &self,
+        frames: StageFrames,
+        tilt: Tilt,
+        cover_fitted: bool,
+    ) -> Result<Placement<'_>, Error> {
         let tilt = Tilt::new(tilt.magnitude_rad, tilt.downhill_azimuth_rad)?;
         Ok(Placement {
             rig: self,

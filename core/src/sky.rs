@@ -32,7 +32,7 @@ use crate::mount::{MountGeometry, MountKind, PierSide, Pose};
 use crate::rig::{Conditions, PartRole, Rig, Stage, MAX_PART_MASS_KG};
 use crate::stability::{ratio, Loads};
 use crate::torque::{
-    centroidal_inertia_kg_m2, gravity_terms, parallel_axis_kg_m2, wind_terms_nm_per_pa, MountAxis,
+    centroidal_inertia_kg_m2, gravity_terms, gravity_torques_nm, parallel_axis_kg_m2, MountAxis,
     Payload, PayloadPick,
 };
 use heapless::Vec;
@@ -472,7 +472,9 @@ impl Rig {
             }
             for k in 0..nd {
                 let d = direction_rad(k, nd);
-                let w = wind_terms_nm_per_pa(&placement, d);
+                // One pass over the wind loads for the axes and the edges.
+                let loads = Loads::with_axes(&placement, d);
+                let w = loads.axis_wind_nm_per_pa();
                 for ((slot, gt), wt) in [&mut primary, &mut secondary]
                     .into_iter()
                     .zip(g.iter())
@@ -491,7 +493,7 @@ impl Rig {
                         });
                     }
                 }
-                if let Some(qt) = Loads::new(&placement, d).tip_pressure_pa() {
+                if let Some(qt) = loads.tip_pressure_pa() {
                     if tip.is_none_or(|(b, _, _)| qt < b) {
                         tip = Some((qt, pose, d));
                     }
@@ -676,18 +678,21 @@ impl Rig {
     pub fn park_candidate(&self, req: &ParkRequest, pose: Pose) -> Result<ParkCandidate, Error> {
         let placement = self.place(pose, req.tilt, req.cover_fitted)?;
         let q = req.air.dynamic_pressure_pa(req.wind_speed_mps);
-        let over = Loads::new(&placement, req.wind_from_rad).max_utilisation(q);
-        let g = gravity_terms(&placement);
-        let w = wind_terms_nm_per_pa(&placement, req.wind_from_rad);
+        let drives = self.drives();
+        // One pass over the wind loads for the edges and, with drives, the
+        // axes (the values of `wind_terms_nm_per_pa`).
+        let loads = if drives.is_some() {
+            Loads::with_axes(&placement, req.wind_from_rad)
+        } else {
+            Loads::new(&placement, req.wind_from_rad)
+        };
+        let over = loads.max_utilisation(q);
         let mut axis = [0.0_f32; 2];
-        if let Some(d) = self.drives() {
-            for (((u, t), wi), r) in axis
-                .iter_mut()
-                .zip(g.iter())
-                .zip(w)
-                .zip([d.primary, d.secondary])
-            {
-                *u = ratio((t.gravity_nm + q * wi).abs(), r.rated_nm);
+        if let Some(d) = drives {
+            let g = gravity_torques_nm(&placement);
+            let w = loads.axis_wind_nm_per_pa();
+            for (((u, gi), wi), r) in axis.iter_mut().zip(g).zip(w).zip([d.primary, d.secondary]) {
+                *u = ratio((gi + q * wi).abs(), r.rated_nm);
             }
         }
         let [a0, a1] = axis;

@@ -24,7 +24,7 @@
 
 use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2, TAU};
-use crate::rig::{Conditions, Placement, Rig, MAX_PARTS};
+use crate::rig::{Conditions, Placement, Rig, Stage, MAX_PARTS};
 use crate::support::{Edge, MAX_FEET};
 use heapless::Vec;
 
@@ -202,15 +202,45 @@ struct Resultant {
 pub(crate) struct Loads {
     terms: Vec<EdgeTerms, MAX_FEET>,
     resultant: Resultant,
+    /// Wind torque per pascal about the primary and secondary axes, N·m/Pa
+    /// (as [`crate::torque::wind_terms_nm_per_pa`]); zero unless asked for.
+    axis_wind_nm_per_pa: [f32; 2],
 }
 
 impl Loads {
     /// Computes the edge terms and resultants for a wind from `from_rad`.
     #[must_use]
     pub fn new(placement: &Placement<'_>, from_rad: f32) -> Loads {
+        Loads::build(placement, from_rad, false)
+    }
+
+    /// [`Loads::new`], and the wind torque per pascal about both mount axes
+    /// ([`Loads::axis_wind_nm_per_pa`]) from the same wind loads: the same
+    /// values as [`crate::torque::wind_terms_nm_per_pa`] gives, with one
+    /// computation of every part's drag area instead of two.
+    #[must_use]
+    pub fn with_axes(placement: &Placement<'_>, from_rad: f32) -> Loads {
+        Loads::build(placement, from_rad, true)
+    }
+
+    /// Wind torque per pascal about `[primary, secondary]`, N·m/Pa, signed
+    /// about each axis unit vector (0 from [`Loads::new`]).
+    #[must_use]
+    pub fn axis_wind_nm_per_pa(&self) -> [f32; 2] {
+        self.axis_wind_nm_per_pa
+    }
+
+    pub(crate) fn build(placement: &Placement<'_>, from_rad: f32, axes: bool) -> Loads {
         let support = placement.rig().support();
         let mut terms: Vec<EdgeTerms, MAX_FEET> = Vec::new();
         let mut r = Resultant::default();
+        let frames = placement.frames();
+        let (origin, k, s) = (
+            frames.origin_m,
+            frames.primary_axis(),
+            frames.secondary_axis(),
+        );
+        let mut axis_wind = [0.0_f32; 2];
         // Placed weights and wind loads, computed once for every edge (the
         // parts are at most `MAX_PARTS`, the capacity, so no push fails).
         let mut weights: Vec<(Vec3, Vec3), MAX_PARTS> = Vec::new();
@@ -220,10 +250,19 @@ impl Loads {
             let _ = weights.push((p.cg_m, p.weight_n));
         }
         let mut winds: Vec<(Vec3, Vec3), MAX_PARTS> = Vec::new();
-        for (_, cp, f) in placement.wind_loads(from_rad) {
+        for (part, cp, f) in placement.wind_loads(from_rad) {
             r.wind_n_per_pa += f;
             r.wind_moment_nm_per_pa += cp.cross(f);
             let _ = winds.push((cp, f));
+            // The same sums, in the same order, as `wind_terms_nm_per_pa`.
+            if axes && part.stage != Stage::Ground {
+                let m = (cp - origin).cross(f);
+                let [tk, ts] = &mut axis_wind;
+                *tk += m.dot(k);
+                if part.stage == Stage::Secondary {
+                    *ts += m.dot(s);
+                }
+            }
         }
         for e in support.edges() {
             let mut t = EdgeTerms::default();
@@ -263,6 +302,7 @@ impl Loads {
         Loads {
             terms,
             resultant: r,
+            axis_wind_nm_per_pa: axis_wind,
         }
     }
 
@@ -297,6 +337,22 @@ impl Loads {
             best = best.max(u);
         }
         best
+    }
+
+    /// Utilisation of the critical edge at dynamic pressure `q_pa`: the
+    /// `critical.utilisation` of [`Rig::stability_figures`] (the first edge
+    /// of highest utilisation), without the other figures; `None` with no
+    /// edge.
+    #[must_use]
+    pub fn critical_utilisation(&self, q_pa: f32) -> Option<f32> {
+        self.terms.iter().fold(None, |acc: Option<f32>, t| {
+            let (o, s) = t.at(q_pa);
+            let u = ratio(o, s);
+            match acc {
+                Some(a) if a >= u => Some(a),
+                _ => Some(u),
+            }
+        })
     }
 
     /// Sliding check at dynamic pressure `q_pa` with friction coefficient `mu`.
@@ -447,6 +503,13 @@ pub(crate) fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
     } else {
         (best.0, math::wrap_tau(best.1))
     }
+}
+
+/// The highest edge utilisation over all wind directions at dynamic
+/// pressure `q_pa` for a placed rig, and the direction it comes from
+/// ([`Rig::worst_direction_utilisation`]).
+pub(crate) fn worst_direction_in(placement: &Placement<'_>, q_pa: f32) -> (f32, f32) {
+    scan_directions(|d| Loads::new(placement, d).max_utilisation(q_pa))
 }
 
 /// The lowest tip wind speed over all directions.
@@ -618,9 +681,7 @@ impl Rig {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
-        Ok(scan_directions(|d| {
-            Loads::new(&placement, d).max_utilisation(q)
-        }))
+        Ok(worst_direction_in(&placement, q))
     }
 
     /// Extra ground tilt that would tip the rig with no wind, and its downhill
@@ -633,7 +694,20 @@ impl Rig {
     pub fn tilt_margin(&self, c: &Conditions) -> Result<TiltMargin, Error> {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
-        let cg = placement.centre_of_gravity_m();
+        self.tilt_margin_in(&placement, placement.centre_of_gravity_m())
+    }
+
+    /// [`Rig::tilt_margin`] of a placement whose centre of gravity `cg` (rig
+    /// frame, metres: [`Placement::centre_of_gravity_m`], which depends on
+    /// the pose and cover only) is already known.
+    ///
+    /// # Errors
+    /// A support without edges.
+    pub(crate) fn tilt_margin_in(
+        &self,
+        placement: &Placement<'_>,
+        cg: Vec3,
+    ) -> Result<TiltMargin, Error> {
         let up = -placement.gravity_unit();
         let mut best: Option<TiltMargin> = None;
         for (i, e) in self.support().edges().iter().enumerate() {

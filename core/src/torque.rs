@@ -35,7 +35,7 @@
 use crate::drive::DriveRating;
 use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2};
-use crate::mount::StageFrames;
+use crate::mount::{Pose, StageFrames};
 use crate::rig::{Conditions, MassModel, Part, PartRole, Placement, Rig, RigSpec, Stage};
 use crate::shape::Shape;
 use crate::stability::ratio;
@@ -224,12 +224,47 @@ pub type PoseTerms = [AxisTerms; 2];
 /// (ground tilt included) and its cover state.
 #[must_use]
 pub(crate) fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
+    let g = gravity_torques_nm(placement);
+    let i = inertias_kg_m2(placement);
+    let mut out = [AxisTerms::default(); 2];
+    for ((t, gi), ii) in out.iter_mut().zip(g).zip(i) {
+        t.gravity_nm = gi;
+        t.inertia_kg_m2 = ii;
+    }
+    out
+}
+
+/// Gravity torque about both axes (`[primary, secondary]`), N·m, signed
+/// about each axis unit vector: the `gravity_nm` of [`gravity_terms`].
+#[must_use]
+pub(crate) fn gravity_torques_nm(placement: &Placement<'_>) -> [f32; 2] {
     let frames = placement.frames();
     let origin = frames.origin_m;
-    let mut out = [AxisTerms::default(); 2];
+    let mut out = [0.0_f32; 2];
+    for p in placement.parts() {
+        let moment = (p.cg_m - origin).cross(p.weight_n);
+        for (axis, t) in [MountAxis::Primary, MountAxis::Secondary]
+            .into_iter()
+            .zip(out.iter_mut())
+        {
+            if axis.carries(p.part.stage) {
+                *t += moment.dot(axis.unit(frames));
+            }
+        }
+    }
+    out
+}
+
+/// Moment of inertia of the turning parts about both axes (`[primary,
+/// secondary]`), kg·m²: the `inertia_kg_m2` of [`gravity_terms`]. It
+/// depends on the pose and cover state only, not on the ground tilt.
+#[must_use]
+pub(crate) fn inertias_kg_m2(placement: &Placement<'_>) -> [f32; 2] {
+    let frames = placement.frames();
+    let origin = frames.origin_m;
+    let mut out = [0.0_f32; 2];
     for p in placement.parts() {
         let r = p.cg_m - origin;
-        let moment = r.cross(p.weight_n);
         let stage_axes = placement.axes(p.part.stage);
         for (axis, t) in [MountAxis::Primary, MountAxis::Secondary]
             .into_iter()
@@ -239,9 +274,8 @@ pub(crate) fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
                 continue;
             }
             let a = axis.unit(frames);
-            t.gravity_nm += moment.dot(a);
             let d = r.reject(a).norm();
-            t.inertia_kg_m2 += parallel_axis_kg_m2(
+            *t += parallel_axis_kg_m2(
                 centroidal_inertia_kg_m2(&p.part, &stage_axes, a),
                 p.part.mass_kg,
                 d,
@@ -249,6 +283,80 @@ pub(crate) fn gravity_terms(placement: &Placement<'_>) -> PoseTerms {
         }
     }
     out
+}
+
+/// What a placement holds for one pose and cover state whatever the ground
+/// tilt and the wind: the stage frames, the centre of gravity of everything
+/// present and the moments of inertia about both axes. The guard keeps one
+/// and computes it again only when the pose or the cover state changes;
+/// every figure computed from it has the same bits as from a fresh
+/// [`Rig::place`].
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct Posed {
+    /// The pose it is for.
+    pose: Pose,
+    /// The cover state it is for.
+    cover_fitted: bool,
+    /// Stage frames of the pose.
+    pub frames: StageFrames,
+    /// Centre of gravity of everything present, rig frame, metres.
+    pub cg_m: Vec3,
+    /// Moments of inertia about `[primary, secondary]`, kg·m².
+    pub inertia_kg_m2: [f32; 2],
+}
+
+impl Posed {
+    /// The pose-dependent figures of `rig` in `pose` with the cover fitted
+    /// or not.
+    ///
+    /// # Errors
+    /// A pose the mount cannot take.
+    pub fn new(rig: &Rig, pose: Pose, cover_fitted: bool) -> Result<Posed, Error> {
+        // The tilt moves gravity only, which none of these figures uses.
+        let placement = rig.place(pose, Tilt::LEVEL, cover_fitted)?;
+        Ok(Posed {
+            pose,
+            cover_fitted,
+            frames: *placement.frames(),
+            cg_m: placement.centre_of_gravity_m(),
+            inertia_kg_m2: inertias_kg_m2(&placement),
+        })
+    }
+
+    /// True when this is for exactly `pose` (the same bits of every angle,
+    /// so that even the sign of a zero is the same) and `cover_fitted`.
+    #[must_use]
+    pub fn is_for(&self, pose: Pose, cover_fitted: bool) -> bool {
+        self.cover_fitted == cover_fitted && pose_bits(self.pose) == pose_bits(pose)
+    }
+}
+
+/// The pose's form, pier side and angles, as bits.
+fn pose_bits(pose: Pose) -> (u8, u32, u32) {
+    match pose {
+        Pose::Axes {
+            primary_rad,
+            secondary_rad,
+        } => (0, primary_rad.to_bits(), secondary_rad.to_bits()),
+        Pose::Equatorial {
+            hour_angle_rad,
+            declination_rad,
+            pier_side,
+        } => (
+            1 + pier_side as u8,
+            hour_angle_rad.to_bits(),
+            declination_rad.to_bits(),
+        ),
+        Pose::Horizontal {
+            azimuth_rad,
+            altitude_rad,
+            pier_side,
+        } => (
+            3 + pier_side as u8,
+            azimuth_rad.to_bits(),
+            altitude_rad.to_bits(),
+        ),
+    }
 }
 
 /// Wind torque per pascal of dynamic pressure about both axes
@@ -610,15 +718,22 @@ impl Rig {
         let t = pose_terms(&placement, c.wind_from_rad);
         let q_mean = c.air.dynamic_pressure_pa(mean_wind_mps);
         let q_gust = c.air.dynamic_pressure_pa(c.wind_speed_mps);
+        Ok(self.axis_loads_from(t, q_mean, q_gust))
+    }
+
+    /// [`Rig::axis_loads`] from the terms of both axes `t` and the dynamic
+    /// pressures of the mean wind and the gust, Pa.
+    #[must_use]
+    pub(crate) fn axis_loads_from(&self, t: PoseTerms, q_mean: f32, q_gust: f32) -> AxisLoads {
         let drives = self.drives();
         let alpha = drives.map_or(0.0, |d| d.slew_acceleration_rad_per_s2);
         let [tp, ts] = t;
-        Ok(AxisLoads {
+        AxisLoads {
             primary: axis_torque(&tp, q_mean, q_gust, alpha, drives.map(|d| &d.primary)),
             secondary: axis_torque(&ts, q_mean, q_gust, alpha, drives.map(|d| &d.secondary)),
             mean_pressure_pa: q_mean,
             gust_pressure_pa: q_gust,
-        })
+        }
     }
 
     /// Gravity, wind-per-pascal and inertia terms of both axes in a pose, for

@@ -59,6 +59,8 @@
 //! it does not replace securing the rig.
 
 mod config;
+#[cfg(test)]
+mod eval_tests;
 mod gusts;
 pub mod transition;
 
@@ -77,6 +79,7 @@ use crate::sense::{
     WindReport, WindStats,
 };
 use crate::sky::ParkRequest;
+use crate::torque::Posed;
 use gusts::{GustCache, GustHistory};
 use heapless::Vec;
 use transition::{Figures, Memory, Readings};
@@ -274,6 +277,18 @@ struct Shown {
     drift_rad_per_s: f32,
 }
 
+/// What one evaluation's physics is for: the tilt, the gust and the
+/// predicted gust (m/s), the measured wind direction (radians from north
+/// clockwise; `None`: the worst one) and the ten-minute mean wind (m/s).
+#[derive(Clone, Copy, Debug)]
+struct EvalAt {
+    tilt: Tilt,
+    gust: f32,
+    predicted: f32,
+    measured_from: Option<f32>,
+    mean: Option<f32>,
+}
+
 /// The guard. Borrows the rig; all other state is inline and fixed in size.
 ///
 /// # Examples
@@ -334,6 +349,9 @@ pub struct Guard<'r> {
     highest_utilisation: f32,
     gust_history: GustHistory,
     gust_3s_cache: GustCache,
+    /// What the physics needs of the present pose and cover state whatever
+    /// the tilt and wind, kept between evaluations ([`Guard::posed`]).
+    posed: Option<Posed>,
 }
 
 impl<'r> Guard<'r> {
@@ -374,6 +392,7 @@ impl<'r> Guard<'r> {
             highest_utilisation: 0.0,
             gust_history: GustHistory::new(now),
             gust_3s_cache: GustCache::default(),
+            posed: None,
         })
     }
 
@@ -675,7 +694,14 @@ impl<'r> Guard<'r> {
     /// The figures of one evaluation, and a fault for each figure it could
     /// not compute (missing readings, evaluation errors, non-finite
     /// results). A missing figure stays `None`.
-    fn evaluate(&self, report: &WindReport) -> (Shown, FaultSet) {
+    ///
+    /// The figures are those of [`Rig::tilt_margin`],
+    /// [`Rig::worst_direction_utilisation`],
+    /// [`Rig::stability_figures_with_utilisation_at`] and [`Rig::axis_loads`]
+    /// to the bit, from one placement: what depends on the pose and cover
+    /// only comes from [`Guard::posed`], and the wind loads are computed once
+    /// for the stability and the drive torques.
+    fn evaluate(&mut self, report: &WindReport) -> (Shown, FaultSet) {
         let mut faults = FaultSet::new();
         let unevaluable = |check| Fault::Unevaluable { check };
         let mut f = Shown {
@@ -707,64 +733,129 @@ impl<'r> Guard<'r> {
         let predicted = gust.max(latest + rise) * self.config.gust_allowance;
         f.gust_mps = Some(gust);
         f.predicted_gust_mps = Some(predicted);
-
-        if let Ok(m) = self.rig.tilt_margin(&self.conditions(tilt, 0.0, 0.0)) {
-            f.tilt_margin_rad = finite(m.extra_rad);
-        }
-        if f.tilt_margin_rad.is_none() {
-            faults.push(unevaluable(Check::TiltMargin));
-        }
-
         let measured_from = match report.direction {
             WindDirection::Defined { from_rad, .. } | WindDirection::Reported { from_rad } => {
                 Some(from_rad)
             }
             _ => None,
         };
+        let at = EvalAt {
+            tilt,
+            gust,
+            predicted,
+            measured_from,
+            mean: report.mean_10min_mps,
+        };
+        self.physics(&at, &mut f, &mut faults);
+        (f, faults)
+    }
+
+    /// The physics of one evaluation at `at`: the figures into `f`, a fault
+    /// for each one it could not compute into `faults`.
+    fn physics(&mut self, at: &EvalAt, f: &mut Shown, faults: &mut FaultSet) {
+        let unevaluable = |check| Fault::Unevaluable { check };
+        let EvalAt {
+            tilt,
+            gust,
+            predicted,
+            measured_from,
+            mean,
+        } = *at;
+        // One placement for every figure (an error fails each of them, as
+        // it failed each of the separate calls).
+        let rig = self.rig;
+        let posed = self.posed();
+        let placement = posed.and_then(|p| {
+            rig.place_in(p.frames, tilt, self.cover_fitted)
+                .map(|pl| (p, pl))
+        });
+        let margin = self.conditions(tilt, 0.0, 0.0).validate().and_then(|()| {
+            let (p, pl) = placement.as_ref().map_err(|e| *e)?;
+            rig.tilt_margin_in(pl, p.cg_m)
+        });
+        if let Ok(m) = margin {
+            f.tilt_margin_rad = finite(m.extra_rad);
+        }
+        if f.tilt_margin_rad.is_none() {
+            faults.push(unevaluable(Check::TiltMargin));
+        }
+
         let from = match measured_from {
             Some(d) => Some(d),
-            None => self
-                .rig
-                .worst_direction_utilisation(&self.conditions(tilt, gust, 0.0))
-                .ok()
-                .and_then(|(_, d)| finite(d)),
+            None => {
+                let c = self.conditions(tilt, gust, 0.0);
+                c.validate()
+                    .and_then(|()| placement.as_ref().map_err(|e| *e))
+                    .ok()
+                    .map(|(_, pl)| {
+                        crate::stability::worst_direction_in(
+                            pl,
+                            c.air.dynamic_pressure_pa(c.wind_speed_mps),
+                        )
+                    })
+                    .and_then(|(_, d)| finite(d))
+            }
         };
         let Some(from) = from else {
             faults.push(unevaluable(Check::WorstDirection));
-            return (f, faults);
+            return;
         };
         f.from_rad = Some(from);
 
         let c = self.conditions(tilt, gust, from);
-        match self
-            .rig
-            .stability_figures_with_utilisation_at(&c, predicted)
-        {
-            Ok((a, at_predicted)) => {
-                f.overturning = finite(a.critical.utilisation);
-                f.sliding = finite(a.sliding.utilisation);
-                f.tip_wind_mps = a.tip_wind_mps;
-                f.predicted = at_predicted.and_then(finite);
-                if f.overturning.is_none() || f.sliding.is_none() {
-                    faults.push(unevaluable(Check::Overturning));
+        let drives = rig.drives().is_some();
+        let loads = c
+            .validate()
+            .and_then(|()| placement.as_ref().map_err(|e| *e))
+            .map(|(p, pl)| (p, pl, crate::stability::Loads::build(pl, from, drives)));
+        let q = c.air.dynamic_pressure_pa(gust);
+        match &loads {
+            Ok((_, _, l)) => match l.critical_utilisation(q) {
+                Some(critical) => {
+                    f.overturning = finite(critical);
+                    f.sliding = finite(l.sliding(q, rig.friction_coefficient()).utilisation);
+                    f.tip_wind_mps = l
+                        .tip_pressure_pa()
+                        .map(|qt| c.air.speed_for_pressure_mps(qt));
+                    // As `stability_figures_with_utilisation_at` (the
+                    // predicted gust is finite and non-negative here unless
+                    // the figures are not).
+                    f.predicted = (predicted.is_finite() && predicted >= 0.0)
+                        .then(|| l.critical_utilisation(c.air.dynamic_pressure_pa(predicted)))
+                        .flatten()
+                        .and_then(finite);
+                    if f.overturning.is_none() || f.sliding.is_none() {
+                        faults.push(unevaluable(Check::Overturning));
+                    }
+                    if f.predicted.is_none() {
+                        faults.push(unevaluable(Check::PredictedOverturning));
+                    }
                 }
-                if f.predicted.is_none() {
-                    faults.push(unevaluable(Check::PredictedOverturning));
-                }
-            }
+                None => faults.push(unevaluable(Check::Overturning)),
+            },
             Err(_) => faults.push(unevaluable(Check::Overturning)),
         }
 
-        if self.rig.drives().is_some() {
-            let mean = report.mean_10min_mps.unwrap_or(gust).min(gust);
-            f.drive = self
-                .rig
-                .axis_loads(&c, mean)
+        if drives {
+            let mean = mean.unwrap_or(gust).min(gust);
+            f.drive = loads
                 .ok()
-                .and_then(|l| {
+                .filter(|_| Error::check(crate::error::Field::MeanWindMps, mean, 0.0, gust).is_ok())
+                .and_then(|(p, pl, l)| {
+                    let g = crate::torque::gravity_torques_nm(&pl);
+                    let w = l.axis_wind_nm_per_pa();
+                    let mut t = [crate::torque::AxisTerms::default(); 2];
+                    for (((t, gi), wi), ii) in t.iter_mut().zip(g).zip(w).zip(p.inertia_kg_m2) {
+                        *t = crate::torque::AxisTerms {
+                            gravity_nm: gi,
+                            wind_nm_per_pa: wi,
+                            inertia_kg_m2: ii,
+                        };
+                    }
+                    let a = rig.axis_loads_from(t, c.air.dynamic_pressure_pa(mean), q);
                     Some([
-                        l.primary.utilisation?.governing,
-                        l.secondary.utilisation?.governing,
+                        a.primary.utilisation?.governing,
+                        a.secondary.utilisation?.governing,
                     ])
                 })
                 .filter(|d| d.iter().all(|u| u.is_finite()));
@@ -772,7 +863,21 @@ impl<'r> Guard<'r> {
                 faults.push(unevaluable(Check::Drive));
             }
         }
-        (f, faults)
+    }
+
+    /// The pose- and cover-dependent figures of the present pose and cover
+    /// state: the kept ones when they are for exactly these, else computed
+    /// again and kept (the cache's only invalidation: a different pose or
+    /// cover state, compared bit for bit; the air is not in them).
+    fn posed(&mut self) -> Result<Posed, Error> {
+        match self.posed {
+            Some(p) if p.is_for(self.pose, self.cover_fitted) => Ok(p),
+            _ => {
+                let p = Posed::new(self.rig, self.pose, self.cover_fitted);
+                self.posed = p.ok();
+                p
+            }
+        }
     }
 
     /// The safest park pose for the predicted gust from `from_rad`: among the
