@@ -45,7 +45,7 @@ fn random_rig(g: &mut Gen) -> (Rig, bool) {
     } else {
         MountGeometry::alt_azimuth(deg_to_rad(g.f(-60.0, 60.0)), origin)
     };
-    let support = Support::tripod(g.f(0.25, 0.7), g.f(0.0, 6.28)).unwrap();
+    let support = Support::tripod(g.f(0.25, 0.7), g.f(0.0, crate::math::TAU)).unwrap();
     let mut spec = RigSpec::new(&support, mount, g.f(0.2, 0.8))
         .with_body(BodySpec::optical_tube(
             g.f(2.0, 20.0),
@@ -136,7 +136,7 @@ fn random_pose(g: &mut Gen, equatorial: bool) -> Pose {
             pier_side: side,
         },
         _ => Pose::Horizontal {
-            azimuth_rad: g.f(0.0, 6.28),
+            azimuth_rad: g.f(0.0, crate::math::TAU),
             altitude_rad: g.f(0.0, 1.5),
             pier_side: side,
         },
@@ -284,7 +284,7 @@ fn the_cached_evaluation_has_the_bits_of_the_separate_calls() {
                 Some(g.f(-7.0, 7.0))
             };
             let at = EvalAt {
-                tilt: Tilt::new(g.f(0.0, 0.15), g.f(0.0, 6.28)).unwrap(),
+                tilt: Tilt::new(g.f(0.0, 0.15), g.f(0.0, crate::math::TAU)).unwrap(),
                 gust,
                 predicted: if g.chance(5) {
                     f32::NAN

@@ -842,7 +842,7 @@ impl<'r> Guard<'r> {
                 .ok()
                 .filter(|_| Error::check(crate::error::Field::MeanWindMps, mean, 0.0, gust).is_ok())
                 .and_then(|(p, pl, l)| {
-                    let g = crate::torque::gravity_torques_nm(&pl);
+                    let g = crate::torque::gravity_torques_nm(pl);
                     let w = l.axis_wind_nm_per_pa();
                     let mut t = [crate::torque::AxisTerms::default(); 2];
                     for (((t, gi), wi), ii) in t.iter_mut().zip(g).zip(w).zip(p.inertia_kg_m2) {

@@ -42,6 +42,24 @@ struct CoarseBin {
     dir_count: u32,
 }
 
+/// The coarse bins' sums over the report's windows
+/// ([`WindStats::report`]).
+#[derive(Clone, Copy, Debug, Default)]
+struct Windows {
+    /// Largest 3-s mean of the closed bins in the peak window, m/s.
+    peak: Option<f32>,
+    /// Sum of the speeds in the mean window, m/s, and their number.
+    mean_sum: f32,
+    mean_count: u32,
+    /// Samples, calm samples and samples with a direction in the direction
+    /// window, and the sums of the sines and cosines of their directions.
+    count: u32,
+    calm: u32,
+    dn: u32,
+    s: f32,
+    c: f32,
+}
+
 impl CoarseBin {
     const fn empty(id: u64) -> Self {
         CoarseBin {
@@ -276,16 +294,6 @@ impl WindStats {
         }
     }
 
-    /// Coarse bins within the last `n` bins up to and including the one
-    /// containing `now`.
-    fn recent(&self, now: Millis, n: u64) -> impl Iterator<Item = &CoarseBin> {
-        let cur = bin_of(now.0, COARSE_BIN_MS);
-        let lo = cur.saturating_add(1).saturating_sub(n);
-        self.coarse
-            .iter()
-            .filter(move |b| b.id >= lo && b.id <= cur)
-    }
-
     /// The latest 3-s running mean at rig height as of `now`, m/s: the
     /// same value as [`WindReport::gust_3s_mps`] of [`WindStats::report`]
     /// at `now`, without the rest of the report (a dozen bins summed
@@ -320,24 +328,13 @@ impl WindStats {
                 gust_now = self.fine_mean_ending(now_bin);
             }
         }
-        let peak_n = coarse_bins_for(self.config.peak_window_s);
-        let closed_peak = self
-            .recent(now, peak_n)
-            .map(|b| b.gust_max_mps)
-            .filter(|g| *g >= 0.0)
-            .fold(None, |acc: Option<f32>, g| {
-                Some(acc.map_or(g, |a| a.max(g)))
-            });
+        let w = self.windows(now);
+        let closed_peak = w.peak;
         let peak = match (closed_peak, open_peak) {
             (Some(a), Some(b)) => Some(a.max(b)),
             (a, b) => a.or(b),
         };
-        let mean_n = MEAN_WINDOW_MS / COARSE_BIN_MS;
-        let (sum, count) = self
-            .recent(now, mean_n)
-            .fold((0.0_f32, 0_u32), |(s, c), b| {
-                (s + b.sum_mps, c.saturating_add(b.count))
-            });
+        let (sum, count) = (w.mean_sum, w.mean_count);
         let mean = (count > 0).then(|| sum / count_f32(count));
         let mean_span_s = self
             .first_sample
@@ -352,22 +349,44 @@ impl WindStats {
             mean_10min_mps: mean,
             mean_span_s,
             gust_factor,
-            direction: self.direction_summary(now),
+            direction: self.direction_summary(&w),
             basis: GustBasis::Measured,
         }
     }
 
-    fn direction_summary(&self, now: Millis) -> WindDirection {
-        let n = coarse_bins_for(self.config.direction_window_s);
-        let (mut count, mut calm, mut dn) = (0_u32, 0_u32, 0_u32);
-        let (mut s, mut c) = (0.0_f32, 0.0_f32);
-        for b in self.recent(now, n) {
-            count = count.saturating_add(b.count);
-            calm = calm.saturating_add(b.calm_count);
-            dn = dn.saturating_add(b.dir_count);
-            s += b.dir_sin;
-            c += b.dir_cos;
+    /// The sums of the closed and open coarse bins over the peak, mean and
+    /// direction windows as of `now`, in one pass over the ring: each
+    /// window's values are folded in the ring's order, as three separate
+    /// passes would fold them.
+    fn windows(&self, now: Millis) -> Windows {
+        let cur = bin_of(now.0, COARSE_BIN_MS);
+        let lo = |n: u64| cur.saturating_add(1).saturating_sub(n);
+        let peak_lo = lo(coarse_bins_for(self.config.peak_window_s));
+        let mean_lo = lo(MEAN_WINDOW_MS / COARSE_BIN_MS);
+        let dir_lo = lo(coarse_bins_for(self.config.direction_window_s));
+        let mut w = Windows::default();
+        for b in self.coarse.iter().filter(|b| b.id <= cur) {
+            if b.id >= peak_lo && b.gust_max_mps >= 0.0 {
+                let g = b.gust_max_mps;
+                w.peak = Some(w.peak.map_or(g, |a| a.max(g)));
+            }
+            if b.id >= mean_lo {
+                w.mean_sum += b.sum_mps;
+                w.mean_count = w.mean_count.saturating_add(b.count);
+            }
+            if b.id >= dir_lo {
+                w.count = w.count.saturating_add(b.count);
+                w.calm = w.calm.saturating_add(b.calm_count);
+                w.dn = w.dn.saturating_add(b.dir_count);
+                w.s += b.dir_sin;
+                w.c += b.dir_cos;
+            }
         }
+        w
+    }
+
+    fn direction_summary(&self, w: &Windows) -> WindDirection {
+        let (count, calm, dn, s, c) = (w.count, w.calm, w.dn, w.s, w.c);
         if count == 0 {
             return WindDirection::NoData;
         }
