@@ -32,8 +32,7 @@ use crate::mount::{MountGeometry, MountKind, PierSide, Pose};
 use crate::rig::{Conditions, PartRole, Rig, Stage, MAX_PART_MASS_KG};
 use crate::stability::{ratio, Loads};
 use crate::torque::{
-    centroidal_inertia_kg_m2, gravity_terms, gravity_torques_nm, parallel_axis_kg_m2, MountAxis,
-    Payload, PayloadPick,
+    centroidal_inertia_kg_m2, gravity_terms, parallel_axis_kg_m2, MountAxis, Payload, PayloadPick,
 };
 use heapless::Vec;
 
@@ -689,8 +688,7 @@ impl Rig {
         let over = loads.max_utilisation(q);
         let mut axis = [0.0_f32; 2];
         if let Some(d) = drives {
-            let g = gravity_torques_nm(&placement);
-            let w = loads.axis_wind_nm_per_pa();
+            let (g, w) = (loads.axis_gravity_nm(), loads.axis_wind_nm_per_pa());
             for (((u, gi), wi), r) in axis.iter_mut().zip(g).zip(w).zip([d.primary, d.secondary]) {
                 *u = ratio((gi + q * wi).abs(), r.rated_nm);
             }

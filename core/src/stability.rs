@@ -24,7 +24,7 @@
 
 use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2, TAU};
-use crate::rig::{Conditions, Placement, Rig, Stage, MAX_PARTS};
+use crate::rig::{Conditions, Placement, Rig, Stage};
 use crate::support::{Edge, MAX_FEET};
 use heapless::Vec;
 
@@ -205,6 +205,9 @@ pub(crate) struct Loads {
     /// Wind torque per pascal about the primary and secondary axes, N·m/Pa
     /// (as [`crate::torque::wind_terms_nm_per_pa`]); zero unless asked for.
     axis_wind_nm_per_pa: [f32; 2],
+    /// Gravity torque about the primary and secondary axes, N·m (as
+    /// [`crate::torque::gravity_torques_nm`]); zero unless asked for.
+    axis_gravity_nm: [f32; 2],
 }
 
 impl Loads {
@@ -214,10 +217,12 @@ impl Loads {
         Loads::build(placement, from_rad, false)
     }
 
-    /// [`Loads::new`], and the wind torque per pascal about both mount axes
-    /// ([`Loads::axis_wind_nm_per_pa`]) from the same wind loads: the same
-    /// values as [`crate::torque::wind_terms_nm_per_pa`] gives, with one
-    /// computation of every part's drag area instead of two.
+    /// [`Loads::new`], and the wind torque per pascal and the gravity torque
+    /// about both mount axes ([`Loads::axis_wind_nm_per_pa`],
+    /// [`Loads::axis_gravity_nm`]) from the same placed parts and wind
+    /// loads: the same values as [`crate::torque::wind_terms_nm_per_pa`] and
+    /// [`crate::torque::gravity_torques_nm`] give, with one computation of
+    /// every part's position, weight and drag area instead of two.
     #[must_use]
     pub fn with_axes(placement: &Placement<'_>, from_rad: f32) -> Loads {
         Loads::build(placement, from_rad, true)
@@ -230,6 +235,13 @@ impl Loads {
         self.axis_wind_nm_per_pa
     }
 
+    /// Gravity torque about `[primary, secondary]`, N·m, signed about each
+    /// axis unit vector (0 from [`Loads::new`]).
+    #[must_use]
+    pub fn axis_gravity_nm(&self) -> [f32; 2] {
+        self.axis_gravity_nm
+    }
+
     pub(crate) fn build(placement: &Placement<'_>, from_rad: f32, axes: bool) -> Loads {
         let support = placement.rig().support();
         let mut terms: Vec<EdgeTerms, MAX_FEET> = Vec::new();
@@ -240,53 +252,12 @@ impl Loads {
             frames.primary_axis(),
             frames.secondary_axis(),
         );
-        let mut axis_wind = [0.0_f32; 2];
-        // Placed weights and wind loads, computed once for every edge (the
-        // parts are at most `MAX_PARTS`, the capacity, so no push fails).
-        let mut weights: Vec<(Vec3, Vec3), MAX_PARTS> = Vec::new();
-        for p in placement.parts() {
-            r.gravity_n += p.weight_n;
-            r.gravity_moment_nm += p.cg_m.cross(p.weight_n);
-            let _ = weights.push((p.cg_m, p.weight_n));
-        }
-        let mut winds: Vec<(Vec3, Vec3), MAX_PARTS> = Vec::new();
-        for (part, cp, f) in placement.wind_loads(from_rad) {
-            r.wind_n_per_pa += f;
-            r.wind_moment_nm_per_pa += cp.cross(f);
-            let _ = winds.push((cp, f));
-            // The same sums, in the same order, as `wind_terms_nm_per_pa`.
-            if axes && part.stage != Stage::Ground {
-                let m = (cp - origin).cross(f);
-                let [tk, ts] = &mut axis_wind;
-                *tk += m.dot(k);
-                if part.stage == Stage::Secondary {
-                    *ts += m.dot(s);
-                }
-            }
-        }
-        for e in support.edges() {
+        let (mut axis_wind, mut axis_gravity) = ([0.0_f32; 2], [0.0_f32; 2]);
+        let edges = support.edges();
+        // Every edge's accumulators, with the tie-downs of the feet off it
+        // (the edges are at most `MAX_FEET`, the capacity, so no push fails).
+        for e in edges {
             let mut t = EdgeTerms::default();
-            for &(cg_m, weight_n) in &weights {
-                // The weight is split into its parts normal to and along the
-                // ground, so a slope shows as an overturning moment W·sinθ·h
-                // against a stabilising W·cosθ·d, as in slope checks of
-                // mobile cranes and platforms.
-                let normal = Vec3::Z * weight_n.z;
-                for f in [normal, weight_n - normal] {
-                    split(
-                        e.moment_nm(cg_m, f),
-                        &mut t.gravity_over_nm,
-                        &mut t.gravity_stab_nm,
-                    );
-                }
-            }
-            for &(cp, f) in &winds {
-                split(
-                    e.moment_nm(cp, f),
-                    &mut t.wind_over_nm_per_pa,
-                    &mut t.wind_stab_nm_per_pa,
-                );
-            }
             for (i, foot) in support.feet().iter().enumerate() {
                 if i == usize::from(e.from) || i == usize::from(e.to) || foot.tie_down_n <= 0.0 {
                     continue;
@@ -299,10 +270,61 @@ impl Loads {
             }
             let _ = terms.push(t);
         }
+        // One pass over the placed parts, then one over the wind loads: each
+        // edge's sums take the parts in the same order as an edge-by-edge
+        // pass would, so every sum has the same bits.
+        for p in placement.parts() {
+            r.gravity_n += p.weight_n;
+            r.gravity_moment_nm += p.cg_m.cross(p.weight_n);
+            // The same sums, in the same order, as `gravity_torques_nm`.
+            if axes && p.part.stage != Stage::Ground {
+                let m = (p.cg_m - origin).cross(p.weight_n);
+                let [tk, ts] = &mut axis_gravity;
+                *tk += m.dot(k);
+                if p.part.stage == Stage::Secondary {
+                    *ts += m.dot(s);
+                }
+            }
+            // The weight is split into its parts normal to and along the
+            // ground, so a slope shows as an overturning moment W·sinθ·h
+            // against a stabilising W·cosθ·d, as in slope checks of mobile
+            // cranes and platforms.
+            let normal = Vec3::Z * p.weight_n.z;
+            for (e, t) in edges.iter().zip(terms.iter_mut()) {
+                for f in [normal, p.weight_n - normal] {
+                    split(
+                        e.moment_nm(p.cg_m, f),
+                        &mut t.gravity_over_nm,
+                        &mut t.gravity_stab_nm,
+                    );
+                }
+            }
+        }
+        for (part, cp, f) in placement.wind_loads(from_rad) {
+            r.wind_n_per_pa += f;
+            r.wind_moment_nm_per_pa += cp.cross(f);
+            // The same sums, in the same order, as `wind_terms_nm_per_pa`.
+            if axes && part.stage != Stage::Ground {
+                let m = (cp - origin).cross(f);
+                let [tk, ts] = &mut axis_wind;
+                *tk += m.dot(k);
+                if part.stage == Stage::Secondary {
+                    *ts += m.dot(s);
+                }
+            }
+            for (e, t) in edges.iter().zip(terms.iter_mut()) {
+                split(
+                    e.moment_nm(cp, f),
+                    &mut t.wind_over_nm_per_pa,
+                    &mut t.wind_stab_nm_per_pa,
+                );
+            }
+        }
         Loads {
             terms,
             resultant: r,
             axis_wind_nm_per_pa: axis_wind,
+            axis_gravity_nm: axis_gravity,
         }
     }
 
@@ -709,7 +731,9 @@ impl Rig {
         cg: Vec3,
     ) -> Result<TiltMargin, Error> {
         let up = -placement.gravity_unit();
-        let mut best: Option<TiltMargin> = None;
+        // The extra tilt and the edge (index and edge) of the lowest; the
+        // downhill azimuth is worked out for that edge only.
+        let mut best: Option<(f32, usize, &Edge)> = None;
         for (i, e) in self.support().edges().iter().enumerate() {
             let r = (cg - e.a_m).reject(e.along);
             let u = up.reject(e.along);
@@ -718,16 +742,16 @@ impl Rig {
             let s = u.cross(r).dot(e.along);
             let angle = math::atan2(-s, u.dot(r));
             let extra = angle.max(0.0);
-            let m = TiltMargin {
-                extra_rad: extra,
-                downhill_azimuth_rad: e.outward_azimuth_rad(),
-                edge: i as u8,
-            };
-            if best.is_none_or(|b| extra < b.extra_rad) {
-                best = Some(m);
+            if best.is_none_or(|(b, _, _)| extra < b) {
+                best = Some((extra, i, e));
             }
         }
-        best.ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))
+        best.map(|(extra, i, e)| TiltMargin {
+            extra_rad: extra,
+            downhill_azimuth_rad: e.outward_azimuth_rad(),
+            edge: i as u8,
+        })
+        .ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))
     }
 
     /// Ballast mass at `position_m` (rig frame) needed to keep every edge's

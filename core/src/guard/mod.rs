@@ -807,10 +807,10 @@ impl<'r> Guard<'r> {
         let loads = c
             .validate()
             .and_then(|()| placement.as_ref().map_err(|e| *e))
-            .map(|(p, pl)| (p, pl, crate::stability::Loads::build(pl, from, drives)));
+            .map(|(p, pl)| (p, crate::stability::Loads::build(pl, from, drives)));
         let q = c.air.dynamic_pressure_pa(gust);
         match &loads {
-            Ok((_, _, l)) => match l.critical_utilisation(q) {
+            Ok((_, l)) => match l.critical_utilisation(q) {
                 Some(critical) => {
                     f.overturning = finite(critical);
                     f.sliding = finite(l.sliding(q, rig.friction_coefficient()).utilisation);
@@ -841,9 +841,8 @@ impl<'r> Guard<'r> {
             f.drive = loads
                 .ok()
                 .filter(|_| Error::check(crate::error::Field::MeanWindMps, mean, 0.0, gust).is_ok())
-                .and_then(|(p, pl, l)| {
-                    let g = crate::torque::gravity_torques_nm(pl);
-                    let w = l.axis_wind_nm_per_pa();
+                .and_then(|(p, l)| {
+                    let (g, w) = (l.axis_gravity_nm(), l.axis_wind_nm_per_pa());
                     let mut t = [crate::torque::AxisTerms::default(); 2];
                     for (((t, gi), wi), ii) in t.iter_mut().zip(g).zip(w).zip(p.inertia_kg_m2) {
                         *t = crate::torque::AxisTerms {
