@@ -70,6 +70,28 @@ fn random_rig(g: &mut Gen) -> (Rig, bool) {
             [g.f(-1.0, 1.0), g.f(-1.0, 1.0), 1.0],
         ))
         .unwrap();
+    if g.chance(50) {
+        // A drag coefficient of its own (the kept coefficients are the
+        // body's, not the default).
+        let mut b = BodySpec::cuboid(
+            Stage::Secondary,
+            g.f(0.2, 2.0),
+            [g.f(-0.2, 0.2), g.f(-0.2, 0.2), g.f(-0.2, 0.2)],
+            [g.f(0.05, 0.3), g.f(0.05, 0.3), g.f(0.05, 0.3)],
+        )
+        .with_drag_coefficient(g.f(0.5, 2.0));
+        if let Some(x) = b.exposure.as_mut() {
+            if g.chance(50) {
+                x.shape = crate::shape::Shape::Cylinder {
+                    diameter_m: g.f(0.05, 0.3),
+                    length_m: g.f(0.05, 1.0),
+                    axis: [1.0, g.f(-1.0, 1.0), 0.0],
+                };
+                x.end_drag_coefficient = Some(g.f(0.5, 2.0));
+            }
+        }
+        spec = spec.with_body(b).unwrap();
+    }
     if g.chance(70) {
         spec = spec.with_legs(LegsSpec::new(
             g.f(0.3, 3.0),
@@ -300,6 +322,7 @@ fn the_cached_evaluation_has_the_bits_of_the_separate_calls() {
             };
             let was = guard
                 .posed
+                .as_ref()
                 .is_some_and(|p| p.is_for(pose, guard.cover_fitted));
             if was {
                 hits += 1;
@@ -311,6 +334,7 @@ fn the_cached_evaluation_has_the_bits_of_the_separate_calls() {
             // The kept figures are for the pose just evaluated.
             assert!(guard
                 .posed
+                .as_ref()
                 .is_some_and(|p| p.is_for(pose, guard.cover_fitted)));
             let c0 = Conditions {
                 air: guard.air,
