@@ -1291,29 +1291,16 @@ impl<'a> Placement<'a> {
     /// convention). The cover, when fitted, hides the bodies marked
     /// `under_cover`.
     pub fn wind_loads(&self, from_rad: f32) -> impl Iterator<Item = (Part, Vec3, Vec3)> + '_ {
-        self.wind_loads_with(from_rad, &[])
-    }
-
-    /// [`Placement::wind_loads`] with the drag coefficients of the rig's
-    /// parts already known: `cd[i]` is [`Exposure::drag_coefficients`] of
-    /// part `i` of [`Rig::parts`] (worked out for a part past its end).
-    pub(crate) fn wind_loads_with<'s>(
-        &'s self,
-        from_rad: f32,
-        cd: &'s [[f32; 2]],
-    ) -> impl Iterator<Item = (Part, Vec3, Vec3)> + 's {
         let w = frame::wind_unit(from_rad, self.gravity);
         self.rig
             .parts
             .iter()
-            .enumerate()
-            .filter(move |(_, p)| self.present(p) && !(self.cover_fitted && p.under_cover))
-            .filter_map(move |(i, p)| {
+            .filter(move |p| self.present(p) && !(self.cover_fitted && p.under_cover))
+            .filter_map(move |p| {
                 let x = p.exposure?;
                 let axes = self.axes(p.stage);
                 let cp = self.to_rig(p.stage, Vec3::from_array(x.centre_m));
-                let cd = cd.get(i).copied().unwrap_or_else(|| x.drag_coefficients());
-                Some((*p, cp, w * x.drag_area_with(&axes, w, cd)))
+                Some((*p, cp, w * x.drag_area_m2(&axes, w)))
             })
     }
 }

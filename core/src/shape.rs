@@ -256,37 +256,6 @@ impl Exposure {
     /// frame as `axes` (the stage frame's three unit axes, in rig coordinates).
     #[must_use]
     pub fn drag_area_m2(&self, axes: &[Vec3; 3], wind: Vec3) -> f32 {
-        self.drag_area_with(axes, wind, self.drag_coefficients())
-    }
-
-    /// The drag coefficients [`Exposure::drag_area_m2`] uses: `[cross-flow,
-    /// axial]` of a cylinder, `[face, 0]` of a box. They depend on the
-    /// exposure only, so a caller that needs them often can keep them.
-    #[must_use]
-    pub(crate) fn drag_coefficients(&self) -> [f32; 2] {
-        match self.shape {
-            Shape::Cylinder {
-                diameter_m,
-                length_m,
-                ..
-            } => {
-                let aspect = length_m / diameter_m;
-                [
-                    self.drag_coefficient
-                        .unwrap_or_else(|| cylinder_cross_cd(aspect)),
-                    self.end_drag_coefficient
-                        .unwrap_or_else(|| cylinder_axial_cd(aspect)),
-                ]
-            }
-            Shape::Box { .. } => [self.drag_coefficient.unwrap_or(BOX_FACE_CD), 0.0],
-        }
-    }
-
-    /// [`Exposure::drag_area_m2`] with the drag coefficients `cd` of
-    /// [`Exposure::drag_coefficients`].
-    #[must_use]
-    pub(crate) fn drag_area_with(&self, axes: &[Vec3; 3], wind: Vec3, cd: [f32; 2]) -> f32 {
-        let [cd_cross, cd_end] = cd;
         match self.shape {
             Shape::Cylinder {
                 diameter_m,
@@ -298,17 +267,24 @@ impl Exposure {
                 let a = e1 * local.x + e2 * local.y + e3 * local.z;
                 let cos_psi = math::clamp(a.dot(wind), -1.0, 1.0);
                 let sin_psi = math::sqrt(1.0 - cos_psi * cos_psi);
+                let aspect = length_m / diameter_m;
+                let cd_cross = self
+                    .drag_coefficient
+                    .unwrap_or_else(|| cylinder_cross_cd(aspect));
                 let side = diameter_m * length_m * sin_psi;
                 let end = 0.25 * math::PI * diameter_m * diameter_m * cos_psi.abs();
+                let cd_end = self
+                    .end_drag_coefficient
+                    .unwrap_or_else(|| cylinder_axial_cd(aspect));
                 cd_cross * side + cd_end * end
             }
             Shape::Box { size_m, edges } => {
+                let cd = self.drag_coefficient.unwrap_or(BOX_FACE_CD);
                 let [e1, e2, e3] = box_axes(axes, edges);
                 let [sx, sy, sz] = size_m;
-                cd_cross
-                    * (sy * sz * e1.dot(wind).abs()
-                        + sx * sz * e2.dot(wind).abs()
-                        + sx * sy * e3.dot(wind).abs())
+                cd * (sy * sz * e1.dot(wind).abs()
+                    + sx * sz * e2.dot(wind).abs()
+                    + sx * sy * e3.dot(wind).abs())
             }
         }
     }

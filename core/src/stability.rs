@@ -214,7 +214,7 @@ impl Loads {
     /// Computes the edge terms and resultants for a wind from `from_rad`.
     #[must_use]
     pub fn new(placement: &Placement<'_>, from_rad: f32) -> Loads {
-        Loads::build(placement, from_rad, false, &[])
+        Loads::build(placement, from_rad, false)
     }
 
     /// [`Loads::new`], and the wind torque per pascal and the gravity torque
@@ -225,7 +225,7 @@ impl Loads {
     /// every part's position, weight and drag area instead of two.
     #[must_use]
     pub fn with_axes(placement: &Placement<'_>, from_rad: f32) -> Loads {
-        Loads::build(placement, from_rad, true, &[])
+        Loads::build(placement, from_rad, true)
     }
 
     /// Wind torque per pascal about `[primary, secondary]`, N·m/Pa, signed
@@ -242,15 +242,8 @@ impl Loads {
         self.axis_gravity_nm
     }
 
-    /// [`Loads::new`] (`axes` false) or [`Loads::with_axes`] (`axes` true),
-    /// with the parts' drag coefficients `cd` when known (as
-    /// [`Placement::wind_loads_with`]; empty: worked out).
-    pub(crate) fn build(
-        placement: &Placement<'_>,
-        from_rad: f32,
-        axes: bool,
-        cd: &[[f32; 2]],
-    ) -> Loads {
+    /// [`Loads::new`] (`axes` false) or [`Loads::with_axes`] (`axes` true).
+    pub(crate) fn build(placement: &Placement<'_>, from_rad: f32, axes: bool) -> Loads {
         let support = placement.rig().support();
         let mut terms: Vec<EdgeTerms, MAX_FEET> = Vec::new();
         let mut r = Resultant::default();
@@ -308,7 +301,7 @@ impl Loads {
                 }
             }
         }
-        for (part, cp, f) in placement.wind_loads_with(from_rad, cd) {
+        for (part, cp, f) in placement.wind_loads(from_rad) {
             r.wind_n_per_pa += f;
             r.wind_moment_nm_per_pa += cp.cross(f);
             // The same sums, in the same order, as `wind_terms_nm_per_pa`.
@@ -538,13 +531,8 @@ pub(crate) fn scan_directions(mut f: impl FnMut(f32) -> f32) -> (f32, f32) {
 /// The highest edge utilisation over all wind directions at dynamic
 /// pressure `q_pa` for a placed rig, and the direction it comes from
 /// ([`Rig::worst_direction_utilisation`]).
-/// The parts' drag coefficients `cd` as in [`Loads::build`].
-pub(crate) fn worst_direction_in(
-    placement: &Placement<'_>,
-    q_pa: f32,
-    cd: &[[f32; 2]],
-) -> (f32, f32) {
-    scan_directions(|d| Loads::build(placement, d, false, cd).max_utilisation(q_pa))
+pub(crate) fn worst_direction_in(placement: &Placement<'_>, q_pa: f32) -> (f32, f32) {
+    scan_directions(|d| Loads::new(placement, d).max_utilisation(q_pa))
 }
 
 /// The lowest tip wind speed over all directions.
@@ -716,7 +704,7 @@ impl Rig {
         c.validate()?;
         let placement = self.place(c.pose, c.tilt, c.cover_fitted)?;
         let q = c.air.dynamic_pressure_pa(c.wind_speed_mps);
-        Ok(worst_direction_in(&placement, q, &[]))
+        Ok(worst_direction_in(&placement, q))
     }
 
     /// Extra ground tilt that would tip the rig with no wind, and its downhill

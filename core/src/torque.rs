@@ -36,9 +36,7 @@ use crate::drive::DriveRating;
 use crate::error::{Error, ErrorKind, Field};
 use crate::math::{self, Vec3, STANDARD_GRAVITY_MPS2};
 use crate::mount::{Pose, StageFrames};
-use crate::rig::{
-    Conditions, MassModel, Part, PartRole, Placement, Rig, RigSpec, Stage, MAX_PARTS,
-};
+use crate::rig::{Conditions, MassModel, Part, PartRole, Placement, Rig, RigSpec, Stage};
 use crate::shape::Shape;
 use crate::stability::ratio;
 use crate::Tilt;
@@ -293,7 +291,7 @@ pub(crate) fn inertias_kg_m2(placement: &Placement<'_>) -> [f32; 2] {
 /// and computes it again only when the pose or the cover state changes;
 /// every figure computed from it has the same bits as from a fresh
 /// [`Rig::place`].
-#[derive(Clone, Debug)]
+#[derive(Clone, Copy, Debug)]
 pub(crate) struct Posed {
     /// The pose it is for.
     pose: Pose,
@@ -305,9 +303,6 @@ pub(crate) struct Posed {
     pub cg_m: Vec3,
     /// Moments of inertia about `[primary, secondary]`, kg·m².
     pub inertia_kg_m2: [f32; 2],
-    /// Drag coefficients of every part of [`Rig::parts`]
-    /// ([`crate::shape::Exposure::drag_coefficients`]; 0 without a shape).
-    pub cd: heapless::Vec<[f32; 2], MAX_PARTS>,
 }
 
 impl Posed {
@@ -325,12 +320,6 @@ impl Posed {
             frames: *placement.frames(),
             cg_m: placement.centre_of_gravity_m(),
             inertia_kg_m2: inertias_kg_m2(&placement),
-            // At most `MAX_PARTS` parts, the capacity: every push succeeds.
-            cd: rig
-                .parts()
-                .iter()
-                .map(|p| p.exposure.map_or([0.0; 2], |x| x.drag_coefficients()))
-                .collect(),
         })
     }
 

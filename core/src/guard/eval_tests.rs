@@ -322,7 +322,6 @@ fn the_cached_evaluation_has_the_bits_of_the_separate_calls() {
             };
             let was = guard
                 .posed
-                .as_ref()
                 .is_some_and(|p| p.is_for(pose, guard.cover_fitted));
             if was {
                 hits += 1;
@@ -334,7 +333,6 @@ fn the_cached_evaluation_has_the_bits_of_the_separate_calls() {
             // The kept figures are for the pose just evaluated.
             assert!(guard
                 .posed
-                .as_ref()
                 .is_some_and(|p| p.is_for(pose, guard.cover_fitted)));
             let c0 = Conditions {
                 air: guard.air,

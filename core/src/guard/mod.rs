@@ -350,7 +350,7 @@ pub struct Guard<'r> {
     gust_history: GustHistory,
     gust_3s_cache: GustCache,
     /// What the physics needs of the present pose and cover state whatever
-    /// the tilt and wind, kept between evaluations ([`posed_for`]).
+    /// the tilt and wind, kept between evaluations ([`Guard::posed`]).
     posed: Option<Posed>,
 }
 
@@ -699,7 +699,7 @@ impl<'r> Guard<'r> {
     /// [`Rig::worst_direction_utilisation`],
     /// [`Rig::stability_figures_with_utilisation_at`] and [`Rig::axis_loads`]
     /// to the bit, from one placement: what depends on the pose and cover
-    /// only comes from the kept [`Posed`], and the wind loads are computed once
+    /// only comes from [`Guard::posed`], and the wind loads are computed once
     /// for the stability and the drive torques.
     fn evaluate(&mut self, report: &WindReport) -> (Shown, FaultSet) {
         let mut faults = FaultSet::new();
@@ -763,13 +763,13 @@ impl<'r> Guard<'r> {
         } = *at;
         // One placement for every figure (an error fails each of them, as
         // it failed each of the separate calls).
-        let c0 = self.conditions(tilt, 0.0, 0.0);
         let rig = self.rig;
-        let placement = posed_for(&mut self.posed, rig, c0.pose, c0.cover_fitted).and_then(|p| {
-            rig.place_in(p.frames, tilt, c0.cover_fitted)
+        let posed = self.posed();
+        let placement = posed.and_then(|p| {
+            rig.place_in(p.frames, tilt, self.cover_fitted)
                 .map(|pl| (p, pl))
         });
-        let margin = c0.validate().and_then(|()| {
+        let margin = self.conditions(tilt, 0.0, 0.0).validate().and_then(|()| {
             let (p, pl) = placement.as_ref().map_err(|e| *e)?;
             rig.tilt_margin_in(pl, p.cg_m)
         });
@@ -783,18 +783,14 @@ impl<'r> Guard<'r> {
         let from = match measured_from {
             Some(d) => Some(d),
             None => {
-                let c = Conditions {
-                    wind_speed_mps: gust,
-                    ..c0
-                };
+                let c = self.conditions(tilt, gust, 0.0);
                 c.validate()
                     .and_then(|()| placement.as_ref().map_err(|e| *e))
                     .ok()
-                    .map(|(p, pl)| {
+                    .map(|(_, pl)| {
                         crate::stability::worst_direction_in(
                             pl,
                             c.air.dynamic_pressure_pa(c.wind_speed_mps),
-                            &p.cd,
                         )
                     })
                     .and_then(|(_, d)| finite(d))
@@ -806,16 +802,12 @@ impl<'r> Guard<'r> {
         };
         f.from_rad = Some(from);
 
-        let c = Conditions {
-            wind_speed_mps: gust,
-            wind_from_rad: from,
-            ..c0
-        };
+        let c = self.conditions(tilt, gust, from);
         let drives = rig.drives().is_some();
         let loads = c
             .validate()
             .and_then(|()| placement.as_ref().map_err(|e| *e))
-            .map(|(p, pl)| (p, crate::stability::Loads::build(pl, from, drives, &p.cd)));
+            .map(|(p, pl)| (p, crate::stability::Loads::build(pl, from, drives)));
         let q = c.air.dynamic_pressure_pa(gust);
         match &loads {
             Ok((_, l)) => match l.critical_utilisation(q) {
@@ -872,6 +864,21 @@ impl<'r> Guard<'r> {
         }
     }
 
+    /// The pose- and cover-dependent figures of the present pose and cover
+    /// state: the kept ones when they are for exactly these, else computed
+    /// again and kept (the cache's only invalidation: a different pose or
+    /// cover state, compared bit for bit; the air is not in them).
+    fn posed(&mut self) -> Result<Posed, Error> {
+        match self.posed {
+            Some(p) if p.is_for(self.pose, self.cover_fitted) => Ok(p),
+            _ => {
+                let p = Posed::new(self.rig, self.pose, self.cover_fitted);
+                self.posed = p.ok();
+                p
+            }
+        }
+    }
+
     /// The safest park pose for the predicted gust from `from_rad`: among the
     /// home pose and the configured park poses, the one whose highest
     /// utilisation (overturning, or either drive) is lowest
@@ -902,24 +909,6 @@ impl<'r> Guard<'r> {
                 check: Check::ParkPose,
             })
     }
-}
-
-/// The pose- and cover-dependent figures for `pose` and `cover_fitted`:
-/// those kept in `slot` when they are for exactly these, else computed again
-/// and kept (the cache's only invalidation: a different pose or cover state,
-/// compared bit for bit; the air and tilt are not in them).
-fn posed_for<'a>(
-    slot: &'a mut Option<Posed>,
-    rig: &Rig,
-    pose: Pose,
-    cover_fitted: bool,
-) -> Result<&'a Posed, Error> {
-    let kept = slot.take().filter(|p| p.is_for(pose, cover_fitted));
-    let p = match kept {
-        Some(p) => p,
-        None => Posed::new(rig, pose, cover_fitted)?,
-    };
-    Ok(slot.insert(p))
 }
 
 /// `Some(x)` for a finite `x`.
