@@ -48,12 +48,20 @@
 //! once when the cover state changes or the pose moves by more than
 //! [`POSE_TOLERANCE_RAD`] from the last evaluated one. Samples in between
 //! only update the filters, so a controller may pass its pose in every step.
+//! What depends on the pose and cover state only (stage frames, centre of
+//! gravity, moments of inertia) is kept from one evaluation to the next and
+//! worked out again when either changes; each evaluation places the rig once
+//! and computes the wind loads once for the stability and the drive torques.
+//! The figures have the bits of the separate public calls
+//! ([`Rig::tilt_margin`], [`Rig::stability_figures_with_utilisation_at`],
+//! [`Rig::axis_loads`]; a unit test compares them).
 //!
 //! **Memory.** The guard holds no reference-counted or heap data; its size is a
 //! compile-time constant, `core::mem::size_of::<Guard>()`: under 4.5 KiB on a
 //! 64-bit host (the fail-safe state, evaluation faults and the per-level
-//! timers, took it past 4 KiB), about 2.8 KiB on the 32-bit Cortex-M4F
-//! (checked by a unit test). The rig is borrowed, not copied.
+//! timers, took it past 4 KiB), about 2.9 KiB on the 32-bit Cortex-M4F
+//! (checked by a unit test; the kept pose-dependent figures are 120 bytes of
+//! it). The rig is borrowed, not copied.
 //!
 //! **Caution.** A verdict is an estimate from a static model and live sensors;
 //! it does not replace securing the rig.
