@@ -22,9 +22,14 @@ use crate::input::log::error::LogError;
 #[derive(Debug)]
 pub struct Merger {
     sources: Vec<CsvSource>,
-    heads: Vec<Option<Row>>,
+    /// Each source's look-ahead row, meaningful while its `live` is set
+    /// (read into in place).
+    heads: Vec<Row>,
+    live: Vec<bool>,
     values: [f64; N_CHANNELS],
-    last_update: [Option<Timestamp>; N_CHANNELS],
+    /// The merge state as a record: updated channel by channel as rows
+    /// come in, and copied out for each record.
+    record: SampleRecord,
     policy: ErrorPolicy,
     issues: IssueLog,
     records: u64,
@@ -128,14 +133,24 @@ impl Merger {
     ) -> Result<Merger, LogError> {
         let mut issues = IssueLog::default();
         let mut heads = Vec::with_capacity(sources.len());
+        let mut live = Vec::with_capacity(sources.len());
         for s in &mut sources {
-            heads.push(s.next_row(policy, &mut issues)?);
+            let mut row = Row::empty();
+            live.push(s.next_row_into(policy, &mut issues, &mut row)?);
+            heads.push(row);
         }
+        let values = [f64::NAN; N_CHANNELS];
         Ok(Merger {
             sources,
             heads,
-            values: [f64::NAN; N_CHANNELS],
-            last_update: [None; N_CHANNELS],
+            live,
+            values,
+            record: SampleRecord::from_state(
+                Timestamp::from_unix_ns(0),
+                &values,
+                [None; N_CHANNELS],
+                ChannelSet::EMPTY,
+            ),
             policy,
             issues,
             records: 0,
@@ -174,31 +189,38 @@ impl Merger {
         if let Some(e) = self.pending.take() {
             return Err(e);
         }
-        let Some(time) = self.heads.iter().flatten().map(|r| r.time).min() else {
+        let mut time = None;
+        for (row, live) in self.heads.iter().zip(&self.live) {
+            if *live && time.is_none_or(|t| row.time < t) {
+                time = Some(row.time);
+            }
+        }
+        let Some(time) = time else {
             return Ok(None);
         };
         let mut updated = ChannelSet::EMPTY;
-        for (head, source) in self.heads.iter_mut().zip(self.sources.iter_mut()) {
-            let Some(row) = head.as_ref() else { continue };
-            if row.time != time {
+        let rows = self.heads.iter_mut().zip(&mut self.live);
+        for ((row, live), source) in rows.zip(self.sources.iter_mut()) {
+            if !*live || row.time != time {
                 continue;
             }
             for ch in row.set.iter() {
                 if let (Some(v), Some(t)) = (
                     self.values.get_mut(ch.index()),
-                    self.last_update.get_mut(ch.index()),
+                    self.record.last_update.get_mut(ch.index()),
                 ) {
                     *v = row.values.get(ch.index()).copied().unwrap_or(f64::NAN);
                     *t = Some(time);
                 }
+                self.record.update(ch, &self.values);
             }
             updated = updated.union(row.set);
             self.rows += 1;
-            match source.next_row(self.policy, &mut self.issues) {
-                Ok(next) => *head = next,
+            match source.next_row_into(self.policy, &mut self.issues, row) {
+                Ok(more) => *live = more,
                 Err(e) => {
                     // Finish this record; the error comes with the next call.
-                    *head = None;
+                    *live = false;
                     if self.pending.is_none() {
                         self.pending = Some(e);
                     }
@@ -206,12 +228,9 @@ impl Merger {
             }
         }
         self.records += 1;
-        Ok(Some(SampleRecord::from_state(
-            time,
-            &self.values,
-            self.last_update,
-            updated,
-        )))
+        self.record.time = time;
+        self.record.updated = updated;
+        Ok(Some(self.record.clone()))
     }
 
     /// The latest value of a channel in the merge state (NaN before its

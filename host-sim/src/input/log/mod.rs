@@ -17,6 +17,7 @@
 //!   policies but never stop the read: the rows around a gap are valid.
 
 mod error;
+mod fast;
 mod merge;
 mod profile;
 mod record;

@@ -335,6 +335,36 @@ impl SampleRecord {
         }
     }
 
+    /// Updates the field of channel `ch` from the merge state `values`
+    /// (as [`SampleRecord::from_state`] reads it; an accelerometer channel
+    /// updates the three-axis field). With each channel whose value
+    /// changed updated this way, the record equals the one
+    /// [`SampleRecord::from_state`] builds from the whole state.
+    pub(super) fn update(&mut self, ch: Channel, values: &[f64; N_CHANNELS]) {
+        let v = values.get(ch.index()).copied().unwrap_or(f64::NAN);
+        let v = (!v.is_nan()).then_some(v);
+        match ch {
+            Channel::AccelX | Channel::AccelY | Channel::AccelZ => {
+                self.accel_mps2 = match values {
+                    [x, y, z, ..] if !(x.is_nan() || y.is_nan() || z.is_nan()) => {
+                        Some([*x, *y, *z])
+                    }
+                    _ => None,
+                };
+            }
+            Channel::WindSpeed => self.wind_speed_mps = v,
+            Channel::WindDirection => self.wind_from_rad = v,
+            Channel::HourAngle => self.hour_angle_rad = v,
+            Channel::Declination => self.declination_rad = v,
+            Channel::PierSide => self.pier_side = v.map(PierSide::from_code),
+            Channel::Axis1Angle => self.axis1_rad = v,
+            Channel::Axis2Angle => self.axis2_rad = v,
+            Channel::CoverFitted => self.cover_fitted = v.map(|v| v >= 0.5),
+            Channel::AirTemperature => self.air_temperature_k = v,
+            Channel::Pressure => self.pressure_pa = v,
+        }
+    }
+
     /// The channel's value as a number (pier side: east 0, west 1; cover:
     /// 1 fitted, 0 off), `None` before its first value.
     #[must_use]
@@ -370,7 +400,35 @@ impl SampleRecord {
 
 #[cfg(test)]
 mod tests {
-    use super::{Channel, ChannelSet};
+    use super::{Channel, ChannelSet, SampleRecord, N_CHANNELS};
+    use crate::input::log::time::Timestamp;
+
+    proptest::proptest! {
+        /// Updating a record channel by channel as values come in (the
+        /// merge's way) gives the record `from_state` builds from the whole
+        /// state (the reference), whatever the order, the NaNs and the
+        /// partial accelerometers.
+        #[test]
+        fn update_is_from_state(
+            steps in proptest::collection::vec(
+                (0usize..N_CHANNELS, proptest::sample::select(vec![
+                    f64::NAN, 0.0, -0.0, 0.49, 0.5, 1.0, -3.25, 9.81, 1e300,
+                ])),
+                0..60,
+            ),
+        ) {
+            let t = Timestamp::from_unix_ns(5);
+            let mut values = [f64::NAN; N_CHANNELS];
+            let last = [None; N_CHANNELS];
+            let mut rec = SampleRecord::from_state(t, &values, last, ChannelSet::EMPTY);
+            for (i, v) in steps {
+                values[i] = v;
+                rec.update(Channel::ALL[i], &values);
+                let want = SampleRecord::from_state(t, &values, last, ChannelSet::EMPTY);
+                proptest::prop_assert_eq!(format!("{rec:?}"), format!("{want:?}"));
+            }
+        }
+    }
 
     /// The bit walk of `ChannelSet::iter` gives exactly the channels of
     /// the set in index order, for every one of the 2^13 sets (the

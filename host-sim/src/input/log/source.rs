@@ -15,8 +15,9 @@
 use std::fs::File;
 use std::io::{self, Read};
 
-use super::profile::{AxisSource, ColumnProfile, FileProfile};
-use super::record::{Channel, ChannelKind, ChannelSet, N_CHANNELS};
+use super::fast::{accel_to_rig, store, Column, Plan};
+use super::profile::{AxisSource, FileProfile};
+use super::record::{ChannelKind, ChannelSet, N_CHANNELS};
 use super::time::{TimeFormat, Timestamp};
 use crate::input::issues::{ErrorPolicy, Issue, IssueKind, IssueLog};
 use crate::input::located::{bounded, bounded_bytes, bounded_to, InputError, Location};
@@ -33,6 +34,19 @@ pub struct Row {
     pub values: [f64; N_CHANNELS],
     /// Channels with a value in this row.
     pub set: ChannelSet,
+}
+
+impl Row {
+    /// A row with no time (the epoch), no line, no channel.
+    #[must_use]
+    pub fn empty() -> Row {
+        Row {
+            time: Timestamp::from_unix_ns(0),
+            line: 0,
+            values: [f64::NAN; N_CHANNELS],
+            set: ChannelSet::EMPTY,
+        }
+    }
 }
 
 /// Block size of the line splitter's reads.
@@ -447,44 +461,6 @@ fn csv_builder(delimiter: u8, has_headers: bool) -> csv::ReaderBuilder {
     b
 }
 
-/// Where a column's value goes in a row.
-#[derive(Clone, Copy, Debug)]
-enum Slot {
-    /// Accelerometer sensor axis 0, 1 or 2 (mapped to the rig frame once
-    /// the row's three axes are read).
-    Sensor(usize),
-    /// Another channel.
-    Channel(Channel),
-}
-
-/// A mapped column with what its cells need, worked out once per file.
-#[derive(Clone, Debug)]
-struct Column {
-    /// Field index in the row.
-    idx: usize,
-    slot: Slot,
-    /// A word channel (pier side, flag) rather than a number.
-    word: bool,
-    profile: ColumnProfile,
-}
-
-impl Column {
-    fn new(idx: usize, profile: ColumnProfile) -> Column {
-        let slot = match profile.channel {
-            Channel::AccelX => Slot::Sensor(0),
-            Channel::AccelY => Slot::Sensor(1),
-            Channel::AccelZ => Slot::Sensor(2),
-            c => Slot::Channel(c),
-        };
-        Column {
-            idx,
-            slot,
-            word: !matches!(profile.channel.kind(), ChannelKind::Quantity(_)),
-            profile,
-        }
-    }
-}
-
 /// A CSV log being read.
 pub struct CsvSource {
     label: String,
@@ -499,6 +475,8 @@ pub struct CsvSource {
     cols: Vec<Column>,
     accel_axes: [AxisSource; 3],
     prev: Option<(Timestamp, u64)>,
+    /// The fast path's reading of plain rows, when it applies to the file.
+    plan: Option<Plan>,
 }
 
 impl core::fmt::Debug for CsvSource {
@@ -571,9 +549,17 @@ impl CsvSource {
             zone_offset_s: fp.zone_offset_s,
             gap_ns,
             gap_s: fp.gap_s,
-            cols,
             accel_axes: fp.accel_axes,
             prev: None,
+            plan: Plan::new(
+                names.len(),
+                time_idx,
+                &cols,
+                fp.delimiter,
+                fp.time_format,
+                fp.zone_offset_s,
+            ),
+            cols,
         })
     }
 
@@ -597,64 +583,132 @@ impl CsvSource {
         policy: ErrorPolicy,
         issues: &mut IssueLog,
     ) -> Result<Option<Row>, LogError> {
+        let mut row = Row::empty();
+        Ok(self.next_row_into(policy, issues, &mut row)?.then_some(row))
+    }
+
+    /// As [`CsvSource::next_row`], into `row` (the merge's look-ahead,
+    /// overwritten in place rather than moved): `true` with the next
+    /// usable row in `row`, `false` at the end of the file (`row` then
+    /// holds no meaning).
+    ///
+    /// # Errors
+    /// As [`CsvSource::next_row`].
+    pub fn next_row_into(
+        &mut self,
+        policy: ErrorPolicy,
+        issues: &mut IssueLog,
+        row: &mut Row,
+    ) -> Result<bool, LogError> {
         loop {
-            let line = match self.read_record() {
-                Ok(Some(line)) => line,
-                Ok(None) => return Ok(None),
-                Err(e) => {
-                    if e.is_io_error() {
-                        return Err(csv_error(&self.label, std::path::Path::new(&self.label), e));
+            row.values = [f64::NAN; N_CHANNELS];
+            row.set = ChannelSet::EMPTY;
+            let line = if let Some(line) = self.fast_row(row) {
+                line
+            } else {
+                let line = match self.read_record() {
+                    Ok(Some(line)) => line,
+                    Ok(None) => return Ok(false),
+                    Err(e) => {
+                        if e.is_io_error() {
+                            return Err(csv_error(
+                                &self.label,
+                                std::path::Path::new(&self.label),
+                                e,
+                            ));
+                        }
+                        let line = match &self.input {
+                            Input::General(g) => g.line_of(e.position()),
+                            _ => e.position().map_or(0, csv::Position::line),
+                        };
+                        self.reject(policy, issues, line, IssueKind::Malformed, e.to_string())?;
+                        continue;
                     }
-                    let line = match &self.input {
-                        Input::General(g) => g.line_of(e.position()),
-                        _ => e.position().map_or(0, csv::Position::line),
-                    };
-                    self.reject(policy, issues, line, IssueKind::Malformed, e.to_string())?;
-                    continue;
-                }
-            };
-            let row = match self.parse(line) {
-                Ok(row) => row,
-                Err(detail) => {
+                };
+                if let Err(detail) = self.parse(line, row) {
                     self.reject(policy, issues, line, IssueKind::Malformed, detail)?;
                     continue;
                 }
+                line
             };
-            if let Some((prev, prev_line)) = self.prev {
-                if row.time == prev {
-                    let detail = format!(
-                        "time {} is the same as on line {prev_line}; row left out",
-                        row.time
-                    );
-                    self.reject(policy, issues, line, IssueKind::Duplicate, detail)?;
-                    continue;
-                }
-                if row.time < prev {
-                    let detail = format!(
-                        "time {} is earlier than {} on line {prev_line}; row left out",
-                        row.time, prev
-                    );
-                    self.reject(policy, issues, line, IssueKind::OutOfOrder, detail)?;
-                    continue;
-                }
-                if row.time.unix_ns().saturating_sub(prev.unix_ns()) > self.gap_ns {
-                    issues.push(Issue {
-                        file: self.label.clone(),
-                        line,
-                        kind: IssueKind::Gap,
-                        detail: format!(
-                            "{:.3} s without data since line {prev_line} ({} to {}), more than the file's {} s allowed between rows",
-                            row.time.seconds_since(prev),
-                            prev,
-                            row.time,
-                            self.gap_s
-                        ),
-                    });
-                }
+            if self.check_order(policy, issues, row)? {
+                self.prev = Some((row.time, line));
+                return Ok(true);
             }
-            self.prev = Some((row.time, line));
-            return Ok(Some(row));
         }
+    }
+
+    /// The fast path ([`Plan::parse_row`]) on the row at the splitter's
+    /// read position: the row's line, with the row read into `row` and
+    /// consumed, or `None` (nothing consumed) to leave it to the general
+    /// path.
+    fn fast_row(&mut self, row: &mut Row) -> Option<u64> {
+        let plan = self.plan.as_ref()?;
+        let Input::Lines(lines) = &mut self.input else {
+            return None;
+        };
+        let bytes = lines.buf.get(lines.start..lines.end)?;
+        let (time, len) = plan.parse_row(
+            bytes,
+            &self.cols,
+            &self.accel_axes,
+            &mut row.values,
+            &mut row.set,
+        )?;
+        // As `Lines::scan` for a row: the csv crate's line of the row, the
+        // read position past its line feed.
+        let line = lines.line;
+        lines.start += len;
+        lines.line += 1;
+        row.time = time;
+        row.line = line;
+        Some(line)
+    }
+
+    /// The time order checks of a parsed row against the previous one:
+    /// `true` to use the row, `false` for a duplicate or out-of-order
+    /// time (recorded and left out). A gap is recorded and the row used.
+    fn check_order(
+        &self,
+        policy: ErrorPolicy,
+        issues: &mut IssueLog,
+        row: &Row,
+    ) -> Result<bool, LogError> {
+        let Some((prev, prev_line)) = self.prev else {
+            return Ok(true);
+        };
+        let line = row.line;
+        if row.time == prev {
+            let detail = format!(
+                "time {} is the same as on line {prev_line}; row left out",
+                row.time
+            );
+            self.reject(policy, issues, line, IssueKind::Duplicate, detail)?;
+            return Ok(false);
+        }
+        if row.time < prev {
+            let detail = format!(
+                "time {} is earlier than {} on line {prev_line}; row left out",
+                row.time, prev
+            );
+            self.reject(policy, issues, line, IssueKind::OutOfOrder, detail)?;
+            return Ok(false);
+        }
+        if row.time.unix_ns().saturating_sub(prev.unix_ns()) > self.gap_ns {
+            issues.push(Issue {
+                file: self.label.clone(),
+                line,
+                kind: IssueKind::Gap,
+                detail: format!(
+                    "{:.3} s without data since line {prev_line} ({} to {}), more than the file's {} s allowed between rows",
+                    row.time.seconds_since(prev),
+                    prev,
+                    row.time,
+                    self.gap_s
+                ),
+            });
+        }
+        Ok(true)
     }
 
     fn read_record(&mut self) -> Result<Option<u64>, csv::Error> {
@@ -682,15 +736,18 @@ impl CsvSource {
         }
     }
 
-    fn parse(&self, line: u64) -> Result<Row, String> {
+    /// The general path: the record just read into `row` (whose values
+    /// hold NaN and whose set is empty).
+    fn parse(&self, line: u64, row: &mut Row) -> Result<(), String> {
+        row.line = line;
         match &self.input {
-            Input::Lines(l) => self.parse_fields(&l.fields(), line),
-            Input::General(g) => self.parse_fields(&g.record, line),
+            Input::Lines(l) => self.parse_fields(&l.fields(), row),
+            Input::General(g) => self.parse_fields(&g.record, row),
             Input::Empty => Err("no row".to_owned()),
         }
     }
 
-    fn parse_fields(&self, rec: &impl Fields, line: u64) -> Result<Row, String> {
+    fn parse_fields(&self, rec: &impl Fields, row: &mut Row) -> Result<(), String> {
         if rec.count() != self.n_fields {
             return Err(format!(
                 "the row has {} fields, the header has {}",
@@ -704,9 +761,7 @@ impl CsvSource {
         if tfield.is_empty() {
             return Err("empty time".to_owned());
         }
-        let time = self.time_format.parse_bytes(tfield, self.zone_offset_s)?;
-        let mut values = [f64::NAN; N_CHANNELS];
-        let mut set = ChannelSet::EMPTY;
+        row.time = self.time_format.parse_bytes(tfield, self.zone_offset_s)?;
         let mut sensor = [f64::NAN; 3];
         let mut n_accel = 0;
         for c in &self.cols {
@@ -718,87 +773,74 @@ impl CsvSource {
             if cell.is_empty() {
                 continue;
             }
-            let col = &c.profile;
-            let v = if c.word {
-                let text = String::from_utf8_lossy(cell);
-                col.channel.parse_word(&text).ok_or_else(|| {
-                    if col.channel.kind() == ChannelKind::PierSide {
-                        format!(
-                            "{} = \"{}\" is not a pier side (accepted: east, e, west, w)",
-                            bounded(&col.header.value),
-                            bounded_bytes(cell)
-                        )
-                    } else {
-                        format!(
-                            "{} = \"{}\" is not a yes/no value (accepted: 1, 0, true, false, yes, no, on, off)",
-                            bounded(&col.header.value),
-                            bounded_bytes(cell)
-                        )
-                    }
-                })?
-            } else {
-                let raw = match fast_decimal(cell) {
-                    Some(x) => x,
-                    None => {
-                        let x: f64 = core::str::from_utf8(cell)
-                            .ok()
-                            .and_then(|t| t.parse().ok())
-                            .ok_or_else(|| {
-                                format!(
-                                    "{} = \"{}\" is not a number (column unit {})",
-                                    bounded(&col.header.value),
-                                    bounded_bytes(cell),
-                                    col.unit.symbol()
-                                )
-                            })?;
-                        if !x.is_finite() {
-                            return Err(format!(
-                                "{} = \"{}\" is not a finite number",
-                                bounded(&col.header.value),
-                                bounded_bytes(cell)
-                            ));
-                        }
-                        x
-                    }
-                };
-                col.to_si(raw)
-            };
-            match c.slot {
-                Slot::Sensor(a) => {
-                    if let Some(s) = sensor.get_mut(a) {
-                        *s = v;
-                        n_accel += 1;
-                    }
-                }
-                Slot::Channel(ch) => {
-                    if let Some(slot) = values.get_mut(ch.index()) {
-                        *slot = v;
-                        set.insert(ch);
-                    }
-                }
-            }
+            let v = cell_value(c, cell)?;
+            store(
+                c,
+                v,
+                &mut sensor,
+                &mut n_accel,
+                &mut row.values,
+                &mut row.set,
+            );
         }
         if n_accel == 3 {
-            let rig = [Channel::AccelX, Channel::AccelY, Channel::AccelZ];
-            for (ch, src) in rig.iter().zip(self.accel_axes) {
-                let s = sensor.get(src.sensor_axis).copied().unwrap_or(f64::NAN);
-                if let Some(slot) = values.get_mut(ch.index()) {
-                    *slot = src.sign * s;
-                    set.insert(*ch);
-                }
-            }
+            accel_to_rig(&sensor, &self.accel_axes, &mut row.values, &mut row.set);
         } else if n_accel != 0 {
             return Err(format!(
                 "the accelerometer has {n_accel} of its 3 axes in this row; give all three or none"
             ));
         }
-        Ok(Row {
-            time,
-            line,
-            values,
-            set,
-        })
+        Ok(())
     }
+}
+
+/// The SI value of a trimmed, non-empty cell of column `c` (the general
+/// path), or what is wrong with it.
+fn cell_value(c: &Column, cell: &[u8]) -> Result<f64, String> {
+    let col = &c.profile;
+    if c.word {
+        let text = String::from_utf8_lossy(cell);
+        return col.channel.parse_word(&text).ok_or_else(|| {
+            if col.channel.kind() == ChannelKind::PierSide {
+                format!(
+                    "{} = \"{}\" is not a pier side (accepted: east, e, west, w)",
+                    bounded(&col.header.value),
+                    bounded_bytes(cell)
+                )
+            } else {
+                format!(
+                    "{} = \"{}\" is not a yes/no value (accepted: 1, 0, true, false, yes, no, on, off)",
+                    bounded(&col.header.value),
+                    bounded_bytes(cell)
+                )
+            }
+        });
+    }
+    let raw = match fast_decimal(cell) {
+        Some(x) => x,
+        None => {
+            let x: f64 = core::str::from_utf8(cell)
+                .ok()
+                .and_then(|t| t.parse().ok())
+                .ok_or_else(|| {
+                    format!(
+                        "{} = \"{}\" is not a number (column unit {})",
+                        bounded(&col.header.value),
+                        bounded_bytes(cell),
+                        col.unit.symbol()
+                    )
+                })?;
+            if !x.is_finite() {
+                return Err(format!(
+                    "{} = \"{}\" is not a finite number",
+                    bounded(&col.header.value),
+                    bounded_bytes(cell)
+                ));
+            }
+            x
+        }
+    };
+    Ok(col.to_si(raw))
 }
 
 /// Reads the header: by the line splitter when it is a plain line (the rows
@@ -1120,6 +1162,241 @@ mod tests {
             let reference: f64 = s.parse().unwrap();
             let v = fast_decimal(s.as_bytes()).unwrap_or_else(|| panic!("{s}"));
             assert_eq!(v.to_bits(), reference.to_bits(), "{s}");
+        }
+    }
+
+    /// Cells the row generator draws from: plain values the fast path
+    /// reads, and everything it must leave to the general path (signs,
+    /// spaces, exponents, long numbers, quotes, carriage returns, words,
+    /// times out of range or in ISO 8601).
+    const TIMES: [&str; 16] = [
+        "1763154000.02",
+        "1763154000.04",
+        "1763154000",
+        "1763154001.5",
+        "1763154000.02",
+        "0",
+        "-0",
+        "+1763154002",
+        " 1763154003",
+        "7258118400",
+        "1.7e9",
+        "",
+        "99999999999999999999",
+        "\"1763154004\"",
+        "2025-11-14T21:00:00.25Z",
+        "2025-11-14 21:00:01",
+    ];
+    const NUMBERS: [&str; 18] = [
+        "",
+        "",
+        "",
+        "5",
+        "-14",
+        "16378",
+        "5.72",
+        "-0",
+        "-",
+        ".",
+        " 7 ",
+        "1e3",
+        "abc",
+        "123456789012345",
+        "1234567890123456",
+        "\"3\"",
+        "inf",
+        "-.5",
+    ];
+    const WORDS: [&str; 8] = ["", "W", "e", " west ", "x", "yes", "0", "\"on\""];
+
+    /// The rows of a generated file and its profile (fields: time, three
+    /// accelerometer counts, wind speed, an unread field, pier side,
+    /// cover).
+    fn generated(
+        cells: &[(usize, [usize; 4], usize, usize, u8)],
+        delimiter: u8,
+        format: &str,
+    ) -> (super::FileProfile, Vec<u8>) {
+        let d = char::from(delimiter);
+        let toml = format!(
+            "[log]\n[[log.file]]\nname = \"gen\"\npath = \"gen.csv\"\ndelimiter = \"{}\"\n\
+             time = {{ column = \"t\", format = \"{format}\" }}\naccel_axes = [\"-y\", \"x\", \"z\"]\n\
+             [log.file.columns]\n\
+             accel_x = {{ column = \"ax\", unit = \"g\", scale = 6.103515625e-5 }}\n\
+             accel_y = {{ column = \"ay\", unit = \"g\", scale = 6.103515625e-5 }}\n\
+             accel_z = {{ column = \"az\", unit = \"g\", scale = 6.103515625e-5 }}\n\
+             wind_speed = {{ column = \"w\", unit = \"km/h\" }}\n\
+             pier_side = {{ column = \"pier\" }}\ncover_fitted = {{ column = \"cover\" }}\n",
+            if d == '\t' { "\\t".to_owned() } else { d.to_string() }
+        );
+        let src = crate::input::located::SourceText::new("gen.toml", toml);
+        let profile =
+            crate::input::log::LogProfile::from_source(&src, std::path::Path::new(".")).unwrap();
+        let fp = profile.files[0].clone();
+        let mut text = format!("t{d}ax{d}ay{d}az{d}w{d}x{d}pier{d}cover\n").into_bytes();
+        for (i, &(t, n, w, c, shape)) in cells.iter().enumerate() {
+            // Three draws in four are good cells (rising times), so that
+            // many rows are usable; the rest come from the whole pool.
+            let pick = |pool: &[&str], good: usize, k: usize| {
+                if k < 48 {
+                    pool[k % good].to_owned()
+                } else {
+                    pool[k % pool.len()].to_owned()
+                }
+            };
+            let time = match (t < 48, format) {
+                (true, "iso8601") => format!("2025-11-14T21:{:02}:{:02}.{t:02}Z", i / 60, i % 60),
+                (true, _) => format!("{}.{t:02}", 1_763_154_000 + i),
+                _ => TIMES[t % TIMES.len()].to_owned(),
+            };
+            let mut fields = vec![time];
+            fields.extend(n.iter().map(|&k| pick(&NUMBERS, 8, k)));
+            fields.push(format!("{i}"));
+            fields.push(pick(&WORDS, 7, w));
+            fields.push(pick(&WORDS, 7, c));
+            // Mostly a plain row and a line feed; sometimes a field less
+            // or more, a blank line, a CR LF or a lone CR, no line end.
+            match shape % 16 {
+                0 => {
+                    fields.pop();
+                }
+                1 => fields.push("9".to_owned()),
+                _ => {}
+            }
+            text.extend_from_slice(fields.join(&d.to_string()).as_bytes());
+            let last = i + 1 == cells.len();
+            match shape % 16 {
+                2 => text.extend_from_slice(b"\n\n"),
+                3 => text.extend_from_slice(b"\r\n"),
+                4 => text.push(b'\r'),
+                5 if last => {}
+                _ => text.push(b'\n'),
+            }
+        }
+        (fp, text)
+    }
+
+    /// Every row (time, line, values' bits, channels), issue and error of
+    /// a file, read with the fast path or without it, in reads of `step`
+    /// bytes or fewer.
+    fn read_all(
+        fp: &super::FileProfile,
+        text: &[u8],
+        fast: bool,
+        step: usize,
+        policy: super::ErrorPolicy,
+    ) -> Vec<String> {
+        let input: Box<dyn Read> = if step == usize::MAX {
+            Box::new(std::io::Cursor::new(text.to_vec()))
+        } else {
+            Box::new(Trickle {
+                data: text.to_vec(),
+                pos: 0,
+                step,
+            })
+        };
+        let mut src = match super::CsvSource::from_reader(fp, input) {
+            Ok(s) => s,
+            Err(e) => return vec![format!("open: {e}")],
+        };
+        if !fast {
+            src.plan = None;
+        }
+        let mut issues = super::IssueLog::default();
+        let mut out = Vec::new();
+        loop {
+            match src.next_row(policy, &mut issues) {
+                Ok(Some(r)) => out.push(format!(
+                    "{} {} {:?} {:?}",
+                    r.time.unix_ns(),
+                    r.line,
+                    r.values.map(f64::to_bits),
+                    r.set
+                )),
+                Ok(None) => break,
+                Err(e) => {
+                    out.push(format!("error: {e}"));
+                    break;
+                }
+            }
+        }
+        out.extend(issues.kept().iter().map(|i| format!("{i:?}")));
+        out
+    }
+
+    /// The fast path answers for the plain rows of a log like the
+    /// benchmark's, and gives the general path's rows there.
+    #[test]
+    fn fast_path_reads_plain_rows() {
+        let cells: Vec<_> = (0..2000)
+            .map(|i| {
+                (
+                    0,
+                    [3 + i % 5, 4, 5, if i % 50 == 0 { 6 } else { 0 }],
+                    i % 2,
+                    0,
+                    6,
+                )
+            })
+            .collect();
+        let (fp, mut text) = generated(&cells, b',', "epoch_s");
+        // Distinct, increasing times.
+        text = String::from_utf8(text)
+            .unwrap()
+            .lines()
+            .enumerate()
+            .map(|(i, l)| {
+                if i == 0 {
+                    l.to_owned()
+                } else {
+                    l.replacen("1763154000.02", &format!("1763{i:06}.02"), 1)
+                }
+            })
+            .collect::<Vec<_>>()
+            .join("\n")
+            .into_bytes();
+        text.push(b'\n');
+        let mut src =
+            super::CsvSource::from_reader(&fp, Box::new(std::io::Cursor::new(text.clone())))
+                .unwrap();
+        let mut row = super::Row::empty();
+        let mut fast = 0;
+        while src.fast_row(&mut row).is_some() {
+            fast += 1;
+        }
+        // The rows to the end of the first block, less the one cut by it.
+        assert!(fast > 1500, "{fast}");
+        for policy in [super::ErrorPolicy::Skip, super::ErrorPolicy::Stop] {
+            assert_eq!(
+                read_all(&fp, &text, true, usize::MAX, policy),
+                read_all(&fp, &text, false, usize::MAX, policy)
+            );
+        }
+    }
+
+    proptest::proptest! {
+        #![proptest_config(proptest::prelude::ProptestConfig::with_cases(400))]
+        /// Whatever the rows, the read with the fast path gives the same
+        /// rows, issues and errors (with the same lines and messages) as
+        /// the general path alone, under both policies and any read sizes.
+        #[test]
+        fn fast_path_is_the_general_path(
+            cells in proptest::collection::vec(
+                (0usize..64, [0usize..64, 0usize..64, 0usize..64, 0usize..64], 0usize..64,
+                 0usize..64, 0u8..64),
+                0..30,
+            ),
+            delimiter in proptest::sample::select(vec![b',', b';', b'\t', b' ', b'.', b'e']),
+            format in proptest::sample::select(vec!["epoch_s", "epoch_ms", "iso8601"]),
+            step in proptest::sample::select(vec![3usize, 64, usize::MAX]),
+        ) {
+            let (fp, text) = generated(&cells, delimiter, format);
+            for policy in [super::ErrorPolicy::Skip, super::ErrorPolicy::Stop] {
+                proptest::prop_assert_eq!(
+                    read_all(&fp, &text, true, step, policy),
+                    read_all(&fp, &text, false, step, policy)
+                );
+            }
         }
     }
 

@@ -1,0 +1,572 @@
+//! The fast path of the row reader: a plain row read in one pass over its
+//! bytes, each cell parsed as it is met, with no list of field ends.
+//!
+//! It answers only for rows it reads exactly as the general path
+//! (`CsvSource`'s splitter, trimming and parsers) does, and otherwise
+//! declines (`None`) without consuming anything, so that the general path
+//! reads the row (and reports what is wrong with it, if anything). It
+//! takes a row that ends in a line feed within the bytes given and whose
+//! cells are all of these:
+//! * a cell the profile does not read: any bytes but a quote or a carriage
+//!   return;
+//! * an epoch time: digits and at most one point, 1 to 19 bytes, inside the
+//!   accepted range (the general path's exact integer reading; an ISO 8601
+//!   time goes through the general time parser);
+//! * a number: empty, or an optional minus sign, 1 to 15 digits and at most
+//!   one point (Clinger's fast path, the same value as the standard
+//!   library's parser);
+//! * a word (pier side, flag): any bytes but a quote or a carriage return,
+//!   read by the general word reader.
+//!
+//! Everything else (signs on times, spaces around numbers, exponents, long
+//! numbers, quotes, carriage returns, a wrong field count, a bad word, a
+//! partial accelerometer, a time out of range, a row cut by the end of the
+//! buffer) is declined. The tests in this module and `source.rs` check the
+//! answers against the general path and `str::parse`.
+
+use super::profile::{AxisSource, ColumnProfile};
+use super::record::{Channel, ChannelKind, ChannelSet, N_CHANNELS};
+use super::time::{TimeFormat, Timestamp, END};
+
+/// Where a column's value goes in a row.
+#[derive(Clone, Copy, Debug)]
+pub(super) enum Slot {
+    /// Accelerometer sensor axis 0, 1 or 2 (mapped to the rig frame once
+    /// the row's three axes are read).
+    Sensor(usize),
+    /// Another channel.
+    Channel(Channel),
+}
+
+/// A mapped column with what its cells need, worked out once per file.
+#[derive(Clone, Debug)]
+pub(super) struct Column {
+    /// Field index in the row.
+    pub(super) idx: usize,
+    pub(super) slot: Slot,
+    /// A word channel (pier side, flag) rather than a number.
+    pub(super) word: bool,
+    pub(super) profile: ColumnProfile,
+}
+
+impl Column {
+    pub(super) fn new(idx: usize, profile: ColumnProfile) -> Column {
+        let slot = match profile.channel {
+            Channel::AccelX => Slot::Sensor(0),
+            Channel::AccelY => Slot::Sensor(1),
+            Channel::AccelZ => Slot::Sensor(2),
+            c => Slot::Channel(c),
+        };
+        Column {
+            idx,
+            slot,
+            word: !matches!(profile.channel.kind(), ChannelKind::Quantity(_)),
+            profile,
+        }
+    }
+}
+
+/// Stores the value of column `c` in a row being read: a sensor axis in
+/// `sensor` (counted in `n_accel`), another channel in `values` and `set`.
+pub(super) fn store(
+    c: &Column,
+    v: f64,
+    sensor: &mut [f64; 3],
+    n_accel: &mut u32,
+    values: &mut [f64; N_CHANNELS],
+    set: &mut ChannelSet,
+) {
+    match c.slot {
+        Slot::Sensor(a) => {
+            if let Some(s) = sensor.get_mut(a) {
+                *s = v;
+                *n_accel += 1;
+            }
+        }
+        Slot::Channel(ch) => {
+            if let Some(slot) = values.get_mut(ch.index()) {
+                *slot = v;
+                set.insert(ch);
+            }
+        }
+    }
+}
+
+/// The accelerometer's three sensor axes mapped onto the rig frame, into
+/// `values` and `set`.
+pub(super) fn accel_to_rig(
+    sensor: &[f64; 3],
+    axes: &[AxisSource; 3],
+    values: &mut [f64; N_CHANNELS],
+    set: &mut ChannelSet,
+) {
+    let rig = [Channel::AccelX, Channel::AccelY, Channel::AccelZ];
+    for (ch, src) in rig.iter().zip(axes) {
+        let s = sensor.get(src.sensor_axis).copied().unwrap_or(f64::NAN);
+        if let Some(slot) = values.get_mut(ch.index()) {
+            *slot = src.sign * s;
+            set.insert(*ch);
+        }
+    }
+}
+
+/// What a field of a row is read as.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Role {
+    /// Not read.
+    Skip,
+    /// The time column.
+    Time,
+    /// The column `cols[k]`.
+    Col(usize),
+}
+
+/// The fast path's reading of one file's rows, worked out once.
+#[derive(Clone, Debug)]
+pub(super) struct Plan {
+    /// Each field's role, in field order (as many as the header's fields).
+    roles: Vec<Role>,
+    delimiter: u8,
+    /// 10^`shift` time units a second for epoch times (9 for seconds, 6
+    /// for milliseconds); `None` for ISO 8601 times.
+    time_shift: Option<u32>,
+    time_format: TimeFormat,
+    zone_offset_s: i32,
+}
+
+/// 10⁰ to 10⁹.
+const POW10_U64: [u64; 10] = [
+    1,
+    10,
+    100,
+    1_000,
+    10_000,
+    100_000,
+    1_000_000,
+    10_000_000,
+    100_000_000,
+    1_000_000_000,
+];
+
+/// Powers of ten exactly representable in `f64`, 10⁰ to 10¹⁵.
+const POW10_F64: [f64; 16] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15,
+];
+
+/// A number cell as the fast path reads it: `None` to decline, else the
+/// value (`None` for an empty cell) and the byte that ended the cell.
+type Cell = Option<(Option<f64>, u8)>;
+
+impl Plan {
+    /// The plan for a file with `n_fields` fields, or `None` when the fast
+    /// path does not apply: a delimiter that can be part of a number (a
+    /// digit, point or sign), or a field read twice (two channels, or a
+    /// channel and the time, from one column).
+    pub(super) fn new(
+        n_fields: usize,
+        time_idx: usize,
+        cols: &[Column],
+        delimiter: u8,
+        time_format: TimeFormat,
+        zone_offset_s: i32,
+    ) -> Option<Plan> {
+        if delimiter.is_ascii_digit() || matches!(delimiter, b'.' | b'-' | b'+' | b'\n') {
+            return None;
+        }
+        let mut roles = vec![Role::Skip; n_fields];
+        *roles.get_mut(time_idx)? = Role::Time;
+        for (k, c) in cols.iter().enumerate() {
+            let r = roles.get_mut(c.idx)?;
+            if *r != Role::Skip {
+                return None;
+            }
+            *r = Role::Col(k);
+        }
+        let time_shift = match time_format {
+            TimeFormat::EpochSeconds => Some(9),
+            TimeFormat::EpochMillis => Some(6),
+            TimeFormat::Iso8601 => None,
+        };
+        Some(Plan {
+            roles,
+            delimiter,
+            time_shift,
+            time_format,
+            zone_offset_s,
+        })
+    }
+
+    /// Reads the row at the start of `bytes` into `values` and `set`
+    /// (which hold NaN and nothing on entry; they may be written to when
+    /// the path declines): its time and its length including the line
+    /// feed, or `None` to leave the row to the general path.
+    pub(super) fn parse_row(
+        &self,
+        bytes: &[u8],
+        cols: &[Column],
+        axes: &[AxisSource; 3],
+        values: &mut [f64; N_CHANNELS],
+        set: &mut ChannelSet,
+    ) -> Option<(Timestamp, usize)> {
+        // A blank line is the general path's to skip.
+        if *bytes.first()? == b'\n' {
+            return None;
+        }
+        let d = self.delimiter;
+        let mut p = 0;
+        let mut time = None;
+        let mut sensor = [f64::NAN; 3];
+        let mut n_accel = 0;
+        let last = self.roles.len().checked_sub(1)?;
+        for (i, role) in self.roles.iter().enumerate() {
+            let end = match *role {
+                Role::Skip => skip_cell(bytes, &mut p, d)?,
+                Role::Time => {
+                    let (t, end) = self.time_cell(bytes, &mut p)?;
+                    time = Some(t);
+                    end
+                }
+                Role::Col(k) => {
+                    let c = cols.get(k)?;
+                    let (v, end) = if c.word {
+                        let from = p;
+                        let end = skip_cell(bytes, &mut p, d)?;
+                        let cell = bytes.get(from..p - 1)?.trim_ascii();
+                        if cell.is_empty() {
+                            (None, end)
+                        } else {
+                            let text = core::str::from_utf8(cell).ok()?;
+                            (Some(c.profile.channel.parse_word(text)?), end)
+                        }
+                    } else {
+                        let (raw, end) = number_cell(bytes, &mut p, d)?;
+                        (raw.map(|x| c.profile.to_si(x)), end)
+                    };
+                    if let Some(v) = v {
+                        store(c, v, &mut sensor, &mut n_accel, values, set);
+                    }
+                    end
+                }
+            };
+            // Each field but the last ends at a delimiter, the last at the
+            // line feed: the row has the header's number of fields.
+            let want = if i == last { b'\n' } else { d };
+            if end != want {
+                return None;
+            }
+        }
+        match n_accel {
+            0 => {}
+            3 => accel_to_rig(&sensor, axes, values, set),
+            _ => return None,
+        }
+        Some((time?, p))
+    }
+
+    /// The time cell at `*p`.
+    fn time_cell(&self, bytes: &[u8], p: &mut usize) -> Option<(Timestamp, u8)> {
+        match self.time_shift {
+            Some(shift) => epoch_cell(bytes, p, self.delimiter, shift),
+            None => {
+                let from = *p;
+                let end = skip_cell(bytes, p, self.delimiter)?;
+                let cell = bytes.get(from..*p - 1)?.trim_ascii();
+                if cell.is_empty() {
+                    return None;
+                }
+                let t = self
+                    .time_format
+                    .parse_bytes(cell, self.zone_offset_s)
+                    .ok()?;
+                Some((t, end))
+            }
+        }
+    }
+}
+
+/// Passes over the cell at `*p` and the byte that ends it (the delimiter or
+/// a line feed), which it returns; `None` at a quote, a carriage return or
+/// the end of `bytes`.
+#[inline]
+fn skip_cell(bytes: &[u8], p: &mut usize, delimiter: u8) -> Option<u8> {
+    loop {
+        let b = *bytes.get(*p)?;
+        *p += 1;
+        if b == delimiter || b == b'\n' {
+            return Some(b);
+        }
+        if b == b'"' || b == b'\r' {
+            return None;
+        }
+    }
+}
+
+/// The number cell at `*p` (see [`Cell`]). The value is the digits as an
+/// integer m < 10^15 < 2^53 divided by 10^(digits after the point), both
+/// exact in `f64`, so the one correctly rounded division gives the value
+/// of the standard library's correctly rounding parser.
+#[inline]
+#[allow(clippy::cast_precision_loss)] // m < 10^15 < 2^53: exact
+fn number_cell(bytes: &[u8], p: &mut usize, delimiter: u8) -> Cell {
+    let mut b = *bytes.get(*p)?;
+    *p += 1;
+    let neg = b == b'-';
+    if neg {
+        b = *bytes.get(*p)?;
+        *p += 1;
+    }
+    let mut m: u64 = 0;
+    let mut digits = 0usize;
+    let mut frac = 0usize;
+    let mut dot = false;
+    loop {
+        let v = b.wrapping_sub(b'0');
+        if v < 10 {
+            // Wraps only past 19 digits, which are declined below.
+            m = m.wrapping_mul(10).wrapping_add(u64::from(v));
+            digits += 1;
+            frac += usize::from(dot);
+        } else if b == delimiter || b == b'\n' {
+            break;
+        } else if b == b'.' && !dot {
+            dot = true;
+        } else {
+            return None;
+        }
+        b = *bytes.get(*p)?;
+        *p += 1;
+    }
+    if digits == 0 {
+        // An empty cell holds no value; a lone sign or point is not a
+        // number (the general path says so).
+        return if neg || dot { None } else { Some((None, b)) };
+    }
+    if digits > 15 {
+        return None;
+    }
+    let x = m as f64 / *POW10_F64.get(frac)?;
+    Some((Some(if neg { -x } else { x }), b))
+}
+
+/// The epoch time cell at `*p` (10^`shift` ns a unit), in nanoseconds: the integer digits and the first `shift` digits after
+/// the point, the rest dropped (truncation toward zero), as the general
+/// path reads it; `None` for anything but 1 to 19 bytes of digits with at
+/// most one point, and for a time outside the accepted range.
+#[inline]
+fn epoch_cell(bytes: &[u8], p: &mut usize, delimiter: u8, shift: u32) -> Option<(Timestamp, u8)> {
+    let from = *p;
+    let mut v: u64 = 0;
+    let mut dot = false;
+    let mut keep = 0u32;
+    let mut any = false;
+    let end = loop {
+        let b = *bytes.get(*p)?;
+        *p += 1;
+        let d = b.wrapping_sub(b'0');
+        if d < 10 {
+            any = true;
+            if !dot || keep < shift {
+                // At most 19 digits are kept (checked below): below 2^64.
+                v = v.wrapping_mul(10).wrapping_add(u64::from(d));
+                keep += u32::from(dot);
+            }
+        } else if b == delimiter || b == b'\n' {
+            break b;
+        } else if b == b'.' && !dot {
+            dot = true;
+        } else {
+            return None;
+        }
+    };
+    if !any || *p - 1 - from > 19 {
+        return None;
+    }
+    // The kept digits' last place is 10^(shift - keep) ns (a second has
+    // 10^9 ns, a millisecond 10^6: 10^shift ns a unit of the cell).
+    let scale = *POW10_U64.get(usize::try_from(shift.checked_sub(keep)?).ok()?)?;
+    let ns = i64::try_from(v.checked_mul(scale)?).ok()?;
+    (ns < END.unix_ns()).then_some((Timestamp::from_unix_ns(ns), end))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::{epoch_cell, number_cell};
+    use crate::input::log::time::{parse_decimal_scaled_bytes, TimeFormat};
+
+    /// `number_cell` on `s` followed by a delimiter: `None` to decline, else
+    /// the value's bits (`None` for an empty cell); the whole cell must be
+    /// consumed.
+    fn number(s: &str) -> Option<Option<u64>> {
+        let bytes = format!("{s},");
+        let mut p = 0;
+        let (v, end) = number_cell(bytes.as_bytes(), &mut p, b',')?;
+        assert_eq!((end, p), (b',', bytes.len()), "{s}");
+        Some(v.map(f64::to_bits))
+    }
+
+    /// Where the fast path answers for a number it gives the standard
+    /// library's correctly rounded value bit for bit (the reference),
+    /// and it answers for every plain decimal of up to 15 digits.
+    fn check_number(s: &str) {
+        let got = number(s);
+        let plain = {
+            let body = s.strip_prefix('-').unwrap_or(s);
+            let digits = body.bytes().filter(u8::is_ascii_digit).count();
+            let dots = body.bytes().filter(|b| *b == b'.').count();
+            (1..=15).contains(&digits) && dots <= 1 && digits + dots == body.len()
+        };
+        if s.is_empty() {
+            assert_eq!(got, Some(None));
+        } else if let Some(v) = got {
+            let want: f64 = s.parse().unwrap();
+            assert_eq!(v, Some(want.to_bits()), "{s}");
+        }
+        assert_eq!(got.is_some_and(|v| v.is_some()), plain, "{s}");
+    }
+
+    #[test]
+    fn number_cells_edge_cases() {
+        for s in [
+            "",
+            "0",
+            "-0",
+            "0.0",
+            "-0.0",
+            "1.",
+            ".5",
+            "-.5",
+            "16378",
+            "-14",
+            "5.72",
+            "216.5",
+            "-60.0000",
+            "999999999999999",
+            "0.00000000000001",
+            "-99999999.9999999",
+            "000123.4500",
+            "9007199254740993",
+        ] {
+            check_number(s);
+        }
+        // Declined: the general path reads these (or says what is wrong).
+        for s in [
+            "-",
+            ".",
+            "-.",
+            "+5",
+            "1e3",
+            "1E3",
+            " 5",
+            "5 ",
+            "1.2.3",
+            "--1",
+            "abc",
+            "inf",
+            "nan",
+            "1234567890123456",
+            "0.000000000000001",
+            "\"5\"",
+            "5\r",
+            "12345678901234567890123",
+        ] {
+            assert_eq!(number(s), None, "{s}");
+        }
+    }
+
+    /// The epoch cell reader against the general path's
+    /// (`TimeFormat::parse_bytes`, itself tested against the standard
+    /// parser in `time.rs`): the same nanoseconds wherever it answers.
+    fn check_epoch(s: &str) {
+        for (shift, format) in [(9, TimeFormat::EpochSeconds), (6, TimeFormat::EpochMillis)] {
+            let bytes = format!("{s}\n");
+            let mut p = 0;
+            let got = epoch_cell(bytes.as_bytes(), &mut p, b';', shift);
+            let general = format.parse_bytes(s.as_bytes(), 0);
+            if let Some((t, end)) = got {
+                assert_eq!((end, p), (b'\n', bytes.len()), "{s}");
+                assert_eq!(Ok(t), general, "{s}");
+            } else {
+                // Declined only outside the plain in-range case.
+                let plain = !s.is_empty()
+                    && s.len() <= 19
+                    && s.bytes().all(|b| b.is_ascii_digit() || b == b'.')
+                    && s.bytes().filter(|b| *b == b'.').count() <= 1
+                    && s.bytes().any(|b| b.is_ascii_digit());
+                assert!(
+                    !plain || general.is_err(),
+                    "{s} declined, general {general:?}"
+                );
+            }
+            if let Some(ns) = parse_decimal_scaled_bytes(s.as_bytes(), shift) {
+                if let Some((t, _)) = got {
+                    assert_eq!(t.unix_ns(), ns, "{s}");
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn epoch_cells_edge_cases() {
+        for s in [
+            "1763154000.02",
+            "1763154000",
+            "1763154000.",
+            ".5",
+            "0",
+            "0.000000001",
+            "0.0000000009",
+            "1763154000123.456",
+            "1763154000.123456789123",
+            "7258118399.999999999",
+            "7258118400",
+            "7258118399999.999",
+            "7258118400000",
+            "9999999999999999999",
+            "99999999999999999999",
+            "18446744073.709551616",
+            "-0",
+            "-1",
+            "+5",
+            "1e9",
+            ".",
+            "",
+            "12.3.4",
+            " 5",
+        ] {
+            check_epoch(s);
+        }
+    }
+
+    proptest::proptest! {
+        /// Random plain and near-plain numbers: see `check_number`.
+        #[test]
+        fn number_cells_match_the_standard_parser(
+            sign in proptest::sample::select(vec!["", "-", "+"]),
+            digits in "[0-9]{0,18}",
+            dot in 0usize..20,
+            tail in "(|e[0-9]|[a-z ])",
+        ) {
+            let mut s = format!("{sign}{digits}");
+            if dot <= digits.len() {
+                s.insert(sign.len() + dot, '.');
+            }
+            s.push_str(&tail);
+            check_number(&s);
+        }
+
+        /// Random epoch times with up to 21 digits and a point anywhere:
+        /// see `check_epoch`.
+        #[test]
+        fn epoch_cells_match_the_general_path(
+            digits in "[0-9]{1,21}",
+            dot in 0usize..24,
+            sign in proptest::sample::select(vec!["", "", "-", "+"]),
+        ) {
+            let mut s = format!("{sign}{digits}");
+            if dot <= digits.len() {
+                s.insert(sign.len() + dot, '.');
+            }
+            check_epoch(&s);
+        }
+    }
+}
