@@ -111,21 +111,45 @@ pub(super) fn accel_to_rig(
 }
 
 /// What a field of a row is read as.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[derive(Clone, Debug)]
 enum Role {
     /// Not read.
     Skip,
     /// The time column.
     Time,
-    /// The column `cols[k]`.
-    Col(usize),
+    /// A number column, its value stored at channel `to`: the column's
+    /// own channel, or for an accelerometer axis (`accel`) the rig axis
+    /// it feeds, times `sign` (the profile's `accel_axes`).
+    Number {
+        profile: ColumnProfile,
+        to: Channel,
+        accel: bool,
+        sign: f64,
+    },
+    /// A word column (pier side, flag).
+    Word(ColumnProfile),
+}
+
+/// A field of a row as the fast path reads it.
+#[derive(Clone, Debug)]
+struct Field {
+    role: Role,
+    /// The byte that ends the field: the delimiter, or a line feed for
+    /// the last field.
+    end: u8,
+    /// The bytes of this field and all after it empty (delimiters and the
+    /// line feed, little-endian) and the mask of their bytes, when they
+    /// fit in eight bytes and hold no time (which is never empty); mask 0
+    /// otherwise.
+    rest_empty: u64,
+    rest_mask: u64,
 }
 
 /// The fast path's reading of one file's rows, worked out once.
 #[derive(Clone, Debug)]
 pub(super) struct Plan {
-    /// Each field's role, in field order (as many as the header's fields).
-    roles: Vec<Role>,
+    /// The fields in order (as many as the header's).
+    fields: Vec<Field>,
     delimiter: u8,
     /// 10^`shift` time units a second for epoch times (9 for seconds, 6
     /// for milliseconds); `None` for ISO 8601 times.
@@ -160,12 +184,14 @@ type Cell = Option<(Option<f64>, u8)>;
 impl Plan {
     /// The plan for a file with `n_fields` fields, or `None` when the fast
     /// path does not apply: a delimiter that can be part of a number (a
-    /// digit, point or sign), or a field read twice (two channels, or a
-    /// channel and the time, from one column).
+    /// digit, point or sign), a field read twice (two channels, or a
+    /// channel and the time, from one column), or accelerometer axes that
+    /// are not a one-to-one mapping.
     pub(super) fn new(
         n_fields: usize,
         time_idx: usize,
         cols: &[Column],
+        axes: &[AxisSource; 3],
         delimiter: u8,
         time_format: TimeFormat,
         zone_offset_s: i32,
@@ -175,20 +201,73 @@ impl Plan {
         }
         let mut roles = vec![Role::Skip; n_fields];
         *roles.get_mut(time_idx)? = Role::Time;
-        for (k, c) in cols.iter().enumerate() {
+        for c in cols {
             let r = roles.get_mut(c.idx)?;
-            if *r != Role::Skip {
+            if !matches!(r, Role::Skip) {
                 return None;
             }
-            *r = Role::Col(k);
+            let profile = c.profile.clone();
+            *r = match c.slot {
+                _ if c.word => Role::Word(profile),
+                Slot::Channel(to) => Role::Number {
+                    profile,
+                    to,
+                    accel: false,
+                    sign: 1.0,
+                },
+                Slot::Sensor(a) => {
+                    // The rig axis this sensor axis feeds: one exactly,
+                    // else the fast path does not apply.
+                    let mut feeds = axes.iter().enumerate().filter(|(_, s)| s.sensor_axis == a);
+                    let (j, src) = feeds.next()?;
+                    if feeds.next().is_some() {
+                        return None;
+                    }
+                    Role::Number {
+                        profile,
+                        to: *[Channel::AccelX, Channel::AccelY, Channel::AccelZ].get(j)?,
+                        accel: true,
+                        sign: src.sign,
+                    }
+                }
+            };
         }
+        let last = n_fields.checked_sub(1)?;
+        let fields = (0..n_fields)
+            .map(|i| {
+                let rest = roles.get(i..).unwrap_or_default();
+                let no_time = !rest.iter().any(|r| matches!(r, Role::Time));
+                let (rest_empty, rest_mask) = if rest.len() <= 8 && no_time {
+                    let mut bytes = [0u8; 8];
+                    let mut mask = [0u8; 8];
+                    for (j, (b, m)) in bytes.iter_mut().zip(&mut mask).take(rest.len()).enumerate()
+                    {
+                        *b = if j + 1 == rest.len() {
+                            b'\n'
+                        } else {
+                            delimiter
+                        };
+                        *m = 0xff;
+                    }
+                    (u64::from_le_bytes(bytes), u64::from_le_bytes(mask))
+                } else {
+                    (0, 0)
+                };
+                Field {
+                    role: roles.get(i).cloned().unwrap_or(Role::Skip),
+                    end: if i == last { b'\n' } else { delimiter },
+                    rest_empty,
+                    rest_mask,
+                }
+            })
+            .collect();
         let time_shift = match time_format {
             TimeFormat::EpochSeconds => Some(9),
             TimeFormat::EpochMillis => Some(6),
             TimeFormat::Iso8601 => None,
         };
         Some(Plan {
-            roles,
+            fields,
             delimiter,
             time_shift,
             time_format,
@@ -203,8 +282,6 @@ impl Plan {
     pub(super) fn parse_row(
         &self,
         bytes: &[u8],
-        cols: &[Column],
-        axes: &[AxisSource; 3],
         values: &mut [f64; N_CHANNELS],
         set: &mut ChannelSet,
     ) -> Option<(Timestamp, usize)> {
@@ -215,50 +292,71 @@ impl Plan {
         let d = self.delimiter;
         let mut p = 0;
         let mut time = None;
-        let mut sensor = [f64::NAN; 3];
         let mut n_accel = 0;
-        let last = self.roles.len().checked_sub(1)?;
-        for (i, role) in self.roles.iter().enumerate() {
-            let end = match *role {
+        for f in &self.fields {
+            // An empty cell (but the time's): the field's end at once.
+            // Each field but the last ends at a delimiter, the last at the
+            // line feed: the row has the header's number of fields.
+            if *bytes.get(p)? == f.end && !matches!(f.role, Role::Time) {
+                // All the cells left empty (the usual end of a row), seen
+                // eight bytes at a time.
+                if f.rest_mask != 0 {
+                    if let Some(w) = bytes.get(p..p + 8) {
+                        let mut word = [0u8; 8];
+                        word.copy_from_slice(w);
+                        if (u64::from_le_bytes(word) ^ f.rest_empty) & f.rest_mask == 0 {
+                            p += (f.rest_mask.trailing_ones() / 8) as usize;
+                            break;
+                        }
+                    }
+                }
+                p += 1;
+                continue;
+            }
+            let end = match &f.role {
                 Role::Skip => skip_cell(bytes, &mut p, d)?,
                 Role::Time => {
                     let (t, end) = self.time_cell(bytes, &mut p)?;
                     time = Some(t);
                     end
                 }
-                Role::Col(k) => {
-                    let c = cols.get(k)?;
-                    let (v, end) = if c.word {
-                        let from = p;
-                        let end = skip_cell(bytes, &mut p, d)?;
-                        let cell = bytes.get(from..p - 1)?.trim_ascii();
-                        if cell.is_empty() {
-                            (None, end)
-                        } else {
-                            let text = core::str::from_utf8(cell).ok()?;
-                            (Some(c.profile.channel.parse_word(text)?), end)
-                        }
-                    } else {
-                        let (raw, end) = number_cell(bytes, &mut p, d)?;
-                        (raw.map(|x| c.profile.to_si(x)), end)
-                    };
-                    if let Some(v) = v {
-                        store(c, v, &mut sensor, &mut n_accel, values, set);
+                Role::Number {
+                    profile,
+                    to,
+                    accel,
+                    sign,
+                } => {
+                    let (raw, end) = number_cell(bytes, &mut p, d)?;
+                    if let Some(x) = raw {
+                        // As the general path: the SI value, and for an
+                        // accelerometer axis the rig axis's sign times it.
+                        let v = profile.to_si(x);
+                        *values.get_mut(to.index())? = if *accel { *sign * v } else { v };
+                        set.insert(*to);
+                        n_accel += u32::from(*accel);
+                    }
+                    end
+                }
+                Role::Word(profile) => {
+                    let from = p;
+                    let end = skip_cell(bytes, &mut p, d)?;
+                    let cell = bytes.get(from..p - 1)?.trim_ascii();
+                    if !cell.is_empty() {
+                        let text = core::str::from_utf8(cell).ok()?;
+                        let v = profile.channel.parse_word(text)?;
+                        *values.get_mut(profile.channel.index())? = v;
+                        set.insert(profile.channel);
                     }
                     end
                 }
             };
-            // Each field but the last ends at a delimiter, the last at the
-            // line feed: the row has the header's number of fields.
-            let want = if i == last { b'\n' } else { d };
-            if end != want {
+            if end != f.end {
                 return None;
             }
         }
-        match n_accel {
-            0 => {}
-            3 => accel_to_rig(&sensor, axes, values, set),
-            _ => return None,
+        // All three accelerometer axes or none, as the general path wants.
+        if n_accel != 0 && n_accel != 3 {
+            return None;
         }
         Some((time?, p))
     }
@@ -308,34 +406,41 @@ fn skip_cell(bytes: &[u8], p: &mut usize, delimiter: u8) -> Option<u8> {
 #[inline]
 #[allow(clippy::cast_precision_loss)] // m < 10^15 < 2^53: exact
 fn number_cell(bytes: &[u8], p: &mut usize, delimiter: u8) -> Cell {
-    let mut b = *bytes.get(*p)?;
-    *p += 1;
+    let mut q = *p;
+    let mut b = *bytes.get(q)?;
     let neg = b == b'-';
     if neg {
-        b = *bytes.get(*p)?;
-        *p += 1;
+        q += 1;
+        b = *bytes.get(q)?;
     }
+    // The digits before the point, then those after it; the value wraps
+    // only past 19 digits, which are declined below.
     let mut m: u64 = 0;
-    let mut digits = 0usize;
-    let mut frac = 0usize;
-    let mut dot = false;
-    loop {
-        let v = b.wrapping_sub(b'0');
-        if v < 10 {
-            // Wraps only past 19 digits, which are declined below.
-            m = m.wrapping_mul(10).wrapping_add(u64::from(v));
-            digits += 1;
-            frac += usize::from(dot);
-        } else if b == delimiter || b == b'\n' {
-            break;
-        } else if b == b'.' && !dot {
-            dot = true;
-        } else {
-            return None;
-        }
-        b = *bytes.get(*p)?;
-        *p += 1;
+    let int_from = q;
+    while let Some(v) = digit(b) {
+        m = m.wrapping_mul(10).wrapping_add(v);
+        q += 1;
+        b = *bytes.get(q)?;
     }
+    let mut digits = q - int_from;
+    let dot = b == b'.';
+    let mut frac = 0;
+    if dot {
+        q += 1;
+        b = *bytes.get(q)?;
+        let frac_from = q;
+        while let Some(v) = digit(b) {
+            m = m.wrapping_mul(10).wrapping_add(v);
+            q += 1;
+            b = *bytes.get(q)?;
+        }
+        frac = q - frac_from;
+        digits += frac;
+    }
+    if b != delimiter && b != b'\n' {
+        return None;
+    }
+    *p = q + 1;
     if digits == 0 {
         // An empty cell holds no value; a lone sign or point is not a
         // number (the general path says so).
@@ -344,8 +449,105 @@ fn number_cell(bytes: &[u8], p: &mut usize, delimiter: u8) -> Cell {
     if digits > 15 {
         return None;
     }
-    let x = m as f64 / *POW10_F64.get(frac)?;
+    // Through i64, one conversion instruction: m < 2^53 either way.
+    #[allow(clippy::cast_possible_wrap)]
+    let x = m as i64 as f64 / *POW10_F64.get(frac)?;
     Some((Some(if neg { -x } else { x }), b))
+}
+
+/// [`epoch_cell`] for the usual cell (up to 15 digits, then at most
+/// `shift` and fewer than 8 after the point), eight bytes at a time:
+/// the time, the byte that ended the cell and the position after it; `None`
+/// leaves the cell to the byte-by-byte reading (which answers or declines).
+#[inline]
+fn epoch_cell_by_words(
+    bytes: &[u8],
+    from: usize,
+    delimiter: u8,
+    shift: u32,
+) -> Option<(Timestamp, u8, usize)> {
+    let (n, head) = digits8(word_at(bytes, from)?);
+    // The integer digits; the values wrap only past 19 digits, which
+    // the length check below declines.
+    let (mut v, mut q) = if n == 8 {
+        let (n2, tail) = digits8(word_at(bytes, from + 8)?);
+        if n2 == 8 {
+            return None;
+        }
+        (
+            head.wrapping_mul(*POW10_U64.get(n2)?).wrapping_add(tail),
+            from + 8 + n2,
+        )
+    } else {
+        (head, from + n)
+    };
+    let mut any = q > from;
+    let mut keep = 0;
+    let mut b = *bytes.get(q)?;
+    if b == b'.' {
+        let (nf, frac) = digits8(word_at(bytes, q + 1)?);
+        if nf == 8 || u32::try_from(nf).ok()? > shift {
+            return None;
+        }
+        v = v.wrapping_mul(*POW10_U64.get(nf)?).wrapping_add(frac);
+        keep = nf;
+        any |= nf > 0;
+        q += 1 + nf;
+        b = *bytes.get(q)?;
+    }
+    if !any || (b != delimiter && b != b'\n') || q - from > 19 {
+        return None;
+    }
+    let scale = *POW10_U64.get(usize::try_from(shift).ok()?.checked_sub(keep)?)?;
+    let ns = i64::try_from(v.checked_mul(scale)?).ok()?;
+    (ns < END.unix_ns()).then_some((Timestamp::from_unix_ns(ns), b, q + 1))
+}
+
+/// The eight bytes at `at`, little-endian (the first byte lowest), when
+/// there are eight.
+#[inline]
+fn word_at(bytes: &[u8], at: usize) -> Option<u64> {
+    let w = bytes.get(at..at.checked_add(8)?)?;
+    let mut word = [0u8; 8];
+    word.copy_from_slice(w);
+    Some(u64::from_le_bytes(word))
+}
+
+/// The run of ASCII digits at the start of the eight bytes `w` (the first
+/// byte lowest): its length, 0 to 8, and its value.
+///
+/// Each byte less `'0'` is a digit value 0 to 9 exactly where the byte is
+/// a digit; the first other byte is the lowest whose difference, or the
+/// difference plus 0x76, has its high bit set (a borrow or carry runs only
+/// upward, from that byte on). The digits, moved to the top bytes (zeros
+/// below are leading zeros), are combined in pairs, fours and eights by
+/// three multiplications (D. Lemire, "Quickly parsing eight digits", 2018,
+/// as in simdjson and fast_float).
+#[inline]
+fn digits8(w: u64) -> (usize, u64) {
+    const ONES: u64 = 0x0101_0101_0101_0101;
+    let t = w.wrapping_sub(ONES * u64::from(b'0'));
+    let other = (t.wrapping_add(ONES * 0x76) | t) & (ONES * 0x80);
+    let n = (other.trailing_zeros() / 8) as usize;
+    if n == 0 {
+        return (0, 0);
+    }
+    let t = t << (8 * (8 - n));
+    let t = t.wrapping_mul(10).wrapping_add(t >> 8);
+    let low = t & 0x0000_00ff_0000_00ff;
+    let high = (t >> 16) & 0x0000_00ff_0000_00ff;
+    let v = low
+        .wrapping_mul(100 + (1_000_000 << 32))
+        .wrapping_add(high.wrapping_mul(1 + (10_000 << 32)))
+        >> 32;
+    (n, v)
+}
+
+/// The value of an ASCII digit.
+#[inline]
+fn digit(b: u8) -> Option<u64> {
+    let v = b.wrapping_sub(b'0');
+    (v < 10).then_some(u64::from(v))
 }
 
 /// The epoch time cell at `*p` (10^`shift` ns a unit), in nanoseconds: the integer digits and the first `shift` digits after
@@ -354,31 +556,49 @@ fn number_cell(bytes: &[u8], p: &mut usize, delimiter: u8) -> Cell {
 /// most one point, and for a time outside the accepted range.
 #[inline]
 fn epoch_cell(bytes: &[u8], p: &mut usize, delimiter: u8, shift: u32) -> Option<(Timestamp, u8)> {
+    if let Some((t, end, next)) = epoch_cell_by_words(bytes, *p, delimiter, shift) {
+        *p = next;
+        return Some((t, end));
+    }
     let from = *p;
+    let mut q = from;
+    let mut b = *bytes.get(q)?;
+    // At most 19 digits are kept (the length is checked below): the
+    // value stays below 2^64.
     let mut v: u64 = 0;
-    let mut dot = false;
+    while let Some(d) = digit(b) {
+        v = v.wrapping_mul(10).wrapping_add(d);
+        q += 1;
+        b = *bytes.get(q)?;
+    }
+    let mut any = q > from;
     let mut keep = 0u32;
-    let mut any = false;
-    let end = loop {
-        let b = *bytes.get(*p)?;
-        *p += 1;
-        let d = b.wrapping_sub(b'0');
-        if d < 10 {
-            any = true;
-            if !dot || keep < shift {
-                // At most 19 digits are kept (checked below): below 2^64.
-                v = v.wrapping_mul(10).wrapping_add(u64::from(d));
-                keep += u32::from(dot);
+    if b == b'.' {
+        q += 1;
+        b = *bytes.get(q)?;
+        let frac_from = q;
+        while let Some(d) = digit(b) {
+            if keep == shift {
+                break;
             }
-        } else if b == delimiter || b == b'\n' {
-            break b;
-        } else if b == b'.' && !dot {
-            dot = true;
-        } else {
-            return None;
+            v = v.wrapping_mul(10).wrapping_add(d);
+            keep += 1;
+            q += 1;
+            b = *bytes.get(q)?;
         }
-    };
-    if !any || *p - 1 - from > 19 {
+        // Digits past the last kept place are dropped.
+        while digit(b).is_some() {
+            q += 1;
+            b = *bytes.get(q)?;
+        }
+        any |= q > frac_from;
+    }
+    if b != delimiter && b != b'\n' {
+        return None;
+    }
+    let end = b;
+    *p = q + 1;
+    if !any || q - from > 19 {
         return None;
     }
     // The kept digits' last place is 10^(shift - keep) ns (a second has
@@ -477,13 +697,19 @@ mod tests {
     /// (`TimeFormat::parse_bytes`, itself tested against the standard
     /// parser in `time.rs`): the same nanoseconds wherever it answers.
     fn check_epoch(s: &str) {
-        for (shift, format) in [(9, TimeFormat::EpochSeconds), (6, TimeFormat::EpochMillis)] {
-            let bytes = format!("{s}\n");
+        // Without and with bytes after the cell (the word-wise reading
+        // needs eight bytes at each place it reads).
+        let cases = [(9, TimeFormat::EpochSeconds), (6, TimeFormat::EpochMillis)];
+        for ((shift, format), pad) in cases
+            .into_iter()
+            .flat_map(|c| [(c, ""), (c, "99.99,9;0123456789")])
+        {
+            let bytes = format!("{s}\n{pad}");
             let mut p = 0;
             let got = epoch_cell(bytes.as_bytes(), &mut p, b';', shift);
             let general = format.parse_bytes(s.as_bytes(), 0);
             if let Some((t, end)) = got {
-                assert_eq!((end, p), (b'\n', bytes.len()), "{s}");
+                assert_eq!((end, p), (b'\n', s.len() + 1), "{s}");
                 assert_eq!(Ok(t), general, "{s}");
             } else {
                 // Declined only outside the plain in-range case.
@@ -537,7 +763,46 @@ mod tests {
         }
     }
 
+    /// The leading digits of eight bytes by hand (the reference).
+    fn digits_by_hand(b: [u8; 8]) -> (usize, u64) {
+        let n = b.iter().take_while(|c| c.is_ascii_digit()).count();
+        let v = b[..n].iter().fold(0, |v, c| v * 10 + u64::from(c - b'0'));
+        (n, v)
+    }
+
+    /// Every byte value at every place after a run of digits: the run's
+    /// length and value by words are those by hand.
+    #[test]
+    fn digits8_every_byte_after_a_run() {
+        for n in 0..8 {
+            for other in 0..=255u8 {
+                for fill in [b'0', b'9', 0, 0xff, other] {
+                    let mut b = [fill; 8];
+                    for (i, c) in b.iter_mut().take(n).enumerate() {
+                        *c = b'0' + u8::try_from((i * 7 + n) % 10).unwrap();
+                    }
+                    b[n] = other;
+                    let got = super::digits8(u64::from_le_bytes(b));
+                    assert_eq!(got, digits_by_hand(b), "{b:?}");
+                }
+            }
+        }
+        let all = *b"98765432";
+        assert_eq!(super::digits8(u64::from_le_bytes(all)), (8, 98_765_432));
+    }
+
     proptest::proptest! {
+        /// Any eight bytes, mostly digits: see `digits8_every_byte_after_a_run`.
+        #[test]
+        fn digits8_is_by_hand(
+            b in proptest::array::uniform8(proptest::prop_oneof![
+                3 => proptest::strategy::Strategy::prop_map(b'0'..=b'9', |c| c),
+                1 => proptest::num::u8::ANY,
+            ]),
+        ) {
+            proptest::prop_assert_eq!(super::digits8(u64::from_le_bytes(b)), digits_by_hand(b));
+        }
+
         /// Random plain and near-plain numbers: see `check_number`.
         #[test]
         fn number_cells_match_the_standard_parser(

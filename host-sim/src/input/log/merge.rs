@@ -190,9 +190,14 @@ impl Merger {
             return Err(e);
         }
         let mut time = None;
-        for (row, live) in self.heads.iter().zip(&self.live) {
-            if *live && time.is_none_or(|t| row.time < t) {
-                time = Some(row.time);
+        if let ([row], [live]) = (self.heads.as_slice(), self.live.as_slice()) {
+            // One file (the usual case): its look-ahead row is next.
+            time = live.then_some(row.time);
+        } else {
+            for (row, live) in self.heads.iter().zip(&self.live) {
+                if *live && time.is_none_or(|t| row.time < t) {
+                    time = Some(row.time);
+                }
             }
         }
         let Some(time) = time else {
@@ -204,16 +209,8 @@ impl Merger {
             if !*live || row.time != time {
                 continue;
             }
-            for ch in row.set.iter() {
-                if let (Some(v), Some(t)) = (
-                    self.values.get_mut(ch.index()),
-                    self.record.last_update.get_mut(ch.index()),
-                ) {
-                    *v = row.values.get(ch.index()).copied().unwrap_or(f64::NAN);
-                    *t = Some(time);
-                }
-                self.record.update(ch, &self.values);
-            }
+            self.record
+                .take(&mut self.values, &row.values, row.set, time);
             updated = updated.union(row.set);
             self.rows += 1;
             match source.next_row_into(self.policy, &mut self.issues, row) {
@@ -230,7 +227,7 @@ impl Merger {
         self.records += 1;
         self.record.time = time;
         self.record.updated = updated;
-        Ok(Some(self.record.clone()))
+        Ok(Some(self.record))
     }
 
     /// The latest value of a channel in the merge state (NaN before its

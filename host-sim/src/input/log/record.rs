@@ -262,7 +262,9 @@ impl ChannelSet {
 /// A field is `None` until its channel has had a first value. Values hold
 /// until the next value of the same channel; [`SampleRecord::age_s`] says how
 /// old each is, so a consumer can treat a stale channel as a fault.
-#[derive(Clone, Debug, PartialEq)]
+/// `Copy`: the merge hands out a copy of its state for each record (one
+/// block copy, cheaper than a field-by-field clone).
+#[derive(Clone, Copy, Debug, PartialEq)]
 pub struct SampleRecord {
     /// Time of this record (the time stamp of the rows merged into it).
     pub time: Timestamp,
@@ -365,6 +367,45 @@ impl SampleRecord {
         }
     }
 
+    /// Takes the new values `new` of the channels in `set` (a row's, at
+    /// `time`) into the merge state `values` and into this record: each
+    /// such channel's value, latest update time and field.
+    #[inline]
+    pub(super) fn take(
+        &mut self,
+        values: &mut [f64; N_CHANNELS],
+        new: &[f64; N_CHANNELS],
+        set: ChannelSet,
+        time: Timestamp,
+    ) {
+        let mut bits = set.0;
+        while bits != 0 {
+            let i = bits.trailing_zeros() as usize;
+            bits &= bits - 1;
+            if let (Some(v), Some(n), Some(t)) =
+                (values.get_mut(i), new.get(i), self.last_update.get_mut(i))
+            {
+                *v = *n;
+                *t = Some(time);
+            }
+        }
+        self.update_set(set, values);
+    }
+
+    /// Updates the fields of the channels in `set` from the merge state
+    /// `values`, as [`SampleRecord::update`] for each (the three-axis
+    /// accelerometer field once).
+    #[inline]
+    pub(super) fn update_set(&mut self, set: ChannelSet, values: &[f64; N_CHANNELS]) {
+        const ACCEL: u16 = 0b111;
+        if set.0 & ACCEL != 0 {
+            self.update(Channel::AccelX, values);
+        }
+        for ch in ChannelSet(set.0 & !ACCEL).iter() {
+            self.update(ch, values);
+        }
+    }
+
     /// The channel's value as a number (pier side: east 0, west 1; cover:
     /// 1 fitted, 0 off), `None` before its first value.
     #[must_use]
@@ -404,6 +445,40 @@ mod tests {
     use crate::input::log::time::Timestamp;
 
     proptest::proptest! {
+        /// Taking rows' values set by set (the merge's way) gives the
+        /// record `from_state` builds from the merge state and the update
+        /// times kept by hand (the reference).
+        #[test]
+        fn take_is_from_state(
+            rows in proptest::collection::vec(
+                (0u16..1 << N_CHANNELS, proptest::collection::vec(
+                    proptest::sample::select(vec![f64::NAN, 0.0, -0.0, 0.5, 1.0, -3.25, 9.81]),
+                    N_CHANNELS,
+                )),
+                0..40,
+            ),
+        ) {
+            let mut values = [f64::NAN; N_CHANNELS];
+            let mut want_values = [f64::NAN; N_CHANNELS];
+            let mut last = [None; N_CHANNELS];
+            let t0 = Timestamp::from_unix_ns(0);
+            let mut rec = SampleRecord::from_state(t0, &values, last, ChannelSet::EMPTY);
+            for (k, (bits, new)) in rows.into_iter().enumerate() {
+                let time = Timestamp::from_unix_ns(i64::try_from(k).unwrap() * 20);
+                let new: [f64; N_CHANNELS] = new.try_into().unwrap();
+                rec.take(&mut values, &new, ChannelSet(bits), time);
+                for i in 0..N_CHANNELS {
+                    if bits & (1 << i) != 0 {
+                        want_values[i] = new[i];
+                        last[i] = Some(time);
+                    }
+                }
+                let want = SampleRecord::from_state(t0, &want_values, last, ChannelSet::EMPTY);
+                proptest::prop_assert_eq!(format!("{rec:?}"), format!("{want:?}"));
+                proptest::prop_assert_eq!(format!("{values:?}"), format!("{want_values:?}"));
+            }
+        }
+
         /// Updating a record channel by channel as values come in (the
         /// merge's way) gives the record `from_state` builds from the whole
         /// state (the reference), whatever the order, the NaNs and the
@@ -421,9 +496,14 @@ mod tests {
             let mut values = [f64::NAN; N_CHANNELS];
             let last = [None; N_CHANNELS];
             let mut rec = SampleRecord::from_state(t, &values, last, ChannelSet::EMPTY);
+            let mut by_set = rec;
             for (i, v) in steps {
                 values[i] = v;
                 rec.update(Channel::ALL[i], &values);
+                let mut set = ChannelSet::EMPTY;
+                set.insert(Channel::ALL[i]);
+                by_set.update_set(set, &values);
+                proptest::prop_assert_eq!(format!("{by_set:?}"), format!("{rec:?}"));
                 let want = SampleRecord::from_state(t, &values, last, ChannelSet::EMPTY);
                 proptest::prop_assert_eq!(format!("{rec:?}"), format!("{want:?}"));
             }

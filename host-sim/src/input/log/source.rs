@@ -555,6 +555,7 @@ impl CsvSource {
                 names.len(),
                 time_idx,
                 &cols,
+                &fp.accel_axes,
                 fp.delimiter,
                 fp.time_format,
                 fp.zone_offset_s,
@@ -648,13 +649,7 @@ impl CsvSource {
             return None;
         };
         let bytes = lines.buf.get(lines.start..lines.end)?;
-        let (time, len) = plan.parse_row(
-            bytes,
-            &self.cols,
-            &self.accel_axes,
-            &mut row.values,
-            &mut row.set,
-        )?;
+        let (time, len) = plan.parse_row(bytes, &mut row.values, &mut row.set)?;
         // As `Lines::scan` for a row: the csv crate's line of the row, the
         // read position past its line feed.
         let line = lines.line;
