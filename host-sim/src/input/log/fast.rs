@@ -276,9 +276,10 @@ impl Plan {
     }
 
     /// Reads the row at the start of `bytes` into `values` and `set`
-    /// (which hold NaN and nothing on entry; they may be written to when
-    /// the path declines): its time and its length including the line
-    /// feed, or `None` to leave the row to the general path.
+    /// (`set` empty on entry; only the values of its channels are
+    /// written, and both may be written to when the path declines): its
+    /// time and its length including the line feed, or `None` to leave
+    /// the row to the general path.
     pub(super) fn parse_row(
         &self,
         bytes: &[u8],
@@ -617,11 +618,18 @@ mod tests {
     /// the value's bits (`None` for an empty cell); the whole cell must be
     /// consumed.
     fn number(s: &str) -> Option<Option<u64>> {
-        let bytes = format!("{s},");
-        let mut p = 0;
-        let (v, end) = number_cell(bytes.as_bytes(), &mut p, b',')?;
-        assert_eq!((end, p), (b',', bytes.len()), "{s}");
-        Some(v.map(f64::to_bits))
+        // Without and with bytes after the cell (the digits are read by
+        // words where eight bytes are there): the same answer.
+        let read = |pad: &str| {
+            let bytes = format!("{s},{pad}");
+            let mut p = 0;
+            let (v, end) = number_cell(bytes.as_bytes(), &mut p, b',')?;
+            assert_eq!((end, p), (b',', s.len() + 1), "{s}");
+            Some(v.map(f64::to_bits))
+        };
+        let short = read("");
+        assert_eq!(read("12345678,9.5"), short, "{s}");
+        short
     }
 
     /// Where the fast path answers for a number it gives the standard

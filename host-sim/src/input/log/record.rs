@@ -378,7 +378,20 @@ impl SampleRecord {
         set: ChannelSet,
         time: Timestamp,
     ) {
+        const ACCEL: u16 = 0b111;
         let mut bits = set.0;
+        if bits & ACCEL == ACCEL {
+            // The three accelerometer axes together (the usual row).
+            if let (Some(v), Some(n), Some(t)) = (
+                values.get_mut(..3),
+                new.get(..3),
+                self.last_update.get_mut(..3),
+            ) {
+                v.copy_from_slice(n);
+                t.fill(Some(time));
+            }
+            bits &= !ACCEL;
+        }
         while bits != 0 {
             let i = bits.trailing_zeros() as usize;
             bits &= bits - 1;

@@ -646,7 +646,8 @@ impl CsvSource {
     /// As [`CsvSource::next_row`], into `row` (the merge's look-ahead,
     /// overwritten in place rather than moved): `true` with the next
     /// usable row in `row`, `false` at the end of the file (`row` then
-    /// holds no meaning).
+    /// holds no meaning). The values of channels outside the row's `set`
+    /// hold NaN or what they held before.
     ///
     /// # Errors
     /// As [`CsvSource::next_row`].
@@ -656,12 +657,22 @@ impl CsvSource {
         issues: &mut IssueLog,
         row: &mut Row,
     ) -> Result<bool, LogError> {
+        // The values of the channels outside `set` are left as they are
+        // for a plain row read first time (the merge reads only `set`);
+        // after a row left out or declined by the fast path, which may have
+        // written some, they are cleared (NaN, as `next_row` gives them).
+        let mut clear = false;
         loop {
-            row.values = [f64::NAN; N_CHANNELS];
+            if clear {
+                row.values = [f64::NAN; N_CHANNELS];
+            }
+            clear = true;
             row.set = ChannelSet::EMPTY;
             let line = if let Some(line) = self.fast_row(row) {
                 line
             } else {
+                row.values = [f64::NAN; N_CHANNELS];
+                row.set = ChannelSet::EMPTY;
                 let line = match self.read_record() {
                     Ok(Some(line)) => line,
                     Ok(None) => return Ok(false),
