@@ -156,6 +156,18 @@ pub(super) struct Plan {
     time_shift: Option<u32>,
     time_format: TimeFormat,
     zone_offset_s: i32,
+    /// The first eight bytes of the last epoch time read by words and
+    /// their reading ([`digits8`]).
+    last_head: HeadCache,
+}
+
+/// Eight bytes and what [`digits8`] gives for them.
+type HeadCache = core::cell::Cell<(u64, (usize, u64))>;
+
+/// A cache that holds a true pair: zero bytes, which [`digits8`] reads as
+/// no digit.
+fn empty_head() -> HeadCache {
+    core::cell::Cell::new((0, digits8(0)))
 }
 
 /// 10⁰ to 10⁹.
@@ -272,6 +284,7 @@ impl Plan {
             time_shift,
             time_format,
             zone_offset_s,
+            last_head: empty_head(),
         })
     }
 
@@ -365,7 +378,7 @@ impl Plan {
     /// The time cell at `*p`.
     fn time_cell(&self, bytes: &[u8], p: &mut usize) -> Option<(Timestamp, u8)> {
         match self.time_shift {
-            Some(shift) => epoch_cell(bytes, p, self.delimiter, shift),
+            Some(shift) => epoch_cell(bytes, p, self.delimiter, shift, &self.last_head),
             None => {
                 let from = *p;
                 let end = skip_cell(bytes, p, self.delimiter)?;
@@ -466,8 +479,19 @@ fn epoch_cell_by_words(
     from: usize,
     delimiter: u8,
     shift: u32,
+    last_head: &HeadCache,
 ) -> Option<(Timestamp, u8, usize)> {
-    let (n, head) = digits8(word_at(bytes, from)?);
+    // The first eight bytes of a log's times change seldom (every 100 s
+    // for epoch seconds): their reading is kept for the next row.
+    let w = word_at(bytes, from)?;
+    let (word, (n, head)) = last_head.get();
+    let (n, head) = if w == word {
+        (n, head)
+    } else {
+        let d = digits8(w);
+        last_head.set((w, d));
+        d
+    };
     // The integer digits; the values wrap only past 19 digits, which
     // the length check below declines.
     let (mut v, mut q) = if n == 8 {
@@ -556,8 +580,14 @@ fn digit(b: u8) -> Option<u64> {
 /// path reads it; `None` for anything but 1 to 19 bytes of digits with at
 /// most one point, and for a time outside the accepted range.
 #[inline]
-fn epoch_cell(bytes: &[u8], p: &mut usize, delimiter: u8, shift: u32) -> Option<(Timestamp, u8)> {
-    if let Some((t, end, next)) = epoch_cell_by_words(bytes, *p, delimiter, shift) {
+fn epoch_cell(
+    bytes: &[u8],
+    p: &mut usize,
+    delimiter: u8,
+    shift: u32,
+    last_head: &HeadCache,
+) -> Option<(Timestamp, u8)> {
+    if let Some((t, end, next)) = epoch_cell_by_words(bytes, *p, delimiter, shift, last_head) {
         *p = next;
         return Some((t, end));
     }
@@ -714,7 +744,12 @@ mod tests {
         {
             let bytes = format!("{s}\n{pad}");
             let mut p = 0;
-            let got = epoch_cell(bytes.as_bytes(), &mut p, b';', shift);
+            let cache = super::empty_head();
+            let got = epoch_cell(bytes.as_bytes(), &mut p, b';', shift, &cache);
+            // Again with what the first read left in the cache: the same.
+            let mut p2 = 0;
+            let again = epoch_cell(bytes.as_bytes(), &mut p2, b';', shift, &cache);
+            assert_eq!((again, p2), (got, p), "{s}");
             let general = format.parse_bytes(s.as_bytes(), 0);
             if let Some((t, end)) = got {
                 assert_eq!((end, p), (b'\n', s.len() + 1), "{s}");
