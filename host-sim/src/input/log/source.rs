@@ -11,6 +11,13 @@
 //! (the `csv` crate's: a row's line is the one after the previous row's
 //! end, so blank lines before a row count toward it), and the same UTF-8
 //! byte-order-mark handling at the start of the file.
+//!
+//! **The fast path.** Before the splitter, each row at the read position
+//! is offered to the fast path (`fast.rs`), which reads a plain row's
+//! cells in one pass over its bytes and answers only where it gives what
+//! the splitter and the cell readers here give; any other row it leaves,
+//! with nothing consumed, to them (so every error and its message comes
+//! from here).
 
 use std::fs::File;
 use std::io::{self, Read};
