@@ -189,15 +189,37 @@ impl Merger {
         if let Some(e) = self.pending.take() {
             return Err(e);
         }
-        let mut time = None;
-        if let ([row], [live]) = (self.heads.as_slice(), self.live.as_slice()) {
-            // One file (the usual case): its look-ahead row is next.
-            time = live.then_some(row.time);
-        } else {
-            for (row, live) in self.heads.iter().zip(&self.live) {
-                if *live && time.is_none_or(|t| row.time < t) {
-                    time = Some(row.time);
+        if let ([source], [row], [live]) = (
+            self.sources.as_mut_slice(),
+            self.heads.as_mut_slice(),
+            self.live.as_mut_slice(),
+        ) {
+            // One file (the usual case): its look-ahead row is the record.
+            if !*live {
+                return Ok(None);
+            }
+            let time = row.time;
+            let updated = row.set;
+            self.record
+                .take(&mut self.values, &row.values, updated, time);
+            self.rows += 1;
+            match source.next_row_into(self.policy, &mut self.issues, row) {
+                Ok(more) => *live = more,
+                Err(e) => {
+                    // Finish this record; the error comes with the next call.
+                    *live = false;
+                    self.pending = Some(e);
                 }
+            }
+            self.records += 1;
+            self.record.time = time;
+            self.record.updated = updated;
+            return Ok(Some(self.record));
+        }
+        let mut time = None;
+        for (row, live) in self.heads.iter().zip(&self.live) {
+            if *live && time.is_none_or(|t| row.time < t) {
+                time = Some(row.time);
             }
         }
         let Some(time) = time else {
