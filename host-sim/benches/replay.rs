@@ -80,7 +80,8 @@ fn env_or<T: std::str::FromStr>(name: &str, default: T) -> T {
 fn parse_pass(profile: &LogProfile) -> u64 {
     let mut m = Merger::open(profile, ErrorPolicy::Stop).expect("open");
     let mut acc = 0.0;
-    while let Some(r) = m.next_record().expect("read") {
+    // Lent, as the replay reads them.
+    while let Some(r) = m.next_record_ref().expect("read") {
         acc += r.accel_mps2.map_or(0.0, |a| a[2]);
     }
     black_box(acc);

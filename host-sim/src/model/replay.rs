@@ -967,7 +967,7 @@ pub fn replay(
             b.steps.clear();
             let mut at_end = false;
             while b.steps.len() < BATCH_RECORDS {
-                let rec = match merger.next_record() {
+                let rec = match merger.next_record_ref() {
                     Ok(Some(rec)) => rec,
                     Ok(None) => {
                         at_end = true;
@@ -979,14 +979,6 @@ pub fn replay(
                         break;
                     }
                 };
-                if n_read % PROGRESS_EVERY == 0 {
-                    if let Some(o) = observer.as_mut() {
-                        o.progress(Progress {
-                            records: n_read,
-                            fraction: merger.fraction_read(),
-                        });
-                    }
-                }
                 let start = *t0.get_or_insert(rec.time);
                 let dt_s = last.map_or(0.0, |l| rec.time.seconds_since(l).max(0.0));
                 last = Some(rec.time);
@@ -995,7 +987,7 @@ pub fn replay(
                     now: millis_since(rec.time, start),
                     t_s: rec.time.seconds_since(start),
                     dt_s,
-                    inputs: inputs_of(&rec),
+                    inputs: inputs_of(rec),
                     // Only a fresh anemometer sample counts for the charts'
                     // sample statistics (a held value is not a reading).
                     wind_speed_mps: rec
@@ -1003,6 +995,14 @@ pub fn replay(
                         .filter(|_| rec.updated.contains(Channel::WindSpeed)),
                     cover_fitted: rec.cover_fitted,
                 });
+                if n_read % PROGRESS_EVERY == 0 {
+                    if let Some(o) = observer.as_mut() {
+                        o.progress(Progress {
+                            records: n_read,
+                            fraction: merger.fraction_read(),
+                        });
+                    }
+                }
                 n_read += 1;
             }
             if !b.steps.is_empty() && to_guards.send(b).is_err() {

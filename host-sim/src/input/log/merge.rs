@@ -186,6 +186,15 @@ impl Merger {
     /// [`LogError::Row`] under [`ErrorPolicy::Stop`] at the first bad row;
     /// [`LogError::File`] when a file cannot be read.
     pub fn next_record(&mut self) -> Result<Option<SampleRecord>, LogError> {
+        Ok(self.next_record_ref()?.copied())
+    }
+
+    /// [`Merger::next_record`], lent instead of copied out (the record is
+    /// about 380 bytes): the same record, valid until the next call.
+    ///
+    /// # Errors
+    /// As [`Merger::next_record`].
+    pub fn next_record_ref(&mut self) -> Result<Option<&SampleRecord>, LogError> {
         if let Some(e) = self.pending.take() {
             return Err(e);
         }
@@ -214,7 +223,7 @@ impl Merger {
             self.records += 1;
             self.record.time = time;
             self.record.updated = updated;
-            return Ok(Some(self.record));
+            return Ok(Some(&self.record));
         }
         let mut time = None;
         for (row, live) in self.heads.iter().zip(&self.live) {
@@ -249,7 +258,7 @@ impl Merger {
         self.records += 1;
         self.record.time = time;
         self.record.updated = updated;
-        Ok(Some(self.record))
+        Ok(Some(&self.record))
     }
 
     /// The latest value of a channel in the merge state (NaN before its
