@@ -11,10 +11,22 @@ pub const GUST_HISTORY_MIN: usize = 10;
 /// The 3-s gust for one fine wind bin (index `now / FINE_BIN_MS`), kept until
 /// the next wind sample: between wind samples the gust changes only from one
 /// bin to the next, so steps that do not evaluate the physics need no full
-/// wind report. Only a cache: its answers equal a fresh computation's.
+/// wind report. Only a cache: its answers equal a fresh computation's. The
+/// bin is kept as its span of time stamps, so that a step in the same bin is
+/// recognised by two comparisons, without a division.
 #[derive(Clone, Copy, Debug, Default)]
 pub(super) struct GustCache {
-    entry: Option<(u64, Option<f32>)>,
+    /// The bin's first and one-past-last time stamps, ms (the end saturates
+    /// at `u64::MAX`, so the last bin of the clock is recomputed at its last
+    /// millisecond), and its gust.
+    entry: Option<(u64, u64, Option<f32>)>,
+}
+
+/// The span `[start, end)` of time stamps of the fine wind bin holding
+/// `now`, ms (`end` saturating at `u64::MAX`).
+fn fine_bin_span(now: Millis) -> (u64, u64) {
+    let start = now.0 - div_rem_ms(now.0, FINE_BIN_MS).1;
+    (start, start.saturating_add(FINE_BIN_MS))
 }
 
 impl GustCache {
@@ -25,7 +37,8 @@ impl GustCache {
 
     /// Records the gust computed at `now`, m/s.
     pub(super) fn put(&mut self, now: Millis, gust_mps: Option<f32>) {
-        self.entry = Some((div_rem_ms(now.0, FINE_BIN_MS).0, gust_mps));
+        let (start, end) = fine_bin_span(now);
+        self.entry = Some((start, end, gust_mps));
     }
 
     /// The gust at `now`, m/s: the cached one for the same bin, or
@@ -35,12 +48,11 @@ impl GustCache {
         now: Millis,
         compute: impl FnOnce() -> Option<f32>,
     ) -> Option<f32> {
-        let bin = div_rem_ms(now.0, FINE_BIN_MS).0;
         match self.entry {
-            Some((b, g)) if b == bin => g,
+            Some((start, end, g)) if start <= now.0 && now.0 < end => g,
             _ => {
                 let g = compute();
-                self.entry = Some((bin, g));
+                self.put(now, g);
                 g
             }
         }
@@ -52,14 +64,20 @@ impl GustCache {
 pub(super) struct GustHistory {
     minutes_mps: [f32; GUST_HISTORY_MIN],
     minute_index: u64,
+    /// The time stamps of minute `minute_index`, `[start, end)` in ms (`end`
+    /// saturating at `u64::MAX`): a step inside them is in the same minute,
+    /// found without a division.
+    minute_span_ms: (u64, u64),
 }
 
 impl GustHistory {
     /// An empty history starting in the minute of `now`.
     pub(super) fn new(now: Millis) -> Self {
+        let minute_index = div_rem_ms(now.0, 60_000).0;
         GustHistory {
             minutes_mps: [0.0; GUST_HISTORY_MIN],
-            minute_index: div_rem_ms(now.0, 60_000).0,
+            minute_index,
+            minute_span_ms: minute_span_ms(minute_index),
         }
     }
 
@@ -67,7 +85,20 @@ impl GustHistory {
     /// (minutes without a step hold 0: no gust seen); the present minute
     /// keeps the largest gust seen in it.
     pub(super) fn track(&mut self, now: Millis, gust_3s_mps: Option<f32>) {
-        let minute = div_rem_ms(now.0, 60_000).0;
+        let (start, end) = self.minute_span_ms;
+        if !(start <= now.0 && now.0 < end) {
+            self.change_minute(div_rem_ms(now.0, 60_000).0);
+        }
+        if let (Some(g), Some(first)) = (gust_3s_mps, self.minutes_mps.first_mut()) {
+            if g > *first {
+                *first = g;
+            }
+        }
+    }
+
+    /// Moves the history to minute `minute` (nothing when it is the present
+    /// one).
+    fn change_minute(&mut self, minute: u64) {
         if minute != self.minute_index {
             let steps = minute.saturating_sub(self.minute_index);
             // Shift the maxima `steps` minutes older (at most the whole
@@ -86,11 +117,7 @@ impl GustHistory {
                     .unwrap_or(0.0);
             }
             self.minute_index = minute;
-        }
-        if let (Some(g), Some(first)) = (gust_3s_mps, self.minutes_mps.first_mut()) {
-            if g > *first {
-                *first = g;
-            }
+            self.minute_span_ms = minute_span_ms(minute);
         }
     }
 
@@ -108,6 +135,14 @@ impl GustHistory {
         }
         (((a0 + a1) - (b0 + b1)) * 0.5 / 300.0).max(0.0)
     }
+}
+
+/// The time stamps of minute `minute` (index `now / 60 000`), `[start, end)`
+/// in ms, `end` saturating at `u64::MAX` (the last minute of the clock then
+/// takes the division at its last millisecond, with the same outcome).
+fn minute_span_ms(minute: u64) -> (u64, u64) {
+    let start = minute.saturating_mul(60_000);
+    (start, start.saturating_add(60_000))
 }
 
 #[cfg(test)]

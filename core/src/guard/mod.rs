@@ -90,7 +90,7 @@ use crate::sky::ParkRequest;
 use crate::torque::Posed;
 use gusts::{GustCache, GustHistory};
 use heapless::Vec;
-use transition::{Figures, Memory, Readings};
+use transition::{Figures, Memory, Readings, Thresholds};
 
 /// Most extra park poses a guard considers besides the home pose.
 pub const MAX_PARK_POSES: usize = 4;
@@ -360,6 +360,16 @@ pub struct Guard<'r> {
     /// What the physics needs of the present pose and cover state whatever
     /// the tilt and wind, kept between evaluations ([`Guard::posed`]).
     posed: Option<Posed>,
+    /// The configuration's thresholds with its times in whole ms
+    /// ([`GuardConfig::thresholds`]), and `evaluate_every_s` in ms: computed
+    /// once, the configuration never changes.
+    thresholds: Thresholds,
+    evaluate_every_ms: u64,
+    /// While `Some(d)`: the last decision was a full [`transition::transition`]
+    /// on the present figures (no fault) that changed neither the level nor
+    /// the memory, and a decision on the same readings at any later `now`
+    /// before `d` ms gives that same outcome ([`Guard::decide`]).
+    decided_until: Option<u64>,
 }
 
 impl<'r> Guard<'r> {
@@ -385,7 +395,6 @@ impl<'r> Guard<'r> {
             tilt: TiltSensor::started(config.tilt, now),
             wind: WindStats::started(config.wind, height_factor, now),
             means: MeanWind::started(config.wind, height_factor, now),
-            config,
             level: AlertLevel::SensorFault,
             memory: Memory::default(),
             pose,
@@ -401,6 +410,10 @@ impl<'r> Guard<'r> {
             gust_history: GustHistory::new(now),
             gust_3s_cache: GustCache::default(),
             posed: None,
+            thresholds: config.thresholds(),
+            evaluate_every_ms: config::s_to_ms(config.evaluate_every_s),
+            decided_until: None,
+            config,
         })
     }
 
@@ -452,6 +465,7 @@ impl<'r> Guard<'r> {
     /// they already have for the dwell time).
     pub fn acknowledge(&mut self) {
         self.memory.acknowledge();
+        self.decided_until = None;
     }
 
     /// One step: feed the samples that arrived, evaluate the physics when due,
@@ -459,8 +473,7 @@ impl<'r> Guard<'r> {
     /// be computed become faults in the verdict (module docs, "Fail safe");
     /// nothing panics.
     pub fn step(&mut self, now: Millis, inputs: &Inputs) -> Verdict {
-        let mut events = EventLog::default();
-        let mut rejected = FaultSet::default();
+        let mut rejected = FaultSet::new();
         let now = if now < self.last_step {
             rejected.push(Fault::TimeReversed {
                 sensor: Sensor::Clock,
@@ -471,9 +484,9 @@ impl<'r> Guard<'r> {
             self.take_inputs(now, inputs, &mut rejected);
             now
         };
-        let means = self.config.wind_source == WindSource::TenMinuteMeans;
-
+        let mut events = EventLog::default();
         let mut faults = FaultSet::new();
+        let means = self.config.wind_source == WindSource::TenMinuteMeans;
         self.tilt.faults_into(now, &mut faults);
         if means {
             faults.extend(&self.means.faults(now));
@@ -483,7 +496,7 @@ impl<'r> Guard<'r> {
         faults.extend(&rejected);
 
         let due = self.last_eval.is_none_or(|(t, pose, cover)| {
-            now.since(t) >= config::s_to_ms(self.config.evaluate_every_s)
+            now.since(t) >= self.evaluate_every_ms
                 || cover != self.cover_fitted
                 || pose_moved(pose, self.pose)
         });
@@ -522,6 +535,8 @@ impl<'r> Guard<'r> {
             self.eval_faults = eval_faults;
             self.last_eval = Some((now, self.pose, self.cover_fitted));
             self.park_pose = None;
+            // New figures: the next decision is made in full.
+            self.decided_until = None;
             if let Some(u) = shown.overturning {
                 if u > self.highest_utilisation + 0.01 {
                     self.highest_utilisation = u;
@@ -536,7 +551,7 @@ impl<'r> Guard<'r> {
         // evaluation (it costs one assessment per candidate).
         if self.level.park_requested() && (due || self.park_pose.is_none()) {
             let pose = match (self.shown.predicted_gust_mps, self.shown.from_rad) {
-                (Some(v), Some(d)) => self.safest_park_pose(v, d),
+                (Some(speed), Some(d)) => self.safest_park_pose(speed, d),
                 _ => Ok(self.rig.mount().home_pose()),
             };
             self.park_pose = Some(match pose {
@@ -552,7 +567,7 @@ impl<'r> Guard<'r> {
             });
         }
 
-        let fig = self.shown;
+        let fig = &self.shown;
         Verdict {
             now,
             level: self.level,
@@ -573,8 +588,8 @@ impl<'r> Guard<'r> {
             } else {
                 None
             },
-            faults,
-            events: events.events,
+            faults: or_fresh_faults(faults),
+            events: or_fresh_events(events.events),
             events_lost: events.lost,
             evaluated: due,
         }
@@ -625,6 +640,11 @@ impl<'r> Guard<'r> {
     /// Logs a [`Event::FaultRaised`] for each fault of a class not active in
     /// the previous step, and remembers the active set.
     fn note_new_faults(&mut self, faults: &FaultSet, events: &mut EventLog) {
+        // No fault now and none before: nothing to log, nothing to copy
+        // (both sets are empty).
+        if faults.is_empty() && self.known_faults.is_empty() {
+            return;
+        }
         for f in faults.iter() {
             if !self.known_faults.any(|k| k.same_class(&f)) {
                 events.push(Event::FaultRaised(f));
@@ -662,16 +682,40 @@ impl<'r> Guard<'r> {
         }
     }
 
+    /// Logs the new faults and decides the level ([`transition::transition`]).
+    ///
+    /// The transition is skipped, with the same outcome, in two cases:
+    /// - a fault while the guard is already in [`AlertLevel::SensorFault`]
+    ///   with no healthy time, no settled timer and no acknowledgement
+    ///   pending: the table's first row gives that level and that memory
+    ///   back, for any fault and any `now`;
+    /// - no fault, and the last decision was a full transition on the same
+    ///   figures (no evaluation since) that kept the level and the memory,
+    ///   with `now` before [`next_timer_instant`] of that decision: the
+    ///   transition reads `now` only through its timers' comparisons, and
+    ///   none of them has changed its answer since.
     fn decide(&mut self, now: Millis, faults: &FaultSet, events: &mut EventLog) {
         self.note_new_faults(faults, events);
+        if faults.is_empty() {
+            if self.decided_until.is_some_and(|d| now.0 < d) {
+                return;
+            }
+        } else {
+            self.decided_until = None;
+            let m = &self.memory;
+            if self.level == AlertLevel::SensorFault
+                && m.healthy_since.is_none()
+                && m.settled_since == [None; 3]
+                && !m.acknowledged
+            {
+                return;
+            }
+        }
         let readings = self.readings(faults);
-        let t = transition::transition(
-            self.level,
-            &readings,
-            &self.config.thresholds(),
-            self.memory,
-            now,
-        );
+        let t = transition::transition(self.level, &readings, &self.thresholds, self.memory, now);
+        let kept = t.change.is_none() && t.memory == self.memory;
+        self.decided_until = (kept && matches!(readings, Readings::Figures(_)))
+            .then(|| next_timer_instant(&t.memory, &self.thresholds, now));
         self.level = t.level;
         self.memory = t.memory;
         if let Some(c) = t.change {
@@ -916,6 +960,52 @@ impl<'r> Guard<'r> {
             .map_err(|_| Fault::Unevaluable {
                 check: Check::ParkPose,
             })
+    }
+}
+
+/// The first instant after `now`, ms, at which a timer of `memory` reaches
+/// its limit: the healthy time `fault_clear_ms` after `healthy_since`, a
+/// settled timer `dwell_ms` after its start (`u64::MAX` when none lies
+/// ahead). [`transition::transition`] compares `now` with these instants
+/// only (`now.since(start) < fault_clear_ms`, `now.since(start) >=
+/// dwell_ms`, with every start at or before `now`), so each comparison keeps
+/// its answer from `now` until just before its instant: on the same
+/// readings and memory, every `now` from this one up to (not including) the
+/// returned instant decides the same.
+fn next_timer_instant(memory: &Memory, t: &Thresholds, now: Millis) -> u64 {
+    let ahead = |start: Option<Millis>, limit_ms: u64| {
+        start
+            .map(|s| s.0.saturating_add(limit_ms))
+            .filter(|&at| at > now.0)
+            .unwrap_or(u64::MAX)
+    };
+    memory
+        .settled_since
+        .iter()
+        .fold(ahead(memory.healthy_since, t.fault_clear_ms), |d, s| {
+            d.min(ahead(*s, t.dwell_ms))
+        })
+}
+
+/// `set`, or for an empty set a fresh empty one (the same value), written
+/// into the verdict without copying the set's whole capacity: out of line,
+/// so that the caller's destination is filled by the one branch taken.
+#[inline(never)]
+fn or_fresh_faults(set: FaultSet) -> FaultSet {
+    if set.is_empty() {
+        FaultSet::new()
+    } else {
+        set
+    }
+}
+
+/// `events`, or for an empty list a fresh empty one, as [`or_fresh_faults`].
+#[inline(never)]
+fn or_fresh_events(events: Vec<Event, MAX_EVENTS>) -> Vec<Event, MAX_EVENTS> {
+    if events.is_empty() {
+        Vec::new()
+    } else {
+        events
     }
 }
 

@@ -379,7 +379,17 @@ pub fn tilt_of_specific_force(a: Vec3) -> Result<Tilt, Error> {
         ));
     }
     let magnitude = small_angle_atan2(planar_norm(a.x, a.y), a.z);
-    Tilt::new(magnitude, frame::azimuth_of(-a))
+    // `Tilt::new(magnitude, frame::azimuth_of(-a))` without its checks of
+    // the azimuth, which always pass here: `azimuth_of` returns a value
+    // wrapped to [0, 2π) (`wrap_tau` maps even NaN to 0), which `Tilt::new`
+    // accepts and wraps again to the same value (`wrap_tau` is the identity
+    // on its own results: tested). The magnitude is checked as there; the
+    // azimuth's arc tangent is computed only for a valid magnitude.
+    Error::check(Field::TiltMagnitudeRad, magnitude, 0.0, MAX_TILT_RAD)?;
+    Ok(Tilt {
+        magnitude_rad: magnitude,
+        downhill_azimuth_rad: frame::azimuth_of(-a),
+    })
 }
 
 /// `v` rotated by the smallest rotation that takes the unit vector `r` onto

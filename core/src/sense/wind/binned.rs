@@ -116,6 +116,9 @@ pub struct WindStats {
     direction: Channel,
     /// Fault time limits, computed once from the configuration.
     limits: FaultLimits,
+    /// `Some(t)`: [`WindStats::faults_into`] adds nothing at any `now` up to
+    /// `t` ms ([`WindStats::quiet_until`]); kept from one sample to the next.
+    faults_quiet_until: Option<u64>,
 }
 
 impl WindStats {
@@ -133,6 +136,7 @@ impl WindStats {
     /// guard builds its 2.8 KiB of statistics in place, with no `Result` of
     /// them on the stack.
     pub(crate) fn started(config: WindConfig, height_factor: f32, now: Millis) -> Self {
+        let (fresh, limits) = (Channel::new(now), FaultLimits::of(&config));
         WindStats {
             config,
             height_factor,
@@ -146,9 +150,11 @@ impl WindStats {
             }; FINE_BINS],
             coarse: [CoarseBin::empty(u64::MAX); COARSE_BINS],
             latest_gust_mps: None,
-            speed: Channel::new(now),
-            direction: Channel::new(now),
-            limits: FaultLimits::of(&config),
+            speed: fresh,
+            direction: fresh,
+            limits,
+            // Both channels are fresh: `quiet_until` is the speed channel's.
+            faults_quiet_until: fresh.quiet_until(now, limits),
         }
     }
 
@@ -174,6 +180,20 @@ impl WindStats {
     /// speed (whole sample dropped) or of the direction (the speed is still
     /// used, the direction dropped).
     pub fn push(
+        &mut self,
+        now: Millis,
+        speed_mps: f32,
+        from_rad: Option<f32>,
+    ) -> Result<(), Fault> {
+        let pushed = self.take_sample(now, speed_mps, from_rad);
+        // The channels changed (or, for a reversed time stamp, did not):
+        // the fault deadline is renewed either way.
+        self.faults_quiet_until = self.quiet_until();
+        pushed
+    }
+
+    /// [`WindStats::push`] without the renewal of the fault deadline.
+    fn take_sample(
         &mut self,
         now: Millis,
         speed_mps: f32,
@@ -422,8 +442,12 @@ impl WindStats {
     }
 
     /// Adds the faults of [`WindStats::faults`] to `set` (no set built and
-    /// copied on every step).
+    /// copied on every step). Up to the deadline kept since the last sample
+    /// ([`WindStats::quiet_until`]) there is none, and nothing is checked.
     pub(crate) fn faults_into(&self, now: Millis, set: &mut FaultSet) {
+        if self.faults_quiet_until.is_some_and(|t| now.0 <= t) {
+            return;
+        }
         let c = &self.config;
         let l = self.limits;
         self.speed
@@ -433,6 +457,23 @@ impl WindStats {
                 .faults(set, Sensor::WindDirection, now, self.start, l);
         } else if let Some(f) = self.direction.rejection {
             set.push(f);
+        }
+    }
+
+    /// The last time stamp, ms, up to which [`WindStats::faults`] is empty,
+    /// as the channels stand: the earliest instant a channel turns stale;
+    /// `None` when a fault that only a sample can clear (a rejected sample,
+    /// a stuck reading) is active. Every other fault depends on the samples
+    /// alone, so the deadline holds until the next sample.
+    fn quiet_until(&self) -> Option<u64> {
+        let l = self.limits;
+        let speed = self.speed.quiet_until(self.start, l)?;
+        if self.config.expect_direction {
+            Some(speed.min(self.direction.quiet_until(self.start, l)?))
+        } else if self.direction.rejection.is_some() {
+            None
+        } else {
+            Some(speed)
         }
     }
 }
