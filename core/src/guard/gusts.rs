@@ -96,6 +96,20 @@ impl GustHistory {
         }
     }
 
+    /// Tests only: the one-minute maxima, m/s, newest first, and the
+    /// present minute's index.
+    #[cfg(test)]
+    pub(super) fn minutes(&self) -> ([f32; GUST_HISTORY_MIN], u64) {
+        (self.minutes_mps, self.minute_index)
+    }
+
+    /// Tests only: forgets the span of the present minute, so that the next
+    /// step finds its minute by division.
+    #[cfg(test)]
+    pub(super) fn forget_span(&mut self) {
+        self.minute_span_ms = (1, 0);
+    }
+
     /// Moves the history to minute `minute` (nothing when it is the present
     /// one).
     fn change_minute(&mut self, minute: u64) {

@@ -370,6 +370,10 @@ pub struct Guard<'r> {
     /// the memory, and a decision on the same readings at any later `now`
     /// before `d` ms gives that same outcome ([`Guard::decide`]).
     decided_until: Option<u64>,
+    /// Tests only: every step takes the full path (the reference of the
+    /// equivalence tests of the shortcuts, `shortcut_tests`).
+    #[cfg(test)]
+    full_path: bool,
 }
 
 impl<'r> Guard<'r> {
@@ -413,6 +417,8 @@ impl<'r> Guard<'r> {
             thresholds: config.thresholds(),
             evaluate_every_ms: config::s_to_ms(config.evaluate_every_s),
             decided_until: None,
+            #[cfg(test)]
+            full_path: false,
             config,
         })
     }
@@ -487,6 +493,10 @@ impl<'r> Guard<'r> {
         let mut events = EventLog::default();
         let mut faults = FaultSet::new();
         let means = self.config.wind_source == WindSource::TenMinuteMeans;
+        #[cfg(test)]
+        if self.full_path {
+            self.wind.forget_fault_deadline();
+        }
         self.tilt.faults_into(now, &mut faults);
         if means {
             faults.extend(&self.means.faults(now));
@@ -696,6 +706,10 @@ impl<'r> Guard<'r> {
     ///   none of them has changed its answer since.
     fn decide(&mut self, now: Millis, faults: &FaultSet, events: &mut EventLog) {
         self.note_new_faults(faults, events);
+        #[cfg(test)]
+        if self.full_path {
+            self.decided_until = None;
+        }
         if faults.is_empty() {
             if self.decided_until.is_some_and(|d| now.0 < d) {
                 return;
@@ -703,7 +717,12 @@ impl<'r> Guard<'r> {
         } else {
             self.decided_until = None;
             let m = &self.memory;
-            if self.level == AlertLevel::SensorFault
+            #[cfg(test)]
+            let shortcut = !self.full_path;
+            #[cfg(not(test))]
+            let shortcut = true;
+            if shortcut
+                && self.level == AlertLevel::SensorFault
                 && m.healthy_since.is_none()
                 && m.settled_since == [None; 3]
                 && !m.acknowledged
@@ -725,6 +744,18 @@ impl<'r> Guard<'r> {
                 cause: c.cause,
             });
         }
+    }
+
+    /// Tests only: forgets every shortcut's state, so that the next step
+    /// takes the full path everywhere (decision, wind faults, gust cache
+    /// and history): the reference the shortcuts are compared with.
+    #[cfg(test)]
+    fn forget_shortcuts(&mut self) {
+        self.full_path = true;
+        self.decided_until = None;
+        self.gust_3s_cache.invalidate();
+        self.gust_history.forget_span();
+        self.wind.forget_fault_deadline();
     }
 
     /// Rise rate of the gust, m/s per s ([`GustHistory::rise_mps_per_s`]).
@@ -1069,6 +1100,9 @@ fn pose_moved(a: Pose, b: Pose) -> bool {
         _ => true,
     }
 }
+
+#[cfg(test)]
+mod shortcut_tests;
 
 #[cfg(test)]
 mod tests {

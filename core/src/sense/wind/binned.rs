@@ -460,6 +460,19 @@ impl WindStats {
         }
     }
 
+    /// Tests only: the fault deadline kept now.
+    #[cfg(test)]
+    pub(crate) fn fault_deadline(&self) -> Option<u64> {
+        self.faults_quiet_until
+    }
+
+    /// Tests only: forgets the fault deadline, so that the next
+    /// [`WindStats::faults_into`] checks every channel.
+    #[cfg(test)]
+    pub(crate) fn forget_fault_deadline(&mut self) {
+        self.faults_quiet_until = None;
+    }
+
     /// The last time stamp, ms, up to which [`WindStats::faults`] is empty,
     /// as the channels stand: the earliest instant a channel turns stale;
     /// `None` when a fault that only a sample can clear (a rejected sample,
