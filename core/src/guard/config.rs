@@ -6,6 +6,7 @@ use super::MAX_PARK_POSES;
 use crate::error::{Error, ErrorKind, Field};
 use crate::mount::Pose;
 use crate::rig::MAX_WIND_SPEED_MPS;
+pub(super) use crate::sense::s_to_ms;
 use crate::sense::{TiltConfig, WindConfig};
 use heapless::Vec;
 
@@ -262,7 +263,8 @@ impl GuardConfig {
     }
 
     /// The thresholds of the decision ([`super::transition`]), with the
-    /// times in milliseconds.
+    /// times in whole milliseconds (rounded to nearest, as every duration of
+    /// the crate).
     #[must_use]
     pub fn thresholds(&self) -> Thresholds {
         Thresholds {
@@ -276,21 +278,6 @@ impl GuardConfig {
             dwell_ms: s_to_ms(self.dwell_s),
             fault_clear_ms: s_to_ms(self.fault_clear_s),
         }
-    }
-}
-
-/// Whole milliseconds of a validated non-negative duration in seconds
-/// (rounded to nearest; at most 86 400 s here).
-pub(super) fn s_to_ms(s: f32) -> u64 {
-    // + 0.5 and truncation: round half up for these non-negative values.
-    let ms = s * 1000.0 + 0.5;
-    if ms.is_finite() && ms >= 1.0 {
-        // Validated: at most 8.64e7, far inside u64.
-        #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
-        let m = ms as u64;
-        m
-    } else {
-        0
     }
 }
 

@@ -64,20 +64,14 @@ impl GustCache {
 pub(super) struct GustHistory {
     minutes_mps: [f32; GUST_HISTORY_MIN],
     minute_index: u64,
-    /// The time stamps of minute `minute_index`, `[start, end)` in ms (`end`
-    /// saturating at `u64::MAX`): a step inside them is in the same minute,
-    /// found without a division.
-    minute_span_ms: (u64, u64),
 }
 
 impl GustHistory {
     /// An empty history starting in the minute of `now`.
     pub(super) fn new(now: Millis) -> Self {
-        let minute_index = div_rem_ms(now.0, 60_000).0;
         GustHistory {
             minutes_mps: [0.0; GUST_HISTORY_MIN],
-            minute_index,
-            minute_span_ms: minute_span_ms(minute_index),
+            minute_index: div_rem_ms(now.0, 60_000).0,
         }
     }
 
@@ -85,34 +79,7 @@ impl GustHistory {
     /// (minutes without a step hold 0: no gust seen); the present minute
     /// keeps the largest gust seen in it.
     pub(super) fn track(&mut self, now: Millis, gust_3s_mps: Option<f32>) {
-        let (start, end) = self.minute_span_ms;
-        if !(start <= now.0 && now.0 < end) {
-            self.change_minute(div_rem_ms(now.0, 60_000).0);
-        }
-        if let (Some(g), Some(first)) = (gust_3s_mps, self.minutes_mps.first_mut()) {
-            if g > *first {
-                *first = g;
-            }
-        }
-    }
-
-    /// Tests only: the one-minute maxima, m/s, newest first, and the
-    /// present minute's index.
-    #[cfg(test)]
-    pub(super) fn minutes(&self) -> ([f32; GUST_HISTORY_MIN], u64) {
-        (self.minutes_mps, self.minute_index)
-    }
-
-    /// Tests only: forgets the span of the present minute, so that the next
-    /// step finds its minute by division.
-    #[cfg(test)]
-    pub(super) fn forget_span(&mut self) {
-        self.minute_span_ms = (1, 0);
-    }
-
-    /// Moves the history to minute `minute` (nothing when it is the present
-    /// one).
-    fn change_minute(&mut self, minute: u64) {
+        let minute = div_rem_ms(now.0, 60_000).0;
         if minute != self.minute_index {
             let steps = minute.saturating_sub(self.minute_index);
             // Shift the maxima `steps` minutes older (at most the whole
@@ -131,8 +98,19 @@ impl GustHistory {
                     .unwrap_or(0.0);
             }
             self.minute_index = minute;
-            self.minute_span_ms = minute_span_ms(minute);
         }
+        if let (Some(g), Some(first)) = (gust_3s_mps, self.minutes_mps.first_mut()) {
+            if g > *first {
+                *first = g;
+            }
+        }
+    }
+
+    /// Tests only: the one-minute maxima, m/s, newest first, and the
+    /// present minute's index.
+    #[cfg(test)]
+    pub(super) fn minutes(&self) -> ([f32; GUST_HISTORY_MIN], u64) {
+        (self.minutes_mps, self.minute_index)
     }
 
     /// Rise rate of the gust, m/s per s: the slope between the mean of the
@@ -149,14 +127,6 @@ impl GustHistory {
         }
         (((a0 + a1) - (b0 + b1)) * 0.5 / 300.0).max(0.0)
     }
-}
-
-/// The time stamps of minute `minute` (index `now / 60 000`), `[start, end)`
-/// in ms, `end` saturating at `u64::MAX` (the last minute of the clock then
-/// takes the division at its last millisecond, with the same outcome).
-fn minute_span_ms(minute: u64) -> (u64, u64) {
-    let start = minute.saturating_mul(60_000);
-    (start, start.saturating_add(60_000))
 }
 
 #[cfg(test)]

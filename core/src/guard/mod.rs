@@ -365,11 +365,8 @@ pub struct Guard<'r> {
     /// once, the configuration never changes.
     thresholds: Thresholds,
     evaluate_every_ms: u64,
-    /// While `Some(d)`: the last decision was a full [`transition::transition`]
-    /// on the present figures (no fault) that changed neither the level nor
-    /// the memory, and a decision on the same readings at any later `now`
-    /// before `d` ms gives that same outcome ([`Guard::decide`]).
-    decided_until: Option<u64>,
+    /// The last full decision, while it holds ([`Guard::decide`]).
+    decided: Option<Decided>,
     /// Tests only: every step takes the full path (the reference of the
     /// equivalence tests of the shortcuts, `shortcut_tests`).
     #[cfg(test)]
@@ -416,7 +413,7 @@ impl<'r> Guard<'r> {
             posed: None,
             thresholds: config.thresholds(),
             evaluate_every_ms: config::s_to_ms(config.evaluate_every_s),
-            decided_until: None,
+            decided: None,
             #[cfg(test)]
             full_path: false,
             config,
@@ -471,7 +468,7 @@ impl<'r> Guard<'r> {
     /// they already have for the dwell time).
     pub fn acknowledge(&mut self) {
         self.memory.acknowledge();
-        self.decided_until = None;
+        self.decided = None;
     }
 
     /// One step: feed the samples that arrived, evaluate the physics when due,
@@ -497,7 +494,9 @@ impl<'r> Guard<'r> {
         if self.full_path {
             self.wind.forget_fault_deadline();
         }
-        self.tilt.faults_into(now, &mut faults);
+        // The tilt of the verdict, computed with the accelerometer's faults
+        // (nothing changes the sensor later in the step).
+        let tilt = self.tilt.faults_into_and_tilt(now, &mut faults);
         if means {
             faults.extend(&self.means.faults(now));
         } else {
@@ -546,7 +545,7 @@ impl<'r> Guard<'r> {
             self.last_eval = Some((now, self.pose, self.cover_fitted));
             self.park_pose = None;
             // New figures: the next decision is made in full.
-            self.decided_until = None;
+            self.decided = None;
             if let Some(u) = shown.overturning {
                 if u > self.highest_utilisation + 0.01 {
                     self.highest_utilisation = u;
@@ -589,7 +588,7 @@ impl<'r> Guard<'r> {
             gust_mps: fig.gust_mps,
             predicted_gust_mps: fig.predicted_gust_mps,
             wind_from_rad: fig.from_rad,
-            tilt: self.tilt.tilt(),
+            tilt,
             tilt_margin_rad: fig.tilt_margin_rad,
             tilt_drift_rad_per_s: fig.drift_rad_per_s,
             pose: self.pose,
@@ -694,47 +693,35 @@ impl<'r> Guard<'r> {
 
     /// Logs the new faults and decides the level ([`transition::transition`]).
     ///
-    /// The transition is skipped, with the same outcome, in two cases:
-    /// - a fault while the guard is already in [`AlertLevel::SensorFault`]
-    ///   with no healthy time, no settled timer and no acknowledgement
-    ///   pending: the table's first row gives that level and that memory
-    ///   back, for any fault and any `now`;
-    /// - no fault, and the last decision was a full transition on the same
-    ///   figures (no evaluation since) that kept the level and the memory,
-    ///   with `now` before [`next_timer_instant`] of that decision: the
-    ///   transition reads `now` only through its timers' comparisons, and
-    ///   none of them has changed its answer since.
+    /// The transition is skipped, with the same outcome, after a full one
+    /// that kept the level (no change), while nothing it reads has changed
+    /// but `now` ([`Decided`]): on a fault then and now (the table's first
+    /// row reads no figure and no time), or on no fault then and now with
+    /// no evaluation since (the same figures) and `now` before
+    /// [`next_timer_instant`].
     fn decide(&mut self, now: Millis, faults: &FaultSet, events: &mut EventLog) {
         self.note_new_faults(faults, events);
+        let on_fault = !faults.is_empty();
         #[cfg(test)]
         if self.full_path {
-            self.decided_until = None;
+            self.decided = None;
         }
-        if faults.is_empty() {
-            if self.decided_until.is_some_and(|d| now.0 < d) {
-                return;
-            }
-        } else {
-            self.decided_until = None;
-            let m = &self.memory;
-            #[cfg(test)]
-            let shortcut = !self.full_path;
-            #[cfg(not(test))]
-            let shortcut = true;
-            if shortcut
-                && self.level == AlertLevel::SensorFault
-                && m.healthy_since.is_none()
-                && m.settled_since == [None; 3]
-                && !m.acknowledged
-            {
-                return;
-            }
+        if self
+            .decided
+            .is_some_and(|d| d.on_fault == on_fault && now.0 < d.until_ms)
+        {
+            return;
         }
         let readings = self.readings(faults);
         let t = transition::transition(self.level, &readings, &self.thresholds, self.memory, now);
-        let kept = t.change.is_none() && t.memory == self.memory;
-        self.decided_until = (kept && matches!(readings, Readings::Figures(_)))
-            .then(|| next_timer_instant(&t.memory, &self.thresholds, now));
+        self.decided = t.change.is_none().then(|| Decided {
+            on_fault,
+            until_ms: if on_fault {
+                u64::MAX
+            } else {
+                next_timer_instant(&t.memory, &self.thresholds, now)
+            },
+        });
         self.level = t.level;
         self.memory = t.memory;
         if let Some(c) = t.change {
@@ -747,14 +734,13 @@ impl<'r> Guard<'r> {
     }
 
     /// Tests only: forgets every shortcut's state, so that the next step
-    /// takes the full path everywhere (decision, wind faults, gust cache
-    /// and history): the reference the shortcuts are compared with.
+    /// takes the full path everywhere (decision, wind faults, gust cache):
+    /// the reference the shortcuts are compared with.
     #[cfg(test)]
     fn forget_shortcuts(&mut self) {
         self.full_path = true;
-        self.decided_until = None;
+        self.decided = None;
         self.gust_3s_cache.invalidate();
-        self.gust_history.forget_span();
         self.wind.forget_fault_deadline();
     }
 
@@ -992,6 +978,28 @@ impl<'r> Guard<'r> {
                 check: Check::ParkPose,
             })
     }
+}
+
+/// A full decision that kept the level: a decision at a later `now` (the
+/// guard's clock never goes back) on the same kind of readings, before
+/// `until_ms`, has the same outcome, so it is skipped ([`Guard::decide`]).
+///
+/// Why: a [`transition::transition`] with no change returns the memory with
+/// its timers started or stopped as the readings say and the
+/// acknowledgement cleared, and nothing else changed (every other change of
+/// the memory comes with a change of level). Given that memory back with the
+/// same readings, it starts and stops nothing more, so only `now` can make
+/// a difference. On a fault (the first row of the table) `now` is not read
+/// at all. With figures it is read only in comparisons with the timers,
+/// which keep their answers until [`next_timer_instant`]. The same
+/// readings: every fault gives the first row; no fault gives the figures
+/// of the last evaluation, and an evaluation forgets the decision.
+#[derive(Clone, Copy, Debug)]
+struct Decided {
+    /// The decision was on a fault (else on figures, with no fault).
+    on_fault: bool,
+    /// The first instant, ms, at which the decision may differ.
+    until_ms: u64,
 }
 
 /// The first instant after `now`, ms, at which a timer of `memory` reaches

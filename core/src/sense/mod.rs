@@ -128,9 +128,12 @@ pub(crate) fn ms_to_s(ms: u64) -> f32 {
     ms as f32 * 1e-3
 }
 
-/// Seconds (finite, ≥ 0) to whole milliseconds, rounded; negative or NaN
-/// gives 0, huge values saturate.
+/// Seconds (finite, ≥ 0) to whole milliseconds, rounded to nearest (half
+/// up); negative or NaN gives 0, huge values saturate. Out of line: it runs
+/// when a configuration is taken, not per sample, and one copy keeps the
+/// firmware small.
 #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+#[inline(never)]
 pub(crate) fn s_to_ms(s: f32) -> u64 {
     let ms = s * 1000.0 + 0.5;
     if ms.is_nan() || ms <= 0.0 {

@@ -378,18 +378,45 @@ pub fn tilt_of_specific_force(a: Vec3) -> Result<Tilt, Error> {
             Field::TiltSpecificForce,
         ));
     }
-    let magnitude = small_angle_atan2(planar_norm(a.x, a.y), a.z);
-    // `Tilt::new(magnitude, frame::azimuth_of(-a))` without its checks of
-    // the azimuth, which always pass here: `azimuth_of` returns a value
-    // wrapped to [0, 2π) (`wrap_tau` maps even NaN to 0), which `Tilt::new`
-    // accepts and wraps again to the same value (`wrap_tau` is the identity
-    // on its own results: tested). The magnitude is checked as there; the
-    // azimuth's arc tangent is computed only for a valid magnitude.
-    Error::check(Field::TiltMagnitudeRad, magnitude, 0.0, MAX_TILT_RAD)?;
-    Ok(Tilt {
+    let magnitude = tilt_magnitude(a);
+    Tilt::new(magnitude, frame::azimuth_of(-a))
+}
+
+/// The tilt magnitude of [`tilt_of_specific_force`], radians, unchecked:
+/// atan2(√(ax² + ay²), az).
+fn tilt_magnitude(a: Vec3) -> f32 {
+    small_angle_atan2(planar_norm(a.x, a.y), a.z)
+}
+
+/// `tilt_of_specific_force(a).ok()`, the same value, for an `a` whose
+/// [`tilt_magnitude`] is `magnitude` (computed once when the caller needs
+/// it too). `None` exactly where that function fails: a zero or non-finite
+/// vector, or a magnitude `Tilt::new` refuses (not finite, or outside 0 to
+/// [`MAX_TILT_RAD`]). `Tilt::new`'s checks of the azimuth always pass here:
+/// `azimuth_of` returns a value wrapped to [0, 2π) (`wrap_tau` maps even
+/// NaN to 0), which `Tilt::new` accepts and wraps again to the same value
+/// (`wrap_tau` is the identity on its own results: tested); so they are
+/// left out, and the azimuth's arc tangent is computed only for a valid
+/// magnitude.
+fn tilt_of_magnitude(a: Vec3, magnitude: f32) -> Option<Tilt> {
+    let n = a.norm();
+    // In the closed range 0 to MAX_TILT_RAD: finite too (NaN is in no
+    // range). Written out: `RangeInclusive::contains` stays a function of
+    // its own in the size-optimised firmware (50 bytes of flash).
+    #[allow(clippy::manual_range_contains)]
+    let valid = n > 1e-12 && n.is_finite() && magnitude >= 0.0 && magnitude <= MAX_TILT_RAD;
+    valid.then(|| Tilt {
         magnitude_rad: magnitude,
         downhill_azimuth_rad: frame::azimuth_of(-a),
     })
+}
+
+/// Adds [`Fault::TiltBeyondLimit`] to `set` for a tilt `magnitude_rad`
+/// beyond [`MAX_TILT_RAD`].
+fn beyond_limit_into(magnitude_rad: f32, set: &mut FaultSet) {
+    if magnitude_rad > MAX_TILT_RAD {
+        set.push(Fault::TiltBeyondLimit { magnitude_rad });
+    }
 }
 
 /// `v` rotated by the smallest rotation that takes the unit vector `r` onto
@@ -699,7 +726,7 @@ impl TiltSensor {
     #[must_use]
     pub fn tilt(&self) -> Option<Tilt> {
         let v = self.referenced(self.filtered_g()?)?;
-        tilt_of_specific_force(v).ok()
+        tilt_of_magnitude(v, tilt_magnitude(v))
     }
 
     /// Angle between the fast and the medium filtered directions, radians:
@@ -744,6 +771,32 @@ impl TiltSensor {
     /// Adds the faults of [`TiltSensor::faults`] to `set` (no set built and
     /// copied on every step).
     pub(crate) fn faults_into(&self, now: Millis, set: &mut FaultSet) {
+        self.sample_faults_into(now, set);
+        // A cheap bound settles the usual case (well inside the limit)
+        // without the arc tangent; otherwise the angle is computed exactly
+        // as `tilt` does, so the fault is the same.
+        if let Some(v) = self.filtered_g().and_then(|v| self.referenced(v)) {
+            if !atan2_certainly_at_most(v.x * v.x + v.y * v.y, v.z, MAX_TILT_RAD) {
+                beyond_limit_into(tilt_magnitude(v), set);
+            }
+        }
+    }
+
+    /// [`TiltSensor::faults_into`] and [`TiltSensor::tilt`] at once, for the
+    /// guard's step: the same faults added to `set`, the same tilt
+    /// returned, with the tilt's magnitude computed once for both.
+    pub(crate) fn faults_into_and_tilt(&self, now: Millis, set: &mut FaultSet) -> Option<Tilt> {
+        self.sample_faults_into(now, set);
+        let v = self.referenced(self.filtered_g()?)?;
+        let magnitude = tilt_magnitude(v);
+        beyond_limit_into(magnitude, set);
+        tilt_of_magnitude(v, magnitude)
+    }
+
+    /// The faults of [`TiltSensor::faults`] but the tilt beyond the limit:
+    /// a rejected last sample, stale, stuck, magnitude out of band, a tilt
+    /// step.
+    fn sample_faults_into(&self, now: Millis, set: &mut FaultSet) {
         let sensor = Sensor::Accelerometer;
         let c = &self.config;
         if let Some(f) = self.rejection {
@@ -769,10 +822,9 @@ impl TiltSensor {
                 });
             }
         }
-        // The two angle checks run on every step; a cheap bound settles the
+        // The step check runs on every step; a cheap bound settles the
         // usual case (well inside the limit) without the arc tangent, and
-        // otherwise the angle is computed exactly as `step_rad` and `tilt`
-        // do, so the faults are the same.
+        // otherwise the angle is computed exactly as `step_rad` does.
         if self.last_filter.is_some() {
             let (a, b) = (self.fast_g, self.medium_g);
             let cross = a.cross(b);
@@ -780,14 +832,6 @@ impl TiltSensor {
                 let step_rad = angle_between(a, b);
                 if step_rad > c.step_limit_rad {
                     set.push(Fault::TiltStep { step_rad });
-                }
-            }
-        }
-        if let Some(v) = self.filtered_g().and_then(|v| self.referenced(v)) {
-            if !atan2_certainly_at_most(v.x * v.x + v.y * v.y, v.z, MAX_TILT_RAD) {
-                let magnitude_rad = small_angle_atan2(planar_norm(v.x, v.y), v.z);
-                if magnitude_rad > MAX_TILT_RAD {
-                    set.push(Fault::TiltBeyondLimit { magnitude_rad });
                 }
             }
         }
@@ -827,6 +871,65 @@ mod tests {
             sum += term;
         }
         sum
+    }
+
+    /// `wrap_tau` is the identity on its own results (what
+    /// `tilt_of_magnitude` relies on to leave out `Tilt::new`'s second
+    /// wrap): on every value it returns from a sweep of angles over several
+    /// turns, the ends of its range and signed zeros.
+    #[test]
+    fn wrap_tau_is_the_identity_on_its_results() {
+        let top = f32::from_bits(math::TAU.to_bits() - 1);
+        let inputs = [0.0, -0.0, 1e-45, -1e-45, top, -top, math::PI, -math::PI];
+        let sweep = (0..2_000_000).map(|k| (k as f32 - 1_000_000.0) * 1.3e-5);
+        for rad in inputs.into_iter().chain(sweep) {
+            let w = math::wrap_tau(rad);
+            assert_eq!(math::wrap_tau(w).to_bits(), w.to_bits(), "{rad} -> {w}");
+        }
+        // Every float just below 2π, and the smallest ones.
+        for b in 0..100_000_u32 {
+            for w in [f32::from_bits(top.to_bits() - b), f32::from_bits(b)] {
+                assert_eq!(math::wrap_tau(w).to_bits(), w.to_bits(), "{w}");
+            }
+        }
+    }
+
+    /// The guard's tilt (`tilt_of_magnitude`) is `tilt_of_specific_force`'s,
+    /// bit for bit, `None` where it fails: over a grid of directions (every
+    /// octant, level, past 45°, upside down), zero, tiny, huge and
+    /// non-finite vectors.
+    #[test]
+    fn the_guards_tilt_is_tilt_of_specific_force() {
+        let same = |a: Vec3| {
+            let expect = tilt_of_specific_force(a).ok();
+            let got = tilt_of_magnitude(a, tilt_magnitude(a));
+            let bits = |t: Option<Tilt>| {
+                t.map(|t| (t.magnitude_rad.to_bits(), t.downhill_azimuth_rad.to_bits()))
+            };
+            assert_eq!(bits(got), bits(expect), "{a:?}");
+        };
+        let steps = [
+            -1.0_f32, -0.7, -0.3, -0.05, -1e-3, -1e-7, -0.0, 0.0, 1e-7, 1e-3, 0.05, 0.3, 0.7, 1.0,
+        ];
+        for x in steps {
+            for y in steps {
+                for z in [-1.0_f32, -0.01, 0.0, 1e-4, 0.01, 0.2, 0.7, 1.0, 1.1] {
+                    same(Vec3::new(x, y, z));
+                    same(Vec3::new(x * 1e-13, y * 1e-13, z * 1e-13));
+                    same(Vec3::new(x * 1e30, y * 1e30, z * 1e30));
+                }
+            }
+        }
+        for bad in [f32::NAN, f32::INFINITY, f32::NEG_INFINITY] {
+            same(Vec3::new(bad, 0.0, 1.0));
+            same(Vec3::new(0.0, 0.0, bad));
+        }
+        // Near the 45° limit, from every side.
+        for k in 0..4_000 {
+            let a = k as f32 * 1.570_796_4e-3;
+            let r = 0.999_5 + (k % 7) as f32 * 1e-4;
+            same(Vec3::new(r * math::cos(a), r * math::sin(a), 1.0));
+        }
     }
 
     #[test]

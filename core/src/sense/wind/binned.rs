@@ -153,8 +153,9 @@ impl WindStats {
             speed: fresh,
             direction: fresh,
             limits,
-            // Both channels are fresh: `quiet_until` is the speed channel's.
-            faults_quiet_until: fresh.quiet_until(now, limits),
+            // Both channels are fresh (no rejection, nothing stuck): quiet
+            // until they turn stale.
+            faults_quiet_until: Some(fresh.stale_after(now, limits)),
         }
     }
 
@@ -448,6 +449,12 @@ impl WindStats {
         if self.faults_quiet_until.is_some_and(|t| now.0 <= t) {
             return;
         }
+        self.check_faults_into(now, set);
+    }
+
+    /// [`WindStats::faults_into`] without the deadline: every channel
+    /// checked.
+    fn check_faults_into(&self, now: Millis, set: &mut FaultSet) {
         let c = &self.config;
         let l = self.limits;
         self.speed
@@ -458,6 +465,24 @@ impl WindStats {
         } else if let Some(f) = self.direction.rejection {
             set.push(f);
         }
+    }
+
+    /// The last time stamp, ms, up to which [`WindStats::faults`] is empty,
+    /// as the channels stand; `None` when it is not empty even then. The
+    /// only fault that depends on `now` is a channel's stale one, absent up
+    /// to the earliest instant a checked channel turns stale; every other
+    /// (a rejected sample, a stuck reading) depends on the samples alone,
+    /// so the faults there are those of every earlier `now`, and the answer
+    /// holds until the next sample.
+    fn quiet_until(&self) -> Option<u64> {
+        let (l, start) = (self.limits, self.start);
+        let mut until = self.speed.stale_after(start, l);
+        if self.config.expect_direction {
+            until = until.min(self.direction.stale_after(start, l));
+        }
+        let mut set = FaultSet::new();
+        self.check_faults_into(Millis(until), &mut set);
+        set.is_empty().then_some(until)
     }
 
     /// Tests only: the fault deadline kept now.
@@ -471,23 +496,6 @@ impl WindStats {
     #[cfg(test)]
     pub(crate) fn forget_fault_deadline(&mut self) {
         self.faults_quiet_until = None;
-    }
-
-    /// The last time stamp, ms, up to which [`WindStats::faults`] is empty,
-    /// as the channels stand: the earliest instant a channel turns stale;
-    /// `None` when a fault that only a sample can clear (a rejected sample,
-    /// a stuck reading) is active. Every other fault depends on the samples
-    /// alone, so the deadline holds until the next sample.
-    fn quiet_until(&self) -> Option<u64> {
-        let l = self.limits;
-        let speed = self.speed.quiet_until(self.start, l)?;
-        if self.config.expect_direction {
-            Some(speed.min(self.direction.quiet_until(self.start, l)?))
-        } else if self.direction.rejection.is_some() {
-            None
-        } else {
-            Some(speed)
-        }
     }
 }
 

@@ -72,26 +72,11 @@ impl Channel {
 }
 
 impl Channel {
-    /// The last time stamp, ms, up to which [`Channel::faults`] adds nothing
-    /// (its only fault that depends on `now` is the stale one, absent while
-    /// `now.since(last sample or start)` ≤ the stale time); `None` when a
-    /// rejection or a stuck reading is active, faults that only a sample
-    /// changes.
-    pub(super) fn quiet_until(&self, start: Millis, limits: FaultLimits) -> Option<u64> {
-        if self.rejection.is_some() {
-            return None;
-        }
-        if let Some(last) = self.last {
-            if limits
-                .stuck_ms
-                .is_some_and(|limit| last.since(self.same_since) > limit)
-            {
-                return None;
-            }
-        }
-        // Past `u64::MAX` the silence cannot exceed the stale time at any
-        // representable `now`: the saturated instant is then exact too.
-        Some(self.last.unwrap_or(start).0.saturating_add(limits.stale_ms))
+    /// The last time stamp, ms, at which [`Channel::faults`] reports no
+    /// stale fault: the stale time after the last sample (or the start),
+    /// saturating (past `u64::MAX` no representable time is stale).
+    pub(super) fn stale_after(&self, start: Millis, limits: FaultLimits) -> u64 {
+        self.last.unwrap_or(start).0.saturating_add(limits.stale_ms)
     }
 }
 
