@@ -98,7 +98,7 @@ fn coarse_bins_for(s: f32) -> u64 {
 /// Wind statistics from speed and direction samples at any rate.
 ///
 /// Memory: `core::mem::size_of::<WindStats>()` is a compile-time constant
-/// below 3 KiB (2800 bytes on x86-64: 12 fine bins, 60 coarse bins and the configuration;
+/// below 3 KiB (2840 bytes on x86-64: 12 fine bins, 60 coarse bins and the configuration;
 /// checked by a unit test); nothing is allocated.
 #[derive(Clone, Debug)]
 pub struct WindStats {
