@@ -41,19 +41,19 @@ impl GustCache {
         self.entry = Some((start, end, gust_mps));
     }
 
-    /// The gust at `now`, m/s: the cached one for the same bin, or
-    /// `compute()` (then cached).
+    /// The gust at `now`, m/s, and whether it was computed now: the cached
+    /// one for the same bin (`false`), or `compute()` (then cached; `true`).
     pub(super) fn get_or(
         &mut self,
         now: Millis,
         compute: impl FnOnce() -> Option<f32>,
-    ) -> Option<f32> {
+    ) -> (Option<f32>, bool) {
         match self.entry {
-            Some((start, end, g)) if start <= now.0 && now.0 < end => g,
+            Some((start, end, g)) if start <= now.0 && now.0 < end => (g, false),
             _ => {
                 let g = compute();
                 self.put(now, g);
-                g
+                (g, true)
             }
         }
     }
@@ -152,7 +152,7 @@ mod tests {
                 cache.invalidate();
             }
             let fresh = w.gust_3s_mps(now);
-            let cached = cache.get_or(now, || w.gust_3s_mps(now));
+            let cached = cache.get_or(now, || w.gust_3s_mps(now)).0;
             assert_eq!(cached, fresh, "at {} ms", now.0);
             if fresh != last {
                 fresh_differs_from_last += 1;
@@ -163,6 +163,13 @@ mod tests {
         assert!(fresh_differs_from_last > 100);
     }
 
+    /// A minute is a whole number of fine bins: a step in the same bin is
+    /// in the same minute (the guard tracks a cached gust only once).
+    #[test]
+    fn a_minute_is_whole_fine_bins() {
+        assert_eq!(60_000 % FINE_BIN_MS, 0);
+    }
+
     /// `put` serves the same bin, not the next.
     #[test]
     fn a_put_serves_its_bin_only() {
@@ -170,16 +177,16 @@ mod tests {
         cache.put(Millis(1_000), Some(7.0));
         assert_eq!(
             cache.get_or(Millis(1_000 + FINE_BIN_MS - 1), || None),
-            Some(7.0)
+            (Some(7.0), false)
         );
         assert_eq!(
             cache.get_or(Millis(1_000 + FINE_BIN_MS), || Some(8.0)),
-            Some(8.0)
+            (Some(8.0), true)
         );
         cache.invalidate();
         assert_eq!(
             cache.get_or(Millis(1_000 + FINE_BIN_MS), || Some(9.0)),
-            Some(9.0)
+            (Some(9.0), true)
         );
     }
 

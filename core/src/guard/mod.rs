@@ -65,7 +65,8 @@
 //! the wind channels' checks are skipped before the earliest instant one
 //! of them turns stale (none while a rejected sample or a stuck reading is
 //! active); the 3-s gust comes from a cache while the wind bin and the
-//! samples are the same; the accelerometer's faults and the verdict's tilt
+//! samples are the same, and is then not tracked again (the step that
+//! computed it did, in the same minute); the accelerometer's faults and the verdict's tilt
 //! share one computation of the tilt; the thresholds in ms are computed
 //! once; an empty fault set or event list is written fresh rather than
 //! copied. Faults are never late: each skipped check is one whose answer
@@ -503,8 +504,7 @@ impl<'r> Guard<'r> {
             self.take_inputs(now, inputs, &mut rejected);
             now
         };
-        let mut events = EventLog::default();
-        let mut faults = FaultSet::new();
+        let (mut events, mut faults) = (EventLog::default(), FaultSet::new());
         let means = self.config.wind_source == WindSource::TenMinuteMeans;
         // The verdict's tilt, with the accelerometer's faults (one pass).
         let tilt = self.tilt.faults_into_and_tilt(now, &mut faults);
@@ -519,10 +519,8 @@ impl<'r> Guard<'r> {
                 || cover != self.cover_fitted
                 || pose_moved(pose, self.pose)
         });
-        // The full wind report only when the physics is evaluated; otherwise
-        // the 3-s gust for the gust history (`WindStats::gust_3s_mps`, the
-        // report's value without the rest of the report), from the cache
-        // when the wind bin and the wind samples are unchanged.
+        // The full wind report only for an evaluation; else the report's 3-s
+        // gust alone (`WindStats::gust_3s_mps`), cached within a wind bin.
         let report = if due {
             let r = if means {
                 self.means.report(now)
@@ -534,8 +532,8 @@ impl<'r> Guard<'r> {
         } else {
             None
         };
-        let gust_3s = match &report {
-            Some(r) => r.gust_3s_mps,
+        let (gust_3s, fresh) = match &report {
+            Some(r) => (r.gust_3s_mps, true),
             None => {
                 let (wind, means_stats) = (&self.wind, &self.means);
                 self.gust_3s_cache.get_or(now, || {
@@ -547,7 +545,10 @@ impl<'r> Guard<'r> {
                 })
             }
         };
-        self.gust_history.track(now, gust_3s);
+        // A cached gust was tracked in its bin, so its minute, already.
+        if fresh {
+            self.gust_history.track(now, gust_3s);
+        }
         if let Some(report) = report {
             let (shown, eval_faults) = self.evaluate(&report);
             self.shown = shown;
