@@ -365,6 +365,10 @@ pub struct Guard<'r> {
     last_step: Millis,
     /// Time, pose and cover state of the last evaluation.
     last_eval: Option<(Millis, Pose, bool)>,
+    /// A pose was taken since the last evaluation. Without one the pose is
+    /// the evaluated one, which has not moved (`pose_moved(p, p)` is false
+    /// for every `p`, NaN angles included: tested), so no move is checked.
+    pose_since_eval: bool,
     shown: Shown,
     /// Faults of the last evaluation (figures it could not compute); they
     /// hold until the next evaluation.
@@ -420,6 +424,7 @@ impl<'r> Guard<'r> {
             air: Air::default(),
             last_step: now,
             last_eval: None,
+            pose_since_eval: false,
             shown: Shown::default(),
             eval_faults: FaultSet::new(),
             park_pose: None,
@@ -517,7 +522,7 @@ impl<'r> Guard<'r> {
         let due = self.last_eval.is_none_or(|(t, pose, cover)| {
             now.since(t) >= self.evaluate_every_ms
                 || cover != self.cover_fitted
-                || pose_moved(pose, self.pose)
+                || (self.pose_since_eval && pose_moved(pose, self.pose))
         });
         // The full wind report only for an evaluation; else the report's 3-s
         // gust alone (`WindStats::gust_3s_mps`), cached within a wind bin.
@@ -554,6 +559,7 @@ impl<'r> Guard<'r> {
             self.shown = shown;
             self.eval_faults = eval_faults;
             self.last_eval = Some((now, self.pose, self.cover_fitted));
+            self.pose_since_eval = false;
             self.park_pose = None;
             self.decided = None; // New figures: the next decision in full.
             if let Some(u) = shown.overturning {
@@ -565,7 +571,6 @@ impl<'r> Guard<'r> {
         }
         faults.extend(&self.eval_faults);
         self.decide(now, &faults, &mut events);
-
         // The park pose is searched only while a park is requested, once per
         // evaluation (it costs one assessment per candidate).
         if self.level.park_requested() && (due || self.park_pose.is_none()) {
@@ -635,7 +640,10 @@ impl<'r> Guard<'r> {
         }
         if let Some(p) = inputs.pose {
             match self.rig.mount().axis_angles(p) {
-                Ok(_) => self.pose = p,
+                Ok(_) => {
+                    self.pose = p;
+                    self.pose_since_eval = true;
+                }
                 Err(e) => rejected.push(input_fault(Sensor::MountPose, &e)),
             }
         }
@@ -749,11 +757,12 @@ impl<'r> Guard<'r> {
     }
 
     /// Tests only: forgets every shortcut's state, so that the next step
-    /// takes the full path everywhere (decision, wind faults, gust cache):
-    /// the reference the shortcuts are compared with.
+    /// takes the full path everywhere (decision, wind faults, gust cache,
+    /// pose move): the reference the shortcuts are compared with.
     #[cfg(test)]
     fn forget_shortcuts(&mut self) {
         self.full_path = true;
+        self.pose_since_eval = true;
         self.decided = None;
         self.gust_3s_cache.invalidate();
         self.wind.forget_fault_deadline();

@@ -388,6 +388,34 @@ fn a_fault_decision_that_keeps_the_level_is_a_fixed_point() {
     }
 }
 
+/// A pose has not moved from itself, whatever its angles (NaN included)
+/// and form: the step checks a move only after a pose was taken.
+#[test]
+fn a_pose_never_moves_from_itself() {
+    let eq = |h, d| Pose::Equatorial {
+        hour_angle_rad: h,
+        declination_rad: d,
+        pier_side: crate::mount::PierSide::TubeWest,
+    };
+    let axes = |a, b| Pose::Axes {
+        primary_rad: a,
+        secondary_rad: b,
+    };
+    for x in [
+        0.0,
+        -0.0,
+        1.0,
+        -3.0,
+        f32::NAN,
+        f32::INFINITY,
+        f32::MIN_POSITIVE,
+    ] {
+        for p in [eq(x, 0.5), eq(0.5, x), axes(x, x), altaz(10.0, 20.0)] {
+            assert!(!pose_moved(p, p), "{p:?}");
+        }
+    }
+}
+
 /// The next timer instant: the earliest limit still ahead; `u64::MAX` with
 /// none ahead or at a saturated sum.
 #[test]

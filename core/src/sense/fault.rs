@@ -355,6 +355,10 @@ impl FaultSet {
 
     /// Adds every fault of `other`.
     pub fn extend(&mut self, other: &FaultSet) {
+        // An empty set adds nothing (and carries no overflow): no iterator.
+        if other.is_empty() {
+            return;
+        }
         for f in other.iter() {
             self.push(f);
         }
