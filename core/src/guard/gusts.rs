@@ -11,22 +11,10 @@ pub const GUST_HISTORY_MIN: usize = 10;
 /// The 3-s gust for one fine wind bin (index `now / FINE_BIN_MS`), kept until
 /// the next wind sample: between wind samples the gust changes only from one
 /// bin to the next, so steps that do not evaluate the physics need no full
-/// wind report. Only a cache: its answers equal a fresh computation's. The
-/// bin is kept as its span of time stamps, so that a step in the same bin is
-/// recognised by two comparisons, without a division.
+/// wind report. Only a cache: its answers equal a fresh computation's.
 #[derive(Clone, Copy, Debug, Default)]
 pub(super) struct GustCache {
-    /// The bin's first and one-past-last time stamps, ms (the end saturates
-    /// at `u64::MAX`, so the last bin of the clock is recomputed at its last
-    /// millisecond), and its gust.
-    entry: Option<(u64, u64, Option<f32>)>,
-}
-
-/// The span `[start, end)` of time stamps of the fine wind bin holding
-/// `now`, ms (`end` saturating at `u64::MAX`).
-fn fine_bin_span(now: Millis) -> (u64, u64) {
-    let start = now.0 - div_rem_ms(now.0, FINE_BIN_MS).1;
-    (start, start.saturating_add(FINE_BIN_MS))
+    entry: Option<(u64, Option<f32>)>,
 }
 
 impl GustCache {
@@ -37,8 +25,7 @@ impl GustCache {
 
     /// Records the gust computed at `now`, m/s.
     pub(super) fn put(&mut self, now: Millis, gust_mps: Option<f32>) {
-        let (start, end) = fine_bin_span(now);
-        self.entry = Some((start, end, gust_mps));
+        self.entry = Some((div_rem_ms(now.0, FINE_BIN_MS).0, gust_mps));
     }
 
     /// The gust at `now`, m/s, and whether it was computed now: the cached
@@ -48,11 +35,12 @@ impl GustCache {
         now: Millis,
         compute: impl FnOnce() -> Option<f32>,
     ) -> (Option<f32>, bool) {
+        let bin = div_rem_ms(now.0, FINE_BIN_MS).0;
         match self.entry {
-            Some((start, end, g)) if start <= now.0 && now.0 < end => (g, false),
+            Some((b, g)) if b == bin => (g, false),
             _ => {
                 let g = compute();
-                self.put(now, g);
+                self.entry = Some((bin, g));
                 (g, true)
             }
         }

@@ -722,6 +722,7 @@ impl<'r> Guard<'r> {
     /// row reads no figure and no time), or on no fault then and now with
     /// no evaluation since (the same figures) and `now` before
     /// [`next_timer_instant`].
+    #[inline(never)]
     fn decide(&mut self, now: Millis, faults: &FaultSet, events: &mut EventLog) {
         self.note_new_faults(faults, events);
         let on_fault = !faults.is_empty();

@@ -463,8 +463,17 @@ fn atan2_certainly_at_most(ss: f32, x: f32, limit_rad: f32) -> bool {
 fn atan_series(t: f32) -> f32 {
     let t2 = t * t;
     let mut acc = 1.0 / 13.0;
-    for k in [11.0_f32, 9.0, 7.0, 5.0, 3.0, 1.0] {
-        acc = 1.0 / k - t2 * acc;
+    // The reciprocals 1/11 … 1/1, rounded at compile time as a division at
+    // run time rounds them (IEEE 754 division either way).
+    for r in [
+        1.0 / 11.0_f32,
+        1.0 / 9.0,
+        1.0 / 7.0,
+        1.0 / 5.0,
+        1.0 / 3.0,
+        1.0,
+    ] {
+        acc = r - t2 * acc;
     }
     t * acc
 }
