@@ -17,6 +17,10 @@
 #   * with two or more lengths, the cost per added row between the first
 #     two (the per-row figure with the fixed start-up and report costs
 #     taken out).
+# With STANDFAST_MAX_PARSE_PER_ROW and/or STANDFAST_MAX_FULL_PER_ROW set
+# (instructions a row), it fails (exit 1) when the parse-only or the full
+# replay's count a row is above them at any length: CI's regression limits
+# (.ci/run).
 # Needs valgrind (callgrind_annotate is not used: the totals are read from
 # the output files). Builds the release binary and the bench with cargo;
 # honours CARGO_TARGET_DIR. To count other builds (an older commit's, for a
@@ -77,6 +81,16 @@ for h in "${hours[@]}"; do
     echo "  bench, full replay (replay_pass, both threads): $replay, $(per_row "$replay" "$rows") a row"
     awk -v r="$replay" -v p="$parse" -v w="$whole" 'BEGIN {
         printf "  full replay / parse only: %.2f; whole process / parse only: %.2f\n", r / p, w / p }'
+    over=0
+    if [ -n "${STANDFAST_MAX_PARSE_PER_ROW:-}" ] && [ "$(per_row "$parse" "$rows")" -gt "$STANDFAST_MAX_PARSE_PER_ROW" ]; then
+        echo "  parse only: $(per_row "$parse" "$rows") a row, above the limit of $STANDFAST_MAX_PARSE_PER_ROW" >&2
+        over=1
+    fi
+    if [ -n "${STANDFAST_MAX_FULL_PER_ROW:-}" ] && [ "$(per_row "$replay" "$rows")" -gt "$STANDFAST_MAX_FULL_PER_ROW" ]; then
+        echo "  full replay: $(per_row "$replay" "$rows") a row, above the limit of $STANDFAST_MAX_FULL_PER_ROW" >&2
+        over=1
+    fi
+    [ "$over" = 0 ] || exit 1
     whole_at+=("$whole")
     rows_at+=("$rows")
 done
