@@ -291,12 +291,6 @@ impl Series {
         if self.points.is_empty() || !(t_s >= lo && t_s < hi_s) {
             self.open_bucket_for(t_s);
         }
-        if let Some(u) = v.overturning_utilisation.filter(|u| u.is_finite()) {
-            if self.top_overturning.is_none_or(|t| u > t) {
-                self.top_overturning = Some(u);
-                self.cover_at_closest = cover;
-            }
-        }
         let Some(p) = self.points.last_mut() else {
             return;
         };
@@ -304,15 +298,24 @@ impl Series {
         p.records = p.records.saturating_add(1);
         // Between evaluations a verdict repeats the figures of the one
         // before (the core's contract for `Verdict::evaluated`, checked in
-        // debug builds), which this bucket has taken already.
+        // debug builds), which this bucket, and the highest overturning
+        // utilisation, have taken already.
         let repeated = !v.evaluated && self.last_evaluated.is_some();
         debug_assert!(!repeated || self.last_evaluated == Some(Evaluated::of(v)));
         if repeated {
-            p.peak
-                .keep_higher_tilt(v.tilt.map(|t| t.magnitude_rad.to_degrees()), || {
-                    v.tilt.map(|t| t.downhill_azimuth_rad.to_degrees())
-                });
+            if let Some(t) = &v.tilt {
+                p.peak
+                    .keep_higher_tilt(Some(t.magnitude_rad.to_degrees()), || {
+                        Some(t.downhill_azimuth_rad.to_degrees())
+                    });
+            }
         } else {
+            if let Some(u) = v.overturning_utilisation.filter(|u| u.is_finite()) {
+                if self.top_overturning.is_none_or(|t| u > t) {
+                    self.top_overturning = Some(u);
+                    self.cover_at_closest = cover;
+                }
+            }
             let mut f = Figures::of(v);
             f.wind_from_deg = f.wind_from_deg.map(|d| d.rem_euclid(360.0));
             p.peak.keep_extremes(&f);
