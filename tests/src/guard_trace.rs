@@ -11,7 +11,10 @@
 //!    from `park_now` up, and then a park pose is given;
 //! 5. an alarm raised by a figure at its threshold latches until
 //!    acknowledged (a fault that clears returns to it);
-//! 6. no figure is NaN; events beyond capacity are counted.
+//! 6. no figure is NaN; events beyond capacity are counted;
+//! 7. a verdict that did not evaluate shows the figures of the verdict
+//!    before it, bit for bit (`Verdict::evaluated`; the replay's report
+//!    relies on it).
 //!
 //! Used by the property tests (`tests/checks/guard_props.rs`) and the fuzz
 //! target `guard_step` (`core/fuzz`).
@@ -95,6 +98,27 @@ pub fn figures(v: &Verdict) -> Option<Figures> {
     })
 }
 
+/// The bits of a verdict's evaluated figures (`None` as 2^32, which no
+/// `f32`'s bits are), for rule 7.
+fn shown_bits(v: &Verdict) -> [u64; 12] {
+    let b = |x: Option<f32>| x.map_or(1 << 32, |x| u64::from(x.to_bits()));
+    let d = v.drive_utilisation;
+    [
+        b(v.overturning_utilisation),
+        b(v.predicted_utilisation),
+        b(v.sliding_utilisation),
+        b(d.map(|d| d[0])),
+        b(d.map(|d| d[1])),
+        b(v.tip_wind_mps),
+        b(v.gust_mps),
+        b(v.predicted_gust_mps),
+        b(v.wind_from_rad),
+        b(v.tilt_margin_rad),
+        b(Some(v.tilt_drift_rad_per_s)),
+        u64::from(d.is_some()),
+    ]
+}
+
 /// Starts a guard on `rig` with `config` at 1,000 s and runs `trace`,
 /// checking the rules at every step.
 ///
@@ -112,6 +136,7 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
     let mut now: i64 = 1_000_000;
     let mut last_now = now;
     let mut latched = false;
+    let mut previous: Option<[u64; 12]> = None;
     for (i, s) in trace.iter().enumerate() {
         if s.acknowledge {
             guard.acknowledge();
@@ -124,6 +149,12 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
         last_now = last_now.max(now);
         let fail = |what: &str| Err(format!("step {i}: {what}\nstep: {s:?}\nverdict: {v:?}"));
 
+        // 7.
+        let bits = shown_bits(&v);
+        if !v.evaluated && previous.is_some_and(|p| p != bits) {
+            return fail("figures changed without an evaluation");
+        }
+        previous = Some(bits);
         // 6.
         let shown = [
             v.overturning_utilisation,

@@ -267,8 +267,10 @@ pub struct Verdict {
     /// ones lost); 0 normally.
     pub events_lost: u16,
     /// True when this step evaluated the physics (the figures are fresh);
-    /// false when they come from an earlier step (module docs, "When the
-    /// physics runs").
+    /// false when they come from an earlier step: then every figure is, bit
+    /// for bit, the previous verdict's (module docs, "When the physics
+    /// runs"). The tilt, pose, level, faults and events are of this step
+    /// either way.
     pub evaluated: bool,
 }
 
