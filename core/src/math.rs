@@ -266,8 +266,73 @@ pub(crate) fn acos(x: f32) -> f32 {
     }
     #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
     {
-        libm::acosf(x)
+        acos_f32(x)
     }
+}
+
+/// libm's `acosf` (libm 0.2.16, `src/math/acosf.rs`) with its square root
+/// taken by [`sqrt`]: the FPU's instruction on targets that have one
+/// instead of libm's integer routine, which this function alone would bring
+/// into a firmware image. Both square roots are correctly rounded, so the
+/// bits are libm's (tested over a dense sweep).
+///
+/// Origin: FreeBSD `/usr/src/lib/msun/src/e_acosf.c`, converted to float by
+/// Ian Lance Taylor, Cygnus Support, ian@cygnus.com; its notice, as its
+/// licence asks:
+///
+/// Copyright (C) 1993 by Sun Microsystems, Inc. All rights reserved.
+/// Developed at SunPro, a Sun Microsystems, Inc. business. Permission to
+/// use, copy, modify, and distribute this software is freely granted,
+/// provided that this notice is preserved.
+#[cfg(not(all(feature = "micromath", standfast_fast_math)))]
+fn acos_f32(x: f32) -> f32 {
+    const PIO2_HI: f32 = 1.570_796_2; // 0x3fc90fda
+    const PIO2_LO: f32 = 7.549_789_4e-8; // 0x33a22168
+    const P_S0: f32 = 1.666_658_7e-1;
+    const P_S1: f32 = -4.274_342_2e-2;
+    const P_S2: f32 = -8.656_363e-3;
+    const Q_S1: f32 = -7.066_296_3e-1;
+    let r = |z: f32| {
+        let p = z * (P_S0 + z * (P_S1 + z * P_S2));
+        let q = 1.0 + z * Q_S1;
+        p / q
+    };
+    let x1p_120 = f32::from_bits(0x0380_0000); // 2⁻¹²⁰
+    let hx = x.to_bits();
+    let ix = hx & 0x7fff_ffff;
+    // |x| ≥ 1 or NaN.
+    if ix >= 0x3f80_0000 {
+        if ix == 0x3f80_0000 {
+            if (hx >> 31) != 0 {
+                return 2.0 * PIO2_HI + x1p_120;
+            }
+            return 0.0;
+        }
+        // libm's 0/(x − x): NaN (its sign aside; `acos` clamps first).
+        return f32::NAN;
+    }
+    // |x| < 0.5.
+    if ix < 0x3f00_0000 {
+        if ix <= 0x3280_0000 {
+            // |x| < 2⁻²⁶.
+            return PIO2_HI + x1p_120;
+        }
+        return PIO2_HI - (x - (PIO2_LO - x * r(x * x)));
+    }
+    // x < −0.5.
+    if (hx >> 31) != 0 {
+        let z = (1.0 + x) * 0.5;
+        let s = sqrt(z);
+        let w = r(z) * s - PIO2_LO;
+        return 2.0 * (PIO2_HI - (s + w));
+    }
+    // x > 0.5.
+    let z = (1.0 - x) * 0.5;
+    let s = sqrt(z);
+    let df = f32::from_bits(s.to_bits() & 0xffff_f000);
+    let c = (z - df * df) / (s + df);
+    let w = r(z) * s + c;
+    2.0 * (df + w)
 }
 
 /// Arc sine in radians; the argument is clamped to [−1, 1] first.
@@ -689,5 +754,36 @@ mod against_libm {
         assert_eq!(hypot(f32::NAN, f32::NEG_INFINITY), f32::INFINITY);
         assert!(hypot(f32::NAN, 1.0).is_nan());
         assert!(hypot(f32::MAX, f32::MAX).is_infinite());
+    }
+
+    // The arc cosine is libm's `acosf`, bit for bit (its square root only
+    // is taken another way): every 64th f32 from −1 to 1, the edges of its
+    // branches, and outside [−1, 1] (clamped by `acos`; NaN for the port).
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
+    #[test]
+    fn acos_is_libms_acosf() {
+        let mut checked = 0_u32;
+        for bits in (0..=0x3f80_0000_u32).step_by(64) {
+            for x in [f32::from_bits(bits), -f32::from_bits(bits)] {
+                assert_eq!(acos_f32(x).to_bits(), libm::acosf(x).to_bits(), "{x:e}");
+                checked += 1;
+            }
+        }
+        for x in [
+            0.5_f32,
+            -0.5,
+            0.5_f32.next_down(),
+            -0.5_f32.next_up(),
+            1.0,
+            -1.0,
+        ] {
+            assert_eq!(acos_f32(x).to_bits(), libm::acosf(x).to_bits(), "{x:e}");
+        }
+        for x in [1.5_f32, -3.0, 1.0_f32.next_up()] {
+            assert_eq!(acos(x).to_bits(), libm::acosf(x.clamp(-1.0, 1.0)).to_bits());
+            assert!(acos_f32(x).is_nan() && libm::acosf(x).is_nan());
+        }
+        assert!(acos_f32(f32::NAN).is_nan());
+        assert!(checked > 400_000);
     }
 }
