@@ -27,8 +27,8 @@
 //!   safest park pose);
 //! - [`guard`]: the park-and-alarm decision (an alert level) from live samples
 //!   ([`Guard`], [`GuardConfig`], [`Inputs`], [`Verdict`]);
-//! - [`sense`]: accelerometer tilt, wind statistics, sensor faults and the
-//!   time stamp [`Millis`];
+//! - [`sense`]: accelerometer tilt (the verdict's [`TiltReading`]), wind
+//!   statistics, sensor faults and the time stamp [`Millis`];
 //! - [`support`]: feet and the support polygon ([`Support`]);
 //! - [`mount`]: mount kinds, kinematics and poses ([`Pose`]);
 //! - [`shape`]: wind-exposed shapes and their drag;
@@ -129,6 +129,7 @@ pub use math::Vec3;
 pub use mount::{MountGeometry, MountKind, PierSide, Pose};
 pub use rig::{BodySpec, Conditions, Rig, RigSpec};
 pub use sense::Millis;
+pub use sense::TiltReading;
 pub use stability::StabilityFigures;
 pub use support::{Foot, Support};
 

@@ -471,6 +471,7 @@ pub fn sf_event(e: &Event) -> SfEvent {
 /// The C form of a verdict.
 #[must_use]
 pub fn sf_verdict(v: &Verdict) -> SfVerdict {
+    let tilt = v.tilt.map(|r| r.tilt());
     let mut out = SfVerdict {
         now_ms: v.now.0,
         level: level_code(v.level),
@@ -487,8 +488,8 @@ pub fn sf_verdict(v: &Verdict) -> SfVerdict {
         wind_from_rad: maybe(v.wind_from_rad),
         evaluated: u8::from(v.evaluated),
         has_tilt: u8::from(v.tilt.is_some()),
-        tilt_magnitude_rad: v.tilt.map_or(f32::NAN, |t| t.magnitude_rad),
-        tilt_downhill_azimuth_rad: v.tilt.map_or(f32::NAN, |t| t.downhill_azimuth_rad),
+        tilt_magnitude_rad: tilt.map_or(f32::NAN, |t| t.magnitude_rad),
+        tilt_downhill_azimuth_rad: tilt.map_or(f32::NAN, |t| t.downhill_azimuth_rad),
         tilt_margin_rad: maybe(v.tilt_margin_rad),
         tilt_drift_rad_per_s: v.tilt_drift_rad_per_s,
         pose: sf_pose(v.pose),

@@ -19,7 +19,7 @@ use standfast::rig::{
     BallastSpec, BodySpec, Conditions, CounterweightSpec, CoverSpec, LegsSpec, Rig, RigSpec,
     ShaftSpec, Stage,
 };
-use standfast::sense::{Millis, TiltConfig, TiltSensor, WindConfig, WindStats};
+use standfast::sense::{Millis, TiltConfig, TiltReading, TiltSensor, WindConfig, WindStats};
 use standfast::shape::{Exposure, Shape};
 use standfast::sky::{ParkRequest, PayloadOffset, SkyGrid, SkyScan};
 use standfast::support::Support;
@@ -399,6 +399,14 @@ fn sensor_calls(t: &mut Tally, u: &Unknowns) {
         let end = start.plus_ms(u64::from(u.guard_steps) * u64::from(u.sample_period_ms));
         black_box(tilt.tilt());
         black_box(tilt.faults(end));
+        // The verdict's tilt reading, its angles and the chart's screen.
+        let reading = black_box(tilt.reading());
+        let other = TiltReading::of_specific_force(Vec3::from_array(black_box(u.accel_g)));
+        if let (Some(r), Some(o)) = (reading, other) {
+            black_box((r.tilt(), r.magnitude_rad(), r.downhill_azimuth_rad()));
+            black_box(r.certainly_less_steep_than(&o));
+            black_box(r.specific_force_g());
+        }
     }
     if let Some(mut wind) = t.note(WindStats::new(WindConfig::default(), start)) {
         for k in 0..u.guard_steps {

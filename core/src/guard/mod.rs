@@ -66,8 +66,10 @@
 //! of them turns stale (none while a rejected sample or a stuck reading is
 //! active); the 3-s gust comes from a cache while the wind bin and the
 //! samples are the same, and is then not tracked again (the step that
-//! computed it did, in the same minute); the accelerometer's faults and the verdict's tilt
-//! share one computation of the tilt; the thresholds in ms are computed
+//! computed it did, in the same minute); the verdict carries the tilt as a
+//! [`TiltReading`] whose angles are computed when asked, and whose
+//! validity (and the tilt-beyond-limit fault) is settled by a bound without
+//! an arc tangent within 40°; the thresholds in ms are computed
 //! once; an empty fault set or event list is written fresh rather than
 //! copied. Faults are never late: each skipped check is one whose answer
 //! is known, to the millisecond, and a reversed clock or a rejected sample
@@ -100,8 +102,8 @@ use crate::math::Vec3;
 use crate::mount::Pose;
 use crate::rig::{Conditions, Rig, MAX_WIND_SPEED_MPS};
 use crate::sense::{
-    Check, Fault, FaultSet, LevelCapture, MeanWind, Millis, Sensor, TiltSensor, WindDirection,
-    WindReport, WindStats,
+    Check, Fault, FaultSet, LevelCapture, MeanWind, Millis, Sensor, TiltReading, TiltSensor,
+    WindDirection, WindReport, WindStats,
 };
 use crate::sky::ParkRequest;
 use crate::torque::Posed;
@@ -247,8 +249,11 @@ pub struct Verdict {
     /// Direction used, radians from north clockwise (the worst one when the
     /// measured direction is not defined).
     pub wind_from_rad: Option<f32>,
-    /// Present ground tilt.
-    pub tilt: Option<Tilt>,
+    /// Present ground tilt, its angles worked out on demand
+    /// ([`TiltReading::tilt`]); `None` before the first accelerometer
+    /// sample, without a required level reference, or beyond 45° (then a
+    /// fault says so).
+    pub tilt: Option<TiltReading>,
     /// Extra tilt that would tip the rig with no wind, radians.
     pub tilt_margin_rad: Option<f32>,
     /// Rate of slow tilt change (a sinking leg), rad/s, any direction,
@@ -513,8 +518,9 @@ impl<'r> Guard<'r> {
         };
         let (mut events, mut faults) = (EventLog::default(), FaultSet::new());
         let means = self.config.wind_source == WindSource::TenMinuteMeans;
-        // The verdict's tilt, with the accelerometer's faults (one pass).
-        let tilt = self.tilt.faults_into_and_tilt(now, &mut faults);
+        // The verdict's tilt reading, with the accelerometer's faults (one
+        // pass; no angle computed).
+        let tilt = self.tilt.faults_into_and_reading(now, &mut faults);
         if means {
             faults.extend(&self.means.faults(now));
         } else {

@@ -31,7 +31,7 @@ mod wind;
 pub use fault::{Check, Fault, FaultSet, Sensor, FAULT_SET_CAPACITY};
 pub use tilt::{
     lowpass_alpha, tilt_of_specific_force, LevelCapture, Mounting, SignedAxis, TiltConfig,
-    TiltReference, TiltSensor,
+    TiltReading, TiltReference, TiltSensor,
 };
 pub use wind::{
     gust_from_mean, log_profile_factor, GustBasis, MeanWind, TerrainCategory, WindConfig,

@@ -382,6 +382,116 @@ pub fn tilt_of_specific_force(a: Vec3) -> Result<Tilt, Error> {
     Tilt::new(magnitude, frame::azimuth_of(-a))
 }
 
+/// One step's ground tilt as the guard measured it, with its angles worked
+/// out only when asked: the fast-filtered specific force in the rig frame
+/// (relative to the level reference when the configuration uses one), in g.
+///
+/// The guard steps at the accelerometer's rate, and the two arc tangents of
+/// a [`Tilt`] cost more than the rest of a step between evaluations; a
+/// caller that needs the angles of every step (a chart, a log) pays for
+/// them, one that tests the level or the faults does not.
+///
+/// A reading exists only for a valid tilt: its vector is finite and not
+/// zero, and its magnitude is at most [`MAX_TILT_RAD`] (exactly where
+/// [`tilt_of_specific_force`] succeeds). [`TiltReading::tilt`] is then, bit
+/// for bit, what [`tilt_of_specific_force`] returns for the vector, and what
+/// [`TiltSensor::tilt`] returns for the same sensor state.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct TiltReading {
+    force_g: Vec3,
+}
+
+impl TiltReading {
+    /// The reading of the specific force `v` (rig frame, any scale), or
+    /// `None` where [`tilt_of_specific_force`] fails for it. The usual
+    /// case (a vector of a sensible length within 40° of +z) is settled by
+    /// two comparisons, without a square root or an arc tangent; any other
+    /// is settled by the exact test.
+    #[must_use]
+    pub fn of_specific_force(v: Vec3) -> Option<TiltReading> {
+        let d = v.dot(v);
+        // √d > 1e-12 and finite: certain for a finite d ≥ 1e-22 (√1e-22 =
+        // 1e-11, whatever the square root's last bit); else tested as
+        // `tilt_of_specific_force` does.
+        let length_ok = (d >= 1e-22 && d.is_finite()) || {
+            let n = math::sqrt(d);
+            n > 1e-12 && n.is_finite()
+        };
+        if !length_ok {
+            return None;
+        }
+        let reading = TiltReading { force_g: v };
+        if atan2_certainly_at_most(v.x * v.x + v.y * v.y, v.z, MAX_TILT_RAD) {
+            return Some(reading);
+        }
+        let magnitude = tilt_magnitude(v);
+        // In the closed range 0 to MAX_TILT_RAD: finite too (NaN is in no
+        // range). Written out: `RangeInclusive::contains` stays a function
+        // of its own in the size-optimised firmware.
+        #[allow(clippy::manual_range_contains)]
+        let in_range = magnitude >= 0.0 && magnitude <= MAX_TILT_RAD;
+        in_range.then_some(reading)
+    }
+
+    /// The specific force the reading is of: rig frame (relative to the
+    /// level reference when one is in use), g, +z up when level.
+    #[must_use]
+    pub fn specific_force_g(&self) -> Vec3 {
+        self.force_g
+    }
+
+    /// The tilt's magnitude, radians, 0 to [`MAX_TILT_RAD`]: the
+    /// `magnitude_rad` of [`TiltReading::tilt`] (one arc tangent).
+    #[must_use]
+    pub fn magnitude_rad(&self) -> f32 {
+        tilt_magnitude(self.force_g)
+    }
+
+    /// The azimuth the ground falls away to: the `downhill_azimuth_rad` of
+    /// [`TiltReading::tilt`], rig frame, radians from north clockwise, in
+    /// [0, 2π) (one arc tangent).
+    #[must_use]
+    pub fn downhill_azimuth_rad(&self) -> f32 {
+        frame::azimuth_of(-self.force_g)
+    }
+
+    /// The tilt: magnitude and downhill azimuth (rig frame, radians from
+    /// north clockwise, [0, 2π)), computed now (two arc tangents).
+    #[must_use]
+    pub fn tilt(&self) -> Tilt {
+        Tilt {
+            magnitude_rad: tilt_magnitude(self.force_g),
+            downhill_azimuth_rad: frame::azimuth_of(-self.force_g),
+        }
+    }
+
+    /// True when this reading's [`TiltReading::magnitude_rad`] is certainly
+    /// below `other`'s, found without an arc tangent or a square root (a
+    /// chart keeping the largest tilt of many steps computes the angle only
+    /// for a step that may beat it); `false` means "not known": compare the
+    /// magnitudes.
+    ///
+    /// Both tilts are at most 45°, so both vectors have z > 0, and the tilt
+    /// grows with tan²θ = (x² + y²)/z². The test asks for tan²θ below
+    /// `other`'s by a factor 1 − 10⁻⁴, so the true angles differ by more
+    /// than 2.5·10⁻⁵ of the larger one (up to 45°, d(atan t)/atan t ≥ 0.64 ·
+    /// dt/t); the products here are within a few units in the last place
+    /// (about 10⁻⁶), and [`TiltReading::magnitude_rad`] is within 10⁻⁶ of
+    /// the true angle, relative, with either math back end (its series and
+    /// a square root correct to f32 rounding), so the computed magnitudes
+    /// keep the order. `other`'s x² + y² must be at least 10⁻²⁰ (a tilt of
+    /// about 10⁻¹⁰ rad), where nothing in the angle is subnormal.
+    #[must_use]
+    pub fn certainly_less_steep_than(&self, other: &TiltReading) -> bool {
+        let (a, b) = (self.force_g, other.force_g);
+        let (ha, hb) = (a.x * a.x + a.y * a.y, b.x * b.x + b.y * b.y);
+        let lhs = ha * (b.z * b.z);
+        let rhs = hb * (a.z * a.z) * (1.0 - 1e-4);
+        a.z > 0.0 && b.z > 0.0 && hb >= 1e-20 && rhs.is_finite() && lhs < rhs
+    }
+}
+
 /// The tilt magnitude of [`tilt_of_specific_force`], radians, unchecked:
 /// atan2(√(ax² + ay²), az).
 fn tilt_magnitude(a: Vec3) -> f32 {
@@ -791,15 +901,29 @@ impl TiltSensor {
         }
     }
 
-    /// [`TiltSensor::faults_into`] and [`TiltSensor::tilt`] at once, for the
-    /// guard's step: the same faults added to `set`, the same tilt
-    /// returned, with the tilt's magnitude computed once for both.
-    pub(crate) fn faults_into_and_tilt(&self, now: Millis, set: &mut FaultSet) -> Option<Tilt> {
+    /// [`TiltSensor::faults_into`] and [`TiltSensor::reading`] at once, for
+    /// the guard's step: the same faults added to `set`, the same reading
+    /// returned. A valid reading is within 45°, so the tilt-beyond-limit
+    /// test needs the angle only when there is none.
+    pub(crate) fn faults_into_and_reading(
+        &self,
+        now: Millis,
+        set: &mut FaultSet,
+    ) -> Option<TiltReading> {
         self.sample_faults_into(now, set);
         let v = self.referenced(self.filtered_g()?)?;
-        let magnitude = tilt_magnitude(v);
-        beyond_limit_into(magnitude, set);
-        tilt_of_magnitude(v, magnitude)
+        let reading = TiltReading::of_specific_force(v);
+        if reading.is_none() {
+            beyond_limit_into(tilt_magnitude(v), set);
+        }
+        reading
+    }
+
+    /// The present tilt reading: [`TiltSensor::tilt`] with the angles left
+    /// to [`TiltReading::tilt`] (`None` exactly where that is).
+    #[must_use]
+    pub fn reading(&self) -> Option<TiltReading> {
+        TiltReading::of_specific_force(self.referenced(self.filtered_g()?)?)
     }
 
     /// The faults of [`TiltSensor::faults`] but the tilt beyond the limit:
@@ -856,6 +980,133 @@ impl TiltSensor {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A deterministic stream of numbers in [0, 1) (xorshift32).
+    struct Stream(u32);
+
+    impl Stream {
+        fn next(&mut self) -> f32 {
+            self.0 ^= self.0 << 13;
+            self.0 ^= self.0 >> 17;
+            self.0 ^= self.0 << 5;
+            #[allow(clippy::cast_precision_loss)]
+            let x = (self.0 >> 8) as f32 / 16_777_216.0;
+            x
+        }
+
+        /// A specific force of length about 0.9 to 1.1 g, tilted up to
+        /// 50° (past the limit) toward any azimuth; often a tilt of a few
+        /// thousandths, as on a level pier.
+        fn force(&mut self) -> Vec3 {
+            let steep = self.next() < 0.5;
+            let m = if steep {
+                0.88 * self.next()
+            } else {
+                0.005 * self.next()
+            };
+            let a = 6.3 * self.next();
+            let g = 0.9 + 0.2 * self.next();
+            let (sm, cm) = (math::sin(m), math::cos(m));
+            Vec3::new(-g * sm * math::sin(a), -g * sm * math::cos(a), g * cm)
+        }
+    }
+
+    // A reading exists exactly where `tilt_of_specific_force` succeeds, and
+    // its angles are that function's, bit for bit: at random forces, at the
+    // 45° limit, and at zero, tiny, huge and non-finite vectors.
+    #[test]
+    fn a_reading_is_the_tilt_of_its_specific_force() {
+        let mut r = Stream(0x9e37_79b9);
+        let edge = MAX_TILT_RAD;
+        let at_edge = |d: f32, k: f32| {
+            let m = edge + d;
+            Vec3::new(k * math::sin(m), 0.0, k * math::cos(m))
+        };
+        let special = [
+            at_edge(-2e-7, 1.0),
+            at_edge(-1e-7, 3.0),
+            at_edge(0.0, 1.0),
+            at_edge(1e-7, 0.5),
+            at_edge(2e-7, 1.0),
+            Vec3::ZERO,
+            Vec3::new(0.0, 0.0, 1e-13),
+            Vec3::new(0.0, 0.0, 1e-11),
+            Vec3::new(1e-12, 0.0, 5e-12),
+            Vec3::new(0.0, 0.0, 3e19),
+            Vec3::new(1e19, 0.0, 3e19),
+            Vec3::new(f32::NAN, 0.0, 1.0),
+            Vec3::new(0.0, 0.0, f32::INFINITY),
+            Vec3::new(0.0, 0.0, -1.0),
+        ];
+        let forces = (0..20_000).map(|_| r.force()).chain(special);
+        for v in forces {
+            let want = tilt_of_specific_force(v).ok();
+            let got = TiltReading::of_specific_force(v);
+            assert_eq!(got.is_some(), want.is_some(), "{v:?}");
+            if let (Some(g), Some(w)) = (got, want) {
+                let t = g.tilt();
+                assert_eq!(t.magnitude_rad.to_bits(), w.magnitude_rad.to_bits());
+                assert_eq!(
+                    t.downhill_azimuth_rad.to_bits(),
+                    w.downhill_azimuth_rad.to_bits()
+                );
+                assert_eq!(g.magnitude_rad().to_bits(), w.magnitude_rad.to_bits());
+                assert_eq!(
+                    g.downhill_azimuth_rad().to_bits(),
+                    w.downhill_azimuth_rad.to_bits()
+                );
+            }
+        }
+    }
+
+    // "Certainly less steep" is never wrong: whenever it says so, the
+    // computed magnitude is lower; and it says so for most pairs that are
+    // not close. Pairs at random, and pairs a relative 10⁻⁶ to 10⁻³ apart
+    // in tan²θ (scaled lengths, turned azimuths), where the margin is tested.
+    #[test]
+    fn certainly_less_steep_is_never_wrong() {
+        let mut r = Stream(0x2545_f491);
+        let (mut said, mut pairs) = (0_u32, 0_u32);
+        for _ in 0..200_000 {
+            let Some(a) = TiltReading::of_specific_force(r.force()) else {
+                continue;
+            };
+            let near = r.next() < 0.5;
+            let b = if near {
+                let v = a.specific_force_g();
+                let w = r.next();
+                let k = 1.0 + (r.next() - 0.5) * 4e-3 * w * w * w * w * w;
+                let turn = r.next() * 6.3;
+                let (s, c) = (math::sin(turn), math::cos(turn));
+                let (x, y) = (v.x * c - v.y * s, v.x * s + v.y * c);
+                // The same tilt at another length, then nudged.
+                let g = 2.0 * r.next() + 0.5;
+                Vec3::new(x * k * g, y * k * g, v.z * g)
+            } else {
+                r.force()
+            };
+            let Some(b) = TiltReading::of_specific_force(b) else {
+                continue;
+            };
+            for (p, q) in [(a, b), (b, a)] {
+                pairs += 1;
+                if p.certainly_less_steep_than(&q) {
+                    said += 1;
+                    assert!(
+                        p.magnitude_rad() < q.magnitude_rad(),
+                        "{p:?} {q:?}: {} {}",
+                        p.magnitude_rad(),
+                        q.magnitude_rad()
+                    );
+                }
+            }
+        }
+        // About half the far pairs, a good share of the near ones.
+        assert!(said > pairs / 5, "{said} of {pairs}");
+        // Never for itself, a level reading, or a level `other`.
+        let level = TiltReading::of_specific_force(Vec3::Z).map(|l| (l, l));
+        assert!(level.is_some_and(|(l, m)| !l.certainly_less_steep_than(&m)));
+    }
 
     #[test]
     fn small_angle_series_matches_atan() {

@@ -44,6 +44,7 @@ impl Figures {
     /// The figures of verdict `v`, radians turned into degrees.
     #[must_use]
     pub fn of(v: &Verdict) -> Figures {
+        let tilt = v.tilt.map(|r| r.tilt());
         Figures {
             overturning_utilisation: v.overturning_utilisation,
             predicted_utilisation: v.predicted_utilisation,
@@ -53,8 +54,8 @@ impl Figures {
             gust_mps: v.gust_mps,
             predicted_gust_mps: v.predicted_gust_mps,
             wind_from_deg: v.wind_from_rad.map(f32::to_degrees),
-            tilt_deg: v.tilt.map(|t| t.magnitude_rad.to_degrees()),
-            tilt_downhill_deg: v.tilt.map(|t| t.downhill_azimuth_rad.to_degrees()),
+            tilt_deg: tilt.map(|t| t.magnitude_rad.to_degrees()),
+            tilt_downhill_deg: tilt.map(|t| t.downhill_azimuth_rad.to_degrees()),
             tilt_margin_deg: v.tilt_margin_rad.map(f32::to_degrees),
         }
     }

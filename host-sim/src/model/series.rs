@@ -15,6 +15,7 @@
 
 use serde::Serialize;
 use standfast::guard::{AlertLevel, Verdict};
+use standfast::TiltReading;
 
 use crate::model::figures::Figures;
 
@@ -212,6 +213,24 @@ pub struct Series {
     /// The frame of the pose angles: `equatorial`, `horizontal` or `axes`
     /// (the first pose's; a pose in another frame is not charted).
     pub pose_frame: Option<&'static str>,
+    /// Of the tilt readings taken into the last bucket whose angle was
+    /// computed, the steepest, with that angle in degrees. The bucket's
+    /// highest tilt is at least that angle and only rises while the bucket
+    /// is the last (a coarsening merges it into a wider one), so a reading
+    /// [certainly less steep](TiltReading::certainly_less_steep_than) than
+    /// this one cannot be the new highest: its angles are not computed.
+    /// Reset when a new bucket opens.
+    #[serde(skip)]
+    tilt_screen: Option<(TiltReading, f32)>,
+}
+
+/// Makes `(r, deg)` the series' tilt screen when it is steeper than the
+/// screen's (or there is none): `deg` is `r`'s magnitude in degrees, as
+/// computed for the chart.
+fn screen_with(screen: &mut Option<(TiltReading, f32)>, r: TiltReading, deg: f32) {
+    if screen.is_none_or(|(_, d)| deg > d) {
+        *screen = Some((r, deg));
+    }
 }
 
 /// Most wind gaps a series keeps.
@@ -248,6 +267,7 @@ impl Series {
             wind_gaps: Vec::new(),
             wind_gaps_not_kept: 0,
             pose_frame: None,
+            tilt_screen: None,
         }
     }
 
@@ -303,11 +323,19 @@ impl Series {
         let repeated = !v.evaluated && self.last_evaluated.is_some();
         debug_assert!(!repeated || self.last_evaluated == Some(Evaluated::of(v)));
         if repeated {
-            if let Some(t) = &v.tilt {
-                p.peak
-                    .keep_higher_tilt(Some(t.magnitude_rad.to_degrees()), || {
-                        Some(t.downhill_azimuth_rad.to_degrees())
+            // The tilt's angles only for a reading that may be the
+            // bucket's highest (`tilt_screen`).
+            if let Some(r) = &v.tilt {
+                let screened = self
+                    .tilt_screen
+                    .is_some_and(|(s, _)| r.certainly_less_steep_than(&s));
+                if !screened {
+                    let deg = r.magnitude_rad().to_degrees();
+                    p.peak.keep_higher_tilt(Some(deg), || {
+                        Some(r.downhill_azimuth_rad().to_degrees())
                     });
+                    screen_with(&mut self.tilt_screen, *r, deg);
+                }
             }
         } else {
             if let Some(u) = v.overturning_utilisation.filter(|u| u.is_finite()) {
@@ -319,6 +347,9 @@ impl Series {
             let mut f = Figures::of(v);
             f.wind_from_deg = f.wind_from_deg.map(|d| d.rem_euclid(360.0));
             p.peak.keep_extremes(&f);
+            if let (Some(r), Some(deg)) = (v.tilt, f.tilt_deg) {
+                screen_with(&mut self.tilt_screen, r, deg);
+            }
             self.last_evaluated = Some(Evaluated::of(v));
         }
         if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
@@ -367,6 +398,7 @@ impl Series {
             let start = k as f64 * self.width_s;
             self.points.push(SeriesPoint::empty(start, t_s));
             self.last_index = k;
+            self.tilt_screen = None;
         }
         #[allow(clippy::cast_precision_loss)] // k < 2000
         let start = self.last_index as f64 * self.width_s;
@@ -381,7 +413,15 @@ mod tests {
     use super::*;
     use proptest::prelude::*;
     use standfast::sense::FaultSet;
-    use standfast::{Millis, PierSide, Pose, Tilt};
+    use standfast::{Millis, PierSide, Pose, Vec3};
+
+    /// The reading of a tilt of `m` rad falling away toward `a` rad: the
+    /// specific force (−sin m sin a, −sin m cos a, cos m).
+    fn reading(m: f32, a: f32) -> Option<TiltReading> {
+        let (sm, cm) = m.sin_cos();
+        let (sa, ca) = a.sin_cos();
+        TiltReading::of_specific_force(Vec3::new(-sm * sa, -sm * ca, cm))
+    }
 
     /// A verdict as the guard gives it: `figures` stands for everything an
     /// evaluation sets, the tilt and pose for what changes every step.
@@ -409,10 +449,7 @@ mod tests {
             gust_mps: some(f / 3.0),
             predicted_gust_mps: some(f / 2.0),
             wind_from_rad: some(f * 0.9 - 3.0),
-            tilt: tilt.map(|(m, a)| Tilt {
-                magnitude_rad: m,
-                downhill_azimuth_rad: a,
-            }),
+            tilt: tilt.and_then(|(m, a)| reading(m, a)),
             tilt_margin_rad: some(0.3 - f / 1000.0),
             tilt_drift_rad_per_s: 0.0,
             pose: match pose % 3 {
@@ -539,7 +576,12 @@ mod tests {
                 if new_figures {
                     figures = f;
                 }
-                let tilt = (tilt > 0).then(|| (f32::from(tilt) / 20_000.0, f32::from(tilt) / 100.0));
+                // Equal magnitudes toward different azimuths too (their
+                // vectors differ, their angles may differ in the last bit),
+                // and magnitudes a relative 0 to 2·10⁻⁴ apart, around the
+                // tilt screen's margin.
+                let m = f32::from(1 + tilt % 8) / 2_000.0 * (1.0 + f32::from(f % 16) * 1.5e-5);
+                let tilt = (tilt >= 50).then(|| (m, f32::from(f) / 32.0));
                 let v = verdict(figures, new_figures, tilt, pose, level);
                 let w = wind.then_some(f64::from(f) / 10.0);
                 let c = match cover { 0 => None, 1 => Some(false), _ => Some(true) };
