@@ -505,6 +505,87 @@ impl<'r> Guard<'r> {
     /// be computed become faults in the verdict (module docs, "Fail safe");
     /// nothing panics.
     pub fn step(&mut self, now: Millis, inputs: &Inputs) -> Verdict {
+        let (mut faults, mut events) = (FaultSet::new(), EventLog::default());
+        let (now, tilt, evaluated) = self.advance(now, inputs, &mut faults, &mut events);
+        let fig = &self.shown;
+        Verdict {
+            now,
+            level: self.level,
+            overturning_utilisation: fig.overturning,
+            predicted_utilisation: fig.predicted,
+            sliding_utilisation: fig.sliding,
+            drive_utilisation: fig.drive,
+            tip_wind_mps: fig.tip_wind_mps,
+            gust_mps: fig.gust_mps,
+            predicted_gust_mps: fig.predicted_gust_mps,
+            wind_from_rad: fig.from_rad,
+            tilt,
+            tilt_margin_rad: fig.tilt_margin_rad,
+            tilt_drift_rad_per_s: fig.drift_rad_per_s,
+            pose: self.pose,
+            park_pose: self.park_pose_shown(),
+            faults: or_fresh_faults(faults),
+            events: or_fresh_events(events.events),
+            events_lost: events.lost,
+            evaluated,
+        }
+    }
+
+    /// [`Guard::step`], the verdict written into `out` (every field of it
+    /// replaced, whatever it held): the same verdict, without building one
+    /// and copying it, for a caller that keeps verdicts in place (a buffer
+    /// of them, a static).
+    pub fn step_into(&mut self, now: Millis, inputs: &Inputs, out: &mut Verdict) {
+        out.faults.clear();
+        let mut events = EventLog::default();
+        let (now, tilt, evaluated) = self.advance(now, inputs, &mut out.faults, &mut events);
+        let fig = &self.shown;
+        out.now = now;
+        out.level = self.level;
+        out.overturning_utilisation = fig.overturning;
+        out.predicted_utilisation = fig.predicted;
+        out.sliding_utilisation = fig.sliding;
+        out.drive_utilisation = fig.drive;
+        out.tip_wind_mps = fig.tip_wind_mps;
+        out.gust_mps = fig.gust_mps;
+        out.predicted_gust_mps = fig.predicted_gust_mps;
+        out.wind_from_rad = fig.from_rad;
+        out.tilt = tilt;
+        out.tilt_margin_rad = fig.tilt_margin_rad;
+        out.tilt_drift_rad_per_s = fig.drift_rad_per_s;
+        out.pose = self.pose;
+        out.park_pose = self.park_pose_shown();
+        if events.events.is_empty() {
+            out.events.clear();
+        } else {
+            out.events = events.events;
+        }
+        out.events_lost = events.lost;
+        out.evaluated = evaluated;
+    }
+
+    /// The park pose a verdict shows: the one found, while a park is
+    /// requested.
+    fn park_pose_shown(&self) -> Option<Pose> {
+        if self.level.park_requested() {
+            self.park_pose
+        } else {
+            None
+        }
+    }
+
+    /// The work of one step ([`Guard::step`]): takes the inputs, evaluates
+    /// when due and decides, with the step's faults added to `faults`
+    /// (empty on entry) and its events to `events`. Returns the step's time
+    /// (the previous step's when the clock went backwards), the tilt reading
+    /// and whether the physics ran.
+    fn advance(
+        &mut self,
+        now: Millis,
+        inputs: &Inputs,
+        faults: &mut FaultSet,
+        events: &mut EventLog,
+    ) -> (Millis, Option<TiltReading>, bool) {
         let mut rejected = FaultSet::new();
         let now = if now < self.last_step {
             rejected.push(Fault::TimeReversed {
@@ -516,15 +597,14 @@ impl<'r> Guard<'r> {
             self.take_inputs(now, inputs, &mut rejected);
             now
         };
-        let (mut events, mut faults) = (EventLog::default(), FaultSet::new());
         let means = self.config.wind_source == WindSource::TenMinuteMeans;
         // The verdict's tilt reading, with the accelerometer's faults (one
         // pass; no angle computed).
-        let tilt = self.tilt.faults_into_and_reading(now, &mut faults);
+        let tilt = self.tilt.faults_into_and_reading(now, faults);
         if means {
             faults.extend(&self.means.faults(now));
         } else {
-            self.wind.faults_into(now, &mut faults);
+            self.wind.faults_into(now, faults);
         }
         faults.extend(&rejected);
         let due = self.last_eval.is_none_or(|(t, pose, cover)| {
@@ -578,7 +658,7 @@ impl<'r> Guard<'r> {
             }
         }
         faults.extend(&self.eval_faults);
-        self.decide(now, &faults, &mut events);
+        self.decide(now, faults, events);
         // The park pose is searched only while a park is requested, once per
         // evaluation (it costs one assessment per candidate).
         if self.level.park_requested() && (due || self.park_pose.is_none()) {
@@ -593,38 +673,12 @@ impl<'r> Guard<'r> {
                     // next decision sees the fault.
                     self.eval_faults.push(f);
                     faults.push(f);
-                    self.note_new_faults(&faults, &mut events);
+                    self.note_new_faults(faults, events);
                     self.rig.mount().home_pose()
                 }
             });
         }
-
-        let fig = &self.shown;
-        Verdict {
-            now,
-            level: self.level,
-            overturning_utilisation: fig.overturning,
-            predicted_utilisation: fig.predicted,
-            sliding_utilisation: fig.sliding,
-            drive_utilisation: fig.drive,
-            tip_wind_mps: fig.tip_wind_mps,
-            gust_mps: fig.gust_mps,
-            predicted_gust_mps: fig.predicted_gust_mps,
-            wind_from_rad: fig.from_rad,
-            tilt,
-            tilt_margin_rad: fig.tilt_margin_rad,
-            tilt_drift_rad_per_s: fig.drift_rad_per_s,
-            pose: self.pose,
-            park_pose: if self.level.park_requested() {
-                self.park_pose
-            } else {
-                None
-            },
-            faults: or_fresh_faults(faults),
-            events: or_fresh_events(events.events),
-            events_lost: events.lost,
-            evaluated: due,
-        }
+        (now, tilt, due)
     }
 
     /// Feeds the samples of one step to their processors; every rejected

@@ -3,9 +3,9 @@
 //! runs, the other with every shortcut forgotten before every step
 //! ([`Guard::forget_shortcuts`]: every decision a full transition, every
 //! wind channel checked, every gust recomputed, every minute found by
-//! division). Their verdicts and decision memories must be the same, value
-//! for value (compared as their `Debug` text, which tells −0 from +0), at
-//! every step.
+//! division), writing its verdicts into one it reuses ([`Guard::step_into`]).
+//! Their verdicts and decision memories must be the same, value for value
+//! (compared as their `Debug` text, which tells −0 from +0), at every step.
 //!
 //! The traces are built to meet the shortcuts' edges: steps of 1 ms to a
 //! minute, often exactly one fine wind bin (250 ms), a second or a stale
@@ -250,6 +250,7 @@ fn compare(rig: &Rig, config: &GuardConfig, seed: u64, steps: usize, taken: &mut
     // steps), half mostly clean, in which the levels and dwells play out.
     let rough = rng.chance(50);
     let bad = if rough { rng.pick(&[0, 1, 5]) } else { 0 };
+    let mut out: Option<Verdict> = None;
     for k in 0..steps {
         // Phases: a silent anemometer now and then; the wind strength
         // wanders from calm to past tipping.
@@ -286,8 +287,14 @@ fn compare(rig: &Rig, config: &GuardConfig, seed: u64, steps: usize, taken: &mut
 
         full.forget_shortcuts();
         let a = fast.step(t, &i);
-        let b = full.step(t, &i);
-        let (ta, tb) = (text(&a), text(&b));
+        // The full path writes into one verdict, reused from step to step
+        // (`Guard::step_into`: every field replaced, whatever it held).
+        match out.as_mut() {
+            Some(o) => full.step_into(t, &i, o),
+            None => out = Some(full.step(t, &i)),
+        }
+        let b = out.as_ref().unwrap();
+        let (ta, tb) = (text(&a), text(b));
         assert!(
             ta == tb,
             "seed {seed}, step {k}, t {t:?}, inputs {i:?}:\nshortcuts {ta}\nfull path {tb}"
@@ -443,4 +450,66 @@ fn the_next_timer_instant_is_the_earliest_ahead() {
         next_timer_instant(&late, &t, Millis(u64::MAX - 10)),
         u64::MAX
     );
+}
+
+/// `step_into` replaces every field of the verdict it writes, whatever it
+/// held: a verdict with other values in every field (full event and fault
+/// lists, events lost, a park pose, a tilt) is overwritten with the verdict
+/// `step` gives, at a quiet step and at a stormy one.
+#[test]
+fn step_into_replaces_every_field() {
+    let rig = rig();
+    let config = configs()[0].clone();
+    let mut a = Guard::new(&rig, config.clone(), Millis(0)).unwrap();
+    let mut b = a.clone();
+    for (k, wind) in [(1_u64, 1.0_f32), (2, 1.0), (3, 40.0), (4, 40.0)] {
+        let i = Inputs {
+            accel_raw: Some([0.01, 0.0, 1.0]),
+            wind: Some(WindSample {
+                speed_mps: wind,
+                from_rad: Some(1.0),
+            }),
+            ..Inputs::default()
+        };
+        let t = Millis(k * 1000);
+        let want = a.step(t, &i);
+        let mut out = want.clone();
+        out.now = Millis(99);
+        out.level = AlertLevel::Alarm;
+        out.overturning_utilisation = Some(9.0);
+        out.predicted_utilisation = None;
+        out.sliding_utilisation = Some(-1.0);
+        out.drive_utilisation = Some([7.0, 8.0]);
+        out.tip_wind_mps = Some(0.5);
+        out.gust_mps = Some(77.0);
+        out.predicted_gust_mps = None;
+        out.wind_from_rad = Some(-2.0);
+        out.tilt = crate::sense::TiltReading::of_specific_force(Vec3::new(0.3, 0.2, 1.0));
+        out.tilt_margin_rad = Some(-0.5);
+        out.tilt_drift_rad_per_s = 3.0;
+        out.pose = altaz(123.0, 4.0);
+        out.park_pose = Some(altaz(5.0, 6.0));
+        out.faults.clear();
+        for sensor in [
+            Sensor::WindSpeed,
+            Sensor::WindDirection,
+            Sensor::Accelerometer,
+        ] {
+            out.faults.push(Fault::NotFinite { sensor });
+            out.faults.push(Fault::Stale {
+                sensor,
+                silent_ms: 5,
+            });
+        }
+        out.events.clear();
+        for _ in 0..MAX_EVENTS {
+            let _ = out
+                .events
+                .push(Event::NewHighUtilisation { utilisation: 3.0 });
+        }
+        out.events_lost = 7;
+        out.evaluated = !want.evaluated;
+        b.step_into(t, &i, &mut out);
+        assert_eq!(text(&out), text(&want), "step {k}");
+    }
 }

@@ -353,6 +353,16 @@ impl FaultSet {
         }
     }
 
+    /// Empties the set (and its overflow mark), for reuse in place.
+    pub fn clear(&mut self) {
+        // Only the first `len` slots are ever filled.
+        for slot in self.items.iter_mut().take(usize::from(self.len)) {
+            *slot = None;
+        }
+        self.len = 0;
+        self.overflow = false;
+    }
+
     /// Adds every fault of `other`.
     pub fn extend(&mut self, other: &FaultSet) {
         // An empty set adds nothing (and carries no overflow): no iterator.
