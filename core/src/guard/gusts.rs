@@ -30,6 +30,7 @@ impl GustCache {
 
     /// The gust at `now`, m/s, and whether it was computed now: the cached
     /// one for the same bin (`false`), or `compute()` (then cached; `true`).
+    #[inline]
     pub(super) fn get_or(
         &mut self,
         now: Millis,

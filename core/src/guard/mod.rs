@@ -658,7 +658,16 @@ impl<'r> Guard<'r> {
             }
         }
         faults.extend(&self.eval_faults);
-        self.decide(now, faults, events);
+        // `decide`'s first shortcut for the usual step (no fault now or
+        // before, the decision standing), tested here without its call.
+        let stands = faults.is_empty()
+            && self.known_faults.is_empty()
+            && self
+                .decided
+                .is_some_and(|d| !d.on_fault && now.0 < d.until_ms);
+        if !stands {
+            self.decide(now, faults, events);
+        }
         // The park pose is searched only while a park is requested, once per
         // evaluation (it costs one assessment per candidate).
         if self.level.park_requested() && (due || self.park_pose.is_none()) {
