@@ -14,17 +14,22 @@
 //! 6. no figure is NaN; events beyond capacity are counted;
 //! 7. a verdict that did not evaluate shows the figures of the verdict
 //!    before it, bit for bit (`Verdict::evaluated`; the replay's report
-//!    relies on it).
+//!    relies on it);
+//! 8. a twin guard stepped with `Guard::step_into`, into one verdict reused
+//!    from step to step, gives the same verdict (its `Debug` text, which
+//!    tells NaN and −0 apart); a tilt reading is within 0 to 45° and its
+//!    angles are `tilt_of_specific_force`'s for its vector.
 //!
 //! Used by the property tests (`tests/checks/guard_props.rs`) and the fuzz
 //! target `guard_step` (`core/fuzz`).
 
 use crate::fixtures::{altaz, post_rig};
 use standfast::drive::{DriveRating, Drives};
+use standfast::frame::MAX_TILT_RAD;
 use standfast::guard::transition::{settled_below, wanted, Figures};
 use standfast::guard::{AlertLevel, Event, Guard, GuardConfig, Inputs, Verdict};
 use standfast::rig::{BodySpec, Rig, Stage as MountStage};
-use standfast::sense::Millis;
+use standfast::sense::{tilt_of_specific_force, Millis};
 use standfast::support::Support;
 
 /// The trace rig: a tripod with a 40 kg post and a tube on weak drives (rated 6 N·m), so
@@ -129,7 +134,10 @@ fn shown_bits(v: &Verdict) -> [u64; 12] {
 /// When `config` is invalid for `rig`.
 pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(), String> {
     let t = config.thresholds();
-    let mut guard = Guard::new(rig, config, Millis(1_000_000)).expect("a valid configuration");
+    let mut guard =
+        Guard::new(rig, config.clone(), Millis(1_000_000)).expect("a valid configuration");
+    let mut twin = Guard::new(rig, config, Millis(1_000_000)).expect("a valid configuration");
+    let mut reused: Option<Verdict> = None;
     if guard.level() != AlertLevel::SensorFault {
         return Err("a new guard must start in sensor_fault".to_owned());
     }
@@ -140,6 +148,7 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
     for (i, s) in trace.iter().enumerate() {
         if s.acknowledge {
             guard.acknowledge();
+            twin.acknowledge();
             latched = false;
         }
         now = now.saturating_add(s.dt_ms).clamp(0, i64::MAX / 2);
@@ -148,6 +157,28 @@ pub fn check_trace(rig: &Rig, config: GuardConfig, trace: &[Step]) -> Result<(),
         let v = guard.step(Millis(u64::try_from(now).unwrap_or(0)), &s.inputs);
         last_now = last_now.max(now);
         let fail = |what: &str| Err(format!("step {i}: {what}\nstep: {s:?}\nverdict: {v:?}"));
+
+        // 8.
+        let at = Millis(u64::try_from(now).unwrap_or(0));
+        match reused.as_mut() {
+            Some(r) => twin.step_into(at, &s.inputs, r),
+            None => reused = Some(twin.step(at, &s.inputs)),
+        }
+        if reused
+            .as_ref()
+            .is_none_or(|r| format!("{r:?}") != format!("{v:?}"))
+        {
+            return fail(&format!("step_into gave another verdict: {reused:?}"));
+        }
+        if let Some(r) = v.tilt {
+            let want = tilt_of_specific_force(r.specific_force_g()).ok();
+            let got = r.tilt();
+            if want.is_none_or(|w| format!("{w:?}") != format!("{got:?}"))
+                || !(0.0..=MAX_TILT_RAD).contains(&got.magnitude_rad)
+            {
+                return fail(&format!("a tilt reading's angles {got:?}, want {want:?}"));
+            }
+        }
 
         // 7.
         let bits = shown_bits(&v);
