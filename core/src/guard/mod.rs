@@ -279,14 +279,14 @@ pub struct Verdict {
     pub evaluated: bool,
 }
 
-/// The events of one step, counting those that do not fit.
-#[derive(Default)]
-struct EventLog {
-    events: Vec<Event, MAX_EVENTS>,
+/// The events of one step, written into the verdict's list, counting those
+/// that do not fit.
+struct EventLog<'v> {
+    events: &'v mut Vec<Event, MAX_EVENTS>,
     lost: u16,
 }
 
-impl EventLog {
+impl EventLog<'_> {
     fn push(&mut self, e: Event) {
         if self.events.push(e).is_err() {
             self.lost = self.lost.saturating_add(1);
@@ -505,8 +505,13 @@ impl<'r> Guard<'r> {
     /// be computed become faults in the verdict (module docs, "Fail safe");
     /// nothing panics.
     pub fn step(&mut self, now: Millis, inputs: &Inputs) -> Verdict {
-        let (mut faults, mut events) = (FaultSet::new(), EventLog::default());
+        let (mut faults, mut list) = (FaultSet::new(), Vec::new());
+        let mut events = EventLog {
+            events: &mut list,
+            lost: 0,
+        };
         let (now, tilt, evaluated) = self.advance(now, inputs, &mut faults, &mut events);
+        let events_lost = events.lost;
         let fig = &self.shown;
         Verdict {
             now,
@@ -525,8 +530,8 @@ impl<'r> Guard<'r> {
             pose: self.pose,
             park_pose: self.park_pose_shown(),
             faults: or_fresh_faults(faults),
-            events: or_fresh_events(events.events),
-            events_lost: events.lost,
+            events: or_fresh_events(list),
+            events_lost,
             evaluated,
         }
     }
@@ -537,8 +542,13 @@ impl<'r> Guard<'r> {
     /// of them, a static).
     pub fn step_into(&mut self, now: Millis, inputs: &Inputs, out: &mut Verdict) {
         out.faults.clear();
-        let mut events = EventLog::default();
+        out.events.clear();
+        let mut events = EventLog {
+            events: &mut out.events,
+            lost: 0,
+        };
         let (now, tilt, evaluated) = self.advance(now, inputs, &mut out.faults, &mut events);
+        out.events_lost = events.lost;
         let fig = &self.shown;
         out.now = now;
         out.level = self.level;
@@ -555,12 +565,6 @@ impl<'r> Guard<'r> {
         out.tilt_drift_rad_per_s = fig.drift_rad_per_s;
         out.pose = self.pose;
         out.park_pose = self.park_pose_shown();
-        if events.events.is_empty() {
-            out.events.clear();
-        } else {
-            out.events = events.events;
-        }
-        out.events_lost = events.lost;
         out.evaluated = evaluated;
     }
 
@@ -584,7 +588,7 @@ impl<'r> Guard<'r> {
         now: Millis,
         inputs: &Inputs,
         faults: &mut FaultSet,
-        events: &mut EventLog,
+        events: &mut EventLog<'_>,
     ) -> (Millis, Option<TiltReading>, bool) {
         let mut rejected = FaultSet::new();
         let now = if now < self.last_step {
@@ -742,7 +746,7 @@ impl<'r> Guard<'r> {
 
     /// Logs a [`Event::FaultRaised`] for each fault of a class not active in
     /// the previous step, and remembers the active set.
-    fn note_new_faults(&mut self, faults: &FaultSet, events: &mut EventLog) {
+    fn note_new_faults(&mut self, faults: &FaultSet, events: &mut EventLog<'_>) {
         // No fault now and none before: nothing to log, nothing to copy
         // (both sets are empty).
         if faults.is_empty() && self.known_faults.is_empty() {
@@ -794,7 +798,7 @@ impl<'r> Guard<'r> {
     /// no evaluation since (the same figures) and `now` before
     /// [`next_timer_instant`].
     #[inline(never)]
-    fn decide(&mut self, now: Millis, faults: &FaultSet, events: &mut EventLog) {
+    fn decide(&mut self, now: Millis, faults: &FaultSet, events: &mut EventLog<'_>) {
         self.note_new_faults(faults, events);
         let on_fault = !faults.is_empty();
         #[cfg(test)]
