@@ -5,8 +5,9 @@
 //! live samples: only channels with a new value at a record's time become
 //! [`Inputs`]. Memory does not grow with the log: per rig the replay keeps
 //! the closest approach of each figure, the time per level and (up to
-//! [`MAX_KEPT_EVENTS`]) the level changes and faults. The guards run on a
-//! second thread, overlapping the reading of the logs (see [`replay`]).
+//! [`MAX_KEPT_EVENTS`]) the level changes and faults. The guards, and what
+//! the replay keeps of their verdicts, run on a second thread, overlapping
+//! the reading of the logs (see [`replay`]).
 //!
 //! Conversions at the boundary (the log side is SI after the profile):
 //! * time: milliseconds since the first record ([`Millis`]);
@@ -731,61 +732,147 @@ pub trait ReplayObserver {
 }
 
 /// Records per batch handed from the reading thread to the guard thread.
-/// Small enough that the batches in circulation with their verdicts (about
-/// 400 bytes each on x86-64) stay in the processor's caches: with 4096 the
-/// replay bench took more CPU time and was slower.
+/// Small enough that the batches in circulation stay in the processor's
+/// caches: with 4096 the replay bench took more CPU time and was slower.
 const BATCH_RECORDS: usize = 1024;
 
 /// Batches in circulation between the two threads (being filled, waiting,
-/// being stepped, or back with their verdicts); with [`BATCH_RECORDS`] it
-/// fixes the memory of a replay, whatever the log's length.
+/// being stepped, or back with the verdicts the observer takes); with
+/// [`BATCH_RECORDS`] it fixes the memory of a replay, whatever the log's
+/// length.
 const BATCHES: usize = 4;
 
-/// One merged record as the replay uses it: its time in the units the
-/// replay needs, the guard inputs of the channels updated at it, and the
-/// held values the time series takes.
+/// One merged record as the guard thread takes it: its time stamp (the
+/// guard's clock and the report's times are derived from it there, see
+/// [`Clock`]), the guard inputs of the channels updated at it, and the
+/// values the time series takes.
 #[derive(Clone, Copy, Debug)]
 struct Step {
     time: Timestamp,
-    now: Millis,
-    t_s: f64,
-    dt_s: f64,
     inputs: Inputs,
+    /// The anemometer's sample at this record, m/s; `None` when the record
+    /// has no fresh one (a held value is not a reading, for the charts'
+    /// sample statistics).
     wind_speed_mps: Option<f64>,
+    /// Cover state held at this record (`None`: the logs do not say).
     cover_fitted: Option<bool>,
 }
 
-/// A batch of consecutive records and, once the guards have stepped
-/// through it, their verdicts (record by record, rig by rig). The `Vec`s
-/// are reused from batch to batch.
-struct Batch {
-    steps: Vec<Step>,
-    verdicts: Vec<Verdict>,
+/// A verdict for the observer ([`ReplayObserver::verdict`]): where it was
+/// taken and of which rig (0 for the first).
+struct Kept {
+    at: At,
+    rig: usize,
+    verdict: Verdict,
 }
 
-/// The guard thread of a replay: steps every guard through the batches in
-/// the order sent and sends each batch back with its verdicts. Ends when
+/// A batch of consecutive records and, once the guards have stepped
+/// through it, the verdicts the observer takes (record by record, rig by
+/// rig). The `Vec`s are reused from batch to batch.
+struct Batch {
+    steps: Vec<Step>,
+    kept: Vec<Kept>,
+}
+
+/// A record's times relative to the first record (`t0`) and to the one
+/// before (`last`), as the guard and the report take them.
+struct Clock {
+    t0: Timestamp,
+    last: Timestamp,
+}
+
+impl Clock {
+    /// The times of the next record, at `t`: the guard's clock
+    /// (milliseconds since the first record, 0 before it), seconds since
+    /// the first record, and seconds since the record before (0 for the
+    /// first record and when the time went back).
+    fn tick(&mut self, t: Timestamp) -> (Millis, f64, f64) {
+        let dt_s = t.seconds_since(self.last).max(0.0);
+        self.last = t;
+        (millis_since(t, self.t0), t.seconds_since(self.t0), dt_s)
+    }
+}
+
+/// One rig on the guard thread: its guard, whether it takes the log's
+/// cover channel, and what the replay keeps of its verdicts.
+struct RigRun<'r> {
+    guard: Guard<'r>,
+    cover_input: bool,
+    tracker: Tracker,
+}
+
+impl RigRun<'_> {
+    /// Steps the guard at `now` with `inputs`, without the cover state when
+    /// the rig does not take it.
+    fn step(&mut self, now: Millis, inputs: &Inputs) -> Verdict {
+        if self.cover_input || inputs.cover_fitted.is_none() {
+            self.guard.step(now, inputs)
+        } else {
+            let without_cover = Inputs {
+                cover_fitted: None,
+                ..*inputs
+            };
+            self.guard.step(now, &without_cover)
+        }
+    }
+}
+
+/// Whether verdict `v` has an event the observer always takes: a level
+/// change or a fault.
+fn has_event(v: &Verdict) -> bool {
+    v.events
+        .iter()
+        .any(|e| !matches!(e, Event::NewHighUtilisation { .. }))
+}
+
+/// The guard thread of a replay: steps every rig's guard through the
+/// batches in the order sent, keeps what the replay keeps of each verdict
+/// (closest approaches, level times and events, the time series) where the
+/// verdict is, and sends each batch back with the verdicts the observer
+/// takes: with `observe_every` = `Some(k)`, those of every k-th record
+/// and those with a level change or fault event ([`has_event`]). Ends when
 /// the reading side hangs up.
 fn step_guards(
-    guards: &mut [Guard<'_>],
-    cover_input: &[bool],
+    rigs: &mut [RigRun<'_>],
+    observe_every: Option<u64>,
     batches: &std::sync::mpsc::Receiver<Batch>,
     stepped: &std::sync::mpsc::SyncSender<Batch>,
 ) {
+    let mut clock: Option<Clock> = None;
+    // Records stepped so far.
+    let mut n: u64 = 0;
     for mut b in batches {
-        b.verdicts.clear();
-        for s in &b.steps {
-            for (g, takes_cover) in guards.iter_mut().zip(cover_input) {
-                let v = if *takes_cover || s.inputs.cover_fitted.is_none() {
-                    g.step(s.now, &s.inputs)
-                } else {
-                    let without_cover = Inputs {
-                        cover_fitted: None,
-                        ..s.inputs
-                    };
-                    g.step(s.now, &without_cover)
+        b.kept.clear();
+        if let Some(first) = b.steps.first() {
+            let clock = clock.get_or_insert(Clock {
+                t0: first.time,
+                last: first.time,
+            });
+            for s in &b.steps {
+                let (now, t_s, dt_s) = clock.tick(s.time);
+                let at = At {
+                    time: s.time,
+                    t_s,
+                    cover: s.cover_fitted,
                 };
-                b.verdicts.push(v);
+                for (rig, r) in rigs.iter_mut().enumerate() {
+                    let v = r.step(now, &s.inputs);
+                    r.tracker.take(&v, at, dt_s);
+                    r.tracker
+                        .report
+                        .series
+                        .push(t_s, &v, s.wind_speed_mps, s.cover_fitted);
+                    if let Some(every) = observe_every {
+                        if n % every == 0 || has_event(&v) {
+                            b.kept.push(Kept {
+                                at,
+                                rig,
+                                verdict: v,
+                            });
+                        }
+                    }
+                }
+                n += 1;
             }
         }
         if stepped.send(b).is_err() {
@@ -794,47 +881,17 @@ fn step_guards(
     }
 }
 
-/// What the replay keeps of a stepped batch, in record order: closest
-/// approaches, level times and events, the time series and the verdict
-/// CSV. `n` counts the records taken so far.
+/// Hands the verdicts kept in a stepped batch to the observer, in record
+/// order.
 ///
 /// # Errors
 /// [`Error::Io`] when the verdict CSV cannot be written (at the first
-/// line that fails, as records are taken in order).
-fn take_batch(
-    b: &Batch,
-    trackers: &mut [Tracker],
-    n: &mut u64,
-    every: u64,
-    observer: &mut Option<&mut dyn ReplayObserver>,
-) -> Result<(), Error> {
-    let mut observer = observer.as_mut().filter(|o| o.wants_verdicts());
-    let mut vs = b.verdicts.iter();
-    for s in &b.steps {
-        for (i, tr) in trackers.iter_mut().enumerate() {
-            let Some(v) = vs.next() else {
-                return Ok(());
-            };
-            let at = At {
-                time: s.time,
-                t_s: s.t_s,
-                cover: s.cover_fitted,
-            };
-            tr.take(v, at, s.dt_s);
-            tr.report
-                .series
-                .push(s.t_s, v, s.wind_speed_mps, s.cover_fitted);
-            if let Some(o) = observer.as_mut() {
-                let has_event = v
-                    .events
-                    .iter()
-                    .any(|e| !matches!(e, Event::NewHighUtilisation { .. }));
-                if *n % every == 0 || has_event {
-                    o.verdict(s.time, s.t_s, i, v, s.cover_fitted)?;
-                }
-            }
+/// line that fails).
+fn hand_out(b: &Batch, observer: &mut Option<&mut dyn ReplayObserver>) -> Result<(), Error> {
+    if let Some(o) = observer.as_mut() {
+        for k in &b.kept {
+            o.verdict(k.at.time, k.at.t_s, k.rig, &k.verdict, k.at.cover)?;
         }
-        *n += 1;
     }
     Ok(())
 }
@@ -896,20 +953,65 @@ fn report_of(
     }
 }
 
+/// Reads the next records into `b` (emptied first) until it holds
+/// [`BATCH_RECORDS`] or the merge ends, and tells the observer the
+/// progress every [`PROGRESS_EVERY`] records (`n_read` counts the records
+/// read). Returns whether the merge has ended: at its end, or at an error,
+/// which it puts in `read_error`.
+fn fill_batch(
+    b: &mut Batch,
+    merger: &mut Merger,
+    n_read: &mut u64,
+    observer: &mut Option<&mut dyn ReplayObserver>,
+    read_error: &mut Option<Error>,
+) -> bool {
+    b.steps.clear();
+    while b.steps.len() < BATCH_RECORDS {
+        let rec = match merger.next_record_ref() {
+            Ok(Some(rec)) => rec,
+            Ok(None) => return true,
+            Err(e) => {
+                *read_error = Some(Error::from(e));
+                return true;
+            }
+        };
+        b.steps.push(Step {
+            time: rec.time,
+            inputs: inputs_of(rec),
+            wind_speed_mps: rec
+                .wind_speed_mps
+                .filter(|_| rec.updated.contains(Channel::WindSpeed)),
+            cover_fitted: rec.cover_fitted,
+        });
+        if *n_read % PROGRESS_EVERY == 0 {
+            if let Some(o) = observer.as_mut() {
+                o.progress(Progress {
+                    records: *n_read,
+                    fraction: merger.fraction_read(),
+                });
+            }
+        }
+        *n_read += 1;
+    }
+    false
+}
+
 /// Replays the merged stream through one guard per rig.
 ///
 /// `observer`, when given, is told the progress and receives the verdicts
 /// (every `options.verdicts_every`-th record per rig, and every record
 /// with an event), for a verdict CSV.
 ///
-/// Two threads share the work: this one reads and merges the logs and
-/// keeps the closest approaches, level times, events and time series (and
-/// hands the verdicts to the observer); a second one steps the guards. They pass batches of
-/// 1 024 records (and back, their verdicts) through bounded
-/// channels, so memory stays fixed. The results are those of one thread
-/// taking every record in turn: the guards step through the same records
-/// in the same order, the verdicts are taken in that order, and a merge
-/// error is returned after every record read before it has been taken.
+/// Two threads share the work: this one reads and merges the logs (and
+/// hands the observer its verdicts); a second one steps the guards and
+/// keeps, verdict by verdict where the guard leaves it, the closest
+/// approaches, level times, events and time series. They pass batches of
+/// 1 024 records (and back, the verdicts the observer takes) through
+/// bounded channels, so memory stays fixed. The results are those of one
+/// thread taking every record in turn: the guards step through the same
+/// records in the same order, the verdicts are taken and handed out in
+/// that order, and a merge error is returned after every record read
+/// before it has been taken.
 ///
 /// # Errors
 /// [`Error::Input`] when a rig's guard configuration is rejected by the core;
@@ -923,35 +1025,44 @@ pub fn replay(
 ) -> Result<ReplayReport, Error> {
     use std::sync::mpsc::sync_channel;
 
-    let every = options.verdicts_every.max(1);
-    let mut guards = start_guards(rigs)?;
-    let cover_input: Vec<bool> = rigs.iter().map(|r| r.cover_input).collect();
-    let mut trackers: Vec<Tracker> = rigs
-        .iter()
-        .map(|r| Tracker::new(&r.file, &r.guard))
+    let observe_every = observer
+        .as_ref()
+        .filter(|o| o.wants_verdicts())
+        .map(|_| options.verdicts_every.max(1));
+    let mut runs: Vec<RigRun<'_>> = start_guards(rigs)?
+        .into_iter()
+        .zip(rigs)
+        .map(|(guard, r)| RigRun {
+            guard,
+            cover_input: r.cover_input,
+            tracker: Tracker::new(&r.file, &r.guard),
+        })
         .collect();
     let mut t0: Option<Timestamp> = None;
     let mut last: Option<Timestamp> = None;
-    // Records read, and records whose verdicts were taken.
+    // Records read.
     let mut n_read: u64 = 0;
-    let mut n_taken: u64 = 0;
     // Every batch is at any time in one place only (this thread, a channel
     // or the guard thread), so no channel ever holds more than BATCHES.
     let (to_guards, from_reader) = sync_channel::<Batch>(BATCHES);
     let (to_reader, from_guards) = sync_channel::<Batch>(BATCHES);
+    let kept_capacity = if observe_every.is_some() {
+        BATCH_RECORDS * runs.len()
+    } else {
+        0
+    };
     let mut spare: Vec<Batch> = (0..BATCHES)
         .map(|_| Batch {
             steps: Vec::with_capacity(BATCH_RECORDS),
-            verdicts: Vec::with_capacity(BATCH_RECORDS * guards.len()),
+            kept: Vec::with_capacity(kept_capacity),
         })
         .collect();
     let mut read_error: Option<Error> = None;
     let mut take_error: Option<Error> = None;
     std::thread::scope(|scope| {
-        let guards = &mut guards;
-        let cover_input = &cover_input;
+        let runs = &mut runs;
         let worker =
-            scope.spawn(move || step_guards(guards, cover_input, &from_reader, &to_reader));
+            scope.spawn(move || step_guards(runs, observe_every, &from_reader, &to_reader));
         loop {
             let mut b = match spare.pop() {
                 Some(b) => b,
@@ -960,50 +1071,14 @@ pub fn replay(
                     Err(_) => break,
                 },
             };
-            if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut observer) {
+            if let Err(e) = hand_out(&b, &mut observer) {
                 take_error = Some(e);
                 break;
             }
-            b.steps.clear();
-            let mut at_end = false;
-            while b.steps.len() < BATCH_RECORDS {
-                let rec = match merger.next_record_ref() {
-                    Ok(Some(rec)) => rec,
-                    Ok(None) => {
-                        at_end = true;
-                        break;
-                    }
-                    Err(e) => {
-                        read_error = Some(Error::from(e));
-                        at_end = true;
-                        break;
-                    }
-                };
-                let start = *t0.get_or_insert(rec.time);
-                let dt_s = last.map_or(0.0, |l| rec.time.seconds_since(l).max(0.0));
-                last = Some(rec.time);
-                b.steps.push(Step {
-                    time: rec.time,
-                    now: millis_since(rec.time, start),
-                    t_s: rec.time.seconds_since(start),
-                    dt_s,
-                    inputs: inputs_of(rec),
-                    // Only a fresh anemometer sample counts for the charts'
-                    // sample statistics (a held value is not a reading).
-                    wind_speed_mps: rec
-                        .wind_speed_mps
-                        .filter(|_| rec.updated.contains(Channel::WindSpeed)),
-                    cover_fitted: rec.cover_fitted,
-                });
-                if n_read % PROGRESS_EVERY == 0 {
-                    if let Some(o) = observer.as_mut() {
-                        o.progress(Progress {
-                            records: n_read,
-                            fraction: merger.fraction_read(),
-                        });
-                    }
-                }
-                n_read += 1;
+            let at_end = fill_batch(&mut b, merger, &mut n_read, &mut observer, &mut read_error);
+            if let (Some(first), Some(l)) = (b.steps.first(), b.steps.last()) {
+                t0.get_or_insert(first.time);
+                last = Some(l.time);
             }
             if !b.steps.is_empty() && to_guards.send(b).is_err() {
                 break;
@@ -1012,11 +1087,11 @@ pub fn replay(
                 break;
             }
         }
-        // Hang up, then take the batches still on their way, in order.
+        // Hang up, then hand out the batches still on their way, in order.
         drop(to_guards);
         for b in &from_guards {
             if take_error.is_none() {
-                if let Err(e) = take_batch(&b, &mut trackers, &mut n_taken, every, &mut observer) {
+                if let Err(e) = hand_out(&b, &mut observer) {
                     take_error = Some(e);
                 }
             }
@@ -1032,5 +1107,6 @@ pub fn replay(
     if let Some(o) = observer.as_mut() {
         o.finished()?;
     }
+    let trackers = runs.into_iter().map(|r| r.tracker).collect();
     Ok(report_of(merger, t0, last, trackers))
 }

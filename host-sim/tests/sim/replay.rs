@@ -286,3 +286,134 @@ fn demo_folder_defaults_to_cargos_target_folder() {
     let d = standfast_sim::commands::replay::demo_dir_for(&dir.path().join("bin/standfast"), &cwd);
     assert_eq!(d, cwd.join("standfast-demo"));
 }
+
+/// What an observer was handed: per verdict, the rig, the seconds since the
+/// first record, the level and whether it has a level change or fault
+/// event; it fails with an I/O error at verdict number `fail_at` (counting
+/// from 0), when given.
+#[derive(Default)]
+struct Recorder {
+    seen: Vec<(usize, f64, AlertLevel, bool)>,
+    fail_at: Option<usize>,
+    finished: bool,
+}
+
+impl standfast_sim::model::replay::ReplayObserver for Recorder {
+    fn progress(&mut self, _: standfast_sim::model::replay::Progress) {}
+
+    fn verdict(
+        &mut self,
+        _: standfast_sim::input::log::Timestamp,
+        t_s: f64,
+        rig: usize,
+        v: &standfast::guard::Verdict,
+        _: Option<bool>,
+    ) -> Result<(), standfast_sim::Error> {
+        if self.fail_at == Some(self.seen.len()) {
+            return Err(standfast_sim::Error::io(
+                "verdicts",
+                std::io::Error::other("disk full"),
+            ));
+        }
+        let forced = v
+            .events
+            .iter()
+            .any(|e| !matches!(e, standfast::guard::Event::NewHighUtilisation { .. }));
+        self.seen.push((rig, t_s, v.level, forced));
+        Ok(())
+    }
+
+    fn finished(&mut self) -> Result<(), standfast_sim::Error> {
+        self.finished = true;
+        Ok(())
+    }
+}
+
+fn observed(
+    profile: &Path,
+    rigs: &[LoadedRig],
+    every: u64,
+    rec: &mut Recorder,
+) -> Result<ReplayReport, standfast_sim::Error> {
+    let p = LogProfile::load(profile).unwrap();
+    let mut m = Merger::open(&p, ErrorPolicy::Stop).unwrap();
+    let opts = ReplayOptions {
+        verdicts_every: every,
+    };
+    replay(rigs, &mut m, opts, Some(rec))
+}
+
+// The verdicts are stepped and kept on the guard thread and handed out on
+// the reading one, batch by batch (1024 records; the ramp has 2400): the
+// observer still gets them in record order, rig by rig: every record's
+// with `verdicts_every` 1, and with 7 exactly those of every 7th record
+// and of the records with a level change or fault (the reference: the
+// full sequence filtered by that rule, as `ReplayObserver::verdict`
+// states it).
+#[test]
+fn observer_gets_the_verdicts_in_record_order_across_batches() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = premerged(dir.path());
+    let rigs = [demo_rig(), demo_rig()];
+    let mut all = Recorder::default();
+    let rep = observed(&profile, &rigs, 1, &mut all).unwrap();
+    assert!(all.finished);
+    assert_eq!(all.seen.len(), 2 * 2 * RAMP_S as usize);
+    for (k, (rig, t_s, _, _)) in all.seen.iter().enumerate() {
+        assert_eq!(*rig, k % 2);
+        assert_eq!(*t_s, f64::from(u32::try_from(k / 2).unwrap()) * 0.5);
+    }
+    // The ramp has level changes and faults for the rule to force out.
+    let forced = all.seen.iter().filter(|s| s.0 == 0 && s.3).count();
+    assert!(forced >= rep.rigs[0].level_changes.len() + rep.rigs[0].faults.len());
+    assert!(forced > 2);
+    let mut some = Recorder::default();
+    observed(&profile, &rigs, 7, &mut some).unwrap();
+    let want: Vec<_> = all
+        .seen
+        .iter()
+        .enumerate()
+        .filter(|(k, s)| (k / 2) % 7 == 0 || s.3)
+        .map(|(_, s)| *s)
+        .collect();
+    assert_eq!(some.seen, want);
+}
+
+// An observer that cannot write stops the replay at that verdict: its
+// error is returned, no later verdict is handed out, and it is not told
+// the replay finished (here at verdict 1500, in the second batch).
+#[test]
+fn observer_error_stops_the_replay_at_that_verdict() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = premerged(dir.path());
+    let mut rec = Recorder {
+        fail_at: Some(1500),
+        ..Recorder::default()
+    };
+    let e = observed(&profile, &[demo_rig()], 1, &mut rec).unwrap_err();
+    assert!(e.to_string().contains("disk full"), "{e}");
+    assert_eq!(rec.seen.len(), 1500);
+    assert_eq!(rec.seen.last().map(|s| s.1), Some(1499.0 * 0.5));
+    assert!(!rec.finished);
+}
+
+// A bad row (under `on_error = stop`) in the second batch: every record
+// read before it is stepped and its verdict handed out, in order, then the
+// merge's error is returned.
+#[test]
+fn merge_error_comes_after_the_verdicts_of_the_records_before_it() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = premerged(dir.path());
+    let csv = dir.path().join("merged.csv");
+    let text = std::fs::read_to_string(&csv).unwrap();
+    let mut lines: Vec<&str> = text.lines().collect();
+    // Row 1800 (line 1801 after the header) becomes malformed.
+    lines[1801] = "1700000900.0,not a number,0,1,,";
+    std::fs::write(&csv, lines.join("\n") + "\n").unwrap();
+    let mut rec = Recorder::default();
+    let e = observed(&profile, &[demo_rig()], 1, &mut rec).unwrap_err();
+    assert!(matches!(e, standfast_sim::Error::Log(_)), "{e}");
+    assert_eq!(rec.seen.len(), 1800);
+    assert_eq!(rec.seen.last().map(|s| s.1), Some(1799.0 * 0.5));
+    assert!(!rec.finished);
+}
