@@ -478,19 +478,16 @@ fn approach_figures(v: &Verdict) -> [u64; 4] {
     ]
 }
 
-/// [`Tracker::last_figures`] before the first record: no figures' bits.
-const NO_FIGURES: [u64; 4] = [u64::MAX; 4];
-
 /// One rig's running state in a replay.
 struct Tracker {
     report: RigReplay,
     level_s: [f64; 5],
     last_level: AlertLevel,
     /// The bits of the figures of the previous step
-    /// ([`approach_figures`]; [`NO_FIGURES`] before the first): while they
+    /// ([`approach_figures`]; `None` before the first): while they
     /// repeat, as between evaluations, no closest approach can rise, so the
     /// comparisons are skipped.
-    last_figures: [u64; 4],
+    last_figures: Option<[u64; 4]>,
     /// The guard has left its start-up `sensor_fault` at least once.
     judged: bool,
     /// The last evaluation (taken only at evaluated steps).
@@ -529,7 +526,7 @@ impl Tracker {
             level_s: [0.0; 5],
             // A guard starts unable to see (sensor_fault).
             last_level: AlertLevel::SensorFault,
-            last_figures: NO_FIGURES,
+            last_figures: None,
             judged: false,
             last_eval: None,
             last_slew_t_s: None,
@@ -594,6 +591,10 @@ impl Tracker {
         }
     }
 
+    /// Takes verdict `v` at `at`, `dt_s` seconds after the record before.
+    /// The common verdict (between evaluations, no event, the level and
+    /// health unchanged) takes only this function's own lines; the rest is
+    /// in helpers kept out of line.
     fn take(&mut self, v: &Verdict, at: At, dt_s: f64) {
         if let Some(s) = self.level_s.get_mut(level_index(self.last_level)) {
             *s += dt_s;
@@ -603,11 +604,34 @@ impl Tracker {
         // A verdict that did not evaluate repeats the figures of the one
         // before (the core's contract for `Verdict::evaluated`, checked in
         // debug builds), which cannot beat the approaches they set.
-        let fresh = v.evaluated || self.last_figures == NO_FIGURES;
-        debug_assert!(fresh || approach_figures(v) == self.last_figures);
-        if fresh && approach_figures(v) != self.last_figures {
+        let fresh = v.evaluated || self.last_figures.is_none();
+        debug_assert!(fresh || Some(approach_figures(v)) == self.last_figures);
+        if fresh {
+            self.take_figures(v, at);
+        }
+        if !v.events.is_empty() {
+            self.take_events(v, at);
+        }
+        // Only at evaluations (the figures are fresh): the moment a later
+        // park request compares with, and the slews.
+        if v.evaluated {
+            self.take_evaluation(v, at);
+        }
+        if v.events_lost > 0 {
+            self.take_events_lost(v, at);
+        }
+        if v.level != self.last_level {
+            self.take_level(v.level);
+        }
+    }
+
+    /// The figures of a fresh verdict: the closest approaches they raise.
+    #[cold]
+    #[inline(never)]
+    fn take_figures(&mut self, v: &Verdict, at: At) {
+        if Some(approach_figures(v)) != self.last_figures {
             let r = &mut self.report;
-            self.last_figures = approach_figures(v);
+            self.last_figures = Some(approach_figures(v));
             raise(&mut r.overturning, v.overturning_utilisation, v, at);
             raise(&mut r.sliding, v.sliding_utilisation, v, at);
             for (i, slot) in r.drive.iter_mut().enumerate() {
@@ -619,6 +643,12 @@ impl Tracker {
                 );
             }
         }
+    }
+
+    /// The level changes and faults of verdict `v`.
+    #[cold]
+    #[inline(never)]
+    fn take_events(&mut self, v: &Verdict, at: At) {
         for e in &v.events {
             match e {
                 Event::LevelChanged { from, to, cause } => {
@@ -640,32 +670,50 @@ impl Tracker {
                 Event::NewHighUtilisation { .. } => {}
             }
         }
-        // Only at evaluations (the figures are fresh): the moment a later
-        // park request compares with, and the slews.
-        if v.evaluated {
-            if self.last_eval.is_some_and(|e| pose_moved(&e.pose, &v.pose)) {
-                self.last_slew_t_s = Some(at.t_s);
-            }
-            self.last_eval = Some(Moment::of(v, at.t_s, at.cover));
+    }
+
+    /// An evaluating verdict: the moment a later park request compares
+    /// with, and whether the mount slewed since the evaluation before.
+    #[cold]
+    #[inline(never)]
+    fn take_evaluation(&mut self, v: &Verdict, at: At) {
+        if self.last_eval.is_some_and(|e| pose_moved(&e.pose, &v.pose)) {
+            self.last_slew_t_s = Some(at.t_s);
         }
+        self.last_eval = Some(Moment::of(v, at.t_s, at.cover));
+    }
+
+    /// Events the verdict had no room for.
+    #[cold]
+    #[inline(never)]
+    fn take_events_lost(&mut self, v: &Verdict, at: At) {
         let r = &mut self.report;
-        if v.events_lost > 0 {
-            r.events_lost += u64::from(v.events_lost);
-            if r.events_lost_at.len() < MAX_KEPT_EVENTS {
-                r.events_lost_at.push((at.t_s, v.events_lost));
-            }
+        r.events_lost += u64::from(v.events_lost);
+        if r.events_lost_at.len() < MAX_KEPT_EVENTS {
+            r.events_lost_at.push((at.t_s, v.events_lost));
         }
-        if !self.judged && v.level != AlertLevel::SensorFault {
+    }
+
+    /// A level other than the last verdict's: the most severe level once
+    /// the guard has judged the rig. (While the level repeats the most
+    /// severe one cannot change: before the first judgement the level is
+    /// the start-up `sensor_fault`, which does not count, and after it the
+    /// most severe level already includes the repeated one.)
+    #[cold]
+    #[inline(never)]
+    fn take_level(&mut self, level: AlertLevel) {
+        let r = &mut self.report;
+        if !self.judged && level != AlertLevel::SensorFault {
             self.judged = true;
-            r.highest_level = v.level;
+            r.highest_level = level;
         } else if self.judged {
-            r.highest_level = r.highest_level.max(v.level);
+            r.highest_level = r.highest_level.max(level);
         }
-        r.final_level = v.level;
-        self.last_level = v.level;
+        self.last_level = level;
     }
 
     fn finish(mut self) -> RigReplay {
+        self.report.final_level = self.last_level;
         self.report.level_time = LEVELS
             .iter()
             .zip(self.level_s)
@@ -1110,3 +1158,4 @@ pub fn replay(
     let trackers = runs.into_iter().map(|r| r.tracker).collect();
     Ok(report_of(merger, t0, last, trackers))
 }
+

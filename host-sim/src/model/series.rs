@@ -305,23 +305,38 @@ impl Series {
     /// Adds one verdict at `t_s` seconds since the first record, with the
     /// anemometer's sample at that record (m/s; `None` when the record has
     /// no new one) and the cover state held then.
+    ///
+    /// The common record (in the last bucket, between evaluations, no
+    /// anemometer sample, the same pose) takes only this function's own
+    /// lines; the rest is in helpers kept out of line, so that the common
+    /// path stays short.
     pub fn push(&mut self, t_s: f64, v: &Verdict, wind_mps: Option<f64>, cover: Option<bool>) {
         let (lo, hi_s) = self.last_range_s;
         // In the last bucket (a NaN time takes the general path).
         if self.points.is_empty() || !(t_s >= lo && t_s < hi_s) {
             self.open_bucket_for(t_s);
         }
-        let Some(p) = self.points.last_mut() else {
-            return;
-        };
-        p.t_last_s = t_s;
-        p.records = p.records.saturating_add(1);
         // Between evaluations a verdict repeats the figures of the one
         // before (the core's contract for `Verdict::evaluated`, checked in
         // debug builds), which this bucket, and the highest overturning
         // utilisation, have taken already.
         let repeated = !v.evaluated && self.last_evaluated.is_some();
         debug_assert!(!repeated || self.last_evaluated == Some(Evaluated::of(v)));
+        if !repeated {
+            self.take_figures(v, cover);
+        }
+        if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
+            self.take_wind(t_s, w);
+        }
+        // The same pose as the bucket's last record's charts the same angles.
+        if self.last_pose != Some(v.pose) {
+            self.take_pose(v.pose);
+        }
+        let Some(p) = self.points.last_mut() else {
+            return;
+        };
+        p.t_last_s = t_s;
+        p.records = p.records.saturating_add(1);
         if repeated {
             // The tilt's angles only for a reading that may be the
             // bucket's highest (`tilt_screen`).
@@ -337,56 +352,80 @@ impl Series {
                     screen_with(&mut self.tilt_screen, *r, deg);
                 }
             }
-        } else {
-            if let Some(u) = v.overturning_utilisation.filter(|u| u.is_finite()) {
-                if self.top_overturning.is_none_or(|t| u > t) {
-                    self.top_overturning = Some(u);
-                    self.cover_at_closest = cover;
-                }
-            }
-            let mut f = Figures::of(v);
-            f.wind_from_deg = f.wind_from_deg.map(|d| d.rem_euclid(360.0));
-            p.peak.keep_extremes(&f);
-            if let (Some(r), Some(deg)) = (v.tilt, f.tilt_deg) {
-                screen_with(&mut self.tilt_screen, r, deg);
-            }
-            self.last_evaluated = Some(Evaluated::of(v));
         }
-        if let Some(w) = wind_mps.filter(|w| w.is_finite()) {
-            if let Some(last) = self.last_wind_t_s {
-                if t_s - last > self.wind_gap_s {
-                    if self.wind_gaps.len() < MAX_WIND_GAPS {
-                        self.wind_gaps.push((last, t_s));
-                    } else {
-                        self.wind_gaps_not_kept = self.wind_gaps_not_kept.saturating_add(1);
-                    }
+        if let Some(c) = cover {
+            p.cover = Some(p.cover.unwrap_or(false) || c);
+        }
+        p.level = p.level.max(v.level);
+    }
+
+    /// The figures of an evaluating verdict `v` (or the first of the last
+    /// bucket), with the cover state held then: the highest overturning
+    /// utilisation and the last bucket's extremes.
+    #[cold]
+    #[inline(never)]
+    fn take_figures(&mut self, v: &Verdict, cover: Option<bool>) {
+        if let Some(u) = v.overturning_utilisation.filter(|u| u.is_finite()) {
+            if self.top_overturning.is_none_or(|t| u > t) {
+                self.top_overturning = Some(u);
+                self.cover_at_closest = cover;
+            }
+        }
+        let mut f = Figures::of(v);
+        f.wind_from_deg = f.wind_from_deg.map(|d| d.rem_euclid(360.0));
+        if let Some(p) = self.points.last_mut() {
+            p.peak.keep_extremes(&f);
+        }
+        if let (Some(r), Some(deg)) = (v.tilt, f.tilt_deg) {
+            screen_with(&mut self.tilt_screen, r, deg);
+        }
+        self.last_evaluated = Some(Evaluated::of(v));
+    }
+
+    /// An anemometer sample `w` (m/s, finite) at `t_s`: the wind gap it
+    /// ends, if any, and the last bucket's wind figures.
+    #[cold]
+    #[inline(never)]
+    fn take_wind(&mut self, t_s: f64, w: f64) {
+        if let Some(last) = self.last_wind_t_s {
+            if t_s - last > self.wind_gap_s {
+                if self.wind_gaps.len() < MAX_WIND_GAPS {
+                    self.wind_gaps.push((last, t_s));
+                } else {
+                    self.wind_gaps_not_kept = self.wind_gaps_not_kept.saturating_add(1);
                 }
             }
-            self.last_wind_t_s = Some(t_s);
+        }
+        self.last_wind_t_s = Some(t_s);
+        if let Some(p) = self.points.last_mut() {
             #[allow(clippy::cast_possible_truncation)] // m/s fit f32
             let w32 = w as f32;
             p.wind_max_mps = hi(p.wind_max_mps, Some(w32));
             p.wind_sum_mps += w;
             p.wind_n = p.wind_n.saturating_add(1);
         }
-        if let Some(c) = cover {
-            p.cover = Some(p.cover.unwrap_or(false) || c);
-        }
-        // The same pose as the bucket's last record's charts the same angles.
-        if self.last_pose != Some(v.pose) {
-            self.last_pose = Some(v.pose);
-            let (frame, a, b) = pose_angles_deg(&v.pose);
-            if *self.pose_frame.get_or_insert(frame) == frame {
+    }
+
+    /// A pose other than the last bucket's last one: its angles, when in
+    /// the series' frame.
+    #[cold]
+    #[inline(never)]
+    fn take_pose(&mut self, pose: standfast::mount::Pose) {
+        self.last_pose = Some(pose);
+        let (frame, a, b) = pose_angles_deg(&pose);
+        if *self.pose_frame.get_or_insert(frame) == frame {
+            if let Some(p) = self.points.last_mut() {
                 p.pose_a_deg = Some(a);
                 p.pose_b_deg = Some(b);
             }
         }
-        p.level = p.level.max(v.level);
     }
 
     /// Makes the bucket of a record at `t_s` the last one: coarsens until its
     /// index fits, and opens it unless it is the last one already. What was
     /// taken into the previous last bucket is forgotten.
+    #[cold]
+    #[inline(never)]
     fn open_bucket_for(&mut self, t_s: f64) {
         let mut k = self.index_of(t_s);
         while k >= MAX_SERIES_POINTS as u64 {
