@@ -28,7 +28,9 @@ use standfast::sense::Millis;
 use standfast::sense::Mounting;
 
 use crate::error::Error;
-use crate::input::log::{Channel, IssueKind, Merger, PierSide, SampleRecord, Timestamp};
+use crate::input::log::{
+    Channel, ChannelSet, IssueKind, Merger, PierSide, SampleRecord, Timestamp,
+};
 use crate::input::rigfile::{after_load_error, LoadedRig};
 use crate::input::units::f32_of;
 use crate::model::figures::Figures;
@@ -363,16 +365,40 @@ pub struct ReplayReport {
 /// Most issues quoted in full in a report.
 pub const FIRST_ISSUES: usize = 10;
 
-/// The guard inputs of one merged record: only channels updated at its time.
-#[must_use]
-pub fn inputs_of(r: &SampleRecord) -> Inputs {
-    let up = |c: Channel| r.updated.contains(c);
-    let accel_raw = if up(Channel::AccelX) || up(Channel::AccelY) || up(Channel::AccelZ) {
+/// The three accelerometer channels.
+const ACCEL: ChannelSet = ChannelSet::of(&[Channel::AccelX, Channel::AccelY, Channel::AccelZ]);
+
+/// The accelerometer sample of record `r`, in g, when an accelerometer
+/// channel is updated at it.
+#[inline]
+fn accel_g(r: &SampleRecord) -> Option<[f32; 3]> {
+    if r.updated.intersects(ACCEL) {
         r.accel_mps2
             .map(|a| a.map(|v| f32_of(v / STANDARD_GRAVITY_MPS2_F64)))
     } else {
         None
-    };
+    }
+}
+
+/// The guard inputs of one merged record: only channels updated at its time.
+#[must_use]
+#[inline]
+pub fn inputs_of(r: &SampleRecord) -> Inputs {
+    if r.updated.is_subset(ACCEL) {
+        // No channel but the accelerometer's (the usual record of a fast
+        // accelerometer log): the general path's other inputs are `None`.
+        return Inputs {
+            accel_raw: accel_g(r),
+            ..Inputs::default()
+        };
+    }
+    inputs_of_any(r)
+}
+
+/// [`inputs_of`] for any record (the general path).
+fn inputs_of_any(r: &SampleRecord) -> Inputs {
+    let up = |c: Channel| r.updated.contains(c);
+    let accel_raw = accel_g(r);
     let wind = if up(Channel::WindSpeed) || up(Channel::WindDirection) {
         r.wind_speed_mps.map(|s| WindSample {
             speed_mps: f32_of(s),
@@ -1159,3 +1185,45 @@ pub fn replay(
     Ok(report_of(merger, t0, last, trackers))
 }
 
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Records whose updated channels are among the accelerometer's (all 8
+    /// such sets), with every channel holding a value or none, or the
+    /// accelerometer incomplete: the shortcut of [`inputs_of`] gives the
+    /// general path's inputs (the other channels' held values are not
+    /// inputs, as they were not updated).
+    #[test]
+    fn accelerometer_only_records_give_the_general_inputs() {
+        let t = Timestamp::from_unix_ns(1_700_000_000_000_000_000);
+        let full: [f64; crate::input::log::N_CHANNELS] = [
+            0.1, -0.2, 9.8, 7.5, 4.0, 0.3, 0.6, 1.0, 0.2, -0.4, 1.0, 280.0, 95_000.0,
+        ];
+        let mut partial = full;
+        partial[1] = f64::NAN;
+        let none = [f64::NAN; crate::input::log::N_CHANNELS];
+        for values in [full, partial, none] {
+            for bits in 0..8_usize {
+                let mut set = ChannelSet::EMPTY;
+                for (i, c) in [Channel::AccelX, Channel::AccelY, Channel::AccelZ]
+                    .into_iter()
+                    .enumerate()
+                {
+                    if bits & (1 << i) != 0 {
+                        set.insert(c);
+                    }
+                }
+                let r = SampleRecord::from_state(
+                    t,
+                    &values,
+                    [Some(t); crate::input::log::N_CHANNELS],
+                    set,
+                );
+                let fast = inputs_of(&r);
+                assert_eq!(format!("{fast:?}"), format!("{:?}", inputs_of_any(&r)));
+                assert_eq!(fast.accel_raw.is_some(), bits != 0 && values == full);
+            }
+        }
+    }
+}

@@ -217,6 +217,30 @@ impl ChannelSet {
     /// The empty set.
     pub const EMPTY: ChannelSet = ChannelSet(0);
 
+    /// The set of `channels`.
+    #[must_use]
+    pub const fn of(channels: &[Channel]) -> ChannelSet {
+        let mut bits = 0;
+        let mut i = 0;
+        while i < channels.len() {
+            bits |= 1 << channels[i] as u16;
+            i += 1;
+        }
+        ChannelSet(bits)
+    }
+
+    /// Whether a channel of the set is in `o`.
+    #[must_use]
+    pub const fn intersects(self, o: ChannelSet) -> bool {
+        self.0 & o.0 != 0
+    }
+
+    /// Whether every channel of the set is in `o`.
+    #[must_use]
+    pub const fn is_subset(self, o: ChannelSet) -> bool {
+        self.0 & !o.0 == 0
+    }
+
     /// Whether `ch` is in the set.
     #[must_use]
     pub fn contains(self, ch: Channel) -> bool {
@@ -519,6 +543,27 @@ mod tests {
                 proptest::prop_assert_eq!(format!("{by_set:?}"), format!("{rec:?}"));
                 let want = SampleRecord::from_state(t, &values, last, ChannelSet::EMPTY);
                 proptest::prop_assert_eq!(format!("{rec:?}"), format!("{want:?}"));
+            }
+        }
+    }
+
+    /// `of`, `intersects` and `is_subset` agree with the sets' members
+    /// (the reference: `contains` channel by channel), for every set
+    /// against the accelerometer's three channels and against the wind's
+    /// two.
+    #[test]
+    fn set_relations_follow_the_members() {
+        let accel = ChannelSet::of(&[Channel::AccelX, Channel::AccelY, Channel::AccelZ]);
+        let wind = ChannelSet::of(&[Channel::WindSpeed, Channel::WindDirection]);
+        for o in [accel, wind] {
+            let members: Vec<Channel> = o.iter().collect();
+            assert_eq!(members.len(), if o == accel { 3 } else { 2 });
+            for bits in 0..1u16 << super::N_CHANNELS {
+                let set = ChannelSet(bits);
+                let any = set.iter().any(|c| o.contains(c));
+                let all = set.iter().all(|c| o.contains(c));
+                assert_eq!(set.intersects(o), any, "{bits:#x}");
+                assert_eq!(set.is_subset(o), all, "{bits:#x}");
             }
         }
     }
