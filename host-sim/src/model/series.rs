@@ -309,7 +309,8 @@ impl Series {
     /// The common record (in the last bucket, between evaluations, no
     /// anemometer sample, the same pose) takes only this function's own
     /// lines; the rest is in helpers kept out of line, so that the common
-    /// path stays short.
+    /// path stays short (and is inlined into the replay's loop).
+    #[inline]
     pub fn push(&mut self, t_s: f64, v: &Verdict, wind_mps: Option<f64>, cover: Option<bool>) {
         let (lo, hi_s) = self.last_range_s;
         // In the last bucket (a NaN time takes the general path).
