@@ -385,14 +385,20 @@ fn accel_g(r: &SampleRecord) -> Option<[f32; 3]> {
 #[inline]
 pub fn inputs_of(r: &SampleRecord) -> Inputs {
     if r.updated.is_subset(ACCEL) {
-        // No channel but the accelerometer's (the usual record of a fast
-        // accelerometer log): the general path's other inputs are `None`.
-        return Inputs {
-            accel_raw: accel_g(r),
-            ..Inputs::default()
-        };
+        return accel_only_inputs(r);
     }
     inputs_of_any(r)
+}
+
+/// [`inputs_of`] for a record that updates no channel but the
+/// accelerometer's (the usual record of a fast accelerometer log): the
+/// general path's other inputs are `None`.
+#[inline(always)]
+fn accel_only_inputs(r: &SampleRecord) -> Inputs {
+    Inputs {
+        accel_raw: accel_g(r),
+        ..Inputs::default()
+    }
 }
 
 /// [`inputs_of`] for any record (the general path).
@@ -1049,14 +1055,26 @@ fn fill_batch(
                 return true;
             }
         };
-        b.steps.push(Step {
-            time: rec.time,
-            inputs: inputs_of(rec),
-            wind_speed_mps: rec
-                .wind_speed_mps
-                .filter(|_| rec.updated.contains(Channel::WindSpeed)),
-            cover_fitted: rec.cover_fitted,
-        });
+        if rec.updated.is_subset(ACCEL) {
+            // The usual record, built in place (about 20 instructions less
+            // than through `inputs_of`'s two paths): no fresh anemometer
+            // sample.
+            b.steps.push(Step {
+                time: rec.time,
+                inputs: accel_only_inputs(rec),
+                wind_speed_mps: None,
+                cover_fitted: rec.cover_fitted,
+            });
+        } else {
+            b.steps.push(Step {
+                time: rec.time,
+                inputs: inputs_of(rec),
+                wind_speed_mps: rec
+                    .wind_speed_mps
+                    .filter(|_| rec.updated.contains(Channel::WindSpeed)),
+                cover_fitted: rec.cover_fitted,
+            });
+        }
         if *n_read % PROGRESS_EVERY == 0 {
             if let Some(o) = observer.as_mut() {
                 o.progress(Progress {
