@@ -884,6 +884,10 @@ struct RigRun<'r> {
 impl RigRun<'_> {
     /// Steps the guard at `now` with `inputs`, without the cover state when
     /// the rig does not take it.
+    ///
+    /// [`step_guards`] reads the verdict where this returns it and copies
+    /// it only for the observer; a guard step that writes its verdict in
+    /// place would write into a verdict kept here, one per rig, instead.
     fn step(&mut self, now: Millis, inputs: &Inputs) -> Verdict {
         if self.cover_input || inputs.cover_fitted.is_none() {
             self.guard.step(now, inputs)
