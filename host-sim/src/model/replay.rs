@@ -24,8 +24,8 @@ use standfast::guard::{
     AlertCause, AlertLevel, Event, Guard, GuardConfig, Inputs, Verdict, WindSample,
 };
 use standfast::mount::{PierSide as MountPierSide, Pose};
-use standfast::sense::Millis;
 use standfast::sense::Mounting;
+use standfast::sense::{FaultSet, Millis};
 
 use crate::error::Error;
 use crate::input::log::{
@@ -879,25 +879,73 @@ struct RigRun<'r> {
     guard: Guard<'r>,
     cover_input: bool,
     tracker: Tracker,
+    /// The guard's latest verdict, written in place at every step
+    /// ([`Guard::step_into`] replaces every field; before the first step it
+    /// holds [`blank_verdict`], which is never read).
+    verdict: Verdict,
 }
 
 impl RigRun<'_> {
-    /// Steps the guard at `now` with `inputs`, without the cover state when
-    /// the rig does not take it.
-    ///
-    /// [`step_guards`] reads the verdict where this returns it and copies
-    /// it only for the observer; a guard step that writes its verdict in
-    /// place would write into a verdict kept here, one per rig, instead.
-    fn step(&mut self, now: Millis, inputs: &Inputs) -> Verdict {
+    /// Steps the guard at `now` with `inputs` (without the cover state when
+    /// the rig does not take it), its verdict written into `self.verdict`,
+    /// and takes the verdict into the tracker and its time series: `at` is
+    /// the record's time and cover state, `dt_s` the seconds since the
+    /// record before, `wind_mps` its fresh anemometer sample. Returns the
+    /// verdict.
+    fn step_and_take(
+        &mut self,
+        now: Millis,
+        inputs: &Inputs,
+        at: At,
+        dt_s: f64,
+        wind_mps: Option<f64>,
+    ) -> &Verdict {
         if self.cover_input || inputs.cover_fitted.is_none() {
-            self.guard.step(now, inputs)
+            self.guard.step_into(now, inputs, &mut self.verdict);
         } else {
             let without_cover = Inputs {
                 cover_fitted: None,
                 ..*inputs
             };
-            self.guard.step(now, &without_cover)
+            self.guard.step_into(now, &without_cover, &mut self.verdict);
         }
+        let v = &self.verdict;
+        self.tracker.take(v, at, dt_s);
+        self.tracker
+            .report
+            .series
+            .push(at.t_s, v, wind_mps, at.cover);
+        v
+    }
+}
+
+/// A verdict to write into before a guard's first step: no figures, no
+/// reading, `sensor_fault` (what a new guard says), a zero pose. Every
+/// field is replaced at the first step.
+fn blank_verdict() -> Verdict {
+    Verdict {
+        now: Millis(0),
+        level: AlertLevel::SensorFault,
+        overturning_utilisation: None,
+        predicted_utilisation: None,
+        sliding_utilisation: None,
+        drive_utilisation: None,
+        tip_wind_mps: None,
+        gust_mps: None,
+        predicted_gust_mps: None,
+        wind_from_rad: None,
+        tilt: None,
+        tilt_margin_rad: None,
+        tilt_drift_rad_per_s: 0.0,
+        pose: Pose::Axes {
+            primary_rad: 0.0,
+            secondary_rad: 0.0,
+        },
+        park_pose: None,
+        faults: FaultSet::new(),
+        events: standfast::bounded::Vec::new(),
+        events_lost: 0,
+        evaluated: false,
     }
 }
 
@@ -940,18 +988,13 @@ fn step_guards(
                     cover: s.cover_fitted,
                 };
                 for (rig, r) in rigs.iter_mut().enumerate() {
-                    let v = r.step(now, &s.inputs);
-                    r.tracker.take(&v, at, dt_s);
-                    r.tracker
-                        .report
-                        .series
-                        .push(t_s, &v, s.wind_speed_mps, s.cover_fitted);
+                    let v = r.step_and_take(now, &s.inputs, at, dt_s, s.wind_speed_mps);
                     if let Some(every) = observe_every {
-                        if n % every == 0 || has_event(&v) {
+                        if n % every == 0 || has_event(v) {
                             b.kept.push(Kept {
                                 at,
                                 rig,
-                                verdict: v,
+                                verdict: v.clone(),
                             });
                         }
                     }
@@ -1132,6 +1175,7 @@ pub fn replay(
             guard,
             cover_input: r.cover_input,
             tracker: Tracker::new(&r.file, &r.guard),
+            verdict: blank_verdict(),
         })
         .collect();
     let mut t0: Option<Timestamp> = None;
