@@ -1034,6 +1034,14 @@ mod tests {
             Vec3::new(1e-12, 0.0, 5e-12),
             Vec3::new(0.0, 0.0, 3e19),
             Vec3::new(1e19, 0.0, 3e19),
+            // Exactly the length limit of 1e-12 (the square root of 1e-12
+            // squared is 1e-12 again when correctly rounded): no reading,
+            // as no tilt; the limit must be exceeded.
+            Vec3::new(0.0, 0.0, 1e-12),
+            // Past 45° at several g ("any scale"): x² + y² above 1, where
+            // the shortcut's bound must take the squares, not x/x or y/y.
+            Vec3::new(10.0, 0.0, 4.0),
+            Vec3::new(0.0, -10.0, 4.0),
             Vec3::new(f32::NAN, 0.0, 1.0),
             Vec3::new(0.0, 0.0, f32::INFINITY),
             Vec3::new(0.0, 0.0, -1.0),
@@ -1190,6 +1198,64 @@ mod tests {
             let r = 0.999_5 + (k % 7) as f32 * 1e-4;
             same(Vec3::new(r * math::cos(a), r * math::sin(a), 1.0));
         }
+    }
+
+    /// The sensor's reading is its tilt (`reading` against `tilt`, bit for
+    /// bit, `None` exactly where that is), and the guard's one-pass
+    /// `faults_into_and_reading` gives the same reading with the faults of
+    /// `faults`: before the first sample, without a required level
+    /// reference, then with one, from level to past the 45° limit.
+    #[test]
+    fn the_sensors_reading_is_its_tilt() {
+        let bits = |t: Option<Tilt>| {
+            t.map(|t| (t.magnitude_rad.to_bits(), t.downhill_azimuth_rad.to_bits()))
+        };
+        let check = |s: &TiltSensor, now: Millis| {
+            let r = s.reading();
+            assert_eq!(bits(r.map(|r| r.tilt())), bits(s.tilt()), "{r:?}");
+            let mut set = FaultSet::new();
+            assert_eq!(s.faults_into_and_reading(now, &mut set), r);
+            assert_eq!(set, s.faults(now));
+            r
+        };
+        let referenced = TiltConfig {
+            reference: TiltReference::LevelReference,
+            ..TiltConfig::default()
+        };
+        let (mut some, mut none) = (0, 0);
+        for config in [TiltConfig::default(), referenced] {
+            let mut s = sensor_with(config);
+            assert_eq!(check(&s, Millis(0)), None, "no sample yet");
+            let mut t = 0;
+            if config.reference == TiltReference::LevelReference {
+                feed(&mut s, [0.0, 0.0, 1.0], 0, 5_000, 100);
+                assert_eq!(check(&s, Millis(5_000)), None, "no reference yet");
+                s.set_level_reference(Vec3::new(0.0, 0.02, 2.0)).unwrap();
+                t = 5_100;
+            }
+            // Level, 10° and 40° (both inside), 58° (past the limit, a
+            // fault), back to 20°; each held 20 s, then checked 21 times
+            // over the next second.
+            for sample in [
+                [0.0, 0.0, 1.0],
+                [0.17, -0.05, 0.98],
+                [0.45, 0.45, 0.77],
+                [0.6, 0.6, 0.53],
+                [-0.3, 0.2, 0.93],
+            ] {
+                feed(&mut s, sample, t, t + 20_000, 100);
+                for k in 0..=20 {
+                    let now = Millis(t + 20_000 + k * 1_000 / 20);
+                    match check(&s, now) {
+                        Some(_) => some += 1,
+                        None => none += 1,
+                    }
+                }
+                t += 20_100;
+            }
+        }
+        // Both kinds, for both configurations (the 58° samples give none).
+        assert!(some >= 8 * 21 && none >= 2 * 21, "{some} {none}");
     }
 
     #[test]
