@@ -630,4 +630,93 @@ mod tests {
             same(&fast(&records), &general(&records));
         }
     }
+
+    /// A bucket's cover is fitted when any of its records had the cover
+    /// on; the series' top overturning utilisation, and the cover then,
+    /// are the highest record's; a bucket charts its pose's angles in the
+    /// series' frame (the first pose's), and none for a pose in another.
+    #[test]
+    fn cover_top_utilisation_and_pose_are_charted() {
+        let mut s = Series::new();
+        // One bucket (0 to 1 s), overturning utilisations 0.25, 0.75, 0.5.
+        s.push(0.1, &verdict(10, true, None, 1, 0), None, Some(false));
+        s.push(0.2, &verdict(30, true, None, 1, 0), None, Some(true));
+        s.push(0.3, &verdict(20, true, None, 1, 0), None, Some(false));
+        assert_eq!(s.points.len(), 1);
+        assert_eq!(s.points[0].cover, Some(true));
+        assert_eq!(s.top_overturning, Some(0.75));
+        assert_eq!(s.cover_at_closest, Some(true));
+        let (frame, a, b) = pose_angles_deg(&verdict(20, true, None, 1, 0).pose);
+        assert_eq!(s.pose_frame, Some(frame));
+        assert_eq!(
+            (s.points[0].pose_a_deg, s.points[0].pose_b_deg),
+            (Some(a), Some(b))
+        );
+        // Axes, not equatorial: not charted.
+        s.push(1.5, &verdict(20, true, None, 0, 0), None, None);
+        assert_eq!(s.points.len(), 2);
+        assert_eq!(
+            (s.points[1].pose_a_deg, s.points[1].pose_b_deg),
+            (None, None)
+        );
+    }
+
+    /// A wind gap is a silence longer than `wind_gap_s` (exactly that long
+    /// is none); at most `MAX_WIND_GAPS` are kept, the others counted.
+    #[test]
+    fn wind_gaps_are_longer_than_the_limit_and_bounded() {
+        let mut s = Series::with_wind_gap(10.0);
+        let v = verdict(10, true, None, 1, 0);
+        s.push(0.0, &v, Some(1.0), None);
+        s.push(10.0, &v, Some(1.0), None);
+        assert!(s.wind_gaps.is_empty());
+        s.push(20.5, &v, Some(1.0), None);
+        assert_eq!(s.wind_gaps, vec![(10.0, 20.5)]);
+        let mut t = 20.5;
+        for _ in 0..=MAX_WIND_GAPS {
+            t += 11.0;
+            s.push(t, &v, Some(1.0), None);
+        }
+        assert_eq!(s.wind_gaps.len(), MAX_WIND_GAPS);
+        assert_eq!(s.wind_gaps_not_kept, 2);
+    }
+
+    /// The tilt screen is the steepest reading of the bucket whose angle
+    /// was computed (only a steeper one replaces it, not an equal one),
+    /// and a new bucket starts without one.
+    #[test]
+    fn the_tilt_screen_is_the_bucket_s_steepest_computed_reading() {
+        let screen = |r: Option<TiltReading>| r.map(|r| (r, r.magnitude_rad().to_degrees()));
+        let mut s = Series::new();
+        s.push(0.1, &verdict(10, true, Some((0.02, 0.0)), 1, 0), None, None);
+        assert_eq!(s.tilt_screen, screen(reading(0.02, 0.0)));
+        // Not evaluated (the repeated path): steeper, then as steep toward
+        // the south, then less steep.
+        s.push(
+            0.2,
+            &verdict(10, false, Some((0.05, 0.0)), 1, 0),
+            None,
+            None,
+        );
+        let south = reading(0.05, core::f32::consts::PI);
+        assert_eq!(
+            south.map(|r| r.magnitude_rad().to_bits()),
+            reading(0.05, 0.0).map(|r| r.magnitude_rad().to_bits())
+        );
+        s.push(
+            0.3,
+            &verdict(10, false, Some((0.05, core::f32::consts::PI)), 1, 0),
+            None,
+            None,
+        );
+        s.push(
+            0.4,
+            &verdict(10, false, Some((0.03, 1.0)), 1, 0),
+            None,
+            None,
+        );
+        assert_eq!(s.tilt_screen, screen(reading(0.05, 0.0)));
+        s.push(1.5, &verdict(10, true, None, 1, 0), None, None);
+        assert_eq!(s.tilt_screen, None);
+    }
 }
