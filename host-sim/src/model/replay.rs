@@ -1115,7 +1115,7 @@ fn fill_batch(
         } else {
             b.steps.push(Step {
                 time: rec.time,
-                inputs: inputs_of(rec),
+                inputs: inputs_of_any(rec),
                 wind_speed_mps: rec
                     .wind_speed_mps
                     .filter(|_| rec.updated.contains(Channel::WindSpeed)),
