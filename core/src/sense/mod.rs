@@ -91,9 +91,16 @@ impl Millis {
 /// divisor below 2^16 needs only three 32-bit hardware divisions (long
 /// division in 16-bit digits, [`div_rem_by_u16`]). Other divisors, none
 /// here, take the plain `u64` division; `d = 0` gives `(0, 0)`. Inlined, so
-/// a constant divisor picks its branch at compile time.
+/// a constant divisor picks its branch at compile time. On a 64-bit target
+/// (the host) the plain division is used throughout: one instruction, or a
+/// multiply for a constant.
 #[inline(always)]
 pub(crate) fn div_rem_ms(n: u64, d: u64) -> (u64, u64) {
+    // A 64-bit target divides a `u64` in hardware (a constant divisor
+    // becomes a multiply and shifts): the same quotient and remainder.
+    if cfg!(target_pointer_width = "64") {
+        return (n.checked_div(d).unwrap_or(0), n.checked_rem(d).unwrap_or(0));
+    }
     match u16::try_from(d).ok().and_then(core::num::NonZeroU16::new) {
         Some(d16) => div_rem_by_u16(n, d16),
         None => (n.checked_div(d).unwrap_or(0), n.checked_rem(d).unwrap_or(0)),
@@ -210,7 +217,14 @@ mod tests {
             x ^= x << 17;
             x
         };
-        let check = |n: u64, d: u64| assert_eq!(div_rem_ms(n, d), (n / d, n % d), "{n} / {d}");
+        // Both paths: the host's plain division and the 32-bit target's
+        // long division (tested here on the host too).
+        let check = |n: u64, d: u64| {
+            assert_eq!(div_rem_ms(n, d), (n / d, n % d), "{n} / {d}");
+            if let Some(d16) = u16::try_from(d).ok().and_then(core::num::NonZeroU16::new) {
+                assert_eq!(div_rem_by_u16(n, d16), (n / d, n % d), "{n} / {d}");
+            }
+        };
         for d in fixed_d {
             for n in fixed_n {
                 check(n, d);
