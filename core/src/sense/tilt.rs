@@ -700,6 +700,9 @@ impl TiltSensor {
     /// the time since the last in-band sample; a single such rejection is
     /// normal after a knock and only becomes an active fault after
     /// `out_of_band_limit_s`).
+    // Inlined into the guard's step, its one caller there (as are the
+    // fault checks below): about 50 instructions a step less on the host.
+    #[inline]
     pub fn push(&mut self, now: Millis, raw: [f32; 3]) -> Result<(), Fault> {
         let sensor = Sensor::Accelerometer;
         if self.last_sample.is_some_and(|t| now < t) {
@@ -905,6 +908,7 @@ impl TiltSensor {
     /// the guard's step: the same faults added to `set`, the same reading
     /// returned. A valid reading is within 45°, so the tilt-beyond-limit
     /// test needs the angle only when there is none.
+    #[inline]
     pub(crate) fn faults_into_and_reading(
         &self,
         now: Millis,
@@ -929,6 +933,7 @@ impl TiltSensor {
     /// The faults of [`TiltSensor::faults`] but the tilt beyond the limit:
     /// a rejected last sample, stale, stuck, magnitude out of band, a tilt
     /// step.
+    #[inline]
     fn sample_faults_into(&self, now: Millis, set: &mut FaultSet) {
         let sensor = Sensor::Accelerometer;
         let c = &self.config;
