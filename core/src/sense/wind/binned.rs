@@ -339,14 +339,23 @@ impl WindStats {
         if let Some(c) = self.newest_fine {
             let last = now_bin.min(c.saturating_add(11));
             let mut k = c;
+            // The mean ending at `last`, the loop's last (when it ran).
+            let mut at_last = None;
             while k <= last {
-                if let Some(m) = self.fine_mean_ending(k) {
+                at_last = self.fine_mean_ending(k);
+                if let Some(m) = at_last {
                     open_peak = Some(open_peak.map_or(m, |p| p.max(m)));
                 }
                 k = k.saturating_add(1);
             }
+            // The 3-s mean ending now: the loop's last when that is now's
+            // bin (the usual case), not computed twice.
             if now_bin >= c {
-                gust_now = self.fine_mean_ending(now_bin);
+                gust_now = if last == now_bin {
+                    at_last
+                } else {
+                    self.fine_mean_ending(now_bin)
+                };
             }
         }
         let w = self.windows(now);
@@ -846,5 +855,45 @@ mod tests {
         let r = w.report(Millis(700_000));
         assert_eq!(r.mean_10min_mps, None);
         assert_eq!(r.gust_factor, None);
+    }
+
+    /// The report's 3-s gust, taken from its open-boundary loop when that
+    /// ends at now's bin, has the bits of the mean ending there computed
+    /// afresh (as the report computed it before), and of `gust_3s_mps`:
+    /// samples at irregular steps with gaps, reports at, between and long
+    /// after the samples.
+    #[test]
+    fn the_reports_gust_is_the_mean_ending_now_to_the_bit() {
+        let mut w = stats(WindConfig::default(), 0);
+        let mut seed = 0x2545_f491_u32;
+        let mut next = move || {
+            seed ^= seed << 13;
+            seed ^= seed >> 17;
+            seed ^= seed << 5;
+            seed
+        };
+        let mut t = 0_u64;
+        for _ in 0..3_000 {
+            let r = next();
+            // Mostly 20 ms to 1.3 s; now and then a gap of up to 8 s.
+            t += if r % 50 == 0 {
+                u64::from(r % 8_000)
+            } else {
+                20 + u64::from(r % 1_280)
+            };
+            let speed = f32::from_bits(0x3f80_0000 | (next() >> 9)) * 7.0;
+            let _ = w.push(Millis(t), speed, Some(1.0));
+            for later in [0, 1, 250, 2_999, 3_000, 9_000] {
+                let now = Millis(t + later);
+                let now_bin = bin_of(now.0, FINE_BIN_MS);
+                let fresh = match w.newest_fine {
+                    Some(c) if now_bin >= c => w.fine_mean_ending(now_bin),
+                    _ => None,
+                };
+                let got = w.report(now).gust_3s_mps;
+                assert_eq!(got.map(f32::to_bits), fresh.map(f32::to_bits), "t {t} + {later}");
+                assert_eq!(got.map(f32::to_bits), w.gust_3s_mps(now).map(f32::to_bits));
+            }
+        }
     }
 }
