@@ -223,7 +223,7 @@ fn sin_cos_f32(x: f32) -> (f32, f32) {
     if x.abs() < 1.0 / 4096.0 {
         return (x, 1.0);
     }
-    let jf = floor(x * core::f32::consts::FRAC_2_PI + 0.5);
+    let jf = floor_below_2_24(x * core::f32::consts::FRAC_2_PI + 0.5);
     let r = ((x - jf * P1) - jf * P2) - jf * P3;
     let z = r * r;
     let s = r + r * z * (-1.6666655e-1 + z * (8.332161e-3 + z * -1.9515296e-4));
@@ -238,6 +238,28 @@ fn sin_cos_f32(x: f32) -> (f32, f32) {
         _ => (-c, s),
     };
     (clamp(sin, -1.0, 1.0), clamp(cos, -1.0, 1.0))
+}
+
+/// [`floor`] of a `v` with |v| < 2²⁴ that is not −0 (the quadrant of
+/// [`sin_cos_f32`], whose |x| < 2²⁴ keeps |x · 2/π + 0.5| below 10⁷, and a sum
+/// with +0.5 is never −0): the same value as libm's `floorf` there, by
+/// truncation to an integer, which is exact (from 2²³ on every `f32` is an
+/// integer already, and the truncation gives it back), minus 1 when the
+/// truncation went up (a negative non-integer). Inline code with no call, so
+/// that the sine and the cosine of one angle, computed side by side, are
+/// computed once (the compiler merges the two inlined copies; a call to
+/// `floorf` kept them apart). Tested against `floorf` over the whole range.
+#[cfg(not(all(feature = "micromath", standfast_fast_math)))]
+#[inline]
+#[allow(clippy::cast_possible_truncation, clippy::cast_precision_loss)]
+fn floor_below_2_24(v: f32) -> f32 {
+    // |v| < 2²⁴ fits an i32, and every integer of that size is an f32.
+    let t = (v as i32) as f32;
+    if t > v {
+        t - 1.0
+    } else {
+        t
+    }
 }
 
 /// Four-quadrant arc tangent of `y / x`, in radians in (−π, π].
@@ -700,6 +722,43 @@ mod against_libm {
                     }
                 }
             }
+        }
+    }
+
+    /// The quadrant's floor is libm's `floorf` to the bit wherever it is
+    /// used: |v| < 2²⁴ (−0 aside, which the quadrant never sees). Every
+    /// 127th `f32` of the range, both signs, and every value within 8 units
+    /// in the last place of each integer up to ±4096 and of the powers of 2.
+    #[cfg(not(all(feature = "micromath", standfast_fast_math)))]
+    #[test]
+    fn the_quadrants_floor_is_floorf() {
+        let check = |v: f32| {
+            if v.abs() < 16_777_216.0 && v.to_bits() != 0x8000_0000 {
+                let (ours, libms) = (floor_below_2_24(v), libm::floorf(v));
+                assert_eq!(ours.to_bits(), libms.to_bits(), "{v}: {ours} vs {libms}");
+            }
+        };
+        let top = 16_777_216.0_f32.to_bits();
+        let mut b = 0_u32;
+        while b < top {
+            check(f32::from_bits(b));
+            check(-f32::from_bits(b));
+            b += 127;
+        }
+        let near = |x: f32| {
+            for d in 0..=8 {
+                for y in [x, -x] {
+                    check(f32::from_bits(y.to_bits().wrapping_add(d)));
+                    check(f32::from_bits(y.to_bits().wrapping_sub(d)));
+                }
+            }
+        };
+        for n in 0..=4096 {
+            near(n as f32);
+            near(n as f32 + 0.5);
+        }
+        for e in 0..25 {
+            near((1_u32 << e) as f32);
         }
     }
 
