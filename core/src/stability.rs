@@ -180,6 +180,10 @@ pub(crate) fn ratio(over: f32, stab: f32) -> f32 {
     }
 }
 
+/// Adds a moment to the overturning side when positive, else takes it off
+/// the stabilising side. The sides start at +0 and only grow, so a zero
+/// moment of either sign leaves both as they are (`+0 − ±0` is +0): the
+/// sums do not depend on the sign of a zero moment.
 fn split(m: f32, over: &mut f32, stab: &mut f32) {
     if m > 0.0 {
         *over += m;
@@ -289,15 +293,13 @@ impl Loads {
             // The weight is split into its parts normal to and along the
             // ground, so a slope shows as an overturning moment W·sinθ·h
             // against a stabilising W·cosθ·d, as in slope checks of mobile
-            // cranes and platforms.
-            let normal = Vec3::Z * p.weight_n.z;
+            // cranes and platforms: the moments of `Vec3::Z * w.z` and of
+            // `w − Vec3::Z * w.z`, normal first, without the products with
+            // their zero components (`Edge::weight_moments_nm`).
             for (e, t) in edges.iter().zip(terms.iter_mut()) {
-                for f in [normal, p.weight_n - normal] {
-                    split(
-                        e.moment_nm(p.cg_m, f),
-                        &mut t.gravity_over_nm,
-                        &mut t.gravity_stab_nm,
-                    );
+                let (normal, along_ground) = e.weight_moments_nm(p.cg_m, p.weight_n);
+                for m in [normal, along_ground] {
+                    split(m, &mut t.gravity_over_nm, &mut t.gravity_stab_nm);
                 }
             }
         }
@@ -315,7 +317,7 @@ impl Loads {
             }
             for (e, t) in edges.iter().zip(terms.iter_mut()) {
                 split(
-                    e.moment_nm(cp, f),
+                    e.ground_moment_nm(cp, f),
                     &mut t.wind_over_nm_per_pa,
                     &mut t.wind_stab_nm_per_pa,
                 );
@@ -876,6 +878,8 @@ mod tests {
     //! The definitions of the edge terms and the ratio (no outside source:
     //! they are this module's own conventions, documented above).
     use super::*;
+    use crate::frame::Tilt;
+    use crate::mount::Pose;
 
     const TERMS: EdgeTerms = EdgeTerms {
         gravity_over_nm: 1.0,
@@ -977,6 +981,185 @@ mod tests {
     fn the_scan_answers_north_for_a_flat_function() {
         // Ties go to the first direction scanned, north.
         assert_eq!(scan_directions(|_| 2.0), (2.0, 0.0));
+    }
+
+    /// The edge terms as they were computed before `Loads::build` took
+    /// [`Edge::weight_moments_nm`] and [`Edge::ground_moment_nm`]: every
+    /// moment by [`Edge::moment_nm`], the weight's normal part
+    /// `Vec3::Z * w.z` and the rest `w − normal`.
+    fn reference_terms(placement: &Placement<'_>, from_rad: f32) -> Vec<EdgeTerms, MAX_FEET> {
+        let support = placement.rig().support();
+        let mut terms: Vec<EdgeTerms, MAX_FEET> = Vec::new();
+        for e in support.edges() {
+            let mut t = EdgeTerms::default();
+            for (i, foot) in support.feet().iter().enumerate() {
+                if i == usize::from(e.from) || i == usize::from(e.to) || foot.tie_down_n <= 0.0 {
+                    continue;
+                }
+                let at = Vec3::new(foot.position_m[0], foot.position_m[1], 0.0);
+                let m = e.moment_nm(at, Vec3::new(0.0, 0.0, -foot.tie_down_n));
+                if m < 0.0 {
+                    t.tie_stab_nm -= m;
+                }
+            }
+            terms.push(t).unwrap();
+        }
+        for p in placement.parts() {
+            let normal = Vec3::Z * p.weight_n.z;
+            for (e, t) in support.edges().iter().zip(terms.iter_mut()) {
+                for f in [normal, p.weight_n - normal] {
+                    split(
+                        e.moment_nm(p.cg_m, f),
+                        &mut t.gravity_over_nm,
+                        &mut t.gravity_stab_nm,
+                    );
+                }
+            }
+        }
+        for (_, cp, f) in placement.wind_loads(from_rad) {
+            for (e, t) in support.edges().iter().zip(terms.iter_mut()) {
+                split(
+                    e.moment_nm(cp, f),
+                    &mut t.wind_over_nm_per_pa,
+                    &mut t.wind_stab_nm_per_pa,
+                );
+            }
+        }
+        terms
+    }
+
+    fn term_bits(t: &EdgeTerms) -> [u32; 5] {
+        [
+            t.gravity_over_nm.to_bits(),
+            t.gravity_stab_nm.to_bits(),
+            t.wind_over_nm_per_pa.to_bits(),
+            t.wind_stab_nm_per_pa.to_bits(),
+            t.tie_stab_nm.to_bits(),
+        ]
+    }
+
+    /// Rigs for the equivalence test: an equatorial rig of every kind of
+    /// part (legs, shaft, counterweights, a tube under a cover, a box, a
+    /// ballast) on a tripod; an alt-azimuth one on five irregular feet with
+    /// tie-downs; and the first with its ground masses replaced by a
+    /// measured one (zero weights: zero moments).
+    fn equivalence_rigs() -> [Rig; 3] {
+        use crate::mount::MountGeometry;
+        use crate::rig::{
+            BallastSpec, BodySpec, CounterweightSpec, CoverSpec, LegsSpec, RigSpec, ShaftSpec,
+        };
+        use crate::support::{Foot, Support};
+        let eq = RigSpec::new(
+            &Support::tripod(0.475, 0.3).unwrap(),
+            MountGeometry::equatorial(math::deg_to_rad(47.3), [0.0, 0.0, 1.25]),
+            0.45,
+        )
+        .with_legs(LegsSpec::new(1.3, 0.035, 1.0, 0.12))
+        .with_shaft(ShaftSpec::new(1.1, 0.4, 0.025))
+        .with_counterweight(CounterweightSpec::disc(5.0, 0.1, 0.12, 0.05))
+        .unwrap()
+        .with_body(
+            BodySpec::optical_tube(8.0, 0.13, 0.95, [0.17, 0.05, 0.0]).with_under_cover(true),
+        )
+        .unwrap()
+        .with_body(BodySpec::cuboid(
+            Stage::Ground,
+            14.0,
+            [0.0, 0.0, 1.15],
+            [0.25, 0.25, 0.3],
+        ))
+        .unwrap()
+        .with_ballast(BallastSpec {
+            mass_kg: 3.0,
+            position_m: [0.1, -0.05, 0.3],
+        })
+        .unwrap()
+        .with_cover(CoverSpec {
+            mass_kg: 1.5,
+            size_m: [0.3, 1.05, 0.3],
+            centre_m: [0.17, 0.05, 0.0],
+            drag_coefficient: None,
+        });
+        let eq = Rig::new(&eq).unwrap();
+        let feet = [[0.5, 0.1], [0.2, 0.6], [-0.45, 0.3], [-0.3, -0.5], [0.35, -0.4]];
+        let feet: Vec<Foot, MAX_FEET> = feet
+            .iter()
+            .enumerate()
+            .map(|(i, &position_m)| Foot {
+                position_m,
+                tie_down_n: [0.0, 150.0, 40.0, 0.0, 300.0][i],
+            })
+            .collect();
+        let az = RigSpec::new(
+            &Support::new(&feet).unwrap(),
+            MountGeometry::alt_azimuth(math::deg_to_rad(-33.0), [0.05, -0.02, 0.9]),
+            0.6,
+        )
+        .with_body(BodySpec::optical_tube(5.0, 0.2, 0.6, [0.1, -0.2, 0.05]))
+        .unwrap()
+        .with_body(BodySpec::cuboid(
+            Stage::Primary,
+            2.0,
+            [0.0, 0.1, 0.2],
+            [0.1, 0.2, 0.15],
+        ))
+        .unwrap();
+        let az = Rig::new(&az).unwrap();
+        let measured = eq
+            .with_measured_centre(
+                40.0,
+                Vec3::new(0.02, -0.01, 0.9),
+                Pose::Axes {
+                    primary_rad: 0.0,
+                    secondary_rad: 0.0,
+                },
+                false,
+            )
+            .unwrap();
+        [eq, az, measured]
+    }
+
+    /// `Loads::build` gives every edge term the bits of the computation by
+    /// [`Edge::moment_nm`] ([`reference_terms`]): the moments without their
+    /// zero products are the same values, and a zero of either sign leaves
+    /// the sums as they are. Poses over the sky, tilts from none (weights
+    /// with ±0 ground components) to the largest, winds from every side,
+    /// the cover on and off.
+    #[test]
+    fn edge_terms_have_the_bits_of_the_moments_about_the_edges() {
+        let mut checked = 0;
+        for rig in &equivalence_rigs() {
+            for (i, primary) in [0.0_f32, 0.7, 2.0, -2.9, 4.4].into_iter().enumerate() {
+                for secondary in [0.0_f32, 0.4, -1.2, 1.5707964, 3.0] {
+                    let pose = Pose::Axes {
+                        primary_rad: primary,
+                        secondary_rad: secondary,
+                    };
+                    for (magnitude, azimuth) in [
+                        (0.0, 0.0),
+                        (0.0, 2.0),
+                        (1e-6, 0.3),
+                        (0.02, 1.0),
+                        (0.08, 4.0),
+                        (crate::frame::MAX_TILT_RAD, 5.5),
+                    ] {
+                        let tilt = Tilt::new(magnitude, azimuth).unwrap();
+                        let placement = rig.place(pose, tilt, i % 2 == 0).unwrap();
+                        for k in 0..24 {
+                            let from = k as f32 * (TAU / 24.0) + 0.01 * i as f32;
+                            let loads = Loads::new(&placement, from);
+                            let want = reference_terms(&placement, from);
+                            assert_eq!(loads.terms().len(), want.len());
+                            for (got, want) in loads.terms().iter().zip(&want) {
+                                assert_eq!(term_bits(got), term_bits(want), "{got:?} {want:?}");
+                                checked += 1;
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        assert!(checked > 20_000, "{checked}");
     }
 
     #[test]

@@ -71,6 +71,35 @@ impl Edge {
     pub fn inset_m(&self, point_m: Vec3) -> f32 {
         -(point_m - self.a_m).dot(self.outward)
     }
+
+    /// [`Edge::moment_nm`] of an edge of a [`Support`], whose `along` lies in
+    /// the ground plane (its z is 0, as [`Support::new`] makes it), N·m:
+    /// the z component of `(point − a) × f` meets that 0, so it is left out.
+    /// For finite inputs the same value as [`Edge::moment_nm`], to the bit
+    /// but for the sign of a zero result (a zero is no moment either way:
+    /// the callers add it to no side, or take it off a side that is ≥ +0,
+    /// which leaves it unchanged).
+    #[must_use]
+    pub(crate) fn ground_moment_nm(&self, point_m: Vec3, f_n: Vec3) -> f32 {
+        let d = point_m - self.a_m;
+        (d.y * f_n.z - d.z * f_n.y) * self.along.x + (d.z * f_n.x - d.x * f_n.z) * self.along.y
+    }
+
+    /// The moments about an edge of a [`Support`] (as
+    /// [`Edge::ground_moment_nm`]) of a weight `w_n` at `point_m` split into
+    /// its parts normal to and along the ground, `(0, 0, w.z)` and
+    /// `(w.x, w.y, 0)`, N·m: the products with their zero components left
+    /// out. For finite inputs the same values as [`Edge::moment_nm`] of
+    /// `Vec3::Z * w.z` and of `w − Vec3::Z * w.z`, to the bit but for the
+    /// sign of a zero result, as there.
+    #[must_use]
+    pub(crate) fn weight_moments_nm(&self, point_m: Vec3, w_n: Vec3) -> (f32, f32) {
+        let d = point_m - self.a_m;
+        (
+            d.y * w_n.z * self.along.x - d.x * w_n.z * self.along.y,
+            d.z * w_n.x * self.along.y - d.z * w_n.y * self.along.x,
+        )
+    }
 }
 
 /// A validated support polygon.
