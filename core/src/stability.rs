@@ -733,9 +733,33 @@ impl Rig {
         placement: &Placement<'_>,
         cg: Vec3,
     ) -> Result<TiltMargin, Error> {
+        // The downhill azimuth is worked out for the lowest edge only.
+        self.lowest_tilt_edge(placement, cg)
+            .map(|(extra, i, e)| TiltMargin {
+                extra_rad: extra,
+                downhill_azimuth_rad: e.outward_azimuth_rad(),
+                edge: i as u8,
+            })
+            .ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))
+    }
+
+    /// The `extra_rad` of [`Rig::tilt_margin_in`] alone (the same bits),
+    /// without the downhill azimuth: for the guard, which shows the extra
+    /// tilt only.
+    ///
+    /// # Errors
+    /// A support without edges.
+    pub(crate) fn extra_tilt_in(&self, placement: &Placement<'_>, cg: Vec3) -> Result<f32, Error> {
+        self.lowest_tilt_edge(placement, cg)
+            .map(|(extra, _, _)| extra)
+            .ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))
+    }
+
+    /// The lowest extra tilt over the support's edges ([`Rig::tilt_margin`])
+    /// with its edge's index and edge (the first on a tie); `None` without
+    /// edges.
+    fn lowest_tilt_edge(&self, placement: &Placement<'_>, cg: Vec3) -> Option<(f32, usize, &Edge)> {
         let up = -placement.gravity_unit();
-        // The extra tilt and the edge (index and edge) of the lowest; the
-        // downhill azimuth is worked out for that edge only.
         let mut best: Option<(f32, usize, &Edge)> = None;
         for (i, e) in self.support().edges().iter().enumerate() {
             let r = (cg - e.a_m).reject(e.along);
@@ -749,12 +773,7 @@ impl Rig {
                 best = Some((extra, i, e));
             }
         }
-        best.map(|(extra, i, e)| TiltMargin {
-            extra_rad: extra,
-            downhill_azimuth_rad: e.outward_azimuth_rad(),
-            edge: i as u8,
-        })
-        .ok_or(Error::new(ErrorKind::TooFew, Field::SupportFeet))
+        best
     }
 
     /// Ballast mass at `position_m` (rig frame) needed to keep every edge's
@@ -1160,6 +1179,27 @@ mod tests {
             }
         }
         assert!(checked > 20_000, "{checked}");
+    }
+
+    /// The guard's extra tilt alone has the bits of the tilt margin's.
+    #[test]
+    fn the_extra_tilt_alone_is_the_margins() {
+        for rig in &equivalence_rigs() {
+            for secondary in [0.0_f32, 0.9, -1.4] {
+                let pose = Pose::Axes {
+                    primary_rad: 1.0,
+                    secondary_rad: secondary,
+                };
+                for (magnitude, azimuth) in [(0.0, 0.0), (0.05, 1.0), (0.2, 3.5)] {
+                    let tilt = Tilt::new(magnitude, azimuth).unwrap();
+                    let placement = rig.place(pose, tilt, true).unwrap();
+                    let cg = placement.centre_of_gravity_m();
+                    let margin = rig.tilt_margin_in(&placement, cg).unwrap();
+                    let extra = rig.extra_tilt_in(&placement, cg).unwrap();
+                    assert_eq!(extra.to_bits(), margin.extra_rad.to_bits());
+                }
+            }
+        }
     }
 
     #[test]

@@ -945,10 +945,10 @@ impl<'r> Guard<'r> {
         });
         let margin = self.conditions(tilt, 0.0, 0.0).validate().and_then(|()| {
             let (p, pl) = placement.as_ref().map_err(|e| *e)?;
-            rig.tilt_margin_in(pl, p.cg_m)
+            rig.extra_tilt_in(pl, p.cg_m)
         });
         if let Ok(m) = margin {
-            f.tilt_margin_rad = finite(m.extra_rad);
+            f.tilt_margin_rad = finite(m);
         }
         if f.tilt_margin_rad.is_none() {
             faults.push(unevaluable(Check::TiltMargin));
