@@ -1100,7 +1100,13 @@ mod tests {
             drag_coefficient: None,
         });
         let eq = Rig::new(&eq).unwrap();
-        let feet = [[0.5, 0.1], [0.2, 0.6], [-0.45, 0.3], [-0.3, -0.5], [0.35, -0.4]];
+        let feet = [
+            [0.5, 0.1],
+            [0.2, 0.6],
+            [-0.45, 0.3],
+            [-0.3, -0.5],
+            [0.35, -0.4],
+        ];
         let feet: Vec<Foot, MAX_FEET> = feet
             .iter()
             .enumerate()

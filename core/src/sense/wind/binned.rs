@@ -891,7 +891,11 @@ mod tests {
                     _ => None,
                 };
                 let got = w.report(now).gust_3s_mps;
-                assert_eq!(got.map(f32::to_bits), fresh.map(f32::to_bits), "t {t} + {later}");
+                assert_eq!(
+                    got.map(f32::to_bits),
+                    fresh.map(f32::to_bits),
+                    "t {t} + {later}"
+                );
                 assert_eq!(got.map(f32::to_bits), w.gust_3s_mps(now).map(f32::to_bits));
             }
         }
