@@ -119,6 +119,10 @@ pub struct WindStats {
     /// `Some(t)`: [`WindStats::faults_into`] adds nothing at any `now` up to
     /// `t` ms ([`WindStats::quiet_until`]); kept from one sample to the next.
     faults_quiet_until: Option<u64>,
+    /// Tests only: every closed boundary's mean computed afresh (the
+    /// reference of the reuse in [`WindStats::add`]).
+    #[cfg(test)]
+    always_fresh: bool,
 }
 
 impl WindStats {
@@ -156,6 +160,8 @@ impl WindStats {
             // Both channels are fresh (no rejection, nothing stuck): quiet
             // until they turn stale.
             faults_quiet_until: Some(fresh.stale_after(now, limits)),
+            #[cfg(test)]
+            always_fresh: false,
         }
     }
 
@@ -241,10 +247,27 @@ impl WindStats {
                 // still hold data in their window).
                 let last = (b - 1).min(c.saturating_add(11));
                 let mut k = c;
+                let mut prev: Option<f32> = None;
                 while k <= last {
-                    if let Some(m) = self.fine_mean_ending(k) {
+                    // From the second boundary on (k > c, the newest bin) no
+                    // bin enters the window; when none leaves it either (no
+                    // bin k − 12), it holds the same bins as at k − 1, so the
+                    // mean there, if there was one, is this one to the bit
+                    // (the same sum, in the same order, of the same bins).
+                    let m = match prev {
+                        Some(p) if !self.holds_fine(k.checked_sub(12)) => Some(p),
+                        _ => self.fine_mean_ending(k),
+                    };
+                    #[cfg(test)]
+                    let m = if self.always_fresh {
+                        self.fine_mean_ending(k)
+                    } else {
+                        m
+                    };
+                    if let Some(m) = m {
                         self.record_gust(k, m);
                     }
+                    prev = m;
                     k = k.saturating_add(1);
                 }
             }
@@ -304,6 +327,11 @@ impl WindStats {
                 (s + f.sum_mps, c.saturating_add(f.count))
             });
         (count > 0).then(|| sum / count_f32(count))
+    }
+
+    /// True when the fine ring holds bin `id` (`None`: no bin).
+    fn holds_fine(&self, id: Option<u64>) -> bool {
+        id.is_some_and(|id| self.fine.iter().any(|f| f.id == id))
     }
 
     fn record_gust(&mut self, k: u64, m: f32) {
@@ -898,6 +926,56 @@ mod tests {
                 );
                 assert_eq!(got.map(f32::to_bits), w.gust_3s_mps(now).map(f32::to_bits));
             }
+        }
+    }
+
+    /// The closed boundaries' gusts with the mean reused where the window
+    /// holds the same bins have the bits of those computed afresh at every
+    /// boundary: the same latest gust and the same largest gust in every
+    /// coarse bin, after every sample of a trace at irregular steps (one
+    /// to many fine bins apart, gaps of up to 8 s), and the same reports.
+    #[test]
+    fn reused_boundary_means_are_the_fresh_ones() {
+        let mut w = stats(WindConfig::default(), 0);
+        let mut fresh = w.clone();
+        fresh.always_fresh = true;
+        let mut seed = 0x9e37_79b9_u32;
+        let mut next = move || {
+            seed ^= seed << 13;
+            seed ^= seed >> 17;
+            seed ^= seed << 5;
+            seed
+        };
+        let mut t = 0_u64;
+        for _ in 0..6_000 {
+            let r = next();
+            t += match r % 10 {
+                0 => u64::from(r % 8_000),
+                1..=3 => 250 * u64::from(r % 6),
+                _ => 20 + u64::from(r % 1_280),
+            };
+            let speed = f32::from_bits(0x3f80_0000 | (next() >> 9)) * 9.0 - 8.0;
+            let from = (r % 7 != 0).then_some(2.0);
+            let a = w.push(Millis(t), speed, from);
+            let b = fresh.push(Millis(t), speed, from);
+            assert_eq!(a, b);
+            assert_eq!(
+                w.latest_gust_mps.map(f32::to_bits),
+                fresh.latest_gust_mps.map(f32::to_bits),
+                "t {t}"
+            );
+            for (x, y) in w.coarse.iter().zip(&fresh.coarse) {
+                assert_eq!(
+                    (x.id, x.gust_max_mps.to_bits()),
+                    (y.id, y.gust_max_mps.to_bits())
+                );
+            }
+            let (x, y) = (w.report(Millis(t)), fresh.report(Millis(t)));
+            assert_eq!(x, y);
+            assert_eq!(
+                x.peak_gust_mps.map(f32::to_bits),
+                y.peak_gust_mps.map(f32::to_bits)
+            );
         }
     }
 }
