@@ -674,6 +674,12 @@ impl Conditions {
     /// Wind speed outside 0 to [`MAX_WIND_SPEED_MPS`] or a non-finite
     /// direction.
     pub fn validate(&self) -> Result<(), Error> {
+        self.validate_wind()?;
+        self.validate_ground_and_air()
+    }
+
+    /// The wind part of [`Conditions::validate`]: its speed and direction.
+    pub(crate) fn validate_wind(&self) -> Result<(), Error> {
         Error::check(
             Field::ConditionsWindSpeedMps,
             self.wind_speed_mps,
@@ -681,6 +687,12 @@ impl Conditions {
             MAX_WIND_SPEED_MPS,
         )?;
         Error::check(Field::ConditionsWindFromRad, self.wind_from_rad, -1e4, 1e4)?;
+        Ok(())
+    }
+
+    /// The rest of [`Conditions::validate`]: the tilt and the air (what
+    /// conditions differing only in their wind share).
+    pub(crate) fn validate_ground_and_air(&self) -> Result<(), Error> {
         Error::check(
             Field::ConditionsTiltMagnitudeRad,
             self.tilt.magnitude_rad,

@@ -943,7 +943,10 @@ impl<'r> Guard<'r> {
             rig.place_in(p.frames, tilt, self.cover_fitted)
                 .map(|pl| (p, pl))
         });
-        let margin = self.conditions(tilt, 0.0, 0.0).validate().and_then(|()| {
+        // The conditions' tilt and air checked once for every figure (the
+        // wind part of each figure's conditions is checked with it).
+        let ground = self.conditions(tilt, 0.0, 0.0).validate_ground_and_air();
+        let margin = ground.and_then(|()| {
             let (p, pl) = placement.as_ref().map_err(|e| *e)?;
             rig.extra_tilt_in(pl, p.cg_m)
         });
@@ -958,7 +961,8 @@ impl<'r> Guard<'r> {
             Some(d) => Some(d),
             None => {
                 let c = self.conditions(tilt, gust, 0.0);
-                c.validate()
+                c.validate_wind()
+                    .and(ground)
                     .and_then(|()| placement.as_ref().map_err(|e| *e))
                     .ok()
                     .map(|(_, pl)| {
@@ -979,7 +983,8 @@ impl<'r> Guard<'r> {
         let c = self.conditions(tilt, gust, from);
         let drives = rig.drives().is_some();
         let loads = c
-            .validate()
+            .validate_wind()
+            .and(ground)
             .and_then(|()| placement.as_ref().map_err(|e| *e))
             .map(|(p, pl)| (p, crate::stability::Loads::build(pl, from, drives)));
         let q = c.air.dynamic_pressure_pa(gust);
