@@ -145,16 +145,28 @@ pub fn cylinder_cross_cd(aspect: f32) -> f32 {
         let t = math::clamp(math::ln(aspect / 40.0) / math::ln(25.0), 0.0, 1.0);
         return 0.98 + t * (CYLINDER_CROSS_CD_INFINITE - 0.98);
     }
-    for w in CYLINDER_CROSS_CD.windows(2) {
+    for (w, step_ln) in CYLINDER_CROSS_CD.windows(2).zip(CROSS_CD_STEP_LN) {
         if let [a, b] = w {
             if aspect <= b.0 {
-                let t = math::ln(aspect / a.0) / math::ln(b.0 / a.0);
+                // ln(b/a) of the table's step: the constant, but under the
+                // fast back end, whose logarithm is not libm's.
+                let step_ln = if math::FAST_MATH {
+                    math::ln(b.0 / a.0)
+                } else {
+                    step_ln
+                };
+                let t = math::ln(aspect / a.0) / step_ln;
                 return a.1 + t * (b.1 - a.1);
             }
         }
     }
     last.1
 }
+
+/// ln(b/a) of each step (a, b) of [`CYLINDER_CROSS_CD`]'s l/d: ln 2, ln 2.5,
+/// ln 2 and ln 4, the bits `math::ln` gives them under the default back end
+/// (tested), so that an interpolation takes one logarithm, not two.
+const CROSS_CD_STEP_LN: [f32; 4] = [0.693_147_2, 0.916_290_76, 0.693_147_2, 1.386_294_4];
 
 /// Default end-on drag coefficient of a cylinder of aspect ratio l/d, on its
 /// end area ([`CYLINDER_AXIAL_CD`], linear in l/d).
@@ -322,6 +334,25 @@ mod tests {
         assert!((cylinder_cross_cd(7.5) - (0.74 + t * 0.08)).abs() < 1e-5);
         assert!((cylinder_cross_cd(0.5) - 0.63).abs() < 1e-6);
         assert!((cylinder_cross_cd(1.0e4) - 1.2).abs() < 1e-6);
+    }
+
+    /// The table's step logarithms are those `math::ln` computes, to the
+    /// bit (under the default back end, the one that uses them).
+    #[test]
+    fn cross_cd_step_logarithms_are_math_ln() {
+        let steps = CYLINDER_CROSS_CD.windows(2).zip(CROSS_CD_STEP_LN);
+        assert_eq!(steps.clone().count(), CYLINDER_CROSS_CD.len() - 1);
+        if !math::FAST_MATH {
+            for (w, step_ln) in steps {
+                if let [a, b] = w {
+                    assert_eq!(
+                        step_ln.to_bits(),
+                        math::ln(b.0 / a.0).to_bits(),
+                        "{a:?} {b:?}"
+                    );
+                }
+            }
+        }
     }
 
     #[test]
