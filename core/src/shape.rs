@@ -16,6 +16,7 @@
 
 use crate::error::{Error, Field};
 use crate::math::{self, Vec3};
+use core::f32::consts::LN_2;
 
 /// Cross-flow drag coefficient of a finite circular cylinder with free ends by
 /// length-to-diameter ratio (Hoerner 1965 via the *Aeronautical Engineer's Data
@@ -166,7 +167,7 @@ pub fn cylinder_cross_cd(aspect: f32) -> f32 {
 /// ln(b/a) of each step (a, b) of [`CYLINDER_CROSS_CD`]'s l/d: ln 2, ln 2.5,
 /// ln 2 and ln 4, the bits `math::ln` gives them under the default back end
 /// (tested), so that an interpolation takes one logarithm, not two.
-const CROSS_CD_STEP_LN: [f32; 4] = [0.693_147_2, 0.916_290_76, 0.693_147_2, 1.386_294_4];
+const CROSS_CD_STEP_LN: [f32; 4] = [LN_2, 0.916_290_76, LN_2, 2.0 * LN_2];
 
 /// Default end-on drag coefficient of a cylinder of aspect ratio l/d, on its
 /// end area ([`CYLINDER_AXIAL_CD`], linear in l/d).
