@@ -87,6 +87,13 @@ fn bin_of(t_ms: u64, width_ms: u64) -> u64 {
     div_rem_ms(t_ms, width_ms).0
 }
 
+/// `lo ≤ id ≤ k` for `lo ≤ k`, in one comparison: `k − id` (wrapping) is at
+/// most `k − lo` exactly for those ids, and an id above `k` wraps to more
+/// than `k` (tested against the two comparisons).
+fn within(id: u64, lo: u64, k: u64) -> bool {
+    k.wrapping_sub(id) <= k.wrapping_sub(lo)
+}
+
 /// Number of whole coarse bins covering `s` seconds, 1 to [`COARSE_BINS`].
 fn coarse_bins_for(s: f32) -> u64 {
     let ms = s_to_ms(s);
@@ -322,7 +329,7 @@ impl WindStats {
         let (sum, count) = self
             .fine
             .iter()
-            .filter(|f| f.id >= lo && f.id <= k)
+            .filter(|f| within(f.id, lo, k))
             .fold((0.0_f32, 0_u32), |(s, c), f| {
                 (s + f.sum_mps, c.saturating_add(f.count))
             });
@@ -572,6 +579,21 @@ mod tests {
         assert_eq!(coarse_bins_for(600.0), 60);
         assert_eq!(coarse_bins_for(15.0), 2);
         assert_eq!(coarse_bins_for(0.0), 1);
+    }
+
+    #[test]
+    fn within_is_the_two_comparisons() {
+        let edges = [0, 1, 2, 10, 11, 12, 13, 1_000, u64::MAX - 13, u64::MAX - 12];
+        let edges = edges.iter().chain(&[u64::MAX - 11, u64::MAX - 1, u64::MAX]);
+        for &k in edges.clone() {
+            for &lo in edges.clone().filter(|&&lo| lo <= k) {
+                for &id in edges.clone() {
+                    for id in [id, k.wrapping_sub(id), lo.wrapping_add(id)] {
+                        assert_eq!(within(id, lo, k), lo <= id && id <= k, "{id} {lo} {k}");
+                    }
+                }
+            }
+        }
     }
 
     fn stats(config: WindConfig, start_ms: u64) -> WindStats {
