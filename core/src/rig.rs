@@ -1466,3 +1466,47 @@ mod builder_tests {
         assert_eq!(b.label.as_str(), "aaaaaaaaaaaaaaaaaaaaaaa");
     }
 }
+
+#[cfg(test)]
+mod conditions_tests {
+    use super::*;
+
+    /// Each wind value outside its range is refused by
+    /// [`Conditions::validate`] under its own field (the wind's part, which
+    /// the guard's evaluation also checks alone), and values at the ends of
+    /// the ranges are taken.
+    #[test]
+    fn wind_out_of_range_is_refused_under_its_field() {
+        let calm = Conditions::calm(Pose::Axes {
+            primary_rad: 0.0,
+            secondary_rad: 0.0,
+        });
+        for (speed, from) in [(0.0, 0.0), (MAX_WIND_SPEED_MPS, -1e4), (12.0, 1e4)] {
+            let c = Conditions {
+                wind_speed_mps: speed,
+                wind_from_rad: from,
+                ..calm
+            };
+            assert_eq!(c.validate(), Ok(()), "{speed} m/s from {from} rad");
+        }
+        let speed = Field::ConditionsWindSpeedMps;
+        let from = Field::ConditionsWindFromRad;
+        for (s, f, field) in [
+            (-0.01, 0.0, speed),
+            (MAX_WIND_SPEED_MPS * 1.001, 0.0, speed),
+            (f32::NAN, 0.0, speed),
+            (f32::INFINITY, 0.0, speed),
+            (5.0, 1.001e4, from),
+            (5.0, -1.001e4, from),
+            (5.0, f32::NAN, from),
+        ] {
+            let c = Conditions {
+                wind_speed_mps: s,
+                wind_from_rad: f,
+                ..calm
+            };
+            let got = c.validate().map_err(|e| e.field);
+            assert_eq!(got, Err(field), "{s} m/s from {f} rad");
+        }
+    }
+}
