@@ -1067,7 +1067,7 @@ mod tests {
         use crate::rig::{
             BallastSpec, BodySpec, CounterweightSpec, CoverSpec, LegsSpec, RigSpec, ShaftSpec,
         };
-        use crate::support::{Foot, Support};
+        use crate::support::{irregular_feet, Support};
         let eq = RigSpec::new(
             &Support::tripod(0.475, 0.3).unwrap(),
             MountGeometry::equatorial(math::deg_to_rad(47.3), [0.0, 0.0, 1.25]),
@@ -1100,21 +1100,7 @@ mod tests {
             drag_coefficient: None,
         });
         let eq = Rig::new(&eq).unwrap();
-        let feet = [
-            [0.5, 0.1],
-            [0.2, 0.6],
-            [-0.45, 0.3],
-            [-0.3, -0.5],
-            [0.35, -0.4],
-        ];
-        let feet: Vec<Foot, MAX_FEET> = feet
-            .iter()
-            .enumerate()
-            .map(|(i, &position_m)| Foot {
-                position_m,
-                tie_down_n: [0.0, 150.0, 40.0, 0.0, 300.0][i],
-            })
-            .collect();
+        let feet = irregular_feet([0.0, 150.0, 40.0, 0.0, 300.0]);
         let az = RigSpec::new(
             &Support::new(&feet).unwrap(),
             MountGeometry::alt_azimuth(math::deg_to_rad(-33.0), [0.05, -0.02, 0.9]),

@@ -472,6 +472,26 @@ fn hull_edges(feet: &[Foot]) -> Result<Vec<Edge, MAX_FEET>, Error> {
     Ok(edges)
 }
 
+/// Tests only: five feet at irregular places around the origin (rig frame,
+/// m), with the tie-down forces `tie_down_n` (N), in order.
+#[cfg(test)]
+pub(crate) fn irregular_feet(tie_down_n: [f32; 5]) -> Vec<Foot, MAX_FEET> {
+    [
+        [0.5, 0.1],
+        [0.2, 0.6],
+        [-0.45, 0.3],
+        [-0.3, -0.5],
+        [0.35, -0.4],
+    ]
+    .iter()
+    .zip(tie_down_n)
+    .map(|(&position_m, tie_down_n)| Foot {
+        position_m,
+        tie_down_n,
+    })
+    .collect()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -559,21 +579,7 @@ mod tests {
     /// (`a_m.z` and `along.z` are +0, bit for bit), whatever the feet.
     #[test]
     fn support_edges_lie_in_the_ground_plane() {
-        let feet = [
-            [0.5, 0.1],
-            [0.2, 0.6],
-            [-0.45, 0.3],
-            [-0.3, -0.5],
-            [0.35, -0.4],
-        ];
-        let feet: Vec<Foot, MAX_FEET> = feet
-            .iter()
-            .map(|&position_m| Foot {
-                position_m,
-                tie_down_n: 10.0,
-            })
-            .collect();
-        let irregular = Support::new(&feet).unwrap();
+        let irregular = Support::new(&irregular_feet([10.0; 5])).unwrap();
         let supports = [
             Support::tripod(0.475, 0.0).unwrap(),
             Support::tripod(0.3, 2.1).unwrap(),

@@ -596,6 +596,16 @@ mod tests {
         }
     }
 
+    /// A deterministic stream of `u32` (xorshift32) from a non-zero seed.
+    fn xorshift32(mut seed: u32) -> impl FnMut() -> u32 {
+        move || {
+            seed ^= seed << 13;
+            seed ^= seed >> 17;
+            seed ^= seed << 5;
+            seed
+        }
+    }
+
     fn stats(config: WindConfig, start_ms: u64) -> WindStats {
         WindStats::new(config, Millis(start_ms)).unwrap()
     }
@@ -915,13 +925,7 @@ mod tests {
     #[test]
     fn the_reports_gust_is_the_mean_ending_now_to_the_bit() {
         let mut w = stats(WindConfig::default(), 0);
-        let mut seed = 0x2545_f491_u32;
-        let mut next = move || {
-            seed ^= seed << 13;
-            seed ^= seed >> 17;
-            seed ^= seed << 5;
-            seed
-        };
+        let mut next = xorshift32(0x2545_f491_u32);
         let mut t = 0_u64;
         for _ in 0..3_000 {
             let r = next();
@@ -961,13 +965,7 @@ mod tests {
         let mut w = stats(WindConfig::default(), 0);
         let mut fresh = w.clone();
         fresh.always_fresh = true;
-        let mut seed = 0x9e37_79b9_u32;
-        let mut next = move || {
-            seed ^= seed << 13;
-            seed ^= seed >> 17;
-            seed ^= seed << 5;
-            seed
-        };
+        let mut next = xorshift32(0x9e37_79b9_u32);
         let mut t = 0_u64;
         for _ in 0..6_000 {
             let r = next();
