@@ -12,6 +12,7 @@ use crate::model::assess::pose_words;
 use crate::model::replay::Approach;
 use crate::model::story::{Change, Closest, FaultSpell, ParkRequest, RigStory, Told};
 use crate::render::clock::Clock;
+use crate::render::quantity::{direction_text, figure_text};
 
 /// Most park requests the text tells; the JSON has them all.
 pub const MAX_TOLD_REQUESTS: usize = 10;
@@ -67,7 +68,7 @@ fn pair(a: Option<f32>, b: Option<f32>, scale: f32, unit: &str, digits: usize) -
 /// The tip wind before and at a request: `a -> b` at 0.1 m/s, or one
 /// value and `unchanged` when they read the same.
 fn tip_wind(a: Option<f32>, b: Option<f32>) -> String {
-    let (x, y) = (opt(a, "m/s", 1), opt(b, "m/s", 1));
+    let (x, y) = (figure_text(a, "m/s", 1), figure_text(b, "m/s", 1));
     if x == y {
         format!("{y}, unchanged")
     } else {
@@ -77,15 +78,6 @@ fn tip_wind(a: Option<f32>, b: Option<f32>) -> String {
 
 fn pct(u: f32) -> String {
     format!("{:.0} %", u * 100.0)
-}
-
-fn opt(v: Option<f32>, unit: &str, digits: usize) -> String {
-    v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
-}
-
-/// Degrees, written without a space before the sign (`285°`).
-fn deg(v: Option<f32>, digits: usize) -> String {
-    v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$}°"))
 }
 
 /// `t_s` as local wall time and UTC: `06:21:00 (05:21:00 UTC)`; only UTC
@@ -329,7 +321,7 @@ fn request_item(p: &ParkRequest, clock: Option<&Clock>) -> Item {
         details.push(format!(
             "{figure} {}, at or under the {} {level} margin",
             pair(p.value_before, p.value, 1.0, "°", 2),
-            deg(p.threshold, 2),
+            figure_text(p.threshold, "°", 2),
         ));
     } else if p.figure.is_some() {
         details.push(format!(
@@ -341,8 +333,8 @@ fn request_item(p: &ParkRequest, clock: Option<&Clock>) -> Item {
     details.push(format!(
         "tip wind {}; gust {} ({} predicted for the end of a park); cover {}",
         tip_wind(p.tip_wind_before_mps, p.tip_wind_mps),
-        opt(p.gust_mps, "m/s", 1),
-        opt(p.predicted_gust_mps, "m/s", 1),
+        figure_text(p.gust_mps, "m/s", 1),
+        figure_text(p.predicted_gust_mps, "m/s", 1),
         cover_words(p.cover_fitted),
     ));
     if let Some(pose) = &p.pose {
@@ -375,12 +367,12 @@ fn cover_words(c: Option<bool>) -> &'static str {
 fn conditions(a: &Approach) -> String {
     format!(
         "gust {} from {}, cover {}, {}, tilt {}, tip wind {}, level {}",
-        opt(a.figures.gust_mps, "m/s", 1),
-        deg(a.figures.wind_from_deg.map(|d| d.rem_euclid(360.0)), 0),
+        figure_text(a.figures.gust_mps, "m/s", 1),
+        direction_text(a.figures.wind_from_deg),
         cover_words(a.cover_fitted),
         pose_words(&a.pose),
-        deg(a.figures.tilt_deg, 2),
-        opt(a.figures.tip_wind_mps, "m/s", 1),
+        figure_text(a.figures.tilt_deg, "°", 2),
+        figure_text(a.figures.tip_wind_mps, "m/s", 1),
         a.level.name(),
     )
 }

@@ -20,6 +20,7 @@ pub mod headline;
 pub mod html;
 mod night;
 pub mod palette;
+pub mod quantity;
 pub mod report;
 pub mod summary;
 pub mod svg;

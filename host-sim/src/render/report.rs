@@ -29,11 +29,8 @@ use crate::render::night::{
     with_gaps, Axis, NightEvent, COVER_CATS,
 };
 use crate::render::palette;
+use crate::render::quantity::{direction_text, figure_text};
 use crate::render::svg::{self, HLine, Mark, PolarChart, PolarMarker, PolarTrace, Stroke};
-
-fn opt(v: Option<f32>, unit: &str, digits: usize) -> String {
-    v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
-}
 
 /// A time of the replay for a table: local wall time with its zone, then
 /// the UTC time the replay recorded (`utc`).
@@ -62,11 +59,11 @@ fn approach_row(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> Vec
         label.to_owned(),
         format!("{:.0} %", a.utilisation * 100.0),
         when(clock, a.t_s, &a.time),
-        opt(a.figures.gust_mps, "m/s", 1),
-        opt(a.figures.wind_from_deg, "°", 0),
+        figure_text(a.figures.gust_mps, "m/s", 1),
+        direction_text(a.figures.wind_from_deg),
         pose_words(&a.pose),
-        opt(a.figures.tilt_deg, "°", 2),
-        opt(a.figures.tip_wind_mps, "m/s", 1),
+        figure_text(a.figures.tilt_deg, "°", 2),
+        figure_text(a.figures.tip_wind_mps, "m/s", 1),
         a.level.name().to_owned(),
     ]
 }

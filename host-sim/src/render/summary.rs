@@ -22,6 +22,7 @@ use crate::model::story::{tell, RigStory};
 use crate::model::whatif::{compare, Comparison};
 use crate::render::clock::Clock;
 use crate::render::headline::{hms, thousands};
+use crate::render::quantity::{direction_text, figure_text};
 use crate::render::whatif::comparison_text;
 
 fn stdout_err(e: std::io::Error) -> Error {
@@ -55,10 +56,6 @@ fn highest_physics(r: &RigReplay) -> Option<AlertLevel> {
     .find(|l| seconds_in(r, *l) > 0.0 || r.final_level == *l)
 }
 
-fn num(v: Option<f32>, unit: &str, digits: usize) -> String {
-    v.map_or_else(|| "-".to_owned(), |x| format!("{x:.digits$} {unit}"))
-}
-
 /// A time of the replay for the text: local date and time with the zone
 /// when the first record's time is known (UTC when the logs carry no
 /// offset), else seconds since the first record.
@@ -74,11 +71,11 @@ fn approach_text(label: &str, a: Option<&Approach>, clock: Option<&Clock>) -> St
         "  {label}: {:.0} % at {}, gust {}, from {}, {}, tilt {}, tip wind {}, level {}\n",
         a.utilisation * 100.0,
         at_text(clock, a.t_s),
-        num(a.figures.gust_mps, "m/s", 1),
-        num(a.figures.wind_from_deg, "°", 0),
+        figure_text(a.figures.gust_mps, "m/s", 1),
+        direction_text(a.figures.wind_from_deg),
         pose_text(&a.pose),
-        num(a.figures.tilt_deg, "°", 2),
-        num(a.figures.tip_wind_mps, "m/s", 1),
+        figure_text(a.figures.tilt_deg, "°", 2),
+        figure_text(a.figures.tip_wind_mps, "m/s", 1),
         a.level.name(),
     )
 }
