@@ -286,3 +286,57 @@ pub fn bridge_lines(data: &[u8]) {
         }
     }
 }
+
+/// The rigs of [`weighing_file`], loaded once: the demo rig (a tripod,
+/// three feet) and the starter rig for a pier (an equatorial mount on a
+/// base plate with four bolts).
+fn weighing_rigs() -> &'static [LoadedRig; 2] {
+    static RIGS: OnceLock<[LoadedRig; 2]> = OnceLock::new();
+    RIGS.get_or_init(|| {
+        let pier = crate::commands::starter::template(
+            crate::commands::starter::SupportKind::Pier,
+            crate::commands::starter::MountChoice::Equatorial,
+        );
+        let load = |name: &str, text: &str| match crate::input::rigfile::load_source(
+            &SourceText::new(name, text),
+        ) {
+            Ok(r) => r,
+            Err(e) => panic!("the rig {name} does not load: {e}"),
+        };
+        [demo_rig().clone(), load("starter-pier.toml", &pier)]
+    })
+}
+
+/// The weighing file's reader and the weighing's computation, as
+/// `standfast weigh` runs them, on arbitrary text for a rig of three or
+/// four feet (the first byte's lowest bit chooses, the rest is the file): a
+/// centre of gravity whose figures are finite with non-negative
+/// uncertainties, or an error naming the file, line and column, bounded.
+///
+/// # Panics
+/// When a promise is broken (see the module docs).
+pub fn weighing_file(data: &[u8]) {
+    let Some((&first, rest)) = data.split_first() else {
+        return;
+    };
+    let rig = &weighing_rigs()[usize::from(first & 1)];
+    let text = String::from_utf8_lossy(rest);
+    let src = SourceText::new("fuzz-weighing.toml", text.as_ref());
+    match crate::model::weigh::measure(rig, &src) {
+        Ok(r) => {
+            let c = &r.result;
+            let estimates = [Some(c.mass_kg), Some(c.x_m), Some(c.y_m)]
+                .into_iter()
+                .chain([c.height_from_lift_m, c.height_from_tip_m, c.height_m]);
+            for e in estimates.flatten() {
+                assert!(
+                    e.value.is_finite() && e.uncertainty.is_finite() && e.uncertainty >= 0.0,
+                    "{e:?} in {c:?}"
+                );
+            }
+            assert!(c.mass_kg.value > 0.0, "{c:?}");
+            assert!(r.reading_uncertainty_n.is_finite() && r.reading_uncertainty_n > 0.0);
+        }
+        Err(e) => assert_located(&e, "fuzz-weighing.toml"),
+    }
+}

@@ -85,3 +85,10 @@ fn huge_values_give_bounded_messages() {
     fuzzing::bridge_lines(format!("\0{{\"t_ms\": 0, \"wind_mps\": \"{big}\"}}\n").as_bytes());
     fuzzing::bridge_lines(format!("\0{{\"{big}\": 0}}\n").as_bytes());
 }
+
+#[test]
+fn weighing_file_seeds() {
+    for (_, d) in seeds("weighing_file") {
+        fuzzing::weighing_file(&d);
+    }
+}
