@@ -194,7 +194,7 @@ pub fn load_profile(
 pub struct ReplayOutputs<'a> {
     spinner: Spinner,
     verdicts: Option<(&'a mut dyn Write, String)>,
-    line: String,
+    line: Vec<u8>,
 }
 
 impl<'a> ReplayOutputs<'a> {
@@ -215,7 +215,7 @@ impl<'a> ReplayOutputs<'a> {
         Ok(ReplayOutputs {
             spinner: Spinner::new(),
             verdicts,
-            line: String::new(),
+            line: Vec::new(),
         })
     }
 }
@@ -236,7 +236,7 @@ impl ReplayObserver for ReplayOutputs<'_> {
         if let Some((w, name)) = self.verdicts.as_mut() {
             self.line.clear();
             verdict_line(&mut self.line, time, t_s, rig, v, cover);
-            w.write_all(self.line.as_bytes())
+            w.write_all(&self.line)
                 .map_err(|e| Error::io(name.as_str(), e))?;
         }
         Ok(())

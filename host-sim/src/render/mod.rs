@@ -15,6 +15,7 @@
 pub mod assess;
 pub mod bridge_lines;
 pub mod clock;
+pub mod decimal;
 pub mod event_lines;
 pub mod headline;
 pub mod html;

@@ -102,8 +102,119 @@ impl fmt::Display for Timestamp {
 }
 
 /// Writes `t` as ISO 8601 local time at `offset_s` east of UTC; with
-/// `write_zone`, the offset follows (`Z` for UTC, else `+hh:mm`).
+/// `write_zone`, the offset follows (`Z` for UTC, else `+hh:mm`). The
+/// characters of `write!` with `{y:04}-{m:02}-{d:02}T{hh:02}:{mm:02}:{ss:02}`,
+/// the fraction zero-padded to `frac_digits` (at most 9) and the zone as
+/// `{sign}{hh:02}:{mm:02}`, written digit by digit (a verdict CSV writes one
+/// a line); a year outside 0 to 9999 or a zone of 100 h or more goes
+/// through `write!` (tested against it, `tests::iso8601_is_the_formatted_text`).
 pub fn write_iso8601(
+    out: &mut String,
+    t: Timestamp,
+    frac_digits: u32,
+    offset_s: i32,
+    write_zone: bool,
+) {
+    let mut buf = [0_u8; ISO_MAX_BYTES];
+    match iso8601_ascii(&mut buf, t, frac_digits, offset_s, write_zone) {
+        Some(n) => {
+            out.push_str(std::str::from_utf8(buf.get(..n).unwrap_or_default()).unwrap_or_default())
+        }
+        None => write_iso8601_fmt(out, t, frac_digits, offset_s, write_zone),
+    }
+}
+
+/// [`write_iso8601`] appending bytes (the verdict CSV's line buffer).
+pub fn push_iso8601_bytes(
+    out: &mut Vec<u8>,
+    t: Timestamp,
+    frac_digits: u32,
+    offset_s: i32,
+    write_zone: bool,
+) {
+    let mut buf = [0_u8; ISO_MAX_BYTES];
+    match iso8601_ascii(&mut buf, t, frac_digits, offset_s, write_zone) {
+        Some(n) => out.extend_from_slice(buf.get(..n).unwrap_or_default()),
+        None => {
+            let mut s = String::new();
+            write_iso8601_fmt(&mut s, t, frac_digits, offset_s, write_zone);
+            out.extend_from_slice(s.as_bytes());
+        }
+    }
+}
+
+/// Longest text of [`iso8601_ascii`]: date and time 19, fraction 10, zone 6.
+const ISO_MAX_BYTES: usize = 36;
+
+/// The ASCII text of [`write_iso8601`] in `buf`, its length returned;
+/// `None` (the caller uses `write!`) for a year outside 0 to 9999 or a zone
+/// of 100 h or more.
+fn iso8601_ascii(
+    buf: &mut [u8; ISO_MAX_BYTES],
+    t: Timestamp,
+    frac_digits: u32,
+    offset_s: i32,
+    write_zone: bool,
+) -> Option<usize> {
+    let local_ns = t.0.saturating_add(i64::from(offset_s) * NS_PER_S);
+    let days = local_ns.div_euclid(86_400 * NS_PER_S);
+    let ns_of_day = local_ns.rem_euclid(86_400 * NS_PER_S);
+    let (y, m, d) = civil_from_days(days);
+    let zone_hours = offset_s.unsigned_abs() / 3600;
+    let year = u32::try_from(y).ok().filter(|y| *y <= 9_999)?;
+    if write_zone && zone_hours >= 100 {
+        return None;
+    }
+    // 0 ≤ ns_of_day < 86 400 s: the clock's parts are small.
+    let secs = u32::try_from(ns_of_day / NS_PER_S).unwrap_or(0);
+    let frac = u32::try_from(ns_of_day % NS_PER_S).unwrap_or(0);
+    let mut n = 0;
+    let mut put = |b: u8| {
+        if let Some(slot) = buf.get_mut(n) {
+            *slot = b;
+            n += 1;
+        }
+    };
+    let digit = |v: u32| b'0' + u8::try_from(v % 10).unwrap_or(0);
+    for p in [1_000, 100, 10, 1] {
+        put(digit(year / p));
+    }
+    for (sep, v) in [
+        (b'-', m),
+        (b'-', d),
+        (b'T', secs / 3600),
+        (b':', (secs / 60) % 60),
+        (b':', secs % 60),
+    ] {
+        put(sep);
+        put(digit(v / 10));
+        put(digit(v));
+    }
+    let digits = frac_digits.min(9);
+    if digits > 0 {
+        put(b'.');
+        let scaled = frac / 10_u32.pow(9 - digits);
+        for k in (0..digits).rev() {
+            put(digit(scaled / 10_u32.pow(k)));
+        }
+    }
+    if write_zone && offset_s == 0 {
+        put(b'Z');
+    } else if write_zone {
+        put(if offset_s < 0 { b'-' } else { b'+' });
+        let minutes = (offset_s.unsigned_abs() / 60) % 60;
+        put(digit(zone_hours / 10));
+        put(digit(zone_hours));
+        put(b':');
+        put(digit(minutes / 10));
+        put(digit(minutes));
+    }
+    Some(n)
+}
+
+/// [`write_iso8601`] through `write!`: for years outside 0 to 9999, and the
+/// reference its tests compare with.
+fn write_iso8601_fmt(
     out: &mut String,
     t: Timestamp,
     frac_digits: u32,
@@ -492,7 +603,49 @@ pub fn parse_offset(s: &str) -> Result<i32, String> {
 
 #[cfg(test)]
 mod tests {
-    use super::{any_decimal_scaled, short_decimal_scaled};
+    use super::{
+        any_decimal_scaled, push_iso8601_bytes, short_decimal_scaled, write_iso8601,
+        write_iso8601_fmt, Timestamp,
+    };
+
+    /// The digit-by-digit ISO 8601 text is `write!`'s: random instants over
+    /// the whole range of a time stamp (nanoseconds in an `i64`: the years
+    /// 1677 to 2262) and its ends, every fraction length 0 to 10, offsets
+    /// 0, ±minutes, ±23:59 and beyond 99 h, with and without the zone.
+    #[test]
+    fn iso8601_is_the_formatted_text() {
+        let mut x: u64 = 0x9E37_79B9_7F4A_7C15;
+        let mut instants: Vec<i64> = vec![0, -1, 1, i64::MIN, i64::MAX, i64::MIN + 1, i64::MAX - 1];
+        for _ in 0..20_000 {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            instants.push(i64::from_ne_bytes(x.to_ne_bytes()));
+        }
+        for (i, &t) in instants.iter().enumerate() {
+            let offset = [
+                0, 60, -60, 3_600, -19_800, 86_340, -86_340, 360_000, -400_000,
+            ][i % 9];
+            for digits in 0..=10 {
+                for zone in [true, false] {
+                    let (mut a, mut b) = (String::from("x"), String::from("x"));
+                    let mut c = b"x".to_vec();
+                    write_iso8601(&mut a, Timestamp(t), digits, offset, zone);
+                    write_iso8601_fmt(&mut b, Timestamp(t), digits, offset, zone);
+                    push_iso8601_bytes(&mut c, Timestamp(t), digits, offset, zone);
+                    assert_eq!(
+                        a, b,
+                        "{t} ns, {digits} digits, offset {offset} s, zone {zone}"
+                    );
+                    assert_eq!(
+                        c,
+                        b.as_bytes(),
+                        "{t} ns, {digits} digits, offset {offset} s"
+                    );
+                }
+            }
+        }
+    }
 
     /// The short fast path gives the general loop's value wherever it
     /// answers (random decimals of 1 to 19 digits, with and without sign
