@@ -13,6 +13,8 @@
 
 use std::fmt::Write as _;
 
+use crate::render::decimal::push_f64;
+
 pub use super::ticks::ticks_with_step;
 
 /// Escapes text for XML character data and double-quoted attribute values.
@@ -31,13 +33,15 @@ pub fn esc(s: &str) -> String {
     o
 }
 
-/// A number for an SVG attribute: two decimals, no `-0.00`.
+/// A number for an SVG attribute: two decimals, no `-0.00` (the text of
+/// `format!("{v:.2}")`, written by [`push_f64`]: a chart writes thousands).
 fn n(v: f64) -> String {
-    let s = format!("{v:.2}");
-    if s == "-0.00" {
+    let mut b = Vec::with_capacity(16);
+    push_f64(&mut b, v, 2);
+    if b == b"-0.00" {
         "0.00".to_owned()
     } else {
-        s
+        String::from_utf8(b).unwrap_or_default()
     }
 }
 
