@@ -21,11 +21,27 @@ const MAX_DECIMALS: u32 = 9;
 /// Appends `x` with `decimals` digits after the point to `out`: exactly
 /// the bytes of `format!("{x:.decimals$}")`.
 pub fn push_f32(out: &mut Vec<u8>, x: f32, decimals: u32) {
+    if !fast_f32(out, x, decimals) {
+        let _ = write!(out, "{x:.p$}", p = decimals as usize);
+    }
+}
+
+/// Appends `x` with `decimals` digits after the point to `out`: exactly
+/// the bytes of `format!("{x:.decimals$}")`.
+pub fn push_f64(out: &mut Vec<u8>, x: f64, decimals: u32) {
+    if !fast_f64(out, x, decimals) {
+        let _ = write!(out, "{x:.p$}", p = decimals as usize);
+    }
+}
+
+/// [`push_f32`] without the standard library: false, with nothing
+/// appended, for NaN, the infinities, more than [`MAX_DECIMALS`] decimals
+/// or a scaled value beyond 64 bits.
+fn fast_f32(out: &mut Vec<u8>, x: f32, decimals: u32) -> bool {
     let bits = x.to_bits();
     let (exp_bits, frac) = ((bits >> 23) & 0xff, bits & 0x7f_ffff);
     if exp_bits == 0xff || decimals > MAX_DECIMALS {
-        let _ = write!(out, "{x:.p$}", p = decimals as usize);
-        return;
+        return false;
     }
     // Subnormals: m = frac, e = -149; normals: the hidden bit.
     #[allow(clippy::cast_possible_wrap)]
@@ -34,19 +50,15 @@ pub fn push_f32(out: &mut Vec<u8>, x: f32, decimals: u32) {
     } else {
         (u64::from(frac | 0x80_0000), exp_bits as i32 - 150)
     };
-    if !push_scaled(out, bits >> 31 == 1, m, e, decimals) {
-        let _ = write!(out, "{x:.p$}", p = decimals as usize);
-    }
+    push_scaled(out, bits >> 31 == 1, m, e, decimals)
 }
 
-/// Appends `x` with `decimals` digits after the point to `out`: exactly
-/// the bytes of `format!("{x:.decimals$}")`.
-pub fn push_f64(out: &mut Vec<u8>, x: f64, decimals: u32) {
+/// [`push_f64`] without the standard library, as [`fast_f32`].
+fn fast_f64(out: &mut Vec<u8>, x: f64, decimals: u32) -> bool {
     let bits = x.to_bits();
     let (exp_bits, frac) = ((bits >> 52) & 0x7ff, bits & 0xf_ffff_ffff_ffff);
     if exp_bits == 0x7ff || decimals > MAX_DECIMALS {
-        let _ = write!(out, "{x:.p$}", p = decimals as usize);
-        return;
+        return false;
     }
     #[allow(clippy::cast_possible_truncation, clippy::cast_possible_wrap)]
     let (m, e) = if exp_bits == 0 {
@@ -54,9 +66,7 @@ pub fn push_f64(out: &mut Vec<u8>, x: f64, decimals: u32) {
     } else {
         (frac | (1 << 52), exp_bits as i32 - 1075)
     };
-    if !push_scaled(out, bits >> 63 == 1, m, e, decimals) {
-        let _ = write!(out, "{x:.p$}", p = decimals as usize);
-    }
+    push_scaled(out, bits >> 63 == 1, m, e, decimals)
 }
 
 /// 5^d and 10^d for d = 0 to [`MAX_DECIMALS`].
@@ -262,6 +272,79 @@ mod tests {
         ] {
             check64(x);
         }
+    }
+
+    /// The fast path answers (no standard formatting) wherever the scaled
+    /// value fits in 64 bits: every finite value below 10^9 in magnitude at
+    /// every precision up to nine decimals (subnormals and zeros of both
+    /// signs included), with the standard text; and it declines NaN, the
+    /// infinities and ten decimals.
+    #[test]
+    fn the_fast_path_answers_below_a_billion() {
+        let mut x: u64 = 0x2545_F491_4F6C_DD1D;
+        let mut values32: Vec<f32> = vec![
+            0.0,
+            -0.0,
+            f32::from_bits(1),
+            f32::MIN_POSITIVE,
+            999_999_940.0,
+            -0.5,
+        ];
+        let mut values64: Vec<f64> = vec![
+            0.0,
+            -0.0,
+            f64::from_bits(1),
+            f64::MIN_POSITIVE,
+            999_999_999.999,
+            86_399.999_5,
+        ];
+        for _ in 0..20_000 {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            // Magnitudes 2^-40 to 2^29 (below 10^9), any mantissa and sign.
+            #[allow(clippy::cast_possible_truncation)]
+            let (exp, mant) = ((x % 70) as i32 - 40, (x >> 8) as u32 & 0x7f_ffff);
+            let v = f32::from_bits(0x3f80_0000 | mant) * 2_f32.powi(exp);
+            values32.push(if x & 1 == 1 { -v } else { v });
+            let w = f64::from_bits(0x3ff0_0000_0000_0000 | (x >> 12)) * 2_f64.powi(exp);
+            values64.push(if x & 2 == 2 { -w } else { w });
+        }
+        for d in 0..=MAX_DECIMALS {
+            for &v in &values32 {
+                let mut b = Vec::new();
+                assert!(
+                    fast_f32(&mut b, v, d),
+                    "{v:e} at {d} decimals went to the standard library"
+                );
+                assert_eq!(
+                    b,
+                    format!("{v:.p$}", p = d as usize).as_bytes(),
+                    "{v:e}, {d}"
+                );
+            }
+            for &w in &values64 {
+                let mut b = Vec::new();
+                assert!(
+                    fast_f64(&mut b, w, d),
+                    "{w:e} at {d} decimals went to the standard library"
+                );
+                assert_eq!(
+                    b,
+                    format!("{w:.p$}", p = d as usize).as_bytes(),
+                    "{w:e}, {d}"
+                );
+            }
+        }
+        let mut b = Vec::new();
+        for v in [f32::NAN, f32::INFINITY, f32::NEG_INFINITY] {
+            assert!(!fast_f32(&mut b, v, 2));
+        }
+        for w in [f64::NAN, f64::INFINITY, f64::NEG_INFINITY] {
+            assert!(!fast_f64(&mut b, w, 2));
+        }
+        assert!(!fast_f32(&mut b, 1.5, 10) && !fast_f64(&mut b, 1.5, 10));
+        assert!(b.is_empty());
     }
 
     proptest! {
