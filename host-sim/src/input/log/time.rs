@@ -604,8 +604,8 @@ pub fn parse_offset(s: &str) -> Result<i32, String> {
 #[cfg(test)]
 mod tests {
     use super::{
-        any_decimal_scaled, push_iso8601_bytes, short_decimal_scaled, write_iso8601,
-        write_iso8601_fmt, Timestamp,
+        any_decimal_scaled, iso8601_ascii, push_iso8601_bytes, short_decimal_scaled, write_iso8601,
+        write_iso8601_fmt, Timestamp, ISO_MAX_BYTES,
     };
 
     /// The digit-by-digit ISO 8601 text is `write!`'s: random instants over
@@ -641,6 +641,17 @@ mod tests {
                         c,
                         b.as_bytes(),
                         "{t} ns, {digits} digits, offset {offset} s"
+                    );
+                    // The digit-by-digit path answers for every time stamp
+                    // (years 1677 to 2262) and zone under 100 h; `write!`
+                    // only beyond.
+                    let mut buf = [0_u8; ISO_MAX_BYTES];
+                    let answered =
+                        iso8601_ascii(&mut buf, Timestamp(t), digits, offset, zone).is_some();
+                    assert_eq!(
+                        answered,
+                        !zone || offset.unsigned_abs() < 360_000,
+                        "{t}, {offset}"
                     );
                 }
             }
