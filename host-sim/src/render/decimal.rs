@@ -70,21 +70,19 @@ fn fast_f64(out: &mut Vec<u8>, x: f64, decimals: u32) -> bool {
 }
 
 /// 5^d and 10^d for d = 0 to [`MAX_DECIMALS`].
-const POW5: [u64; 10] = [
-    1, 5, 25, 125, 625, 3_125, 15_625, 78_125, 390_625, 1_953_125,
-];
-const POW10: [u64; 10] = [
-    1,
-    10,
-    100,
-    1_000,
-    10_000,
-    100_000,
-    1_000_000,
-    10_000_000,
-    100_000_000,
-    1_000_000_000,
-];
+const POW5: [u64; 10] = powers(5);
+const POW10: [u64; 10] = powers(10);
+
+/// `base`^0 to `base`^9.
+const fn powers(base: u64) -> [u64; 10] {
+    let mut t = [1; 10];
+    let mut i = 1;
+    while i < t.len() {
+        t[i] = t[i - 1] * base;
+        i += 1;
+    }
+    t
+}
 
 /// Appends the text of `(-1)^negative · m · 2^e` with `decimals` (at most
 /// [`MAX_DECIMALS`]) digits after the point; false, with nothing appended,

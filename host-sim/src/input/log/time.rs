@@ -115,13 +115,10 @@ pub fn write_iso8601(
     offset_s: i32,
     write_zone: bool,
 ) {
-    let mut buf = [0_u8; ISO_MAX_BYTES];
-    match iso8601_ascii(&mut buf, t, frac_digits, offset_s, write_zone) {
-        Some(n) => {
-            out.push_str(std::str::from_utf8(buf.get(..n).unwrap_or_default()).unwrap_or_default())
-        }
-        None => write_iso8601_fmt(out, t, frac_digits, offset_s, write_zone),
-    }
+    let mut bytes = Vec::with_capacity(ISO_MAX_BYTES);
+    push_iso8601_bytes(&mut bytes, t, frac_digits, offset_s, write_zone);
+    // ASCII digits and signs, or `write!`'s text: always UTF-8.
+    out.push_str(std::str::from_utf8(&bytes).unwrap_or_default());
 }
 
 /// [`write_iso8601`] appending bytes (the verdict CSV's line buffer).
